@@ -1,0 +1,199 @@
+/**
+ * The operator-owned configuration, as loaded and validated from YAML (see config/forelight.yaml).
+ * Paths are resolved against the directory of the main YAML file by the loader.
+ */
+import type { Quantity, Tier } from '../types.ts';
+
+/** A value with explicit units, e.g. `{ value: 35, units: degC }`. */
+export interface ValueWithUnits {
+  readonly value: number;
+  readonly units: string;
+}
+
+export interface SourceConfig {
+  readonly id: string;
+  /** Human-readable name, used in bulletins ("Sub-seasonal ensemble"). */
+  readonly name: string;
+  readonly tier: Tier;
+  /** Path pattern of forecast files; `{date}` = YYYYMMDD of the forecast reference date. */
+  readonly forecast: string;
+  /** Path pattern of hindcast files; `{year}` = hindcast year, `{mmdd}` = start month-day. Optional. */
+  readonly hindcast?: string;
+  /** Canonical quantity → variable name in the file. */
+  readonly variables: Readonly<Partial<Record<Quantity, string>>>;
+  /** Newer/finer sources win overlaps: lower number = higher priority. */
+  readonly priority: number;
+}
+
+export interface ObservationsConfig {
+  /** Gridded daily observations (or reanalysis) covering the hindcast years. */
+  readonly path: string;
+  readonly variables: Readonly<Partial<Record<Quantity, string>>>;
+}
+
+export type RegionShape =
+  | { readonly kind: 'box'; readonly south: number; readonly north: number; readonly west: number; readonly east: number }
+  /** Polygon ring of [lon, lat] pairs (GeoJSON order). */
+  | { readonly kind: 'polygon'; readonly ring: readonly (readonly [number, number])[] };
+
+export interface RegionConfig {
+  readonly id: string;
+  readonly name: string;
+  readonly shape: RegionShape;
+  /** Offset of local time from UTC in hours (local day boundaries). */
+  readonly utcOffsetHours: number;
+  /** Team ids that receive this region's advisories. */
+  readonly teams: readonly string[];
+}
+
+export interface TeamConfig {
+  readonly id: string;
+  readonly name: string;
+  /** Locale of the templates to use: "en", "fr". */
+  readonly locale: string;
+  readonly recipients: readonly string[];
+  /** Marks the coordinating office that receives the national summary. */
+  readonly national: boolean;
+}
+
+/** How an indicator's exceedance threshold is set. */
+export type ThresholdSpec =
+  /** Absolute value (quantile-mapped at long leads when observations are configured). */
+  | { readonly kind: 'absolute'; readonly value: number; readonly units: string }
+  /** Percentile of the model climate (hindcasts) at the same lead. */
+  | { readonly kind: 'percentile'; readonly percentile: number };
+
+export type IndicatorKind =
+  | 'tmax-mean'
+  | 'tmin-mean'
+  | 'tmean-mean'
+  | 'heat-index'
+  | 'humidex'
+  | 'apparent-temperature'
+  | 'wbgt-simplified'
+  | 'excess-heat-factor'
+  | 'hot-days-run'
+  | 'heat-load'
+  | 'malaria-suitability';
+
+export interface IndicatorConfig {
+  readonly id: string;
+  readonly name: string;
+  readonly kind: IndicatorKind;
+  /** Running-mean window in days where the kind uses one. */
+  readonly windowDays: number;
+  /** Threshold used for exceedance; per-region overrides below. */
+  readonly threshold: ThresholdSpec;
+  readonly regionThresholds: Readonly<Record<string, ThresholdSpec>>;
+  /** How daily values combine into a week/month lead: mean, max, or count of days above threshold. */
+  readonly aggregate: 'mean' | 'max' | 'sum';
+  /** Tiers this indicator is computed for. */
+  readonly tiers: readonly Tier[];
+  /** Kind-specific parameters (species, lag months, breakpoints, ...), validated by the indicator. */
+  readonly params: Readonly<Record<string, number | string | boolean>>;
+}
+
+export interface StageConfig {
+  readonly id: string;
+  readonly label: Readonly<Record<string, string>>;
+  readonly colour: string;
+  readonly glyph: string;
+  /** What the stage means, per locale. */
+  readonly meaning: Readonly<Record<string, string>>;
+  /** Pre-agreed actions: audience (team id or "default") → locale → text. */
+  readonly actions: Readonly<Record<string, Readonly<Record<string, string>>>>;
+  /** CAP 1.2 severity and urgency for this stage. */
+  readonly cap: { readonly severity: 'Extreme' | 'Severe' | 'Moderate' | 'Minor' | 'Unknown'; readonly urgency: 'Immediate' | 'Expected' | 'Future' | 'Unknown' };
+}
+
+export interface TriggerRule {
+  readonly id: string;
+  readonly indicator: string;
+  readonly tier: Tier;
+  /** Lead indices the rule looks at (e.g. weeks [2, 3]); empty = all. */
+  readonly leads: readonly number[];
+  /** Stage reached when the rule fires. */
+  readonly stage: string;
+  /** Fire when P(exceed) >= this; or derive it from costLoss on the hindcasts. */
+  readonly probability?: number;
+  readonly costLoss?: number;
+}
+
+export interface DecisionConfig {
+  /** Highest stage each tier may raise (e.g. months may only reach the second stage). */
+  readonly tierCaps: Readonly<Partial<Record<Tier, string>>>;
+  /** Runs in a row a higher stage must be seen before escalating. */
+  readonly escalateAfterRuns: number;
+  /** Runs in a row below before de-escalating. */
+  readonly relaxAfterRuns: number;
+  /** Top stage escalates at once, skipping persistence. */
+  readonly topStageImmediate: boolean;
+  /** How indicators and tiers combine for a region: highest stage wins. */
+  readonly combine: 'highest';
+  /** Skill gate: which score and its floor. */
+  readonly skillGate: { readonly score: 'rocArea' | 'brierSkillScore'; readonly floor: number; readonly action: 'withhold' | 'say-no-skill' };
+}
+
+export interface SmtpConfig {
+  readonly host: string;
+  readonly port: number;
+  /** "tls" = implicit TLS (465), "starttls" = upgrade, "none" = plain (loopback/testing). */
+  readonly security: 'tls' | 'starttls' | 'none';
+  readonly user?: string;
+  /** Name of the environment variable holding the password; never the password itself. */
+  readonly passwordEnv?: string;
+  readonly timeoutSeconds: number;
+}
+
+export interface DeliveryConfig {
+  readonly from: string;
+  readonly smtp: SmtpConfig | null;
+  readonly outbox: string;
+  readonly archive: string;
+  readonly operators: readonly string[];
+  readonly retries: number;
+  readonly retryBaseSeconds: number;
+}
+
+export interface ScheduleConfig {
+  /** node-cron expression (5 or 6 fields). */
+  readonly cron: string;
+  /** IANA time zone. */
+  readonly timezone: string;
+  /** Minutes to wait for the new forecast files after the scheduled time. */
+  readonly waitForDataMinutes: number;
+  readonly pollSeconds: number;
+}
+
+export interface CalibrationConfig {
+  /** Days either side of the start day-of-year whose hindcast starts count (when several starts exist). */
+  readonly windowDays: number;
+  readonly minHindcastYears: number;
+  /** Minimum members for a probability to be stated to 10 %. */
+  readonly minMembers: number;
+  readonly cacheDir: string;
+}
+
+export interface Config {
+  /** Absolute path of the main YAML file. */
+  readonly file: string;
+  readonly country: string;
+  readonly sources: readonly SourceConfig[];
+  readonly observations: ObservationsConfig | null;
+  readonly regions: readonly RegionConfig[];
+  readonly teams: readonly TeamConfig[];
+  readonly indicators: readonly IndicatorConfig[];
+  /** Ordered lowest ("nothing unusual") to highest ("act now"). */
+  readonly stages: readonly StageConfig[];
+  readonly rules: readonly TriggerRule[];
+  readonly decision: DecisionConfig;
+  readonly calibration: CalibrationConfig;
+  readonly schedule: ScheduleConfig;
+  readonly delivery: DeliveryConfig;
+  /** Caution paragraphs per locale; never empty. */
+  readonly cautions: Readonly<Record<string, readonly string[]>>;
+  /** Words for probability ranges: upper bounds ascending with a word per locale. */
+  readonly probabilityWords: readonly { readonly below: number; readonly words: Readonly<Record<string, string>> }[];
+  readonly ledger: string;
+  readonly templates: string;
+}

@@ -1,0 +1,162 @@
+/**
+ * Boundary types passed between pipeline stages (read → indicators → calibrate → decide → render → deliver).
+ * Every object crossing a stage boundary is read-only and serialisable; arrays of numbers are Float64Array,
+ * member-major: value of member m on step t is `data[m * steps + t]`, NaN where missing.
+ */
+
+/** Calendar date `YYYY-MM-DD` (a local day of a region, or a UTC date where stated). */
+export type IsoDate = string;
+
+/** Lead-time tiers: short-range days, sub-seasonal weeks, seasonal months. */
+export type Tier = 'days' | 'weeks' | 'months';
+
+/** Canonical physical quantities Forelight reads, with their canonical units. */
+export type Quantity = 'tmax' | 'tmin' | 'tmean' | 'dewpoint' | 'rh' | 'precip' | 'wind';
+
+export const CANONICAL_UNITS: Readonly<Record<Quantity, string>> = {
+  tmax: 'degC',
+  tmin: 'degC',
+  tmean: 'degC',
+  dewpoint: 'degC',
+  rh: '%',
+  precip: 'mm/day',
+  wind: 'm/s',
+};
+
+/** Where a series came from: enough to find the exact bytes again. */
+export interface Provenance {
+  readonly file: string;
+  readonly variable: string;
+  /** Forecast reference time (ISO 8601, UTC). */
+  readonly referenceTime: string;
+}
+
+/** Output of the read stage: one quantity, one region, all members, daily steps (local days of the region). */
+export interface RegionSeries {
+  readonly region: string;
+  readonly quantity: Quantity;
+  readonly units: string;
+  /** Local calendar days, lead day 1 first. */
+  readonly days: readonly IsoDate[];
+  readonly members: number;
+  /** member-major [member][day], NaN where missing. */
+  readonly data: Float64Array;
+  /** Number of grid cells that fall in the region. */
+  readonly cells: number;
+  readonly provenance: Provenance;
+}
+
+/** All region series of one forecast (or one hindcast start, or the observations). */
+export interface EnsembleForecast {
+  readonly source: string;
+  readonly kind: 'forecast' | 'hindcast' | 'observed';
+  /** ISO 8601 UTC reference (start) time. */
+  readonly referenceTime: string;
+  /** region id → quantity → series. */
+  readonly series: ReadonlyMap<string, ReadonlyMap<Quantity, RegionSeries>>;
+}
+
+/** Output of the indicators stage: one indicator for one region, per member and day. */
+export interface IndicatorSeries {
+  readonly region: string;
+  readonly indicator: string;
+  readonly units: string;
+  readonly days: readonly IsoDate[];
+  readonly members: number;
+  /** member-major [member][day], NaN where missing. */
+  readonly data: Float64Array;
+  /** Count of input values outside the formula's valid range (flagged, result NaN). */
+  readonly outOfRange: number;
+  /** Count of missing (NaN) values in the result. */
+  readonly missing: number;
+}
+
+/** One lead of a tier: the local days it speaks for. */
+export interface LeadWindow {
+  readonly tier: Tier;
+  /** 1-based: day 1, week 1, month 1. */
+  readonly index: number;
+  /** First and last local day covered (inclusive). */
+  readonly start: IsoDate;
+  readonly end: IsoDate;
+}
+
+/** A threshold with its units and where it came from. */
+export interface Threshold {
+  readonly value: number;
+  readonly units: string;
+  /** e.g. "90th percentile of hindcasts 2004-2023 (220 values), lead week 2". */
+  readonly origin: string;
+}
+
+/** Skill of one source × region × indicator × lead over the hindcast set. */
+export interface SkillSummary {
+  readonly brierScore: number;
+  readonly brierSkillScore: number;
+  readonly rocArea: number;
+  /** "observed" when verified against observations, "potential" for a perfect-model estimate. */
+  readonly basis: 'observed' | 'potential';
+  readonly cases: number;
+  /** True when the configured skill floor is met. */
+  readonly skilful: boolean;
+}
+
+/** Output of the calibrate stage: exceedance probability at one lead. */
+export interface LeadProbability {
+  readonly source: string;
+  readonly region: string;
+  readonly indicator: string;
+  readonly lead: LeadWindow;
+  /** Fraction 0..1 of members with value > threshold (strictly greater). */
+  readonly probability: number;
+  /** Climatological frequency of exceedance (hindcasts), 0..1. */
+  readonly baseRate: number;
+  readonly members: number;
+  readonly validMembers: number;
+  readonly threshold: Threshold;
+  readonly operator: '>';
+  /** Set when members are too few for the stated precision, or the lead is uncalibrated. */
+  readonly flags: readonly string[];
+  readonly skill: SkillSummary | null;
+  /** False when hindcasts did not cover this lead (threshold not from model climate). */
+  readonly calibrated: boolean;
+}
+
+/** Output of the decide stage: the stage for one region × indicator × tier, with the reasons. */
+export interface StageDecision {
+  readonly region: string;
+  readonly indicator: string;
+  readonly tier: Tier;
+  /** Stage id from the ladder. */
+  readonly stageId: string;
+  /** Stage that the probabilities alone would give before persistence/hysteresis. */
+  readonly rawStageId: string;
+  readonly ruleId: string | null;
+  /** The lead that set the stage (highest), if any. */
+  readonly lead: LeadProbability | null;
+  /** Leads withheld by the skill gate. */
+  readonly withheldLeads: readonly LeadWindow[];
+  /** Human-readable chain of reasons, in order. */
+  readonly reasons: readonly string[];
+}
+
+/** A rendered bulletin for one audience (a team or the national office). */
+export interface Bulletin {
+  readonly id: string;
+  readonly team: string;
+  readonly locale: string;
+  readonly to: readonly string[];
+  readonly subject: string;
+  readonly html: string;
+  readonly text: string;
+  readonly attachments: readonly { readonly cid: string; readonly filename: string; readonly contentType: string; readonly content: Uint8Array }[];
+}
+
+/** Result of delivering one bulletin to one recipient. */
+export interface DeliveryReceipt {
+  readonly bulletinId: string;
+  readonly recipient: string;
+  readonly status: 'sent' | 'outbox' | 'failed';
+  readonly detail: string;
+  readonly at: string;
+}
