@@ -1,0 +1,41 @@
+/**
+ * The one interface every NetCDF flavour is read through (classic CDF-1, 64-bit offset CDF-2, CDF-5,
+ * NetCDF-4/HDF5). Implementations read only the requested hyperslab, never a whole large variable.
+ */
+
+export type AttributeValue = string | number | readonly number[];
+
+export type StorageType = 'byte' | 'ubyte' | 'char' | 'short' | 'ushort' | 'int' | 'uint' | 'int64' | 'uint64' | 'float' | 'double';
+
+export interface DimensionInfo {
+  readonly name: string;
+  readonly size: number;
+  readonly unlimited: boolean;
+}
+
+export interface VariableInfo {
+  readonly name: string;
+  /** Dimension names, slowest-varying first (C order, as ncdump prints them). */
+  readonly dimensions: readonly string[];
+  readonly shape: readonly number[];
+  readonly type: StorageType;
+  readonly attributes: Readonly<Record<string, AttributeValue>>;
+}
+
+export type DatasetFormat = 'classic' | '64bit-offset' | 'cdf5' | 'netcdf4';
+
+export interface Dataset {
+  readonly path: string;
+  readonly format: DatasetFormat;
+  readonly dimensions: readonly DimensionInfo[];
+  readonly attributes: Readonly<Record<string, AttributeValue>>;
+  readonly variables: readonly VariableInfo[];
+  /** The variable's metadata, or undefined when the file has no such variable. */
+  variable(name: string): VariableInfo | undefined;
+  /**
+   * Stored (raw, not yet CF-decoded) values of the hyperslab `start`/`count` in C order.
+   * Implementations coalesce contiguous runs into few positional reads.
+   */
+  readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array>;
+  close(): Promise<void>;
+}
