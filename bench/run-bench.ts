@@ -1,0 +1,134 @@
+/**
+ * Side-by-side benchmark (`npm run bench -- [--small] [--runs N] [--huge]`): for each input set,
+ *   (a) Forelight (bench/forelight-entry.ts in a child process, peak RSS measured),
+ *   (b) the CDO script a user would write (bench/cdo-baseline.sh, one cdo call per box),
+ *   (c) the Python script a user would write (bench/python-baseline.py, one pass, python3-netcdf4 + numpy),
+ *   (d) `cat files > /dev/null` (the cost of reading the bytes once),
+ * each the median of N runs (default 3), warm page cache (every tool reads the same files in turn).
+ * Before timing, Forelight's and Python's box means are cross-checked (first member, every box and
+ * variable). Inputs come from bench/make-large-inputs.ts and are generated when missing.
+ */
+import { mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { makeBenchInputs, type BenchMode } from './make-large-inputs.ts';
+import { describeMachine, measure, median } from './measure.ts';
+
+const ROOT = fileURLToPath(new URL('..', import.meta.url));
+const REGIONS = join(ROOT, 'bench', 'regions.json');
+const TOOLS = ['forelight', 'cdo', 'python', 'cat'] as const;
+type Tool = (typeof TOOLS)[number];
+
+interface InputSet {
+  readonly label: string;
+  readonly files: readonly string[];
+}
+
+interface SetResult {
+  readonly set: InputSet;
+  readonly gigabytes: number;
+  readonly seconds: Readonly<Record<Tool, number>>;
+  readonly maxRssMb: Readonly<Record<Tool, number>>;
+  /** Forelight's own time without process start-up (median). */
+  readonly forelightInProcess: number;
+  readonly maxAbsDiffK: number;
+}
+
+function argValue(name: string): string | undefined {
+  const i = process.argv.indexOf(name);
+  return i > 0 ? process.argv[i + 1] : undefined;
+}
+
+function commandOf(tool: Tool, files: readonly string[], scratch: string): string[] {
+  switch (tool) {
+    case 'forelight':
+      return [process.execPath, join(ROOT, 'bin', 'run-ts.mjs'), join(ROOT, 'bench', 'forelight-entry.ts'), REGIONS, ...files];
+    case 'cdo':
+      return ['sh', join(ROOT, 'bench', 'cdo-baseline.sh'), REGIONS, join(scratch, 'cdo'), ...files];
+    case 'python':
+      return ['/usr/bin/python3', join(ROOT, 'bench', 'python-baseline.py'), REGIONS, join(scratch, 'python.json'), ...files];
+    case 'cat':
+      return ['sh', '-c', 'cat "$@" > /dev/null', 'cat', ...files];
+  }
+}
+
+/** Largest |Forelight − Python| (K) over the first member of every box, variable and day of every file. */
+async function crossCheck(files: readonly string[], scratch: string): Promise<number> {
+  const flJson = join(scratch, 'forelight-check.json');
+  const pyJson = join(scratch, 'python-check.json');
+  await measure([process.execPath, join(ROOT, 'bin', 'run-ts.mjs'), join(ROOT, 'bench', 'forelight-entry.ts'), REGIONS, '--check', flJson, ...files], ROOT);
+  await measure(['/usr/bin/python3', join(ROOT, 'bench', 'python-baseline.py'), REGIONS, pyJson, ...files], ROOT);
+  const fl = JSON.parse(readFileSync(flJson, 'utf8')) as { file: string; region: string; variable: string; units: string; values: number[] }[];
+  const py = JSON.parse(readFileSync(pyJson, 'utf8')) as Record<string, Record<string, Record<string, number[][]>>>;
+  let worst = 0;
+  for (const s of fl) {
+    if (s.units !== 'degC') throw new Error(`cross-check: Forelight gave ${s.units} for ${s.variable}, expected degC`);
+    const ref = py[s.file]?.[s.region]?.[s.variable]?.[0];
+    if (!ref || ref.length !== s.values.length) throw new Error(`cross-check: no matching Python series for ${s.file} ${s.region} ${s.variable}`);
+    s.values.forEach((v, t) => (worst = Math.max(worst, Math.abs(v + 273.15 - ref[t]))));
+  }
+  const boxes = (JSON.parse(readFileSync(REGIONS, 'utf8')) as { regions: unknown[] }).regions.length;
+  const expected = files.length * boxes * 3;
+  if (fl.length !== expected) throw new Error(`cross-check: Forelight returned ${fl.length} series, expected ${expected}`);
+  return worst;
+}
+
+async function runSet(set: InputSet, runs: number, log: (l: string) => void): Promise<SetResult> {
+  const scratch = mkdtempSync(join(tmpdir(), 'forelight-bench-'));
+  try {
+    const maxAbsDiffK = await crossCheck(set.files, scratch);
+    log(`${set.label}: cross-check max |Forelight − Python| = ${maxAbsDiffK.toExponential(2)} K`);
+    const times: Record<Tool, number[]> = { forelight: [], cdo: [], python: [], cat: [] };
+    const rss: Record<Tool, number[]> = { forelight: [], cdo: [], python: [], cat: [] };
+    const inProcess: number[] = [];
+    for (let r = 0; r < runs; r++) {
+      for (const tool of TOOLS) {
+        const m = await measure(commandOf(tool, set.files, scratch), ROOT);
+        times[tool].push(m.seconds);
+        rss[tool].push(m.maxRssKb / 1024);
+        if (tool === 'forelight') inProcess.push((JSON.parse(m.stdout.trim().split('\n').at(-1)!) as { seconds: number }).seconds);
+        log(`${set.label} run ${r + 1}/${runs} ${tool}: ${m.seconds.toFixed(2)} s, peak RSS ${(m.maxRssKb / 1024).toFixed(0)} MB`);
+      }
+    }
+    const med = (xs: Record<Tool, number[]>): Record<Tool, number> => Object.fromEntries(TOOLS.map((t) => [t, median(xs[t])])) as Record<Tool, number>;
+    const gigabytes = set.files.reduce((s, f) => s + statSync(f).size, 0) / 1e9;
+    return { set, gigabytes, seconds: med(times), maxRssMb: med(rss), forelightInProcess: median(inProcess), maxAbsDiffK };
+  } finally {
+    rmSync(scratch, { recursive: true, force: true });
+  }
+}
+
+function formatTable(results: readonly SetResult[], runs: number): string[] {
+  const f = (x: number, d = 2): string => (Number.isFinite(x) ? x.toFixed(d) : 'n/a');
+  const lines = [
+    `| input | GB | (a) Forelight s (in-process s) | (b) CDO s | (c) Python s | (d) cat s | a/b | a/c | a/d | Forelight peak RSS MB | Python peak RSS MB | max abs diff K |`,
+    `|---|---|---|---|---|---|---|---|---|---|---|---|`,
+  ];
+  for (const r of results) {
+    const s = r.seconds;
+    lines.push(
+      `| ${r.set.label} | ${f(r.gigabytes)} | ${f(s.forelight)} (${f(r.forelightInProcess)}) | ${f(s.cdo)} | ${f(s.python)} | ${f(s.cat)} | ${f(s.forelight / s.cdo)} | ${f(s.forelight / s.python)} | ${f(s.forelight / s.cat)} | ${f(r.maxRssMb.forelight, 0)} | ${f(r.maxRssMb.python, 0)} | ${r.maxAbsDiffK.toExponential(1)} |`,
+    );
+  }
+  lines.push(`medians of ${runs} runs; 20 boxes × 3 variables; warm page cache; times are wall clock including process start-up.`);
+  return lines;
+}
+
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  const mode: BenchMode = process.argv.includes('--small') ? 'small' : 'full';
+  const runs = Number(argValue('--runs') ?? 3);
+  if (!Number.isInteger(runs) || runs < 1) throw new Error(`--runs must be a positive integer, got ${argValue('--runs')}`);
+  const log = (l: string): void => void process.stderr.write(`${l}\n`);
+  const inputs = await makeBenchInputs(mode, { huge: process.argv.includes('--huge'), log });
+  const sets: InputSet[] = [
+    { label: 'forecast, classic 64-bit offset', files: [inputs.classic] },
+    { label: 'forecast, NetCDF-4 deflate 1 + shuffle', files: [inputs.netcdf4] },
+    { label: `hindcasts, classic, ${inputs.hindcasts.length} files`, files: inputs.hindcasts },
+    ...(inputs.huge ? [{ label: 'forecast > 4 GiB, CDF-5', files: [inputs.huge] }] : []),
+  ];
+  const results: SetResult[] = [];
+  for (const set of sets) results.push(await runSet(set, runs, log));
+  const out = [`Forelight benchmark (${mode})`, ...describeMachine(), '', ...formatTable(results, runs)];
+  process.stdout.write(`${out.join('\n')}\n`);
+}

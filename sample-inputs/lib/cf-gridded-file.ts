@@ -1,0 +1,195 @@
+/**
+ * Writes CF-1.8 gridded daily files (CF Conventions 1.8, Eaton et al. 2020: coordinate variables §4,
+ * time §4.4, cell boundaries §7.1, cell methods §7.3, packed data §8.1, ensemble `realization` axis §4.5 /
+ * standard-name table) through the streaming classic writer. Two shapes:
+ *  - ensemble forecast: (time, number, lat, lon) — time first, as CDO requires — fixed time axis, scalar
+ *    `forecast_reference_time`;
+ *  - observed: (time, lat, lon) with an unlimited time axis.
+ * Daily values are stamped at mid-day (hours 12, 36, …) with `time_bnds` giving the 00–24 UTC day.
+ */
+import { rename, rm } from 'node:fs/promises';
+import { createNetcdfClassic, type NcAttribute, type NcFormat, type NcVariableSpec, type NetcdfClassicWriter } from './netcdf-classic-writer.ts';
+
+export interface GridSpec {
+  /** Cell-centre latitudes (degrees_north), in file order. */
+  readonly lats: Float64Array;
+  /** Cell-centre longitudes (degrees_east), in file order. */
+  readonly lons: Float64Array;
+}
+
+/** Degrees from `first` in `n` steps of `step` (negative step = descending). */
+export function axis(first: number, step: number, n: number): Float64Array {
+  return Float64Array.from({ length: n }, (_, i) => Math.round((first + i * step) * 1e6) / 1e6);
+}
+
+/** Linear packing into shorts: stored = round((value - addOffset) / scaleFactor). */
+export interface ShortPacking {
+  readonly scaleFactor: number;
+  readonly addOffset: number;
+}
+
+export interface CfVariableDef {
+  readonly name: string;
+  readonly standardName: string;
+  readonly longName: string;
+  readonly units: string;
+  readonly cellMethods: string;
+  /** Present: stored as short with scale_factor/add_offset; absent: float32. */
+  readonly packing?: ShortPacking;
+  /** Extra attributes (e.g. a comment on accumulation). */
+  readonly extra?: Readonly<Record<string, string>>;
+}
+
+export interface CfFileDef {
+  readonly format: NcFormat;
+  readonly grid: GridSpec;
+  /** UTC midnight of the first day (and the forecast reference time for an ensemble). */
+  readonly start: Date;
+  readonly days: number;
+  readonly variables: readonly CfVariableDef[];
+  readonly globalAttributes: Readonly<Record<string, string>>;
+}
+
+
+const SHORT_FILL = -32767;
+const FLOAT_FILL = 1.0e20;
+
+const isoUtc = (d: Date): string => d.toISOString().replace('T', ' ').replace('.000Z', '');
+
+function variableSpec(def: CfVariableDef, dims: readonly string[]): NcVariableSpec {
+  const attributes: Record<string, NcAttribute> = {
+    standard_name: def.standardName,
+    long_name: def.longName,
+    units: def.units,
+    cell_methods: def.cellMethods,
+    ...def.extra,
+  };
+  if (def.packing) {
+    attributes.scale_factor = { type: 'float', values: [def.packing.scaleFactor] };
+    attributes.add_offset = { type: 'float', values: [def.packing.addOffset] };
+    attributes._FillValue = { type: 'short', values: [SHORT_FILL] };
+  } else {
+    attributes._FillValue = { type: 'float', values: [FLOAT_FILL] };
+  }
+  return { name: def.name, type: def.packing ? 'short' : 'float', dimensions: dims, attributes };
+}
+
+/** Packs floats to stored values: NaN → _FillValue. */
+function toStored(def: CfVariableDef, values: Float32Array): Int16Array | Float32Array {
+  const p = def.packing;
+  if (!p) {
+    const out = new Float32Array(values.length);
+    for (let i = 0; i < values.length; i++) out[i] = Number.isNaN(values[i]) ? FLOAT_FILL : values[i];
+    return out;
+  }
+  const out = new Int16Array(values.length);
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    out[i] = Number.isNaN(v) ? SHORT_FILL : Math.max(-32766, Math.min(32767, Math.round((v - p.addOffset) / p.scaleFactor)));
+  }
+  return out;
+}
+
+function coordinateSpecs(timeUnits: string): NcVariableSpec[] {
+  const timeDims = ['time'];
+  return [
+    { name: 'time', type: 'double', dimensions: timeDims, attributes: { standard_name: 'time', long_name: 'time', units: timeUnits, calendar: 'standard', axis: 'T', bounds: 'time_bnds' } },
+    { name: 'time_bnds', type: 'double', dimensions: [...timeDims, 'bnds'], attributes: {} },
+    { name: 'lat', type: 'double', dimensions: ['lat'], attributes: { standard_name: 'latitude', long_name: 'latitude', units: 'degrees_north', axis: 'Y' } },
+    { name: 'lon', type: 'double', dimensions: ['lon'], attributes: { standard_name: 'longitude', long_name: 'longitude', units: 'degrees_east', axis: 'X' } },
+  ];
+}
+
+interface OpenCfFile {
+  readonly writer: NetcdfClassicWriter;
+  readonly cells: number;
+  finish(): Promise<number>;
+  abandon(): Promise<void>;
+}
+
+/** Creates `path.part` with header and coordinates written; `finish` closes it and renames it to `path`, `abandon` closes and deletes it. */
+async function openCfFile(path: string, def: CfFileDef, members: number | undefined): Promise<OpenCfFile> {
+  const ensemble = members !== undefined;
+  const timeUnits = `hours since ${isoUtc(def.start)}`;
+  const cells = def.grid.lats.length * def.grid.lons.length;
+  const fieldDims = ensemble ? ['time', 'number', 'lat', 'lon'] : ['time', 'lat', 'lon'];
+  const variables: NcVariableSpec[] = [...coordinateSpecs(timeUnits), ...def.variables.map((v) => variableSpec(v, fieldDims))];
+  if (ensemble) {
+    variables.push(
+      { name: 'number', type: 'int', dimensions: ['number'], attributes: { standard_name: 'realization', long_name: 'ensemble member number' } },
+      { name: 'forecast_reference_time', type: 'double', dimensions: [], attributes: { standard_name: 'forecast_reference_time', long_name: 'forecast reference time', units: timeUnits, calendar: 'standard' } },
+    );
+  }
+  const dimensions = [
+    ...(ensemble ? [{ name: 'number', size: members }] : []),
+    { name: 'time', size: def.days, unlimited: !ensemble },
+    { name: 'lat', size: def.grid.lats.length },
+    { name: 'lon', size: def.grid.lons.length },
+    { name: 'bnds', size: 2 },
+  ];
+  const part = `${path}.part`;
+  const writer = await createNetcdfClassic(part, { format: def.format, dimensions, attributes: { Conventions: 'CF-1.8', ...def.globalAttributes }, variables });
+  const time = new Float64Array(def.days);
+  const bnds = new Float64Array(2 * def.days);
+  for (let i = 0; i < def.days; i++) {
+    time[i] = 24 * i + 12;
+    bnds[2 * i] = 24 * i;
+    bnds[2 * i + 1] = 24 * i + 24;
+  }
+  await writer.write('time', 0, time);
+  await writer.write('time_bnds', 0, bnds);
+  await writer.write('lat', 0, def.grid.lats);
+  await writer.write('lon', 0, def.grid.lons);
+  if (ensemble) {
+    await writer.write('number', 0, Array.from({ length: members }, (_, m) => m));
+    await writer.write('forecast_reference_time', 0, [0]);
+  }
+  return {
+    writer,
+    cells,
+    async finish() {
+      await writer.close();
+      await rename(part, path);
+      return writer.totalBytes;
+    },
+    async abandon() {
+      await writer.close();
+      await rm(part, { force: true });
+    },
+  };
+}
+
+/**
+ * Writes an ensemble file (time, number, lat, lon) one day at a time: `fill(t, out)` gives every variable's
+ * members × lat × lon field of day `t` (`out[v]`, NaN = missing). Returns the byte size.
+ */
+export async function writeEnsembleFile(path: string, def: CfFileDef, members: number, fill: (t: number, out: readonly Float32Array[]) => void): Promise<number> {
+  const f = await openCfFile(path, def, members);
+  try {
+    const fields = def.variables.map(() => new Float32Array(members * f.cells));
+    for (let t = 0; t < def.days; t++) {
+      fill(t, fields);
+      for (let v = 0; v < def.variables.length; v++) await f.writer.write(def.variables[v].name, t * fields[v].length, toStored(def.variables[v], fields[v]));
+    }
+  } catch (err) {
+    await f.abandon();
+    throw err;
+  }
+  return f.finish();
+}
+
+/** Writes an observed file (time unlimited, lat, lon); `fill(day, out)` gives every variable's field of one day. */
+export async function writeObservedFile(path: string, def: CfFileDef, fill: (day: number, out: readonly Float32Array[]) => void): Promise<number> {
+  const f = await openCfFile(path, def, undefined);
+  try {
+    const fields = def.variables.map(() => new Float32Array(f.cells));
+    for (let t = 0; t < def.days; t++) {
+      fill(t, fields);
+      for (let v = 0; v < def.variables.length; v++) await f.writer.write(def.variables[v].name, t * f.cells, toStored(def.variables[v], fields[v]));
+    }
+  } catch (err) {
+    await f.abandon();
+    throw err;
+  }
+  return f.finish();
+}

@@ -1,0 +1,92 @@
+/**
+ * Lead values of a climate sample over years: hindcasts (members > 1) or observations (members = 1), for one
+ * source × region × indicator × tier. Leads are matched to a forecast's by tier and index.
+ */
+import type { LeadWindow } from '../types.ts';
+import type { LeadValues } from './lead-tiers.ts';
+import { sortValid } from './percentile.ts';
+
+export interface LeadClimate {
+  /**
+   * Year of each entry. A year repeats when several starts of a year are pooled (starts within ±windowDays, see
+   * `startsWithinWindow`); leave-one-year-out then removes every start of that year.
+   */
+  readonly years: readonly number[];
+  readonly members: number;
+  /** Lead windows of the first year (labels); year y's windows are the same leads in year y. */
+  readonly leads: readonly LeadWindow[];
+  readonly units: string;
+  /** [year][member][lead]: values[(y * members + m) * leads.length + l], NaN where missing. */
+  readonly values: Float64Array;
+}
+
+/**
+ * Stack per-year lead values (from `aggregateToLeads` of each hindcast start or observed year) into a climate
+ * sample. Years whose member count differs from the first year's are left out, each with a problem line; a
+ * year with fewer leads has NaN for the missing ones.
+ */
+export function stackYears(what: string, units: string, perYear: readonly { year: number; leads: LeadValues }[]): { climate: LeadClimate | null; problems: string[] } {
+  const problems: string[] = [];
+  if (perYear.length === 0) return { climate: null, problems: [`${what}: no years given`] };
+  const members = perYear[0].leads.members;
+  const used = perYear.filter((y) => {
+    if (y.leads.members === members) return true;
+    problems.push(`${what}: year ${y.year} has ${y.leads.members} members, year ${perYear[0].year} has ${members}; year ${y.year} left out — regenerate it with the same ensemble`);
+    return false;
+  });
+  const longest = used.reduce((a, y) => (y.leads.leads.length > a.leads.leads.length ? y : a), used[0]);
+  const nLeads = longest.leads.leads.length;
+  const values = new Float64Array(used.length * members * nLeads).fill(Number.NaN);
+  used.forEach((y, yi) => {
+    const n = y.leads.leads.length;
+    for (let m = 0; m < members; m++) values.set(y.leads.values.subarray(m * n, (m + 1) * n), (yi * members + m) * nLeads);
+  });
+  return { climate: { years: used.map((y) => y.year), members, leads: longest.leads.leads, units, values }, problems };
+}
+
+/** Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. */
+export function leadSample(c: LeadClimate, l: number, excludeYear?: number): Float64Array {
+  const nLeads = c.leads.length;
+  const out = new Float64Array(c.years.length * c.members).fill(Number.NaN);
+  for (let y = 0; y < c.years.length; y++) {
+    if (c.years[y] === excludeYear) continue;
+    for (let m = 0; m < c.members; m++) out[y * c.members + m] = c.values[(y * c.members + m) * nLeads + l];
+  }
+  return sortValid(out);
+}
+
+/** Values of the members of one year (position y) at lead position l. */
+export function yearMembers(c: LeadClimate, y: number, l: number): Float64Array {
+  const out = new Float64Array(c.members);
+  for (let m = 0; m < c.members; m++) out[m] = c.values[(y * c.members + m) * c.leads.length + l];
+  return out;
+}
+
+/** "2006–2025" (or "2006" for a single year). */
+export function yearSpan(years: readonly number[]): string {
+  const lo = Math.min(...years);
+  const hi = Math.max(...years);
+  return lo === hi ? `${lo}` : `${lo}–${hi}`;
+}
+
+/** Number of distinct years in a climate sample (what minHindcastYears counts). */
+export function distinctYears(c: LeadClimate): number {
+  return new Set(c.years).size;
+}
+
+function dayOfYear(monthDay: string): number {
+  const [m, d] = monthDay.split('-').map(Number);
+  return (Date.UTC(2001, m - 1, d) - Date.UTC(2001, 0, 1)) / 86_400_000; // a non-leap year; 02-29 counts as 03-01
+}
+
+/**
+ * The hindcast start month-days ("MM-DD") whose day of year lies within ±windowDays of the forecast start's
+ * (circular over the year end, so 12-30 is 3 days from 01-02).
+ */
+export function startsWithinWindow(forecastStart: string, hindcastStarts: readonly string[], windowDays: number): string[] {
+  const f = dayOfYear(forecastStart.slice(5, 10));
+  return hindcastStarts.filter((s) => {
+    const diff = Math.abs(dayOfYear(s.slice(-5)) - f);
+    return Math.min(diff, 365 - diff) <= windowDays;
+  });
+}

@@ -1,0 +1,138 @@
+/**
+ * Exceedance probability per lead: P(X > threshold) = members with x > threshold / valid members (strictly
+ * greater, checks.json row ens-exc-gt; no plotting-position correction), with the hindcast base rate, the
+ * threshold's origin and flags. Flags are one line each and start with a code word:
+ *   "uncalibrated: …"              hindcasts do not cover the lead (threshold not from the model climate)
+ *   "thresholds unstable: only N hindcast years …"   fewer than minHindcastYears
+ *   "few-members: …"               valid members < minMembers; with N members p moves in steps of 1/N
+ *   "missing-members: k of N …"    members without a value at this lead
+ *   "quantile-map-clipped: …"      the absolute threshold lies outside the observed climatology
+ */
+import type { CalibrationConfig, ThresholdSpec } from '../config/types.ts';
+import type { LeadProbability, LeadWindow, SkillSummary, Threshold } from '../types.ts';
+import { distinctYears, leadSample, type LeadClimate } from './climate.ts';
+import { leadLabel, type LeadValues } from './lead-tiers.ts';
+import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdObject } from './thresholds.ts';
+
+/** Fraction of valid members above (or, with '>=', at or above) the threshold; NaN without valid members. */
+export function exceedanceFraction(members: ArrayLike<number>, threshold: number, rule: '>' | '>=' = '>'): { probability: number; valid: number; missing: number } {
+  let valid = 0;
+  let above = 0;
+  for (let i = 0; i < members.length; i++) {
+    const x = members[i];
+    if (Number.isNaN(x)) continue;
+    valid++;
+    if (rule === '>' ? x > threshold : x >= threshold) above++;
+  }
+  return { probability: valid === 0 || Number.isNaN(threshold) ? Number.NaN : above / valid, valid, missing: members.length - valid };
+}
+
+export interface ProbabilityRequest {
+  readonly source: string;
+  readonly region: string;
+  readonly indicator: string;
+  readonly units: string;
+  /** Forecast lead values (aggregateToLeads of the forecast's IndicatorSeries). */
+  readonly forecast: LeadValues;
+  /** Hindcasts of the same source/region/indicator/tier (stackYears), or null when the source has none. */
+  readonly hindcast: LeadClimate | null;
+  /** Observed lead values per hindcast year (members = 1), or null. */
+  readonly observed: LeadClimate | null;
+  /** resolveThresholdSpec(indicator, region). */
+  readonly threshold: ThresholdSpec;
+  readonly calibration: Pick<CalibrationConfig, 'minMembers' | 'minHindcastYears'>;
+  /** Skill per lead index (1-based), from skill.ts; absent leads get null. */
+  readonly skill?: ReadonlyMap<number, SkillSummary>;
+}
+
+/** Why the hindcasts cannot calibrate lead position l, or null when they can. */
+function coverageProblem(req: ProbabilityRequest, l: number, lead: LeadWindow): string | null {
+  const hc = req.hindcast;
+  if (!hc) return `no hindcasts for source ${req.source} — configure sources[].hindcast to calibrate`;
+  if (hc.members !== req.forecast.members) {
+    return `hindcasts have ${hc.members} members, the forecast ${req.forecast.members} — provide hindcasts with the forecast's ensemble size`;
+  }
+  if (l >= hc.leads.length || leadSample(hc, l).length === 0) return `hindcasts of ${req.source} do not cover ${leadLabel(lead)}`;
+  if (lead.tier === 'months' && hc.leads[l].start.slice(5, 7) !== lead.start.slice(5, 7)) {
+    return `hindcast ${leadLabel(lead)} starts ${hc.leads[l].start}, the forecast's ${lead.start} (different calendar month) — use hindcast starts in the forecast's month`;
+  }
+  return null;
+}
+
+function covers(c: LeadClimate | null, l: number): c is LeadClimate {
+  return c !== null && l < c.leads.length && leadSample(c, l).length > 0;
+}
+
+/** Threshold for an uncalibrated lead: observed climatology percentile, the absolute value, or none. */
+function fallbackThreshold(req: ProbabilityRequest, l: number, lead: LeadWindow): Threshold {
+  const spec = req.threshold;
+  if (spec.kind === 'absolute') return absoluteThreshold(spec, req.units, lead, 'not quantile-mapped: lead uncalibrated');
+  if (covers(req.observed, l)) {
+    const t = climatePercentileThreshold(req.observed, l, spec.percentile, 'observations', lead);
+    return { ...t, origin: `${t.origin} (not model climate)` };
+  }
+  return { value: Number.NaN, units: req.units, origin: `no threshold for the ${spec.percentile} percentile at ${leadLabel(lead)}: neither hindcasts nor observations cover it` };
+}
+
+function fractionAbove(sorted: Float64Array, threshold: number): number {
+  if (sorted.length === 0 || Number.isNaN(threshold)) return Number.NaN;
+  let k = 0;
+  while (k < sorted.length && sorted[k] <= threshold) k++;
+  return (sorted.length - k) / sorted.length;
+}
+
+/** Exceedance probabilities of one source × region × indicator × tier, one LeadProbability per forecast lead. */
+export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
+  const { forecast, calibration, hindcast } = req;
+  const nLeads = forecast.leads.length;
+  const members = new Float64Array(forecast.members);
+  return forecast.leads.map((lead, l) => {
+    for (let m = 0; m < forecast.members; m++) members[m] = forecast.values[m * nLeads + l];
+    const flags: string[] = [];
+    const problem = coverageProblem(req, l, lead);
+    let threshold: Threshold;
+    let climate: LeadClimate | null = null;
+    if (problem !== null || hindcast === null) {
+      flags.push(`uncalibrated: ${problem}`);
+      threshold = fallbackThreshold(req, l, lead);
+      if (covers(req.observed, l)) climate = req.observed;
+    } else {
+      climate = hindcast;
+      const nYears = distinctYears(hindcast);
+      if (nYears < calibration.minHindcastYears) {
+        flags.push(`thresholds unstable: only ${nYears} hindcast years (minimum ${calibration.minHindcastYears})`);
+      }
+      const spec = req.threshold;
+      if (spec.kind === 'percentile') {
+        threshold = climatePercentileThreshold(hindcast, l, spec.percentile, 'hindcasts', lead);
+      } else if (lead.tier !== 'days' && covers(req.observed, l)) {
+        const qm = quantileMappedThresholdObject(spec, req.observed, hindcast, l, lead);
+        threshold = qm.threshold;
+        if (qm.clipped) flags.push(`quantile-map-clipped: ${spec.value} ${spec.units} lies outside the observed climatology at ${leadLabel(lead)}; mapped to the model climate's extreme`);
+      } else {
+        threshold = absoluteThreshold(spec, req.units, lead, lead.tier === 'days' ? 'short range: not quantile-mapped' : 'not quantile-mapped: no observations');
+      }
+    }
+    const exc = exceedanceFraction(members, threshold.value);
+    if (exc.missing > 0) flags.push(`missing-members: ${exc.missing} of ${forecast.members} members have no value at ${leadLabel(lead)}`);
+    if (exc.valid < calibration.minMembers) {
+      const step = exc.valid > 0 ? ` in steps of 1/${exc.valid} (${Math.round(1000 / exc.valid) / 10} %)` : '';
+      flags.push(`few-members: ${exc.valid} valid members < ${calibration.minMembers}; the probability moves${step}`);
+    }
+    return {
+      source: req.source,
+      region: req.region,
+      indicator: req.indicator,
+      lead,
+      probability: exc.probability,
+      baseRate: climate ? fractionAbove(leadSample(climate, l), threshold.value) : Number.NaN,
+      members: forecast.members,
+      validMembers: exc.valid,
+      threshold,
+      operator: '>',
+      flags,
+      skill: req.skill?.get(lead.index) ?? null,
+      calibrated: problem === null,
+    };
+  });
+}

@@ -1,0 +1,74 @@
+/**
+ * File cache of skill reports (the only I/O of the calibrate stage). The key is the sha256 of the hindcast files'
+ * contents, the observations file's contents, a configuration fingerprint and the cache format version; a changed
+ * byte in any input gives a new key, so stale entries are never read. Entries are JSON files
+ * `<cacheDir>/skill-<key>.json`, written to a temporary name and renamed (a crash never leaves half a file).
+ * Non-finite numbers are stored as {"$num": "NaN" | "Infinity" | "-Infinity"}.
+ */
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { ForelightError } from '../errors.ts';
+
+export const SKILL_CACHE_VERSION = 1;
+
+async function hashOne(path: string): Promise<string> {
+  const h = createHash('sha256');
+  try {
+    for await (const chunk of createReadStream(path)) h.update(chunk as Buffer);
+  } catch (err) {
+    throw new ForelightError('calibrate', 'skill-cache-read', `cannot read ${path} to checksum it: ${(err as Error).message}`, 'check the hindcast/observation path in the YAML', { cause: err });
+  }
+  return h.digest('hex');
+}
+
+/** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
+export async function hashFiles(paths: readonly string[]): Promise<string> {
+  const h = createHash('sha256');
+  for (const path of paths) h.update(`${await hashOne(path)}\n`);
+  return h.digest('hex');
+}
+
+/** sha256 of a JSON value with object keys sorted (order-independent configuration fingerprint). */
+export function fingerprint(value: unknown): string {
+  const canon = (v: unknown): unknown =>
+    Array.isArray(v) ? v.map(canon) : v !== null && typeof v === 'object' ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canon((v as Record<string, unknown>)[k])])) : v;
+  return createHash('sha256').update(JSON.stringify(canon(value))).digest('hex');
+}
+
+/** Cache key for one skill computation. */
+export async function skillCacheKey(input: { hindcastFiles: readonly string[]; observationsFile: string | null; configFingerprint: string }): Promise<string> {
+  const files = await hashFiles(input.hindcastFiles);
+  const obs = input.observationsFile ? await hashFiles([input.observationsFile]) : 'none';
+  return createHash('sha256').update(`v${SKILL_CACHE_VERSION}\n${files}\n${obs}\n${input.configFingerprint}`).digest('hex');
+}
+
+const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
+const decode = (_k: string, v: unknown): unknown =>
+  v !== null && typeof v === 'object' && !Array.isArray(v) && Object.keys(v).length === 1 && '$num' in v ? Number((v as { $num: string }).$num) : v;
+
+/**
+ * The cached value for `key`, or else `compute()` stored under `key`. An unreadable or corrupt entry is
+ * recomputed and overwritten (`note` says so).
+ */
+export async function cachedSkill<T>(cacheDir: string, key: string, compute: () => T): Promise<{ value: T; fromCache: boolean; note: string }> {
+  const file = join(cacheDir, `skill-${key}.json`);
+  let note = '';
+  try {
+    return { value: JSON.parse(await readFile(file, 'utf8'), decode) as T, fromCache: true, note };
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code !== 'ENOENT') note = `skill cache entry ${file} unreadable (${(err as Error).message}); recomputed`;
+  }
+  const value = compute();
+  try {
+    await mkdir(cacheDir, { recursive: true });
+    const tmp = `${file}.${process.pid}.tmp`;
+    await writeFile(tmp, JSON.stringify(value, encode));
+    await rename(tmp, file);
+  } catch (err) {
+    throw new ForelightError('calibrate', 'skill-cache-write', `cannot write skill cache ${file}: ${(err as Error).message}`, 'make calibration.cacheDir writable or point it elsewhere', { cause: err });
+  }
+  return { value, fromCache: false, note };
+}

@@ -1,0 +1,54 @@
+/**
+ * Minimal argv parser: `command [positionals] [--flag] [--key value | --key=value]`.
+ * Unknown options are errors so that a typo never changes behaviour silently.
+ */
+import { ForelightError } from '../errors.ts';
+
+export interface ParsedArgs {
+  readonly command: string | undefined;
+  readonly positionals: readonly string[];
+  readonly options: Readonly<Record<string, string | true>>;
+}
+
+export interface OptionSpec {
+  /** Options that take a value. */
+  readonly values: readonly string[];
+  /** Options that are plain switches. */
+  readonly flags: readonly string[];
+}
+
+export function parseArgs(argv: readonly string[], specFor: (command: string | undefined) => OptionSpec): ParsedArgs {
+  const command = argv[0] && !argv[0].startsWith('-') ? argv[0] : undefined;
+  const rest = command ? argv.slice(1) : argv;
+  const spec = specFor(command);
+  const positionals: string[] = [];
+  const options: Record<string, string | true> = {};
+  for (let i = 0; i < rest.length; i++) {
+    const arg = rest[i];
+    if (!arg.startsWith('--')) {
+      positionals.push(arg);
+      continue;
+    }
+    const eq = arg.indexOf('=');
+    const name = arg.slice(2, eq < 0 ? undefined : eq);
+    if (spec.flags.includes(name) || name === 'help') {
+      options[name] = true;
+    } else if (spec.values.includes(name)) {
+      const value = eq >= 0 ? arg.slice(eq + 1) : rest[++i];
+      if (value === undefined) throw usageError(`option --${name} needs a value`);
+      options[name] = value;
+    } else {
+      throw usageError(`unknown option --${name} for '${command ?? ''}'`);
+    }
+  }
+  return { command, positionals, options };
+}
+
+export function usageError(message: string): ForelightError {
+  return new ForelightError('cli', 'usage', message, "run 'forelight --help' for the commands and options");
+}
+
+export function stringOption(args: ParsedArgs, name: string): string | undefined {
+  const v = args.options[name];
+  return typeof v === 'string' ? v : undefined;
+}

@@ -1,0 +1,140 @@
+/**
+ * Turns the validated raw YAML tree (kebab-case keys, relative paths) into the `Config` shape of types.ts:
+ * camelCase, absolute paths, thresholds in the indicator's canonical units, defaults filled in.
+ * Only called when schema and semantic checks found no problem, so shapes are trusted here.
+ */
+import { dirname, resolve } from 'node:path';
+import type { Quantity, Tier } from '../types.ts';
+import { THRESHOLD_UNITS } from './indicator-needs.ts';
+import type { Config, IndicatorConfig, IndicatorKind, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
+
+/* The raw tree as the schema describes it (kebab-case keys). */
+type Texts = Record<string, string>;
+interface RawThreshold { percentile?: number; value?: number; units?: string }
+interface RawTree {
+  country: string;
+  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number }[];
+  observations?: { file: string; variables: Partial<Record<Quantity, string>> } | null;
+  regions: { id: string; name: string; box?: { south: number; north: number; west: number; east: number }; polygon?: [number, number][]; 'utc-offset-hours': number; teams: string[] }[];
+  teams: { id: string; name: string; locale: string; recipients: string[]; national?: boolean }[];
+  indicators: { id: string; name: string; kind: IndicatorKind; 'window-days'?: number; threshold: RawThreshold; 'region-thresholds'?: Record<string, RawThreshold>; aggregate: 'mean' | 'max' | 'sum'; tiers: Tier[]; params?: Record<string, number | string | boolean> }[];
+  'stage-ladder': { id: string; label: Texts; glyph: string; colour: string; meaning: Texts; actions: Record<string, Texts>; cap: StageConfig['cap'] }[];
+  'trigger-rules': { id: string; indicator: string; tier: Tier; leads?: number[]; stage: string; probability?: number; 'cost-loss'?: number }[];
+  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'top-stage-immediate': boolean; combine: 'highest'; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
+  calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
+  schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
+  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number };
+  cautions: Record<string, string[]>;
+  'probability-words': ({ below?: number } & Record<string, string | number>)[];
+  ledger: string;
+  templates: string;
+}
+
+const camel = (k: string) => k.replace(/-([a-z0-9])/g, (_, c: string) => c.toUpperCase());
+
+function toThreshold(t: RawThreshold, kind: IndicatorKind): ThresholdSpec {
+  if (t.percentile !== undefined) return { kind: 'percentile', percentile: t.percentile };
+  const family = THRESHOLD_UNITS[kind];
+  return { kind: 'absolute', value: family.accepted[t.units as string](t.value as number), units: family.canonical };
+}
+
+function toShape(r: RawTree['regions'][number]): RegionShape {
+  if (r.box) return { kind: 'box', ...r.box };
+  return { kind: 'polygon', ring: (r.polygon ?? []).map(([lon, lat]) => [lon, lat] as const) };
+}
+
+function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
+  return {
+    id: i.id,
+    name: i.name,
+    kind: i.kind,
+    windowDays: i['window-days'] ?? 1,
+    threshold: toThreshold(i.threshold, i.kind),
+    regionThresholds: Object.fromEntries(Object.entries(i['region-thresholds'] ?? {}).map(([r, t]) => [r, toThreshold(t, i.kind)])),
+    aggregate: i.aggregate,
+    tiers: i.tiers,
+    params: Object.fromEntries(Object.entries(i.params ?? {}).map(([k, v]) => [camel(k), v])),
+  };
+}
+
+function toRule(r: RawTree['trigger-rules'][number]): TriggerRule {
+  const base = { id: r.id, indicator: r.indicator, tier: r.tier, leads: r.leads ?? [], stage: r.stage };
+  return r['cost-loss'] !== undefined ? { ...base, costLoss: r['cost-loss'] } : { ...base, probability: r.probability };
+}
+
+function toSmtp(s: NonNullable<RawTree['delivery']['smtp']>): SmtpConfig {
+  return {
+    host: s.host,
+    port: s.port,
+    security: s.security,
+    ...(s.user !== undefined ? { user: s.user } : {}),
+    ...(s['password-env'] !== undefined ? { passwordEnv: s['password-env'] } : {}),
+    timeoutSeconds: s['timeout-seconds'] ?? 30,
+  };
+}
+
+/** `file` is the absolute path of the main YAML file; relative paths resolve against its directory. */
+export function buildConfig(rawTree: unknown, file: string): Config {
+  const raw = rawTree as RawTree;
+  const dir = dirname(file);
+  const path = (p: string) => resolve(dir, p);
+  const e = raw.escalation;
+  const d = raw.delivery;
+  const words = raw['probability-words'];
+  return {
+    file,
+    country: raw.country,
+    sources: raw.sources.map((s) => ({
+      id: s.id,
+      name: s.name,
+      tier: s.tier,
+      forecast: path(s['forecast-files']),
+      ...(s['hindcast-files'] !== undefined ? { hindcast: path(s['hindcast-files']) } : {}),
+      variables: s.variables,
+      priority: s.priority,
+    })),
+    observations: raw.observations ? { path: path(raw.observations.file), variables: raw.observations.variables } : null,
+    regions: raw.regions.map((r) => ({ id: r.id, name: r.name, shape: toShape(r), utcOffsetHours: r['utc-offset-hours'], teams: r.teams })),
+    teams: raw.teams.map((t) => ({ id: t.id, name: t.name, locale: t.locale, recipients: t.recipients, national: t.national ?? false })),
+    indicators: raw.indicators.map(toIndicator),
+    stages: raw['stage-ladder'].map((s) => ({ id: s.id, label: s.label, colour: s.colour, glyph: s.glyph, meaning: s.meaning, actions: s.actions, cap: s.cap })),
+    rules: raw['trigger-rules'].map(toRule),
+    decision: {
+      tierCaps: e['tier-caps'],
+      escalateAfterRuns: e['escalate-after-runs'],
+      relaxAfterRuns: e['relax-after-runs'],
+      topStageImmediate: e['top-stage-immediate'],
+      combine: e.combine,
+      skillGate: { score: e['skill-gate'].score === 'roc-area' ? 'rocArea' : 'brierSkillScore', floor: e['skill-gate'].floor, action: e['skill-gate'].action },
+    },
+    calibration: {
+      windowDays: raw.calibration['window-days'],
+      minHindcastYears: raw.calibration['min-hindcast-years'],
+      minMembers: raw.calibration['min-members'],
+      cacheDir: path(raw.calibration['cache-dir']),
+    },
+    schedule: {
+      cron: raw.schedule.cron,
+      timezone: raw.schedule.timezone,
+      waitForDataMinutes: raw.schedule['wait-for-data-minutes'],
+      pollSeconds: raw.schedule['poll-seconds'],
+    },
+    delivery: {
+      from: d.from,
+      smtp: d.smtp ? toSmtp(d.smtp) : null,
+      outbox: path(d.outbox),
+      archive: path(d.archive),
+      operators: d.operators,
+      retries: d.retries,
+      retryBaseSeconds: d['retry-base-seconds'],
+    },
+    cautions: raw.cautions,
+    // The last band has no bound in YAML: it covers everything up to and including 1.
+    probabilityWords: words.map((w, i) => ({
+      below: i === words.length - 1 ? Number.POSITIVE_INFINITY : (w.below as number),
+      words: Object.fromEntries(Object.entries(w).filter(([k]) => k !== 'below')) as Record<string, string>,
+    })),
+    ledger: path(raw.ledger),
+    templates: path(raw.templates),
+  };
+}

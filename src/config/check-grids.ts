@@ -1,0 +1,54 @@
+/**
+ * "Region outside every grid" check, which needs the data: the caller reads each source's grid extent from
+ * its files and passes it here; problems are located at the region's entry in the YAML.
+ */
+import { pointerOf, problem } from './problem.ts';
+import { sourceMapOf } from './load-config.ts';
+import type { ConfigSourceMap } from './source-map.ts';
+import type { Config, RegionShape } from './types.ts';
+
+export interface GridExtent {
+  readonly source: string;
+  /** Extent of the grid-cell centres, degrees. */
+  readonly latMin: number;
+  readonly latMax: number;
+  readonly lonMin: number;
+  readonly lonMax: number;
+  /** True when the file's longitudes run 0..360 instead of -180..180. */
+  readonly lon360: boolean;
+}
+
+function bounds(shape: RegionShape): { south: number; north: number; west: number; east: number } {
+  if (shape.kind === 'box') return shape;
+  const lons = shape.ring.map((p) => p[0]);
+  const lats = shape.ring.map((p) => p[1]);
+  return { south: Math.min(...lats), north: Math.max(...lats), west: Math.min(...lons), east: Math.max(...lons) };
+}
+
+/** Region longitudes (-180..180) as intervals in the grid's convention; a box across 0° splits on a 0..360 grid. */
+function lonIntervals(west: number, east: number, lon360: boolean): [number, number][] {
+  if (!lon360) return [[west, east]];
+  if (west >= 0) return [[west, east]];
+  if (east < 0) return [[west + 360, east + 360]];
+  return [[west + 360, 360], [0, east]];
+}
+
+const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 && b0 <= a1;
+
+/** One `file:line:col: message — fix` line per region that lies entirely outside a source's grid. */
+export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined = sourceMapOf(config)): string[] {
+  const out: string[] = [];
+  config.regions.forEach((region, i) => {
+    const b = bounds(region.shape);
+    for (const g of grids) {
+      const latOk = overlaps(b.south, b.north, g.latMin, g.latMax);
+      const lonOk = lonIntervals(b.west, b.east, g.lon360).some(([w, e]) => overlaps(w, e, g.lonMin, g.lonMax));
+      if (latOk && lonOk) continue;
+      const p = problem(pointerOf('regions', i),
+        `region ${region.id} (lat ${b.south}..${b.north}, lon ${b.west}..${b.east}) lies outside the grid of source ${g.source} (lat ${g.latMin}..${g.latMax}, lon ${g.lonMin}..${g.lonMax})`,
+        'check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files');
+      out.push(sourceMap ? sourceMap.format(p) : `${config.file}: ${p.message} — ${p.fix}`);
+    }
+  });
+  return out;
+}

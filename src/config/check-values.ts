@@ -1,0 +1,66 @@
+/** Semantic checks on single values: e-mail addresses, cron expression, time zone, region shapes. */
+import { validate as validateCron } from 'node-cron';
+import { list, num, obj, text, type RawObject } from './raw-access.ts';
+import { pointerOf, problem, type ConfigProblem } from './problem.ts';
+
+/** Deliberately simple (no quoted local parts, no IP literals): local@label.label… */
+const EMAIL = /^[A-Za-z0-9.!#$%&'*+/=?^_`{|}~-]+@[A-Za-z0-9](?:[A-Za-z0-9-]{0,61}[A-Za-z0-9])?(?:\.[A-Za-z0-9](?:[A-Za-z0-9-]{0,61}[A-Za-z0-9])?)+$/;
+
+export function isEmailAddress(s: string): boolean {
+  return EMAIL.test(s) && !s.includes('..');
+}
+
+export function isTimeZone(tz: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: tz });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+export function checkValues(raw: RawObject): ConfigProblem[] {
+  const out: ConfigProblem[] = [];
+  const email = (v: unknown, ...path: (string | number)[]) => {
+    if (typeof v === 'string' && !isEmailAddress(v)) out.push(problem(pointerOf(...path), `malformed e-mail address "${v}"`, 'write it as name@domain, e.g. duty-officer@health.veloria.example'));
+  };
+  list(raw.teams).forEach((t, i) => list(obj(t).recipients).forEach((r, j) => email(r, 'teams', i, 'recipients', j)));
+  const delivery = obj(raw.delivery);
+  email(delivery.from, 'delivery', 'from');
+  list(delivery.operators).forEach((r, j) => email(r, 'delivery', 'operators', j));
+
+  const schedule = obj(raw.schedule);
+  const cron = text(schedule.cron);
+  if (cron !== undefined && !validateCron(cron)) {
+    out.push(problem(pointerOf('schedule', 'cron'), `invalid cron expression "${cron}"`, 'write 5 fields (minute hour day-of-month month day-of-week), e.g. "30 7 * * 1,4" for Monday and Thursday 07:30'));
+  }
+  const tz = text(schedule.timezone);
+  if (tz !== undefined && !isTimeZone(tz)) {
+    out.push(problem(pointerOf('schedule', 'timezone'), `unknown IANA time zone "${tz}"`, 'use a zone name such as Etc/GMT-1 (fixed UTC+1) or Africa/Lagos'));
+  }
+
+  list(raw.regions).forEach((r, i) => out.push(...checkShape(obj(r), i)));
+  return out;
+}
+
+function checkShape(r: RawObject, i: number): ConfigProblem[] {
+  const at = (...p: (string | number)[]) => pointerOf('regions', i, ...p);
+  if ((r.box === undefined) === (r.polygon === undefined)) {
+    return [problem(at(), r.box === undefined ? 'region has no shape' : 'region has both box and polygon', 'give exactly one of box: { south, north, west, east } or polygon: [[lon, lat], ...]')];
+  }
+  const out: ConfigProblem[] = [];
+  if (r.box !== undefined) {
+    const b = obj(r.box);
+    const [s, n, w, e] = [num(b.south), num(b.north), num(b.west), num(b.east)];
+    if (s !== undefined && n !== undefined && s >= n) out.push(problem(at('box', 'north'), `north ${n} is not north of south ${s}`, 'swap south and north'));
+    if (w !== undefined && e !== undefined && w >= e) out.push(problem(at('box', 'east'), `east ${e} is not east of west ${w}`, 'swap west and east (longitudes -180..180; a box may not cross 180°)'));
+    return out;
+  }
+  const ring = list(r.polygon).map((p) => list(p));
+  const first = ring[0];
+  const last = ring[ring.length - 1];
+  if (ring.length >= 4 && first && last && (first[0] !== last[0] || first[1] !== last[1])) {
+    out.push(problem(at('polygon', ring.length - 1), `polygon is not closed: last point [${last.join(', ')}] differs from the first [${first.join(', ')}]`, 'repeat the first point at the end'));
+  }
+  return out;
+}

@@ -1,0 +1,104 @@
+/**
+ * Loads, validates and resolves the operator configuration. Every problem (YAML syntax, schema, semantics,
+ * included files) is collected and reported at once as `file:line:column: message — fix`.
+ */
+import { dirname, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { ConfigError } from '../errors.ts';
+import { buildConfig } from './build-config.ts';
+import { checkIndicators } from './check-indicators.ts';
+import { checkDuplicateIds, checkReferences } from './check-references.ts';
+import { checkRules } from './check-rules.ts';
+import { checkTexts } from './check-texts.ts';
+import { checkValues } from './check-values.ts';
+import { pointerOf, problem, type ConfigProblem } from './problem.ts';
+import { obj, text } from './raw-access.ts';
+import { readYamlFile } from './read-yaml.ts';
+import { ConfigSourceMap, displayPath } from './source-map.ts';
+import type { Config } from './types.ts';
+import { validateAgainstSchema } from './validate-schema.ts';
+
+/** The configuration shipped with the package (the Veloria sample). */
+export const DEFAULT_CONFIG_PATH = fileURLToPath(new URL('../../config/forelight.yaml', import.meta.url));
+
+const INCLUDABLE = ['regions', 'teams'] as const;
+
+export interface ConfigCheck {
+  /** Present when there are no problems. */
+  readonly config?: Config;
+  readonly problems: readonly string[];
+  /** Positions of every key and value, for later messages (e.g. checkRegionsAgainstGrids). */
+  readonly sourceMap: ConfigSourceMap;
+}
+
+const sourceMaps = new WeakMap<Config, ConfigSourceMap>();
+
+/** The source map of a config returned by loadConfig/checkConfigFile (undefined for hand-made configs). */
+export function sourceMapOf(config: Config): ConfigSourceMap | undefined {
+  return sourceMaps.get(config);
+}
+
+/** Sort key `file:line:col` so that problems come out in reading order. */
+function byPosition(a: string, b: string): number {
+  const pa = /^(.*?):(\d+):(\d+):/.exec(a);
+  const pb = /^(.*?):(\d+):(\d+):/.exec(b);
+  if (!pa || !pb) return 0;
+  return pa[1].localeCompare(pb[1]) || Number(pa[2]) - Number(pb[2]) || Number(pa[3]) - Number(pb[3]);
+}
+
+export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promise<ConfigCheck> {
+  const file = resolve(path);
+  const sourceMap = new ConfigSourceMap();
+  const main = await readYamlFile(file);
+  if (!main.ok) return { problems: [`${displayPath(file)}:1:1: ${main.message} — ${main.fix}`], sourceMap };
+  sourceMap.addDocument(file, main.doc, main.lineCounter);
+  if (main.problems.length > 0) return { problems: main.problems, sourceMap };
+
+  const raw: Record<string, unknown> = { ...obj(main.value) };
+  const problems: string[] = [];
+  const pending: ConfigProblem[] = [];
+  let includesComplete = true;
+  const include = obj(raw.include);
+  for (const key of INCLUDABLE) {
+    const rel = text(include[key]);
+    if (rel === undefined) {
+      if (raw[key] === undefined) pending.push(problem('', `no ${key} given`, `add ${key}: inline or include: ${key}: <file>`));
+      continue;
+    }
+    const at = pointerOf('include', key);
+    if (raw[key] !== undefined) {
+      pending.push(problem(at, `${key} are given both inline and in an included file`, `keep one: delete the inline ${key}: or this include`));
+      continue;
+    }
+    const includedFile = resolve(dirname(file), rel);
+    const read = await readYamlFile(includedFile);
+    if (!read.ok) {
+      pending.push(problem(at, read.message, read.fix));
+      includesComplete = false;
+      continue;
+    }
+    sourceMap.addDocument(includedFile, read.doc, read.lineCounter, pointerOf(key));
+    problems.push(...read.problems);
+    if (read.problems.length > 0) includesComplete = false;
+    else raw[key] = read.value;
+  }
+
+  pending.push(...validateAgainstSchema(raw));
+  // Semantic checks need the included lists: without them every reference would look unknown.
+  if (includesComplete) {
+    pending.push(...checkDuplicateIds(raw), ...checkReferences(raw), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw));
+  }
+  problems.push(...pending.map((p) => sourceMap.format(p)));
+  const unique = [...new Set(problems)].sort(byPosition);
+  if (unique.length > 0) return { problems: unique, sourceMap };
+  const config = buildConfig(raw, file);
+  sourceMaps.set(config, sourceMap);
+  return { config, problems: [], sourceMap };
+}
+
+/** Loads a configuration (default: the packaged Veloria sample); throws ConfigError listing every problem. */
+export async function loadConfig(path?: string): Promise<Config> {
+  const { config, problems } = await checkConfigFile(path);
+  if (!config) throw new ConfigError(problems);
+  return config;
+}

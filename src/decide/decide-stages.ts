@@ -1,0 +1,79 @@
+/**
+ * The decide stage (pure): for each region × indicator × tier, raw stage from the rules, then persistence
+ * against the history; then each region's stage = the highest of its decisions. A region × indicator ×
+ * tier without any probability this run gets no decision and keeps its history track unchanged.
+ */
+import type { Config } from '../config/types.ts';
+import type { LeadProbability, StageDecision } from '../types.ts';
+import { evaluateRules } from './evaluate-rules.ts';
+import { applyPersistence } from './persistence.ts';
+import { TIER_ORDER, trackKey, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+
+export interface DecideInput {
+  readonly config: Config;
+  readonly probabilities: readonly LeadProbability[];
+  readonly history: StageHistory;
+  /** Rule id → probability threshold tuned on the hindcasts for rules that give cost-loss. */
+  readonly thresholdsFromCostLoss?: ReadonlyMap<string, number>;
+  /** "ignore" only for backtests on the hindcasts the skill was measured on (default "apply"). */
+  readonly skillGate?: 'apply' | 'ignore';
+}
+
+export interface DecideResult {
+  readonly decisions: StageDecision[];
+  readonly regionStages: RegionStage[];
+  readonly nextHistory: StageHistory;
+}
+
+export function decideStages(input: DecideInput): DecideResult {
+  const { config, history } = input;
+  const tuned = input.thresholdsFromCostLoss ?? new Map<string, number>();
+  const byKey = new Map<string, LeadProbability[]>();
+  for (const p of input.probabilities) {
+    const key = trackKey(p.region, p.indicator, p.lead.tier);
+    const list = byKey.get(key);
+    if (list) list.push(p);
+    else byKey.set(key, [p]);
+  }
+
+  const decisions: StageDecision[] = [];
+  const tracks: Record<string, StageTrack> = { ...history.tracks };
+  for (const region of config.regions) {
+    for (const indicator of config.indicators) {
+      for (const tier of TIER_ORDER) {
+        if (!indicator.tiers.includes(tier)) continue;
+        const key = trackKey(region.id, indicator.id, tier);
+        const probs = byKey.get(key);
+        if (!probs) continue;
+        const raw = evaluateRules(config, indicator.id, tier, probs, tuned, input.skillGate ?? 'apply');
+        const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
+        tracks[key] = kept.track;
+        decisions.push({
+          region: region.id,
+          indicator: indicator.id,
+          tier,
+          stageId: kept.stageId,
+          rawStageId: raw.rawStageId,
+          ruleId: raw.ruleId,
+          lead: raw.lead,
+          withheldLeads: raw.withheldLeads,
+          reasons: [...raw.reasons, ...kept.reasons, `issued: ${kept.stageId}`],
+        });
+      }
+    }
+  }
+  return { decisions, regionStages: combineRegionStages(config, decisions), nextHistory: { version: 1, tracks } };
+}
+
+/** Highest stage wins per region; on a tie the first decision in config order (indicator, then tier) wins. */
+export function combineRegionStages(config: Config, decisions: readonly StageDecision[]): RegionStage[] {
+  const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
+  return config.regions.map((region) => {
+    let best: StageDecision | null = null;
+    for (const d of decisions) {
+      if (d.region === region.id && (best === null || rank(d.stageId) > rank(best.stageId))) best = d;
+    }
+    if (best === null) return { region: region.id, stageId: config.stages[0].id, fromDecision: null };
+    return { region: region.id, stageId: best.stageId, fromDecision: { region: best.region, indicator: best.indicator, tier: best.tier } };
+  });
+}

@@ -1,0 +1,92 @@
+/**
+ * Raw stage of one region × indicator × tier from its lead probabilities: skill gate, trigger rules
+ * (P ≥ probability at a listed lead; cost/loss rules use the threshold tuned on the hindcasts), tier cap.
+ */
+import type { Config } from '../config/types.ts';
+import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
+import { leadName } from './types.ts';
+
+/** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
+const P_TOLERANCE = 1e-9;
+
+export interface RawStage {
+  readonly rawStageId: string;
+  readonly ruleId: string | null;
+  readonly lead: LeadProbability | null;
+  readonly withheldLeads: readonly LeadWindow[];
+  readonly reasons: readonly string[];
+}
+
+const fmt = (v: number) => String(+v.toFixed(3));
+
+/** Leads that may raise a stage, and the reasons for those that may not. */
+function applySkillGate(config: Config, probs: readonly LeadProbability[], reasons: string[]): { usable: LeadProbability[]; withheld: LeadWindow[] } {
+  const gate = config.decision.skillGate;
+  const scoreName = gate.score === 'rocArea' ? 'ROC area' : 'Brier skill score';
+  const usable: LeadProbability[] = [];
+  const withheld: LeadWindow[] = [];
+  for (const p of probs) {
+    const score = p.skill ? p.skill[gate.score] : Number.NaN;
+    if (Number.isFinite(score) && score >= gate.floor) {
+      usable.push(p);
+      continue;
+    }
+    const why = Number.isFinite(score) ? `${scoreName} ${fmt(score)} < ${gate.floor}` : 'no hindcast skill available';
+    reasons.push(`${leadName(p.lead.tier, p.lead.index)} withheld: ${why} — no demonstrated skill, treat as normal conditions`);
+    if (gate.action === 'say-no-skill') withheld.push(p.lead);
+  }
+  return { usable, withheld };
+}
+
+export function evaluateRules(
+  config: Config,
+  indicator: string,
+  tier: Tier,
+  probabilities: readonly LeadProbability[],
+  tuned: ReadonlyMap<string, number>,
+  skillGate: 'apply' | 'ignore',
+): RawStage {
+  const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
+  const reasons: string[] = [];
+  const probs = [...probabilities].filter((p) => Number.isFinite(p.probability)).sort((a, b) => a.lead.index - b.lead.index);
+  const { usable, withheld } = skillGate === 'apply' ? applySkillGate(config, probs, reasons) : { usable: probs, withheld: [] };
+
+  let best: { rank: number; ruleId: string; lead: LeadProbability } | null = null;
+  for (const rule of config.rules) {
+    if (rule.indicator !== indicator || rule.tier !== tier) continue;
+    const threshold = rule.probability ?? tuned.get(rule.id);
+    if (threshold === undefined) {
+      reasons.push(`rule ${rule.id} not tuned (cost/loss ${rule.costLoss} needs a probability tuned on the hindcasts) — skipped`);
+      continue;
+    }
+    const origin = rule.probability === undefined ? `, tuned for cost/loss ${rule.costLoss}` : '';
+    const leads = usable.filter((p) => rule.leads.length === 0 || rule.leads.includes(p.lead.index));
+    if (leads.length === 0) {
+      reasons.push(`rule ${rule.id}: no usable lead among ${rule.leads.length === 0 ? 'all leads' : rule.leads.map((l) => leadName(tier, l)).join(', ')}`);
+      continue;
+    }
+    // The lead with the highest probability speaks for the rule (earliest lead on ties).
+    const top = leads.reduce((a, b) => (b.probability > a.probability ? b : a));
+    const name = `P(${leadName(tier, top.lead.index)}) = ${fmt(top.probability)}`;
+    if (top.probability >= threshold - P_TOLERANCE) {
+      reasons.push(`${name} ≥ ${fmt(threshold)} (rule ${rule.id}${origin}) → ${rule.stage}`);
+      const r = rank(rule.stage);
+      if (!best || r > best.rank) best = { rank: r, ruleId: rule.id, lead: top };
+    } else {
+      reasons.push(`${name} < ${fmt(threshold)} (rule ${rule.id}${origin}) — not fired`);
+    }
+  }
+
+  const lowest = config.stages[0].id;
+  if (!best) {
+    reasons.push(`no rule fired → ${lowest}`);
+    return { rawStageId: lowest, ruleId: null, lead: null, withheldLeads: withheld, reasons };
+  }
+  let rawStageId = config.stages[best.rank].id;
+  const cap = config.decision.tierCaps[tier];
+  if (cap !== undefined && best.rank > rank(cap)) {
+    reasons.push(`capped at ${cap} for tier ${tier} (rule ${best.ruleId} gives ${rawStageId})`);
+    rawStageId = cap;
+  }
+  return { rawStageId, ruleId: best.ruleId, lead: best.lead, withheldLeads: withheld, reasons };
+}

@@ -1,0 +1,66 @@
+/**
+ * Plain-text explanation of one decision: inputs → threshold → probability and base rate → skill → rule →
+ * persistence → stage, with the numbers. Reads only the decision, the probabilities and the ladder.
+ */
+import type { Config } from '../config/types.ts';
+import type { LeadProbability, StageDecision } from '../types.ts';
+import { leadName, type StageTrack } from './types.ts';
+
+/** Summary of the ensemble values at one lead, as computed by the caller. */
+export interface EnsembleSummary {
+  readonly min: number;
+  readonly median: number;
+  readonly max: number;
+  readonly units: string;
+}
+
+export interface ExplainInput {
+  readonly config: Config;
+  readonly decision: StageDecision;
+  /** Probabilities of this run; those of other region × indicator × tier are ignored. */
+  readonly probabilities: readonly LeadProbability[];
+  /** Persistence track before this run (undefined: no history). */
+  readonly previous?: StageTrack;
+  /** Lead index → ensemble values summary. */
+  readonly values?: ReadonlyMap<number, EnsembleSummary>;
+}
+
+const n = (v: number) => (Number.isFinite(v) ? String(+v.toFixed(2)) : 'n/a');
+
+function trackText(t: StageTrack | undefined): string {
+  if (!t) return 'no previous run recorded (starts from the lowest stage)';
+  const parts = [`issued ${t.stageId}`];
+  if (t.runsAbove > 0) parts.push(`${t.runsAbove} run(s) above, lowest ${t.lowestAboveId}`);
+  if (t.runsBelow > 0) parts.push(`${t.runsBelow} run(s) below, highest ${t.highestBelowId}`);
+  return parts.join('; ');
+}
+
+export function explainDecision(input: ExplainInput): string[] {
+  const { config, decision: d } = input;
+  const stage = (id: string) => config.stages.find((s) => s.id === id);
+  const label = (id: string) => `${stage(id)?.glyph ?? ''} ${stage(id)?.label.en ?? id} (${id})`.trim();
+  const region = config.regions.find((r) => r.id === d.region)?.name ?? d.region;
+  const indicator = config.indicators.find((i) => i.id === d.indicator)?.name ?? d.indicator;
+  const gate = config.decision.skillGate;
+  const lines = [`${region} · ${indicator} · ${d.tier}`];
+  const probs = input.probabilities
+    .filter((p) => p.region === d.region && p.indicator === d.indicator && p.lead.tier === d.tier)
+    .sort((a, b) => a.lead.index - b.lead.index);
+  const first = probs[0];
+  if (first) lines.push(`threshold: ${n(first.threshold.value)} ${first.threshold.units} — ${first.threshold.origin}${first.calibrated ? '' : ' (not calibrated on hindcasts)'}`);
+  for (const p of probs) {
+    const v = input.values?.get(p.lead.index);
+    const values = v ? `values min ${n(v.min)} / median ${n(v.median)} / max ${n(v.max)} ${v.units}; ` : '';
+    const skill = p.skill
+      ? `skill ROC area ${n(p.skill.rocArea)}, BSS ${n(p.skill.brierSkillScore)} (${p.skill.basis}, ${p.skill.cases} cases)`
+      : 'skill unknown';
+    const gated = !p.skill || !(p.skill[gate.score] >= gate.floor) ? ' — below the skill floor' : '';
+    const flags = p.flags.length > 0 ? `; flags: ${p.flags.join(', ')}` : '';
+    lines.push(`${leadName(p.lead.tier, p.lead.index)} (${p.lead.start}..${p.lead.end}): ${values}P(> threshold) = ${n(p.probability)} from ${p.validMembers}/${p.members} members, base rate ${n(p.baseRate)}; ${skill}${gated}${flags}`);
+  }
+  if (probs.length === 0) lines.push('no probabilities for this region, indicator and tier');
+  lines.push(`persistence before this run: ${trackText(input.previous)}`);
+  for (const r of d.reasons) lines.push(`· ${r}`);
+  lines.push(`raw stage ${label(d.rawStageId)}${d.ruleId ? ` from rule ${d.ruleId}` : ''}; issued stage ${label(d.stageId)}`);
+  return lines;
+}

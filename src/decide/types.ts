@@ -1,0 +1,60 @@
+/**
+ * Types of the decide stage that are not boundary types of src/types.ts: the persistence history (stored
+ * by the ledger as JSON), the combined stage per region, and stage changes for dry-run output.
+ */
+import type { Tier } from '../types.ts';
+
+/**
+ * Persistence state of one region × indicator × tier. Counters count consecutive runs whose raw stage
+ * (after skill gate and tier cap) was above / below the issued stage; both reset whenever the issued stage
+ * changes or the raw stage equals it.
+ */
+export interface StageTrack {
+  /** Stage issued by the last run. */
+  readonly stageId: string;
+  /** Consecutive runs with a raw stage above `stageId`. */
+  readonly runsAbove: number;
+  /** Lowest raw stage seen in those runs (the stage escalated to), null when runsAbove = 0. */
+  readonly lowestAboveId: string | null;
+  /** Consecutive runs with a raw stage below `stageId`. */
+  readonly runsBelow: number;
+  /** Highest raw stage seen in those runs (the stage relaxed to), null when runsBelow = 0. */
+  readonly highestBelowId: string | null;
+}
+
+/** All tracks, keyed by `trackKey(region, indicator, tier)`. Plain JSON. */
+export interface StageHistory {
+  readonly version: 1;
+  readonly tracks: Readonly<Record<string, StageTrack>>;
+}
+
+export const EMPTY_HISTORY: StageHistory = { version: 1, tracks: {} };
+
+export function trackKey(region: string, indicator: string, tier: Tier): string {
+  return `${region}|${indicator}|${tier}`;
+}
+
+/** The stage of a region after combining its indicators and tiers (highest wins). */
+export interface RegionStage {
+  readonly region: string;
+  readonly stageId: string;
+  /** The decision that set the stage; null when the region had no decision (lowest stage). */
+  readonly fromDecision: { readonly region: string; readonly indicator: string; readonly tier: Tier } | null;
+}
+
+/** One region whose combined stage differs between two runs. */
+export interface StageChange {
+  readonly region: string;
+  /** null: the region was not in the previous run. */
+  readonly from: string | null;
+  /** null: the region is not in the current run. */
+  readonly to: string | null;
+  readonly why: string;
+}
+
+export const TIER_ORDER: readonly Tier[] = ['days', 'weeks', 'months'];
+
+/** "day 3", "week 2", "month 1". */
+export function leadName(tier: Tier, index: number): string {
+  return `${tier.slice(0, -1)} ${index}`;
+}

@@ -1,0 +1,177 @@
+/**
+ * Deliver every pending bulletin × recipient recorded in the ledger, one message per recipient (so one
+ * rejected address never blocks the others, and each recipient has its own status and Message-ID).
+ *
+ * Exactly-once, as far as SMTP allows. Each delivery is claimed (pending → sending, committed) before the
+ * SMTP transaction and marked sent right after the server's 250 reply. A crash before the claim or after
+ * the mark loses and duplicates nothing. The one residual window is between the server accepting DATA and
+ * the `sent` row committing (a few milliseconds of local SQLite work): a process killed there leaves the
+ * row `sending`; the next start cannot know whether the server kept the message, so it sends it again —
+ * at-least-once, with the SAME Message-ID, which receiving systems and clients use to collapse duplicates.
+ * We prefer a possible duplicate to a lost health advisory. Claims of a live process are never taken over.
+ */
+import { hostname } from 'node:os';
+import { randomUUID } from 'node:crypto';
+import type Mail from 'nodemailer/lib/mailer/index.js';
+import type { DeliveryConfig } from '../config/types.ts';
+import { describeError } from '../errors.ts';
+import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
+import {
+  claimDelivery, getDelivery, listDeliveries, markDelivery, releaseClaim, toReceipt, type DeliveryRecord,
+} from '../ledger/deliveries.ts';
+import type { Ledger } from '../ledger/open-ledger.ts';
+import type { Logger } from '../log.ts';
+import { isProcessAlive } from '../schedule/process-alive.ts';
+import type { DeliveryReceipt } from '../types.ts';
+import { composeMessage, messageIdFor, renderEml } from './compose-message.ts';
+import { notifyOperators } from './operator-notice.ts';
+import { ensureOutboxWritable, outboxBaseName, writeOutboxFiles } from './outbox.ts';
+import { classifySmtpError, createSmtpTransport, type SmtpTransporter } from './smtp-transport.ts';
+
+/** Points where `onStep` is awaited (fault injection in tests: pause, crash). */
+export type DeliveryStep = 'claimed' | 'accepted' | 'recorded';
+
+export interface DeliverOptions {
+  /** Only this run's deliveries (default: every pending delivery in the ledger). */
+  readonly runId?: number;
+  readonly sleep?: (ms: number) => Promise<void>;
+  readonly env?: NodeJS.ProcessEnv;
+  readonly onStep?: (step: DeliveryStep, delivery: DeliveryRecord) => Promise<void> | void;
+  /** A `sending` claim from another host is taken over after this long (default 3600 s). */
+  readonly staleClaimSeconds?: number;
+}
+
+export interface DeliverySummary {
+  readonly receipts: readonly DeliveryReceipt[];
+  readonly sent: number;
+  readonly outbox: number;
+  readonly failed: number;
+  /** Left pending for the next run (nothing could be tried). */
+  readonly pending: number;
+  /** Claims of dead processes put back to pending and retried (possible duplicates, same Message-ID). */
+  readonly reclaimed: number;
+}
+
+/** Claim tokens of deliverPending calls running in this process. */
+const activeTokens = new Set<string>();
+
+const defaultSleep = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
+
+/** Put `sending` rows whose claimer is gone back to pending; returns how many. */
+function reclaimDeadClaims(ledger: Ledger, staleClaimSeconds: number, log: Logger): number {
+  let reclaimed = 0;
+  for (const d of listDeliveries(ledger, { statuses: ['sending'] })) {
+    const [host, pidText, token] = (d.claimedBy ?? '').split(':');
+    const pid = Number(pidText);
+    const ageSeconds = (ledger.now().getTime() - Date.parse(d.claimedAt ?? '')) / 1000;
+    const claimerAlive = host === hostname()
+      ? activeTokens.has(token) || (pid !== process.pid && isProcessAlive(pid))
+      : !(ageSeconds > staleClaimSeconds);
+    if (claimerAlive) continue;
+    const note = `claim by ${d.claimedBy} abandoned (process ended during sending); re-sent with the same Message-ID`;
+    if (releaseClaim(ledger, d.id, d.claimedBy ?? '', note)) {
+      reclaimed++;
+      log.warn('re-sending a delivery interrupted during SMTP; the recipient may get it twice (same Message-ID)', {
+        deliveryId: d.id, recipient: d.recipient, messageId: d.messageId,
+      });
+    }
+  }
+  return reclaimed;
+}
+
+async function sendWithRetry(transport: SmtpTransporter, message: Mail.Options,
+  delivery: DeliveryConfig, sleep: (ms: number) => Promise<void>, log: Logger): Promise<void> {
+  for (let attempt = 0; ; attempt++) {
+    try {
+      await transport.sendMail(message);
+      return;
+    } catch (err) {
+      const failure = classifySmtpError(err);
+      if (!failure.temporary || attempt >= delivery.retries) throw Object.assign(new Error(failure.detail), { failure });
+      const waitMs = delivery.retryBaseSeconds * 1000 * 2 ** attempt;
+      log.warn('temporary SMTP failure, will retry', { to: message.to, attempt: attempt + 1, waitMs, error: failure.detail });
+      await sleep(waitMs);
+    }
+  }
+}
+
+export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, log: Logger, options: DeliverOptions = {}): Promise<DeliverySummary> {
+  const sleep = options.sleep ?? defaultSleep;
+  const reclaimed = reclaimDeadClaims(ledger, options.staleClaimSeconds ?? 3600, log);
+  const todo = listDeliveries(ledger, { statuses: ['pending'], runId: options.runId });
+  const receipts: DeliveryReceipt[] = [];
+  const counts = { sent: 0, outbox: 0, failed: 0, pending: 0 };
+  if (todo.length === 0) return { receipts, ...counts, reclaimed };
+
+  // Problems that affect every message are raised before anything is claimed: all stay pending.
+  const transport = delivery.smtp ? createSmtpTransport(delivery.smtp, options.env ?? process.env) : null;
+  if (!transport) ensureOutboxWritable(delivery.outbox);
+
+  const token = randomUUID();
+  const claimer = `${hostname()}:${process.pid}:${token}`;
+  const bulletins = new Map<number, StoredBulletin>();
+  const problems: string[] = [];
+  activeTokens.add(token);
+  try {
+    for (const pending of todo) {
+      const bulletin = bulletins.get(pending.bulletinRowId) ?? readBulletin(ledger, pending.bulletinRowId);
+      bulletins.set(bulletin.rowId, bulletin);
+      const claimed = claimDelivery(ledger, pending.id, claimer, messageIdFor(bulletin.runId, bulletin.id, pending.recipient, delivery.from));
+      if (!claimed) continue;
+      await options.onStep?.('claimed', claimed);
+      const message = composeMessage(bulletin, claimed.recipient, delivery.from, claimed.messageId ?? '');
+      const base = outboxBaseName(bulletin.forecastKey, bulletin.runId, bulletin.team, claimed.recipient);
+      const dlog = log.child({ deliveryId: claimed.id, bulletin: bulletin.id, recipient: claimed.recipient });
+      let status: 'sent' | 'outbox' | 'failed';
+      let error: string | undefined;
+      let outboxPath: string | undefined;
+      if (transport) {
+        const sendError = await sendWithRetry(transport, message, delivery, sleep, dlog).then(() => null, (err: unknown) => err);
+        if (sendError === null) {
+          await options.onStep?.('accepted', claimed);
+          status = 'sent';
+        } else {
+          const failure = (sendError as { failure?: { temporary: boolean; detail: string } }).failure;
+          status = failure && !failure.temporary ? 'failed' : 'outbox';
+          error = failure?.detail ?? describeError(sendError);
+        }
+      } else {
+        status = 'outbox';
+      }
+      if (status !== 'sent') {
+        try {
+          [outboxPath] = writeOutboxFiles(delivery.outbox, base, [
+            { ext: 'eml', content: await renderEml(message) },
+            { ext: 'html', content: bulletin.html },
+          ]);
+        } catch (err) {
+          markDelivery(ledger, claimed.id, 'pending', { error: `${error ? error + ' | ' : ''}${describeError(err)}` });
+          counts.pending++;
+          dlog.error('delivery kept pending: outbox not writable', { error: describeError(err) });
+          if (!transport) throw err;
+          problems.push(`${claimed.recipient} (${bulletin.team}): ${error} — NOT in the outbox: ${describeError(err)}`);
+          continue;
+        }
+        if (transport) {
+          problems.push(`${claimed.recipient} (${bulletin.team}): ${error} — copy in ${outboxPath}`);
+          dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
+        }
+      }
+      markDelivery(ledger, claimed.id, status, { error, outboxPath });
+      counts[status]++;
+      const done = getDelivery(ledger, claimed.id);
+      receipts.push(toReceipt({ ...done, status }, bulletin.id));
+      await options.onStep?.('recorded', done);
+    }
+    if (problems.length > 0) {
+      await notifyOperators(transport, delivery, `${problems.length} bulletin deliveries failed`,
+        `Forelight could not deliver these bulletins by e-mail:\n\n${problems.map((p) => `- ${p}`).join('\n')}\n\n` +
+        'Forward the outbox copies by hand or fix the addresses in the teams configuration.\n', log);
+    }
+  } finally {
+    activeTokens.delete(token);
+    transport?.close();
+  }
+  log.info('delivery finished', { ...counts, reclaimed });
+  return { receipts, ...counts, reclaimed };
+}

@@ -1,0 +1,59 @@
+/**
+ * The outbox folder: messages that could not (or, with `smtp: null`, should not) be sent by SMTP are written
+ * here as `.eml` (RFC 5322, open with any mail client) plus `.html` for a browser. Files are written to a
+ * temporary name and renamed, so a crash never leaves half a message; re-writing the same message replaces it.
+ */
+import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { join, resolve, sep } from 'node:path';
+import { DeliveryError } from '../errors.ts';
+
+/** File-name-safe part: ASCII letters, digits, `.`, `_`, `-` only; no leading dot; at most 80 characters. */
+export function safeNamePart(value: string): string {
+  const cleaned = value.replace(/[^A-Za-z0-9._-]+/g, '_').replace(/^[._]+/, '').slice(0, 80);
+  return cleaned === '' ? 'x' : cleaned;
+}
+
+/** `<forecast>_r<run>_<team>_<recipient>`, each part made safe: no path traversal from team names or addresses. */
+export function outboxBaseName(forecastKey: string, runId: number, team: string, recipient: string): string {
+  return [safeNamePart(forecastKey), `r${runId}`, safeNamePart(team), safeNamePart(recipient)].join('_');
+}
+
+function outboxError(dir: string, err: unknown): DeliveryError {
+  const code = (err as NodeJS.ErrnoException).code ?? 'error';
+  return new DeliveryError(
+    `outbox folder ${dir} is not writable (${code})`,
+    'create it or fix its permissions, or set delivery.outbox to a writable folder; unsent bulletins stay pending in the ledger',
+    false,
+    { cause: err },
+  );
+}
+
+/** Create the folder if needed and prove it is writable (write + remove a probe file). */
+export function ensureOutboxWritable(dir: string): void {
+  try {
+    mkdirSync(dir, { recursive: true });
+    const probe = join(dir, `.probe-${process.pid}`);
+    writeFileSync(probe, '');
+    rmSync(probe);
+  } catch (err) {
+    throw outboxError(dir, err);
+  }
+}
+
+/** Write `<base>.<ext>` files atomically; returns their paths in the given order. */
+export function writeOutboxFiles(dir: string, baseName: string, files: readonly { ext: string; content: string | Uint8Array }[]): string[] {
+  const root = resolve(dir);
+  try {
+    mkdirSync(root, { recursive: true });
+    return files.map(({ ext, content }) => {
+      const path = join(root, `${safeNamePart(baseName)}.${safeNamePart(ext)}`);
+      if (!path.startsWith(root + sep)) throw new Error(`refusing to write outside ${root}`);
+      const tmp = `${path}.tmp-${process.pid}`;
+      writeFileSync(tmp, content);
+      renameSync(tmp, path);
+      return path;
+    });
+  } catch (err) {
+    throw outboxError(dir, err);
+  }
+}

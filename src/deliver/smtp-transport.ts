@@ -1,0 +1,57 @@
+/**
+ * SMTP transport from `delivery.smtp` and classification of SMTP failures into temporary (retry: 4xx replies,
+ * timeouts, refused or dropped connections) and permanent (5xx replies, authentication, malformed message).
+ */
+import nodemailer, { type Transporter } from 'nodemailer';
+import type SMTPTransport from 'nodemailer/lib/smtp-transport/index.js';
+import type { SmtpConfig } from '../config/types.ts';
+import { DeliveryError } from '../errors.ts';
+
+export type SmtpTransporter = Transporter<SMTPTransport.SentMessageInfo>;
+
+/** The SMTP password from the environment variable named in `smtp.passwordEnv`; undefined without `smtp.user`. */
+export function smtpPassword(smtp: SmtpConfig, env: NodeJS.ProcessEnv): string | undefined {
+  if (!smtp.user) return undefined;
+  if (!smtp.passwordEnv) {
+    throw new DeliveryError('smtp.user is set but smtp.passwordEnv is not', 'name the environment variable holding the password in smtp.passwordEnv', false);
+  }
+  const value = env[smtp.passwordEnv];
+  if (value === undefined || value === '') {
+    throw new DeliveryError(`environment variable ${smtp.passwordEnv} is not set`, 'export it or remove smtp.user', false);
+  }
+  return value;
+}
+
+export function createSmtpTransport(smtp: SmtpConfig, env: NodeJS.ProcessEnv = process.env): SmtpTransporter {
+  const pass = smtpPassword(smtp, env);
+  const timeoutMs = Math.max(1, Math.round(smtp.timeoutSeconds * 1000));
+  return nodemailer.createTransport({
+    host: smtp.host,
+    port: smtp.port,
+    secure: smtp.security === 'tls',
+    requireTLS: smtp.security === 'starttls',
+    ignoreTLS: smtp.security === 'none',
+    auth: smtp.user ? { user: smtp.user, pass } : undefined,
+    connectionTimeout: timeoutMs,
+    greetingTimeout: timeoutMs,
+    socketTimeout: timeoutMs,
+    dnsTimeout: timeoutMs,
+  });
+}
+
+/** nodemailer error codes without an SMTP reply that a later attempt may get past. */
+const TEMPORARY_CODES = new Set(['ECONNECTION', 'ETIMEDOUT', 'ESOCKET', 'EDNS', 'ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'EPROTOCOL']);
+
+export interface SmtpFailure {
+  readonly temporary: boolean;
+  /** One line: code, SMTP reply code and text. */
+  readonly detail: string;
+}
+
+export function classifySmtpError(err: unknown): SmtpFailure {
+  const e = err as { code?: string; responseCode?: number; response?: string; message?: string };
+  const text = (e.response ?? e.message ?? String(err)).replace(/\s+/g, ' ').trim();
+  const detail = [e.code, e.responseCode, text].filter((x) => x !== undefined && x !== '').join(' ');
+  if (typeof e.responseCode === 'number') return { temporary: e.responseCode >= 400 && e.responseCode < 500, detail };
+  return { temporary: e.code !== undefined && TEMPORARY_CODES.has(e.code), detail };
+}

@@ -1,0 +1,138 @@
+/**
+ * Runs: one row per attempt to issue the bulletins of a forecast key (the forecast date, e.g. "2026-11-26").
+ * A key is issued once; a second start for the same key resumes an unfinished run or does nothing, unless forced.
+ */
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { stat } from 'node:fs/promises';
+import { ForelightError } from '../errors.ts';
+import { isProcessAlive } from '../schedule/process-alive.ts';
+import { stamp, type Ledger } from './open-ledger.ts';
+
+export type RunStatus = 'running' | 'ok' | 'partial' | 'nothing-new' | 'failed' | 'abandoned';
+
+export interface RunRecord {
+  readonly id: number;
+  readonly forecastKey: string;
+  readonly startedAt: string;
+  readonly finishedAt: string | null;
+  readonly status: RunStatus;
+  readonly forced: boolean;
+  readonly error: string | null;
+  readonly host: string;
+  readonly pid: number;
+}
+
+/**
+ * `new`: start from scratch. `resumed`: an earlier run for this key crashed or left deliveries unsent;
+ * continue it (skip rendering when `hasBulletins(ledger, run.id)`). `already-issued`: nothing to do — the key
+ * was issued, or was superseded by a newer forecast (run.status `abandoned`); `force` issues it again.
+ */
+export type BeginRun =
+  | { readonly kind: 'new'; readonly run: RunRecord }
+  | { readonly kind: 'resumed'; readonly run: RunRecord }
+  | { readonly kind: 'already-issued'; readonly run: RunRecord };
+
+interface RunRow {
+  id: number; forecast_key: string; started_at: string; finished_at: string | null; status: RunStatus;
+  forced: number; error: string | null; host: string; pid: number;
+}
+
+const toRecord = (r: RunRow): RunRecord => ({
+  id: r.id, forecastKey: r.forecast_key, startedAt: r.started_at, finishedAt: r.finished_at, status: r.status,
+  forced: r.forced === 1, error: r.error, host: r.host, pid: r.pid,
+});
+
+export function getRun(ledger: Ledger, runId: number): RunRecord {
+  const row = ledger.db.prepare('SELECT * FROM runs WHERE id = ?').get(runId) as RunRow | undefined;
+  if (!row) throw new ForelightError('ledger', 'run-unknown', `run ${runId} is not in ledger ${ledger.path}`, 'list runs with "forelight status"');
+  return toRecord(row);
+}
+
+const UNFINISHED = `(status IN ('running', 'failed')
+  OR EXISTS (SELECT 1 FROM deliveries d JOIN bulletins b ON b.id = d.bulletin_id
+             WHERE b.run_id = runs.id AND d.status IN ('pending', 'sending')))`;
+
+export function beginRun(ledger: Ledger, forecastKey: string, options: { force?: boolean } = {}): BeginRun {
+  const { db, owner } = ledger;
+  return db.transaction((): BeginRun => {
+    const latest = db.prepare(`SELECT * FROM runs WHERE forecast_key = ? ORDER BY id DESC LIMIT 1`)
+      .get(forecastKey) as RunRow | undefined;
+    if (latest && latest.status === 'running' && latest.host === owner.host && latest.pid !== owner.pid
+      && isProcessAlive(latest.pid)) {
+      throw new ForelightError('ledger', 'run-in-progress',
+        `forecast ${forecastKey} is being issued by process ${latest.pid} (run ${latest.id})`,
+        'wait for it to finish or stop that process');
+    }
+    if (latest && !options.force) {
+      const unfinished = db.prepare(`SELECT 1 FROM runs WHERE id = ? AND ${UNFINISHED}`).get(latest.id);
+      if (!unfinished) return { kind: 'already-issued', run: toRecord(latest) };
+      db.prepare(`UPDATE runs SET status = 'running', finished_at = NULL, host = ?, pid = ? WHERE id = ?`)
+        .run(owner.host, owner.pid, latest.id);
+      abandonOthers(ledger, latest.id);
+      return { kind: 'resumed', run: getRun(ledger, latest.id) };
+    }
+    const id = Number(db.prepare(`INSERT INTO runs (forecast_key, started_at, status, forced, host, pid)
+      VALUES (?, ?, 'running', ?, ?, ?)`).run(forecastKey, stamp(ledger), options.force ? 1 : 0, owner.host, owner.pid).lastInsertRowid);
+    abandonOthers(ledger, id);
+    return { kind: 'new', run: getRun(ledger, id) };
+  }).immediate();
+}
+
+/**
+ * A newer run makes every other unfinished run stale: its unsent deliveries become `superseded`
+ * so that old advice is never sent later as if it were new.
+ */
+function abandonOthers(ledger: Ledger, keepRunId: number): void {
+  const now = stamp(ledger);
+  const stale = ledger.db.prepare(`SELECT id FROM runs WHERE id <> ? AND ${UNFINISHED}`).all(keepRunId) as { id: number }[];
+  for (const { id } of stale) {
+    ledger.db.prepare(`UPDATE deliveries SET status = 'superseded', updated_at = ?,
+      last_error = coalesce(last_error || ' | ', '') || 'superseded by run ' || ?
+      WHERE status IN ('pending', 'sending') AND bulletin_id IN (SELECT id FROM bulletins WHERE run_id = ?)`).run(now, keepRunId, id);
+    ledger.db.prepare(`UPDATE runs SET status = CASE WHEN status IN ('running', 'failed') THEN 'abandoned' ELSE status END,
+      finished_at = coalesce(finished_at, ?) WHERE id = ?`).run(now, id);
+  }
+}
+
+export function finishRun(ledger: Ledger, runId: number, status: Exclude<RunStatus, 'running' | 'abandoned'>, error?: string): RunRecord {
+  ledger.db.prepare('UPDATE runs SET status = ?, finished_at = ?, error = ? WHERE id = ?').run(status, stamp(ledger), error ?? null, runId);
+  return getRun(ledger, runId);
+}
+
+/** Latest run that completed (ok, partial or nothing-new): the reference for catch-up after downtime. */
+export function lastCompletedRun(ledger: Ledger): RunRecord | null {
+  const row = ledger.db.prepare(`SELECT * FROM runs WHERE status IN ('ok', 'partial', 'nothing-new')
+    ORDER BY started_at DESC, id DESC LIMIT 1`).get() as RunRow | undefined;
+  return row ? toRecord(row) : null;
+}
+
+export interface InputFileRecord {
+  readonly path: string;
+  readonly sha256: string;
+  readonly sizeBytes: number;
+  readonly source: string;
+  /** ISO 8601 UTC forecast reference time. */
+  readonly referenceTime: string;
+}
+
+/** Hash a file (streamed) for `recordInputs`. */
+export async function describeInputFile(path: string, source: string, referenceTime: string): Promise<InputFileRecord> {
+  const hash = createHash('sha256');
+  for await (const chunk of createReadStream(path)) hash.update(chunk as Buffer);
+  return { path, sha256: hash.digest('hex'), sizeBytes: (await stat(path)).size, source, referenceTime };
+}
+
+export function recordInputs(ledger: Ledger, runId: number, files: readonly InputFileRecord[]): void {
+  const insert = ledger.db.prepare(`INSERT OR REPLACE INTO input_files (run_id, path, sha256, size_bytes, source, reference_time)
+    VALUES (?, ?, ?, ?, ?, ?)`);
+  ledger.db.transaction(() => {
+    for (const f of files) insert.run(runId, f.path, f.sha256, f.sizeBytes, f.source, f.referenceTime);
+  })();
+}
+
+export function runInputs(ledger: Ledger, runId: number): InputFileRecord[] {
+  return (ledger.db.prepare('SELECT * FROM input_files WHERE run_id = ? ORDER BY path').all(runId) as
+    { path: string; sha256: string; size_bytes: number; source: string; reference_time: string }[])
+    .map((r) => ({ path: r.path, sha256: r.sha256, sizeBytes: r.size_bytes, source: r.source, referenceTime: r.reference_time }));
+}

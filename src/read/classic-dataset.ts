@@ -1,0 +1,114 @@
+/**
+ * Dataset over a classic-family file (CDF-1, CDF-2, CDF-5): the header is parsed from a prefix, data
+ * are read by positional reads of only the needed bytes (see classic-hyperslab.ts) into one reused
+ * buffer and decoded big-endian. Offsets are JavaScript numbers, exact up to 2^53 bytes.
+ */
+import type { FileHandle } from 'node:fs/promises';
+import { InputError } from '../errors.ts';
+import type { Dataset, DatasetFormat, DimensionInfo, VariableInfo } from './dataset.ts';
+import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, decodeBigEndian, parseClassicHeader } from './classic-header.ts';
+import { planReads, validateSelection } from './classic-hyperslab.ts';
+
+const FIRST_PREFIX_BYTES = 64 * 1024;
+const FORMATS: Record<number, DatasetFormat> = { 1: 'classic', 2: '64bit-offset', 5: 'cdf5' };
+
+function truncated(file: string, expected: number, found: number): InputError {
+  return new InputError('input-truncated', file, `file is truncated: expected ${expected} bytes, found ${found}`, 're-download it');
+}
+
+async function readExactly(handle: FileHandle, buf: Buffer, bytes: number, position: number): Promise<number> {
+  let done = 0;
+  while (done < bytes) {
+    const { bytesRead } = await handle.read(buf, done, bytes - done, position + done);
+    if (bytesRead === 0) break;
+    done += bytesRead;
+  }
+  return done;
+}
+
+async function readHeader(file: string, handle: FileHandle, fileBytes: number): Promise<ClassicHeader> {
+  for (let want = Math.min(FIRST_PREFIX_BYTES, fileBytes); ; want = Math.min(want * 4, fileBytes)) {
+    const prefix = Buffer.alloc(want);
+    await readExactly(handle, prefix, want, 0);
+    try {
+      return parseClassicHeader(prefix);
+    } catch (err) {
+      if (!(err instanceof HeaderNeedsMoreBytes)) {
+        throw new InputError('input-corrupt', file, `NetCDF classic header is malformed (${(err as Error).message})`, 're-download the file or check it with `ncdump -h`', { cause: err });
+      }
+      if (want >= fileBytes) {
+        throw new InputError('input-truncated', file, `file is truncated: the NetCDF header continues past the end of the file (${fileBytes} bytes)`, 're-download it');
+      }
+    }
+  }
+}
+
+class ClassicDataset implements Dataset {
+  private readonly byName: Map<string, ClassicVariable>;
+  private buffer = Buffer.allocUnsafeSlow(64 * 1024);
+
+  constructor(
+    readonly path: string,
+    readonly format: DatasetFormat,
+    private readonly handle: FileHandle,
+    private readonly header: ClassicHeader,
+    readonly dimensions: readonly DimensionInfo[],
+    readonly variables: readonly ClassicVariable[],
+  ) {
+    this.byName = new Map(variables.map((v) => [v.name, v]));
+  }
+
+  get attributes() {
+    return this.header.attributes;
+  }
+
+  variable(name: string): VariableInfo | undefined {
+    return this.byName.get(name);
+  }
+
+  async readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
+    const v = this.byName.get(name);
+    if (!v) throw new InputError('input-variable', this.path, `variable '${name}' not found`, `use one of: ${this.variables.map((x) => x.name).join(', ')}`);
+    validateSelection(this.path, v, start, count);
+    const strides = new Array<number>(v.shape.length);
+    let stride = v.elementBytes;
+    for (let d = v.shape.length - 1; d >= 0; d--) {
+      strides[d] = d === 0 && v.isRecord ? this.header.recordBytes : stride;
+      stride *= v.shape[d];
+    }
+    const plan = planReads(v.begin, strides, v.elementBytes, v.shape, start, count);
+    const out = new Float64Array(plan.totalValues);
+    let outPos = 0;
+    for (const span of plan.spans) {
+      if (this.buffer.length < span.bytes) this.buffer = Buffer.allocUnsafeSlow(Math.max(span.bytes, this.buffer.length * 2));
+      const got = await readExactly(this.handle, this.buffer, span.bytes, span.offset);
+      if (got < span.bytes) throw truncated(this.path, span.offset + span.bytes, span.offset + got);
+      for (const blockOffset of span.blockOffsets) {
+        decodeBigEndian(v.type, this.buffer, blockOffset, plan.blockValues, out, outPos);
+        outPos += plan.blockValues;
+      }
+    }
+    return out;
+  }
+
+  async close(): Promise<void> {
+    await this.handle.close();
+  }
+}
+
+/** Opens a classic-family file whose magic bytes were already checked; takes ownership of `handle`. */
+export async function openClassicDataset(file: string, handle: FileHandle, fileBytes: number): Promise<Dataset> {
+  const header = await readHeader(file, handle, fileBytes);
+  let numRecords = header.numRecords;
+  const firstRecord = Math.min(...header.variables.filter((v) => v.isRecord).map((v) => v.begin));
+  if (numRecords < 0) numRecords = header.recordBytes > 0 ? Math.floor((fileBytes - firstRecord) / header.recordBytes) : 0;
+  const dimensions = header.dimensions.map((d) => ({ name: d.name, size: d.unlimited ? numRecords : d.size, unlimited: d.unlimited }));
+  const variables = header.variables.map((v) => ({ ...v, shape: v.isRecord ? [numRecords, ...v.shape.slice(1)] : v.shape }));
+  let expected = 0;
+  for (const v of variables) {
+    const end = v.isRecord ? (numRecords === 0 ? 0 : v.begin + (numRecords - 1) * header.recordBytes + v.dataBytes) : v.begin + v.dataBytes;
+    expected = Math.max(expected, end);
+  }
+  if (expected > fileBytes) throw truncated(file, expected, fileBytes);
+  return new ClassicDataset(file, FORMATS[header.version], handle, header, dimensions, variables);
+}

@@ -1,0 +1,240 @@
+/**
+ * Finds the coordinates of a CF-style file by their attributes, not their names (CF Conventions 1.x §4:
+ * latitude units `degrees_north` / standard_name `latitude` / `axis: Y`, longitude `degrees_east` /
+ * `longitude` / `axis: X`, time `axis: T` / `<units> since <date>`; §4.4 forecast_reference_time and
+ * forecast_period; §7.1 cell boundaries through the `bounds` attribute; §7.3 `cell_methods`).
+ * Names (`lat`, `step`, `number`, …) are only a last resort.
+ */
+import { InputError } from '../errors.ts';
+import type { Dataset, VariableInfo } from './dataset.ts';
+import { decodeTimesToMs, durationUnitMs } from './coordinates-time.ts';
+import { readDecoded } from './extract-read.ts';
+
+export interface LatLonGrid {
+  readonly latName: string;
+  readonly lonName: string;
+  /** Cell centres in degrees as stored (latitude ascending or descending, longitude 0..360 or -180..180). */
+  readonly lat: Float64Array;
+  readonly lon: Float64Array;
+  /** `[n][2]` cell bounds in degrees from the `bounds` attribute, or null when the file has none. */
+  readonly latBounds: Float64Array | null;
+  readonly lonBounds: Float64Array | null;
+}
+
+export interface TimeAxis {
+  /** The dimension that data variables use for time (absolute time or forecast lead). */
+  readonly dimension: string;
+  /** The coordinate variable read (e.g. `time`, `step`). */
+  readonly variable: string;
+  /** Valid time of each step, ms since 1970-01-01T00:00Z. */
+  readonly stampsMs: Float64Array;
+  /** `[n][2]` valid-time bounds in ms, or null. */
+  readonly boundsMs: Float64Array | null;
+}
+
+export interface FileCoordinates {
+  readonly file: string;
+  readonly grid: LatLonGrid;
+  readonly time: TimeAxis | null;
+  /** forecast_reference_time (ms) when the file states it. */
+  readonly referenceMs: number | null;
+  readonly member: { readonly dimension: string; readonly size: number } | null;
+}
+
+/** Where each coordinate sits among a data variable's dimensions (-1 = absent). */
+export interface VariableLayout {
+  readonly info: VariableInfo;
+  readonly latAxis: number;
+  readonly lonAxis: number;
+  readonly timeAxis: number;
+  readonly memberAxis: number;
+}
+
+export interface CellMethod {
+  readonly names: readonly string[];
+  readonly method: string;
+}
+
+const MEMBER_NAMES = ['number', 'realization', 'realisation', 'member', 'members', 'ensemble', 'ens', 'member_id', 'ensemble_member'];
+const LEAD_NAMES = ['step', 'forecast_period', 'lead_time', 'leadtime', 'lead'];
+const REFERENCE_NAMES = ['forecast_reference_time', 'reftime', 'reference_time'];
+
+function attr(info: VariableInfo, key: string): string | undefined {
+  const v = info.attributes[key];
+  return typeof v === 'string' ? v.trim() : undefined;
+}
+
+function hasUnits(info: VariableInfo, accepted: readonly string[]): boolean {
+  const u = attr(info, 'units')?.toLowerCase();
+  return u !== undefined && accepted.includes(u);
+}
+
+const LAT_UNITS = ['degrees_north', 'degree_north', 'degree_n', 'degrees_n', 'degreen', 'degreesn'];
+const LON_UNITS = ['degrees_east', 'degree_east', 'degree_e', 'degrees_e', 'degreee', 'degreese'];
+
+/** First variable passing the tests in priority order (attribute tests before name tests). */
+function pick(ds: Dataset, tests: readonly ((v: VariableInfo) => boolean)[]): VariableInfo | undefined {
+  for (const test of tests) {
+    const found = ds.variables.find(test);
+    if (found) return found;
+  }
+  return undefined;
+}
+
+function findAxisVariable(ds: Dataset, axis: 'X' | 'Y'): VariableInfo {
+  const standard = axis === 'Y' ? 'latitude' : 'longitude';
+  const units = axis === 'Y' ? LAT_UNITS : LON_UNITS;
+  const names = axis === 'Y' ? ['lat', 'latitude', 'y'] : ['lon', 'longitude', 'x'];
+  const found = pick(ds, [
+    (v) => attr(v, 'standard_name') === standard,
+    (v) => hasUnits(v, units),
+    (v) => attr(v, 'axis')?.toUpperCase() === axis && v.dimensions.length === 1,
+    (v) => names.includes(v.name.toLowerCase()),
+  ]);
+  if (!found) {
+    throw new InputError('no-coordinate', ds.path, `no ${standard} coordinate (standard_name ${standard} or units ${units[0]})`,
+      `add CF attributes to the ${standard} variable (e.g. ncatted -a units,<var>,o,c,${units[0]})`);
+  }
+  if (found.dimensions.length !== 1) {
+    throw new InputError('grid-unsupported', ds.path, `${standard} variable '${found.name}' has ${found.dimensions.length} dimensions (curvilinear grid)`,
+      'regrid to a regular latitude-longitude grid first (e.g. cdo remapbil)');
+  }
+  return found;
+}
+
+async function readWhole(ds: Dataset, info: VariableInfo): Promise<Float64Array> {
+  return readDecoded(ds, info, info.shape.map(() => 0), info.shape);
+}
+
+async function readBounds(ds: Dataset, info: VariableInfo, n: number): Promise<Float64Array | null> {
+  const name = attr(info, 'bounds');
+  const b = name === undefined ? undefined : ds.variable(name);
+  if (!b || b.shape.length !== 2 || b.shape[0] !== n || b.shape[1] !== 2) return null;
+  return readWhole(ds, b);
+}
+
+function isTimeLike(v: VariableInfo): boolean {
+  return attr(v, 'axis')?.toUpperCase() === 'T' || attr(v, 'standard_name') === 'time' || / since /i.test(attr(v, 'units') ?? '');
+}
+
+function isReference(v: VariableInfo): boolean {
+  return attr(v, 'standard_name') === 'forecast_reference_time' || REFERENCE_NAMES.includes(v.name.toLowerCase());
+}
+
+function isLead(v: VariableInfo): boolean {
+  const units = attr(v, 'units') ?? '';
+  return v.dimensions.length === 1 && !/ since /i.test(units) &&
+    (attr(v, 'standard_name') === 'forecast_period' || LEAD_NAMES.includes(v.name.toLowerCase()));
+}
+
+async function decodeTimeVariable(ds: Dataset, info: VariableInfo, unitsFrom: VariableInfo = info): Promise<Float64Array> {
+  const raw = await readWhole(ds, info);
+  return decodeTimesToMs(raw, attr(unitsFrom, 'units') ?? '', attr(unitsFrom, 'calendar'), ds.path, info.name);
+}
+
+async function findReference(ds: Dataset): Promise<number | null> {
+  const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+  if (!ref) return null;
+  if (ref.shape.reduce((a, b) => a * b, 1) !== 1) {
+    throw new InputError('reference-several', ds.path, `'${ref.name}' holds ${ref.shape.join('×')} forecast reference times`,
+      'split the file into one file per start date (e.g. cdo splitsel,1)');
+  }
+  return (await decodeTimeVariable(ds, ref))[0];
+}
+
+async function findTime(ds: Dataset, referenceMs: number | null): Promise<TimeAxis | null> {
+  const lead = ds.variables.find(isLead);
+  if (lead && referenceMs !== null) {
+    const unitMs = durationUnitMs(attr(lead, 'units') ?? '', ds.path, lead.name);
+    const toMs = (values: Float64Array): Float64Array => values.map((x) => Math.round(referenceMs + x * unitMs));
+    const bounds = await readBounds(ds, lead, lead.shape[0]);
+    return { dimension: lead.dimensions[0], variable: lead.name, stampsMs: toMs(await readWhole(ds, lead)), boundsMs: bounds && toMs(bounds) };
+  }
+  const candidates = ds.variables.filter((v) => v.dimensions.length === 1 && isTimeLike(v) && !isReference(v) && !isLead(v));
+  const time = candidates.find((v) => v.dimensions[0] === v.name) ?? candidates[0];
+  if (!time) return null;
+  const stampsMs = await decodeTimeVariable(ds, time);
+  const boundsName = attr(time, 'bounds');
+  const boundsInfo = boundsName === undefined ? undefined : ds.variable(boundsName);
+  const boundsMs = boundsInfo && boundsInfo.shape.length === 2 && boundsInfo.shape[1] === 2
+    ? await decodeTimeVariable(ds, boundsInfo, attr(boundsInfo, 'units') ? boundsInfo : time)
+    : null;
+  return { dimension: time.dimensions[0], variable: time.name, stampsMs, boundsMs };
+}
+
+function findMember(ds: Dataset): FileCoordinates['member'] {
+  const byStandard = ds.variables.find((v) => attr(v, 'standard_name') === 'realization' && v.dimensions.length === 1);
+  const dimName = byStandard?.dimensions[0] ?? ds.dimensions.find((d) => MEMBER_NAMES.includes(d.name.toLowerCase()))?.name;
+  const dim = ds.dimensions.find((d) => d.name === dimName);
+  return dim ? { dimension: dim.name, size: dim.size } : null;
+}
+
+/** Reads the grid, time axis, reference time and ensemble dimension of an opened file. */
+export async function findCoordinates(ds: Dataset): Promise<FileCoordinates> {
+  const latInfo = findAxisVariable(ds, 'Y');
+  const lonInfo = findAxisVariable(ds, 'X');
+  const lat = await readWhole(ds, latInfo);
+  const lon = await readWhole(ds, lonInfo);
+  const grid: LatLonGrid = {
+    latName: latInfo.dimensions[0],
+    lonName: lonInfo.dimensions[0],
+    lat,
+    lon,
+    latBounds: await readBounds(ds, latInfo, lat.length),
+    lonBounds: await readBounds(ds, lonInfo, lon.length),
+  };
+  const referenceMs = await findReference(ds);
+  return { file: ds.path, grid, time: await findTime(ds, referenceMs), referenceMs, member: findMember(ds) };
+}
+
+/**
+ * Locates the coordinates among `name`'s dimensions. Any other dimension must have size 1.
+ * @throws InputError when the variable is absent, lacks latitude/longitude, or has a larger extra dimension.
+ */
+export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: string): VariableLayout {
+  const info = ds.variable(name);
+  if (!info) {
+    const names = ds.variables.filter((v) => v.dimensions.length >= 2).map((v) => v.name).join(', ');
+    throw new InputError('variable-missing', ds.path, `no variable '${name}'`, `map the quantity to one of: ${names}`);
+  }
+  const dims = info.dimensions;
+  const layout: VariableLayout = {
+    info,
+    latAxis: dims.indexOf(coords.grid.latName),
+    lonAxis: dims.indexOf(coords.grid.lonName),
+    timeAxis: coords.time ? dims.indexOf(coords.time.dimension) : -1,
+    memberAxis: coords.member ? dims.indexOf(coords.member.dimension) : -1,
+  };
+  if (layout.latAxis < 0 || layout.lonAxis < 0) {
+    throw new InputError('variable-not-gridded', ds.path, `variable '${name}' (${dims.join(', ')}) is not on the latitude-longitude grid`,
+      'map the quantity to a gridded variable');
+  }
+  const known = new Set([layout.latAxis, layout.lonAxis, layout.timeAxis, layout.memberAxis]);
+  dims.forEach((d, k) => {
+    if (!known.has(k) && info.shape[k] !== 1) {
+      throw new InputError('variable-extra-dimension', ds.path, `variable '${name}' has extra dimension '${d}' of size ${info.shape[k]}`,
+        `select one ${d} first (e.g. cdo sellevidx,1 or ncks -d ${d},0)`);
+    }
+  });
+  return layout;
+}
+
+/** Parses a CF `cell_methods` string ("area: mean time: maximum (interval: 6 hours)") into name lists and methods. */
+export function parseCellMethods(text: string): CellMethod[] {
+  const out: CellMethod[] = [];
+  const cleaned = text.replace(/\([^)]*\)/g, ' ');
+  const re = /((?:[A-Za-z_][\w]*:\s*)+)([A-Za-z_]+)/g;
+  for (let m = re.exec(cleaned); m !== null; m = re.exec(cleaned)) {
+    const names = m[1].split(':').map((s) => s.trim()).filter((s) => s !== '');
+    out.push({ names, method: m[2] });
+  }
+  return out;
+}
+
+/** The CF method applied along time to `info` (`point`, `maximum`, `minimum`, `mean`, `sum`, …), or null when unstated. */
+export function timeCellMethod(info: VariableInfo, time: TimeAxis | null): string | null {
+  const text = attr(info, 'cell_methods');
+  if (text === undefined) return null;
+  const names = new Set(['time', ...(time ? [time.variable, time.dimension] : [])]);
+  return parseCellMethods(text).find((c) => c.names.some((n) => names.has(n)))?.method ?? null;
+}

@@ -1,0 +1,163 @@
+/**
+ * Sub-daily steps → local calendar days (max, min, mean or sum per grid cell, before any area mean: the
+ * order of CDO's `daymax` then `fldmean`).
+ *
+ * What period a step speaks for (its interval):
+ *  - `time_bnds` present: the bounds.
+ *  - no bounds, `cell_methods` says time: maximum/minimum/mean/sum, or the quantity is an amount or a rate:
+ *    the interval ENDING at the stamp, since the previous stamp (the first step: since the reference time,
+ *    else one spacing). A 6-hour maximum stamped 06Z covers 00–06Z.
+ *  - otherwise an instantaneous sample at the stamp, standing for one nominal spacing (median step).
+ *  - accumulated-since-start fields: step i covers (stamp[i-1], stamp[i]], the first (reference, stamp[0]].
+ * A step belongs to the local day (UTC + utcOffsetHours) holding its interval MIDPOINT, never its stamp alone.
+ * A local day is kept only when its steps cover the full 24 h (sum of interval lengths; samples count one
+ * spacing each). Incomplete first/last days are DROPPED, so lead day 1 is the first complete local day.
+ * A cell's daily value is NaN when any of its steps in that day is missing.
+ * Daily (or coarser) input passes through: one step per day, dated by the UTC date of the bounds midpoint,
+ * or of the stamp when there are no bounds; no local shift.
+ */
+import type { IsoDate } from '../types.ts';
+
+export type DailyMethod = 'max' | 'min' | 'mean' | 'sum';
+
+export interface StepIntervals {
+  readonly startMs: Float64Array;
+  readonly endMs: Float64Array;
+  /** True when every step is an instantaneous sample. */
+  readonly instantaneous: boolean;
+}
+
+export interface DayPlan {
+  readonly days: readonly IsoDate[];
+  /** Day index of each step, -1 when the step is dropped (incomplete day, zero-length interval). */
+  readonly dayOfStep: Int32Array;
+  /** Weight of each step within its day: interval length in hours (one nominal spacing for samples). */
+  readonly stepWeight: Float64Array;
+}
+
+const HOUR_MS = 3_600_000;
+const DAY_MS = 24 * HOUR_MS;
+const COVERAGE_SLACK_MS = 1000;
+
+export interface IntervalInput {
+  readonly stampsMs: Float64Array;
+  readonly boundsMs: Float64Array | null;
+  /** forecast_reference_time, or null. */
+  readonly referenceMs: number | null;
+  /** Steps are means/extremes/sums over the period before the stamp. */
+  readonly periodEndingAtStamp: boolean;
+  /** Values are accumulated from the reference time (bounds, when present, all start at one instant). */
+  readonly accumulated: boolean;
+}
+
+function medianSpacing(stamps: Float64Array): number {
+  const d: number[] = [];
+  for (let i = 1; i < stamps.length; i++) d.push(stamps[i] - stamps[i - 1]);
+  if (d.length === 0) return DAY_MS;
+  d.sort((a, b) => a - b);
+  return d[Math.floor(d.length / 2)];
+}
+
+/** The interval each step speaks for (rules in the module comment). */
+export function stepIntervals(input: IntervalInput): StepIntervals {
+  const { stampsMs, boundsMs, referenceMs } = input;
+  const n = stampsMs.length;
+  const startMs = new Float64Array(n);
+  const endMs = new Float64Array(n);
+  const spacing = medianSpacing(stampsMs);
+  const firstStart = (): number => (referenceMs !== null && referenceMs <= stampsMs[0] ? referenceMs : stampsMs[0] - spacing);
+  if (input.accumulated) {
+    for (let i = 0; i < n; i++) {
+      endMs[i] = boundsMs ? boundsMs[2 * i + 1] : stampsMs[i];
+      startMs[i] = i > 0 ? endMs[i - 1] : boundsMs ? boundsMs[0] : firstStart();
+    }
+    return { startMs, endMs, instantaneous: false };
+  }
+  if (boundsMs) {
+    for (let i = 0; i < n; i++) {
+      startMs[i] = boundsMs[2 * i];
+      endMs[i] = boundsMs[2 * i + 1];
+    }
+    return { startMs, endMs, instantaneous: false };
+  }
+  const periodEnding = input.periodEndingAtStamp && spacing < DAY_MS - COVERAGE_SLACK_MS;
+  for (let i = 0; i < n; i++) {
+    endMs[i] = stampsMs[i];
+    startMs[i] = !periodEnding ? stampsMs[i] : i > 0 ? stampsMs[i - 1] : firstStart();
+  }
+  return { startMs, endMs, instantaneous: !periodEnding };
+}
+
+function isoDate(dayNumber: number): IsoDate {
+  return new Date(dayNumber * DAY_MS).toISOString().slice(0, 10);
+}
+
+/** Assigns steps to complete local days (see module comment). */
+export function planLocalDays(intervals: StepIntervals, utcOffsetHours: number): DayPlan {
+  const { startMs, endMs, instantaneous } = intervals;
+  const n = startMs.length;
+  const spacing = instantaneous ? medianSpacing(startMs) : medianSpacing(endMs);
+  const dayOfStep = new Int32Array(n).fill(-1);
+  const stepWeight = new Float64Array(n);
+  if (spacing >= DAY_MS - COVERAGE_SLACK_MS) {
+    const days: IsoDate[] = [];
+    for (let i = 0; i < n; i++) {
+      dayOfStep[i] = i;
+      stepWeight[i] = 1;
+      days.push(isoDate(Math.floor((startMs[i] + endMs[i]) / 2 / DAY_MS)));
+    }
+    return { days, dayOfStep, stepWeight };
+  }
+  const dayNumber = new Float64Array(n);
+  const coverage = new Map<number, number>();
+  for (let i = 0; i < n; i++) {
+    const length = instantaneous ? spacing : endMs[i] - startMs[i];
+    dayNumber[i] = Math.floor(((startMs[i] + endMs[i]) / 2 + utcOffsetHours * HOUR_MS) / DAY_MS);
+    stepWeight[i] = length / HOUR_MS;
+    if (length > 0) coverage.set(dayNumber[i], (coverage.get(dayNumber[i]) ?? 0) + length);
+  }
+  const complete = [...coverage.entries()].filter(([, ms]) => ms >= DAY_MS - COVERAGE_SLACK_MS).map(([d]) => d).sort((a, b) => a - b);
+  const index = new Map(complete.map((d, k) => [d, k]));
+  for (let i = 0; i < n; i++) dayOfStep[i] = stepWeight[i] > 0 ? index.get(dayNumber[i]) ?? -1 : -1;
+  return { days: complete.map(isoDate), dayOfStep, stepWeight };
+}
+
+/**
+ * Turns values accumulated since the reference time into per-step amounts, in place, per cell:
+ * amount[i] = acc[i] - acc[i-1], with acc before the first step = 0. `values` is `[step][cell]`.
+ */
+export function deaccumulateInPlace(values: Float64Array, steps: number, cells: number): void {
+  for (let t = steps - 1; t >= 1; t--) {
+    const row = t * cells;
+    const prev = row - cells;
+    for (let c = 0; c < cells; c++) values[row + c] -= values[prev + c];
+  }
+}
+
+/**
+ * Reduces `[step][cell]` values to `[day][cell]` by `method` using `plan`; `out` must hold days × cells.
+ * `mean` weights steps by `plan.stepWeight`; NaN in any step of a day makes that cell-day NaN.
+ */
+export function reduceToDays(values: Float64Array, cells: number, plan: DayPlan, method: DailyMethod, out: Float64Array): void {
+  const nDays = plan.days.length;
+  const init = method === 'max' ? -Infinity : method === 'min' ? Infinity : 0;
+  out.fill(init, 0, nDays * cells);
+  const weightSum = new Float64Array(nDays);
+  for (let t = 0; t < plan.dayOfStep.length; t++) {
+    const d = plan.dayOfStep[t];
+    if (d < 0) continue;
+    const src = t * cells;
+    const dst = d * cells;
+    const w = plan.stepWeight[t];
+    weightSum[d] += w;
+    if (method === 'max') for (let c = 0; c < cells; c++) out[dst + c] = Math.max(out[dst + c], values[src + c]);
+    else if (method === 'min') for (let c = 0; c < cells; c++) out[dst + c] = Math.min(out[dst + c], values[src + c]);
+    else if (method === 'sum') for (let c = 0; c < cells; c++) out[dst + c] += values[src + c];
+    else for (let c = 0; c < cells; c++) out[dst + c] += w * values[src + c];
+  }
+  if (method !== 'mean') return;
+  for (let d = 0; d < nDays; d++) {
+    const inv = 1 / weightSum[d];
+    for (let c = d * cells; c < (d + 1) * cells; c++) out[c] *= inv;
+  }
+}

@@ -1,0 +1,173 @@
+/**
+ * The read stage: one opened file → per-region daily ensemble series in canonical units, in ONE pass
+ * (each variable's union band is read once per member and serves every region). A bad region or variable
+ * goes to `problems`; the others are still computed. A file whose forecast reference time differs from the
+ * requested one is refused as a whole.
+ */
+import type { RegionConfig } from '../config/types.ts';
+import { ForelightError, InputError } from '../errors.ts';
+import type { Quantity, RegionSeries } from '../types.ts';
+import { findCoordinates, layoutVariable, type FileCoordinates } from './coordinates.ts';
+import type { Dataset } from './dataset.ts';
+import type { DailyMethod } from './daily.ts';
+import { dailyMethodFor, planTime, referenceTimeMs } from './extract-plan.ts';
+import { isoInstant, reduceVariable } from './extract-reduce.ts';
+import { openDataset } from './open-dataset.ts';
+import { planBand } from './regions-band.ts';
+import { describeShape, selectRegionCells, type RegionCells } from './regions.ts';
+import { planUnits } from './units.ts';
+
+export interface ExtractRequest {
+  /** Canonical quantity → variable name in the file. */
+  readonly quantities: Partial<Record<Quantity, string>>;
+  readonly regions: readonly RegionConfig[];
+  /** Expected forecast reference time (ISO 8601, e.g. from the file name); checked against the file. */
+  readonly referenceTime?: string;
+}
+
+export interface ExtractResult {
+  readonly series: RegionSeries[];
+  readonly problems: ForelightError[];
+}
+
+function keepOrRethrow(err: unknown, problems: ForelightError[]): void {
+  if (err instanceof ForelightError) problems.push(err);
+  else throw err;
+}
+
+/** Throws when the file's reference time differs from the requested one. */
+function checkReference(file: string, fileMs: number, requested: string | undefined): void {
+  if (requested === undefined) return;
+  const wanted = Date.parse(/^\d{4}-\d{2}-\d{2}$/.test(requested) ? `${requested}T00:00:00Z` : requested);
+  if (Number.isNaN(wanted)) {
+    throw new InputError('reference-invalid', file, `requested reference time '${requested}' is not an ISO 8601 date`, 'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ');
+  }
+  if (wanted !== fileMs) {
+    throw new InputError('reference-mismatch', file,
+      `the file holds the forecast of ${isoInstant(fileMs)} but ${isoInstant(wanted)} was requested`,
+      'the file name and its contents disagree: check the source path pattern or replace the file');
+  }
+}
+
+function selectAll(coords: FileCoordinates, regions: readonly RegionConfig[], problems: ForelightError[]): { region: RegionConfig; cells: RegionCells }[] {
+  const out: { region: RegionConfig; cells: RegionCells }[] = [];
+  for (const region of regions) {
+    try {
+      out.push({ region, cells: selectRegionCells(coords.grid, region, coords.file) });
+    } catch (err) {
+      keepOrRethrow(err, problems);
+    }
+  }
+  return out;
+}
+
+/** Reads every requested quantity for every region from an opened dataset (see `extractRegionSeries`). */
+export async function extractFromDataset(ds: Dataset, request: ExtractRequest): Promise<ExtractResult> {
+  const problems: ForelightError[] = [];
+  const series: RegionSeries[] = [];
+  const coords = await findCoordinates(ds);
+  const selected = selectAll(coords, request.regions, problems);
+  const { band, regions } = planBand(selected.map((s) => s.cells), coords.grid.lat.length, coords.grid.lon.length);
+  if (regions.length === 0) return { series, problems };
+  for (const [quantity, variable] of Object.entries(request.quantities) as [Quantity, string][]) {
+    try {
+      const layout = layoutVariable(ds, coords, variable);
+      const units = layout.info.attributes.units;
+      const unitPlan = planUnits(quantity, typeof units === 'string' ? units : undefined, ds.path, variable);
+      const timePlan = planTime(coords, layout, unitPlan);
+      const refMs = referenceTimeMs(coords, timePlan);
+      if (refMs === null) {
+        throw new InputError('time-missing', ds.path, `variable '${variable}' has no time axis`, 'map the quantity to a variable with a CF time coordinate');
+      }
+      checkReference(ds.path, refMs, request.referenceTime);
+      const means = await reduceVariable(ds, coords, {
+        layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
+        utcOffsets: selected.map((s) => s.region.utcOffsetHours),
+        daily: dailyMethodFor(quantity, unitPlan),
+      });
+      means.forEach((mean, k) => {
+        const { region, cells } = selected[k];
+        if (!mean.data.some((v) => v === v)) {
+          problems.push(new InputError('region-all-missing', ds.path,
+            `every cell of region '${region.id}' (${describeShape(region.shape)}) is missing for '${variable}' (${quantity})`,
+            'check the _FillValue/valid_range of the variable or the region box'));
+          return;
+        }
+        const members = layout.memberAxis >= 0 ? layout.info.shape[layout.memberAxis] : 1;
+        series.push({
+          region: region.id, quantity, units: unitPlan.units, days: mean.labels, members, data: mean.data, cells: cells.weights.length,
+          provenance: { file: ds.path, variable, referenceTime: isoInstant(refMs) },
+        });
+      });
+    } catch (err) {
+      if (err instanceof InputError && err.code === 'reference-mismatch') throw err;
+      keepOrRethrow(err, problems);
+    }
+  }
+  return { series, problems };
+}
+
+/**
+ * Opens `path` and extracts per-region daily ensemble series for `request.quantities` (canonical units,
+ * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
+ * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
+ */
+export async function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
+  const ds = await openDataset(path);
+  try {
+    return await extractFromDataset(ds, request);
+  } finally {
+    await ds.close();
+  }
+}
+
+export interface BoxExtractOptions {
+  readonly variable: string;
+  readonly box: { readonly south: number; readonly north: number; readonly west: number; readonly east: number };
+  readonly daily?: DailyMethod;
+  readonly utcOffsetHours?: number;
+}
+
+/** What `forelight extract … --json` prints: values in the file's own units, members in file order. */
+export interface BoxExtractJson {
+  readonly units: string;
+  /** ISO instants of the steps, or local dates with `daily`. */
+  readonly times: string[];
+  /** [member][time], null where the member has no valid cell. */
+  readonly members: (number | null)[][];
+  readonly cells: number;
+}
+
+/** Area-weighted box mean of one variable of an opened dataset, per member and step (or local day). */
+export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions): Promise<BoxExtractJson> {
+  const coords = await findCoordinates(ds);
+  const region: RegionConfig = { id: 'box', name: 'box', shape: { kind: 'box', ...opts.box }, utcOffsetHours: opts.utcOffsetHours ?? 0, teams: [] };
+  const cells = selectRegionCells(coords.grid, region, ds.path);
+  const { band, regions } = planBand([cells], coords.grid.lat.length, coords.grid.lon.length);
+  const layout = layoutVariable(ds, coords, opts.variable);
+  const timePlan = planTime(coords, layout, null);
+  if (opts.daily && !timePlan.intervals) {
+    throw new InputError('time-missing', ds.path, `variable '${opts.variable}' has no time axis`, 'drop --daily or choose a variable with a CF time coordinate');
+  }
+  const [mean] = await reduceVariable(ds, coords, {
+    layout, band, regions, intervals: timePlan.intervals, unitPlan: null, accumulated: false,
+    utcOffsets: [region.utcOffsetHours], daily: opts.daily ?? null,
+  });
+  const steps = mean.labels.length;
+  const members: (number | null)[][] = [];
+  for (let m = 0; m < mean.data.length / steps; m++) {
+    members.push(Array.from(mean.data.subarray(m * steps, (m + 1) * steps), (v) => (v === v ? v : null)));
+  }
+  const units = layout.info.attributes.units;
+  return { units: typeof units === 'string' ? units : '', times: [...mean.labels], members, cells: cells.weights.length };
+}
+
+/** `forelight extract <file> --var … --box S,N,W,E [--daily m] [--utc-offset h] --json`: opens, extracts, closes. */
+export async function extractBoxJson(path: string, opts: BoxExtractOptions): Promise<BoxExtractJson> {
+  const ds = await openDataset(path);
+  try {
+    return await extractBoxFromDataset(ds, opts);
+  } finally {
+    await ds.close();
+  }
+}

@@ -1,0 +1,207 @@
+/**
+ * Dataset over a NetCDF-4 (HDF5) file through h5wasm. h5wasm's Node build uses Emscripten NODERAWFS,
+ * so HDF5 reads the host file directly by offset (no copy of the file into memory); each readRaw
+ * decompresses only the chunks that intersect the requested hyperslab. NetCDF-4 dimensions are the
+ * HDF5 dimension scales attached to each variable (netCDF-C's mapping); variables in sub-groups are not listed.
+ */
+import { resolve } from 'node:path';
+import h5wasm from 'h5wasm/node';
+import type { Dataset as H5Dataset, Entity, File as H5File } from 'h5wasm/node';
+import { InputError } from '../errors.ts';
+import type { AttributeValue, Dataset, DimensionInfo, StorageType, VariableInfo } from './dataset.ts';
+import { validateSelection } from './classic-hyperslab.ts';
+import { checkHdf5Filters } from './hdf5-filters.ts';
+
+/** Attributes netCDF-C uses for its own bookkeeping; ncdump does not show them. */
+const HIDDEN_ATTRIBUTES = new Set(['_Netcdf4Coordinates', '_Netcdf4Dimid', 'CLASS', 'NAME', 'REFERENCE_LIST', 'DIMENSION_LIST', '_NCProperties', '_nc3_strict', '_IsNetcdf4', '_SuperblockVersion']);
+const DIMENSION_ONLY = 'This is a netCDF dimension but not a netCDF variable';
+/** HDF5 reports H5S_UNLIMITED (2^64-1) as a maxshape entry. */
+const UNLIMITED_AT_LEAST = 2 ** 53;
+
+let ready: Promise<void> | undefined;
+
+/** Loads h5wasm once and switches on its throwing error handler, so a failed read throws instead of returning garbage. */
+function loadH5wasm(): Promise<void> {
+  ready ??= h5wasm.ready.then((module) => {
+    module.activate_throwing_error_handler();
+  });
+  return ready;
+}
+
+function oneLine(err: unknown): string {
+  const text = err instanceof Error ? err.message : String(err);
+  return text.split('\n').map((l) => l.trim()).filter(Boolean).slice(0, 4).join(' | ').slice(0, 400);
+}
+
+function toAttributeValue(value: unknown): AttributeValue {
+  if (typeof value === 'string') return value;
+  if (typeof value === 'number' || typeof value === 'bigint' || typeof value === 'boolean') return Number(value);
+  if (ArrayBuffer.isView(value)) {
+    const numbers = Array.from(value as unknown as ArrayLike<number | bigint>, Number);
+    return numbers.length === 1 ? numbers[0] : numbers;
+  }
+  if (Array.isArray(value)) return value.map(String).join('\n');
+  return String(value);
+}
+
+function storageType(ds: H5Dataset): StorageType | undefined {
+  const m = ds.metadata;
+  if (m.type === 1) return m.size === 4 ? 'float' : m.size === 8 ? 'double' : undefined;
+  if (m.type === 0) {
+    const ints: Record<number, [StorageType, StorageType]> = { 1: ['byte', 'ubyte'], 2: ['short', 'ushort'], 4: ['int', 'uint'], 8: ['int64', 'uint64'] };
+    const pair = ints[m.size];
+    return pair ? pair[m.signed ? 0 : 1] : undefined;
+  }
+  if (m.type === 3 && !m.vlen && m.size === 1) return 'char';
+  return undefined;
+}
+
+function isH5Dataset(e: Entity | null): e is H5Dataset {
+  return e instanceof h5wasm.Dataset;
+}
+
+interface Hdf5Variable extends VariableInfo {
+  readonly numeric: boolean;
+}
+
+class Hdf5Dataset implements Dataset {
+  readonly format = 'netcdf4' as const;
+  private readonly byName: Map<string, Hdf5Variable>;
+  private readonly filtersChecked = new Set<string>();
+
+  constructor(
+    readonly path: string,
+    private readonly file: H5File,
+    readonly dimensions: readonly DimensionInfo[],
+    readonly attributes: Readonly<Record<string, AttributeValue>>,
+    readonly variables: readonly Hdf5Variable[],
+  ) {
+    this.byName = new Map(variables.map((v) => [v.name, v]));
+  }
+
+  variable(name: string): VariableInfo | undefined {
+    return this.byName.get(name);
+  }
+
+  async readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
+    const v = this.byName.get(name);
+    if (!v) throw new InputError('input-variable', this.path, `variable '${name}' not found`, `use one of: ${this.variables.map((x) => x.name).join(', ')}`);
+    const total = validateSelection(this.path, v, start, count);
+    if (!v.numeric) throw new InputError('input-type', this.path, `variable '${name}' is not numeric`, 'choose a numeric variable in the source config');
+    const ds = this.file.get(name) as H5Dataset;
+    if (!this.filtersChecked.has(name)) {
+      checkHdf5Filters(this.path, name, ds.filters);
+      this.filtersChecked.add(name);
+    }
+    if (total === 0) return new Float64Array(0);
+    let data: unknown;
+    try {
+      data = v.shape.length === 0 ? ds.value : ds.slice(start.map((s, d) => [s, s + count[d]]));
+    } catch (err) {
+      throw new InputError('input-hdf5', this.path, `HDF5 could not read variable '${name}' (${oneLine(err)})`, 'check the file with `ncdump -h -s`; re-create it with `nccopy -d1` if a filter is missing', { cause: err });
+    }
+    if (typeof data === 'number' || typeof data === 'bigint') return Float64Array.of(Number(data));
+    if (data instanceof Float64Array) return data;
+    if (ArrayBuffer.isView(data) && !(data instanceof DataView)) {
+      const src = data as unknown as ArrayLike<number | bigint>;
+      const out = new Float64Array(src.length);
+      if (typeof src[0] === 'bigint') for (let i = 0; i < src.length; i++) out[i] = Number(src[i]);
+      else out.set(src as ArrayLike<number>);
+      return out;
+    }
+    throw new InputError('input-type', this.path, `variable '${name}' did not read as numbers`, 'choose a numeric variable in the source config');
+  }
+
+  async close(): Promise<void> {
+    this.file.close();
+  }
+}
+
+function readAttributes(entity: H5Dataset | H5File): Record<string, AttributeValue> {
+  const out: Record<string, AttributeValue> = {};
+  for (const [key, attr] of Object.entries(entity.attrs)) {
+    if (!HIDDEN_ATTRIBUTES.has(key)) out[key] = toAttributeValue(attr.value);
+  }
+  return out;
+}
+
+/**
+ * End-of-file address from the superblock (HDF Group, "HDF5 File Format Specification" v3, §II.A:
+ * versions 0/1 hold it after base and free-space addresses, versions 2/3 after base and extension
+ * addresses), or undefined when the prefix is too short or the version unknown.
+ */
+export function hdf5EndOfFile(prefix: Buffer): number | undefined {
+  const version = prefix[8];
+  const offsetBytes = prefix[version <= 1 ? 13 : 9];
+  if (offsetBytes !== 8 && offsetBytes !== 4) return undefined;
+  const fieldsStart = version === 0 ? 24 : version === 1 ? 28 : version <= 3 ? 12 : -1;
+  const at = fieldsStart + 2 * offsetBytes;
+  if (fieldsStart < 0 || at + offsetBytes > prefix.length) return undefined;
+  const read = (pos: number): number => (offsetBytes === 8 ? Number(prefix.readBigUInt64LE(pos)) : prefix.readUInt32LE(pos));
+  return read(fieldsStart) + read(at);
+}
+
+/** Opens a NetCDF-4/HDF5 file whose magic bytes were already checked; `prefix` is its first bytes. */
+export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: number): Promise<Dataset> {
+  const expected = hdf5EndOfFile(prefix);
+  if (expected !== undefined && expected > fileBytes) {
+    throw new InputError('input-truncated', file, `file is truncated: expected ${expected} bytes, found ${fileBytes}`, 're-download it');
+  }
+  await loadH5wasm();
+  let h5: H5File;
+  try {
+    h5 = new h5wasm.File(resolve(file), 'r');
+  } catch (err) {
+    throw new InputError('input-corrupt', file, `HDF5 could not open the file (${oneLine(err)})`, 're-download it or check it with `ncdump -h`', { cause: err });
+  }
+  try {
+    const datasets: [string, H5Dataset][] = [];
+    for (const key of h5.keys()) {
+      const e = h5.get(key);
+      if (isH5Dataset(e)) datasets.push([key, e]);
+    }
+    const dims: (DimensionInfo & { order: number })[] = [];
+    const dimensionOnly = new Set<string>();
+    for (const [key, ds] of datasets) {
+      const attrs = ds.attrs;
+      if (!attrs.CLASS || attrs.CLASS.value !== 'DIMENSION_SCALE') continue;
+      const shape = ds.metadata.shape ?? [0];
+      const maxshape = ds.metadata.maxshape ?? shape;
+      const order = attrs._Netcdf4Dimid ? Number(attrs._Netcdf4Dimid.value) : dims.length;
+      dims.push({ name: key, size: shape[0] ?? 0, unlimited: (maxshape[0] ?? 0) >= UNLIMITED_AT_LEAST, order });
+      if (String(attrs.NAME?.value ?? '').startsWith(DIMENSION_ONLY)) dimensionOnly.add(key);
+    }
+    dims.sort((a, b) => a.order - b.order);
+    const phony = new Map<number, string>();
+    const variables: Hdf5Variable[] = [];
+    for (const [key, ds] of datasets) {
+      if (dimensionOnly.has(key)) continue;
+      const shape = ds.shape ?? [];
+      const isScale = dims.some((d) => d.name === key);
+      const coordIds = ds.attrs._Netcdf4Coordinates ? toAttributeValue(ds.attrs._Netcdf4Coordinates.value) : undefined;
+      const dimensions = shape.map((size, axis) => {
+        const scale = isScale ? undefined : ds.get_attached_scales(axis)[0];
+        if (scale) return scale.slice(scale.lastIndexOf('/') + 1);
+        const id = Array.isArray(coordIds) ? coordIds[axis] : coordIds;
+        const byId = dims.find((d) => d.order === id);
+        if (byId && byId.size === size) return byId.name;
+        if (isScale && axis === 0) return key;
+        let name = phony.get(size);
+        if (!name) {
+          name = `phony_dim_${phony.size}`;
+          phony.set(size, name);
+          dims.push({ name, size, unlimited: false, order: dims.length });
+        }
+        return name;
+      });
+      const type = storageType(ds);
+      variables.push({ name: key, dimensions, shape, type: type ?? 'char', attributes: readAttributes(ds), numeric: type !== undefined && type !== 'char' });
+    }
+    const dimensions = dims.map(({ name, size, unlimited }) => ({ name, size, unlimited }));
+    return new Hdf5Dataset(file, h5, dimensions, readAttributes(h5), variables);
+  } catch (err) {
+    h5.close();
+    if (err instanceof InputError) throw err;
+    throw new InputError('input-corrupt', file, `NetCDF-4 metadata could not be read (${oneLine(err)})`, 'check the file with `ncdump -h`', { cause: err });
+  }
+}

@@ -1,0 +1,53 @@
+/**
+ * Entry point of the low-level reader: sniffs the magic bytes and opens the matching implementation.
+ * Magic numbers from Unidata, "NetCDF Classic Format Specification" (CDF\x01, \x02, \x05) and the HDF
+ * Group, "HDF5 File Format Specification" (superblock signature \x89HDF\r\n\x1a\n at offset 0).
+ */
+import { open } from 'node:fs/promises';
+import { InputError } from '../errors.ts';
+import type { Dataset, VariableInfo } from './dataset.ts';
+import { openClassicDataset } from './classic-dataset.ts';
+import { openHdf5Dataset } from './hdf5-dataset.ts';
+
+const HDF5_SIGNATURE = Buffer.from([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a]);
+
+function describeMagic(bytes: Buffer): string {
+  if (bytes.length === 0) return 'the file is empty';
+  const text = [...bytes.subarray(0, 4)].map((b) => (b >= 0x20 && b < 0x7f ? String.fromCharCode(b) : `\\x${b.toString(16).padStart(2, '0')}`)).join('');
+  return `starts with "${text}"`;
+}
+
+/** Opens a NetCDF file of any supported flavour (classic, 64-bit offset, CDF-5, NetCDF-4/HDF5). */
+export async function openDataset(path: string): Promise<Dataset> {
+  let handle;
+  try {
+    handle = await open(path, 'r');
+  } catch (err) {
+    throw new InputError('input-missing', path, `cannot open the file (${(err as NodeJS.ErrnoException).code ?? String(err)})`, 'check the path in the source config and that the download finished', { cause: err });
+  }
+  let owned = false;
+  try {
+    const { size } = await handle.stat();
+    const magic = Buffer.alloc(64);
+    const { bytesRead } = await handle.read(magic, 0, 64, 0);
+    const head = magic.subarray(0, bytesRead);
+    if (bytesRead >= 4 && head.toString('latin1', 0, 3) === 'CDF' && [1, 2, 5].includes(head[3])) {
+      owned = true;
+      return await openClassicDataset(path, handle, size);
+    }
+    if (bytesRead >= 8 && head.subarray(0, 8).equals(HDF5_SIGNATURE)) return await openHdf5Dataset(path, head, size);
+    throw new InputError('input-format', path, `not a NetCDF file (${describeMagic(head)}; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature)`, 'check the source path, or convert the file with `cdo -f nc4 copy in out.nc`');
+  } catch (err) {
+    if (owned) await handle.close().catch(() => undefined);
+    throw err;
+  } finally {
+    if (!owned) await handle.close();
+  }
+}
+
+/** The variable's metadata, or InputError listing the variables the file has. */
+export function requireVariable(ds: Dataset, name: string): VariableInfo {
+  const v = ds.variable(name);
+  if (v) return v;
+  throw new InputError('input-variable', ds.path, `variable '${name}' not found (has: ${ds.variables.map((x) => x.name).join(', ')})`, 'check the variable name in the source config');
+}

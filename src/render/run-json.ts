@@ -1,0 +1,47 @@
+/**
+ * `run.json`: the full numbers of a run for downstream systems. Shape (schema id `forelight-run/1`):
+ *
+ * {
+ *   schema: "forelight-run/1", runId, issuedAt, mode: "live"|"exercise", nextIssue: "YYYY-MM-DD",
+ *   forecastDates: [{ source, name, referenceTime, basedOnOlder }],
+ *   stages: [{ id, label: {locale: text}, glyph, colour }]            // the ladder, lowest first
+ *   regions: [{
+ *     id, name, stageId, previousStageId, changeReason,
+ *     tiers: [{
+ *       tier, indicator: { id, name, units },
+ *       decision: StageDecision,                                       // as from decide, `lead` in full
+ *       probabilities: LeadProbability[]                               // every field, incl. threshold and skill
+ *     }]
+ *   }],
+ *   capAlerts: [{ id, region, indicator, msgType, stageId }]
+ * }
+ *
+ * Numbers are plain JSON numbers (fractions 0..1 for probabilities); NaN and infinities become null.
+ */
+import type { Config } from '../config/types.ts';
+import type { BulletinRun, CapAlert } from './model.ts';
+
+export const RUN_JSON_SCHEMA = 'forelight-run/1';
+
+/** Serialise a run (2-space indented, stable key order). */
+export function renderRunJson(config: Config, run: BulletinRun, capAlerts: readonly CapAlert[]): string {
+  const doc = {
+    schema: RUN_JSON_SCHEMA,
+    runId: run.runId,
+    issuedAt: run.issuedAt,
+    mode: run.mode,
+    nextIssue: run.nextIssue,
+    forecastDates: run.forecastDates.map((f) => ({ source: f.source, name: f.name, referenceTime: f.referenceTime, basedOnOlder: f.basedOnOlder ?? false })),
+    stages: config.stages.map((s) => ({ id: s.id, label: s.label, glyph: s.glyph, colour: s.colour })),
+    regions: run.regions.map((r) => ({
+      id: r.region.id,
+      name: r.region.name,
+      stageId: r.stage.id,
+      previousStageId: r.previousStageId,
+      changeReason: r.changeReason,
+      tiers: r.perTier.map((t) => ({ tier: t.tier, indicator: t.indicator, decision: t.decision, probabilities: t.probabilities })),
+    })),
+    capAlerts: capAlerts.map((a) => ({ id: a.id, region: a.region, indicator: a.indicator, msgType: a.msgType, stageId: a.stageId })),
+  };
+  return `${JSON.stringify(doc, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`;
+}

@@ -1,0 +1,30 @@
+/**
+ * Process exit codes of `forelight run` / the service, for systemd and cron wrappers. Higher = worse is NOT
+ * implied; each code names one situation an operator handles differently.
+ */
+export const EXIT = {
+  /** Bulletins issued and every delivery sent (or written to the outbox with `smtp: null`). */
+  ok: 0,
+  /** Unexpected failure (bug, ledger unreadable): read the log. */
+  unexpected: 1,
+  /** Configuration invalid: fix the YAML lines named in the message. */
+  configInvalid: 2,
+  /** Issued, but some inputs were missing or late (older forecast used, or a source left out). */
+  inputProblem: 3,
+  /** Some deliveries failed: copies are in the outbox and the operators were told. */
+  deliveryFailed: 4,
+  /** No new forecast data: nothing issued, operators told (not an error). */
+  nothingNew: 5,
+  /** Another Forelight run holds the lock, or this forecast was already issued by a live process. */
+  locked: 6,
+  /** Command line not understood (EX_USAGE of BSD sysexits.h). */
+  usage: 64,
+} as const;
+
+export type ExitCode = (typeof EXIT)[keyof typeof EXIT];
+
+/** Name of an exit code for logs and the status file. */
+export function exitCodeName(code: number): string {
+  const entry = Object.entries(EXIT).find(([, v]) => v === code);
+  return entry ? entry[0] : `unknown(${code})`;
+}

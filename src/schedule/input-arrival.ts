@@ -1,0 +1,74 @@
+/**
+ * Waiting for the files of a new forecast, and falling back to the newest earlier forecast when a source
+ * is late. Source path patterns use `{date}` = YYYYMMDD of the forecast reference date (SourceConfig.forecast).
+ */
+import { statSync } from 'node:fs';
+import type { IsoDate } from '../types.ts';
+
+/** Pattern with `{date}` replaced by the compact date of `date` (YYYY-MM-DD). */
+export function forecastPath(pattern: string, date: IsoDate): string {
+  return pattern.replaceAll('{date}', date.replaceAll('-', ''));
+}
+
+function sizeOf(path: string): number | null {
+  try {
+    const s = statSync(path);
+    return s.isFile() ? s.size : null;
+  } catch {
+    return null;
+  }
+}
+
+export interface ArrivalResult {
+  readonly arrived: readonly string[];
+  readonly missing: readonly string[];
+}
+
+/**
+ * Poll until every path exists with a non-zero size that did not change between two polls (a file still
+ * being copied keeps growing), or until `deadline`. Returns which files arrived and which did not.
+ */
+export async function waitForInputs(
+  expectedPaths: readonly string[],
+  deadline: Date,
+  pollSeconds: number,
+  sleep: (ms: number) => Promise<void> = (ms) => new Promise((r) => setTimeout(r, ms)),
+  now: () => Date = () => new Date(),
+): Promise<ArrivalResult> {
+  const lastSize = new Map<string, number>();
+  const arrived = new Set<string>();
+  for (;;) {
+    for (const path of expectedPaths) {
+      if (arrived.has(path)) continue;
+      const size = sizeOf(path);
+      if (size !== null && size > 0 && lastSize.get(path) === size) arrived.add(path);
+      else if (size !== null) lastSize.set(path, size);
+      else lastSize.delete(path);
+    }
+    const missing = expectedPaths.filter((p) => !arrived.has(p));
+    const left = deadline.getTime() - now().getTime();
+    if (missing.length === 0 || left <= 0) return { arrived: expectedPaths.filter((p) => arrived.has(p)), missing };
+    await sleep(Math.min(pollSeconds * 1000, left));
+  }
+}
+
+export interface LatestInput {
+  /** The forecast date asked for. */
+  readonly expectedDate: IsoDate;
+  /** Newest date within the look-back with a non-empty file, or null. */
+  readonly date: IsoDate | null;
+  readonly path: string | null;
+  /** True when the newest file is older than `expectedDate` ("based on the forecast of <date>"). */
+  readonly stale: boolean;
+}
+
+/** Newest available forecast of one source on or before `date`, looking back `lookbackDays` days. */
+export function resolveLatestInputs(pattern: string, date: IsoDate, lookbackDays: number): LatestInput {
+  const start = Date.parse(`${date}T00:00:00Z`);
+  for (let back = 0; back <= lookbackDays; back++) {
+    const day = new Date(start - back * 86_400_000).toISOString().slice(0, 10);
+    const path = forecastPath(pattern, day);
+    if ((sizeOf(path) ?? 0) > 0) return { expectedDate: date, date: day, path, stale: back > 0 };
+  }
+  return { expectedDate: date, date: null, path: null, stale: true };
+}

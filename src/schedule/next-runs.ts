@@ -1,0 +1,89 @@
+/**
+ * Next firing times of a cron expression in an IANA time zone, correct across daylight-saving changes.
+ * Fields are parsed by node-cron (`cron.parse`); day-of-month and day-of-week combine with AND, as node-cron
+ * does. Wall-clock times are resolved to instants like Temporal's "compatible" disambiguation
+ * (ECMAScript Temporal proposal, ZonedDateTime): a time skipped by a spring-forward gap runs once, shifted
+ * forward by the gap (02:30 → 03:30 new time); a time repeated at fall-back runs once, at the first occurrence.
+ * (node-cron itself skips a job whose time falls in the gap; the service uses this computation as the truth.)
+ */
+import cron, { type ParsedFields } from 'node-cron';
+import { ConfigError } from '../errors.ts';
+
+const formatters = new Map<string, Intl.DateTimeFormat>();
+
+function zoneFormatter(tz: string): Intl.DateTimeFormat {
+  let f = formatters.get(tz);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-US', {
+      timeZone: tz, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric',
+    });
+    formatters.set(tz, f);
+  }
+  return f;
+}
+
+/** Throws a one-line ConfigError unless `tz` is an IANA zone this Node knows. */
+export function checkTimeZone(tz: string): void {
+  try {
+    zoneFormatter(tz);
+  } catch {
+    throw new ConfigError([`schedule.timezone: unknown time zone "${tz}" — use an IANA name such as Africa/Lagos or Europe/Lisbon`]);
+  }
+}
+
+/** Offset of zone `tz` from UTC at instant `ms`, in milliseconds (local = UTC + offset). */
+export function zoneOffsetMs(tz: string, ms: number): number {
+  const p: Record<string, number> = {};
+  for (const part of zoneFormatter(tz).formatToParts(new Date(ms))) if (part.type !== 'literal') p[part.type] = Number(part.value);
+  const asUtc = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
+  return asUtc - (ms - (ms % 1000 + 1000) % 1000);
+}
+
+/** The instant of local wall time (given as a UTC-based ms "wall" value) in `tz`, "compatible" disambiguation. */
+export function wallTimeToInstant(tz: string, wallMs: number): number {
+  const before = zoneOffsetMs(tz, wallMs - 86_400_000);
+  const after = zoneOffsetMs(tz, wallMs + 86_400_000);
+  const candidates = [wallMs - before, wallMs - after].filter((t) => zoneOffsetMs(tz, t) === wallMs - t);
+  if (candidates.length > 0) return Math.min(...candidates);
+  return wallMs - before; // in a gap: keep the offset in force before it, i.e. move forward by the gap
+}
+
+/** Throws a one-line ConfigError for an expression node-cron rejects or that uses L/W/# day tokens. */
+export function parseCronFields(expr: string): ParsedFields {
+  if (!cron.validate(expr)) {
+    throw new ConfigError([`schedule.cron: "${expr}" is not a valid cron expression — use 5 fields (min hour day month weekday) or 6 with seconds first`]);
+  }
+  const fields = cron.parse(expr);
+  if ([...fields.dayOfMonth, ...fields.dayOfWeek].some((v) => typeof v !== 'number')) {
+    throw new ConfigError([`schedule.cron: "${expr}" uses L, W or # day tokens, which Forelight does not schedule — list the days instead`]);
+  }
+  return fields;
+}
+
+/** The first `n` firing instants strictly after `from`. */
+export function computeNextRuns(cronExpr: string, tz: string, from: Date, n: number): Date[] {
+  const f = parseCronFields(cronExpr);
+  checkTimeZone(tz);
+  const dom = new Set(f.dayOfMonth as number[]);
+  const dow = new Set((f.dayOfWeek as number[]).map((d) => d % 7));
+  const months = new Set(f.month);
+  const { hour: hours, minute: minutes, second: seconds } = f;
+  const out: Date[] = [];
+  const fromMs = from.getTime();
+  // Start one local day early so that a slot shifted across midnight by a DST gap is not missed.
+  let day = new Date(fromMs + zoneOffsetMs(tz, fromMs) - 86_400_000);
+  day = new Date(Date.UTC(day.getUTCFullYear(), day.getUTCMonth(), day.getUTCDate()));
+  for (let i = 0; i < 366 * 8 && out.length < n; i++, day = new Date(day.getTime() + 86_400_000)) {
+    if (!months.has(day.getUTCMonth() + 1) || !dom.has(day.getUTCDate()) || !dow.has(day.getUTCDay())) continue;
+    const instants: number[] = [];
+    for (const h of hours) for (const m of minutes) for (const s of seconds) {
+      instants.push(wallTimeToInstant(tz, day.getTime() + ((h * 60 + m) * 60 + s) * 1000));
+    }
+    instants.sort((a, b) => a - b);
+    for (const at of instants) {
+      const last = out.length > 0 ? out[out.length - 1].getTime() : fromMs;
+      if (at > last && out.length < n) out.push(new Date(at));
+    }
+  }
+  return out;
+}

@@ -1,0 +1,67 @@
+/** The service status file read by `forelight status`: last run, its result, the next run, failures. */
+import { readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { ForelightError, describeError } from '../errors.ts';
+import { exitCodeName } from './exit-codes.ts';
+
+export interface RunReport {
+  readonly reason: 'scheduled' | 'catch-up' | 'manual';
+  readonly startedAt: string;
+  readonly finishedAt: string;
+  readonly exitCode: number;
+  readonly exitName: string;
+  readonly summary: string;
+}
+
+export interface ServiceStatus {
+  readonly updatedAt: string;
+  readonly pid: number;
+  readonly cron: string;
+  readonly timezone: string;
+  readonly lastRun: RunReport | null;
+  readonly nextRun: string | null;
+  /** Runs in a row that ended with a code other than ok, inputProblem or nothingNew. */
+  readonly consecutiveFailures: number;
+  /** The latest failed runs, newest first (at most 10). */
+  readonly recentFailures: readonly RunReport[];
+}
+
+export function makeRunReport(reason: RunReport['reason'], startedAt: Date, finishedAt: Date, exitCode: number, summary: string): RunReport {
+  return { reason, startedAt: startedAt.toISOString(), finishedAt: finishedAt.toISOString(), exitCode, exitName: exitCodeName(exitCode), summary };
+}
+
+/** Write atomically (temporary file + rename) so a reader never sees half a file. */
+export function writeStatus(path: string, status: ServiceStatus): void {
+  const tmp = `${path}.tmp-${process.pid}`;
+  writeFileSync(tmp, JSON.stringify(status, null, 2) + '\n');
+  renameSync(tmp, path);
+}
+
+/** Null when the service has not written a status yet. */
+export function readStatus(path: string): ServiceStatus | null {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
+    throw new ForelightError('schedule', 'status-read', `cannot read status file ${path}: ${describeError(err)}`, 'check its permissions');
+  }
+  try {
+    return JSON.parse(text) as ServiceStatus;
+  } catch (err) {
+    throw new ForelightError('schedule', 'status-corrupt', `status file ${path} is not valid JSON: ${describeError(err)}`,
+      'delete it; the service writes a new one after its next run');
+  }
+}
+
+/** The status after one more run. */
+export function nextStatus(previous: ServiceStatus | null, base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun'>, run: RunReport): ServiceStatus {
+  const failed = !['ok', 'nothingNew', 'inputProblem'].includes(run.exitName);
+  return {
+    updatedAt: run.finishedAt,
+    pid: process.pid,
+    ...base,
+    lastRun: run,
+    consecutiveFailures: failed ? (previous?.consecutiveFailures ?? 0) + 1 : 0,
+    recentFailures: failed ? [run, ...(previous?.recentFailures ?? [])].slice(0, 10) : (previous?.recentFailures ?? []),
+  };
+}

@@ -1,0 +1,63 @@
+/** Skill cache keyed by content checksums; hashes checked against Debian coreutils `sha256sum`. */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { cachedSkill, fingerprint, hashFiles, skillCacheKey } from '../../src/calibrate/skill-cache.ts';
+
+const dir = mkdtempSync(join(tmpdir(), 'forelight-calib-'));
+const a = join(dir, 'hc_2006.nc');
+const b = join(dir, 'hc_2007.nc');
+const obs = join(dir, 'obs.nc');
+writeFileSync(a, Buffer.alloc(3_000_000, 7)); // several stream chunks
+writeFileSync(b, 'hindcast 2007');
+writeFileSync(obs, 'observations');
+
+describe('hashFiles', () => {
+  it('equals sha256 over the lines "<sha256sum of each file>\\n" (coreutils sha256sum)', async () => {
+    const sums = [a, b].map((f) => execFileSync('sha256sum', [f]).toString().split(' ')[0]);
+    const want = execFileSync('sha256sum', [], { input: sums.map((s) => `${s}\n`).join('') }).toString().split(' ')[0];
+    expect(await hashFiles([a, b])).toBe(want);
+  });
+  it('a missing file gives a one-line error naming it', async () => {
+    await expect(hashFiles([join(dir, 'nope.nc')])).rejects.toThrow(/nope\.nc/);
+  });
+});
+
+describe('cachedSkill', () => {
+  it('computes once, then reads the cache; NaN and Infinity survive; a changed byte changes the key', async () => {
+    const cacheDir = join(dir, 'cache');
+    const key = await skillCacheKey({ hindcastFiles: [a, b], observationsFile: obs, configFingerprint: fingerprint({ x: 1, y: [2] }) });
+    let calls = 0;
+    const compute = () => { calls++; return { bs: NaN, top: Infinity, low: -Infinity, rows: [{ n: 1.5 }] }; };
+    const first = await cachedSkill(cacheDir, key, compute);
+    const second = await cachedSkill(cacheDir, key, compute);
+    expect(calls).toBe(1);
+    expect(first.fromCache).toBe(false);
+    expect(second.fromCache).toBe(true);
+    expect(second.value).toEqual({ bs: NaN, top: Infinity, low: -Infinity, rows: [{ n: 1.5 }] });
+    expect(readdirSync(cacheDir)).toEqual([`skill-${key}.json`]);
+    writeFileSync(b, 'hindcast 2007!');
+    const key2 = await skillCacheKey({ hindcastFiles: [a, b], observationsFile: obs, configFingerprint: fingerprint({ y: [2], x: 1 }) });
+    expect(key2).not.toBe(key);
+    await cachedSkill(cacheDir, key2, compute);
+    expect(calls).toBe(2);
+  });
+  it('config fingerprint ignores key order but not values; the observations file counts', async () => {
+    expect(fingerprint({ a: 1, b: { c: 2, d: 3 } })).toBe(fingerprint({ b: { d: 3, c: 2 }, a: 1 }));
+    expect(fingerprint({ a: 1 })).not.toBe(fingerprint({ a: 2 }));
+    const k1 = await skillCacheKey({ hindcastFiles: [a], observationsFile: obs, configFingerprint: 'f' });
+    const k2 = await skillCacheKey({ hindcastFiles: [a], observationsFile: null, configFingerprint: 'f' });
+    expect(k1).not.toBe(k2);
+  });
+  it('a corrupt entry is recomputed and overwritten, with a note', async () => {
+    const cacheDir = join(dir, 'cache2');
+    await cachedSkill(cacheDir, 'k', () => 1);
+    writeFileSync(join(cacheDir, 'skill-k.json'), '{broken');
+    const r = await cachedSkill(cacheDir, 'k', () => 2);
+    expect(r.value).toBe(2);
+    expect(r.note).toMatch(/unreadable .* recomputed/);
+    expect((await cachedSkill(cacheDir, 'k', () => 3)).value).toBe(2);
+  });
+});

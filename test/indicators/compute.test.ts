@@ -1,0 +1,124 @@
+/** computeIndicator per kind: input choices, units, lag bookkeeping (formulas themselves: checks.test.ts). */
+import { describe, expect, it } from 'vitest';
+import { computeIndicator } from '../../src/indicators/compute.ts';
+import { heatIndexRothfusz1990C } from '../../src/indicators/heat-index-rothfusz-1990.ts';
+import { dewpointFromRhMagnusC, rhFromDewpointMagnusPct } from '../../src/indicators/magnus-humidity.ts';
+import { monthlySuitability, parseMalariaParams, suitabilityCategory } from '../../src/indicators/malaria-monthly.ts';
+import { dayOfYearPercentileThreshold, percentileLinear } from '../../src/indicators/percentile.ts';
+import { relativeR0Mordecai2013 } from '../../src/indicators/relative-r0-mordecai-2013.ts';
+import { DETINOVA_1962 } from '../../src/indicators/sporogony-detinova-1962.ts';
+import { maxSurvivalThroughSporogony, survivalThroughSporogony } from '../../src/indicators/survival-martens-1997.ts';
+import { dayList, indicator, inputsOf, regionSeries } from './fixtures.ts';
+
+const days = dayList('2026-11-30', 3);
+const f = (...v: number[]) => Float64Array.from(v);
+
+describe('feels-like indicators on Tmax with the day\'s humidity', () => {
+  const tmax = regionSeries('tmax', days, 1, f(34, 36, 38));
+  it('dewpoint input: RH at Tmax by Magnus (Alduchov & Eskridge 1996), then the WPC heat index', () => {
+    const r = computeIndicator(indicator('heat-index'), inputsOf(tmax, regionSeries('dewpoint', days, 1, f(24, 25, 26))));
+    for (let i = 0; i < 3; i++) expect(r.data[i]).toBe(heatIndexRothfusz1990C(tmax.data[i], rhFromDewpointMagnusPct(tmax.data[i], 24 + i)));
+    expect(r.units).toBe('degC');
+    expect(r.notes).toEqual([]);
+  });
+  it('RH + tmean input: dewpoint from the daily mean, RH re-evaluated at Tmax (lower than the daily-mean RH)', () => {
+    const rh = regionSeries('rh', days, 1, f(70, 70, 70));
+    const tmean = regionSeries('tmean', days, 1, f(29, 30, 31));
+    const r = computeIndicator(indicator('heat-index'), inputsOf(tmax, rh, tmean));
+    const td = dewpointFromRhMagnusC(29, 70);
+    const rhAtTmax = rhFromDewpointMagnusPct(34, td);
+    expect(rhAtTmax).toBeLessThan(70);
+    expect(r.data[0]).toBeCloseTo(heatIndexRothfusz1990C(34, rhAtTmax), 10);
+    const rhOnly = computeIndicator(indicator('heat-index'), inputsOf(tmax, rh));
+    expect(rhOnly.notes.join(' ')).toContain('assumed to hold at tmax');
+    expect(rhOnly.data[0]).toBeGreaterThan(r.data[0]);
+  });
+  it('apparent temperature and simplified WBGT use e = e_s,BoM(Td) (CHECKS.md §1: exact with the BoM constants)', () => {
+    const dew = regionSeries('dewpoint', days, 1, f(22, 23, 24));
+    const wind = regionSeries('wind', days, 1, f(3, 0, 6));
+    const eBom = (td: number) => 6.105 * Math.exp((17.27 * td) / (237.7 + td));
+    const at = computeIndicator(indicator('apparent-temperature'), inputsOf(tmax, dew, wind));
+    const wbgt = computeIndicator(indicator('wbgt-simplified'), inputsOf(tmax, dew));
+    for (let i = 0; i < 3; i++) {
+      expect(at.data[i]).toBeCloseTo(tmax.data[i] + 0.33 * eBom(22 + i) - 0.7 * wind.data[i] - 4, 10);
+      expect(wbgt.data[i]).toBeCloseTo(0.567 * tmax.data[i] + 0.393 * eBom(22 + i) + 3.94, 10);
+    }
+  });
+  it('params.basis tmean uses the daily mean temperature; humidex takes the dewpoint directly', () => {
+    const tmean = regionSeries('tmean', days, 1, f(28, 29, 30));
+    const dew = regionSeries('dewpoint', days, 1, f(21, 21, 21));
+    const hx = computeIndicator(indicator('humidex', { basis: 'tmean' }), inputsOf(tmax, tmean, dew));
+    expect(hx.data[0]).toBeCloseTo(28 + 0.5555 * (6.11 * Math.exp(5417.753 * (1 / 273.16 - 1 / (21 + 273.15))) - 10), 10);
+    expect(() => computeIndicator(indicator('humidex', { basis: 'tmin' }), inputsOf(tmax, tmean, dew))).toThrow(/params.basis/);
+  });
+});
+
+describe('EHF severity ratio output', () => {
+  it('divides EHF by EHF85 from the climatology (ratio, CHECKS.md ehf-sev rows)', () => {
+    const d = dayList('2026-11-23', 5);
+    const tmax = regionSeries('tmax', d, 1, f(36, 39, 41, 40, 38));
+    const tmin = regionSeries('tmin', d, 1, f(20, 22, 25, 27, 26));
+    const ante = Float64Array.from({ length: 30 }, (_, k) => 20 + k / 10);
+    const ehf = computeIndicator(indicator('excess-heat-factor'), inputsOf(tmax, tmin), { climatology: { dmtP95C: 25 }, antecedentDmtC: ante });
+    const ratio = computeIndicator(indicator('excess-heat-factor', { output: 'severity-ratio' }), inputsOf(tmax, tmin), { climatology: { dmtP95C: 25, ehf85: 20 }, antecedentDmtC: ante });
+    expect(ehf.data[0]).toBeCloseTo(68.1111, 3); // checks.json ehf-04
+    expect(ratio.data[0]).toBeCloseTo(68.1111 / 20, 3);
+  });
+});
+
+describe('malaria suitability, monthly with lag', () => {
+  const d = dayList('2026-11-23', 70); // 23 Nov 2026 .. 31 Jan 2027
+  const tmean = new Float64Array(140);
+  const precip = new Float64Array(140);
+  tmean.fill(25, 0, 70).fill(19, 70, 140);
+  precip.fill(2, 0, 70).fill(4, 70, 140);
+  const craigS = (x: number, a: number, b: number) => (x <= a ? 0 : x >= b ? 1 : (1 - Math.cos((Math.PI * (x - a)) / (b - a))) / 2);
+
+  it('monthlySuitability: rain total = mean rate × days in month; index = min(Craig T, Craig R, p^n relative); target = month + lag', () => {
+    const p = parseMalariaParams({ id: 'mal', params: { species: 'falciparum', lagMonths: 1 } });
+    const months = monthlySuitability(d, 2, tmean, precip, p);
+    expect(months.map((m) => [m.dataMonth, m.targetMonth, m.forecastDays])).toEqual([['2026-11', '2026-12', 8], ['2026-12', '2027-01', 31], ['2027-01', '2027-02', 31]]);
+    expect(months[0].index[0]).toBeNaN(); // 8 of 30 days < 50 % coverage
+    expect(months[1].rainTotalMm[0]).toBeCloseTo(62, 12);
+    expect(months[1].index[0]).toBeCloseTo(Math.min(craigS(62, 0, 80), 0.753), 3); // p^n(25)/max = 0.753 (0.2767/0.3675)
+    const k = DETINOVA_1962.falciparum;
+    const pn19 = survivalThroughSporogony(19, k) / maxSurvivalThroughSporogony(k).value;
+    expect(pn19).toBeLessThan(craigS(19, 18, 22)); // at 19 °C the mosquito/parasite side is the limiting factor
+    expect(months[1].index[1]).toBeCloseTo(Math.min(craigS(19, 18, 22), craigS(124, 0, 80), pn19), 12);
+  });
+
+  it('computeIndicator puts each month\'s index on the days of the month it speaks for (lag 2)', () => {
+    const ind = indicator('malaria-suitability', { species: 'falciparum', lagMonths: 2 });
+    const r = computeIndicator(ind, inputsOf(regionSeries('tmean', d, 2, tmean), regionSeries('precip', d, 2, precip)));
+    expect(r.days[0]).toBe('2027-02-01');
+    expect(r.days.length).toBe(28 + 31);
+    expect(r.days.at(-1)).toBe('2027-03-31');
+    expect(new Set(r.data.subarray(0, 28)).size).toBe(1);
+    expect(r.notes.join(' ')).toContain('2026-11 has forecast for 8 of 30 days');
+    expect(r.units).toBe('1');
+  });
+
+  it('Mordecai option, categories and parameter errors', () => {
+    const p = parseMalariaParams({ id: 'mal', params: { temperatureModel: 'mordecai-2013' } });
+    const months = monthlySuitability(d, 2, tmean, precip, p);
+    expect(months[1].index[1]).toBeCloseTo(Math.min(craigS(19, 18, 22), relativeR0Mordecai2013(19)), 12);
+    expect(months[1].index[0]).toBeCloseTo(Math.min(craigS(62, 0, 80), relativeR0Mordecai2013(25)), 12);
+    expect(suitabilityCategory(0.1, p)).toBe('unsuitable');
+    expect(suitabilityCategory(0.25, p)).toBe('marginal');
+    expect(suitabilityCategory(0.75, p)).toBe('suitable');
+    expect(() => parseMalariaParams({ id: 'mal', params: { species: 'vivax', temperatureModel: 'mordecai-2013' } })).toThrow(/P. falciparum only/);
+    expect(() => parseMalariaParams({ id: 'mal', params: { lagMonths: 3 } })).toThrow(/lagMonths/);
+  });
+});
+
+describe('day-of-year percentile threshold', () => {
+  it('pools ±half-window days across years, 29 February shares the calendar (numpy linear percentile)', () => {
+    const values = new Map<string, number>();
+    for (const y of [2020, 2021, 2022]) for (const dd of dayList(`${y}-02-26`, 6)) values.set(dd, y - 2000 + Number(dd.slice(8)) / 100);
+    const thr = dayOfYearPercentileThreshold(values, 90, 3);
+    const pooled = [...values].filter(([k]) => ['02-28', '02-29', '03-01'].includes(k.slice(5))).map(([, v]) => v);
+    expect(thr('2024-02-29')).toBe(percentileLinear(pooled, 90));
+    expect(thr('2023-07-01')).toBeNaN();
+    expect(() => dayOfYearPercentileThreshold(values, 90, 4)).toThrow(/odd/);
+  });
+});

@@ -1,0 +1,38 @@
+/** Builders for indicator tests: invented Veloria region series and indicator configs (no real data). */
+import type { IndicatorConfig, IndicatorKind } from '../../src/config/types.ts';
+import { CANONICAL_UNITS, type IsoDate, type Quantity, type RegionSeries } from '../../src/types.ts';
+import { addDays } from '../../src/indicators/iso-dates.ts';
+
+export function dayList(first: IsoDate, n: number): IsoDate[] {
+  return Array.from({ length: n }, (_, i) => addDays(first, i));
+}
+
+export function regionSeries(quantity: Quantity, days: readonly IsoDate[], members: number, data: Float64Array, region = 'kessan-lowlands'): RegionSeries {
+  return {
+    region, quantity, units: CANONICAL_UNITS[quantity], days, members, data, cells: 12,
+    provenance: { file: `sample-inputs/forecast-20261123.nc`, variable: `${quantity}_var`, referenceTime: '2026-11-23T00:00:00Z' },
+  };
+}
+
+export function inputsOf(...series: RegionSeries[]): Map<Quantity, RegionSeries> {
+  return new Map(series.map((s) => [s.quantity, s]));
+}
+
+export function indicator(kind: IndicatorKind, params: IndicatorConfig['params'] = {}, windowDays = 3): IndicatorConfig {
+  return {
+    id: `test-${kind}`, name: kind, kind, windowDays, threshold: { kind: 'percentile', percentile: 90 },
+    regionThresholds: {}, aggregate: 'mean', tiers: ['days'], params,
+  };
+}
+
+/** Deterministic uniform 0..1 generator (mulberry32), so the fixtures are reproducible. */
+export function rng(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}

@@ -1,0 +1,83 @@
+/** Property tests of the formulas (shape of the published curves, CHECKS.md §2, §6, §8, §9, §10). */
+import { describe, expect, it } from 'vitest';
+import { excessHeatFactorNairnFawcett2015 } from '../../src/indicators/excess-heat-factor-nairn-fawcett-2015.ts';
+import { heatIndexRothfusz1990F } from '../../src/indicators/heat-index-rothfusz-1990.ts';
+import { relativeR0Mordecai2013 } from '../../src/indicators/relative-r0-mordecai-2013.ts';
+import { DETINOVA_1962 } from '../../src/indicators/sporogony-detinova-1962.ts';
+import { craigMonthlySuitability1999, craigRainfallMembership1999, craigTemperatureMembership1999 } from '../../src/indicators/suitability-craig-1999.ts';
+import { dailySurvivalMartens1997, survivalThroughSporogony } from '../../src/indicators/survival-martens-1997.ts';
+import { rng } from './fixtures.ts';
+
+describe('Heat Index (WPC algorithm)', () => {
+  it('rises with humidity at fixed temperature above 80 °F (Steadman 1979 sultriness increases with vapour pressure)', () => {
+    for (let t = 82; t <= 110; t += 2) {
+      let prev = -Infinity;
+      for (let rh = 15; rh <= 100; rh += 1) {
+        const hi = heatIndexRothfusz1990F(t, rh);
+        expect(hi, `T=${t} RH=${rh}`).toBeGreaterThan(prev);
+        prev = hi;
+      }
+    }
+  });
+  it('is flagged (NaN), not extrapolated, outside 40..120 °F or 0..100 %', () => {
+    expect(heatIndexRothfusz1990F(125, 50)).toBeNaN();
+    expect(heatIndexRothfusz1990F(35, 50)).toBeNaN();
+    expect(heatIndexRothfusz1990F(90, 101)).toBeNaN();
+  });
+});
+
+describe('Martens (1997) daily survival', () => {
+  it('peaks near 21.83 °C (p = 0.9039, CHECKS.md §8) and falls on both sides', () => {
+    let bestT = NaN;
+    let best = -1;
+    for (let t = 4; t < 40; t += 0.01) {
+      const p = dailySurvivalMartens1997(t);
+      if (p > best) [best, bestT] = [p, t];
+    }
+    expect(Math.abs(bestT - 21.83)).toBeLessThan(0.02);
+    expect(Math.abs(best - 0.9039)).toBeLessThan(1e-4);
+    for (let t = 22; t < 39.5; t += 0.5) expect(dailySurvivalMartens1997(t + 0.5)).toBeLessThan(dailySurvivalMartens1997(t));
+    for (let t = 21.5; t > 4; t -= 0.5) expect(dailySurvivalMartens1997(t - 0.5)).toBeLessThan(dailySurvivalMartens1997(t));
+  });
+  it('is 0 outside the published bounds 11/3..40 °C', () => {
+    for (const t of [-5, 0, 3.6, 11 / 3, 40, 41, 50]) expect(dailySurvivalMartens1997(t)).toBe(0);
+  });
+});
+
+describe('suitability is 0 outside the published bounds', () => {
+  it('p^n is 0 at or below the Detinova (1962) minimum and at or above 40 °C', () => {
+    for (const s of ['falciparum', 'vivax'] as const) {
+      const k = DETINOVA_1962[s];
+      for (const t of [k.tMinC - 5, k.tMinC, 40, 45]) expect(survivalThroughSporogony(t, k)).toBe(0);
+      expect(survivalThroughSporogony(k.tMinC + 1, k)).toBeGreaterThan(0);
+    }
+  });
+  it('Craig (1999) membership is 0 at ≤ 18 °C, ≥ 40 °C and 0 mm; 1 on 22..32 °C and ≥ 80 mm (breakpoints from memory)', () => {
+    for (const t of [5, 17.9, 18, 40, 42]) expect(craigTemperatureMembership1999(t)).toBe(0);
+    for (const t of [22, 27, 32]) expect(craigTemperatureMembership1999(t)).toBe(1);
+    expect(craigRainfallMembership1999(0)).toBe(0);
+    expect(craigRainfallMembership1999(150)).toBe(1);
+    expect(craigMonthlySuitability1999(25, 0)).toBe(0);
+  });
+  it('Mordecai (2013) relative R0 is 0 below ≈15.76 °C and above ≈33.71 °C, 1 at the optimum', () => {
+    for (const t of [10, 15.7, 33.75, 38]) expect(relativeR0Mordecai2013(t)).toBe(0);
+    expect(relativeR0Mordecai2013(16)).toBeGreaterThan(0);
+    expect(relativeR0Mordecai2013(25.565)).toBeCloseTo(1, 6);
+  });
+});
+
+describe('Excess Heat Factor (Nairn & Fawcett 2015)', () => {
+  it('is never positive when the 3-day mean is below T95, whatever the acclimatisation term', () => {
+    const r = rng(7);
+    for (let k = 0; k < 2000; k++) {
+      const t95 = 20 + 10 * r();
+      const t3 = t95 - 8 * r() - 1e-9;
+      const t30 = t95 - 15 + 25 * r();
+      expect(excessHeatFactorNairnFawcett2015(t3, t95, t30)).toBeLessThanOrEqual(0);
+    }
+  });
+  it('is positive exactly when T3 > T95', () => {
+    expect(excessHeatFactorNairnFawcett2015(25.1, 25, 30)).toBeGreaterThan(0);
+    expect(excessHeatFactorNairnFawcett2015(25, 25, 20)).toBe(0);
+  });
+});

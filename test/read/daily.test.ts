@@ -1,0 +1,72 @@
+/**
+ * Local-day reduction. Expected values are worked by hand from the interval rules in src/read/daily.ts
+ * (no published source; the cell-first order is that of CDO's daymax then fldmean, checked in extract-cdo.test.ts).
+ */
+import { describe, expect, it } from 'vitest';
+import { planLocalDays, reduceToDays, stepIntervals, deaccumulateInPlace } from '../../src/read/daily.ts';
+
+const H = 3_600_000;
+const REF = Date.UTC(2026, 10, 23);
+const stamps = (hours: number[]): Float64Array => Float64Array.from(hours, (h) => REF + h * H);
+
+describe('stepIntervals + planLocalDays', () => {
+  it('a 6-h maximum stamped at its end belongs to the period it covers: the 24Z stamp is day 1, not day 2', () => {
+    const iv = stepIntervals({ stampsMs: stamps([6, 12, 18, 24, 30, 36, 42, 48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false });
+    const plan = planLocalDays(iv, 0);
+    expect(plan.days).toEqual(['2026-11-23', '2026-11-24']);
+    expect(Array.from(plan.dayOfStep)).toEqual([0, 0, 0, 0, 1, 1, 1, 1]);
+    const values = Float64Array.of(1, 2, 3, 40, 5, 6, 7, 8);
+    const out = new Float64Array(2);
+    reduceToDays(values, 1, plan, 'max', out);
+    expect(Array.from(out)).toEqual([40, 8]);
+  });
+
+  it('time_bnds are honoured over the stamp (stamps at the start of each 6-h bound)', () => {
+    const s = stamps([0, 6, 12, 18, 24]);
+    const b = Float64Array.from([0, 6, 6, 12, 12, 18, 18, 24, 24, 30], (h) => REF + h * H);
+    const plan = planLocalDays(stepIntervals({ stampsMs: s, boundsMs: b, referenceMs: null, periodEndingAtStamp: false, accumulated: false }), 0);
+    expect(plan.days).toEqual(['2026-11-23']);
+    expect(Array.from(plan.dayOfStep)).toEqual([0, 0, 0, 0, -1]);
+  });
+
+  it('instantaneous 6-hourly samples, UTC+1: 00-18Z form the local day; the lone last sample is an incomplete day, dropped', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([0, 6, 12, 18, 24, 30, 36, 42, 48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: false, accumulated: false }), 1);
+    expect(plan.days).toEqual(['2026-11-23', '2026-11-24']);
+    expect(Array.from(plan.dayOfStep)).toEqual([0, 0, 0, 0, 1, 1, 1, 1, -1]);
+  });
+
+  it('UTC-3: the 00Z sample falls on the previous local evening; incomplete first local day dropped', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([0, 6, 12, 18, 24, 30]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: false, accumulated: false }), -3);
+    expect(plan.days).toEqual(['2026-11-23']);
+    expect(Array.from(plan.dayOfStep)).toEqual([-1, 0, 0, 0, 0, -1]);
+  });
+
+  it('daily input passes through, dated by the stamp', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([0, 24, 48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), 1);
+    expect(plan.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+  });
+
+  it('mean weights steps by interval length; a missing step makes the cell-day NaN', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([6, 12, 18, 24]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), 0);
+    const values = Float64Array.of(1, 10, 2, 20, 3, NaN, 4, 40);
+    const out = new Float64Array(2);
+    reduceToDays(values, 2, plan, 'mean', out);
+    expect(out[0]).toBeCloseTo(2.5, 12);
+    expect(out[1]).toBeNaN();
+  });
+});
+
+describe('accumulated fields', () => {
+  it('de-accumulation with acc(t0) = 0 (checks.json conv-pr-1..3: 0→12.5 mm, 12.5→30 mm, 30→30 mm)', () => {
+    const acc = Float64Array.of(12.5, 30, 30);
+    deaccumulateInPlace(acc, 3, 1);
+    expect(Array.from(acc)).toEqual([12.5, 17.5, 0]);
+  });
+
+  it('accumulated 6-hourly steps are split into intervals since the previous step; step 0 (zero length) is dropped', () => {
+    const iv = stepIntervals({ stampsMs: stamps([0, 6, 12, 18, 24]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: true });
+    expect(Array.from(iv.startMs, (v) => (v - REF) / H)).toEqual([0, 0, 6, 12, 18]);
+    const plan = planLocalDays(iv, 0);
+    expect(Array.from(plan.dayOfStep)).toEqual([-1, 0, 0, 0, 0]);
+  });
+});

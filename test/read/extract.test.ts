@@ -1,0 +1,141 @@
+/**
+ * The read stage end to end on in-memory files (fake-forecast.ts) and on the ncgen fixtures. Expected values
+ * are worked by hand from the stated rules unless a CDO output file or checks.json row is named.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import type { RegionConfig, RegionShape } from '../../src/config/types.ts';
+import { InputError, UnitError } from '../../src/errors.ts';
+import { extractFromDataset, extractRegionSeries } from '../../src/read/extract.ts';
+import { makeFakeDataset } from './fake-dataset.ts';
+import { axis, makeFakeForecast, type ValueFn } from './fake-forecast.ts';
+
+const region = (id: string, shape: RegionShape, utcOffsetHours = 0): RegionConfig => ({ id, name: id, shape, utcOffsetHours, teams: [] });
+const MARROW = region('marrow-highlands', { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 }, 1);
+const KESSAN = region('kessan-lowlands', { kind: 'box', south: -12, north: -9, west: -3.5, east: -0.5 }, 1);
+const OUTSIDE = region('far-away', { kind: 'box', south: 40, north: 45, west: 10, east: 12 });
+
+/** 1° grid 0..359 × -14..-4, 6-hourly maxima stamped at the end of their 6 h (00Z reference), 2 members. */
+function sixHourlyMax(value: ValueFn, attributes: Record<string, string> = { units: 'K', cell_methods: 'time: maximum' }, more = {}) {
+  return makeFakeForecast({
+    lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 12), members: 2,
+    variables: { mx2t6: { attributes, value }, ...more },
+  });
+}
+
+describe('extractFromDataset', () => {
+  it('daily maximum by local day (UTC+1), K → degC, members in file order, one band read per member', async () => {
+    // value = 290 + member + step index, so the max over a day is its last 6-h step: steps 0-3 → day 1, 4-7 → day 2.
+    const ds = sixHourlyMax((m, t) => 290 + m + t);
+    const { series, problems } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [MARROW, KESSAN], referenceTime: '2026-11-23' });
+    expect(problems).toEqual([]);
+    const marrow = series.find((s) => s.region === 'marrow-highlands');
+    expect(marrow?.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+    expect(marrow?.units).toBe('degC');
+    expect(marrow?.members).toBe(2);
+    expect(marrow?.cells).toBe(3 * 3);
+    expect(Array.from(marrow?.data ?? []).map((v) => +v.toFixed(9))).toEqual([19.85, 23.85, 27.85, 20.85, 24.85, 28.85]);
+    expect(marrow?.provenance).toEqual({ file: 'fc_20261123.nc', variable: 'mx2t6', referenceTime: '2026-11-23T00:00:00Z' });
+  });
+
+  it('reads only the union band of all regions, once per member (two hyperslabs as the band crosses lon 359→0)', async () => {
+    const ds = sixHourlyMax(() => 300);
+    await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [MARROW, KESSAN] });
+    const reads = ds.reads.filter((r) => r.name === 'mx2t6');
+    expect(reads).toHaveLength(2 * 2);
+    // rows -12..-7 (6), columns 357..359 and 0..1 (5), 12 steps, 2 members.
+    expect(reads.reduce((a, r) => a + r.values, 0)).toBe(2 * 12 * 6 * 5);
+  });
+
+  it('area mean skips missing cells and renormalises weights per member and day', async () => {
+    // Kessan lowlands: cells lat -12..-9 × lon 357..359 (4×3). Member 0 has every lon 359 cell missing on all steps.
+    const ds = sixHourlyMax((m, _t, _lat, lon) => (m === 0 && lon === 359 ? NaN : 273.15 + (lon === 359 ? 30 : 10)));
+    const { series } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [KESSAN] });
+    const d = series[0].data;
+    expect(d[0]).toBeCloseTo(10, 9);
+    expect(d[3]).toBeCloseTo((2 * 10 + 30) / 3, 9);
+  });
+
+  it('accumulated precipitation in m (lwe_thickness_of_precipitation_amount) → mm/day (checks.json conv-pr-1..3)', async () => {
+    const acc = [0.0125, 0.03, 0.03];
+    const ds = makeFakeForecast({
+      lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: [24, 48, 72], members: 1,
+      variables: { tp: { attributes: { units: 'm', standard_name: 'lwe_thickness_of_precipitation_amount' }, value: (_m, t) => acc[t] } },
+    });
+    const { series } = await extractFromDataset(ds, { quantities: { precip: 'tp' }, regions: [MARROW] });
+    expect(series[0].units).toBe('mm/day');
+    expect(series[0].days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+    expect(Array.from(series[0].data).map((v) => +v.toFixed(9))).toEqual([12.5, 17.5, 0]);
+  });
+
+  it('a variable with no ensemble dimension counts as one member', async () => {
+    const ds = makeFakeDataset({
+      dimensions: { time: 2, lat: 2, lon: 3 },
+      variables: {
+        time: { dimensions: ['time'], attributes: { units: 'days since 2026-11-23', standard_name: 'time' }, data: [0, 1] },
+        lat: { dimensions: ['lat'], attributes: { standard_name: 'latitude' }, data: [-8, -7] },
+        lon: { dimensions: ['lon'], attributes: { standard_name: 'longitude' }, data: [-1, 0, 1] },
+        rh: { dimensions: ['time', 'lat', 'lon'], attributes: { units: '1' }, data: [0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.7, 0.7, 0.7, 0.7, 0.7, 0.7] },
+      },
+    });
+    const { series } = await extractFromDataset(ds, { quantities: { rh: 'rh' }, regions: [MARROW] });
+    expect(series[0].members).toBe(1);
+    expect(Array.from(series[0].data).map((v) => +v.toFixed(9))).toEqual([50, 70]);
+  });
+});
+
+describe('bad input', () => {
+  it('variable with no units → UnitError in problems; the other quantity is still computed', async () => {
+    const ds = sixHourlyMax(() => 300, { cell_methods: 'time: maximum' }, { mn2t6: { attributes: { units: 'K', cell_methods: 'time: minimum' }, value: () => 280 } });
+    const { series, problems } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6', tmin: 'mn2t6' }, regions: [MARROW] });
+    expect(series.map((s) => [s.quantity, +s.data[0].toFixed(9)])).toEqual([['tmin', 6.85]]);
+    expect(problems).toHaveLength(1);
+    expect(problems[0]).toBeInstanceOf(UnitError);
+    expect(problems[0].message).toMatch(/fc_20261123\.nc: variable 'mx2t6' \(tmax\) has no units attribute/);
+  });
+
+  it('unknown units → UnitError; a missing variable → InputError; both reported, nothing thrown', async () => {
+    const ds = sixHourlyMax(() => 300, { units: 'kelvins please', cell_methods: 'time: maximum' });
+    const { problems } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6', tmin: 'mn2t6' }, regions: [MARROW] });
+    expect(problems.map((p) => p.code)).toEqual(['unit', 'variable-missing']);
+    expect(problems[0].message).toMatch(/units 'kelvins please' that cannot be converted to degC/);
+  });
+
+  it('one region outside the grid is reported; the others are still computed', async () => {
+    const ds = sixHourlyMax(() => 300);
+    const { series, problems } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [OUTSIDE, MARROW, KESSAN] });
+    expect(series.map((s) => s.region)).toEqual(['marrow-highlands', 'kessan-lowlands']);
+    expect(problems).toHaveLength(1);
+    expect(problems[0]).toBeInstanceOf(InputError);
+    expect(problems[0].message).toMatch(/region 'far-away' \(box 40\.\.45, 10\.\.12\) has no grid cell in fc_20261123\.nc \(grid lat -14\.\.-4, lon 0\.\.359\) — check the region box or the source/);
+  });
+
+  it('a region whose cells are all missing → InputError in problems; other regions kept', async () => {
+    const ds = sixHourlyMax((_m, _t, lat) => (lat >= -9 ? NaN : 300));
+    const { series, problems } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [MARROW, KESSAN] });
+    expect(series.map((s) => s.region)).toEqual(['kessan-lowlands']);
+    expect(problems.map((p) => p.code)).toEqual(['region-all-missing']);
+    expect(problems[0].message).toMatch(/every cell of region 'marrow-highlands'/);
+  });
+
+  it('wrong forecast date in the file name vs contents → InputError naming both dates', async () => {
+    const ds = makeFakeForecast({ lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 8), referenceHours: 72, variables: { t2m: { attributes: { units: 'K' }, value: () => 300 } } });
+    await expect(extractFromDataset(ds, { quantities: { tmean: 't2m' }, regions: [MARROW], referenceTime: '2026-11-23' }))
+      .rejects.toThrow(/the file holds the forecast of 2026-11-26T00:00:00Z but 2026-11-23T00:00:00Z was requested/);
+  });
+});
+
+describe('extractRegionSeries on the ncgen fixtures', () => {
+  it('tmax by local day equals cdo fldmean -daymax minus 273.15 (test/fixtures/regions/cdo-6h-marrow-daymax.txt)', async () => {
+    const file = join(import.meta.dirname, '../fixtures/regions/sixhourly.nc');
+    const { series, problems } = await extractRegionSeries(file, { quantities: { tmax: 't2m' }, regions: [{ ...MARROW, utcOffsetHours: 0 }], referenceTime: '2026-11-23T00:00Z' });
+    expect(problems).toEqual([]);
+    const cdo = readFileSync(join(import.meta.dirname, '../fixtures/regions/cdo-6h-marrow-daymax.txt'), 'utf8')
+      .split('\n').filter((l) => /^\s*\d{4}-/.test(l)).map((l) => l.trim().split(/\s+/));
+    for (const [date, lev, value] of cdo.slice(0, 6)) {
+      const d = series[0].days.indexOf(date);
+      expect(Math.abs(series[0].data[Number(lev) * series[0].days.length + d] - (Number(value) - 273.15))).toBeLessThanOrEqual(1e-4);
+    }
+  });
+});

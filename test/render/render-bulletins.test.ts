@@ -1,0 +1,140 @@
+// Team and national bulletins from the fixed Veloria sample run (test/render/fixtures/sample-run.ts).
+import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { Bulletin } from '../../src/types.ts';
+import { ForelightError } from '../../src/errors.ts';
+import { renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
+import { sampleConfig } from './fixtures/sample-config.ts';
+import { sampleRun } from './fixtures/sample-run.ts';
+
+let out: RenderedRun;
+const byTeam = (team: string): Bulletin => out.bulletins.find((b) => b.team === team)!;
+/** Intl puts no-break, thin and narrow no-break spaces in dates, percentages and units; compare with plain spaces. */
+const plain = (team: string): string => byTeam(team).text.replace(/[\u00a0\u2009\u202f]/g, ' ');
+
+beforeAll(async () => {
+  out = await renderBulletins(sampleConfig(), sampleRun());
+});
+
+describe('renderBulletins on the sample run', () => {
+  it('one bulletin per team, in the team locale, addressed to its recipients', () => {
+    expect(out.bulletins.map((b) => `${b.team}:${b.locale}`)).toEqual([
+      'kessan-health:en', 'marrow-health:en', 'tulva-health:fr', 'orrin-health:en', 'national-desk:en',
+    ]);
+    expect(byTeam('national-desk').to).toEqual(['desk@health.veloria.example', 'epidemiology@health.veloria.example']);
+  });
+
+  it('subjects name the date and each region stage with label and glyph', () => {
+    expect(byTeam('kessan-health').subject).toBe('Republic of Veloria heat and malaria outlook, 30 Nov 2026 — Kessan Lowlands: Brace ◑');
+    expect(byTeam('tulva-health').subject).toBe('Republic of Veloria : perspectives chaleur et paludisme, 30 nov. 2026 — Tulva Delta : Vigilant ◔');
+    expect(byTeam('national-desk').subject).toBe('Republic of Veloria heat and malaria outlook, 30 Nov 2026 — highest: Brace ◑ (Kessan Lowlands)');
+  });
+
+  it('team bulletins cover only their regions; the national summary covers all four', () => {
+    expect(byTeam('kessan-health').text).not.toContain('MARROW HIGHLANDS');
+    for (const name of ['KESSAN LOWLANDS', 'MARROW HIGHLANDS', 'TULVA DELTA', 'ORRIN COAST']) expect(byTeam('national-desk').text).toContain(name);
+  });
+
+  it('every bulletin carries every caution of its locale, in HTML and text', () => {
+    const cfg = sampleConfig();
+    for (const b of out.bulletins) {
+      for (const c of cfg.cautions[b.locale]) {
+        expect(b.text).toContain(c);
+        expect(b.html).toContain(c.replace(/'/g, '&#39;'));
+      }
+    }
+  });
+
+  it('refuses to render when a locale in use has no cautions', async () => {
+    const cfg = sampleConfig({ cautions: { en: sampleConfig().cautions.en, fr: [] } });
+    await expect(renderBulletins(cfg, sampleRun())).rejects.toThrow(/no caution text for locale "fr"/);
+    await expect(renderBulletins(cfg, sampleRun())).rejects.toBeInstanceOf(ForelightError);
+  });
+
+  it('states chance against the normal-year base rate, with the configured word', () => {
+    expect(plain('kessan-health')).toContain('3-day mean maximum temperature above 34.2 °C for Fri 4 Dec: 70% chance (likely), against 10% in a normal year.');
+    expect(plain('tulva-health')).toContain('68 % de probabilité (probable), contre 30 % une année normale');
+  });
+
+  it('says plainly when a lead has no demonstrated skill, and when skill is a model-only estimate', () => {
+    const k = plain('kessan-health');
+    expect(k).toMatch(/15 – 21 Dec: 24% chance.*No demonstrated skill at this range — treat as normal conditions/);
+    expect(k).toContain('Model-only estimate, no observations (0.64)');
+    expect(plain('tulva-health')).toContain('Aucune fiabilité démontrée à cette échéance — considérer les conditions comme normales');
+  });
+
+  it('uses the team-specific actions when configured, else the default', () => {
+    expect(byTeam('tulva-health').text).toContain('Revoir les plans, vérifier les stocks de moustiquaires et de tests rapides dans le delta.');
+    expect(byTeam('kessan-health').text).toContain('Alert clinics and community health workers');
+    expect(byTeam('national-desk').text).toContain('Inform the ministry duty officer');
+  });
+
+  it('says what changed and why, which forecasts were used (late source flagged) and the next issue date', () => {
+    const t = plain('kessan-health');
+    expect(t).toContain('Since the last bulletin: Raised from ◔ Mindful to ◑ Brace. Why: Brace reached in two runs in a row');
+    expect(t).toContain('Sub-seasonal ensemble: forecast of 26 Nov 2026 — the newer forecast was late, so this is based on the forecast of 26 Nov 2026');
+    expect(t).toContain('Next bulletin: 3 Dec 2026.');
+    expect(plain('orrin-health')).toContain('Lowered from ◔ Mindful to ○ Quiet.');
+  });
+
+  it('embeds one PNG chart per region × indicator as a CID attachment referenced by the HTML', () => {
+    const b = byTeam('kessan-health');
+    expect(b.attachments.map((a) => a.cid)).toEqual(['kessan-lowlands-tmax-3day@forelight', 'kessan-lowlands-malaria-pf@forelight']);
+    for (const a of b.attachments) {
+      expect(Buffer.from(a.content.subarray(0, 8)).toString('hex')).toBe('89504e470d0a1a0a'); // PNG signature (ISO/IEC 15948)
+      expect(b.html).toContain(`src="cid:${a.cid}"`);
+    }
+  });
+
+  it('plain-text bulletins match their snapshots (en team, fr team)', async () => {
+    await expect(byTeam('kessan-health').text).toMatchFileSnapshot('./__snapshots__/kessan-health.txt');
+    await expect(byTeam('tulva-health').text).toMatchFileSnapshot('./__snapshots__/tulva-health.txt');
+  });
+});
+
+describe('templates', () => {
+  it('an operator override in config.templates wins over the shipped file; the rest still come from the shipped set', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-tpl-'));
+    mkdirSync(join(dir, 'en'));
+    writeFileSync(join(dir, 'en', 'team.txt.njk'), 'Custom bulletin for {{ team.name }}\n');
+    const r = await renderBulletins(sampleConfig({ templates: dir }), sampleRun());
+    const k = r.bulletins.find((b) => b.team === 'kessan-health')!;
+    expect(k.text).toBe('Custom bulletin for Kessan Lowlands District Health Office\n');
+    expect(k.html).toContain('Read before acting');
+  });
+
+  it('an undefined variable in a template fails the run (throwOnUndefined)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-tpl-'));
+    mkdirSync(join(dir, 'en'));
+    writeFileSync(join(dir, 'en', 'team.txt.njk'), '{{ team.nickname }}\n');
+    await expect(renderBulletins(sampleConfig({ templates: dir }), sampleRun())).rejects.toThrow(/template en\/team\.txt\.njk .* failed/);
+  });
+});
+
+describe('hostile names from YAML', () => {
+  const evil = '<script>alert(1)</script>Kessan\r\nBcc: x@y.example';
+
+  it('cannot inject HTML (autoescape) or mail headers (CR/LF stripped from the subject)', async () => {
+    const cfg = sampleConfig();
+    const run = sampleRun();
+    const regions = run.regions.map((r) => (r.region.id === 'kessan-lowlands' ? { ...r, region: { ...r.region, name: evil } } : r));
+    const teams = cfg.teams.map((t) => (t.id === 'kessan-health' ? { ...t, name: `Team <b>x</b>\r\nX-Injected: 1` } : t));
+    const r = await renderBulletins({ ...cfg, teams }, { ...run, regions });
+    const b = r.bulletins.find((x) => x.team === 'kessan-health')!;
+    expect(b.html).not.toContain('<script>');
+    expect(b.html).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+    expect(b.html).not.toContain('<b>x</b>');
+    expect(b.subject).not.toMatch(/[\r\n\u0000-\u001f]/);
+    expect(b.subject).toContain('<script>alert(1)</script>Kessan Bcc: x@y.example: Brace ◑');
+    expect(r.archive.bodyHtml).not.toContain('<script>');
+    for (const a of r.capAlerts) expect(a.xml).not.toContain('<script>');
+  });
+
+  it('rejects a recipient address carrying extra header lines', async () => {
+    const cfg = sampleConfig();
+    const teams = cfg.teams.map((t) => (t.id === 'orrin-health' ? { ...t, recipients: ['alerts@orrin.health.veloria.example\r\nBcc: x@y.example'] } : t));
+    await expect(renderBulletins({ ...cfg, teams }, sampleRun())).rejects.toThrow(/team "orrin-health" recipient .* is not a single e-mail address/);
+  });
+});

@@ -1,0 +1,109 @@
+/**
+ * Lock file (atomic create with O_EXCL, POSIX open(2)), data arrival polling, fall-back to the newest earlier
+ * forecast, and the status file. Expected values follow from the rules in src/schedule/*.ts (no external source).
+ */
+import { spawnSync } from 'node:child_process';
+import { appendFileSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { hostname } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { acquireLock } from '../../src/schedule/lock-file.ts';
+import { forecastPath, resolveLatestInputs, waitForInputs } from '../../src/schedule/input-arrival.ts';
+import { makeRunReport, nextStatus, readStatus, writeStatus } from '../../src/schedule/status-file.ts';
+import { EXIT } from '../../src/schedule/exit-codes.ts';
+import { tempDir } from '../deliver/fixtures.ts';
+
+/** Pid of a process that has exited (a real child, reaped). */
+const deadPid = () => spawnSync(process.execPath, ['-e', 'process.stdout.write(String(process.pid))'], { encoding: 'utf8' }).stdout;
+
+describe('lock file', () => {
+  it('one holder at a time; the second sees who holds it; release frees it', () => {
+    const path = join(tempDir('lock'), 'forelight.lock');
+    const a = acquireLock(path, { maxAgeSeconds: 3600 });
+    expect(a.acquired).toBe(true);
+    const b = acquireLock(path, { maxAgeSeconds: 3600 });
+    expect(b).toEqual({ acquired: false, holder: { pid: process.pid, host: hostname(), startedAt: expect.any(String) } });
+    if (a.acquired) a.lock.release();
+    expect(existsSync(path)).toBe(false);
+    expect(acquireLock(path, { maxAgeSeconds: 3600 }).acquired).toBe(true);
+  });
+
+  it('a lock of a dead process, an over-age lock and a half-written lock are stale and taken over', () => {
+    const dir = tempDir('lock-stale');
+    const path = join(dir, 'forelight.lock');
+    writeFileSync(path, JSON.stringify({ pid: Number(deadPid()), host: hostname(), startedAt: new Date().toISOString() }));
+    expect(acquireLock(path, { maxAgeSeconds: 3600 }).acquired).toBe(true);
+    writeFileSync(path, JSON.stringify({ pid: process.ppid, host: hostname(), startedAt: '2026-11-01T00:00:00Z' }));
+    expect(acquireLock(path, { maxAgeSeconds: 3600 }).acquired).toBe(true);
+    writeFileSync(path, '{"pid": 12');
+    expect(acquireLock(path, { maxAgeSeconds: 3600 }).acquired).toBe(true);
+    writeFileSync(path, JSON.stringify({ pid: process.ppid, host: hostname(), startedAt: new Date().toISOString() }));
+    expect(acquireLock(path, { maxAgeSeconds: 3600 }).acquired).toBe(false); // live parent process holds it
+  });
+
+  it('release does not remove a lock that someone else took over', () => {
+    const path = join(tempDir('lock-steal'), 'forelight.lock');
+    const a = acquireLock(path, { maxAgeSeconds: 3600 });
+    const other = JSON.stringify({ pid: process.ppid, host: hostname(), startedAt: new Date().toISOString() });
+    writeFileSync(path, other);
+    if (a.acquired) a.lock.release();
+    expect(readFileSync(path, 'utf8')).toBe(other);
+  });
+});
+
+describe('data arrival', () => {
+  it('a file counts only once its size is stable across two polls', async () => {
+    const dir = tempDir('arrive');
+    const a = join(dir, 'fc_20261126.nc');
+    const b = join(dir, 'sub_20261126.nc');
+    let polls = 0;
+    // The "copy" of b grows during the first two polls and is complete after the third.
+    const sleep = async () => {
+      polls++;
+      if (polls === 1) writeFileSync(a, 'complete');
+      if (polls <= 3) appendFileSync(b, 'chunk');
+    };
+    const result = await waitForInputs([a, b], new Date(Date.now() + 60_000), 1, sleep);
+    expect(result).toEqual({ arrived: [a, b], missing: [] });
+    expect(polls).toBe(4);
+  });
+
+  it('gives up at the deadline and names what is missing', async () => {
+    const dir = tempDir('late');
+    const p = join(dir, 'fc_20261126.nc');
+    let t = Date.parse('2026-11-26T06:00:00Z');
+    const slept: number[] = [];
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, async (ms) => { slept.push(ms); t += ms; }, () => new Date(t));
+    expect(result).toEqual({ arrived: [], missing: [p] });
+    expect(slept).toEqual([240_000, 240_000, 120_000]);
+  });
+
+  it('resolveLatestInputs falls back to the newest earlier forecast and flags it stale', () => {
+    const dir = tempDir('latest');
+    const pattern = join(dir, 'subseasonal_{date}.nc');
+    writeFileSync(forecastPath(pattern, '2026-11-23'), 'x');
+    expect(forecastPath(pattern, '2026-11-23')).toBe(join(dir, 'subseasonal_20261123.nc'));
+    expect(resolveLatestInputs(pattern, '2026-11-26', 7)).toEqual({
+      expectedDate: '2026-11-26', date: '2026-11-23', path: join(dir, 'subseasonal_20261123.nc'), stale: true,
+    });
+    writeFileSync(forecastPath(pattern, '2026-11-26'), 'x');
+    expect(resolveLatestInputs(pattern, '2026-11-26', 7)).toMatchObject({ date: '2026-11-26', stale: false });
+    expect(resolveLatestInputs(pattern, '2026-12-10', 7)).toEqual({ expectedDate: '2026-12-10', date: null, path: null, stale: true });
+  });
+});
+
+describe('status file', () => {
+  it('round-trips and counts consecutive failures', () => {
+    const path = join(tempDir('status'), 'status.json');
+    expect(readStatus(path)).toBeNull();
+    const base = { cron: '0 6 * * 1,4', timezone: 'Africa/Lagos', nextRun: '2026-11-30T05:00:00.000Z' };
+    const t = new Date('2026-11-26T05:00:00Z');
+    let s = nextStatus(null, base, makeRunReport('scheduled', t, t, EXIT.deliveryFailed, '2 in outbox'));
+    s = nextStatus(s, base, makeRunReport('scheduled', t, t, EXIT.unexpected, 'boom'));
+    writeStatus(path, s);
+    expect(readStatus(path)).toMatchObject({ consecutiveFailures: 2, lastRun: { exitName: 'unexpected' }, recentFailures: [{ summary: 'boom' }, { summary: '2 in outbox' }] });
+    expect(nextStatus(s, base, makeRunReport('scheduled', t, t, EXIT.nothingNew, 'no new data')).consecutiveFailures).toBe(0);
+    writeFileSync(path, '{');
+    expect(() => readStatus(path)).toThrow(/^status file .* is not valid JSON: .* — delete it/);
+  });
+});
