@@ -32,7 +32,11 @@ export async function measure(argv: readonly string[], cwd: string): Promise<Mea
     child.on('close', (c) => resolve({ code: c, stdout: out, stderr: err }));
   });
   const seconds = (performance.now() - began) / 1000;
-  if (code !== 0) throw new Error(`${argv.join(' ')} exited with ${code}: ${stderr.trim().split('\n').slice(-3).join(' | ')}`);
+  if (code !== 0) {
+    const lines = stderr.trim().split('\n');
+    const why = lines.find((l) => /^\w*Error\b|^Error:|^Warning|^cdo/.test(l.trim())) ?? lines.at(-1) ?? '';
+    throw new Error(`${argv.slice(0, 3).join(' ')} … exited with ${code}: ${why.trim()}`);
+  }
   let maxRssKb = NaN;
   if (existsSync(rssFile)) {
     maxRssKb = Number(readFileSync(rssFile, 'utf8').trim().split('\n').at(-1));
@@ -41,7 +45,9 @@ export async function measure(argv: readonly string[], cwd: string): Promise<Mea
   return { seconds, maxRssKb, stdout };
 }
 
+/** Median; NaN when empty or when any run failed (NaN). */
 export const median = (xs: readonly number[]): number => {
+  if (xs.length === 0 || xs.some(Number.isNaN)) return NaN;
   const s = [...xs].sort((a, b) => a - b);
   const mid = Math.floor(s.length / 2);
   return s.length % 2 ? s[mid] : (s[mid - 1] + s[mid]) / 2;

@@ -33,6 +33,8 @@ interface SetResult {
   /** Forelight's own time without process start-up (median). */
   readonly forelightInProcess: number;
   readonly maxAbsDiffK: number;
+  /** Failures (tool: message); a failed tool's time is NaN, the other tools still run. */
+  readonly failures: readonly string[];
 }
 
 function argValue(name: string): string | undefined {
@@ -77,14 +79,28 @@ async function crossCheck(files: readonly string[], scratch: string): Promise<nu
 async function runSet(set: InputSet, runs: number, log: (l: string) => void): Promise<SetResult> {
   const scratch = mkdtempSync(join(tmpdir(), 'forelight-bench-'));
   try {
-    const maxAbsDiffK = await crossCheck(set.files, scratch);
-    log(`${set.label}: cross-check max |Forelight − Python| = ${maxAbsDiffK.toExponential(2)} K`);
+    const failures: string[] = [];
+    let maxAbsDiffK = NaN;
+    try {
+      maxAbsDiffK = await crossCheck(set.files, scratch);
+      log(`${set.label}: cross-check max |Forelight − Python| = ${maxAbsDiffK.toExponential(2)} K`);
+    } catch (err) {
+      failures.push(`cross-check: ${(err as Error).message}`);
+    }
     const times: Record<Tool, number[]> = { forelight: [], cdo: [], python: [], cat: [] };
     const rss: Record<Tool, number[]> = { forelight: [], cdo: [], python: [], cat: [] };
     const inProcess: number[] = [];
     for (let r = 0; r < runs; r++) {
       for (const tool of TOOLS) {
-        const m = await measure(commandOf(tool, set.files, scratch), ROOT);
+        let m;
+        try {
+          m = await measure(commandOf(tool, set.files, scratch), ROOT);
+        } catch (err) {
+          failures.push(`${tool} run ${r + 1}: ${(err as Error).message}`);
+          times[tool].push(NaN);
+          rss[tool].push(NaN);
+          continue;
+        }
         times[tool].push(m.seconds);
         rss[tool].push(m.maxRssKb / 1024);
         if (tool === 'forelight') inProcess.push((JSON.parse(m.stdout.trim().split('\n').at(-1)!) as { seconds: number }).seconds);
@@ -93,7 +109,7 @@ async function runSet(set: InputSet, runs: number, log: (l: string) => void): Pr
     }
     const med = (xs: Record<Tool, number[]>): Record<Tool, number> => Object.fromEntries(TOOLS.map((t) => [t, median(xs[t])])) as Record<Tool, number>;
     const gigabytes = set.files.reduce((s, f) => s + statSync(f).size, 0) / 1e9;
-    return { set, gigabytes, seconds: med(times), maxRssMb: med(rss), forelightInProcess: median(inProcess), maxAbsDiffK };
+    return { set, gigabytes, seconds: med(times), maxRssMb: med(rss), forelightInProcess: median(inProcess), maxAbsDiffK, failures };
   } finally {
     rmSync(scratch, { recursive: true, force: true });
   }
@@ -108,9 +124,10 @@ function formatTable(results: readonly SetResult[], runs: number): string[] {
   for (const r of results) {
     const s = r.seconds;
     lines.push(
-      `| ${r.set.label} | ${f(r.gigabytes)} | ${f(s.forelight)} (${f(r.forelightInProcess)}) | ${f(s.cdo)} | ${f(s.python)} | ${f(s.cat)} | ${f(s.forelight / s.cdo)} | ${f(s.forelight / s.python)} | ${f(s.forelight / s.cat)} | ${f(r.maxRssMb.forelight, 0)} | ${f(r.maxRssMb.python, 0)} | ${r.maxAbsDiffK.toExponential(1)} |`,
+      `| ${r.set.label} | ${f(r.gigabytes)} | ${f(s.forelight)} (${f(r.forelightInProcess)}) | ${f(s.cdo)} | ${f(s.python)} | ${f(s.cat)} | ${f(s.forelight / s.cdo)} | ${f(s.forelight / s.python)} | ${f(s.forelight / s.cat)} | ${f(r.maxRssMb.forelight, 0)} | ${f(r.maxRssMb.python, 0)} | ${Number.isFinite(r.maxAbsDiffK) ? r.maxAbsDiffK.toExponential(1) : 'n/a'} |`,
     );
   }
+  for (const r of results) for (const fail of r.failures) lines.push(`FAILED (${r.set.label}) ${fail}`);
   lines.push(`medians of ${runs} runs; 20 boxes × 3 variables; warm page cache; times are wall clock including process start-up.`);
   return lines;
 }

@@ -41,12 +41,14 @@ interface SampleSource {
   readonly packTemperatures: boolean;
   readonly traits: ModelTraits;
   readonly issueDates: readonly string[];
+  /** Seasonal mimics a forecast centre: stamps at each day's end, no time_bnds, accumulated tp. */
+  readonly stamps: 'midday-bounds' | 'day-end';
 }
 
 const SOURCES: readonly SampleSource[] = [
-  { dir: 'short', prefix: 'short', title: 'short-range ensemble', resolutionDeg: 0.5, days: 15, members: 50, hindcastMembers: 10, format: 'classic', packTemperatures: true, traits: { biasK: 0.3, precipFactor: 1.1, precip: 'flux' }, issueDates: ['2026-11-23', '2026-11-26', '2026-11-30'] },
-  { dir: 'subseasonal', prefix: 'subs', title: 'sub-seasonal ensemble', resolutionDeg: 1, days: 46, members: 11, hindcastMembers: 11, format: '64bit-offset', packTemperatures: false, traits: { biasK: -0.4, precipFactor: 0.9, precip: 'flux' }, issueDates: ['2026-11-23', '2026-11-26', '2026-11-30'] },
-  { dir: 'seasonal', prefix: 'seas', title: 'seasonal ensemble', resolutionDeg: 2, days: 184, members: 25, hindcastMembers: 10, format: '64bit-offset', packTemperatures: true, traits: { biasK: 0.6, precipFactor: 1, precip: 'accumulated' }, issueDates: ['2026-11-26'] },
+  { dir: 'short', prefix: 'short', title: 'short-range ensemble', resolutionDeg: 0.5, days: 15, members: 50, hindcastMembers: 10, format: 'classic', packTemperatures: true, traits: { biasK: 0.3, precipFactor: 1.1, precip: 'flux' }, issueDates: ['2026-11-23', '2026-11-26', '2026-11-30'], stamps: 'midday-bounds' },
+  { dir: 'subseasonal', prefix: 'subs', title: 'sub-seasonal ensemble', resolutionDeg: 1, days: 46, members: 11, hindcastMembers: 11, format: '64bit-offset', packTemperatures: false, traits: { biasK: -0.4, precipFactor: 0.9, precip: 'flux' }, issueDates: ['2026-11-23', '2026-11-26', '2026-11-30'], stamps: 'midday-bounds' },
+  { dir: 'seasonal', prefix: 'seas', title: 'seasonal ensemble', resolutionDeg: 2, days: 184, members: 25, hindcastMembers: 10, format: '64bit-offset', packTemperatures: true, traits: { biasK: 0.6, precipFactor: 1, precip: 'accumulated' }, issueDates: ['2026-11-26'], stamps: 'day-end' },
 ];
 const HINDCAST_MMDD = '11-26';
 const OBSERVED_LAST_DAY = '2026-11-29';
@@ -64,7 +66,6 @@ function variablesOf(packTemperatures: boolean, precip: ModelTraits['precip']): 
           standardName: 'lwe_thickness_of_precipitation_amount',
           longName: 'Total precipitation accumulated from the forecast reference time to the end of the day',
           units: 'm',
-          cellMethods: 'time: sum',
           extra: { comment: 'Accumulated since forecast_reference_time: daily amount = tp[t] - tp[t-1] (tp[0] for the first day).' },
         };
   return [
@@ -109,7 +110,7 @@ export async function generateSample(outDir: string = fileURLToPath(new URL('./d
     ];
     await mkdir(join(outDir, src.dir, 'hindcast'), { recursive: true });
     for (const run of runs) {
-      const def: CfFileDef = { format: src.format, grid, start: utcDate(run.date), days: src.days, variables, globalAttributes: globalAttributes(`${src.title} ${run.kind} from ${run.date}`, seed) };
+      const def: CfFileDef = { format: src.format, grid, start: utcDate(run.date), days: src.days, stamps: src.stamps, variables, globalAttributes: globalAttributes(`${src.title} ${run.kind} from ${run.date}`, seed) };
       const spec = { geography, start: dayNumberOf(run.date), days: src.days, traits: src.traits };
       const cells = geography.cells * src.days;
       const all = variables.map(() => new Float32Array(run.members * cells));

@@ -5,7 +5,8 @@
  *  - ensemble forecast: (time, number, lat, lon) — time first, as CDO requires — fixed time axis, scalar
  *    `forecast_reference_time`;
  *  - observed: (time, lat, lon) with an unlimited time axis.
- * Daily values are stamped at mid-day (hours 12, 36, …) with `time_bnds` giving the 00–24 UTC day.
+ * Daily values are stamped either at mid-day (hours 12, 36, …) with `time_bnds` giving the 00–24 UTC day, or
+ * (`stamps: 'day-end'`, the usual forecast-centre encoding) at the end of each day (24, 48, …) without bounds.
  */
 import { rename, rm } from 'node:fs/promises';
 import { createNetcdfClassic, type NcAttribute, type NcFormat, type NcVariableSpec, type NetcdfClassicWriter } from './netcdf-classic-writer.ts';
@@ -33,7 +34,8 @@ export interface CfVariableDef {
   readonly standardName: string;
   readonly longName: string;
   readonly units: string;
-  readonly cellMethods: string;
+  /** Omitted for an amount accumulated since the reference time (no per-step cell method applies). */
+  readonly cellMethods?: string;
   /** Present: stored as short with scale_factor/add_offset; absent: float32. */
   readonly packing?: ShortPacking;
   /** Extra attributes (e.g. a comment on accumulation). */
@@ -46,6 +48,8 @@ export interface CfFileDef {
   /** UTC midnight of the first day (and the forecast reference time for an ensemble). */
   readonly start: Date;
   readonly days: number;
+  /** Time stamps: mid-day with time_bnds (default), or end of each day without bounds. */
+  readonly stamps?: 'midday-bounds' | 'day-end';
   readonly variables: readonly CfVariableDef[];
   readonly globalAttributes: Readonly<Record<string, string>>;
 }
@@ -61,7 +65,7 @@ function variableSpec(def: CfVariableDef, dims: readonly string[]): NcVariableSp
     standard_name: def.standardName,
     long_name: def.longName,
     units: def.units,
-    cell_methods: def.cellMethods,
+    ...(def.cellMethods ? { cell_methods: def.cellMethods } : {}),
     ...def.extra,
   };
   if (def.packing) {
@@ -90,11 +94,11 @@ function toStored(def: CfVariableDef, values: Float32Array): Int16Array | Float3
   return out;
 }
 
-function coordinateSpecs(timeUnits: string): NcVariableSpec[] {
-  const timeDims = ['time'];
+function coordinateSpecs(timeUnits: string, withBounds: boolean): NcVariableSpec[] {
+  const time: NcVariableSpec = { name: 'time', type: 'double', dimensions: ['time'], attributes: { standard_name: 'time', long_name: 'time', units: timeUnits, calendar: 'standard', axis: 'T', ...(withBounds ? { bounds: 'time_bnds' } : {}) } };
   return [
-    { name: 'time', type: 'double', dimensions: timeDims, attributes: { standard_name: 'time', long_name: 'time', units: timeUnits, calendar: 'standard', axis: 'T', bounds: 'time_bnds' } },
-    { name: 'time_bnds', type: 'double', dimensions: [...timeDims, 'bnds'], attributes: {} },
+    time,
+    ...(withBounds ? [{ name: 'time_bnds', type: 'double' as const, dimensions: ['time', 'bnds'], attributes: {} }] : []),
     { name: 'lat', type: 'double', dimensions: ['lat'], attributes: { standard_name: 'latitude', long_name: 'latitude', units: 'degrees_north', axis: 'Y' } },
     { name: 'lon', type: 'double', dimensions: ['lon'], attributes: { standard_name: 'longitude', long_name: 'longitude', units: 'degrees_east', axis: 'X' } },
   ];
@@ -113,7 +117,8 @@ async function openCfFile(path: string, def: CfFileDef, members: number | undefi
   const timeUnits = `hours since ${isoUtc(def.start)}`;
   const cells = def.grid.lats.length * def.grid.lons.length;
   const fieldDims = ensemble ? ['time', 'number', 'lat', 'lon'] : ['time', 'lat', 'lon'];
-  const variables: NcVariableSpec[] = [...coordinateSpecs(timeUnits), ...def.variables.map((v) => variableSpec(v, fieldDims))];
+  const withBounds = (def.stamps ?? 'midday-bounds') === 'midday-bounds';
+  const variables: NcVariableSpec[] = [...coordinateSpecs(timeUnits, withBounds), ...def.variables.map((v) => variableSpec(v, fieldDims))];
   if (ensemble) {
     variables.push(
       { name: 'number', type: 'int', dimensions: ['number'], attributes: { standard_name: 'realization', long_name: 'ensemble member number' } },
@@ -125,19 +130,19 @@ async function openCfFile(path: string, def: CfFileDef, members: number | undefi
     { name: 'time', size: def.days, unlimited: !ensemble },
     { name: 'lat', size: def.grid.lats.length },
     { name: 'lon', size: def.grid.lons.length },
-    { name: 'bnds', size: 2 },
+    ...(withBounds ? [{ name: 'bnds', size: 2 }] : []),
   ];
   const part = `${path}.part`;
   const writer = await createNetcdfClassic(part, { format: def.format, dimensions, attributes: { Conventions: 'CF-1.8', ...def.globalAttributes }, variables });
   const time = new Float64Array(def.days);
   const bnds = new Float64Array(2 * def.days);
   for (let i = 0; i < def.days; i++) {
-    time[i] = 24 * i + 12;
+    time[i] = withBounds ? 24 * i + 12 : 24 * i + 24;
     bnds[2 * i] = 24 * i;
     bnds[2 * i + 1] = 24 * i + 24;
   }
   await writer.write('time', 0, time);
-  await writer.write('time_bnds', 0, bnds);
+  if (withBounds) await writer.write('time_bnds', 0, bnds);
   await writer.write('lat', 0, def.grid.lats);
   await writer.write('lon', 0, def.grid.lons);
   if (ensemble) {

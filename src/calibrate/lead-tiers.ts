@@ -49,7 +49,7 @@ export function buildLeadSpans(days: readonly IsoDate[], tier: Tier, maxLeads: n
     for (let from = 0; from + 7 <= days.length && spans.length < maxLeads; from += 7) push(from, from + 7);
   } else {
     let from = days.findIndex((d) => d.endsWith('-01'));
-    while (from >= 0 && spans.length < maxLeads) {
+    while (from >= 0 && from < days.length && spans.length < maxLeads) {
       const d = new Date(nums[from] * DAY_MS);
       const next = Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + 1, 1) / DAY_MS;
       const to = from + (next - nums[from]);

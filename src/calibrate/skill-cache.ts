@@ -52,7 +52,7 @@ const decode = (_k: string, v: unknown): unknown =>
  * The cached value for `key`, or else `compute()` stored under `key`. An unreadable or corrupt entry is
  * recomputed and overwritten (`note` says so).
  */
-export async function cachedSkill<T>(cacheDir: string, key: string, compute: () => T): Promise<{ value: T; fromCache: boolean; note: string }> {
+export async function cachedSkill<T>(cacheDir: string, key: string, compute: () => T | Promise<T>): Promise<{ value: T; fromCache: boolean; note: string }> {
   const file = join(cacheDir, `skill-${key}.json`);
   let note = '';
   try {
@@ -61,7 +61,7 @@ export async function cachedSkill<T>(cacheDir: string, key: string, compute: () 
     const code = (err as NodeJS.ErrnoException).code;
     if (code !== 'ENOENT') note = `skill cache entry ${file} unreadable (${(err as Error).message}); recomputed`;
   }
-  const value = compute();
+  const value = await compute();
   try {
     await mkdir(cacheDir, { recursive: true });
     const tmp = `${file}.${process.pid}.tmp`;

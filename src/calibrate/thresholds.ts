@@ -91,7 +91,7 @@ export function quantileMappedThresholdObject(spec: { value: number; units: stri
   const m = quantileMappedThreshold(spec.value, observed, model, l);
   const origin =
     `absolute ${fmt(spec.value)} ${model.units} quantile-mapped to ${fmt(m.value)} ${model.units} ` +
-    `(observed ${fmt(m.percent)}th percent rank ${yearSpan(observed.years)}, ${m.observedValues} values → hindcasts ` +
-    `${yearSpan(model.years)}, ${m.modelValues} values), ${leadLabel(lead)}`;
+    `(percent rank ${fmt(m.percent)} in observations ${yearSpan(observed.years)}, ${m.observedValues} values → same percentile of ` +
+    `hindcasts ${yearSpan(model.years)}, ${m.modelValues} values), ${leadLabel(lead)}`;
   return { threshold: { value: m.value, units: model.units, origin }, clipped: m.clipped };
 }

@@ -33,7 +33,7 @@ const TEMPERATURE: UnitFamily = {
   accepted: { degC: same, K: (v) => v - 273.15, degF: (v) => (v - 32) / 1.8 },
 };
 /** EHF is a product of two temperature differences: K^2 and degC^2 have the same magnitude. */
-const TEMPERATURE_SQUARED: UnitFamily = { canonical: 'degC^2', accepted: { 'degC^2': same, degC2: same, 'K^2': same, K2: same } };
+const TEMPERATURE_SQUARED: UnitFamily = { canonical: 'degC2', accepted: { degC2: same, 'degC^2': same, K2: same, 'K^2': same } };
 const DAYS: UnitFamily = { canonical: 'days', accepted: { days: same, d: same } };
 const DEGREE_DAYS: UnitFamily = { canonical: 'degC day', accepted: { 'degC day': same, 'K day': same } };
 const INDEX: UnitFamily = { canonical: '1', accepted: { '1': same } };

@@ -86,6 +86,8 @@ function describeSchemaError(e: ErrorObject): ConfigProblem {
     case 'exclusiveMaximum':
       return describeRangeError(at, ps, e.data as number, help);
     case 'pattern':
+      // Never echo what was written as password-env: it may be the password itself.
+      if (at.endsWith('/password-env')) return problem(at, 'password-env must be the NAME of an environment variable, not the password', help);
       return problem(at, `${show(e.data)} is not in the expected form`, help);
     case 'minItems':
       return problem(at, `needs at least ${(e.params as { limit: number }).limit} entries`, help);

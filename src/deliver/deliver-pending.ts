@@ -17,7 +17,7 @@ import type { DeliveryConfig } from '../config/types.ts';
 import { describeError } from '../errors.ts';
 import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
 import {
-  claimDelivery, getDelivery, listDeliveries, markDelivery, releaseClaim, toReceipt, type DeliveryRecord,
+  claimDelivery, dueNotices, getDelivery, listDeliveries, markDelivery, markNoticesDone, releaseClaim, toReceipt, type DeliveryRecord,
 } from '../ledger/deliveries.ts';
 import type { Ledger } from '../ledger/open-ledger.ts';
 import type { Logger } from '../log.ts';
@@ -95,22 +95,37 @@ async function sendWithRetry(transport: SmtpTransporter, message: Mail.Options,
   }
 }
 
+/** One line per failure for the operator notice. */
+function describeFailure(d: DeliveryRecord & { team: string }): string {
+  const where = d.status === 'pending' ? 'still pending, retried at the next run' : d.outboxPath ? `copy in ${d.outboxPath}` : 'no copy';
+  return `- ${d.recipient} (${d.team}, forecast ${d.forecastKey}): ${d.status}; ${d.lastError ?? ''} — ${where}`;
+}
+
+/** Tell the operators of every failure not yet told (this call's and any a crash left untold). */
+async function noticeFailures(ledger: Ledger, transport: SmtpTransporter | null, delivery: DeliveryConfig, log: Logger): Promise<void> {
+  const due = dueNotices(ledger);
+  if (due.length === 0) return;
+  const result = await notifyOperators(transport, delivery, `${due.length} bulletin deliveries failed`,
+    `Forelight could not deliver these bulletins by e-mail:\n\n${due.map(describeFailure).join('\n')}\n\n` +
+    'Forward the outbox copies by hand or fix the addresses in the teams configuration.\n', log);
+  if (result.status !== 'failed') markNoticesDone(ledger, due.map((d) => d.id));
+}
+
 export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, log: Logger, options: DeliverOptions = {}): Promise<DeliverySummary> {
   const sleep = options.sleep ?? defaultSleep;
   const reclaimed = reclaimDeadClaims(ledger, options.staleClaimSeconds ?? 3600, log);
   const todo = listDeliveries(ledger, { statuses: ['pending'], runId: options.runId });
   const receipts: DeliveryReceipt[] = [];
   const counts = { sent: 0, outbox: 0, failed: 0, pending: 0 };
-  if (todo.length === 0) return { receipts, ...counts, reclaimed };
+  if (todo.length === 0 && dueNotices(ledger).length === 0) return { receipts, ...counts, reclaimed };
 
   // Problems that affect every message are raised before anything is claimed: all stay pending.
   const transport = delivery.smtp ? createSmtpTransport(delivery.smtp, options.env ?? process.env) : null;
-  if (!transport) ensureOutboxWritable(delivery.outbox);
+  if (!transport && todo.length > 0) ensureOutboxWritable(delivery.outbox);
 
   const token = randomUUID();
   const claimer = `${hostname()}:${process.pid}:${token}`;
   const bulletins = new Map<number, StoredBulletin>();
-  const problems: string[] = [];
   activeTokens.add(token);
   try {
     for (const pending of todo) {
@@ -120,11 +135,9 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
       if (!claimed) continue;
       await options.onStep?.('claimed', claimed);
       const message = composeMessage(bulletin, claimed.recipient, delivery.from, claimed.messageId ?? '');
-      const base = outboxBaseName(bulletin.forecastKey, bulletin.runId, bulletin.team, claimed.recipient);
       const dlog = log.child({ deliveryId: claimed.id, bulletin: bulletin.id, recipient: claimed.recipient });
-      let status: 'sent' | 'outbox' | 'failed';
+      let status: 'sent' | 'outbox' | 'failed' = 'outbox';
       let error: string | undefined;
-      let outboxPath: string | undefined;
       if (transport) {
         const sendError = await sendWithRetry(transport, message, delivery, sleep, dlog).then(() => null, (err: unknown) => err);
         if (sendError === null) {
@@ -135,39 +148,31 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
           status = failure && !failure.temporary ? 'failed' : 'outbox';
           error = failure?.detail ?? describeError(sendError);
         }
-      } else {
-        status = 'outbox';
       }
+      let outboxPath: string | undefined;
       if (status !== 'sent') {
         try {
-          [outboxPath] = writeOutboxFiles(delivery.outbox, base, [
+          [outboxPath] = writeOutboxFiles(delivery.outbox, outboxBaseName(bulletin.forecastKey, bulletin.runId, bulletin.team, claimed.recipient), [
             { ext: 'eml', content: await renderEml(message) },
             { ext: 'html', content: bulletin.html },
           ]);
         } catch (err) {
-          markDelivery(ledger, claimed.id, 'pending', { error: `${error ? error + ' | ' : ''}${describeError(err)}` });
+          // Not sent and no copy: keep it pending for the next run, never drop it.
+          markDelivery(ledger, claimed.id, 'pending', { error: [error, describeError(err)].filter(Boolean).join(' | '), noticeDue: !!transport });
           counts.pending++;
           dlog.error('delivery kept pending: outbox not writable', { error: describeError(err) });
           if (!transport) throw err;
-          problems.push(`${claimed.recipient} (${bulletin.team}): ${error} — NOT in the outbox: ${describeError(err)}`);
           continue;
         }
-        if (transport) {
-          problems.push(`${claimed.recipient} (${bulletin.team}): ${error} — copy in ${outboxPath}`);
-          dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
-        }
+        if (transport) dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
       }
-      markDelivery(ledger, claimed.id, status, { error, outboxPath });
+      markDelivery(ledger, claimed.id, status, { error, outboxPath, noticeDue: !!transport && status !== 'sent' });
       counts[status]++;
       const done = getDelivery(ledger, claimed.id);
       receipts.push(toReceipt({ ...done, status }, bulletin.id));
       await options.onStep?.('recorded', done);
     }
-    if (problems.length > 0) {
-      await notifyOperators(transport, delivery, `${problems.length} bulletin deliveries failed`,
-        `Forelight could not deliver these bulletins by e-mail:\n\n${problems.map((p) => `- ${p}`).join('\n')}\n\n` +
-        'Forward the outbox copies by hand or fix the addresses in the teams configuration.\n', log);
-    }
+    await noticeFailures(ledger, transport, delivery, log);
   } finally {
     activeTokens.delete(token);
     transport?.close();

@@ -22,13 +22,15 @@ export interface DeliveryRecord {
   readonly claimedBy: string | null;
   readonly claimedAt: string | null;
   readonly outboxPath: string | null;
+  /** `due` until the operators have been told of this failure, then `done`. */
+  readonly notice: 'due' | 'done' | null;
   readonly updatedAt: string;
 }
 
 interface DeliveryRow {
   id: number; bulletin_id: number; run_id: number; forecast_key: string; recipient: string; status: DeliveryStatus;
   attempts: number; last_error: string | null; message_id: string | null; claimed_by: string | null; claimed_at: string | null;
-  outbox_path: string | null; updated_at: string;
+  outbox_path: string | null; notice: 'due' | 'done' | null; updated_at: string;
 }
 
 const SELECT = `SELECT d.*, b.run_id, r.forecast_key FROM deliveries d
@@ -37,7 +39,7 @@ const SELECT = `SELECT d.*, b.run_id, r.forecast_key FROM deliveries d
 const toRecord = (r: DeliveryRow): DeliveryRecord => ({
   id: r.id, bulletinRowId: r.bulletin_id, runId: r.run_id, forecastKey: r.forecast_key, recipient: r.recipient, status: r.status,
   attempts: r.attempts, lastError: r.last_error, messageId: r.message_id, claimedBy: r.claimed_by, claimedAt: r.claimed_at,
-  outboxPath: r.outbox_path, updatedAt: r.updated_at,
+  outboxPath: r.outbox_path, notice: r.notice, updatedAt: r.updated_at,
 });
 
 /** Deliveries in the given statuses (default: pending), optionally of one run, oldest first. */
@@ -71,17 +73,32 @@ export function getDelivery(ledger: Ledger, id: number): DeliveryRecord {
 
 /**
  * Record the outcome of a claimed delivery (only while it is `sending`, so a late writer cannot overwrite a
- * newer state). `pending` releases the claim for a later run. Returns false when the row was not `sending`.
+ * newer state). `pending` releases the claim for a later run. `noticeDue` marks a failure the operators must
+ * be told of (kept in the ledger so a crash before the notice does not lose it). False when not `sending`.
  */
 export function markDelivery(
   ledger: Ledger,
   id: number,
   status: 'sent' | 'outbox' | 'failed' | 'pending',
-  detail: { error?: string; outboxPath?: string } = {},
+  detail: { error?: string; outboxPath?: string; noticeDue?: boolean } = {},
 ): boolean {
   return ledger.db.prepare(`UPDATE deliveries SET status = ?, last_error = coalesce(?, last_error),
-    outbox_path = coalesce(?, outbox_path), claimed_by = NULL, claimed_at = NULL, updated_at = ?
-    WHERE id = ? AND status = 'sending'`).run(status, detail.error ?? null, detail.outboxPath ?? null, stamp(ledger), id).changes === 1;
+    outbox_path = coalesce(?, outbox_path), notice = CASE WHEN ? THEN 'due' ELSE notice END,
+    claimed_by = NULL, claimed_at = NULL, updated_at = ?
+    WHERE id = ? AND status = 'sending'`)
+    .run(status, detail.error ?? null, detail.outboxPath ?? null, detail.noticeDue ? 1 : 0, stamp(ledger), id).changes === 1;
+}
+
+/** Failures the operators have not been told of yet, oldest first. */
+export function dueNotices(ledger: Ledger): (DeliveryRecord & { team: string })[] {
+  return (ledger.db.prepare(`SELECT d.*, b.run_id, b.team, r.forecast_key FROM deliveries d
+    JOIN bulletins b ON b.id = d.bulletin_id JOIN runs r ON r.id = b.run_id WHERE d.notice = 'due' ORDER BY d.id`)
+    .all() as (DeliveryRow & { team: string })[]).map((r) => ({ ...toRecord(r), team: r.team }));
+}
+
+export function markNoticesDone(ledger: Ledger, ids: readonly number[]): void {
+  const update = ledger.db.prepare(`UPDATE deliveries SET notice = 'done' WHERE id = ? AND notice = 'due'`);
+  ledger.db.transaction(() => { for (const id of ids) update.run(id); })();
 }
 
 export function deliveryCounts(ledger: Ledger, runId: number): Record<DeliveryStatus, number> {

@@ -105,6 +105,8 @@ export const MIGRATIONS: readonly string[] = [
     claimed_by TEXT,
     claimed_at TEXT,
     outbox_path TEXT,
+    -- 'due': the operators must be told of this failure; 'done': told (notice sent or in the outbox)
+    notice TEXT CHECK (notice IN ('due', 'done')),
     created_at TEXT NOT NULL,
     updated_at TEXT NOT NULL,
     UNIQUE (bulletin_id, recipient)

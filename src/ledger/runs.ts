@@ -64,7 +64,8 @@ export function beginRun(ledger: Ledger, forecastKey: string, options: { force?:
         `forecast ${forecastKey} is being issued by process ${latest.pid} (run ${latest.id})`,
         'wait for it to finish or stop that process');
     }
-    if (latest && !options.force) {
+    // A key that ended "nothing-new" was never issued: late data for it starts a fresh run.
+    if (latest && latest.status !== 'nothing-new' && !options.force) {
       const unfinished = db.prepare(`SELECT 1 FROM runs WHERE id = ? AND ${UNFINISHED}`).get(latest.id);
       if (!unfinished) return { kind: 'already-issued', run: toRecord(latest) };
       db.prepare(`UPDATE runs SET status = 'running', finished_at = NULL, host = ?, pid = ? WHERE id = ?`)

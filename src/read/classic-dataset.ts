@@ -7,7 +7,7 @@ import type { FileHandle } from 'node:fs/promises';
 import { InputError } from '../errors.ts';
 import type { Dataset, DatasetFormat, DimensionInfo, VariableInfo } from './dataset.ts';
 import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, decodeBigEndian, parseClassicHeader } from './classic-header.ts';
-import { planReads, validateSelection } from './classic-hyperslab.ts';
+import { MAX_SPAN_BYTES, type ReadSpan, planReads, validateSelection } from './classic-hyperslab.ts';
 
 const FIRST_PREFIX_BYTES = 64 * 1024;
 const FORMATS: Record<number, DatasetFormat> = { 1: 'classic', 2: '64bit-offset', 5: 'cdf5' };
@@ -80,15 +80,30 @@ class ClassicDataset implements Dataset {
     const out = new Float64Array(plan.totalValues);
     let outPos = 0;
     for (const span of plan.spans) {
-      if (this.buffer.length < span.bytes) this.buffer = Buffer.allocUnsafeSlow(Math.max(span.bytes, this.buffer.length * 2));
-      const got = await readExactly(this.handle, this.buffer, span.bytes, span.offset);
-      if (got < span.bytes) throw truncated(this.path, span.offset + span.bytes, span.offset + got);
+      if (span.bytes > MAX_SPAN_BYTES) {
+        // One block bigger than the read size (a large contiguous slab): read it in pieces.
+        for (let done = 0; done < span.bytes; done += MAX_SPAN_BYTES) {
+          const piece = { offset: span.offset + done, bytes: Math.min(MAX_SPAN_BYTES, span.bytes - done), blockOffsets: [0] };
+          await this.readSpan(piece);
+          decodeBigEndian(v.type, this.buffer, 0, piece.bytes / v.elementBytes, out, outPos + done / v.elementBytes);
+        }
+        outPos += plan.blockValues;
+        continue;
+      }
+      await this.readSpan(span);
       for (const blockOffset of span.blockOffsets) {
         decodeBigEndian(v.type, this.buffer, blockOffset, plan.blockValues, out, outPos);
         outPos += plan.blockValues;
       }
     }
     return out;
+  }
+
+  /** Reads the span's bytes into the reused buffer (growing it when needed). */
+  private async readSpan(span: ReadSpan): Promise<void> {
+    if (this.buffer.length < span.bytes) this.buffer = Buffer.allocUnsafeSlow(Math.max(span.bytes, this.buffer.length * 2));
+    const got = await readExactly(this.handle, this.buffer, span.bytes, span.offset);
+    if (got < span.bytes) throw truncated(this.path, span.offset + span.bytes, span.offset + got);
   }
 
   async close(): Promise<void> {

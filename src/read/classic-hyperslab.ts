@@ -8,8 +8,8 @@ import type { VariableInfo } from './dataset.ts';
 
 /** Blocks closer than this many bytes are read together (reading the gap is cheaper than a syscall). */
 const MERGE_GAP_BYTES = 64 * 1024;
-/** Upper bound of one merged read. */
-const MAX_SPAN_BYTES = 4 * 1024 * 1024;
+/** Upper bound of one merged read; a single block larger than this is read in pieces of this size. */
+export const MAX_SPAN_BYTES = 4 * 1024 * 1024;
 
 export interface ReadSpan {
   readonly offset: number;

@@ -8,7 +8,7 @@
 import { InputError } from '../errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { decodeTimesToMs, durationUnitMs } from './coordinates-time.ts';
-import { readDecoded } from './extract-read.ts';
+import { decodeCf } from './cf-decode.ts';
 
 export interface LatLonGrid {
   readonly latName: string;
@@ -102,8 +102,9 @@ function findAxisVariable(ds: Dataset, axis: 'X' | 'Y'): VariableInfo {
   return found;
 }
 
+/** All CF-decoded values of a (small, coordinate) variable. */
 async function readWhole(ds: Dataset, info: VariableInfo): Promise<Float64Array> {
-  return readDecoded(ds, info, info.shape.map(() => 0), info.shape);
+  return decodeCf(info, await ds.readRaw(info.name, info.shape.map(() => 0), info.shape)).values;
 }
 
 async function readBounds(ds: Dataset, info: VariableInfo, n: number): Promise<Float64Array | null> {

@@ -124,31 +124,46 @@ export function planLocalDays(intervals: StepIntervals, utcOffsetHours: number):
 
 /**
  * Turns values accumulated since the reference time into per-step amounts, in place, per cell:
- * amount[i] = acc[i] - acc[i-1], with acc before the first step = 0. `values` is `[step][cell]`.
+ * amount[i] = acc[i] - acc[i-1]. `values` is `[step][cell]`, one time chunk; `carry` holds, per cell, the
+ * accumulation before the chunk (zeros before the first chunk: acc(t0) = 0) and is updated to the chunk's last.
  */
-export function deaccumulateInPlace(values: Float64Array, steps: number, cells: number): void {
-  for (let t = steps - 1; t >= 1; t--) {
-    const row = t * cells;
-    const prev = row - cells;
-    for (let c = 0; c < cells; c++) values[row + c] -= values[prev + c];
+export function deaccumulateInPlace(values: Float64Array, cells: number, carry: Float64Array): void {
+  const steps = values.length / cells;
+  if (steps === 0) return;
+  const last = (steps - 1) * cells;
+  for (let c = 0; c < cells; c++) {
+    const acc = values[last + c];
+    for (let row = last; row > 0; row -= cells) values[row + c] -= values[row - cells + c];
+    values[c] -= carry[c];
+    carry[c] = acc;
   }
 }
 
+/** Which part of the whole series a chunk of `[step][cell]` values holds, and where its days go in `out`. */
+export interface ChunkWindow {
+  readonly firstStep: number;
+  /** Day index stored in row 0 of `out`. */
+  readonly firstDay: number;
+  /** Number of day rows `out` receives. */
+  readonly days: number;
+}
+
 /**
- * Reduces `[step][cell]` values to `[day][cell]` by `method` using `plan`; `out` must hold days × cells.
- * `mean` weights steps by `plan.stepWeight`; NaN in any step of a day makes that cell-day NaN.
+ * Reduces one time chunk of `[step][cell]` values to `[day][cell]` rows of `out` by `method` using `plan`.
+ * Every day touched by the chunk must lie wholly inside it. `mean` weights steps by `plan.stepWeight`;
+ * NaN in any step of a day makes that cell-day NaN.
  */
-export function reduceToDays(values: Float64Array, cells: number, plan: DayPlan, method: DailyMethod, out: Float64Array): void {
-  const nDays = plan.days.length;
+export function reduceToDays(values: Float64Array, cells: number, plan: DayPlan, method: DailyMethod, out: Float64Array, window: ChunkWindow): void {
   const init = method === 'max' ? -Infinity : method === 'min' ? Infinity : 0;
-  out.fill(init, 0, nDays * cells);
-  const weightSum = new Float64Array(nDays);
-  for (let t = 0; t < plan.dayOfStep.length; t++) {
-    const d = plan.dayOfStep[t];
-    if (d < 0) continue;
+  out.fill(init, 0, window.days * cells);
+  const weightSum = new Float64Array(window.days);
+  const steps = values.length / cells;
+  for (let t = 0; t < steps; t++) {
+    const d = plan.dayOfStep[window.firstStep + t] - window.firstDay;
+    if (d < 0 || d >= window.days) continue;
     const src = t * cells;
     const dst = d * cells;
-    const w = plan.stepWeight[t];
+    const w = plan.stepWeight[window.firstStep + t];
     weightSum[d] += w;
     if (method === 'max') for (let c = 0; c < cells; c++) out[dst + c] = Math.max(out[dst + c], values[src + c]);
     else if (method === 'min') for (let c = 0; c < cells; c++) out[dst + c] = Math.min(out[dst + c], values[src + c]);
@@ -156,7 +171,7 @@ export function reduceToDays(values: Float64Array, cells: number, plan: DayPlan,
     else for (let c = 0; c < cells; c++) out[dst + c] += w * values[src + c];
   }
   if (method !== 'mean') return;
-  for (let d = 0; d < nDays; d++) {
+  for (let d = 0; d < window.days; d++) {
     const inv = 1 / weightSum[d];
     for (let c = d * cells; c < (d + 1) * cells; c++) out[c] *= inv;
   }

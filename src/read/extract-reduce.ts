@@ -1,15 +1,19 @@
 /**
- * One variable → area means of every region, member by member: read the union band once per member (all
- * time steps), convert units in place, de-accumulate when needed, reduce each cell to local days, then
- * take the weighted mean over each region's cells. Missing cells are skipped and the weights renormalised
- * per member and step. Buffers are reused across members; no per-value objects.
+ * One variable → area means of every region, member by member and, within a member, in time chunks of about
+ * MAX_CHUNK_VALUES band values (a chunk closes at the first day boundary past it, never inside a day): read the union band once per chunk,
+ * convert units in place, de-accumulate when needed, reduce each cell to local days, then take the
+ * weighted mean over each region's cells. Missing cells are skipped and the weights renormalised per
+ * member and step. No per-value objects.
  */
 import type { Dataset } from './dataset.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
-import { readBandSlab } from './extract-read.ts';
+import { readBandCells } from './extract-read.ts';
 import { deaccumulateInPlace, planLocalDays, reduceToDays, type DailyMethod, type DayPlan, type StepIntervals } from './daily.ts';
 import type { BandRegion, GridBand } from './regions-band.ts';
 import { convertInPlace, type UnitPlan } from './units.ts';
+
+/** Band values per time chunk (× 8 bytes); a chunk may exceed it by up to one local day of steps. */
+export const MAX_CHUNK_VALUES = 4_000_000;
 
 export interface ReduceRequest {
   readonly layout: VariableLayout;
@@ -24,10 +28,12 @@ export interface ReduceRequest {
   readonly accumulated: boolean;
   /** Daily reduction, or null to keep the file's time steps. */
   readonly daily: DailyMethod | null;
+  /** Band values per time chunk (default MAX_CHUNK_VALUES). */
+  readonly maxChunkValues?: number;
 }
 
 export interface RegionMeans {
-  /** Local days (daily) or step stamps in ms as ISO strings (no daily reduction), per region. */
+  /** Local days (daily), or the steps' ISO instants (no daily reduction). */
   readonly labels: readonly string[];
   /** member-major [member][label], NaN where no valid cell. */
   readonly data: Float64Array;
@@ -38,22 +44,48 @@ export function isoInstant(ms: number): string {
   return new Date(ms).toISOString().replace('.000Z', 'Z');
 }
 
-/** Weighted mean of each region over `src` ([label][bandCell]) into `out[member * labels + label]`. */
-function regionMeans(src: Float64Array, bandCells: number, labels: number, region: BandRegion, out: Float64Array, member: number): void {
+/** Chunk start steps (last entry = steps): a cut never separates two steps of one day in any plan. */
+export function chunkStarts(steps: number, valuesPerStep: number, plans: readonly DayPlan[], maxValues = MAX_CHUNK_VALUES): number[] {
+  const perChunk = Math.max(1, Math.floor(maxValues / Math.max(valuesPerStep, 1)));
+  const starts = [0];
+  for (let t = 1; t < steps; t++) {
+    const canCut = plans.every((p) => p.dayOfStep[t - 1] < 0 || p.dayOfStep[t] !== p.dayOfStep[t - 1]);
+    if (canCut && t - starts[starts.length - 1] >= perChunk) starts.push(t);
+  }
+  starts.push(steps);
+  return starts;
+}
+
+/** Weighted mean of `region` over `rows` rows of `src` ([row][usedCell]) into labels `firstLabel`… of `member`. */
+function regionMeans(src: Float64Array, bandCells: number, rows: number, region: BandRegion, out: RegionMeans, member: number, firstLabel: number): void {
   const { cells, weights } = region;
-  for (let d = 0; d < labels; d++) {
-    const base = d * bandCells;
+  const base = member * out.labels.length + firstLabel;
+  for (let d = 0; d < rows; d++) {
+    const row = d * bandCells;
     let sum = 0;
     let wsum = 0;
     for (let k = 0; k < cells.length; k++) {
-      const v = src[base + cells[k]];
+      const v = src[row + cells[k]];
       if (v === v) {
         sum += weights[k] * v;
         wsum += weights[k];
       }
     }
-    out[member * labels + d] = wsum > 0 ? sum / wsum : NaN;
+    out.data[base + d] = wsum > 0 ? sum / wsum : NaN;
   }
+}
+
+/** Range of day indices of steps [t0, t1) in `plan`, or null when none is kept. */
+function dayRange(plan: DayPlan, t0: number, t1: number): { first: number; days: number } | null {
+  let first = Infinity;
+  let last = -1;
+  for (let t = t0; t < t1; t++) {
+    const d = plan.dayOfStep[t];
+    if (d < 0) continue;
+    first = Math.min(first, d);
+    last = Math.max(last, d);
+  }
+  return last < 0 ? null : { first, days: last - first + 1 };
 }
 
 /** Area means of every region of `req`, all members, in the order of `req.regions`. */
@@ -61,33 +93,41 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
   const { layout, band, regions, intervals } = req;
   const steps = layout.timeAxis >= 0 ? layout.info.shape[layout.timeAxis] : 1;
   const members = layout.memberAxis >= 0 ? layout.info.shape[layout.memberAxis] : 1;
-  const bandCells = band.nLat * band.nLon;
+  const bandCells = band.used.length;
   const offsets = [...new Set(req.utcOffsets)];
   const plans = new Map<number, DayPlan>();
   if (req.daily && intervals) for (const o of offsets) plans.set(o, planLocalDays(intervals, o));
   const stamps = layout.timeAxis >= 0 && coords.time ? Array.from(coords.time.stampsMs, isoInstant) : [''];
-  const labelsOf = (o: number): readonly string[] => plans.get(o)?.days ?? stamps;
-  const out = regions.map((_r, k) => {
-    const labels = labelsOf(req.utcOffsets[k]);
+  const out: RegionMeans[] = regions.map((_r, k) => {
+    const labels = plans.get(req.utcOffsets[k])?.days ?? stamps;
     return { labels, data: new Float64Array(members * labels.length) };
   });
-  const dayBuffers = new Map<number, Float64Array>();
-  for (const [o, plan] of plans) dayBuffers.set(o, new Float64Array(plan.days.length * bandCells));
+  const starts = chunkStarts(steps, band.nLat * band.gridLon, [...plans.values()], req.maxChunkValues);
+  const carry = new Float64Array(req.accumulated ? bandCells : 0);
+  let dayBuffer = new Float64Array(0);
   for (let m = 0; m < members; m++) {
-    const values = await readBandSlab(ds, layout, band, m, steps);
-    if (req.unitPlan) convertInPlace(values, req.unitPlan);
-    if (req.accumulated) deaccumulateInPlace(values, steps, bandCells);
-    for (const o of offsets) {
-      const plan = plans.get(o);
-      const buffer = dayBuffers.get(o);
-      let src = values;
-      if (plan && buffer && req.daily) {
-        reduceToDays(values, bandCells, plan, req.daily, buffer);
-        src = buffer;
+    carry.fill(0);
+    for (let c = 0; c + 1 < starts.length; c++) {
+      const t0 = starts[c];
+      const values = await readBandCells(ds, layout, band, m, t0, starts[c + 1] - t0);
+      if (req.unitPlan) convertInPlace(values, req.unitPlan);
+      if (req.accumulated) deaccumulateInPlace(values, bandCells, carry);
+      for (const o of offsets) {
+        const plan = plans.get(o);
+        let src = values;
+        let rows = starts[c + 1] - t0;
+        let firstLabel = t0;
+        if (plan && req.daily) {
+          const range = dayRange(plan, t0, starts[c + 1]);
+          if (!range) continue;
+          if (dayBuffer.length < range.days * bandCells) dayBuffer = new Float64Array(range.days * bandCells);
+          reduceToDays(values, bandCells, plan, req.daily, dayBuffer, { firstStep: t0, firstDay: range.first, days: range.days });
+          [src, rows, firstLabel] = [dayBuffer, range.days, range.first];
+        }
+        regions.forEach((r, k) => {
+          if (req.utcOffsets[k] === o) regionMeans(src, bandCells, rows, r, out[k], m, firstLabel);
+        });
       }
-      regions.forEach((r, k) => {
-        if (req.utcOffsets[k] === o) regionMeans(src, bandCells, out[k].labels.length, r, out[k].data, m);
-      });
     }
   }
   return out;

@@ -5,8 +5,8 @@
  * HDF5 dimension scales attached to each variable (netCDF-C's mapping); variables in sub-groups are not listed.
  */
 import { resolve } from 'node:path';
-import h5wasm from 'h5wasm/node';
-import type { Dataset as H5Dataset, Entity, File as H5File } from 'h5wasm/node';
+import type h5wasmNamespace from 'h5wasm/node';
+import type { Dataset as H5Dataset, File as H5File } from 'h5wasm/node';
 import { InputError } from '../errors.ts';
 import type { AttributeValue, Dataset, DimensionInfo, StorageType, VariableInfo } from './dataset.ts';
 import { validateSelection } from './classic-hyperslab.ts';
@@ -18,12 +18,19 @@ const DIMENSION_ONLY = 'This is a netCDF dimension but not a netCDF variable';
 /** HDF5 reports H5S_UNLIMITED (2^64-1) as a maxshape entry. */
 const UNLIMITED_AT_LEAST = 2 ** 53;
 
-let ready: Promise<void> | undefined;
+type H5wasm = typeof h5wasmNamespace;
+let ready: Promise<H5wasm> | undefined;
 
-/** Loads h5wasm once and switches on its throwing error handler, so a failed read throws instead of returning garbage. */
-function loadH5wasm(): Promise<void> {
-  ready ??= h5wasm.ready.then((module) => {
+/**
+ * Loads h5wasm on first use (instantiating its WebAssembly takes about a second, which classic-only
+ * runs should not pay) and switches on its throwing error handler, so a failed read throws instead of
+ * returning garbage.
+ */
+function loadH5wasm(): Promise<H5wasm> {
+  ready ??= import('h5wasm/node').then(async ({ default: h5wasm }) => {
+    const module = await h5wasm.ready;
     module.activate_throwing_error_handler();
+    return h5wasm;
   });
   return ready;
 }
@@ -54,10 +61,6 @@ function storageType(ds: H5Dataset): StorageType | undefined {
   }
   if (m.type === 3 && !m.vlen && m.size === 1) return 'char';
   return undefined;
-}
-
-function isH5Dataset(e: Entity | null): e is H5Dataset {
-  return e instanceof h5wasm.Dataset;
 }
 
 interface Hdf5Variable extends VariableInfo {
@@ -147,7 +150,7 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
   if (expected !== undefined && expected > fileBytes) {
     throw new InputError('input-truncated', file, `file is truncated: expected ${expected} bytes, found ${fileBytes}`, 're-download it');
   }
-  await loadH5wasm();
+  const h5wasm = await loadH5wasm();
   let h5: H5File;
   try {
     h5 = new h5wasm.File(resolve(file), 'r');
@@ -158,7 +161,7 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
     const datasets: [string, H5Dataset][] = [];
     for (const key of h5.keys()) {
       const e = h5.get(key);
-      if (isH5Dataset(e)) datasets.push([key, e]);
+      if (e instanceof h5wasm.Dataset) datasets.push([key, e]);
     }
     const dims: (DimensionInfo & { order: number })[] = [];
     const dimensionOnly = new Set<string>();

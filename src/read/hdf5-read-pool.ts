@@ -4,7 +4,7 @@
  * from one queue; each worker keeps its files open until the batch ends, then every worker is closed.
  * One failed request does not drop the others: each result is either values or an InputError.
  */
-import { readFileSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -25,16 +25,27 @@ export type PoolMessage = { kind: 'read'; id: number; request: RawReadRequest } 
 export type PoolReply = { id: number; values?: Float64Array; error?: { message: string; code: string; hint: string } };
 
 const WORKER_URL = new URL('./hdf5-read-worker.ts', import.meta.url).href;
-const TSX_API_URL = ((): string => {
-  const pkgPath = createRequire(import.meta.url).resolve('tsx/package.json');
-  const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, { import: { default: string } }> };
-  return pathToFileURL(join(dirname(pkgPath), pkg.exports['./esm/api'].import.default)).href;
-})();
+/** File URL of a package's ESM export `subpath`, read from its package.json (some packages do not export package.json). */
+const packageFile = (name: string, subpath: string): string => {
+  const roots = createRequire(import.meta.url).resolve.paths(name) ?? [];
+  const pkgPath = roots.map((r) => join(r, name, 'package.json')).find((p) => existsSync(p));
+  if (!pkgPath) throw new Error(`package ${name} is not installed`);
+  const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, { import: string | { default: string } }> };
+  const target = pkg.exports[subpath].import;
+  return pathToFileURL(join(dirname(pkgPath), typeof target === 'string' ? target : target.default)).href;
+};
 /**
- * Workers start from this bootstrap, which registers tsx's TypeScript loader inside the thread:
- * `execArgv: ['--import', 'tsx']` does not apply loaders to worker threads on Node 20.
+ * Workers start from this bootstrap. It imports h5wasm BEFORE registering tsx's TypeScript loader in
+ * the thread: through tsx's hooks, h5wasm's 4 MB JavaScript costs ~630 MB RSS and seconds to load
+ * (measured), while a module already loaded is reused as is. `execArgv: ['--import', 'tsx']` does not
+ * apply loaders to worker threads on Node 20, hence the explicit register().
  */
-const BOOTSTRAP = `import(${JSON.stringify(TSX_API_URL)}).then((m) => { (m.register ?? m.default.register)(); return import(${JSON.stringify(WORKER_URL)}); });`;
+const BOOTSTRAP = [
+  `await import(${JSON.stringify(packageFile('h5wasm', './node'))});`,
+  `const tsx = await import(${JSON.stringify(packageFile('tsx', './esm/api'))});`,
+  '(tsx.register ?? tsx.default.register)();',
+  `await import(${JSON.stringify(WORKER_URL)});`,
+].join('\n');
 const CLOSE_GRACE_MS = 5000;
 
 function failure(request: RawReadRequest, message: string, code = 'input-worker', hint = ''): RawReadResult {
@@ -58,7 +69,7 @@ export async function readManyRaw(requests: readonly RawReadRequest[], workers =
   const results: RawReadResult[] = new Array(requests.length);
   let next = 0;
   const runWorker = async (): Promise<void> => {
-    const worker = new Worker(BOOTSTRAP, { eval: true });
+    const worker = new Worker(`(async () => {\n${BOOTSTRAP}\n})();`, { eval: true });
     const state: { crashed?: Error } = {};
     const crash = new Promise<void>((resolve) => {
       worker.once('error', (err) => { state.crashed = err; resolve(); });

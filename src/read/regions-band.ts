@@ -1,7 +1,8 @@
 /**
  * The union "band" of all regions: the smallest latitude-row range and (circular) longitude-column range that
- * holds every selected cell. Data are read once per variable for this band only, and each region's cells
- * are kept as flat indices into the band (`row * nLon + column`), computed once per grid.
+ * holds every selected cell. Data are read once per variable for this band only; of what is read, only the
+ * cells some region uses (`band.used`) are kept, decoded and reduced. Each region's cells are indices into
+ * that compact list, computed once per grid.
  */
 import type { RegionCells } from './regions.ts';
 
@@ -12,11 +13,13 @@ export interface GridBand {
   readonly lon0: number;
   readonly nLon: number;
   readonly gridLon: number;
+  /** Cells used by at least one region, as band-flat indices `row * nLon + column`, ascending. */
+  readonly used: Int32Array;
 }
 
 export interface BandRegion {
   readonly region: string;
-  /** Flat indices into the band, `row * nLon + column`. */
+  /** Indices into `band.used`. */
   readonly cells: Int32Array;
   readonly weights: Float64Array;
 }
@@ -50,15 +53,19 @@ export function planBand(regions: readonly RegionCells[], gridLat: number, gridL
       usedCols[r.lonIndex[k]] = 1;
     }
   }
-  if (latMax < 0) return { band: { lat0: 0, nLat: 0, lon0: 0, nLon: 0, gridLon }, regions: [] };
+  if (latMax < 0) return { band: { lat0: 0, nLat: 0, lon0: 0, nLon: 0, gridLon, used: new Int32Array(0) }, regions: [] };
   const { lon0, nLon } = columnArc(usedCols);
-  const band: GridBand = { lat0: latMin, nLat: latMax - latMin + 1, lon0, nLon, gridLon };
-  const out = regions.map((r) => {
-    const cells = new Int32Array(r.latIndex.length);
-    for (let k = 0; k < cells.length; k++) {
-      cells[k] = (r.latIndex[k] - latMin) * nLon + ((r.lonIndex[k] - lon0 + gridLon) % gridLon);
+  const nLat = latMax - latMin + 1;
+  const flat = regions.map((r) => Int32Array.from(r.latIndex, (y, k) => (y - latMin) * nLon + ((r.lonIndex[k] - lon0 + gridLon) % gridLon)));
+  const compact = new Int32Array(nLat * nLon).fill(-1);
+  for (const cells of flat) for (const c of cells) compact[c] = 0;
+  const used: number[] = [];
+  compact.forEach((mark, c) => {
+    if (mark === 0) {
+      compact[c] = used.length;
+      used.push(c);
     }
-    return { region: r.region, cells, weights: r.weights };
   });
-  return { band, regions: out };
+  const band: GridBand = { lat0: latMin, nLat, lon0, nLon, gridLon, used: Int32Array.from(used) };
+  return { band, regions: flat.map((cells, k) => ({ region: regions[k].region, cells: cells.map((c) => compact[c]), weights: regions[k].weights })) };
 }

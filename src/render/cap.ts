@@ -7,8 +7,8 @@
  * - status: `Actual` for live runs, `Exercise` for `run.mode === 'exercise'` (the demo), so a demo alert can never
  *   be mistaken for a real one by a CAP consumer.
  * - scope: `Restricted` with a `<restriction>` — bulletins go to health teams, not to the public.
- * - msgType: `Alert` when no earlier alert is known, `Update` (references the earlier one) while above the lowest
- *   stage, `Cancel` (references it) when back at the lowest stage.
+ * - msgType: `Alert` when no earlier active alert is known, `Update` (references the earlier one) while above the
+ *   lowest stage, `Cancel` (references it) when back at the lowest stage.
  * - certainty from the exceedance probability p of the deciding lead: p > 0.5 Likely, p = 0.5 exactly Possible
  *   (CHECKS.md §13), 0.05 <= p <= 0.5 Possible, p < 0.05 Unlikely (the 0.05 cut for "p ~ 0" is our choice, no source).
  * - sent is UTC written `-00:00` (CAP 1.2 §3.3.2: "Z" must not be used, UTC is "-00:00"); onset/expires are local
@@ -144,7 +144,8 @@ export function buildCapAlerts(config: Config, env: TemplateEnv, run: BulletinRu
       const active = ind.rank > 0;
       const priorActive = before !== null && stageIndex(config)(before.stageId).rank > 0;
       if (!active && !priorActive) continue;
-      const msgType = !active ? 'Cancel' : before ? 'Update' : 'Alert';
+      // After a Cancel (previous alert at the lowest stage) a new rise is a fresh Alert, not an Update.
+      const msgType = !active ? 'Cancel' : priorActive ? 'Update' : 'Alert';
       const identifier = `forelight.${toToken(run.runId)}.${toToken(outcome.region.id)}.${toToken(ind.id)}`;
       const head = [
         el('identifier', identifier), el('sender', sender), el('sent', sent),
@@ -153,7 +154,7 @@ export function buildCapAlerts(config: Config, env: TemplateEnv, run: BulletinRu
         el('restriction', env.phrase(locales[0], 'capRestriction', {})),
       ];
       if (run.mode === 'exercise') head.push(el('note', env.phrase(locales[0], 'capExerciseNote', {})));
-      if (before) head.push(el('references', `${before.sender},${before.identifier},${before.sent}`));
+      if (before && priorActive) head.push(el('references', `${before.sender},${before.id},${before.sent}`));
       const infos = locales.map((l) => infoXml(config, env, outcome, ind, views.get(l) as RegionView, l));
       const xml = `<?xml version="1.0" encoding="UTF-8"?>\n<alert xmlns="${CAP_NAMESPACE}">${head.join('')}${infos.join('')}</alert>\n`;
       alerts.push({ id: identifier, region: outcome.region.id, indicator: ind.id, msgType, sent, sender, stageId: ind.stageId, xml });

@@ -65,7 +65,8 @@ export interface IssuedAlert {
   readonly region: string;
   readonly indicator: string;
   readonly sender: string;
-  readonly identifier: string;
+  /** CAP identifier (same field name as `CapAlert.id`, so a CapAlert can be stored and passed back as is). */
+  readonly id: string;
   /** CAP `sent` value exactly as issued. */
   readonly sent: string;
   readonly stageId: string;

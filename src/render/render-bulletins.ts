@@ -119,6 +119,8 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
     };
   };
 
+  // Check every address before rendering anything, so a bad recipient fails fast and names its team.
+  const recipients = new Map(config.teams.map((t) => [t.id, t.recipients.map((a) => cleanAddress(t, a))]));
   const bulletins: Bulletin[] = [];
   for (const team of config.teams) {
     const locale = team.locale;
@@ -140,7 +142,7 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
       id: toToken(`${run.runId}-${team.id}`),
       team: team.id,
       locale,
-      to: team.recipients.map((a) => cleanAddress(team, a)),
+      to: recipients.get(team.id) ?? [],
       subject: toHeaderText(env.phrase(locale, 'subject', ctx)),
       html: env.render(`${locale}/${kind}.html.njk`, ctx),
       text: env.render(`${locale}/${kind}.txt.njk`, ctx),

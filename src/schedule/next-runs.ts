@@ -39,13 +39,38 @@ export function zoneOffsetMs(tz: string, ms: number): number {
   return asUtc - (ms - (ms % 1000 + 1000) % 1000);
 }
 
-/** The instant of local wall time (given as a UTC-based ms "wall" value) in `tz`, "compatible" disambiguation. */
-export function wallTimeToInstant(tz: string, wallMs: number): number {
-  const before = zoneOffsetMs(tz, wallMs - 86_400_000);
-  const after = zoneOffsetMs(tz, wallMs + 86_400_000);
-  const candidates = [wallMs - before, wallMs - after].filter((t) => zoneOffsetMs(tz, t) === wallMs - t);
+/**
+ * The instant of a local wall time (given as a UTC-based ms "wall" value) in a zone whose offset at any
+ * instant is `offsetAt`, with "compatible" disambiguation.
+ */
+function resolveWallTime(offsetAt: (ms: number) => number, wallMs: number): number {
+  const before = offsetAt(wallMs - 86_400_000);
+  const after = offsetAt(wallMs + 86_400_000);
+  const candidates = [wallMs - before, wallMs - after].filter((t) => offsetAt(t) === wallMs - t);
   if (candidates.length > 0) return Math.min(...candidates);
   return wallMs - before; // in a gap: keep the offset in force before it, i.e. move forward by the gap
+}
+
+export function wallTimeToInstant(tz: string, wallMs: number): number {
+  return resolveWallTime((ms) => zoneOffsetMs(tz, ms), wallMs);
+}
+
+/**
+ * Offset function valid from `lo` to `hi` (instants), assuming at most one offset change in between:
+ * the change is found by bisection to the second, so each later lookup costs no Intl call.
+ */
+function offsetsBetween(tz: string, lo: number, hi: number): (ms: number) => number {
+  const offLo = zoneOffsetMs(tz, lo);
+  const offHi = zoneOffsetMs(tz, hi);
+  if (offLo === offHi) return () => offLo;
+  let a = lo;
+  let b = hi;
+  while (b - a > 1000) {
+    const mid = a + Math.floor((b - a) / 2000) * 1000;
+    if (zoneOffsetMs(tz, mid) === offLo) a = mid;
+    else b = mid;
+  }
+  return (ms) => (ms < b ? offLo : offHi);
 }
 
 /** Throws a one-line ConfigError for an expression node-cron rejects or that uses L/W/# day tokens. */
@@ -75,11 +100,16 @@ export function computeNextRuns(cronExpr: string, tz: string, from: Date, n: num
   day = new Date(Date.UTC(day.getUTCFullYear(), day.getUTCMonth(), day.getUTCDate()));
   for (let i = 0; i < 366 * 8 && out.length < n; i++, day = new Date(day.getTime() + 86_400_000)) {
     if (!months.has(day.getUTCMonth() + 1) || !dom.has(day.getUTCDate()) || !dow.has(day.getUTCDay())) continue;
+    const offsetAt = offsetsBetween(tz, day.getTime() - 2 * 86_400_000, day.getTime() + 3 * 86_400_000);
+    const steady = offsetAt(day.getTime() - 2 * 86_400_000) === offsetAt(day.getTime() + 3 * 86_400_000);
     const instants: number[] = [];
     for (const h of hours) for (const m of minutes) for (const s of seconds) {
-      instants.push(wallTimeToInstant(tz, day.getTime() + ((h * 60 + m) * 60 + s) * 1000));
+      const wall = day.getTime() + ((h * 60 + m) * 60 + s) * 1000;
+      const at = steady ? wall - offsetAt(wall) : resolveWallTime(offsetAt, wall);
+      if (at > fromMs) instants.push(at);
+      if (steady && instants.length >= n) break; // ascending already: enough for this call
     }
-    instants.sort((a, b) => a - b);
+    if (!steady) instants.sort((a, b) => a - b);
     for (const at of instants) {
       const last = out.length > 0 ? out[out.length - 1].getTime() : fromMs;
       if (at > last && out.length < n) out.push(new Date(at));

@@ -68,6 +68,11 @@ function ledgerLastCompletedAt(ledgerPath: string): Date | null {
   }
 }
 
+/** Where the service keeps its status file and lock, next to the ledger (also for `forelight run` / `status`). */
+export function servicePaths(ledgerPath: string): { statusPath: string; lockPath: string } {
+  return { statusPath: `${ledgerPath}.status.json`, lockPath: `${ledgerPath}.lock` };
+}
+
 /** Runs until stopped; resolves after the in-flight run (if any) has finished. */
 export async function runService(options: ServiceOptions): Promise<void> {
   const { config, log } = options;
@@ -75,8 +80,8 @@ export async function runService(options: ServiceOptions): Promise<void> {
   parseCronFields(expr);
   checkTimeZone(timezone);
   const now = options.now ?? (() => new Date());
-  const statusPath = options.statusPath ?? `${config.ledger}.status.json`;
-  const lockPath = options.lockPath ?? `${config.ledger}.lock`;
+  const statusPath = options.statusPath ?? servicePaths(config.ledger).statusPath;
+  const lockPath = options.lockPath ?? servicePaths(config.ledger).lockPath;
   const startedAt = now();
   let lastRunAt = (options.lastCompletedAt ?? (() => ledgerLastCompletedAt(config.ledger)))() ?? startedAt;
   let inFlight: Promise<void> | null = null;

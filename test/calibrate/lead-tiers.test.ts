@@ -34,6 +34,10 @@ describe('buildLeadSpans', () => {
     expect(buildLeadSpans(daysFrom('2026-12-01', 31), 'months')[0].lead.end).toBe('2026-12-31');
     expect(buildLeadSpans(daysFrom('2028-02-01', 29), 'months')[0].lead.end).toBe('2028-02-29'); // leap year
   });
+  it('months: a series ending exactly on a month end gives no extra, empty month (malaria target months do)', () => {
+    const s = buildLeadSpans(daysFrom('2027-01-01', 31 + 28), 'months');
+    expect(s.map((x) => [x.lead.start, x.lead.end])).toEqual([['2027-01-01', '2027-01-31'], ['2027-02-01', '2027-02-28']]);
+  });
   it('a gap in the local days throws a one-line error naming the days', () => {
     expect(() => buildLeadSpans(['2026-11-27', '2026-11-29'], 'days')).toThrow(/2026-11-27 to 2026-11-29/);
   });

@@ -37,6 +37,18 @@ describe('synthetic truth', () => {
     expect(r.rocArea).toBe(1);
     expect(r.flags).toContain('potential skill only: no observations configured');
   });
+  it('absolute threshold at week leads: a model 2 degC too warm is corrected by LOYO quantile mapping (BSS 1), unmapped it is not', () => {
+    const g = normal(mulberry32(6));
+    const signal = Array.from({ length: 40 }, g);
+    const obs = climate(years(40), 1, leadsOf('weeks', 1), (y) => signal[y]);
+    const warm = climate(years(40), 8, leadsOf('weeks', 1), (y) => signal[y] + 2);
+    const [r] = skillReports(req({ hindcast: warm, observed: obs, threshold: { kind: 'absolute', value: 0.3, units: 'degC' } }));
+    expect(r.brierSkillScore).toBe(1);
+    const dayObs = climate(years(40), 1, leadsOf('days', 1), (y) => signal[y]);
+    const dayWarm = climate(years(40), 8, leadsOf('days', 1), (y) => signal[y] + 2);
+    const [d] = skillReports(req({ hindcast: dayWarm, observed: dayObs, threshold: { kind: 'absolute', value: 0.3, units: 'degC' } }));
+    expect(d.brierSkillScore).toBeLessThan(0.5); // days are not mapped: the warm bias shows
+  });
   it('climatological ensemble against observations: BSS ≈ -1/N (N = 10), ROC area ≈ 0.5', () => {
     const g = normal(mulberry32(3));
     const leads = leadsOf('days', 1);

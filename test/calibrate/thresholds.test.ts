@@ -69,7 +69,7 @@ describe('absolute thresholds and empirical quantile mapping', () => {
     expect(quantileMappedThreshold(30.3, obs, warm, 1).value).toBeCloseTo(32.3, 12);
     const { threshold, clipped } = quantileMappedThresholdObject({ value: 30.3, units: 'degC' }, obs, warm, 1, weeks[1]);
     expect(clipped).toBe(false);
-    expect(threshold.origin).toMatch(/^absolute 30.3 degC quantile-mapped to 32.3 degC \(observed .* 2006–2025, 20 values → hindcasts 2006–2025, 20 values\), lead week 2$/);
+    expect(threshold.origin).toMatch(/^absolute 30.3 degC quantile-mapped to 32.3 degC \(percent rank [\d.]+ in observations 2006–2025, 20 values → same percentile of hindcasts 2006–2025, 20 values\), lead week 2$/);
   });
   it('outside the observed range: clipped to the model extreme, no extrapolation', () => {
     const r = quantileMappedThreshold(99, obs, hc, 0);

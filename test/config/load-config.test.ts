@@ -83,6 +83,15 @@ describe('problems located at file:line:column', () => {
     expect(problems.join('\n')).not.toContain('hunter2');
   });
 
+  it('a password written as password-env is refused without echoing it', async () => {
+    const file = minimalVariant('  smtp: null', '  smtp: { host: mail.team.example, port: 587, security: starttls, password-env: "hunter2 secret!" }');
+    const problems = await problemsOf(file);
+    expect(problems).toEqual([
+      `${displayPath(file)}:65:81: password-env must be the NAME of an environment variable, not the password — NAME of the environment variable that holds the password (never the password itself).`,
+    ]);
+    expect(problems.join('\n')).not.toContain('hunter2');
+  });
+
   it('password-env is accepted and reaches Config as passwordEnv', async () => {
     const file = minimalVariant('  smtp: null', '  smtp: { host: mail.team.example, port: 587, security: starttls, user: fl, password-env: FL_SMTP_PASSWORD }');
     const config = await loadConfig(file);
@@ -128,6 +137,25 @@ describe('problems located at file:line:column', () => {
     expect(await problemsOf(tagged)).toEqual([
       `${displayPath(tagged)}:2:10: custom YAML tags are not allowed (Unresolved tag: tag:yaml.org,2002:js/function) — write plain values without tags`,
     ]);
+  });
+});
+
+describe('resolution', () => {
+  it('converts temperature thresholds to degC (95 degF = 35 degC, 308.15 K = 35 degC)', async () => {
+    const f = await loadConfig(minimalVariant('{ value: 35, units: degC }', '{ value: 95, units: degF }'));
+    expect(f.indicators[0].threshold).toEqual({ kind: 'absolute', value: 35, units: 'degC' });
+    const k = await loadConfig(minimalVariant('{ value: 35, units: degC }', '{ value: 308.15, units: K }'));
+    expect(k.indicators[0].threshold.kind === 'absolute' && k.indicators[0].threshold.value).toBeCloseTo(35, 10);
+  });
+
+  it('duplicate keys are a YAML error at the second key', async () => {
+    const file = minimalVariant('country: Testland', 'country: Testland\ncountry: Otherland');
+    expect(await problemsOf(file)).toEqual([`${displayPath(file)}:3:1: YAML syntax: Map keys must be unique — fix the YAML at this position`]);
+  });
+
+  it('regions both inline and included is an error at the include', async () => {
+    const file = minimalVariant('country: Testland', `country: Testland\ninclude:\n  regions: ${fixture('bad-regions.yaml')}`);
+    expect(await problemsOf(file)).toEqual([`${displayPath(file)}:4:12: regions are given both inline and in an included file — keep one: delete the inline regions: or this include`]);
   });
 });
 

@@ -68,8 +68,8 @@ export interface Received {
 export interface Faults {
   /** Reply to RCPT TO: an Error with responseCode (e.g. 550) rejects that address. */
   rcpt?: (address: string) => (Error & { responseCode?: number }) | null;
-  /** At end of DATA: 'drop' closes the socket without a reply; an Error replies with its code. */
-  data?: (to: readonly string[]) => 'drop' | (Error & { responseCode?: number }) | null;
+  /** At end of DATA: 'drop' closes the socket without a reply, 'hang' never replies; an Error replies with its code. */
+  data?: (to: readonly string[]) => 'drop' | 'hang' | (Error & { responseCode?: number }) | null;
 }
 
 export const smtpError = (code: number, text: string) => Object.assign(new Error(text), { responseCode: code });
@@ -103,6 +103,7 @@ export async function startSmtp(faults: Faults = {}): Promise<SmtpFixture> {
           for (const c of conns) if (c.session?.id === session.id) c._socket.destroy();
           return;
         }
+        if (fault === 'hang') return;
         if (fault) return callback(fault);
         const raw = Buffer.concat(chunks);
         const messageId = /^Message-ID:\s*(<[^>]+>)/im.exec(raw.toString('utf8'))?.[1] ?? '';

@@ -101,6 +101,13 @@ describe('runs', () => {
     expect(beginRun(ledger, '2026-11-23').kind).toBe('already-issued');
   });
 
+  it('a key that ended nothing-new is not blocked: late data for it starts a new run', () => {
+    const { ledger } = fresh();
+    const a = beginRun(ledger, '2026-11-26').run;
+    finishRun(ledger, a.id, 'nothing-new');
+    expect(beginRun(ledger, '2026-11-26')).toMatchObject({ kind: 'new', run: { forced: false } });
+  });
+
   it('lastCompletedRun ignores failed and running runs', () => {
     const { ledger } = fresh();
     expect(lastCompletedRun(ledger)).toBeNull();

@@ -3,7 +3,10 @@
  * (no published source; the cell-first order is that of CDO's daymax then fldmean, checked in extract-cdo.test.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { planLocalDays, reduceToDays, stepIntervals, deaccumulateInPlace } from '../../src/read/daily.ts';
+import { planLocalDays, reduceToDays, stepIntervals, deaccumulateInPlace, type DayPlan } from '../../src/read/daily.ts';
+import { chunkStarts, MAX_CHUNK_VALUES } from '../../src/read/extract-reduce.ts';
+
+const whole = (plan: DayPlan) => ({ firstStep: 0, firstDay: 0, days: plan.days.length });
 
 const H = 3_600_000;
 const REF = Date.UTC(2026, 10, 23);
@@ -17,7 +20,7 @@ describe('stepIntervals + planLocalDays', () => {
     expect(Array.from(plan.dayOfStep)).toEqual([0, 0, 0, 0, 1, 1, 1, 1]);
     const values = Float64Array.of(1, 2, 3, 40, 5, 6, 7, 8);
     const out = new Float64Array(2);
-    reduceToDays(values, 1, plan, 'max', out);
+    reduceToDays(values, 1, plan, 'max', out, whole(plan));
     expect(Array.from(out)).toEqual([40, 8]);
   });
 
@@ -50,7 +53,7 @@ describe('stepIntervals + planLocalDays', () => {
     const plan = planLocalDays(stepIntervals({ stampsMs: stamps([6, 12, 18, 24]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), 0);
     const values = Float64Array.of(1, 10, 2, 20, 3, NaN, 4, 40);
     const out = new Float64Array(2);
-    reduceToDays(values, 2, plan, 'mean', out);
+    reduceToDays(values, 2, plan, 'mean', out, whole(plan));
     expect(out[0]).toBeCloseTo(2.5, 12);
     expect(out[1]).toBeNaN();
   });
@@ -59,8 +62,17 @@ describe('stepIntervals + planLocalDays', () => {
 describe('accumulated fields', () => {
   it('de-accumulation with acc(t0) = 0 (checks.json conv-pr-1..3: 0→12.5 mm, 12.5→30 mm, 30→30 mm)', () => {
     const acc = Float64Array.of(12.5, 30, 30);
-    deaccumulateInPlace(acc, 3, 1);
+    deaccumulateInPlace(acc, 1, new Float64Array(1));
     expect(Array.from(acc)).toEqual([12.5, 17.5, 0]);
+  });
+
+  it('de-accumulation in time chunks carries the last accumulation over (same result as one pass, 2 cells)', () => {
+    const carry = new Float64Array(2);
+    const a = Float64Array.of(1, 10, 3, 30);
+    const b = Float64Array.of(6, 60, 6, 70);
+    deaccumulateInPlace(a, 2, carry);
+    deaccumulateInPlace(b, 2, carry);
+    expect([...a, ...b]).toEqual([1, 10, 2, 20, 3, 30, 0, 10]);
   });
 
   it('accumulated 6-hourly steps are split into intervals since the previous step; step 0 (zero length) is dropped', () => {
@@ -68,5 +80,21 @@ describe('accumulated fields', () => {
     expect(Array.from(iv.startMs, (v) => (v - REF) / H)).toEqual([0, 0, 6, 12, 18]);
     const plan = planLocalDays(iv, 0);
     expect(Array.from(plan.dayOfStep)).toEqual([-1, 0, 0, 0, 0]);
+  });
+});
+
+describe('time chunks', () => {
+  it('never split a local day, and stay under MAX_CHUNK_VALUES band values', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([6, 12, 18, 24, 30, 36, 42, 48, 54, 60, 66, 72]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), 1);
+    expect(chunkStarts(12, MAX_CHUNK_VALUES / 3, [plan])).toEqual([0, 4, 8, 12]);
+    expect(chunkStarts(12, MAX_CHUNK_VALUES / 5, [plan])).toEqual([0, 8, 12]);
+    expect(chunkStarts(12, 1, [plan])).toEqual([0, 12]);
+  });
+
+  it('a day reduced from a later chunk lands in its own row (window.firstStep / firstDay)', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([6, 12, 18, 24, 30, 36, 42, 48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), 0);
+    const out = new Float64Array(1);
+    reduceToDays(Float64Array.of(5, 9, 7, 1), 1, plan, 'sum', out, { firstStep: 4, firstDay: 1, days: 1 });
+    expect(out[0]).toBe(22);
   });
 });

@@ -40,6 +40,7 @@ function expectMembersClose(got: BoxExtractJson, cdo: { members: number[][] }, s
 
 const boxes = [
   { file: 'grid360.nc', cdo: 'cdo-g360-marrow.txt', box: { south: -9, north: -6.5, west: -1.5, east: 1.5 }, what: 'box crossing 0° on a 0..360 grid, edges on centres, one missing cell' },
+  { file: 'grid360-nc4.nc', cdo: 'cdo-g360-marrow.txt', box: { south: -9, north: -6.5, west: -1.5, east: 1.5 }, what: 'same data as NetCDF-4/HDF5 (ncgen -k nc4)' },
   { file: 'grid360.nc', cdo: 'cdo-g360-kessan.txt', box: { south: -12, north: -9, west: -3.5, east: -0.5 }, what: 'box west of 0° on a 0..360 grid' },
   { file: 'grid360.nc', cdo: 'cdo-g360-orrin.txt', box: { south: -8.5, north: -6, west: 2, east: 4 }, what: 'box east of 0°' },
   { file: 'grid360.nc', cdo: 'cdo-g360-dateline.txt', box: { south: -12, north: -6, west: 177, east: -177 }, what: 'box crossing 180° on a 0..360 grid' },

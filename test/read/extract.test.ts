@@ -7,7 +7,13 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import type { RegionConfig, RegionShape } from '../../src/config/types.ts';
 import { InputError, UnitError } from '../../src/errors.ts';
-import { extractFromDataset, extractRegionSeries } from '../../src/read/extract.ts';
+import { findCoordinates, layoutVariable } from '../../src/read/coordinates.ts';
+import { extractBoxFromDataset, extractFromDataset, extractRegionSeries } from '../../src/read/extract.ts';
+import { planTime } from '../../src/read/extract-plan.ts';
+import { reduceVariable } from '../../src/read/extract-reduce.ts';
+import { planBand } from '../../src/read/regions-band.ts';
+import { selectRegionCells } from '../../src/read/regions.ts';
+import { planUnits } from '../../src/read/units.ts';
 import { makeFakeDataset } from './fake-dataset.ts';
 import { axis, makeFakeForecast, type ValueFn } from './fake-forecast.ts';
 
@@ -39,13 +45,13 @@ describe('extractFromDataset', () => {
     expect(marrow?.provenance).toEqual({ file: 'fc_20261123.nc', variable: 'mx2t6', referenceTime: '2026-11-23T00:00:00Z' });
   });
 
-  it('reads only the union band of all regions, once per member (two hyperslabs as the band crosses lon 359→0)', async () => {
+  it('reads only the union band of all regions, one hyperslab per member (whole rows as the band crosses lon 359→0)', async () => {
     const ds = sixHourlyMax(() => 300);
     await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [MARROW, KESSAN] });
     const reads = ds.reads.filter((r) => r.name === 'mx2t6');
-    expect(reads).toHaveLength(2 * 2);
-    // rows -12..-7 (6), columns 357..359 and 0..1 (5), 12 steps, 2 members.
-    expect(reads.reduce((a, r) => a + r.values, 0)).toBe(2 * 12 * 6 * 5);
+    expect(reads).toHaveLength(2);
+    // rows -12..-7 (6), 360 columns, 12 steps, 2 members.
+    expect(reads.reduce((a, r) => a + r.values, 0)).toBe(2 * 12 * 6 * 360);
   });
 
   it('area mean skips missing cells and renormalises weights per member and day', async () => {
@@ -82,6 +88,44 @@ describe('extractFromDataset', () => {
     const { series } = await extractFromDataset(ds, { quantities: { rh: 'rh' }, regions: [MARROW] });
     expect(series[0].members).toBe(1);
     expect(Array.from(series[0].data).map((v) => +v.toFixed(9))).toEqual([50, 70]);
+  });
+});
+
+describe('extractBoxFromDataset (forelight extract --json)', () => {
+  it('prints file units, ISO steps or local dates, members in file order, null where a member has no valid cell', async () => {
+    const ds = sixHourlyMax((m, t) => (m === 1 && t < 4 ? NaN : 300 + t));
+    const box = { south: -9, north: -6.5, west: -1.5, east: 1.5 };
+    const steps = await extractBoxFromDataset(ds, { variable: 'mx2t6', box });
+    expect(steps.units).toBe('K');
+    expect(steps.cells).toBe(9);
+    expect(steps.times.slice(0, 2)).toEqual(['2026-11-23T06:00:00Z', '2026-11-23T12:00:00Z']);
+    const round = (rows: (number | null)[][]) => rows.map((r) => r.map((v) => (v === null ? null : +v.toFixed(9))));
+    expect(round(steps.members)[1].slice(0, 5)).toEqual([null, null, null, null, 304]);
+    const daily = await extractBoxFromDataset(ds, { variable: 'mx2t6', box, daily: 'max', utcOffsetHours: 1 });
+    expect(daily.times).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+    expect(round(daily.members)).toEqual([[303, 307, 311], [null, 307, 311]]);
+  });
+});
+
+describe('time chunks (memory bound)', () => {
+  it('accumulated precipitation read in chunks of one day gives the same daily totals as one chunk', async () => {
+    const ds = makeFakeForecast({
+      lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members: 2,
+      variables: { tp: { attributes: { units: 'm' }, value: (m, t, lat) => (t + 1) * (t + 2) * 1e-4 * (1 + m) + lat * 1e-6 } },
+    });
+    const coords = await findCoordinates(ds);
+    const layout = layoutVariable(ds, coords, 'tp');
+    const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
+    const { intervals, accumulated } = planTime(coords, layout, unitPlan);
+    const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
+    const req = { layout, band, regions, intervals, unitPlan, accumulated, utcOffsets: [1], daily: 'sum' as const };
+    const [one] = await reduceVariable(ds, coords, req);
+    const before = ds.reads.length;
+    const [chunked] = await reduceVariable(ds, coords, { ...req, maxChunkValues: 4 * band.nLat * band.nLon });
+    expect(ds.reads.length - before).toBe(2 * 4);
+    expect(chunked.labels).toEqual(one.labels);
+    expect(one.labels).toHaveLength(4);
+    one.data.forEach((v, i) => expect(chunked.data[i]).toBeCloseTo(v, 9));
   });
 });
 
@@ -136,6 +180,20 @@ describe('extractRegionSeries on the ncgen fixtures', () => {
     for (const [date, lev, value] of cdo.slice(0, 6)) {
       const d = series[0].days.indexOf(date);
       expect(Math.abs(series[0].data[Number(lev) * series[0].days.length + d] - (Number(value) - 273.15))).toBeLessThanOrEqual(1e-4);
+    }
+  });
+
+  it('forecast-centre layout (number, step; forecast_reference_time; tp accumulated in m; mx2t6 stamped at the end of its 6 h), UTC+1 local days, vs numpy (leadtime-expected.json, written by gen-cdl.py)', async () => {
+    const dir = join(import.meta.dirname, '../fixtures/regions');
+    const expected = JSON.parse(readFileSync(join(dir, 'leadtime-expected.json'), 'utf8'));
+    const { series, problems } = await extractRegionSeries(join(dir, 'leadtime.nc'), { quantities: { precip: 'tp', tmax: 'mx2t6' }, regions: [MARROW], referenceTime: '2026-11-30' });
+    expect(problems).toEqual([]);
+    const byQ = new Map(series.map((s) => [s.quantity, s]));
+    for (const [q, key] of [['precip', 'precip_mm_day'], ['tmax', 'tmax_degC']] as const) {
+      const s = byQ.get(q);
+      expect(s?.days).toEqual(expected.days);
+      expect(s?.provenance.referenceTime).toBe('2026-11-30T00:00:00Z');
+      (expected[key] as number[][]).forEach((row, m) => row.forEach((v, d) => expect(Math.abs((s?.data[m * 2 + d] ?? NaN) - v)).toBeLessThanOrEqual(1e-4)));
     }
   });
 });

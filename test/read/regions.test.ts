@@ -80,13 +80,13 @@ describe('cell area weights', () => {
 });
 
 describe('planBand', () => {
-  it('reads the smallest circular column range; cells map to band indices', () => {
+  it('reads the smallest circular column range; only used cells are kept, regions index them', () => {
     const g = grid([-2, -1, 0], axis(0, 90, 4));
     const a = selectRegionCells(g, region('a', { kind: 'box', south: -1, north: -1, west: -90, east: 0 }), 'f.nc');
     const b = selectRegionCells(g, region('b', { kind: 'box', south: 0, north: 0, west: 0, east: 0 }), 'f.nc');
     const { band, regions } = planBand([a, b], 3, 4);
-    expect(band).toEqual({ lat0: 1, nLat: 2, lon0: 3, nLon: 2, gridLon: 4 });
+    expect(band).toEqual({ lat0: 1, nLat: 2, lon0: 3, nLon: 2, gridLon: 4, used: Int32Array.of(0, 1, 3) });
     expect(Array.from(regions[0].cells).sort()).toEqual([0, 1]);
-    expect(Array.from(regions[1].cells)).toEqual([3]);
+    expect(Array.from(regions[1].cells)).toEqual([2]);
   });
 });

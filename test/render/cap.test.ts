@@ -6,7 +6,8 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { capCertainty, capLocalMidnight, capPolygon, capUtc } from '../../src/render/cap.ts';
+import { buildCapAlerts, capCertainty, capLocalMidnight, capPolygon, capUtc } from '../../src/render/cap.ts';
+import { createTemplateEnv } from '../../src/render/template-env.ts';
 import type { CapAlert, PreviousIssue } from '../../src/render/model.ts';
 import { renderBulletins } from '../../src/render/render-bulletins.ts';
 import { sampleConfig, sampleRegions } from './fixtures/sample-config.ts';
@@ -55,9 +56,9 @@ describe('CAP 1.2 alerts of the sample run', () => {
     }
   });
 
-  it('identifiers are unique and stable for the same run', async () => {
-    const again = await renderBulletins(sampleConfig(), sampleRun());
-    expect(again.capAlerts.map((a) => a.id)).toEqual(alerts.map((a) => a.id));
+  it('identifiers are unique and stable for the same run', () => {
+    const again = buildCapAlerts(sampleConfig(), createTemplateEnv(''), sampleRun());
+    expect(again.map((a) => a.id)).toEqual(alerts.map((a) => a.id));
     expect(new Set(alerts.map((a) => a.id)).size).toBe(alerts.length);
   });
 
@@ -82,22 +83,22 @@ describe('CAP 1.2 alerts of the sample run', () => {
     expect([...tulva.xml.matchAll(/<language>([a-z]+)<\/language>/g)].map((m) => m[1])).toEqual(['fr', 'en']);
   });
 
-  it('exercise runs are marked status Exercise with a note', async () => {
-    const { capAlerts } = await renderBulletins(sampleConfig(), { ...sampleRun(), mode: 'exercise' });
+  it('exercise runs are marked status Exercise with a note', () => {
+    const capAlerts = buildCapAlerts(sampleConfig(), createTemplateEnv(''), { ...sampleRun(), mode: 'exercise' });
     expect(capAlerts[0].xml).toContain('<status>Exercise</status>');
     expect(capAlerts[0].xml).toMatch(/<note>EXERCISE[^<]*<\/note>/);
     expect(xmllint([save('exercise.xml', capAlerts[0].xml)]).status).toBe(0);
   });
 
-  it('Update and Cancel reference the earlier alert as "sender,identifier,sent" and validate', async () => {
+  it('Update and Cancel reference the earlier alert as "sender,identifier,sent" and validate', () => {
     const previous: PreviousIssue = {
       runId: '2026-11-26-a',
       alerts: [
-        { region: 'kessan-lowlands', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', identifier: 'forelight.2026-11-26-a.kessan-lowlands.tmax-3day', sent: '2026-11-26T06:30:00-00:00', stageId: 'mindful' },
-        { region: 'orrin-coast', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', identifier: 'forelight.2026-11-26-a.orrin-coast.tmax-3day', sent: '2026-11-26T06:30:00-00:00', stageId: 'mindful' },
+        { region: 'kessan-lowlands', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'forelight.2026-11-26-a.kessan-lowlands.tmax-3day', sent: '2026-11-26T06:30:00-00:00', stageId: 'mindful' },
+        { region: 'orrin-coast', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'forelight.2026-11-26-a.orrin-coast.tmax-3day', sent: '2026-11-26T06:30:00-00:00', stageId: 'mindful' },
       ],
     };
-    const { capAlerts } = await renderBulletins(sampleConfig(), sampleRun(), previous);
+    const capAlerts = buildCapAlerts(sampleConfig(), createTemplateEnv(''), sampleRun(), previous);
     const kessan = capAlerts.find((a) => a.region === 'kessan-lowlands')!;
     const orrin = capAlerts.find((a) => a.region === 'orrin-coast')!;
     expect(kessan.msgType).toBe('Update');
@@ -105,6 +106,21 @@ describe('CAP 1.2 alerts of the sample run', () => {
     expect(orrin.msgType).toBe('Cancel');
     expect(orrin.xml).toContain('<references>forelight@health.veloria.example,forelight.2026-11-26-a.orrin-coast.tmax-3day,2026-11-26T06:30:00-00:00</references>');
     expect(xmllint(capAlerts.map((a) => save(`prev-${a.id}.xml`, a.xml))).status).toBe(0);
+  });
+
+  it('after a Cancel, a new rise is a fresh Alert without references; nothing is sent while it stays at the lowest stage', () => {
+    const cancelled: PreviousIssue = {
+      runId: '2026-11-26-a',
+      alerts: [
+        { region: 'kessan-lowlands', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'x.kessan', sent: '2026-11-26T06:30:00-00:00', stageId: 'quiet' },
+        { region: 'orrin-coast', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'x.orrin', sent: '2026-11-26T06:30:00-00:00', stageId: 'quiet' },
+      ],
+    };
+    const capAlerts = buildCapAlerts(sampleConfig(), createTemplateEnv(''), sampleRun(), cancelled);
+    const kessan = capAlerts.find((a) => a.region === 'kessan-lowlands')!;
+    expect(kessan.msgType).toBe('Alert');
+    expect(kessan.xml).not.toContain('<references>');
+    expect(capAlerts.some((a) => a.region === 'orrin-coast')).toBe(false);
   });
 });
 

@@ -74,7 +74,8 @@ describe('renderBulletins on the sample run', () => {
   it('says what changed and why, which forecasts were used (late source flagged) and the next issue date', () => {
     const t = plain('kessan-health');
     expect(t).toContain('Since the last bulletin: Raised from ◔ Mindful to ◑ Brace. Why: Brace reached in two runs in a row');
-    expect(t).toContain('Sub-seasonal ensemble: forecast of 26 Nov 2026 — the newer forecast was late, so this is based on the forecast of 26 Nov 2026');
+    expect(t).toContain('Sub-seasonal ensemble: the newer forecast was late, so this bulletin is based on the forecast of 26 Nov 2026');
+    expect(t).toContain('Short-range ensemble: forecast of 30 Nov 2026');
     expect(t).toContain('Next bulletin: 3 Dec 2026.');
     expect(plain('orrin-health')).toContain('Lowered from ◔ Mindful to ○ Quiet.');
   });
@@ -94,12 +95,29 @@ describe('renderBulletins on the sample run', () => {
   });
 });
 
+describe('exercise and empty tiers', () => {
+  it('an exercise run is marked in the subject and body', async () => {
+    const r = await renderBulletins(sampleConfig({ teams: sampleConfig().teams.slice(0, 1) }), { ...sampleRun(), mode: 'exercise' });
+    expect(r.bulletins[0].subject).toMatch(/^\[EXERCISE\] /);
+    expect(r.bulletins[0].html).toContain('class="exercise"');
+    expect(r.bulletins[0].text).toMatch(/^\*\*\* EXERCISE/);
+  });
+
+  it('a tier without any lead (source missing) still renders', async () => {
+    const run = sampleRun();
+    const k = run.regions[0];
+    const emptied = { ...run, regions: [{ ...k, perTier: k.perTier.map((t, i) => (i === 1 ? { ...t, probabilities: [] } : t)) }] };
+    const r = await renderBulletins(sampleConfig({ teams: sampleConfig().teams.slice(0, 1) }), emptied);
+    expect(r.bulletins[0].text).toContain('3-day mean maximum temperature, coming weeks: ◔ Mindful');
+  });
+});
+
 describe('templates', () => {
   it('an operator override in config.templates wins over the shipped file; the rest still come from the shipped set', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-tpl-'));
     mkdirSync(join(dir, 'en'));
     writeFileSync(join(dir, 'en', 'team.txt.njk'), 'Custom bulletin for {{ team.name }}\n');
-    const r = await renderBulletins(sampleConfig({ templates: dir }), sampleRun());
+    const r = await renderBulletins(sampleConfig({ templates: dir, teams: sampleConfig().teams.slice(0, 1) }), sampleRun());
     const k = r.bulletins.find((b) => b.team === 'kessan-health')!;
     expect(k.text).toBe('Custom bulletin for Kessan Lowlands District Health Office\n');
     expect(k.html).toContain('Read before acting');
@@ -120,7 +138,7 @@ describe('hostile names from YAML', () => {
     const cfg = sampleConfig();
     const run = sampleRun();
     const regions = run.regions.map((r) => (r.region.id === 'kessan-lowlands' ? { ...r, region: { ...r.region, name: evil } } : r));
-    const teams = cfg.teams.map((t) => (t.id === 'kessan-health' ? { ...t, name: `Team <b>x</b>\r\nX-Injected: 1` } : t));
+    const teams = cfg.teams.filter((t) => t.id === 'kessan-health').map((t) => ({ ...t, name: `Team <b>x</b>\r\nX-Injected: 1` }));
     const r = await renderBulletins({ ...cfg, teams }, { ...run, regions });
     const b = r.bulletins.find((x) => x.team === 'kessan-health')!;
     expect(b.html).not.toContain('<script>');

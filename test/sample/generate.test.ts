@@ -57,9 +57,13 @@ describe('generateSample', () => {
     expect(h).toContain('time:calendar = "standard" ;');
     expect(h).toContain('forecast_reference_time:standard_name = "forecast_reference_time" ;');
     expect(h).toContain('lat:axis = "Y" ;');
+    expect(h).toContain('time:bounds = "time_bnds" ;');
     expect(h).toMatch(/number = 50 ;[\s\S]*time = 15 ;[\s\S]*lat = 25 ;[\s\S]*lon = 25 ;/);
     const seas = header(join(dirA, 'seasonal', 'seas_20261126.nc'));
     expect(seas).toContain('tp:units = "m" ;');
+    expect(seas).not.toContain('tp:cell_methods'); // accumulated since the reference: no per-step method
+    expect(seas).not.toContain('time_bnds'); // forecast-centre encoding: stamps close each day
+    expect(execFileSync('ncdump', ['-v', 'time', join(dirA, 'seasonal', 'seas_20261126.nc')], { encoding: 'utf8' }).replace(/\s+/g, ' ')).toContain('time = 24, 48, 72,');
     expect(seas).toMatch(/number = 25 ;[\s\S]*time = 184 ;/);
     expect(header(join(dirA, 'subseasonal', 'hindcast', 'subs_20201126.nc'))).toMatch(/number = 11 ;[\s\S]*time = 46 ;/);
     expect(header(join(dirA, 'observed', 'observed_daily.nc'))).toContain('time = UNLIMITED ; // (3986 currently)');

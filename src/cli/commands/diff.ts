@@ -1,0 +1,26 @@
+/** `forelight diff` (also `run --dry-run`): which region stages would change against the last issued bulletin; nothing is written or sent. */
+import { diffStages } from '../../decide/diff.ts';
+import { decideNow } from '../../pipeline/decide-now.ts';
+import { EXIT } from '../../schedule/exit-codes.ts';
+import type { ParsedArgs } from '../args.ts';
+import { commandContext } from '../context.ts';
+import { progressBar } from '../progress.ts';
+
+export async function diffCommand(args: ParsedArgs): Promise<number> {
+  const { config, log, issueDate } = await commandContext(args, 'diff');
+  const { analysis, decided, previous } = await decideNow(config, issueDate, log, progressBar('diff'));
+  const label = (id: string | null) => {
+    const s = config.stages.find((x) => x.id === id);
+    return s ? `${s.glyph} ${s.label.en ?? s.id}` : 'none';
+  };
+  const changes = diffStages(previous, decided.regionStages, decided.decisions);
+  const lines = [`dry run for ${issueDate} (nothing stored or sent); compared with the last issued bulletin${previous.length === 0 ? ' (none yet)' : ''}`];
+  for (const r of decided.regionStages) {
+    const c = changes.find((x) => x.region === r.region);
+    const name = config.regions.find((x) => x.id === r.region)?.name ?? r.region;
+    lines.push(c ? `  ${name}: ${label(c.from)} → ${label(c.to)}  (${c.why})` : `  ${name}: ${label(r.stageId)} (unchanged)`);
+  }
+  for (const p of analysis.problems) lines.push(`  skipped: ${p}`);
+  process.stdout.write(lines.join('\n') + '\n');
+  return EXIT.ok;
+}

@@ -1,0 +1,30 @@
+/** `forelight explain --region R --indicator I --tier T`: the chain from inputs to stage, with the numbers. */
+import { explainDecision } from '../../decide/explain.ts';
+import { trackKey } from '../../decide/types.ts';
+import { decideNow } from '../../pipeline/decide-now.ts';
+import { EXIT } from '../../schedule/exit-codes.ts';
+import type { Tier } from '../../types.ts';
+import { stringOption, usageError, type ParsedArgs } from '../args.ts';
+import { commandContext } from '../context.ts';
+
+const TIERS: readonly Tier[] = ['days', 'weeks', 'months'];
+
+export async function explainCommand(args: ParsedArgs): Promise<number> {
+  const { config, log, issueDate } = await commandContext(args, 'explain');
+  const region = stringOption(args, 'region');
+  const indicator = stringOption(args, 'indicator');
+  const tier = stringOption(args, 'tier') as Tier | undefined;
+  if (!region || !config.regions.some((r) => r.id === region)) throw usageError(`--region must be one of ${config.regions.map((r) => r.id).join(', ')}`);
+  if (!indicator || !config.indicators.some((i) => i.id === indicator)) throw usageError(`--indicator must be one of ${config.indicators.map((i) => i.id).join(', ')}`);
+  if (!tier || !TIERS.includes(tier)) throw usageError(`--tier must be one of ${TIERS.join(', ')}`);
+  const { analysis, decided, history } = await decideNow(config, issueDate, log);
+  const decision = decided.decisions.find((d) => d.region === region && d.indicator === indicator && d.tier === tier);
+  if (!decision) {
+    process.stdout.write(`no decision for ${region} × ${indicator} × ${tier} on ${issueDate}: no source of tier ${tier} computes this indicator, or its data were skipped\n`);
+    for (const p of analysis.problems) process.stdout.write(`  skipped: ${p}\n`);
+    return EXIT.inputProblem;
+  }
+  const lines = explainDecision({ config, decision, probabilities: analysis.probabilities, previous: history.tracks[trackKey(region, indicator, tier)] });
+  process.stdout.write(lines.join('\n') + '\n');
+  return EXIT.ok;
+}

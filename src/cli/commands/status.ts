@@ -1,0 +1,35 @@
+/** `forelight status`: last run, its result, next run and failures, from the service status file and the ledger. */
+import { existsSync } from 'node:fs';
+import { loadConfig } from '../../config/load-config.ts';
+import { listDeliveries } from '../../ledger/deliveries.ts';
+import { openLedger } from '../../ledger/open-ledger.ts';
+import { lastCompletedRun } from '../../ledger/runs.ts';
+import { EXIT } from '../../schedule/exit-codes.ts';
+import { computeNextRuns } from '../../schedule/next-runs.ts';
+import { readStatus } from '../../schedule/status-file.ts';
+import { stringOption, type ParsedArgs } from '../args.ts';
+
+export async function statusCommand(args: ParsedArgs): Promise<number> {
+  const config = await loadConfig(stringOption(args, 'config'));
+  const lines: string[] = [];
+  const service = readStatus(`${config.ledger}.status.json`);
+  const [next] = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1);
+  lines.push(`next scheduled run: ${next?.toISOString() ?? 'none'} (${config.schedule.cron}, ${config.schedule.timezone})`);
+  if (service) lines.push(`service: ${JSON.stringify(service)}`);
+  if (!existsSync(config.ledger)) {
+    lines.push(`ledger ${config.ledger}: no runs yet`);
+  } else {
+    const ledger = openLedger(config.ledger);
+    try {
+      const last = lastCompletedRun(ledger);
+      lines.push(last ? `last completed run: ${last.id} (${last.forecastKey}) ${last.status} at ${last.finishedAt}${last.error ? ` — ${last.error}` : ''}` : 'last completed run: none');
+      const open = listDeliveries(ledger, { statuses: ['pending', 'sending', 'failed'] });
+      lines.push(`deliveries pending or failed: ${open.length}`);
+      for (const d of open.slice(0, 20)) lines.push(`  ${d.status} ${d.recipient}: ${d.lastError ?? ''}`);
+    } finally {
+      ledger.close();
+    }
+  }
+  process.stdout.write(lines.join('\n') + '\n');
+  return EXIT.ok;
+}

@@ -1,0 +1,34 @@
+/**
+ * StageHistory as JSON for the ledger: `JSON.stringify(history)` to store, `parseStageHistory` to read back
+ * with a shape check (a corrupt or foreign record must not silently reset or invent stages).
+ */
+import { ForelightError } from '../errors.ts';
+import { EMPTY_HISTORY, type StageHistory, type StageTrack } from './types.ts';
+
+function isTrack(v: unknown): v is StageTrack {
+  if (v === null || typeof v !== 'object') return false;
+  const t = v as Record<string, unknown>;
+  const count = (x: unknown) => Number.isInteger(x) && (x as number) >= 0;
+  const idOrNull = (x: unknown) => x === null || typeof x === 'string';
+  return typeof t.stageId === 'string' && count(t.runsAbove) && count(t.runsBelow) && idOrNull(t.lowestAboveId) && idOrNull(t.highestBelowId);
+}
+
+/** null (no earlier run) → empty history; anything not shaped like StageHistory version 1 → ForelightError. */
+export function parseStageHistory(json: string | null): StageHistory {
+  if (json === null) return EMPTY_HISTORY;
+  const fail = (why: string) =>
+    new ForelightError('decide', 'bad-stage-history', `stored stage history is unusable: ${why}`, 'inspect the ledger; to start persistence afresh, run once with an empty history');
+  let v: unknown;
+  try {
+    v = JSON.parse(json);
+  } catch {
+    throw fail('not JSON');
+  }
+  const h = v as Partial<StageHistory> | null;
+  if (!h || h.version !== 1 || h.tracks === null || typeof h.tracks !== 'object') throw fail('expected { version: 1, tracks: {...} }');
+  for (const [key, track] of Object.entries(h.tracks)) {
+    if (key.split('|').length !== 3) throw fail(`track key "${key}" is not region|indicator|tier`);
+    if (!isTrack(track)) throw fail(`track "${key}" lacks stageId/runsAbove/lowestAboveId/runsBelow/highestBelowId`);
+  }
+  return h as StageHistory;
+}

@@ -1,0 +1,95 @@
+/**
+ * Everything a run computes before deciding: inputs → read → indicators → calibrated probabilities (per
+ * source, merged within each tier by the source-combination rule). Shared by `run`, `diff`, `explain` and
+ * `skill`, so what they show is exactly what a run would issue.
+ */
+import type { Config } from '../config/types.ts';
+import { combineSources } from '../calibrate/lead-tiers.ts';
+import { describeError, type ForelightError } from '../errors.ts';
+import type { Logger } from '../log.ts';
+import type { IsoDate, LeadProbability } from '../types.ts';
+import { regionClimatology } from './indicator-context.ts';
+import { resolveInputs, type SourceInputs } from './inputs.ts';
+import { readAll, type ReadResult } from './read-stage.ts';
+import { calibrateSource, type SharedContext, type SourceOutcome } from './source-stage.ts';
+
+export interface Analysis {
+  readonly issueDate: IsoDate;
+  readonly inputs: readonly SourceInputs[];
+  readonly read: ReadResult;
+  readonly sources: readonly SourceOutcome[];
+  /** Probabilities kept after combining sources within each tier. */
+  readonly probabilities: readonly LeadProbability[];
+  /** The combination rule and what it dropped, for the output. */
+  readonly combination: readonly string[];
+  /** One line per file, region or indicator skipped, with the reason. */
+  readonly problems: readonly string[];
+}
+
+function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadResult): { kept: LeadProbability[]; notes: string[] } {
+  const groups = new Map<string, Map<string, LeadProbability[]>>();
+  for (const o of outcomes) {
+    for (const p of o.probabilities) {
+      const key = `${p.region}|${p.indicator}|${p.lead.tier}`;
+      const bySource = groups.get(key) ?? new Map<string, LeadProbability[]>();
+      groups.set(key, bySource);
+      bySource.set(o.source, [...(bySource.get(o.source) ?? []), p]);
+    }
+  }
+  const kept: LeadProbability[] = [];
+  const notes = new Set<string>();
+  for (const bySource of groups.values()) {
+    const merged = combineSources(
+      [...bySource.entries()].map(([source, leads]) => ({
+        source,
+        priority: config.sources.find((s) => s.id === source)?.priority ?? 0,
+        issued: read.sources.find((s) => s.source.id === source)?.referenceTime ?? '1970-01-01T00:00:00Z',
+        leads,
+      })),
+    );
+    kept.push(...merged.kept.map((k) => k.item));
+    if (bySource.size > 1) notes.add(merged.rule);
+    for (const d of merged.dropped) notes.add(`${d.source} ${d.item.lead.tier} ${d.item.lead.index} for ${d.item.region} replaced by ${d.coveredBy}`);
+  }
+  return { kept, notes: [...notes] };
+}
+
+/** Reads and computes everything for an issue date; never throws for a bad file, region or indicator. */
+export async function analyse(
+  config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void,
+): Promise<Analysis> {
+  const inputs = resolveInputs(config, issueDate);
+  const total = inputs.length + 1;
+  onProgress?.(0, total, 'reading forecasts and observations');
+  const started = Date.now();
+  const read = await readAll(config, inputs, { hindcasts: false });
+  log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
+  const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
+  const ctx: SharedContext = {
+    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(),
+  };
+  const fileProblems: ForelightError[] = [...read.problems];
+  const sources: SourceOutcome[] = [];
+  for (const s of read.sources) {
+    const t0 = Date.now();
+    const input = inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
+    const outcome = await calibrateSource(ctx, s, input, fileProblems);
+    log.info('calibrated source', { stage: 'calibrate', source: s.source.id, ms: Date.now() - t0, fromCache: outcome.fromCache, probabilities: outcome.probabilities.length });
+    sources.push(outcome);
+    onProgress?.(sources.length, total, `calibrated ${s.source.id}`);
+  }
+  onProgress?.(total, total, 'done');
+  const { kept, notes } = combine(sources, config, read);
+  const problems = [...fileProblems.map((p) => p.message), ...sources.flatMap((s) => s.problems)];
+  for (const p of problems) log.warn('skipped', { problem: p });
+  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems: [...new Set(problems)] };
+}
+
+function safeClimatology(read: ReadResult, region: string, log: Logger) {
+  try {
+    return regionClimatology(read.observed?.get(region));
+  } catch (err) {
+    log.warn('no climatology from observations', { region, error: describeError(err) });
+    return {};
+  }
+}

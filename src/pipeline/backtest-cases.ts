@@ -1,0 +1,44 @@
+/**
+ * Hindcast starts as if they had been operational: for every hindcast year, the exceedance probability of its
+ * members at each lead against the leave-one-year-out model threshold, and whether the observation exceeded
+ * (the same cases the skill scores use, see calibrate/skill.ts observedCases).
+ */
+import type { Config } from '../config/types.ts';
+import { observedCases } from '../calibrate/skill.ts';
+import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
+import { eventKey, type BacktestCase } from '../decide/backtest.ts';
+import type { LeadProbability } from '../types.ts';
+import type { Analysis } from './analyse.ts';
+
+export function backtestCases(config: Config, analysis: Analysis): BacktestCase[] {
+  const byYear = new Map<number, { probabilities: LeadProbability[]; events: Map<string, boolean>; start: string }>();
+  for (const source of analysis.sources) {
+    for (const [key, climate] of source.climates) {
+      const { hindcast: hc, observed: obs } = climate;
+      if (!hc || !obs) continue;
+      const [region, indicator] = key.split('|');
+      const ind = config.indicators.find((i) => i.id === indicator);
+      if (!ind) continue;
+      const spec = resolveThresholdSpec(ind, region);
+      hc.leads.forEach((lead, l) => {
+        if (l >= obs.leads.length) return;
+        const cases = observedCases(hc, obs, l, spec, lead.tier !== 'days');
+        cases.years.forEach((year, i) => {
+          const entry = byYear.get(year) ?? { probabilities: [] as LeadProbability[], events: new Map<string, boolean>(), start: `${year}-${lead.start.slice(5)}` };
+          byYear.set(year, entry);
+          if (lead.index === 1 && lead.start < entry.start) entry.start = lead.start;
+          entry.probabilities.push({
+            source: source.source, region, indicator, lead: { ...lead, start: `${year}${lead.start.slice(4)}`, end: `${year}${lead.end.slice(4)}` },
+            probability: cases.p[i], baseRate: Number.NaN, members: hc.members, validMembers: hc.members,
+            threshold: { value: Number.NaN, units: hc.units, origin: 'leave-one-year-out model threshold' }, operator: '>',
+            flags: [], skill: null, calibrated: true,
+          });
+          entry.events.set(eventKey(region, indicator, lead.tier, lead.index), cases.o[i] === 1);
+        });
+      });
+    }
+  }
+  return [...byYear.entries()]
+    .sort((a, b) => a[0] - b[0])
+    .map(([, e]) => ({ startDate: e.start, probabilities: e.probabilities, observedEvents: e.events }));
+}

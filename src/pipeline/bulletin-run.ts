@@ -1,0 +1,88 @@
+/**
+ * Assembles the render stage's input (BulletinRun) from the decide stage's output, the probabilities and the
+ * previous issue — no number is recomputed here.
+ */
+import type { Config, StageConfig } from '../config/types.ts';
+import { diffStages, type RegionStageLike } from '../decide/diff.ts';
+import type { RegionStage } from '../decide/types.ts';
+import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
+import { computeNextRuns } from '../schedule/next-runs.ts';
+import type { IsoDate, LeadProbability, StageDecision } from '../types.ts';
+import type { SourceRead } from './read-stage.ts';
+
+export interface BulletinRunInput {
+  readonly config: Config;
+  readonly runId: string;
+  readonly issuedAt: Date;
+  readonly mode: BulletinRun['mode'];
+  readonly sources: readonly SourceRead[];
+  readonly probabilities: readonly LeadProbability[];
+  readonly decisions: readonly StageDecision[];
+  readonly regionStages: readonly RegionStage[];
+  /** Region stages of the last issued bulletin (empty on the first issue). */
+  readonly previous: readonly RegionStageLike[];
+}
+
+/** Local calendar date (YYYY-MM-DD) of an instant in an IANA time zone. */
+export function localDate(instant: Date, timeZone: string): IsoDate {
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(instant);
+}
+
+/** Date of the next scheduled issue after `from`, in the schedule's time zone. */
+export function nextIssueDate(config: Config, from: Date): IsoDate {
+  const [next] = computeNextRuns(config.schedule.cron, config.schedule.timezone, from, 1);
+  return localDate(next ?? from, config.schedule.timezone);
+}
+
+/** Combined stage of each region from per region × indicator × tier stages (highest wins). */
+export function combineByRegion(config: Config, rows: readonly { region: string; stageId: string }[]): RegionStageLike[] {
+  const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
+  const best = new Map<string, string>();
+  for (const r of rows) {
+    const cur = best.get(r.region);
+    if (cur === undefined || rank(r.stageId) > rank(cur)) best.set(r.region, r.stageId);
+  }
+  return [...best.entries()].map(([region, stageId]) => ({ region, stageId }));
+}
+
+function stageById(config: Config, id: string): StageConfig {
+  return config.stages.find((s) => s.id === id) ?? config.stages[0];
+}
+
+export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
+  const { config } = input;
+  const changes = new Map(diffStages(input.previous, input.regionStages, input.decisions).map((c) => [c.region, c]));
+  const previousStage = new Map(input.previous.map((p) => [p.region, p.stageId]));
+  const regions: RegionOutcome[] = config.regions.map((region) => {
+    const stageId = input.regionStages.find((r) => r.region === region.id)?.stageId ?? config.stages[0].id;
+    const change = changes.get(region.id);
+    const perTier: TierOutcome[] = input.decisions
+      .filter((d) => d.region === region.id)
+      .map((decision) => {
+        const ind = config.indicators.find((i) => i.id === decision.indicator);
+        const probabilities = input.probabilities
+          .filter((p) => p.region === region.id && p.indicator === decision.indicator && p.lead.tier === decision.tier)
+          .sort((a, b) => a.lead.index - b.lead.index);
+        return {
+          tier: decision.tier,
+          indicator: { id: decision.indicator, name: ind?.name ?? decision.indicator, units: probabilities[0]?.threshold.units ?? '' },
+          decision,
+          probabilities,
+        };
+      });
+    const changeReason = change
+      ? change.why
+      : previousStage.has(region.id)
+        ? 'no change since the last bulletin'
+        : 'first bulletin for this region';
+    return { region, stage: stageById(config, stageId), previousStageId: previousStage.get(region.id) ?? null, changeReason, perTier };
+  });
+  return {
+    runId: input.runId,
+    issuedAt: input.issuedAt.toISOString().replace(/\.\d{3}Z$/, 'Z'),
+    mode: input.mode,
+    forecastDates: input.sources.map((s) => ({ source: s.source.id, name: s.source.name, referenceTime: s.referenceTime, basedOnOlder: s.stale })),
+    nextIssue: nextIssueDate(config, input.issuedAt),
+    regions,
+  };
+}

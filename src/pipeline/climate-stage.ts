@@ -1,0 +1,121 @@
+/**
+ * Model climate and skill of one source × region × indicator: the indicator computed on every hindcast start
+ * and on the observations for the same days, aggregated to the source's tier, then verified (skill per lead)
+ * and, for rules that give a cost/loss ratio, the probability threshold of maximum economic value.
+ */
+import type { Config, IndicatorConfig, RegionConfig, SourceConfig } from '../config/types.ts';
+import { stackYears, type LeadClimate } from '../calibrate/climate.ts';
+import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
+import { observedCases, potentialCases, skillReports, type SkillReport } from '../calibrate/skill.ts';
+import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
+import { bestProbabilityThreshold } from '../calibrate/verify.ts';
+import { describeError } from '../errors.ts';
+import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
+import type { IndicatorSeries } from '../types.ts';
+import { indicatorContext, valuesOnDays } from './indicator-context.ts';
+import type { HindcastRead, RegionQuantities } from './read-stage.ts';
+
+export interface IndicatorClimate {
+  readonly hindcast: LeadClimate | null;
+  readonly observed: LeadClimate | null;
+  readonly skill: readonly SkillReport[];
+  /** Rule id → tuned probability threshold (maximum relative economic value on the hindcasts). */
+  readonly tuned: Readonly<Record<string, number>>;
+  readonly problems: readonly string[];
+}
+
+/** The observed indicator of a region over the whole observation record (one member), or an error text. */
+export type ObservedIndicators = Map<string, IndicatorSeries | string>;
+
+export function observedIndicator(
+  ind: IndicatorConfig, region: RegionConfig, observed: RegionQuantities | null, climatology: IndicatorClimatology, memo: ObservedIndicators,
+): IndicatorSeries | string | null {
+  const obs = observed?.get(region.id);
+  if (!obs) return null;
+  const key = `${region.id}|${ind.id}`;
+  let result = memo.get(key);
+  if (result === undefined) {
+    try {
+      result = computeIndicator(ind, obs, indicatorContext(climatology, undefined, undefined));
+    } catch (err) {
+      result = `observations of ${region.id}: ${describeError(err)}`;
+    }
+    memo.set(key, result);
+  }
+  return result;
+}
+
+function onDays(series: IndicatorSeries, like: IndicatorSeries): IndicatorSeries {
+  const data = valuesOnDays(series, like.days);
+  return { ...series, days: like.days, members: 1, data, missing: data.filter(Number.isNaN).length };
+}
+
+/** Stage probabilities of the rules on this indicator × tier (for hit and false-alarm rates). */
+function ruleProbabilities(config: Config, ind: IndicatorConfig, tier: SourceConfig['tier']): number[] {
+  return config.rules.filter((r) => r.indicator === ind.id && r.tier === tier && r.probability !== undefined).map((r) => r.probability as number);
+}
+
+function tuneCostLoss(config: Config, ind: IndicatorConfig, source: SourceConfig, region: RegionConfig, hc: LeadClimate, obs: LeadClimate | null): Record<string, number> {
+  const tuned: Record<string, number> = {};
+  const spec = resolveThresholdSpec(ind, region.id);
+  for (const rule of config.rules) {
+    if (rule.indicator !== ind.id || rule.tier !== source.tier || rule.costLoss === undefined) continue;
+    const p: number[] = [];
+    const o: number[] = [];
+    hc.leads.forEach((lead, l) => {
+      if (rule.leads.length > 0 && !rule.leads.includes(lead.index)) return;
+      const cases = obs && l < obs.leads.length ? observedCases(hc, obs, l, spec, lead.tier !== 'days') : potentialCases(hc, l, spec);
+      p.push(...cases.p);
+      o.push(...cases.o);
+    });
+    const best = bestProbabilityThreshold(Float64Array.from(p), Float64Array.from(o), rule.costLoss);
+    if (Number.isFinite(best.threshold)) tuned[rule.id] = best.threshold;
+  }
+  return tuned;
+}
+
+/** Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator. */
+export function buildIndicatorClimate(
+  config: Config, source: SourceConfig, region: RegionConfig, ind: IndicatorConfig,
+  hindcasts: readonly HindcastRead[], observed: RegionQuantities | null, climatology: IndicatorClimatology, memo: ObservedIndicators,
+): IndicatorClimate {
+  const problems: string[] = [];
+  const tier = source.tier;
+  const obsSeries = observedIndicator(ind, region, observed, climatology, memo);
+  if (typeof obsSeries === 'string') problems.push(obsSeries);
+  const failures = new Map<string, number>();
+  const hcYears: { year: number; leads: LeadValues }[] = [];
+  const obsYears: { year: number; leads: LeadValues }[] = [];
+  let units = '';
+  for (const h of hindcasts) {
+    const inputs = h.series.get(region.id);
+    if (!inputs) continue;
+    try {
+      const first = [...inputs.values()][0]?.days[0];
+      const result = computeIndicator(ind, inputs, indicatorContext(climatology, observed?.get(region.id), first));
+      units = result.units;
+      hcYears.push({ year: h.year, leads: aggregateToLeads(result, tier, ind.aggregate) });
+      if (obsSeries && typeof obsSeries !== 'string') obsYears.push({ year: h.year, leads: aggregateToLeads(onDays(obsSeries, result), tier, ind.aggregate) });
+    } catch (err) {
+      const text = describeError(err);
+      failures.set(text, (failures.get(text) ?? 0) + 1);
+    }
+  }
+  for (const [text, files] of failures) problems.push(`${files} hindcast file(s) of ${source.id}, region ${region.id}: ${text}`);
+  if (hcYears.length === 0) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
+  const what = `${source.id} hindcasts for ${region.id} (${ind.id})`;
+  const hc = stackYears(what, units, hcYears);
+  const obs = obsYears.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsYears) : { climate: null, problems: [] };
+  problems.push(...hc.problems, ...obs.problems);
+  if (!hc.climate) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
+  const skill = skillReports({
+    hindcast: hc.climate,
+    observed: obs.climate,
+    threshold: resolveThresholdSpec(ind, region.id),
+    stageProbabilities: ruleProbabilities(config, ind, tier),
+    gate: config.decision.skillGate,
+    minHindcastYears: config.calibration.minHindcastYears,
+  });
+  const tuned = tuneCostLoss(config, ind, source, region, hc.climate, obs.climate);
+  return { hindcast: hc.climate, observed: obs.climate, skill, tuned, problems };
+}

@@ -1,0 +1,47 @@
+/**
+ * Analysis + decision against the ledger's history WITHOUT writing anything: what `diff`, `explain` and
+ * `run --dry-run` show is exactly what a run on the same inputs would issue.
+ */
+import { existsSync } from 'node:fs';
+import type { Config } from '../config/types.ts';
+import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
+import { parseStageHistory } from '../decide/history.ts';
+import type { RegionStageLike } from '../decide/diff.ts';
+import type { StageHistory } from '../decide/types.ts';
+import { openLedger } from '../ledger/open-ledger.ts';
+import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
+import type { Logger } from '../log.ts';
+import type { IsoDate } from '../types.ts';
+import { analyse, type Analysis } from './analyse.ts';
+import { combineByRegion } from './bulletin-run.ts';
+
+export interface DecidedNow {
+  readonly analysis: Analysis;
+  readonly decided: DecideResult;
+  readonly history: StageHistory;
+  /** Region stages of the last issued bulletin. */
+  readonly previous: readonly RegionStageLike[];
+}
+
+/** Tuned cost/loss thresholds of every rule, from the analysis' climates. */
+export function tunedThresholds(analysis: Analysis): Map<string, number> {
+  return new Map(analysis.sources.flatMap((s) => [...s.climates.values()].flatMap((c) => Object.entries(c.tuned))));
+}
+
+export async function decideNow(config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void): Promise<DecidedNow> {
+  let historyJson: string | null = null;
+  let previous: RegionStageLike[] = [];
+  if (existsSync(config.ledger)) {
+    const ledger = openLedger(config.ledger);
+    try {
+      historyJson = latestStageHistory(ledger);
+      previous = combineByRegion(config, lastIssuedStages(ledger));
+    } finally {
+      ledger.close();
+    }
+  }
+  const history = parseStageHistory(historyJson);
+  const analysis = await analyse(config, issueDate, log, onProgress);
+  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis) });
+  return { analysis, decided, history, previous };
+}

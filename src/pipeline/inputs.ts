@@ -1,0 +1,71 @@
+/**
+ * Which files one run reads: per source the newest forecast on or before the issue date (an older one is used,
+ * and said, when the expected one is late), and the hindcast starts within ±windowDays of its day of year.
+ */
+import { readdirSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import type { Config, SourceConfig } from '../config/types.ts';
+import { startsWithinWindow } from '../calibrate/climate.ts';
+import { resolveLatestInputs } from '../schedule/input-arrival.ts';
+import type { IsoDate } from '../types.ts';
+
+/** How far back a late source may fall back to an older forecast (days). */
+export const LOOKBACK_DAYS = 10;
+
+export interface HindcastFile {
+  readonly year: number;
+  /** Start date of this hindcast, YYYY-MM-DD. */
+  readonly start: IsoDate;
+  readonly path: string;
+}
+
+export interface SourceInputs {
+  readonly source: SourceConfig;
+  /** The forecast date used, or null when no forecast was found within the look-back. */
+  readonly date: IsoDate | null;
+  readonly path: string | null;
+  /** True when the forecast used is older than the issue date. */
+  readonly stale: boolean;
+  readonly hindcasts: readonly HindcastFile[];
+}
+
+function escapeRegExp(s: string): string {
+  return s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+}
+
+/** Every hindcast file matching the source's pattern (`{year}`, `{mmdd}` in the file name only). */
+export function listHindcasts(pattern: string): HindcastFile[] {
+  const dir = dirname(pattern);
+  const name = basename(pattern);
+  const re = new RegExp(
+    '^' + escapeRegExp(name).replace(escapeRegExp('{year}'), '(?<year>\\d{4})').replace(escapeRegExp('{mmdd}'), '(?<mmdd>\\d{4})') + '$',
+  );
+  let entries: string[];
+  try {
+    entries = readdirSync(dir);
+  } catch {
+    return [];
+  }
+  const out: HindcastFile[] = [];
+  for (const entry of entries) {
+    const m = re.exec(entry);
+    if (!m?.groups) continue;
+    const year = Number(m.groups.year);
+    const mmdd = m.groups.mmdd ?? '0101';
+    out.push({ year, start: `${year}-${mmdd.slice(0, 2)}-${mmdd.slice(2)}`, path: join(dir, entry) });
+  }
+  return out.sort((a, b) => a.start.localeCompare(b.start));
+}
+
+/** Forecast and hindcast files of every source for an issue date. */
+export function resolveInputs(config: Config, issueDate: IsoDate): SourceInputs[] {
+  return config.sources.map((source) => {
+    const latest = resolveLatestInputs(source.forecast, issueDate, LOOKBACK_DAYS);
+    const all = source.hindcast ? listHindcasts(source.hindcast) : [];
+    const forecastDate = latest.date ?? issueDate;
+    const keep = new Set(startsWithinWindow(forecastDate, all.map((h) => h.start), config.calibration.windowDays));
+    // A hindcast is a past start: one at or after the forecast date would be the forecast itself.
+    const hindcasts = all.filter((h) => keep.has(h.start) && h.start < forecastDate);
+    return { source, date: latest.date, path: latest.path, stale: latest.stale, hindcasts };
+  });
+}

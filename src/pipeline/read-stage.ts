@@ -1,0 +1,93 @@
+/**
+ * Read stage of a run: forecasts, hindcasts and observations → region series, one pass per file. A file that
+ * fails is reported (with its path) and the others go on; the run states what it skipped and why.
+ */
+import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
+import { ForelightError, InputError } from '../errors.ts';
+import { extractRegionSeries } from '../read/extract.ts';
+import type { Quantity, RegionSeries } from '../types.ts';
+import type { HindcastFile, SourceInputs } from './inputs.ts';
+
+/** region id → quantity → series. */
+export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
+
+export interface HindcastRead {
+  readonly year: number;
+  readonly start: string;
+  readonly path: string;
+  readonly series: RegionQuantities;
+}
+
+export interface SourceRead {
+  readonly source: SourceConfig;
+  readonly date: string;
+  readonly path: string;
+  readonly stale: boolean;
+  readonly referenceTime: string;
+  readonly series: RegionQuantities;
+  readonly hindcasts: readonly HindcastRead[];
+}
+
+export interface ReadResult {
+  readonly sources: readonly SourceRead[];
+  readonly observed: RegionQuantities | null;
+  /** Every file, variable or region that could not be read, as one-line messages. */
+  readonly problems: readonly ForelightError[];
+}
+
+function group(series: readonly RegionSeries[]): RegionQuantities {
+  const out: RegionQuantities = new Map();
+  for (const s of series) {
+    let byQ = out.get(s.region);
+    if (!byQ) out.set(s.region, (byQ = new Map()));
+    byQ.set(s.quantity, s);
+  }
+  return out;
+}
+
+async function readFile(
+  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], referenceTime: string | undefined, problems: ForelightError[],
+): Promise<RegionQuantities | null> {
+  try {
+    const r = await extractRegionSeries(path, { quantities, regions, referenceTime });
+    problems.push(...r.problems);
+    return group(r.series);
+  } catch (err) {
+    if (err instanceof ForelightError) {
+      problems.push(err);
+      return null;
+    }
+    problems.push(new InputError('read-failed', path, `could not be read (${err instanceof Error ? err.message : String(err)})`, 'check the file; the other sources went on'));
+    return null;
+  }
+}
+
+/** Reads the hindcast files of one source (each file's problems collected, the others go on). */
+export async function readHindcasts(source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[]): Promise<HindcastRead[]> {
+  const out: HindcastRead[] = [];
+  for (const h of files) {
+    const series = await readFile(h.path, source.variables, regions, h.start, problems);
+    if (series) out.push({ year: h.year, start: h.start, path: h.path, series });
+  }
+  return out;
+}
+
+/** Reads every source's forecast and hindcasts and the observations, collecting problems instead of stopping. */
+export async function readAll(config: Config, inputs: readonly SourceInputs[], options: { hindcasts?: boolean } = {}): Promise<ReadResult> {
+  const problems: ForelightError[] = [];
+  const sources: SourceRead[] = [];
+  for (const input of inputs) {
+    if (!input.path || !input.date) {
+      problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
+      continue;
+    }
+    const series = await readFile(input.path, input.source.variables, config.regions, input.date, problems);
+    if (!series) continue;
+    const hindcasts = options.hindcasts === false ? [] : await readHindcasts(input.source, input.hindcasts, config.regions, problems);
+    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series, hindcasts });
+  }
+  const observed = config.observations
+    ? await readFile(config.observations.path, config.observations.variables, config.regions, undefined, problems)
+    : null;
+  return { sources, observed, problems };
+}

@@ -1,0 +1,135 @@
+/**
+ * One unattended pass: resolve inputs → ledger run (once per forecast key) → analyse → decide → render →
+ * store everything in the ledger BEFORE sending → deliver → finish. A crash at any point is resumed by the
+ * next start: bulletins already stored are sent exactly to the recipients that have not had them.
+ */
+import type { Config } from '../config/types.ts';
+import { decideStages } from '../decide/decide-stages.ts';
+import { parseStageHistory } from '../decide/history.ts';
+import { deliverPending, type DeliverOptions } from '../deliver/deliver-pending.ts';
+import { sendOperatorNotice } from '../deliver/operator-notice.ts';
+import { describeError } from '../errors.ts';
+import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
+import { openLedger, type Ledger } from '../ledger/open-ledger.ts';
+import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
+import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
+import type { Logger } from '../log.ts';
+import type { PreviousIssue } from '../render/model.ts';
+import { renderBulletins } from '../render/render-bulletins.ts';
+import { EXIT, type ExitCode } from '../schedule/exit-codes.ts';
+import type { IsoDate } from '../types.ts';
+import { analyse, type Analysis } from './analyse.ts';
+import { buildBulletinRun, combineByRegion } from './bulletin-run.ts';
+import { tunedThresholds } from './decide-now.ts';
+import { resolveInputs, type SourceInputs } from './inputs.ts';
+import { publishArchive } from './publish.ts';
+
+export interface RunOptions {
+  readonly config: Config;
+  readonly issueDate: IsoDate;
+  readonly log: Logger;
+  readonly mode: 'live' | 'exercise';
+  readonly force?: boolean;
+  readonly now?: () => Date;
+  /** Passed to delivery (fault injection in tests). */
+  readonly deliver?: DeliverOptions;
+}
+
+export interface RunOutcome {
+  readonly exitCode: ExitCode;
+  readonly summary: string;
+  readonly runId: number | null;
+}
+
+/** The forecasts a run would issue, e.g. "short 2026-11-30, subseasonal 2026-11-30, seasonal 2026-11-26". */
+export function forecastKey(inputs: readonly SourceInputs[]): string {
+  return inputs.map((i) => `${i.source.id} ${i.date ?? 'none'}`).join(', ');
+}
+
+async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysis, config: Config): Promise<void> {
+  const files = [];
+  for (const s of analysis.read.sources) files.push(await describeInputFile(s.path, s.source.id, s.referenceTime));
+  for (const i of analysis.inputs) for (const h of i.hindcasts) files.push(await describeInputFile(h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`));
+  if (config.observations) files.push(await describeInputFile(config.observations.path, 'observations', ''));
+  recordInputs(ledger, runId, files);
+}
+
+function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousIssue | undefined {
+  const stages = lastIssuedStages(ledger);
+  const alerts = [];
+  for (const region of config.regions) {
+    for (const ind of config.indicators) {
+      const a = previousCapAlert(ledger, region.id, ind.id, runId);
+      if (!a || a.msgType === 'Cancel') continue;
+      const issued = combineByRegion(config, stages.filter((s) => s.region === region.id && s.indicator === ind.id))[0];
+      alerts.push({ region: region.id, indicator: ind.id, sender: a.sender, id: a.identifier, sent: a.sent, stageId: issued?.stageId ?? config.stages[0].id });
+    }
+  }
+  return stages.length > 0 ? { runId: String(stages[0].runId), alerts } : undefined;
+}
+
+/** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
+async function prepare(ledger: Ledger, options: RunOptions, runId: number): Promise<{ problems: readonly string[]; bulletins: number }> {
+  const { config, log } = options;
+  const analysis = await analyse(config, options.issueDate, log);
+  if (analysis.read.sources.length === 0) throw new Error(`no forecast could be read: ${analysis.problems.join(' | ')}`);
+  await recordInputFiles(ledger, runId, analysis, config);
+  const history = parseStageHistory(latestStageHistory(ledger, runId));
+  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis) });
+  recordProbabilities(ledger, runId, analysis.probabilities);
+  recordDecisions(ledger, runId, decided.decisions);
+  saveStageHistory(ledger, runId, JSON.stringify(decided.nextHistory));
+  const previous = combineByRegion(config, lastIssuedStages(ledger).filter((s) => s.runId !== runId));
+  const run = buildBulletinRun({
+    config, runId: `${options.issueDate}-${runId}`, issuedAt: (options.now ?? (() => new Date()))(), mode: options.mode,
+    sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
+    regionStages: decided.regionStages, previous,
+  });
+  const rendered = await renderBulletins(config, run, previousIssue(ledger, config, runId));
+  ledger.db.transaction(() => {
+    for (const a of rendered.capAlerts) recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
+    recordBulletins(ledger, runId, rendered.bulletins);
+  })();
+  const index = publishArchive(config, rendered.archive);
+  log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length, archive: index });
+  return { problems: analysis.problems, bulletins: rendered.bulletins.length };
+}
+
+export async function runOnce(options: RunOptions): Promise<RunOutcome> {
+  const { config, log } = options;
+  const inputs = resolveInputs(config, options.issueDate);
+  if (inputs.every((i) => i.path === null)) {
+    const text = `No forecast file of any source was found on or before ${options.issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
+    await sendOperatorNotice(config.delivery, `no forecast data for ${options.issueDate}`, text, { log });
+    return { exitCode: EXIT.nothingNew, summary: text, runId: null };
+  }
+  const key = forecastKey(inputs);
+  const ledger = openLedger(config.ledger, { now: options.now });
+  try {
+    const begun = beginRun(ledger, key, { force: options.force });
+    if (begun.kind === 'already-issued') {
+      const text = `The newest forecasts (${key}) were already issued in run ${begun.run.id}; nothing new was sent. Use --force to issue them again.`;
+      await sendOperatorNotice(config.delivery, `nothing new for ${options.issueDate}`, text, { log });
+      return { exitCode: EXIT.nothingNew, summary: text, runId: begun.run.id };
+    }
+    const runId = begun.run.id;
+    const rlog = log.child({ runId });
+    let problems: readonly string[] = [];
+    try {
+      if (begun.kind === 'resumed' && hasBulletins(ledger, runId)) rlog.warn('resuming an interrupted run: sending what was not yet sent');
+      else ({ problems } = await prepare(ledger, { ...options, log: rlog }, runId));
+    } catch (err) {
+      finishRun(ledger, runId, 'failed', describeError(err));
+      throw err;
+    }
+    const sent = await deliverPending(ledger, config.delivery, rlog, { ...options.deliver, runId });
+    const status = problems.length > 0 || sent.failed > 0 ? 'partial' : 'ok';
+    finishRun(ledger, runId, status, problems.length > 0 ? problems.join(' | ') : undefined);
+    const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)`;
+    rlog.info(summary, { stage: 'deliver' });
+    const exitCode = sent.failed > 0 || sent.pending > 0 ? EXIT.deliveryFailed : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
+    return { exitCode, summary, runId };
+  } finally {
+    ledger.close();
+  }
+}

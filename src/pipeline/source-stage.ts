@@ -1,0 +1,107 @@
+/**
+ * Indicators and calibrated probabilities of one source: the model climate (hindcasts, observations, skill)
+ * comes from the cache when the hindcast and observation files are unchanged (sha256), else the hindcasts are
+ * read and everything is recomputed and stored; then the forecast's indicators become exceedance probabilities.
+ */
+import type { Config, IndicatorConfig, RegionConfig } from '../config/types.ts';
+import type { LeadClimate } from '../calibrate/climate.ts';
+import { aggregateToLeads } from '../calibrate/lead-tiers.ts';
+import { leadProbabilities } from '../calibrate/probability.ts';
+import { skillByLead } from '../calibrate/skill.ts';
+import { cachedSkill, fingerprint, skillCacheKey } from '../calibrate/skill-cache.ts';
+import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
+import { describeError, type ForelightError } from '../errors.ts';
+import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
+import type { LeadProbability } from '../types.ts';
+import { buildIndicatorClimate, type IndicatorClimate, type ObservedIndicators } from './climate-stage.ts';
+import { indicatorContext } from './indicator-context.ts';
+import type { SourceInputs } from './inputs.ts';
+import { readHindcasts, type RegionQuantities, type SourceRead } from './read-stage.ts';
+
+export interface SourceOutcome {
+  readonly source: string;
+  readonly probabilities: readonly LeadProbability[];
+  /** `${region}|${indicator}` → climate and skill. */
+  readonly climates: ReadonlyMap<string, IndicatorClimate>;
+  readonly fromCache: boolean;
+  /** Region × indicator combinations that were skipped, with the reason. */
+  readonly problems: readonly string[];
+}
+
+export interface SharedContext {
+  readonly config: Config;
+  readonly observed: RegionQuantities | null;
+  readonly observationsPath: string | null;
+  /** region id → climatology from observations. */
+  readonly climatology: ReadonlyMap<string, IndicatorClimatology>;
+  readonly observedMemo: ObservedIndicators;
+}
+
+type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & { hindcast: StoredLeadClimate | null; observed: StoredLeadClimate | null };
+type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: number[] };
+
+const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: Array.from(c.values) } : null);
+const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: Float64Array.from(c.values) } : null);
+
+export const climateKey = (region: string, indicator: string): string => `${region}|${indicator}`;
+
+function pairs(config: Config, tier: string): { region: RegionConfig; ind: IndicatorConfig }[] {
+  return config.regions.flatMap((region) => config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })));
+}
+
+async function loadClimates(ctx: SharedContext, input: SourceInputs, problems: ForelightError[]): Promise<{ climates: Map<string, IndicatorClimate>; fromCache: boolean }> {
+  const { config } = ctx;
+  const source = input.source;
+  if (input.hindcasts.length === 0) return { climates: new Map(), fromCache: false };
+  const key = await skillCacheKey({
+    hindcastFiles: input.hindcasts.map((h) => h.path),
+    observationsFile: ctx.observationsPath,
+    configFingerprint: fingerprint({ source, regions: config.regions, indicators: config.indicators, rules: config.rules, gate: config.decision.skillGate, calibration: config.calibration }),
+  });
+  const cached = await cachedSkill<Record<string, StoredClimate>>(config.calibration.cacheDir, key, async () => {
+    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems);
+    const out: Record<string, StoredClimate> = {};
+    for (const { region, ind } of pairs(config, source.tier)) {
+      const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
+      out[climateKey(region.id, ind.id)] = { ...c, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
+    }
+    return out;
+  });
+  const climates = new Map(Object.entries(cached.value).map(([k, c]) => [k, { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) }]));
+  return { climates, fromCache: cached.fromCache };
+}
+
+/** Probabilities of every region × indicator of one source (the source's tier), with the climates behind them. */
+export async function calibrateSource(ctx: SharedContext, read: SourceRead, input: SourceInputs, fileProblems: ForelightError[]): Promise<SourceOutcome> {
+  const { config } = ctx;
+  const { climates, fromCache } = await loadClimates(ctx, input, fileProblems);
+  const probabilities: LeadProbability[] = [];
+  const problems: string[] = [];
+  for (const { region, ind } of pairs(config, read.source.tier)) {
+    const inputs = read.series.get(region.id);
+    if (!inputs) continue; // the read stage already reported why
+    const climate = climates.get(climateKey(region.id, ind.id));
+    if (climate) problems.push(...climate.problems);
+    try {
+      const first = [...inputs.values()][0]?.days[0];
+      const series = computeIndicator(ind, inputs, indicatorContext(ctx.climatology.get(region.id) ?? {}, ctx.observed?.get(region.id), first));
+      probabilities.push(
+        ...leadProbabilities({
+          source: read.source.id,
+          region: region.id,
+          indicator: ind.id,
+          units: series.units,
+          forecast: aggregateToLeads(series, read.source.tier, ind.aggregate),
+          hindcast: climate?.hindcast ?? null,
+          observed: climate?.observed ?? null,
+          threshold: resolveThresholdSpec(ind, region.id),
+          calibration: config.calibration,
+          skill: climate ? skillByLead(climate.skill) : undefined,
+        }),
+      );
+    } catch (err) {
+      problems.push(`${read.source.id} forecast ${read.path}, region ${region.id}, indicator ${ind.id}: ${describeError(err)}`);
+    }
+  }
+  return { source: read.source.id, probabilities, climates, fromCache, problems };
+}

@@ -1,0 +1,24 @@
+/** The decide stage on the shipped Veloria configuration (loader and decide agree on ids, caps, rules). */
+import { describe, expect, it } from 'vitest';
+import { loadConfig } from '../../src/config/load-config.ts';
+import { decideStages } from '../../src/decide/decide-stages.ts';
+import { EMPTY_HISTORY } from '../../src/decide/types.ts';
+import { prob } from './helpers.ts';
+
+describe('decideStages with config/forelight.yaml', async () => {
+  const config = await loadConfig();
+
+  it('Heat Index P = 0.9 on day 2 in the lowlands issues act-now at once; malaria months wait for a second run', () => {
+    const probabilities = [
+      prob('kessan-lowlands', 'days', 2, 0.9, 0.8, 'heat-index'),
+      prob('tulva-delta', 'months', 2, 0.95, 0.8, 'malaria-pf'),
+    ];
+    const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: new Map([['heat-index-days-mindful', 0.25]]) });
+    expect(decisions.map((d) => [d.region, d.indicator, d.tier, d.rawStageId, d.stageId])).toEqual([
+      ['kessan-lowlands', 'heat-index', 'days', 'act-now', 'act-now'],
+      ['tulva-delta', 'malaria-pf', 'months', 'mindful', 'quiet'],
+    ]);
+    expect(decisions[1].reasons).toContain('held at quiet: 1 of 2 runs needed to escalate');
+    expect(regionStages.map((r) => r.stageId)).toEqual(['act-now', 'quiet', 'quiet', 'quiet']);
+  });
+});
