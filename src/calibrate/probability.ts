@@ -7,6 +7,9 @@
  *   "few-members: …"               valid members < minMembers; with N members p moves in steps of 1/N
  *   "missing-members: k of N …"    members without a value at this lead
  *   "quantile-map-clipped: …"      the absolute threshold lies outside the observed climatology
+ *   "hindcast-members: …"          hindcasts have another ensemble size than the forecast. Operational hindcasts
+ *                                  usually do (e.g. 11 against 51): thresholds and base rates pool all years ×
+ *                                  members, so they stay calibrated, but skill was measured with the hindcast size.
  */
 import type { CalibrationConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, SkillSummary, Threshold } from '../types.ts';
@@ -49,9 +52,6 @@ export interface ProbabilityRequest {
 function coverageProblem(req: ProbabilityRequest, l: number, lead: LeadWindow): string | null {
   const hc = req.hindcast;
   if (!hc) return `no hindcasts for source ${req.source} — configure sources[].hindcast to calibrate`;
-  if (hc.members !== req.forecast.members) {
-    return `hindcasts have ${hc.members} members, the forecast ${req.forecast.members} — provide hindcasts with the forecast's ensemble size`;
-  }
   if (l >= hc.leads.length || leadSample(hc, l).length === 0) return `hindcasts of ${req.source} do not cover ${leadLabel(lead)}`;
   if (lead.tier === 'months' && hc.leads[l].start.slice(5, 7) !== lead.start.slice(5, 7)) {
     return `hindcast ${leadLabel(lead)} starts ${hc.leads[l].start}, the forecast's ${lead.start} (different calendar month) — use hindcast starts in the forecast's month`;
@@ -112,6 +112,9 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
       } else {
         threshold = absoluteThreshold(spec, req.units, lead, lead.tier === 'days' ? 'short range: not quantile-mapped' : 'not quantile-mapped: no observations');
       }
+    }
+    if (hindcast && hindcast.members !== forecast.members) {
+      flags.push(`hindcast-members: hindcasts have ${hindcast.members} members per year, the forecast ${forecast.members}; thresholds pool all hindcast years × members, skill was measured with ${hindcast.members}-member ensembles`);
     }
     const exc = exceedanceFraction(members, threshold.value);
     if (exc.missing > 0) flags.push(`missing-members: ${exc.missing} of ${forecast.members} members have no value at ${leadLabel(lead)}`);

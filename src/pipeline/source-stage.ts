@@ -5,7 +5,7 @@
  */
 import type { Config, IndicatorConfig, RegionConfig } from '../config/types.ts';
 import type { LeadClimate } from '../calibrate/climate.ts';
-import { aggregateToLeads } from '../calibrate/lead-tiers.ts';
+import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
 import { leadProbabilities } from '../calibrate/probability.ts';
 import { skillByLead } from '../calibrate/skill.ts';
 import { cachedSkill, fingerprint, skillCacheKey } from '../calibrate/skill-cache.ts';
@@ -23,6 +23,8 @@ export interface SourceOutcome {
   readonly probabilities: readonly LeadProbability[];
   /** `${region}|${indicator}` → climate and skill. */
   readonly climates: ReadonlyMap<string, IndicatorClimate>;
+  /** `${region}|${indicator}` → the forecast's values per member and lead (for explain). */
+  readonly forecastLeads: ReadonlyMap<string, LeadValues>;
   readonly fromCache: boolean;
   /** Region × indicator combinations that were skipped, with the reason. */
   readonly problems: readonly string[];
@@ -76,6 +78,7 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
   const { config } = ctx;
   const { climates, fromCache } = await loadClimates(ctx, input, fileProblems);
   const probabilities: LeadProbability[] = [];
+  const forecastLeads = new Map<string, LeadValues>();
   const problems: string[] = [];
   for (const { region, ind } of pairs(config, read.source.tier)) {
     const inputs = read.series.get(region.id);
@@ -85,13 +88,15 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
     try {
       const first = [...inputs.values()][0]?.days[0];
       const series = computeIndicator(ind, inputs, indicatorContext(ctx.climatology.get(region.id) ?? {}, ctx.observed?.get(region.id), first));
+      const forecast = aggregateToLeads(series, read.source.tier, ind.aggregate);
+      forecastLeads.set(climateKey(region.id, ind.id), forecast);
       probabilities.push(
         ...leadProbabilities({
           source: read.source.id,
           region: region.id,
           indicator: ind.id,
           units: series.units,
-          forecast: aggregateToLeads(series, read.source.tier, ind.aggregate),
+          forecast,
           hindcast: climate?.hindcast ?? null,
           observed: climate?.observed ?? null,
           threshold: resolveThresholdSpec(ind, region.id),
@@ -103,5 +108,5 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
       problems.push(`${read.source.id} forecast ${read.path}, region ${region.id}, indicator ${ind.id}: ${describeError(err)}`);
     }
   }
-  return { source: read.source.id, probabilities, climates, fromCache, problems };
+  return { source: read.source.id, probabilities, climates, forecastLeads, fromCache, problems };
 }

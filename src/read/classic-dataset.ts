@@ -46,6 +46,8 @@ async function readHeader(file: string, handle: FileHandle, fileBytes: number): 
 class ClassicDataset implements Dataset {
   private readonly byName: Map<string, ClassicVariable>;
   private buffer = Buffer.allocUnsafeSlow(64 * 1024);
+  /** readRaw calls run one after another: they share `buffer`. */
+  private queue: Promise<unknown> = Promise.resolve();
 
   constructor(
     readonly path: string,
@@ -66,7 +68,13 @@ class ClassicDataset implements Dataset {
     return this.byName.get(name);
   }
 
-  async readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
+  readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
+    const run = this.queue.then(() => this.readNow(name, start, count));
+    this.queue = run.catch(() => undefined);
+    return run;
+  }
+
+  private async readNow(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
     const v = this.byName.get(name);
     if (!v) throw new InputError('input-variable', this.path, `variable '${name}' not found`, `use one of: ${this.variables.map((x) => x.name).join(', ')}`);
     validateSelection(this.path, v, start, count);

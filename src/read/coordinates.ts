@@ -195,7 +195,7 @@ export async function findCoordinates(ds: Dataset): Promise<FileCoordinates> {
 export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: string): VariableLayout {
   const info = ds.variable(name);
   if (!info) {
-    const names = ds.variables.filter((v) => v.dimensions.length >= 2).map((v) => v.name).join(', ');
+    const names = ds.variables.filter((v) => v.dimensions.includes(coords.grid.latName) && v.dimensions.includes(coords.grid.lonName)).map((v) => v.name).join(', ');
     throw new InputError('variable-missing', ds.path, `no variable '${name}'`, `map the quantity to one of: ${names}`);
   }
   const dims = info.dimensions;

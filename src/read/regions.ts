@@ -106,6 +106,13 @@ function range(values: Float64Array): string {
   return `${lo}..${hi}`;
 }
 
+/** Latitude extent of a shape (rows outside it are skipped without testing their cells). */
+function latExtent(shape: RegionShape): [number, number] {
+  if (shape.kind === 'box') return [shape.south, shape.north];
+  const lats = shape.ring.map((p) => p[1]);
+  return [Math.min(...lats), Math.max(...lats)];
+}
+
 /** A membership test for one shape on cell centres (lat, lon in the grid's own convention). */
 function shapeTest(shape: RegionShape): (lat: number, lon: number) => boolean {
   if (shape.kind === 'box') {
@@ -126,7 +133,9 @@ export function selectRegionCells(grid: LatLonGrid, region: RegionConfig, file: 
   const latIdx: number[] = [];
   const lonIdx: number[] = [];
   const weights: number[] = [];
+  const [latLo, latHi] = latExtent(region.shape);
   for (let y = 0; y < grid.lat.length; y++) {
+    if (grid.lat[y] < latLo - EDGE_EPS_DEG || grid.lat[y] > latHi + EDGE_EPS_DEG) continue;
     for (let x = 0; x < grid.lon.length; x++) {
       if (!inside(grid.lat[y], grid.lon[x])) continue;
       latIdx.push(y);

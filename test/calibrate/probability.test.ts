@@ -55,11 +55,11 @@ describe('leadProbabilities', () => {
     expect(out[2].threshold.origin).toMatch(/^no threshold for the 90 percentile at lead week 3/);
     expect(out[0].probability).toBeCloseTo(0.7, 12); // threshold 30: all members but 29.8, 30.0, 28.9
   });
-  it('hindcasts with a different member count: every lead uncalibrated, absolute threshold still used', () => {
-    const out = leadProbabilities(request({ hindcast: climate(YEARS_2006_2025, 11, leadsOf('weeks', 3), () => 30) }));
-    expect(out.every((p) => !p.calibrated)).toBe(true);
-    expect(out[0].flags[0]).toBe("uncalibrated: hindcasts have 11 members, the forecast 10 — provide hindcasts with the forecast's ensemble size");
-    expect(out[0].probability).toBeCloseTo(0.4, 12);
+  it('hindcasts with a different member count (usual in operations, 11 against 51): named in a flag, leads stay calibrated on the pooled climate', () => {
+    const out = leadProbabilities(request({ hindcast: climate(YEARS_2006_2025, 11, leadsOf('weeks', 3), () => 30), threshold: { kind: 'percentile', percentile: 90 } }));
+    expect(out.every((p) => p.calibrated)).toBe(true);
+    expect(out[0].flags).toContain('hindcast-members: hindcasts have 11 members per year, the forecast 10; thresholds pool all hindcast years × members, skill was measured with 11-member ensembles');
+    expect(out[0].threshold.value).toBe(30);
   });
   it('uncalibrated percentile lead falls back to the observed climatology, labelled "not model climate"', () => {
     const observed: LeadClimate = climate(YEARS_2006_2025, 1, leadsOf('weeks', 3), (y) => 30 + y / 10);

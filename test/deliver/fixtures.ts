@@ -14,6 +14,7 @@ import { deliveryCounts } from '../../src/ledger/deliveries.ts';
 import type { Ledger } from '../../src/ledger/open-ledger.ts';
 import { beginRun, finishRun } from '../../src/ledger/runs.ts';
 import type { Logger } from '../../src/log.ts';
+import { EXIT, exitCodeForDeliveries } from '../../src/schedule/exit-codes.ts';
 import type { Bulletin } from '../../src/types.ts';
 
 export const tempDir = (prefix: string) => mkdtempSync(join(tmpdir(), `forelight-${prefix}-`));
@@ -150,7 +151,7 @@ export async function issueForecast(
   if (!hasBulletins(ledger, runId)) recordBulletins(ledger, runId, bulletins);
   await options.afterRecord?.();
   const summary = await deliverPending(ledger, delivery, log, { ...options, runId });
-  const counts = deliveryCounts(ledger, runId);
-  finishRun(ledger, runId, counts.failed + counts.outbox + counts.pending > 0 ? 'partial' : 'ok');
+  const ok = exitCodeForDeliveries(deliveryCounts(ledger, runId), delivery.smtp !== null) === EXIT.ok;
+  finishRun(ledger, runId, ok ? 'ok' : 'partial');
   return { kind: begun.kind, runId, summary };
 }

@@ -74,6 +74,22 @@ describe.each(FORECAST_FILES)('%s', (fileName, format) => {
     }
   });
 
+  it('gives the same values for 30 concurrent readRaw calls as for sequential ones (shared read buffer)', async () => {
+    const ds = await openDataset(file);
+    const random = makeRandom(4242);
+    try {
+      const info = ds.variable('t2m')!;
+      const boxes = Array.from({ length: 30 }, () => {
+        const start = info.shape.map((n) => random(n));
+        return { start, count: info.shape.map((n, d) => 1 + random(n - start[d])) };
+      });
+      const concurrent = await Promise.all(boxes.map((b) => ds.readRaw('t2m', b.start, b.count)));
+      for (let i = 0; i < boxes.length; i++) expect(concurrent[i]).toEqual(await ds.readRaw('t2m', boxes[i].start, boxes[i].count));
+    } finally {
+      await ds.close();
+    }
+  });
+
   it('reads 40 random hyperslabs per variable equal to the same boxes of the ncdump (netCDF-C, Unidata) values', async () => {
     const ds = await openDataset(file);
     const random = makeRandom(fileName.length * 7919);

@@ -54,6 +54,16 @@ describe('extractFromDataset', () => {
     expect(reads.reduce((a, r) => a + r.values, 0)).toBe(2 * 12 * 6 * 360);
   });
 
+  it('regions with different UTC offsets get their own local days from the same read', async () => {
+    const ds = sixHourlyMax((_m, t) => 290 + t);
+    const east = { ...MARROW, id: 'marrow-utc10', utcOffsetHours: 10 };
+    const { series } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [MARROW, east] });
+    expect(series.map((s) => s.days)).toEqual([['2026-11-23', '2026-11-24', '2026-11-25'], ['2026-11-24', '2026-11-25']]);
+    // UTC+10: the day 2026-11-24 holds the 6-h periods ending 18Z … 12Z (+10 h midpoints 25 … 43 h): steps 2..5.
+    expect(Array.from(series[1].data.subarray(0, 2)).map((v) => +v.toFixed(9))).toEqual([5 + 16.85, 9 + 16.85]);
+    expect(ds.reads.filter((r) => r.name === 'mx2t6')).toHaveLength(2);
+  });
+
   it('area mean skips missing cells and renormalises weights per member and day', async () => {
     // Kessan lowlands: cells lat -12..-9 × lon 357..359 (4×3). Member 0 has every lon 359 cell missing on all steps.
     const ds = sixHourlyMax((m, _t, _lat, lon) => (m === 0 && lon === 359 ? NaN : 273.15 + (lon === 359 ? 30 : 10)));

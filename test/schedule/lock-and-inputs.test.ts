@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { acquireLock } from '../../src/schedule/lock-file.ts';
 import { forecastPath, resolveLatestInputs, waitForInputs } from '../../src/schedule/input-arrival.ts';
 import { makeRunReport, nextStatus, readStatus, writeStatus } from '../../src/schedule/status-file.ts';
-import { EXIT } from '../../src/schedule/exit-codes.ts';
+import { EXIT, exitCodeForDeliveries } from '../../src/schedule/exit-codes.ts';
 import { tempDir } from '../deliver/fixtures.ts';
 
 /** Pid of a process that has exited (a real child, reaped). */
@@ -105,5 +105,14 @@ describe('status file', () => {
     expect(nextStatus(s, base, makeRunReport('scheduled', t, t, EXIT.nothingNew, 'no new data')).consecutiveFailures).toBe(0);
     writeFileSync(path, '{');
     expect(() => readStatus(path)).toThrow(/^status file .* is not valid JSON: .* — delete it/);
+  });
+});
+
+describe('exit codes', () => {
+  it('outbox counts as delivered only without SMTP; failed or pending is always exit 4', () => {
+    expect(exitCodeForDeliveries({ failed: 0, outbox: 3, pending: 0 }, false)).toBe(EXIT.ok);
+    expect(exitCodeForDeliveries({ failed: 0, outbox: 1, pending: 0 }, true)).toBe(EXIT.deliveryFailed);
+    expect(exitCodeForDeliveries({ failed: 1, outbox: 0, pending: 0 }, false)).toBe(EXIT.deliveryFailed);
+    expect(exitCodeForDeliveries({ failed: 0, outbox: 0, pending: 2 }, true)).toBe(4);
   });
 });

@@ -7,6 +7,8 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { openLedger } from '../../src/ledger/open-ledger.ts';
+import { beginRun, finishRun } from '../../src/ledger/runs.ts';
 import { silentLogger } from '../../src/log.ts';
 import { EXIT } from '../../src/schedule/exit-codes.ts';
 import { runService, type RunContext } from '../../src/schedule/run-service.ts';
@@ -21,13 +23,16 @@ describe('runService', () => {
     const dir = tempDir('svc-catchup');
     const calls: RunContext[] = [];
     const stop = new AbortController();
+    // The last completed run, read from a real ledger, started 10 days ago: ~3 Mon/Thu slots missed.
+    const ledger = openLedger(join(dir, 'ledger.sqlite'), { now: () => new Date(Date.now() - 10 * 86_400_000) });
+    finishRun(ledger, beginRun(ledger, '2026-11-19').run.id, 'ok');
+    ledger.close();
     const service = runService({
       config: { ledger: join(dir, 'ledger.sqlite'), schedule: schedule('0 6 * * 1,4') },
       log: silentLogger,
       signal: stop.signal,
       handleSignals: false,
       checkEverySeconds: 0.02,
-      lastCompletedAt: () => new Date(Date.now() - 10 * 86_400_000), // ~3 slots missed
       runOnce: async (ctx) => { calls.push(ctx); return { exitCode: EXIT.ok, summary: 'issued' }; },
     });
     await sleep(300);

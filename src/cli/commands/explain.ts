@@ -2,12 +2,25 @@
 import { explainDecision } from '../../decide/explain.ts';
 import { trackKey } from '../../decide/types.ts';
 import { decideNow } from '../../pipeline/decide-now.ts';
+import { climateKey } from '../../pipeline/source-stage.ts';
+import { percentileLinear } from '../../indicators/percentile.ts';
+import type { LeadValues } from '../../calibrate/lead-tiers.ts';
+import type { EnsembleSummary } from '../../decide/explain.ts';
 import { EXIT } from '../../schedule/exit-codes.ts';
 import type { Tier } from '../../types.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
 
 const TIERS: readonly Tier[] = ['days', 'weeks', 'months'];
+
+/** Minimum, median and maximum over members per lead index. */
+function ensembleSummaries(leads: LeadValues, units: string): Map<number, EnsembleSummary> {
+  const n = leads.leads.length;
+  return new Map(leads.leads.map((lead, l) => {
+    const v = Array.from({ length: leads.members }, (_, m) => leads.values[m * n + l]).filter((x) => !Number.isNaN(x));
+    return [lead.index, { min: Math.min(...v), median: percentileLinear(v, 50), max: Math.max(...v), units }];
+  }));
+}
 
 export async function explainCommand(args: ParsedArgs): Promise<number> {
   const { config, log, issueDate } = await commandContext(args, 'explain');
@@ -24,7 +37,13 @@ export async function explainCommand(args: ParsedArgs): Promise<number> {
     for (const p of analysis.problems) process.stdout.write(`  skipped: ${p}\n`);
     return EXIT.inputProblem;
   }
-  const lines = explainDecision({ config, decision, probabilities: analysis.probabilities, previous: history.tracks[trackKey(region, indicator, tier)] });
+  const used = decision.lead?.source ?? analysis.probabilities.find((p) => p.region === region && p.indicator === indicator && p.lead.tier === tier)?.source;
+  const leads = analysis.sources.find((s) => s.source === used)?.forecastLeads.get(climateKey(region, indicator));
+  const units = analysis.probabilities.find((p) => p.region === region && p.indicator === indicator)?.threshold.units ?? '';
+  const lines = explainDecision({
+    config, decision, probabilities: analysis.probabilities, previous: history.tracks[trackKey(region, indicator, tier)],
+    values: leads ? ensembleSummaries(leads, units) : undefined,
+  });
   process.stdout.write(lines.join('\n') + '\n');
   return EXIT.ok;
 }

@@ -1,0 +1,33 @@
+/**
+ * `forelight serve`: service mode. At each slot of the configured schedule it waits (until the configured
+ * deadline) for the forecast files of the day, then runs once; a late source falls back to its previous
+ * forecast with "based on the forecast of <date>" wording, and nothing new means a notice to the operators.
+ */
+import { loadConfig } from '../../config/load-config.ts';
+import { createLogger } from '../../log.ts';
+import { localDate } from '../../pipeline/bulletin-run.ts';
+import { runOnce } from '../../pipeline/run-once.ts';
+import { EXIT } from '../../schedule/exit-codes.ts';
+import { forecastPath, waitForInputs } from '../../schedule/input-arrival.ts';
+import { runService } from '../../schedule/run-service.ts';
+import { stringOption, type ParsedArgs } from '../args.ts';
+
+export async function serveCommand(args: ParsedArgs): Promise<number> {
+  const config = await loadConfig(stringOption(args, 'config'));
+  const log = createLogger({ base: { command: 'serve' } });
+  await runService({
+    config,
+    log,
+    runOnce: async ({ slot, signal, log: rlog }) => {
+      const issueDate = localDate(slot, config.schedule.timezone);
+      // Seasonal (months-tier) forecasts come once a month: the newest one is used, nobody waits for it.
+      const expected = config.sources.filter((s) => s.tier !== 'months').map((s) => forecastPath(s.forecast, issueDate));
+      const deadline = new Date(slot.getTime() + config.schedule.waitForDataMinutes * 60_000);
+      const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds);
+      if (arrival.missing.length > 0) rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
+      if (signal.aborted) return { exitCode: EXIT.ok, summary: 'stopped before the run' };
+      return runOnce({ config, log: rlog, issueDate, mode: 'live' });
+    },
+  });
+  return EXIT.ok;
+}
