@@ -5,7 +5,7 @@
  *
  *   npm run sample [-- --out DIR] [-- --seed N]
  */
-import { mkdir, writeFile } from 'node:fs/promises';
+import { mkdir, rm, writeFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { writeEnsembleFile, writeObservedFile, type CfFileDef, type CfVariableDef } from './lib/cf-gridded-file.ts';
@@ -95,6 +95,8 @@ export async function generateSample(outDir: string = fileURLToPath(new URL('./d
   const seed = opts.seed ?? 20261126;
   const years = opts.hindcastYears ?? DEFAULT_YEARS;
   const truth: TruthHistory = createTruth(seed);
+  await mkdir(outDir, { recursive: true });
+  await rm(join(outDir, 'manifest.json'), { force: true });
   const files: { path: string; bytes: number }[] = [];
   const note = (path: string, bytes: number): void => {
     files.push({ path, bytes });
@@ -142,6 +144,7 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
   };
   const out = arg('--out');
   const seedText = arg('--seed');
+  if (seedText !== undefined && !/^\d+$/.test(seedText)) throw new RangeError(`--seed must be a non-negative integer, got '${seedText}'`);
   const summary = await generateSample(out ? resolve(out) : undefined, { seed: seedText ? Number(seedText) : undefined, onProgress: (l) => process.stdout.write(`${l}\n`) });
   process.stdout.write(`${summary.files.length} files, ${(summary.totalBytes / 1e6).toFixed(1)} MB in ${summary.seconds.toFixed(1)} s → ${summary.outDir}\n`);
 }

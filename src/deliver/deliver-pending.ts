@@ -14,7 +14,7 @@ import { hostname } from 'node:os';
 import { randomUUID } from 'node:crypto';
 import type Mail from 'nodemailer/lib/mailer/index.js';
 import type { DeliveryConfig } from '../config/types.ts';
-import { describeError } from '../errors.ts';
+import { DeliveryError, describeError } from '../errors.ts';
 import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
 import {
   claimDelivery, dueNotices, getDelivery, listDeliveries, markDelivery, markNoticesDone, releaseClaim, toReceipt, type DeliveryRecord,
@@ -26,7 +26,7 @@ import type { DeliveryReceipt } from '../types.ts';
 import { composeMessage, messageIdFor, renderEml } from './compose-message.ts';
 import { notifyOperators } from './operator-notice.ts';
 import { ensureOutboxWritable, outboxBaseName, writeOutboxFiles } from './outbox.ts';
-import { classifySmtpError, createSmtpTransport, type SmtpTransporter } from './smtp-transport.ts';
+import { classifySmtpError, createSmtpTransport, type SmtpFailure, type SmtpTransporter } from './smtp-transport.ts';
 
 /** Points where `onStep` is awaited (fault injection in tests: pause, crash). */
 export type DeliveryStep = 'claimed' | 'accepted' | 'recorded';
@@ -144,7 +144,13 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
           await options.onStep?.('accepted', claimed);
           status = 'sent';
         } else {
-          const failure = (sendError as { failure?: { temporary: boolean; detail: string } }).failure;
+          const failure = (sendError as { failure?: SmtpFailure }).failure;
+          if (failure?.auth) {
+            // Wrong credentials fail every message alike: keep all pending for a run after the fix.
+            markDelivery(ledger, claimed.id, 'pending', { error: failure.detail });
+            throw new DeliveryError(`SMTP server ${delivery.smtp?.host}:${delivery.smtp?.port} refused the login of ${delivery.smtp?.user ?? '(no user)'}: ${failure.detail}`,
+              `check smtp.user and the password in ${delivery.smtp?.passwordEnv ?? 'smtp.passwordEnv'}; unsent bulletins stay pending`, false);
+          }
           status = failure && !failure.temporary ? 'failed' : 'outbox';
           error = failure?.detail ?? describeError(sendError);
         }

@@ -44,6 +44,8 @@ const TEMPORARY_CODES = new Set(['ECONNECTION', 'ETIMEDOUT', 'ESOCKET', 'EDNS', 
 
 export interface SmtpFailure {
   readonly temporary: boolean;
+  /** The login was refused: a configuration problem that affects every message. */
+  readonly auth: boolean;
   /** One line: code, SMTP reply code and text. */
   readonly detail: string;
 }
@@ -52,6 +54,7 @@ export function classifySmtpError(err: unknown): SmtpFailure {
   const e = err as { code?: string; responseCode?: number; response?: string; message?: string };
   const text = (e.response ?? e.message ?? String(err)).replace(/\s+/g, ' ').trim();
   const detail = [e.code, e.responseCode, text].filter((x) => x !== undefined && x !== '').join(' ');
-  if (typeof e.responseCode === 'number') return { temporary: e.responseCode >= 400 && e.responseCode < 500, detail };
-  return { temporary: e.code !== undefined && TEMPORARY_CODES.has(e.code), detail };
+  const auth = e.code === 'EAUTH';
+  if (typeof e.responseCode === 'number') return { temporary: e.responseCode >= 400 && e.responseCode < 500, auth, detail };
+  return { temporary: e.code !== undefined && TEMPORARY_CODES.has(e.code), auth, detail };
 }

@@ -81,12 +81,14 @@ export function beginRun(ledger: Ledger, forecastKey: string, options: { force?:
 }
 
 /**
- * A newer run makes every other unfinished run stale: its unsent deliveries become `superseded`
- * so that old advice is never sent later as if it were new.
+ * A run makes every other unfinished run of the same or an older forecast key stale: their unsent
+ * deliveries become `superseded`, so that old advice is never sent later as if it were new.
+ * (Keys are ISO dates, so text order is date order.)
  */
 function abandonOthers(ledger: Ledger, keepRunId: number): void {
   const now = stamp(ledger);
-  const stale = ledger.db.prepare(`SELECT id FROM runs WHERE id <> ? AND ${UNFINISHED}`).all(keepRunId) as { id: number }[];
+  const stale = ledger.db.prepare(`SELECT id FROM runs WHERE id <> ? AND ${UNFINISHED}
+    AND forecast_key <= (SELECT forecast_key FROM runs WHERE id = ?)`).all(keepRunId, keepRunId) as { id: number }[];
   for (const { id } of stale) {
     ledger.db.prepare(`UPDATE deliveries SET status = 'superseded', updated_at = ?,
       last_error = coalesce(last_error || ' | ', '') || 'superseded by run ' || ?

@@ -147,7 +147,7 @@ function fromDayNumber(calendar: CfCalendar, n: number): [number, number, number
 
 const REFERENCE = /^(-?\d{1,4})-(\d{1,2})-(\d{1,2})(?:[T ](\d{1,2}):(\d{1,2})(?::(\d{1,2}(?:\.\d+)?))?)?\s*(Z|UTC|GMT|[+-]\d{1,2}(?::?\d{2})?)?$/i;
 
-interface TimeUnits {
+export interface TimeUnits {
   readonly secondsPerUnit: number;
   readonly calendar: CfCalendar;
   /** Reference instant as (day number, seconds into that day, UTC). */

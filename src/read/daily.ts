@@ -6,15 +6,18 @@
  *  - `time_bnds` present: the bounds.
  *  - no bounds, `cell_methods` says time: maximum/minimum/mean/sum, or the quantity is an amount or a rate:
  *    the interval ENDING at the stamp, since the previous stamp (the first step: since the reference time,
- *    else one spacing). A 6-hour maximum stamped 06Z covers 00–06Z.
+ *    else one spacing). A 6-hour maximum stamped 06Z covers 00–06Z. For daily (or coarser) steps this holds
+ *    only when the first stamp lies a full step after the forecast reference time (values stamped 24 h,
+ *    48 h, … after it); otherwise (no reference, e.g. observations) a daily value belongs to its stamp's date.
  *  - otherwise an instantaneous sample at the stamp, standing for one nominal spacing (median step).
  *  - accumulated-since-start fields: step i covers (stamp[i-1], stamp[i]], the first (reference, stamp[0]].
  * A step belongs to the local day (UTC + utcOffsetHours) holding its interval MIDPOINT, never its stamp alone.
  * A local day is kept only when its steps cover the full 24 h (sum of interval lengths; samples count one
  * spacing each). Incomplete first/last days are DROPPED, so lead day 1 is the first complete local day.
  * A cell's daily value is NaN when any of its steps in that day is missing.
- * Daily (or coarser) input passes through: one step per day, dated by the UTC date of the bounds midpoint,
- * or of the stamp when there are no bounds; no local shift.
+ * Daily (or coarser) input passes through: one step per day, dated by the UTC date of its interval's
+ * midpoint (so an end-stamped daily maximum gets the day before its stamp, a start-stamped one its stamp's
+ * day); no local shift, as a daily value cannot be re-cut into local days.
  */
 import type { IsoDate } from '../types.ts';
 
@@ -80,7 +83,8 @@ export function stepIntervals(input: IntervalInput): StepIntervals {
     }
     return { startMs, endMs, instantaneous: false };
   }
-  const periodEnding = input.periodEndingAtStamp && spacing < DAY_MS - COVERAGE_SLACK_MS;
+  const endStampedDaily = referenceMs !== null && stampsMs[0] - referenceMs >= spacing - COVERAGE_SLACK_MS;
+  const periodEnding = input.periodEndingAtStamp && (spacing < DAY_MS - COVERAGE_SLACK_MS || endStampedDaily);
   for (let i = 0; i < n; i++) {
     endMs[i] = stampsMs[i];
     startMs[i] = !periodEnding ? stampsMs[i] : i > 0 ? stampsMs[i - 1] : firstStart();
@@ -102,7 +106,8 @@ export function planLocalDays(intervals: StepIntervals, utcOffsetHours: number):
   if (spacing >= DAY_MS - COVERAGE_SLACK_MS) {
     const days: IsoDate[] = [];
     for (let i = 0; i < n; i++) {
-      dayOfStep[i] = i;
+      if (!instantaneous && endMs[i] <= startMs[i]) continue;
+      dayOfStep[i] = days.length;
       stepWeight[i] = 1;
       days.push(isoDate(Math.floor((startMs[i] + endMs[i]) / 2 / DAY_MS)));
     }

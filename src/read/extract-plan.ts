@@ -2,10 +2,11 @@
  * How one variable is turned into daily values: its step intervals, whether it is accumulated since the
  * start, and which daily reduction a quantity takes.
  *
- * Precipitation amounts (`m`, `mm`, `kg m-2`) count as ACCUMULATED SINCE THE REFERENCE TIME when their
- * `time_bnds` all start at one instant, or, without bounds, unless `cell_methods` says `time: sum`
- * (then each step is the amount since the previous step). This follows the usual forecast-centre encoding
- * of total precipitation; a file of per-step amounts must carry bounds or `time: sum`.
+ * Precipitation counts as ACCUMULATED SINCE THE REFERENCE TIME when its units are metres (CF
+ * `lwe_thickness_of_precipitation_amount`, the forecast-centre encoding of total precipitation; units.ts
+ * kind `accumulation`), whatever the time bounds say (a file's time axis and bounds are shared by all its
+ * variables, so they cannot mark one variable as accumulated), or when it is an amount in `mm`/`kg m-2`
+ * whose `time_bnds` all start at one instant. Other `mm`/`kg m-2` amounts are per step.
  */
 import type { Quantity } from '../types.ts';
 import { timeCellMethod, type FileCoordinates, type VariableLayout } from './coordinates.ts';
@@ -30,7 +31,7 @@ export function planTime(coords: FileCoordinates, layout: VariableLayout, unitPl
   if (!time || layout.timeAxis < 0) return { intervals: null, accumulated: false };
   const method = timeCellMethod(layout.info, time);
   const kind = unitPlan?.kind ?? 'state';
-  const accumulated = kind === 'amount' && (time.boundsMs ? boundsShareStart(time.boundsMs) : method !== 'sum');
+  const accumulated = kind === 'accumulation' || (kind === 'amount' && time.boundsMs !== null && boundsShareStart(time.boundsMs));
   const intervals = stepIntervals({
     stampsMs: time.stampsMs,
     boundsMs: time.boundsMs,
@@ -45,7 +46,7 @@ export function planTime(coords: FileCoordinates, layout: VariableLayout, unitPl
 export function dailyMethodFor(quantity: Quantity, unitPlan: UnitPlan): DailyMethod {
   if (quantity === 'tmax') return 'max';
   if (quantity === 'tmin') return 'min';
-  return unitPlan.kind === 'amount' ? 'sum' : 'mean';
+  return unitPlan.kind === 'amount' || unitPlan.kind === 'accumulation' ? 'sum' : 'mean';
 }
 
 /** The file's forecast reference time: `forecast_reference_time` when present, else the start of the first step. */

@@ -4,12 +4,10 @@
  * from one queue; each worker keeps its files open until the batch ends, then every worker is closed.
  * One failed request does not drop the others: each result is either values or an InputError.
  */
-import { existsSync, readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { InputError } from '../errors.ts';
+import { packageExportPath } from './hdf5-package.ts';
 
 export interface RawReadRequest {
   readonly path: string;
@@ -25,24 +23,12 @@ export type PoolMessage = { kind: 'read'; id: number; request: RawReadRequest } 
 export type PoolReply = { id: number; values?: Float64Array; error?: { message: string; code: string; hint: string } };
 
 const WORKER_URL = new URL('./hdf5-read-worker.ts', import.meta.url).href;
-/** File URL of a package's ESM export `subpath`, read from its package.json (some packages do not export package.json). */
-const packageFile = (name: string, subpath: string): string => {
-  const roots = createRequire(import.meta.url).resolve.paths(name) ?? [];
-  const pkgPath = roots.map((r) => join(r, name, 'package.json')).find((p) => existsSync(p));
-  if (!pkgPath) throw new Error(`package ${name} is not installed`);
-  const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, { import: string | { default: string } }> };
-  const target = pkg.exports[subpath].import;
-  return pathToFileURL(join(dirname(pkgPath), typeof target === 'string' ? target : target.default)).href;
-};
 /**
- * Workers start from this bootstrap. It imports h5wasm BEFORE registering tsx's TypeScript loader in
- * the thread: through tsx's hooks, h5wasm's 4 MB JavaScript costs ~630 MB RSS and seconds to load
- * (measured), while a module already loaded is reused as is. `execArgv: ['--import', 'tsx']` does not
- * apply loaders to worker threads on Node 20, hence the explicit register().
+ * Workers start from this bootstrap, which registers tsx's TypeScript loader inside the thread:
+ * `execArgv: ['--import', 'tsx']` does not apply loaders to worker threads on Node 20.
  */
 const BOOTSTRAP = [
-  `await import(${JSON.stringify(packageFile('h5wasm', './node'))});`,
-  `const tsx = await import(${JSON.stringify(packageFile('tsx', './esm/api'))});`,
+  `const tsx = await import(${JSON.stringify(pathToFileURL(packageExportPath('tsx', './esm/api')).href)});`,
   '(tsx.register ?? tsx.default.register)();',
   `await import(${JSON.stringify(WORKER_URL)});`,
 ].join('\n');

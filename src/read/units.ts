@@ -19,6 +19,12 @@ export type TemporalKind =
   | 'state'
   /** An amount per interval (mm); daily value = sum of the amounts of the day. */
   | 'amount'
+  /**
+   * An amount accumulated since the forecast reference time (mm after scaling): lengths of liquid water in
+   * metres, CF `lwe_thickness_of_precipitation_amount`, as forecast centres store total precipitation.
+   * De-accumulated to per-step amounts first (acc(t0) = 0), then summed per day.
+   */
+  | 'accumulation'
   /** A rate (mm/day after scaling); daily value = mean of the day's rates. */
   | 'rate';
 
@@ -71,7 +77,7 @@ const HUMIDITY: Readonly<Record<string, UnitRule>> = {
 };
 
 const PRECIPITATION: Readonly<Record<string, UnitRule>> = {
-  m: { scale: MM_PER_M, offset: 0, kind: 'amount' },
+  m: { scale: MM_PER_M, offset: 0, kind: 'accumulation' },
   mm: { scale: 1, offset: 0, kind: 'amount' },
   'kgm-2': { scale: 1, offset: 0, kind: 'amount' },
   'kgm-2s-1': { scale: SECONDS_PER_DAY, offset: 0, kind: 'rate' },

@@ -139,4 +139,37 @@ describe('deliverPending over SMTP', () => {
     const later = await deliverPending(ledger, deliveryConfig(smtp.port, join(dir, 'outbox')), silentLogger);
     expect(later.sent).toBe(5);
   });
+
+  it.each(['starttls', 'tls'] as const)('security %s encrypts the session and authenticates with the password from the environment', async (security) => {
+    // smtp-server's built-in certificate is self-signed: accept it for this test only.
+    const before = process.env.NODE_TLS_REJECT_UNAUTHORIZED;
+    process.env.NODE_TLS_REJECT_UNAUTHORIZED = '0';
+    const smtp = await startSmtp({}, { security, auth: { user: 'forelight', pass: 's3cret' } });
+    const dir = tempDir(`smtp-${security}`);
+    const ledger = openLedger(join(dir, 'ledger.sqlite'));
+    cleanups.push(() => ledger.close(), () => smtp.close(), () => {
+      if (before === undefined) delete process.env.NODE_TLS_REJECT_UNAUTHORIZED;
+      else process.env.NODE_TLS_REJECT_UNAUTHORIZED = before;
+    });
+    const cfg = deliveryConfig(smtp.port, join(dir, 'outbox'), {
+      smtp: { host: '127.0.0.1', port: smtp.port, security, timeoutSeconds: 2, user: 'forelight', passwordEnv: 'FORELIGHT_SMTP_PASSWORD' },
+    });
+    const r = await issueForecast(ledger, '2026-11-26', sampleBulletins().slice(1, 2), cfg, silentLogger, { env: { FORELIGHT_SMTP_PASSWORD: 's3cret' } });
+    expect(r.summary).toMatchObject({ sent: 1 });
+    expect(smtp.received[0]).toMatchObject({ secure: true, user: 'forelight' });
+  });
+
+  it('a refused login (535) stops delivery with one line; every delivery stays pending', async () => {
+    const smtp = await startSmtp({}, { auth: { user: 'forelight', pass: 'right' } });
+    const dir = tempDir('smtp-auth');
+    const ledger = openLedger(join(dir, 'ledger.sqlite'));
+    cleanups.push(() => ledger.close(), () => smtp.close());
+    const cfg = deliveryConfig(smtp.port, join(dir, 'outbox'), {
+      smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 2, user: 'forelight', passwordEnv: 'FORELIGHT_SMTP_PASSWORD' },
+    });
+    const err = await issueForecast(ledger, '2026-11-26', sampleBulletins(), cfg, silentLogger, { env: { FORELIGHT_SMTP_PASSWORD: 'wrong' } }).catch((e: Error) => e);
+    expect((err as Error).message).toMatch(/^SMTP server 127\.0\.0\.1:\d+ refused the login of forelight: EAUTH 535 .* — check smtp\.user and the password in FORELIGHT_SMTP_PASSWORD; unsent bulletins stay pending$/);
+    expect(pendingDeliveries(ledger)).toHaveLength(5);
+    expect(smtp.received).toHaveLength(0);
+  });
 });

@@ -60,6 +60,9 @@ export function deliveryConfig(port: number | null, outbox: string, overrides: P
 }
 
 export interface Received {
+  /** Whether the session was encrypted (implicit TLS or after STARTTLS) and who authenticated. */
+  readonly secure: boolean;
+  readonly user: string | null;
   readonly from: string;
   readonly to: readonly string[];
   readonly raw: Buffer;
@@ -82,12 +85,25 @@ export interface SmtpFixture {
   close(): Promise<void>;
 }
 
-export async function startSmtp(faults: Faults = {}): Promise<SmtpFixture> {
+/**
+ * `security`: 'none' (plain), 'starttls' (STARTTLS offered), 'tls' (implicit TLS) — both with smtp-server's
+ * built-in self-signed certificate. `auth`: require AUTH PLAIN/LOGIN with this user and password.
+ */
+export async function startSmtp(
+  faults: Faults = {},
+  options: { security?: 'none' | 'starttls' | 'tls'; auth?: { user: string; pass: string } } = {},
+): Promise<SmtpFixture> {
   const received: Received[] = [];
   const fixture = { port: 0, received, faults, close: async () => {} };
+  const security = options.security ?? 'none';
   const server: SMTPServer = new SMTPServer({
-    authOptional: true,
-    disabledCommands: ['STARTTLS', 'AUTH'],
+    secure: security === 'tls',
+    authOptional: !options.auth,
+    disabledCommands: [...(security === 'starttls' ? [] : ['STARTTLS']), ...(options.auth ? [] : ['AUTH'])],
+    onAuth(auth, _session, callback) {
+      if (auth.username === options.auth?.user && auth.password === options.auth?.pass) return callback(null, { user: auth.username });
+      callback(Object.assign(new Error('invalid credentials'), { responseCode: 535 }));
+    },
     logger: false,
     disableReverseLookup: true,
     onRcptTo(address, _session, callback) {
@@ -108,7 +124,7 @@ export async function startSmtp(faults: Faults = {}): Promise<SmtpFixture> {
         if (fault) return callback(fault);
         const raw = Buffer.concat(chunks);
         const messageId = /^Message-ID:\s*(<[^>]+>)/im.exec(raw.toString('utf8'))?.[1] ?? '';
-        received.push({ from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '', to, raw, messageId });
+        received.push({ secure: session.secure, user: (session.user as string | undefined) ?? null, from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '', to, raw, messageId });
         callback();
       });
     },

@@ -99,6 +99,10 @@ describe('runs', () => {
     expect(next.kind).toBe('new');
     expect(deliveryCounts(ledger, old.id)).toMatchObject({ sent: 1, superseded: 4, pending: 0 });
     expect(beginRun(ledger, '2026-11-23').kind).toBe('already-issued');
+    // A forced re-issue of an older key leaves the newer run's unsent deliveries alone.
+    recordBulletins(ledger, next.run.id, sampleBulletins('2026-11-26'));
+    beginRun(ledger, '2026-11-23', { force: true });
+    expect(deliveryCounts(ledger, next.run.id)).toMatchObject({ pending: 5, superseded: 0 });
   });
 
   it('a key that ended nothing-new is not blocked: late data for it starts a new run', () => {

@@ -1,4 +1,5 @@
 /** Bad input gives one-line InputErrors naming the file and what to do. */
+import { execFileSync, spawnSync } from 'node:child_process';
 import { copyFileSync, mkdtempSync, rmSync, truncateSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -93,5 +94,30 @@ describe('checkHdf5Filters (mocked filter lists: ncgen/nccopy here cannot write 
     );
     expect(() => checkHdf5Filters('a.nc', 'tp', [{ id: 32001 }])).toThrow(/filter 32001 \(blosc\)/);
     expect(() => checkHdf5Filters('a.nc', 'tp', [{ id: 40000 }])).toThrow(/filter 40000 \(unknown\)/);
+  });
+});
+
+// h5py (HDF5 for Python) writes a filter it does not have when allow_unknown_filter=True (then stored as
+// optional and skipped at write time). The test is skipped where /usr/bin/python3 has no h5py.
+const hasH5py = spawnSync('/usr/bin/python3', ['-c', 'import h5py']).status === 0;
+const H5PY_SCRIPT = `
+import sys, h5py, numpy as np
+with h5py.File(sys.argv[1], 'w') as f:
+    f.create_dataset('v', data=np.arange(12, dtype='f4').reshape(3, 4), chunks=(1, 4), compression=32015, compression_opts=(3,), allow_unknown_filter=True)
+    f.create_dataset('plain', data=np.arange(6, dtype='i2').reshape(2, 3))
+`;
+
+describe.skipIf(!hasH5py)('a plain HDF5 file written by h5py with a zstd (32015) filter', () => {
+  it('refuses the zstd variable by name and reads the other one with netCDF-C style phony dimensions', async () => {
+    const file = join(tmp, 'zstd.h5');
+    execFileSync('/usr/bin/python3', ['-c', H5PY_SCRIPT, file]);
+    const ds = await openDataset(file);
+    try {
+      await expect(ds.readRaw('v', [0, 0], [1, 4])).rejects.toThrow(/variable 'v' is compressed with HDF5 filter 32015 \(zstd\)/);
+      expect(ds.variable('plain')).toMatchObject({ dimensions: ['phony_dim_0', 'phony_dim_1'], shape: [2, 3], type: 'short' });
+      expect(Array.from(await ds.readRaw('plain', [1, 1], [1, 2]))).toEqual([4, 5]); // numpy arange(6).reshape(2, 3)[1, 1:3]
+    } finally {
+      await ds.close();
+    }
   });
 });

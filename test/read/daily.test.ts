@@ -44,8 +44,21 @@ describe('stepIntervals + planLocalDays', () => {
     expect(Array.from(plan.dayOfStep)).toEqual([-1, 0, 0, 0, 0, -1]);
   });
 
-  it('daily input passes through, dated by the stamp', () => {
+  it('daily input passes through, dated by the stamp when stamped at the start (or without a reference time)', () => {
     const plan = planLocalDays(stepIntervals({ stampsMs: stamps([0, 24, 48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), 1);
+    expect(plan.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+    const noRef = planLocalDays(stepIntervals({ stampsMs: stamps([24, 48]), boundsMs: null, referenceMs: null, periodEndingAtStamp: true, accumulated: false }), 1);
+    expect(noRef.days).toEqual(['2026-11-24', '2026-11-25']);
+  });
+
+  it('daily accumulation with a step 0 at the reference time: the zero-length first step is no day of its own', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([0, 24, 48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: true }), 1);
+    expect(plan.days).toEqual(['2026-11-23', '2026-11-24']);
+    expect(Array.from(plan.dayOfStep)).toEqual([-1, 0, 1]);
+  });
+
+  it('daily maxima stamped 24 h, 48 h … after the reference time belong to the day before the stamp', () => {
+    const plan = planLocalDays(stepIntervals({ stampsMs: stamps([24, 48, 72]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), 1);
     expect(plan.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
   });
 

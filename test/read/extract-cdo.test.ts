@@ -89,4 +89,18 @@ describe('daily reduction per cell then area mean vs cdo fldmean -daymax / -daym
     expect(got.times).toEqual(cdo.dates.slice(0, 3));
     expectMembersClose(got, cdo, 3);
   });
+
+  it('local days UTC+1 = cdo daymax after shifttime,1hour (cdo-6h-marrow-daymax-utc+1.txt)', async () => {
+    const got = await extractBoxJson(join(DIR, 'sixhourly.nc'), { variable: 't2m', box: { south: -9, north: -6.5, west: -1.5, east: 1.5 }, daily: 'max', utcOffsetHours: 1 });
+    const cdo = readCdo('cdo-6h-marrow-daymax-utc+1.txt');
+    expect(got.times).toEqual(cdo.dates.slice(0, 3));
+    expectMembersClose(got, cdo, 3);
+  });
+
+  it('local days UTC-3 = cdo daymin after shifttime,-3hour; the lone first local evening is dropped (cdo-6h-marrow-daymin-utc-3.txt)', async () => {
+    const got = await extractBoxJson(join(DIR, 'sixhourly.nc'), { variable: 't2m', box: { south: -9, north: -6.5, west: -1.5, east: 1.5 }, daily: 'min', utcOffsetHours: -3 });
+    const cdo = readCdo('cdo-6h-marrow-daymin-utc-3.txt');
+    expect(got.times).toEqual(cdo.dates.slice(1, 4));
+    expectMembersClose(got, { members: cdo.members.map((row) => row.slice(1)) }, 3);
+  });
 });

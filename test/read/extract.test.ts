@@ -85,6 +85,24 @@ describe('extractFromDataset', () => {
     expect(Array.from(series[0].data).map((v) => +v.toFixed(9))).toEqual([12.5, 17.5, 0]);
   });
 
+  it('kg m-2 amounts: per step without bounds (summed), accumulated when time_bnds all start at the reference', async () => {
+    const file = (bounds: number[] | null) => makeFakeDataset({
+      dimensions: { time: 4, lat: 1, lon: 1, nv: 2 },
+      variables: {
+        time: { dimensions: ['time'], attributes: { units: 'hours since 2026-11-23', standard_name: 'time', ...(bounds ? { bounds: 'time_bnds' } : {}) }, data: [6, 12, 18, 24] },
+        time_bnds: { dimensions: ['time', 'nv'], data: bounds ?? new Array(8).fill(0) },
+        lat: { dimensions: ['lat'], attributes: { standard_name: 'latitude' }, data: [-8] },
+        lon: { dimensions: ['lon'], attributes: { standard_name: 'longitude' }, data: [0] },
+        pr: { dimensions: ['time', 'lat', 'lon'], attributes: { units: 'kg m-2' }, data: [1, 2, 3, 4] },
+      },
+    });
+    const perStep = await extractFromDataset(file(null), { quantities: { precip: 'pr' }, regions: [{ ...MARROW, utcOffsetHours: 0 }] });
+    expect(Array.from(perStep.series[0].data)).toEqual([10]);
+    const accumulated = await extractFromDataset(file([0, 6, 0, 12, 0, 18, 0, 24]), { quantities: { precip: 'pr' }, regions: [{ ...MARROW, utcOffsetHours: 0 }] });
+    expect(Array.from(accumulated.series[0].data)).toEqual([4]);
+    expect(accumulated.series[0].days).toEqual(['2026-11-23']);
+  });
+
   it('a variable with no ensemble dimension counts as one member', async () => {
     const ds = makeFakeDataset({
       dimensions: { time: 2, lat: 2, lon: 3 },

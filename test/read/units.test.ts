@@ -65,8 +65,9 @@ describe('unit strings (UDUNITS-2 / CF spellings)', () => {
     expect(v[0]).toBeCloseTo(want, 9);
   });
 
-  it('amounts, rates and states are told apart (drives the daily sum vs mean)', () => {
-    expect(planUnits('precip', 'm', 'f.nc', 'tp').kind).toBe('amount');
+  it('accumulations, amounts, rates and states are told apart (drives de-accumulation and the daily sum vs mean)', () => {
+    expect(planUnits('precip', 'm', 'f.nc', 'tp').kind).toBe('accumulation');
+    expect(planUnits('precip', 'kg m-2', 'f.nc', 'tp').kind).toBe('amount');
     expect(planUnits('precip', 'kg m-2 s-1', 'f.nc', 'pr').kind).toBe('rate');
     expect(planUnits('tmax', 'K', 'f.nc', 'mx2t6').kind).toBe('state');
   });

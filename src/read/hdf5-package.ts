@@ -1,0 +1,23 @@
+/**
+ * Locates installed packages' ES-module entry files on disk, for the HDF5 reader's two loading tricks:
+ * h5wasm is loaded with require() and worker threads register tsx by file URL.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+
+type ExportTarget = string | { import?: string | { default: string }; default?: string };
+
+/** Absolute path of `name`'s export `subpath` (its "import" condition); reads package.json directly,
+ * since some packages (h5wasm) do not export it. */
+export function packageExportPath(name: string, subpath: string): string {
+  const roots = createRequire(import.meta.url).resolve.paths(name) ?? [];
+  const pkgPath = roots.map((r) => join(r, name, 'package.json')).find((p) => existsSync(p));
+  if (!pkgPath) throw new Error(`package ${name} is not installed (run npm ci)`);
+  const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, ExportTarget> };
+  const entry = pkg.exports[subpath];
+  const target = typeof entry === 'string' ? entry : entry.import ?? entry.default;
+  const file = typeof target === 'string' ? target : target?.default;
+  if (!file) throw new Error(`package ${name} has no import export '${subpath}'`);
+  return join(dirname(pkgPath), file);
+}
