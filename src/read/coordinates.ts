@@ -85,21 +85,22 @@ function findAxisVariable(ds: Dataset, axis: 'X' | 'Y'): VariableInfo {
   const standard = axis === 'Y' ? 'latitude' : 'longitude';
   const units = axis === 'Y' ? LAT_UNITS : LON_UNITS;
   const names = axis === 'Y' ? ['lat', 'latitude', 'y'] : ['lon', 'longitude', 'x'];
-  const found = pick(ds, [
-    (v) => attr(v, 'standard_name') === standard,
-    (v) => hasUnits(v, units),
-    (v) => attr(v, 'axis')?.toUpperCase() === axis && v.dimensions.length === 1,
-    (v) => names.includes(v.name.toLowerCase()),
-  ]);
-  if (!found) {
-    throw new InputError('no-coordinate', ds.path, `no ${standard} coordinate (standard_name ${standard} or units ${units[0]})`,
-      `add CF attributes to the ${standard} variable (e.g. ncatted -a units,<var>,o,c,${units[0]})`);
-  }
-  if (found.dimensions.length !== 1) {
-    throw new InputError('grid-unsupported', ds.path, `${standard} variable '${found.name}' has ${found.dimensions.length} dimensions (curvilinear grid)`,
+  const tests = [
+    (v: VariableInfo) => attr(v, 'standard_name') === standard,
+    (v: VariableInfo) => hasUnits(v, units),
+    (v: VariableInfo) => attr(v, 'axis')?.toUpperCase() === axis,
+    (v: VariableInfo) => names.includes(v.name.toLowerCase()),
+  ];
+  // 1-D coordinates first, so that e.g. a `lat_bnds` carrying units degrees_north is never taken for them.
+  const found = pick(ds, tests.map((t) => (v: VariableInfo) => v.dimensions.length === 1 && t(v)));
+  if (found) return found;
+  const curvilinear = pick(ds, tests.slice(0, 2).map((t) => (v: VariableInfo) => v.dimensions.length === 2 && t(v)));
+  if (curvilinear) {
+    throw new InputError('grid-unsupported', ds.path, `${standard} variable '${curvilinear.name}' has 2 dimensions (curvilinear grid)`,
       'regrid to a regular latitude-longitude grid first (e.g. cdo remapbil)');
   }
-  return found;
+  throw new InputError('no-coordinate', ds.path, `no ${standard} coordinate (standard_name ${standard} or units ${units[0]})`,
+    `add CF attributes to the ${standard} variable (e.g. ncatted -a units,<var>,o,c,${units[0]})`);
 }
 
 /** All CF-decoded values of a (small, coordinate) variable. */

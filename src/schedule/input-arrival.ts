@@ -26,7 +26,9 @@ export interface ArrivalResult {
 
 /**
  * Poll until every path exists with a non-zero size that did not change between two polls (a file still
- * being copied keeps growing), or until `deadline`. Returns which files arrived and which did not.
+ * being copied keeps growing), or until `deadline`. A file first seen at the deadline (e.g. a catch-up run
+ * long after its slot) gets one more poll, at most 2 s later, to confirm it. `signal` (service stop) ends
+ * the wait early. Returns which files arrived and which did not.
  */
 export async function waitForInputs(
   expectedPaths: readonly string[],
@@ -34,9 +36,11 @@ export async function waitForInputs(
   pollSeconds: number,
   sleep: (ms: number) => Promise<void> = (ms) => new Promise((r) => setTimeout(r, ms)),
   now: () => Date = () => new Date(),
+  signal?: AbortSignal,
 ): Promise<ArrivalResult> {
   const lastSize = new Map<string, number>();
   const arrived = new Set<string>();
+  let confirmedAtDeadline = false;
   for (;;) {
     for (const path of expectedPaths) {
       if (arrived.has(path)) continue;
@@ -46,10 +50,23 @@ export async function waitForInputs(
       else lastSize.delete(path);
     }
     const missing = expectedPaths.filter((p) => !arrived.has(p));
+    const result = { arrived: expectedPaths.filter((p) => arrived.has(p)), missing };
+    if (missing.length === 0 || signal?.aborted) return result;
     const left = deadline.getTime() - now().getTime();
-    if (missing.length === 0 || left <= 0) return { arrived: expectedPaths.filter((p) => arrived.has(p)), missing };
-    await sleep(Math.min(pollSeconds * 1000, left));
+    if (left <= 0) {
+      if (confirmedAtDeadline || !missing.some((p) => lastSize.has(p))) return result;
+      confirmedAtDeadline = true;
+      await abortable(sleep(Math.min(pollSeconds * 1000, 2000)), signal);
+      continue;
+    }
+    await abortable(sleep(Math.min(pollSeconds * 1000, left)), signal);
   }
+}
+
+/** Resolves when `p` does or when `signal` aborts. */
+function abortable(p: Promise<void>, signal: AbortSignal | undefined): Promise<void> {
+  if (!signal) return p;
+  return Promise.race([p, new Promise<void>((resolve) => signal.addEventListener('abort', () => resolve(), { once: true }))]);
 }
 
 export interface LatestInput {

@@ -43,6 +43,27 @@ describe('findCoordinates', () => {
     expect(c.member).toEqual({ dimension: 'number', size: 3 });
   });
 
+  it('a bounds variable with latitude units is not taken for the coordinate; a 2-D latitude is refused as curvilinear', async () => {
+    const ds = makeFakeDataset({
+      dimensions: { y: 2, x: 1, nv: 2 },
+      variables: {
+        y_bnds: { dimensions: ['y', 'nv'], attributes: { units: 'degrees_north' }, data: [-11, -9, -9, -7] },
+        lon: { dimensions: ['x'], attributes: { units: 'degrees_east' }, data: [0] },
+        y: { dimensions: ['y'], attributes: { units: 'degrees_north', bounds: 'y_bnds' }, data: [-10, -8] },
+      },
+    });
+    expect((await findCoordinates(ds)).grid.latName).toBe('y');
+    const curvi = makeFakeDataset({
+      path: 'curvi.nc',
+      dimensions: { j: 1, i: 2 },
+      variables: {
+        nav_lat: { dimensions: ['j', 'i'], attributes: { standard_name: 'latitude' }, data: [1, 2] },
+        nav_lon: { dimensions: ['j', 'i'], attributes: { standard_name: 'longitude' }, data: [1, 2] },
+      },
+    });
+    await expect(findCoordinates(curvi)).rejects.toThrow(/curvi\.nc: latitude variable 'nav_lat' has 2 dimensions \(curvilinear grid\) — regrid/);
+  });
+
   it('no latitude coordinate → InputError naming the file and what to add', async () => {
     const ds = makeFakeDataset({ path: 'bad.nc', dimensions: { a: 1 }, variables: { v: { dimensions: ['a'], data: [1] } } });
     await expect(findCoordinates(ds)).rejects.toThrow(/bad\.nc: no latitude coordinate .* — add CF attributes/);

@@ -78,6 +78,25 @@ describe('data arrival', () => {
     expect(slept).toEqual([240_000, 240_000, 120_000]);
   });
 
+  it('past the deadline (catch-up run), complete files still count after one confirming poll', async () => {
+    const dir = tempDir('catchup-files');
+    const p = join(dir, 'fc_20261126.nc');
+    writeFileSync(p, 'complete');
+    const slept: number[] = [];
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, async (ms) => { slept.push(ms); });
+    expect(result).toEqual({ arrived: [p], missing: [] });
+    expect(slept).toEqual([2000]);
+  });
+
+  it('an aborted signal (service stop) ends the wait at once', async () => {
+    const stop = new AbortController();
+    const waiting = waitForInputs([join(tempDir('abort'), 'never.nc')], new Date(Date.now() + 3_600_000), 60, undefined, undefined, stop.signal);
+    stop.abort();
+    const t0 = Date.now();
+    expect((await waiting).missing).toHaveLength(1);
+    expect(Date.now() - t0).toBeLessThan(1000);
+  });
+
   it('resolveLatestInputs falls back to the newest earlier forecast and flags it stale', () => {
     const dir = tempDir('latest');
     const pattern = join(dir, 'subseasonal_{date}.nc');
