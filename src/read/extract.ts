@@ -8,14 +8,14 @@ import type { RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../errors.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import { findCoordinates, layoutVariable, type FileCoordinates } from './coordinates.ts';
-import type { Dataset } from './dataset.ts';
+import type { Dataset, VariableInfo } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
 import { dailyMethodFor, planTime, referenceTimeMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
 import { openDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
 import { describeShape, selectRegionCells, type RegionCells } from './regions.ts';
-import { planUnits } from './units.ts';
+import { planUnits, type UnitPlan } from './units.ts';
 
 export interface ExtractRequest {
   /** Canonical quantity → variable name in the file. */
@@ -145,12 +145,13 @@ export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions
   const cells = selectRegionCells(coords.grid, region, ds.path);
   const { band, regions } = planBand([cells], coords.grid.lat.length, coords.grid.lon.length);
   const layout = layoutVariable(ds, coords, opts.variable);
-  const timePlan = planTime(coords, layout, null);
+  const unitPlan = canonicalUnitPlan(layout.info, ds.path);
+  const timePlan = planTime(coords, layout, unitPlan);
   if (opts.daily && !timePlan.intervals) {
     throw new InputError('time-missing', ds.path, `variable '${opts.variable}' has no time axis`, 'drop --daily or choose a variable with a CF time coordinate');
   }
   const [mean] = await reduceVariable(ds, coords, {
-    layout, band, regions, intervals: timePlan.intervals, unitPlan: null, accumulated: false,
+    layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
     utcOffsets: [region.utcOffsetHours], daily: opts.daily ?? null,
   });
   const steps = mean.labels.length;
@@ -158,8 +159,31 @@ export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions
   for (let m = 0; m < mean.data.length / steps; m++) {
     members.push(Array.from(mean.data.subarray(m * steps, (m + 1) * steps), (v) => (v === v ? v : null)));
   }
-  const units = layout.info.attributes.units;
+  const units = unitPlan?.units ?? layout.info.attributes.units;
   return { units: typeof units === 'string' ? units : '', times: [...mean.labels], members, cells: cells.weights.length };
+}
+
+/** Quantities tried, in order, to find a variable's canonical units for `extract` (standard_name breaks ties). */
+const GUESS_ORDER: readonly Quantity[] = ['tmean', 'rh', 'precip', 'wind'];
+
+/**
+ * The conversion of a variable to canonical units (°C, %, mm/day, m/s) judged from its units and standard_name,
+ * or null when it is none of those quantities (values are then printed in the file's own units).
+ */
+export function canonicalUnitPlan(info: VariableInfo, file: string): UnitPlan | null {
+  const units = info.attributes.units;
+  const standardName = String(info.attributes.standard_name ?? '');
+  if (typeof units !== 'string') return null;
+  const fits = GUESS_ORDER.flatMap((q) => {
+    try {
+      return [planUnits(q, units, file, info.name)];
+    } catch {
+      return [];
+    }
+  });
+  if (fits.length <= 1) return fits[0] ?? null;
+  const byName = fits.find((p) => (p.quantity === 'wind' ? /wind/ : p.quantity === 'precip' ? /precipitation|rain/ : /temperature/).test(standardName));
+  return byName ?? null;
 }
 
 /** `forelight extract <file> --var … --box S,N,W,E [--daily m] [--utc-offset h] --json`: opens, extracts, closes. */

@@ -34,10 +34,11 @@ export async function waitForInputs(
   expectedPaths: readonly string[],
   deadline: Date,
   pollSeconds: number,
-  sleep: (ms: number) => Promise<void> = (ms) => new Promise((r) => setTimeout(r, ms)),
+  sleep?: (ms: number) => Promise<void>,
   now: () => Date = () => new Date(),
   signal?: AbortSignal,
 ): Promise<ArrivalResult> {
+  const pause = sleep ? (ms: number) => abortable(sleep(ms), signal) : (ms: number) => timer(ms, signal);
   const lastSize = new Map<string, number>();
   const arrived = new Set<string>();
   let confirmedAtDeadline = false;
@@ -56,17 +57,28 @@ export async function waitForInputs(
     if (left <= 0) {
       if (confirmedAtDeadline || !missing.some((p) => lastSize.has(p))) return result;
       confirmedAtDeadline = true;
-      await abortable(sleep(Math.min(pollSeconds * 1000, 2000)), signal);
+      await pause(Math.min(pollSeconds * 1000, 2000));
       continue;
     }
-    await abortable(sleep(Math.min(pollSeconds * 1000, left)), signal);
+    await pause(Math.min(pollSeconds * 1000, left));
   }
 }
 
-/** Resolves when `p` does or when `signal` aborts. */
+/** A timer that an abort clears (so a stopped service does not linger until the next poll). */
+function timer(ms: number, signal: AbortSignal | undefined): Promise<void> {
+  return new Promise((resolve) => {
+    const onAbort = () => { clearTimeout(t); resolve(); };
+    const t = setTimeout(() => { signal?.removeEventListener('abort', onAbort); resolve(); }, ms);
+    signal?.addEventListener('abort', onAbort, { once: true });
+  });
+}
+
+/** Resolves when `p` does or when `signal` aborts (listener removed either way). */
 function abortable(p: Promise<void>, signal: AbortSignal | undefined): Promise<void> {
   if (!signal) return p;
-  return Promise.race([p, new Promise<void>((resolve) => signal.addEventListener('abort', () => resolve(), { once: true }))]);
+  let onAbort = () => {};
+  const aborted = new Promise<void>((resolve) => { onAbort = resolve; signal.addEventListener('abort', onAbort, { once: true }); });
+  return Promise.race([p, aborted]).finally(() => signal.removeEventListener('abort', onAbort));
 }
 
 export interface LatestInput {

@@ -120,18 +120,18 @@ describe('extractFromDataset', () => {
 });
 
 describe('extractBoxFromDataset (forelight extract --json)', () => {
-  it('prints file units, ISO steps or local dates, members in file order, null where a member has no valid cell', async () => {
+  it('prints canonical units (K → degC), ISO steps or local dates, members in file order, null where a member has no valid cell', async () => {
     const ds = sixHourlyMax((m, t) => (m === 1 && t < 4 ? NaN : 300 + t));
     const box = { south: -9, north: -6.5, west: -1.5, east: 1.5 };
     const steps = await extractBoxFromDataset(ds, { variable: 'mx2t6', box });
-    expect(steps.units).toBe('K');
+    expect(steps.units).toBe('degC');
     expect(steps.cells).toBe(9);
     expect(steps.times.slice(0, 2)).toEqual(['2026-11-23T06:00:00Z', '2026-11-23T12:00:00Z']);
     const round = (rows: (number | null)[][]) => rows.map((r) => r.map((v) => (v === null ? null : +v.toFixed(9))));
-    expect(round(steps.members)[1].slice(0, 5)).toEqual([null, null, null, null, 304]);
+    expect(round(steps.members)[1].slice(0, 5)).toEqual([null, null, null, null, 30.85]);
     const daily = await extractBoxFromDataset(ds, { variable: 'mx2t6', box, daily: 'max', utcOffsetHours: 1 });
     expect(daily.times).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
-    expect(round(daily.members)).toEqual([[303, 307, 311], [null, 307, 311]]);
+    expect(round(daily.members)).toEqual([[29.85, 33.85, 37.85], [null, 33.85, 37.85]]);
   });
 });
 
