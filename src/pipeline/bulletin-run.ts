@@ -3,11 +3,12 @@
  * previous issue — no number is recomputed here.
  */
 import type { Config, StageConfig } from '../config/types.ts';
-import { diffStages, type RegionStageLike } from '../decide/diff.ts';
+import type { RegionStageLike } from '../decide/diff.ts';
 import type { RegionStage } from '../decide/types.ts';
 import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
 import { computeNextRuns } from '../schedule/next-runs.ts';
 import type { IsoDate, LeadProbability, StageDecision } from '../types.ts';
+import { changeReason } from './change-reason.ts';
 import type { SourceRead } from './read-stage.ts';
 
 export interface BulletinRunInput {
@@ -51,11 +52,9 @@ function stageById(config: Config, id: string): StageConfig {
 
 export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
   const { config } = input;
-  const changes = new Map(diffStages(input.previous, input.regionStages, input.decisions).map((c) => [c.region, c]));
   const previousStage = new Map(input.previous.map((p) => [p.region, p.stageId]));
   const regions: RegionOutcome[] = config.regions.map((region) => {
     const stageId = input.regionStages.find((r) => r.region === region.id)?.stageId ?? config.stages[0].id;
-    const change = changes.get(region.id);
     const perTier: TierOutcome[] = input.decisions
       .filter((d) => d.region === region.id)
       .map((decision) => {
@@ -70,12 +69,9 @@ export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
           probabilities,
         };
       });
-    const changeReason = change
-      ? change.why
-      : previousStage.has(region.id)
-        ? 'no change since the last bulletin'
-        : 'first bulletin for this region';
-    return { region, stage: stageById(config, stageId), previousStageId: previousStage.get(region.id) ?? null, changeReason, perTier };
+    const previousStageId = previousStage.get(region.id) ?? null;
+    const reason = changeReason(config, stageId, perTier.map((t) => t.decision));
+    return { region, stage: stageById(config, stageId), previousStageId, changeReason: reason, perTier };
   });
   return {
     runId: input.runId,
