@@ -114,7 +114,10 @@ export async function main(argv: readonly string[]): Promise<number> {
       return EXIT.configInvalid;
     }
     process.stderr.write(`forelight: ${describeError(err)}\n`);
-    if (err instanceof ForelightError) return err.stage === 'cli' ? EXIT.usage : err.stage === 'read' ? EXIT.inputProblem : EXIT.unexpected;
+    if (err instanceof ForelightError) {
+      if (err.code === 'run-in-progress') return EXIT.locked;
+      return err.stage === 'cli' ? EXIT.usage : err.stage === 'read' ? EXIT.inputProblem : EXIT.unexpected;
+    }
     return EXIT.unexpected;
   }
 }

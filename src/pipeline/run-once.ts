@@ -16,7 +16,7 @@ import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/
 import type { Logger } from '../log.ts';
 import type { PreviousIssue } from '../render/model.ts';
 import { renderBulletins } from '../render/render-bulletins.ts';
-import { EXIT, type ExitCode } from '../schedule/exit-codes.ts';
+import { EXIT, exitCodeForDeliveries, type ExitCode } from '../schedule/exit-codes.ts';
 import type { IsoDate } from '../types.ts';
 import { analyse, type Analysis } from './analyse.ts';
 import { buildBulletinRun, combineByRegion } from './bulletin-run.ts';
@@ -123,11 +123,12 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
       throw err;
     }
     const sent = await deliverPending(ledger, config.delivery, rlog, { ...options.deliver, runId });
-    const status = problems.length > 0 || sent.failed > 0 ? 'partial' : 'ok';
+    const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
+    const status = problems.length > 0 || deliveryCode !== EXIT.ok ? 'partial' : 'ok';
     finishRun(ledger, runId, status, problems.length > 0 ? problems.join(' | ') : undefined);
     const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)`;
     rlog.info(summary, { stage: 'deliver' });
-    const exitCode = sent.failed > 0 || sent.pending > 0 ? EXIT.deliveryFailed : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
+    const exitCode = deliveryCode !== EXIT.ok ? deliveryCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
     return { exitCode, summary, runId };
   } finally {
     ledger.close();

@@ -1,13 +1,30 @@
 /** `forelight run`: one pass now over the newest inputs (or `--dry-run`: what would change, nothing sent). */
 import { runOnce } from '../../pipeline/run-once.ts';
+import { EXIT } from '../../schedule/exit-codes.ts';
+import { acquireLock } from '../../schedule/lock-file.ts';
+import { servicePaths } from '../../schedule/run-service.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
 import { diffCommand } from './diff.ts';
 
+/** A lock older than this is stale even if its process still lives (same as the service's default). */
+const LOCK_MAX_AGE_SECONDS = 6 * 3600;
+
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
   const { config, log, issueDate } = await commandContext(args, 'run');
-  const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true });
-  process.stdout.write(outcome.summary + '\n');
-  return outcome.exitCode;
+  const { lockPath } = servicePaths(config.ledger);
+  const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
+  if (!got.acquired) {
+    const holder = got.holder ? `process ${got.holder.pid} on ${got.holder.host} since ${got.holder.startedAt}` : 'another process';
+    process.stderr.write(`forelight: another run holds ${lockPath} (${holder}) — wait for it, or remove the file if that process is gone\n`);
+    return EXIT.locked;
+  }
+  try {
+    const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true });
+    process.stdout.write(outcome.summary + '\n');
+    return outcome.exitCode;
+  } finally {
+    got.lock.release();
+  }
 }

@@ -23,7 +23,7 @@ export async function serveCommand(args: ParsedArgs): Promise<number> {
       // Seasonal (months-tier) forecasts come once a month: the newest one is used, nobody waits for it.
       const expected = config.sources.filter((s) => s.tier !== 'months').map((s) => forecastPath(s.forecast, issueDate));
       const deadline = new Date(slot.getTime() + config.schedule.waitForDataMinutes * 60_000);
-      const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds);
+      const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, undefined, undefined, signal);
       if (arrival.missing.length > 0) rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
       if (signal.aborted) return { exitCode: EXIT.ok, summary: 'stopped before the run' };
       return runOnce({ config, log: rlog, issueDate, mode: 'live' });
