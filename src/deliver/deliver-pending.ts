@@ -25,7 +25,7 @@ import { isProcessAlive } from '../schedule/process-alive.ts';
 import type { DeliveryReceipt } from '../types.ts';
 import { composeMessage, messageIdFor, renderEml } from './compose-message.ts';
 import { notifyOperators } from './operator-notice.ts';
-import { ensureOutboxWritable, outboxBaseName, writeOutboxFiles } from './outbox.ts';
+import { ensureOutboxWritable, htmlWithInlineImages, outboxBaseName, writeOutboxFiles } from './outbox.ts';
 import { classifySmtpError, createSmtpTransport, type SmtpFailure, type SmtpTransporter } from './smtp-transport.ts';
 
 /** Points where `onStep` is awaited (fault injection in tests: pause, crash). */
@@ -160,7 +160,7 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
         try {
           [outboxPath] = writeOutboxFiles(delivery.outbox, outboxBaseName(bulletin.forecastKey, bulletin.runId, bulletin.team, claimed.recipient), [
             { ext: 'eml', content: await renderEml(message) },
-            { ext: 'html', content: bulletin.html },
+            { ext: 'html', content: htmlWithInlineImages(bulletin) },
           ]);
         } catch (err) {
           // Not sent and no copy: keep it pending for the next run, never drop it.

@@ -3,6 +3,7 @@
  * here as `.eml` (RFC 5322, open with any mail client) plus `.html` for a browser. Files are written to a
  * temporary name and renamed, so a crash never leaves half a message; re-writing the same message replaces it.
  */
+import type { Bulletin } from '../types.ts';
 import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve, sep } from 'node:path';
 import { DeliveryError } from '../errors.ts';
@@ -56,4 +57,16 @@ export function writeOutboxFiles(dir: string, baseName: string, files: readonly 
   } catch (err) {
     throw outboxError(dir, err);
   }
+}
+
+/**
+ * The bulletin's HTML with `cid:` image references replaced by data: URLs of its attachments, so the outbox's
+ * `.html` copy shows its charts when opened in a browser (the `.eml` keeps the CID parts).
+ */
+export function htmlWithInlineImages(bulletin: Pick<Bulletin, 'html' | 'attachments'>): string {
+  let html = bulletin.html;
+  for (const a of bulletin.attachments) {
+    html = html.split(`cid:${a.cid}`).join(`data:${a.contentType};base64,${Buffer.from(a.content).toString('base64')}`);
+  }
+  return html;
 }

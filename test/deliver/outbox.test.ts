@@ -9,7 +9,7 @@ import { simpleParser } from 'mailparser';
 import { afterEach, describe, expect, it } from 'vitest';
 import { deliverPending } from '../../src/deliver/deliver-pending.ts';
 import { sendOperatorNotice } from '../../src/deliver/operator-notice.ts';
-import { outboxBaseName, safeNamePart } from '../../src/deliver/outbox.ts';
+import { htmlWithInlineImages, outboxBaseName, safeNamePart } from '../../src/deliver/outbox.ts';
 import { recordBulletins } from '../../src/ledger/bulletins.ts';
 import { listDeliveries, pendingDeliveries } from '../../src/ledger/deliveries.ts';
 import { openLedger, type Ledger } from '../../src/ledger/open-ledger.ts';
@@ -100,5 +100,13 @@ describe('outbox delivery (smtp: null)', () => {
     const mail = await simpleParser(readFileSync(result.detail));
     expect(mail.subject).toBe('[forelight] no new forecast for 2026-11-30');
     expect(mail.to).toMatchObject({ text: ADDR('ops') });
+  });
+});
+
+describe('outbox .html copy', () => {
+  it('replaces cid: image references by data: URLs of the attachments (RFC 2392 cid, RFC 2397 data URL)', () => {
+    const png = Uint8Array.from([0x89, 0x50, 0x4e, 0x47]);
+    const html = htmlWithInlineImages({ html: '<img src="cid:chart-1@forelight"><img src="cid:chart-1@forelight">', attachments: [{ cid: 'chart-1@forelight', filename: 'c.png', contentType: 'image/png', content: png }] });
+    expect(html).toBe('<img src="data:image/png;base64,iVBORw=="><img src="data:image/png;base64,iVBORw==">');
   });
 });
