@@ -1,0 +1,155 @@
+/**
+ * The main job end to end on the invented Veloria sample (real NetCDF files, real SQLite ledger, outbox
+ * delivery): three issues in order, every CAP alert checked with xmllint against the OASIS CAP 1.2 schema,
+ * no duplicate on a re-run, and one bad source never stopping the others.
+ */
+import { execFileSync } from 'node:child_process';
+import { copyFileSync, cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, truncateSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import Database from 'better-sqlite3';
+import { simpleParser } from 'mailparser';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { loadConfig } from '../../src/config/load-config.ts';
+import type { Config } from '../../src/config/types.ts';
+import { silentLogger } from '../../src/log.ts';
+import { runOnce } from '../../src/pipeline/run-once.ts';
+import { EXIT } from '../../src/schedule/exit-codes.ts';
+import { generateSample } from '../../sample-inputs/generate.ts';
+
+const SCHEMA = fileURLToPath(new URL('../reference/CAP-v1.2.xsd', import.meta.url));
+const ISSUES = ['2026-11-23', '2026-11-26', '2026-11-30'];
+
+/** The shipped config with every output (and, optionally, the sample inputs) moved to a fresh folder. */
+function isolatedConfig(base: Config, dir: string, sampleDir?: string): Config {
+  const move = (p: string) => (sampleDir ? p.replace(/.*sample-inputs\/data/, sampleDir) : p);
+  return {
+    ...base,
+    sources: base.sources.map((s) => ({ ...s, forecast: move(s.forecast), hindcast: s.hindcast && move(s.hindcast) })),
+    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
+    ledger: join(dir, 'ledger.sqlite'),
+    delivery: { ...base.delivery, outbox: join(dir, 'outbox'), archive: join(dir, 'archive') },
+    calibration: { ...base.calibration, cacheDir: join(dir, 'cache') },
+  };
+}
+
+function filesUnder(dir: string, ext: string): string[] {
+  if (!existsSync(dir)) return [];
+  return readdirSync(dir, { recursive: true, encoding: 'utf8' }).filter((f) => f.endsWith(ext)).map((f) => join(dir, f));
+}
+
+let sampleDir: string;
+let base: Config;
+
+beforeAll(async () => {
+  sampleDir = mkdtempSync(join(tmpdir(), 'forelight-sample-'));
+  await generateSample(sampleDir);
+  base = await loadConfig();
+}, 120_000);
+
+describe('forelight run on the Veloria sample (three issues in order)', () => {
+  let config: Config;
+  const outcomes: Awaited<ReturnType<typeof runOnce>>[] = [];
+
+  beforeAll(async () => {
+    config = isolatedConfig(base, mkdtempSync(join(tmpdir(), 'forelight-run-')), sampleDir);
+    for (const issueDate of ISSUES) {
+      outcomes.push(await runOnce({ config, log: silentLogger, issueDate, mode: 'exercise', now: () => new Date(`${issueDate}T07:30:00Z`) }));
+    }
+  }, 240_000);
+
+  it('issues each date; the first lacks the monthly seasonal forecast and says so (exit 3), the others are clean (exit 0)', () => {
+    expect(outcomes.map((o) => o.exitCode)).toEqual([EXIT.inputProblem, EXIT.ok, EXIT.ok]);
+    expect(outcomes[0].summary).toMatch(/seasonal none/);
+  });
+
+  it('writes one .eml per bulletin and recipient to the outbox, each Message-ID once (no duplicates)', async () => {
+    const emls = filesUnder(config.delivery.outbox, '.eml');
+    const recipients = config.teams.reduce((n, t) => n + t.recipients.length, 0);
+    expect(emls.length).toBe(ISSUES.length * recipients);
+    const parsed = await Promise.all(emls.map((f) => simpleParser(readFileSync(f))));
+    const ids = parsed.map((m) => m.messageId);
+    expect(ids.every((id) => typeof id === 'string' && id.length > 10)).toBe(true);
+    expect(new Set(ids).size).toBe(emls.length);
+    for (const m of parsed) {
+      expect(m.text).toMatch(/probabilistic|probabilistes/); // the caution, in English or French
+      expect(m.html).toBeTruthy();
+    }
+  });
+
+  it('keeps the audit trail: inputs with sha256, probabilities, decisions and one delivery row per recipient', () => {
+    const db = new Database(config.ledger, { readonly: true });
+    try {
+      const runs = db.prepare('SELECT id, status FROM runs ORDER BY id').all() as { id: number; status: string }[];
+      expect(runs.map((r) => r.status)).toEqual(['partial', 'ok', 'ok']);
+      const inputs = db.prepare('SELECT sha256 FROM input_files WHERE run_id = ?').all(runs[1].id) as { sha256: string }[];
+      expect(inputs.length).toBeGreaterThan(20);
+      for (const i of inputs) expect(i.sha256).toMatch(/^[0-9a-f]{64}$/);
+      expect((db.prepare('SELECT count(*) AS n FROM probabilities WHERE run_id = ?').get(runs[2].id) as { n: number }).n).toBeGreaterThan(100);
+      const statuses = db.prepare('SELECT status, count(*) AS n FROM deliveries GROUP BY status').all() as { status: string; n: number }[];
+      expect(statuses).toEqual([{ status: 'outbox', n: filesUnder(config.delivery.outbox, '.eml').length }]);
+    } finally {
+      db.close();
+    }
+  });
+
+  it('every CAP alert of the run validates against the OASIS CAP 1.2 schema (xmllint, Debian libxml2-utils)', () => {
+    const alerts = filesUnder(config.delivery.archive, '.xml');
+    expect(alerts.length).toBeGreaterThan(0);
+    const out = execFileSync('xmllint', ['--noout', '--schema', SCHEMA, ...alerts], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] });
+    expect(out).toBe('');
+  });
+
+  it('run.json carries the full numbers for downstream systems', () => {
+    const runJson = filesUnder(config.delivery.archive, 'run.json').sort().at(-1) as string;
+    const parsed = JSON.parse(readFileSync(runJson, 'utf8')) as { schema: string; regions: unknown[] };
+    expect(parsed.schema).toBe('forelight-run/1');
+    expect(parsed.regions).toHaveLength(config.regions.length);
+  });
+
+  it('re-running the newest issue sends nothing new (nothing-new, exit 5) and tells the operators', async () => {
+    const before = filesUnder(config.delivery.outbox, '.eml').length;
+    const again = await runOnce({ config, log: silentLogger, issueDate: '2026-11-30', mode: 'exercise' });
+    expect(again.exitCode).toBe(EXIT.nothingNew);
+    const after = filesUnder(config.delivery.outbox, '.eml');
+    expect(after.length).toBe(before + 1);
+    expect(after.filter((f) => f.includes('notice_'))).toHaveLength(1);
+  });
+});
+
+describe('one bad source never stops the others', () => {
+  it('a truncated short-range forecast is reported by file name; the run still issues from the other sources (exit 3)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-bad-'));
+    const copy = join(dir, 'data');
+    cpSync(sampleDir, copy, { recursive: true });
+    const bad = join(copy, 'short', 'short_20261126.nc');
+    truncateSync(bad, 5000);
+    const config = isolatedConfig(base, dir, copy);
+    const outcome = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' });
+    expect(outcome.exitCode).toBe(EXIT.inputProblem);
+    const db = new Database(config.ledger, { readonly: true });
+    try {
+      const run = db.prepare('SELECT status, error FROM runs').get() as { status: string; error: string };
+      expect(run.status).toBe('partial');
+      expect(run.error).toContain('short_20261126.nc');
+      expect(run.error).toMatch(/truncated/);
+      const tiers = db.prepare('SELECT DISTINCT tier FROM probabilities ORDER BY tier').all() as { tier: string }[];
+      expect(tiers.map((t) => t.tier)).toEqual(['months', 'weeks']);
+    } finally {
+      db.close();
+    }
+    expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
+  });
+
+  it('a missing observations file leaves skill unverified against observations but still issues', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-noobs-'));
+    const copy = join(dir, 'data');
+    cpSync(sampleDir, copy, { recursive: true });
+    copyFileSync(join(copy, 'manifest.json'), join(copy, 'observed', 'observed_daily.nc'));
+    const config = isolatedConfig(base, dir, copy);
+    const outcome = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' });
+    expect(outcome.exitCode).toBe(EXIT.inputProblem);
+    expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
+  });
+});
