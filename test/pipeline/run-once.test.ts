@@ -151,5 +151,12 @@ describe('one bad source never stops the others', () => {
     const outcome = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' });
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
+    const db = new Database(config.ledger, { readonly: true });
+    try {
+      const skills = db.prepare("SELECT DISTINCT json_extract(skill_json, '$.basis') AS basis FROM probabilities WHERE skill_json IS NOT NULL").all() as { basis: string }[];
+      expect(skills.map((s) => s.basis)).toEqual(['potential']); // perfect-model estimate, labelled as such
+    } finally {
+      db.close();
+    }
   });
 });
