@@ -10,7 +10,7 @@ import {
   brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, hitRate,
   relativeEconomicValueRichardson2000, rocArea,
 } from '../../src/calibrate/verify.ts';
-import { mulberry32, normal } from './rng.ts';
+import { mulberry32, normal } from '../support/rng.ts';
 
 const script = fileURLToPath(new URL('./reference_scores.py', import.meta.url));
 

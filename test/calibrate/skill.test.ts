@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { applySkillGate, skillByLead, skillReports, type SkillRequest } from '../../src/calibrate/skill.ts';
 import { climate, leadsOf, YEARS_2006_2025 } from './climate-fixture.ts';
-import { mulberry32, normal } from './rng.ts';
+import { mulberry32, normal } from '../support/rng.ts';
 
 const gate = { score: 'rocArea' as const, floor: 0.6, action: 'withhold' as const };
 const years = (n: number) => Array.from({ length: n }, (_, i) => 1000 + i);

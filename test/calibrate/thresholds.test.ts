@@ -8,7 +8,7 @@ import {
 } from '../../src/calibrate/thresholds.ts';
 import type { IndicatorConfig } from '../../src/config/types.ts';
 import { climate, leadsOf, YEARS_2006_2025 } from './climate-fixture.ts';
-import { mulberry32, normal } from './rng.ts';
+import { mulberry32, normal } from '../support/rng.ts';
 
 const gauss = normal(mulberry32(7));
 const weeks = leadsOf('weeks', 3);

@@ -13,18 +13,9 @@ import { listDeliveries } from '../../src/ledger/deliveries.ts';
 import { openLedger } from '../../src/ledger/open-ledger.ts';
 import { silentLogger } from '../../src/log.ts';
 import type { Bulletin } from '../../src/types.ts';
+import { mulberry32 } from '../support/rng.ts';
 import { ADDR, deliveryConfig, issueForecast, sampleBulletin, smtpError, startSmtp, tempDir, type SmtpFixture } from './fixtures.ts';
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 class Crash extends Error {}
 

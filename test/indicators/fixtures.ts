@@ -26,13 +26,4 @@ export function indicator(kind: IndicatorKind, params: IndicatorConfig['params']
 }
 
 /** Deterministic uniform 0..1 generator (mulberry32), so the fixtures are reproducible. */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { mulberry32 as rng } from '../support/rng.ts';
