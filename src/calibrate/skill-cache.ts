@@ -11,7 +11,7 @@ import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { ForelightError } from '../errors.ts';
 
-export const SKILL_CACHE_VERSION = 1;
+export const SKILL_CACHE_VERSION = 2;
 
 async function hashOne(path: string): Promise<string> {
   const h = createHash('sha256');

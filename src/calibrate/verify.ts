@@ -204,7 +204,9 @@ export function bestProbabilityThreshold(p: Vec, o: Vec, alpha: number): ValuePo
   const s = baseRate(o);
   let best: ValuePoint = { alpha, value: Number.NaN, threshold: Number.NaN, hitRate: Number.NaN, falseAlarmRate: Number.NaN };
   for (const pt of rocPoints(p, o)) {
-    if (!Number.isFinite(pt.threshold)) continue;
+    // p >= 0 is "always warn": a trigger that fires whatever the forecast says is no trigger (its value is 0
+    // by construction, Richardson 2000), so only thresholds above 0 are candidates.
+    if (!Number.isFinite(pt.threshold) || pt.threshold <= 0) continue;
     const v = relativeEconomicValueRichardson2000(pt.hitRate, pt.falseAlarmRate, s, alpha);
     if (Number.isNaN(best.value) || v > best.value) {
       best = { alpha, value: v, threshold: pt.threshold, hitRate: pt.hitRate, falseAlarmRate: pt.falseAlarmRate };

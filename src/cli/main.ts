@@ -42,8 +42,8 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   skill: {
     summary: 'print the hindcast skill table (Brier skill score, ROC area, ...) per source, region, indicator and lead',
-    usage: 'forelight skill [--config FILE] [--date YYYY-MM-DD] [--csv]',
-    spec: { values: ['config', 'date'], flags: ['csv'] },
+    usage: 'forelight skill [--config FILE] [--date YYYY-MM-DD] [--csv] [--detail]',
+    spec: { values: ['config', 'date'], flags: ['csv', 'detail'] },
     run: async (a) => (await import('./commands/skill.ts')).skillCommand(a),
   },
   explain: {

@@ -41,6 +41,10 @@ describe('verification (CHECKS.md §12 hand check)', () => {
     expect(Math.max(...env.map((v) => v.value))).toBeCloseTo(0.5, 12);
     // Low cost/loss favours warning at low probabilities.
     expect(bestProbabilityThreshold(P, O, 0.1).threshold).toBeLessThanOrEqual(0.3);
+    // Never "always warn" (p >= 0), even at a tiny cost/loss ratio where warning always is cheap.
+    const withZeros = Float64Array.from([0, 0, 0, 0.1, 0.2, 0.9]);
+    const events = Float64Array.from([0, 1, 0, 1, 0, 1]);
+    expect(bestProbabilityThreshold(withZeros, events, 0.05).threshold).toBeGreaterThan(0);
   });
   it('no events: BSS and hit rate are NaN, never 0', () => {
     const none = P.map(() => 0);

@@ -1,0 +1,35 @@
+/**
+ * The full verification behind each skill row, in long format (one line per number set), for `forelight skill
+ * --detail`: hit rate, false-alarm rate and ratio and Peirce skill score at each stage probability threshold; the
+ * reliability table; the relative economic value curve over cost/loss ratios (Richardson 2000). Text is
+ * aligned columns, CSV follows RFC 4180 like the summary table.
+ */
+import type { SkillReport } from './skill.ts';
+
+const HEAD = ['source', 'region', 'indicator', 'lead', 'table', 'x', 'a', 'b', 'c', 'd'];
+const LEGEND =
+  'tables: stage (x = warn when P >= x; a = hit rate, b = false-alarm rate, c = false-alarm ratio, d = Peirce skill score); ' +
+  'reliability (x = forecast probability; a = observed frequency, b = cases); ' +
+  'value (x = cost/loss ratio; a = relative economic value, b = best probability threshold, c = hit rate, d = false-alarm rate)';
+
+const num = (v: number, digits = 3): string => (Number.isFinite(v) ? v.toFixed(digits) : '');
+
+/** Detail lines of one report. */
+export function skillDetailRows(ids: { source: string; region: string; indicator: string }, r: SkillReport): string[][] {
+  const lead = `${r.lead.tier.slice(0, -1)} ${r.lead.index}`;
+  const head = [ids.source, ids.region, ids.indicator, lead];
+  return [
+    ...r.stages.map((s) => [...head, 'stage', num(s.probability, 2), num(s.hitRate), num(s.falseAlarmRate), num(s.falseAlarmRatio), num(s.peirceSkillScore)]),
+    ...r.reliabilityTable.map((t) => [...head, 'reliability', num(t.forecastMean), num(t.observedFrequency), String(t.count), '', '']),
+    ...r.value.map((v) => [...head, 'value', num(v.alpha, 2), num(v.value), num(v.threshold), num(v.hitRate), num(v.falseAlarmRate)]),
+  ];
+}
+
+const csvField = (s: string): string => (/[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
+
+export function formatSkillDetail(rows: readonly string[][], format: 'text' | 'csv'): string {
+  if (format === 'csv') return [HEAD, ...rows].map((r) => r.map(csvField).join(',')).join('\r\n') + '\r\n';
+  const widths = HEAD.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
+  const line = (r: readonly string[]) => r.map((s, i) => (i >= 5 ? s.padStart(widths[i]) : s.padEnd(widths[i]))).join('  ').trimEnd();
+  return [LEGEND, '', line(HEAD), ...rows.map(line)].join('\n') + '\n';
+}
