@@ -1,32 +1,23 @@
 /**
- * File cache of skill reports (the only I/O of the calibrate stage). The key is the sha256 of the hindcast files'
+ * File cache of skill reports (with file-checksums.ts, the only I/O of the calibrate stage). The key is the sha256 of the hindcast files'
  * contents, the observations file's contents, a configuration fingerprint and the cache format version; a changed
- * byte in any input gives a new key, so stale entries are never read. Entries are JSON files
+ * input gives a new key, so stale entries are never read (checksums are remembered per path, size and
+ * modification time, see file-checksums.ts). Entries are JSON files
  * `<cacheDir>/skill-<key>.json`, written to a temporary name and renamed (a crash never leaves half a file).
  * Non-finite numbers are stored as {"$num": "NaN" | "Infinity" | "-Infinity"}.
  */
 import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
 import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { ForelightError } from '../errors.ts';
+import { sha256File, type ChecksumMemo } from './file-checksums.ts';
 
 export const SKILL_CACHE_VERSION = 2;
 
-async function hashOne(path: string): Promise<string> {
-  const h = createHash('sha256');
-  try {
-    for await (const chunk of createReadStream(path)) h.update(chunk as Buffer);
-  } catch (err) {
-    throw new ForelightError('calibrate', 'skill-cache-read', `cannot read ${path} to checksum it: ${(err as Error).message}`, 'check the hindcast/observation path in the YAML', { cause: err });
-  }
-  return h.digest('hex');
-}
-
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
-export async function hashFiles(paths: readonly string[]): Promise<string> {
+export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {
   const h = createHash('sha256');
-  for (const path of paths) h.update(`${await hashOne(path)}\n`);
+  for (const path of paths) h.update(`${memo ? await memo.sha256(path) : await sha256File(path)}\n`);
   return h.digest('hex');
 }
 
@@ -38,9 +29,9 @@ export function fingerprint(value: unknown): string {
 }
 
 /** Cache key for one skill computation. */
-export async function skillCacheKey(input: { hindcastFiles: readonly string[]; observationsFile: string | null; configFingerprint: string }): Promise<string> {
-  const files = await hashFiles(input.hindcastFiles);
-  const obs = input.observationsFile ? await hashFiles([input.observationsFile]) : 'none';
+export async function skillCacheKey(input: { hindcastFiles: readonly string[]; observationsFile: string | null; configFingerprint: string; memo?: ChecksumMemo }): Promise<string> {
+  const files = await hashFiles(input.hindcastFiles, input.memo);
+  const obs = input.observationsFile ? await hashFiles([input.observationsFile], input.memo) : 'none';
   return createHash('sha256').update(`v${SKILL_CACHE_VERSION}\n${files}\n${obs}\n${input.configFingerprint}`).digest('hex');
 }
 

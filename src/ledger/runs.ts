@@ -119,11 +119,17 @@ export interface InputFileRecord {
   readonly referenceTime: string;
 }
 
-/** Hash a file (streamed) for `recordInputs`. */
-export async function describeInputFile(path: string, source: string, referenceTime: string): Promise<InputFileRecord> {
+/** Hash a file (streamed) for `recordInputs`; `checksum` may come from a memo of earlier runs. */
+export async function describeInputFile(
+  path: string, source: string, referenceTime: string, checksum: (path: string) => Promise<string> = sha256Streamed,
+): Promise<InputFileRecord> {
+  return { path, sha256: await checksum(path), sizeBytes: (await stat(path)).size, source, referenceTime };
+}
+
+async function sha256Streamed(path: string): Promise<string> {
   const hash = createHash('sha256');
   for await (const chunk of createReadStream(path)) hash.update(chunk as Buffer);
-  return { path, sha256: hash.digest('hex'), sizeBytes: (await stat(path)).size, source, referenceTime };
+  return hash.digest('hex');
 }
 
 export function recordInputs(ledger: Ledger, runId: number, files: readonly InputFileRecord[]): void {

@@ -4,6 +4,7 @@
  * `skill`, so what they show is exactly what a run would issue.
  */
 import type { Config } from '../config/types.ts';
+import { openChecksumMemo, type ChecksumMemo } from '../calibrate/file-checksums.ts';
 import { combineSources } from '../calibrate/lead-tiers.ts';
 import { describeError, type ForelightError } from '../errors.ts';
 import type { Logger } from '../log.ts';
@@ -24,6 +25,8 @@ export interface Analysis {
   readonly combination: readonly string[];
   /** One line per file, region or indicator skipped, with the reason. */
   readonly problems: readonly string[];
+  /** Input file checksums remembered across runs (saved under calibration.cacheDir). */
+  readonly checksums: ChecksumMemo;
 }
 
 function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadResult): { kept: LeadProbability[]; notes: string[] } {
@@ -65,8 +68,9 @@ export async function analyse(
   const read = await readAll(config, inputs, { hindcasts: false });
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
+  const checksums = await openChecksumMemo(config.calibration.cacheDir);
   const ctx: SharedContext = {
-    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(),
+    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(), checksums,
   };
   const fileProblems: ForelightError[] = [...read.problems];
   const sources: SourceOutcome[] = [];
@@ -82,7 +86,8 @@ export async function analyse(
   const { kept, notes } = combine(sources, config, read);
   const problems = [...fileProblems.map((p) => p.message), ...sources.flatMap((s) => s.problems)];
   for (const p of problems) log.warn('skipped', { problem: p });
-  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems: [...new Set(problems)] };
+  await checksums.save();
+  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems: [...new Set(problems)], checksums };
 }
 
 function safeClimatology(read: ReadResult, region: string, log: Logger) {

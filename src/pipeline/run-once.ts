@@ -3,6 +3,7 @@
  * store everything in the ledger BEFORE sending → deliver → finish. A crash at any point is resumed by the
  * next start: bulletins already stored are sent exactly to the recipients that have not had them.
  */
+import { existsSync } from 'node:fs';
 import type { Config } from '../config/types.ts';
 import { decideStages } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
@@ -47,10 +48,17 @@ export function forecastKey(inputs: readonly SourceInputs[]): string {
 }
 
 async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysis, config: Config): Promise<void> {
+  const wanted: [path: string, source: string, referenceTime: string][] = [
+    ...analysis.read.sources.map((s): [string, string, string] => [s.path, s.source.id, s.referenceTime]),
+    ...analysis.inputs.flatMap((i) => i.hindcasts.map((h): [string, string, string] => [h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`])),
+    ...(config.observations ? [[config.observations.path, 'observations', ''] as [string, string, string]] : []),
+  ];
   const files = [];
-  for (const s of analysis.read.sources) files.push(await describeInputFile(s.path, s.source.id, s.referenceTime));
-  for (const i of analysis.inputs) for (const h of i.hindcasts) files.push(await describeInputFile(h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`));
-  if (config.observations) files.push(await describeInputFile(config.observations.path, 'observations', ''));
+  for (const [path, source, referenceTime] of wanted) {
+    // A file that cannot be read was already reported by the read stage; the ledger keeps what exists.
+    if (existsSync(path)) files.push(await describeInputFile(path, source, referenceTime, (p) => analysis.checksums.sha256(p)));
+  }
+  await analysis.checksums.save();
   recordInputs(ledger, runId, files);
 }
 

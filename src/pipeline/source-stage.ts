@@ -8,6 +8,7 @@ import type { LeadClimate } from '../calibrate/climate.ts';
 import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
 import { leadProbabilities } from '../calibrate/probability.ts';
 import { skillByLead } from '../calibrate/skill.ts';
+import type { ChecksumMemo } from '../calibrate/file-checksums.ts';
 import { cachedSkill, fingerprint, skillCacheKey } from '../calibrate/skill-cache.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
 import { describeError, type ForelightError } from '../errors.ts';
@@ -37,6 +38,8 @@ export interface SharedContext {
   /** region id → climatology from observations. */
   readonly climatology: ReadonlyMap<string, IndicatorClimatology>;
   readonly observedMemo: ObservedIndicators;
+  /** Checksums of input files remembered across runs (cache keys). */
+  readonly checksums: ChecksumMemo;
 }
 
 type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & { hindcast: StoredLeadClimate | null; observed: StoredLeadClimate | null };
@@ -59,6 +62,7 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, problems: F
     hindcastFiles: input.hindcasts.map((h) => h.path),
     observationsFile: ctx.observationsPath,
     configFingerprint: fingerprint({ source, regions: config.regions, indicators: config.indicators, rules: config.rules, gate: config.decision.skillGate, calibration: config.calibration }),
+    memo: ctx.checksums,
   });
   const cached = await cachedSkill<Record<string, StoredClimate>>(config.calibration.cacheDir, key, async () => {
     const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems);

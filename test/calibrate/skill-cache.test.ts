@@ -5,6 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cachedSkill, fingerprint, hashFiles, skillCacheKey } from '../../src/calibrate/skill-cache.ts';
+import { openChecksumMemo } from '../../src/calibrate/file-checksums.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'forelight-calib-'));
 const a = join(dir, 'hc_2006.nc');
@@ -59,5 +60,21 @@ describe('cachedSkill', () => {
     expect(r.value).toBe(2);
     expect(r.note).toMatch(/unreadable .* recomputed/);
     expect((await cachedSkill(cacheDir, 'k', () => 3)).value).toBe(2);
+  });
+});
+
+describe('checksum memo (file-sha256.json)', () => {
+  it('remembers a checksum per path, size and mtime; a rewritten file is hashed again (sha256 as coreutils sha256sum)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-memo-'));
+    const f = join(dir, 'hc.nc');
+    writeFileSync(f, 'first');
+    const memo = await openChecksumMemo(dir);
+    const first = await memo.sha256(f);
+    expect(first).toBe(execFileSync('sha256sum', [f], { encoding: 'utf8' }).split(' ')[0]);
+    await memo.save();
+    const again = await openChecksumMemo(dir);
+    expect(await again.sha256(f)).toBe(first);
+    writeFileSync(f, 'second, longer');
+    expect(await again.sha256(f)).toBe(execFileSync('sha256sum', [f], { encoding: 'utf8' }).split(' ')[0]);
   });
 });

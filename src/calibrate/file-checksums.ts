@@ -1,0 +1,66 @@
+/**
+ * sha256 of input files, streamed (never a whole file in memory), remembered per (path, size, mtime) in
+ * `<cacheDir>/file-sha256.json` so that the 20 hindcast files of a source are hashed once per version, not on
+ * every run. A file whose size or modification time changed is hashed again.
+ */
+import { createHash } from 'node:crypto';
+import { createReadStream, statSync } from 'node:fs';
+import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { ForelightError } from '../errors.ts';
+
+/** sha256 (hex) of one file's contents. */
+export async function sha256File(path: string): Promise<string> {
+  const h = createHash('sha256');
+  try {
+    for await (const chunk of createReadStream(path)) h.update(chunk as Buffer);
+  } catch (err) {
+    throw new ForelightError('calibrate', 'checksum-read', `cannot read ${path} to checksum it: ${(err as Error).message}`, 'check the hindcast/observation path in the YAML', { cause: err });
+  }
+  return h.digest('hex');
+}
+
+export interface ChecksumMemo {
+  /** sha256 of a file, from the memo when its size and modification time are unchanged. */
+  sha256(path: string): Promise<string>;
+  /** Writes the memo back (atomically); a no-op when nothing new was hashed. */
+  save(): Promise<void>;
+}
+
+export async function openChecksumMemo(cacheDir: string | null): Promise<ChecksumMemo> {
+  const file = cacheDir ? join(cacheDir, 'file-sha256.json') : null;
+  let known: Record<string, string> = {};
+  if (file) {
+    try {
+      known = JSON.parse(await readFile(file, 'utf8')) as Record<string, string>;
+    } catch {
+      known = {}; // absent or unreadable: every file is hashed again
+    }
+  }
+  let dirty = false;
+  return {
+    async sha256(path) {
+      let key: string;
+      try {
+        const s = statSync(path);
+        key = `${path}|${s.size}|${s.mtimeMs}`;
+      } catch (err) {
+        throw new ForelightError('calibrate', 'checksum-read', `cannot read ${path} to checksum it: ${(err as Error).message}`, 'check the hindcast/observation path in the YAML', { cause: err });
+      }
+      const hit = known[key];
+      if (hit) return hit;
+      const sum = await sha256File(path);
+      known[key] = sum;
+      dirty = true;
+      return sum;
+    },
+    async save() {
+      if (!file || !dirty) return;
+      await mkdir(cacheDir as string, { recursive: true });
+      const tmp = `${file}.${process.pid}.tmp`;
+      await writeFile(tmp, JSON.stringify(known));
+      await rename(tmp, file);
+      dirty = false;
+    },
+  };
+}
