@@ -2,14 +2,21 @@
  * Forelight's side of the benchmark, run in a child process by bench/run-bench.ts so that its peak RSS
  * is its own:
  *
- *   node bin/run-ts.mjs bench/forelight-entry.ts REGIONS_JSON [--check OUT_JSON] FILE [FILE ...]
+ *   node bin/run-ts.mjs bench/forelight-entry.ts REGIONS_JSON [--check OUT_JSON] [--pipeline HINDCAST_PATTERN] FILE [FILE ...]
  *
  * Prints one JSON line `{"seconds": …, "maxRssKb": …}` on success. With `--check`, writes the first
  * member's series of every region/quantity to OUT_JSON (for the cross-check against the Python baseline).
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import type { RegionConfig } from '../src/config/types.ts';
+import { dirname, join } from 'node:path';
+import { loadConfig } from '../src/config/load-config.ts';
+import type { Config, IndicatorConfig, RegionConfig } from '../src/config/types.ts';
+import { decideStages } from '../src/decide/decide-stages.ts';
+import { EMPTY_HISTORY } from '../src/decide/types.ts';
+import { silentLogger } from '../src/log.ts';
+import { analyse } from '../src/pipeline/analyse.ts';
+import { tunedThresholds } from '../src/pipeline/decide-now.ts';
 import { extractRegionSeries } from '../src/read/extract.ts';
 import type { Quantity, RegionSeries } from '../src/types.ts';
 
@@ -47,24 +54,76 @@ export async function extractBenchSeries(files: readonly string[], regions: read
   return all;
 }
 
-/** The timed work. */
-export async function runForelightBench(files: readonly string[], regions: readonly BenchRegion[]): Promise<void> {
-  await extractBenchSeries(files, regions);
+/** The four bench indicators, each against the 90th percentile of the model climate at the same lead. */
+const INDICATORS: readonly IndicatorConfig[] = (
+  [['tmax-3day', 'tmax-mean', 'max'], ['tmin-3day', 'tmin-mean', 'mean'], ['heat-index', 'heat-index', 'max'], ['humidex', 'humidex', 'max']] as const
+).map(([id, kind, aggregate]) => ({
+  id, name: id, kind, windowDays: kind.endsWith('-mean') ? 3 : 1, threshold: { kind: 'percentile', percentile: 90 },
+  regionThresholds: {}, aggregate, tiers: ['weeks'], params: {},
+}));
+
+/**
+ * The shipped configuration narrowed to the bench: one sub-seasonal source (the forecast file, hindcasts by
+ * pattern), the 20 bench boxes, four indicators with a "mindful" and a "brace" rule each, no observations.
+ */
+export function benchConfig(base: Config, forecast: string, hindcastPattern: string, regions: readonly BenchRegion[], cacheDir: string): Config {
+  return {
+    ...base,
+    sources: [{ id: 'bench', name: 'bench ensemble', tier: 'weeks', forecast, hindcast: hindcastPattern, variables: QUANTITIES, priority: 1 }],
+    observations: null,
+    regions: regions.map(toRegionConfig),
+    teams: [],
+    indicators: INDICATORS,
+    rules: INDICATORS.flatMap((ind) => [
+      { id: `${ind.id}-mindful`, indicator: ind.id, tier: 'weeks' as const, leads: [1, 2, 3, 4, 5, 6], stage: 'mindful', probability: 0.4 },
+      { id: `${ind.id}-brace`, indicator: ind.id, tier: 'weeks' as const, leads: [1, 2, 3, 4, 5, 6], stage: 'brace', probability: 0.6 },
+    ]),
+    calibration: { ...base.calibration, cacheDir },
+  };
+}
+
+/** Issue date of the bench forecasts (make-large-inputs.ts). */
+const BENCH_ISSUE_DATE = '2026-11-26';
+
+/**
+ * The timed work: Forelight's full pipeline (read → indicators → probabilities → stages) over the 20 boxes and
+ * 4 indicators, the model climate of the hindcasts coming from the cache as in operations (the first run fills
+ * it). Without a hindcast pattern (the hindcast input set) the files are read and reduced to box means only.
+ */
+export async function runForelightBench(files: readonly string[], regions: readonly BenchRegion[], hindcastPattern?: string): Promise<void> {
+  if (!hindcastPattern) {
+    await extractBenchSeries(files, regions);
+    return;
+  }
+  const base = await loadConfig();
+  for (const file of files) {
+    const config = benchConfig(base, file, hindcastPattern, regions, join(dirname(file), 'cache'));
+    const analysis = await analyse(config, BENCH_ISSUE_DATE, silentLogger);
+    if (analysis.problems.length > 0) throw new Error(`${file}: ${analysis.problems.length} problems, first: ${analysis.problems[0]}`);
+    const expected = regions.length * INDICATORS.length * 6;
+    if (analysis.probabilities.length !== expected) throw new Error(`${file}: ${analysis.probabilities.length} probabilities, expected ${expected}`);
+    decideStages({ config, probabilities: analysis.probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: tunedThresholds(analysis) });
+  }
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
   const args = process.argv.slice(2);
   const regions = readBenchRegions(args[0]);
-  const checkAt = args.indexOf('--check');
-  const checkOut = checkAt > 0 ? args[checkAt + 1] : undefined;
-  const files = args.slice(1).filter((_, i) => checkAt < 0 || (i + 1 !== checkAt && i + 1 !== checkAt + 1));
+  const option = (name: string): string | undefined => {
+    const at = args.indexOf(name);
+    return at > 0 ? args[at + 1] : undefined;
+  };
+  const checkOut = option('--check');
+  const hindcastPattern = option('--pipeline');
+  const optionIndexes = new Set(['--check', '--pipeline'].flatMap((n) => (args.indexOf(n) > 0 ? [args.indexOf(n), args.indexOf(n) + 1] : [])));
+  const files = args.slice(1).filter((_, i) => !optionIndexes.has(i + 1));
   const began = performance.now();
   if (checkOut) {
     const series = await extractBenchSeries(files, regions);
     const firstMember = series.map((s) => ({ file: s.provenance.file, region: s.region, variable: s.provenance.variable, units: s.units, values: Array.from(s.data.subarray(0, s.days.length)) }));
     writeFileSync(checkOut, JSON.stringify(firstMember));
   } else {
-    await runForelightBench(files, regions);
+    await runForelightBench(files, regions, hindcastPattern);
   }
   process.stdout.write(`${JSON.stringify({ seconds: (performance.now() - began) / 1000, maxRssKb: process.resourceUsage().maxRSS })}\n`);
 }
