@@ -3,12 +3,23 @@ import { runOnce } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../schedule/exit-codes.ts';
 import { acquireLock } from '../../schedule/lock-file.ts';
 import { servicePaths } from '../../schedule/run-service.ts';
+import { computeNextRuns } from '../../schedule/next-runs.ts';
+import { makeRunReport, nextStatus, readStatus, writeStatus, type RunReport } from '../../schedule/status-file.ts';
+import type { Config } from '../../config/types.ts';
+import { describeError } from '../../errors.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
 import { diffCommand } from './diff.ts';
 
 /** A lock older than this is stale even if its process still lives (same as the service's default). */
 const LOCK_MAX_AGE_SECONDS = 6 * 3600;
+
+/** The status file `forelight status` reads, updated after a manual run as after a scheduled one. */
+function recordStatus(config: Config, report: RunReport): void {
+  const { statusPath } = servicePaths(config.ledger);
+  const nextRun = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1)[0]?.toISOString() ?? null;
+  writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: config.schedule.cron, timezone: config.schedule.timezone, nextRun }, report));
+}
 
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
@@ -20,10 +31,15 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
     process.stderr.write(`forelight: another run holds ${lockPath} (${holder}) — wait for it, or remove the file if that process is gone\n`);
     return EXIT.locked;
   }
+  const startedAt = new Date();
   try {
     const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true });
+    recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
     return outcome.exitCode;
+  } catch (err) {
+    recordStatus(config, makeRunReport('manual', startedAt, new Date(), EXIT.unexpected, describeError(err)));
+    throw err;
   } finally {
     got.lock.release();
   }

@@ -1,0 +1,80 @@
+/**
+ * The `forelight` command as a user runs it (a real child process): help, `extract --json` on a file written by
+ * netCDF-C's ncgen, one-line errors with the documented exit codes (src/schedule/exit-codes.ts).
+ */
+import { spawnSync } from 'node:child_process';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { extractBoxJson } from '../../src/read/extract.ts';
+import { EXIT } from '../../src/schedule/exit-codes.ts';
+
+const ROOT = fileURLToPath(new URL('../..', import.meta.url));
+const GRID = join(ROOT, 'test/fixtures/regions/grid360.nc');
+const MARROW = '-9,-6.5,-1.5,1.5';
+
+function forelight(...args: string[]): { code: number | null; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], { cwd: ROOT, encoding: 'utf8', timeout: 60_000 });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+describe('forelight CLI', () => {
+  it('--help lists every command and exits 0', () => {
+    const r = forelight('--help');
+    expect(r.code).toBe(EXIT.ok);
+    for (const c of ['demo', 'run', 'check', 'extract', 'skill', 'explain', 'diff', 'backtest', 'serve', 'status']) expect(r.stdout).toMatch(new RegExp(`^  ${c} `, 'm'));
+  });
+
+  it('extract --json prints {units, times, members, cells} exactly as the library computes it (canonical °C)', async () => {
+    const r = forelight('extract', GRID, '--var', 't2m', '--box', MARROW, '--json');
+    expect(r.code).toBe(EXIT.ok);
+    const printed = JSON.parse(r.stdout) as { units: string; times: string[]; members: (number | null)[][]; cells: number };
+    expect(Object.keys(printed).sort()).toEqual(['cells', 'members', 'times', 'units']);
+    expect(printed.units).toBe('degC');
+    const direct = await extractBoxJson(GRID, { variable: 't2m', box: { south: -9, north: -6.5, west: -1.5, east: 1.5 } });
+    expect(printed).toEqual(JSON.parse(JSON.stringify(direct)));
+  });
+
+  it('a file that is not NetCDF: exit 3 and one stderr line naming the file and what to do', () => {
+    const notNetcdf = join(ROOT, 'package.json');
+    const r = forelight('extract', notNetcdf, '--var', 't2m', '--box', MARROW, '--json');
+    expect(r.code).toBe(EXIT.inputProblem);
+    const lines = r.stderr.trim().split('\n');
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toContain('package.json');
+    expect(lines[0]).toMatch(/not a NetCDF file/);
+  });
+
+  it('a missing variable names the variables the file has', () => {
+    const r = forelight('extract', GRID, '--var', 'tas', '--box', MARROW, '--json');
+    expect(r.code).toBe(EXIT.inputProblem);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/'tas'.*t2m/);
+  });
+
+  it('a bad option or box is a usage error (exit 64), one line', () => {
+    expect(forelight('extract', GRID, '--var', 't2m', '--bx', MARROW, '--json').code).toBe(EXIT.usage);
+    const r = forelight('extract', GRID, '--var', 't2m', '--box', '-6.5,-9,-1.5,1.5', '--json');
+    expect(r.code).toBe(EXIT.usage);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/south -6.5 is north of north -9/);
+  });
+
+  it('check: the shipped configuration is valid (exit 0); status prints the next scheduled run', () => {
+    const c = forelight('check');
+    expect(c.code).toBe(EXIT.ok);
+    expect(c.stdout).toMatch(/ok — 3 sources, 4 regions, 5 teams/);
+    const s = forelight('status');
+    expect(s.code).toBe(EXIT.ok);
+    expect(s.stdout).toMatch(/^next scheduled run: \d{4}-\d{2}-\d{2}T06:30:00\.000Z \(30 7 \* \* 1,4, Etc\/GMT-1\)/m);
+  });
+
+  it('check on a configuration with errors: every problem as file:line:column, then exit 2', () => {
+    const r = forelight('check', '--config', join(ROOT, 'test/config/fixtures/many-problems.yaml'));
+    expect(r.code).toBe(EXIT.configInvalid);
+    const lines = r.stderr.trim().split('\n');
+    expect(lines.length).toBeGreaterThan(5);
+    for (const line of lines.slice(0, -1)) expect(line).toMatch(/^\S+\.yaml:\d+:\d+: .+ — .+/);
+    expect(lines.at(-1)).toMatch(/problem\(s\) in the configuration/);
+  });
+});
