@@ -3,6 +3,8 @@
  * netCDF-C's ncgen, one-line errors with the documented exit codes (src/schedule/exit-codes.ts).
  */
 import { spawnSync } from 'node:child_process';
+import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
@@ -76,5 +78,19 @@ describe('forelight CLI', () => {
     expect(lines.length).toBeGreaterThan(5);
     for (const line of lines.slice(0, -1)) expect(line).toMatch(/^\S+\.yaml:\d+:\d+: .+ — .+/);
     expect(lines.at(-1)).toMatch(/problem\(s\) in the configuration/);
+  });
+
+  it('check opens each source\'s newest file: a region off every grid is reported at its line in regions.yaml', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-check-'));
+    for (const f of ['forelight.yaml', 'teams.yaml', 'forelight.schema.json']) copyFileSync(join(ROOT, 'config', f), join(dir, f));
+    // Every source reads the ncgen fixture (latitudes 14°S..4°S); one region is moved to 40°N.
+    const main = readFileSync(join(dir, 'forelight.yaml'), 'utf8').replace(/forecast-files: \S+/g, `forecast-files: ${GRID}`);
+    writeFileSync(join(dir, 'forelight.yaml'), main);
+    const regions = readFileSync(join(ROOT, 'config/regions.yaml'), 'utf8').replace('box: { south: -8.5, north: -6, west: 2, east: 4 }', 'box: { south: 40, north: 42, west: 2, east: 4 }');
+    writeFileSync(join(dir, 'regions.yaml'), regions);
+    const line = regions.split('\n').findIndex((l) => l.includes('south: 40')) + 1;
+    const r = forelight('check', '--config', join(dir, 'forelight.yaml'));
+    expect(r.code).toBe(EXIT.configInvalid);
+    expect(r.stderr).toMatch(new RegExp(`regions\\.yaml:${line - 2}:\\d+: .*orrin-coast.*`));
   });
 });

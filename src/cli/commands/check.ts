@@ -1,13 +1,27 @@
-/** `forelight check`: validate a configuration, print every problem as file:line:column, exit 2 when any. */
+/**
+ * `forelight check`: validate a configuration and print every problem as file:line:column, exit 2 when any.
+ * With a valid configuration, each source's newest forecast file is opened to check that every region lies on
+ * its grid.
+ */
+import { checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
+import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
 import { EXIT } from '../../schedule/exit-codes.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 
 export async function checkCommand(args: ParsedArgs): Promise<number> {
-  const { config, problems } = await checkConfigFile(stringOption(args, 'config'));
-  for (const p of problems) process.stderr.write(p + '\n');
-  if (!config) {
-    process.stderr.write(`forelight: ${problems.length} problem(s) in the configuration\n`);
+  const { config, problems, sourceMap } = await checkConfigFile(stringOption(args, 'config'));
+  const all = [...problems];
+  const notes: string[] = [];
+  if (config) {
+    const extents = await sourceGridExtents(config);
+    notes.push(...extents.notes);
+    all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
+  }
+  for (const p of all) process.stderr.write(p + '\n');
+  for (const n of notes) process.stderr.write(`note: ${n}\n`);
+  if (!config || all.length > 0) {
+    process.stderr.write(`forelight: ${all.length} problem(s) in the configuration\n`);
     return EXIT.configInvalid;
   }
   process.stdout.write(
