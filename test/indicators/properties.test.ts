@@ -6,7 +6,8 @@ import { relativeR0Mordecai2013 } from '../../src/indicators/relative-r0-mordeca
 import { DETINOVA_1962 } from '../../src/indicators/sporogony-detinova-1962.ts';
 import { craigMonthlySuitability1999, craigRainfallMembership1999, craigTemperatureMembership1999 } from '../../src/indicators/suitability-craig-1999.ts';
 import { dailySurvivalMartens1997, survivalThroughSporogony } from '../../src/indicators/survival-martens-1997.ts';
-import { rng } from './fixtures.ts';
+import { computeIndicator, dayOfYearPercentileThreshold } from '../../src/indicators/compute.ts';
+import { dayList, indicator, inputsOf, regionSeries, rng } from './fixtures.ts';
 
 describe('Heat Index (WPC algorithm)', () => {
   it('rises with humidity at fixed temperature above 80 °F (Steadman 1979 sultriness increases with vapour pressure)', () => {
@@ -79,5 +80,25 @@ describe('Excess Heat Factor (Nairn & Fawcett 2015)', () => {
   it('is positive exactly when T3 > T95', () => {
     expect(excessHeatFactorNairnFawcett2015(25.1, 25, 30)).toBeGreaterThan(0);
     expect(excessHeatFactorNairnFawcett2015(25, 25, 20)).toBe(0);
+  });
+});
+
+describe('acclimatisation: the same heat weighs more early in the warm season (day-of-year thresholds)', () => {
+  it('a 34 °C spell in early November gives more heat load than the same spell in late January, with thresholds from a climatology that warms through the season (common practice, no source)', () => {
+    // Invented climatology, 10 years: Tmax rises from about 29 °C (1 Nov) to about 33 °C (31 Jan).
+    const byDate = new Map<string, number>();
+    for (let y = 2010; y < 2020; y++) {
+      dayList(`${y}-11-01`, 92).forEach((d, i) => byDate.set(d, 29 + (4 * i) / 91 + ((i * 7 + y) % 5) * 0.2));
+    }
+    const threshold = dayOfYearPercentileThreshold(byDate, 90, 15);
+    expect(threshold('2026-11-05')).toBeLessThan(threshold('2027-01-25') - 2);
+    const spell = (first: string) => {
+      const days = dayList(first, 3);
+      const tmax = regionSeries('tmax', days, 1, Float64Array.from([34, 34, 34]));
+      return computeIndicator(indicator('heat-load', {}, 3), inputsOf(tmax), { climatology: { dayOfYearThresholdC: threshold } }).data[2];
+    };
+    const early = spell('2026-11-04');
+    const late = spell('2027-01-24');
+    expect(early).toBeGreaterThan(late + 5);
   });
 });
