@@ -22,6 +22,8 @@ export interface BulletinRunInput {
   readonly regionStages: readonly RegionStage[];
   /** Region stages of the last issued bulletin (empty on the first issue). */
   readonly previous: readonly RegionStageLike[];
+  /** Source-combination rule and skipped inputs, for run.json. */
+  readonly notes: readonly string[];
 }
 
 /** Local calendar date (YYYY-MM-DD) of an instant in an IANA time zone. */
@@ -80,5 +82,6 @@ export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
     forecastDates: input.sources.map((s) => ({ source: s.source.id, name: s.source.name, referenceTime: s.referenceTime, basedOnOlder: s.stale })),
     nextIssue: nextIssueDate(config, input.issuedAt),
     regions,
+    notes: input.notes,
   };
 }

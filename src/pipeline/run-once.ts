@@ -91,7 +91,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number): Prom
   const run = buildBulletinRun({
     config, runId: `${options.issueDate}-${runId}`, issuedAt: (options.now ?? (() => new Date()))(), mode: options.mode,
     sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
-    regionStages: decided.regionStages, previous,
+    regionStages: decided.regionStages, previous, notes: [...analysis.combination, ...analysis.problems.map((p) => `skipped: ${p}`)],
   });
   const rendered = await renderBulletins(config, run, previousIssue(ledger, config, runId));
   ledger.db.transaction(() => {

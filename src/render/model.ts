@@ -58,6 +58,8 @@ export interface BulletinRun {
   readonly forecastDates: readonly ForecastDate[];
   readonly nextIssue: IsoDate;
   readonly regions: readonly RegionOutcome[];
+  /** Run-level notes for run.json: the source-combination rule and what it replaced, inputs skipped and why. */
+  readonly notes?: readonly string[];
 }
 
 /** One CAP alert issued earlier, as the ledger keeps it; lets this run send Update / Cancel with references. */

@@ -4,6 +4,7 @@
  * {
  *   schema: "forelight-run/1", runId, issuedAt, mode: "live"|"exercise", nextIssue: "YYYY-MM-DD",
  *   forecastDates: [{ source, name, referenceTime, basedOnOlder }],
+ *   notes: [string]                                                    // source-combination rule, skipped inputs
  *   stages: [{ id, label: {locale: text}, glyph, colour }]            // the ladder, lowest first
  *   regions: [{
  *     id, name, stageId, previousStageId, changeReason,
@@ -32,6 +33,7 @@ export function renderRunJson(config: Config, run: BulletinRun, capAlerts: reado
     mode: run.mode,
     nextIssue: run.nextIssue,
     forecastDates: run.forecastDates.map((f) => ({ source: f.source, name: f.name, referenceTime: f.referenceTime, basedOnOlder: f.basedOnOlder ?? false })),
+    notes: run.notes ?? [],
     stages: config.stages.map((s) => ({ id: s.id, label: s.label, glyph: s.glyph, colour: s.colour })),
     regions: run.regions.map((r) => ({
       id: r.region.id,

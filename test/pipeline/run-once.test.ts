@@ -103,9 +103,10 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
 
   it('run.json carries the full numbers for downstream systems', () => {
     const runJson = filesUnder(config.delivery.archive, 'run.json').sort().at(-1) as string;
-    const parsed = JSON.parse(readFileSync(runJson, 'utf8')) as { schema: string; regions: unknown[] };
+    const parsed = JSON.parse(readFileSync(runJson, 'utf8')) as { schema: string; regions: unknown[]; notes: string[] };
     expect(parsed.schema).toBe('forelight-run/1');
     expect(parsed.regions).toHaveLength(config.regions.length);
+    expect(Array.isArray(parsed.notes)).toBe(true);
   });
 
   it('re-running the newest issue sends nothing new (nothing-new, exit 5) and tells the operators', async () => {
