@@ -8,6 +8,7 @@ import type { FileHandle } from 'node:fs/promises';
 import { InputError } from '../errors.ts';
 import type { Dataset, DatasetFormat, DimensionInfo, VariableInfo } from './dataset.ts';
 import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, decodeBigEndian, parseClassicHeader } from './classic-header.ts';
+import { PositionPicker } from './classic-pick.ts';
 import { MAX_SPAN_BYTES, type ReadSpan, planReads, validateSelection } from './classic-hyperslab.ts';
 
 const FIRST_PREFIX_BYTES = 64 * 1024;
@@ -75,7 +76,17 @@ class ClassicDataset implements Dataset {
     return run;
   }
 
-  private async readNow(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
+  readRawAt(name: string, start: readonly number[], count: readonly number[], positions: Int32Array): Promise<Float64Array> {
+    const run = this.queue.then(() => this.readNow(name, start, count, positions));
+    this.queue = run.catch(() => undefined);
+    return run;
+  }
+
+  /**
+   * The hyperslab's values (C order), or only those at `positions` (flat indices into the hyperslab, any order;
+   * the result follows `positions`). With positions, only the selected elements are decoded from the bytes read.
+   */
+  private async readNow(name: string, start: readonly number[], count: readonly number[], positions?: Int32Array): Promise<Float64Array> {
     const v = this.byName.get(name);
     if (!v) throw new InputError('input-variable', this.path, `variable '${name}' not found`, `use one of: ${this.variables.map((x) => x.name).join(', ')}`);
     validateSelection(this.path, v, start, count);
@@ -86,7 +97,8 @@ class ClassicDataset implements Dataset {
       stride *= v.shape[d];
     }
     const plan = planReads(v.begin, strides, v.elementBytes, v.shape, start, count);
-    const out = new Float64Array(plan.totalValues);
+    const picker = positions ? new PositionPicker(positions, v.type, v.elementBytes) : null;
+    const out = new Float64Array(picker ? positions!.length : plan.totalValues);
     let outPos = 0;
     for (const span of plan.spans) {
       if (span.bytes > MAX_SPAN_BYTES) {
@@ -94,14 +106,17 @@ class ClassicDataset implements Dataset {
         for (let done = 0; done < span.bytes; done += MAX_SPAN_BYTES) {
           const piece = { offset: span.offset + done, bytes: Math.min(MAX_SPAN_BYTES, span.bytes - done), blockOffsets: [0] };
           this.readSpan(piece);
-          decodeBigEndian(v.type, this.buffer, 0, piece.bytes / v.elementBytes, out, outPos + done / v.elementBytes);
+          const first = outPos + done / v.elementBytes;
+          if (picker) picker.take(this.buffer, 0, first, piece.bytes / v.elementBytes, out);
+          else decodeBigEndian(v.type, this.buffer, 0, piece.bytes / v.elementBytes, out, first);
         }
         outPos += plan.blockValues;
         continue;
       }
       this.readSpan(span);
       for (const blockOffset of span.blockOffsets) {
-        decodeBigEndian(v.type, this.buffer, blockOffset, plan.blockValues, out, outPos);
+        if (picker) picker.take(this.buffer, blockOffset, outPos, plan.blockValues, out);
+        else decodeBigEndian(v.type, this.buffer, blockOffset, plan.blockValues, out, outPos);
         outPos += plan.blockValues;
       }
     }

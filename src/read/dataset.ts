@@ -37,5 +37,10 @@ export interface Dataset {
    * Implementations coalesce contiguous runs into few positional reads.
    */
   readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array>;
+  /**
+   * Optional: only the values at `positions` (flat C-order indices into the hyperslab, any order; the result
+   * follows `positions`), for readers that can skip decoding the rest (the classic reader).
+   */
+  readRawAt?(name: string, start: readonly number[], count: readonly number[], positions: Int32Array): Promise<Float64Array>;
   close(): Promise<void>;
 }

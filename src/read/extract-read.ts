@@ -30,7 +30,6 @@ export async function readBandCells(ds: Dataset, layout: VariableLayout, band: G
   count[layout.latAxis] = band.nLat;
   start[layout.lonAxis] = wraps ? 0 : band.lon0;
   count[layout.lonAxis] = wraps ? band.gridLon : band.nLon;
-  const slab = await ds.readRaw(info.name, start, count);
   const strides = new Array<number>(rank).fill(1);
   for (let k = rank - 2; k >= 0; k--) strides[k] = strides[k + 1] * count[k + 1];
   const sT = layout.timeAxis >= 0 ? strides[layout.timeAxis] : 0;
@@ -42,11 +41,15 @@ export async function readBandCells(ds: Dataset, layout: VariableLayout, band: G
     const c = (used[k] - r * band.nLon + firstLon) % count[layout.lonAxis];
     offsets[k] = r * strides[layout.latAxis] + c * strides[layout.lonAxis];
   }
-  const out = new Float64Array(steps * used.length);
-  for (let t = 0; t < steps; t++) {
-    const src = t * sT;
-    const dst = t * used.length;
-    for (let k = 0; k < used.length; k++) out[dst + k] = slab[src + offsets[k]];
+  const positions = new Int32Array(steps * used.length);
+  for (let t = 0; t < steps; t++) for (let k = 0; k < used.length; k++) positions[t * used.length + k] = t * sT + offsets[k];
+  let out: Float64Array;
+  if (ds.readRawAt) {
+    out = await ds.readRawAt(info.name, start, count, positions);
+  } else {
+    const slab = await ds.readRaw(info.name, start, count);
+    out = new Float64Array(positions.length);
+    for (let i = 0; i < positions.length; i++) out[i] = slab[positions[i]];
   }
   return decodeCf(info, out).values;
 }
