@@ -23,26 +23,35 @@ function extendedRow(s: DailySeries, m: number, antecedent: Float64Array, buf: F
   return buf;
 }
 
+/**
+ * Runs `fill` once per member on that member's antecedent-extended row `x` (antecedent days first, then the
+ * series days); `fill` writes the member's `steps` results from `out[base]` on. One reused row buffer.
+ */
+function perMember(
+  s: DailySeries, antecedent: Float64Array,
+  fill: (x: Float64Array, antecedentDays: number, out: Float64Array, base: number) => void,
+): Float64Array {
+  const steps = s.days.length;
+  const out = new Float64Array(s.members * steps);
+  const buf = new Float64Array(antecedent.length + steps);
+  for (let m = 0; m < s.members; m++) fill(extendedRow(s, m, antecedent, buf), antecedent.length, out, m * steps);
+  return out;
+}
+
 /** Trailing running mean over `windowDays` (value on day i = mean of days i−w+1..i); NaN when incomplete. */
 export function runningMeanSeries(s: DailySeries, windowDays: number, antecedent: Float64Array = new Float64Array(0)): Float64Array {
-  const steps = s.days.length;
-  const a = antecedent.length;
-  const out = new Float64Array(s.members * steps);
-  const buf = new Float64Array(a + steps);
-  for (let m = 0; m < s.members; m++) {
-    const x = extendedRow(s, m, antecedent, buf);
-    for (let i = 0; i < steps; i++) {
+  return perMember(s, antecedent, (x, a, out, base) => {
+    for (let i = 0; i < s.days.length; i++) {
       const j = a + i;
       if (j + 1 < windowDays) {
-        out[m * steps + i] = NaN;
+        out[base + i] = NaN;
         continue;
       }
       let sum = 0;
       for (let k = j - windowDays + 1; k <= j; k++) sum += x[k];
-      out[m * steps + i] = sum / windowDays;
+      out[base + i] = sum / windowDays;
     }
-  }
-  return out;
+  });
 }
 
 /** Thresholds for the antecedent days followed by the series days. */
@@ -58,45 +67,33 @@ function thresholdsFor(s: DailySeries, antecedentLength: number, thresholdC: (da
  * A missing day makes the run unknown (NaN) until the next day at or below the threshold.
  */
 export function hotDaysRunSeries(s: DailySeries, thresholdC: (date: IsoDate) => number, antecedent: Float64Array = new Float64Array(0)): Float64Array {
-  const steps = s.days.length;
-  const a = antecedent.length;
-  const thr = thresholdsFor(s, a, thresholdC);
-  const out = new Float64Array(s.members * steps);
-  const buf = new Float64Array(a + steps);
-  for (let m = 0; m < s.members; m++) {
-    const x = extendedRow(s, m, antecedent, buf);
+  const thr = thresholdsFor(s, antecedent.length, thresholdC);
+  return perMember(s, antecedent, (x, a, out, base) => {
     let run = 0;
     let unknown = false;
-    for (let j = 0; j < a + steps; j++) {
+    for (let j = 0; j < a + s.days.length; j++) {
       if (Number.isNaN(x[j]) || Number.isNaN(thr[j])) unknown = true;
       else if (x[j] > thr[j]) run++;
       else {
         run = 0;
         unknown = false;
       }
-      if (j >= a) out[m * steps + j - a] = unknown ? NaN : run;
+      if (j >= a) out[base + j - a] = unknown ? NaN : run;
     }
-  }
-  return out;
+  });
 }
 
 /** Heat load: sum over the trailing `windowDays` of max(0, value − threshold) [°C·day]; NaN when incomplete. */
 export function heatLoadSeries(
   s: DailySeries, windowDays: number, thresholdC: (date: IsoDate) => number, antecedent: Float64Array = new Float64Array(0),
 ): Float64Array {
-  const steps = s.days.length;
-  const a = antecedent.length;
-  const thr = thresholdsFor(s, a, thresholdC);
-  const out = new Float64Array(s.members * steps);
-  const buf = new Float64Array(a + steps);
-  for (let m = 0; m < s.members; m++) {
-    const x = extendedRow(s, m, antecedent, buf);
-    for (let i = 0; i < steps; i++) {
+  const thr = thresholdsFor(s, antecedent.length, thresholdC);
+  return perMember(s, antecedent, (x, a, out, base) => {
+    for (let i = 0; i < s.days.length; i++) {
       const j = a + i;
       let sum = j + 1 < windowDays ? NaN : 0;
       for (let k = Math.max(0, j - windowDays + 1); k <= j; k++) sum += Math.max(0, x[k] - thr[k]);
-      out[m * steps + i] = sum;
+      out[base + i] = sum;
     }
-  }
-  return out;
+  });
 }
