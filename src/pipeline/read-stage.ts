@@ -62,12 +62,30 @@ async function readFile(
   }
 }
 
-/** Reads the hindcast files of one source (each file's problems collected, the others go on). */
-export async function readHindcasts(source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[]): Promise<HindcastRead[]> {
+/** Grid cells each region covers in a file (the same for every quantity of one file). */
+export function regionCells(series: RegionQuantities): Map<string, number> {
+  return new Map([...series].map(([region, byQ]) => [region, [...byQ.values()][0]?.cells ?? 0]));
+}
+
+/**
+ * Reads the hindcast files of one source (each file's problems collected, the others go on). With the forecast's
+ * cells per region, a hindcast on another grid (a region covering another number of cells) is left out for that
+ * region with a message, so its leads are not calibrated on a different grid.
+ */
+export async function readHindcasts(
+  source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>,
+): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   for (const h of files) {
     const series = await readFile(h.path, source.variables, regions, h.start, problems);
-    if (series) out.push({ year: h.year, start: h.start, path: h.path, series });
+    if (!series) continue;
+    for (const [region, cells] of regionCells(series)) {
+      const expected = forecastCells?.get(region);
+      if (expected === undefined || expected === cells) continue;
+      series.delete(region);
+      problems.push(new InputError('hindcast-grid', h.path, `region '${region}' covers ${cells} grid cells here but ${expected} in the forecast: the hindcast grid differs`, `provide hindcasts of source '${source.id}' on the forecast's grid; this region's leads are not calibrated on them`));
+    }
+    out.push({ year: h.year, start: h.start, path: h.path, series });
   }
   return out;
 }

@@ -17,7 +17,7 @@ import type { LeadProbability } from '../types.ts';
 import { buildIndicatorClimate, type IndicatorClimate, type ObservedIndicators } from './climate-stage.ts';
 import { indicatorContext } from './indicator-context.ts';
 import type { SourceInputs } from './inputs.ts';
-import { readHindcasts, type RegionQuantities, type SourceRead } from './read-stage.ts';
+import { readHindcasts, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
 
 export interface SourceOutcome {
   readonly source: string;
@@ -54,7 +54,7 @@ function pairs(config: Config, tier: string): { region: RegionConfig; ind: Indic
   return config.regions.flatMap((region) => config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })));
 }
 
-async function loadClimates(ctx: SharedContext, input: SourceInputs, problems: ForelightError[]): Promise<{ climates: Map<string, IndicatorClimate>; fromCache: boolean }> {
+async function loadClimates(ctx: SharedContext, input: SourceInputs, read: SourceRead, problems: ForelightError[]): Promise<{ climates: Map<string, IndicatorClimate>; fromCache: boolean }> {
   const { config } = ctx;
   const source = input.source;
   if (input.hindcasts.length === 0) return { climates: new Map(), fromCache: false };
@@ -65,7 +65,7 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, problems: F
     memo: ctx.checksums,
   });
   const cached = await cachedSkill<Record<string, StoredClimate>>(config.calibration.cacheDir, key, async () => {
-    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems);
+    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series));
     const out: Record<string, StoredClimate> = {};
     for (const { region, ind } of pairs(config, source.tier)) {
       const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
@@ -80,7 +80,7 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, problems: F
 /** Probabilities of every region × indicator of one source (the source's tier), with the climates behind them. */
 export async function calibrateSource(ctx: SharedContext, read: SourceRead, input: SourceInputs, fileProblems: ForelightError[]): Promise<SourceOutcome> {
   const { config } = ctx;
-  const { climates, fromCache } = await loadClimates(ctx, input, fileProblems);
+  const { climates, fromCache } = await loadClimates(ctx, input, read, fileProblems);
   const probabilities: LeadProbability[] = [];
   const forecastLeads = new Map<string, LeadValues>();
   const problems: string[] = [];

@@ -160,4 +160,24 @@ describe('one bad source never stops the others', () => {
       db.close();
     }
   });
+
+  it('a hindcast on another grid is named and left out for its regions; the other years still calibrate', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-grid-'));
+    const copy = join(dir, 'data');
+    cpSync(sampleDir, copy, { recursive: true });
+    // The 2010 sub-seasonal hindcast replaced by the short-range one of 2010 (0.5° instead of 1°).
+    copyFileSync(join(copy, 'short', 'hindcast', 'short_20101126.nc'), join(copy, 'subseasonal', 'hindcast', 'subs_20101126.nc'));
+    const config = isolatedConfig(base, dir, copy);
+    const outcome = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' });
+    expect(outcome.exitCode).toBe(EXIT.inputProblem);
+    const db = new Database(config.ledger, { readonly: true });
+    try {
+      const run = db.prepare('SELECT error FROM runs').get() as { error: string };
+      expect(run.error).toMatch(/subs_20101126\.nc: region 'kessan-lowlands' covers \d+ grid cells here but \d+ in the forecast: the hindcast grid differs/);
+      const weeks = db.prepare("SELECT count(*) AS n FROM probabilities WHERE tier = 'weeks' AND calibrated = 1").get() as { n: number };
+      expect(weeks.n).toBeGreaterThan(0);
+    } finally {
+      db.close();
+    }
+  });
 });
