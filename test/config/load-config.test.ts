@@ -42,6 +42,20 @@ describe('shipped configuration (config/forelight.yaml)', () => {
     expect(validate(parse(text)), JSON.stringify(validate.errors)).toBe(true);
   });
 
+  it('the included regions.yaml and teams.yaml name their own schemas on line 1 and validate against them', () => {
+    const main = JSON.parse(readFileSync(SCHEMA_URL, 'utf8')) as { $id: string };
+    const ajv = new Ajv2020({ allErrors: true, allowUnionTypes: true });
+    ajv.addSchema(main);
+    for (const name of ['regions', 'teams']) {
+      const text = readFileSync(join(DEFAULT_CONFIG_PATH, '..', `${name}.yaml`), 'utf8');
+      expect(text.split('\n')[0]).toBe(`# yaml-language-server: $schema=./${name}.schema.json`);
+      const sub = JSON.parse(readFileSync(join(DEFAULT_CONFIG_PATH, '..', `${name}.schema.json`), 'utf8'));
+      const validate = ajv.compile({ ...sub, $id: new URL(`${name}.schema.json`, main.$id).href });
+      expect(validate(parse(text)), JSON.stringify(validate.errors)).toBe(true);
+      expect(validate([{ id: 'x', unknownKey: 1 }])).toBe(false); // unknown keys are errors here too
+    }
+  });
+
   it('gives every schema property a description (editor help)', () => {
     const missing: string[] = [];
     const walk = (node: unknown, path: string) => {
