@@ -61,7 +61,7 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, read: Sourc
   const key = await skillCacheKey({
     hindcastFiles: input.hindcasts.map((h) => h.path),
     observationsFile: ctx.observationsPath,
-    configFingerprint: fingerprint({ source, regions: config.regions, indicators: config.indicators, rules: config.rules, gate: config.decision.skillGate, calibration: config.calibration }),
+    configFingerprint: fingerprint({ source: { id: source.id, tier: source.tier, hindcast: source.hindcast, variables: source.variables }, regions: config.regions, indicators: config.indicators, rules: config.rules, gate: config.decision.skillGate, calibration: config.calibration }),
     memo: ctx.checksums,
   });
   const cached = await cachedSkill<Record<string, StoredClimate>>(config.calibration.cacheDir, key, async () => {

@@ -110,28 +110,14 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
 /**
  * Opens `path` and extracts per-region daily ensemble series for `request.quantities` (canonical units,
  * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
- * Classic-format files are read with one handle per quantity, concurrently, so that one variable's positional
- * reads (in libuv's thread pool) overlap with another's decoding on the main thread.
  * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
  */
 export async function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
-  const first = await openDataset(path);
-  const quantities = Object.entries(request.quantities) as [Quantity, string][];
-  if (first.format === 'netcdf4' || quantities.length < 2) {
-    try {
-      return await extractFromDataset(first, request);
-    } finally {
-      await first.close();
-    }
-  }
-  const handles = [first, ...(await Promise.all(quantities.slice(1).map(() => openDataset(path))))];
+  const ds = await openDataset(path);
   try {
-    const parts = await Promise.all(quantities.map(([q, v], i) => extractFromDataset(handles[i], { ...request, quantities: { [q]: v } })));
-    const seen = new Set<string>();
-    const problems = parts.flatMap((p) => p.problems).filter((p) => !seen.has(p.message) && Boolean(seen.add(p.message)));
-    return { series: parts.flatMap((p) => p.series), problems };
+    return await extractFromDataset(ds, request);
   } finally {
-    await Promise.all(handles.map((h) => h.close()));
+    await ds.close();
   }
 }
 
