@@ -20,7 +20,7 @@ interface RawTree {
   indicators: { id: string; name: string; kind: IndicatorKind; 'window-days'?: number; threshold: RawThreshold; 'region-thresholds'?: Record<string, RawThreshold>; aggregate: 'mean' | 'max' | 'sum'; tiers: Tier[]; params?: Record<string, number | string | boolean> }[];
   'stage-ladder': { id: string; label: Texts; glyph: string; colour: string; meaning: Texts; actions: Record<string, Texts>; cap: StageConfig['cap'] }[];
   'trigger-rules': { id: string; indicator: string; tier: Tier; leads?: number[]; stage: string; probability?: number; 'cost-loss'?: number }[];
-  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'top-stage-immediate': boolean; combine: 'highest'; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
+  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
   delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number };

@@ -6,6 +6,7 @@ import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ConfigError } from '../errors.ts';
 import { buildConfig } from './build-config.ts';
+import { checkCombine } from './check-combine.ts';
 import { checkIndicators } from './check-indicators.ts';
 import { checkDuplicateIds, checkReferences } from './check-references.ts';
 import { checkRules } from './check-rules.ts';
@@ -86,7 +87,7 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
   pending.push(...validateAgainstSchema(raw));
   // Semantic checks need the included lists: without them every reference would look unknown.
   if (includesComplete) {
-    pending.push(...checkDuplicateIds(raw), ...checkReferences(raw), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw));
+    pending.push(...checkDuplicateIds(raw), ...checkReferences(raw), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw), ...checkCombine(raw));
   }
   problems.push(...pending.map((p) => sourceMap.format(p)));
   const unique = [...new Set(problems)].sort(byPosition);

@@ -119,6 +119,17 @@ export interface TriggerRule {
   readonly costLoss?: number;
 }
 
+/**
+ * A combination matrix: the region's stage is `table[row][column]`, where row is the rank of the highest stage
+ * among the `rows` indicators and column the rank of the highest among the `columns` indicators (ranks in the
+ * ladder, lowest = 0). Indicators on neither axis still count: the region gets at least their highest stage.
+ */
+export interface CombineMatrix {
+  readonly rows: readonly string[];
+  readonly columns: readonly string[];
+  readonly table: readonly (readonly string[])[];
+}
+
 export interface DecisionConfig {
   /** Highest stage each tier may raise (e.g. months may only reach the second stage). */
   readonly tierCaps: Readonly<Partial<Record<Tier, string>>>;
@@ -128,8 +139,8 @@ export interface DecisionConfig {
   readonly relaxAfterRuns: number;
   /** Top stage escalates at once, skipping persistence. */
   readonly topStageImmediate: boolean;
-  /** How indicators and tiers combine for a region: highest stage wins. */
-  readonly combine: 'highest';
+  /** How indicators and tiers combine for a region: the highest stage wins, or a matrix (see CombineMatrix). */
+  readonly combine: 'highest' | { readonly matrix: CombineMatrix };
   /** Skill gate: which score and its floor. */
   readonly skillGate: { readonly score: 'rocArea' | 'brierSkillScore'; readonly floor: number; readonly action: 'withhold' | 'say-no-skill' };
 }

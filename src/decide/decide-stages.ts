@@ -65,15 +65,30 @@ export function decideStages(input: DecideInput): DecideResult {
   return { decisions, regionStages: combineRegionStages(config, decisions), nextHistory: { version: 1, tracks } };
 }
 
-/** Highest stage wins per region; on a tie the first decision in config order (indicator, then tier) wins. */
+/**
+ * The region's stage from its decisions: the highest wins, or with a matrix (DecisionConfig.combine) the table
+ * entry for the highest stage of the row indicators and of the column indicators — never below the stage of an
+ * indicator on neither axis. On a tie the first decision in config order (indicator, then tier) is named.
+ */
 export function combineRegionStages(config: Config, decisions: readonly StageDecision[]): RegionStage[] {
   const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
+  const highest = (list: readonly StageDecision[]): StageDecision | null =>
+    list.reduce<StageDecision | null>((best, d) => (best === null || rank(d.stageId) > rank(best.stageId) ? d : best), null);
+  const named = (d: StageDecision | null) => (d ? { region: d.region, indicator: d.indicator, tier: d.tier } : null);
+  const combine = config.decision.combine;
   return config.regions.map((region) => {
-    let best: StageDecision | null = null;
-    for (const d of decisions) {
-      if (d.region === region.id && (best === null || rank(d.stageId) > rank(best.stageId))) best = d;
+    const own = decisions.filter((d) => d.region === region.id);
+    if (combine === 'highest') {
+      const best = highest(own);
+      return { region: region.id, stageId: best?.stageId ?? config.stages[0].id, fromDecision: named(best) };
     }
-    if (best === null) return { region: region.id, stageId: config.stages[0].id, fromDecision: null };
-    return { region: region.id, stageId: best.stageId, fromDecision: { region: best.region, indicator: best.indicator, tier: best.tier } };
+    const { rows, columns, table } = combine.matrix;
+    const row = highest(own.filter((d) => rows.includes(d.indicator)));
+    const column = highest(own.filter((d) => columns.includes(d.indicator)));
+    const other = highest(own.filter((d) => !rows.includes(d.indicator) && !columns.includes(d.indicator)));
+    const fromTable = table[row ? rank(row.stageId) : 0][column ? rank(column.stageId) : 0];
+    const driver = highest([row, column].filter((d): d is StageDecision => d !== null));
+    if (other && rank(other.stageId) > rank(fromTable)) return { region: region.id, stageId: other.stageId, fromDecision: named(other) };
+    return { region: region.id, stageId: fromTable, fromDecision: named(driver) };
   });
 }

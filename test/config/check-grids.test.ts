@@ -24,7 +24,7 @@ describe('checkRegionsAgainstGrids', async () => {
     // Grid over the western half only: Orrin Coast (lon 2..4) lies east of it; line 33 = "- id: orrin-coast".
     const grids = [{ source: 'subseasonal', latMin: -15, latMax: -4, lonMin: -6, lonMax: 1.9, lon360: false }];
     expect(checkRegionsAgainstGrids(config, grids)).toEqual([
-      'config/regions.yaml:33:3: region orrin-coast (lat -8.5..-6, lon 2..4) lies outside the grid of source subseasonal (lat -15..-4, lon -6..1.9) — check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files',
+      'config/regions.yaml:34:3: region orrin-coast (lat -8.5..-6, lon 2..4) lies outside the grid of source subseasonal (lat -15..-4, lon -6..1.9) — check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files',
     ]);
   });
 });

@@ -4,7 +4,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { checkConfigFile } from '../../src/config/load-config.ts';
-import { fixture } from './helpers.ts';
+import { relative } from 'node:path';
+import { fixture, minimalVariant } from './helpers.ts';
 
 const F = 'test/config/fixtures/many-problems.yaml';
 const EXPECTED: readonly [check: string, line: string][] = [
@@ -47,5 +48,26 @@ describe('semantic checks on fixtures/many-problems.yaml', async () => {
 
   it.each(EXPECTED)('%s', (_check, line) => {
     expect(result.problems).toContain(line);
+  });
+});
+
+describe('combination matrix (escalation.combine.matrix)', () => {
+  it('unknown or doubled indicators and a table entry that would hide a warning: exact messages and positions', async () => {
+    const file = minimalVariant('  combine: highest', ['  combine:', '    matrix:', '      rows: [hot]', '      columns: [hot, cold]', '      table:', '        - [calm, alert]', '        - [calm, alert]'].join('\n'));
+    const { config, problems } = await checkConfigFile(file);
+    expect(config).toBeUndefined();
+    const name = relative(process.cwd(), file).startsWith('..') ? file : relative(process.cwd(), file);
+    expect(problems).toEqual([
+      `${name}:62:17: indicator 'hot' is on both axes of the matrix — put each indicator in rows or in columns, not both`,
+      `${name}:62:22: unknown indicator 'cold' — use one of: hot`,
+      `${name}:65:12: 'calm' is lower than an input stage (row alert, column calm): the matrix would hide a warning — use alert or higher`,
+    ]);
+  });
+
+  it('a well-formed matrix loads', async () => {
+    const file = minimalVariant('  combine: highest', ['  combine:', '    matrix:', '      rows: [hot]', '      columns: []', '      table:', '        - [calm, alert]', '        - [alert, alert]'].join('\n'));
+    const { config, problems } = await checkConfigFile(file);
+    expect(problems).toEqual([]);
+    expect(config?.decision.combine).toEqual({ matrix: { rows: ['hot'], columns: [], table: [['calm', 'alert'], ['alert', 'alert']] } });
   });
 });

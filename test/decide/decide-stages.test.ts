@@ -4,7 +4,7 @@
  * helpers.ts by hand; the ladder semantics are this project's design (documented in persistence.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { decideStages } from '../../src/decide/decide-stages.ts';
+import { combineRegionStages, decideStages } from '../../src/decide/decide-stages.ts';
 import { parseStageHistory } from '../../src/decide/history.ts';
 import { EMPTY_HISTORY, trackKey, type StageHistory } from '../../src/decide/types.ts';
 import type { LeadProbability } from '../../src/types.ts';
@@ -102,6 +102,28 @@ describe('decideStages', () => {
       { region: 'r1', stageId: 'brace', fromDecision: { region: 'r1', indicator: 'heat', tier: 'weeks' } },
       { region: 'r2', stageId: 'quiet', fromDecision: null },
     ]);
+  });
+
+  it('combines through a matrix: heat (rows) × malaria (columns) → table entry; indicators on no axis still count', () => {
+    // Invented matrix: mindful heat with mindful malaria together make brace.
+    const table = [
+      ['quiet', 'mindful', 'brace', 'act-now'],
+      ['mindful', 'brace', 'brace', 'act-now'],
+      ['brace', 'brace', 'act-now', 'act-now'],
+      ['act-now', 'act-now', 'act-now', 'act-now'],
+    ];
+    const matrixConfig = makeConfig({ combine: { matrix: { rows: ['heat'], columns: ['malaria'], table } } });
+    const decision = (region: string, indicator: string, stageId: string) =>
+      ({ region, indicator, tier: 'months' as const, stageId, rawStageId: stageId, ruleId: null, lead: null, withheldLeads: [], reasons: [] });
+    expect(combineRegionStages(matrixConfig, [decision('r1', 'heat', 'mindful'), decision('r1', 'malaria', 'mindful')])).toEqual([
+      { region: 'r1', stageId: 'brace', fromDecision: { region: 'r1', indicator: 'heat', tier: 'months' } },
+      { region: 'r2', stageId: 'quiet', fromDecision: null },
+    ]);
+    expect(combineRegionStages(matrixConfig, [decision('r1', 'malaria', 'mindful')])[0].stageId).toBe('mindful');
+    // With highest-wins the same inputs give mindful: the matrix is what raises it.
+    expect(combineRegionStages(makeConfig(), [decision('r1', 'heat', 'mindful'), decision('r1', 'malaria', 'mindful')])[0].stageId).toBe('mindful');
+    const onlyRows = makeConfig({ combine: { matrix: { rows: ['heat'], columns: [], table } } });
+    expect(combineRegionStages(onlyRows, [decision('r1', 'malaria', 'brace')])[0]).toMatchObject({ stageId: 'brace', fromDecision: { indicator: 'malaria' } });
   });
 
   it('cost/loss rule: skipped when not tuned, uses the tuned threshold when given', () => {
