@@ -5,6 +5,7 @@ import { mkdtempSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { openDataset } from '../../src/read/open-dataset.ts';
 import { createNetcdfClassic, type NcFileSpec, type NcFormat } from '../../sample-inputs/lib/netcdf-classic-writer.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'forelight-writer-'));
@@ -76,7 +77,7 @@ describe('netcdf classic writer vs ncdump', () => {
   });
 
   for (const format of ['64bit-offset', 'cdf5'] as const) {
-    it(`${format}: a variable beginning beyond 4 GiB is read back by ncdump (sparse file)`, async () => {
+    it(`${format}: a variable beginning beyond 4 GiB is read back by ncdump and by Forelight's reader (sparse file)`, async () => {
       const path = join(dir, `big-${format}.nc`);
       const huge = 400_000_000; // floats: 1.6 GB each, three of them push `tail` past 4.8 GB
       const w = await createNetcdfClassic(path, {
@@ -89,6 +90,13 @@ describe('netcdf classic writer vs ncdump', () => {
       await w.close();
       expect(w.totalBytes).toBeGreaterThan(2 ** 32);
       expect(ncdump('-v', 'tail', path).replace(/\s+/g, ' ')).toContain('tail = 1.25, -2 ;');
+      const ds = await openDataset(path);
+      try {
+        expect(Array.from(await ds.readRaw('tail', [0], [2]))).toEqual([1.25, -2]);
+        expect(Array.from(await ds.readRaw('c', [huge - 1], [1]))).toEqual([7.5]);
+      } finally {
+        await ds.close();
+      }
       rmSync(path);
     });
   }
