@@ -4,10 +4,11 @@
  */
 import type { Config, StageConfig } from '../config/types.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
+import { combineRegionStages } from '../decide/decide-stages.ts';
 import type { RegionStage } from '../decide/types.ts';
 import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
 import { computeNextRuns } from '../schedule/next-runs.ts';
-import type { IsoDate, LeadProbability, StageDecision } from '../types.ts';
+import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
 import { changeReason } from './change-reason.ts';
 import type { SourceRead } from './read-stage.ts';
 
@@ -37,15 +38,17 @@ export function nextIssueDate(config: Config, from: Date): IsoDate {
   return localDate(next ?? from, config.schedule.timezone);
 }
 
-/** Combined stage of each region from per region × indicator × tier stages (highest wins). */
-export function combineByRegion(config: Config, rows: readonly { region: string; stageId: string }[]): RegionStageLike[] {
+/** Region stages of an issued run's rows, combined as the run's own decisions were (highest wins, or the matrix). */
+export function issuedRegionStages(config: Config, rows: readonly { region: string; indicator: string; tier: Tier; stageId: string }[]): RegionStageLike[] {
+  const decisions: StageDecision[] = rows.map((r) => ({ ...r, rawStageId: r.stageId, ruleId: null, lead: null, withheldLeads: [], reasons: [] }));
+  const present = new Set(rows.map((r) => r.region));
+  return combineRegionStages(config, decisions).filter((r) => present.has(r.region)).map(({ region, stageId }) => ({ region, stageId }));
+}
+
+/** The highest of some stage ids on the ladder (the lowest stage when there are none). */
+export function highestStageId(config: Config, ids: readonly string[]): string {
   const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
-  const best = new Map<string, string>();
-  for (const r of rows) {
-    const cur = best.get(r.region);
-    if (cur === undefined || rank(r.stageId) > rank(cur)) best.set(r.region, r.stageId);
-  }
-  return [...best.entries()].map(([region, stageId]) => ({ region, stageId }));
+  return ids.reduce((best, id) => (rank(id) > rank(best) ? id : best), config.stages[0].id);
 }
 
 function stageById(config: Config, id: string): StageConfig {

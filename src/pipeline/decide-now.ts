@@ -13,7 +13,7 @@ import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
 import type { Logger } from '../log.ts';
 import type { IsoDate } from '../types.ts';
 import { analyse, type Analysis } from './analyse.ts';
-import { combineByRegion } from './bulletin-run.ts';
+import { issuedRegionStages } from './bulletin-run.ts';
 
 export interface DecidedNow {
   readonly analysis: Analysis;
@@ -35,7 +35,7 @@ export async function decideNow(config: Config, issueDate: IsoDate, log: Logger,
     const ledger = openLedger(config.ledger);
     try {
       historyJson = latestStageHistory(ledger);
-      previous = combineByRegion(config, lastIssuedStages(ledger));
+      previous = issuedRegionStages(config, lastIssuedStages(ledger));
     } finally {
       ledger.close();
     }

@@ -20,7 +20,7 @@ import { renderBulletins } from '../render/render-bulletins.ts';
 import { EXIT, exitCodeForDeliveries, type ExitCode } from '../schedule/exit-codes.ts';
 import type { IsoDate } from '../types.ts';
 import { analyse, type Analysis } from './analyse.ts';
-import { buildBulletinRun, combineByRegion } from './bulletin-run.ts';
+import { buildBulletinRun, highestStageId, issuedRegionStages } from './bulletin-run.ts';
 import { tunedThresholds } from './decide-now.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
 import { publishArchive } from './publish.ts';
@@ -69,8 +69,8 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
     for (const ind of config.indicators) {
       const a = previousCapAlert(ledger, region.id, ind.id, runId);
       if (!a || a.msgType === 'Cancel') continue;
-      const issued = combineByRegion(config, stages.filter((s) => s.region === region.id && s.indicator === ind.id))[0];
-      alerts.push({ region: region.id, indicator: ind.id, sender: a.sender, id: a.identifier, sent: a.sent, stageId: issued?.stageId ?? config.stages[0].id });
+      const issued = highestStageId(config, stages.filter((s) => s.region === region.id && s.indicator === ind.id).map((s) => s.stageId));
+      alerts.push({ region: region.id, indicator: ind.id, sender: a.sender, id: a.identifier, sent: a.sent, stageId: issued });
     }
   }
   return stages.length > 0 ? { runId: String(stages[0].runId), alerts } : undefined;
@@ -87,7 +87,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number): Prom
   recordProbabilities(ledger, runId, analysis.probabilities);
   recordDecisions(ledger, runId, decided.decisions);
   saveStageHistory(ledger, runId, JSON.stringify(decided.nextHistory));
-  const previous = combineByRegion(config, lastIssuedStages(ledger).filter((s) => s.runId !== runId));
+  const previous = issuedRegionStages(config, lastIssuedStages(ledger).filter((s) => s.runId !== runId));
   const run = buildBulletinRun({
     config, runId: `${options.issueDate}-${runId}`, issuedAt: (options.now ?? (() => new Date()))(), mode: options.mode,
     sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
