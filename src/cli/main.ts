@@ -60,8 +60,8 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   backtest: {
     summary: 'replay the configured rules over every hindcast start and count stages, hits, misses, false alarms',
-    usage: 'forelight backtest [--config FILE] [--csv]',
-    spec: { values: ['config'], flags: ['csv'] },
+    usage: 'forelight backtest [--config FILE] [--date YYYY-MM-DD] [--csv]',
+    spec: { values: ['config', 'date'], flags: ['csv'] },
     run: async (a) => (await import('./commands/backtest.ts')).backtestCommand(a),
   },
   serve: {

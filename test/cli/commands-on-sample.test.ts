@@ -1,0 +1,66 @@
+/**
+ * The operators' inspection commands on the invented Veloria sample, as a user runs them (child processes, the
+ * shipped configuration): skill table, dry-run diff, explain, backtest. The sample is generated into
+ * sample-inputs/data when missing (as `forelight demo` does); nothing is stored or sent by these commands.
+ */
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { generateSample } from '../../sample-inputs/generate.ts';
+import { EXIT } from '../../src/schedule/exit-codes.ts';
+
+const ROOT = fileURLToPath(new URL('../..', import.meta.url));
+const DATE = ['--date', '2026-11-26'];
+
+function forelight(...args: string[]): { code: number | null; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], { cwd: ROOT, encoding: 'utf8', timeout: 120_000, env: { ...process.env, FORELIGHT_LOG_LEVEL: 'error' } });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+beforeAll(async () => {
+  if (!existsSync(join(ROOT, 'sample-inputs/data/manifest.json'))) await generateSample();
+}, 120_000);
+
+describe('inspection commands on the sample', () => {
+  it('skill --csv: one row per source, region, indicator and lead with BS, BSS and ROC area (RFC 4180 CSV)', () => {
+    const r = forelight('skill', '--csv', ...DATE);
+    expect(r.code).toBe(EXIT.ok);
+    const lines = r.stdout.trim().split('\r\n');
+    expect(lines[0]).toBe('source,region,indicator,lead,basis,cases,BS,BSS,ROC area,REL,RES,skilful');
+    expect(lines.some((l) => /^subseasonal,kessan-lowlands,tmax-3day,week 2,observed,20,/.test(l))).toBe(true);
+    expect(r.stderr).toMatch(/skill \[#+\] 4\/4 done/); // progress bar
+  });
+
+  it('diff: the region stages a run would issue, nothing stored (dry run)', () => {
+    const r = forelight('diff', ...DATE);
+    expect(r.code).toBe(EXIT.ok);
+    expect(r.stdout).toMatch(/^dry run for 2026-11-26 \(nothing stored or sent\)/);
+    for (const name of ['Kessan Lowlands', 'Marrow Highlands', 'Tulva Delta', 'Orrin Coast']) expect(r.stdout).toContain(name);
+  });
+
+  it('explain: threshold and its origin, probability with base rate and skill per lead, the rule, persistence, stage', () => {
+    const r = forelight('explain', '--region', 'tulva-delta', '--indicator', 'heat-index', '--tier', 'days', ...DATE);
+    expect(r.code).toBe(EXIT.ok);
+    expect(r.stdout).toMatch(/^Tulva Delta · Heat Index \(Rothfusz regression\) · days$/m);
+    expect(r.stdout).toMatch(/^threshold: .*absolute 39 degC/m);
+    expect(r.stdout).toMatch(/^day 1 \(2026-11-26\.\.2026-11-26\): values min .* P\(> threshold\) = .* base rate .* skill ROC area/m);
+    expect(r.stdout).toMatch(/^persistence before this run: /m);
+    expect(r.stdout).toMatch(/issued stage/);
+  });
+
+  it('backtest --csv: stage counts with hits, misses and false alarms per region, indicator and tier', () => {
+    const r = forelight('backtest', '--csv', ...DATE);
+    expect(r.code).toBe(EXIT.ok);
+    const [head, ...rows] = r.stdout.trim().split(/\r?\n/);
+    expect(head).toBe('region,indicator,tier,cases,quiet,mindful,brace,act-now,hits,misses,false_alarms,correct_negatives,unverified');
+    expect(rows.length).toBeGreaterThan(10);
+  });
+
+  it('explain with an unknown region is a usage error naming the valid ids', () => {
+    const r = forelight('explain', '--region', 'nowhere', '--indicator', 'heat-index', '--tier', 'days', ...DATE);
+    expect(r.code).toBe(EXIT.usage);
+    expect(r.stderr).toMatch(/--region must be one of kessan-lowlands, marrow-highlands, tulva-delta, orrin-coast/);
+  });
+});
