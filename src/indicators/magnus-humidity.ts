@@ -92,9 +92,3 @@ export function rhFromDewpointMagnusPctArray(
   return mapElementwise2(tC, tdC, out, (t, td) => rhFromDewpointMagnusPct(t, td, k));
 }
 
-/** Vectorised {@link dewpointFromRhMagnusC}: out[i] = Td(tC[i], rhPct[i]). */
-export function dewpointFromRhMagnusCArray(
-  tC: ArrayLike<number>, rhPct: ArrayLike<number>, out: Float64Array, k: MagnusCoefficients = MAGNUS_ALDUCHOV_ESKRIDGE_1996,
-): ElementwiseCounts {
-  return mapElementwise2(tC, rhPct, out, (t, rh) => dewpointFromRhMagnusC(t, rh, k));
-}

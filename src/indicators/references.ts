@@ -123,8 +123,3 @@ export const REFERENCES = {
 
 export type ReferenceKey = keyof typeof REFERENCES;
 
-/** "Author (year) Title. Journal." for bulletins and method notes. */
-export function formatReference(key: ReferenceKey): string {
-  const r: Reference = REFERENCES[key];
-  return `${r.author} (${r.year}) ${r.title}. ${r.journal}.`;
-}

@@ -12,7 +12,6 @@
  * re-implementation): check Table 1 of the paper before relying on digits beyond the optimum (≈25.6 °C) and the
  * limits (R0 > 0 between ≈15.76 and ≈33.71 °C). Valid range: any finite T (0 outside the limits).
  */
-import { mapElementwise1, type ElementwiseCounts } from './elementwise.ts';
 
 function briere(tC: number, c: number, t0: number, tm: number): number {
   return tC > t0 && tC < tm ? c * tC * (tC - t0) * Math.sqrt(tm - tC) : 0;
@@ -75,7 +74,3 @@ export function relativeR0Mordecai2013(tC: number): number {
   return r0UnscaledMordecai2013(tC) / PROFILE.maxR0;
 }
 
-/** Vectorised {@link relativeR0Mordecai2013}. */
-export function relativeR0Mordecai2013Array(tC: ArrayLike<number>, out: Float64Array): ElementwiseCounts {
-  return mapElementwise1(tC, out, relativeR0Mordecai2013);
-}

@@ -10,7 +10,6 @@
  * Valid range: any finite T; NaN in → NaN out. Other papers pair 105 DD with 18 °C for P. vivax — pass custom
  * constants for those.
  */
-import { mapElementwise1, type ElementwiseCounts } from './elementwise.ts';
 
 export type PlasmodiumSpecies = 'falciparum' | 'vivax';
 
@@ -38,7 +37,3 @@ export function sporogonyRateDetinova1962PerDay(tC: number, k: SporogonyConstant
   return tC > k.tMinC ? (tC - k.tMinC) / k.degreeDays : 0;
 }
 
-/** Vectorised {@link sporogonyRateDetinova1962PerDay}. */
-export function sporogonyRateDetinova1962PerDayArray(tC: ArrayLike<number>, out: Float64Array, k: SporogonyConstants): ElementwiseCounts {
-  return mapElementwise1(tC, out, (t) => sporogonyRateDetinova1962PerDay(t, k));
-}

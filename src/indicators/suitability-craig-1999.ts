@@ -9,7 +9,6 @@
  * verify before relying on them. The paper's seasonal aggregation and frost condition are not implemented.
  * Valid range: any finite T; R ≥ 0 (negative R → NaN).
  */
-import { mapElementwise1, mapElementwise2, type ElementwiseCounts } from './elementwise.ts';
 
 export const CRAIG_1999_BREAKPOINTS = {
   tempRiseStartC: 18, tempRiseEndC: 22, tempFallStartC: 32, tempFallEndC: 40, rainRiseStartMm: 0, rainRiseEndMm: 80,
@@ -43,12 +42,3 @@ export function craigMonthlySuitability1999(tMonthMeanC: number, rainMonthMm: nu
   return Math.min(craigTemperatureMembership1999(tMonthMeanC), craigRainfallMembership1999(rainMonthMm));
 }
 
-/** Vectorised {@link craigTemperatureMembership1999}. */
-export function craigTemperatureMembership1999Array(tC: ArrayLike<number>, out: Float64Array): ElementwiseCounts {
-  return mapElementwise1(tC, out, craigTemperatureMembership1999);
-}
-
-/** Vectorised {@link craigMonthlySuitability1999}. */
-export function craigMonthlySuitability1999Array(tC: ArrayLike<number>, rainMm: ArrayLike<number>, out: Float64Array): ElementwiseCounts {
-  return mapElementwise2(tC, rainMm, out, craigMonthlySuitability1999);
-}

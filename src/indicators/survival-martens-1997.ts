@@ -8,7 +8,6 @@
  * Survival through sporogony p^n uses n from Detinova (1962) [detinova1962]; p^n = 0 at or below Detinova Tmin.
  * Valid range: any finite T; NaN in → NaN out.
  */
-import { mapElementwise1, type ElementwiseCounts } from './elementwise.ts';
 import { sporogonyDurationDetinova1962Days, type SporogonyConstants } from './sporogony-detinova-1962.ts';
 
 export const MARTENS_LOWER_LIMIT_C = 11 / 3;
@@ -47,7 +46,3 @@ export function relativeSurvivalThroughSporogony(tC: number, k: SporogonyConstan
   return survivalThroughSporogony(tC, k) / maxValue;
 }
 
-/** Vectorised {@link dailySurvivalMartens1997}. */
-export function dailySurvivalMartens1997Array(tC: ArrayLike<number>, out: Float64Array): ElementwiseCounts {
-  return mapElementwise1(tC, out, dailySurvivalMartens1997);
-}
