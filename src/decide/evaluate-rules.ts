@@ -5,6 +5,7 @@
 import type { Config } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
 import { leadName } from './types.ts';
+import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
 const P_TOLERANCE = 1e-9;
@@ -27,11 +28,11 @@ function applySkillGate(config: Config, probs: readonly LeadProbability[], reaso
   const withheld: LeadWindow[] = [];
   for (const p of probs) {
     const score = p.skill ? p.skill[gate.score] : Number.NaN;
-    if (Number.isFinite(score) && score >= gate.floor) {
+    if (p.skill && passesSkillGate(p.skill, gate)) {
       usable.push(p);
       continue;
     }
-    const why = Number.isFinite(score) ? `${scoreName} ${fmt(score)} < ${gate.floor}` : 'no hindcast skill available';
+    const why = Number.isFinite(score) ? `${scoreName} ${fmt(score)} ${gate.score === 'rocArea' ? '<' : '≤'} ${gate.floor}` : 'no hindcast skill available';
     reasons.push(`${leadName(p.lead.tier, p.lead.index)} withheld: ${why} — no demonstrated skill, treat as normal conditions`);
     if (gate.action === 'say-no-skill') withheld.push(p.lead);
   }

@@ -5,6 +5,7 @@
 import type { Config } from '../config/types.ts';
 import type { LeadProbability, StageDecision } from '../types.ts';
 import { leadName, type StageTrack } from './types.ts';
+import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Summary of the ensemble values at one lead, as computed by the caller. */
 export interface EnsembleSummary {
@@ -54,7 +55,7 @@ export function explainDecision(input: ExplainInput): string[] {
     const skill = p.skill
       ? `skill ROC area ${n(p.skill.rocArea)}, BSS ${n(p.skill.brierSkillScore)} (${p.skill.basis}, ${p.skill.cases} cases)`
       : 'skill unknown';
-    const gated = !p.skill || !(p.skill[gate.score] >= gate.floor) ? ' — below the skill floor' : '';
+    const gated = !p.skill || !passesSkillGate(p.skill, gate) ? ' — below the skill floor' : '';
     const flags = p.flags.length > 0 ? `; flags: ${p.flags.join(', ')}` : '';
     lines.push(`${leadName(p.lead.tier, p.lead.index)} (${p.lead.start}..${p.lead.end}): ${values}P(> threshold) = ${n(p.probability)} from ${p.validMembers}/${p.members} members, base rate ${n(p.baseRate)}; ${skill}${gated}${flags}`);
   }

@@ -64,6 +64,16 @@ describe('decideStages', () => {
     expect(silent.rawStageId).toBe('mindful');
   });
 
+  it('skill gate on the Brier skill score uses the same rule as calibrate (BSS must exceed the floor: 0 is no gain over climatology)', () => {
+    const bssGate = makeConfig({ skillGate: { score: 'brierSkillScore', floor: 0, action: 'say-no-skill' } });
+    const atFloor = { ...prob('r1', 'weeks', 2, 0.9), skill: { brierScore: 0.2, brierSkillScore: 0, rocArea: 0.8, basis: 'observed' as const, cases: 20, skilful: false } };
+    const d = run([atFloor], EMPTY_HISTORY, bssGate).decisions[0];
+    expect(d.rawStageId).toBe('quiet');
+    expect(d.reasons[0]).toBe('week 2 withheld: Brier skill score 0 ≤ 0 — no demonstrated skill, treat as normal conditions');
+    const above = { ...atFloor, skill: { ...atFloor.skill, brierSkillScore: 0.05, skilful: true } };
+    expect(run([above], EMPTY_HISTORY, bssGate).decisions[0].rawStageId).toBe('brace');
+  });
+
   it('caps the months tier at mindful', () => {
     const d = run([prob('r1', 'months', 1, 0.9)]).decisions[0];
     expect(d.rawStageId).toBe('mindful');
