@@ -5,6 +5,7 @@
  * climatology (EHF, hot-day counts without params.dayThresholdC) stop with an error naming what to configure.
  */
 import { dayOfYearPercentileThreshold, ehfClimatology, type IndicatorClimatology, type IndicatorContext } from '../indicators/compute.ts';
+import { addDays } from '../indicators/iso-dates.ts';
 import type { IsoDate, Quantity, RegionSeries } from '../types.ts';
 
 const ANTECEDENT_DAYS = 30;
@@ -24,8 +25,7 @@ export function valuesOnDays(series: { readonly days: readonly IsoDate[]; readon
 }
 
 function daysBefore(first: IsoDate, n: number): IsoDate[] {
-  const t0 = Date.parse(`${first}T00:00:00Z`);
-  return Array.from({ length: n }, (_, i) => new Date(t0 - (n - i) * 86_400_000).toISOString().slice(0, 10));
+  return Array.from({ length: n }, (_, i) => addDays(first, i - n));
 }
 
 /** EHF climatology and hot-day thresholds of one region from a one-member daily reference (observations). */

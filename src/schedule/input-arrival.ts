@@ -3,6 +3,7 @@
  * is late. Source path patterns use `{date}` = YYYYMMDD of the forecast reference date (SourceConfig.forecast).
  */
 import { statSync } from 'node:fs';
+import { addDays } from '../indicators/iso-dates.ts';
 import type { IsoDate } from '../types.ts';
 
 /** Pattern with `{date}` replaced by the compact date of `date` (YYYY-MM-DD). */
@@ -93,9 +94,8 @@ export interface LatestInput {
 
 /** Newest available forecast of one source on or before `date`, looking back `lookbackDays` days. */
 export function resolveLatestInputs(pattern: string, date: IsoDate, lookbackDays: number): LatestInput {
-  const start = Date.parse(`${date}T00:00:00Z`);
   for (let back = 0; back <= lookbackDays; back++) {
-    const day = new Date(start - back * 86_400_000).toISOString().slice(0, 10);
+    const day = addDays(date, -back);
     const path = forecastPath(pattern, day);
     if ((sizeOf(path) ?? 0) > 0) return { expectedDate: date, date: day, path, stale: back > 0 };
   }
