@@ -34,8 +34,8 @@ function argsort(positions: Int32Array): Int32Array {
 }
 
 export class PositionPicker {
-  /** Indices into `positions`, ordered by position. */
-  private readonly order: Int32Array;
+  /** Indices into `positions`, ordered by position; null when `positions` is already ascending (the usual case). */
+  private readonly order: Int32Array | null;
   private next = 0;
   private readonly get: Getter;
   /** float32, by far the most common stored type, decoded without the getter indirection. */
@@ -48,7 +48,7 @@ export class PositionPicker {
   ) {
     let ascending = true;
     for (let i = 1; i < positions.length && ascending; i++) ascending = positions[i] >= positions[i - 1];
-    this.order = ascending ? Int32Array.from(positions.keys()) : argsort(positions);
+    this.order = ascending ? null : argsort(positions);
     this.get = GETTERS[type];
     this.float = type === 'float';
   }
@@ -59,8 +59,8 @@ export class PositionPicker {
     const view = new DataView(buf.buffer, buf.byteOffset + byteOffset, values * this.elementBytes);
     const { order, positions, elementBytes } = this;
     let next = this.next;
-    while (next < order.length) {
-      const k = order[next];
+    while (next < positions.length) {
+      const k = order ? order[next] : next;
       const p = positions[k];
       if (p >= end) break;
       if (p >= firstValue) out[k] = this.float ? view.getFloat32((p - firstValue) * 4) : this.get(view, (p - firstValue) * elementBytes);

@@ -7,7 +7,7 @@
  */
 import type { Dataset } from './dataset.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
-import { readBandCells } from './extract-read.ts';
+import { bandCellReader } from './extract-read.ts';
 import { deaccumulateInPlace, planLocalDays, reduceToDays, type DailyMethod, type DayPlan, type StepIntervals } from './daily.ts';
 import type { BandRegion, GridBand } from './regions-band.ts';
 import { convertInPlace, type UnitPlan } from './units.ts';
@@ -105,11 +105,12 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
   const starts = chunkStarts(steps, band.nLat * band.gridLon, [...plans.values()], req.maxChunkValues);
   const carry = new Float64Array(req.accumulated ? bandCells : 0);
   let dayBuffer = new Float64Array(0);
+  const readCells = bandCellReader(ds, layout, band);
   for (let m = 0; m < members; m++) {
     carry.fill(0);
     for (let c = 0; c + 1 < starts.length; c++) {
       const t0 = starts[c];
-      const values = await readBandCells(ds, layout, band, m, t0, starts[c + 1] - t0);
+      const values = await readCells(m, t0, starts[c + 1] - t0);
       if (req.unitPlan) convertInPlace(values, req.unitPlan);
       if (req.accumulated) deaccumulateInPlace(values, bandCells, carry);
       for (const o of offsets) {

@@ -1,0 +1,13 @@
+import { loadConfig } from '../src/config/load-config.ts';
+import { analyse } from '../src/pipeline/analyse.ts';
+import { silentLogger } from '../src/log.ts';
+import { benchConfig, readBenchRegions } from './forelight-entry.ts';
+const F = 'bench/data/full';
+let t = performance.now();
+const base = await loadConfig();
+console.log('loadConfig', performance.now() - t);
+const regions = readBenchRegions('bench/regions.json');
+t = performance.now();
+const config = benchConfig(base, `${F}/forecast_classic.nc`, `${F}/hindcast/hindcast_{year}1126.nc`, regions, `${F}/cache`);
+const a = await analyse(config, '2026-11-26', silentLogger);
+console.log('analyse', performance.now() - t, a.problems.length);
