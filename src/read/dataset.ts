@@ -42,5 +42,7 @@ export interface Dataset {
    * follows `positions`), for readers that can skip decoding the rest (the classic reader).
    */
   readRawAt?(name: string, start: readonly number[], count: readonly number[], positions: Int32Array): Promise<Float64Array>;
+  /** Optional: how many reads a caller may keep in flight to keep the reader's threads busy (default 1). */
+  readonly readAhead?: number;
   close(): Promise<void>;
 }

@@ -7,7 +7,7 @@
  */
 import type { Dataset } from './dataset.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
-import { bandCellReader } from './extract-read.ts';
+import { bandCellReader, type BandCellReader } from './extract-read.ts';
 import { deaccumulateInPlace, planLocalDays, reduceToDays, type DailyMethod, type DayPlan, type StepIntervals } from './daily.ts';
 import type { BandRegion, GridBand } from './regions-band.ts';
 import { convertInPlace, type UnitPlan } from './units.ts';
@@ -88,6 +88,33 @@ function dayRange(plan: DayPlan, t0: number, t1: number): { first: number; days:
   return last < 0 ? null : { first, days: last - first + 1 };
 }
 
+/**
+ * The band reads of every (member, chunk), taken in member-major order with up to `depth` reads in flight, so
+ * that a threaded reader (NetCDF-4) decompresses ahead while this thread reduces. A failed read throws when its
+ * turn comes; reads issued after it are left to settle unobserved.
+ */
+function readsAhead(read: BandCellReader, members: number, starts: readonly number[], depth: number): { next(m: number, c: number): Promise<Float64Array> } {
+  const chunks = starts.length - 1;
+  const inFlight = new Map<number, Promise<Float64Array>>();
+  let issued = 0;
+  const issue = (): void => {
+    const m = Math.floor(issued / chunks);
+    const c = issued % chunks;
+    const p = read(m, starts[c], starts[c + 1] - starts[c]);
+    p.catch(() => undefined); // observed when its turn comes
+    inFlight.set(issued++, p);
+  };
+  return {
+    next(m, c) {
+      const turn = m * chunks + c;
+      while (issued < Math.min(turn + Math.max(1, depth), members * chunks)) issue();
+      const p = inFlight.get(turn)!;
+      inFlight.delete(turn); // a taken read's values belong to the caller from here on
+      return p;
+    },
+  };
+}
+
 /** Area means of every region of `req`, all members, in the order of `req.regions`. */
 export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: ReduceRequest): Promise<RegionMeans[]> {
   const { layout, band, regions, intervals } = req;
@@ -105,12 +132,12 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
   const starts = chunkStarts(steps, band.nLat * band.gridLon, [...plans.values()], req.maxChunkValues);
   const carry = new Float64Array(req.accumulated ? bandCells : 0);
   let dayBuffer = new Float64Array(0);
-  const readCells = bandCellReader(ds, layout, band);
+  const reads = readsAhead(bandCellReader(ds, layout, band), members, starts, ds.readAhead ?? 1);
   for (let m = 0; m < members; m++) {
     carry.fill(0);
     for (let c = 0; c + 1 < starts.length; c++) {
       const t0 = starts[c];
-      const values = await readCells(m, t0, starts[c + 1] - t0);
+      const values = await reads.next(m, c);
       if (req.unitPlan) convertInPlace(values, req.unitPlan);
       if (req.accumulated) deaccumulateInPlace(values, bandCells, carry);
       for (const o of offsets) {

@@ -11,7 +11,9 @@ import { InputError } from '../errors.ts';
 import type { AttributeValue, Dataset, DimensionInfo, StorageType, VariableInfo } from './dataset.ts';
 import { validateSelection } from './classic-hyperslab.ts';
 import { checkHdf5Filters } from './hdf5-filters.ts';
+import { readSlab } from './hdf5-slab.mjs';
 import { packageExportPath } from './hdf5-package.ts';
+import { type Hdf5SlicePool, sharedSlicePool } from './hdf5-slice-pool.ts';
 
 /** Attributes netCDF-C uses for its own bookkeeping; ncdump does not show them. */
 const HIDDEN_ATTRIBUTES = new Set(['_Netcdf4Coordinates', '_Netcdf4Dimid', 'CLASS', 'NAME', 'REFERENCE_LIST', 'DIMENSION_LIST', '_NCProperties', '_nc3_strict', '_IsNetcdf4', '_SuperblockVersion']);
@@ -81,6 +83,7 @@ class Hdf5Dataset implements Dataset {
     readonly dimensions: readonly DimensionInfo[],
     readonly attributes: Readonly<Record<string, AttributeValue>>,
     readonly variables: readonly Hdf5Variable[],
+    private readonly pool: Hdf5SlicePool | null,
   ) {
     this.byName = new Map(variables.map((v) => [v.name, v]));
   }
@@ -89,37 +92,44 @@ class Hdf5Dataset implements Dataset {
     return this.byName.get(name);
   }
 
-  async readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
+  /** Reads in flight that extract-reduce.ts may keep: enough to keep every pool worker busy. */
+  get readAhead(): number {
+    return this.pool ? this.pool.size * 2 : 1;
+  }
+
+  readRaw(name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> {
+    return this.read(name, start, count);
+  }
+
+  readRawAt(name: string, start: readonly number[], count: readonly number[], positions: Int32Array): Promise<Float64Array> {
+    return this.read(name, start, count, positions);
+  }
+
+  /** Checks the selection and the variable's filters here, then decompresses on a pool worker (or in this thread). */
+  private async read(name: string, start: readonly number[], count: readonly number[], positions?: Int32Array): Promise<Float64Array> {
     const v = this.byName.get(name);
     if (!v) throw new InputError('input-variable', this.path, `variable '${name}' not found`, `use one of: ${this.variables.map((x) => x.name).join(', ')}`);
     const total = validateSelection(this.path, v, start, count);
     if (!v.numeric) throw new InputError('input-type', this.path, `variable '${name}' is not numeric`, 'choose a numeric variable in the source config');
-    const ds = this.file.get(name) as H5Dataset;
     if (!this.filtersChecked.has(name)) {
-      checkHdf5Filters(this.path, name, ds.filters);
+      checkHdf5Filters(this.path, name, (this.file.get(name) as H5Dataset).filters);
       this.filtersChecked.add(name);
     }
     if (total === 0) return new Float64Array(0);
-    let data: unknown;
+    const scalar = v.shape.length === 0;
+    const [from, size] = scalar ? [[], []] : [start, count];
     try {
-      data = v.shape.length === 0 ? ds.value : ds.slice(start.map((s, d) => [s, s + count[d]]));
+      if (this.pool) return await this.pool.read({ path: resolve(this.path), name, start: from, count: size, positions });
+      return readSlab(this.file, name, from, size, positions);
     } catch (err) {
+      if (err instanceof TypeError) throw new InputError('input-type', this.path, err.message, 'choose a numeric variable in the source config');
       throw new InputError('input-hdf5', this.path, `HDF5 could not read variable '${name}' (${oneLine(err)})`, 'check the file with `ncdump -h -s`; re-create it with `nccopy -d1` if a filter is missing', { cause: err });
     }
-    if (typeof data === 'number' || typeof data === 'bigint') return Float64Array.of(Number(data));
-    if (data instanceof Float64Array) return data;
-    if (ArrayBuffer.isView(data) && !(data instanceof DataView)) {
-      const src = data as unknown as ArrayLike<number | bigint>;
-      const out = new Float64Array(src.length);
-      if (typeof src[0] === 'bigint') for (let i = 0; i < src.length; i++) out[i] = Number(src[i]);
-      else out.set(src as ArrayLike<number>);
-      return out;
-    }
-    throw new InputError('input-type', this.path, `variable '${name}' did not read as numbers`, 'choose a numeric variable in the source config');
   }
 
   async close(): Promise<void> {
     this.file.close();
+    this.pool?.forget(resolve(this.path));
   }
 }
 
@@ -204,7 +214,7 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
       variables.push({ name: key, dimensions, shape, type: type ?? 'char', attributes: readAttributes(ds), numeric: type !== undefined && type !== 'char' });
     }
     const dimensions = dims.map(({ name, size, unlimited }) => ({ name, size, unlimited }));
-    return new Hdf5Dataset(file, h5, dimensions, readAttributes(h5), variables);
+    return new Hdf5Dataset(file, h5, dimensions, readAttributes(h5), variables, sharedSlicePool());
   } catch (err) {
     h5.close();
     if (err instanceof InputError) throw err;

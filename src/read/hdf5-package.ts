@@ -1,6 +1,6 @@
 /**
  * Locates installed packages' ES-module entry files on disk, for the HDF5 reader's two loading tricks:
- * h5wasm is loaded with require() and worker threads register tsx by file URL.
+ * h5wasm is loaded with require(), in the main thread and in the NetCDF-4 read workers (hdf5-slice-pool.ts).
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';

@@ -157,6 +157,42 @@ describe('time chunks (memory bound)', () => {
   });
 });
 
+describe('read-ahead (threaded readers)', () => {
+  it('reads kept in flight and finishing out of order give the same de-accumulated means as one at a time', async () => {
+    const ds = makeFakeForecast({
+      lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members: 3,
+      variables: { tp: { attributes: { units: 'm' }, value: (m, t, lat) => (t + 1) * (t + 2) * 1e-4 * (1 + m) + lat * 1e-6 } },
+    });
+    const coords = await findCoordinates(ds);
+    const layout = layoutVariable(ds, coords, 'tp');
+    const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
+    const { intervals, accumulated } = planTime(coords, layout, unitPlan);
+    const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
+    const req = { layout, band, regions, intervals, unitPlan, accumulated, utcOffsets: [1], daily: 'sum' as const, maxChunkValues: 4 * band.nLat * band.nLon };
+    const [sequential] = await reduceVariable(ds, coords, req);
+    // A reader like the NetCDF-4 pool: up to 5 reads in flight, each finishing after a different delay.
+    let inFlight = 0;
+    let most = 0;
+    const delays = [9, 1, 6, 0, 4, 8, 2, 7, 3, 5];
+    let call = 0;
+    const slow = {
+      ...ds,
+      readAhead: 5,
+      readRaw: async (name: string, start: readonly number[], count: readonly number[]) => {
+        most = Math.max(most, ++inFlight);
+        const values = await ds.readRaw(name, start, count);
+        await new Promise((r) => setTimeout(r, delays[call++ % delays.length]));
+        inFlight--;
+        return values;
+      },
+    };
+    const [ahead] = await reduceVariable(slow, coords, req);
+    expect(most).toBe(5);
+    expect(ahead.labels).toEqual(sequential.labels);
+    expect(Array.from(ahead.data)).toEqual(Array.from(sequential.data));
+  });
+});
+
 describe('bad input', () => {
   it('variable with no units → UnitError in problems; the other quantity is still computed', async () => {
     const ds = sixHourlyMax(() => 300, { cell_methods: 'time: maximum' }, { mn2t6: { attributes: { units: 'K', cell_methods: 'time: minimum' }, value: () => 280 } });

@@ -1,0 +1,72 @@
+/**
+ * NetCDF-4 reads on worker threads (hdf5-slice-pool.ts): the values are the same on 0, 1 and 2 threads and
+ * equal ncdump's (netCDF-C, Unidata); a failed read names the file and variable and does not stop other
+ * reads; idle workers never keep a run from exiting.
+ */
+import { execFileSync } from 'node:child_process';
+import { copyFileSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ForelightError, InputError } from '../../src/errors.ts';
+import { readThreads } from '../../src/read/hdf5-slice-pool.ts';
+import { openDataset } from '../../src/read/open-dataset.ts';
+import { ncdumpValues } from './ncdump-reference.ts';
+
+const root = fileURLToPath(new URL('../../', import.meta.url));
+const dir = join(root, 'test/fixtures/netcdf/');
+const tmp = mkdtempSync(join(tmpdir(), 'forelight-threads-'));
+afterAll(() => rmSync(tmp, { recursive: true, force: true }));
+
+type ChildOutput = { threads: number; values: Record<string, { whole: number[]; picked: number[] }> };
+
+function readInChild(file: string, threads: string): ChildOutput {
+  const text = execFileSync(process.execPath, [join(root, 'bin/run-ts.mjs'), join(root, 'test/read-low/read-threads-child.ts'), file], {
+    env: { ...process.env, FORELIGHT_READ_THREADS: threads }, encoding: 'utf8', timeout: 60_000,
+  });
+  return JSON.parse(text) as ChildOutput;
+}
+
+describe('NetCDF-4 reads on worker threads', () => {
+  it.each(['forecast-nc4.nc', 'forecast-nc4-szip.nc'])('%s: the same values on 0, 1 and 2 threads, equal to ncdump; the child exits by itself', (name) => {
+    const [zero, one, two] = ['0', '1', '2'].map((t) => readInChild(dir + name, t));
+    expect([zero.threads, one.threads, two.threads]).toEqual([0, 1, 2]);
+    expect(one.values).toEqual(zero.values);
+    expect(two.values).toEqual(zero.values);
+    const inThread = zero.values;
+    // ncdump prints `_` for the fill value; t2m's _FillValue is -32767 (forecast.cdl).
+    expect(inThread.t2m.whole).toEqual(ncdumpValues(dir + name, 't2m').map((v) => v ?? -32767));
+    const n = inThread.t2m.whole.length;
+    expect(inThread.t2m.picked).toEqual([1, 3, 5, 7, 9].map((k) => inThread.t2m.whole[n - k]));
+  }, 120_000);
+
+  it('a read that fails in a worker names the file and the variable; another file still reads', async () => {
+    const file = join(tmp, 'replaced.nc');
+    copyFileSync(dir + 'forecast-nc4.nc', file);
+    const ds = await openDataset(file);
+    const good = await openDataset(dir + 'forecast-nc4.nc');
+    try {
+      writeFileSync(file, Buffer.alloc(4096)); // the download was replaced after the header was read
+      const failed = ds.readRaw('t2m', [0, 0, 0, 0], [3, 4, 5, 6]);
+      const fine = good.readRaw('t2m', [0, 0, 0, 0], [3, 4, 5, 6]);
+      await expect(failed).rejects.toBeInstanceOf(InputError);
+      await expect(failed).rejects.toThrow(`${file}: HDF5 could not read variable 't2m' (`);
+      expect(Array.from(await fine)).toEqual(ncdumpValues(dir + 'forecast-nc4.nc', 't2m').map((v) => v ?? -32767));
+    } finally {
+      await ds.close();
+      await good.close();
+    }
+  });
+
+  it('FORELIGHT_READ_THREADS takes whole numbers ≥ 0; anything else is a one-line error saying what to set', () => {
+    expect(readThreads({ FORELIGHT_READ_THREADS: '0' })).toBe(0);
+    expect(readThreads({ FORELIGHT_READ_THREADS: ' 3 ' })).toBe(3);
+    expect(readThreads({})).toBeGreaterThanOrEqual(1);
+    expect(readThreads({})).toBeLessThanOrEqual(2);
+    for (const bad of ['two', '-1', '1.5']) {
+      expect(() => readThreads({ FORELIGHT_READ_THREADS: bad })).toThrow(ForelightError);
+      expect(() => readThreads({ FORELIGHT_READ_THREADS: bad })).toThrow(`FORELIGHT_READ_THREADS='${bad}' is not a whole number of threads — unset it, or set 0`);
+    }
+  });
+});
