@@ -1,6 +1,7 @@
 /**
  * Forelight's side of the benchmark, run in a child process by bench/run-bench.ts so that its peak RSS
- * is its own:
+ * is its own. run-bench.ts bundles it first (bin/build.mjs → bench/data/forelight-entry.mjs), as the `forelight`
+ * command is bundled by `npm ci`; by hand it also runs from source:
  *
  *   node bin/run-ts.mjs bench/forelight-entry.ts REGIONS_JSON [--check OUT_JSON] [--pipeline HINDCAST_PATTERN] FILE [FILE ...]
  *

@@ -1,6 +1,7 @@
 /**
  * Side-by-side benchmark (`npm run bench -- [--small] [--runs N] [--huge]`): for each input set,
- *   (a) Forelight (bench/forelight-entry.ts in a child process, peak RSS measured),
+ *   (a) Forelight (bench/forelight-entry.ts, bundled by bin/build.mjs as the `forelight` command is, in a child
+ *       process, peak RSS measured),
  *   (b) the CDO script a user would write (bench/cdo-baseline.sh, one cdo call per box),
  *   (c) the Python script a user would write (bench/python-baseline.py, one pass, python3-netcdf4 + numpy),
  *   (d) `cat files > /dev/null` (the cost of reading the bytes once),
@@ -17,6 +18,8 @@ import { describeMachine, measure, median } from './measure.ts';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
 const REGIONS = join(ROOT, 'bench', 'regions.json');
+/** forelight-entry.ts bundled by bin/build.mjs, as the `forelight` command runs after `npm ci`. */
+const ENTRY_BUNDLE = join(ROOT, 'bench', 'data', 'forelight-entry.mjs');
 const TOOLS = ['forelight', 'cdo', 'python', 'cat'] as const;
 type Tool = (typeof TOOLS)[number];
 
@@ -49,7 +52,7 @@ function commandOf(tool: Tool, set: InputSet, scratch: string): string[] {
   switch (tool) {
     case 'forelight': {
       const pipeline = set.hindcastPattern ? ['--pipeline', set.hindcastPattern] : [];
-      return [process.execPath, join(ROOT, 'bin', 'run-ts.mjs'), join(ROOT, 'bench', 'forelight-entry.ts'), REGIONS, ...pipeline, ...files];
+      return [process.execPath, ENTRY_BUNDLE, REGIONS, ...pipeline, ...files];
     }
     case 'cdo':
       return ['sh', join(ROOT, 'bench', 'cdo-baseline.sh'), REGIONS, join(scratch, 'cdo'), ...files];
@@ -64,7 +67,7 @@ function commandOf(tool: Tool, set: InputSet, scratch: string): string[] {
 async function crossCheck(files: readonly string[], scratch: string): Promise<number> {
   const flJson = join(scratch, 'forelight-check.json');
   const pyJson = join(scratch, 'python-check.json');
-  await measure([process.execPath, join(ROOT, 'bin', 'run-ts.mjs'), join(ROOT, 'bench', 'forelight-entry.ts'), REGIONS, '--check', flJson, ...files], ROOT);
+  await measure([process.execPath, ENTRY_BUNDLE, REGIONS, '--check', flJson, ...files], ROOT);
   await measure(['/usr/bin/python3', join(ROOT, 'bench', 'python-baseline.py'), REGIONS, pyJson, ...files], ROOT);
   const fl = JSON.parse(readFileSync(flJson, 'utf8')) as { file: string; region: string; variable: string; units: string; values: number[] }[];
   const py = JSON.parse(readFileSync(pyJson, 'utf8')) as Record<string, Record<string, Record<string, number[][]>>>;
@@ -152,6 +155,7 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
   if (!Number.isInteger(runs) || runs < 1) throw new Error(`--runs must be a positive integer, got ${argValue('--runs')}`);
   const log = (l: string): void => void process.stderr.write(`${l}\n`);
   const inputs = await makeBenchInputs(mode, { huge: process.argv.includes('--huge'), log });
+  await measure([process.execPath, join(ROOT, 'bin', 'build.mjs'), join(ROOT, 'bench', 'forelight-entry.ts'), ENTRY_BUNDLE], ROOT);
   const hindcastPattern = join(dirname(inputs.hindcasts[0]), 'hindcast_{year}{mmdd}.nc');
   const sets: InputSet[] = [
     { label: 'forecast, classic 64-bit offset', files: [inputs.classic], hindcastPattern },

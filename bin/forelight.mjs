@@ -1,7 +1,16 @@
 #!/usr/bin/env node
-// The `forelight` command: loads the TypeScript CLI through tsx (no build step needed).
-import { register } from 'tsx/esm/api';
+// The `forelight` command. Runs build/forelight.mjs (made by `npm ci`, see bin/build.mjs) when it is newer than every
+// file under src/; otherwise, e.g. in a tree a developer has just edited, or with FORELIGHT_FROM_SOURCE=1, the
+// TypeScript sources through tsx.
+import { pathToFileURL } from 'node:url';
+import { freshBundle } from './build.mjs';
 
-register();
-const { main } = await import('../src/cli/main.ts');
+const bundle = process.env.FORELIGHT_FROM_SOURCE ? null : freshBundle();
+let main;
+if (bundle) {
+  ({ main } = await import(pathToFileURL(bundle).href));
+} else {
+  (await import('tsx/esm/api')).register();
+  ({ main } = await import('../src/cli/main.ts'));
+}
 process.exitCode = await main(process.argv.slice(2));

@@ -3,8 +3,8 @@
  * included files) is collected and reported at once as `file:line:column: message — fix`.
  */
 import { dirname, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { ConfigError } from '../errors.ts';
+import { packagePath } from '../package-root.ts';
 import { buildConfig } from './build-config.ts';
 import { checkCombine } from './check-combine.ts';
 import { checkIndicators } from './check-indicators.ts';
@@ -20,7 +20,7 @@ import type { Config } from './types.ts';
 import { validateAgainstSchema } from './validate-schema.ts';
 
 /** The configuration shipped with the package (the Veloria sample). */
-export const DEFAULT_CONFIG_PATH = fileURLToPath(new URL('../../config/forelight.yaml', import.meta.url));
+export const DEFAULT_CONFIG_PATH = packagePath('config/forelight.yaml');
 
 const INCLUDABLE = ['regions', 'teams'] as const;
 

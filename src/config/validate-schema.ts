@@ -3,10 +3,12 @@
  * with plain words and a fix. The schema is config/forelight.schema.json of this package.
  */
 import { readFileSync } from 'node:fs';
+import { pathToFileURL } from 'node:url';
 import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
+import { packagePath } from '../package-root.ts';
 import { problem, pointerOf, type ConfigProblem } from './problem.ts';
 
-export const SCHEMA_URL = new URL('../../config/forelight.schema.json', import.meta.url);
+export const SCHEMA_URL = pathToFileURL(packagePath('config/forelight.schema.json'));
 
 let compiled: ValidateFunction | undefined;
 

@@ -6,8 +6,10 @@
  * process alive. Size: FORELIGHT_READ_THREADS (0 = read in the main thread), default min(2, cores).
  */
 import { availableParallelism } from 'node:os';
+import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { ForelightError } from '../errors.ts';
+import { packagePath } from '../package-root.ts';
 import { packageExportPath } from './hdf5-package.ts';
 
 export interface SliceRequest {
@@ -29,7 +31,8 @@ interface PoolWorker {
   readonly pending: Map<number, Pending>;
 }
 
-const WORKER_URL = new URL('./hdf5-slice-worker.mjs', import.meta.url);
+/** Loaded by path, not bundled: the worker runs this file as it is (bin/build.mjs bundles the main thread only). */
+const WORKER_URL = pathToFileURL(packagePath('src/read/hdf5-slice-worker.mjs'));
 
 export class Hdf5SlicePool {
   private readonly workers: PoolWorker[] = [];
@@ -59,7 +62,8 @@ export class Hdf5SlicePool {
   }
 
   private spawn(): PoolWorker {
-    const worker = new Worker(WORKER_URL, { workerData: { h5wasmPath: packageExportPath('h5wasm', './node') } });
+    // execArgv: [] — the worker needs no flags, and some of the parent's (e.g. --input-type) make a worker fail to start.
+    const worker = new Worker(WORKER_URL, { workerData: { h5wasmPath: packageExportPath('h5wasm', './node') }, execArgv: [] });
     const entry: PoolWorker = { worker, pending: new Map() };
     worker.on('message', (reply: Reply) => {
       const p = entry.pending.get(reply.id);

@@ -8,12 +8,12 @@
  * cached for the life of one environment (one run), so edits take effect on the next run.
  */
 import { existsSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import nunjucks from 'nunjucks';
+import { packagePath } from '../package-root.ts';
 import { ForelightError } from '../errors.ts';
 
 /** Absolute path of the shipped templates. */
-export const SHIPPED_TEMPLATES = fileURLToPath(new URL('../../templates/', import.meta.url));
+export const SHIPPED_TEMPLATES = `${packagePath('templates')}/`;
 
 export interface TemplateEnv {
   readonly html: nunjucks.Environment;

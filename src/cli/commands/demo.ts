@@ -5,9 +5,9 @@
  */
 import { existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { loadConfig } from '../../config/load-config.ts';
 import { createLogger } from '../../log.ts';
+import { packagePath } from '../../package-root.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../schedule/exit-codes.ts';
 import { generateSample } from '../../../sample-inputs/generate.ts';
@@ -15,7 +15,7 @@ import type { ParsedArgs } from '../args.ts';
 
 /** The three sample issue dates (Mon, Thu, Mon), see sample-inputs/README.md. */
 export const SAMPLE_ISSUE_DATES = ['2026-11-23', '2026-11-26', '2026-11-30'] as const;
-const SAMPLE_DATA = fileURLToPath(new URL('../../../sample-inputs/data/', import.meta.url));
+const SAMPLE_DATA = `${packagePath('sample-inputs/data')}/`;
 
 export async function demoCommand(_args: ParsedArgs): Promise<number> {
   const say = (line: string) => process.stdout.write(line + '\n');
