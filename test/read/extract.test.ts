@@ -135,18 +135,23 @@ describe('extractBoxFromDataset (forelight extract --json)', () => {
   });
 });
 
+/** 6-hourly accumulated precipitation (m) over 4 days, `members` members, and the request for Marrow's daily sums. */
+async function accumulatedRequest(members: number) {
+  const ds = makeFakeForecast({
+    lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members,
+    variables: { tp: { attributes: { units: 'm' }, value: (m, t, lat) => (t + 1) * (t + 2) * 1e-4 * (1 + m) + lat * 1e-6 } },
+  });
+  const coords = await findCoordinates(ds);
+  const layout = layoutVariable(ds, coords, 'tp');
+  const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
+  const { intervals, accumulated } = planTime(coords, layout, unitPlan);
+  const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
+  return { ds, coords, band, req: { layout, band, regions, intervals, unitPlan, accumulated, utcOffsets: [1], daily: 'sum' as const } };
+}
+
 describe('time chunks (memory bound)', () => {
   it('accumulated precipitation read in chunks of one day gives the same daily totals as one chunk', async () => {
-    const ds = makeFakeForecast({
-      lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members: 2,
-      variables: { tp: { attributes: { units: 'm' }, value: (m, t, lat) => (t + 1) * (t + 2) * 1e-4 * (1 + m) + lat * 1e-6 } },
-    });
-    const coords = await findCoordinates(ds);
-    const layout = layoutVariable(ds, coords, 'tp');
-    const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
-    const { intervals, accumulated } = planTime(coords, layout, unitPlan);
-    const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
-    const req = { layout, band, regions, intervals, unitPlan, accumulated, utcOffsets: [1], daily: 'sum' as const };
+    const { ds, coords, band, req } = await accumulatedRequest(2);
     const [one] = await reduceVariable(ds, coords, req);
     const before = ds.reads.length;
     const [chunked] = await reduceVariable(ds, coords, { ...req, maxChunkValues: 4 * band.nLat * band.nLon });
@@ -159,16 +164,9 @@ describe('time chunks (memory bound)', () => {
 
 describe('read-ahead (threaded readers)', () => {
   it('reads kept in flight and finishing out of order give the same de-accumulated means as one at a time', async () => {
-    const ds = makeFakeForecast({
-      lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members: 3,
-      variables: { tp: { attributes: { units: 'm' }, value: (m, t, lat) => (t + 1) * (t + 2) * 1e-4 * (1 + m) + lat * 1e-6 } },
-    });
-    const coords = await findCoordinates(ds);
-    const layout = layoutVariable(ds, coords, 'tp');
-    const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
-    const { intervals, accumulated } = planTime(coords, layout, unitPlan);
-    const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
-    const req = { layout, band, regions, intervals, unitPlan, accumulated, utcOffsets: [1], daily: 'sum' as const, maxChunkValues: 4 * band.nLat * band.nLon };
+    const setup = await accumulatedRequest(3);
+    const { ds, coords, band } = setup;
+    const req = { ...setup.req, maxChunkValues: 4 * band.nLat * band.nLon };
     const [sequential] = await reduceVariable(ds, coords, req);
     // A reader like the NetCDF-4 pool: up to 5 reads in flight, each finishing after a different delay.
     let inFlight = 0;
