@@ -136,9 +136,9 @@ describe('extractBoxFromDataset (forelight extract --json)', () => {
 });
 
 /** 6-hourly accumulated precipitation (m) over 4 days, `members` members, and the request for Marrow's daily sums. */
-async function accumulatedRequest(members: number) {
+async function accumulatedRequest(members: number, stepOuter = false) {
   const ds = makeFakeForecast({
-    lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members,
+    lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members, stepOuter,
     variables: { tp: { attributes: { units: 'm' }, value: (m, t, lat) => (t + 1) * (t + 2) * 1e-4 * (1 + m) + lat * 1e-6 } },
   });
   const coords = await findCoordinates(ds);
@@ -159,6 +159,18 @@ describe('time chunks (memory bound)', () => {
     expect(chunked.labels).toEqual(one.labels);
     expect(one.labels).toHaveLength(4);
     one.data.forEach((v, i) => expect(chunked.data[i]).toBeCloseTo(v, 9));
+  });
+});
+
+describe('(step, number, …) layout', () => {
+  it('gives the same de-accumulated means, read in time chunks, as the (number, step, …) file', async () => {
+    const memberOuter = await accumulatedRequest(5);
+    const stepOuter = await accumulatedRequest(5, true);
+    const chunked = (r: typeof memberOuter) => ({ ...r.req, maxChunkValues: 4 * r.band.nLat * r.band.gridLon });
+    const [expected] = await reduceVariable(memberOuter.ds, memberOuter.coords, chunked(memberOuter));
+    const [got] = await reduceVariable(stepOuter.ds, stepOuter.coords, chunked(stepOuter));
+    expect(got.labels).toEqual(expected.labels);
+    expect(Array.from(got.data)).toEqual(Array.from(expected.data));
   });
 });
 

@@ -15,6 +15,8 @@ export interface FakeForecastOptions {
   /** Hours since 2026-11-23T00Z of the reference time. */
   readonly referenceHours?: number;
   /** Data variables: name → attributes and values (dimensions number, step, latitude, longitude). */
+  /** Store data variables as (step, number, latitude, longitude), the layout of many archive conversions. */
+  readonly stepOuter?: boolean;
   readonly variables: Record<string, { readonly attributes: Record<string, AttributeValue>; readonly value: ValueFn }>;
 }
 
@@ -26,8 +28,11 @@ export function makeFakeForecast(o: FakeForecastOptions) {
   const members = o.members ?? 1;
   const fill = (value: ValueFn): number[] => {
     const data: number[] = [];
-    for (let m = 0; m < members; m++) {
-      for (let t = 0; t < o.stepsHours.length; t++) {
+    const steps = o.stepsHours.length;
+    const [outer, inner] = o.stepOuter ? [steps, members] : [members, steps];
+    for (let a = 0; a < outer; a++) {
+      for (let b = 0; b < inner; b++) {
+        const [m, t] = o.stepOuter ? [b, a] : [a, b];
         for (const la of o.lat) for (const lo of o.lon) {
           const v = value(m, t, la, lo);
           data.push(Number.isNaN(v) ? FILL : v);
@@ -44,7 +49,7 @@ export function makeFakeForecast(o: FakeForecastOptions) {
     longitude: { dimensions: ['longitude'], attributes: { units: 'degrees_east' }, data: o.lon },
   };
   for (const [name, v] of Object.entries(o.variables)) {
-    variables[name] = { dimensions: ['number', 'step', 'latitude', 'longitude'], attributes: { _FillValue: FILL, ...v.attributes }, data: fill(v.value) };
+    variables[name] = { dimensions: o.stepOuter ? ['step', 'number', 'latitude', 'longitude'] : ['number', 'step', 'latitude', 'longitude'], attributes: { _FillValue: FILL, ...v.attributes }, data: fill(v.value) };
   }
   return makeFakeDataset({
     path: o.path ?? 'fc_20261123.nc',
