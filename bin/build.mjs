@@ -6,42 +6,44 @@
 //   node bin/build.mjs                          src/cli/main.ts → build/forelight.mjs
 //   node bin/build.mjs ENTRY.ts OUT.mjs         any entry (the benchmark's)
 //
-// Packages stay imports from node_modules; src/read/hdf5-slice-worker.mjs is loaded by path at run time.
-import { readdirSync, statSync } from 'node:fs';
-import { dirname, join } from 'node:path';
+// Beside the bundle, OUT.inputs.json lists the sha256 of every source file that went into it (and of this script),
+// so that a bundle is used only while all of them are unchanged. Packages stay imports from node_modules;
+// src/read/hdf5-slice-worker.mjs is loaded by path at run time.
+import { createHash } from 'node:crypto';
+import { readFileSync, statSync, writeFileSync } from 'node:fs';
+import { dirname, join, relative } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 export const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
 export const CLI_BUNDLE = join(ROOT, 'build', 'forelight.mjs');
+const THIS_SCRIPT = relative(ROOT, fileURLToPath(import.meta.url));
+
+const sha256 = (path) => createHash('sha256').update(readFileSync(path)).digest('hex');
+const inputsFile = (bundle) => `${bundle}.inputs.json`;
 
 /** Bundles `entry` into `outfile` (ESM, Node 20, with a source map beside it for `node --enable-source-maps`). */
 export async function buildBundle(entry = join(ROOT, 'src', 'cli', 'main.ts'), outfile = CLI_BUNDLE) {
   const { build } = await import('esbuild');
-  await build({
+  const result = await build({
     entryPoints: [entry], outfile, bundle: true, platform: 'node', format: 'esm', target: 'node20',
-    packages: 'external', sourcemap: true, logLevel: 'warning',
+    packages: 'external', sourcemap: true, metafile: true, absWorkingDir: ROOT, logLevel: 'warning',
   });
+  const inputs = [...Object.keys(result.metafile.inputs), THIS_SCRIPT].sort();
+  writeFileSync(inputsFile(outfile), `${JSON.stringify(Object.fromEntries(inputs.map((p) => [p, sha256(join(ROOT, p))])), null, 1)}\n`);
 }
 
-/** Newest modification time (ms) of the files under `dir`. */
-function newestUnder(dir) {
-  let newest = 0;
-  for (const entry of readdirSync(dir, { withFileTypes: true })) {
-    const path = join(dir, entry.name);
-    newest = Math.max(newest, entry.isDirectory() ? newestUnder(path) : statSync(path).mtimeMs);
-  }
-  return newest;
-}
-
-/** `bundle` when it exists and is newer than every file under `sourceDir`, else null (run the sources instead). */
-export function freshBundle(bundle = CLI_BUNDLE, sourceDir = join(ROOT, 'src')) {
-  let built;
+/**
+ * `bundle` when it was built from exactly the sources now on disk (every input listed beside it has the same
+ * sha256, a few milliseconds for the whole tree), else null: run the sources instead.
+ */
+export function freshBundle(bundle = CLI_BUNDLE, root = ROOT) {
   try {
-    built = statSync(bundle).mtimeMs;
+    const inputs = JSON.parse(readFileSync(inputsFile(bundle), 'utf8'));
+    statSync(bundle); // the bundle itself must exist
+    return Object.entries(inputs).every(([path, hash]) => sha256(join(root, path)) === hash) ? bundle : null;
   } catch {
-    return null;
+    return null; // not built, or an input is gone
   }
-  return built >= newestUnder(sourceDir) ? bundle : null;
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {

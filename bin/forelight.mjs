@@ -1,11 +1,12 @@
 #!/usr/bin/env node
-// The `forelight` command. Runs build/forelight.mjs (made by `npm ci`, see bin/build.mjs) when it is newer than every
-// file under src/; otherwise, e.g. in a tree a developer has just edited, or with FORELIGHT_FROM_SOURCE=1, the
-// TypeScript sources through tsx.
+// The `forelight` command. Runs build/forelight.mjs (made by `npm ci`, see bin/build.mjs) while every source file it
+// was built from is unchanged (sha256); otherwise, e.g. in a tree a developer has just edited, or with
+// FORELIGHT_FROM_SOURCE=1, the TypeScript sources through tsx.
 import { pathToFileURL } from 'node:url';
 import { freshBundle } from './build.mjs';
 
-const bundle = process.env.FORELIGHT_FROM_SOURCE ? null : freshBundle();
+const fromSource = !['', '0', undefined].includes(process.env.FORELIGHT_FROM_SOURCE?.trim());
+const bundle = fromSource ? null : freshBundle();
 let main;
 if (bundle) {
   ({ main } = await import(pathToFileURL(bundle).href));

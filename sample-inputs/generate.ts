@@ -12,6 +12,7 @@ import { writeEnsembleFile, writeObservedFile, type CfFileDef, type CfVariableDe
 import type { NcFormat } from './lib/netcdf-classic-writer.ts';
 import { describeCells, veloriaGrid } from './lib/veloria-climate.ts';
 import { createTruth, dayNumberOf, fillMember, observedFiller, type ModelTraits, type TruthHistory } from './lib/veloria-weather.ts';
+import { packagePath } from '../src/package-root.ts';
 
 export interface SampleOptions {
   /** Random seed (default 20261126). */
@@ -90,7 +91,7 @@ function globalAttributes(title: string, seed: number): Record<string, string> {
 }
 
 /** Generates every sample file into `outDir` and writes `manifest.json` there last (its presence = complete). */
-export async function generateSample(outDir: string = fileURLToPath(new URL('./data', import.meta.url)), opts: SampleOptions = {}): Promise<SampleSummary> {
+export async function generateSample(outDir: string = packagePath('sample-inputs/data'), opts: SampleOptions = {}): Promise<SampleSummary> {
   const began = performance.now();
   const seed = opts.seed ?? 20261126;
   const years = opts.hindcastYears ?? DEFAULT_YEARS;
@@ -137,7 +138,8 @@ export async function generateSample(outDir: string = fileURLToPath(new URL('./d
   return { outDir, files, totalBytes, seconds: (performance.now() - began) / 1000 };
 }
 
-if (process.argv[1] === fileURLToPath(import.meta.url)) {
+// Run as a script only from its own file (not when bundled into build/forelight.mjs through the demo command).
+if (import.meta.url.endsWith('/generate.ts') && process.argv[1] === fileURLToPath(import.meta.url)) {
   const arg = (name: string): string | undefined => {
     const i = process.argv.indexOf(name);
     return i > 0 ? process.argv[i + 1] : undefined;

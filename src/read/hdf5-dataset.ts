@@ -11,9 +11,9 @@ import { InputError } from '../errors.ts';
 import type { AttributeValue, Dataset, DimensionInfo, StorageType, VariableInfo } from './dataset.ts';
 import { validateSelection } from './classic-hyperslab.ts';
 import { checkHdf5Filters } from './hdf5-filters.ts';
-import { readSlab } from './hdf5-slab.mjs';
+import { checkIdentity, fileIdentity, readSlab } from './hdf5-slab.mjs';
 import { packageExportPath } from './hdf5-package.ts';
-import { type Hdf5SlicePool, sharedSlicePool } from './hdf5-slice-pool.ts';
+import { type Hdf5SlicePool, SliceError, sharedSlicePool } from './hdf5-slice-pool.ts';
 
 /** Attributes netCDF-C uses for its own bookkeeping; ncdump does not show them. */
 const HIDDEN_ATTRIBUTES = new Set(['_Netcdf4Coordinates', '_Netcdf4Dimid', 'CLASS', 'NAME', 'REFERENCE_LIST', 'DIMENSION_LIST', '_NCProperties', '_nc3_strict', '_IsNetcdf4', '_SuperblockVersion']);
@@ -84,6 +84,8 @@ class Hdf5Dataset implements Dataset {
     readonly attributes: Readonly<Record<string, AttributeValue>>,
     readonly variables: readonly Hdf5Variable[],
     private readonly pool: Hdf5SlicePool | null,
+    /** hdf5-slab.mjs `fileIdentity` at open: pool workers open the file themselves and check it is the same. */
+    private readonly identity: string,
   ) {
     this.byName = new Map(variables.map((v) => [v.name, v]));
   }
@@ -119,11 +121,27 @@ class Hdf5Dataset implements Dataset {
     const scalar = v.shape.length === 0;
     const [from, size] = scalar ? [[], []] : [start, count];
     try {
-      if (this.pool) return await this.pool.read({ path: resolve(this.path), name, start: from, count: size, positions });
+      if (this.pool) return await this.pool.read({ path: resolve(this.path), identity: this.identity, name, start: from, count: size, positions });
+      checkIdentity(this.path, this.identity);
       return readSlab(this.file, name, from, size, positions);
     } catch (err) {
-      if (err instanceof TypeError) throw new InputError('input-type', this.path, err.message, 'choose a numeric variable in the source config');
-      throw new InputError('input-hdf5', this.path, `HDF5 could not read variable '${name}' (${oneLine(err)})`, 'check the file with `ncdump -h -s`; re-create it with `nccopy -d1` if a filter is missing', { cause: err });
+      throw this.readError(name, err);
+    }
+  }
+
+  /** The InputError for a failed read: what went wrong, in this file and variable, and what to do. */
+  private readError(name: string, err: unknown): InputError {
+    const kind = err instanceof SliceError ? err.kind : (err as { kind?: string } | null)?.kind;
+    const text = oneLine(err);
+    switch (kind) {
+      case 'not-numeric':
+        return new InputError('input-type', this.path, text, 'choose a numeric variable in the source config', { cause: err });
+      case 'changed':
+        return new InputError('input-changed', this.path, `${text} (variable '${name}')`, 'run again once the download has finished; deliver files by writing to a temporary name and renaming', { cause: err });
+      case 'worker':
+        return new InputError('read-worker', this.path, `reading variable '${name}' failed: ${text}`, 'run again; if it repeats, set FORELIGHT_READ_THREADS=0 to read in the main thread and report the file', { cause: err });
+      default:
+        return new InputError('input-hdf5', this.path, `HDF5 could not read variable '${name}' (${text})`, 'check the file with `ncdump -h -s`; re-create it with `nccopy -d1` if a filter is missing', { cause: err });
     }
   }
 
@@ -163,6 +181,8 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
   if (expected !== undefined && expected > fileBytes) {
     throw new InputError('input-truncated', file, `file is truncated: expected ${expected} bytes, found ${fileBytes}`, 're-download it');
   }
+  const pool = sharedSlicePool(); // a bad FORELIGHT_READ_THREADS is its own error, not this file's
+  const identity = fileIdentity(resolve(file));
   const h5wasm = await loadH5wasm();
   let h5: H5File;
   try {
@@ -214,7 +234,7 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
       variables.push({ name: key, dimensions, shape, type: type ?? 'char', attributes: readAttributes(ds), numeric: type !== undefined && type !== 'char' });
     }
     const dimensions = dims.map(({ name, size, unlimited }) => ({ name, size, unlimited }));
-    return new Hdf5Dataset(file, h5, dimensions, readAttributes(h5), variables, sharedSlicePool());
+    return new Hdf5Dataset(file, h5, dimensions, readAttributes(h5), variables, pool, identity);
   } catch (err) {
     h5.close();
     if (err instanceof InputError) throw err;

@@ -3,7 +3,8 @@
  * reads one chunk at a time; with a pool the main thread keeps reducing while workers inflate the next
  * member's chunks. One process-wide pool, started on first use: each worker loads its own h5wasm and
  * keeps the files it has read open until the dataset is closed (`forget`). Idle workers do not keep the
- * process alive. Size: FORELIGHT_READ_THREADS (0 = read in the main thread), default min(2, cores).
+ * process alive, and a worker idle for 30 s stops (a service does not hold its memory between runs). Size:
+ * FORELIGHT_READ_THREADS (0 = read in the main thread), default min(2, cores).
  */
 import { availableParallelism } from 'node:os';
 import { pathToFileURL } from 'node:url';
@@ -11,9 +12,12 @@ import { Worker } from 'node:worker_threads';
 import { ForelightError } from '../errors.ts';
 import { packagePath } from '../package-root.ts';
 import { packageExportPath } from './hdf5-package.ts';
+import type { SlabErrorKind } from './hdf5-slab.mjs';
 
 export interface SliceRequest {
   readonly path: string;
+  /** hdf5-slab.mjs `fileIdentity` of the file when the dataset opened it. */
+  readonly identity: string;
   readonly name: string;
   readonly start: readonly number[];
   readonly count: readonly number[];
@@ -21,7 +25,16 @@ export interface SliceRequest {
   readonly positions?: Int32Array;
 }
 
-type Reply = { id: number; values?: Float64Array; error?: string };
+/** Why a pooled read failed: 'not-numeric' and 'changed' (hdf5-slab.mjs), 'hdf5' (h5wasm), 'worker' (the thread died). */
+export type SliceErrorKind = SlabErrorKind | 'hdf5' | 'worker';
+
+export class SliceError extends Error {
+  constructor(readonly kind: SliceErrorKind, message: string) {
+    super(message);
+  }
+}
+
+type Reply = { id: number; values?: Float64Array; error?: { kind: SliceErrorKind; message: string } };
 interface Pending {
   resolve(values: Float64Array): void;
   reject(err: Error): void;
@@ -29,10 +42,13 @@ interface Pending {
 interface PoolWorker {
   readonly worker: Worker;
   readonly pending: Map<number, Pending>;
+  idleTimer?: NodeJS.Timeout;
 }
 
 /** Loaded by path, not bundled: the worker runs this file as it is (bin/build.mjs bundles the main thread only). */
 const WORKER_URL = pathToFileURL(packagePath('src/read/hdf5-slice-worker.mjs'));
+/** A worker idle this long is stopped, so a long-running service does not hold its HDF5 heap between runs. */
+const IDLE_STOP_MS = 30_000;
 
 export class Hdf5SlicePool {
   private readonly workers: PoolWorker[] = [];
@@ -45,9 +61,15 @@ export class Hdf5SlicePool {
     const target = this.leastBusy();
     const id = this.nextId++;
     return new Promise<Float64Array>((resolve, reject) => {
+      clearTimeout(target.idleTimer);
       target.pending.set(id, { resolve, reject });
       target.worker.ref();
-      target.worker.postMessage({ kind: 'read', id, ...request });
+      try {
+        target.worker.postMessage({ kind: 'read', id, ...request });
+      } catch (err) {
+        this.settled(target, id);
+        reject(new SliceError('worker', `the read could not be sent to its worker (${(err as Error).message})`));
+      }
     });
   }
 
@@ -61,27 +83,47 @@ export class Hdf5SlicePool {
     return this.workers.reduce((a, b) => (b.pending.size < a.pending.size ? b : a));
   }
 
+  /** Forgets read `id`; an idle worker no longer keeps the process alive and stops after IDLE_STOP_MS. */
+  private settled(entry: PoolWorker, id: number): void {
+    entry.pending.delete(id);
+    if (entry.pending.size > 0) return;
+    entry.worker.unref();
+    clearTimeout(entry.idleTimer);
+    entry.idleTimer = setTimeout(() => {
+      if (entry.pending.size > 0) return;
+      this.drop(entry);
+      void entry.worker.terminate();
+    }, IDLE_STOP_MS);
+    entry.idleTimer.unref();
+  }
+
+  private drop(entry: PoolWorker): void {
+    const at = this.workers.indexOf(entry);
+    if (at >= 0) this.workers.splice(at, 1);
+  }
+
   private spawn(): PoolWorker {
     // execArgv: [] — the worker needs no flags, and some of the parent's (e.g. --input-type) make a worker fail to start.
     const worker = new Worker(WORKER_URL, { workerData: { h5wasmPath: packageExportPath('h5wasm', './node') }, execArgv: [] });
     const entry: PoolWorker = { worker, pending: new Map() };
     worker.on('message', (reply: Reply) => {
       const p = entry.pending.get(reply.id);
-      entry.pending.delete(reply.id);
-      if (entry.pending.size === 0) worker.unref();
+      this.settled(entry, reply.id);
       if (!p) return;
       if (reply.values) p.resolve(reply.values);
-      else p.reject(new Error(reply.error ?? 'no values'));
+      else p.reject(new SliceError(reply.error?.kind ?? 'hdf5', reply.error?.message ?? 'no values'));
     });
     const fail = (err: Error): void => {
-      this.workers.splice(this.workers.indexOf(entry), 1);
-      for (const p of entry.pending.values()) p.reject(new Error(`the read worker stopped (${err.message})`));
+      if (!this.workers.includes(entry)) return;
+      this.drop(entry);
+      clearTimeout(entry.idleTimer);
+      for (const p of entry.pending.values()) p.reject(new SliceError('worker', `the read worker stopped (${err.message})`));
       entry.pending.clear();
+      void worker.terminate();
     };
     worker.once('error', fail);
-    worker.once('exit', (code) => {
-      if (this.workers.includes(entry)) fail(new Error(`exit code ${code}`));
-    });
+    worker.on('messageerror', fail);
+    worker.once('exit', (code) => fail(new Error(`exit code ${code}`)));
     worker.unref();
     this.workers.push(entry);
     return entry;

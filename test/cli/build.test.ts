@@ -1,10 +1,10 @@
 /**
- * The esbuild bundle the `forelight` command runs after `npm ci` (bin/build.mjs): used only while it is newer than
- * every source file, and it gives the same output as the TypeScript sources, including NetCDF-4 reads on worker
- * threads (the worker file is loaded by path from the package, not bundled).
+ * The esbuild bundle the `forelight` command runs after `npm ci` (bin/build.mjs): used only while every source file
+ * it was built from is unchanged, and it gives the same output as the TypeScript sources, including NetCDF-4 reads
+ * on worker threads (the worker file is loaded by path from the package, not bundled).
  */
-import { spawnSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, rmSync, utimesSync, writeFileSync } from 'node:fs';
+import { execFileSync, spawnSync } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -22,19 +22,33 @@ afterAll(() => {
 });
 
 describe('bin/build.mjs', () => {
-  it('a bundle counts as fresh only while it is newer than every file under the source folder', () => {
+  it('a bundle counts as fresh only while every input it lists has the same contents, whatever the file times', () => {
     const src = join(tmp, 'src');
     mkdirSync(join(src, 'read'), { recursive: true });
     const source = join(src, 'read', 'x.ts');
     const built = join(tmp, 'forelight.mjs');
     writeFileSync(source, 'export {};\n');
-    expect(freshBundle(built, src)).toBeNull(); // not built yet
+    expect(freshBundle(built, tmp)).toBeNull(); // not built yet
     writeFileSync(built, '// bundle\n');
-    utimesSync(source, new Date('2026-11-30T00:00:00Z'), new Date('2026-11-30T00:00:00Z'));
-    utimesSync(built, new Date('2026-12-01T00:00:00Z'), new Date('2026-12-01T00:00:00Z'));
-    expect(freshBundle(built, src)).toBe(built);
-    utimesSync(source, new Date('2026-12-02T00:00:00Z'), new Date('2026-12-02T00:00:00Z')); // edited after the build
-    expect(freshBundle(built, src)).toBeNull();
+    // The expected hash comes from GNU coreutils' sha256sum, not from the code under test.
+    const hash = execFileSync('sha256sum', [source], { encoding: 'utf8' }).split(' ')[0];
+    writeFileSync(`${built}.inputs.json`, JSON.stringify({ 'src/read/x.ts': hash }));
+    expect(freshBundle(built, tmp)).toBe(built);
+    utimesSync(source, new Date('2030-01-01T00:00:00Z'), new Date('2030-01-01T00:00:00Z')); // touched, not changed
+    expect(freshBundle(built, tmp)).toBe(built);
+    writeFileSync(source, 'export const edited = 1;\n');
+    utimesSync(source, new Date('2020-01-01T00:00:00Z'), new Date('2020-01-01T00:00:00Z')); // older time, new contents
+    expect(freshBundle(built, tmp)).toBeNull();
+    rmSync(source);
+    expect(freshBundle(built, tmp)).toBeNull(); // an input is gone
+  });
+
+  it('the inputs list of a real build names the entry, the sample generator the demo bundles, and this script', async () => {
+    await buildBundle(join(ROOT, 'src', 'cli', 'main.ts'), bundle);
+    const inputs = Object.keys(JSON.parse(readFileSync(`${bundle}.inputs.json`, 'utf8')) as Record<string, string>);
+    expect(inputs).toEqual(expect.arrayContaining(['src/cli/main.ts', 'src/read/hdf5-slab.mjs', 'sample-inputs/generate.ts', 'bin/build.mjs']));
+    expect(inputs.some((p) => p.includes('node_modules'))).toBe(false);
+    expect(freshBundle(bundle)).toBe(bundle);
   });
 
   it('the bundled CLI, started with a node flag workers reject (--input-type), prints the same extract JSON as the sources for a NetCDF-4 file read on worker threads', async () => {

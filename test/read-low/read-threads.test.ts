@@ -3,7 +3,7 @@
  * equal ncdump's (netCDF-C, Unidata); a failed read names the file and variable and does not stop other
  * reads; idle workers never keep a run from exiting.
  */
-import { execFileSync } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { copyFileSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -41,7 +41,7 @@ describe('NetCDF-4 reads on worker threads', () => {
     expect(inThread.t2m.picked).toEqual([1, 3, 5, 7, 9].map((k) => inThread.t2m.whole[n - k]));
   }, 120_000);
 
-  it('a read that fails in a worker names the file and the variable; another file still reads', async () => {
+  it('a file replaced after it was opened is refused by name (the worker would open the new one); another file still reads', async () => {
     const file = join(tmp, 'replaced.nc');
     copyFileSync(dir + 'forecast-nc4.nc', file);
     const ds = await openDataset(file);
@@ -51,13 +51,23 @@ describe('NetCDF-4 reads on worker threads', () => {
       const failed = ds.readRaw('t2m', [0, 0, 0, 0], [3, 4, 5, 6]);
       const fine = good.readRaw('t2m', [0, 0, 0, 0], [3, 4, 5, 6]);
       await expect(failed).rejects.toBeInstanceOf(InputError);
-      await expect(failed).rejects.toThrow(`${file}: HDF5 could not read variable 't2m' (`);
+      await expect(failed).rejects.toMatchObject({ code: 'input-changed' });
+      await expect(failed).rejects.toThrow(`${file}: the file was replaced or modified on disk after it was opened (variable 't2m') — run again once the download has finished`);
       expect(Array.from(await fine)).toEqual(ncdumpValues(dir + 'forecast-nc4.nc', 't2m').map((v) => v ?? -32767));
     } finally {
       await ds.close();
       await good.close();
     }
   });
+
+  it('a bad FORELIGHT_READ_THREADS is reported as itself, not as a problem of the NetCDF-4 file', () => {
+    const r = spawnSync(process.execPath, [join(root, 'bin/forelight.mjs'), 'extract', dir + 'forecast-nc4.nc', '--var', 't2m', '--box', '-90,90,-180,180', '--json'], {
+      env: { ...process.env, FORELIGHT_READ_THREADS: 'two' }, encoding: 'utf8', timeout: 60_000,
+    });
+    expect(r.status).not.toBe(0);
+    expect(r.stderr).toContain("FORELIGHT_READ_THREADS='two' is not a whole number of threads — unset it");
+    expect(r.stderr).not.toContain('metadata could not be read');
+  }, 60_000);
 
   it('FORELIGHT_READ_THREADS takes whole numbers ≥ 0; anything else is a one-line error saying what to set', () => {
     expect(readThreads({ FORELIGHT_READ_THREADS: '0' })).toBe(0);
