@@ -54,7 +54,8 @@ export class Hdf5SlicePool {
   private readonly workers: PoolWorker[] = [];
   private nextId = 0;
 
-  constructor(readonly size: number) {}
+  /** @param workerUrl the worker script (tests pass one that fails on purpose) */
+  constructor(readonly size: number, private readonly workerUrl: URL = WORKER_URL) {}
 
   /** The raw values of one hyperslab (or of its `positions`), decompressed on the least busy worker. */
   read(request: SliceRequest): Promise<Float64Array> {
@@ -104,7 +105,7 @@ export class Hdf5SlicePool {
 
   private spawn(): PoolWorker {
     // execArgv: [] — the worker needs no flags, and some of the parent's (e.g. --input-type) make a worker fail to start.
-    const worker = new Worker(WORKER_URL, { workerData: { h5wasmPath: packageExportPath('h5wasm', './node') }, execArgv: [] });
+    const worker = new Worker(this.workerUrl, { workerData: { h5wasmPath: packageExportPath('h5wasm', './node') }, execArgv: [] });
     const entry: PoolWorker = { worker, pending: new Map() };
     worker.on('message', (reply: Reply) => {
       const p = entry.pending.get(reply.id);

@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ForelightError, InputError } from '../../src/errors.ts';
-import { readThreads } from '../../src/read/hdf5-slice-pool.ts';
+import { Hdf5SlicePool, SliceError, readThreads } from '../../src/read/hdf5-slice-pool.ts';
 import { openDataset } from '../../src/read/open-dataset.ts';
 import { ncdumpValues } from './ncdump-reference.ts';
 
@@ -57,6 +57,16 @@ describe('NetCDF-4 reads on worker threads', () => {
     } finally {
       await ds.close();
       await good.close();
+    }
+  });
+
+  it('a worker that dies rejects its pending reads as kind "worker", and the next read gets a new worker', async () => {
+    const pool = new Hdf5SlicePool(1, new URL('./exiting-worker.mjs', import.meta.url));
+    const request = { path: dir + 'forecast-nc4.nc', identity: 'unused', name: 't2m', start: [0, 0, 0, 0], count: [1, 1, 1, 1] };
+    for (let attempt = 0; attempt < 2; attempt++) {
+      const read = pool.read(request);
+      await expect(read).rejects.toBeInstanceOf(SliceError);
+      await expect(read).rejects.toMatchObject({ kind: 'worker', message: 'the read worker stopped (exit code 3)' });
     }
   });
 
