@@ -8,7 +8,7 @@ import type { GridExtent } from '../config/check-grids.ts';
 import type { Config } from '../config/types.ts';
 import { describeError } from '../errors.ts';
 import { findCoordinates } from '../read/coordinates.ts';
-import { openDataset } from '../read/open-dataset.ts';
+import { withDataset } from '../read/open-dataset.ts';
 
 /** The newest file matching a `{date}` pattern (YYYYMMDD in the file name), or null when none exists. */
 export function newestForecastFile(pattern: string): string | null {
@@ -36,15 +36,10 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
       continue;
     }
     try {
-      const ds = await openDataset(file);
-      try {
-        const { grid } = await findCoordinates(ds);
-        const lats = Array.from(grid.lat);
-        const lons = Array.from(grid.lon);
-        grids.push({ source: source.id, latMin: Math.min(...lats), latMax: Math.max(...lats), lonMin: Math.min(...lons), lonMax: Math.max(...lons), lon360: Math.max(...lons) > 180 });
-      } finally {
-        await ds.close();
-      }
+      const { grid } = await withDataset(file, findCoordinates);
+      const lats = Array.from(grid.lat);
+      const lons = Array.from(grid.lon);
+      grids.push({ source: source.id, latMin: Math.min(...lats), latMax: Math.max(...lats), lonMin: Math.min(...lons), lonMax: Math.max(...lons), lon360: Math.max(...lons) > 180 });
     } catch (err) {
       notes.push(`source '${source.id}': ${describeError(err)}`);
     }

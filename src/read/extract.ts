@@ -12,7 +12,7 @@ import type { Dataset, VariableInfo } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
 import { dailyMethodFor, planTime, referenceTimeMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
-import { openDataset } from './open-dataset.ts';
+import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
 import { describeShape, selectRegionCells, type RegionCells } from './regions.ts';
 import { planUnits, type UnitPlan } from './units.ts';
@@ -112,13 +112,8 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
  * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
  * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
  */
-export async function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
-  const ds = await openDataset(path);
-  try {
-    return await extractFromDataset(ds, request);
-  } finally {
-    await ds.close();
-  }
+export function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
+  return withDataset(path, (ds) => extractFromDataset(ds, request));
 }
 
 export interface BoxExtractOptions {
@@ -187,11 +182,6 @@ export function canonicalUnitPlan(info: VariableInfo, file: string): UnitPlan | 
 }
 
 /** `forelight extract <file> --var … --box S,N,W,E [--daily m] [--utc-offset h] --json`: opens, extracts, closes. */
-export async function extractBoxJson(path: string, opts: BoxExtractOptions): Promise<BoxExtractJson> {
-  const ds = await openDataset(path);
-  try {
-    return await extractBoxFromDataset(ds, opts);
-  } finally {
-    await ds.close();
-  }
+export function extractBoxJson(path: string, opts: BoxExtractOptions): Promise<BoxExtractJson> {
+  return withDataset(path, (ds) => extractBoxFromDataset(ds, opts));
 }

@@ -45,6 +45,16 @@ export async function openDataset(path: string): Promise<Dataset> {
   }
 }
 
+/** Opens `path`, runs `use` on it and closes it again, also when `use` throws. */
+export async function withDataset<T>(path: string, use: (ds: Dataset) => Promise<T>): Promise<T> {
+  const ds = await openDataset(path);
+  try {
+    return await use(ds);
+  } finally {
+    await ds.close();
+  }
+}
+
 /** The variable's metadata, or InputError listing the variables the file has. */
 export function requireVariable(ds: Dataset, name: string): VariableInfo {
   const v = ds.variable(name);
