@@ -44,6 +44,17 @@ export function bandCellReader(ds: Dataset, layout: VariableLayout, band: GridBa
   /** order[j] = the used cell at the j-th smallest offset. */
   const order = Int32Array.from(offsets.keys()).sort((a, b) => offsets[a] - offsets[b]);
   const sortedOffsets = Int32Array.from(order, (k) => offsets[k]);
+  /** Ascending positions of the used cells over `steps` steps: the same for every member, so built once per length. */
+  const positionsByLength = new Map<number, Int32Array>();
+  const positionsFor = (steps: number): Int32Array => {
+    let positions = positionsByLength.get(steps);
+    if (!positions) {
+      positions = new Int32Array(steps * cells);
+      for (let t = 0; t < steps; t++) for (let j = 0; j < cells; j++) positions[t * cells + j] = t * sT + sortedOffsets[j];
+      positionsByLength.set(steps, positions);
+    }
+    return positions;
+  };
 
   return async (member, firstStep, steps) => {
     const at = [...start];
@@ -53,8 +64,7 @@ export function bandCellReader(ds: Dataset, layout: VariableLayout, band: GridBa
       at[layout.timeAxis] = firstStep;
       n[layout.timeAxis] = steps;
     }
-    const positions = new Int32Array(steps * cells);
-    for (let t = 0; t < steps; t++) for (let j = 0; j < cells; j++) positions[t * cells + j] = t * sT + sortedOffsets[j];
+    const positions = positionsFor(steps);
     let raw: Float64Array;
     if (ds.readRawAt) {
       raw = await ds.readRawAt(info.name, at, n, positions);
