@@ -13,7 +13,7 @@ export interface DecideInput {
   readonly config: Config;
   readonly probabilities: readonly LeadProbability[];
   readonly history: StageHistory;
-  /** Rule id → probability threshold tuned on the hindcasts for rules that give cost-loss. */
+  /** tunedKey(region, rule id) → probability threshold tuned on that region's hindcasts for rules that give cost-loss. */
   readonly thresholdsFromCostLoss?: ReadonlyMap<string, number>;
   /** "ignore" only for backtests on the hindcasts the skill was measured on (default "apply"). */
   readonly skillGate?: 'apply' | 'ignore';
@@ -45,7 +45,7 @@ export function decideStages(input: DecideInput): DecideResult {
         const key = trackKey(region.id, indicator.id, tier);
         const probs = byKey.get(key);
         if (!probs) continue;
-        const raw = evaluateRules(config, indicator.id, tier, probs, tuned, input.skillGate ?? 'apply');
+        const raw = evaluateRules(config, region.id, indicator.id, tier, probs, tuned, input.skillGate ?? 'apply');
         const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
         tracks[key] = kept.track;
         decisions.push({

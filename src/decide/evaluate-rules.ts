@@ -4,7 +4,7 @@
  */
 import type { Config } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
-import { leadName } from './types.ts';
+import { leadName, tunedKey } from './types.ts';
 import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
@@ -41,6 +41,7 @@ function applySkillGate(config: Config, probs: readonly LeadProbability[], reaso
 
 export function evaluateRules(
   config: Config,
+  region: string,
   indicator: string,
   tier: Tier,
   probabilities: readonly LeadProbability[],
@@ -55,7 +56,7 @@ export function evaluateRules(
   let best: { rank: number; ruleId: string; lead: LeadProbability } | null = null;
   for (const rule of config.rules) {
     if (rule.indicator !== indicator || rule.tier !== tier) continue;
-    const threshold = rule.probability ?? tuned.get(rule.id);
+    const threshold = rule.probability ?? tuned.get(tunedKey(region, rule.id));
     if (threshold === undefined) {
       reasons.push(`rule ${rule.id} not tuned (cost/loss ${rule.costLoss} needs a probability tuned on the hindcasts) — skipped`);
       continue;

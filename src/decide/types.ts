@@ -55,6 +55,9 @@ export interface StageChange {
 export const TIER_ORDER: readonly Tier[] = ['days', 'weeks', 'months'];
 
 /** "day 3", "week 2", "month 1". */
+/** Key of a cost/loss threshold tuned for one region and rule (the tuning is per region: its own hindcasts). */
+export const tunedKey = (region: string, ruleId: string): string => `${region}|${ruleId}`;
+
 export function leadName(tier: Tier, index: number): string {
   return `${tier.slice(0, -1)} ${index}`;
 }

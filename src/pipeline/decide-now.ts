@@ -7,7 +7,7 @@ import type { Config } from '../config/types.ts';
 import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
-import type { StageHistory } from '../decide/types.ts';
+import { tunedKey, type StageHistory } from '../decide/types.ts';
 import { openLedger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
 import type { Logger } from '../log.ts';
@@ -23,9 +23,19 @@ export interface DecidedNow {
   readonly previous: readonly RegionStageLike[];
 }
 
-/** Tuned cost/loss thresholds of every rule, from the analysis' climates. */
+/**
+ * Tuned cost/loss thresholds of every region × rule (`tunedKey`), from the analysis' climates. When two sources of
+ * one tier both tune a rule for a region, the first source in the configuration's order gives it.
+ */
 export function tunedThresholds(analysis: Analysis): Map<string, number> {
-  return new Map(analysis.sources.flatMap((s) => [...s.climates.values()].flatMap((c) => Object.entries(c.tuned))));
+  const out = new Map<string, number>();
+  for (const s of analysis.sources) {
+    for (const [key, c] of s.climates) {
+      const region = key.slice(0, key.indexOf('|')); // climateKey(region, indicator); ids hold no '|'
+      for (const [rule, p] of Object.entries(c.tuned)) if (!out.has(tunedKey(region, rule))) out.set(tunedKey(region, rule), p);
+    }
+  }
+  return out;
 }
 
 export async function decideNow(config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void): Promise<DecidedNow> {

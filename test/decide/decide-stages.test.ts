@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { combineRegionStages, decideStages } from '../../src/decide/decide-stages.ts';
 import { parseStageHistory } from '../../src/decide/history.ts';
-import { EMPTY_HISTORY, trackKey, type StageHistory } from '../../src/decide/types.ts';
+import { EMPTY_HISTORY, trackKey, tunedKey, type StageHistory } from '../../src/decide/types.ts';
 import type { LeadProbability } from '../../src/types.ts';
 import { makeConfig, prob } from './helpers.ts';
 
@@ -141,9 +141,17 @@ describe('decideStages', () => {
     const untuned = run(probs).decisions[0];
     expect(untuned.rawStageId).toBe('quiet');
     expect(untuned.reasons[0]).toBe('rule heat-days-mindful-cl not tuned (cost/loss 0.2 needs a probability tuned on the hindcasts) — skipped');
-    const tuned = run(probs, EMPTY_HISTORY, config, new Map([['heat-days-mindful-cl', 0.3]])).decisions[0];
+    const tuned = run(probs, EMPTY_HISTORY, config, new Map([[tunedKey('r1', 'heat-days-mindful-cl'), 0.3]])).decisions[0];
     expect(tuned.rawStageId).toBe('mindful');
     expect(tuned.reasons[0]).toBe('P(day 1) = 0.35 ≥ 0.3 (rule heat-days-mindful-cl, tuned for cost/loss 0.2) → mindful');
+  });
+
+  it('cost/loss thresholds are tuned per region: the same P fires where the tuned threshold is lower only', () => {
+    const probs = [prob('r1', 'days', 1, 0.35), prob('r2', 'days', 1, 0.35)];
+    const tuned = new Map([[tunedKey('r1', 'heat-days-mindful-cl'), 0.3], [tunedKey('r2', 'heat-days-mindful-cl'), 0.5]]);
+    const decisions = run(probs, EMPTY_HISTORY, config, tuned).decisions;
+    expect(decisions.map((d) => [d.region, d.rawStageId])).toEqual([['r1', 'mindful'], ['r2', 'quiet']]);
+    expect(decisions[1].reasons[0]).toBe('P(day 1) = 0.35 < 0.5 (rule heat-days-mindful-cl, tuned for cost/loss 0.2) — not fired');
   });
 
   it('no probabilities: no decision, history track carried over unchanged; history is plain JSON', () => {

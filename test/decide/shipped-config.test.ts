@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import { decideStages } from '../../src/decide/decide-stages.ts';
-import { EMPTY_HISTORY } from '../../src/decide/types.ts';
+import { EMPTY_HISTORY, tunedKey } from '../../src/decide/types.ts';
 import { prob } from './helpers.ts';
 
 describe('decideStages with config/forelight.yaml', async () => {
@@ -13,7 +13,7 @@ describe('decideStages with config/forelight.yaml', async () => {
       prob('kessan-lowlands', 'days', 2, 0.9, 0.8, 'heat-index'),
       prob('tulva-delta', 'months', 2, 0.95, 0.8, 'malaria-pf'),
     ];
-    const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: new Map([['heat-index-days-mindful', 0.25]]) });
+    const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: new Map([[tunedKey('kessan-lowlands', 'heat-index-days-mindful'), 0.25]]) });
     expect(decisions.map((d) => [d.region, d.indicator, d.tier, d.rawStageId, d.stageId])).toEqual([
       ['kessan-lowlands', 'heat-index', 'days', 'act-now', 'act-now'],
       ['tulva-delta', 'malaria-pf', 'months', 'mindful', 'quiet'],
