@@ -39,7 +39,7 @@ export async function notifyOperators(
   }
   try {
     const stampPart = new Date().toISOString().replace(/[:.]/g, '');
-    const [path] = writeOutboxFiles(delivery.outbox, `notice_${stampPart}_${safeNamePart(subject).slice(0, 40)}`, [
+    const [path] = writeOutboxFiles(delivery.outbox, `notice_${stampPart}_${safeNamePart(subject, 40)}`, [
       { ext: 'eml', content: await renderEml({ ...message, to: message.to || delivery.from }) },
     ]);
     log.warn('operator notice written to the outbox', { subject, path });

@@ -5,18 +5,24 @@
  */
 import type { Bulletin } from '../types.ts';
 import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
 import { join, resolve, sep } from 'node:path';
 import { DeliveryError } from '../errors.ts';
 
-/** File-name-safe part: ASCII letters, digits, `.`, `_`, `-` only; no leading dot; at most 80 characters. */
-export function safeNamePart(value: string): string {
-  const cleaned = value.replace(/[^A-Za-z0-9._-]+/g, '_').replace(/^[._]+/, '').slice(0, 80);
+/** File-name-safe part: ASCII letters, digits, `.`, `_`, `-` only; no leading dot; at most `max` characters. */
+export function safeNamePart(value: string, max = 80): string {
+  const cleaned = value.replace(/[^A-Za-z0-9._-]+/g, '_').replace(/^[._]+/, '').slice(0, max);
   return cleaned === '' ? 'x' : cleaned;
 }
 
-/** `<forecast>_r<run>_<team>_<recipient>`, each part made safe: no path traversal from team names or addresses. */
+/**
+ * `<forecast>_r<run>_<team>_<recipient>-<hash>`, each part made safe (no path traversal from team names or
+ * addresses) and short enough for a 255-byte file name; the recipient's full address is hashed in, so two long
+ * addresses that share their first characters never share a file.
+ */
 export function outboxBaseName(forecastKey: string, runId: number, team: string, recipient: string): string {
-  return [safeNamePart(forecastKey), `r${runId}`, safeNamePart(team), safeNamePart(recipient)].join('_');
+  const hash = createHash('sha256').update(recipient).digest('hex').slice(0, 8);
+  return [safeNamePart(forecastKey), `r${runId}`, safeNamePart(team, 40), `${safeNamePart(recipient, 40)}-${hash}`].join('_');
 }
 
 function outboxError(dir: string, err: unknown): DeliveryError {
@@ -41,13 +47,13 @@ export function ensureOutboxWritable(dir: string): void {
   }
 }
 
-/** Write `<base>.<ext>` files atomically; returns their paths in the given order. */
+/** Write `<base>.<ext>` files atomically (`base` made safe, never shortened); returns their paths in the given order. */
 export function writeOutboxFiles(dir: string, baseName: string, files: readonly { ext: string; content: string | Uint8Array }[]): string[] {
   const root = resolve(dir);
   try {
     mkdirSync(root, { recursive: true });
     return files.map(({ ext, content }) => {
-      const path = join(root, `${safeNamePart(baseName)}.${safeNamePart(ext)}`);
+      const path = join(root, `${safeNamePart(baseName, Infinity)}.${safeNamePart(ext)}`);
       if (!path.startsWith(root + sep)) throw new Error(`refusing to write outside ${root}`);
       const tmp = `${path}.tmp-${process.pid}`;
       writeFileSync(tmp, content);

@@ -9,7 +9,7 @@ import { simpleParser } from 'mailparser';
 import { afterEach, describe, expect, it } from 'vitest';
 import { deliverPending } from '../../src/deliver/deliver-pending.ts';
 import { sendOperatorNotice } from '../../src/deliver/operator-notice.ts';
-import { htmlWithInlineImages, outboxBaseName, safeNamePart } from '../../src/deliver/outbox.ts';
+import { htmlWithInlineImages, outboxBaseName, safeNamePart, writeOutboxFiles } from '../../src/deliver/outbox.ts';
 import { recordBulletins } from '../../src/ledger/bulletins.ts';
 import { listDeliveries, pendingDeliveries } from '../../src/ledger/deliveries.ts';
 import { openLedger, type Ledger } from '../../src/ledger/open-ledger.ts';
@@ -45,6 +45,16 @@ describe('outbox delivery (smtp: null)', () => {
     expect(mail.subject).toBe('Heat outlook for tulva-health — forecast of 2026-11-30');
     expect(mail.attachments[0].cid).toBe('chart-tulva-health@forelight');
     expect(listDeliveries(ledger, { statuses: ['outbox'] }).every((d) => d.outboxPath?.endsWith('.eml'))).toBe(true);
+  });
+
+  it('two long addresses of one team that differ only at the end get files of their own, within 255 bytes', () => {
+    const key = '2026-11-30T00:00:00Z_weeks-ensemble_2026-11-30T00:00:00Z_days-ensemble';
+    const [a, b] = ['duty-officer-a', 'duty-officer-b'].map((who) => outboxBaseName(key, 12, 'kessan-health-and-emergency-response-team', `${'x'.repeat(40)}.${who}@health.veloria.example`));
+    const dir = tempDir('long-names');
+    const paths = [a, b].map((base) => writeOutboxFiles(dir, base, [{ ext: 'eml', content: base }])[0]);
+    expect(new Set(paths).size).toBe(2);
+    expect(readdirSync(dir).sort()).toEqual([`${a}.eml`, `${b}.eml`].sort());
+    expect(`${a}.html`.length).toBeLessThanOrEqual(255);
   });
 
   it('team names and addresses cannot traverse out of the outbox folder', async () => {
