@@ -149,7 +149,7 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
             // Wrong credentials fail every message alike: keep all pending for a run after the fix.
             markDelivery(ledger, claimed.id, 'pending', { error: failure.detail });
             throw new DeliveryError(`SMTP server ${delivery.smtp?.host}:${delivery.smtp?.port} refused the login of ${delivery.smtp?.user ?? '(no user)'}: ${failure.detail}`,
-              `check smtp.user and the password in ${delivery.smtp?.passwordEnv ?? 'smtp.passwordEnv'}; unsent bulletins stay pending`, false);
+              `check delivery.smtp.user and the password in ${delivery.smtp?.passwordEnv ?? 'the variable named by delivery.smtp.password-env'}; unsent bulletins stay pending`, false);
           }
           status = failure && !failure.temporary ? 'failed' : 'outbox';
           error = failure?.detail ?? describeError(sendError);

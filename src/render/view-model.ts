@@ -110,7 +110,7 @@ export function toStageView(stage: StageConfig, rank: number, locale: string, au
 export function probabilityWord(config: Config, p: number, locale: string): string {
   if (!Number.isFinite(p)) return '–';
   const bands = config.probabilityWords;
-  if (bands.length === 0) throw new ForelightError('render', 'no-probability-words', 'config.probabilityWords is empty', 'add probability word bands to the config YAML');
+  if (bands.length === 0) throw new ForelightError('render', 'no-probability-words', 'probability-words is empty', 'add probability word bands under probability-words: in the config YAML');
   const band = bands.find((b) => p < b.below) ?? bands[bands.length - 1];
   return pickLocale(band.words, locale, `probability word band below ${band.below}`);
 }

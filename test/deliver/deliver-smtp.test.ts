@@ -133,7 +133,7 @@ describe('deliverPending over SMTP', () => {
       smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 1, user: 'forelight', passwordEnv: 'FORELIGHT_SMTP_PASSWORD' },
     });
     await expect(issueForecast(ledger, '2026-11-26', sampleBulletins(), cfg, silentLogger, { env: {} }))
-      .rejects.toThrow('environment variable FORELIGHT_SMTP_PASSWORD is not set — export it or remove smtp.user');
+      .rejects.toThrow('environment variable FORELIGHT_SMTP_PASSWORD is not set — export it, or remove delivery.smtp.user from the config YAML');
     expect(pendingDeliveries(ledger)).toHaveLength(5);
     expect(smtp.received).toHaveLength(0);
     const later = await deliverPending(ledger, deliveryConfig(smtp.port, join(dir, 'outbox')), silentLogger);
@@ -168,7 +168,7 @@ describe('deliverPending over SMTP', () => {
       smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 2, user: 'forelight', passwordEnv: 'FORELIGHT_SMTP_PASSWORD' },
     });
     const err = await issueForecast(ledger, '2026-11-26', sampleBulletins(), cfg, silentLogger, { env: { FORELIGHT_SMTP_PASSWORD: 'wrong' } }).catch((e: Error) => e);
-    expect((err as Error).message).toMatch(/^SMTP server 127\.0\.0\.1:\d+ refused the login of forelight: EAUTH 535 .* — check smtp\.user and the password in FORELIGHT_SMTP_PASSWORD; unsent bulletins stay pending$/);
+    expect((err as Error).message).toMatch(/^SMTP server 127\.0\.0\.1:\d+ refused the login of forelight: EAUTH 535 .* — check delivery\.smtp\.user and the password in FORELIGHT_SMTP_PASSWORD; unsent bulletins stay pending$/);
     expect(pendingDeliveries(ledger)).toHaveLength(5);
     expect(smtp.received).toHaveLength(0);
   });
