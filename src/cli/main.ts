@@ -17,7 +17,7 @@ const CONFIG: OptionSpec = { values: ['config'], flags: [] };
 
 const COMMANDS: Readonly<Record<string, CommandDef>> = {
   demo: {
-    summary: 'generate the sample scenario (if missing) and run it end to end into the outbox',
+    summary: 'generate the sample scenario (if missing, or always with --fresh) and run it end to end into the outbox',
     usage: 'forelight demo [--fresh]',
     spec: { values: [], flags: ['fresh'] },
     run: async (a) => (await import('./commands/demo.ts')).demoCommand(a),

@@ -17,10 +17,11 @@ import type { ParsedArgs } from '../args.ts';
 export const SAMPLE_ISSUE_DATES = ['2026-11-23', '2026-11-26', '2026-11-30'] as const;
 const SAMPLE_DATA = `${packagePath('sample-inputs/data')}/`;
 
-export async function demoCommand(_args: ParsedArgs): Promise<number> {
+/** `--fresh` regenerates the sample inputs even when they exist (generateSample rewrites every file). */
+export async function demoCommand(args: ParsedArgs): Promise<number> {
   const say = (line: string) => process.stdout.write(line + '\n');
-  if (!existsSync(join(SAMPLE_DATA, 'manifest.json'))) {
-    say('generating the invented Veloria sample inputs (once) ...');
+  if (args.options.fresh === true || !existsSync(join(SAMPLE_DATA, 'manifest.json'))) {
+    say('generating the invented Veloria sample inputs ...');
     const t0 = Date.now();
     await generateSample(SAMPLE_DATA, { onProgress: (line) => say(`  ${line}`) });
     say(`  done in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
