@@ -1,5 +1,5 @@
 /** Semantic checks on single values: e-mail addresses, cron expression, time zone, region shapes. */
-import { validate as validateCron } from 'node-cron';
+import { cronProblem, timeZoneProblem } from '../schedule/next-runs.ts';
 import { list, num, obj, text, type RawObject } from './raw-access.ts';
 import { pointerOf, problem, type ConfigProblem } from './problem.ts';
 
@@ -8,15 +8,6 @@ const EMAIL = /^[A-Za-z0-9.!#$%&'*+/=?^_`{|}~-]+@[A-Za-z0-9](?:[A-Za-z0-9-]{0,61
 
 export function isEmailAddress(s: string): boolean {
   return EMAIL.test(s) && !s.includes('..');
-}
-
-export function isTimeZone(tz: string): boolean {
-  try {
-    new Intl.DateTimeFormat('en', { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
 }
 
 export function checkValues(raw: RawObject): ConfigProblem[] {
@@ -31,13 +22,11 @@ export function checkValues(raw: RawObject): ConfigProblem[] {
 
   const schedule = obj(raw.schedule);
   const cron = text(schedule.cron);
-  if (cron !== undefined && !validateCron(cron)) {
-    out.push(problem(pointerOf('schedule', 'cron'), `invalid cron expression "${cron}"`, 'write 5 fields (minute hour day-of-month month day-of-week), e.g. "30 7 * * 1,4" for Monday and Thursday 07:30'));
-  }
+  const cronIssue = cron === undefined ? null : cronProblem(cron);
+  if (cronIssue) out.push(problem(pointerOf('schedule', 'cron'), cronIssue.message, cronIssue.fix));
   const tz = text(schedule.timezone);
-  if (tz !== undefined && !isTimeZone(tz)) {
-    out.push(problem(pointerOf('schedule', 'timezone'), `unknown IANA time zone "${tz}"`, 'use a zone name such as Etc/GMT-1 (fixed UTC+1) or Africa/Lagos'));
-  }
+  const tzIssue = tz === undefined ? null : timeZoneProblem(tz);
+  if (tzIssue) out.push(problem(pointerOf('schedule', 'timezone'), tzIssue.message, tzIssue.fix));
 
   list(raw.regions).forEach((r, i) => out.push(...checkShape(obj(r), i)));
   return out;

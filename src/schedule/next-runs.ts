@@ -22,13 +22,20 @@ function zoneFormatter(tz: string): Intl.DateTimeFormat {
   return f;
 }
 
-/** Throws a one-line ConfigError unless `tz` is an IANA zone this Node knows. */
-export function checkTimeZone(tz: string): void {
+/** What is wrong with time zone `tz` and what to write instead, or null when this Node knows the IANA zone. */
+export function timeZoneProblem(tz: string): { message: string; fix: string } | null {
   try {
     zoneFormatter(tz);
+    return null;
   } catch {
-    throw new ConfigError([`schedule.timezone: unknown time zone "${tz}" — use an IANA name such as Africa/Lagos or Europe/Lisbon`]);
+    return { message: `unknown IANA time zone "${tz}"`, fix: 'use a zone name such as Etc/GMT-1 (fixed UTC+1) or Africa/Lagos' };
   }
+}
+
+/** Throws a one-line ConfigError unless `tz` is an IANA zone this Node knows. */
+export function checkTimeZone(tz: string): void {
+  const p = timeZoneProblem(tz);
+  if (p) throw new ConfigError([`schedule.timezone: ${p.message} — ${p.fix}`]);
 }
 
 /** Offset of zone `tz` from UTC at instant `ms`, in milliseconds (local = UTC + offset). */
@@ -73,16 +80,26 @@ function offsetsBetween(tz: string, lo: number, hi: number): (ms: number) => num
   return (ms) => (ms < b ? offLo : offHi);
 }
 
-/** Throws a one-line ConfigError for an expression node-cron rejects or that uses L/W/# day tokens. */
-export function parseCronFields(expr: string): ParsedFields {
+/**
+ * What is wrong with a cron expression and what to write instead, or null when the service can schedule it: node-cron
+ * must accept it and it must not use L, W or # day tokens. `forelight check` and the service both ask this.
+ */
+export function cronProblem(expr: string): { message: string; fix: string } | null {
   if (!cron.validate(expr)) {
-    throw new ConfigError([`schedule.cron: "${expr}" is not a valid cron expression — use 5 fields (min hour day month weekday) or 6 with seconds first`]);
+    return { message: `"${expr}" is not a valid cron expression`, fix: 'use 5 fields (min hour day month weekday) or 6 with seconds first, e.g. "30 7 * * 1,4" for Monday and Thursday 07:30' };
   }
   const fields = cron.parse(expr);
   if ([...fields.dayOfMonth, ...fields.dayOfWeek].some((v) => typeof v !== 'number')) {
-    throw new ConfigError([`schedule.cron: "${expr}" uses L, W or # day tokens, which Forelight does not schedule — list the days instead`]);
+    return { message: `"${expr}" uses L, W or # day tokens, which Forelight does not schedule`, fix: 'list the days instead' };
   }
-  return fields;
+  return null;
+}
+
+/** The expression's fields; throws a one-line ConfigError when `cronProblem` finds one. */
+export function parseCronFields(expr: string): ParsedFields {
+  const p = cronProblem(expr);
+  if (p) throw new ConfigError([`schedule.cron: ${p.message} — ${p.fix}`]);
+  return cron.parse(expr);
 }
 
 /** The first `n` firing instants strictly after `from`. */

@@ -6,6 +6,7 @@
  */
 import cron from 'node-cron';
 import { describe, expect, it } from 'vitest';
+import { checkValues } from '../../src/config/check-values.ts';
 import { computeNextRuns, wallTimeToInstant } from '../../src/schedule/next-runs.ts';
 
 const local = (d: Date, tz: string) => d.toLocaleString('sv-SE', { timeZone: tz });
@@ -75,6 +76,15 @@ describe('computeNextRuns across DST (IANA tzdata via Node ICU)', () => {
 
   it('rejects bad expressions and zones with one line naming the setting', () => {
     expect(() => computeNextRuns('61 2 * * *', 'Europe/Berlin', new Date(), 1)).toThrow(/^schedule\.cron: "61 2 \* \* \*" is not a valid cron expression/);
-    expect(() => computeNextRuns('0 6 * * *', 'Veloria/Kessan', new Date(), 1)).toThrow(/^schedule\.timezone: unknown time zone "Veloria\/Kessan"/);
+    expect(() => computeNextRuns('0 6 * * *', 'Veloria/Kessan', new Date(), 1)).toThrow(/^schedule\.timezone: unknown IANA time zone "Veloria\/Kessan"/);
+  });
+
+  it('`forelight check` refuses what the service cannot schedule: node-cron accepts L, the config check does not', () => {
+    expect(cron.validate('0 7 L * *')).toBe(true); // node-cron alone would let it through
+    const problems = checkValues({ schedule: { cron: '0 7 L * *', timezone: 'Etc/GMT-1' } });
+    expect(problems.map((p) => `${p.pointer}: ${p.message} — ${p.fix}`)).toEqual([
+      '/schedule/cron: "0 7 L * *" uses L, W or # day tokens, which Forelight does not schedule — list the days instead',
+    ]);
+    expect(() => computeNextRuns('0 7 L * *', 'Etc/GMT-1', new Date(), 1)).toThrow('schedule.cron: "0 7 L * *" uses L, W or # day tokens');
   });
 });
