@@ -4,12 +4,6 @@
  */
 import type { Quantity, Tier } from '../types.ts';
 
-/** A value with explicit units, e.g. `{ value: 35, units: degC }`. */
-export interface ValueWithUnits {
-  readonly value: number;
-  readonly units: string;
-}
-
 export interface SourceConfig {
   readonly id: string;
   /** Human-readable name, used in bulletins ("Sub-seasonal ensemble"). */

@@ -15,22 +15,6 @@ function checkLengths(out: Float64Array, ...inputs: ArrayLike<number>[]): void {
   }
 }
 
-export function mapElementwise1(a: ArrayLike<number>, out: Float64Array, f: (x: number) => number): ElementwiseCounts {
-  checkLengths(out, a);
-  let outOfRange = 0;
-  let missing = 0;
-  for (let i = 0; i < out.length; i++) {
-    const x = a[i];
-    const v = f(x);
-    out[i] = v;
-    if (Number.isNaN(v)) {
-      if (Number.isNaN(x)) missing++;
-      else outOfRange++;
-    }
-  }
-  return { outOfRange, missing };
-}
-
 export function mapElementwise2(
   a: ArrayLike<number>, b: ArrayLike<number>, out: Float64Array, f: (x: number, y: number) => number,
 ): ElementwiseCounts {

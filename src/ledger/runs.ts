@@ -2,10 +2,9 @@
  * Runs: one row per attempt to issue the bulletins of a forecast key (the forecast date, e.g. "2026-11-26").
  * A key is issued once; a second start for the same key resumes an unfinished run or does nothing, unless forced.
  */
-import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
 import { ForelightError } from '../errors.ts';
+import { sha256File } from '../calibrate/file-checksums.ts';
 import { isProcessAlive } from '../schedule/process-alive.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
 
@@ -121,15 +120,9 @@ export interface InputFileRecord {
 
 /** Hash a file (streamed) for `recordInputs`; `checksum` may come from a memo of earlier runs. */
 export async function describeInputFile(
-  path: string, source: string, referenceTime: string, checksum: (path: string) => Promise<string> = sha256Streamed,
+  path: string, source: string, referenceTime: string, checksum: (path: string) => Promise<string> = sha256File,
 ): Promise<InputFileRecord> {
   return { path, sha256: await checksum(path), sizeBytes: (await stat(path)).size, source, referenceTime };
-}
-
-async function sha256Streamed(path: string): Promise<string> {
-  const hash = createHash('sha256');
-  for await (const chunk of createReadStream(path)) hash.update(chunk as Buffer);
-  return hash.digest('hex');
 }
 
 export function recordInputs(ledger: Ledger, runId: number, files: readonly InputFileRecord[]): void {

@@ -57,15 +57,18 @@ function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadR
   return { kept, notes: [...notes] };
 }
 
-/** Reads and computes everything for an issue date; never throws for a bad file, region or indicator. */
+/**
+ * Reads and computes everything for an issue date; never throws for a bad file, region or indicator.
+ * @param inputs the files to use, when the caller already resolved them (a run keys its ledger entry on them)
+ */
 export async function analyse(
   config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void,
+  inputs: readonly SourceInputs[] = resolveInputs(config, issueDate),
 ): Promise<Analysis> {
-  const inputs = resolveInputs(config, issueDate);
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now();
-  const read = await readAll(config, inputs, { hindcasts: false });
+  const read = await readAll(config, inputs);
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
   const checksums = await openChecksumMemo(config.calibration.cacheDir);

@@ -25,7 +25,6 @@ export interface SourceRead {
   readonly stale: boolean;
   readonly referenceTime: string;
   readonly series: RegionQuantities;
-  readonly hindcasts: readonly HindcastRead[];
 }
 
 export interface ReadResult {
@@ -90,8 +89,11 @@ export async function readHindcasts(
   return out;
 }
 
-/** Reads every source's forecast and hindcasts and the observations, collecting problems instead of stopping. */
-export async function readAll(config: Config, inputs: readonly SourceInputs[], options: { hindcasts?: boolean } = {}): Promise<ReadResult> {
+/**
+ * Reads every source's forecast and the observations, collecting problems instead of stopping. Hindcasts are read
+ * later, per source, only when the model-climate cache misses (`readHindcasts`).
+ */
+export async function readAll(config: Config, inputs: readonly SourceInputs[]): Promise<ReadResult> {
   const problems: ForelightError[] = [];
   const sources: SourceRead[] = [];
   for (const input of inputs) {
@@ -101,8 +103,7 @@ export async function readAll(config: Config, inputs: readonly SourceInputs[], o
     }
     const series = await readFile(input.path, input.source.variables, config.regions, input.date, problems);
     if (!series) continue;
-    const hindcasts = options.hindcasts === false ? [] : await readHindcasts(input.source, input.hindcasts, config.regions, problems);
-    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series, hindcasts });
+    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series });
   }
   const observed = config.observations
     ? await readFile(config.observations.path, config.observations.variables, config.regions, undefined, problems)

@@ -77,9 +77,9 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 }
 
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
-async function prepare(ledger: Ledger, options: RunOptions, runId: number): Promise<{ problems: readonly string[]; bulletins: number }> {
+async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ problems: readonly string[]; bulletins: number }> {
   const { config, log } = options;
-  const analysis = await analyse(config, options.issueDate, log);
+  const analysis = await analyse(config, options.issueDate, log, undefined, inputs); // the files the run key names
   if (analysis.read.sources.length === 0) throw new Error(`no forecast could be read: ${analysis.problems.join(' | ')}`);
   await recordInputFiles(ledger, runId, analysis, config);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
@@ -125,7 +125,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     let problems: readonly string[] = [];
     try {
       if (begun.kind === 'resumed' && hasBulletins(ledger, runId)) rlog.warn('resuming an interrupted run: sending what was not yet sent');
-      else ({ problems } = await prepare(ledger, { ...options, log: rlog }, runId));
+      else ({ problems } = await prepare(ledger, { ...options, log: rlog }, runId, inputs));
     } catch (err) {
       finishRun(ledger, runId, 'failed', describeError(err));
       throw err;
