@@ -23,7 +23,7 @@ export async function openDataset(path: string): Promise<Dataset> {
   try {
     handle = await open(path, 'r');
   } catch (err) {
-    throw new InputError('input-missing', path, `cannot open the file (${(err as NodeJS.ErrnoException).code ?? String(err)})`, 'check the path in the source config and that the download finished', { cause: err });
+    throw new InputError('input-missing', path, `cannot open the file (${(err as NodeJS.ErrnoException).code ?? String(err)})`, 'check the path (sources[].forecast in the config, or the command line) and that the download finished', { cause: err });
   }
   let owned = false;
   try {
