@@ -12,6 +12,7 @@
 import type { DecisionConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadWindow, SkillSummary } from '../types.ts';
 import { distinctYears, leadSample, yearMembers, type LeadClimate } from './climate.ts';
+import { leadLabel } from './lead-tiers.ts';
 import { leaveOneYearOutThresholds, quantileMappedThreshold } from './thresholds.ts';
 import { exceedanceFraction } from './probability.ts';
 import { percentileLinear } from './percentile.ts';
@@ -124,7 +125,7 @@ export function scoreCases(
   const events = o.reduce((a, b) => a + b, 0);
   const allFlags = [...flags];
   if (n === 0 || events === 0 || events === n) {
-    allFlags.push(`no-contrast: ${events} events in ${n} cases at lead ${lead.tier} ${lead.index}; scores undefined (NaN), the gate fails`);
+    allFlags.push(`no-contrast: ${events} events in ${n} cases at ${leadLabel(lead)}; scores undefined (NaN), the gate fails`);
   }
   const nan = Number.NaN;
   const usable = n > 0;
@@ -168,7 +169,7 @@ export function skillReports(req: SkillRequest): SkillReport[] {
     if (obsCovers) {
       return scoreCases(lead, 'observed', observedCases(hc, observed, l, req.threshold, lead.tier !== 'days'), req.stageProbabilities, req.gate, flags);
     }
-    const why = observed === null ? 'no observations configured' : `observations do not cover lead ${lead.tier} ${lead.index}`;
+    const why = observed === null ? 'no observations configured' : `observations do not cover ${leadLabel(lead)}`;
     return scoreCases(lead, 'potential', potentialCases(hc, l, req.threshold), req.stageProbabilities, req.gate, [...flags, `potential skill only: ${why}`]);
   });
 }

@@ -95,7 +95,7 @@ describe('skill reports', () => {
     const obs = climate(YEARS_2006_2025, 1, leadsOf('weeks', 1), (y) => y);
     const reps = skillReports(req({ hindcast: hc, observed: obs }));
     expect(reps.map((r) => r.basis)).toEqual(['observed', 'potential']);
-    expect(reps[1].flags).toContain('potential skill only: observations do not cover lead weeks 2');
+    expect(reps[1].flags).toContain('potential skill only: observations do not cover lead week 2');
   });
   it('fewer than minHindcastYears: "thresholds unstable: only N hindcast years" flag', () => {
     const [r] = skillReports(req({ hindcast: climate(years(6), 4, leadsOf('weeks', 1), (y, m) => y * m) }));
