@@ -9,7 +9,7 @@ import { decideStages } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import { deliverPending, type DeliverOptions } from '../deliver/deliver-pending.ts';
 import { sendOperatorNotice } from '../deliver/operator-notice.ts';
-import { describeError } from '../errors.ts';
+import { ForelightError, describeError } from '../errors.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
 import { openLedger, type Ledger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
@@ -80,7 +80,9 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ problems: readonly string[]; bulletins: number }> {
   const { config, log } = options;
   const analysis = await analyse(config, options.issueDate, log, undefined, inputs); // the files the run key names
-  if (analysis.read.sources.length === 0) throw new Error(`no forecast could be read: ${analysis.problems.join(' | ')}`);
+  if (analysis.read.sources.length === 0) {
+    throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
+  }
   await recordInputFiles(ledger, runId, analysis, config);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
   const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis) });
