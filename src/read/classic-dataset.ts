@@ -6,7 +6,7 @@
 import { readSync } from 'node:fs';
 import type { FileHandle } from 'node:fs/promises';
 import { InputError } from '../errors.ts';
-import type { Dataset, DatasetFormat, DimensionInfo, VariableInfo } from './dataset.ts';
+import { variableNotFound, type Dataset, type DatasetFormat, type DimensionInfo, type VariableInfo } from './dataset.ts';
 import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, decodeBigEndian, parseClassicHeader } from './classic-header.ts';
 import { PositionPicker } from './classic-pick.ts';
 import { MAX_SPAN_BYTES, type ReadSpan, planReads, validateSelection } from './classic-hyperslab.ts';
@@ -88,7 +88,7 @@ class ClassicDataset implements Dataset {
    */
   private async readNow(name: string, start: readonly number[], count: readonly number[], positions?: Int32Array): Promise<Float64Array> {
     const v = this.byName.get(name);
-    if (!v) throw new InputError('input-variable', this.path, `variable '${name}' not found`, `use one of: ${this.variables.map((x) => x.name).join(', ')}`);
+    if (!v) throw variableNotFound(this.path, name, this.variables);
     validateSelection(this.path, v, start, count);
     const strides = new Array<number>(v.shape.length);
     let stride = v.elementBytes;

@@ -2,6 +2,7 @@
  * The one interface every NetCDF flavour is read through (classic CDF-1, 64-bit offset CDF-2, CDF-5,
  * NetCDF-4/HDF5). Implementations read only the requested hyperslab, never a whole large variable.
  */
+import { InputError } from '../errors.ts';
 
 export type AttributeValue = string | number | readonly number[];
 
@@ -45,4 +46,9 @@ export interface Dataset {
   /** Optional: how many reads a caller may keep in flight to keep the reader's threads busy (default 1). */
   readonly readAhead?: number;
   close(): Promise<void>;
+}
+
+/** The error every reader gives for a variable the file does not have, listing the ones it has. */
+export function variableNotFound(path: string, name: string, variables: readonly { readonly name: string }[]): InputError {
+  return new InputError('input-variable', path, `variable '${name}' not found`, `use one of: ${variables.map((x) => x.name).join(', ')}`);
 }

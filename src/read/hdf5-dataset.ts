@@ -8,7 +8,7 @@ import { createRequire } from 'node:module';
 import { resolve } from 'node:path';
 import type { Dataset as H5Dataset, File as H5File } from 'h5wasm/node';
 import { InputError } from '../errors.ts';
-import type { AttributeValue, Dataset, DimensionInfo, StorageType, VariableInfo } from './dataset.ts';
+import { variableNotFound, type AttributeValue, type Dataset, type DimensionInfo, type StorageType, type VariableInfo } from './dataset.ts';
 import { validateSelection } from './classic-hyperslab.ts';
 import { checkHdf5Filters } from './hdf5-filters.ts';
 import { checkIdentity, fileIdentity, readSlab } from './hdf5-slab.mjs';
@@ -110,7 +110,7 @@ class Hdf5Dataset implements Dataset {
   /** Checks the selection and the variable's filters here, then decompresses on a pool worker (or in this thread). */
   private async read(name: string, start: readonly number[], count: readonly number[], positions?: Int32Array): Promise<Float64Array> {
     const v = this.byName.get(name);
-    if (!v) throw new InputError('input-variable', this.path, `variable '${name}' not found`, `use one of: ${this.variables.map((x) => x.name).join(', ')}`);
+    if (!v) throw variableNotFound(this.path, name, this.variables);
     const total = validateSelection(this.path, v, start, count);
     if (!v.numeric) throw new InputError('input-type', this.path, `variable '${name}' is not numeric`, 'choose a numeric variable in the source config');
     if (!this.filtersChecked.has(name)) {

@@ -5,7 +5,7 @@
  */
 import { open } from 'node:fs/promises';
 import { InputError } from '../errors.ts';
-import type { Dataset, VariableInfo } from './dataset.ts';
+import type { Dataset } from './dataset.ts';
 import { openClassicDataset } from './classic-dataset.ts';
 import { openHdf5Dataset } from './hdf5-dataset.ts';
 
@@ -53,11 +53,4 @@ export async function withDataset<T>(path: string, use: (ds: Dataset) => Promise
   } finally {
     await ds.close();
   }
-}
-
-/** The variable's metadata, or InputError listing the variables the file has. */
-export function requireVariable(ds: Dataset, name: string): VariableInfo {
-  const v = ds.variable(name);
-  if (v) return v;
-  throw new InputError('input-variable', ds.path, `variable '${name}' not found (has: ${ds.variables.map((x) => x.name).join(', ')})`, 'check the variable name in the source config');
 }
