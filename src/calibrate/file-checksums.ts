@@ -5,7 +5,8 @@
  */
 import { createHash } from 'node:crypto';
 import { createReadStream, statSync } from 'node:fs';
-import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
+import { mkdir, readFile } from 'node:fs/promises';
+import { writeFileAtomic } from '../write-atomic.ts';
 import { join } from 'node:path';
 import { ForelightError } from '../errors.ts';
 
@@ -57,9 +58,7 @@ export async function openChecksumMemo(cacheDir: string | null): Promise<Checksu
     async save() {
       if (!file || !dirty) return;
       await mkdir(cacheDir as string, { recursive: true });
-      const tmp = `${file}.${process.pid}.tmp`;
-      await writeFile(tmp, JSON.stringify(known));
-      await rename(tmp, file);
+      writeFileAtomic(file, JSON.stringify(known));
       dirty = false;
     },
   };

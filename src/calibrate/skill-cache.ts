@@ -7,7 +7,8 @@
  * Non-finite numbers are stored as {"$num": "NaN" | "Infinity" | "-Infinity"}.
  */
 import { createHash } from 'node:crypto';
-import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
+import { mkdir, readFile } from 'node:fs/promises';
+import { writeFileAtomic } from '../write-atomic.ts';
 import { join } from 'node:path';
 import { ForelightError } from '../errors.ts';
 import { sha256File, type ChecksumMemo } from './file-checksums.ts';
@@ -55,9 +56,7 @@ export async function cachedSkill<T>(cacheDir: string, key: string, compute: () 
   const value = await compute();
   try {
     await mkdir(cacheDir, { recursive: true });
-    const tmp = `${file}.${process.pid}.tmp`;
-    await writeFile(tmp, JSON.stringify(value, encode));
-    await rename(tmp, file);
+    writeFileAtomic(file, JSON.stringify(value, encode));
   } catch (err) {
     throw new ForelightError('calibrate', 'skill-cache-write', `cannot write skill cache ${file}: ${(err as Error).message}`, 'make calibration.cacheDir writable or point it elsewhere', { cause: err });
   }

@@ -4,7 +4,8 @@
  * temporary name and renamed, so a crash never leaves half a message; re-writing the same message replaces it.
  */
 import type { Bulletin } from '../types.ts';
-import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { writeFileAtomic } from '../write-atomic.ts';
 import { createHash } from 'node:crypto';
 import { join, resolve, sep } from 'node:path';
 import { DeliveryError } from '../errors.ts';
@@ -55,9 +56,7 @@ export function writeOutboxFiles(dir: string, baseName: string, files: readonly 
     return files.map(({ ext, content }) => {
       const path = join(root, `${safeNamePart(baseName, Infinity)}.${safeNamePart(ext)}`);
       if (!path.startsWith(root + sep)) throw new Error(`refusing to write outside ${root}`);
-      const tmp = `${path}.tmp-${process.pid}`;
-      writeFileSync(tmp, content);
-      renameSync(tmp, path);
+      writeFileAtomic(path, content);
       return path;
     });
   } catch (err) {

@@ -2,7 +2,9 @@
  * Files a run publishes besides e-mail: CAP XML and run.json per run, and the static archive site, rebuilt from
  * every issued run's archive entry (each kept as `<archive>/<runId>/entry.json`).
  */
-import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
+import { ForelightError } from '../errors.ts';
+import { writeFileAtomic } from '../write-atomic.ts';
 import { join } from 'node:path';
 import type { Config } from '../config/types.ts';
 import type { ArchiveEntry } from '../render/archive.ts';
@@ -17,7 +19,12 @@ export function readArchiveEntries(dir: string): ArchiveEntry[] {
   const entries: ArchiveEntry[] = [];
   for (const name of readdirSync(dir)) {
     const file = join(dir, name, ENTRY_FILE);
-    if (existsSync(file)) entries.push(JSON.parse(readFileSync(file, 'utf8')) as ArchiveEntry);
+    if (!existsSync(file)) continue;
+    try {
+      entries.push(JSON.parse(readFileSync(file, 'utf8')) as ArchiveEntry);
+    } catch (err) {
+      throw new ForelightError('render', 'archive-entry', `archive entry ${file} is unreadable (${(err as Error).message})`, 'restore it from a backup or delete its folder; the archive site is rebuilt from the other entries', { cause: err });
+    }
   }
   return entries.sort((a, b) => a.issuedAt.localeCompare(b.issuedAt));
 }
@@ -27,7 +34,7 @@ export function publishArchive(config: Config, entry: ArchiveEntry): string {
   const dir = config.delivery.archive;
   const runDir = join(dir, toToken(entry.runId));
   mkdirSync(runDir, { recursive: true });
-  writeFileSync(join(runDir, ENTRY_FILE), JSON.stringify(entry));
+  writeFileAtomic(join(runDir, ENTRY_FILE), JSON.stringify(entry));
   writeArchive(dir, readArchiveEntries(dir), { templates: config.templates });
   return join(dir, 'index.html');
 }

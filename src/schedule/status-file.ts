@@ -1,5 +1,6 @@
 /** The service status file read by `forelight status`: last run, its result, the next run, failures. */
-import { readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
+import { writeFileAtomic } from '../write-atomic.ts';
 import { ForelightError, describeError } from '../errors.ts';
 import { exitCodeName } from './exit-codes.ts';
 
@@ -31,9 +32,7 @@ export function makeRunReport(reason: RunReport['reason'], startedAt: Date, fini
 
 /** Write atomically (temporary file + rename) so a reader never sees half a file. */
 export function writeStatus(path: string, status: ServiceStatus): void {
-  const tmp = `${path}.tmp-${process.pid}`;
-  writeFileSync(tmp, JSON.stringify(status, null, 2) + '\n');
-  renameSync(tmp, path);
+  writeFileAtomic(path, JSON.stringify(status, null, 2) + '\n');
 }
 
 /** Null when the service has not written a status yet. */

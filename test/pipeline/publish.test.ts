@@ -1,0 +1,25 @@
+/** The archive folder's per-run entries: read back oldest first; a damaged entry is named with what to do. */
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ForelightError } from '../../src/errors.ts';
+import { readArchiveEntries } from '../../src/pipeline/publish.ts';
+
+const dir = mkdtempSync(join(tmpdir(), 'forelight-archive-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+describe('readArchiveEntries', () => {
+  it('returns the entries oldest first, skips folders without one, and names a damaged entry', () => {
+    for (const [run, issuedAt] of [['2026-11-26-2', '2026-11-26T07:30:00Z'], ['2026-11-23-1', '2026-11-23T07:30:00Z']]) {
+      mkdirSync(join(dir, run));
+      writeFileSync(join(dir, run, 'entry.json'), JSON.stringify({ runId: run, issuedAt }));
+    }
+    mkdirSync(join(dir, 'assets'));
+    expect(readArchiveEntries(dir).map((e) => e.runId)).toEqual(['2026-11-23-1', '2026-11-26-2']);
+    mkdirSync(join(dir, '2026-11-30-3'));
+    writeFileSync(join(dir, '2026-11-30-3', 'entry.json'), '{"runId": "2026-11-30-3", "issu');
+    expect(() => readArchiveEntries(dir)).toThrow(ForelightError);
+    expect(() => readArchiveEntries(dir)).toThrow(new RegExp(`^archive entry ${join(dir, '2026-11-30-3', 'entry.json')} is unreadable \\(.+\\) — restore it from a backup or delete its folder`));
+  });
+});
