@@ -7,7 +7,7 @@ import type { Config } from '../config/types.ts';
 import type { LeadProbability, StageDecision } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
 import { applyPersistence } from './persistence.ts';
-import { TIER_ORDER, trackKey, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+import { TIER_ORDER, stageRank, trackKey, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
 
 export interface DecideInput {
   readonly config: Config;
@@ -71,7 +71,7 @@ export function decideStages(input: DecideInput): DecideResult {
  * indicator on neither axis. On a tie the first decision in config order (indicator, then tier) is named.
  */
 export function combineRegionStages(config: Config, decisions: readonly StageDecision[]): RegionStage[] {
-  const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
+  const rank = (id: string) => stageRank(config.stages, id);
   const highest = (list: readonly StageDecision[]): StageDecision | null =>
     list.reduce<StageDecision | null>((best, d) => (best === null || rank(d.stageId) > rank(best.stageId) ? d : best), null);
   const named = (d: StageDecision | null) => (d ? { region: d.region, indicator: d.indicator, tier: d.tier } : null);

@@ -4,7 +4,7 @@
  */
 import type { Config } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
-import { leadName, tunedKey } from './types.ts';
+import { leadName, stageRank, tunedKey } from './types.ts';
 import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
@@ -48,7 +48,7 @@ export function evaluateRules(
   tuned: ReadonlyMap<string, number>,
   skillGate: 'apply' | 'ignore',
 ): RawStage {
-  const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
+  const rank = (id: string) => stageRank(config.stages, id);
   const reasons: string[] = [];
   const probs = [...probabilities].filter((p) => Number.isFinite(p.probability)).sort((a, b) => a.lead.index - b.lead.index);
   const { usable, withheld } = skillGate === 'apply' ? applySkillGate(config, probs, reasons) : { usable: probs, withheld: [] };

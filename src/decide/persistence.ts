@@ -6,7 +6,7 @@
  * `topStageImmediate`, a raw top stage is issued at once. No history = the lowest stage, counters at 0.
  */
 import type { DecisionConfig, StageConfig } from '../config/types.ts';
-import type { StageTrack } from './types.ts';
+import { stageRank, type StageTrack } from './types.ts';
 
 export interface PersistenceResult {
   readonly stageId: string;
@@ -17,7 +17,7 @@ export interface PersistenceResult {
 const settled = (stageId: string): StageTrack => ({ stageId, runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null });
 
 export function applyPersistence(stages: readonly StageConfig[], decision: DecisionConfig, previous: StageTrack | undefined, rawStageId: string): PersistenceResult {
-  const rank = (id: string | null) => (id === null ? -1 : stages.findIndex((s) => s.id === id));
+  const rank = (id: string | null) => (id === null ? -1 : stageRank(stages, id));
   const reasons: string[] = [];
   let prev = previous ?? settled(stages[0].id);
   if (rank(prev.stageId) < 0) {

@@ -55,6 +55,9 @@ export interface StageChange {
 export const TIER_ORDER: readonly Tier[] = ['days', 'weeks', 'months'];
 
 /** "day 3", "week 2", "month 1". */
+/** Position of stage `id` on the ladder (0 = lowest), -1 when the ladder has no such stage. */
+export const stageRank = (stages: readonly { readonly id: string }[], id: string): number => stages.findIndex((s) => s.id === id);
+
 /** Key of a cost/loss threshold tuned for one region and rule (the tuning is per region: its own hindcasts). */
 export const tunedKey = (region: string, ruleId: string): string => `${region}|${ruleId}`;
 

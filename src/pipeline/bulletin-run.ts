@@ -5,7 +5,7 @@
 import type { Config, StageConfig } from '../config/types.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { combineRegionStages } from '../decide/decide-stages.ts';
-import type { RegionStage } from '../decide/types.ts';
+import { stageRank, type RegionStage } from '../decide/types.ts';
 import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
 import { computeNextRuns } from '../schedule/next-runs.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
@@ -47,7 +47,7 @@ export function issuedRegionStages(config: Config, rows: readonly { region: stri
 
 /** The highest of some stage ids on the ladder (the lowest stage when there are none). */
 export function highestStageId(config: Config, ids: readonly string[]): string {
-  const rank = (id: string) => config.stages.findIndex((s) => s.id === id);
+  const rank = (id: string) => stageRank(config.stages, id);
   return ids.reduce((best, id) => (rank(id) > rank(best) ? id : best), config.stages[0].id);
 }
 
