@@ -15,7 +15,7 @@ import { loadConfig } from '../src/config/load-config.ts';
 import type { Config, IndicatorConfig, RegionConfig } from '../src/config/types.ts';
 import { decideStages } from '../src/decide/decide-stages.ts';
 import { EMPTY_HISTORY } from '../src/decide/types.ts';
-import { silentLogger } from '../src/log.ts';
+import { silentLogger } from '../src/core/log.ts';
 import { analyse } from '../src/pipeline/analyse.ts';
 import { tunedThresholds } from '../src/pipeline/decide-now.ts';
 import { extractRegionSeries } from '../src/read/extract.ts';

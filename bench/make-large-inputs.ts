@@ -15,9 +15,9 @@ import { existsSync } from 'node:fs';
 import { mkdir, readFile, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { axis, writeEnsembleFile, type CfFileDef, type GridSpec } from '../sample-inputs/lib/cf-gridded-file.ts';
-import type { NcFormat } from '../sample-inputs/lib/netcdf-classic-writer.ts';
-import { createRandom, deriveSeed } from '../sample-inputs/lib/seeded-random.ts';
+import { axis, writeEnsembleFile, type CfFileDef, type GridSpec } from '../src/sample/cf-gridded-file.ts';
+import type { NcFormat } from '../src/sample/netcdf-classic-writer.ts';
+import { createRandom, deriveSeed } from '../src/sample/seeded-random.ts';
 
 export type BenchMode = 'small' | 'full';
 

@@ -4,7 +4,7 @@
  */
 import type { LeadWindow } from '../types.ts';
 import type { LeadValues } from './lead-tiers.ts';
-import { sortValid } from './percentile.ts';
+import { sortValid } from '../core/percentile.ts';
 
 export interface LeadClimate {
   /**

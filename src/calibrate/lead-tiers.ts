@@ -12,7 +12,7 @@
  * (mean, max) — common practice, no source — and for `sum` (counts of days) when any day is missing, because a
  * count with a missing day understates.
  */
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import type { IndicatorSeries, IsoDate, LeadWindow, Tier } from '../types.ts';
 
 export const MIN_VALID_FRACTION = 0.75;

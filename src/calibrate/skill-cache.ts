@@ -8,10 +8,10 @@
  */
 import { createHash } from 'node:crypto';
 import { mkdir, readFile } from 'node:fs/promises';
-import { writeFileAtomic } from '../write-atomic.ts';
+import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
-import { ForelightError } from '../errors.ts';
-import { sha256File, type ChecksumMemo } from './file-checksums.ts';
+import { ForelightError } from '../core/errors.ts';
+import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
 
 export const SKILL_CACHE_VERSION = 2;
 

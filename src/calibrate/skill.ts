@@ -15,7 +15,7 @@ import { distinctYears, leadSample, yearMembers, type LeadClimate } from './clim
 import { leadLabel } from './lead-tiers.ts';
 import { leaveOneYearOutThresholds, quantileMappedThreshold } from './thresholds.ts';
 import { exceedanceFraction } from './probability.ts';
-import { percentileLinear } from './percentile.ts';
+import { percentileLinear } from '../core/percentile.ts';
 import {
   brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, falseAlarmRatio, hitRate,
   murphyDecomposition1973, peirceSkillScore, reliabilityTable, rocArea, rocPoints, valueEnvelope,

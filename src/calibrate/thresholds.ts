@@ -3,12 +3,12 @@
  * members, starts within ±windowDays of the forecast's day of year — the caller passes the matching hindcasts),
  * a leave-one-year-out variant for verification, and absolute thresholds with empirical quantile mapping.
  */
-import { UnitError } from '../errors.ts';
+import { UnitError } from '../core/errors.ts';
 import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadWindow, Threshold } from '../types.ts';
 import { leadSample, yearMembers, yearSpan, type LeadClimate } from './climate.ts';
 import { leadLabel } from './lead-tiers.ts';
-import { percentileLinear, percentileOfSortedWithout, percentRankOfSorted, sortValid } from './percentile.ts';
+import { percentileLinear, percentileOfSortedWithout, percentRankOfSorted, sortValid } from '../core/percentile.ts';
 
 /** The region's threshold spec: its override in `regionThresholds`, else the indicator's. */
 export function resolveThresholdSpec(indicator: IndicatorConfig, region: string): ThresholdSpec {

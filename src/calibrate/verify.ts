@@ -4,7 +4,7 @@
  * (e.g. no events) is NaN, never 0.
  * Contingency convention: warn when p >= t; a = hits, b = false alarms, c = misses, d = correct negatives.
  */
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 
 type Vec = ArrayLike<number>;
 

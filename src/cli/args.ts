@@ -2,7 +2,7 @@
  * Minimal argv parser: `command [positionals] [--flag] [--key value | --key=value]`.
  * Unknown options are errors so that a typo never changes behaviour silently.
  */
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 
 export interface ParsedArgs {
   readonly command: string | undefined;

@@ -1,7 +1,7 @@
 /** What every command that runs the pipeline needs: the validated config, a logger, the issue date. */
 import { loadConfig } from '../config/load-config.ts';
 import type { Config } from '../config/types.ts';
-import { createLogger, type Logger } from '../log.ts';
+import { createLogger, type Logger } from '../core/log.ts';
 import { localDate } from '../pipeline/bulletin-run.ts';
 import type { IsoDate } from '../types.ts';
 import { stringOption, usageError, type ParsedArgs } from './args.ts';

@@ -1,10 +1,10 @@
 /**
  * `forelight` command-line entry: parses argv, dispatches to one command module, maps errors to a one-line
- * message on stderr and an exit code (see src/schedule/exit-codes.ts).
+ * message on stderr and an exit code (see src/core/exit-codes.ts).
  */
-import { describeError, ForelightError, ConfigError } from '../errors.ts';
+import { describeError, ForelightError, ConfigError } from '../core/errors.ts';
 import { parseArgs, usageError, type OptionSpec, type ParsedArgs } from './args.ts';
-import { EXIT } from '../schedule/exit-codes.ts';
+import { EXIT } from '../core/exit-codes.ts';
 
 interface CommandDef {
   readonly summary: string;

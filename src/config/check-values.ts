@@ -1,5 +1,5 @@
 /** Semantic checks on single values: e-mail addresses, cron expression, time zone, region shapes. */
-import { cronProblem, timeZoneProblem } from '../schedule/next-runs.ts';
+import { cronProblem, timeZoneProblem } from '../core/next-runs.ts';
 import { list, num, obj, text, type RawObject } from './raw-access.ts';
 import { pointerOf, problem, type ConfigProblem } from './problem.ts';
 

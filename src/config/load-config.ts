@@ -3,8 +3,8 @@
  * included files) is collected and reported at once as `file:line:column: message — fix`.
  */
 import { dirname, resolve } from 'node:path';
-import { ConfigError } from '../errors.ts';
-import { packagePath } from '../package-root.ts';
+import { ConfigError } from '../core/errors.ts';
+import { packagePath } from '../core/package-root.ts';
 import { buildConfig } from './build-config.ts';
 import { checkCombine } from './check-combine.ts';
 import { checkIndicators } from './check-indicators.ts';

@@ -5,7 +5,7 @@
 import { readFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
 import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
-import { packagePath } from '../package-root.ts';
+import { packagePath } from '../core/package-root.ts';
 import { problem, pointerOf, type ConfigProblem } from './problem.ts';
 
 export const SCHEMA_URL = pathToFileURL(packagePath('config/forelight.schema.json'));

@@ -2,7 +2,7 @@
  * StageHistory as JSON for the ledger: `JSON.stringify(history)` to store, `parseStageHistory` to read back
  * with a shape check (a corrupt or foreign record must not silently reset or invent stages).
  */
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import { EMPTY_HISTORY, type StageHistory, type StageTrack } from './types.ts';
 
 function isTrack(v: unknown): v is StageTrack {

@@ -14,14 +14,14 @@ import { hostname } from 'node:os';
 import { randomUUID } from 'node:crypto';
 import type Mail from 'nodemailer/lib/mailer/index.js';
 import type { DeliveryConfig } from '../config/types.ts';
-import { DeliveryError, describeError } from '../errors.ts';
+import { DeliveryError, describeError } from '../core/errors.ts';
 import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
 import {
   claimDelivery, dueNotices, getDelivery, listDeliveries, markDelivery, markNoticesDone, releaseClaim, toReceipt, type DeliveryRecord,
 } from '../ledger/deliveries.ts';
 import type { Ledger } from '../ledger/open-ledger.ts';
-import type { Logger } from '../log.ts';
-import { isProcessAlive } from '../schedule/process-alive.ts';
+import type { Logger } from '../core/log.ts';
+import { isProcessAlive } from '../core/process-alive.ts';
 import type { DeliveryReceipt } from '../types.ts';
 import { composeMessage, messageIdFor, renderEml } from './compose-message.ts';
 import { notifyOperators } from './operator-notice.ts';

@@ -3,8 +3,8 @@
  * when SMTP is not configured or fails, the notice goes to the outbox folder and the log instead.
  */
 import type { DeliveryConfig } from '../config/types.ts';
-import { describeError } from '../errors.ts';
-import { silentLogger, type Logger } from '../log.ts';
+import { describeError } from '../core/errors.ts';
+import { silentLogger, type Logger } from '../core/log.ts';
 import { renderEml } from './compose-message.ts';
 import { safeNamePart, writeOutboxFiles } from './outbox.ts';
 import { createSmtpTransport, type SmtpTransporter } from './smtp-transport.ts';

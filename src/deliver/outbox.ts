@@ -5,10 +5,10 @@
  */
 import type { Bulletin } from '../types.ts';
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
-import { writeFileAtomic } from '../write-atomic.ts';
+import { writeFileAtomic } from '../core/write-atomic.ts';
 import { createHash } from 'node:crypto';
 import { join, resolve, sep } from 'node:path';
-import { DeliveryError } from '../errors.ts';
+import { DeliveryError } from '../core/errors.ts';
 
 /** File-name-safe part: ASCII letters, digits, `.`, `_`, `-` only; no leading dot; at most `max` characters. */
 export function safeNamePart(value: string, max = 80): string {

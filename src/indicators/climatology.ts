@@ -6,7 +6,7 @@
  * Percentiles are numpy 'linear' (Hyndman & Fan 1996 type 7). NaN days are skipped for T95 and give NaN EHF.
  */
 import { dailyMeanTemperatureDmtC, excessHeatFactorSeries } from './excess-heat-factor-nairn-fawcett-2015.ts';
-import { percentileLinear } from './percentile.ts';
+import { percentileLinear } from '../core/percentile.ts';
 
 export interface EhfClimatology {
   readonly dmtP95C: number;

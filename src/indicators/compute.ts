@@ -4,11 +4,11 @@
  * See DECISIONS.md for the choices made where the sources leave room.
  */
 import type { IndicatorConfig } from '../config/types.ts';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import type { IndicatorSeries, IsoDate, Quantity, RegionSeries } from '../types.ts';
 import { ehfSeverityRatio, excessHeatFactorSeries } from './excess-heat-factor-nairn-fawcett-2015.ts';
 import { feelsLikeSeries } from './feels-like-series.ts';
-import { datesOfMonth } from './iso-dates.ts';
+import { datesOfMonth } from '../core/iso-dates.ts';
 import { monthlySuitability, parseMalariaParams } from './malaria-monthly.ts';
 import { checkAligned, countNaN, countOutOfRange, requireQuantity } from './series-checks.ts';
 import { heatLoadSeries, hotDaysRunSeries, runningMeanSeries } from './threshold-series.ts';
@@ -17,7 +17,7 @@ import { heatLoadSeries, hotDaysRunSeries, runningMeanSeries } from './threshold
 export { ehfClimatology, type EhfClimatology } from './climatology.ts';
 export { ehfSeverityCategory, ehfSeverityRatio, type EhfSeverity } from './excess-heat-factor-nairn-fawcett-2015.ts';
 export { monthlySuitability, parseMalariaParams, suitabilityCategory, type MalariaParams, type MonthlySuitability, type SuitabilityCategory } from './malaria-monthly.ts';
-export { dayOfYearPercentileThreshold, percentileLinear } from './percentile.ts';
+export { dayOfYearPercentileThreshold } from './percentile.ts';
 
 export type AntecedentQuantity = 'tmax' | 'tmin' | 'tmean';
 

@@ -12,7 +12,7 @@
  * RH up to 100.5 % (dewpoint slightly above the basis temperature) is clamped to 100 %; beyond → out of range.
  */
 import type { IndicatorKind } from '../config/types.ts';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import { apparentTemperatureSteadman1994C } from './apparent-temperature-steadman-1994.ts';
 import { mapElementwise2, mapElementwise3 } from './elementwise.ts';

@@ -13,9 +13,9 @@
  * (defaults are common practice, no source).
  */
 import type { IndicatorConfig } from '../config/types.ts';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import type { IsoDate } from '../types.ts';
-import { daysInMonth, addMonths, monthOf } from './iso-dates.ts';
+import { daysInMonth, addMonths, monthOf } from '../core/iso-dates.ts';
 import { relativeR0Mordecai2013 } from './relative-r0-mordecai-2013.ts';
 import { DETINOVA_1962, type PlasmodiumSpecies } from './sporogony-detinova-1962.ts';
 import { craigMonthlySuitability1999 } from './suitability-craig-1999.ts';

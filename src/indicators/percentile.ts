@@ -1,26 +1,13 @@
 /**
- * Sample percentiles for thresholds (T95 of the Excess Heat Factor, day-of-year climatological thresholds).
+ * Day-of-year climatological percentile thresholds, from the shared type-7 percentile of src/core/percentile.ts.
  * Method: linear interpolation between order statistics, Hyndman & Fan (1996) [hyndmanFan1996] definition 7,
  * identical to numpy.percentile(method='linear'), the numpy default:
  *     h = (n − 1) q/100,  Q = x_(⌊h⌋) + (h − ⌊h⌋)(x_(⌊h⌋+1) − x_(⌊h⌋))   (0-based sorted x)
  * NaN values are skipped (as numpy.nanpercentile); an empty sample gives NaN. q in 0..100.
  */
 import type { IsoDate } from '../types.ts';
-import { dayOfYearSlot } from './iso-dates.ts';
-
-/** q-th percentile (0..100) of the non-NaN values, numpy 'linear' / Hyndman-Fan type 7. */
-export function percentileLinear(values: ArrayLike<number>, q: number): number {
-  if (!(q >= 0 && q <= 100)) throw new RangeError(`percentile must be within 0..100, got ${q}`);
-  let n = 0;
-  const sorted = new Float64Array(values.length);
-  for (let i = 0; i < values.length; i++) if (!Number.isNaN(values[i])) sorted[n++] = values[i];
-  if (n === 0) return NaN;
-  const x = sorted.subarray(0, n).sort();
-  const h = ((n - 1) * q) / 100;
-  const lo = Math.floor(h);
-  const hi = Math.min(lo + 1, n - 1);
-  return x[lo] + (h - lo) * (x[hi] - x[lo]);
-}
+import { dayOfYearSlot } from '../core/iso-dates.ts';
+import { percentileLinear } from '../core/percentile.ts';
 
 /**
  * Location-specific day-of-year threshold from a daily climatology: for each calendar day, the q-th percentile

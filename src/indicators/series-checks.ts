@@ -3,7 +3,7 @@
  * quantities an indicator combines, and the flag counts of a result. Errors name region and quantity; InputError
  * carries the source file from the series provenance.
  */
-import { ForelightError, InputError, UnitError } from '../errors.ts';
+import { ForelightError, InputError, UnitError } from '../core/errors.ts';
 import { CANONICAL_UNITS, type Quantity, type RegionSeries } from '../types.ts';
 
 /** Physically possible range per quantity (canonical units), used to catch wrong units or scaling. */

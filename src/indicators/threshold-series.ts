@@ -7,7 +7,7 @@
  * run starts counting at lead day 1.
  */
 import type { IsoDate } from '../types.ts';
-import { addDays } from './iso-dates.ts';
+import { addDays } from '../core/iso-dates.ts';
 
 export interface DailySeries {
   readonly days: readonly IsoDate[];

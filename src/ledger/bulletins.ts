@@ -3,7 +3,7 @@
  * recipient. Storing is idempotent per run × bulletin id: a resumed run keeps what it rendered first.
  */
 import { createHash } from 'node:crypto';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import type { Bulletin } from '../types.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
 

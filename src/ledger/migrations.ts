@@ -3,7 +3,7 @@
  * never edit a released entry, append a new one. Version N of the ledger = MIGRATIONS.length applied.
  */
 import type Database from 'better-sqlite3';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 
 export const MIGRATIONS: readonly string[] = [
   `

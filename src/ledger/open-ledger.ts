@@ -4,7 +4,7 @@
  */
 import Database from 'better-sqlite3';
 import { hostname } from 'node:os';
-import { ForelightError, describeError } from '../errors.ts';
+import { ForelightError, describeError } from '../core/errors.ts';
 import { applyMigrations } from './migrations.ts';
 
 export interface Ledger {

@@ -3,7 +3,7 @@
  * decide stage carries from run to run, and the CAP alert identifiers issued (for CAP `references`).
  */
 import type { LeadProbability, StageDecision, Tier } from '../types.ts';
-import { ForelightError, describeError } from '../errors.ts';
+import { ForelightError, describeError } from '../core/errors.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
 
 /** Runs whose results count as issued advice. */

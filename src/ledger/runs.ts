@@ -3,9 +3,9 @@
  * A key is issued once; a second start for the same key resumes an unfinished run or does nothing, unless forced.
  */
 import { stat } from 'node:fs/promises';
-import { ForelightError } from '../errors.ts';
-import { sha256File } from '../calibrate/file-checksums.ts';
-import { isProcessAlive } from '../schedule/process-alive.ts';
+import { ForelightError } from '../core/errors.ts';
+import { sha256File } from '../core/file-checksums.ts';
+import { isProcessAlive } from '../core/process-alive.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
 
 export type RunStatus = 'running' | 'ok' | 'partial' | 'nothing-new' | 'failed' | 'abandoned';

@@ -4,10 +4,10 @@
  * `skill`, so what they show is exactly what a run would issue.
  */
 import type { Config } from '../config/types.ts';
-import { openChecksumMemo, type ChecksumMemo } from '../calibrate/file-checksums.ts';
+import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineSources } from '../calibrate/lead-tiers.ts';
-import { describeError, type ForelightError } from '../errors.ts';
-import type { Logger } from '../log.ts';
+import { describeError, type ForelightError } from '../core/errors.ts';
+import type { Logger } from '../core/log.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { regionClimatology } from './indicator-context.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';

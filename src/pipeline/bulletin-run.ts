@@ -7,7 +7,7 @@ import type { RegionStageLike } from '../decide/diff.ts';
 import { combineRegionStages } from '../decide/decide-stages.ts';
 import { stageRank, type RegionStage } from '../decide/types.ts';
 import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
-import { computeNextRuns } from '../schedule/next-runs.ts';
+import { computeNextRuns } from '../core/next-runs.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
 import { changeReason } from './change-reason.ts';
 import type { SourceRead } from './read-stage.ts';

@@ -9,7 +9,7 @@ import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
 import { observedCases, potentialCases, skillReports, type SkillReport } from '../calibrate/skill.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
 import { bestProbabilityThreshold } from '../calibrate/verify.ts';
-import { describeError } from '../errors.ts';
+import { describeError } from '../core/errors.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
 import type { IndicatorSeries } from '../types.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';

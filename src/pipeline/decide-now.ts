@@ -10,7 +10,7 @@ import type { RegionStageLike } from '../decide/diff.ts';
 import { tunedKey, type StageHistory } from '../decide/types.ts';
 import { openLedger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
-import type { Logger } from '../log.ts';
+import type { Logger } from '../core/log.ts';
 import type { IsoDate } from '../types.ts';
 import { analyse, type Analysis } from './analyse.ts';
 import { issuedRegionStages } from './bulletin-run.ts';

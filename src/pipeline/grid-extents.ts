@@ -6,7 +6,7 @@ import { readdirSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import type { GridExtent } from '../config/check-grids.ts';
 import type { Config } from '../config/types.ts';
-import { describeError } from '../errors.ts';
+import { describeError } from '../core/errors.ts';
 import { findCoordinates } from '../read/coordinates.ts';
 import { withDataset } from '../read/open-dataset.ts';
 

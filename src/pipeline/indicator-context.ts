@@ -5,7 +5,7 @@
  * climatology (EHF, hot-day counts without params.dayThresholdC) stop with an error naming what to configure.
  */
 import { dayOfYearPercentileThreshold, ehfClimatology, type IndicatorClimatology, type IndicatorContext } from '../indicators/compute.ts';
-import { addDays } from '../indicators/iso-dates.ts';
+import { addDays } from '../core/iso-dates.ts';
 import type { IsoDate, Quantity, RegionSeries } from '../types.ts';
 
 const ANTECEDENT_DAYS = 30;

@@ -3,8 +3,8 @@
  * every issued run's archive entry (each kept as `<archive>/<runId>/entry.json`).
  */
 import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
-import { ForelightError } from '../errors.ts';
-import { writeFileAtomic } from '../write-atomic.ts';
+import { ForelightError } from '../core/errors.ts';
+import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import type { Config } from '../config/types.ts';
 import type { ArchiveEntry } from '../render/archive.ts';

@@ -3,7 +3,7 @@
  * fails is reported (with its path) and the others go on; the run states what it skipped and why.
  */
 import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
-import { ForelightError, InputError } from '../errors.ts';
+import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries } from '../read/extract.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';

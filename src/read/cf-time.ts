@@ -7,7 +7,7 @@
  * Richards, E.G. (2013), "Calendars", Explanatory Supplement to the Astronomical Almanac, 3rd ed., §15.11
  * (Julian Day Number from/to Julian and Gregorian dates).
  */
-import { UnitError } from '../errors.ts';
+import { UnitError } from '../core/errors.ts';
 
 export type CfCalendar = 'standard' | 'proleptic_gregorian' | 'julian' | 'noleap' | 'all_leap' | '360_day';
 

@@ -5,7 +5,7 @@
  */
 import { readSync } from 'node:fs';
 import type { FileHandle } from 'node:fs/promises';
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 import { variableNotFound, type Dataset, type DatasetFormat, type DimensionInfo, type VariableInfo } from './dataset.ts';
 import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, decodeBigEndian, parseClassicHeader } from './classic-header.ts';
 import { PositionPicker } from './classic-pick.ts';

@@ -3,7 +3,7 @@
  * The innermost dimensions that are selected whole (and stored back to back) form one contiguous
  * block; nearby blocks are merged into one span so that, e.g., a 10×10 box from a wide grid is one read.
  */
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 import type { VariableInfo } from './dataset.ts';
 
 /** Blocks closer than this many bytes are read together (reading the gap is cheaper than a syscall). */

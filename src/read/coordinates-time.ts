@@ -4,7 +4,7 @@
  * components (so a 360_day or noleap date keeps its printed day); lead times (CF §4.4 forecast_period) are
  * plain durations.
  */
-import { InputError, UnitError } from '../errors.ts';
+import { InputError, UnitError } from '../core/errors.ts';
 import { decodeTimes } from './cf-time.ts';
 
 const UNIT_MS: Readonly<Record<string, number>> = {

@@ -5,7 +5,7 @@
  * forecast_period; §7.1 cell boundaries through the `bounds` attribute; §7.3 `cell_methods`).
  * Names (`lat`, `step`, `number`, …) are only a last resort.
  */
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { decodeTimesToMs, durationUnitMs } from './coordinates-time.ts';
 import { decodeCf } from './cf-decode.ts';

@@ -2,7 +2,7 @@
  * The one interface every NetCDF flavour is read through (classic CDF-1, 64-bit offset CDF-2, CDF-5,
  * NetCDF-4/HDF5). Implementations read only the requested hyperslab, never a whole large variable.
  */
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 
 export type AttributeValue = string | number | readonly number[];
 

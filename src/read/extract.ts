@@ -5,7 +5,7 @@
  * requested one is refused as a whole.
  */
 import type { RegionConfig } from '../config/types.ts';
-import { ForelightError, InputError } from '../errors.ts';
+import { ForelightError, InputError } from '../core/errors.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import { findCoordinates, layoutVariable, type FileCoordinates } from './coordinates.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';

@@ -7,7 +7,7 @@
 import { createRequire } from 'node:module';
 import { resolve } from 'node:path';
 import type { Dataset as H5Dataset, File as H5File } from 'h5wasm/node';
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 import { variableNotFound, type AttributeValue, type Dataset, type DimensionInfo, type StorageType, type VariableInfo } from './dataset.ts';
 import { validateSelection } from './classic-hyperslab.ts';
 import { checkHdf5Filters } from './hdf5-filters.ts';

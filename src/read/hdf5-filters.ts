@@ -4,7 +4,7 @@
  * without plugins (zlib and szip/libaec are compiled in; shuffle, fletcher32, nbit, scaleoffset are
  * HDF5 built-ins).
  */
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 
 export interface Hdf5Filter {
   readonly id: number;

@@ -9,8 +9,8 @@
 import { availableParallelism } from 'node:os';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import { ForelightError } from '../errors.ts';
-import { packagePath } from '../package-root.ts';
+import { ForelightError } from '../core/errors.ts';
+import { packagePath } from '../core/package-root.ts';
 import { packageExportPath } from './hdf5-package.ts';
 import type { SlabErrorKind } from './hdf5-slab.mjs';
 

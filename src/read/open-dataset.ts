@@ -4,7 +4,7 @@
  * Group, "HDF5 File Format Specification" (superblock signature \x89HDF\r\n\x1a\n at offset 0).
  */
 import { open } from 'node:fs/promises';
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 import type { Dataset } from './dataset.ts';
 import { openClassicDataset } from './classic-dataset.ts';
 import { openHdf5Dataset } from './hdf5-dataset.ts';

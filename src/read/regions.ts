@@ -13,7 +13,7 @@
  * half a spacing beyond the outermost centres, latitude clamped to ±90°). On an evenly spaced grid this is
  * exactly proportional to cos(latitude).
  */
-import { InputError } from '../errors.ts';
+import { InputError } from '../core/errors.ts';
 import type { RegionConfig, RegionShape } from '../config/types.ts';
 import type { LatLonGrid } from './coordinates.ts';
 

@@ -6,7 +6,7 @@
  * Definitions: CF Conventions 1.x and UDUNITS-2 unit strings; temperature T[degC] = T[K] - 273.15,
  * T[degF] = 1.8 T[degC] + 32 (SI definitions); 1 kg m-2 of liquid water = 1 mm; 1 knot = 1852 m / 3600 s.
  */
-import { UnitError } from '../errors.ts';
+import { UnitError } from '../core/errors.ts';
 import { CANONICAL_UNITS, type Quantity } from '../types.ts';
 
 export const KELVIN_AT_ZERO_CELSIUS = 273.15;

@@ -5,7 +5,7 @@
  */
 import type { Bulletin, Tier } from '../types.ts';
 import type { Config, TeamConfig } from '../config/types.ts';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import type { ArchiveEntry } from './archive.ts';
 import { buildCapAlerts } from './cap.ts';
 import { buildChartSpecs, chartWidth, renderChartPng, renderChartSvg, type ChartSpec, type ChartWords } from './charts.ts';

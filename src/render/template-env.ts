@@ -9,8 +9,8 @@
  */
 import { existsSync } from 'node:fs';
 import nunjucks from 'nunjucks';
-import { packagePath } from '../package-root.ts';
-import { ForelightError } from '../errors.ts';
+import { packagePath } from '../core/package-root.ts';
+import { ForelightError } from '../core/errors.ts';
 
 /** Absolute path of the shipped templates. */
 export const SHIPPED_TEMPLATES = `${packagePath('templates')}/`;

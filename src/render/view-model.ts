@@ -5,7 +5,7 @@
  */
 import type { LeadProbability, Tier } from '../types.ts';
 import type { Config, StageConfig } from '../config/types.ts';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from '../core/errors.ts';
 import { formatDayRange, formatNumber, formatPercent } from './locale-format.ts';
 import type { RegionOutcome, TierOutcome } from './model.ts';
 

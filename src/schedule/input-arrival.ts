@@ -3,7 +3,7 @@
  * is late. Source path patterns use `{date}` = YYYYMMDD of the forecast reference date (SourceConfig.forecast).
  */
 import { statSync } from 'node:fs';
-import { addDays } from '../indicators/iso-dates.ts';
+import { addDays } from '../core/iso-dates.ts';
 import type { IsoDate } from '../types.ts';
 
 /** Pattern with `{date}` replaced by the compact date of `date` (YYYY-MM-DD). */

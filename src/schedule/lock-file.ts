@@ -6,8 +6,8 @@
  */
 import { openSync, readFileSync, renameSync, rmSync, writeSync, closeSync } from 'node:fs';
 import { hostname } from 'node:os';
-import { ForelightError } from '../errors.ts';
-import { isProcessAlive } from './process-alive.ts';
+import { ForelightError } from '../core/errors.ts';
+import { isProcessAlive } from '../core/process-alive.ts';
 
 export interface LockInfo {
   readonly pid: number;

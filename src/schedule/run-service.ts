@@ -10,13 +10,13 @@
  */
 import cron from 'node-cron';
 import type { Config } from '../config/types.ts';
-import { describeError } from '../errors.ts';
+import { describeError } from '../core/errors.ts';
 import { openLedger } from '../ledger/open-ledger.ts';
 import { lastCompletedRun } from '../ledger/runs.ts';
-import type { Logger } from '../log.ts';
-import { EXIT, type ExitCode } from './exit-codes.ts';
+import type { Logger } from '../core/log.ts';
+import { EXIT, type ExitCode } from '../core/exit-codes.ts';
 import { acquireLock } from './lock-file.ts';
-import { checkTimeZone, computeNextRuns, parseCronFields } from './next-runs.ts';
+import { checkTimeZone, computeNextRuns, parseCronFields } from '../core/next-runs.ts';
 import { makeRunReport, nextStatus, readStatus, writeStatus, type RunReport } from './status-file.ts';
 
 export interface RunContext {

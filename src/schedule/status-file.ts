@@ -1,8 +1,8 @@
 /** The service status file read by `forelight status`: last run, its result, the next run, failures. */
 import { readFileSync } from 'node:fs';
-import { writeFileAtomic } from '../write-atomic.ts';
-import { ForelightError, describeError } from '../errors.ts';
-import { exitCodeName } from './exit-codes.ts';
+import { writeFileAtomic } from '../core/write-atomic.ts';
+import { ForelightError, describeError } from '../core/errors.ts';
+import { exitCodeName } from '../core/exit-codes.ts';
 
 export interface RunReport {
   readonly reason: 'scheduled' | 'catch-up' | 'manual';

@@ -5,7 +5,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { exceedanceFraction } from '../../src/calibrate/probability.ts';
-import { percentileLinear } from '../../src/calibrate/percentile.ts';
+import { percentileLinear } from '../../src/core/percentile.ts';
 import {
   brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, falseAlarmRatio, hitRate,
   murphyDecomposition1973, peirceSkillScore, relativeEconomicValueRichardson2000, rocArea,

@@ -5,7 +5,7 @@
 import { execFileSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { percentileLinear } from '../../src/calibrate/percentile.ts';
+import { percentileLinear } from '../../src/core/percentile.ts';
 import {
   brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, hitRate,
   relativeEconomicValueRichardson2000, rocArea,

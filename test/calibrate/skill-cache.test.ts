@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cachedSkill, fingerprint, hashFiles, skillCacheKey } from '../../src/calibrate/skill-cache.ts';
-import { openChecksumMemo } from '../../src/calibrate/file-checksums.ts';
+import { openChecksumMemo } from '../../src/core/file-checksums.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'forelight-calib-'));
 const a = join(dir, 'hc_2006.nc');

@@ -1,7 +1,7 @@
 /** Model-climate thresholds, leave-one-year-out, quantile mapping (numpy-equivalent type-7 percentile, tested in reference-python.test.ts). */
 import { describe, expect, it } from 'vitest';
 import { distinctYears, leadSample, stackYears, startsWithinWindow } from '../../src/calibrate/climate.ts';
-import { percentileLinear, percentRankOfSorted, percentileOfSortedWithout, sortValid } from '../../src/calibrate/percentile.ts';
+import { percentileLinear, percentRankOfSorted, percentileOfSortedWithout, sortValid } from '../../src/core/percentile.ts';
 import {
   absoluteThreshold, climatePercentileThreshold, leaveOneYearOutThresholds, ordinal, quantileMappedThreshold,
   quantileMappedThresholdObject, resolveThresholdSpec,

@@ -1,6 +1,6 @@
 /**
  * The `forelight` command as a user runs it (a real child process): help, `extract --json` on a file written by
- * netCDF-C's ncgen, one-line errors with the documented exit codes (src/schedule/exit-codes.ts).
+ * netCDF-C's ncgen, one-line errors with the documented exit codes (src/core/exit-codes.ts).
  */
 import { spawnSync } from 'node:child_process';
 import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { extractBoxJson } from '../../src/read/extract.ts';
-import { EXIT } from '../../src/schedule/exit-codes.ts';
+import { EXIT } from '../../src/core/exit-codes.ts';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const GRID = join(ROOT, 'test/fixtures/regions/grid360.nc');

@@ -8,8 +8,8 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { generateSample } from '../../sample-inputs/generate.ts';
-import { EXIT } from '../../src/schedule/exit-codes.ts';
+import { generateSample } from '../../src/sample/generate.ts';
+import { EXIT } from '../../src/core/exit-codes.ts';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const DATE = ['--date', '2026-11-26'];

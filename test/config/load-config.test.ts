@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
-import { ConfigError } from '../../src/errors.ts';
+import { ConfigError } from '../../src/core/errors.ts';
 import { checkConfigFile, DEFAULT_CONFIG_PATH, loadConfig } from '../../src/config/load-config.ts';
 import { MAX_CONFIG_BYTES } from '../../src/config/read-yaml.ts';
 import { displayPath } from '../../src/config/source-map.ts';

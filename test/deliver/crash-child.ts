@@ -5,7 +5,7 @@
  */
 import { writeFileSync } from 'node:fs';
 import { openLedger } from '../../src/ledger/open-ledger.ts';
-import { silentLogger } from '../../src/log.ts';
+import { silentLogger } from '../../src/core/log.ts';
 import { deliveryConfig, issueForecast, sampleBulletins } from './fixtures.ts';
 
 const env = process.env;

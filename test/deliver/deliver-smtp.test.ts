@@ -11,7 +11,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { deliverPending } from '../../src/deliver/deliver-pending.ts';
 import { listDeliveries, pendingDeliveries } from '../../src/ledger/deliveries.ts';
 import { openLedger, type Ledger } from '../../src/ledger/open-ledger.ts';
-import { silentLogger } from '../../src/log.ts';
+import { silentLogger } from '../../src/core/log.ts';
 import {
   ADDR, PNG_1X1, deliveryConfig, issueForecast, refusedPort, sampleBulletins, smtpError, startSilentServer, startSmtp, tempDir,
   type SmtpFixture,

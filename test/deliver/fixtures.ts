@@ -13,8 +13,8 @@ import { recordBulletins, hasBulletins } from '../../src/ledger/bulletins.ts';
 import { deliveryCounts } from '../../src/ledger/deliveries.ts';
 import type { Ledger } from '../../src/ledger/open-ledger.ts';
 import { beginRun, finishRun } from '../../src/ledger/runs.ts';
-import type { Logger } from '../../src/log.ts';
-import { EXIT, exitCodeForDeliveries } from '../../src/schedule/exit-codes.ts';
+import type { Logger } from '../../src/core/log.ts';
+import { EXIT, exitCodeForDeliveries } from '../../src/core/exit-codes.ts';
 import type { Bulletin } from '../../src/types.ts';
 
 export const tempDir = (prefix: string) => mkdtempSync(join(tmpdir(), `forelight-${prefix}-`));

@@ -14,7 +14,7 @@ import { recordBulletins } from '../../src/ledger/bulletins.ts';
 import { listDeliveries, pendingDeliveries } from '../../src/ledger/deliveries.ts';
 import { openLedger, type Ledger } from '../../src/ledger/open-ledger.ts';
 import { beginRun } from '../../src/ledger/runs.ts';
-import { silentLogger } from '../../src/log.ts';
+import { silentLogger } from '../../src/core/log.ts';
 import { ADDR, deliveryConfig, sampleBulletin, sampleBulletins, smtpError, startSmtp, tempDir } from './fixtures.ts';
 
 const ledgers: Ledger[] = [];

@@ -1,6 +1,6 @@
 /** Bad input: NaN members propagate with counts; impossible values are rejected naming region and quantity. */
 import { describe, expect, it } from 'vitest';
-import { ForelightError, InputError, UnitError } from '../../src/errors.ts';
+import { ForelightError, InputError, UnitError } from '../../src/core/errors.ts';
 import { computeIndicator } from '../../src/indicators/compute.ts';
 import { dayList, indicator, inputsOf, regionSeries } from './fixtures.ts';
 

@@ -9,7 +9,7 @@ import { ehfSeverityRatio, excessHeatFactorFromDmt, excessHeatFactorSeries } fro
 import { heatIndexBranchNws, heatIndexRothfusz1990C, heatIndexRothfusz1990CArray, heatIndexRothfusz1990F, type HeatIndexBranch } from '../../src/indicators/heat-index-rothfusz-1990.ts';
 import { humidexMastertonRichardson1979, humidexMastertonRichardson1979Array } from '../../src/indicators/humidex-masterton-richardson-1979.ts';
 import { MAGNUS_ALDUCHOV_ESKRIDGE_1996, MAGNUS_BOLTON_1980, MAGNUS_BOM, rhFromDewpointMagnusPct, rhFromDewpointMagnusPctArray, type MagnusCoefficients } from '../../src/indicators/magnus-humidity.ts';
-import { percentileLinear } from '../../src/indicators/percentile.ts';
+import { percentileLinear } from '../../src/core/percentile.ts';
 import { r0ProfileMordecai2013, relativeR0Mordecai2013 } from '../../src/indicators/relative-r0-mordecai-2013.ts';
 import { DETINOVA_1962, sporogonyDurationDetinova1962Days, sporogonyRateDetinova1962PerDay, type PlasmodiumSpecies } from '../../src/indicators/sporogony-detinova-1962.ts';
 import { craigMonthlySuitability1999, craigRainfallMembership1999, craigTemperatureMembership1999 } from '../../src/indicators/suitability-craig-1999.ts';

@@ -1,7 +1,7 @@
 /** Builders for indicator tests: invented Veloria region series and indicator configs (no real data). */
 import type { IndicatorConfig, IndicatorKind } from '../../src/config/types.ts';
 import { CANONICAL_UNITS, type IsoDate, type Quantity, type RegionSeries } from '../../src/types.ts';
-import { addDays } from '../../src/indicators/iso-dates.ts';
+import { addDays } from '../../src/core/iso-dates.ts';
 
 export function dayList(first: IsoDate, n: number): IsoDate[] {
   return Array.from({ length: n }, (_, i) => addDays(first, i));

@@ -11,8 +11,8 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ehfClimatology } from '../../src/indicators/climatology.ts';
 import { computeIndicator, type IndicatorContext } from '../../src/indicators/compute.ts';
-import { addDays, dayOfYearSlot } from '../../src/indicators/iso-dates.ts';
-import { percentileLinear } from '../../src/indicators/percentile.ts';
+import { addDays, dayOfYearSlot } from '../../src/core/iso-dates.ts';
+import { percentileLinear } from '../../src/core/percentile.ts';
 import { dayList, indicator, inputsOf, regionSeries, rng } from './fixtures.ts';
 
 const MEMBERS = 6;

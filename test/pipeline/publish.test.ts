@@ -3,7 +3,7 @@ import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { ForelightError } from '../../src/errors.ts';
+import { ForelightError } from '../../src/core/errors.ts';
 import { readArchiveEntries } from '../../src/pipeline/publish.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'forelight-archive-'));

@@ -13,10 +13,10 @@ import { simpleParser } from 'mailparser';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
-import { silentLogger } from '../../src/log.ts';
+import { silentLogger } from '../../src/core/log.ts';
 import { runOnce } from '../../src/pipeline/run-once.ts';
-import { EXIT } from '../../src/schedule/exit-codes.ts';
-import { generateSample } from '../../sample-inputs/generate.ts';
+import { EXIT } from '../../src/core/exit-codes.ts';
+import { generateSample } from '../../src/sample/generate.ts';
 
 const SCHEMA = fileURLToPath(new URL('../reference/CAP-v1.2.xsd', import.meta.url));
 const ISSUES = ['2026-11-23', '2026-11-26', '2026-11-30'];

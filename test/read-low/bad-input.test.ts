@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
-import { InputError } from '../../src/errors.ts';
+import { InputError } from '../../src/core/errors.ts';
 import { checkHdf5Filters } from '../../src/read/hdf5-filters.ts';
 import { openDataset } from '../../src/read/open-dataset.ts';
 

@@ -5,7 +5,7 @@
 import { execFileSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { UnitError } from '../../src/errors.ts';
+import { UnitError } from '../../src/core/errors.ts';
 import { decodeTimes } from '../../src/read/cf-time.ts';
 
 const script = fileURLToPath(new URL('./cftime-reference.py', import.meta.url));

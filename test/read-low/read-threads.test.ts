@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
-import { ForelightError, InputError } from '../../src/errors.ts';
+import { ForelightError, InputError } from '../../src/core/errors.ts';
 import { Hdf5SlicePool, SliceError, readThreads } from '../../src/read/hdf5-slice-pool.ts';
 import { openDataset } from '../../src/read/open-dataset.ts';
 import { ncdumpValues } from './ncdump-reference.ts';

@@ -1,6 +1,6 @@
 /** Coordinate discovery by CF attributes (CF Conventions 1.x §4, §4.4, §7.1, §7.3). */
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../src/errors.ts';
+import { InputError } from '../../src/core/errors.ts';
 import { findCoordinates, layoutVariable, parseCellMethods, timeCellMethod } from '../../src/read/coordinates.ts';
 import { makeFakeDataset } from './fake-dataset.ts';
 import { makeFakeForecast } from './fake-forecast.ts';

@@ -6,7 +6,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import type { RegionConfig, RegionShape } from '../../src/config/types.ts';
-import { InputError, UnitError } from '../../src/errors.ts';
+import { InputError, UnitError } from '../../src/core/errors.ts';
 import { findCoordinates, layoutVariable } from '../../src/read/coordinates.ts';
 import { extractBoxFromDataset, extractFromDataset, extractRegionSeries } from '../../src/read/extract.ts';
 import { planTime } from '../../src/read/extract-plan.ts';

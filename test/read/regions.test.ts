@@ -1,7 +1,7 @@
 /** Region cell selection and weights. Region shapes are the sample world's (common brief). */
 import { describe, expect, it } from 'vitest';
 import type { RegionConfig, RegionShape } from '../../src/config/types.ts';
-import { InputError } from '../../src/errors.ts';
+import { InputError } from '../../src/core/errors.ts';
 import type { LatLonGrid } from '../../src/read/coordinates.ts';
 import { planBand } from '../../src/read/regions-band.ts';
 import { cellAreaFactors, pointInRing, selectRegionCells } from '../../src/read/regions.ts';

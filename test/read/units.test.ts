@@ -2,7 +2,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { UnitError } from '../../src/errors.ts';
+import { UnitError } from '../../src/core/errors.ts';
 import {
   convertInPlace, kelvinToCelsius, kelvinToFahrenheit, normaliseUnits, planUnits, precipMmPerDayFromAccumulationM,
   precipMmPerDayFromFluxKgM2S, precipMmPerDayFromRateMPerS, precipMmPerMonthFromMeanRate,

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { Bulletin } from '../../src/types.ts';
-import { ForelightError } from '../../src/errors.ts';
+import { ForelightError } from '../../src/core/errors.ts';
 import { renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';

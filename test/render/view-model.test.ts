@@ -1,6 +1,6 @@
 // Wording helpers: probability words, stage views, contrast of badge text, header/XML escaping.
 import { describe, expect, it } from 'vitest';
-import { ForelightError } from '../../src/errors.ts';
+import { ForelightError } from '../../src/core/errors.ts';
 import { escapeXml, toHeaderText, toXmlChars } from '../../src/render/safe-text.ts';
 import { formatThreshold, inkFor, probabilityWord, toStageView } from '../../src/render/view-model.ts';
 import { sampleConfig, sampleStages } from './fixtures/sample-config.ts';

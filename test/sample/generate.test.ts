@@ -7,7 +7,7 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { generateSample, type SampleSummary } from '../../sample-inputs/generate.ts';
+import { generateSample, type SampleSummary } from '../../src/sample/generate.ts';
 
 const YEARS = [2016, 2017, 2018, 2019, 2020, 2021, 2022, 2023, 2024, 2025];
 const dirA = mkdtempSync(join(tmpdir(), 'forelight-sample-a-'));

@@ -6,7 +6,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { openDataset } from '../../src/read/open-dataset.ts';
-import { createNetcdfClassic, type NcFileSpec, type NcFormat } from '../../sample-inputs/lib/netcdf-classic-writer.ts';
+import { createNetcdfClassic, type NcFileSpec, type NcFormat } from '../../src/sample/netcdf-classic-writer.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'forelight-writer-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

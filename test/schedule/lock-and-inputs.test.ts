@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { acquireLock } from '../../src/schedule/lock-file.ts';
 import { forecastPath, resolveLatestInputs, waitForInputs } from '../../src/schedule/input-arrival.ts';
 import { makeRunReport, nextStatus, readStatus, writeStatus } from '../../src/schedule/status-file.ts';
-import { EXIT, exitCodeForDeliveries } from '../../src/schedule/exit-codes.ts';
+import { EXIT, exitCodeForDeliveries } from '../../src/core/exit-codes.ts';
 import { tempDir } from '../deliver/fixtures.ts';
 
 /** Pid of a process that has exited (a real child, reaped). */

@@ -7,7 +7,7 @@
 import cron from 'node-cron';
 import { describe, expect, it } from 'vitest';
 import { checkValues } from '../../src/config/check-values.ts';
-import { computeNextRuns, wallTimeToInstant } from '../../src/schedule/next-runs.ts';
+import { computeNextRuns, wallTimeToInstant } from '../../src/core/next-runs.ts';
 
 const local = (d: Date, tz: string) => d.toLocaleString('sv-SE', { timeZone: tz });
 const localDay = (d: Date, tz: string) => local(d, tz).slice(0, 10);

@@ -3,8 +3,8 @@
  * 400 ms. The parent sends SIGTERM during a run; the run must finish and the status file be written.
  */
 import { appendFileSync } from 'node:fs';
-import { createLogger } from '../../src/log.ts';
-import { EXIT } from '../../src/schedule/exit-codes.ts';
+import { createLogger } from '../../src/core/log.ts';
+import { EXIT } from '../../src/core/exit-codes.ts';
 import { runService } from '../../src/schedule/run-service.ts';
 
 const env = process.env;

@@ -3,7 +3,7 @@ import { backtestRules, formatBacktest } from '../../decide/backtest.ts';
 import { analyse } from '../../pipeline/analyse.ts';
 import { backtestCases } from '../../pipeline/backtest-cases.ts';
 import { tunedThresholds } from '../../pipeline/decide-now.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
+import { EXIT } from '../../core/exit-codes.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
 import { progressBar } from '../progress.ts';

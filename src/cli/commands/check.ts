@@ -6,7 +6,7 @@
 import { checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
 import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
+import { EXIT } from '../../core/exit-codes.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 
 export async function checkCommand(args: ParsedArgs): Promise<number> {

@@ -6,11 +6,11 @@
 import { existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { loadConfig } from '../../config/load-config.ts';
-import { createLogger } from '../../log.ts';
-import { packagePath } from '../../package-root.ts';
+import { createLogger } from '../../core/log.ts';
+import { packagePath } from '../../core/package-root.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
-import { generateSample } from '../../../sample-inputs/generate.ts';
+import { EXIT } from '../../core/exit-codes.ts';
+import { generateSample } from '../../sample/generate.ts';
 import type { ParsedArgs } from '../args.ts';
 
 /** The three sample issue dates (Mon, Thu, Mon), see sample-inputs/README.md. */

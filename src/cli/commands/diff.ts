@@ -1,7 +1,7 @@
 /** `forelight diff` (also `run --dry-run`): which region stages would change against the last issued bulletin; nothing is written or sent. */
 import { diffStages } from '../../decide/diff.ts';
 import { decideNow } from '../../pipeline/decide-now.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
+import { EXIT } from '../../core/exit-codes.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
 import { progressBar } from '../progress.ts';

@@ -4,7 +4,7 @@
  */
 import { extractBoxJson } from '../../read/extract.ts';
 import type { DailyMethod } from '../../read/daily.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
+import { EXIT } from '../../core/exit-codes.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
 
 const DAILY: readonly DailyMethod[] = ['max', 'min', 'mean', 'sum'];

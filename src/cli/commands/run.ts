@@ -1,12 +1,12 @@
 /** `forelight run`: one pass now over the newest inputs (or `--dry-run`: what would change, nothing sent). */
 import { runOnce } from '../../pipeline/run-once.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
+import { EXIT } from '../../core/exit-codes.ts';
 import { acquireLock } from '../../schedule/lock-file.ts';
 import { servicePaths } from '../../schedule/run-service.ts';
-import { computeNextRuns } from '../../schedule/next-runs.ts';
+import { computeNextRuns } from '../../core/next-runs.ts';
 import { makeRunReport, nextStatus, readStatus, writeStatus, type RunReport } from '../../schedule/status-file.ts';
 import type { Config } from '../../config/types.ts';
-import { describeError } from '../../errors.ts';
+import { describeError } from '../../core/errors.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
 import { diffCommand } from './diff.ts';

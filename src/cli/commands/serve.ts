@@ -4,10 +4,10 @@
  * forecast with "based on the forecast of <date>" wording, and nothing new means a notice to the operators.
  */
 import { loadConfig } from '../../config/load-config.ts';
-import { createLogger } from '../../log.ts';
+import { createLogger } from '../../core/log.ts';
 import { localDate } from '../../pipeline/bulletin-run.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
+import { EXIT } from '../../core/exit-codes.ts';
 import { forecastPath, waitForInputs } from '../../schedule/input-arrival.ts';
 import { runService } from '../../schedule/run-service.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';

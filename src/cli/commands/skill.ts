@@ -6,7 +6,7 @@
 import { skillDetailRows, formatSkillDetail } from '../../calibrate/skill-detail.ts';
 import { formatSkillTable, skillRow } from '../../calibrate/skill-table.ts';
 import { analyse } from '../../pipeline/analyse.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
+import { EXIT } from '../../core/exit-codes.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
 import { progressBar } from '../progress.ts';

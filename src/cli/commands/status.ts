@@ -4,8 +4,8 @@ import { loadConfig } from '../../config/load-config.ts';
 import { listDeliveries } from '../../ledger/deliveries.ts';
 import { openLedger } from '../../ledger/open-ledger.ts';
 import { lastCompletedRun } from '../../ledger/runs.ts';
-import { EXIT } from '../../schedule/exit-codes.ts';
-import { computeNextRuns } from '../../schedule/next-runs.ts';
+import { EXIT } from '../../core/exit-codes.ts';
+import { computeNextRuns } from '../../core/next-runs.ts';
 import { readStatus } from '../../schedule/status-file.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 

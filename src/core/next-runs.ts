@@ -7,7 +7,7 @@
  * (node-cron itself skips a job whose time falls in the gap; the service uses this computation as the truth.)
  */
 import cron, { type ParsedFields } from 'node-cron';
-import { ConfigError } from '../errors.ts';
+import { ConfigError } from './errors.ts';
 
 const formatters = new Map<string, Intl.DateTimeFormat>();
 

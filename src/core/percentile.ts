@@ -1,6 +1,6 @@
 /**
- * Percentile helpers of the calibrate stage around the shared percentile of src/indicators/percentile.ts
- * (`percentileLinear`, re-exported): linear interpolation between order statistics, Hyndman & Fan (1996),
+ * Sample percentiles (EHF's T95, day-of-year thresholds, model-climate thresholds, quantile mapping): linear
+ * interpolation between order statistics, Hyndman & Fan (1996),
  * "Sample quantiles in statistical packages", The American Statistician 50:361-365, definition 7 — numpy's
  * default (`numpy.percentile(x, q, method='linear')`). For n sorted values x(0..n-1) and q in [0, 100]:
  *
@@ -9,9 +9,19 @@
  * NaN values are skipped (as `numpy.nanpercentile`); no valid value gives NaN. Here: the inverse (percent rank,
  * for quantile mapping) and a leave-some-out variant that avoids re-sorting.
  */
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from './errors.ts';
 
-export { percentileLinear } from '../indicators/percentile.ts';
+/** q-th percentile (0..100) of the non-NaN values, numpy 'linear' / Hyndman-Fan type 7. */
+export function percentileLinear(values: ArrayLike<number>, q: number): number {
+  if (!(q >= 0 && q <= 100)) throw new RangeError(`percentile must be within 0..100, got ${q}`);
+  const x = sortValid(values);
+  const n = x.length;
+  if (n === 0) return NaN;
+  const h = ((n - 1) * q) / 100;
+  const lo = Math.floor(h);
+  const hi = Math.min(lo + 1, n - 1);
+  return x[lo] + (h - lo) * (x[hi] - x[lo]);
+}
 
 function checkPercent(q: number): void {
   if (!(q >= 0 && q <= 100)) {

@@ -6,9 +6,9 @@
 import { createHash } from 'node:crypto';
 import { createReadStream, statSync } from 'node:fs';
 import { mkdir, readFile } from 'node:fs/promises';
-import { writeFileAtomic } from '../write-atomic.ts';
+import { writeFileAtomic } from './write-atomic.ts';
 import { join } from 'node:path';
-import { ForelightError } from '../errors.ts';
+import { ForelightError } from './errors.ts';
 
 /** sha256 (hex) of one file's contents. */
 export async function sha256File(path: string): Promise<string> {
