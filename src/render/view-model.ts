@@ -34,10 +34,18 @@ export interface LeadView {
   readonly threshold: string;
   readonly thresholdOrigin: string;
   readonly confidence: ConfidenceKind;
-  /** Skill score at this lead formatted for the locale ('' when there is none). */
+  /** For 'no-skill': too few observed events to judge, or an interval that does not lie above the floor. */
+  readonly noSkillWhy: 'few-events' | 'interval' | '';
+  /**
+   * Fair Brier skill score formatted for the locale ('' when there is none): of the skill gate's pooling window
+   * when verified against observations, of the lead alone for a perfect-model estimate; with its 90 % interval.
+   */
   readonly score: string;
-  readonly scoreName: Config['decision']['skillGate']['score'];
-  readonly cases: number;
+  readonly low: string;
+  readonly high: string;
+  /** Independent past cases (hindcast years) and observed events behind the score. */
+  readonly years: number;
+  readonly events: number;
   readonly deciding: boolean;
   readonly withheld: boolean;
   readonly flags: readonly string[];
@@ -124,10 +132,11 @@ export function formatThreshold(locale: string, value: number, units: string): s
 }
 
 function leadView(config: Config, p: LeadProbability, outcome: TierOutcome, locale: string): LeadView {
-  const gate = config.decision.skillGate;
   const skill = p.skill;
-  const confidence: ConfidenceKind = !skill ? 'unchecked' : !skill.skilful ? 'no-skill' : skill.basis === 'potential' ? 'potential' : 'observed';
-  const score = skill ? skill[gate.score] : Number.NaN;
+  const confidence: ConfidenceKind = !skill ? 'unchecked' : skill.basis === 'potential' ? 'potential' : skill.skilful ? 'observed' : 'no-skill';
+  const gate = skill?.gate;
+  const pooled = skill !== null && skill.basis === 'observed';
+  const num = (v: number | undefined) => (v !== undefined && Number.isFinite(v) ? formatNumber(locale, v, 2, 2) : '');
   const withheld = outcome.decision.withheldLeads.some((w) => w.index === p.lead.index && w.tier === p.lead.tier);
   const deciding = outcome.decision.lead !== null && outcome.decision.lead.lead.index === p.lead.index;
   return {
@@ -140,9 +149,12 @@ function leadView(config: Config, p: LeadProbability, outcome: TierOutcome, loca
     threshold: formatThreshold(locale, p.threshold.value, p.threshold.units),
     thresholdOrigin: p.threshold.origin,
     confidence,
-    score: skill ? formatNumber(locale, score, 2, 2) : '',
-    scoreName: gate.score,
-    cases: skill?.cases ?? 0,
+    noSkillWhy: confidence !== 'no-skill' ? '' : gate?.reason === 'few-events' ? 'few-events' : 'interval',
+    score: num(pooled ? gate?.fairBrierSkillScore : skill?.fairBrierSkillScore),
+    low: num(pooled ? gate?.low : undefined),
+    high: num(pooled ? gate?.high : undefined),
+    years: (pooled ? gate?.years : skill?.years) ?? 0,
+    events: (pooled ? gate?.events : skill?.events) ?? 0,
     deciding,
     withheld,
     flags: p.flags,

@@ -61,7 +61,7 @@ describe('renderBulletins on the sample run', () => {
   it('says plainly when a lead has no demonstrated skill, and when skill is a model-only estimate', () => {
     const k = plain('kessan-health');
     expect(k).toMatch(/15 – 21 Dec: 24% chance.*No demonstrated skill at this range — treat as normal conditions/);
-    expect(k).toContain('Model-only estimate, no observations (0.64)');
+    expect(k).toContain('Model-only estimate, no observations (0.19) (not used for the stage)');
     expect(plain('tulva-health')).toContain('Aucune fiabilité démontrée à cette échéance — considérer les conditions comme normales');
   });
 
