@@ -35,7 +35,7 @@ export async function skillCommand(args: ParsedArgs): Promise<number> {
   const format = args.options.csv ? 'csv' : 'text';
   const keep = filters(args, config);
   const analysis = await analyse(config, issueDate, log, progressBar('skill'));
-  const wanted = (ids: Filter) => (['source', 'region', 'indicator'] as const).every((k) => keep[k] === undefined || keep[k] === ids[k]);
+  const wanted = (ids: Filter) => (['source', 'region', 'indicator'] as const).every((k) => keep[k] === undefined || ids[k] === undefined || keep[k] === ids[k]);
   const climates = analysis.sources
     .filter((s) => wanted({ source: s.source }))
     .flatMap((s) => [...s.climates.entries()].map(([key, climate]) => {
