@@ -8,6 +8,7 @@ import { skillDetailRows, formatSkillDetail } from '../../calibrate/skill-detail
 import { formatSkillTable, SKILL_LEGEND, skillRow } from '../../calibrate/skill-table.ts';
 import type { Config } from '../../config/types.ts';
 import { analyse } from '../../pipeline/analyse.ts';
+import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
@@ -54,6 +55,6 @@ export async function skillCommand(args: ParsedArgs): Promise<number> {
     const tuned = climates.flatMap((c) => Object.entries(c.climate.tuned).map(([rule, p]) => `  ${rule} · ${c.ids.source} · ${c.key.replace('|', ' · ')}: warn when P >= ${p.toFixed(2)}`));
     if (tuned.length > 0) process.stdout.write(`\nprobability thresholds tuned for cost/loss rules (maximum relative economic value on the hindcasts):\n${tuned.join('\n')}\n`);
   }
-  for (const p of analysis.problems) process.stderr.write(`skipped: ${p}\n`);
+  for (const p of analysis.problems) process.stderr.write(`skipped: ${formatDiagnostic(p)}\n`);
   return EXIT.ok;
 }
