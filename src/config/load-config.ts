@@ -84,10 +84,11 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
     else raw[key] = read.value;
   }
 
-  pending.push(...validateAgainstSchema(raw));
+  const schemaProblems = validateAgainstSchema(raw);
+  pending.push(...schemaProblems);
   // Semantic checks need the included lists: without them every reference would look unknown.
   if (includesComplete) {
-    pending.push(...checkDuplicateIds(raw), ...checkReferences(raw), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw), ...checkCombine(raw));
+    pending.push(...checkDuplicateIds(raw), ...checkReferences(raw), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw, schemaProblems), ...checkCombine(raw));
   }
   problems.push(...pending.map((p) => sourceMap.format(p)));
   const unique = [...new Set(problems)].sort(byPosition);
