@@ -10,6 +10,8 @@
 import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { isDeepStrictEqual } from 'node:util';
+import { format, resolveConfig } from 'prettier';
 import type { IndicatorDefinition, JsonSchema } from '../src/indicators/definition.ts';
 import { REFERENCES, type ReferenceKey } from '../src/indicators/references.ts';
 
@@ -27,7 +29,18 @@ export interface GeneratedFile {
   /** Path relative to the repository root. */
   readonly path: string;
   readonly text: string;
+  /** Whether `current` says the same as `text`, whatever the layout (so a formatter may reflow the files). */
+  readonly same: (current: string) => boolean;
 }
+
+/** Table rows as trimmed cells, without the separator row. */
+function tableCells(readme: string): string[][] {
+  const table = readme.slice(readme.indexOf(TABLE_START) + TABLE_START.length, readme.indexOf(TABLE_END));
+  return table.split('\n').filter((l) => l.trim().startsWith('|')).map((l) => l.trim().replace(/^\||\|$/g, '').split('|').map((c) => c.trim()))
+    .filter((cells) => !cells.every((c) => /^:?-+:?$/.test(c)));
+}
+
+const tokens = (ts: string) => ts.replace(/\/\/.*$/gm, '').replace(/[\s,]+/g, '');
 
 /** Kind module file names, sorted (the registry's order). */
 export function kindModules(root = ROOT): string[] {
@@ -112,17 +125,25 @@ export async function generatedFiles(root = ROOT): Promise<GeneratedFile[]> {
     defs.push(mod.definition);
   }
   const read = (p: string) => readFileSync(join(root, p), 'utf8');
+  const index = indexText(files);
+  const schema = schemaText(read(SCHEMA), defs);
+  const readme = readmeText(read(README), defs);
   return [
-    { path: `${KINDS_DIR}/${INDEX}`, text: indexText(files) },
-    { path: SCHEMA, text: schemaText(read(SCHEMA), defs) },
-    { path: README, text: readmeText(read(README), defs) },
+    { path: `${KINDS_DIR}/${INDEX}`, text: index, same: (current) => tokens(current) === tokens(index) },
+    { path: SCHEMA, text: schema, same: (current) => isDeepStrictEqual(JSON.parse(current), JSON.parse(schema)) },
+    { path: README, text: readme, same: (current) => isDeepStrictEqual(tableCells(current), tableCells(readme)) },
   ];
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
   for (const f of await generatedFiles()) {
-    const changed = readFileSync(join(ROOT, f.path), 'utf8') !== f.text;
-    if (changed) writeFileSync(join(ROOT, f.path), f.text);
+    const file = join(ROOT, f.path);
+    const changed = !f.same(readFileSync(file, 'utf8'));
+    if (changed) {
+      // Laid out by the project's formatter when it has a configuration, so that its check stays green.
+      const options = await resolveConfig(file);
+      writeFileSync(file, options ? await format(f.text, { ...options, filepath: file }) : f.text);
+    }
     process.stdout.write(`${changed ? 'updated' : 'up to date'}: ${f.path}\n`);
   }
 }
