@@ -70,9 +70,8 @@ function checkParams(kind: IndicatorKind, id: string, o: RawObject, at: string):
     return [];
   } catch (err) {
     if (!(err instanceof ForelightError)) throw err;
-    const message = err.hint ? err.message.slice(0, -(err.hint.length + 3)) : err.message;
     const yaml = yamlNames(Object.keys((indicatorDefinition(kind).params.properties ?? {}) as object));
-    return [problem(at, yaml(message), yaml(err.hint))];
+    return [problem(at, yaml(err.diagnostic.message), yaml(err.diagnostic.hint))];
   }
 }
 

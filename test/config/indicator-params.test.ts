@@ -5,6 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { checkConfigFile, loadConfig } from '../../src/config/load-config.ts';
+import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { fixture } from './helpers.ts';
 
 const F = 'test/config/fixtures/bad-indicator-params.yaml';
@@ -14,7 +15,7 @@ describe('indicator params checked at load (fixtures/bad-indicator-params.yaml)'
 
   it('reports each wrong parameter at its value or key, and nothing for the valid ones', () => {
     expect(result.config).toBeUndefined();
-    expect(result.problems).toEqual([
+    expect(result.diagnostics.map(formatDiagnostic)).toEqual([
       // heat-index basis: an enum of the feels-like kinds
       `${F}:37:22: "tmin" is not one of: tmax, tmean — use one of: tmax, tmean`,
       `${F}:44:23: "severity" is not one of: ehf, severity-ratio — use one of: ehf, severity-ratio`,
@@ -27,6 +28,13 @@ describe('indicator params checked at load (fixtures/bad-indicator-params.yaml)'
       // rules between parameters (the kind's checkParams), in the operators' spelling of the keys
       `${F}:72:13: indicator "mal-r0": params.temperature-model mordecai-2013 is fitted for P. falciparum only — use species falciparum or the martens-detinova model`,
       `${F}:79:13: indicator "mal-cut": params.marginal-at 0.8 is not below params.suitable-at 0.5 — make marginal-at < suitable-at`,
+    ]);
+  });
+
+  it('schema findings carry config-schema, the rules between parameters config-indicator', () => {
+    expect(result.diagnostics.map((d) => `${d.place.line} ${d.code}`)).toEqual([
+      '37 config-schema', '44 config-schema', '51 config-schema', '51 config-schema', '58 config-schema', '65 config-schema',
+      '72 config-indicator', '79 config-indicator',
     ]);
   });
 });
