@@ -14,7 +14,7 @@ import { hostname } from 'node:os';
 import { randomUUID } from 'node:crypto';
 import type Mail from 'nodemailer/lib/mailer/index.js';
 import type { DeliveryConfig } from '../config/types.ts';
-import { DeliveryError, describeError } from '../core/errors.ts';
+import { describeError } from '../core/errors.ts';
 import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
 import {
   claimDelivery, dueNotices, getDelivery, listDeliveries, markDelivery, markNoticesDone, releaseClaim, toReceipt, type DeliveryRecord,
@@ -95,6 +95,14 @@ async function sendWithRetry(transport: SmtpTransporter, message: Mail.Options,
   }
 }
 
+function loginRefusedText(delivery: DeliveryConfig, detail: string): string {
+  return `SMTP server ${delivery.smtp?.host}:${delivery.smtp?.port} refused the login of ${delivery.smtp?.user ?? '(no user)'}: ${detail}`;
+}
+
+function loginFix(delivery: DeliveryConfig): string {
+  return `check delivery.smtp.user and the password in ${delivery.smtp?.passwordEnv ?? 'the variable named by delivery.smtp.password-env'}, then forward the outbox copies`;
+}
+
 /** One line per failure for the operator notice. */
 function describeFailure(d: DeliveryRecord & { team: string }): string {
   const where = d.status === 'pending' ? 'still pending, retried at the next run' : d.outboxPath ? `copy in ${d.outboxPath}` : 'no copy';
@@ -126,6 +134,8 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
   const token = randomUUID();
   const claimer = `${hostname()}:${process.pid}:${token}`;
   const bulletins = new Map<number, StoredBulletin>();
+  /** Set once the server refused the login: the error every remaining delivery of this call carries. */
+  let loginRefused: string | null = null;
   activeTokens.add(token);
   try {
     for (const pending of todo) {
@@ -138,7 +148,7 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
       const dlog = log.child({ deliveryId: claimed.id, bulletin: bulletin.id, recipient: claimed.recipient });
       let status: 'sent' | 'outbox' | 'failed' = 'outbox';
       let error: string | undefined;
-      if (transport) {
+      if (transport && !loginRefused) {
         const sendError = await sendWithRetry(transport, message, delivery, sleep, dlog).then(() => null, (err: unknown) => err);
         if (sendError === null) {
           await options.onStep?.('accepted', claimed);
@@ -146,14 +156,15 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
         } else {
           const failure = (sendError as { failure?: SmtpFailure }).failure;
           if (failure?.auth) {
-            // Wrong credentials fail every message alike: keep all pending for a run after the fix.
-            markDelivery(ledger, claimed.id, 'pending', { error: failure.detail });
-            throw new DeliveryError(`SMTP server ${delivery.smtp?.host}:${delivery.smtp?.port} refused the login of ${delivery.smtp?.user ?? '(no user)'}: ${failure.detail}`,
-              `check delivery.smtp.user and the password in ${delivery.smtp?.passwordEnv ?? 'the variable named by delivery.smtp.password-env'}; unsent bulletins stay pending`, false);
+            // Wrong credentials fail every message alike: the rest go straight to the outbox, no more logins tried.
+            loginRefused = `${loginRefusedText(delivery, failure.detail)} — ${loginFix(delivery)}`;
+            dlog.error('SMTP login refused; every bulletin of this run goes to the outbox', { error: failure.detail });
           }
-          status = failure && !failure.temporary ? 'failed' : 'outbox';
-          error = failure?.detail ?? describeError(sendError);
+          status = failure && !failure.temporary && !failure.auth ? 'failed' : 'outbox';
+          error = failure?.auth ? loginRefused ?? undefined : failure?.detail ?? describeError(sendError);
         }
+      } else if (loginRefused) {
+        error = loginRefused;
       }
       let outboxPath: string | undefined;
       if (status !== 'sent') {
@@ -170,7 +181,7 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
           if (!transport) throw err;
           continue;
         }
-        if (transport) dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
+        if (transport && !loginRefused) dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
       }
       markDelivery(ledger, claimed.id, status, { error, outboxPath, noticeDue: !!transport && status !== 'sent' });
       counts[status]++;
@@ -178,7 +189,8 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
       receipts.push(toReceipt({ ...done, status }, bulletin.id));
       await options.onStep?.('recorded', done);
     }
-    await noticeFailures(ledger, transport, delivery, log);
+    // After a refused login the notice cannot go by SMTP either: straight to the outbox.
+    await noticeFailures(ledger, loginRefused ? null : transport, delivery, log);
   } finally {
     activeTokens.delete(token);
     transport?.close();

@@ -3,7 +3,7 @@
  * stage) and per run `<runId>/index.html`, `<runId>/charts/*.svg`, `<runId>/cap/*.xml`, `<runId>/run.json`.
  * Regenerated in full from the list of issued runs the ledger keeps; no scripts or external resources.
  */
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import { formatDay } from './locale-format.ts';
 import { toToken } from './safe-text.ts';
@@ -52,8 +52,7 @@ export function writeArchive(dir: string, entries: readonly ArchiveEntry[], opti
   const written: string[] = [];
   const put = (rel: string, content: string): void => {
     const path = join(dir, rel);
-    mkdirSync(join(path, '..'), { recursive: true });
-    writeFileSync(path, content);
+    writeFileAtomic(path, content, 'render');
     written.push(rel);
   };
 

@@ -32,7 +32,7 @@ export function makeRunReport(reason: RunReport['reason'], startedAt: Date, fini
 
 /** Write atomically (temporary file + rename) so a reader never sees half a file. */
 export function writeStatus(path: string, status: ServiceStatus): void {
-  writeFileAtomic(path, JSON.stringify(status, null, 2) + '\n');
+  writeFileAtomic(path, JSON.stringify(status, null, 2) + '\n', 'schedule');
 }
 
 /** Null when the service has not written a status yet. */
