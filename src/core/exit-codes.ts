@@ -20,6 +20,8 @@ export const EXIT = {
   nothingNew: 5,
   /** Another Forelight run holds the lock, or this forecast was already issued by a live process. */
   locked: 6,
+  /** Stopped by SIGTERM/SIGINT before issuing: nothing issued, the next start runs the slot (128 + SIGTERM, shell convention). */
+  stopped: 143,
   /** Command line not understood (EX_USAGE of BSD sysexits.h). */
   usage: 64,
 } as const;

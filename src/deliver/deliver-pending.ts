@@ -2,13 +2,15 @@
  * Deliver every pending bulletin × recipient recorded in the ledger, one message per recipient (so one
  * rejected address never blocks the others, and each recipient has its own status and Message-ID).
  *
- * Exactly-once, as far as SMTP allows. Each delivery is claimed (pending → sending, committed) before the
- * SMTP transaction and marked sent right after the server's 250 reply. A crash before the claim or after
- * the mark loses and duplicates nothing. The one residual window is between the server accepting DATA and
- * the `sent` row committing (a few milliseconds of local SQLite work): a process killed there leaves the
- * row `sending`; the next start cannot know whether the server kept the message, so it sends it again —
- * at-least-once, with the SAME Message-ID, which receiving systems and clients use to collapse duplicates.
- * We prefer a possible duplicate to a lost health advisory. Claims of a live process are never taken over.
+ * At-least-once, never lost. Each delivery is claimed (pending → sending, with its Message-ID, committed) before
+ * the SMTP transaction and marked sent right after the server's 250 reply. A crash before the claim or after the
+ * mark loses and duplicates nothing. The residual window runs from the end of DATA (the final "." sent) to the
+ * `sent` commit: it covers the server's own processing before it replies (a slow or overloaded server widens it,
+ * up to delivery.smtp.timeout-seconds) plus a few milliseconds of SQLite work. A process killed inside it leaves
+ * the row `sending`; the next start cannot know whether the server kept the message, so it sends it again with
+ * the SAME Message-ID (RFC 5322 §3.6.4), which receiving systems and clients use to collapse duplicates, and logs
+ * a warning naming the recipient. We prefer a possible duplicate to a lost health advisory. Claims of a live
+ * process are never taken over.
  */
 import { hostname } from 'node:os';
 import { randomUUID } from 'node:crypto';

@@ -27,7 +27,9 @@ export async function openDataset(path: string): Promise<Dataset> {
   }
   let owned = false;
   try {
-    const { size } = await handle.stat();
+    const stats = await handle.stat();
+    if (stats.isDirectory()) throw new InputError('input-is-folder', path, 'is a folder, not a NetCDF file', 'point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake');
+    const { size } = stats;
     const magic = Buffer.alloc(64);
     const { bytesRead } = await handle.read(magic, 0, 64, 0);
     const head = magic.subarray(0, bytesRead);

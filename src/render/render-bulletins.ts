@@ -12,7 +12,7 @@ import { buildChartSpecs, chartWidth, renderChartPng, renderChartSvg, type Chart
 import { formatDay, formatPercent, toIntlLocale } from './locale-format.ts';
 import type { BulletinRun, CapAlert, PreviousIssue } from './model.ts';
 import { renderRunJson } from './run-json.ts';
-import { toHeaderText, toToken } from './safe-text.ts';
+import { capHeaderText, toHeaderText, toToken } from './safe-text.ts';
 import { createTemplateEnv, type TemplateEnv } from './template-env.ts';
 import { buildRegionView, type RegionView } from './view-model.ts';
 
@@ -143,7 +143,7 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
       team: team.id,
       locale,
       to: recipients.get(team.id) ?? [],
-      subject: toHeaderText(env.phrase(locale, 'subject', ctx)),
+      subject: capHeaderText(env.phrase(locale, 'subject', ctx)),
       html: env.render(`${locale}/${kind}.html.njk`, ctx),
       text: env.render(`${locale}/${kind}.txt.njk`, ctx),
       attachments,

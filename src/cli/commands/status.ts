@@ -6,7 +6,8 @@ import { openLedger } from '../../ledger/open-ledger.ts';
 import { lastCompletedRun } from '../../ledger/runs.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { computeNextRuns } from '../../core/next-runs.ts';
-import { readStatus } from '../../schedule/status-file.ts';
+import { describeService, readStatus } from '../../schedule/status-file.ts';
+import { isProcessAlive } from '../../core/process-alive.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 
 export async function statusCommand(args: ParsedArgs): Promise<number> {
@@ -15,7 +16,9 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
   const service = readStatus(`${config.ledger}.status.json`);
   const [next] = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1);
   lines.push(`next scheduled run: ${next?.toISOString() ?? 'none'} (${config.schedule.cron}, ${config.schedule.timezone})`);
-  if (service) lines.push(`service: ${JSON.stringify(service)}`);
+  lines.push(`service: ${describeService(service, isProcessAlive)}`);
+  if (service?.lastRun) lines.push(`last run: ${service.lastRun.reason} ${service.lastRun.startedAt} → ${service.lastRun.exitName} (exit ${service.lastRun.exitCode}): ${service.lastRun.summary}`);
+  if (service && service.consecutiveFailures > 0) lines.push(`failed runs in a row: ${service.consecutiveFailures}`);
   if (!existsSync(config.ledger)) {
     lines.push(`ledger ${config.ledger}: no runs yet`);
   } else {
