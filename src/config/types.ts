@@ -161,7 +161,7 @@ export interface DeliveryConfig {
 }
 
 export interface ScheduleConfig {
-  /** node-cron expression (5 or 6 fields). */
+  /** Classic cron expression (5 or 6 fields; day of month OR day of week), read by croner (src/core/next-runs.ts). */
   readonly cron: string;
   /** IANA time zone. */
   readonly timezone: string;
