@@ -33,6 +33,8 @@ async function readHead(path: string): Promise<Buffer> {
     const head = Buffer.alloc(4);
     const { bytesRead } = await handle.read(head, 0, 4, 0);
     return head.subarray(0, bytesRead);
+  } catch {
+    return Buffer.alloc(0); // a folder (EISDIR) or an unreadable file: openNetcdf names the problem
   } finally {
     await handle.close();
   }
