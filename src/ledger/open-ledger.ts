@@ -57,8 +57,8 @@ export function ledgerWriteFault(path: string, err: unknown): unknown {
   const code = (err as { code?: string }).code ?? '';
   const base = Object.keys(WRITE_FAULTS).find((k) => code === k || code.startsWith(`${k}_`));
   if (!base) return err;
-  return new ForelightError('ledger', `ledger-${base.slice(7).toLowerCase()}`, `ledger ${path} cannot be written (${code}: ${describeError(err)})`,
-    `${fixFor(WRITE_FAULTS[base], dirname(path))}; nothing was sent, the next run resumes this one`, { cause: err });
+  return new ForelightError('ledger', 'ledger-write', `ledger cannot be written (${code}: ${describeError(err)})`,
+    `${fixFor(WRITE_FAULTS[base], dirname(path))}; nothing was sent, the next run resumes this one`, { cause: err, place: { file: path } });
 }
 
 /** ISO timestamp from the ledger clock. */

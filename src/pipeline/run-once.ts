@@ -12,7 +12,9 @@ import { decideStages } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import { deliverPending, type DeliverOptions } from '../deliver/deliver-pending.ts';
 import { sendOperatorNotice } from '../deliver/operator-notice.ts';
+import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
+import { recordDiagnostics, runDiagnostics } from '../ledger/diagnostics.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
 import { ledgerWriteFault, openLedger, type Ledger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
@@ -80,11 +82,14 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 }
 
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
-async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ problems: readonly string[]; bulletins: number; archive: ArchiveEntry }> {
+async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ bulletins: number; archive: ArchiveEntry }> {
   const { config, log } = options;
   const analysis = await analyse(config, options.issueDate, log, undefined, inputs); // the files the run key names
+  recordDiagnostics(ledger, runId, analysis.problems);
   if (analysis.read.sources.length === 0) {
-    throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
+    const text = `No forecast of any source could be read for ${options.issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
+    await sendOperatorNotice(config.delivery, `no forecast could be read for ${options.issueDate}`, text, { log, diagnostics: analysis.problems });
+    throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.map(formatDiagnostic).join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
   }
   await recordInputFiles(ledger, runId, analysis, config, log);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
@@ -96,7 +101,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
   const run = buildBulletinRun({
     config, runId: `${options.issueDate}-${runId}`, issuedAt: (options.now ?? (() => new Date()))(), mode: options.mode,
     sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
-    regionStages: decided.regionStages, previous, notes: [...analysis.combination, ...analysis.problems.map((p) => `skipped: ${p}`)],
+    regionStages: decided.regionStages, previous, notes: analysis.combination, problems: analysis.problems,
   });
   const rendered = await renderBulletins(config, run, previousIssue(ledger, config, runId));
   ledger.db.transaction(() => {
@@ -104,7 +109,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
   log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length });
-  return { problems: analysis.problems, bulletins: rendered.bulletins.length, archive: rendered.archive };
+  return { bulletins: rendered.bulletins.length, archive: rendered.archive };
 }
 
 /** The archive site is one output among others: a folder that cannot be written is reported, never stops delivery. */
@@ -148,11 +153,10 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     }
     const runId = begun.run.id;
     const rlog = log.child({ runId });
-    let problems: readonly string[] = [];
     let archive: ArchiveEntry | null = null;
     try {
       if (begun.kind === 'resumed' && hasBulletins(ledger, runId)) rlog.warn('resuming an interrupted run: sending what was not yet sent');
-      else ({ problems, archive } = await prepare(ledger, { ...options, log: rlog }, runId, inputs));
+      else ({ archive } = await prepare(ledger, { ...options, log: rlog }, runId, inputs));
     } catch (err) {
       const fault = ledgerWriteFault(config.ledger, err);
       try {
@@ -170,9 +174,9 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     }
     const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
     const outputCode = outputProblems.length > 0 ? EXIT.deliveryFailed : EXIT.ok;
+    const problems: readonly Diagnostic[] = runDiagnostics(ledger, runId); // also those of the interrupted start
     const status = problems.length > 0 || deliveryCode !== EXIT.ok || outputCode !== EXIT.ok ? 'partial' : 'ok';
-    const all = [...problems, ...outputProblems];
-    finishRun(ledger, runId, status, all.length > 0 ? all.join(' | ') : undefined);
+    finishRun(ledger, runId, status, outputProblems.length > 0 ? outputProblems.join(' | ') : undefined);
     const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)` +
       (outputProblems.length > 0 ? `; ${outputProblems.length} output problem(s): ${outputProblems.join(' | ')}` : '');
     rlog.info(summary, { stage: 'deliver' });

@@ -63,7 +63,7 @@ async function openNetcdf(path: string): Promise<Dataset> {
   let owned = false;
   try {
     const stats = await handle.stat();
-    if (stats.isDirectory()) throw new InputError('input-is-folder', path, 'is a folder, not a NetCDF file', 'point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake');
+    if (stats.isDirectory()) throw new InputError('input-folder', path, 'is a folder, not a NetCDF file', 'point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake');
     const { size } = stats;
     const magic = Buffer.alloc(64);
     const { bytesRead } = await handle.read(magic, 0, 64, 0);

@@ -24,7 +24,7 @@ describe.skipIf(!canMount)('writeFileAtomic on a faulty disk (needs root to moun
     writeFileAtomic(target, 'old');
     fill(disk.dir);
     expect(() => writeFileAtomic(target, 'x'.repeat(200_000))).toThrow(
-      new RegExp(`^cannot write file ${target} \\(ENOSPC\\) — the disk holding ${disk.dir} is full: free space there`),
+      new RegExp(`^${target}: cannot write file \\(ENOSPC\\) — the disk holding ${disk.dir} is full: free space there`),
     );
     expect(readdirSync(disk.dir).filter((f) => f.includes('.tmp-'))).toEqual([]);
     expect(readFileSync(target, 'utf8')).toBe('old');
