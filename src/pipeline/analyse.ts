@@ -90,7 +90,8 @@ export async function analyse(
   const problems = [...fileProblems.map((p) => p.message), ...sources.flatMap((s) => s.problems)];
   for (const p of problems) log.warn('skipped', { problem: p });
   await checksums.save();
-  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems: [...new Set(problems)], checksums };
+  const timeNotes = read.sources.flatMap((s) => s.notes);
+  return { issueDate, inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems: [...new Set(problems)], checksums };
 }
 
 function safeClimatology(read: ReadResult, region: string, log: Logger) {
