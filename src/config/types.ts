@@ -182,7 +182,10 @@ export interface CalibrationConfig {
 export interface Config {
   /** Absolute path of the main YAML file. */
   readonly file: string;
+  /** Country name as written when no per-locale name is given (the English one when `country:` is per locale). */
   readonly country: string;
+  /** Country name per locale (`country: { en: ..., fr: ... }` in the YAML); empty when one name serves every locale. */
+  readonly countryNames: Readonly<Record<string, string>>;
   readonly sources: readonly SourceConfig[];
   readonly observations: ObservationsConfig | null;
   readonly regions: readonly RegionConfig[];

@@ -2,6 +2,7 @@
  * Assembles the render stage's input (BulletinRun) from the decide stage's output, the probabilities and the
  * previous issue — no number is recomputed here.
  */
+import type { Diagnostic } from '../core/diagnostics.ts';
 import type { Config, StageConfig } from '../config/types.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { combineRegionStages } from '../decide/decide-stages.ts';
@@ -23,8 +24,10 @@ export interface BulletinRunInput {
   readonly regionStages: readonly RegionStage[];
   /** Region stages of the last issued bulletin (empty on the first issue). */
   readonly previous: readonly RegionStageLike[];
-  /** Source-combination rule and skipped inputs, for run.json. */
+  /** Source-combination rule and what it replaced, for run.json. */
   readonly notes: readonly string[];
+  /** Input problems of the run. */
+  readonly problems: readonly Diagnostic[];
 }
 
 /** Local calendar date (YYYY-MM-DD) of an instant in an IANA time zone. */
@@ -82,9 +85,10 @@ export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
     runId: input.runId,
     issuedAt: input.issuedAt.toISOString().replace(/\.\d{3}Z$/, 'Z'),
     mode: input.mode,
-    forecastDates: input.sources.map((s) => ({ source: s.source.id, name: s.source.name, referenceTime: s.referenceTime, basedOnOlder: s.stale })),
+    forecastDates: input.sources.map((s) => ({ source: s.source.id, name: s.source.name, tier: s.source.tier, referenceTime: s.referenceTime, basedOnOlder: s.stale })),
     nextIssue: nextIssueDate(config, input.issuedAt),
     regions,
     notes: input.notes,
+    problems: input.problems,
   };
 }
