@@ -35,13 +35,6 @@ export interface ConfigCheck {
   readonly sourceMap: ConfigSourceMap;
 }
 
-const sourceMaps = new WeakMap<Config, ConfigSourceMap>();
-
-/** The source map of a config returned by loadConfig/checkConfigFile (undefined for hand-made configs). */
-export function sourceMapOf(config: Config): ConfigSourceMap | undefined {
-  return sourceMaps.get(config);
-}
-
 /** The semantic checks, each with the code its problems carry. They need the included lists: without them every reference would look unknown. */
 const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>) => ConfigProblem[]])[] = [
   ['config-duplicate-id', checkDuplicateIds],
@@ -97,9 +90,7 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
   diagnostics.push(...pending.map(([code, p]) => sourceMap.place(code, p)));
   const unique = uniqueDiagnostics(diagnostics).sort(byPlace);
   if (unique.length > 0) return { diagnostics: unique, sourceMap };
-  const config = buildConfig(raw, file);
-  sourceMaps.set(config, sourceMap);
-  return { config, diagnostics: [], sourceMap };
+  return { config: buildConfig(raw, file), diagnostics: [], sourceMap };
 }
 
 /** Loads a configuration (default: the packaged Veloria sample); throws ConfigError listing every problem. */

@@ -8,6 +8,7 @@ import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineSources } from '../calibrate/lead-tiers.ts';
 import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError, type ForelightError } from '../core/errors.ts';
+import { trackKey, type TrackKey } from '../core/keys.ts';
 import type { Logger } from '../core/log.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { regionClimatology } from './indicator-context.ts';
@@ -31,10 +32,10 @@ export interface Analysis {
 }
 
 function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadResult): { kept: LeadProbability[]; notes: string[] } {
-  const groups = new Map<string, Map<string, LeadProbability[]>>();
+  const groups = new Map<TrackKey, Map<string, LeadProbability[]>>();
   for (const o of outcomes) {
     for (const p of o.probabilities) {
-      const key = `${p.region}|${p.indicator}|${p.lead.tier}`;
+      const key = trackKey(p.region, p.indicator, p.lead.tier);
       const bySource = groups.get(key) ?? new Map<string, LeadProbability[]>();
       groups.set(key, bySource);
       bySource.set(o.source, [...(bySource.get(o.source) ?? []), p]);
