@@ -23,7 +23,7 @@ function recordStatus(config: Config, report: RunReport): void {
 
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
-  const { config, log, issueDate } = await commandContext(args, 'run');
+  const { config, run } = await commandContext(args, 'run');
   const { lockPath } = servicePaths(config.ledger);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
@@ -33,7 +33,7 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   }
   const startedAt = new Date();
   try {
-    const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true });
+    const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true });
     recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
     return outcome.exitCode;
