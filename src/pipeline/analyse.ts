@@ -100,7 +100,8 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   const problems = uniqueDiagnostics([...fileProblems.map((p) => p.diagnostic), ...sources.flatMap((s) => s.problems)]);
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await saveChecksums(checksums, log);
-  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems, checksums };
+  const timeNotes = read.sources.flatMap((s) => s.notes);
+  return { issueDate, inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
 }
 
 /** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */
