@@ -32,10 +32,10 @@ function filters(args: ParsedArgs, config: Config): Filter {
 }
 
 export async function skillCommand(args: ParsedArgs): Promise<number> {
-  const { config, log, issueDate } = await commandContext(args, 'skill');
+  const { config, run } = await commandContext(args, 'skill');
   const format = args.options.csv ? 'csv' : 'text';
   const keep = filters(args, config);
-  const analysis = await analyse(config, issueDate, log, progressBar('skill'));
+  const analysis = await analyse(config, run, { onProgress: progressBar('skill') });
   const wanted = (ids: Filter) => (['source', 'region', 'indicator'] as const).every((k) => keep[k] === undefined || ids[k] === undefined || keep[k] === ids[k]);
   const climates = analysis.sources
     .filter((s) => wanted({ source: s.source }))
