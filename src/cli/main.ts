@@ -70,6 +70,12 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
     spec: CONFIG,
     run: async (a) => (await import('./commands/serve.ts')).serveCommand(a),
   },
+  ledger: {
+    summary: 'bring the ledger (SQLite file or PostgreSQL database) to this version\'s schema',
+    usage: 'forelight ledger migrate [--config FILE]',
+    spec: CONFIG,
+    run: async (a) => (await import('./commands/ledger.ts')).ledgerCommand(a),
+  },
   status: {
     summary: 'last run, its result, next run and failures',
     usage: 'forelight status [--config FILE]',

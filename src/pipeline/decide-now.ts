@@ -2,13 +2,12 @@
  * Analysis + decision against the ledger's history WITHOUT writing anything: what `diff`, `explain` and
  * `run --dry-run` show is exactly what a run on the same inputs would issue.
  */
-import { existsSync } from 'node:fs';
 import type { Config } from '../config/types.ts';
 import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { tunedKey, type StageHistory } from '../decide/types.ts';
-import { openLedger } from '../ledger/open-ledger.ts';
+import { ledgerMayHoldRuns, openConfiguredLedger } from '../ledger/ledger-target.ts';
 import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
 import type { Logger } from '../core/log.ts';
 import type { IsoDate } from '../types.ts';
@@ -41,8 +40,8 @@ export function tunedThresholds(analysis: Analysis): Map<string, number> {
 export async function decideNow(config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void): Promise<DecidedNow> {
   let historyJson: string | null = null;
   let previous: RegionStageLike[] = [];
-  if (existsSync(config.ledger)) {
-    const ledger = openLedger(config.ledger);
+  if (ledgerMayHoldRuns(config)) {
+    const ledger = openConfiguredLedger(config);
     try {
       historyJson = latestStageHistory(ledger);
       previous = issuedRegionStages(config, lastIssuedStages(ledger));

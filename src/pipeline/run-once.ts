@@ -11,7 +11,8 @@ import { deliverPending, type DeliverOptions } from '../deliver/deliver-pending.
 import { sendOperatorNotice } from '../deliver/operator-notice.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
-import { openLedger, type Ledger } from '../ledger/open-ledger.ts';
+import { openConfiguredLedger } from '../ledger/ledger-target.ts';
+import type { Ledger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
@@ -114,7 +115,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     return { exitCode: EXIT.nothingNew, summary: text, runId: null };
   }
   const key = forecastKey(inputs);
-  const ledger = openLedger(config.ledger, { now: options.now });
+  const ledger = openConfiguredLedger(config, { now: options.now });
   try {
     const begun = beginRun(ledger, key, { force: options.force });
     if (begun.kind === 'already-issued') {

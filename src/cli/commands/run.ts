@@ -16,7 +16,7 @@ const LOCK_MAX_AGE_SECONDS = 6 * 3600;
 
 /** The status file `forelight status` reads, updated after a manual run as after a scheduled one. */
 function recordStatus(config: Config, report: RunReport): void {
-  const { statusPath } = servicePaths(config.ledger);
+  const { statusPath } = servicePaths(config);
   const nextRun = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1)[0]?.toISOString() ?? null;
   writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: config.schedule.cron, timezone: config.schedule.timezone, nextRun }, report));
 }
@@ -24,7 +24,7 @@ function recordStatus(config: Config, report: RunReport): void {
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
   const { config, log, issueDate } = await commandContext(args, 'run');
-  const { lockPath } = servicePaths(config.ledger);
+  const { lockPath } = servicePaths(config);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
     const holder = got.holder ? `process ${got.holder.pid} on ${got.holder.host} since ${got.holder.startedAt}` : 'another process';
