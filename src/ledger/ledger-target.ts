@@ -4,7 +4,7 @@
  * files (beside a SQLite ledger; in `.forelight/` beside the config for a PostgreSQL one, which has no local file).
  */
 import { createHash } from 'node:crypto';
-import { existsSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import type { Config } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
@@ -31,9 +31,11 @@ export function openConfiguredLedger(config: LedgerSettings, options: { now?: ()
 /** False only for a SQLite ledger whose file does not exist yet (nothing run); a PostgreSQL ledger is asked. */
 export const ledgerMayHoldRuns = (config: LedgerSettings): boolean => isPostgresUrl(config.ledger) || existsSync(config.ledger);
 
-/** Prefix of this machine's `<prefix>.lock` and `<prefix>.status.json`. */
+/** Prefix of this machine's `<prefix>.lock` and `<prefix>.status.json` (its folder is created for a PostgreSQL ledger). */
 export function localStatePrefix(config: LedgerSettings): string {
   if (!isPostgresUrl(config.ledger)) return config.ledger;
   const id = createHash('sha256').update(config.ledger).digest('hex').slice(0, 12);
-  return join(config.file ? dirname(config.file) : process.cwd(), '.forelight', `ledger-${id}`);
+  const folder = join(config.file ? dirname(config.file) : process.cwd(), '.forelight');
+  mkdirSync(folder, { recursive: true });
+  return join(folder, `ledger-${id}`);
 }

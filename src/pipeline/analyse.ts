@@ -9,6 +9,7 @@ import { combineSources } from '../calibrate/lead-tiers.ts';
 import { describeError, type ForelightError } from '../core/errors.ts';
 import type { Logger } from '../core/log.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
+import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import { regionClimatology } from './indicator-context.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
 import { readAll, type ReadResult } from './read-stage.ts';
@@ -60,20 +61,21 @@ function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadR
 /**
  * Reads and computes everything for an issue date; never throws for a bad file, region or indicator.
  * @param inputs the files to use, when the caller already resolved them (a run keys its ledger entry on them)
+ * @param extract how files are read (default: in this process; a cluster's workers with `forelight run --cluster`)
  */
 export async function analyse(
   config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void,
-  inputs: readonly SourceInputs[] = resolveInputs(config, issueDate),
+  inputs: readonly SourceInputs[] = resolveInputs(config, issueDate), extract: Extractor = extractRegionSeries,
 ): Promise<Analysis> {
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now();
-  const read = await readAll(config, inputs);
+  const read = await readAll(config, inputs, extract);
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
   const checksums = await openChecksumMemo(config.calibration.cacheDir);
   const ctx: SharedContext = {
-    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(), checksums,
+    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(), checksums, extract,
   };
   const fileProblems: ForelightError[] = [...read.problems];
   const sources: SourceOutcome[] = [];

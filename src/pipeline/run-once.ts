@@ -13,6 +13,7 @@ import { ForelightError, describeError } from '../core/errors.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
 import { openConfiguredLedger } from '../ledger/ledger-target.ts';
 import type { Ledger } from '../ledger/open-ledger.ts';
+import type { Extractor } from '../read/extract.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
@@ -35,6 +36,8 @@ export interface RunOptions {
   readonly now?: () => Date;
   /** Passed to delivery (fault injection in tests). */
   readonly deliver?: DeliverOptions;
+  /** How input files are read (default: in this process; `--cluster`: by the cluster's workers). */
+  readonly extract?: Extractor;
 }
 
 export interface RunOutcome {
@@ -80,7 +83,7 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
 async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ problems: readonly string[]; bulletins: number }> {
   const { config, log } = options;
-  const analysis = await analyse(config, options.issueDate, log, undefined, inputs); // the files the run key names
+  const analysis = await analyse(config, options.issueDate, log, undefined, inputs, options.extract); // the files the run key names
   if (analysis.read.sources.length === 0) {
     throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
   }

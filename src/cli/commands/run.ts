@@ -7,7 +7,8 @@ import { computeNextRuns } from '../../core/next-runs.ts';
 import { makeRunReport, nextStatus, readStatus, writeStatus, type RunReport } from '../../schedule/status-file.ts';
 import type { Config } from '../../config/types.ts';
 import { describeError } from '../../core/errors.ts';
-import type { ParsedArgs } from '../args.ts';
+import { stringOption, type ParsedArgs } from '../args.ts';
+import { connectCluster } from '../../cluster/coordinator.ts';
 import { commandContext } from '../context.ts';
 import { diffCommand } from './diff.ts';
 
@@ -32,8 +33,10 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
     return EXIT.locked;
   }
   const startedAt = new Date();
+  const url = stringOption(args, 'cluster');
+  const cluster = url ? await connectCluster(url, { log, cacheDir: config.calibration.cacheDir }) : null;
   try {
-    const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true });
+    const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
     recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
     return outcome.exitCode;
@@ -42,5 +45,6 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
     throw err;
   } finally {
     got.lock.release();
+    await cluster?.close();
   }
 }

@@ -3,6 +3,7 @@ import { loadConfig } from '../../config/load-config.ts';
 import { listDeliveries } from '../../ledger/deliveries.ts';
 import { ledgerMayHoldRuns, openConfiguredLedger } from '../../ledger/ledger-target.ts';
 import { servicePaths } from '../../schedule/run-service.ts';
+import { clusterStatus, formatClusterStatus } from '../../cluster/cluster-status.ts';
 import { lastCompletedRun } from '../../ledger/runs.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { computeNextRuns } from '../../core/next-runs.ts';
@@ -30,6 +31,8 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
       ledger.close();
     }
   }
+  const cluster = stringOption(args, 'cluster');
+  if (cluster) lines.push(...formatClusterStatus(await clusterStatus(cluster)));
   process.stdout.write(lines.join('\n') + '\n');
   return EXIT.ok;
 }
