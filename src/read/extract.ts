@@ -10,12 +10,12 @@ import type { Quantity, RegionSeries } from '../types.ts';
 import { findCoordinates, layoutVariable, type FileCoordinates } from './coordinates.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
-import { dailyMethodFor, planTime, referenceTimeMs } from './extract-plan.ts';
+import { dailyMethodFor, planTime, referenceWindowMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
 import { describeShape, selectRegionCells, type RegionCells } from './regions.ts';
-import { planUnits, type UnitPlan } from './units.ts';
+import { missingUnitsError, planUnits, type UnitPlan } from './units.ts';
 
 export interface ExtractRequest {
   /** Canonical quantity → variable name in the file. */
@@ -35,18 +35,23 @@ function keepOrRethrow(err: unknown, problems: ForelightError[]): void {
   else throw err;
 }
 
-/** Throws when the file's reference time differs from the requested one. */
-function checkReference(file: string, fileMs: number, requested: string | undefined): void {
-  if (requested === undefined) return;
+/** The requested reference time in ms (ISO date or instant), or null when none was requested. */
+function requestedMs(file: string, requested: string | undefined): number | null {
+  if (requested === undefined) return null;
   const wanted = Date.parse(/^\d{4}-\d{2}-\d{2}$/.test(requested) ? `${requested}T00:00:00Z` : requested);
   if (Number.isNaN(wanted)) {
     throw new InputError('reference-invalid', file, `requested reference time '${requested}' is not an ISO 8601 date`, 'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ');
   }
-  if (wanted !== fileMs) {
-    throw new InputError('reference-mismatch', file,
-      `the file holds the forecast of ${isoInstant(fileMs)} but ${isoInstant(wanted)} was requested`,
-      'the file name and its contents disagree: check the source path pattern or replace the file');
-  }
+  return wanted;
+}
+
+/** The reference time of the series: the requested one when the file is consistent with it; throws otherwise. */
+function checkReference(file: string, window: { earliest: number; latest: number }, wanted: number | null): number {
+  if (wanted === null) return window.latest;
+  if (wanted >= window.earliest && wanted <= window.latest) return wanted;
+  throw new InputError('reference-mismatch', file,
+    `the file holds the forecast of ${isoInstant(window.latest)} but ${isoInstant(wanted)} was requested`,
+    'the file name and its contents disagree: check the source path pattern or replace the file');
 }
 
 function selectAll(coords: FileCoordinates, regions: readonly RegionConfig[], problems: ForelightError[]): { region: RegionConfig; cells: RegionCells }[] {
@@ -66,6 +71,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const problems: ForelightError[] = [];
   const series: RegionSeries[] = [];
   const coords = await findCoordinates(ds);
+  const wanted = requestedMs(ds.path, request.referenceTime);
   const selected = selectAll(coords, request.regions, problems);
   const { band, regions } = planBand(selected.map((s) => s.cells), coords.grid.lat.length, coords.grid.lon.length);
   if (regions.length === 0) return { series, problems };
@@ -74,12 +80,12 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
       const layout = layoutVariable(ds, coords, variable);
       const units = layout.info.attributes.units;
       const unitPlan = planUnits(quantity, typeof units === 'string' ? units : undefined, ds.path, variable);
-      const timePlan = planTime(coords, layout, unitPlan);
-      const refMs = referenceTimeMs(coords, timePlan);
-      if (refMs === null) {
+      const timePlan = planTime(coords, layout, unitPlan, wanted);
+      const window = referenceWindowMs(coords, timePlan);
+      if (window === null) {
         throw new InputError('time-missing', ds.path, `variable '${variable}' has no time axis`, 'map the quantity to a variable with a CF time coordinate');
       }
-      checkReference(ds.path, refMs, request.referenceTime);
+      const refMs = checkReference(ds.path, window, wanted);
       const means = await reduceVariable(ds, coords, {
         layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
         utcOffsets: selected.map((s) => s.region.utcOffsetHours),
@@ -168,16 +174,24 @@ export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions
 }
 
 /** Quantities tried, in order, to find a variable's canonical units for `extract` (standard_name breaks ties). */
-const GUESS_ORDER: readonly Quantity[] = ['tmean', 'rh', 'precip', 'wind'];
+const GUESS_ORDER = ['tmean', 'rh', 'precip', 'wind'] as const;
+
+const NAME_PATTERNS: Readonly<Record<'tmean' | 'rh' | 'precip' | 'wind', RegExp>> = {
+  tmean: /temperature/, rh: /relative_humidity/, precip: /precipitation|rain/, wind: /wind/,
+};
 
 /**
  * The conversion of a variable to canonical units (°C, %, mm/day, m/s) judged from its units and standard_name,
  * or null when it is none of those quantities (values are then printed in the file's own units).
+ * @throws UnitError (the same line as `run` gives) when the variable has no units at all.
  */
 export function canonicalUnitPlan(info: VariableInfo, file: string): UnitPlan | null {
   const units = info.attributes.units;
   const standardName = String(info.attributes.standard_name ?? '');
-  if (typeof units !== 'string') return null;
+  if (typeof units !== 'string' || units.trim() === '') {
+    const guess = GUESS_ORDER.find((q) => NAME_PATTERNS[q as keyof typeof NAME_PATTERNS].test(standardName)) ?? null;
+    throw missingUnitsError(file, info.name, guess);
+  }
   const fits = GUESS_ORDER.flatMap((q) => {
     try {
       return [planUnits(q, units, file, info.name)];
@@ -186,7 +200,7 @@ export function canonicalUnitPlan(info: VariableInfo, file: string): UnitPlan | 
     }
   });
   if (fits.length <= 1) return fits[0] ?? null;
-  const byName = fits.find((p) => (p.quantity === 'wind' ? /wind/ : p.quantity === 'precip' ? /precipitation|rain/ : /temperature/).test(standardName));
+  const byName = fits.find((p) => NAME_PATTERNS[p.quantity as keyof typeof NAME_PATTERNS].test(standardName));
   return byName ?? null;
 }
 
