@@ -1,10 +1,11 @@
 /**
  * What crosses Redis between the coordinator and the workers: an extraction request (file path + the request of
- * `extractRegionSeries`) and its result (region series and the problems met), as JSON. Series values travel as the
- * bytes of their Float64Array (base64), so NaN and every bit of every value arrive unchanged: a cluster run computes
- * exactly what a single process computes.
+ * `extractRegionSeries`) and its result (region series and the problems met, as `Diagnostic` data), as JSON. Series
+ * values travel as the bytes of their Float64Array (base64), so NaN and every bit of every value arrive unchanged: a
+ * cluster run computes exactly what a single process computes.
  */
-import { ForelightError, InputError, type Stage } from '../core/errors.ts';
+import type { Diagnostic } from '../core/diagnostics.ts';
+import { ForelightError, InputError } from '../core/errors.ts';
 import type { ExtractRequest, ExtractResult } from '../read/extract.ts';
 import type { RegionSeries } from '../types.ts';
 
@@ -14,13 +15,9 @@ export interface ExtractJob {
 }
 
 interface WireProblem {
-  readonly kind: 'input' | 'other';
-  readonly stage: Stage;
-  readonly code: string;
-  /** The message without the file prefix (input) and without the hint. */
-  readonly text: string;
-  readonly hint: string;
-  readonly file?: string;
+  /** An `InputError` (names its file) or another Forelight error. */
+  readonly input: boolean;
+  readonly diagnostic: Diagnostic;
 }
 
 interface WireSeries extends Omit<RegionSeries, 'data'> {
@@ -34,21 +31,19 @@ export interface WireResult {
   readonly thrown?: boolean;
 }
 
-function bare(err: ForelightError): string {
-  let text = err.hint && err.message.endsWith(` — ${err.hint}`) ? err.message.slice(0, -(err.hint.length + 3)) : err.message;
-  if (err instanceof InputError && text.startsWith(`${err.file}: `)) text = text.slice(err.file.length + 2);
-  return text;
-}
-
 export function toWire(result: ExtractResult, thrown = false): WireResult {
   return {
     ...(thrown ? { thrown } : {}),
     series: result.series.map((s) => ({ ...s, data: Buffer.from(s.data.buffer, s.data.byteOffset, s.data.byteLength).toString('base64') })),
-    problems: result.problems.map((p) => ({
-      kind: p instanceof InputError ? 'input' : 'other', stage: p.stage, code: p.code, text: bare(p), hint: p.hint,
-      ...(p instanceof InputError ? { file: p.file } : {}),
-    })),
+    problems: result.problems.map((p) => ({ input: p instanceof InputError, diagnostic: p.diagnostic })),
   };
+}
+
+function fromDiagnostic({ input, diagnostic: d }: WireProblem): ForelightError {
+  const { file, ...rest } = d.place;
+  return input && file !== undefined
+    ? new InputError(d.code, file, d.message, d.hint, { place: rest })
+    : new ForelightError(d.stage, d.code, d.message, d.hint, { place: d.place });
 }
 
 export function fromWire(wire: WireResult): ExtractResult {
@@ -59,8 +54,6 @@ export function fromWire(wire: WireResult): ExtractResult {
       new Uint8Array(data.buffer).set(bytes);
       return { ...s, data };
     }),
-    problems: wire.problems.map((p) => (p.kind === 'input' && p.file !== undefined
-      ? new InputError(p.code, p.file, p.text, p.hint)
-      : new ForelightError(p.stage, p.code, p.text, p.hint))),
+    problems: wire.problems.map(fromDiagnostic),
   };
 }

@@ -2,6 +2,7 @@
  * "Region outside every grid" check, which needs the data: the caller reads each source's grid extent from
  * its files and passes it here; problems are located at the region's entry in the YAML.
  */
+import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { pointerOf, problem } from './problem.ts';
 import { sourceMapOf } from './load-config.ts';
 import type { ConfigSourceMap } from './source-map.ts';
@@ -39,9 +40,9 @@ export function lonIntervals(west: number, east: number, lon360: boolean): [numb
 
 const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 && b0 <= a1;
 
-/** One `file:line:col: message — fix` line per region that lies entirely outside a source's grid. */
-export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined = sourceMapOf(config)): string[] {
-  const out: string[] = [];
+/** One diagnostic (at the region's YAML line) per region that lies entirely outside a source's grid. */
+export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined = sourceMapOf(config)): Diagnostic[] {
+  const out: Diagnostic[] = [];
   config.regions.forEach((region, i) => {
     const b = bounds(region.shape);
     for (const g of grids) {
@@ -51,7 +52,7 @@ export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExt
       const p = problem(pointerOf('regions', i),
         `region ${region.id} (lat ${b.south}..${b.north}, lon ${b.west}..${b.east}) lies outside the grid of source ${g.source} (lat ${g.latMin}..${g.latMax}, lon ${g.lonMin}..${g.lonMax})`,
         'check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files');
-      out.push(sourceMap ? sourceMap.format(p) : `${config.file}: ${p.message} — ${p.fix}`);
+      out.push(sourceMap ? sourceMap.place('config-grid', p) : diagnostic('config-grid', p.message, p.fix, { file: config.file, pointer: p.pointer }));
     }
   });
   return out;

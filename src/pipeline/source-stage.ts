@@ -12,7 +12,8 @@ import type { Extractor } from '../read/extract.ts';
 import type { ChecksumMemo } from '../core/file-checksums.ts';
 import { cachedSkill, fingerprint, skillCacheKey } from '../calibrate/skill-cache.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
-import { describeError, type ForelightError } from '../core/errors.ts';
+import { within, type Diagnostic } from '../core/diagnostics.ts';
+import { diagnosticOf, type ForelightError } from '../core/errors.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
 import type { LeadProbability } from '../types.ts';
 import { buildIndicatorClimate, type IndicatorClimate, type ObservedIndicators } from './climate-stage.ts';
@@ -29,7 +30,7 @@ export interface SourceOutcome {
   readonly forecastLeads: ReadonlyMap<string, LeadValues>;
   readonly fromCache: boolean;
   /** Region × indicator combinations that were skipped, with the reason. */
-  readonly problems: readonly string[];
+  readonly problems: readonly Diagnostic[];
 }
 
 export interface SharedContext {
@@ -86,7 +87,7 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
   const { climates, fromCache } = await loadClimates(ctx, input, read, fileProblems);
   const probabilities: LeadProbability[] = [];
   const forecastLeads = new Map<string, LeadValues>();
-  const problems: string[] = [];
+  const problems: Diagnostic[] = [];
   for (const { region, ind } of pairs(config, read.source.tier)) {
     const inputs = read.series.get(region.id);
     if (!inputs) continue; // the read stage already reported why
@@ -112,7 +113,8 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
         }),
       );
     } catch (err) {
-      problems.push(`${read.source.id} forecast ${read.path}, region ${region.id}, indicator ${ind.id}: ${describeError(err)}`);
+      const place = { file: read.path, source: read.source.id, region: region.id, indicator: ind.id };
+      problems.push(within(diagnosticOf(err, 'indicator-skipped'), `${read.source.id} forecast, region ${region.id}, indicator ${ind.id}`, place));
     }
   }
   return { source: read.source.id, probabilities, climates, forecastLeads, fromCache, problems };

@@ -6,6 +6,7 @@ import { climateKey } from '../../pipeline/source-stage.ts';
 import { percentileLinear } from '../../core/percentile.ts';
 import type { LeadValues } from '../../calibrate/lead-tiers.ts';
 import type { EnsembleSummary } from '../../decide/explain.ts';
+import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import type { Tier } from '../../types.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
@@ -34,7 +35,7 @@ export async function explainCommand(args: ParsedArgs): Promise<number> {
   const decision = decided.decisions.find((d) => d.region === region && d.indicator === indicator && d.tier === tier);
   if (!decision) {
     process.stdout.write(`no decision for ${region} × ${indicator} × ${tier} on ${issueDate}: no source of tier ${tier} computes this indicator, or its data were skipped\n`);
-    for (const p of analysis.problems) process.stdout.write(`  skipped: ${p}\n`);
+    for (const p of analysis.problems) process.stdout.write(`  skipped: ${formatDiagnostic(p)}\n`);
     return EXIT.inputProblem;
   }
   const used = decision.lead?.source ?? analysis.probabilities.find((p) => p.region === region && p.indicator === indicator && p.lead.tier === tier)?.source;
