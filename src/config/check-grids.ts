@@ -4,7 +4,6 @@
  */
 import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { pointerOf, problem } from './problem.ts';
-import { sourceMapOf } from './load-config.ts';
 import type { ConfigSourceMap } from './source-map.ts';
 import type { Config, RegionShape } from './types.ts';
 
@@ -40,8 +39,11 @@ export function lonIntervals(west: number, east: number, lon360: boolean): [numb
 
 const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 && b0 <= a1;
 
-/** One diagnostic (at the region's YAML line) per region that lies entirely outside a source's grid. */
-export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined = sourceMapOf(config)): Diagnostic[] {
+/**
+ * One diagnostic per region that lies entirely outside a source's grid, at the region's YAML line when the
+ * source map of the loaded configuration is given (`checkConfigFile` returns it), else naming the file only.
+ */
+export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
   const out: Diagnostic[] = [];
   config.regions.forEach((region, i) => {
     const b = bounds(region.shape);

@@ -35,15 +35,11 @@ export interface ConfigCheck {
   readonly sourceMap: ConfigSourceMap;
 }
 
-const sourceMaps = new WeakMap<Config, ConfigSourceMap>();
-
-/** The source map of a config returned by loadConfig/checkConfigFile (undefined for hand-made configs). */
-export function sourceMapOf(config: Config): ConfigSourceMap | undefined {
-  return sourceMaps.get(config);
-}
-
-/** The semantic checks, each with the code its problems carry. They need the included lists: without them every reference would look unknown. */
-const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>) => ConfigProblem[]])[] = [
+/**
+ * The semantic checks, each with the code its problems carry. They need the included lists: without them every
+ * reference would look unknown. The schema's problems let a check skip what the schema already refused.
+ */
+const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, schemaProblems: readonly ConfigProblem[]) => ConfigProblem[]])[] = [
   ['config-duplicate-id', checkDuplicateIds],
   ['config-reference', checkReferences],
   ['config-rule', checkRules],
@@ -90,16 +86,15 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
     else raw[key] = read.value;
   }
 
-  pending.push(...validateAgainstSchema(raw).map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
+  const schemaProblems = validateAgainstSchema(raw);
+  pending.push(...schemaProblems.map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
   if (includesComplete) {
-    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
+    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, schemaProblems).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
   }
   diagnostics.push(...pending.map(([code, p]) => sourceMap.place(code, p)));
   const unique = uniqueDiagnostics(diagnostics).sort(byPlace);
   if (unique.length > 0) return { diagnostics: unique, sourceMap };
-  const config = buildConfig(raw, file);
-  sourceMaps.set(config, sourceMap);
-  return { config, diagnostics: [], sourceMap };
+  return { config: buildConfig(raw, file), diagnostics: [], sourceMap };
 }
 
 /** Loads a configuration (default: the packaged Veloria sample); throws ConfigError listing every problem. */

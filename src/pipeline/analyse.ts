@@ -8,6 +8,7 @@ import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineSources } from '../calibrate/lead-tiers.ts';
 import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError, type ForelightError } from '../core/errors.ts';
+import { trackKey, type TrackKey } from '../core/keys.ts';
 import type { Logger } from '../core/log.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
@@ -32,10 +33,10 @@ export interface Analysis {
 }
 
 function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadResult): { kept: LeadProbability[]; notes: string[] } {
-  const groups = new Map<string, Map<string, LeadProbability[]>>();
+  const groups = new Map<TrackKey, Map<string, LeadProbability[]>>();
   for (const o of outcomes) {
     for (const p of o.probabilities) {
-      const key = `${p.region}|${p.indicator}|${p.lead.tier}`;
+      const key = trackKey(p.region, p.indicator, p.lead.tier);
       const bySource = groups.get(key) ?? new Map<string, LeadProbability[]>();
       groups.set(key, bySource);
       bySource.set(o.source, [...(bySource.get(o.source) ?? []), p]);
@@ -90,10 +91,23 @@ export async function analyse(
   }
   onProgress?.(total, total, 'done');
   const { kept, notes } = combine(sources, config, read);
+  for (const s of sources.filter((o) => o.cacheNote)) {
+    log.warn('model-climate cache', { source: s.source, note: s.cacheNote });
+    notes.push(`${s.source}: ${s.cacheNote}`);
+  }
   const problems = uniqueDiagnostics([...fileProblems.map((p) => p.diagnostic), ...sources.flatMap((s) => s.problems)]);
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
-  await checksums.save();
+  await saveChecksums(checksums, log);
   return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems, checksums };
+}
+
+/** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */
+export async function saveChecksums(checksums: ChecksumMemo, log: Logger): Promise<void> {
+  try {
+    await checksums.save();
+  } catch (err) {
+    log.warn('input checksums not remembered (they are computed again next run)', { error: describeError(err) });
+  }
 }
 
 function safeClimatology(read: ReadResult, region: string, log: Logger) {

@@ -11,6 +11,7 @@ import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
 import { bestProbabilityThreshold } from '../calibrate/verify.ts';
 import { formatDiagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
 import { diagnosticOf } from '../core/errors.ts';
+import { pairKey, type PairKey } from '../core/keys.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
 import type { IndicatorSeries } from '../types.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
@@ -26,7 +27,7 @@ export interface IndicatorClimate {
 }
 
 /** The observed indicator of a region over the whole observation record (one member), or why there is none. */
-export type ObservedIndicators = Map<string, IndicatorSeries | Diagnostic>;
+export type ObservedIndicators = Map<PairKey, IndicatorSeries | Diagnostic>;
 
 const isSeries = (v: IndicatorSeries | Diagnostic | null): v is IndicatorSeries => v !== null && 'data' in v;
 
@@ -35,7 +36,7 @@ export function observedIndicator(
 ): IndicatorSeries | Diagnostic | null {
   const obs = observed?.get(region.id);
   if (!obs) return null;
-  const key = `${region.id}|${ind.id}`;
+  const key = pairKey(region.id, ind.id);
   let result = memo.get(key);
   if (result === undefined) {
     try {

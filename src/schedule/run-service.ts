@@ -18,7 +18,7 @@ import type { Logger } from '../core/log.ts';
 import { EXIT, type ExitCode } from '../core/exit-codes.ts';
 import { acquireLock } from './lock-file.ts';
 import { checkCron, checkTimeZone, computeNextRuns } from '../core/next-runs.ts';
-import { makeRunReport, nextStatus, readStatus, writeStatus, type RunReport } from './status-file.ts';
+import { makeRunReport, nextStatus, readStatus, withServicePid, writeStatus, type RunReport } from './status-file.ts';
 
 export interface RunContext {
   readonly reason: 'scheduled' | 'catch-up';
@@ -93,11 +93,19 @@ export async function runService(options: ServiceOptions): Promise<void> {
 
   const record = (run: RunReport) => {
     try {
-      writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: expr, timezone, nextRun: nextRun() }, run));
+      writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: expr, timezone, nextRun: nextRun(), servicePid: process.pid }, run));
     } catch (err) {
       log.error('could not write the status file', { statusPath, error: describeError(err) });
     }
   };
+  const markService = (pid: number | null) => {
+    try {
+      writeStatus(statusPath, withServicePid(readStatus(statusPath), { cron: expr, timezone, nextRun: nextRun() }, pid, now()));
+    } catch (err) {
+      log.error('could not write the status file', { statusPath, error: describeError(err) });
+    }
+  };
+  markService(process.pid);
 
   const runSlot = async (slot: Date, reason: RunContext['reason']) => {
     const runStart = now();
@@ -160,5 +168,6 @@ export async function runService(options: ServiceOptions): Promise<void> {
   clearInterval(backstop);
   task.stop();
   await inFlight;
+  markService(null);
   log.info('service stopped');
 }

@@ -1,8 +1,7 @@
 /** `forelight explain --region R --indicator I --tier T`: the chain from inputs to stage, with the numbers. */
 import { explainDecision } from '../../decide/explain.ts';
-import { trackKey } from '../../decide/types.ts';
 import { decideNow } from '../../pipeline/decide-now.ts';
-import { climateKey } from '../../pipeline/source-stage.ts';
+import { pairKey, trackKey } from '../../core/keys.ts';
 import { percentileLinear } from '../../core/percentile.ts';
 import type { LeadValues } from '../../calibrate/lead-tiers.ts';
 import type { EnsembleSummary } from '../../decide/explain.ts';
@@ -39,7 +38,7 @@ export async function explainCommand(args: ParsedArgs): Promise<number> {
     return EXIT.inputProblem;
   }
   const used = decision.lead?.source ?? analysis.probabilities.find((p) => p.region === region && p.indicator === indicator && p.lead.tier === tier)?.source;
-  const leads = analysis.sources.find((s) => s.source === used)?.forecastLeads.get(climateKey(region, indicator));
+  const leads = analysis.sources.find((s) => s.source === used)?.forecastLeads.get(pairKey(region, indicator));
   const units = analysis.probabilities.find((p) => p.region === region && p.indicator === indicator)?.threshold.units ?? '';
   const lines = explainDecision({
     config, decision, probabilities: analysis.probabilities, previous: history.tracks[trackKey(region, indicator, tier)],
