@@ -27,6 +27,7 @@ interface WireSeries extends Omit<RegionSeries, 'data'> {
 export interface WireResult {
   readonly series: readonly WireSeries[];
   readonly problems: readonly WireProblem[];
+  readonly notes: readonly string[];
   /** The read itself failed with a Forelight error (the last problem): the coordinator throws it, as a local read would. */
   readonly thrown?: boolean;
 }
@@ -36,6 +37,7 @@ export function toWire(result: ExtractResult, thrown = false): WireResult {
     ...(thrown ? { thrown } : {}),
     series: result.series.map((s) => ({ ...s, data: Buffer.from(s.data.buffer, s.data.byteOffset, s.data.byteLength).toString('base64') })),
     problems: result.problems.map((p) => ({ input: p instanceof InputError, diagnostic: p.diagnostic })),
+    notes: result.notes,
   };
 }
 
@@ -55,5 +57,6 @@ export function fromWire(wire: WireResult): ExtractResult {
       return { ...s, data };
     }),
     problems: wire.problems.map(fromDiagnostic),
+    notes: [...wire.notes],
   };
 }

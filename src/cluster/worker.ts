@@ -35,7 +35,7 @@ async function work(job: Job<ExtractJob, WireResult>, log: Logger): Promise<Wire
     wire = toWire(await extractRegionSeries(path, request));
   } catch (err) {
     if (!(err instanceof ForelightError)) throw err;
-    wire = toWire({ series: [], problems: [err] }, true); // a bad file is an answer, not a reason to retry
+    wire = toWire({ series: [], problems: [err], notes: [] }, true); // a bad file is an answer, not a reason to retry
   }
   log.info('job done', { stage: 'read', job: job.id, path, ms: Date.now() - t0, series: wire.series.length });
   return wire;

@@ -25,6 +25,8 @@ export interface SourceRead {
   readonly stale: boolean;
   readonly referenceTime: string;
   readonly series: RegionQuantities;
+  /** How the forecast file's times were read where a convention decided it (for run.json notes). */
+  readonly notes: readonly string[];
 }
 
 export interface ReadResult {
@@ -44,12 +46,21 @@ function group(series: readonly RegionSeries[]): RegionQuantities {
   return out;
 }
 
+/** What one file read needs besides its path: the forecast date (or hindcast start) and the source's tier. */
+interface FileRequest {
+  readonly referenceTime?: string;
+  readonly tier?: SourceConfig['tier'];
+  /** Receives how the file's times were read (model calendar, monthly values). */
+  readonly notes?: string[];
+}
+
 async function readFile(
-  extract: Extractor, path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], referenceTime: string | undefined, problems: ForelightError[],
+  extract: Extractor, path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extract(path, { quantities, regions, referenceTime });
+    const r = await extract(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier });
     problems.push(...r.problems);
+    request.notes?.push(...r.notes);
     return group(r.series);
   } catch (err) {
     if (err instanceof ForelightError) {
@@ -90,7 +101,7 @@ export async function readHindcasts(
   // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
   const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
     const own: ForelightError[] = [];
-    return { series: await readFile(extract, h.path, source.variables, regions, h.start, own), own };
+    return { series: await readFile(extract, h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier }, own), own };
   });
   for (const [i, h] of files.entries()) {
     const { series, own } = read[i];
@@ -119,12 +130,13 @@ export async function readAll(config: Config, inputs: readonly SourceInputs[], e
       problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
       continue;
     }
-    const series = await readFile(extract, input.path, input.source.variables, config.regions, input.date, problems);
+    const notes: string[] = [];
+    const series = await readFile(extract, input.path, input.source.variables, config.regions, { referenceTime: input.date, tier: input.source.tier, notes }, problems);
     if (!series) continue;
-    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series });
+    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series, notes });
   }
   const observed = config.observations
-    ? await readFile(extract, config.observations.path, config.observations.variables, config.regions, undefined, problems)
+    ? await readFile(extract, config.observations.path, config.observations.variables, config.regions, {}, problems)
     : null;
   return { sources, observed, problems };
 }

@@ -33,7 +33,7 @@ function recordStatus(config: Config, report: RunReport): boolean {
 
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
-  const { config, log, issueDate } = await commandContext(args, 'run');
+  const { config, run } = await commandContext(args, 'run');
   const { lockPath } = servicePaths(config);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
@@ -43,9 +43,9 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   }
   const startedAt = new Date();
   const url = stringOption(args, 'cluster');
-  const cluster = url ? await connectCluster(url, { log, cacheDir: config.calibration.cacheDir }) : null;
+  const cluster = url ? await connectCluster(url, { log: run.log, cacheDir: config.calibration.cacheDir }) : null;
   try {
-    const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
+    const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
     return !recorded && outcome.exitCode === EXIT.ok ? EXIT.deliveryFailed : outcome.exitCode;

@@ -5,6 +5,7 @@
  */
 import { loadConfig } from '../../config/load-config.ts';
 import { createLogger, type Logger } from '../../core/log.ts';
+import { runContext } from '../../core/run-context.ts';
 import type { Config } from '../../config/types.ts';
 import type { Extractor } from '../../read/extract.ts';
 import { connectCluster } from '../../cluster/coordinator.ts';
@@ -37,10 +38,10 @@ async function serve(config: Config, log: Logger, extract: Extractor | undefined
       // Seasonal (months-tier) forecasts come once a month: the newest one is used, nobody waits for it.
       const expected = config.sources.filter((s) => s.tier !== 'months').map((s) => forecastPath(s.forecast, issueDate));
       const deadline = new Date(slot.getTime() + config.schedule.waitForDataMinutes * 60_000);
-      const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, undefined, undefined, signal);
+      const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, { signal });
       if (arrival.missing.length > 0) rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
       if (signal.aborted) return { exitCode: EXIT.stopped, summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it` };
-      return runOnce({ config, log: rlog, issueDate, mode: 'live', extract });
+      return runOnce({ config, run: runContext({ log: rlog, issueDate, signal }), mode: 'live', extract });
     },
   });
 }
