@@ -106,6 +106,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
   const index = publishArchive(config, rendered.archive);
+  for (const note of rendered.notes) log.warn(note, { stage: 'render' });
   log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length, archive: index });
   return { bulletins: rendered.bulletins.length };
 }
