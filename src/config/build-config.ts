@@ -5,7 +5,7 @@
  */
 import { dirname, resolve } from 'node:path';
 import type { Quantity, Tier } from '../types.ts';
-import { THRESHOLD_UNITS } from './indicator-needs.ts';
+import { thresholdUnits } from './threshold-units.ts';
 import type { Config, IndicatorConfig, IndicatorKind, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
 
 /** Debian's Chromium (package `chromium`), used for PDFs when `delivery.pdf-chromium` is not given. */
@@ -35,9 +35,14 @@ interface RawTree {
 
 const camel = (k: string) => k.replace(/-([a-z0-9])/g, (_, c: string) => c.toUpperCase());
 
+/** YAML `params:` (kebab-case keys) as the indicator kinds read them (camelCase keys). */
+export function paramsFromYaml(params: Readonly<Record<string, unknown>>): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(params).map(([k, v]) => [camel(k), v]));
+}
+
 function toThreshold(t: RawThreshold, kind: IndicatorKind): ThresholdSpec {
   if (t.percentile !== undefined) return { kind: 'percentile', percentile: t.percentile };
-  const family = THRESHOLD_UNITS[kind];
+  const family = thresholdUnits(kind);
   return { kind: 'absolute', value: family.accepted[t.units as string](t.value as number), units: family.canonical };
 }
 
@@ -46,6 +51,7 @@ function toShape(r: RawTree['regions'][number]): RegionShape {
   return { kind: 'polygon', ring: (r.polygon ?? []).map(([lon, lat]) => [lon, lat] as const) };
 }
 
+/** The schema has checked `params` against the kind's params schema, so kind and params belong together. */
 function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
   return {
     id: i.id,
@@ -56,8 +62,8 @@ function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
     regionThresholds: Object.fromEntries(Object.entries(i['region-thresholds'] ?? {}).map(([r, t]) => [r, toThreshold(t, i.kind)])),
     aggregate: i.aggregate,
     tiers: i.tiers,
-    params: Object.fromEntries(Object.entries(i.params ?? {}).map(([k, v]) => [camel(k), v])),
-  };
+    params: paramsFromYaml(i.params ?? {}),
+  } as IndicatorConfig;
 }
 
 function toRule(r: RawTree['trigger-rules'][number]): TriggerRule {

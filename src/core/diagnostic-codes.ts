@@ -64,6 +64,7 @@ export const DIAGNOSTIC_CODES = {
   'reference-several': { stage: 'read', severity: 'error', meaning: 'the file holds several forecast reference times', fix: 'split the file per forecast start' },
   'reference-invalid': { stage: 'read', severity: 'error', meaning: 'the requested reference time is not an ISO date', fix: 'pass YYYY-MM-DD or an ISO 8601 instant' },
   'reference-mismatch': { stage: 'read', severity: 'error', meaning: 'the file\'s forecast reference time differs from the date in its name', fix: 'check the file naming or the source path pattern' },
+  'input-folder': { stage: 'read', severity: 'error', meaning: 'a folder stands where a forecast file is expected', fix: 'point the source at a file; remove a folder a download created by mistake' },
   'region-empty': { stage: 'read', severity: 'error', meaning: 'a region contains no grid cell centre of the file', fix: 'enlarge the region or use a finer grid' },
   'region-all-missing': { stage: 'read', severity: 'error', meaning: 'every value of a region is missing (fill values)', fix: 'check the file\'s coverage and _FillValue' },
   'forecast-missing': { stage: 'read', severity: 'warning', meaning: 'no forecast of a source on or before the issue date', fix: 'check that the files arrived and the path pattern in sources[].forecast' },
@@ -87,7 +88,6 @@ export const DIAGNOSTIC_CODES = {
   'lead-days-gap': { stage: 'calibrate', severity: 'error', meaning: 'the forecast days are not consecutive', fix: 'provide daily data without gaps' },
   'verify-shape': { stage: 'calibrate', severity: 'error', meaning: 'forecasts and outcomes differ in number (internal)', fix: 'report it' },
   'percentile-range': { stage: 'calibrate', severity: 'error', meaning: 'a percentile is outside 0..100', fix: 'give a percentile between 0 and 100' },
-  'skill-cache-write': { stage: 'calibrate', severity: 'error', meaning: 'the skill cache cannot be written', fix: 'make calibration.cacheDir writable or point it elsewhere' },
   'checksum-read': { stage: 'calibrate', severity: 'error', meaning: 'a file cannot be read to checksum it', fix: 'check that the file exists and is readable' },
   // decide
   'bad-stage-history': { stage: 'decide', severity: 'error', meaning: 'the stored stage history is unusable', fix: 'inspect the ledger; a run with --force starts a fresh history' },
@@ -104,12 +104,14 @@ export const DIAGNOSTIC_CODES = {
   'no-cautions': { stage: 'render', severity: 'error', meaning: 'no caution text for a locale', fix: 'add cautions for that locale' },
   'bad-recipient': { stage: 'render', severity: 'error', meaning: 'a team recipient is not an e-mail address', fix: 'fix the address in teams[].recipients' },
   'archive-entry': { stage: 'render', severity: 'error', meaning: 'an archive entry is unreadable', fix: 'delete or restore the file named; the archive is rebuilt from the others' },
+  'write-failed': { stage: 'render', severity: 'error', meaning: 'an output file (archive, status, cache, outbox) cannot be written: disk full, read-only or not permitted', fix: 'follow the fix named for the errno (free space, remount read-write, permissions)' },
   // deliver
   'delivery-temporary': { stage: 'deliver', severity: 'warning', meaning: 'a delivery failed and will be retried', fix: 'check the SMTP server; the retry is automatic' },
   'delivery-permanent': { stage: 'deliver', severity: 'error', meaning: 'a delivery failed and will not be retried', fix: 'fix the address or SMTP settings named' },
   // ledger
   'ledger-open': { stage: 'ledger', severity: 'error', meaning: 'the ledger file cannot be opened', fix: 'check that its folder exists and is writable, or change config "ledger"' },
   'ledger-newer': { stage: 'ledger', severity: 'error', meaning: 'the ledger was written by a newer Forelight', fix: 'upgrade Forelight or point config "ledger" at another file' },
+  'ledger-write': { stage: 'ledger', severity: 'error', meaning: 'the ledger cannot be written (disk full, read-only, I/O error); nothing is sent without it', fix: 'follow the fix named; the next run resumes this one' },
   'run-unknown': { stage: 'ledger', severity: 'error', meaning: 'a run id is not in the ledger', fix: 'list runs with `forelight status`' },
   'run-in-progress': { stage: 'ledger', severity: 'error', meaning: 'another live process is issuing the same forecast', fix: 'wait for it to finish or stop that process' },
   'bulletin-unknown': { stage: 'ledger', severity: 'error', meaning: 'a bulletin row is not in the ledger', fix: 'list bulletins of the run' },

@@ -89,10 +89,23 @@ export async function analyse(
   }
   onProgress?.(total, total, 'done');
   const { kept, notes } = combine(sources, config, read);
+  for (const s of sources.filter((o) => o.cacheNote)) {
+    log.warn('model-climate cache', { source: s.source, note: s.cacheNote });
+    notes.push(`${s.source}: ${s.cacheNote}`);
+  }
   const problems = uniqueDiagnostics([...fileProblems.map((p) => p.diagnostic), ...sources.flatMap((s) => s.problems)]);
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
-  await checksums.save();
+  await saveChecksums(checksums, log);
   return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems, checksums };
+}
+
+/** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */
+export async function saveChecksums(checksums: ChecksumMemo, log: Logger): Promise<void> {
+  try {
+    await checksums.save();
+  } catch (err) {
+    log.warn('input checksums not remembered (they are computed again next run)', { error: describeError(err) });
+  }
 }
 
 function safeClimatology(read: ReadResult, region: string, log: Logger) {

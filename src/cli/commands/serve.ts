@@ -25,7 +25,7 @@ export async function serveCommand(args: ParsedArgs): Promise<number> {
       const deadline = new Date(slot.getTime() + config.schedule.waitForDataMinutes * 60_000);
       const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, undefined, undefined, signal);
       if (arrival.missing.length > 0) rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
-      if (signal.aborted) return { exitCode: EXIT.ok, summary: 'stopped before the run' };
+      if (signal.aborted) return { exitCode: EXIT.stopped, summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it` };
       return runOnce({ config, log: rlog, issueDate, mode: 'live' });
     },
   });
