@@ -11,7 +11,6 @@ import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { isDeepStrictEqual } from 'node:util';
-import { format, resolveConfig } from 'prettier';
 import type { IndicatorDefinition, JsonSchema } from '../src/indicators/definition.ts';
 import { REFERENCES, type ReferenceKey } from '../src/indicators/references.ts';
 
@@ -136,6 +135,7 @@ export async function generatedFiles(root = ROOT): Promise<GeneratedFile[]> {
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  const { format, resolveConfig } = await import('prettier');
   for (const f of await generatedFiles()) {
     const file = join(ROOT, f.path);
     const changed = !f.same(readFileSync(file, 'utf8'));

@@ -25,6 +25,8 @@ export interface SourceRead {
   readonly stale: boolean;
   readonly referenceTime: string;
   readonly series: RegionQuantities;
+  /** How the forecast file's times were read where a convention decided it (for run.json notes). */
+  readonly notes: readonly string[];
 }
 
 export interface ReadResult {
@@ -44,12 +46,21 @@ function group(series: readonly RegionSeries[]): RegionQuantities {
   return out;
 }
 
+/** What one file read needs besides its path: the forecast date (or hindcast start) and the source's tier. */
+interface FileRequest {
+  readonly referenceTime?: string;
+  readonly tier?: SourceConfig['tier'];
+  /** Receives how the file's times were read (model calendar, monthly values). */
+  readonly notes?: string[];
+}
+
 async function readFile(
-  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], referenceTime: string | undefined, problems: ForelightError[],
+  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extractRegionSeries(path, { quantities, regions, referenceTime });
+    const r = await extractRegionSeries(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier });
     problems.push(...r.problems);
+    request.notes?.push(...r.notes);
     return group(r.series);
   } catch (err) {
     if (err instanceof ForelightError) {
@@ -76,7 +87,7 @@ export async function readHindcasts(
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   for (const h of files) {
-    const series = await readFile(h.path, source.variables, regions, h.start, problems);
+    const series = await readFile(h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier }, problems);
     if (!series) continue;
     for (const [region, cells] of regionCells(series)) {
       const expected = forecastCells?.get(region);
@@ -101,12 +112,13 @@ export async function readAll(config: Config, inputs: readonly SourceInputs[]): 
       problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
       continue;
     }
-    const series = await readFile(input.path, input.source.variables, config.regions, input.date, problems);
+    const notes: string[] = [];
+    const series = await readFile(input.path, input.source.variables, config.regions, { referenceTime: input.date, tier: input.source.tier, notes }, problems);
     if (!series) continue;
-    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series });
+    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series, notes });
   }
   const observed = config.observations
-    ? await readFile(config.observations.path, config.observations.variables, config.regions, undefined, problems)
+    ? await readFile(config.observations.path, config.observations.variables, config.regions, {}, problems)
     : null;
   return { sources, observed, problems };
 }
