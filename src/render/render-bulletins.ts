@@ -4,7 +4,7 @@
  * Refuses to render (throws) when a locale in use has no cautions.
  */
 import type { Bulletin } from '../types.ts';
-import type { Config, TeamConfig } from '../config/types.ts';
+import type { TeamConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { ArchiveEntry } from './archive.ts';
 import { bulletinContext, topStage, type ChartRef } from './bulletin-context.ts';
@@ -12,7 +12,7 @@ import type { Translate } from './catalogue.ts';
 import { buildCapAlerts } from './cap.ts';
 import { buildChartSpecs, chartWidth, renderChartPng, renderChartSvg, type ChartSpec } from './charts.ts';
 import { chartWords } from './chart-words.ts';
-import type { BulletinRun, CapAlert, PreviousIssue } from './model.ts';
+import type { BulletinRun, CapAlert, PreviousIssue, RenderConfig } from './model.ts';
 import { buildRegionView, hazardName, type RegionView } from './region-view.ts';
 import { renderPdfs } from './pdf.ts';
 import { renderRunJson } from './run-json.ts';
@@ -31,7 +31,7 @@ export interface RenderedRun {
 }
 
 /** Cautions of a locale (with its typography); throws when there are none, so no bulletin can go out without them. */
-export function cautionsFor(config: Config, locale: string): readonly string[] {
+export function cautionsFor(config: RenderConfig, locale: string): readonly string[] {
   const list = (config.cautions[locale] ?? []).filter((c) => c.trim() !== '');
   if (list.length === 0) {
     throw new ForelightError('render', 'no-cautions', `config.cautions has no caution text for locale "${locale}"`, `add cautions.${locale} to the config YAML; bulletins are never sent without them`);
@@ -56,7 +56,7 @@ function localDay(iso: string, utcOffsetHours: number): string {
 interface LocaleCharts { specs: Map<string, ChartSpec[]>; svg: Map<string, string>; png: Map<string, Uint8Array> }
 
 /** Render a run for every team, plus CAP, JSON and the archive entry. */
-export async function renderBulletins(config: Config, run: BulletinRun, previous?: PreviousIssue): Promise<RenderedRun> {
+export async function renderBulletins(config: RenderConfig, run: BulletinRun, previous?: PreviousIssue): Promise<RenderedRun> {
   const env = createTemplateEnv(config.templates);
   const nationalTeams = config.teams.filter((t) => t.national);
   const archiveLocale = nationalTeams[0]?.locale ?? config.teams[0]?.locale ?? 'en';
