@@ -18,7 +18,19 @@ export interface SourceConfig {
   readonly variables: Readonly<Partial<Record<Quantity, string>>>;
   /** Newer/finer sources win overlaps: lower number = higher priority. */
   readonly priority: number;
+  /**
+   * How many days before the issue date a late source's newest forecast may be (YAML `look-back-days`);
+   * default one issue interval of the tier (DEFAULT_LOOKBACK_DAYS).
+   */
+  readonly lookbackDays: number;
 }
+
+/**
+ * Default look-back per tier: seasonal forecasts are issued monthly, so one issue interval plus a few days of
+ * delivery delay is 35 days; daily and sub-seasonal sources (issued daily to twice weekly) keep 10 days.
+ * Common practice, no source.
+ */
+export const DEFAULT_LOOKBACK_DAYS: Readonly<Record<Tier, number>> = { days: 10, weeks: 10, months: 35 };
 
 export interface ObservationsConfig {
   /** Gridded daily observations (or reanalysis) covering the hindcast years. */
@@ -162,6 +174,8 @@ export interface DeliveryConfig {
   readonly operators: readonly string[];
   readonly retries: number;
   readonly retryBaseSeconds: number;
+  /** Chromium used to print each bulletin to PDF (`pdf-chromium`); null or absent: bulletins go without PDF. */
+  readonly pdfChromium?: string | null;
 }
 
 export interface ScheduleConfig {
@@ -206,6 +220,9 @@ export interface Config {
   readonly cautions: Readonly<Record<string, readonly string[]>>;
   /** Words for probability ranges: upper bounds ascending with a word per locale. */
   readonly probabilityWords: readonly { readonly below: number; readonly words: Readonly<Record<string, string>> }[];
+  /** SQLite file (absolute path) or PostgreSQL URL `postgres://user@host:port/db` (never with a password). */
   readonly ledger: string;
+  /** Environment variable holding the PostgreSQL ledger's password; never the password itself. */
+  readonly ledgerPasswordEnv?: string;
   readonly templates: string;
 }
