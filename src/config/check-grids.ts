@@ -3,8 +3,9 @@
  * its files and passes it here; problems are located at the region's entry in the YAML.
  */
 import { pointerOf, problem } from './problem.ts';
-import { sourceMapOf } from './load-config.ts';
+import { regionEntryOf, sourceMapOf } from './load-config.ts';
 import type { ConfigSourceMap } from './source-map.ts';
+import { shapeBounds, type ShapeBounds } from './region-shape.ts';
 import type { Config, RegionShape } from './types.ts';
 
 export interface GridExtent {
@@ -18,11 +19,11 @@ export interface GridExtent {
   readonly lon360: boolean;
 }
 
-function bounds(shape: RegionShape): { south: number; north: number; west: number; east: number } {
+function bounds(shape: RegionShape): ShapeBounds {
   if (shape.kind === 'box') return shape;
-  const lons = shape.ring.map((p) => p[0]);
-  const lats = shape.ring.map((p) => p[1]);
-  return { south: Math.min(...lats), north: Math.max(...lats), west: Math.min(...lons), east: Math.max(...lons) };
+  const b = shapeBounds(shape);
+  // A shape crossing 180° is checked as two arcs' envelope: the whole longitude circle.
+  return b.east > 180 ? { ...b, west: -180, east: 180 } : b;
 }
 
 /** Region longitudes (-180..180) as intervals in the grid's convention; a box across 0° splits on a 0..360 grid. */
@@ -38,7 +39,8 @@ const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 &&
 /** One `file:line:col: message — fix` line per region that lies entirely outside a source's grid. */
 export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined = sourceMapOf(config)): string[] {
   const out: string[] = [];
-  config.regions.forEach((region, i) => {
+  config.regions.forEach((region) => {
+    const i = regionEntryOf(config, region.id);
     const b = bounds(region.shape);
     for (const g of grids) {
       const latOk = overlaps(b.south, b.north, g.latMin, g.latMax);

@@ -5,6 +5,7 @@
 import { dirname, resolve } from 'node:path';
 import { ConfigError } from '../core/errors.ts';
 import { packagePath } from '../core/package-root.ts';
+import { loadRegionSets, type RegionSets } from './boundaries/region-sets.ts';
 import { buildConfig } from './build-config.ts';
 import { checkCombine } from './check-combine.ts';
 import { checkIndicators } from './check-indicators.ts';
@@ -33,6 +34,18 @@ export interface ConfigCheck {
 }
 
 const sourceMaps = new WeakMap<Config, ConfigSourceMap>();
+
+const regionEntries = new WeakMap<Config, ReadonlyMap<string, number>>();
+
+function entryOf(rawRegions: unknown, id: string, byEntry: RegionSets['byEntry']): number {
+  for (const [i, regions] of byEntry) if (regions.some((r) => r.id === id)) return i;
+  return (rawRegions as { id?: string }[]).findIndex((r) => r.id === id);
+}
+
+/** Index of the `regions:` entry (inline region or boundary file) a region comes from, for YAML positions. */
+export function regionEntryOf(config: Config, regionId: string): number {
+  return regionEntries.get(config)?.get(regionId) ?? config.regions.findIndex((r) => r.id === regionId);
+}
 
 /** The source map of a config returned by loadConfig/checkConfigFile (undefined for hand-made configs). */
 export function sourceMapOf(config: Config): ConfigSourceMap | undefined {
@@ -86,14 +99,18 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
 
   pending.push(...validateAgainstSchema(raw));
   // Semantic checks need the included lists: without them every reference would look unknown.
+  let sets: RegionSets = { byEntry: new Map(), problems: [] };
   if (includesComplete) {
-    pending.push(...checkDuplicateIds(raw), ...checkReferences(raw), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw), ...checkCombine(raw));
+    sets = await loadRegionSets(raw, dirname(file));
+    const setIds = [...sets.byEntry.values()].flat().map((r) => r.id);
+    pending.push(...sets.problems, ...checkDuplicateIds(raw), ...checkReferences(raw, setIds), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw), ...checkCombine(raw));
   }
   problems.push(...pending.map((p) => sourceMap.format(p)));
   const unique = [...new Set(problems)].sort(byPosition);
   if (unique.length > 0) return { problems: unique, sourceMap };
-  const config = buildConfig(raw, file);
+  const config = buildConfig(raw, file, sets.byEntry);
   sourceMaps.set(config, sourceMap);
+  regionEntries.set(config, new Map(config.regions.map((r) => [r.id, raw.regions === undefined ? 0 : entryOf(raw.regions, r.id, sets.byEntry)])));
   return { config, problems: [], sourceMap };
 }
 

@@ -28,6 +28,7 @@ export function validateAgainstSchema(raw: unknown): ConfigProblem[] {
   const out: ConfigProblem[] = [];
   const seen = new Set<string>();
   for (const e of validate.errors ?? []) {
+    if (e.keyword === 'if') continue; // "must match then/else": the errors of that branch are reported themselves
     const p = describeSchemaError(e);
     const key = `${p.pointer}|${p.message}`;
     if (!seen.has(key)) {

@@ -44,11 +44,22 @@ function group(series: readonly RegionSeries[]): RegionQuantities {
   return out;
 }
 
+/** Where a run keeps region weights: beside the model-climate cache (calibration.cache-dir). */
+export interface ReadPlace {
+  readonly regions: readonly RegionConfig[];
+  readonly weightsCacheDir: string;
+}
+
+/** The regions of `config` and the folder of their weights cache. */
+export function readPlace(config: Config): ReadPlace {
+  return { regions: config.regions, weightsCacheDir: config.calibration.cacheDir };
+}
+
 async function readFile(
-  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], referenceTime: string | undefined, problems: ForelightError[],
+  path: string, quantities: SourceConfig['variables'], place: ReadPlace, referenceTime: string | undefined, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extractRegionSeries(path, { quantities, regions, referenceTime });
+    const r = await extractRegionSeries(path, { quantities, regions: place.regions, referenceTime, weightsCacheDir: place.weightsCacheDir });
     problems.push(...r.problems);
     return group(r.series);
   } catch (err) {
@@ -72,11 +83,11 @@ export function regionCells(series: RegionQuantities): Map<string, number> {
  * region with a message, so its leads are not calibrated on a different grid.
  */
 export async function readHindcasts(
-  source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>,
+  source: SourceConfig, files: readonly HindcastFile[], place: ReadPlace, problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>,
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   for (const h of files) {
-    const series = await readFile(h.path, source.variables, regions, h.start, problems);
+    const series = await readFile(h.path, source.variables, place, h.start, problems);
     if (!series) continue;
     for (const [region, cells] of regionCells(series)) {
       const expected = forecastCells?.get(region);
@@ -101,12 +112,12 @@ export async function readAll(config: Config, inputs: readonly SourceInputs[]): 
       problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
       continue;
     }
-    const series = await readFile(input.path, input.source.variables, config.regions, input.date, problems);
+    const series = await readFile(input.path, input.source.variables, readPlace(config), input.date, problems);
     if (!series) continue;
     sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series });
   }
   const observed = config.observations
-    ? await readFile(config.observations.path, config.observations.variables, config.regions, undefined, problems)
+    ? await readFile(config.observations.path, config.observations.variables, readPlace(config), undefined, problems)
     : null;
   return { sources, observed, problems };
 }

@@ -17,7 +17,7 @@ import type { LeadProbability } from '../types.ts';
 import { buildIndicatorClimate, type IndicatorClimate, type ObservedIndicators } from './climate-stage.ts';
 import { indicatorContext } from './indicator-context.ts';
 import type { SourceInputs } from './inputs.ts';
-import { readHindcasts, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
+import { readHindcasts, readPlace, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
 
 export interface SourceOutcome {
   readonly source: string;
@@ -65,7 +65,7 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, read: Sourc
     memo: ctx.checksums,
   });
   const cached = await cachedSkill<Record<string, StoredClimate>>(config.calibration.cacheDir, key, async () => {
-    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series));
+    const hindcasts = await readHindcasts(source, input.hindcasts, readPlace(config), problems, regionCells(read.series));
     const out: Record<string, StoredClimate> = {};
     for (const { region, ind } of pairs(config, source.tier)) {
       const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
