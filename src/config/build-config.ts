@@ -14,7 +14,7 @@ import type { Config, IndicatorConfig, IndicatorKind, RegionConfig, RegionShape,
 type Texts = Record<string, string>;
 interface RawThreshold { percentile?: number; value?: number; units?: string }
 interface RawTree {
-  country: string;
+  country: string | Texts;
   sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number }[];
   observations?: { file: string; variables: Partial<Record<Quantity, string>> } | null;
   regions: ({ id: string; name: string; box?: { south: number; north: number; west: number; east: number }; polygon?: [number, number][]; teams: string[] } & Record<string, unknown>)[];
@@ -90,7 +90,8 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
   const words = raw['probability-words'];
   return {
     file,
-    country: raw.country,
+    country: typeof raw.country === 'string' ? raw.country : raw.country.en ?? Object.values(raw.country)[0],
+    countryNames: typeof raw.country === 'string' ? {} : raw.country,
     sources: raw.sources.map((s) => ({
       id: s.id,
       name: s.name,

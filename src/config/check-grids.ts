@@ -26,12 +26,16 @@ function bounds(shape: RegionShape): ShapeBounds {
   return b.east > 180 ? { ...b, west: -180, east: 180 } : b;
 }
 
-/** Region longitudes (-180..180) as intervals in the grid's convention; a box across 0° splits on a 0..360 grid. */
-function lonIntervals(west: number, east: number, lon360: boolean): [number, number][] {
-  if (!lon360) return [[west, east]];
-  if (west >= 0) return [[west, east]];
-  if (east < 0) return [[west + 360, east + 360]];
-  return [[west + 360, 360], [0, east]];
+/**
+ * The arc from `west` eastwards to `east` (west > east crosses 180°) as intervals in the grid's convention
+ * (0..360 or -180..180); an arc across the end of that range splits in two.
+ */
+export function lonIntervals(west: number, east: number, lon360: boolean): [number, number][] {
+  const lo = lon360 ? 0 : -180;
+  const start = lo + ((((west - lo) % 360) + 360) % 360);
+  const span = east - west >= 360 ? 360 : (((east - west) % 360) + 360) % 360;
+  const end = start + span;
+  return end <= lo + 360 ? [[start, end]] : [[start, lo + 360], [lo, end - 360]];
 }
 
 const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 && b0 <= a1;

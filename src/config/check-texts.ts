@@ -1,6 +1,6 @@
 /**
  * Semantic checks on wording: every locale a team reads needs stage labels, meanings, default actions,
- * cautions and probability words; team-specific actions need the team's locale; bands ascend.
+ * cautions, probability words and (when `country:` is per locale) the country's name; team-specific actions need the team's locale; bands ascend.
  */
 import { list, num, obj, text, type RawObject } from './raw-access.ts';
 import { pointerOf, problem, type ConfigProblem } from './problem.ts';
@@ -46,6 +46,12 @@ export function checkTexts(raw: RawObject): ConfigProblem[] {
       }
     }
   });
+
+  if (raw.country !== null && typeof raw.country === 'object') {
+    for (const [locale, team] of locales) {
+      if (text(obj(raw.country)[locale]) === undefined) out.push(problem(pointerOf('country'), `country has no name in ${locale} (read by team ${team})`, `add ${locale}: under country:`));
+    }
+  }
 
   const cautions = obj(raw.cautions);
   for (const [locale, team] of locales) {

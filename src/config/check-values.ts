@@ -55,7 +55,8 @@ function checkShape(r: RawObject, i: number): ConfigProblem[] {
     const b = obj(r.box);
     const [s, n, w, e] = [num(b.south), num(b.north), num(b.west), num(b.east)];
     if (s !== undefined && n !== undefined && s >= n) out.push(problem(at('box', 'north'), `north ${n} is not north of south ${s}`, 'swap south and north'));
-    if (w !== undefined && e !== undefined && w >= e) out.push(problem(at('box', 'east'), `east ${e} is not east of west ${w}`, 'swap west and east (longitudes -180..180; a box may not cross 180°)'));
+    // West > east is a box across the 180° meridian (e.g. 172 → -174), read eastwards from west.
+    if (w !== undefined && e !== undefined && w === e) out.push(problem(at('box', 'east'), `east ${e} equals west ${w}: the box has no width`, 'give the eastern edge (a box across 180° has west > east, e.g. west: 172, east: -174)'));
     return out;
   }
   const ring = list(r.polygon).map((p) => list(p));

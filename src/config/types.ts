@@ -180,7 +180,7 @@ export interface DeliveryConfig {
 }
 
 export interface ScheduleConfig {
-  /** node-cron expression (5 or 6 fields). */
+  /** Classic cron expression (5 or 6 fields; day of month OR day of week), read by croner (src/core/next-runs.ts). */
   readonly cron: string;
   /** IANA time zone. */
   readonly timezone: string;
@@ -201,7 +201,10 @@ export interface CalibrationConfig {
 export interface Config {
   /** Absolute path of the main YAML file. */
   readonly file: string;
+  /** Country name as written when no per-locale name is given (the English one when `country:` is per locale). */
   readonly country: string;
+  /** Country name per locale (`country: { en: ..., fr: ... }` in the YAML); empty when one name serves every locale. */
+  readonly countryNames: Readonly<Record<string, string>>;
   readonly sources: readonly SourceConfig[];
   readonly observations: ObservationsConfig | null;
   readonly regions: readonly RegionConfig[];

@@ -82,7 +82,7 @@ export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
     runId: input.runId,
     issuedAt: input.issuedAt.toISOString().replace(/\.\d{3}Z$/, 'Z'),
     mode: input.mode,
-    forecastDates: input.sources.map((s) => ({ source: s.source.id, name: s.source.name, referenceTime: s.referenceTime, basedOnOlder: s.stale })),
+    forecastDates: input.sources.map((s) => ({ source: s.source.id, name: s.source.name, tier: s.source.tier, referenceTime: s.referenceTime, basedOnOlder: s.stale })),
     nextIssue: nextIssueDate(config, input.issuedAt),
     regions,
     notes: input.notes,

@@ -50,11 +50,6 @@ export interface VariableLayout {
   readonly memberAxis: number;
 }
 
-export interface CellMethod {
-  readonly names: readonly string[];
-  readonly method: string;
-}
-
 const MEMBER_NAMES = ['number', 'realization', 'realisation', 'member', 'members', 'ensemble', 'ens', 'member_id', 'ensemble_member'];
 const LEAD_NAMES = ['step', 'forecast_period', 'lead_time', 'leadtime', 'lead'];
 const REFERENCE_NAMES = ['forecast_reference_time', 'reftime', 'reference_time'];
@@ -219,24 +214,4 @@ export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: strin
     }
   });
   return layout;
-}
-
-/** Parses a CF `cell_methods` string ("area: mean time: maximum (interval: 6 hours)") into name lists and methods. */
-export function parseCellMethods(text: string): CellMethod[] {
-  const out: CellMethod[] = [];
-  const cleaned = text.replace(/\([^)]*\)/g, ' ');
-  const re = /((?:[A-Za-z_][\w]*:\s*)+)([A-Za-z_]+)/g;
-  for (let m = re.exec(cleaned); m !== null; m = re.exec(cleaned)) {
-    const names = m[1].split(':').map((s) => s.trim()).filter((s) => s !== '');
-    out.push({ names, method: m[2] });
-  }
-  return out;
-}
-
-/** The CF method applied along time to `info` (`point`, `maximum`, `minimum`, `mean`, `sum`, …), or null when unstated. */
-export function timeCellMethod(info: VariableInfo, time: TimeAxis | null): string | null {
-  const text = attr(info, 'cell_methods');
-  if (text === undefined) return null;
-  const names = new Set(['time', ...(time ? [time.variable, time.dimension] : [])]);
-  return parseCellMethods(text).find((c) => c.names.some((n) => names.has(n)))?.method ?? null;
 }

@@ -2,24 +2,29 @@
  * Sub-daily steps → local calendar days (max, min, mean or sum per grid cell, before any area mean: the
  * order of CDO's `daymax` then `fldmean`).
  *
- * What period a step speaks for (its interval):
- *  - `time_bnds` present: the bounds.
- *  - no bounds, `cell_methods` says time: maximum/minimum/mean/sum, or the quantity is an amount or a rate:
- *    the interval ENDING at the stamp, since the previous stamp (the first step: since the reference time,
- *    else one spacing). A 6-hour maximum stamped 06Z covers 00–06Z. For daily (or coarser) steps this holds
- *    only when the first stamp lies a full step after the forecast reference time (values stamped 24 h,
- *    48 h, … after it); otherwise (no reference, e.g. observations) a daily value belongs to its stamp's date.
- *  - otherwise an instantaneous sample at the stamp, standing for one nominal spacing (median step).
- *  - accumulated-since-start fields: step i covers (stamp[i-1], stamp[i]], the first (reference, stamp[0]].
+ * What period a step speaks for (its interval), in this order (src/read/DECISIONS.md gives the sources):
+ *  1. `time_bnds` (CF 1.11 §7.1): the bounds.
+ *  2. no bounds, a period variable (`cell_methods` time: maximum/minimum/mean/sum…, CF §7.3, or an amount,
+ *     accumulation or rate): the period ENDING at the stamp, as GRIB-converted parameters are encoded
+ *     (maximum, minimum, mean or total over the period before the step). Its length is the `cell_methods`
+ *     `(interval: …)` when that is not shorter than the axis spacing, else the spacing since the previous stamp.
+ *     With a reference time R (forecast_reference_time, or the forecast date the file was found under), no
+ *     period starts before R: a stamp AT R is step 0 (zero length, no day of its own), a first stamp less than
+ *     one period after R covers (R, stamp]. Without any reference time (observations), sub-daily periods end at
+ *     their stamps and a daily (or coarser) value belongs to its stamp's date (observation archives stamp the
+ *     start of the day: common practice, no source).
+ *  3. otherwise an instantaneous sample at the stamp, standing for one nominal spacing (median step).
+ *  Accumulated-since-start fields: step i covers (stamp[i-1], stamp[i]], the first (R or bounds start, stamp[0]].
  * A step belongs to the local day (UTC + the region clock's offset at that instant: a fixed offset, or an IANA
  * zone following daylight saving) holding its interval MIDPOINT, never its stamp alone.
  * A local day is kept only when its steps cover 24 h, or the whole day when it is shorter (23 h on a
  * spring-forward day; a 25 h autumn day needs 24 h, as steps of 3 or 6 h cannot fill 25 h) (sum of interval
- * lengths; samples count one spacing each). Incomplete first/last days are DROPPED, so lead day 1 is the first complete local day.
+ * lengths; samples count one spacing each). Incomplete first/last days are DROPPED, so lead day 1 is the first
+ * complete local day.
  * A cell's daily value is NaN when any of its steps in that day is missing.
  * Daily (or coarser) input passes through: one step per day, dated by the UTC date of its interval's
- * midpoint (so an end-stamped daily maximum gets the day before its stamp, a start-stamped one its stamp's
- * day); no local shift, as a daily value cannot be re-cut into local days.
+ * midpoint (so an end-stamped daily maximum gets the day before its stamp); no local shift, as a daily value
+ * cannot be re-cut into local days.
  */
 import { localDayLengthMs, localDayNumber, type LocalClock } from '../core/local-clock.ts';
 import type { IsoDate } from '../types.ts';
@@ -48,10 +53,12 @@ const COVERAGE_SLACK_MS = 1000;
 export interface IntervalInput {
   readonly stampsMs: Float64Array;
   readonly boundsMs: Float64Array | null;
-  /** forecast_reference_time, or null. */
+  /** forecast_reference_time (or the forecast date the file was found under), or null. */
   readonly referenceMs: number | null;
   /** Steps are means/extremes/sums over the period before the stamp. */
   readonly periodEndingAtStamp: boolean;
+  /** Period length from `cell_methods` `(interval: …)`, ms, or null when unstated. */
+  readonly periodMs?: number | null;
   /** Values are accumulated from the reference time (bounds, when present, all start at one instant). */
   readonly accumulated: boolean;
 }
@@ -64,33 +71,36 @@ function medianSpacing(stamps: Float64Array): number {
   return d[Math.floor(d.length / 2)];
 }
 
+/** Median spacing of the stamps, or `fallback` for a single step. */
+export function axisSpacing(stamps: Float64Array, fallback = DAY_MS): number {
+  return stamps.length > 1 ? medianSpacing(stamps) : fallback;
+}
+
 /** The interval each step speaks for (rules in the module comment). */
 export function stepIntervals(input: IntervalInput): StepIntervals {
   const { stampsMs, boundsMs, referenceMs } = input;
   const n = stampsMs.length;
   const startMs = new Float64Array(n);
   const endMs = new Float64Array(n);
-  const spacing = medianSpacing(stampsMs);
-  const firstStart = (): number => (referenceMs !== null && referenceMs <= stampsMs[0] ? referenceMs : stampsMs[0] - spacing);
-  if (input.accumulated) {
-    for (let i = 0; i < n; i++) {
-      endMs[i] = boundsMs ? boundsMs[2 * i + 1] : stampsMs[i];
-      startMs[i] = i > 0 ? endMs[i - 1] : boundsMs ? boundsMs[0] : firstStart();
-    }
-    return { startMs, endMs, instantaneous: false };
-  }
+  const spacing = axisSpacing(stampsMs, input.periodMs ?? DAY_MS);
+  const length = input.periodMs != null && input.periodMs >= spacing - COVERAGE_SLACK_MS ? input.periodMs : spacing;
+  const firstStart = (): number => {
+    if (referenceMs === null || referenceMs > stampsMs[0]) return stampsMs[0] - length;
+    return input.accumulated ? referenceMs : Math.max(referenceMs, stampsMs[0] - length);
+  };
   if (boundsMs) {
     for (let i = 0; i < n; i++) {
-      startMs[i] = boundsMs[2 * i];
       endMs[i] = boundsMs[2 * i + 1];
+      startMs[i] = !input.accumulated ? boundsMs[2 * i] : i > 0 ? endMs[i - 1] : boundsMs[0];
     }
     return { startMs, endMs, instantaneous: false };
   }
-  const endStampedDaily = referenceMs !== null && stampsMs[0] - referenceMs >= spacing - COVERAGE_SLACK_MS;
-  const periodEnding = input.periodEndingAtStamp && (spacing < DAY_MS - COVERAGE_SLACK_MS || endStampedDaily);
+  const daily = spacing >= DAY_MS - COVERAGE_SLACK_MS;
+  const periodEnding = input.accumulated || (input.periodEndingAtStamp && (referenceMs !== null || !daily));
   for (let i = 0; i < n; i++) {
     endMs[i] = stampsMs[i];
-    startMs[i] = !periodEnding ? stampsMs[i] : i > 0 ? stampsMs[i - 1] : firstStart();
+    const previous = input.accumulated || input.periodMs == null ? stampsMs[i - 1] : Math.max(stampsMs[i - 1], stampsMs[i] - length);
+    startMs[i] = !periodEnding ? stampsMs[i] : i > 0 ? previous : firstStart();
   }
   return { startMs, endMs, instantaneous: !periodEnding };
 }
@@ -145,6 +155,23 @@ export function deaccumulateInPlace(values: Float64Array, cells: number, carry: 
     values[c] -= carry[c];
     carry[c] = acc;
   }
+}
+
+/** Decreases of an accumulation up to this (mm) are packing noise of GRIB-converted fields, set to 0 (common practice, no source). */
+export const ACCUMULATION_NOISE_MM = 1e-3;
+
+/**
+ * After `deaccumulateInPlace` (values in mm): sets amounts in [-ACCUMULATION_NOISE_MM, 0) to 0 and returns the
+ * first larger decrease as { row, by } (row = step within the chunk, by = mm), or null. NaN is left alone.
+ */
+export function clampAccumulationNoise(values: Float64Array, cells: number): { row: number; by: number } | null {
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (!(v < 0)) continue;
+    if (v < -ACCUMULATION_NOISE_MM) return { row: Math.floor(i / cells), by: -v };
+    values[i] = 0;
+  }
+  return null;
 }
 
 /** Which part of the whole series a chunk of `[step][cell]` values holds, and where its days go in `out`. */

@@ -6,7 +6,6 @@
 import type { RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { regionClock } from '../core/local-clock.ts';
-import type { Quantity } from '../types.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { DailyMethod } from './daily.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
@@ -15,7 +14,7 @@ import { reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
 import { regionSetCells } from './region-weights.ts';
 import { planBand } from './regions-band.ts';
-import { planUnits, type UnitPlan } from './units.ts';
+import { missingUnitsError, planUnits, type UnitPlan } from './units.ts';
 
 export interface RawRegionMeans {
   readonly units: string;
@@ -75,16 +74,24 @@ export function extractRegionsJson(path: string, variable: string, regions: read
 }
 
 /** Quantities tried, in order, to find a variable's canonical units for `extract` (standard_name breaks ties). */
-const GUESS_ORDER: readonly Quantity[] = ['tmean', 'rh', 'precip', 'wind'];
+const GUESS_ORDER = ['tmean', 'rh', 'precip', 'wind'] as const;
+
+const NAME_PATTERNS: Readonly<Record<'tmean' | 'rh' | 'precip' | 'wind', RegExp>> = {
+  tmean: /temperature/, rh: /relative_humidity/, precip: /precipitation|rain/, wind: /wind/,
+};
 
 /**
  * The conversion of a variable to canonical units (°C, %, mm/day, m/s) judged from its units and standard_name,
  * or null when it is none of those quantities (values are then printed in the file's own units).
+ * @throws UnitError (the same line as `run` gives) when the variable has no units at all.
  */
 export function canonicalUnitPlan(info: VariableInfo, file: string): UnitPlan | null {
   const units = info.attributes.units;
   const standardName = String(info.attributes.standard_name ?? '');
-  if (typeof units !== 'string') return null;
+  if (typeof units !== 'string' || units.trim() === '') {
+    const guess = GUESS_ORDER.find((q) => NAME_PATTERNS[q as keyof typeof NAME_PATTERNS].test(standardName)) ?? null;
+    throw missingUnitsError(file, info.name, guess);
+  }
   const fits = GUESS_ORDER.flatMap((q) => {
     try {
       return [planUnits(q, units, file, info.name)];
@@ -93,7 +100,6 @@ export function canonicalUnitPlan(info: VariableInfo, file: string): UnitPlan | 
     }
   });
   if (fits.length <= 1) return fits[0] ?? null;
-  const byName = fits.find((p) => (p.quantity === 'wind' ? /wind/ : p.quantity === 'precip' ? /precipitation|rain/ : /temperature/).test(standardName));
+  const byName = fits.find((p) => NAME_PATTERNS[p.quantity as keyof typeof NAME_PATTERNS].test(standardName));
   return byName ?? null;
 }
-

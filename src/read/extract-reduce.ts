@@ -5,11 +5,12 @@
  * weighted mean over each region's cells. Missing cells are skipped and the weights renormalised per
  * member and step. No per-value objects.
  */
+import { InputError } from '../core/errors.ts';
 import type { LocalClock } from '../core/local-clock.ts';
 import type { Dataset } from './dataset.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
 import { bandCellReader, type BandCellReader } from './extract-read.ts';
-import { deaccumulateInPlace, planLocalDays, reduceToDays, type DailyMethod, type DayPlan, type StepIntervals } from './daily.ts';
+import { clampAccumulationNoise, deaccumulateInPlace, planLocalDays, reduceToDays, type DailyMethod, type DayPlan, type StepIntervals } from './daily.ts';
 import type { BandRegion, GridBand } from './regions-band.ts';
 import { convertInPlace, type UnitPlan } from './units.ts';
 
@@ -116,6 +117,13 @@ function readsAhead(read: BandCellReader, members: number, starts: readonly numb
   };
 }
 
+/** A running accumulation that decreases is not one: name file, variable, member, step and the fix (tested on such a file). */
+function accumulationDecrease(file: string, variable: string, member: number, step: number, validAt: string, byMm: number): InputError {
+  return new InputError('accumulation-decrease', file,
+    `variable '${variable}' member index ${member} step ${step} (valid ${validAt}) is ${byMm.toPrecision(3)} mm below the step before, so it is not accumulated since the start`,
+    `if it holds per-step totals, say so (ncatted -a cell_methods,${variable},o,c,"time: sum" ${file}); otherwise replace the file`);
+}
+
 /** Area means of every region of `req`, all members, in the order of `req.regions`. */
 export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: ReduceRequest): Promise<RegionMeans[]> {
   const { layout, band, regions, intervals } = req;
@@ -141,7 +149,11 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
       const t0 = starts[c];
       const values = await reads.next(m, c);
       if (req.unitPlan) convertInPlace(values, req.unitPlan);
-      if (req.accumulated) deaccumulateInPlace(values, bandCells, carry);
+      if (req.accumulated) {
+        deaccumulateInPlace(values, bandCells, carry);
+        const drop = clampAccumulationNoise(values, bandCells);
+        if (drop) throw accumulationDecrease(ds.path, layout.info.name, m, t0 + drop.row, stamps[t0 + drop.row], drop.by);
+      }
       for (const o of offsets) {
         const plan = plans.get(o);
         let src = values;

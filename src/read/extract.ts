@@ -11,7 +11,7 @@ import type { Quantity, RegionSeries } from '../types.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { Dataset } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
-import { dailyMethodFor, planTime, referenceTimeMs } from './extract-plan.ts';
+import { dailyMethodFor, planTime, referenceWindowMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
@@ -40,18 +40,23 @@ function keepOrRethrow(err: unknown, problems: ForelightError[]): void {
   else throw err;
 }
 
-/** Throws when the file's reference time differs from the requested one. */
-function checkReference(file: string, fileMs: number, requested: string | undefined): void {
-  if (requested === undefined) return;
+/** The requested reference time in ms (ISO date or instant), or null when none was requested. */
+function requestedMs(file: string, requested: string | undefined): number | null {
+  if (requested === undefined) return null;
   const wanted = Date.parse(/^\d{4}-\d{2}-\d{2}$/.test(requested) ? `${requested}T00:00:00Z` : requested);
   if (Number.isNaN(wanted)) {
     throw new InputError('reference-invalid', file, `requested reference time '${requested}' is not an ISO 8601 date`, 'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ');
   }
-  if (wanted !== fileMs) {
-    throw new InputError('reference-mismatch', file,
-      `the file holds the forecast of ${isoInstant(fileMs)} but ${isoInstant(wanted)} was requested`,
-      'the file name and its contents disagree: check the source path pattern or replace the file');
-  }
+  return wanted;
+}
+
+/** The reference time of the series: the requested one when the file is consistent with it; throws otherwise. */
+function checkReference(file: string, window: { earliest: number; latest: number }, wanted: number | null): number {
+  if (wanted === null) return window.latest;
+  if (wanted >= window.earliest && wanted <= window.latest) return wanted;
+  throw new InputError('reference-mismatch', file,
+    `the file holds the forecast of ${isoInstant(window.latest)} but ${isoInstant(wanted)} was requested`,
+    'the file name and its contents disagree: check the source path pattern or replace the file');
 }
 
 /** Reads every requested quantity for every region from an opened dataset (see `extractRegionSeries`). */
@@ -59,6 +64,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const problems: ForelightError[] = [];
   const series: RegionSeries[] = [];
   const coords = await findCoordinates(ds);
+  const wanted = requestedMs(ds.path, request.referenceTime);
   const { selected, problems: cellProblems } = regionSetCells(coords.grid, request.regions, coords.file, request.weightsCacheDir ?? null);
   problems.push(...cellProblems);
   const { band, regions } = planBand(selected.map((s) => s.cells), coords.grid.lat.length, coords.grid.lon.length);
@@ -68,12 +74,12 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
       const layout = layoutVariable(ds, coords, variable);
       const units = layout.info.attributes.units;
       const unitPlan = planUnits(quantity, typeof units === 'string' ? units : undefined, ds.path, variable);
-      const timePlan = planTime(coords, layout, unitPlan);
-      const refMs = referenceTimeMs(coords, timePlan);
-      if (refMs === null) {
+      const timePlan = planTime(coords, layout, unitPlan, wanted);
+      const window = referenceWindowMs(coords, timePlan);
+      if (window === null) {
         throw new InputError('time-missing', ds.path, `variable '${variable}' has no time axis`, 'map the quantity to a variable with a CF time coordinate');
       }
-      checkReference(ds.path, refMs, request.referenceTime);
+      const refMs = checkReference(ds.path, window, wanted);
       const means = await reduceVariable(ds, coords, {
         layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
         clocks: selected.map((s) => regionClock(s.region)),

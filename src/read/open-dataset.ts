@@ -8,6 +8,8 @@ import { InputError } from '../core/errors.ts';
 import type { Dataset } from './dataset.ts';
 import { openClassicDataset } from './classic-dataset.ts';
 import { openHdf5Dataset } from './hdf5-dataset.ts';
+import { gribAsNetcdf, looksLikeGrib, withGribReference } from './grib-convert.ts';
+import { stackMembers } from './member-stack.ts';
 
 const HDF5_SIGNATURE = Buffer.from([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a]);
 
@@ -17,8 +19,39 @@ function describeMagic(bytes: Buffer): string {
   return `starts with "${text}"`;
 }
 
-/** Opens a NetCDF file of any supported flavour (classic, 64-bit offset, CDF-5, NetCDF-4/HDF5). */
+/** Opens a NetCDF file of any supported flavour (classic, 64-bit offset, CDF-5, NetCDF-4/HDF5), or GRIB through ecCodes. */
 export async function openDataset(path: string): Promise<Dataset> {
+  const head = await readHead(path);
+  if (looksLikeGrib(path, head)) return openGrib(path);
+  return openNetcdf(path);
+}
+
+async function readHead(path: string): Promise<Buffer> {
+  const handle = await open(path, 'r').catch(() => null);
+  if (!handle) return Buffer.alloc(0); // openNetcdf names the problem
+  try {
+    const head = Buffer.alloc(4);
+    const { bytesRead } = await handle.read(head, 0, 4, 0);
+    return head.subarray(0, bytesRead);
+  } finally {
+    await handle.close();
+  }
+}
+
+/** A GRIB file as the NetCDF parts ecCodes converted it to (grib-convert.ts), members stacked in order. */
+async function openGrib(path: string): Promise<Dataset> {
+  const parts: Dataset[] = [];
+  try {
+    for (const nc of await gribAsNetcdf(path)) parts.push(await openNetcdf(nc));
+    if (parts.length === 0) throw new InputError('grib-empty', path, 'holds no GRIB message', 'check that the download is complete (grib_ls lists the messages)');
+    return withGribReference(await stackMembers(path, parts));
+  } catch (err) {
+    for (const p of parts) await p.close().catch(() => undefined);
+    throw err;
+  }
+}
+
+async function openNetcdf(path: string): Promise<Dataset> {
   let handle;
   try {
     handle = await open(path, 'r');

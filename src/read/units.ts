@@ -132,18 +132,21 @@ export function normaliseUnits(units: string): string {
     .replace(/[\s_.·]+/g, '');
 }
 
+/** The one-line error for a variable without units (`run` and `extract` alike); `quantity` null when unknown. */
+export function missingUnitsError(file: string, variable: string, quantity: Quantity | null): UnitError {
+  const example = `e.g. ncatted -a units,${variable},o,c,<units> ${file}`;
+  return quantity === null
+    ? new UnitError(`${file}: variable '${variable}' has no units attribute`, `set it to its units (${example}); without units its values cannot be read`)
+    : new UnitError(`${file}: variable '${variable}' (${quantity}) has no units attribute`, `set it to one of ${SUGGESTED[quantity]} (${example}) or map ${quantity} to another variable`);
+}
+
 /**
  * The conversion of one variable's values to the canonical units of `quantity`.
  * @throws UnitError naming file and variable when `units` is missing or not convertible.
  */
 export function planUnits(quantity: Quantity, units: string | undefined, file: string, variable: string): UnitPlan {
   const target = CANONICAL_UNITS[quantity];
-  if (units === undefined || units.trim() === '') {
-    throw new UnitError(
-      `${file}: variable '${variable}' (${quantity}) has no units attribute`,
-      `set it to one of ${SUGGESTED[quantity]} (e.g. ncatted -a units,${variable},o,c,<units> ${file}) or map ${quantity} to another variable`,
-    );
-  }
+  if (units === undefined || units.trim() === '') throw missingUnitsError(file, variable, quantity);
   const rule = RULES[quantity][normaliseUnits(units)];
   if (!rule) {
     throw new UnitError(

@@ -1,10 +1,12 @@
 /**
- * Static HTML archive of issued bulletins: `index.html` (by date, by region, by stage — glyph + label on every
- * stage) and per run `<runId>/index.html`, `<runId>/charts/*.svg`, `<runId>/cap/*.xml`, `<runId>/run.json`.
+ * Static HTML archive of issued bulletins: `index.html` (per run: region, stage, the hazard that drove it and
+ * for which dates), per run `<runId>/index.html`, `charts/*.svg`, `cap/*.xml`, `pdf/*.pdf`, `run.json`, and per
+ * region `regions/<region>.html` with its stage history and a small timeline (`regions/<region>.svg`).
  * Regenerated in full from the list of issued runs the ledger keeps; no scripts or external resources.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { renderTimelineSvg, TIMELINE_WIDTH } from './archive-timeline.ts';
 import { formatDay } from './locale-format.ts';
 import { toToken } from './safe-text.ts';
 import { createTemplateEnv } from './template-env.ts';
@@ -19,6 +21,9 @@ export interface ArchiveRegion {
   readonly glyph: string;
   readonly colour: string;
   readonly ink: string;
+  /** The hazard that set the stage and the dates it concerns ('' when nothing passed a trigger level; absent in older entries). */
+  readonly hazard?: string;
+  readonly dates?: string;
 }
 
 /** One issued run, as `renderBulletins` returns it (serialisable: the ledger may store it as JSON). */
@@ -33,7 +38,12 @@ export interface ArchiveEntry {
   /** Rendered (already escaped) HTML body of the run page; charts referenced as `charts/<file>.svg`. */
   readonly bodyHtml: string;
   readonly charts: readonly { readonly filename: string; readonly svg: string }[];
-  readonly capAlerts: readonly { readonly filename: string; readonly xml: string }[];
+  /** CAP alerts with the region and hazard they concern (names absent in older entries). */
+  readonly capAlerts: readonly { readonly filename: string; readonly xml: string; readonly regionName?: string; readonly hazard?: string }[];
+  /** Printable PDFs per team, base64 (absent when Chromium was not available). */
+  readonly pdfs?: readonly { readonly filename: string; readonly team: string; readonly base64: string }[];
+  /** The stage ladder in the entry's locale, lowest first (absent in older entries). */
+  readonly ladder?: readonly { readonly glyph: string; readonly label: string }[];
   readonly json: string;
 }
 
@@ -50,34 +60,47 @@ export function writeArchive(dir: string, entries: readonly ArchiveEntry[], opti
   const sorted = [...entries].sort((a, b) => b.issuedAt.localeCompare(a.issuedAt));
   const locale = options.locale ?? sorted[0]?.locale ?? 'en';
   const written: string[] = [];
-  const put = (rel: string, content: string): void => {
+  const put = (rel: string, content: string | Buffer): void => {
     const path = join(dir, rel);
     mkdirSync(join(path, '..'), { recursive: true });
     writeFileSync(path, content);
     written.push(rel);
   };
 
-  const runs = sorted.map((e) => ({ ...e, folder: toToken(e.runId), date: formatDay(locale, e.issuedDay) }));
+  const runs = sorted.map((e) => ({ ...e, pdfs: e.pdfs ?? [], folder: toToken(e.runId), date: formatDay(locale, e.issuedDay) }));
   for (const run of runs) {
     for (const c of run.charts) put(`${run.folder}/charts/${c.filename}`, c.svg);
     for (const a of run.capAlerts) put(`${run.folder}/cap/${a.filename}`, a.xml);
+    for (const p of run.pdfs) put(`${run.folder}/pdf/${p.filename}`, Buffer.from(p.base64, 'base64'));
     put(`${run.folder}/run.json`, run.json);
-    put(`${run.folder}/index.html`, env.render(`${run.locale}/archive-page.html.njk`, { run, date: formatDay(run.locale, run.issuedDay) }));
+    put(`${run.folder}/index.html`, env.render('archive-page.html.njk', run.locale, { run, date: formatDay(run.locale, run.issuedDay) }));
   }
 
   const regionIds = [...new Map(runs.flatMap((r) => r.regions.map((g) => [g.id, g.name] as const))).entries()];
+  const t = env.t(locale);
   const byRegion = regionIds.map(([id, name]) => ({
-    id, name,
-    runs: runs.flatMap((r) => r.regions.filter((g) => g.id === id).map((g) => ({ folder: r.folder, date: r.date, stage: g }))),
+    id, name, file: `${toToken(id)}.html`,
+    items: runs.flatMap((r) => r.regions.filter((g) => g.id === id).map((g) => ({ folder: r.folder, date: r.date, stage: g }))),
   }));
-  const stageRows = new Map<string, { stage: ArchiveRegion; items: { folder: string; date: string; region: string }[] }>();
-  for (const r of runs) {
-    for (const g of r.regions) {
-      const row = stageRows.get(g.stageId) ?? { stage: g, items: [] };
-      row.items.push({ folder: r.folder, date: r.date, region: g.name });
-      stageRows.set(g.stageId, row);
-    }
+  for (const g of byRegion) {
+    const oldestFirst = [...g.items].reverse();
+    const ladder = runs[0]?.ladder ?? ladderOf(runs.flatMap((r) => r.regions));
+    const points = oldestFirst.map((i) => ({ date: i.date, rank: i.stage.rank, glyph: i.stage.glyph, colour: i.stage.colour, ink: i.stage.ink }));
+    const alt = t('archive.timelineAlt', { region: g.name, points: oldestFirst.map((i) => `${i.date}: ${i.stage.glyph} ${i.stage.label}`).join(', ') });
+    put(`regions/${g.file.replace(/\.html$/, '.svg')}`, renderTimelineSvg(points, ladder, alt));
+    put(`regions/${g.file}`, env.render('archive-region.html.njk', locale, { region: g, timelineAlt: alt, timelineWidth: TIMELINE_WIDTH }));
   }
-  put('index.html', env.render(`${locale}/archive-index.html.njk`, { runs, byRegion, byStage: [...stageRows.values()].sort((a, b) => b.stage.rank - a.stage.rank) }));
+  put('index.html', env.render('archive-index.html.njk', locale, { runs, byRegion }));
   return written;
+}
+
+/** The ladder as seen in the entries (rank → glyph and label); ranks never seen get the nearest lower label. */
+function ladderOf(seen: readonly ArchiveRegion[]): { glyph: string; label: string }[] {
+  const top = Math.max(0, ...seen.map((s) => s.rank));
+  const ladder: { glyph: string; label: string }[] = [];
+  for (let rank = 0; rank <= top; rank++) {
+    const s = seen.find((x) => x.rank === rank);
+    ladder.push(s ? { glyph: s.glyph, label: s.label } : { glyph: '·', label: String(rank + 1) });
+  }
+  return ladder;
 }

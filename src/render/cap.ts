@@ -22,7 +22,9 @@ import type { Config } from '../config/types.ts';
 import { escapeXml, toToken, toXmlChars } from './safe-text.ts';
 import type { BulletinRun, CapAlert, PreviousIssue, RegionOutcome, TierOutcome } from './model.ts';
 import type { TemplateEnv } from './template-env.ts';
-import { buildRegionView, stageIndex, type RegionView } from './view-model.ts';
+import { countryName } from './bulletin-context.ts';
+import { buildRegionView, type RegionView } from './region-view.ts';
+import { stageIndex, sureSentence } from './view-model.ts';
 
 export const CAP_NAMESPACE = 'urn:oasis:names:tc:emergency:cap:1.2';
 
@@ -102,22 +104,25 @@ function infoXml(config: Config, env: TemplateEnv, outcome: RegionOutcome, ind: 
   const tierView = view.tiers.find((t) => t.tier === ind.tier.tier && t.indicatorId === ind.id) ?? view.tiers[0];
   const stageView = tierView.stage;
   const leadView = tierView.leads.find((l) => lead !== null && l.index === lead.lead.index) ?? null;
-  const args = { region: outcome.region.name, indicator: ind.name, stage: stageView, lead: leadView, tier: ind.tier.tier };
+  const t = env.t(locale);
+  const hazard = tierView.hazard;
   const p = lead?.probability ?? 0;
   const parts = [
     el('language', locale), el('category', 'Health'), el('category', 'Met'),
-    el('event', env.phrase(locale, 'capEvent', args)),
+    el('event', t('cap.event', { hazard })),
     el('urgency', stage.cap.urgency), el('severity', stage.cap.severity), el('certainty', capCertainty(p)),
-    el('audience', env.phrase(locale, 'capAudience', args)),
+    el('audience', t('cap.audience')),
   ];
   if (lead) {
     parts.push(el('onset', capLocalMidnight(lead.lead.start, outcome.region)));
     parts.push(el('expires', capLocalMidnight(nextDay(lead.lead.end), outcome.region)));
   }
   parts.push(
-    el('senderName', env.phrase(locale, 'capSenderName', { country: config.country })),
-    el('headline', env.phrase(locale, 'capHeadline', args)),
-    el('description', env.phrase(locale, 'capDescription', args)),
+    el('senderName', t('cap.senderName', { country: countryName(config, locale) })),
+    el('headline', t('cap.headline', { region: outcome.region.name, glyph: stageView.glyph, label: stageView.label, hazard, dates: leadView?.dates ?? 'none' })),
+    el('description', leadView
+      ? t('cap.description', { meaning: stageView.meaning, hazard, threshold: tierView.threshold, dates: leadView.dates, chance: leadView.chance, word: leadView.word, normal: leadView.normal, sure: sureSentence(t, leadView) })
+      : stageView.meaning),
     el('instruction', stageView.actions),
   );
   const params: [string, string][] = [['forelight:stage', stage.id], ['forelight:tier', ind.tier.tier]];
@@ -140,7 +145,7 @@ export function buildCapAlerts(config: Config, env: TemplateEnv, run: BulletinRu
   const alerts: CapAlert[] = [];
   for (const outcome of run.regions) {
     const locales = localesFor(config, outcome);
-    const views = new Map(locales.map((l) => [l, buildRegionView(config, outcome, l, 'default')]));
+    const views = new Map(locales.map((l) => [l, buildRegionView(config, outcome, l, 'default', env.t(l))]));
     for (const ind of indicatorStages(config, outcome)) {
       const before = previous?.alerts.find((a) => a.region === outcome.region.id && a.indicator === ind.id) ?? null;
       const active = ind.rank > 0;
@@ -153,9 +158,9 @@ export function buildCapAlerts(config: Config, env: TemplateEnv, run: BulletinRu
         el('identifier', identifier), el('sender', sender), el('sent', sent),
         el('status', run.mode === 'exercise' ? 'Exercise' : 'Actual'), el('msgType', msgType),
         el('source', 'Forelight'), el('scope', 'Restricted'),
-        el('restriction', env.phrase(locales[0], 'capRestriction', {})),
+        el('restriction', env.t(locales[0])('cap.restriction')),
       ];
-      if (run.mode === 'exercise') head.push(el('note', env.phrase(locales[0], 'capExerciseNote', {})));
+      if (run.mode === 'exercise') head.push(el('note', env.t(locales[0])('cap.exerciseNote')));
       if (before && priorActive) head.push(el('references', `${before.sender},${before.id},${before.sent}`));
       const infos = locales.map((l) => infoXml(config, env, outcome, ind, views.get(l) as RegionView, l));
       const xml = `<?xml version="1.0" encoding="UTF-8"?>\n<alert xmlns="${CAP_NAMESPACE}">${head.join('')}${infos.join('')}</alert>\n`;

@@ -42,6 +42,8 @@ export interface ChartSpec {
 
 /** Localised words a chart needs (from `phrases.njk`). */
 export interface ChartWords {
+  /** Officer's name of an indicator (the catalogue's hazard name). */
+  hazard(indicator: string): string;
   title(region: string, indicator: string): string;
   description(region: string, indicator: string, panels: readonly ChartPanel[]): string;
   tier(tier: Tier): string;
@@ -88,9 +90,9 @@ export function buildChartSpecs(config: Config, outcome: RegionOutcome, locale: 
     return {
       key: toToken(`${outcome.region.id}-${ind.id}`),
       indicator: ind.id,
-      indicatorName: ind.name,
-      title: words.title(outcome.region.name, ind.name),
-      description: words.description(outcome.region.name, ind.name, panels),
+      indicatorName: words.hazard(ind.id),
+      title: words.title(outcome.region.name, words.hazard(ind.id)),
+      description: words.description(outcome.region.name, words.hazard(ind.id), panels),
       yLabel: words.yLabel,
       legend: words.legend,
       panels,

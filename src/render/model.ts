@@ -25,6 +25,8 @@ export interface ForecastDate {
   readonly source: string;
   /** Human-readable source name (`SourceConfig.name`). */
   readonly name: string;
+  /** Lead-time tier the source serves (names the forecast in the bulletin's own language). */
+  readonly tier: Tier;
   /** ISO 8601 UTC reference time of the forecast actually used. */
   readonly referenceTime: string;
   /** True when the expected newer forecast was missing and this older one was used. */

@@ -1,13 +1,18 @@
 /**
- * Turns a RegionOutcome into what templates print for one locale and audience: labels, dates and percentages
- * already formatted, confidence tied to the skill at each lead. No wording lives here — sentences are in
- * `templates/<locale>/phrases.njk`; this module only picks which sentence applies and supplies the numbers.
+ * Building blocks of what templates print for one locale and audience: stages, leads and their short groups,
+ * labels, dates and percentages already formatted. Sentences come from the message catalogue (`t`); this module
+ * picks which message applies and supplies the numbers. Region assembly is in `region-view.ts`.
  */
-import type { LeadProbability, Tier } from '../types.ts';
+import type { LeadProbability, SkillSummary, Tier } from '../types.ts';
 import type { Config, StageConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
+import type { Translate } from './catalogue.ts';
 import { formatDayRange, formatNumber, formatPercent } from './locale-format.ts';
-import type { RegionOutcome, TierOutcome } from './model.ts';
+import type { TierOutcome } from './model.ts';
+import { reachedRank } from './reached-stage.ts';
+import { applyTypography } from './typography.ts';
+
+export const TIERS: readonly Tier[] = ['days', 'weeks', 'months'];
 
 export interface StageView {
   readonly id: string;
@@ -21,64 +26,49 @@ export interface StageView {
   readonly actions: string;
 }
 
-/** Which confidence sentence applies at a lead. */
-export type ConfidenceKind = 'observed' | 'potential' | 'no-skill' | 'unchecked';
+/** How sure a lead is, from its skill figures (message `sure.<level>`). */
+export type SureLevel = 'high' | 'medium' | 'low' | 'none' | 'unchecked';
 
 export interface LeadView {
   readonly tier: Tier;
   readonly index: number;
+  readonly start: string;
+  readonly end: string;
   readonly dates: string;
+  /** Exceedance probability 0..1 (NaN when missing), for ordering; printed as `chance`. */
+  readonly probability: number;
   readonly chance: string;
   readonly normal: string;
   readonly word: string;
-  readonly threshold: string;
-  readonly thresholdOrigin: string;
-  readonly confidence: ConfidenceKind;
+  /** Stage this lead's probability reaches under the probability rules (lowest for a withheld lead). */
+  readonly reached: StageView;
+  readonly sure: SureLevel;
+  readonly potential: boolean;
   /** Skill score at this lead formatted for the locale ('' when there is none). */
   readonly score: string;
-  readonly scoreName: Config['decision']['skillGate']['score'];
   readonly cases: number;
   readonly deciding: boolean;
   readonly withheld: boolean;
   readonly flags: readonly string[];
 }
 
-export interface TierView {
-  readonly tier: Tier;
-  readonly indicatorId: string;
-  readonly indicator: string;
-  readonly stage: StageView;
-  readonly deciding: LeadView | null;
-  readonly leads: readonly LeadView[];
-  readonly reasons: readonly string[];
+/** Consecutive leads that reach the same stage with the same confidence, merged into one row. */
+export interface LeadGroup {
+  readonly dates: string;
+  readonly reached: StageView;
+  readonly chance: string;
+  readonly normal: string;
+  readonly noSkill: boolean;
+  readonly deciding: boolean;
 }
 
-export interface IndicatorView {
-  readonly id: string;
-  readonly name: string;
-  /** This indicator's tiers, days → weeks → months as given. */
-  readonly tiers: readonly TierView[];
-}
-
-export interface RegionView {
-  readonly id: string;
-  readonly name: string;
-  readonly stage: StageView;
-  readonly previous: StageView | null;
-  readonly change: 'new' | 'raised' | 'lowered' | 'held';
-  readonly changeReason: string;
-  readonly tiers: readonly TierView[];
-  /** The same tiers grouped by indicator (first-seen order). */
-  readonly indicators: readonly IndicatorView[];
-}
-
-/** Text of a per-locale record, or a one-line render error naming what is missing. */
+/** Text of a per-locale record (with the locale's typography), or a one-line render error naming what is missing. */
 export function pickLocale(record: Readonly<Record<string, string>> | undefined, locale: string, what: string): string {
   const text = record?.[locale];
   if (text === undefined || text.trim() === '') {
     throw new ForelightError('render', 'missing-translation', `${what} has no text for locale "${locale}"`, `add a "${locale}" entry for it in the config YAML`);
   }
-  return text;
+  return applyTypography(locale, text);
 }
 
 /** Stage ladder lookups for one config. */
@@ -115,7 +105,7 @@ export function probabilityWord(config: Config, p: number, locale: string): stri
   return pickLocale(band.words, locale, `probability word band below ${band.below}`);
 }
 
-const UNIT_SYMBOLS: Readonly<Record<string, string>> = { degC: '°C', 'degC^2': '°C²', 'mm/day': 'mm/day', '%': '%', '1': '' };
+const UNIT_SYMBOLS: Readonly<Record<string, string>> = { degC: '°C', degC2: '°C²', 'degC^2': '°C²', 'mm/day': 'mm/day', '%': '%', '1': '' };
 
 /** Threshold as printed: "35 °C" from `{value: 35, units: 'degC'}`. */
 export function formatThreshold(locale: string, value: number, units: string): string {
@@ -123,25 +113,42 @@ export function formatThreshold(locale: string, value: number, units: string): s
   return `${formatNumber(locale, value, 1)}${symbol ? `\u00a0${symbol}` : ''}`;
 }
 
-function leadView(config: Config, p: LeadProbability, outcome: TierOutcome, locale: string): LeadView {
-  const gate = config.decision.skillGate;
-  const skill = p.skill;
-  const confidence: ConfidenceKind = !skill ? 'unchecked' : !skill.skilful ? 'no-skill' : skill.basis === 'potential' ? 'potential' : 'observed';
-  const score = skill ? skill[gate.score] : Number.NaN;
+/**
+ * Confidence level from the skill gate's score. Cut points (common practice, no source): ROC area 0.8 and 0.7
+ * (0.5 = no discrimination), Brier skill score 0.3 and 0.1 (0 = no better than the normal-year frequency).
+ */
+export function sureLevel(config: Config, skill: SkillSummary | null): SureLevel {
+  if (!skill) return 'unchecked';
+  if (!skill.skilful) return 'none';
+  const score = skill[config.decision.skillGate.score];
+  const [high, medium] = config.decision.skillGate.score === 'rocArea' ? [0.8, 0.7] : [0.3, 0.1];
+  return score >= high ? 'high' : score >= medium ? 'medium' : 'low';
+}
+
+/** One plain sentence on how sure a lead is (message `sure.<level>`, plus `sure.potential` for model-only skill). */
+export function sureSentence(t: Translate, lead: Pick<LeadView, 'sure' | 'cases' | 'potential'>): string {
+  const main = t(`sure.${lead.sure}`, { cases: lead.cases });
+  return lead.potential && lead.sure !== 'none' && lead.sure !== 'unchecked' ? `${main} ${t('sure.potential')}` : main;
+}
+
+export function leadView(config: Config, p: LeadProbability, outcome: TierOutcome, locale: string, stageAt: (rank: number) => StageView): LeadView {
   const withheld = outcome.decision.withheldLeads.some((w) => w.index === p.lead.index && w.tier === p.lead.tier);
   const deciding = outcome.decision.lead !== null && outcome.decision.lead.lead.index === p.lead.index;
+  const skill = p.skill;
   return {
     tier: p.lead.tier,
     index: p.lead.index,
+    start: p.lead.start,
+    end: p.lead.end,
     dates: formatDayRange(locale, p.lead.start, p.lead.end),
+    probability: p.probability,
     chance: formatPercent(locale, p.probability),
     normal: formatPercent(locale, p.baseRate),
     word: probabilityWord(config, p.probability, locale),
-    threshold: formatThreshold(locale, p.threshold.value, p.threshold.units),
-    thresholdOrigin: p.threshold.origin,
-    confidence,
-    score: skill ? formatNumber(locale, score, 2, 2) : '',
-    scoreName: gate.score,
+    reached: stageAt(withheld ? 0 : reachedRank(config, outcome, p)),
+    sure: sureLevel(config, skill),
+    potential: skill?.basis === 'potential',
+    score: skill ? formatNumber(locale, skill[config.decision.skillGate.score], 2, 2) : '',
     cases: skill?.cases ?? 0,
     deciding,
     withheld,
@@ -149,33 +156,37 @@ function leadView(config: Config, p: LeadProbability, outcome: TierOutcome, loca
   };
 }
 
-/** Everything the templates need about one region, for one locale and audience. */
-export function buildRegionView(config: Config, outcome: RegionOutcome, locale: string, audience: string): RegionView {
-  const lookup = stageIndex(config);
-  const view = (id: string): StageView => {
-    const { stage, rank } = lookup(id);
-    return toStageView(stage, rank, locale, audience);
-  };
-  const stage = view(outcome.stage.id);
-  const previous = outcome.previousStageId === null ? null : view(outcome.previousStageId);
-  const change = previous === null ? 'new' : stage.rank > previous.rank ? 'raised' : stage.rank < previous.rank ? 'lowered' : 'held';
-  const tiers = outcome.perTier.map((t): TierView => {
-    const leads = t.probabilities.map((p) => leadView(config, p, t, locale));
+/** "17–30%" for a set of percentages, one value when they agree. */
+function percentRange(locale: string, values: readonly number[]): string {
+  const finite = values.filter(Number.isFinite);
+  if (finite.length === 0) return '–';
+  const lo = Math.min(...finite);
+  const hi = Math.max(...finite);
+  if (formatPercent(locale, lo) === formatPercent(locale, hi)) return formatPercent(locale, hi);
+  return `${formatNumber(locale, Math.round(lo * 100), 0)}–${formatPercent(locale, hi)}`;
+}
+
+/** Leads merged where consecutive ones reach the same stage with the same skill verdict (the e-mail's short table). */
+export function groupLeads(locale: string, leads: readonly LeadView[], probabilities: readonly LeadProbability[]): LeadGroup[] {
+  const groups: { first: number; last: number }[] = [];
+  const key = (l: LeadView): string => `${l.reached.id}|${l.sure === 'none'}`;
+  leads.forEach((l, i) => {
+    const g = groups.at(-1);
+    if (g && key(leads[g.last]) === key(l)) g.last = i;
+    else groups.push({ first: i, last: i });
+  });
+  return groups.map(({ first, last }) => {
+    const span = leads.slice(first, last + 1);
+    const probs = probabilities.slice(first, last + 1);
     return {
-      tier: t.tier,
-      indicatorId: t.indicator.id,
-      indicator: t.indicator.name,
-      stage: view(t.decision.stageId),
-      deciding: leads.find((l) => l.deciding) ?? null,
-      leads,
-      reasons: t.decision.reasons,
+      dates: formatDayRange(locale, leads[first].start, leads[last].end),
+      reached: leads[first].reached,
+      chance: percentRange(locale, probs.map((p) => p.probability)),
+      normal: percentRange(locale, probs.map((p) => p.baseRate)),
+      noSkill: leads[first].sure === 'none',
+      deciding: span.some((l) => l.deciding),
     };
   });
-  const indicators = [...new Set(tiers.map((t) => t.indicatorId))].map((id): IndicatorView => {
-    const own = tiers.filter((t) => t.indicatorId === id);
-    return { id, name: own[0].indicator, tiers: own };
-  });
-  return { id: outcome.region.id, name: outcome.region.name, stage, previous, change, changeReason: outcome.changeReason, tiers, indicators };
 }
 
 /** Black or white, whichever contrasts more with a `#rrggbb` background (WCAG 2.1 relative luminance). */

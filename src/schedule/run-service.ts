@@ -2,13 +2,14 @@
  * Service mode: wake at each slot of `schedule.cron` in `schedule.timezone`, run once per slot under the
  * lock file, write the status file, stop gracefully on SIGTERM/SIGINT (the current run finishes first).
  *
- * Which slot is due is decided by computeNextRuns (DST-correct), not by node-cron alone: node-cron wakes
- * the service at slot times and a backstop timer re-checks every minute, so a slot node-cron skips (its
- * jobs in a spring-forward gap) or that passed while the machine slept still runs — once. On start, if a
- * slot passed since the last completed run in the ledger, the service catches up with ONE run, however
- * many slots were missed (each run issues the newest forecast anyway).
+ * Which slot is due is decided by computeNextRuns (DST-correct), not by the timer alone: a croner job wakes
+ * the service at slot times and a backstop timer re-checks every minute, so a slot the timer misses (croner
+ * runs a time skipped by a spring-forward gap when the gap ends, computeNextRuns shifts it by the gap) or that
+ * passed while the machine slept still runs — once. On start, if a slot passed since the last completed run in
+ * the ledger, the service catches up with ONE run, however many slots were missed (each run issues the newest
+ * forecast anyway).
  */
-import cron from 'node-cron';
+import { Cron } from 'croner';
 import type { Config } from '../config/types.ts';
 import { describeError } from '../core/errors.ts';
 import { openLedger } from '../ledger/open-ledger.ts';
@@ -16,7 +17,7 @@ import { lastCompletedRun } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
 import { EXIT, type ExitCode } from '../core/exit-codes.ts';
 import { acquireLock } from './lock-file.ts';
-import { checkTimeZone, computeNextRuns, parseCronFields } from '../core/next-runs.ts';
+import { checkCron, checkTimeZone, computeNextRuns } from '../core/next-runs.ts';
 import { makeRunReport, nextStatus, readStatus, writeStatus, type RunReport } from './status-file.ts';
 
 export interface RunContext {
@@ -77,7 +78,7 @@ export function servicePaths(ledgerPath: string): { statusPath: string; lockPath
 export async function runService(options: ServiceOptions): Promise<void> {
   const { config, log } = options;
   const { cron: expr, timezone } = config.schedule;
-  parseCronFields(expr);
+  checkCron(expr);
   checkTimeZone(timezone);
   const now = options.now ?? (() => new Date());
   const statusPath = options.statusPath ?? servicePaths(config.ledger).statusPath;
@@ -132,7 +133,7 @@ export async function runService(options: ServiceOptions): Promise<void> {
     inFlight = runSlot(due, reason).finally(() => { inFlight = null; });
   };
 
-  const task = cron.schedule(expr, wake, { timezone, name: 'forelight', noOverlap: true });
+  const task = new Cron(expr, { timezone, mode: '5-or-6-parts', domAndDow: false, protect: true }, wake);
   const backstop = setInterval(wake, (options.checkEverySeconds ?? 60) * 1000);
   log.info('service started', { cron: expr, timezone, nextRun: nextRun(), lastRunAt: lastRunAt.toISOString() });
   wake();
@@ -156,7 +157,7 @@ export async function runService(options: ServiceOptions): Promise<void> {
     options.signal?.addEventListener('abort', () => stop('abort signal'), { once: true });
   });
   clearInterval(backstop);
-  await task.destroy();
+  task.stop();
   await inFlight;
   log.info('service stopped');
 }

@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { extractBoxJson } from '../../src/read/extract.ts';
+import { extractBoxJson, extractRegionSeries } from '../../src/read/extract.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
@@ -45,6 +45,27 @@ describe('forelight CLI', () => {
     expect(lines).toHaveLength(1);
     expect(lines[0]).toContain('package.json');
     expect(lines[0]).toMatch(/not a NetCDF file/);
+  });
+
+  it('a variable without units: extract refuses (exit 3) with the same one line as a run, and the suggested ncatted fix works on that file', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-nounits-'));
+    const file = join(dir, 'nounits.nc');
+    const cdl = readFileSync(join(ROOT, 'test/fixtures/regions/grid360.cdl'), 'utf8').replace(/^\s*t2m:units = "K" ;\n/m, '');
+    writeFileSync(join(dir, 'nounits.cdl'), cdl);
+    expect(spawnSync('ncgen', ['-o', file, join(dir, 'nounits.cdl')]).status).toBe(0);
+    const r = forelight('extract', file, '--var', 't2m', '--box', MARROW, '--json');
+    expect(r.code).toBe(EXIT.inputProblem);
+    expect(r.stdout).toBe('');
+    const lines = r.stderr.trim().split('\n');
+    expect(lines).toHaveLength(1);
+    const run = await extractRegionSeries(file, { quantities: { tmean: 't2m' }, regions: [{ id: 'm', name: 'm', utcOffsetHours: 0, teams: [], shape: { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 } }] });
+    expect(run.problems).toHaveLength(1);
+    expect(lines[0]).toContain(run.problems[0].message);
+    const fix = /\(e\.g\. (ncatted [^)]*)\)/.exec(lines[0])![1].replace('<units>', 'K');
+    expect(spawnSync('sh', ['-c', fix]).status).toBe(0);
+    const fixed = forelight('extract', file, '--var', 't2m', '--box', MARROW, '--json');
+    expect(fixed.code).toBe(EXIT.ok);
+    expect(JSON.parse(fixed.stdout).units).toBe('degC');
   });
 
   it('a missing variable names the variables the file has', () => {

@@ -30,7 +30,7 @@ const EXPECTED: readonly [check: string, line: string][] = [
   ['probability outside 0..1', `${F}:68:77: probability expected 0–1, got 70 — write 0.7 (probabilities are fractions, not percent)`],
   ['both probability and cost-loss', `${F}:69:5: rule gives both probability and cost-loss — keep exactly one: probability (fixed) or cost-loss (tuned on the hindcasts)`],
   ['unknown stage in tier caps', `${F}:71:23: unknown stage "top" — use one of: calm, alert, act`],
-  ['invalid cron expression (node-cron validate)', `${F}:78:19: "61 7 * * 1,4" is not a valid cron expression — use 5 fields (min hour day month weekday) or 6 with seconds first, e.g. "30 7 * * 1,4" for Monday and Thursday 07:30`],
+  ['invalid cron expression (croner refuses it)', `${F}:78:19: "61 7 * * 1,4" is not a valid cron expression — use 5 fields (min hour day month weekday) or 6 with seconds first, e.g. "30 7 * * 1,4" for Monday and Thursday 07:30`],
   ['invalid IANA time zone', `${F}:78:45: unknown IANA time zone "Mars/Olympus" — use a zone name such as Etc/GMT-1 (fixed UTC+1) or Africa/Lagos`],
   ['team locale without cautions', `${F}:87:1: no cautions in fr (read by team south-team) — add fr: with the caution paragraphs in that language`],
   ['cautions empty', `${F}:88:7: cautions in en are empty — write at least one caution paragraph; bulletins never go out without cautions`],

@@ -18,6 +18,7 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
   return {
     file: '/virtual/forelight.yaml',
     country: 'Testland',
+    countryNames: {},
     sources: [],
     observations: null,
     regions: [

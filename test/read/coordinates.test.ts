@@ -1,7 +1,8 @@
 /** Coordinate discovery by CF attributes (CF Conventions 1.x §4, §4.4, §7.1, §7.3). */
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/core/errors.ts';
-import { findCoordinates, layoutVariable, parseCellMethods, timeCellMethod } from '../../src/read/coordinates.ts';
+import { findCoordinates, layoutVariable } from '../../src/read/coordinates.ts';
+import { parseCellMethods, timeCellMethod } from '../../src/read/cell-methods.ts';
 import { makeFakeDataset } from './fake-dataset.ts';
 import { makeFakeForecast } from './fake-forecast.ts';
 
@@ -86,13 +87,14 @@ describe('findCoordinates', () => {
   });
 });
 
-describe('parseCellMethods (CF §7.3 syntax)', () => {
+describe('parseCellMethods (CF 1.11 §7.3 syntax, §7.3.2 interval)', () => {
   it('splits name lists and methods, ignoring comments in parentheses', () => {
     expect(parseCellMethods('area: mean time: maximum (interval: 6 hours) lat: lon: mean')).toEqual([
-      { names: ['area'], method: 'mean' },
-      { names: ['time'], method: 'maximum' },
-      { names: ['lat', 'lon'], method: 'mean' },
+      { names: ['area'], method: 'mean', interval: null },
+      { names: ['time'], method: 'maximum', interval: '6 hours' },
+      { names: ['lat', 'lon'], method: 'mean', interval: null },
     ]);
-    expect(parseCellMethods('time: maximum within days time: mean over days')[0]).toEqual({ names: ['time'], method: 'maximum' });
+    expect(parseCellMethods('time: maximum within days time: mean over days')[0]).toEqual({ names: ['time'], method: 'maximum', interval: null });
+    expect(parseCellMethods('time: sum (interval: 1 day comment: from hourly data)')[0].interval).toBe('1 day');
   });
 });

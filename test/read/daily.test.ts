@@ -47,9 +47,10 @@ describe('stepIntervals + planLocalDays', () => {
     expect(Array.from(plan.dayOfStep)).toEqual([-1, 0, 0, 0, 0, -1]);
   });
 
-  it('daily input passes through, dated by the stamp when stamped at the start (or without a reference time)', () => {
+  it('daily maxima with a step 0 at the reference time: step 0 is no day, the 24-h stamp is day 1 (GRIB step semantics, DECISIONS.md); without any reference time a daily value keeps its stamp date (common practice, no source)', () => {
     const plan = planLocalDays(stepIntervals({ stampsMs: stamps([0, 24, 48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), fixed(1));
-    expect(plan.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+    expect(plan.days).toEqual(['2026-11-23', '2026-11-24']);
+    expect(Array.from(plan.dayOfStep)).toEqual([-1, 0, 1]);
     const noRef = planLocalDays(stepIntervals({ stampsMs: stamps([24, 48]), boundsMs: null, referenceMs: null, periodEndingAtStamp: true, accumulated: false }), fixed(1));
     expect(noRef.days).toEqual(['2026-11-24', '2026-11-25']);
   });
@@ -63,6 +64,22 @@ describe('stepIntervals + planLocalDays', () => {
   it('daily maxima stamped 24 h, 48 h … after the reference time belong to the day before the stamp', () => {
     const plan = planLocalDays(stepIntervals({ stampsMs: stamps([24, 48, 72]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: false }), fixed(1));
     expect(plan.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+  });
+
+  it('cell_methods (interval: 24 hours) on a single step at lead 48 h: its period is the day before the stamp, not the 48 h since the reference (CF 1.11 §7.3.2)', () => {
+    const iv = stepIntervals({ stampsMs: stamps([48]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, periodMs: 24 * H, accumulated: false });
+    expect((iv.startMs[0] - REF) / H).toBe(24);
+    expect(planLocalDays(iv, fixed(0)).days).toEqual(['2026-11-24']);
+  });
+
+  it('an interval shorter than the spacing (hourly sampling of a daily maximum, CF §7.3.2) leaves the period at the spacing', () => {
+    const iv = stepIntervals({ stampsMs: stamps([24, 48, 72]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, periodMs: H, accumulated: false });
+    expect(Array.from(iv.startMs, (v) => (v - REF) / H)).toEqual([0, 24, 48]);
+  });
+
+  it('accumulated with no step before lead 48 h: the first amount covers the reference time to 48 h', () => {
+    const iv = stepIntervals({ stampsMs: stamps([48, 72]), boundsMs: null, referenceMs: REF, periodEndingAtStamp: true, accumulated: true });
+    expect(Array.from(iv.startMs, (v) => (v - REF) / H)).toEqual([0, 48]);
   });
 
   it('mean weights steps by interval length; a missing step makes the cell-day NaN', () => {

@@ -1,5 +1,6 @@
 // Static archive, and the archive pages and an e-mail opened in a real browser (headless Chromium via
 // playwright-core): no console errors, no broken images, stage labels visible. Screenshots go to test-artifacts/.
+import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -35,12 +36,32 @@ describe('writeArchive', () => {
     }
   });
 
-  it('index lists runs newest first, by region and by stage, always glyph with label', () => {
-    const index = readFileSync(join(ARCHIVE, 'index.html'), 'utf8');
+  it('index lists runs newest first; per run each region with stage (glyph + label), the hazard that drove it and its dates', () => {
+    const index = readFileSync(join(ARCHIVE, 'index.html'), 'utf8').replace(/[\u00a0\u2009\u202f]/g, ' ');
     expect(index.indexOf('2026-11-30-a/index.html')).toBeLessThan(index.indexOf('2026-11-26-a/index.html'));
-    expect(index).toContain('<h2>By region</h2>');
-    expect(index).toMatch(/<h3><span class="badge"[^>]*>◑ Brace<\/span><\/h3>/);
+    const kessanRow = /<th scope="row"[^>]*>Kessan Lowlands<\/th>\s*<td[^>]*><span[^>]*>◑ Brace<\/span><\/td>\s*<td[^>]*>Hot days \(3-day average of daily highs\)<\/td>\s*<td[^>]*>3 – 5 Dec<\/td>/;
+    expect(index).toMatch(kessanRow);
+    expect(index).toMatch(/<th scope="row"[^>]*>Orrin Coast<\/th>\s*<td[^>]*><span[^>]*>○ Quiet<\/span><\/td>\s*<td[^>]*>—<\/td>/);
     expect(index).not.toMatch(/<script|https?:\/\//);
+  });
+
+  it('run pages name each CAP link by region and hazard; each region has a history page with a timeline', () => {
+    const page = readFileSync(join(ARCHIVE, '2026-11-30-a', 'index.html'), 'utf8');
+    expect(page).toContain('>CAP alert: Kessan Lowlands, Hot days (3-day average of daily highs)</a>');
+    expect(page).toContain('>CAP alert: Tulva Delta, Weather favouring malaria</a>');
+    expect(page).not.toMatch(/CAP alert \d/);
+    const history = readFileSync(join(ARCHIVE, 'regions', 'kessan-lowlands.html'), 'utf8');
+    expect(history).toContain('History of Kessan Lowlands');
+    expect(history.indexOf('30 Nov 2026')).toBeGreaterThan(0);
+    const svg = readFileSync(join(ARCHIVE, 'regions', 'kessan-lowlands.svg'), 'utf8');
+    for (const label of ['○ Quiet', '◔ Mindful', '◑ Brace', '● Act now']) expect(svg).toContain(`>${label}</text>`);
+    expect(spawnSync('xmllint', ['--noout', '-'], { input: svg, encoding: 'utf8' }).status).toBe(0);
+  });
+
+  it('the run page keeps the full per-lead table (the e-mail only has the merged one)', () => {
+    const page = readFileSync(join(ARCHIVE, '2026-11-30-a', 'index.html'), 'utf8');
+    expect(page).toContain('Hot days (3-day average of daily highs), Next days: every date');
+    expect(page).toContain('Fri 4 Dec');
   });
 
   it('every relative link and image in the archive resolves to a written file', () => {

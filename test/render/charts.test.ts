@@ -6,6 +6,7 @@ import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
 const words: ChartWords = {
+  hazard: (id) => ({ 'tmax-3day': '3-day mean maximum temperature' } as Record<string, string>)[id] ?? id,
   title: (region, indicator) => `${region} — ${indicator}`,
   description: (region, indicator, panels) => `${region} ${indicator}: ${panels.map((p) => p.title).join(', ')}`,
   tier: (tier) => tier,

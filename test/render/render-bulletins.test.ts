@@ -6,6 +6,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import type { Bulletin } from '../../src/types.ts';
 import { ForelightError } from '../../src/core/errors.ts';
 import { renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
+import { applyTypography } from '../../src/render/typography.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
@@ -28,8 +29,8 @@ describe('renderBulletins on the sample run', () => {
 
   it('subjects name the date and each region stage with label and glyph', () => {
     expect(byTeam('kessan-health').subject).toBe('Republic of Veloria heat and malaria outlook, 30 Nov 2026 — Kessan Lowlands: Brace ◑');
-    expect(byTeam('tulva-health').subject).toBe('Republic of Veloria : perspectives chaleur et paludisme, 30 nov. 2026 — Tulva Delta : Vigilant ◔');
-    expect(byTeam('national-desk').subject).toBe('Republic of Veloria heat and malaria outlook, 30 Nov 2026 — highest: Brace ◑ (Kessan Lowlands)');
+    expect(byTeam('tulva-health').subject.replace(/[\u00a0\u202f]/g, ' ')).toBe('République de Veloria — perspectives chaleur et paludisme, 30 nov. 2026 — Tulva Delta : Vigilant ◔');
+    expect(byTeam('national-desk').subject).toBe('Republic of Veloria heat and malaria summary, 30 Nov 2026 — Brace ◑: Kessan Lowlands');
   });
 
   it('team bulletins cover only their regions; the national summary covers all four', () => {
@@ -40,7 +41,7 @@ describe('renderBulletins on the sample run', () => {
   it('every bulletin carries every caution of its locale, in HTML and text', () => {
     const cfg = sampleConfig();
     for (const b of out.bulletins) {
-      for (const c of cfg.cautions[b.locale]) {
+      for (const c of cfg.cautions[b.locale].map((x) => applyTypography(b.locale, x))) {
         expect(b.text).toContain(c);
         expect(b.html).toContain(c.replace(/'/g, '&#39;'));
       }
@@ -53,16 +54,44 @@ describe('renderBulletins on the sample run', () => {
     await expect(renderBulletins(cfg, sampleRun())).rejects.toBeInstanceOf(ForelightError);
   });
 
-  it('states chance against the normal-year base rate, with the configured word', () => {
-    expect(plain('kessan-health')).toContain('3-day mean maximum temperature above 34.2 °C for Fri 4 Dec: 70% chance (likely), against 10% in a normal year.');
-    expect(plain('tulva-health')).toContain('68 % de probabilité (probable), contre 30 % une année normale');
+  it('first screen: hazard in plain words with its threshold, dates, chance against the normal year with the configured word, how sure', () => {
+    const k = plain('kessan-health');
+    expect(k).toContain('Hot days (3-day average of daily highs), above 34.2 °C\nWhen: 3 – 5 Dec\nHow likely: 70% chance, likely (in a normal year 10%), highest on Fri 4 Dec\nHow sure: Fairly sure');
+    expect(plain('tulva-health')).toContain('Probabilité : 68 % de probabilité, probable (une année normale : 30 %)');
+    // Order of the first screen (issue: stage, hazard and dates, how likely, how sure, action, what changed, outlook).
+    const order = ['==== KESSAN LOWLANDS: ◑ Brace', 'Hot days', 'When:', 'How likely:', 'How sure:', 'What your team should do now:', 'Since the last bulletin:', 'Outlook'].map((x) => k.indexOf(x));
+    expect(order.every((v, i) => v >= 0 && (i === 0 || v > order[i - 1]))).toBe(true);
   });
 
-  it('says plainly when a lead has no demonstrated skill, and when skill is a model-only estimate', () => {
+  it('outlook strip: one row per hazard, days / weeks / months, glyph and chance; "not forecast" where a hazard has no range', () => {
+    expect(plain('kessan-health')).toContain(' - Hot days (3-day average of daily highs): ◑ 70% / ◔ 44% / ○ 32%');
+    expect(plain('kessan-health')).toContain(' - Weather favouring malaria: not forecast / not forecast / ○ 44%');
+  });
+
+  it('short tables merge consecutive leads with the same stage; the full per-lead table is left to the archive', () => {
     const k = plain('kessan-health');
-    expect(k).toMatch(/15 – 21 Dec: 24% chance.*No demonstrated skill at this range — treat as normal conditions/);
-    expect(k).toContain('Model-only estimate, no observations (0.64)');
-    expect(plain('tulva-health')).toContain('Aucune fiabilité démontrée à cette échéance — considérer les conditions comme normales');
+    expect(k).toContain('1 – 2 Dec: ○ Quiet, 17–30% (normal year 10%)');
+    expect(k).toContain('3 – 5 Dec: ◑ Brace, 60–70% (normal year 10%)');
+    expect(k).not.toContain('Fri 4 Dec: ');
+    expect(k).toContain('Every day, week and month with all its numbers is on the archive page and in run.json.');
+  });
+
+  it('no jargon above the technical note; the note at the end has method, threshold and skill', () => {
+    for (const team of ['kessan-health', 'marrow-health', 'orrin-health', 'national-desk']) {
+      const t = plain(team);
+      const [body, note] = t.split('HOW THIS WAS WORKED OUT');
+      expect(note, team).toBeDefined();
+      expect(body, team).not.toMatch(/\btiers?\b|hindcast|quantile|degC|percentile|Rothfusz|lead (day|week|month)|ROC/i);
+      expect(note).toMatch(/90th percentile of the model's own climate \(hindcasts/);
+    }
+    expect(plain('kessan-health')).toContain('Skill over 20 past cases: ROC area 0.68 to 0.88');
+  });
+
+  it('says plainly when a range has no demonstrated skill, and when skill is a model-only estimate', () => {
+    const k = plain('kessan-health');
+    expect(k).toContain('15 – 28 Dec: ○ Quiet, 16–24% (normal year 10%), no proven skill at this range: treat as normal');
+    expect(plain('tulva-health')).toContain('Estimation tirée du seul modèle de prévision ; la fiabilité réelle est souvent plus faible.');
+    expect(plain('tulva-health')).toContain('fiabilité non démontrée à cette échéance : considérer comme normal');
   });
 
   it('uses the team-specific actions when configured, else the default', () => {
@@ -73,9 +102,9 @@ describe('renderBulletins on the sample run', () => {
 
   it('says what changed and why, which forecasts were used (late source flagged) and the next issue date', () => {
     const t = plain('kessan-health');
-    expect(t).toContain('Since the last bulletin: Raised from ◔ Mindful to ◑ Brace. Why: Brace reached in two runs in a row');
-    expect(t).toContain('Sub-seasonal ensemble: the newer forecast was late, so this bulletin is based on the forecast of 26 Nov 2026');
-    expect(t).toContain('Short-range ensemble: forecast of 30 Nov 2026');
+    expect(t).toContain('Since the last bulletin: Raised from ◔ Mindful to ◑ Brace. Hot days (3-day average of daily highs) over the next days: 70% chance for Fri 4 Dec, against 10% in a normal year.');
+    expect(t).toContain('Sub-seasonal forecast: the newer forecast was late, so this bulletin is based on the forecast of 26 Nov 2026');
+    expect(t).toContain('Short-range forecast: forecast of 30 Nov 2026');
     expect(t).toContain('Next bulletin: 3 Dec 2026.');
     expect(plain('orrin-health')).toContain('Lowered from ◔ Mindful to ○ Quiet.');
   });
@@ -99,7 +128,7 @@ describe('exercise and empty tiers', () => {
   it('an exercise run is marked in the subject and body', async () => {
     const r = await renderBulletins(sampleConfig({ teams: sampleConfig().teams.slice(0, 1) }), { ...sampleRun(), mode: 'exercise' });
     expect(r.bulletins[0].subject).toMatch(/^\[EXERCISE\] /);
-    expect(r.bulletins[0].html).toContain('class="exercise"');
+    expect(r.bulletins[0].html).toContain('EXERCISE — made from sample data for practice. Take no action.');
     expect(r.bulletins[0].text).toMatch(/^\*\*\* EXERCISE/);
   });
 
@@ -108,26 +137,30 @@ describe('exercise and empty tiers', () => {
     const k = run.regions[0];
     const emptied = { ...run, regions: [{ ...k, perTier: k.perTier.map((t, i) => (i === 1 ? { ...t, probabilities: [] } : t)) }] };
     const r = await renderBulletins(sampleConfig({ teams: sampleConfig().teams.slice(0, 1) }), emptied);
-    expect(r.bulletins[0].text).toContain('3-day mean maximum temperature, coming weeks: ◔ Mindful');
+    expect(r.bulletins[0].text).toContain('   Coming weeks · Stage for this range: ◔ Mindful');
   });
 });
 
 describe('templates', () => {
   it('an operator override in config.templates wins over the shipped file; the rest still come from the shipped set', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-tpl-'));
-    mkdirSync(join(dir, 'en'));
-    writeFileSync(join(dir, 'en', 'team.txt.njk'), 'Custom bulletin for {{ team.name }}\n');
+    writeFileSync(join(dir, 'team.txt.njk'), 'Custom bulletin for {{ team.name }}\n');
     const r = await renderBulletins(sampleConfig({ templates: dir, teams: sampleConfig().teams.slice(0, 1) }), sampleRun());
     const k = r.bulletins.find((b) => b.team === 'kessan-health')!;
     expect(k.text).toBe('Custom bulletin for Kessan Lowlands District Health Office\n');
     expect(k.html).toContain('Read before acting');
+    // One message overridden in the operator's catalogue; the rest from the shipped one.
+    mkdirSync(join(dir, 'messages'));
+    writeFileSync(join(dir, 'messages', 'en.yaml'), 'cautions.heading: "Before you act"\n');
+    const r2 = await renderBulletins(sampleConfig({ templates: dir, teams: sampleConfig().teams.slice(0, 1) }), sampleRun());
+    expect(r2.bulletins[0].html).toContain('Before you act');
+    expect(r2.bulletins[0].html).toContain('What your team should do now');
   });
 
   it('an undefined variable in a template fails the run (throwOnUndefined)', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-tpl-'));
-    mkdirSync(join(dir, 'en'));
-    writeFileSync(join(dir, 'en', 'team.txt.njk'), '{{ team.nickname }}\n');
-    await expect(renderBulletins(sampleConfig({ templates: dir }), sampleRun())).rejects.toThrow(/template en\/team\.txt\.njk .* failed/);
+    writeFileSync(join(dir, 'team.txt.njk'), '{{ team.nickname }}\n');
+    await expect(renderBulletins(sampleConfig({ templates: dir }), sampleRun())).rejects.toThrow(/template team\.txt\.njk .* failed/);
   });
 });
 

@@ -3,22 +3,18 @@
 // renderBulletins refuses to render. Read by path with the `yaml` package so this check does not depend on the
 // config loader; tolerant of `stage-ladder` / `stages` as the key name.
 import { existsSync, readFileSync, readdirSync } from 'node:fs';
-import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
-import { SHIPPED_TEMPLATES } from '../../src/render/template-env.ts';
+import { SHIPPED_MESSAGES } from '../../src/render/catalogue.ts';
 
 const YAML_PATH = fileURLToPath(new URL('../../config/forelight.yaml', import.meta.url));
-const shippedLocales = readdirSync(SHIPPED_TEMPLATES, { withFileTypes: true })
-  .filter((d) => d.isDirectory() && existsSync(join(SHIPPED_TEMPLATES, d.name, 'phrases.njk')))
-  .map((d) => d.name)
-  .sort();
+const shippedLocales = readdirSync(SHIPPED_MESSAGES).filter((f) => f.endsWith('.yaml')).map((f) => f.replace(/\.yaml$/, '')).sort();
 
 type Stage = { id: string; label?: Record<string, string>; meaning?: Record<string, string>; actions?: Record<string, Record<string, string>> };
 
 describe('shipped default ladder in config/forelight.yaml', () => {
-  it('shipped template locales are en and fr', () => {
+  it('shipped message catalogues are en and fr', () => {
     expect(shippedLocales).toEqual(['en', 'fr']);
   });
 
@@ -28,8 +24,10 @@ describe('shipped default ladder in config/forelight.yaml', () => {
     expect(Array.isArray(stages), 'config/forelight.yaml has no stage-ladder list').toBe(true);
     expect(stages!.length).toBeGreaterThanOrEqual(2);
     const cautions = doc.cautions as Record<string, string[]>;
+    const country = doc.country as string | Record<string, string>;
     const missing: string[] = [];
     for (const locale of shippedLocales) {
+      if (typeof country === 'object' && !country[locale]) missing.push(`country.${locale}`);
       if (!(cautions?.[locale]?.filter((c) => String(c).trim() !== '').length)) missing.push(`cautions.${locale}`);
       for (const s of stages!) {
         if (!s.label?.[locale]) missing.push(`${s.id}.label.${locale}`);

@@ -4,6 +4,7 @@
  * Chile (America/Santiago) springs forward at local midnight on the first Saturday→Sunday of September 2026
  * and falls back on the first Saturday→Sunday of April 2027 (tzdata, "Chile" rules).
  */
+import { execFileSync } from 'node:child_process';
 import cron from 'node-cron';
 import { describe, expect, it } from 'vitest';
 import { checkValues } from '../../src/config/check-values.ts';
@@ -86,5 +87,55 @@ describe('computeNextRuns across DST (IANA tzdata via Node ICU)', () => {
       '/schedule/cron: "0 7 L * *" uses L, W or # day tokens, which Forelight does not schedule — list the days instead',
     ]);
     expect(() => computeNextRuns('0 7 L * *', 'Etc/GMT-1', new Date(), 1)).toThrow('schedule.cron: "0 7 L * *" uses L, W or # day tokens');
+  });
+
+  it('`forelight check` refuses croner extensions classic cron lacks (? and the + AND modifier), a year field and a day that never comes', () => {
+    const check = (expr: string) => checkValues({ schedule: { cron: expr, timezone: 'Etc/GMT-1' } }).map((p) => p.message);
+    expect(check('0 7 1 * +1')).toEqual(['"0 7 1 * +1" uses ? or +, which classic cron does not have']);
+    expect(check('0 7 ? * 1')).toEqual(['"0 7 ? * 1" uses ? or +, which classic cron does not have']);
+    expect(check('0 0 7 * * * 2027')).toEqual(['"0 0 7 * * * 2027" is not a valid cron expression']);
+    expect(check('0 7 30 2 *')).toEqual(['"0 7 30 2 *" never fires (no month has that day)']);
+    expect(check('0 7 * * WED')).toEqual([]); // the W of a weekday name is not the W token
+  });
+});
+
+/**
+ * Day-of-month × day-of-week. POSIX crontab (IEEE Std 1003.1-2017, crontab, "Input Files"): when both fields are
+ * given as elements or lists, a day matching EITHER is matched (Vixie cron does the same); a `*` field restricts
+ * nothing. The expected instants come from /usr/bin/python3 applying that rule with zoneinfo (IANA tzdata).
+ */
+describe('computeNextRuns: classic cron OR rule for day-of-month and day-of-week', () => {
+  function pythonSlots(tz: string, doms: number[] | null, dows: number[] | null, n: number): string[] {
+    const script = `
+import datetime, json, sys, zoneinfo
+tz = zoneinfo.ZoneInfo(sys.argv[1]); doms = json.loads(sys.argv[2]); dows = json.loads(sys.argv[3]); n = int(sys.argv[4])
+day, out = datetime.date(2026, 12, 1), []
+while len(out) < n:
+    dom_ok = doms is None or day.day in doms
+    dow_ok = dows is None or day.isoweekday() % 7 in dows
+    # both restricted: either matches; one restricted: that one decides
+    ok = (dom_ok or dow_ok) if (doms is not None and dows is not None) else (dom_ok and dow_ok)
+    if ok:
+        out.append(datetime.datetime(day.year, day.month, day.day, 6, tzinfo=tz).astimezone(datetime.timezone.utc).strftime('%Y-%m-%dT%H:%M:%S.000Z'))
+    day += datetime.timedelta(days=1)
+print(json.dumps(out))`;
+    return JSON.parse(execFileSync('/usr/bin/python3', ['-c', script, tz, JSON.stringify(doms), JSON.stringify(dows), String(n)], { encoding: 'utf8' })) as string[];
+  }
+  const from = new Date('2026-11-30T12:00:00Z');
+  const iso = (runs: Date[]) => runs.map((d) => d.toISOString());
+
+  it('"0 6 1,15 * 1" runs on the 1st, the 15th AND every Monday (not only on Mondays that are the 1st or 15th)', () => {
+    const runs = iso(computeNextRuns('0 6 1,15 * 1', 'Africa/Lagos', from, 8));
+    expect(runs).toEqual(pythonSlots('Africa/Lagos', [1, 15], [1], 8));
+    // 2026-12-01 is a Tuesday and 2027-01-01 a Friday: they come from day-of-month alone.
+    expect(runs).toContain('2026-12-01T05:00:00.000Z');
+    expect(runs).toContain('2027-01-01T05:00:00.000Z');
+    expect(runs).toContain('2026-12-07T05:00:00.000Z');
+  });
+
+  it('a ranged day-of-month with named weekdays is still OR; a * field leaves the other alone (Europe/Berlin, winter)', () => {
+    expect(iso(computeNextRuns('0 6 1-3 * SAT,SUN', 'Europe/Berlin', from, 10))).toEqual(pythonSlots('Europe/Berlin', [1, 2, 3], [6, 0], 10));
+    expect(iso(computeNextRuns('0 6 * * 1', 'Europe/Berlin', from, 5))).toEqual(pythonSlots('Europe/Berlin', null, [1], 5));
+    expect(iso(computeNextRuns('0 6 1,15 * *', 'Europe/Berlin', from, 5))).toEqual(pythonSlots('Europe/Berlin', [1, 15], null, 5));
   });
 });

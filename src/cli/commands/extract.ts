@@ -22,6 +22,8 @@ function parseBox(text: string | undefined): { south: number; north: number; wes
   }
   const [south, north, west, east] = parts;
   if (south > north) throw usageError(`--box south ${south} is north of north ${north}: write south,north,west,east`);
+  // West > east is a box across 180° (read eastwards from west), as in the YAML.
+  if (west === east) throw usageError(`--box west ${west} equals east ${east}: the box has no width (across 180° write west > east, e.g. 172,-174)`);
   return { south, north, west, east };
 }
 

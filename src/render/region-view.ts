@@ -1,0 +1,201 @@
+/**
+ * Everything templates print about one region for one locale and audience: the first screen (stage, hazard,
+ * dates, how likely, how sure, action, what changed), the outlook strip (hazard × days/weeks/months), short
+ * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
+ */
+import type { Config, IndicatorConfig, ThresholdSpec } from '../config/types.ts';
+import type { LeadProbability, Tier } from '../types.ts';
+import type { Translate } from './catalogue.ts';
+import { formatDayRange, formatNumber } from './locale-format.ts';
+import type { RegionOutcome, TierOutcome } from './model.ts';
+import {
+  TIERS, formatThreshold, groupLeads, leadView, stageIndex, sureSentence, toStageView,
+  type LeadGroup, type LeadView, type StageView,
+} from './view-model.ts';
+
+export interface TierView {
+  readonly tier: Tier;
+  readonly tierName: string;
+  readonly indicatorId: string;
+  readonly hazard: string;
+  readonly stage: StageView;
+  readonly deciding: LeadView | null;
+  readonly leads: readonly LeadView[];
+  readonly groups: readonly LeadGroup[];
+  /** Threshold in plain words for the e-mail body ("34.2 °C", "any heatwave"). */
+  readonly threshold: string;
+  /** Technical note: how the threshold was set and the skill figures of this tier. */
+  readonly method: readonly string[];
+}
+
+export interface IndicatorView {
+  readonly id: string;
+  readonly hazard: string;
+  /** Technical name and method of the indicator (technical note only). */
+  readonly method: string;
+  readonly tiers: readonly TierView[];
+}
+
+export interface OutlookCell { readonly stage: StageView; readonly chance: string; readonly dates: string; readonly noSkill: boolean }
+export interface OutlookRow { readonly hazard: string; readonly cells: readonly (OutlookCell | null)[] }
+
+export interface Headline {
+  readonly hazard: string;
+  readonly tierName: string;
+  readonly threshold: string;
+  readonly dates: string;
+  readonly peakDates: string;
+  readonly chance: string;
+  readonly normal: string;
+  readonly word: string;
+  readonly sure: string;
+  /** True when some hazard set the stage; false when nothing passed a trigger level (the headline is then the nearest). */
+  readonly triggered: boolean;
+}
+
+export interface RegionView {
+  readonly id: string;
+  readonly name: string;
+  readonly stage: StageView;
+  readonly previous: StageView | null;
+  readonly change: 'new' | 'raised' | 'lowered' | 'held';
+  readonly changeText: string;
+  readonly why: string;
+  readonly headline: Headline | null;
+  readonly outlook: readonly OutlookRow[];
+  readonly tiers: readonly TierView[];
+  /** The same tiers grouped by indicator (first-seen order). */
+  readonly indicators: readonly IndicatorView[];
+}
+
+/** Officer's name of an indicator (message `hazard.<kind>`), from its kind and window. */
+export function hazardName(t: Translate, ind: IndicatorConfig | undefined, fallback: string): string {
+  return ind ? t(`hazard.${ind.kind}`, { days: ind.windowDays }) : fallback;
+}
+
+function thresholdWords(t: Translate, locale: string, ind: IndicatorConfig | undefined, p: LeadProbability | undefined): string {
+  if (!p || !Number.isFinite(p.threshold.value)) return t('threshold.none');
+  if (ind?.kind === 'excess-heat-factor') return p.threshold.value === 0 ? t('threshold.ehfAny') : t('threshold.ehf', { value: formatNumber(locale, p.threshold.value, 1) });
+  if (ind?.kind === 'malaria-suitability') return t('threshold.index', { value: formatNumber(locale, p.threshold.value, 2) });
+  return formatThreshold(locale, p.threshold.value, p.threshold.units);
+}
+
+function methodLines(t: Translate, locale: string, config: Config, spec: ThresholdSpec | undefined, outcome: TierOutcome, leads: readonly LeadView[]): string[] {
+  const p = outcome.probabilities[0];
+  const lines: string[] = [];
+  const value = p ? formatThreshold(locale, p.threshold.value, p.threshold.units) : '–';
+  if (spec?.kind === 'percentile') lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value }));
+  else if (spec?.kind === 'absolute') {
+    const mapped = p !== undefined && Math.abs(p.threshold.value - spec.value) > 1e-9;
+    lines.push(t('method.thresholdAbsolute', { fixed: formatThreshold(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }));
+  }
+  const scored = outcome.probabilities.filter((q) => q.skill);
+  if (scored.length > 0) {
+    const score = config.decision.skillGate.score;
+    const values = scored.map((q) => q.skill![score]);
+    lines.push(t('method.skill', {
+      score, min: formatNumber(locale, Math.min(...values), 2, 2), max: formatNumber(locale, Math.max(...values), 2, 2),
+      cases: Math.max(...scored.map((q) => q.skill!.cases)), potential: scored.some((q) => q.skill!.basis === 'potential') ? 'yes' : 'no',
+      floor: formatNumber(locale, config.decision.skillGate.floor, 2, 2), withheld: leads.filter((l) => l.withheld).length,
+    }));
+  } else lines.push(t('method.noSkill'));
+  return lines;
+}
+
+/** Why the region has its stage: the evidence that drives it, and a stage held back by persistence. */
+function whyText(t: Translate, config: Config, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+  const rank = (id: string): number => config.stages.findIndex((s) => s.id === id);
+  const [driver] = tiers.map((tv, i) => ({ tv, d: region.perTier[i].decision }))
+    .sort((a, b) => rank(b.d.rawStageId) - rank(a.d.rawStageId) || rank(b.d.stageId) - rank(a.d.stageId));
+  if (!driver || !driver.tv.deciding) return t('why.none');
+  const lead = driver.tv.deciding;
+  const evidence = t('why.evidence', { hazard: driver.tv.hazard, range: driver.tv.tier, chance: lead.chance, dates: lead.dates, normal: lead.normal });
+  const raw = rank(driver.d.rawStageId);
+  if (raw === stage.rank) return evidence;
+  const up = raw > stage.rank;
+  const held = t(up ? 'why.heldUp' : 'why.heldDown', { glyph: byRank[raw].glyph, label: byRank[raw].label, runs: up ? config.decision.escalateAfterRuns : config.decision.relaxAfterRuns });
+  return `${evidence} ${held}`;
+}
+
+/** The lead an outlook cell shows: the deciding one, else the likeliest one not withheld. */
+function cellLead(tv: TierView): LeadView | null {
+  return tv.deciding ?? tv.leads.filter((l) => !l.withheld && Number.isFinite(l.probability))
+    .reduce<LeadView | null>((a, l) => (a === null || l.probability > a.probability ? l : a), null);
+}
+
+/** Everything the templates need about one region, for one locale and audience. */
+export function buildRegionView(config: Config, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
+  const lookup = stageIndex(config);
+  const byRank = config.stages.map((s, r) => toStageView(s, r, locale, audience));
+  const view = (id: string): StageView => byRank[lookup(id).rank];
+  const stage = view(outcome.stage.id);
+  const previous = outcome.previousStageId === null ? null : view(outcome.previousStageId);
+  const change = previous === null ? 'new' : stage.rank > previous.rank ? 'raised' : stage.rank < previous.rank ? 'lowered' : 'held';
+  const indicatorOf = (id: string) => config.indicators.find((i) => i.id === id);
+  const tiers = outcome.perTier.map((tier): TierView => {
+    const ind = indicatorOf(tier.indicator.id);
+    const leads = tier.probabilities.map((p) => leadView(config, p, tier, locale, (r) => byRank[r]));
+    const spec = ind ? ind.regionThresholds[outcome.region.id] ?? ind.threshold : undefined;
+    return {
+      tier: tier.tier,
+      tierName: t(`tier.${tier.tier}`),
+      indicatorId: tier.indicator.id,
+      hazard: hazardName(t, ind, tier.indicator.name),
+      stage: view(tier.decision.stageId),
+      deciding: leads.find((l) => l.deciding) ?? null,
+      leads,
+      groups: groupLeads(locale, leads, tier.probabilities),
+      threshold: thresholdWords(t, locale, ind, tier.probabilities[0]),
+      method: methodLines(t, locale, config, spec, tier, leads),
+    };
+  });
+  const ids = [...new Set(tiers.map((tv) => tv.indicatorId))];
+  const indicators = ids.map((id): IndicatorView => {
+    const own = tiers.filter((tv) => tv.indicatorId === id);
+    const ind = indicatorOf(id);
+    return { id, hazard: own[0].hazard, method: ind ? t(`method.${ind.kind}`, { days: ind.windowDays }) : own[0].hazard, tiers: own };
+  });
+  const outlook = indicators.map((ind): OutlookRow => ({
+    hazard: ind.hazard,
+    cells: TIERS.map((tierName) => {
+      const tv = ind.tiers.find((x) => x.tier === tierName);
+      if (!tv) return null;
+      const pick = cellLead(tv);
+      return { stage: tv.stage, chance: pick?.chance ?? '–', dates: pick?.dates ?? '', noSkill: tv.leads.length > 0 && tv.leads.every((l) => l.withheld) };
+    }),
+  }));
+  const changeText = change === 'new' ? t('change.new') : t(`change.${change}`, { fromGlyph: previous?.glyph ?? '', from: previous?.label ?? '', toGlyph: stage.glyph, to: stage.label });
+  return {
+    id: outcome.region.id, name: outcome.region.name, stage, previous, change, changeText,
+    why: whyText(t, config, outcome, tiers, stage, byRank),
+    headline: headlineOf(t, locale, tiers),
+    outlook, tiers, indicators,
+  };
+}
+
+/** The tier that sets the region's stage (highest issued, then highest raw, shortest range first); else the likeliest usable lead. */
+function headlineOf(t: Translate, locale: string, tiers: readonly TierView[]): Headline | null {
+  const driving = tiers.filter((tv) => tv.deciding).sort((a, b) => b.stage.rank - a.stage.rank || TIERS.indexOf(a.tier) - TIERS.indexOf(b.tier))[0];
+  let tv: TierView | undefined = driving;
+  let lead: LeadView | null = driving?.deciding ?? null;
+  if (!tv) {
+    for (const x of tiers) {
+      const l = cellLead(x);
+      if (l && (lead === null || l.probability > lead.probability)) { tv = x; lead = l; }
+    }
+  }
+  if (!tv || !lead) return null;
+  const chosen: LeadView = lead;
+  // The dates the stage concerns: the run of leads around the deciding one that reach the same stage.
+  const at = tv.leads.indexOf(chosen);
+  let first = at;
+  let last = at;
+  while (first > 0 && tv.leads[first - 1].reached.id === chosen.reached.id && !tv.leads[first - 1].withheld) first -= 1;
+  while (last < tv.leads.length - 1 && tv.leads[last + 1].reached.id === chosen.reached.id && !tv.leads[last + 1].withheld) last += 1;
+  return {
+    hazard: tv.hazard, tierName: tv.tierName, threshold: tv.threshold,
+    dates: formatDayRange(locale, tv.leads[first].start, tv.leads[last].end),
+    peakDates: chosen.dates, chance: chosen.chance, normal: chosen.normal, word: chosen.word,
+    sure: sureSentence(t, chosen), triggered: driving !== undefined,
+  };
+}

@@ -1,0 +1,118 @@
+/**
+ * GRIB2 sources through ecCodes (Debian libeccodes-tools 2.28): fixtures written by ecCodes' own grib_filter from
+ * its sample regular_ll_sfc_grib2.tmpl (test/read/grib/make-grib.py), converted once by Forelight into the
+ * sha256-keyed cache with grib_copy + grib_to_netcdf, and checked against an independent reading of the same GRIB
+ * file by python3-cfgrib + xarray (test/read/grib/cfgrib-box.py), within 1e-4 K.
+ * Conventions: ecCodes parameter database (paramId 167 = 2 m temperature, cfVarName t2m); GRIB2 product definition
+ * templates 4.0 (deterministic) and 4.1 (ensemble member, perturbationNumber), WMO Manual on Codes FM 92.
+ */
+import { execFileSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync, truncateSync, copyFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { extractBoxJson, extractRegionSeries } from '../../src/read/extract.ts';
+import { openDataset } from '../../src/read/open-dataset.ts';
+
+const HERE = import.meta.dirname;
+const tmp = mkdtempSync(join(tmpdir(), 'forelight-grib-'));
+const cache = join(tmp, 'cache');
+const previousCache = process.env.FORELIGHT_GRIB_CACHE;
+beforeAll(() => { process.env.FORELIGHT_GRIB_CACHE = cache; });
+afterAll(() => {
+  if (previousCache === undefined) delete process.env.FORELIGHT_GRIB_CACHE;
+  else process.env.FORELIGHT_GRIB_CACHE = previousCache;
+  rmSync(tmp, { recursive: true, force: true });
+});
+
+function makeGrib(name: string, members: number, steps: string, deterministic = false): string {
+  const out = join(tmp, name);
+  execFileSync('/usr/bin/python3', [join(HERE, 'grib/make-grib.py'), out, String(members), steps, ...(deterministic ? ['deterministic'] : [])]);
+  return out;
+}
+
+interface Reference { times: string[]; members: number[][] }
+function cfgrib(file: string, box: { south: number; north: number; west: number; east: number }, daily?: string): Reference {
+  const args = [join(HERE, 'grib/cfgrib-box.py'), file, 't2m', String(box.south), String(box.north), String(box.west), String(box.east), ...(daily ? [daily] : [])];
+  return JSON.parse(execFileSync('/usr/bin/python3', args, { encoding: 'utf8' })) as Reference;
+}
+
+const ensemble = makeGrib('ens.grib2', 3, '0,6,12,18,24,30,36,42,48');
+const boxes = [
+  { what: 'box across 0° on the 0..360 GRIB grid', box: { south: -12, north: -6, west: -10, east: 10 } },
+  { what: 'box across 180°', box: { south: -15, north: -3, west: 172, east: -174 } },
+];
+
+describe('GRIB2 ensemble (template 4.1) against cfgrib/xarray', () => {
+  it.each(boxes)('per member and step: $what', async ({ box }) => {
+    const got = await extractBoxJson(ensemble, { variable: 't2m', box });
+    const ref = cfgrib(ensemble, box);
+    expect(got.units).toBe('degC');
+    expect(got.times.map((t) => t.slice(0, 19))).toEqual(ref.times);
+    expect(got.members).toHaveLength(3);
+    got.members.forEach((row, m) => row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)));
+  });
+
+  it('daily maximum per cell, then the box mean (UTC days; the incomplete last day is dropped)', async () => {
+    const box = boxes[0].box;
+    const got = await extractBoxJson(ensemble, { variable: 't2m', box, daily: 'max' });
+    const ref = cfgrib(ensemble, box, 'max');
+    expect(got.times).toEqual(['2026-11-23', '2026-11-24']);
+    got.members.forEach((row, m) => row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)));
+  });
+
+  it('is converted once, into a folder named by the sha256 of the GRIB file', async () => {
+    const sha = createHash('sha256').update(readFileSync(ensemble)).digest('hex');
+    await extractBoxJson(ensemble, { variable: 't2m', box: boxes[0].box });
+    const folder = join(cache, sha);
+    expect(readdirSync(cache)).toContain(sha);
+    const before = readdirSync(folder).map((f) => statSync(join(folder, f)).mtimeMs);
+    await extractBoxJson(ensemble, { variable: 't2m', box: boxes[0].box });
+    expect(readdirSync(folder).map((f) => statSync(join(folder, f)).mtimeMs)).toEqual(before);
+    expect(readdirSync(folder)).toEqual(['m0.nc', 'm1.nc', 'm2.nc']);
+  });
+
+  it('states the forecast reference time of the GRIB message even when the first step is 24 h', async () => {
+    const late = makeGrib('from-step-24.grib2', 2, '24,48,72');
+    const regions = [{ id: 'r', name: 'r', shape: { kind: 'box' as const, ...boxes[0].box }, utcOffsetHours: 0, teams: [] }];
+    const r = await extractRegionSeries(late, { quantities: { tmean: 't2m' }, regions, referenceTime: '2026-11-23' });
+    expect(r.problems).toEqual([]);
+    expect(r.series[0].provenance.referenceTime).toBe('2026-11-23T00:00:00Z');
+    expect(r.series[0].members).toBe(2);
+    await expect(extractRegionSeries(late, { quantities: { tmean: 't2m' }, regions, referenceTime: '2026-11-24' })).rejects.toThrow(/holds the forecast of 2026-11-23T00:00:00Z/);
+  });
+});
+
+describe('other GRIB cases', () => {
+  it('a deterministic GRIB2 file (template 4.0, no perturbationNumber) is one member, equal to cfgrib', async () => {
+    const single = makeGrib('det.grb2', 1, '0,12,24', true);
+    const got = await extractBoxJson(single, { variable: 't2m', box: boxes[0].box });
+    const ref = cfgrib(single, boxes[0].box);
+    expect(got.members).toHaveLength(1);
+    got.members[0].forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[0][t])).toBeLessThanOrEqual(1e-4));
+  });
+
+  it('a truncated GRIB file is refused in one line naming the file and what to do', async () => {
+    const cut = join(tmp, 'cut.grib2');
+    copyFileSync(ensemble, cut);
+    truncateSync(cut, Math.floor(statSync(ensemble).size / 2) + 7);
+    const err = await openDataset(cut).then(() => null, (e: Error) => e);
+    expect(err?.message).toMatch(/cut\.grib2/);
+    expect(err?.message).toMatch(/ecCodes grib_(copy|to_netcdf) could not convert/);
+    expect(err?.message.split('\n')).toHaveLength(1);
+  });
+
+  it('without ecCodes installed the error names the Debian package', async () => {
+    const fresh = join(tmp, 'fresh.grib2');
+    copyFileSync(ensemble, fresh);
+    execFileSync('/usr/bin/grib_set', ['-s', 'dataTime=1200', ensemble, fresh]); // another checksum: not in the cache
+    const path = process.env.PATH;
+    process.env.PATH = join(tmp, 'no-tools-here');
+    try {
+      await expect(openDataset(fresh)).rejects.toThrow(/install the Debian package libeccodes-tools/);
+    } finally {
+      process.env.PATH = path;
+    }
+  });
+});

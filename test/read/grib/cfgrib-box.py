@@ -1,0 +1,34 @@
+"""Reference box means of a GRIB file read by python3-cfgrib + xarray (independent of Forelight and of
+grib_to_netcdf): cells whose centre lies in the box (edges inclusive, longitudes modulo 360), weighted by
+cos(latitude) (exactly proportional to the cell area on an evenly spaced grid). Optional daily reduction per
+cell over UTC days before the box mean. Prints JSON {"times": [...], "members": [[...]...]} in kelvin.
+
+usage: cfgrib-box.py FILE VAR S N W E [max|min|mean]
+"""
+import json
+import sys
+
+import numpy as np
+import xarray as xr
+
+path, var = sys.argv[1], sys.argv[2]
+s, n, w, e = map(float, sys.argv[3:7])
+daily = sys.argv[7] if len(sys.argv) > 7 else None
+ds = xr.open_dataset(path, engine='cfgrib', backend_kwargs={'indexpath': ''})
+da = ds[var]
+if 'number' not in da.dims:
+    da = da.expand_dims('number')
+if 'step' in da.dims:
+    da = da.assign_coords(step=ds['valid_time'].values).rename(step='vt')
+lon = da['longitude'].values % 360
+span = (e - w) % 360
+inlon = ((lon - w) % 360) <= span + 1e-6
+lat = da['latitude'].values
+inlat = (lat >= s - 1e-6) & (lat <= n + 1e-6)
+box = da.isel(latitude=np.where(inlat)[0], longitude=np.where(inlon)[0]).astype('float64')
+if daily:
+    box = getattr(box.resample(vt='1D'), daily)()
+weights = np.cos(np.deg2rad(box['latitude']))
+means = box.weighted(weights).mean(('latitude', 'longitude'))
+times = [str(t)[:19] for t in means['vt'].values]
+print(json.dumps({'times': times, 'members': means.transpose('number', 'vt').values.tolist()}))
