@@ -4,6 +4,7 @@
  */
 import type { LeadWindow } from '../types.ts';
 import type { LeadValues } from './lead-tiers.ts';
+import { diagnostic, type Diagnostic, type Place } from '../core/diagnostics.ts';
 import { sortValid } from '../core/percentile.ts';
 
 export interface LeadClimate {
@@ -22,16 +23,18 @@ export interface LeadClimate {
 
 /**
  * Stack per-year lead values (from `aggregateToLeads` of each hindcast start or observed year) into a climate
- * sample. Years whose member count differs from the first year's are left out, each with a problem line; a
- * year with fewer leads has NaN for the missing ones.
+ * sample. Years whose member count differs from the first year's are left out, each with a diagnostic at
+ * `place`; a year with fewer leads has NaN for the missing ones.
  */
-export function stackYears(what: string, units: string, perYear: readonly { year: number; leads: LeadValues }[]): { climate: LeadClimate | null; problems: string[] } {
-  const problems: string[] = [];
-  if (perYear.length === 0) return { climate: null, problems: [`${what}: no years given`] };
+export function stackYears(
+  what: string, units: string, perYear: readonly { year: number; leads: LeadValues }[], place: Place = {},
+): { climate: LeadClimate | null; problems: Diagnostic[] } {
+  const problems: Diagnostic[] = [];
+  if (perYear.length === 0) return { climate: null, problems: [diagnostic('hindcast-none', `${what}: no years given`, '', place)] };
   const members = perYear[0].leads.members;
   const used = perYear.filter((y) => {
     if (y.leads.members === members) return true;
-    problems.push(`${what}: year ${y.year} has ${y.leads.members} members, year ${perYear[0].year} has ${members}; year ${y.year} left out — regenerate it with the same ensemble`);
+    problems.push(diagnostic('hindcast-members', `${what}: year ${y.year} has ${y.leads.members} members, year ${perYear[0].year} has ${members}; year ${y.year} left out`, 'regenerate it with the same ensemble', place));
     return false;
   });
   const longest = used.reduce((a, y) => (y.leads.leads.length > a.leads.leads.length ? y : a), used[0]);

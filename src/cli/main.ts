@@ -2,6 +2,7 @@
  * `forelight` command-line entry: parses argv, dispatches to one command module, maps errors to a one-line
  * message on stderr and an exit code (see src/core/exit-codes.ts).
  */
+import { formatDiagnostic } from '../core/diagnostics.ts';
 import { describeError, ForelightError, ConfigError } from '../core/errors.ts';
 import { parseArgs, usageError, type OptionSpec, type ParsedArgs } from './args.ts';
 import { EXIT } from '../core/exit-codes.ts';
@@ -109,8 +110,8 @@ export async function main(argv: readonly string[]): Promise<number> {
     return await def.run(args);
   } catch (err) {
     if (err instanceof ConfigError) {
-      for (const p of err.problems) process.stderr.write(p + '\n');
-      process.stderr.write(`forelight: configuration has ${err.problems.length} problem(s); nothing was computed or sent\n`);
+      for (const d of err.diagnostics) process.stderr.write(formatDiagnostic(d) + '\n');
+      process.stderr.write(`forelight: configuration has ${err.diagnostics.length} problem(s); nothing was computed or sent\n`);
       return EXIT.configInvalid;
     }
     process.stderr.write(`forelight: ${describeError(err)}\n`);

@@ -2,8 +2,9 @@
  * "Region outside every grid" check, which needs the data: the caller reads each source's grid extent from
  * its files and passes it here; problems are located at the region's entry in the YAML.
  */
+import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { pointerOf, problem } from './problem.ts';
-import { regionEntryOf, sourceMapOf } from './load-config.ts';
+import { regionEntryOf } from './load-config.ts';
 import type { ConfigSourceMap } from './source-map.ts';
 import { shapeBounds, type ShapeBounds } from './region-shape.ts';
 import type { Config, RegionShape } from './types.ts';
@@ -40,9 +41,12 @@ export function lonIntervals(west: number, east: number, lon360: boolean): [numb
 
 const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 && b0 <= a1;
 
-/** One `file:line:col: message — fix` line per region that lies entirely outside a source's grid. */
-export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined = sourceMapOf(config)): string[] {
-  const out: string[] = [];
+/**
+ * One diagnostic per region that lies entirely outside a source's grid, at the region's YAML line when the
+ * source map of the loaded configuration is given (`checkConfigFile` returns it), else naming the file only.
+ */
+export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
+  const out: Diagnostic[] = [];
   config.regions.forEach((region) => {
     const i = regionEntryOf(config, region.id);
     const b = bounds(region.shape);
@@ -53,7 +57,7 @@ export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExt
       const p = problem(pointerOf('regions', i),
         `region ${region.id} (lat ${b.south}..${b.north}, lon ${b.west}..${b.east}) lies outside the grid of source ${g.source} (lat ${g.latMin}..${g.latMax}, lon ${g.lonMin}..${g.lonMax})`,
         'check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files');
-      out.push(sourceMap ? sourceMap.format(p) : `${config.file}: ${p.message} — ${p.fix}`);
+      out.push(sourceMap ? sourceMap.place('config-grid', p) : diagnostic('config-grid', p.message, p.fix, { file: config.file, pointer: p.pointer }));
     }
   });
   return out;

@@ -1,8 +1,10 @@
 /**
  * Loads, validates and resolves the operator configuration. Every problem (YAML syntax, schema, semantics,
- * included files) is collected and reported at once as `file:line:column: message — fix`.
+ * included files) is collected and reported at once, each as a Diagnostic with file, line and column.
  */
 import { dirname, resolve } from 'node:path';
+import type { DiagnosticCode } from '../core/diagnostic-codes.ts';
+import { byPlace, diagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
 import { ConfigError } from '../core/errors.ts';
 import { packagePath } from '../core/package-root.ts';
 import { loadRegionSets, type RegionSets } from './boundaries/region-sets.ts';
@@ -28,12 +30,22 @@ const INCLUDABLE = ['regions', 'teams'] as const;
 export interface ConfigCheck {
   /** Present when there are no problems. */
   readonly config?: Config;
-  readonly problems: readonly string[];
+  /** Every problem, in reading order (file, line, column). */
+  readonly diagnostics: readonly Diagnostic[];
   /** Positions of every key and value, for later messages (e.g. checkRegionsAgainstGrids). */
   readonly sourceMap: ConfigSourceMap;
 }
 
-const sourceMaps = new WeakMap<Config, ConfigSourceMap>();
+/** The semantic checks, each with the code its problems carry. They need the included lists: without them every reference would look unknown. */
+const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, setRegionIds: readonly string[]) => ConfigProblem[]])[] = [
+  ['config-duplicate-id', checkDuplicateIds],
+  ['config-reference', checkReferences],
+  ['config-rule', checkRules],
+  ['config-text', checkTexts],
+  ['config-value', checkValues],
+  ['config-indicator', checkIndicators],
+  ['config-combine', checkCombine],
+];
 
 const regionEntries = new WeakMap<Config, ReadonlyMap<string, number>>();
 
@@ -47,76 +59,62 @@ export function regionEntryOf(config: Config, regionId: string): number {
   return regionEntries.get(config)?.get(regionId) ?? config.regions.findIndex((r) => r.id === regionId);
 }
 
-/** The source map of a config returned by loadConfig/checkConfigFile (undefined for hand-made configs). */
-export function sourceMapOf(config: Config): ConfigSourceMap | undefined {
-  return sourceMaps.get(config);
-}
-
-/** Sort key `file:line:col` so that problems come out in reading order. */
-function byPosition(a: string, b: string): number {
-  const pa = /^(.*?):(\d+):(\d+):/.exec(a);
-  const pb = /^(.*?):(\d+):(\d+):/.exec(b);
-  if (!pa || !pb) return 0;
-  return pa[1].localeCompare(pb[1]) || Number(pa[2]) - Number(pb[2]) || Number(pa[3]) - Number(pb[3]);
-}
-
 export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promise<ConfigCheck> {
   const file = resolve(path);
   const sourceMap = new ConfigSourceMap();
   const main = await readYamlFile(file);
-  if (!main.ok) return { problems: [`${displayPath(file)}:1:1: ${main.message} — ${main.fix}`], sourceMap };
+  if (!main.ok) return { diagnostics: [diagnostic('config-file', main.message, main.fix, { file: displayPath(file), line: 1, column: 1 })], sourceMap };
   sourceMap.addDocument(file, main.doc, main.lineCounter);
-  if (main.problems.length > 0) return { problems: main.problems, sourceMap };
+  if (main.problems.length > 0) return { diagnostics: main.problems, sourceMap };
 
   const raw: Record<string, unknown> = { ...obj(main.value) };
-  const problems: string[] = [];
-  const pending: ConfigProblem[] = [];
+  const diagnostics: Diagnostic[] = [];
+  const pending: [DiagnosticCode, ConfigProblem][] = [];
   let includesComplete = true;
   const include = obj(raw.include);
   for (const key of INCLUDABLE) {
     const rel = text(include[key]);
     if (rel === undefined) {
-      if (raw[key] === undefined) pending.push(problem('', `no ${key} given`, `add ${key}: inline or include: ${key}: <file>`));
+      if (raw[key] === undefined) pending.push(['config-include', problem('', `no ${key} given`, `add ${key}: inline or include: ${key}: <file>`)]);
       continue;
     }
     const at = pointerOf('include', key);
     if (raw[key] !== undefined) {
-      pending.push(problem(at, `${key} are given both inline and in an included file`, `keep one: delete the inline ${key}: or this include`));
+      pending.push(['config-include', problem(at, `${key} are given both inline and in an included file`, `keep one: delete the inline ${key}: or this include`)]);
       continue;
     }
     const includedFile = resolve(dirname(file), rel);
     const read = await readYamlFile(includedFile);
     if (!read.ok) {
-      pending.push(problem(at, read.message, read.fix));
+      pending.push(['config-file', problem(at, read.message, read.fix)]);
       includesComplete = false;
       continue;
     }
     sourceMap.addDocument(includedFile, read.doc, read.lineCounter, pointerOf(key));
-    problems.push(...read.problems);
+    diagnostics.push(...read.problems);
     if (read.problems.length > 0) includesComplete = false;
     else raw[key] = read.value;
   }
 
-  pending.push(...validateAgainstSchema(raw));
-  // Semantic checks need the included lists: without them every reference would look unknown.
+  pending.push(...validateAgainstSchema(raw).map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
   let sets: RegionSets = { byEntry: new Map(), problems: [] };
   if (includesComplete) {
     sets = await loadRegionSets(raw, dirname(file));
     const setIds = [...sets.byEntry.values()].flat().map((r) => r.id);
-    pending.push(...sets.problems, ...checkDuplicateIds(raw), ...checkReferences(raw, setIds), ...checkRules(raw), ...checkTexts(raw), ...checkValues(raw), ...checkIndicators(raw), ...checkCombine(raw));
+    pending.push(...sets.problems.map((p): [DiagnosticCode, ConfigProblem] => ['config-boundaries', p]));
+    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, setIds).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
   }
-  problems.push(...pending.map((p) => sourceMap.format(p)));
-  const unique = [...new Set(problems)].sort(byPosition);
-  if (unique.length > 0) return { problems: unique, sourceMap };
+  diagnostics.push(...pending.map(([code, p]) => sourceMap.place(code, p)));
+  const unique = uniqueDiagnostics(diagnostics).sort(byPlace);
+  if (unique.length > 0) return { diagnostics: unique, sourceMap };
   const config = buildConfig(raw, file, sets.byEntry);
-  sourceMaps.set(config, sourceMap);
-  regionEntries.set(config, new Map(config.regions.map((r) => [r.id, raw.regions === undefined ? 0 : entryOf(raw.regions, r.id, sets.byEntry)])));
-  return { config, problems: [], sourceMap };
+  regionEntries.set(config, new Map(config.regions.map((r) => [r.id, entryOf(raw.regions, r.id, sets.byEntry)])));
+  return { config, diagnostics: [], sourceMap };
 }
 
 /** Loads a configuration (default: the packaged Veloria sample); throws ConfigError listing every problem. */
 export async function loadConfig(path?: string): Promise<Config> {
-  const { config, problems } = await checkConfigFile(path);
-  if (!config) throw new ConfigError(problems);
+  const { config, diagnostics } = await checkConfigFile(path);
+  if (!config) throw new ConfigError(diagnostics);
   return config;
 }

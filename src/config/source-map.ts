@@ -4,6 +4,8 @@
  */
 import { relative } from 'node:path';
 import { isAlias, isMap, isScalar, isSeq, type Document, type LineCounter, type Node } from 'yaml';
+import type { DiagnosticCode } from '../core/diagnostic-codes.ts';
+import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { parentPointer, pointerOf, type ConfigProblem } from './problem.ts';
 
 export interface SourcePosition {
@@ -59,10 +61,10 @@ export class ConfigSourceMap {
     }
   }
 
-  /** `file:line:column: message — fix`, with the file relative to the working directory. */
-  format(p: ConfigProblem): string {
+  /** The problem as a diagnostic placed at its file (relative to the working directory), line and column. */
+  place(code: DiagnosticCode, p: ConfigProblem): Diagnostic {
     const pos = this.locate(p.pointer, p.at);
-    return `${displayPath(pos.file)}:${pos.line}:${pos.column}: ${p.message} — ${p.fix}`;
+    return diagnostic(code, p.message, p.fix, { file: displayPath(pos.file), pointer: p.pointer, line: pos.line, column: pos.column });
   }
 }
 

@@ -1,38 +1,49 @@
 /**
- * Typed, actionable errors. Every message is one line: what failed, where (file, variable, region or
- * YAML line), and what to do. `code` is stable for tests and logs.
+ * Typed, actionable errors. Every error carries one `Diagnostic` (code from the catalogue in
+ * `diagnostic-codes.ts`, stage, place, message, hint); its `message` is that diagnostic formatted on one line.
  */
+import type { DiagnosticCode, Stage } from './diagnostic-codes.ts';
+import { diagnostic, formatDiagnostic, type Diagnostic, type Place } from './diagnostics.ts';
 
-export type Stage = 'config' | 'read' | 'indicators' | 'calibrate' | 'decide' | 'render' | 'deliver' | 'ledger' | 'schedule' | 'cli';
+export type { Stage } from './diagnostic-codes.ts';
 
 export class ForelightError extends Error {
-  readonly code: string;
-  readonly stage: Stage;
-  readonly hint: string;
+  readonly diagnostic: Diagnostic;
 
-  constructor(stage: Stage, code: string, message: string, hint: string, options?: { cause?: unknown }) {
-    super(hint ? `${message} — ${hint}` : message, options);
+  constructor(stage: Stage, code: DiagnosticCode, message: string, hint: string, options?: { cause?: unknown; place?: Place }) {
+    const d = diagnostic(code, message, hint, options?.place, { stage });
+    super(formatDiagnostic(d), options);
     this.name = new.target.name;
-    this.code = code;
-    this.stage = stage;
-    this.hint = hint;
+    this.diagnostic = d;
+  }
+
+  get code(): DiagnosticCode {
+    return this.diagnostic.code;
+  }
+
+  get stage(): Stage {
+    return this.diagnostic.stage;
+  }
+
+  get hint(): string {
+    return this.diagnostic.hint;
   }
 }
 
-/** A configuration problem; `problems` holds every `file:line:col: message — fix` line found. */
+/** A configuration problem; `diagnostics` holds every problem found, each with file:line:column. */
 export class ConfigError extends ForelightError {
-  readonly problems: readonly string[];
-  constructor(problems: readonly string[]) {
-    super('config', 'config-invalid', problems.join('\n'), '');
-    this.problems = problems;
+  readonly diagnostics: readonly Diagnostic[];
+  constructor(diagnostics: readonly Diagnostic[]) {
+    super('config', 'config-invalid', diagnostics.map(formatDiagnostic).join('\n'), '');
+    this.diagnostics = diagnostics;
   }
 }
 
 /** A problem with an input file (NetCDF, observations): names the file and the variable. */
 export class InputError extends ForelightError {
   readonly file: string;
-  constructor(code: string, file: string, message: string, hint: string, options?: { cause?: unknown }) {
-    super('read', code, `${file}: ${message}`, hint, options);
+  constructor(code: DiagnosticCode, file: string, message: string, hint: string, options?: { cause?: unknown; place?: Omit<Place, 'file'> }) {
+    super('read', code, message, hint, { cause: options?.cause, place: { ...options?.place, file } });
     this.file = file;
   }
 }
@@ -51,6 +62,12 @@ export class DeliveryError extends ForelightError {
     super('deliver', temporary ? 'delivery-temporary' : 'delivery-permanent', message, hint, options);
     this.temporary = temporary;
   }
+}
+
+/** The diagnostic of a thrown value: its own for a ForelightError, else `code` with the error's text. */
+export function diagnosticOf(err: unknown, code: DiagnosticCode, hint = ''): Diagnostic {
+  if (err instanceof ForelightError) return err.diagnostic;
+  return diagnostic(code, err instanceof Error ? err.message.split('\n').join(' | ') : String(err), hint);
 }
 
 /** One-line text for any thrown value, for stderr and logs. */

@@ -13,6 +13,7 @@
  */
 import { Cron, type CronOptions } from 'croner';
 import { ConfigError } from './errors.ts';
+import { diagnostic } from './diagnostics.ts';
 
 const formatters = new Map<string, Intl.DateTimeFormat>();
 
@@ -40,7 +41,7 @@ export function timeZoneProblem(tz: string): { message: string; fix: string } | 
 /** Throws a one-line ConfigError unless `tz` is an IANA zone this Node knows. */
 export function checkTimeZone(tz: string): void {
   const p = timeZoneProblem(tz);
-  if (p) throw new ConfigError([`schedule.timezone: ${p.message} — ${p.fix}`]);
+  if (p) throw new ConfigError([diagnostic('config-value', `schedule.timezone: ${p.message}`, p.fix, { pointer: '/schedule/timezone' })]);
 }
 
 /** Offset of zone `tz` from UTC at instant `ms`, in milliseconds (local = UTC + offset). */
@@ -96,7 +97,7 @@ export function cronProblem(expr: string): { message: string; fix: string } | nu
 /** The expression as a croner job on the wall clock; throws a one-line ConfigError when `cronProblem` finds one. */
 function wallClockJob(expr: string): Cron {
   const p = cronProblem(expr);
-  if (p) throw new ConfigError([`schedule.cron: ${p.message} — ${p.fix}`]);
+  if (p) throw new ConfigError([diagnostic('config-value', `schedule.cron: ${p.message}`, p.fix, { pointer: '/schedule/cron' })]);
   return new Cron(expr, CLASSIC);
 }
 

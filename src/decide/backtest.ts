@@ -13,13 +13,14 @@
 import type { Config } from '../config/types.ts';
 import type { IsoDate, LeadProbability, Tier } from '../types.ts';
 import { decideStages } from './decide-stages.ts';
-import { EMPTY_HISTORY, trackKey, type StageHistory } from './types.ts';
+import { eventKey, trackKey, type EventKey, type TunedKey } from '../core/keys.ts';
+import { EMPTY_HISTORY, type StageHistory } from './types.ts';
 
 export interface BacktestCase {
   readonly startDate: IsoDate;
   readonly probabilities: readonly LeadProbability[];
   /** eventKey(region, indicator, tier, lead index) → observed exceedance in that lead window. */
-  readonly observedEvents: ReadonlyMap<string, boolean>;
+  readonly observedEvents: ReadonlyMap<EventKey, boolean>;
 }
 
 export interface BacktestRow {
@@ -36,12 +37,8 @@ export interface BacktestRow {
   readonly unverified: number;
 }
 
-export function eventKey(region: string, indicator: string, tier: Tier, leadIndex: number): string {
-  return `${trackKey(region, indicator, tier)}|${leadIndex}`;
-}
-
 export interface BacktestOptions {
-  readonly thresholdsFromCostLoss?: ReadonlyMap<string, number>;
+  readonly thresholdsFromCostLoss?: ReadonlyMap<TunedKey, number>;
   /** Default "ignore": skill comes from these same hindcasts, so gating on it would be circular. */
   readonly skillGate?: 'apply' | 'ignore';
 }

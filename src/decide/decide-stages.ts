@@ -7,14 +7,15 @@ import type { Config } from '../config/types.ts';
 import type { LeadProbability, StageDecision } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
 import { applyPersistence } from './persistence.ts';
-import { TIER_ORDER, stageRank, trackKey, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+import { trackKey, type TrackKey, type TunedKey } from '../core/keys.ts';
+import { TIER_ORDER, stageRank, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
 
 export interface DecideInput {
   readonly config: Config;
   readonly probabilities: readonly LeadProbability[];
   readonly history: StageHistory;
   /** tunedKey(region, rule id) → probability threshold tuned on that region's hindcasts for rules that give cost-loss. */
-  readonly thresholdsFromCostLoss?: ReadonlyMap<string, number>;
+  readonly thresholdsFromCostLoss?: ReadonlyMap<TunedKey, number>;
   /** "ignore" only for backtests on the hindcasts the skill was measured on (default "apply"). */
   readonly skillGate?: 'apply' | 'ignore';
 }
@@ -27,8 +28,8 @@ export interface DecideResult {
 
 export function decideStages(input: DecideInput): DecideResult {
   const { config, history } = input;
-  const tuned = input.thresholdsFromCostLoss ?? new Map<string, number>();
-  const byKey = new Map<string, LeadProbability[]>();
+  const tuned = input.thresholdsFromCostLoss ?? new Map<TunedKey, number>();
+  const byKey = new Map<TrackKey, LeadProbability[]>();
   for (const p of input.probabilities) {
     const key = trackKey(p.region, p.indicator, p.lead.tier);
     const list = byKey.get(key);

@@ -4,7 +4,8 @@
  */
 import type { Config } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
-import { leadName, stageRank, tunedKey } from './types.ts';
+import { tunedKey, type TunedKey } from '../core/keys.ts';
+import { leadName, stageRank } from './types.ts';
 import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
@@ -45,7 +46,7 @@ export function evaluateRules(
   indicator: string,
   tier: Tier,
   probabilities: readonly LeadProbability[],
-  tuned: ReadonlyMap<string, number>,
+  tuned: ReadonlyMap<TunedKey, number>,
   skillGate: 'apply' | 'ignore',
 ): RawStage {
   const rank = (id: string) => stageRank(config.stages, id);

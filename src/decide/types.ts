@@ -30,10 +30,6 @@ export interface StageHistory {
 
 export const EMPTY_HISTORY: StageHistory = { version: 1, tracks: {} };
 
-export function trackKey(region: string, indicator: string, tier: Tier): string {
-  return `${region}|${indicator}|${tier}`;
-}
-
 /** The stage of a region after combining its indicators and tiers (highest wins). */
 export interface RegionStage {
   readonly region: string;
@@ -57,9 +53,6 @@ export const TIER_ORDER: readonly Tier[] = ['days', 'weeks', 'months'];
 /** "day 3", "week 2", "month 1". */
 /** Position of stage `id` on the ladder (0 = lowest), -1 when the ladder has no such stage. */
 export const stageRank = (stages: readonly { readonly id: string }[], id: string): number => stages.findIndex((s) => s.id === id);
-
-/** Key of a cost/loss threshold tuned for one region and rule (the tuning is per region: its own hindcasts). */
-export const tunedKey = (region: string, ruleId: string): string => `${region}|${ruleId}`;
 
 export function leadName(tier: Tier, index: number): string {
   return `${tier.slice(0, -1)} ${index}`;

@@ -3,6 +3,7 @@
  * when SMTP is not configured or fails, the notice goes to the outbox folder and the log instead.
  */
 import type { DeliveryConfig } from '../config/types.ts';
+import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError } from '../core/errors.ts';
 import { silentLogger, type Logger } from '../core/log.ts';
 import { renderEml } from './compose-message.ts';
@@ -50,12 +51,18 @@ export async function notifyOperators(
   }
 }
 
+/** The notice's text: `text`, then one line per diagnostic (`file:line:col: message — hint`). */
+export function noticeText(text: string, diagnostics: readonly Diagnostic[]): string {
+  if (diagnostics.length === 0) return text;
+  return `${text}\n\nProblems found (${diagnostics.length}):\n${diagnostics.map((d) => `- [${d.code}] ${formatDiagnostic(d)}`).join('\n')}\n`;
+}
+
 /** Tell the operators something (e.g. "no new data for 2026-11-26"): SMTP when configured, else the outbox. */
 export async function sendOperatorNotice(
   delivery: DeliveryConfig,
   subject: string,
   text: string,
-  options: { log?: Logger; env?: NodeJS.ProcessEnv } = {},
+  options: { log?: Logger; env?: NodeJS.ProcessEnv; diagnostics?: readonly Diagnostic[] } = {},
 ): Promise<NoticeResult> {
   const log = options.log ?? silentLogger;
   let transport: SmtpTransporter | null = null;
@@ -67,7 +74,7 @@ export async function sendOperatorNotice(
     }
   }
   try {
-    return await notifyOperators(transport, delivery, subject, text, log);
+    return await notifyOperators(transport, delivery, subject, noticeText(text, options.diagnostics ?? []), log);
   } finally {
     transport?.close();
   }

@@ -124,6 +124,17 @@ export const MIGRATIONS: readonly string[] = [
   );
   CREATE INDEX cap_alerts_by_subject ON cap_alerts (region, indicator, run_id);
   `,
+  // 2: every input problem of a run as data (src/core/diagnostics.ts), in the order found.
+  `
+  CREATE TABLE run_diagnostics (
+    run_id INTEGER NOT NULL REFERENCES runs (id),
+    position INTEGER NOT NULL,
+    code TEXT NOT NULL,
+    severity TEXT NOT NULL,
+    diagnostic_json TEXT NOT NULL,
+    PRIMARY KEY (run_id, position)
+  );
+  `,
 ];
 
 /** Bring `db` to the newest schema inside one transaction; refuses a ledger written by a newer Forelight. */

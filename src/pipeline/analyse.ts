@@ -6,7 +6,9 @@
 import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineSources } from '../calibrate/lead-tiers.ts';
+import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError, type ForelightError } from '../core/errors.ts';
+import { trackKey, type TrackKey } from '../core/keys.ts';
 import type { Logger } from '../core/log.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { regionClimatology } from './indicator-context.ts';
@@ -23,17 +25,17 @@ export interface Analysis {
   readonly probabilities: readonly LeadProbability[];
   /** The combination rule and what it dropped, for the output. */
   readonly combination: readonly string[];
-  /** One line per file, region or indicator skipped, with the reason. */
-  readonly problems: readonly string[];
+  /** One diagnostic per file, region or indicator skipped, with the reason. */
+  readonly problems: readonly Diagnostic[];
   /** Input file checksums remembered across runs (saved under calibration.cacheDir). */
   readonly checksums: ChecksumMemo;
 }
 
 function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadResult): { kept: LeadProbability[]; notes: string[] } {
-  const groups = new Map<string, Map<string, LeadProbability[]>>();
+  const groups = new Map<TrackKey, Map<string, LeadProbability[]>>();
   for (const o of outcomes) {
     for (const p of o.probabilities) {
-      const key = `${p.region}|${p.indicator}|${p.lead.tier}`;
+      const key = trackKey(p.region, p.indicator, p.lead.tier);
       const bySource = groups.get(key) ?? new Map<string, LeadProbability[]>();
       groups.set(key, bySource);
       bySource.set(o.source, [...(bySource.get(o.source) ?? []), p]);
@@ -87,10 +89,10 @@ export async function analyse(
   }
   onProgress?.(total, total, 'done');
   const { kept, notes } = combine(sources, config, read);
-  const problems = [...fileProblems.map((p) => p.message), ...sources.flatMap((s) => s.problems)];
-  for (const p of problems) log.warn('skipped', { problem: p });
+  const problems = uniqueDiagnostics([...fileProblems.map((p) => p.diagnostic), ...sources.flatMap((s) => s.problems)]);
+  for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await checksums.save();
-  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems: [...new Set(problems)], checksums };
+  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems, checksums };
 }
 
 function safeClimatology(read: ReadResult, region: string, log: Logger) {

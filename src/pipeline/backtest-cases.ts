@@ -6,17 +6,18 @@
 import type { Config } from '../config/types.ts';
 import { observedCases } from '../calibrate/skill.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
-import { eventKey, type BacktestCase } from '../decide/backtest.ts';
+import type { BacktestCase } from '../decide/backtest.ts';
+import { eventKey, pairOf, type EventKey } from '../core/keys.ts';
 import type { LeadProbability } from '../types.ts';
 import type { Analysis } from './analyse.ts';
 
 export function backtestCases(config: Config, analysis: Analysis): BacktestCase[] {
-  const byYear = new Map<number, { probabilities: LeadProbability[]; events: Map<string, boolean>; start: string }>();
+  const byYear = new Map<number, { probabilities: LeadProbability[]; events: Map<EventKey, boolean>; start: string }>();
   for (const source of analysis.sources) {
     for (const [key, climate] of source.climates) {
       const { hindcast: hc, observed: obs } = climate;
       if (!hc || !obs) continue;
-      const [region, indicator] = key.split('|');
+      const { region, indicator } = pairOf(key);
       const ind = config.indicators.find((i) => i.id === indicator);
       if (!ind) continue;
       const spec = resolveThresholdSpec(ind, region);
@@ -24,7 +25,7 @@ export function backtestCases(config: Config, analysis: Analysis): BacktestCase[
         if (l >= obs.leads.length) return;
         const cases = observedCases(hc, obs, l, spec, lead.tier !== 'days');
         cases.years.forEach((year, i) => {
-          const entry = byYear.get(year) ?? { probabilities: [] as LeadProbability[], events: new Map<string, boolean>(), start: `${year}-${lead.start.slice(5)}` };
+          const entry = byYear.get(year) ?? { probabilities: [] as LeadProbability[], events: new Map<EventKey, boolean>(), start: `${year}-${lead.start.slice(5)}` };
           byYear.set(year, entry);
           if (lead.index === 1 && lead.start < entry.start) entry.start = lead.start;
           entry.probabilities.push({

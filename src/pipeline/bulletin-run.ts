@@ -2,6 +2,7 @@
  * Assembles the render stage's input (BulletinRun) from the decide stage's output, the probabilities and the
  * previous issue — no number is recomputed here.
  */
+import type { Diagnostic } from '../core/diagnostics.ts';
 import type { Config, StageConfig } from '../config/types.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { combineRegionStages } from '../decide/decide-stages.ts';
@@ -23,8 +24,10 @@ export interface BulletinRunInput {
   readonly regionStages: readonly RegionStage[];
   /** Region stages of the last issued bulletin (empty on the first issue). */
   readonly previous: readonly RegionStageLike[];
-  /** Source-combination rule and skipped inputs, for run.json. */
+  /** Source-combination rule and what it replaced, for run.json. */
   readonly notes: readonly string[];
+  /** Input problems of the run. */
+  readonly problems: readonly Diagnostic[];
 }
 
 /** Local calendar date (YYYY-MM-DD) of an instant in an IANA time zone. */
@@ -86,5 +89,6 @@ export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
     nextIssue: nextIssueDate(config, input.issuedAt),
     regions,
     notes: input.notes,
+    problems: input.problems,
   };
 }

@@ -9,7 +9,9 @@ import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
 import { observedCases, potentialCases, skillReports, type SkillReport } from '../calibrate/skill.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
 import { bestProbabilityThreshold } from '../calibrate/verify.ts';
-import { describeError } from '../core/errors.ts';
+import { formatDiagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
+import { diagnosticOf } from '../core/errors.ts';
+import { pairKey, type PairKey } from '../core/keys.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
 import type { IndicatorSeries } from '../types.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
@@ -21,24 +23,26 @@ export interface IndicatorClimate {
   readonly skill: readonly SkillReport[];
   /** Rule id → tuned probability threshold (maximum relative economic value on the hindcasts). */
   readonly tuned: Readonly<Record<string, number>>;
-  readonly problems: readonly string[];
+  readonly problems: readonly Diagnostic[];
 }
 
-/** The observed indicator of a region over the whole observation record (one member), or an error text. */
-export type ObservedIndicators = Map<string, IndicatorSeries | string>;
+/** The observed indicator of a region over the whole observation record (one member), or why there is none. */
+export type ObservedIndicators = Map<PairKey, IndicatorSeries | Diagnostic>;
+
+const isSeries = (v: IndicatorSeries | Diagnostic | null): v is IndicatorSeries => v !== null && 'data' in v;
 
 export function observedIndicator(
   ind: IndicatorConfig, region: RegionConfig, observed: RegionQuantities | null, climatology: IndicatorClimatology, memo: ObservedIndicators,
-): IndicatorSeries | string | null {
+): IndicatorSeries | Diagnostic | null {
   const obs = observed?.get(region.id);
   if (!obs) return null;
-  const key = `${region.id}|${ind.id}`;
+  const key = pairKey(region.id, ind.id);
   let result = memo.get(key);
   if (result === undefined) {
     try {
       result = computeIndicator(ind, obs, indicatorContext(climatology, undefined, undefined));
     } catch (err) {
-      result = `observations of ${region.id}: ${describeError(err)}`;
+      result = within(diagnosticOf(err, 'observations-skipped'), `observations of ${region.id}`, { region: region.id, indicator: ind.id });
     }
     memo.set(key, result);
   }
@@ -79,11 +83,12 @@ export function buildIndicatorClimate(
   config: Config, source: SourceConfig, region: RegionConfig, ind: IndicatorConfig,
   hindcasts: readonly HindcastRead[], observed: RegionQuantities | null, climatology: IndicatorClimatology, memo: ObservedIndicators,
 ): IndicatorClimate {
-  const problems: string[] = [];
+  const problems: Diagnostic[] = [];
   const tier = source.tier;
+  const place = { source: source.id, region: region.id, indicator: ind.id };
   const obsSeries = observedIndicator(ind, region, observed, climatology, memo);
-  if (typeof obsSeries === 'string') problems.push(obsSeries);
-  const failures = new Map<string, number>();
+  if (obsSeries && !isSeries(obsSeries)) problems.push(obsSeries);
+  const failures = new Map<string, { first: Diagnostic; files: number }>();
   const hcYears: { year: number; leads: LeadValues }[] = [];
   const obsYears: { year: number; leads: LeadValues }[] = [];
   let units = '';
@@ -95,17 +100,18 @@ export function buildIndicatorClimate(
       const result = computeIndicator(ind, inputs, indicatorContext(climatology, observed?.get(region.id), first));
       units = result.units;
       hcYears.push({ year: h.year, leads: aggregateToLeads(result, tier, ind.aggregate) });
-      if (obsSeries && typeof obsSeries !== 'string') obsYears.push({ year: h.year, leads: aggregateToLeads(onDays(obsSeries, result), tier, ind.aggregate) });
+      if (isSeries(obsSeries)) obsYears.push({ year: h.year, leads: aggregateToLeads(onDays(obsSeries, result), tier, ind.aggregate) });
     } catch (err) {
-      const text = describeError(err);
-      failures.set(text, (failures.get(text) ?? 0) + 1);
+      const first = diagnosticOf(err, 'hindcast-skipped');
+      const text = formatDiagnostic(first);
+      failures.set(text, { first: failures.get(text)?.first ?? first, files: (failures.get(text)?.files ?? 0) + 1 });
     }
   }
-  for (const [text, files] of failures) problems.push(`${files} hindcast file(s) of ${source.id}, region ${region.id}: ${text}`);
+  for (const { first, files } of failures.values()) problems.push(within(first, `${files} hindcast file(s) of ${source.id}, region ${region.id}`, place));
   if (hcYears.length === 0) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const what = `${source.id} hindcasts for ${region.id} (${ind.id})`;
-  const hc = stackYears(what, units, hcYears);
-  const obs = obsYears.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsYears) : { climate: null, problems: [] };
+  const hc = stackYears(what, units, hcYears, place);
+  const obs = obsYears.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsYears, place) : { climate: null, problems: [] };
   problems.push(...hc.problems, ...obs.problems);
   if (!hc.climate) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const skill = skillReports({

@@ -7,7 +7,8 @@ import type { Config } from '../config/types.ts';
 import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
-import { tunedKey, type StageHistory } from '../decide/types.ts';
+import { pairOf, tunedKey, type TunedKey } from '../core/keys.ts';
+import type { StageHistory } from '../decide/types.ts';
 import { openLedger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
 import type { Logger } from '../core/log.ts';
@@ -27,11 +28,11 @@ export interface DecidedNow {
  * Tuned cost/loss thresholds of every region × rule (`tunedKey`), from the analysis' climates. When two sources of
  * one tier both tune a rule for a region, the first source in the configuration's order gives it.
  */
-export function tunedThresholds(analysis: Analysis): Map<string, number> {
-  const out = new Map<string, number>();
+export function tunedThresholds(analysis: Analysis): Map<TunedKey, number> {
+  const out = new Map<TunedKey, number>();
   for (const s of analysis.sources) {
     for (const [key, c] of s.climates) {
-      const region = key.slice(0, key.indexOf('|')); // climateKey(region, indicator); ids hold no '|'
+      const { region } = pairOf(key);
       for (const [rule, p] of Object.entries(c.tuned)) if (!out.has(tunedKey(region, rule))) out.set(tunedKey(region, rule), p);
     }
   }

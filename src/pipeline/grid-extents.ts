@@ -6,7 +6,8 @@ import { readdirSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import type { GridExtent } from '../config/check-grids.ts';
 import type { Config } from '../config/types.ts';
-import { describeError } from '../core/errors.ts';
+import { diagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
+import { diagnosticOf } from '../core/errors.ts';
 import { findCoordinates } from '../read/coordinates.ts';
 import { withDataset } from '../read/open-dataset.ts';
 
@@ -26,13 +27,13 @@ export function newestForecastFile(pattern: string): string | null {
 }
 
 /** Extents of the sources whose files can be found and read; the others are listed as notes. */
-export async function sourceGridExtents(config: Config): Promise<{ grids: GridExtent[]; notes: string[] }> {
+export async function sourceGridExtents(config: Config): Promise<{ grids: GridExtent[]; notes: Diagnostic[] }> {
   const grids: GridExtent[] = [];
-  const notes: string[] = [];
+  const notes: Diagnostic[] = [];
   for (const source of config.sources) {
     const file = newestForecastFile(source.forecast);
     if (!file) {
-      notes.push(`source '${source.id}': no forecast file yet matches ${source.forecast}; its grid was not checked`);
+      notes.push(diagnostic('grid-not-checked', `source '${source.id}': no forecast file yet matches ${source.forecast}; its grid was not checked`, '', { source: source.id }));
       continue;
     }
     try {
@@ -41,7 +42,7 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
       const lons = Array.from(grid.lon);
       grids.push({ source: source.id, latMin: Math.min(...lats), latMax: Math.max(...lats), lonMin: Math.min(...lons), lonMax: Math.max(...lons), lon360: Math.max(...lons) > 180 });
     } catch (err) {
-      notes.push(`source '${source.id}': ${describeError(err)}`);
+      notes.push({ ...within(diagnosticOf(err, 'read-failed'), `source '${source.id}'`, { source: source.id }, 'grid-not-checked'), severity: 'note' });
     }
   }
   return { grids, notes };

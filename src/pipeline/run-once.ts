@@ -9,7 +9,9 @@ import { decideStages } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import { deliverPending, type DeliverOptions } from '../deliver/deliver-pending.ts';
 import { sendOperatorNotice } from '../deliver/operator-notice.ts';
+import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
+import { recordDiagnostics, runDiagnostics } from '../ledger/diagnostics.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
 import { openLedger, type Ledger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
@@ -77,11 +79,14 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 }
 
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
-async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ problems: readonly string[]; bulletins: number }> {
+async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ bulletins: number }> {
   const { config, log } = options;
   const analysis = await analyse(config, options.issueDate, log, undefined, inputs); // the files the run key names
+  recordDiagnostics(ledger, runId, analysis.problems);
   if (analysis.read.sources.length === 0) {
-    throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
+    const text = `No forecast of any source could be read for ${options.issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
+    await sendOperatorNotice(config.delivery, `no forecast could be read for ${options.issueDate}`, text, { log, diagnostics: analysis.problems });
+    throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.map(formatDiagnostic).join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
   }
   await recordInputFiles(ledger, runId, analysis, config);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
@@ -93,7 +98,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
   const run = buildBulletinRun({
     config, runId: `${options.issueDate}-${runId}`, issuedAt: (options.now ?? (() => new Date()))(), mode: options.mode,
     sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
-    regionStages: decided.regionStages, previous, notes: [...analysis.combination, ...analysis.problems.map((p) => `skipped: ${p}`)],
+    regionStages: decided.regionStages, previous, notes: analysis.combination, problems: analysis.problems,
   });
   const rendered = await renderBulletins(config, run, previousIssue(ledger, config, runId));
   ledger.db.transaction(() => {
@@ -102,7 +107,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
   })();
   const index = publishArchive(config, rendered.archive);
   log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length, archive: index });
-  return { problems: analysis.problems, bulletins: rendered.bulletins.length };
+  return { bulletins: rendered.bulletins.length };
 }
 
 export async function runOnce(options: RunOptions): Promise<RunOutcome> {
@@ -124,18 +129,18 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     }
     const runId = begun.run.id;
     const rlog = log.child({ runId });
-    let problems: readonly string[] = [];
     try {
       if (begun.kind === 'resumed' && hasBulletins(ledger, runId)) rlog.warn('resuming an interrupted run: sending what was not yet sent');
-      else ({ problems } = await prepare(ledger, { ...options, log: rlog }, runId, inputs));
+      else await prepare(ledger, { ...options, log: rlog }, runId, inputs);
     } catch (err) {
       finishRun(ledger, runId, 'failed', describeError(err));
       throw err;
     }
     const sent = await deliverPending(ledger, config.delivery, rlog, { ...options.deliver, runId });
     const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
+    const problems: readonly Diagnostic[] = runDiagnostics(ledger, runId); // also those of the interrupted start
     const status = problems.length > 0 || deliveryCode !== EXIT.ok ? 'partial' : 'ok';
-    finishRun(ledger, runId, status, problems.length > 0 ? problems.join(' | ') : undefined);
+    finishRun(ledger, runId, status);
     const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)`;
     rlog.info(summary, { stage: 'deliver' });
     const exitCode = deliveryCode !== EXIT.ok ? deliveryCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;

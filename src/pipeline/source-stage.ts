@@ -9,9 +9,11 @@ import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
 import { leadProbabilities } from '../calibrate/probability.ts';
 import { skillByLead } from '../calibrate/skill.ts';
 import type { ChecksumMemo } from '../core/file-checksums.ts';
+import { pairKey, type PairKey } from '../core/keys.ts';
 import { cachedSkill, fingerprint, skillCacheKey } from '../calibrate/skill-cache.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
-import { describeError, type ForelightError } from '../core/errors.ts';
+import { within, type Diagnostic } from '../core/diagnostics.ts';
+import { diagnosticOf, type ForelightError } from '../core/errors.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
 import type { LeadProbability } from '../types.ts';
 import { buildIndicatorClimate, type IndicatorClimate, type ObservedIndicators } from './climate-stage.ts';
@@ -22,13 +24,13 @@ import { readHindcasts, readPlace, regionCells, type RegionQuantities, type Sour
 export interface SourceOutcome {
   readonly source: string;
   readonly probabilities: readonly LeadProbability[];
-  /** `${region}|${indicator}` → climate and skill. */
-  readonly climates: ReadonlyMap<string, IndicatorClimate>;
-  /** `${region}|${indicator}` → the forecast's values per member and lead (for explain). */
-  readonly forecastLeads: ReadonlyMap<string, LeadValues>;
+  /** pairKey(region, indicator) → climate and skill. */
+  readonly climates: ReadonlyMap<PairKey, IndicatorClimate>;
+  /** pairKey(region, indicator) → the forecast's values per member and lead (for explain). */
+  readonly forecastLeads: ReadonlyMap<PairKey, LeadValues>;
   readonly fromCache: boolean;
   /** Region × indicator combinations that were skipped, with the reason. */
-  readonly problems: readonly string[];
+  readonly problems: readonly Diagnostic[];
 }
 
 export interface SharedContext {
@@ -42,19 +44,17 @@ export interface SharedContext {
   readonly checksums: ChecksumMemo;
 }
 
-type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & { hindcast: StoredLeadClimate | null; observed: StoredLeadClimate | null };
+type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & { region: string; indicator: string; hindcast: StoredLeadClimate | null; observed: StoredLeadClimate | null };
 type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: number[] };
 
 const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: Array.from(c.values) } : null);
 const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: Float64Array.from(c.values) } : null);
 
-export const climateKey = (region: string, indicator: string): string => `${region}|${indicator}`;
-
 function pairs(config: Config, tier: string): { region: RegionConfig; ind: IndicatorConfig }[] {
   return config.regions.flatMap((region) => config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })));
 }
 
-async function loadClimates(ctx: SharedContext, input: SourceInputs, read: SourceRead, problems: ForelightError[]): Promise<{ climates: Map<string, IndicatorClimate>; fromCache: boolean }> {
+async function loadClimates(ctx: SharedContext, input: SourceInputs, read: SourceRead, problems: ForelightError[]): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean }> {
   const { config } = ctx;
   const source = input.source;
   if (input.hindcasts.length === 0) return { climates: new Map(), fromCache: false };
@@ -64,16 +64,14 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, read: Sourc
     configFingerprint: fingerprint({ source: { id: source.id, tier: source.tier, hindcast: source.hindcast, variables: source.variables }, regions: config.regions, indicators: config.indicators, rules: config.rules, gate: config.decision.skillGate, calibration: config.calibration }),
     memo: ctx.checksums,
   });
-  const cached = await cachedSkill<Record<string, StoredClimate>>(config.calibration.cacheDir, key, async () => {
+  const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, async () => {
     const hindcasts = await readHindcasts(source, input.hindcasts, readPlace(config), problems, regionCells(read.series));
-    const out: Record<string, StoredClimate> = {};
-    for (const { region, ind } of pairs(config, source.tier)) {
+    return pairs(config, source.tier).map(({ region, ind }): StoredClimate => {
       const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
-      out[climateKey(region.id, ind.id)] = { ...c, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
-    }
-    return out;
+      return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
+    });
   });
-  const climates = new Map(Object.entries(cached.value).map(([k, c]) => [k, { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) }]));
+  const climates = new Map(cached.value.map(({ region, indicator, ...c }) => [pairKey(region, indicator), { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) }]));
   return { climates, fromCache: cached.fromCache };
 }
 
@@ -82,18 +80,18 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
   const { config } = ctx;
   const { climates, fromCache } = await loadClimates(ctx, input, read, fileProblems);
   const probabilities: LeadProbability[] = [];
-  const forecastLeads = new Map<string, LeadValues>();
-  const problems: string[] = [];
+  const forecastLeads = new Map<PairKey, LeadValues>();
+  const problems: Diagnostic[] = [];
   for (const { region, ind } of pairs(config, read.source.tier)) {
     const inputs = read.series.get(region.id);
     if (!inputs) continue; // the read stage already reported why
-    const climate = climates.get(climateKey(region.id, ind.id));
+    const climate = climates.get(pairKey(region.id, ind.id));
     if (climate) problems.push(...climate.problems);
     try {
       const first = [...inputs.values()][0]?.days[0];
       const series = computeIndicator(ind, inputs, indicatorContext(ctx.climatology.get(region.id) ?? {}, ctx.observed?.get(region.id), first));
       const forecast = aggregateToLeads(series, read.source.tier, ind.aggregate);
-      forecastLeads.set(climateKey(region.id, ind.id), forecast);
+      forecastLeads.set(pairKey(region.id, ind.id), forecast);
       probabilities.push(
         ...leadProbabilities({
           source: read.source.id,
@@ -109,7 +107,8 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
         }),
       );
     } catch (err) {
-      problems.push(`${read.source.id} forecast ${read.path}, region ${region.id}, indicator ${ind.id}: ${describeError(err)}`);
+      const place = { file: read.path, source: read.source.id, region: region.id, indicator: ind.id };
+      problems.push(within(diagnosticOf(err, 'indicator-skipped'), `${read.source.id} forecast, region ${region.id}, indicator ${ind.id}`, place));
     }
   }
   return { source: read.source.id, probabilities, climates, forecastLeads, fromCache, problems };

@@ -1,137 +1,159 @@
 /**
- * Exceedance-probability charts, one per region × indicator, drawn as hand-written SVG (no browser) with one
- * panel per tier (days, weeks, months). Each point carries the glyph of the stage its probability reaches, the
- * trigger probabilities are labelled lines, and the normal-year base rate is a dashed line, so the chart reads
- * without colour. PNG copies for e-mail come from resvg with the system DejaVu Sans font.
+ * Exceedance-probability charts, one per region × indicator, drawn as SVG (no browser) for a phone: 360 px wide,
+ * one panel per range (days, weeks, months) stacked. Ticks come from d3 (`chart-axis.ts`); each marker is filled
+ * with the colour of the stage its probability reaches and carries that stage's glyph, so the chart reads in
+ * black and white; stage lines are dotted and drawn only over the leads their rule covers; the legend lists the
+ * lines and every stage marker. PNG copies for e-mail come from resvg with the system DejaVu Sans font.
  */
 import { Resvg } from '@resvg/resvg-js';
 import type { Tier } from '../types.ts';
 import type { Config } from '../config/types.ts';
-import { escapeXml, toToken } from './safe-text.ts';
+import { dateTicks, probabilityTicks, textWidth } from './chart-axis.ts';
 import type { RegionOutcome } from './model.ts';
+import { probabilityLines, reachedRank } from './reached-stage.ts';
+import { escapeXml, toToken } from './safe-text.ts';
+import { inkFor, TIERS } from './view-model.ts';
+
+export interface ChartStage { readonly glyph: string; readonly label: string; readonly colour: string; readonly ink: string }
 
 export interface ChartPoint {
-  readonly tick: string;
+  readonly start: string;
+  readonly end: string;
+  /** Dates of the lead as printed (text equivalent). */
+  readonly dates: string;
   readonly probability: number;
   readonly baseRate: number;
-  readonly glyph: string;
-  /** Skill below the floor: drawn faded with an asterisk on the tick. */
+  /** Ladder rank the probability reaches at this lead (0 for a lead the skill gate withheld). */
+  readonly rank: number;
+  /** Skill below the floor: drawn hollow with an asterisk. */
   readonly noSkill: boolean;
 }
 
 export interface ChartPanel {
+  readonly tier: Tier;
   readonly title: string;
   readonly points: readonly ChartPoint[];
-  /** Trigger probabilities of the rules for this indicator and tier. */
-  readonly lines: readonly { readonly probability: number; readonly label: string }[];
+  /** Trigger probabilities of the rules for this indicator and tier, with the leads (1-based) they cover. */
+  readonly lines: readonly { readonly probability: number; readonly rank: number; readonly first: number; readonly last: number }[];
 }
 
 export interface ChartSpec {
   /** File-name stem, unique per region × indicator. */
   readonly key: string;
-  /** Indicator id and name the chart shows (the name is the visible heading; `title` the full one). */
   readonly indicator: string;
   readonly indicatorName: string;
   readonly title: string;
-  /** Long text alternative: also used as the `<img alt>`. */
+  /** Long text alternative: also used as the `<img alt>` and in the plain-text e-mail. */
   readonly description: string;
+  readonly locale: string;
   readonly yLabel: string;
-  readonly legend: { readonly chance: string; readonly normal: string; readonly noSkill: string };
+  readonly legend: { readonly chance: string; readonly normal: string; readonly line: string; readonly noSkill: string };
+  readonly stages: readonly ChartStage[];
   readonly panels: readonly ChartPanel[];
 }
 
-/** Localised words a chart needs (from `phrases.njk`). */
+/** Localised words a chart needs (from the message catalogue, `chart-words.ts`). */
 export interface ChartWords {
-  /** Officer's name of an indicator (the catalogue's hazard name). */
   hazard(indicator: string): string;
-  title(region: string, indicator: string): string;
-  description(region: string, indicator: string, panels: readonly ChartPanel[]): string;
+  title(region: string, hazard: string): string;
+  description(region: string, hazard: string, panels: readonly ChartPanel[]): string;
   tier(tier: Tier): string;
-  tick(tier: Tier, index: number, start: string): string;
+  dates(start: string, end: string): string;
   yLabel: string;
   legend: ChartSpec['legend'];
 }
 
-/** Stage glyph a probability reaches by the probability rules alone (display only; the issued stage is the decision's). */
-function glyphFor(config: Config, indicator: string, tier: Tier, index: number, p: number): string {
-  let rank = 0;
-  config.stages.forEach((s, r) => {
-    const fires = config.rules.some((rule) => rule.indicator === indicator && rule.tier === tier && rule.stage === s.id
-      && rule.probability !== undefined && p >= rule.probability && (rule.leads.length === 0 || rule.leads.includes(index)));
-    if (fires && r > rank) rank = r;
-  });
-  return config.stages[rank].glyph;
-}
-
 /** One chart spec per indicator of a region, panels in days → weeks → months order. */
 export function buildChartSpecs(config: Config, outcome: RegionOutcome, locale: string, words: ChartWords): ChartSpec[] {
-  const order: Tier[] = ['days', 'weeks', 'months'];
   const indicators = [...new Map(outcome.perTier.map((t) => [t.indicator.id, t.indicator])).values()];
+  const stages = config.stages.map((s) => ({ glyph: s.glyph, label: s.label[locale] ?? s.id, colour: s.colour, ink: inkFor(s.colour) }));
   return indicators.map((ind) => {
     const panels = outcome.perTier
-      .filter((t) => t.indicator.id === ind.id)
-      .sort((a, b) => order.indexOf(a.tier) - order.indexOf(b.tier))
-      .map((t): ChartPanel => ({
-        title: words.tier(t.tier),
-        points: t.probabilities.map((p) => ({
-          tick: words.tick(t.tier, p.lead.index, p.lead.start),
-          probability: p.probability,
-          baseRate: p.baseRate,
-          glyph: glyphFor(config, ind.id, t.tier, p.lead.index, p.probability),
-          noSkill: p.skill !== null && !p.skill.skilful,
-        })),
-        lines: config.rules
-          .filter((r) => r.indicator === ind.id && r.tier === t.tier && r.probability !== undefined)
-          .map((r) => {
-            const stage = config.stages.find((s) => s.id === r.stage);
-            return { probability: r.probability as number, label: `${stage?.glyph ?? ''} ${stage?.label[locale] ?? r.stage}`.trim() };
+      .filter((t) => t.indicator.id === ind.id && t.probabilities.length > 0)
+      .sort((a, b) => TIERS.indexOf(a.tier) - TIERS.indexOf(b.tier))
+      .map((t): ChartPanel => {
+        const n = t.probabilities.length;
+        return {
+          tier: t.tier,
+          title: words.tier(t.tier),
+          points: t.probabilities.map((p) => {
+            const withheld = t.decision.withheldLeads.some((w) => w.tier === p.lead.tier && w.index === p.lead.index);
+            return {
+              start: p.lead.start, end: p.lead.end, dates: words.dates(p.lead.start, p.lead.end), probability: p.probability, baseRate: p.baseRate,
+              rank: withheld ? 0 : reachedRank(config, t, p), noSkill: withheld || (p.skill !== null && !p.skill.skilful),
+            };
           }),
-      }));
+          lines: probabilityLines(config, ind.id, t.tier).map((l) => {
+            const covered = l.leads.length === 0 ? [1, n] : [Math.min(...l.leads), Math.min(Math.max(...l.leads), n)];
+            return { probability: l.probability, rank: l.rank, first: covered[0], last: covered[1] };
+          }).filter((l) => l.first <= n),
+        };
+      });
+    const hazard = words.hazard(ind.id);
     return {
-      key: toToken(`${outcome.region.id}-${ind.id}`),
-      indicator: ind.id,
-      indicatorName: words.hazard(ind.id),
-      title: words.title(outcome.region.name, words.hazard(ind.id)),
-      description: words.description(outcome.region.name, words.hazard(ind.id), panels),
-      yLabel: words.yLabel,
-      legend: words.legend,
-      panels,
+      key: toToken(`${outcome.region.id}-${ind.id}`), indicator: ind.id, indicatorName: hazard, locale,
+      title: words.title(outcome.region.name, hazard), description: words.description(outcome.region.name, hazard, panels),
+      yLabel: words.yLabel, legend: words.legend, stages, panels,
     };
   });
 }
 
-const PANEL_W = 253;
-const LEGEND_W = 250;
-const TOP = 56;
-const BOTTOM = 250;
+const WIDTH = 360;
+const LEFT = 34;
+const RIGHT = 78;
+const PANEL_TITLE = 20;
+const PLOT_H = 104;
+const AXIS_H = 24;
+const PANEL_H = PANEL_TITLE + PLOT_H + AXIS_H + 10;
+const TICK = 11;
 const FONT = "'DejaVu Sans', Verdana, Arial, sans-serif";
+const DAY = 86_400_000;
 
-function num(v: number): string {
-  return (Math.round(v * 10) / 10).toString();
-}
+const num = (v: number): string => (Math.round(v * 10) / 10).toString();
+const utc = (day: string): Date => new Date(`${day}T00:00:00Z`);
 
-function drawPanel(panel: ChartPanel, x0: number, width: number): string {
-  const left = x0 + 44;
-  const right = x0 + width - 70;
-  const y = (p: number): number => BOTTOM - p * (BOTTOM - TOP);
-  const n = panel.points.length;
-  const x = (i: number): number => (n <= 1 ? (left + right) / 2 : left + ((right - left) * i) / (n - 1));
-  const out: string[] = [`<g><text x="${num((left + right) / 2)}" y="${TOP - 14}" text-anchor="middle" font-weight="bold" font-size="13">${escapeXml(panel.title)}</text>`];
-  for (const g of [0, 0.25, 0.5, 0.75, 1]) {
-    out.push(`<line x1="${num(left)}" x2="${num(right)}" y1="${num(y(g))}" y2="${num(y(g))}" stroke="#d9d9d9" stroke-width="1"/>`);
-    out.push(`<text x="${num(left - 6)}" y="${num(y(g) + 4)}" text-anchor="end" font-size="11" fill="#444">${g * 100}</text>`);
+function drawPanel(spec: ChartSpec, panel: ChartPanel, top: number): string {
+  const plotTop = top + PANEL_TITLE;
+  const bottom = plotTop + PLOT_H;
+  const x0 = LEFT;
+  const x1 = WIDTH - RIGHT;
+  const y = (p: number): number => bottom - p * PLOT_H;
+  // Daily leads: the axis is shifted by half a day so that each day's tick sits under its marker.
+  const shift = panel.tier === 'days' ? DAY / 2 : 0;
+  const start = new Date(utc(panel.points[0].start).getTime() - shift);
+  const end = new Date(utc(panel.points[panel.points.length - 1].end).getTime() + DAY - shift);
+  const { scale, ticks } = dateTicks(spec.locale, start, end, x0, x1, TICK, 2, WIDTH - 2);
+  // Marker at the middle of its lead's days (for a single day: on that day's tick).
+  const mid = (p: ChartPoint): number => scale(new Date((utc(p.start).getTime() + utc(p.end).getTime() + DAY) / 2 - shift));
+  const edge = (day: string, after: boolean): number => scale(new Date(utc(day).getTime() + (after ? DAY : 0) - shift));
+  const out: string[] = [`<g><text x="${x0}" y="${top + 14}" font-weight="bold" font-size="13" fill="#111">${escapeXml(panel.title)}</text>`];
+  for (const g of probabilityTicks(spec.locale)) {
+    out.push(`<line x1="${x0}" x2="${x1}" y1="${num(y(g.value))}" y2="${num(y(g.value))}" stroke="#e2e2e2"/>`);
+    out.push(`<text class="tick" x="${x0 - 5}" y="${num(y(g.value) + 4)}" text-anchor="end" font-size="${TICK}" fill="#444">${g.label}</text>`);
   }
+  for (const t of ticks) {
+    out.push(`<line x1="${num(t.x)}" x2="${num(t.x)}" y1="${bottom}" y2="${bottom + 4}" stroke="#333"/>`);
+    out.push(`<text class="tick" x="${num(t.x)}" y="${bottom + 19}" text-anchor="middle" font-size="${TICK}" fill="#333">${escapeXml(t.label)}</text>`);
+  }
+  // Stage lines over the leads their rule covers; labels in the right margin, pushed apart so they never overlap.
+  const labels: { y: number; text: string }[] = [];
   for (const line of panel.lines) {
-    out.push(`<line x1="${num(left)}" x2="${num(right)}" y1="${num(y(line.probability))}" y2="${num(y(line.probability))}" stroke="#555" stroke-width="1.2" stroke-dasharray="2 3"/>`);
-    out.push(`<text x="${num(right + 4)}" y="${num(y(line.probability) + 4)}" font-size="11" fill="#222">${escapeXml(line.label)}</text>`);
+    const a = panel.points[line.first - 1];
+    const b = panel.points[line.last - 1];
+    const lx0 = edge(a.start, false);
+    const lx1 = edge(b.end, true);
+    out.push(`<line x1="${num(lx0)}" x2="${num(lx1)}" y1="${num(y(line.probability))}" y2="${num(y(line.probability))}" stroke="#333" stroke-width="1.2" stroke-dasharray="2 3"/>`);
+    const s = spec.stages[line.rank];
+    labels.push({ y: y(line.probability) + 4, text: `${s.glyph} ${s.label}` });
   }
-  // Missing values (NaN) break the line instead of being drawn at 0.
+  labels.sort((p, q) => p.y - q.y).forEach((l, i, all) => { if (i > 0 && l.y < all[i - 1].y + 13) l.y = all[i - 1].y + 13; });
+  for (const l of labels) out.push(`<text class="tick" x="${x1 + 4}" y="${num(l.y)}" font-size="${TICK - 1}" fill="#222">${escapeXml(l.text)}</text>`);
   const path = (pick: (p: ChartPoint) => number): string => {
     let pen = 'M';
-    return panel.points.map((p, i) => {
+    return panel.points.map((p) => {
       const v = pick(p);
       if (!Number.isFinite(v)) { pen = 'M'; return ''; }
-      const seg = `${pen}${num(x(i))} ${num(y(v))}`;
+      const seg = `${pen}${num(mid(p))} ${num(y(v))}`;
       pen = 'L';
       return seg;
     }).filter(Boolean).join(' ');
@@ -139,46 +161,73 @@ function drawPanel(panel: ChartPanel, x0: number, width: number): string {
   const base = path((p) => p.baseRate);
   const chance = path((p) => p.probability);
   if (base) out.push(`<path d="${base}" fill="none" stroke="#777" stroke-width="1.5" stroke-dasharray="6 4"/>`);
-  if (chance) out.push(`<path d="${chance}" fill="none" stroke="#4d004b" stroke-width="2.2"/>`);
-  panel.points.forEach((p, i) => {
-    out.push(`<text x="${num(x(i))}" y="${BOTTOM + 16}" text-anchor="middle" font-size="10.5" fill="#333">${escapeXml(p.tick)}${p.noSkill ? '*' : ''}</text>`);
-    if (!Number.isFinite(p.probability)) return;
-    const faded = p.noSkill ? ' opacity="0.45"' : '';
-    out.push(`<circle cx="${num(x(i))}" cy="${num(y(p.probability))}" r="9" fill="#ffffff"/>`);
-    out.push(`<text x="${num(x(i))}" y="${num(y(p.probability) + 6)}" text-anchor="middle" font-size="17" fill="#2a0028"${faded}>${escapeXml(p.glyph)}</text>`);
-  });
-  out.push(`<line x1="${num(left)}" x2="${num(left)}" y1="${TOP}" y2="${BOTTOM}" stroke="#333"/></g>`);
+  if (chance) out.push(`<path d="${chance}" fill="none" stroke="#2a0028" stroke-width="2"/>`);
+  for (const p of panel.points) {
+    if (!Number.isFinite(p.probability)) continue;
+    const s = spec.stages[p.rank];
+    const cx = num(mid(p));
+    const cy = num(y(p.probability));
+    out.push(p.noSkill
+      ? `<circle cx="${cx}" cy="${cy}" r="7" fill="#ffffff" stroke="#555" stroke-dasharray="2 2"/><text x="${cx}" y="${num(y(p.probability) + 4)}" text-anchor="middle" font-size="10" fill="#555">*</text>`
+      : `<circle cx="${cx}" cy="${cy}" r="7" fill="${s.colour}" stroke="#333"/><text x="${cx}" y="${num(y(p.probability) + 4)}" text-anchor="middle" font-size="10" fill="${s.ink}">${escapeXml(s.glyph)}</text>`);
+  }
+  out.push(`<line x1="${x0}" x2="${x0}" y1="${plotTop}" y2="${bottom}" stroke="#333"/><line x1="${x0}" x2="${x1}" y1="${bottom}" y2="${bottom}" stroke="#333"/></g>`);
   return out.join('');
 }
 
+/** Legend items laid out left to right, wrapping within the chart width; returns the SVG and its height. */
+function legend(spec: ChartSpec, top: number): { svg: string; height: number } {
+  const items: { w: number; draw: (x: number, y: number) => string }[] = [
+    { w: 34 + textWidth(spec.legend.chance, TICK), draw: (x, y) => `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#2a0028" stroke-width="2"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.chance)}</text>` },
+    { w: 34 + textWidth(spec.legend.normal, TICK), draw: (x, y) => `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#777" stroke-width="1.5" stroke-dasharray="6 4"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.normal)}</text>` },
+    { w: 34 + textWidth(spec.legend.line, TICK), draw: (x, y) => `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#333" stroke-width="1.2" stroke-dasharray="2 3"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.line)}</text>` },
+    ...spec.stages.map((s) => ({ w: 22 + textWidth(s.label, TICK), draw: (x: number, y: number) => `<circle cx="${x + 7}" cy="${y - 4}" r="7" fill="${s.colour}" stroke="#333"/><text x="${x + 7}" y="${y}" text-anchor="middle" font-size="10" fill="${s.ink}">${escapeXml(s.glyph)}</text><text class="legend" x="${x + 18}" y="${y}" font-size="${TICK}">${escapeXml(s.label)}</text>` })),
+    { w: textWidth(spec.legend.noSkill, TICK), draw: (x, y) => `<text class="legend" x="${x}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.noSkill)}</text>` },
+  ];
+  const out: string[] = [];
+  let x = 10;
+  let row = 0;
+  for (const item of items) {
+    if (x > 10 && x + item.w > WIDTH - 8) { x = 10; row += 1; }
+    out.push(item.draw(x, top + 14 + row * 20));
+    x += item.w + 14;
+  }
+  return { svg: out.join(''), height: (row + 1) * 20 + 8 };
+}
+
+/** Words of `text` in lines no wider than `max` px at `size` px. */
+function wrap(text: string, size: number, max: number): string[] {
+  const lines: string[] = [];
+  for (const word of text.split(/\s+/)) {
+    const last = lines.at(-1);
+    if (last !== undefined && textWidth(`${last} ${word}`, size) <= max) lines[lines.length - 1] = `${last} ${word}`;
+    else lines.push(word);
+  }
+  return lines;
+}
+
 /** Drawn width of a chart in CSS pixels (the PNG is twice this). */
-export function chartWidth(spec: ChartSpec): number {
-  return Math.max(spec.panels.length * PANEL_W, 2 * PANEL_W);
+export function chartWidth(_spec: ChartSpec): number {
+  return WIDTH;
 }
 
 /** Standalone SVG document with `role="img"`, `<title>`, `<desc>` and a legend that does not rely on colour. */
 export function renderChartSvg(spec: ChartSpec): string {
-  const W = chartWidth(spec);
-  const width = W / Math.max(spec.panels.length, 1);
-  const panels = spec.panels.map((p, i) => drawPanel(p, i * width, width)).join('');
-  const perRow = Math.floor(W / LEGEND_W);
-  const legend = [
-    (x: number, y: number) => `<line x1="${x}" x2="${x + 30}" y1="${y}" y2="${y}" stroke="#4d004b" stroke-width="2.2"/><text x="${x + 36}" y="${y + 4}" font-size="11">${escapeXml(spec.legend.chance)}</text>`,
-    (x: number, y: number) => `<line x1="${x}" x2="${x + 30}" y1="${y}" y2="${y}" stroke="#777" stroke-width="1.5" stroke-dasharray="6 4"/><text x="${x + 36}" y="${y + 4}" font-size="11">${escapeXml(spec.legend.normal)}</text>`,
-    (x: number, y: number) => `<text x="${x}" y="${y + 4}" font-size="11">* ${escapeXml(spec.legend.noSkill)}</text>`,
-  ];
-  const rows = Math.ceil(legend.length / perRow);
-  const H = BOTTOM + 44 + rows * 18;
-  const items = legend.map((draw, i) => draw(16 + (i % perRow) * LEGEND_W, BOTTOM + 46 + Math.floor(i / perRow) * 18)).join('');
+  const titleLines = wrap(spec.indicatorName, 13, WIDTH - 20);
+  const head = 12 + titleLines.length * 16 + 18;
+  const panels = spec.panels.map((p, i) => drawPanel(spec, p, head + i * PANEL_H)).join('');
+  const legendTop = head + spec.panels.length * PANEL_H;
+  const key = legend(spec, legendTop);
+  const H = legendTop + key.height;
   return [
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" role="img" aria-labelledby="t-${spec.key} d-${spec.key}" font-family="${FONT}">`,
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${WIDTH}" height="${H}" viewBox="0 0 ${WIDTH} ${H}" role="img" aria-labelledby="t-${spec.key} d-${spec.key}" font-family="${FONT}">`,
     `<title id="t-${spec.key}">${escapeXml(spec.title)}</title>`,
     `<desc id="d-${spec.key}">${escapeXml(spec.description)}</desc>`,
-    `<rect width="${W}" height="${H}" fill="#ffffff"/>`,
-    `<text x="12" y="18" font-size="13" font-weight="bold" fill="#111">${escapeXml(spec.indicatorName)}</text>`,
-    `<text transform="translate(12 ${(TOP + BOTTOM) / 2}) rotate(-90)" text-anchor="middle" font-size="11" fill="#333">${escapeXml(spec.yLabel)}</text>`,
+    `<rect width="${WIDTH}" height="${H}" fill="#ffffff"/>`,
+    ...titleLines.map((line, i) => `<text x="10" y="${18 + i * 16}" font-size="13" font-weight="bold" fill="#111">${escapeXml(line)}</text>`),
+    `<text x="10" y="${head - 6}" font-size="11" fill="#333">${escapeXml(spec.yLabel)}</text>`,
     panels,
-    items,
+    key.svg,
     '</svg>',
   ].join('\n');
 }

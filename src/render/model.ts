@@ -17,6 +17,7 @@
  *   changeReason     the decide stage's one-line reason for the change (or for holding), shown as given
  *   perTier          one entry per indicator × tier, each with its StageDecision and every LeadProbability
  */
+import type { Diagnostic } from '../core/diagnostics.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
 import type { IndicatorConfig, RegionConfig, StageConfig } from '../config/types.ts';
 
@@ -60,8 +61,10 @@ export interface BulletinRun {
   readonly forecastDates: readonly ForecastDate[];
   readonly nextIssue: IsoDate;
   readonly regions: readonly RegionOutcome[];
-  /** Run-level notes for run.json: the source-combination rule and what it replaced, inputs skipped and why. */
+  /** Run-level notes for run.json: the source-combination rule and what it replaced. */
   readonly notes?: readonly string[];
+  /** Input problems of the run (files, regions, indicators left out and why), as data. */
+  readonly problems?: readonly Diagnostic[];
 }
 
 /** One CAP alert issued earlier, as the ledger keeps it; lets this run send Update / Cancel with references. */

@@ -1,10 +1,13 @@
 /**
- * `run.json`: the full numbers of a run for downstream systems. Shape (schema id `forelight-run/1`):
+ * `run.json`: the full numbers of a run for downstream systems. Shape (schema id `forelight-run/2`):
  *
  * {
- *   schema: "forelight-run/1", runId, issuedAt, mode: "live"|"exercise", nextIssue: "YYYY-MM-DD",
+ *   schema: "forelight-run/2", runId, issuedAt, mode: "live"|"exercise", nextIssue: "YYYY-MM-DD",
  *   forecastDates: [{ source, name, referenceTime, basedOnOlder }],
- *   notes: [string]                                                    // source-combination rule, skipped inputs
+ *   notes: [string]                                                    // source-combination rule and what it replaced
+ *   problems: [Diagnostic]                                             // inputs left out: { code, severity, stage,
+ *                                                                      //   place: { file, source, region, variable,
+ *                                                                      //   indicator, ... }, message, hint }
  *   stages: [{ id, label: {locale: text}, glyph, colour }]            // the ladder, lowest first
  *   regions: [{
  *     id, name, stageId, previousStageId, changeReason,
@@ -22,7 +25,7 @@
 import type { Config } from '../config/types.ts';
 import type { BulletinRun, CapAlert } from './model.ts';
 
-export const RUN_JSON_SCHEMA = 'forelight-run/1';
+export const RUN_JSON_SCHEMA = 'forelight-run/2';
 
 /** Serialise a run (2-space indented, stable key order). */
 export function renderRunJson(config: Config, run: BulletinRun, capAlerts: readonly CapAlert[]): string {
@@ -34,6 +37,7 @@ export function renderRunJson(config: Config, run: BulletinRun, capAlerts: reado
     nextIssue: run.nextIssue,
     forecastDates: run.forecastDates.map((f) => ({ source: f.source, name: f.name, referenceTime: f.referenceTime, basedOnOlder: f.basedOnOlder ?? false })),
     notes: run.notes ?? [],
+    problems: run.problems ?? [],
     stages: config.stages.map((s) => ({ id: s.id, label: s.label, glyph: s.glyph, colour: s.colour })),
     regions: run.regions.map((r) => ({
       id: r.region.id,

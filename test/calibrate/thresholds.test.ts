@@ -1,5 +1,6 @@
 /** Model-climate thresholds, leave-one-year-out, quantile mapping (numpy-equivalent type-7 percentile, tested in reference-python.test.ts). */
 import { describe, expect, it } from 'vitest';
+import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { distinctYears, leadSample, stackYears, startsWithinWindow } from '../../src/calibrate/climate.ts';
 import { percentileLinear, percentRankOfSorted, percentileOfSortedWithout, sortValid } from '../../src/core/percentile.ts';
 import {
@@ -99,7 +100,8 @@ describe('stackYears', () => {
     const lv = (members: number, nLeads: number) => ({ leads: leadsOf('weeks', nLeads), members, values: new Float64Array(members * nLeads).fill(1) });
     const r = stackYears('subseasonal hindcasts', 'degC', [{ year: 2006, leads: lv(11, 3) }, { year: 2007, leads: lv(10, 3) }, { year: 2008, leads: lv(11, 2) }]);
     expect(r.climate!.years).toEqual([2006, 2008]);
-    expect(r.problems).toEqual([expect.stringMatching(/year 2007 has 10 members, year 2006 has 11/)]);
+    expect(r.problems.map(formatDiagnostic)).toEqual([expect.stringMatching(/year 2007 has 10 members, year 2006 has 11/)]);
+    expect(r.problems.map((d) => d.code)).toEqual(['hindcast-members']);
     expect(leadSample(r.climate!, 2).length).toBe(11); // 2008 has no lead 3 → NaN, skipped
   });
 });

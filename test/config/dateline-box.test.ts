@@ -10,6 +10,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { checkRegionsAgainstGrids, lonIntervals } from '../../src/config/check-grids.ts';
 import { checkConfigFile } from '../../src/config/load-config.ts';
+import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
 import { minimalVariant } from './helpers.ts';
 
@@ -20,16 +21,16 @@ const shown = (file: string) => (relative(process.cwd(), file).startsWith('..') 
 
 describe('YAML boxes across 180°', () => {
   it('west 172, east -174 loads without a problem and keeps its edges', async () => {
-    const { config, problems } = await checkConfigFile(minimalVariant(BOX_LINE, '    box: { south: 1, north: 2, west: 172, east: -174 }'));
-    expect(problems).toEqual([]);
+    const { config, diagnostics } = await checkConfigFile(minimalVariant(BOX_LINE, '    box: { south: 1, north: 2, west: 172, east: -174 }'));
+    expect(diagnostics).toEqual([]);
     expect(config?.regions[0].shape).toEqual({ kind: 'box', south: 1, north: 2, west: 172, east: -174 });
   });
 
   it('west equal to east is refused at the east key, with the across-180° form as the fix', async () => {
     const file = minimalVariant(BOX_LINE, '    box: { south: 1, north: 2, west: 5, east: 5 }');
-    const { config, problems } = await checkConfigFile(file);
+    const { config, diagnostics } = await checkConfigFile(file);
     expect(config).toBeUndefined();
-    expect(problems).toEqual([`${shown(file)}:13:47: east 5 equals west 5: the box has no width — give the eastern edge (a box across 180° has west > east, e.g. west: 172, east: -174)`]);
+    expect(diagnostics.map(formatDiagnostic)).toEqual([`${shown(file)}:13:47: east 5 equals west 5: the box has no width — give the eastern edge (a box across 180° has west > east, e.g. west: 172, east: -174)`]);
   });
 });
 
@@ -50,11 +51,11 @@ describe('region against grid extents for a box across 180°', () => {
       { source: 'g180-west', latMin: -10, latMax: 10, lonMin: 170, lonMax: 179.5, lon360: false },
     ];
     // Only the first region (`north`) has the box; `south` lies near 0° and is outside these grids.
-    const aboutNorth = (grids: typeof near) => checkRegionsAgainstGrids(config, grids, undefined).filter((p) => p.includes('region north '));
+    const aboutNorth = (grids: typeof near) => checkRegionsAgainstGrids(config, grids, undefined).filter((p) => p.message.includes('region north '));
     expect(aboutNorth(near)).toEqual([]);
     const far = [{ source: 'europe', latMin: -10, latMax: 10, lonMin: -20, lonMax: 40, lon360: false }];
     expect(aboutNorth(far)).toHaveLength(1);
-    expect(aboutNorth(far)[0]).toMatch(/lon 172..-174\) lies outside the grid of source europe/);
+    expect(formatDiagnostic(aboutNorth(far)[0])).toMatch(/lon 172..-174\) lies outside the grid of source europe/);
   });
 });
 

@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
+import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { ConfigError } from '../../src/core/errors.ts';
 import { checkConfigFile, DEFAULT_CONFIG_PATH, loadConfig } from '../../src/config/load-config.ts';
 import { MAX_CONFIG_BYTES } from '../../src/config/read-yaml.ts';
@@ -11,12 +12,12 @@ import { displayPath } from '../../src/config/source-map.ts';
 import { SCHEMA_URL } from '../../src/config/validate-schema.ts';
 import { fixture, minimalVariant, writeTemp } from './helpers.ts';
 
-const problemsOf = async (file: string) => (await checkConfigFile(file)).problems;
+const problemsOf = async (file: string) => (await checkConfigFile(file)).diagnostics.map(formatDiagnostic);
 
 describe('shipped configuration (config/forelight.yaml)', () => {
   it('loads with zero problems through the default path', async () => {
     const check = await checkConfigFile();
-    expect(check.problems).toEqual([]);
+    expect(check.diagnostics).toEqual([]);
     const config = await loadConfig();
     expect(config.file).toBe(DEFAULT_CONFIG_PATH);
     expect(config.regions.map((r) => r.id)).toEqual(['kessan-lowlands', 'marrow-highlands', 'tulva-delta', 'orrin-coast']);
@@ -190,6 +191,6 @@ describe('bounded parsing', () => {
   it('loadConfig throws ConfigError carrying every problem', async () => {
     const err = await loadConfig(fixture('many-problems.yaml')).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(ConfigError);
-    expect((err as ConfigError).problems.length).toBe(27);
+    expect((err as ConfigError).diagnostics.length).toBe(27);
   });
 });

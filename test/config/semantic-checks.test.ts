@@ -4,6 +4,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { checkConfigFile } from '../../src/config/load-config.ts';
+import { DIAGNOSTIC_CODES } from '../../src/core/diagnostic-codes.ts';
+import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { relative } from 'node:path';
 import { fixture, minimalVariant } from './helpers.ts';
 
@@ -43,18 +45,29 @@ describe('semantic checks on fixtures/many-problems.yaml', async () => {
 
   it('reports every problem at once, in reading order, and no config', () => {
     expect(result.config).toBeUndefined();
-    expect(result.problems).toEqual(EXPECTED.map(([, line]) => line));
+    expect(result.diagnostics.map(formatDiagnostic)).toEqual(EXPECTED.map(([, line]) => line));
+  });
+
+  it('each problem is data: a config code from the catalogue, the pointer, and the line and column the text shows', () => {
+    for (const d of result.diagnostics) {
+      expect(DIAGNOSTIC_CODES[d.code].stage).toBe('config');
+      expect(d.severity).toBe('error');
+      expect(d.place.pointer).toMatch(/^(\/|$)/);
+      expect(formatDiagnostic(d).startsWith(`${d.place.file}:${d.place.line}:${d.place.column}: ${d.message} — `)).toBe(true);
+    }
+    expect(result.diagnostics[0]).toMatchObject({ code: 'config-indicator', place: { file: F, line: 9, column: 16 } });
   });
 
   it.each(EXPECTED)('%s', (_check, line) => {
-    expect(result.problems).toContain(line);
+    expect(result.diagnostics.map(formatDiagnostic)).toContain(line);
   });
 });
 
 describe('combination matrix (escalation.combine.matrix)', () => {
   it('unknown or doubled indicators and a table entry that would hide a warning: exact messages and positions', async () => {
     const file = minimalVariant('  combine: highest', ['  combine:', '    matrix:', '      rows: [hot]', '      columns: [hot, cold]', '      table:', '        - [calm, alert]', '        - [calm, alert]'].join('\n'));
-    const { config, problems } = await checkConfigFile(file);
+    const { config, diagnostics } = await checkConfigFile(file);
+    const problems = diagnostics.map(formatDiagnostic);
     expect(config).toBeUndefined();
     const name = relative(process.cwd(), file).startsWith('..') ? file : relative(process.cwd(), file);
     expect(problems).toEqual([
@@ -66,7 +79,8 @@ describe('combination matrix (escalation.combine.matrix)', () => {
 
   it('a well-formed matrix loads', async () => {
     const file = minimalVariant('  combine: highest', ['  combine:', '    matrix:', '      rows: [hot]', '      columns: []', '      table:', '        - [calm, alert]', '        - [alert, alert]'].join('\n'));
-    const { config, problems } = await checkConfigFile(file);
+    const { config, diagnostics } = await checkConfigFile(file);
+    const problems = diagnostics.map(formatDiagnostic);
     expect(problems).toEqual([]);
     expect(config?.decision.combine).toEqual({ matrix: { rows: ['hot'], columns: [], table: [['calm', 'alert'], ['alert', 'alert']] } });
   });

@@ -3,7 +3,8 @@
  * on weeks 2-3, escalate after 2 runs, relax after 2). Expected counts worked out by hand below.
  */
 import { describe, expect, it } from 'vitest';
-import { backtestRules, eventKey, formatBacktest, type BacktestCase } from '../../src/decide/backtest.ts';
+import { eventKey } from '../../src/core/keys.ts';
+import { backtestRules, formatBacktest, type BacktestCase } from '../../src/decide/backtest.ts';
 import { makeConfig, prob, RULES } from './helpers.ts';
 
 const config = makeConfig({}, RULES.filter((r) => r.tier === 'weeks'));

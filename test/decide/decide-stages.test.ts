@@ -6,7 +6,8 @@
 import { describe, expect, it } from 'vitest';
 import { combineRegionStages, decideStages } from '../../src/decide/decide-stages.ts';
 import { parseStageHistory } from '../../src/decide/history.ts';
-import { EMPTY_HISTORY, trackKey, tunedKey, type StageHistory } from '../../src/decide/types.ts';
+import { trackKey, tunedKey, type TunedKey } from '../../src/core/keys.ts';
+import { EMPTY_HISTORY, type StageHistory } from '../../src/decide/types.ts';
 import type { LeadProbability } from '../../src/types.ts';
 import { makeConfig, prob } from './helpers.ts';
 
@@ -16,7 +17,7 @@ const issued = (stageId: string): StageHistory => ({
   tracks: { [trackKey('r1', 'heat', 'weeks')]: { stageId, runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null } },
 });
 
-function run(probabilities: LeadProbability[], history: StageHistory = EMPTY_HISTORY, cfg = config, tuned?: Map<string, number>) {
+function run(probabilities: LeadProbability[], history: StageHistory = EMPTY_HISTORY, cfg = config, tuned?: Map<TunedKey, number>) {
   return decideStages({ config: cfg, probabilities, history, thresholdsFromCostLoss: tuned });
 }
 

@@ -2,7 +2,8 @@
 import { describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import { decideStages } from '../../src/decide/decide-stages.ts';
-import { EMPTY_HISTORY, tunedKey } from '../../src/decide/types.ts';
+import { tunedKey } from '../../src/core/keys.ts';
+import { EMPTY_HISTORY } from '../../src/decide/types.ts';
 import { prob } from './helpers.ts';
 
 describe('decideStages with config/forelight.yaml', async () => {

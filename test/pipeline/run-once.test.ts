@@ -13,6 +13,8 @@ import { simpleParser } from 'mailparser';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
+import { formatDiagnostic, isDiagnostic, type Diagnostic } from '../../src/core/diagnostics.ts';
+import { ForelightError } from '../../src/core/errors.ts';
 import { silentLogger } from '../../src/core/log.ts';
 import { runOnce } from '../../src/pipeline/run-once.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
@@ -104,7 +106,7 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
   it('run.json carries the full numbers for downstream systems', () => {
     const runJson = filesUnder(config.delivery.archive, 'run.json').sort().at(-1) as string;
     const parsed = JSON.parse(readFileSync(runJson, 'utf8')) as { schema: string; regions: unknown[]; notes: string[] };
-    expect(parsed.schema).toBe('forelight-run/1');
+    expect(parsed.schema).toBe('forelight-run/2');
     expect(parsed.regions).toHaveLength(config.regions.length);
     expect(Array.isArray(parsed.notes)).toBe(true);
   });
@@ -131,16 +133,50 @@ describe('one bad source never stops the others', () => {
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     const db = new Database(config.ledger, { readonly: true });
     try {
-      const run = db.prepare('SELECT status, error FROM runs').get() as { status: string; error: string };
+      const run = db.prepare('SELECT status FROM runs').get() as { status: string };
       expect(run.status).toBe('partial');
-      expect(run.error).toContain('short_20261126.nc');
-      expect(run.error).toMatch(/truncated/);
+      const problems = db.prepare('SELECT code, severity, diagnostic_json FROM run_diagnostics ORDER BY position').all() as { code: string; severity: string; diagnostic_json: string }[];
+      const truncated = problems.filter((p) => p.code === 'input-truncated').map((p) => JSON.parse(p.diagnostic_json) as Diagnostic);
+      expect(truncated).toHaveLength(1);
+      expect(truncated[0].place.file).toBe(bad);
+      expect(truncated[0].severity).toBe('error');
+      expect(formatDiagnostic(truncated[0])).toMatch(/^.*short_20261126\.nc: file is truncated/);
       const tiers = db.prepare('SELECT DISTINCT tier FROM probabilities ORDER BY tier').all() as { tier: string }[];
       expect(tiers.map((t) => t.tier)).toEqual(['months', 'weeks']);
     } finally {
       db.close();
     }
     expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
+    const runJson = JSON.parse(readFileSync(filesUnder(config.delivery.archive, 'run.json')[0], 'utf8')) as { problems: unknown[]; notes: string[] };
+    expect(runJson.problems.every(isDiagnostic)).toBe(true);
+    expect(runJson.problems.filter((p) => isDiagnostic(p) && p.code === 'input-truncated').map((p) => (p as Diagnostic).place.file)).toEqual([bad]);
+    expect(runJson.notes.some((n) => n.includes('truncated'))).toBe(false); // problems are data, not notes
+  });
+
+  it('when no forecast of any source can be read, nothing is issued; the ledger keeps every problem and the operators get them listed', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-unreadable-'));
+    const copy = join(dir, 'data');
+    cpSync(sampleDir, copy, { recursive: true });
+    const config = isolatedConfig(base, dir, copy);
+    const forecasts = [join(copy, 'short', 'short_20261126.nc'), join(copy, 'subseasonal', 'subs_20261126.nc'), join(copy, 'seasonal', 'seas_20261126.nc')];
+    for (const f of forecasts) truncateSync(f, 5000);
+    const failed = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' }).catch((e: unknown) => e);
+    expect(failed).toBeInstanceOf(ForelightError);
+    expect((failed as ForelightError).code).toBe('no-forecast-read');
+    const db = new Database(config.ledger, { readonly: true });
+    try {
+      expect((db.prepare('SELECT status FROM runs').get() as { status: string }).status).toBe('failed');
+      const files = (db.prepare("SELECT json_extract(diagnostic_json, '$.place.file') AS file FROM run_diagnostics WHERE code = 'input-truncated' ORDER BY file").all() as { file: string }[]).map((r) => r.file);
+      expect(files).toEqual([...forecasts].sort());
+      expect(db.prepare('SELECT count(*) AS n FROM bulletins').get()).toEqual({ n: 0 });
+    } finally {
+      db.close();
+    }
+    const notices = filesUnder(config.delivery.outbox, '.eml');
+    expect(notices).toHaveLength(1);
+    const mail = await simpleParser(readFileSync(notices[0]));
+    expect(mail.subject).toBe('[forelight] no forecast could be read for 2026-11-26');
+    for (const f of forecasts) expect(mail.text).toContain(`- [input-truncated] ${f}: file is truncated`);
   });
 
   it('a missing observations file leaves skill unverified against observations but still issues', async () => {
@@ -172,8 +208,9 @@ describe('one bad source never stops the others', () => {
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     const db = new Database(config.ledger, { readonly: true });
     try {
-      const run = db.prepare('SELECT error FROM runs').get() as { error: string };
-      expect(run.error).toMatch(/subs_20101126\.nc: region 'kessan-lowlands' covers \d+ grid cells here but \d+ in the forecast: the hindcast grid differs/);
+      const problems = (db.prepare("SELECT diagnostic_json FROM run_diagnostics WHERE code = 'hindcast-grid'").all() as { diagnostic_json: string }[])
+        .map((p) => formatDiagnostic(JSON.parse(p.diagnostic_json) as Diagnostic));
+      expect(problems.join('\n')).toMatch(/subs_20101126\.nc: region 'kessan-lowlands' covers \d+ grid cells here but \d+ in the forecast: the hindcast grid differs/);
       const weeks = db.prepare("SELECT count(*) AS n FROM probabilities WHERE tier = 'weeks' AND calibrated = 1").get() as { n: number };
       expect(weeks.n).toBeGreaterThan(0);
     } finally {

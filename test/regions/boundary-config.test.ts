@@ -8,6 +8,7 @@ import { dirname, join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { regionIdOf } from '../../src/config/boundaries/boundary-sets.ts';
 import { checkConfigFile } from '../../src/config/load-config.ts';
+import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { minimalVariant } from '../config/helpers.ts';
 
 const DISTRICTS = join(import.meta.dirname, '../../config/veloria-districts.geojson');
@@ -23,7 +24,12 @@ async function withSet(entry: string, geojson?: object) {
   const file = minimalVariant(SOUTH, entry);
   if (geojson) writeFileSync(join(dirname(file), 'districts.geojson'), JSON.stringify(geojson));
   else copyFileSync(DISTRICTS, join(dirname(file), 'districts.geojson'));
-  return checkConfigFile(file);
+  return lines(await checkConfigFile(file));
+}
+
+/** The check's result with its diagnostics as the one-line messages operators read. */
+function lines(check: Awaited<ReturnType<typeof checkConfigFile>>) {
+  return { config: check.config, problems: check.diagnostics.map(formatDiagnostic) };
 }
 
 const polygon = (ring: number[][]) => ({ type: 'Polygon', coordinates: [ring] });
@@ -68,7 +74,7 @@ describe('regions: boundaries: FILE', () => {
     expect(text).toContain('threshold:');
     const withOverride = text.replace(/(\n\s+threshold: [^\n]+\n)/, `$1    region-thresholds: { ks-02: { value: 30, units: degC } }\n`);
     writeFileSync(file, withOverride);
-    const { problems } = await checkConfigFile(file);
+    const { problems } = lines(await checkConfigFile(file));
     expect(problems.filter((p) => /unknown region/.test(p))).toEqual([]);
   });
 

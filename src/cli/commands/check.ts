@@ -6,20 +6,21 @@
 import { checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
 import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
+import { formatDiagnostic, type Diagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 
 export async function checkCommand(args: ParsedArgs): Promise<number> {
-  const { config, problems, sourceMap } = await checkConfigFile(stringOption(args, 'config'));
-  const all = [...problems];
-  const notes: string[] = [];
+  const { config, diagnostics, sourceMap } = await checkConfigFile(stringOption(args, 'config'));
+  const all = [...diagnostics];
+  const notes: Diagnostic[] = [];
   if (config) {
     const extents = await sourceGridExtents(config);
     notes.push(...extents.notes);
     all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
   }
-  for (const p of all) process.stderr.write(p + '\n');
-  for (const n of notes) process.stderr.write(`note: ${n}\n`);
+  for (const p of all) process.stderr.write(formatDiagnostic(p) + '\n');
+  for (const n of notes) process.stderr.write(`note: ${formatDiagnostic(n)}\n`);
   if (!config || all.length > 0) {
     process.stderr.write(`forelight: ${all.length} problem(s) in the configuration\n`);
     return EXIT.configInvalid;

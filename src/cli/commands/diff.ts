@@ -1,6 +1,7 @@
 /** `forelight diff` (also `run --dry-run`): which region stages would change against the last issued bulletin; nothing is written or sent. */
 import { diffStages } from '../../decide/diff.ts';
 import { decideNow } from '../../pipeline/decide-now.ts';
+import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
@@ -20,7 +21,7 @@ export async function diffCommand(args: ParsedArgs): Promise<number> {
     const name = config.regions.find((x) => x.id === r.region)?.name ?? r.region;
     lines.push(c ? `  ${name}: ${label(c.from)} → ${label(c.to)}  (${c.why})` : `  ${name}: ${label(r.stageId)} (unchanged)`);
   }
-  for (const p of analysis.problems) lines.push(`  skipped: ${p}`);
+  for (const p of analysis.problems) lines.push(`  skipped: ${formatDiagnostic(p)}`);
   process.stdout.write(lines.join('\n') + '\n');
   return EXIT.ok;
 }

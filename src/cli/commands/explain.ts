@@ -1,11 +1,11 @@
 /** `forelight explain --region R --indicator I --tier T`: the chain from inputs to stage, with the numbers. */
 import { explainDecision } from '../../decide/explain.ts';
-import { trackKey } from '../../decide/types.ts';
 import { decideNow } from '../../pipeline/decide-now.ts';
-import { climateKey } from '../../pipeline/source-stage.ts';
+import { pairKey, trackKey } from '../../core/keys.ts';
 import { percentileLinear } from '../../core/percentile.ts';
 import type { LeadValues } from '../../calibrate/lead-tiers.ts';
 import type { EnsembleSummary } from '../../decide/explain.ts';
+import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import type { Tier } from '../../types.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
@@ -34,11 +34,11 @@ export async function explainCommand(args: ParsedArgs): Promise<number> {
   const decision = decided.decisions.find((d) => d.region === region && d.indicator === indicator && d.tier === tier);
   if (!decision) {
     process.stdout.write(`no decision for ${region} × ${indicator} × ${tier} on ${issueDate}: no source of tier ${tier} computes this indicator, or its data were skipped\n`);
-    for (const p of analysis.problems) process.stdout.write(`  skipped: ${p}\n`);
+    for (const p of analysis.problems) process.stdout.write(`  skipped: ${formatDiagnostic(p)}\n`);
     return EXIT.inputProblem;
   }
   const used = decision.lead?.source ?? analysis.probabilities.find((p) => p.region === region && p.indicator === indicator && p.lead.tier === tier)?.source;
-  const leads = analysis.sources.find((s) => s.source === used)?.forecastLeads.get(climateKey(region, indicator));
+  const leads = analysis.sources.find((s) => s.source === used)?.forecastLeads.get(pairKey(region, indicator));
   const units = analysis.probabilities.find((p) => p.region === region && p.indicator === indicator)?.threshold.units ?? '';
   const lines = explainDecision({
     config, decision, probabilities: analysis.probabilities, previous: history.tracks[trackKey(region, indicator, tier)],

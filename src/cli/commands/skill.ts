@@ -6,6 +6,7 @@
 import { skillDetailRows, formatSkillDetail } from '../../calibrate/skill-detail.ts';
 import { formatSkillTable, skillRow } from '../../calibrate/skill-table.ts';
 import { analyse } from '../../pipeline/analyse.ts';
+import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
@@ -33,6 +34,6 @@ export async function skillCommand(args: ParsedArgs): Promise<number> {
     );
     if (tuned.length > 0) process.stdout.write(`\nprobability thresholds tuned for cost/loss rules (maximum relative economic value on the hindcasts):\n${tuned.join('\n')}\n`);
   }
-  for (const p of analysis.problems) process.stderr.write(`skipped: ${p}\n`);
+  for (const p of analysis.problems) process.stderr.write(`skipped: ${formatDiagnostic(p)}\n`);
   return EXIT.ok;
 }

@@ -3,7 +3,9 @@ import { existsSync } from 'node:fs';
 import { loadConfig } from '../../config/load-config.ts';
 import { listDeliveries } from '../../ledger/deliveries.ts';
 import { openLedger } from '../../ledger/open-ledger.ts';
+import { runDiagnostics } from '../../ledger/diagnostics.ts';
 import { lastCompletedRun } from '../../ledger/runs.ts';
+import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { computeNextRuns } from '../../core/next-runs.ts';
 import { readStatus } from '../../schedule/status-file.ts';
@@ -23,6 +25,9 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
     try {
       const last = lastCompletedRun(ledger);
       lines.push(last ? `last completed run: ${last.id} (${last.forecastKey}) ${last.status} at ${last.finishedAt}${last.error ? ` — ${last.error}` : ''}` : 'last completed run: none');
+      const problems = last ? runDiagnostics(ledger, last.id) : [];
+      if (problems.length > 0) lines.push(`input problems of run ${last?.id}: ${problems.length}`);
+      for (const d of problems.slice(0, 20)) lines.push(`  ${formatDiagnostic(d)}`);
       const open = listDeliveries(ledger, { statuses: ['pending', 'sending', 'failed'] });
       lines.push(`deliveries pending or failed: ${open.length}`);
       for (const d of open.slice(0, 20)) lines.push(`  ${d.status} ${d.recipient}: ${d.lastError ?? ''}`);
