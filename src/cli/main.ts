@@ -41,6 +41,12 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
     spec: { values: ['var', 'box', 'regions', 'id-property', 'name-property', 'daily', 'utc-offset', 'time-zone', 'cells'], flags: ['json'] },
     run: async (a) => (await import('./commands/extract.ts')).extractCommand(a),
   },
+  regions: {
+    summary: 'per source grid: each region\'s cells, covered area and warnings; writes a GeoJSON preview and an SVG map',
+    usage: 'forelight regions [--config FILE] [--out DIR]',
+    spec: { values: ['config', 'out'], flags: [] },
+    run: async (a) => (await import('./commands/regions.ts')).regionsCommand(a),
+  },
   skill: {
     summary: 'print the hindcast skill table (Brier skill score, ROC area, ...) per source, region, indicator and lead',
     usage: 'forelight skill [--config FILE] [--date YYYY-MM-DD] [--csv] [--detail]',

@@ -5,7 +5,7 @@
  */
 import { ringBounds, shapeRingSets } from '../config/region-shape.ts';
 import type { RegionShape, Ring } from '../config/types.ts';
-import { Clipper, clipStrip, pieceCellArea } from './overlap-area.ts';
+import { Clipper, clipStrip, pieceCellArea, ringAreaSr } from './overlap-area.ts';
 
 /** A polygon (outer ring, then holes) in a continuous longitude frame, with its extent. */
 export interface FramedPolygon {
@@ -61,4 +61,17 @@ export function overlapAreas(polygons: readonly FramedPolygon[], latBounds: Floa
     }
   }
   return areas;
+}
+
+/** Area of a region on the unit sphere (steradians): Σ over polygons of |outer| − Σ |holes| (overlap-area.ts). */
+export function regionAreaSr(shape: RegionShape): number {
+  let total = 0;
+  for (const p of shapePolygons(shape)) {
+    p.rings.forEach((ring, r) => {
+      const flat = ring.slice(0, -1).flat();
+      const area = Math.abs(ringAreaSr(flat, flat.length / 2, (p.south + p.north) / 2));
+      total += r === 0 ? area : -area;
+    });
+  }
+  return total;
 }

@@ -139,7 +139,7 @@ function centreCells(grid: LatLonGrid, shape: RegionShape): { latIdx: number[]; 
       if (!inside(grid.lat[y], grid.lon[x])) continue;
       out.latIdx.push(y);
       out.lonIdx.push(x);
-      out.weights.push(latFactor[y] * lonWidth[x]);
+      out.weights.push(latFactor[y] * lonWidth[x] * DEG); // steradians, as the overlap rule
     }
   }
   return out;
