@@ -7,10 +7,10 @@
  * Non-finite numbers are stored as {"$num": "NaN" | "Infinity" | "-Infinity"}.
  */
 import { createHash } from 'node:crypto';
-import { mkdir, readFile } from 'node:fs/promises';
+import { readFile } from 'node:fs/promises';
 import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
-import { ForelightError } from '../core/errors.ts';
+import { describeError } from '../core/errors.ts';
 import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
 
 export const SKILL_CACHE_VERSION = 4;
@@ -55,10 +55,10 @@ export async function cachedSkill<T>(cacheDir: string, key: string, compute: () 
   }
   const value = await compute();
   try {
-    await mkdir(cacheDir, { recursive: true });
-    writeFileAtomic(file, JSON.stringify(value, encode));
+    writeFileAtomic(file, JSON.stringify(value, encode), 'calibrate');
   } catch (err) {
-    throw new ForelightError('calibrate', 'skill-cache-write', `cannot write skill cache ${file}: ${(err as Error).message}`, 'make calibration.cacheDir writable or point it elsewhere', { cause: err });
+    // The run goes on with the computed value; the next run computes it again.
+    note = [note, `skill cache not kept: ${describeError(err)}`].filter(Boolean).join('; ');
   }
   return { value, fromCache: false, note };
 }

@@ -5,7 +5,7 @@
  */
 import { dirname, resolve } from 'node:path';
 import type { Quantity, Tier } from '../types.ts';
-import { THRESHOLD_UNITS } from './indicator-needs.ts';
+import { thresholdUnits } from './threshold-units.ts';
 import { unwrapRing } from './boundaries/geometry.ts';
 import { entryDefaults } from './boundaries/region-sets.ts';
 import type { Config, IndicatorConfig, IndicatorKind, RegionConfig, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
@@ -34,9 +34,14 @@ interface RawTree {
 
 const camel = (k: string) => k.replace(/-([a-z0-9])/g, (_, c: string) => c.toUpperCase());
 
+/** YAML `params:` (kebab-case keys) as the indicator kinds read them (camelCase keys). */
+export function paramsFromYaml(params: Readonly<Record<string, unknown>>): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(params).map(([k, v]) => [camel(k), v]));
+}
+
 function toThreshold(t: RawThreshold, kind: IndicatorKind): ThresholdSpec {
   if (t.percentile !== undefined) return { kind: 'percentile', percentile: t.percentile };
-  const family = THRESHOLD_UNITS[kind];
+  const family = thresholdUnits(kind);
   return { kind: 'absolute', value: family.accepted[t.units as string](t.value as number), units: family.canonical };
 }
 
@@ -50,6 +55,7 @@ function toRegions(raw: RawTree, sets: ReadonlyMap<number, readonly RegionConfig
   return raw.regions.flatMap((r, i) => sets.get(i) ?? [{ id: r.id, name: r.name, shape: toShape(r), teams: r.teams, ...entryDefaults(r, raw.schedule.timezone) }]);
 }
 
+/** The schema has checked `params` against the kind's params schema, so kind and params belong together. */
 function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
   return {
     id: i.id,
@@ -60,8 +66,8 @@ function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
     regionThresholds: Object.fromEntries(Object.entries(i['region-thresholds'] ?? {}).map(([r, t]) => [r, toThreshold(t, i.kind)])),
     aggregate: i.aggregate,
     tiers: i.tiers,
-    params: Object.fromEntries(Object.entries(i.params ?? {}).map(([k, v]) => [camel(k), v])),
-  };
+    params: paramsFromYaml(i.params ?? {}),
+  } as IndicatorConfig;
 }
 
 function toRule(r: RawTree['trigger-rules'][number]): TriggerRule {

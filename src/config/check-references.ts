@@ -26,7 +26,7 @@ export function checkDuplicateIds(raw: RawObject): ConfigProblem[] {
 }
 
 /** `setRegionIds`: ids of the regions read from boundary files (regions: entries with boundaries:). */
-export function checkReferences(raw: RawObject, setRegionIds: readonly string[] = []): ConfigProblem[] {
+export function checkReferences(raw: RawObject, _schemaProblems: readonly unknown[] = [], setRegionIds: readonly string[] = []): ConfigProblem[] {
   const out: ConfigProblem[] = [];
   const teams = known(ids(raw.teams));
   const regions = known([...ids(raw.regions), ...setRegionIds]);

@@ -36,8 +36,12 @@ export interface ConfigCheck {
   readonly sourceMap: ConfigSourceMap;
 }
 
-/** The semantic checks, each with the code its problems carry. They need the included lists: without them every reference would look unknown. */
-const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, setRegionIds: readonly string[]) => ConfigProblem[]])[] = [
+/**
+ * The semantic checks, each with the code its problems carry. They need the included lists: without them every
+ * reference would look unknown. The schema's problems let a check skip what the schema already refused; the ids
+ * of the regions read from boundary files count as region ids.
+ */
+const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, schemaProblems: readonly ConfigProblem[], setRegionIds: readonly string[]) => ConfigProblem[]])[] = [
   ['config-duplicate-id', checkDuplicateIds],
   ['config-reference', checkReferences],
   ['config-rule', checkRules],
@@ -96,13 +100,14 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
     else raw[key] = read.value;
   }
 
-  pending.push(...validateAgainstSchema(raw).map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
+  const schemaProblems = validateAgainstSchema(raw);
+  pending.push(...schemaProblems.map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
   let sets: RegionSets = { byEntry: new Map(), problems: [] };
   if (includesComplete) {
     sets = await loadRegionSets(raw, dirname(file));
     const setIds = [...sets.byEntry.values()].flat().map((r) => r.id);
     pending.push(...sets.problems.map((p): [DiagnosticCode, ConfigProblem] => ['config-boundaries', p]));
-    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, setIds).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
+    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, schemaProblems, setIds).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
   }
   diagnostics.push(...pending.map(([code, p]) => sourceMap.place(code, p)));
   const unique = uniqueDiagnostics(diagnostics).sort(byPlace);

@@ -11,12 +11,17 @@ export const EXIT = {
   configInvalid: 2,
   /** Issued, but some inputs were missing or late (older forecast used, or a source left out). */
   inputProblem: 3,
-  /** Some deliveries failed: copies are in the outbox and the operators were told. */
+  /**
+   * Some outputs failed: deliveries (copies in the outbox, operators told), or the archive or status file could not
+   * be written (named on stderr and in the operator notice; the e-mails went out regardless).
+   */
   deliveryFailed: 4,
   /** No new forecast data: nothing issued, operators told (not an error). */
   nothingNew: 5,
   /** Another Forelight run holds the lock, or this forecast was already issued by a live process. */
   locked: 6,
+  /** Stopped by SIGTERM/SIGINT before issuing: nothing issued, the next start runs the slot (128 + SIGTERM, shell convention). */
+  stopped: 143,
   /** Command line not understood (EX_USAGE of BSD sysexits.h). */
   usage: 64,
 } as const;

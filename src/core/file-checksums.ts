@@ -5,7 +5,7 @@
  */
 import { createHash } from 'node:crypto';
 import { createReadStream, statSync } from 'node:fs';
-import { mkdir, readFile } from 'node:fs/promises';
+import { readFile } from 'node:fs/promises';
 import { writeFileAtomic } from './write-atomic.ts';
 import { join } from 'node:path';
 import { ForelightError } from './errors.ts';
@@ -57,8 +57,7 @@ export async function openChecksumMemo(cacheDir: string | null): Promise<Checksu
     },
     async save() {
       if (!file || !dirty) return;
-      await mkdir(cacheDir as string, { recursive: true });
-      writeFileAtomic(file, JSON.stringify(known));
+      writeFileAtomic(file, JSON.stringify(known), 'calibrate');
       dirty = false;
     },
   };

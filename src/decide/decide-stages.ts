@@ -46,7 +46,7 @@ export function decideStages(input: DecideInput): DecideResult {
         const key = trackKey(region.id, indicator.id, tier);
         const probs = byKey.get(key);
         if (!probs) continue;
-        const raw = evaluateRules(config, region.id, indicator.id, tier, probs, tuned, input.skillGate ?? 'apply');
+        const raw = evaluateRules(config, { region: region.id, indicator: indicator.id, tier, probabilities: probs, tuned, skillGate: input.skillGate ?? 'apply' });
         const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
         tracks[key] = kept.track;
         decisions.push({

@@ -2,19 +2,21 @@
  * Deliver every pending bulletin × recipient recorded in the ledger, one message per recipient (so one
  * rejected address never blocks the others, and each recipient has its own status and Message-ID).
  *
- * Exactly-once, as far as SMTP allows. Each delivery is claimed (pending → sending, committed) before the
- * SMTP transaction and marked sent right after the server's 250 reply. A crash before the claim or after
- * the mark loses and duplicates nothing. The one residual window is between the server accepting DATA and
- * the `sent` row committing (a few milliseconds of local SQLite work): a process killed there leaves the
- * row `sending`; the next start cannot know whether the server kept the message, so it sends it again —
- * at-least-once, with the SAME Message-ID, which receiving systems and clients use to collapse duplicates.
- * We prefer a possible duplicate to a lost health advisory. Claims of a live process are never taken over.
+ * At-least-once, never lost. Each delivery is claimed (pending → sending, with its Message-ID, committed) before
+ * the SMTP transaction and marked sent right after the server's 250 reply. A crash before the claim or after the
+ * mark loses and duplicates nothing. The residual window runs from the end of DATA (the final "." sent) to the
+ * `sent` commit: it covers the server's own processing before it replies (a slow or overloaded server widens it,
+ * up to delivery.smtp.timeout-seconds) plus a few milliseconds of SQLite work. A process killed inside it leaves
+ * the row `sending`; the next start cannot know whether the server kept the message, so it sends it again with
+ * the SAME Message-ID (RFC 5322 §3.6.4), which receiving systems and clients use to collapse duplicates, and logs
+ * a warning naming the recipient. We prefer a possible duplicate to a lost health advisory. Claims of a live
+ * process are never taken over.
  */
 import { hostname } from 'node:os';
 import { randomUUID } from 'node:crypto';
 import type Mail from 'nodemailer/lib/mailer/index.js';
 import type { DeliveryConfig } from '../config/types.ts';
-import { DeliveryError, describeError } from '../core/errors.ts';
+import { describeError } from '../core/errors.ts';
 import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
 import {
   claimDelivery, dueNotices, getDelivery, listDeliveries, markDelivery, markNoticesDone, releaseClaim, toReceipt, type DeliveryRecord,
@@ -95,6 +97,14 @@ async function sendWithRetry(transport: SmtpTransporter, message: Mail.Options,
   }
 }
 
+function loginRefusedText(delivery: DeliveryConfig, detail: string): string {
+  return `SMTP server ${delivery.smtp?.host}:${delivery.smtp?.port} refused the login of ${delivery.smtp?.user ?? '(no user)'}: ${detail}`;
+}
+
+function loginFix(delivery: DeliveryConfig): string {
+  return `check delivery.smtp.user and the password in ${delivery.smtp?.passwordEnv ?? 'the variable named by delivery.smtp.password-env'}, then forward the outbox copies`;
+}
+
 /** One line per failure for the operator notice. */
 function describeFailure(d: DeliveryRecord & { team: string }): string {
   const where = d.status === 'pending' ? 'still pending, retried at the next run' : d.outboxPath ? `copy in ${d.outboxPath}` : 'no copy';
@@ -126,6 +136,8 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
   const token = randomUUID();
   const claimer = `${hostname()}:${process.pid}:${token}`;
   const bulletins = new Map<number, StoredBulletin>();
+  /** Set once the server refused the login: the error every remaining delivery of this call carries. */
+  let loginRefused: string | null = null;
   activeTokens.add(token);
   try {
     for (const pending of todo) {
@@ -138,7 +150,7 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
       const dlog = log.child({ deliveryId: claimed.id, bulletin: bulletin.id, recipient: claimed.recipient });
       let status: 'sent' | 'outbox' | 'failed' = 'outbox';
       let error: string | undefined;
-      if (transport) {
+      if (transport && !loginRefused) {
         const sendError = await sendWithRetry(transport, message, delivery, sleep, dlog).then(() => null, (err: unknown) => err);
         if (sendError === null) {
           await options.onStep?.('accepted', claimed);
@@ -146,14 +158,15 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
         } else {
           const failure = (sendError as { failure?: SmtpFailure }).failure;
           if (failure?.auth) {
-            // Wrong credentials fail every message alike: keep all pending for a run after the fix.
-            markDelivery(ledger, claimed.id, 'pending', { error: failure.detail });
-            throw new DeliveryError(`SMTP server ${delivery.smtp?.host}:${delivery.smtp?.port} refused the login of ${delivery.smtp?.user ?? '(no user)'}: ${failure.detail}`,
-              `check delivery.smtp.user and the password in ${delivery.smtp?.passwordEnv ?? 'the variable named by delivery.smtp.password-env'}; unsent bulletins stay pending`, false);
+            // Wrong credentials fail every message alike: the rest go straight to the outbox, no more logins tried.
+            loginRefused = `${loginRefusedText(delivery, failure.detail)} — ${loginFix(delivery)}`;
+            dlog.error('SMTP login refused; every bulletin of this run goes to the outbox', { error: failure.detail });
           }
-          status = failure && !failure.temporary ? 'failed' : 'outbox';
-          error = failure?.detail ?? describeError(sendError);
+          status = failure && !failure.temporary && !failure.auth ? 'failed' : 'outbox';
+          error = failure?.auth ? loginRefused ?? undefined : failure?.detail ?? describeError(sendError);
         }
+      } else if (loginRefused) {
+        error = loginRefused;
       }
       let outboxPath: string | undefined;
       if (status !== 'sent') {
@@ -170,7 +183,7 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
           if (!transport) throw err;
           continue;
         }
-        if (transport) dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
+        if (transport && !loginRefused) dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
       }
       markDelivery(ledger, claimed.id, status, { error, outboxPath, noticeDue: !!transport && status !== 'sent' });
       counts[status]++;
@@ -178,7 +191,8 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
       receipts.push(toReceipt({ ...done, status }, bulletin.id));
       await options.onStep?.('recorded', done);
     }
-    await noticeFailures(ledger, transport, delivery, log);
+    // After a refused login the notice cannot go by SMTP either: straight to the outbox.
+    await noticeFailures(ledger, loginRefused ? null : transport, delivery, log);
   } finally {
     activeTokens.delete(token);
     transport?.close();

@@ -4,8 +4,8 @@
  * temporary name and renamed, so a crash never leaves half a message; re-writing the same message replaces it.
  */
 import type { Bulletin } from '../types.ts';
-import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
-import { writeFileAtomic } from '../core/write-atomic.ts';
+import { rmSync, writeFileSync } from 'node:fs';
+import { fixFor, makeFolder, writeFileAtomic } from '../core/write-atomic.ts';
 import { createHash } from 'node:crypto';
 import { join, resolve, sep } from 'node:path';
 import { DeliveryError } from '../core/errors.ts';
@@ -27,10 +27,10 @@ export function outboxBaseName(forecastKey: string, runId: number, team: string,
 }
 
 function outboxError(dir: string, err: unknown): DeliveryError {
-  const code = (err as NodeJS.ErrnoException).code ?? 'error';
+  const code = (err as NodeJS.ErrnoException).code ?? (err as { cause?: NodeJS.ErrnoException }).cause?.code ?? 'error';
   return new DeliveryError(
     `outbox folder ${dir} is not writable (${code})`,
-    'create it or fix its permissions, or set delivery.outbox to a writable folder; unsent bulletins stay pending in the ledger',
+    `${fixFor(code, dir)} (delivery.outbox); unsent bulletins stay pending in the ledger`,
     false,
     { cause: err },
   );
@@ -39,7 +39,7 @@ function outboxError(dir: string, err: unknown): DeliveryError {
 /** Create the folder if needed and prove it is writable (write + remove a probe file). */
 export function ensureOutboxWritable(dir: string): void {
   try {
-    mkdirSync(dir, { recursive: true });
+    makeFolder(dir);
     const probe = join(dir, `.probe-${process.pid}`);
     writeFileSync(probe, '');
     rmSync(probe);
@@ -52,11 +52,11 @@ export function ensureOutboxWritable(dir: string): void {
 export function writeOutboxFiles(dir: string, baseName: string, files: readonly { ext: string; content: string | Uint8Array }[]): string[] {
   const root = resolve(dir);
   try {
-    mkdirSync(root, { recursive: true });
+    makeFolder(root);
     return files.map(({ ext, content }) => {
       const path = join(root, `${safeNamePart(baseName, Infinity)}.${safeNamePart(ext)}`);
       if (!path.startsWith(root + sep)) throw new Error(`refusing to write outside ${root}`);
-      writeFileAtomic(path, content);
+      writeFileAtomic(path, content, 'deliver');
       return path;
     });
   } catch (err) {

@@ -4,7 +4,9 @@
  */
 import Database from 'better-sqlite3';
 import { hostname } from 'node:os';
+import { dirname } from 'node:path';
 import { ForelightError, describeError } from '../core/errors.ts';
+import { fixFor } from '../core/write-atomic.ts';
 import { applyMigrations } from './migrations.ts';
 
 export interface Ledger {
@@ -42,6 +44,21 @@ export function openLedger(path: string, options: { now?: () => Date } = {}): Le
     owner: { host: hostname(), pid: process.pid },
     close: () => db.close(),
   };
+}
+
+/** SQLite result codes that mean the ledger's file system refuses the write (SQLite C API, "Result and Error Codes"). */
+const WRITE_FAULTS: Readonly<Record<string, string>> = { SQLITE_FULL: 'ENOSPC', SQLITE_READONLY: 'EROFS', SQLITE_CANTOPEN: 'EACCES', SQLITE_IOERR: 'EIO' };
+
+/**
+ * A ledger write that failed because of its disk, as one line naming the ledger and the fix (nothing is sent
+ * without the ledger: it records each bulletin before sending). Any other error is returned unchanged.
+ */
+export function ledgerWriteFault(path: string, err: unknown): unknown {
+  const code = (err as { code?: string }).code ?? '';
+  const base = Object.keys(WRITE_FAULTS).find((k) => code === k || code.startsWith(`${k}_`));
+  if (!base) return err;
+  return new ForelightError('ledger', 'ledger-write', `ledger cannot be written (${code}: ${describeError(err)})`,
+    `${fixFor(WRITE_FAULTS[base], dirname(path))}; nothing was sent, the next run resumes this one`, { cause: err, place: { file: path } });
 }
 
 /** ISO timestamp from the ledger clock. */

@@ -2,7 +2,7 @@
  * Files a run publishes besides e-mail: CAP XML and run.json per run, and the static archive site, rebuilt from
  * every issued run's archive entry (each kept as `<archive>/<runId>/entry.json`).
  */
-import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { ForelightError } from '../core/errors.ts';
 import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
@@ -33,8 +33,7 @@ export function readArchiveEntries(dir: string): ArchiveEntry[] {
 export function publishArchive(config: Config, entry: ArchiveEntry): string {
   const dir = config.delivery.archive;
   const runDir = join(dir, toToken(entry.runId));
-  mkdirSync(runDir, { recursive: true });
-  writeFileAtomic(join(runDir, ENTRY_FILE), JSON.stringify(entry));
+  writeFileAtomic(join(runDir, ENTRY_FILE), JSON.stringify(entry), 'render');
   writeArchive(dir, readArchiveEntries(dir), { templates: config.templates });
   return join(dir, 'index.html');
 }

@@ -25,6 +25,8 @@ export interface SourceRead {
   readonly stale: boolean;
   readonly referenceTime: string;
   readonly series: RegionQuantities;
+  /** How the forecast file's times were read where a convention decided it (for run.json notes). */
+  readonly notes: readonly string[];
 }
 
 export interface ReadResult {
@@ -44,23 +46,23 @@ function group(series: readonly RegionSeries[]): RegionQuantities {
   return out;
 }
 
-/** Where a run keeps region weights: beside the model-climate cache (calibration.cache-dir). */
-export interface ReadPlace {
-  readonly regions: readonly RegionConfig[];
-  readonly weightsCacheDir: string;
-}
-
-/** The regions of `config` and the folder of their weights cache. */
-export function readPlace(config: Config): ReadPlace {
-  return { regions: config.regions, weightsCacheDir: config.calibration.cacheDir };
+/** What one file read needs besides its path: the forecast date (or hindcast start) and the source's tier. */
+interface FileRequest {
+  readonly referenceTime?: string;
+  readonly tier?: SourceConfig['tier'];
+  /** Receives how the file's times were read (model calendar, monthly values). */
+  readonly notes?: string[];
+  /** Folder of the region-weights cache (calibration.cache-dir), computed once per grid and region set. */
+  readonly weightsCacheDir?: string;
 }
 
 async function readFile(
-  path: string, quantities: SourceConfig['variables'], place: ReadPlace, referenceTime: string | undefined, problems: ForelightError[],
+  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extractRegionSeries(path, { quantities, regions: place.regions, referenceTime, weightsCacheDir: place.weightsCacheDir });
+    const r = await extractRegionSeries(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier, weightsCacheDir: request.weightsCacheDir });
     problems.push(...r.problems);
+    request.notes?.push(...r.notes);
     return group(r.series);
   } catch (err) {
     if (err instanceof ForelightError) {
@@ -83,11 +85,11 @@ export function regionCells(series: RegionQuantities): Map<string, number> {
  * region with a message, so its leads are not calibrated on a different grid.
  */
 export async function readHindcasts(
-  source: SourceConfig, files: readonly HindcastFile[], place: ReadPlace, problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>,
+  source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>, weightsCacheDir?: string,
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   for (const h of files) {
-    const series = await readFile(h.path, source.variables, place, h.start, problems);
+    const series = await readFile(h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier, weightsCacheDir }, problems);
     if (!series) continue;
     for (const [region, cells] of regionCells(series)) {
       const expected = forecastCells?.get(region);
@@ -112,12 +114,13 @@ export async function readAll(config: Config, inputs: readonly SourceInputs[]): 
       problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
       continue;
     }
-    const series = await readFile(input.path, input.source.variables, readPlace(config), input.date, problems);
+    const notes: string[] = [];
+    const series = await readFile(input.path, input.source.variables, config.regions, { referenceTime: input.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir }, problems);
     if (!series) continue;
-    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series });
+    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series, notes });
   }
   const observed = config.observations
-    ? await readFile(config.observations.path, config.observations.variables, readPlace(config), undefined, problems)
+    ? await readFile(config.observations.path, config.observations.variables, config.regions, { weightsCacheDir: config.calibration.cacheDir }, problems)
     : null;
   return { sources, observed, problems };
 }

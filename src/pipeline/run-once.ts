@@ -4,6 +4,9 @@
  * next start: bulletins already stored are sent exactly to the recipients that have not had them.
  */
 import { existsSync } from 'node:fs';
+import { dirname } from 'node:path';
+import { sweepStaleTemps } from '../core/write-atomic.ts';
+import type { ArchiveEntry } from '../render/archive.ts';
 import type { Config } from '../config/types.ts';
 import { decideStages } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
@@ -13,15 +16,15 @@ import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { recordDiagnostics, runDiagnostics } from '../ledger/diagnostics.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
-import { openLedger, type Ledger } from '../ledger/open-ledger.ts';
+import { ledgerWriteFault, openLedger, type Ledger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
+import type { RunContext } from '../core/run-context.ts';
 import type { PreviousIssue } from '../render/model.ts';
 import { renderBulletins } from '../render/render-bulletins.ts';
 import { EXIT, exitCodeForDeliveries, type ExitCode } from '../core/exit-codes.ts';
-import type { IsoDate } from '../types.ts';
-import { analyse, type Analysis } from './analyse.ts';
+import { analyse, saveChecksums, type Analysis } from './analyse.ts';
 import { buildBulletinRun, highestStageId, issuedRegionStages } from './bulletin-run.ts';
 import { tunedThresholds } from './decide-now.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
@@ -29,11 +32,10 @@ import { publishArchive } from './publish.ts';
 
 export interface RunOptions {
   readonly config: Config;
-  readonly issueDate: IsoDate;
-  readonly log: Logger;
+  /** Issue date, clock, logger and stop signal; the run id is filled in once the ledger registers the run. */
+  readonly run: RunContext;
   readonly mode: 'live' | 'exercise';
   readonly force?: boolean;
-  readonly now?: () => Date;
   /** Passed to delivery (fault injection in tests). */
   readonly deliver?: DeliverOptions;
 }
@@ -49,7 +51,7 @@ export function forecastKey(inputs: readonly SourceInputs[]): string {
   return inputs.map((i) => `${i.source.id} ${i.date ?? 'none'}`).join(', ');
 }
 
-async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysis, config: Config): Promise<void> {
+async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysis, config: Config, log: Logger): Promise<void> {
   const wanted: [path: string, source: string, referenceTime: string][] = [
     ...analysis.read.sources.map((s): [string, string, string] => [s.path, s.source.id, s.referenceTime]),
     ...analysis.inputs.flatMap((i) => i.hindcasts.map((h): [string, string, string] => [h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`])),
@@ -60,7 +62,7 @@ async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysi
     // A file that cannot be read was already reported by the read stage; the ledger keeps what exists.
     if (existsSync(path)) files.push(await describeInputFile(path, source, referenceTime, (p) => analysis.checksums.sha256(p)));
   }
-  await analysis.checksums.save();
+  await saveChecksums(analysis.checksums, log);
   recordInputs(ledger, runId, files);
 }
 
@@ -79,16 +81,17 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 }
 
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
-async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ bulletins: number }> {
-  const { config, log } = options;
-  const analysis = await analyse(config, options.issueDate, log, undefined, inputs); // the files the run key names
+async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ bulletins: number; archive: ArchiveEntry }> {
+  const { config, run: context } = options;
+  const { issueDate, log } = context;
+  const analysis = await analyse(config, context, { inputs }); // the files the run key names
   recordDiagnostics(ledger, runId, analysis.problems);
   if (analysis.read.sources.length === 0) {
-    const text = `No forecast of any source could be read for ${options.issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
-    await sendOperatorNotice(config.delivery, `no forecast could be read for ${options.issueDate}`, text, { log, diagnostics: analysis.problems });
+    const text = `No forecast of any source could be read for ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
+    await sendOperatorNotice(config.delivery, `no forecast could be read for ${issueDate}`, text, { log, diagnostics: analysis.problems });
     throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.map(formatDiagnostic).join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
   }
-  await recordInputFiles(ledger, runId, analysis, config);
+  await recordInputFiles(ledger, runId, analysis, config, log);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
   const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis) });
   recordProbabilities(ledger, runId, analysis.probabilities);
@@ -96,7 +99,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
   saveStageHistory(ledger, runId, JSON.stringify(decided.nextHistory));
   const previous = issuedRegionStages(config, lastIssuedStages(ledger).filter((s) => s.runId !== runId));
   const run = buildBulletinRun({
-    config, runId: `${options.issueDate}-${runId}`, issuedAt: (options.now ?? (() => new Date()))(), mode: options.mode,
+    config, runId: `${issueDate}-${runId}`, issuedAt: context.now(), mode: options.mode,
     sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
     regionStages: decided.regionStages, previous, notes: analysis.combination, problems: analysis.problems,
   });
@@ -105,45 +108,80 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
     for (const a of rendered.capAlerts) recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
-  const index = publishArchive(config, rendered.archive);
-  log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length, archive: index });
-  return { bulletins: rendered.bulletins.length };
+  log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length });
+  return { bulletins: rendered.bulletins.length, archive: rendered.archive };
+}
+
+/** The archive site is one output among others: a folder that cannot be written is reported, never stops delivery. */
+function publishOrReport(config: Config, entry: ArchiveEntry | null, log: Logger): string | null {
+  if (!entry) return null;
+  try {
+    const index = publishArchive(config, entry);
+    log.info('archive written', { stage: 'render', archive: index });
+    return null;
+  } catch (err) {
+    log.error('archive not written; the bulletins are delivered anyway', { stage: 'render', error: describeError(err) });
+    return `archive: ${describeError(err)}`;
+  }
+}
+
+/** Removes temporary files that a process killed mid-write left in the output folders. */
+function sweepOutputs(config: Config, log: Logger): void {
+  const folders: [string, boolean][] = [[config.delivery.outbox, false], [config.delivery.archive, true], [dirname(config.ledger), false]];
+  if (config.calibration.cacheDir) folders.push([config.calibration.cacheDir, false]);
+  const removed = folders.flatMap(([dir, recursive]) => sweepStaleTemps(dir, recursive));
+  if (removed.length > 0) log.warn('removed temporary files left by an interrupted write', { files: removed });
 }
 
 export async function runOnce(options: RunOptions): Promise<RunOutcome> {
-  const { config, log } = options;
-  const inputs = resolveInputs(config, options.issueDate);
+  const { config } = options;
+  const { issueDate, log } = options.run;
+  const inputs = resolveInputs(config, issueDate);
   if (inputs.every((i) => i.path === null)) {
-    const text = `No forecast file of any source was found on or before ${options.issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
-    await sendOperatorNotice(config.delivery, `no forecast data for ${options.issueDate}`, text, { log });
+    const text = `No forecast file of any source was found on or before ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
+    await sendOperatorNotice(config.delivery, `no forecast data for ${issueDate}`, text, { log });
     return { exitCode: EXIT.nothingNew, summary: text, runId: null };
   }
   const key = forecastKey(inputs);
-  const ledger = openLedger(config.ledger, { now: options.now });
+  sweepOutputs(config, log);
+  const ledger = openLedger(config.ledger, { now: options.run.now });
   try {
     const begun = beginRun(ledger, key, { force: options.force });
     if (begun.kind === 'already-issued') {
       const text = `The newest forecasts (${key}) were already issued in run ${begun.run.id}; nothing new was sent. Use --force to issue them again.`;
-      await sendOperatorNotice(config.delivery, `nothing new for ${options.issueDate}`, text, { log });
+      await sendOperatorNotice(config.delivery, `nothing new for ${issueDate}`, text, { log });
       return { exitCode: EXIT.nothingNew, summary: text, runId: begun.run.id };
     }
     const runId = begun.run.id;
     const rlog = log.child({ runId });
+    let archive: ArchiveEntry | null = null;
     try {
       if (begun.kind === 'resumed' && hasBulletins(ledger, runId)) rlog.warn('resuming an interrupted run: sending what was not yet sent');
-      else await prepare(ledger, { ...options, log: rlog }, runId, inputs);
+      else ({ archive } = await prepare(ledger, { ...options, run: { ...options.run, runId, log: rlog } }, runId, inputs));
     } catch (err) {
-      finishRun(ledger, runId, 'failed', describeError(err));
-      throw err;
+      const fault = ledgerWriteFault(config.ledger, err);
+      try {
+        finishRun(ledger, runId, 'failed', describeError(fault));
+      } catch {
+        // the ledger itself refuses writes: the run stays open and is resumed next time
+      }
+      throw fault;
     }
+    const outputProblems = [publishOrReport(config, archive, rlog)].filter((p): p is string => p !== null);
     const sent = await deliverPending(ledger, config.delivery, rlog, { ...options.deliver, runId });
+    if (outputProblems.length > 0) {
+      await sendOperatorNotice(config.delivery, `outputs not written for ${issueDate}`,
+        `Run ${runId} (${key}) delivered its bulletins, but these outputs could not be written:\n\n${outputProblems.map((p) => `- ${p}`).join('\n')}\n`, { log: rlog, env: options.deliver?.env });
+    }
     const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
+    const outputCode = outputProblems.length > 0 ? EXIT.deliveryFailed : EXIT.ok;
     const problems: readonly Diagnostic[] = runDiagnostics(ledger, runId); // also those of the interrupted start
-    const status = problems.length > 0 || deliveryCode !== EXIT.ok ? 'partial' : 'ok';
-    finishRun(ledger, runId, status);
-    const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)`;
+    const status = problems.length > 0 || deliveryCode !== EXIT.ok || outputCode !== EXIT.ok ? 'partial' : 'ok';
+    finishRun(ledger, runId, status, outputProblems.length > 0 ? outputProblems.join(' | ') : undefined);
+    const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)` +
+      (outputProblems.length > 0 ? `; ${outputProblems.length} output problem(s): ${outputProblems.join(' | ')}` : '');
     rlog.info(summary, { stage: 'deliver' });
-    const exitCode = deliveryCode !== EXIT.ok ? deliveryCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
+    const exitCode = deliveryCode !== EXIT.ok ? deliveryCode : outputCode !== EXIT.ok ? outputCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
     return { exitCode, summary, runId };
   } finally {
     ledger.close();

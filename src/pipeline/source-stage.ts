@@ -19,7 +19,7 @@ import type { LeadProbability } from '../types.ts';
 import { buildIndicatorClimate, type IndicatorClimate, type ObservedIndicators } from './climate-stage.ts';
 import { indicatorContext } from './indicator-context.ts';
 import type { SourceInputs } from './inputs.ts';
-import { readHindcasts, readPlace, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
+import { readHindcasts, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
 
 export interface SourceOutcome {
   readonly source: string;
@@ -29,6 +29,8 @@ export interface SourceOutcome {
   /** pairKey(region, indicator) → the forecast's values per member and lead (for explain). */
   readonly forecastLeads: ReadonlyMap<PairKey, LeadValues>;
   readonly fromCache: boolean;
+  /** Set when the model-climate cache could not be read or kept (the run went on without it). */
+  readonly cacheNote: string;
   /** Region × indicator combinations that were skipped, with the reason. */
   readonly problems: readonly Diagnostic[];
 }
@@ -54,10 +56,10 @@ function pairs(config: Config, tier: string): { region: RegionConfig; ind: Indic
   return config.regions.flatMap((region) => config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })));
 }
 
-async function loadClimates(ctx: SharedContext, input: SourceInputs, read: SourceRead, problems: ForelightError[]): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean }> {
+async function loadClimates(ctx: SharedContext, input: SourceInputs, read: SourceRead, problems: ForelightError[]): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
   const { config } = ctx;
   const source = input.source;
-  if (input.hindcasts.length === 0) return { climates: new Map(), fromCache: false };
+  if (input.hindcasts.length === 0) return { climates: new Map(), fromCache: false, cacheNote: '' };
   const key = await skillCacheKey({
     hindcastFiles: input.hindcasts.map((h) => h.path),
     observationsFile: ctx.observationsPath,
@@ -65,20 +67,20 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, read: Sourc
     memo: ctx.checksums,
   });
   const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, async () => {
-    const hindcasts = await readHindcasts(source, input.hindcasts, readPlace(config), problems, regionCells(read.series));
+    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series), config.calibration.cacheDir);
     return pairs(config, source.tier).map(({ region, ind }): StoredClimate => {
       const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
     });
   });
   const climates = new Map(cached.value.map(({ region, indicator, ...c }) => [pairKey(region, indicator), { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) }]));
-  return { climates, fromCache: cached.fromCache };
+  return { climates, fromCache: cached.fromCache, cacheNote: cached.note };
 }
 
 /** Probabilities of every region × indicator of one source (the source's tier), with the climates behind them. */
 export async function calibrateSource(ctx: SharedContext, read: SourceRead, input: SourceInputs, fileProblems: ForelightError[]): Promise<SourceOutcome> {
   const { config } = ctx;
-  const { climates, fromCache } = await loadClimates(ctx, input, read, fileProblems);
+  const { climates, fromCache, cacheNote } = await loadClimates(ctx, input, read, fileProblems);
   const probabilities: LeadProbability[] = [];
   const forecastLeads = new Map<PairKey, LeadValues>();
   const problems: Diagnostic[] = [];
@@ -111,5 +113,5 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
       problems.push(within(diagnosticOf(err, 'indicator-skipped'), `${read.source.id} forecast, region ${region.id}, indicator ${ind.id}`, place));
     }
   }
-  return { source: read.source.id, probabilities, climates, forecastLeads, fromCache, problems };
+  return { source: read.source.id, probabilities, climates, forecastLeads, fromCache, cacheNote, problems };
 }

@@ -33,6 +33,8 @@ async function readHead(path: string): Promise<Buffer> {
     const head = Buffer.alloc(4);
     const { bytesRead } = await handle.read(head, 0, 4, 0);
     return head.subarray(0, bytesRead);
+  } catch {
+    return Buffer.alloc(0); // a folder (EISDIR) or an unreadable file: openNetcdf names the problem
   } finally {
     await handle.close();
   }
@@ -60,7 +62,9 @@ async function openNetcdf(path: string): Promise<Dataset> {
   }
   let owned = false;
   try {
-    const { size } = await handle.stat();
+    const stats = await handle.stat();
+    if (stats.isDirectory()) throw new InputError('input-folder', path, 'is a folder, not a NetCDF file', 'point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake');
+    const { size } = stats;
     const magic = Buffer.alloc(64);
     const { bytesRead } = await handle.read(magic, 0, 64, 0);
     const head = magic.subarray(0, bytesRead);

@@ -4,7 +4,7 @@
  * region `regions/<region>.html` with its stage history and a small timeline (`regions/<region>.svg`).
  * Regenerated in full from the list of issued runs the ledger keeps; no scripts or external resources.
  */
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import { renderTimelineSvg, TIMELINE_WIDTH } from './archive-timeline.ts';
 import { formatDay } from './locale-format.ts';
@@ -62,8 +62,7 @@ export function writeArchive(dir: string, entries: readonly ArchiveEntry[], opti
   const written: string[] = [];
   const put = (rel: string, content: string | Buffer): void => {
     const path = join(dir, rel);
-    mkdirSync(join(path, '..'), { recursive: true });
-    writeFileSync(path, content);
+    writeFileAtomic(path, content, 'render');
     written.push(rel);
   };
 

@@ -16,7 +16,7 @@ import { chartWords } from './chart-words.ts';
 import type { BulletinRun, CapAlert, PreviousIssue } from './model.ts';
 import { buildRegionView, hazardName, type RegionView } from './region-view.ts';
 import { renderRunJson } from './run-json.ts';
-import { toHeaderText, toToken } from './safe-text.ts';
+import { capHeaderText, toHeaderText, toToken } from './safe-text.ts';
 import { createTemplateEnv } from './template-env.ts';
 import { applyTypography } from './typography.ts';
 
@@ -114,7 +114,7 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
       team: team.id,
       locale,
       to: recipients.get(team.id) ?? [],
-      subject: toHeaderText(subjectOf(t, ctx, regionViews, team.national)),
+      subject: capHeaderText(subjectOf(t, ctx, regionViews, team.national)),
       html: env.render(`${kind}.html.njk`, locale, ctx),
       text: env.render(`${kind}.txt.njk`, locale, ctx),
       attachments,

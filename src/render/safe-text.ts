@@ -14,6 +14,23 @@ export function toHeaderText(value: string): string {
     .trim();
 }
 
+/**
+ * Longest subject line Forelight sends, in characters. RFC 5322 §2.1.1 limits a header line to 998 characters and
+ * recommends 78; mail clients show roughly the first 60–100. 160 keeps the stage of a few regions visible.
+ */
+export const MAX_SUBJECT_CHARS = 160;
+
+/** A header text cut to `max` characters at the last "; " or space before the limit, ending with "…". */
+export function capHeaderText(value: string, max = MAX_SUBJECT_CHARS): string {
+  const text = toHeaderText(value);
+  const chars = [...text];
+  if (chars.length <= max) return text;
+  const head = chars.slice(0, max - 1).join('');
+  const between = head.lastIndexOf('; ');
+  const cut = between > max / 2 ? between : head.lastIndexOf(' ');
+  return `${(cut > max / 2 ? head.slice(0, cut) : head).replace(/[;,\s]+$/, '')} …`;
+}
+
 /** Escape the five XML special characters (element content and attribute values). */
 export function escapeXml(value: string): string {
   return value

@@ -15,7 +15,10 @@ export interface RunReport {
 
 export interface ServiceStatus {
   readonly updatedAt: string;
+  /** Process that wrote this status (the service, or a manual `forelight run`). */
   readonly pid: number;
+  /** Process id of the running service, null after it stopped (or when only manual runs wrote the file). */
+  readonly servicePid?: number | null;
   readonly cron: string;
   readonly timezone: string;
   readonly lastRun: RunReport | null;
@@ -32,7 +35,7 @@ export function makeRunReport(reason: RunReport['reason'], startedAt: Date, fini
 
 /** Write atomically (temporary file + rename) so a reader never sees half a file. */
 export function writeStatus(path: string, status: ServiceStatus): void {
-  writeFileAtomic(path, JSON.stringify(status, null, 2) + '\n');
+  writeFileAtomic(path, JSON.stringify(status, null, 2) + '\n', 'schedule');
 }
 
 /** Null when the service has not written a status yet. */
@@ -52,12 +55,28 @@ export function readStatus(path: string): ServiceStatus | null {
   }
 }
 
-/** The status after one more run. */
-export function nextStatus(previous: ServiceStatus | null, base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun'>, run: RunReport): ServiceStatus {
-  const failed = !['ok', 'nothingNew', 'inputProblem'].includes(run.exitName);
+/** The status with the service's pid set (at start) or cleared (at stop); the rest is kept. */
+export function withServicePid(previous: ServiceStatus | null, base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun'>, servicePid: number | null, at: Date): ServiceStatus {
+  return {
+    updatedAt: at.toISOString(), pid: process.pid, lastRun: null, consecutiveFailures: 0, recentFailures: [], ...previous, ...base, servicePid,
+  };
+}
+
+/** "running (pid N)" or why the service is not running, from the status file and a liveness probe of its pid. */
+export function describeService(status: ServiceStatus | null, alive: (pid: number) => boolean): string {
+  if (!status?.servicePid) return `not running (no service has recorded itself${status ? `; last written by process ${status.pid} at ${status.updatedAt}` : ''})`;
+  return alive(status.servicePid)
+    ? `running (pid ${status.servicePid})`
+    : `NOT RUNNING: process ${status.servicePid} recorded at ${status.updatedAt} is gone (crashed or killed) — start it again (systemctl start forelight)`;
+}
+
+/** The status after one more run (`base.servicePid` when the service writes it; a manual run keeps the previous one). */
+export function nextStatus(previous: ServiceStatus | null, base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun' | 'servicePid'>, run: RunReport): ServiceStatus {
+  const failed = !['ok', 'nothingNew', 'inputProblem', 'stopped'].includes(run.exitName);
   return {
     updatedAt: run.finishedAt,
     pid: process.pid,
+    servicePid: previous?.servicePid ?? null,
     ...base,
     lastRun: run,
     consecutiveFailures: failed ? (previous?.consecutiveFailures ?? 0) + 1 : 0,

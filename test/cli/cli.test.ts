@@ -92,6 +92,25 @@ describe('forelight CLI', () => {
     expect(s.stdout).toMatch(/^next scheduled run: \d{4}-\d{2}-\d{2}T06:30:00\.000Z \(30 7 \* \* 1,4, Etc\/GMT-1\)/m);
   });
 
+  it('a folder where a file is expected: extract exits 3, check exits 2, each with one line naming it', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-cli-dir-'));
+    const e = forelight('extract', dir, '--var', 't2m', '--box', MARROW, '--json');
+    expect(e.code).toBe(EXIT.inputProblem);
+    expect(e.stderr.trim().split('\n')).toEqual([`forelight: ${dir}: is a folder, not a NetCDF file — point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake`]);
+    const c = forelight('check', '--config', dir);
+    expect(c.code).toBe(EXIT.configInvalid);
+    expect(c.stderr.trim().split('\n')[0]).toMatch(/:1:1: cannot read .* \(it is a folder\) — name the YAML file inside it$/);
+  });
+
+  it('check: a YAML file that is not UTF-8 (Latin-1 "é") is an error at the first bad byte (YAML 1.2 §5.2)', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-cli-latin1-'));
+    const file = join(dir, 'forelight.yaml');
+    writeFileSync(file, Buffer.concat([Buffer.from('country: Republic of Veloria\n# notes: '), Buffer.from([0x63, 0x61, 0x66, 0xe9]), Buffer.from(' au port\n')]));
+    const r = forelight('check', '--config', file);
+    expect(r.code).toBe(EXIT.configInvalid);
+    expect(r.stderr.trim().split('\n')[0]).toBe(`${file}:2:13: byte 0xe9 is not UTF-8 (YAML 1.2 §5.2 requires Unicode) — save the file as UTF-8 (e.g. iconv -f latin1 -t utf-8)`);
+  });
+
   it('check on a configuration with errors: every problem as file:line:column, then exit 2', () => {
     const r = forelight('check', '--config', join(ROOT, 'test/config/fixtures/many-problems.yaml'));
     expect(r.code).toBe(EXIT.configInvalid);

@@ -4,11 +4,12 @@
  * inline part addressed by Content-ID from a `cid:` URL). Faults: refused port, silent server, dropped
  * connection, one recipient rejected with 550 (RFC 5321 §4.2.2 reply codes: 4yz transient, 5yz permanent).
  */
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { simpleParser } from 'mailparser';
 import { afterEach, describe, expect, it } from 'vitest';
-import { deliverPending } from '../../src/deliver/deliver-pending.ts';
+import { deliverPending, type DeliverySummary } from '../../src/deliver/deliver-pending.ts';
+import { EXIT, exitCodeForDeliveries } from '../../src/core/exit-codes.ts';
 import { listDeliveries, pendingDeliveries } from '../../src/ledger/deliveries.ts';
 import { openLedger, type Ledger } from '../../src/ledger/open-ledger.ts';
 import { silentLogger } from '../../src/core/log.ts';
@@ -159,7 +160,7 @@ describe('deliverPending over SMTP', () => {
     expect(smtp.received[0]).toMatchObject({ secure: true, user: 'forelight' });
   });
 
-  it('a refused login (535) stops delivery with one line; every delivery stays pending', async () => {
+  it('a refused login (535, RFC 4954 §6) is a delivery failure: every copy in the outbox, exit 4, the operators told in the outbox', async () => {
     const smtp = await startSmtp({}, { auth: { user: 'forelight', pass: 'right' } });
     const dir = tempDir('smtp-auth');
     const ledger = openLedger(join(dir, 'ledger.sqlite'));
@@ -167,9 +168,18 @@ describe('deliverPending over SMTP', () => {
     const cfg = deliveryConfig(smtp.port, join(dir, 'outbox'), {
       smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 2, user: 'forelight', passwordEnv: 'FORELIGHT_SMTP_PASSWORD' },
     });
-    const err = await issueForecast(ledger, '2026-11-26', sampleBulletins(), cfg, silentLogger, { env: { FORELIGHT_SMTP_PASSWORD: 'wrong' } }).catch((e: Error) => e);
-    expect((err as Error).message).toMatch(/^SMTP server 127\.0\.0\.1:\d+ refused the login of forelight: EAUTH 535 .* — check delivery\.smtp\.user and the password in FORELIGHT_SMTP_PASSWORD; unsent bulletins stay pending$/);
-    expect(pendingDeliveries(ledger)).toHaveLength(5);
+    const r = await issueForecast(ledger, '2026-11-26', sampleBulletins(), cfg, silentLogger, { env: { FORELIGHT_SMTP_PASSWORD: 'wrong' } });
+    expect(r.summary).toMatchObject({ sent: 0, outbox: 5, failed: 0, pending: 0 });
+    expect(exitCodeForDeliveries(r.summary as DeliverySummary, true)).toBe(EXIT.deliveryFailed);
+    const rows = listDeliveries(ledger, { runId: r.runId, statuses: ['pending', 'sending', 'sent', 'outbox', 'failed'] });
+    expect(rows).toHaveLength(5);
+    expect(rows.every((d) => d.status === 'outbox' && d.outboxPath !== null && existsSync(d.outboxPath))).toBe(true);
+    expect(rows[0].lastError).toMatch(/^SMTP server 127\.0\.0\.1:\d+ refused the login of forelight: EAUTH 535 .* — check delivery\.smtp\.user and the password in FORELIGHT_SMTP_PASSWORD/);
+    const notices = readdirSync(join(dir, 'outbox')).filter((f) => f.startsWith('notice_'));
+    expect(notices).toHaveLength(1);
+    expect(readFileSync(join(dir, 'outbox', notices[0]), 'utf8')).toMatch(/refused the login/);
     expect(smtp.received).toHaveLength(0);
+    // Nothing is sent twice: a second pass finds nothing pending.
+    expect((await deliverPending(ledger, cfg, silentLogger, { env: { FORELIGHT_SMTP_PASSWORD: 'right' } })).sent).toBe(0);
   });
 });

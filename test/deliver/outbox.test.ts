@@ -79,7 +79,7 @@ describe('outbox delivery (smtp: null)', () => {
     recordBulletins(ledger, beginRun(ledger, '2026-11-30').run.id, sampleBulletins('2026-11-30'));
     const err = await deliverPending(ledger, deliveryConfig(null, outbox), silentLogger).catch((e: Error) => e);
     expect((err as Error).message).toBe(
-      `outbox folder ${outbox} is not writable (ENOTDIR) — create it or fix its permissions, or set delivery.outbox to a writable folder; unsent bulletins stay pending in the ledger`);
+      `outbox folder ${outbox} is not writable (ENOTDIR) — part of the path ${outbox} is a file, not a folder: fix the path in the config (delivery.outbox); unsent bulletins stay pending in the ledger`);
     expect(pendingDeliveries(ledger)).toHaveLength(5);
     const later = await deliverPending(ledger, deliveryConfig(null, join(dir, 'outbox')), silentLogger);
     expect(later.outbox).toBe(5);

@@ -1,7 +1,7 @@
 // Wording helpers: probability words, stage views, contrast of badge text, header/XML escaping.
 import { describe, expect, it } from 'vitest';
 import { ForelightError } from '../../src/core/errors.ts';
-import { escapeXml, toHeaderText, toXmlChars } from '../../src/render/safe-text.ts';
+import { MAX_SUBJECT_CHARS, capHeaderText, escapeXml, toHeaderText, toXmlChars } from '../../src/render/safe-text.ts';
 import { formatThreshold, inkFor, probabilityWord, toStageView } from '../../src/render/view-model.ts';
 import { sampleConfig, sampleStages } from './fixtures/sample-config.ts';
 
@@ -36,6 +36,13 @@ describe('inkFor (WCAG 2.1 relative luminance, contrast ratio definition)', () =
 describe('escaping', () => {
   it('header text loses CR, LF, other controls and Unicode line separators', () => {
     expect(toHeaderText('A\r\nBcc: x@y\u0000\u2028 B\t C')).toBe('A Bcc: x@y B C');
+  });
+  it('subject lines are capped (RFC 5322 §2.1.1: 998 characters at most, 78 recommended) at a "; " boundary, with "…"', () => {
+    const regions = Array.from({ length: 30 }, (_, i) => `Region number ${i + 1}: Brace ◑`).join('; ');
+    const capped = capHeaderText(`Veloria outlook — ${regions}`);
+    expect([...capped].length).toBeLessThanOrEqual(MAX_SUBJECT_CHARS);
+    expect(capped).toMatch(/Brace ◑ …$/);
+    expect(capHeaderText('short subject')).toBe('short subject');
   });
   it('XML text escapes specials and drops characters XML 1.0 forbids', () => {
     expect(escapeXml(`<a href="x">&'`)).toBe('&lt;a href=&quot;x&quot;&gt;&amp;&apos;');

@@ -9,7 +9,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { acquireLock } from '../../src/schedule/lock-file.ts';
 import { forecastPath, resolveLatestInputs, waitForInputs } from '../../src/schedule/input-arrival.ts';
-import { makeRunReport, nextStatus, readStatus, writeStatus } from '../../src/schedule/status-file.ts';
+import { describeService, makeRunReport, nextStatus, readStatus, withServicePid, writeStatus } from '../../src/schedule/status-file.ts';
+import { isProcessAlive } from '../../src/core/process-alive.ts';
 import { EXIT, exitCodeForDeliveries } from '../../src/core/exit-codes.ts';
 import { tempDir } from '../deliver/fixtures.ts';
 
@@ -63,7 +64,7 @@ describe('data arrival', () => {
       if (polls === 1) writeFileSync(a, 'complete');
       if (polls <= 3) appendFileSync(b, 'chunk');
     };
-    const result = await waitForInputs([a, b], new Date(Date.now() + 60_000), 1, sleep);
+    const result = await waitForInputs([a, b], new Date(Date.now() + 60_000), 1, { sleep });
     expect(result).toEqual({ arrived: [a, b], missing: [] });
     expect(polls).toBe(4);
   });
@@ -73,7 +74,7 @@ describe('data arrival', () => {
     const p = join(dir, 'fc_20261126.nc');
     let t = Date.parse('2026-11-26T06:00:00Z');
     const slept: number[] = [];
-    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, async (ms) => { slept.push(ms); t += ms; }, () => new Date(t));
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, { sleep: async (ms) => { slept.push(ms); t += ms; }, now: () => new Date(t) });
     expect(result).toEqual({ arrived: [], missing: [p] });
     expect(slept).toEqual([240_000, 240_000, 120_000]);
   });
@@ -83,14 +84,14 @@ describe('data arrival', () => {
     const p = join(dir, 'fc_20261126.nc');
     writeFileSync(p, 'complete');
     const slept: number[] = [];
-    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, async (ms) => { slept.push(ms); });
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, { sleep: async (ms) => { slept.push(ms); } });
     expect(result).toEqual({ arrived: [p], missing: [] });
     expect(slept).toEqual([2000]);
   });
 
   it('an aborted signal (service stop) ends the wait at once', async () => {
     const stop = new AbortController();
-    const waiting = waitForInputs([join(tempDir('abort'), 'never.nc')], new Date(Date.now() + 3_600_000), 60, undefined, undefined, stop.signal);
+    const waiting = waitForInputs([join(tempDir('abort'), 'never.nc')], new Date(Date.now() + 3_600_000), 60, { signal: stop.signal });
     stop.abort();
     const t0 = Date.now();
     expect((await waiting).missing).toHaveLength(1);
@@ -124,6 +125,29 @@ describe('status file', () => {
     expect(nextStatus(s, base, makeRunReport('scheduled', t, t, EXIT.nothingNew, 'no new data')).consecutiveFailures).toBe(0);
     writeFileSync(path, '{');
     expect(() => readStatus(path)).toThrow(/^status file .* is not valid JSON: .* — delete it/);
+  });
+});
+
+describe('status: is the service running?', () => {
+  const base = { cron: '0 6 * * 1,4', timezone: 'Africa/Lagos', nextRun: '2026-11-30T05:00:00.000Z' };
+  const t = new Date('2026-11-26T05:00:00Z');
+
+  it('a service pid that is alive is "running"; one that is gone is "NOT RUNNING" with what to do (kill(2) signal 0 probe)', () => {
+    const started = withServicePid(null, base, process.pid, t);
+    expect(describeService(started, isProcessAlive)).toBe(`running (pid ${process.pid})`);
+    const deadPid = 2 ** 22 + 777; // above Linux's pid_max limit: never alive
+    expect(describeService({ ...started, servicePid: deadPid }, isProcessAlive)).toMatch(new RegExp(`^NOT RUNNING: process ${deadPid} recorded at .* is gone .* — start it again`));
+    expect(describeService(withServicePid(started, base, null, t), isProcessAlive)).toMatch(/^not running \(no service has recorded itself; last written by process \d+/);
+    expect(describeService(null, isProcessAlive)).toMatch(/^not running/);
+  });
+
+  it('a manual run keeps the service pid; a run stopped by a signal is recorded as stopped, not ok, and is no failure', () => {
+    const started = withServicePid(null, base, 4242, t);
+    const manual = nextStatus(started, base, makeRunReport('manual', t, t, EXIT.ok, 'issued'));
+    expect(manual.servicePid).toBe(4242);
+    const stopped = nextStatus(manual, { ...base, servicePid: 4242 }, makeRunReport('scheduled', t, t, EXIT.stopped, 'stopped by a signal before issuing'));
+    expect(stopped.lastRun).toMatchObject({ exitCode: 143, exitName: 'stopped' });
+    expect(stopped.consecutiveFailures).toBe(0);
   });
 });
 

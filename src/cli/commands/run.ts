@@ -14,16 +14,25 @@ import { diffCommand } from './diff.ts';
 /** A lock older than this is stale even if its process still lives (same as the service's default). */
 const LOCK_MAX_AGE_SECONDS = 6 * 3600;
 
-/** The status file `forelight status` reads, updated after a manual run as after a scheduled one. */
-function recordStatus(config: Config, report: RunReport): void {
+/**
+ * The status file `forelight status` reads, updated after a manual run as after a scheduled one. It is one output
+ * among others: a failure is printed with the path and the fix, and never hides the run's own result.
+ */
+function recordStatus(config: Config, report: RunReport): boolean {
   const { statusPath } = servicePaths(config.ledger);
   const nextRun = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1)[0]?.toISOString() ?? null;
-  writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: config.schedule.cron, timezone: config.schedule.timezone, nextRun }, report));
+  try {
+    writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: config.schedule.cron, timezone: config.schedule.timezone, nextRun }, report));
+    return true;
+  } catch (err) {
+    process.stderr.write(`forelight: status file not updated: ${describeError(err)}\n`);
+    return false;
+  }
 }
 
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
-  const { config, log, issueDate } = await commandContext(args, 'run');
+  const { config, run } = await commandContext(args, 'run');
   const { lockPath } = servicePaths(config.ledger);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
@@ -33,10 +42,10 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   }
   const startedAt = new Date();
   try {
-    const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true });
-    recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
+    const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true });
+    const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
-    return outcome.exitCode;
+    return !recorded && outcome.exitCode === EXIT.ok ? EXIT.deliveryFailed : outcome.exitCode;
   } catch (err) {
     recordStatus(config, makeRunReport('manual', startedAt, new Date(), EXIT.unexpected, describeError(err)));
     throw err;

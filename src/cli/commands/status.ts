@@ -8,7 +8,8 @@ import { lastCompletedRun } from '../../ledger/runs.ts';
 import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { computeNextRuns } from '../../core/next-runs.ts';
-import { readStatus } from '../../schedule/status-file.ts';
+import { describeService, readStatus } from '../../schedule/status-file.ts';
+import { isProcessAlive } from '../../core/process-alive.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 
 export async function statusCommand(args: ParsedArgs): Promise<number> {
@@ -17,7 +18,9 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
   const service = readStatus(`${config.ledger}.status.json`);
   const [next] = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1);
   lines.push(`next scheduled run: ${next?.toISOString() ?? 'none'} (${config.schedule.cron}, ${config.schedule.timezone})`);
-  if (service) lines.push(`service: ${JSON.stringify(service)}`);
+  lines.push(`service: ${describeService(service, isProcessAlive)}`);
+  if (service?.lastRun) lines.push(`last run: ${service.lastRun.reason} ${service.lastRun.startedAt} → ${service.lastRun.exitName} (exit ${service.lastRun.exitCode}): ${service.lastRun.summary}`);
+  if (service && service.consecutiveFailures > 0) lines.push(`failed runs in a row: ${service.consecutiveFailures}`);
   if (!existsSync(config.ledger)) {
     lines.push(`ledger ${config.ledger}: no runs yet`);
   } else {
