@@ -8,14 +8,17 @@ import type { Quantity, Tier } from '../types.ts';
 import { thresholdUnits } from './threshold-units.ts';
 import { unwrapRing } from './boundaries/geometry.ts';
 import { entryDefaults } from './boundaries/region-sets.ts';
-import type { Config, IndicatorConfig, IndicatorKind, RegionConfig, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
+import { DEFAULT_LOOKBACK_DAYS, type Config, type IndicatorConfig, type IndicatorKind, type RegionConfig, type RegionShape, type SmtpConfig, type StageConfig, type ThresholdSpec, type TriggerRule } from './types.ts';
+
+/** Debian's Chromium (package `chromium`), used for PDFs when `delivery.pdf-chromium` is not given. */
+export const DEFAULT_CHROMIUM = '/usr/bin/chromium';
 
 /* The raw tree as the schema describes it (kebab-case keys). */
 type Texts = Record<string, string>;
 interface RawThreshold { percentile?: number; value?: number; units?: string }
 interface RawTree {
   country: string | Texts;
-  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number }[];
+  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number; 'look-back-days'?: number }[];
   observations?: { file: string; variables: Partial<Record<Quantity, string>> } | null;
   regions: ({ id: string; name: string; box?: { south: number; north: number; west: number; east: number }; polygon?: [number, number][]; teams: string[] } & Record<string, unknown>)[];
   teams: { id: string; name: string; locale: string; recipients: string[]; national?: boolean }[];
@@ -25,7 +28,7 @@ interface RawTree {
   escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
-  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number };
+  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number; 'pdf-chromium'?: string | null };
   cautions: Record<string, string[]>;
   'probability-words': ({ below?: number } & Record<string, string | number>)[];
   ledger: string;
@@ -106,6 +109,7 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
       ...(s['hindcast-files'] !== undefined ? { hindcast: path(s['hindcast-files']) } : {}),
       variables: s.variables,
       priority: s.priority,
+      lookbackDays: s['look-back-days'] ?? DEFAULT_LOOKBACK_DAYS[s.tier],
     })),
     observations: raw.observations ? { path: path(raw.observations.file), variables: raw.observations.variables } : null,
     regions: toRegions(raw, sets),
@@ -141,6 +145,7 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
       operators: d.operators,
       retries: d.retries,
       retryBaseSeconds: d['retry-base-seconds'],
+      pdfChromium: d['pdf-chromium'] === undefined ? DEFAULT_CHROMIUM : d['pdf-chromium'],
     },
     cautions: raw.cautions,
     // The last band has no bound in YAML: it covers everything up to and including 1.

@@ -3,15 +3,14 @@
  * against the history; then each region's stage = the highest of its decisions. A region × indicator ×
  * tier without any probability this run gets no decision and keeps its history track unchanged.
  */
-import type { Config } from '../config/types.ts';
 import type { LeadProbability, StageDecision } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
 import { applyPersistence } from './persistence.ts';
 import { trackKey, type TrackKey, type TunedKey } from '../core/keys.ts';
-import { TIER_ORDER, stageRank, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+import { TIER_ORDER, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
 
 export interface DecideInput {
-  readonly config: Config;
+  readonly config: DecideConfig;
   readonly probabilities: readonly LeadProbability[];
   readonly history: StageHistory;
   /** tunedKey(region, rule id) → probability threshold tuned on that region's hindcasts for rules that give cost-loss. */
@@ -71,7 +70,7 @@ export function decideStages(input: DecideInput): DecideResult {
  * entry for the highest stage of the row indicators and of the column indicators — never below the stage of an
  * indicator on neither axis. On a tie the first decision in config order (indicator, then tier) is named.
  */
-export function combineRegionStages(config: Config, decisions: readonly StageDecision[]): RegionStage[] {
+export function combineRegionStages(config: DecideConfig, decisions: readonly StageDecision[]): RegionStage[] {
   const rank = (id: string) => stageRank(config.stages, id);
   const highest = (list: readonly StageDecision[]): StageDecision | null =>
     list.reduce<StageDecision | null>((best, d) => (best === null || rank(d.stageId) > rank(best.stageId) ? d : best), null);

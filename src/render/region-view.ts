@@ -3,11 +3,11 @@
  * dates, how likely, how sure, action, what changed), the outlook strip (hazard × days/weeks/months), short
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
-import type { Config, IndicatorConfig, ThresholdSpec } from '../config/types.ts';
+import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadProbability, Tier } from '../types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange, formatNumber } from './locale-format.ts';
-import type { RegionOutcome, TierOutcome } from './model.ts';
+import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
   TIERS, formatThreshold, groupLeads, leadView, stageIndex, sureSentence, toStageView,
   type LeadGroup, type LeadView, type StageView,
@@ -80,7 +80,7 @@ function thresholdWords(t: Translate, locale: string, ind: IndicatorConfig | und
   return formatThreshold(locale, p.threshold.value, p.threshold.units);
 }
 
-function methodLines(t: Translate, locale: string, config: Config, spec: ThresholdSpec | undefined, outcome: TierOutcome, leads: readonly LeadView[]): string[] {
+function methodLines(t: Translate, locale: string, config: RenderConfig, spec: ThresholdSpec | undefined, outcome: TierOutcome, leads: readonly LeadView[]): string[] {
   const p = outcome.probabilities[0];
   const lines: string[] = [];
   const value = p ? formatThreshold(locale, p.threshold.value, p.threshold.units) : '–';
@@ -103,7 +103,7 @@ function methodLines(t: Translate, locale: string, config: Config, spec: Thresho
 }
 
 /** Why the region has its stage: the evidence that drives it, and a stage held back by persistence. */
-function whyText(t: Translate, config: Config, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+function whyText(t: Translate, config: RenderConfig, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
   const rank = (id: string): number => config.stages.findIndex((s) => s.id === id);
   const [driver] = tiers.map((tv, i) => ({ tv, d: region.perTier[i].decision }))
     .sort((a, b) => rank(b.d.rawStageId) - rank(a.d.rawStageId) || rank(b.d.stageId) - rank(a.d.stageId));
@@ -124,7 +124,7 @@ function cellLead(tv: TierView): LeadView | null {
 }
 
 /** Everything the templates need about one region, for one locale and audience. */
-export function buildRegionView(config: Config, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
+export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
   const lookup = stageIndex(config);
   const byRank = config.stages.map((s, r) => toStageView(s, r, locale, audience));
   const view = (id: string): StageView => byRank[lookup(id).rank];
