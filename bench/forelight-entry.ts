@@ -72,7 +72,7 @@ const INDICATORS: readonly IndicatorConfig[] = (
 export function benchConfig(base: Config, forecast: string, hindcastPattern: string, regions: readonly BenchRegion[], cacheDir: string): Config {
   return {
     ...base,
-    sources: [{ id: 'bench', name: 'bench ensemble', tier: 'weeks', forecast, hindcast: hindcastPattern, variables: QUANTITIES, priority: 1 }],
+    sources: [{ id: 'bench', name: 'bench ensemble', tier: 'weeks', forecast, hindcast: hindcastPattern, variables: QUANTITIES, priority: 1, lookbackDays: 10 }],
     observations: null,
     regions: regions.map(toRegionConfig),
     teams: [],

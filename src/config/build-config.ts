@@ -6,7 +6,7 @@
 import { dirname, resolve } from 'node:path';
 import type { Quantity, Tier } from '../types.ts';
 import { thresholdUnits } from './threshold-units.ts';
-import type { Config, IndicatorConfig, IndicatorKind, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
+import { DEFAULT_LOOKBACK_DAYS, type Config, type IndicatorConfig, type IndicatorKind, type RegionShape, type SmtpConfig, type StageConfig, type ThresholdSpec, type TriggerRule } from './types.ts';
 
 /** Debian's Chromium (package `chromium`), used for PDFs when `delivery.pdf-chromium` is not given. */
 export const DEFAULT_CHROMIUM = '/usr/bin/chromium';
@@ -16,7 +16,7 @@ type Texts = Record<string, string>;
 interface RawThreshold { percentile?: number; value?: number; units?: string }
 interface RawTree {
   country: string | Texts;
-  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number }[];
+  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number; 'look-back-days'?: number }[];
   observations?: { file: string; variables: Partial<Record<Quantity, string>> } | null;
   regions: { id: string; name: string; box?: { south: number; north: number; west: number; east: number }; polygon?: [number, number][]; 'utc-offset-hours': number; teams: string[] }[];
   teams: { id: string; name: string; locale: string; recipients: string[]; national?: boolean }[];
@@ -102,6 +102,7 @@ export function buildConfig(rawTree: unknown, file: string): Config {
       ...(s['hindcast-files'] !== undefined ? { hindcast: path(s['hindcast-files']) } : {}),
       variables: s.variables,
       priority: s.priority,
+      lookbackDays: s['look-back-days'] ?? DEFAULT_LOOKBACK_DAYS[s.tier],
     })),
     observations: raw.observations ? { path: path(raw.observations.file), variables: raw.observations.variables } : null,
     regions: raw.regions.map((r) => ({ id: r.id, name: r.name, shape: toShape(r), utcOffsetHours: r['utc-offset-hours'], teams: r.teams })),

@@ -18,7 +18,19 @@ export interface SourceConfig {
   readonly variables: Readonly<Partial<Record<Quantity, string>>>;
   /** Newer/finer sources win overlaps: lower number = higher priority. */
   readonly priority: number;
+  /**
+   * How many days before the issue date a late source's newest forecast may be (YAML `look-back-days`);
+   * default one issue interval of the tier (DEFAULT_LOOKBACK_DAYS).
+   */
+  readonly lookbackDays: number;
 }
+
+/**
+ * Default look-back per tier: seasonal forecasts are issued monthly, so one issue interval plus a few days of
+ * delivery delay is 35 days; daily and sub-seasonal sources (issued daily to twice weekly) keep 10 days.
+ * Common practice, no source.
+ */
+export const DEFAULT_LOOKBACK_DAYS: Readonly<Record<Tier, number>> = { days: 10, weeks: 10, months: 35 };
 
 export interface ObservationsConfig {
   /** Gridded daily observations (or reanalysis) covering the hindcast years. */

@@ -7,6 +7,8 @@ import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries } from '../read/extract.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
+import { addDays } from '../core/iso-dates.ts';
+import { forecastPath } from '../schedule/input-arrival.ts';
 
 /** region id → quantity → series. */
 export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
@@ -100,6 +102,15 @@ export async function readHindcasts(
   return out;
 }
 
+/** No forecast within the look-back: names the pattern and the dates tried (issue date back to look-back-days before). */
+function forecastMissing(input: SourceInputs): InputError {
+  const { source, issueDate } = input;
+  const oldest = addDays(issueDate, -source.lookbackDays);
+  return new InputError('forecast-missing', source.forecast,
+    `no forecast of source '${source.id}': tried ${forecastPath(source.forecast, issueDate)} and every date back to ${forecastPath(source.forecast, oldest)} (${issueDate} to ${oldest}, look-back-days ${source.lookbackDays})`,
+    'check that the files arrived and the forecast-files pattern of this source; a source issued less often needs a larger look-back-days');
+}
+
 /**
  * Reads every source's forecast and the observations, collecting problems instead of stopping. Hindcasts are read
  * later, per source, only when the model-climate cache misses (`readHindcasts`).
@@ -109,7 +120,7 @@ export async function readAll(config: Config, inputs: readonly SourceInputs[]): 
   const sources: SourceRead[] = [];
   for (const input of inputs) {
     if (!input.path || !input.date) {
-      problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
+      problems.push(forecastMissing(input));
       continue;
     }
     const notes: string[] = [];
