@@ -30,6 +30,7 @@ interface RawTree {
   cautions: Record<string, string[]>;
   'probability-words': ({ below?: number } & Record<string, string | number>)[];
   ledger: string;
+  'ledger-password-env'?: string;
   templates: string;
 }
 
@@ -146,7 +147,9 @@ export function buildConfig(rawTree: unknown, file: string): Config {
       below: i === words.length - 1 ? Number.POSITIVE_INFINITY : (w.below as number),
       words: Object.fromEntries(Object.entries(w).filter(([k]) => k !== 'below')) as Record<string, string>,
     })),
-    ledger: path(raw.ledger),
+    // A PostgreSQL URL is kept as written; a SQLite file is relative to this file.
+    ledger: /^postgres(ql)?:\/\//i.test(raw.ledger) ? raw.ledger : path(raw.ledger),
+    ...(raw['ledger-password-env'] !== undefined ? { ledgerPasswordEnv: raw['ledger-password-env'] } : {}),
     templates: path(raw.templates),
   };
 }

@@ -209,6 +209,9 @@ export interface Config {
   readonly cautions: Readonly<Record<string, readonly string[]>>;
   /** Words for probability ranges: upper bounds ascending with a word per locale. */
   readonly probabilityWords: readonly { readonly below: number; readonly words: Readonly<Record<string, string>> }[];
+  /** SQLite file (absolute path) or PostgreSQL URL `postgres://user@host:port/db` (never with a password). */
   readonly ledger: string;
+  /** Environment variable holding the PostgreSQL ledger's password; never the password itself. */
+  readonly ledgerPasswordEnv?: string;
   readonly templates: string;
 }

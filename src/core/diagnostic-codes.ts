@@ -111,6 +111,8 @@ export const DIAGNOSTIC_CODES = {
   'delivery-permanent': { stage: 'deliver', severity: 'error', meaning: 'a delivery failed and will not be retried', fix: 'fix the address or SMTP settings named' },
   // ledger
   'ledger-open': { stage: 'ledger', severity: 'error', meaning: 'the ledger file cannot be opened', fix: 'check that its folder exists and is writable, or change config "ledger"' },
+  'ledger-postgres': { stage: 'ledger', severity: 'error', meaning: 'the PostgreSQL ledger refused a statement, or did not answer', fix: 'check the server, the ledger URL and the password variable named by ledger-password-env' },
+  'ledger-password-missing': { stage: 'ledger', severity: 'error', meaning: 'the variable named by ledger-password-env is not set', fix: 'export it with the PostgreSQL password, or remove ledger-password-env' },
   'ledger-newer': { stage: 'ledger', severity: 'error', meaning: 'the ledger was written by a newer Forelight', fix: 'upgrade Forelight or point config "ledger" at another file' },
   'ledger-write': { stage: 'ledger', severity: 'error', meaning: 'the ledger cannot be written (disk full, read-only, I/O error); nothing is sent without it', fix: 'follow the fix named; the next run resumes this one' },
   'run-unknown': { stage: 'ledger', severity: 'error', meaning: 'a run id is not in the ledger', fix: 'list runs with `forelight status`' },
@@ -123,6 +125,9 @@ export const DIAGNOSTIC_CODES = {
   'status-read': { stage: 'schedule', severity: 'error', meaning: 'the service status file cannot be read', fix: 'check its permissions' },
   'status-corrupt': { stage: 'schedule', severity: 'error', meaning: 'the service status file is not valid', fix: 'delete it; the service writes a new one' },
   // cli
+  // cluster
+  'cluster-url': { stage: 'cli', severity: 'error', meaning: '--cluster is not a redis:// URL', fix: 'write it as redis://HOST:PORT' },
+  'cluster-unreachable': { stage: 'cli', severity: 'error', meaning: "the cluster's Redis cannot be reached", fix: 'start redis-server there, or check --cluster' },
   'usage': { stage: 'cli', severity: 'error', meaning: 'the command line is wrong', fix: 'run `forelight --help`' },
 } as const satisfies Record<string, CodeEntry>;
 

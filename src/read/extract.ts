@@ -128,6 +128,15 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
  * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
  * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
  */
+/**
+ * Reads one file for a set of regions: `extractRegionSeries` in this process, or a cluster's workers
+ * (src/cluster/). `parallel`: how many calls the read stage may keep in flight (1 when absent).
+ */
+export interface Extractor {
+  (path: string, request: ExtractRequest): Promise<ExtractResult>;
+  readonly parallel?: number;
+}
+
 export function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
   return withDataset(path, (ds) => extractFromDataset(ds, request));
 }
