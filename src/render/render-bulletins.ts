@@ -6,6 +6,7 @@
 import type { Bulletin } from '../types.ts';
 import type { TeamConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
+import { localDayNumber, regionClock, type LocalClock } from '../core/local-clock.ts';
 import type { ArchiveEntry } from './archive.ts';
 import { bulletinContext, topStage, type ChartRef } from './bulletin-context.ts';
 import type { Translate } from './catalogue.ts';
@@ -48,9 +49,9 @@ function cleanAddress(team: TeamConfig, raw: string): string {
   return addr;
 }
 
-/** Local calendar day of an instant at a UTC offset. */
-function localDay(iso: string, utcOffsetHours: number): string {
-  return new Date(new Date(iso).getTime() + utcOffsetHours * 3_600_000).toISOString().slice(0, 10);
+/** Local calendar day of an instant on a region's clock. */
+function localDay(iso: string, clock: LocalClock): string {
+  return new Date(localDayNumber(clock, Date.parse(iso)) * 86_400_000).toISOString().slice(0, 10);
 }
 
 interface LocaleCharts { specs: Map<string, ChartSpec[]>; svg: Map<string, string>; png: Map<string, Uint8Array> }
@@ -61,8 +62,7 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
   const nationalTeams = config.teams.filter((t) => t.national);
   const archiveLocale = nationalTeams[0]?.locale ?? config.teams[0]?.locale ?? 'en';
   for (const locale of new Set([...config.teams.map((t) => t.locale), archiveLocale])) cautionsFor(config, locale);
-  const offset = run.regions[0]?.region.utcOffsetHours ?? 0;
-  const issuedDay = localDay(run.issuedAt, offset);
+  const issuedDay = localDay(run.issuedAt, regionClock(run.regions[0]?.region ?? { utcOffsetHours: 0 }));
 
   const charts = new Map<string, LocaleCharts>();
   const chartsFor = (locale: string): LocaleCharts => {
