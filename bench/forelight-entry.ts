@@ -42,6 +42,7 @@ const toRegionConfig = (r: BenchRegion): RegionConfig => ({
   name: r.id,
   shape: { kind: 'box', south: r.south, north: r.north, west: r.west, east: r.east },
   utcOffsetHours: 0,
+  cellRule: 'centre' as const,
   teams: [],
 });
 

@@ -37,9 +37,15 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   extract: {
     summary: 'print the decoded, area-weighted region series of one file as JSON',
-    usage: 'forelight extract <file> --var NAME --box S,N,W,E [--daily max|min|mean|sum] [--utc-offset H] --json',
-    spec: { values: ['var', 'box', 'daily', 'utc-offset'], flags: ['json'] },
+    usage: 'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] --json',
+    spec: { values: ['var', 'box', 'regions', 'id-property', 'name-property', 'daily', 'utc-offset', 'time-zone', 'cells'], flags: ['json'] },
     run: async (a) => (await import('./commands/extract.ts')).extractCommand(a),
+  },
+  regions: {
+    summary: 'per source grid: each region\'s cells, covered area and warnings; writes a GeoJSON preview and an SVG map',
+    usage: 'forelight regions [--config FILE] [--out DIR]',
+    spec: { values: ['config', 'out'], flags: [] },
+    run: async (a) => (await import('./commands/regions.ts')).regionsCommand(a),
   },
   skill: {
     summary: 'print the hindcast skill table (Brier skill score with its 90 % interval, events, ROC area, skill gate) per source, region, indicator and lead',

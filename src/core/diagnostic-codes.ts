@@ -30,6 +30,7 @@ export const DIAGNOSTIC_CODES = {
   'config-text': { stage: 'config', severity: 'error', meaning: 'a text (label, caution, template, phrase) is missing for a locale', fix: 'add the text for every locale a team uses' },
   'config-value': { stage: 'config', severity: 'error', meaning: 'a value is out of range or inconsistent with another (schedule, paths, thresholds)', fix: 'follow the message' },
   'config-indicator': { stage: 'config', severity: 'error', meaning: 'an indicator needs a quantity or parameter that is not configured', fix: 'map the quantity in the sources, or fix the parameter' },
+  'config-boundaries': { stage: 'config', severity: 'error', meaning: 'a boundary file (regions: boundaries:) cannot be read, is not WGS 84 longitude/latitude, or has a feature with an invalid geometry, id or team', fix: 'follow the message (it names the file, the feature index and id); repair with ogr2ogr as suggested' },
   'config-combine': { stage: 'config', severity: 'error', meaning: 'escalation.combine is inconsistent (groups, matrix size or stages)', fix: 'follow the message; see escalation.combine in config/forelight.yaml' },
   'grid-not-checked': { stage: 'config', severity: 'note', meaning: 'a source\'s forecast file is missing or unreadable, so `forelight check` could not compare the regions with its grid', fix: 'run check again once the files are there' },
   'config-grid': { stage: 'config', severity: 'error', meaning: 'a region lies entirely outside the grid of a source', fix: 'check the region coordinates or the source files' },

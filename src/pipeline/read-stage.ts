@@ -54,13 +54,15 @@ interface FileRequest {
   readonly tier?: SourceConfig['tier'];
   /** Receives how the file's times were read (model calendar, monthly values). */
   readonly notes?: string[];
+  /** Folder of the region-weights cache (calibration.cache-dir), computed once per grid and region set. */
+  readonly weightsCacheDir?: string;
 }
 
 async function readFile(
   extract: Extractor, path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extract(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier });
+    const r = await extract(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier, weightsCacheDir: request.weightsCacheDir });
     problems.push(...r.problems);
     request.notes?.push(...r.notes);
     return group(r.series);
@@ -97,13 +99,13 @@ export function regionCells(series: RegionQuantities): Map<string, number> {
  */
 export async function readHindcasts(
   source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>,
-  extract: Extractor = extractRegionSeries,
+  extract: Extractor = extractRegionSeries, weightsCacheDir?: string,
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
   const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
     const own: ForelightError[] = [];
-    return { series: await readFile(extract, h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier }, own), own };
+    return { series: await readFile(extract, h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier, weightsCacheDir }, own), own };
   });
   for (const [i, h] of files.entries()) {
     const { series, own } = read[i];
@@ -142,12 +144,12 @@ export async function readAll(config: Config, inputs: readonly SourceInputs[], e
       continue;
     }
     const notes: string[] = [];
-    const series = await readFile(extract, input.path, input.source.variables, config.regions, { referenceTime: input.date, tier: input.source.tier, notes }, problems);
+    const series = await readFile(extract, input.path, input.source.variables, config.regions, { referenceTime: input.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir }, problems);
     if (!series) continue;
     sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series, notes });
   }
   const observed = config.observations
-    ? await readFile(extract, config.observations.path, config.observations.variables, config.regions, {}, problems)
+    ? await readFile(extract, config.observations.path, config.observations.variables, config.regions, { weightsCacheDir: config.calibration.cacheDir }, problems)
     : null;
   return { sources, observed, problems };
 }

@@ -70,7 +70,7 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, read: Sourc
     memo: ctx.checksums,
   });
   const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, async () => {
-    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series), ctx.extract);
+    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series), ctx.extract, config.calibration.cacheDir);
     return pairs(config, source.tier).map(({ region, ind }): StoredClimate => {
       const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };

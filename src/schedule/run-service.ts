@@ -2,8 +2,8 @@
  * Service mode: wake at each slot of `schedule.cron` in `schedule.timezone`, run once per slot under the
  * lock file, write the status file, stop gracefully on SIGTERM/SIGINT (the current run finishes first).
  *
- * Which slot is due is decided by computeNextRuns (DST-correct), not by the timer alone: a croner job wakes
- * the service at slot times and a backstop timer re-checks every minute, so a slot the timer misses (croner
+ * Which slot is due is decided by computeNextRuns (DST-correct), not by the timer alone: node-cron wakes
+ * the service at slot times and a backstop timer re-checks every minute, so a slot the timer misses (node-cron
  * runs a time skipped by a spring-forward gap when the gap ends, computeNextRuns shifts it by the gap) or that
  * passed while the machine slept still runs — once. On start, if a slot passed since the last completed run in
  * the ledger, the service catches up with ONE run, however many slots were missed (each run issues the newest
