@@ -8,6 +8,9 @@ import type { Quantity, Tier } from '../types.ts';
 import { thresholdUnits } from './threshold-units.ts';
 import type { Config, IndicatorConfig, IndicatorKind, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
 
+/** Debian's Chromium (package `chromium`), used for PDFs when `delivery.pdf-chromium` is not given. */
+export const DEFAULT_CHROMIUM = '/usr/bin/chromium';
+
 /* The raw tree as the schema describes it (kebab-case keys). */
 type Texts = Record<string, string>;
 interface RawThreshold { percentile?: number; value?: number; units?: string }
@@ -23,7 +26,7 @@ interface RawTree {
   escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
-  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number };
+  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number; 'pdf-chromium'?: string | null };
   cautions: Record<string, string[]>;
   'probability-words': ({ below?: number } & Record<string, string | number>)[];
   ledger: string;
@@ -134,6 +137,7 @@ export function buildConfig(rawTree: unknown, file: string): Config {
       operators: d.operators,
       retries: d.retries,
       retryBaseSeconds: d['retry-base-seconds'],
+      pdfChromium: d['pdf-chromium'] === undefined ? DEFAULT_CHROMIUM : d['pdf-chromium'],
     },
     cautions: raw.cautions,
     // The last band has no bound in YAML: it covers everything up to and including 1.

@@ -151,6 +151,8 @@ export interface DeliveryConfig {
   readonly operators: readonly string[];
   readonly retries: number;
   readonly retryBaseSeconds: number;
+  /** Chromium used to print each bulletin to PDF (`pdf-chromium`); null or absent: bulletins go without PDF. */
+  readonly pdfChromium?: string | null;
 }
 
 export interface ScheduleConfig {

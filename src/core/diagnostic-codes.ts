@@ -99,6 +99,7 @@ export const DIAGNOSTIC_CODES = {
   'missing-message': { stage: 'render', severity: 'error', meaning: 'a message key is missing from a locale\'s catalogue', fix: 'add the key to messages/<locale>.yaml' },
   'bad-message': { stage: 'render', severity: 'error', meaning: 'a catalogue message is not valid ICU MessageFormat', fix: 'fix its braces, plural and select cases' },
   'missing-translation': { stage: 'render', severity: 'error', meaning: 'a text has no translation for a team\'s locale', fix: 'add the text for that locale' },
+  'pdf-unavailable': { stage: 'render', severity: 'note', meaning: 'the Chromium named by delivery.pdf-chromium is missing or does not start, so bulletins go out without their PDF', fix: 'install the Debian package chromium, or set pdf-chromium: null' },
   'unknown-stage': { stage: 'render', severity: 'error', meaning: 'a stage id is not in the configured ladder', fix: 'check stage-ladder and the stored history' },
   'no-probability-words': { stage: 'render', severity: 'error', meaning: 'probability-words is empty', fix: 'add probability-words to the YAML' },
   'no-cautions': { stage: 'render', severity: 'error', meaning: 'no caution text for a locale', fix: 'add cautions for that locale' },

@@ -108,6 +108,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
     for (const a of rendered.capAlerts) recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
+  for (const note of rendered.notes) log.warn(note, { stage: 'render' });
   log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length });
   return { bulletins: rendered.bulletins.length, archive: rendered.archive };
 }

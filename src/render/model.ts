@@ -28,7 +28,7 @@ import type { Config, IndicatorConfig, RegionConfig, StageConfig } from '../conf
  * read, calibration, schedule or the ledger.
  */
 export type RenderConfig = Pick<Config, 'country' | 'countryNames' | 'teams' | 'indicators' | 'stages' | 'rules' | 'decision' | 'cautions' | 'probabilityWords' | 'templates'>
-  & { readonly delivery: Pick<Config['delivery'], 'from'> };
+  & { readonly delivery: Pick<Config['delivery'], 'from' | 'pdfChromium'> };
 
 export interface ForecastDate {
   /** Source id (`SourceConfig.id`). */

@@ -14,6 +14,7 @@ import { buildChartSpecs, chartWidth, renderChartPng, renderChartSvg, type Chart
 import { chartWords } from './chart-words.ts';
 import type { BulletinRun, CapAlert, PreviousIssue, RenderConfig } from './model.ts';
 import { buildRegionView, hazardName, type RegionView } from './region-view.ts';
+import { renderPdfs } from './pdf.ts';
 import { renderRunJson } from './run-json.ts';
 import { capHeaderText, toHeaderText, toToken } from './safe-text.ts';
 import { createTemplateEnv } from './template-env.ts';
@@ -25,6 +26,8 @@ export interface RenderedRun {
   readonly json: string;
   /** Everything `writeArchive` needs for this run (keep it in the ledger's list of issued runs). */
   readonly archive: ArchiveEntry;
+  /** Run notes of the render stage (e.g. no PDF because Chromium is missing), also written to run.json. */
+  readonly notes: readonly string[];
 }
 
 /** Cautions of a locale (with its typography); throws when there are none, so no bulletin can go out without them. */
@@ -88,7 +91,7 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
 
   // Check every address before rendering anything, so a bad recipient fails fast and names its team.
   const recipients = new Map(config.teams.map((t) => [t.id, t.recipients.map((a) => cleanAddress(t, a))]));
-  const bulletins: Bulletin[] = [];
+  const drafts: (Omit<Bulletin, 'attachments'> & { attachments: Bulletin['attachments'][number][]; print: string })[] = [];
   for (const team of config.teams) {
     const locale = team.locale;
     const t = env.t(locale);
@@ -109,7 +112,7 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
       }
       return { cid: `${s.key}@forelight`, filename: `${s.key}.png`, contentType: 'image/png', content: png };
     }));
-    bulletins.push({
+    drafts.push({
       id: toToken(`${run.runId}-${team.id}`),
       team: team.id,
       locale,
@@ -118,15 +121,24 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
       html: env.render(`${kind}.html.njk`, locale, ctx),
       text: env.render(`${kind}.txt.njk`, locale, ctx),
       attachments,
+      print: env.render('print.html.njk', locale, ctx),
     });
   }
+  // One printable A4 PDF per bulletin, attached and archived; without Chromium the bulletins go out without it.
+  const printed = await renderPdfs(config.delivery.pdfChromium, drafts.map((d) => ({ key: d.id, html: d.print })));
+  const pdfName = (d: { team: string }) => `forelight-${toToken(run.runId)}-${toToken(d.team)}.pdf`;
+  const bulletins: Bulletin[] = drafts.map(({ print: _print, ...d }) => {
+    const pdf = printed.pdfs.get(d.id);
+    return pdf ? { ...d, attachments: [...d.attachments, { cid: `${d.id}.pdf@forelight`, filename: pdfName(d), contentType: 'application/pdf', content: pdf }] } : d;
+  });
+  const notes = printed.note ? [printed.note] : [];
 
   const archiveViews = views(archiveLocale, nationalTeams[0]?.id ?? 'default', run.regions);
   const at = env.t(archiveLocale);
   const archiveCtx = bulletinContext(config, run, at, archiveLocale, null, archiveViews, {
     issuedDay, cautions: cautionsFor(config, archiveLocale), charts: chartRef(archiveLocale, (key) => `charts/${key}.svg`),
   });
-  const json = renderRunJson(config, run, capAlerts);
+  const json = renderRunJson(config, { ...run, notes: [...(run.notes ?? []), ...notes] }, capAlerts);
   const archive: ArchiveEntry = {
     runId: run.runId,
     issuedAt: run.issuedAt,
@@ -144,10 +156,13 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
       regionName: run.regions.find((r) => r.region.id === a.region)?.region.name ?? a.region,
       hazard: archiveViews.flatMap((v) => v.indicators).find((i) => i.id === a.indicator)?.hazard ?? a.indicator,
     })),
+    pdfs: bulletins.flatMap((b) => b.attachments.filter((a) => a.contentType === 'application/pdf').map((a) => ({
+      filename: a.filename, team: config.teams.find((t) => t.id === b.team)?.name ?? b.team, base64: Buffer.from(a.content).toString('base64'),
+    }))),
     ladder: config.stages.map((s) => ({ glyph: s.glyph, label: applyTypography(archiveLocale, s.label[archiveLocale] ?? s.id) })),
     json,
   };
-  return { bulletins, capAlerts, json, archive };
+  return { bulletins, capAlerts, json, archive, notes };
 }
 
 /** Subject: each region's stage for a team; for the national summary the top stage and every region at it. */
