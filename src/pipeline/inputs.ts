@@ -1,6 +1,6 @@
 /**
- * Which files one run reads: per source the newest forecast on or before the issue date (an older one is used,
- * and said, when the expected one is late), and the hindcast starts within ±windowDays of its day of year.
+ * Which files one run reads: per source the newest forecast on or before the issue date (an older one, at most
+ * the source's `look-back-days` before it, is used and said when the expected one is late), and the hindcast starts within ±windowDays of its day of year.
  */
 import { readdirSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
@@ -8,9 +8,6 @@ import type { Config, SourceConfig } from '../config/types.ts';
 import { startsWithinWindow } from '../calibrate/climate.ts';
 import { resolveLatestInputs } from '../schedule/input-arrival.ts';
 import type { IsoDate } from '../types.ts';
-
-/** How far back a late source may fall back to an older forecast (days). */
-export const LOOKBACK_DAYS = 10;
 
 export interface HindcastFile {
   readonly year: number;
@@ -21,6 +18,8 @@ export interface HindcastFile {
 
 export interface SourceInputs {
   readonly source: SourceConfig;
+  /** The issue date the forecast was looked for (back to `source.lookbackDays` days before it). */
+  readonly issueDate: IsoDate;
   /** The forecast date used, or null when no forecast was found within the look-back. */
   readonly date: IsoDate | null;
   readonly path: string | null;
@@ -60,12 +59,12 @@ export function listHindcasts(pattern: string): HindcastFile[] {
 /** Forecast and hindcast files of every source for an issue date. */
 export function resolveInputs(config: Config, issueDate: IsoDate): SourceInputs[] {
   return config.sources.map((source) => {
-    const latest = resolveLatestInputs(source.forecast, issueDate, LOOKBACK_DAYS);
+    const latest = resolveLatestInputs(source.forecast, issueDate, source.lookbackDays);
     const all = source.hindcast ? listHindcasts(source.hindcast) : [];
     const forecastDate = latest.date ?? issueDate;
     const keep = new Set(startsWithinWindow(forecastDate, all.map((h) => h.start), config.calibration.windowDays));
     // A hindcast is a past start: one at or after the forecast date would be the forecast itself.
     const hindcasts = all.filter((h) => keep.has(h.start) && h.start < forecastDate);
-    return { source, date: latest.date, path: latest.path, stale: latest.stale, hindcasts };
+    return { source, issueDate, date: latest.date, path: latest.path, stale: latest.stale, hindcasts };
   });
 }

@@ -16,7 +16,9 @@ import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { recordDiagnostics, runDiagnostics } from '../ledger/diagnostics.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
-import { ledgerWriteFault, openLedger, type Ledger } from '../ledger/open-ledger.ts';
+import { openConfiguredLedger } from '../ledger/ledger-target.ts';
+import { ledgerWriteFault, type Ledger } from '../ledger/open-ledger.ts';
+import type { Extractor } from '../read/extract.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
@@ -38,6 +40,8 @@ export interface RunOptions {
   readonly force?: boolean;
   /** Passed to delivery (fault injection in tests). */
   readonly deliver?: DeliverOptions;
+  /** How input files are read (default: in this process; `--cluster`: by the cluster's workers). */
+  readonly extract?: Extractor;
 }
 
 export interface RunOutcome {
@@ -84,7 +88,7 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ bulletins: number; archive: ArchiveEntry }> {
   const { config, run: context } = options;
   const { issueDate, log } = context;
-  const analysis = await analyse(config, context, { inputs }); // the files the run key names
+  const analysis = await analyse(config, context, { inputs, extract: options.extract }); // the files the run key names
   recordDiagnostics(ledger, runId, analysis.problems);
   if (analysis.read.sources.length === 0) {
     const text = `No forecast of any source could be read for ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
@@ -145,7 +149,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   }
   const key = forecastKey(inputs);
   sweepOutputs(config, log);
-  const ledger = openLedger(config.ledger, { now: options.run.now });
+  const ledger = openConfiguredLedger(config, { now: options.run.now });
   try {
     const begun = beginRun(ledger, key, { force: options.force });
     if (begun.kind === 'already-issued') {
