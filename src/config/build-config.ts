@@ -8,6 +8,9 @@ import type { Quantity, Tier } from '../types.ts';
 import { THRESHOLD_UNITS } from './indicator-needs.ts';
 import type { Config, IndicatorConfig, IndicatorKind, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
 
+/** Runs a missing tier's last stage is held by default (escalation.hold-missing-runs). */
+export const DEFAULT_HOLD_MISSING_RUNS = 2;
+
 /* The raw tree as the schema describes it (kebab-case keys). */
 type Texts = Record<string, string>;
 interface RawThreshold { percentile?: number; value?: number; units?: string }
@@ -20,7 +23,7 @@ interface RawTree {
   indicators: { id: string; name: string; kind: IndicatorKind; 'window-days'?: number; threshold: RawThreshold; 'region-thresholds'?: Record<string, RawThreshold>; aggregate: 'mean' | 'max' | 'sum'; tiers: Tier[]; params?: Record<string, number | string | boolean> }[];
   'stage-ladder': { id: string; label: Texts; glyph: string; colour: string; meaning: Texts; actions: Record<string, Texts>; cap: StageConfig['cap'] }[];
   'trigger-rules': { id: string; indicator: string; tier: Tier; leads?: number[]; stage: string; probability?: number; 'cost-loss'?: number }[];
-  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
+  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'hold-missing-runs'?: number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
   delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number };
@@ -104,6 +107,7 @@ export function buildConfig(rawTree: unknown, file: string): Config {
       tierCaps: e['tier-caps'],
       escalateAfterRuns: e['escalate-after-runs'],
       relaxAfterRuns: e['relax-after-runs'],
+      holdMissingRuns: e['hold-missing-runs'] ?? DEFAULT_HOLD_MISSING_RUNS,
       topStageImmediate: e['top-stage-immediate'],
       combine: e.combine,
       skillGate: { score: e['skill-gate'].score === 'roc-area' ? 'rocArea' : 'brierSkillScore', floor: e['skill-gate'].floor, action: e['skill-gate'].action },

@@ -70,7 +70,7 @@ export async function analyse(
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now();
-  const read = await readAll(config, inputs);
+  const read = await readAll(config, issueDate, inputs);
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
   const checksums = await openChecksumMemo(config.calibration.cacheDir);
@@ -81,7 +81,7 @@ export async function analyse(
   const sources: SourceOutcome[] = [];
   for (const s of read.sources) {
     const t0 = Date.now();
-    const input = inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
+    const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
     const outcome = await calibrateSource(ctx, s, input, fileProblems);
     log.info('calibrated source', { stage: 'calibrate', source: s.source.id, ms: Date.now() - t0, fromCache: outcome.fromCache, probabilities: outcome.probabilities.length });
     sources.push(outcome);
@@ -96,7 +96,7 @@ export async function analyse(
   const problems = uniqueDiagnostics([...fileProblems.map((p) => p.diagnostic), ...sources.flatMap((s) => s.problems)]);
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await saveChecksums(checksums, log);
-  return { issueDate, inputs, read, sources, probabilities: kept, combination: notes, problems, checksums };
+  return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: notes, problems, checksums };
 }
 
 /** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */

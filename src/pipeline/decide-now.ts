@@ -2,6 +2,7 @@
  * Analysis + decision against the ledger's history WITHOUT writing anything: what `diff`, `explain` and
  * `run --dry-run` show is exactly what a run on the same inputs would issue.
  */
+import { unavailableReasons } from './missing-data.ts';
 import { existsSync } from 'node:fs';
 import type { Config } from '../config/types.ts';
 import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
@@ -53,6 +54,6 @@ export async function decideNow(config: Config, issueDate: IsoDate, log: Logger,
   }
   const history = parseStageHistory(historyJson);
   const analysis = await analyse(config, issueDate, log, onProgress);
-  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis) });
+  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), unavailable: unavailableReasons(config, analysis) });
   return { analysis, decided, history, previous };
 }

@@ -6,7 +6,8 @@ import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries } from '../read/extract.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
-import type { HindcastFile, SourceInputs } from './inputs.ts';
+import { LOOKBACK_DAYS, type HindcastFile, type SourceInputs } from './inputs.ts';
+import { readUsableForecast } from './usable-forecast.ts';
 
 /** region id → quantity → series. */
 export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
@@ -29,6 +30,8 @@ export interface SourceRead {
 
 export interface ReadResult {
   readonly sources: readonly SourceRead[];
+  /** Per source, the inputs of the forecast used (an older one when newer ones were unusable) or, without one, as resolved. */
+  readonly inputs: readonly SourceInputs[];
   readonly observed: RegionQuantities | null;
   /** Every file, variable or region that could not be read, as one-line messages. */
   readonly problems: readonly ForelightError[];
@@ -44,7 +47,7 @@ function group(series: readonly RegionSeries[]): RegionQuantities {
   return out;
 }
 
-async function readFile(
+export async function readFile(
   path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], referenceTime: string | undefined, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
@@ -93,20 +96,27 @@ export async function readHindcasts(
  * Reads every source's forecast and the observations, collecting problems instead of stopping. Hindcasts are read
  * later, per source, only when the model-climate cache misses (`readHindcasts`).
  */
-export async function readAll(config: Config, inputs: readonly SourceInputs[]): Promise<ReadResult> {
+export async function readAll(config: Config, issueDate: string, inputs: readonly SourceInputs[]): Promise<ReadResult> {
   const problems: ForelightError[] = [];
   const sources: SourceRead[] = [];
+  const used: SourceInputs[] = [];
   for (const input of inputs) {
-    if (!input.path || !input.date) {
+    if (input.candidates.length === 0) {
       problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
+      used.push(input);
       continue;
     }
-    const series = await readFile(input.path, input.source.variables, config.regions, input.date, problems);
-    if (!series) continue;
-    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series });
+    const usable = await readUsableForecast(config, issueDate, input, problems);
+    if (!usable) {
+      problems.push(new InputError('forecast-missing', input.source.forecast, `no usable forecast of source '${input.source.id}' within ${LOOKBACK_DAYS} days (${input.candidates.length} file(s) tried, each named above)`, 'replace the damaged files; this tier is held at its last stage meanwhile'));
+      used.push({ ...input, date: null, path: null, stale: true });
+      continue;
+    }
+    sources.push(usable.read);
+    used.push(usable.input);
   }
   const observed = config.observations
     ? await readFile(config.observations.path, config.observations.variables, config.regions, undefined, problems)
     : null;
-  return { sources, observed, problems };
+  return { sources, inputs: used, observed, problems };
 }

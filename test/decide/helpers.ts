@@ -44,6 +44,7 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
       tierCaps: { months: 'mindful', weeks: 'brace' },
       escalateAfterRuns: 2,
       relaxAfterRuns: 2,
+      holdMissingRuns: 2,
       topStageImmediate: true,
       combine: 'highest',
       skillGate: { score: 'rocArea', floor: 0.6, action: 'say-no-skill' },
