@@ -8,6 +8,8 @@
  * Prints one JSON line `{"seconds": …, "maxRssKb": …}` on success. With `--check`, writes the first
  * member's series of every region/quantity to OUT_JSON (for the cross-check against the Python baseline).
  */
+import { formatDiagnostic } from '../src/core/diagnostics.ts';
+import { runContext } from '../src/core/run-context.ts';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
@@ -99,8 +101,8 @@ export async function runForelightBench(files: readonly string[], regions: reado
   const base = await loadConfig();
   for (const file of files) {
     const config = benchConfig(base, file, hindcastPattern, regions, join(dirname(file), 'cache'));
-    const analysis = await analyse(config, BENCH_ISSUE_DATE, silentLogger);
-    if (analysis.problems.length > 0) throw new Error(`${file}: ${analysis.problems.length} problems, first: ${analysis.problems[0]}`);
+    const analysis = await analyse(config, runContext({ issueDate: BENCH_ISSUE_DATE, log: silentLogger }));
+    if (analysis.problems.length > 0) throw new Error(`${file}: ${analysis.problems.length} problems, first: ${formatDiagnostic(analysis.problems[0])}`);
     const expected = regions.length * INDICATORS.length * 6;
     if (analysis.probabilities.length !== expected) throw new Error(`${file}: ${analysis.probabilities.length} probabilities, expected ${expected}`);
     decideStages({ config, probabilities: analysis.probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: tunedThresholds(analysis) });

@@ -1,15 +1,15 @@
-/** What every command that runs the pipeline needs: the validated config, a logger, the issue date. */
+/** What every command that runs the pipeline needs: the validated config and the run context (issue date, logger). */
 import { loadConfig } from '../config/load-config.ts';
 import type { Config } from '../config/types.ts';
-import { createLogger, type Logger } from '../core/log.ts';
+import { createLogger } from '../core/log.ts';
+import { runContext, type RunContext } from '../core/run-context.ts';
 import { localDate } from '../pipeline/bulletin-run.ts';
 import type { IsoDate } from '../types.ts';
 import { stringOption, usageError, type ParsedArgs } from './args.ts';
 
 export interface CommandContext {
   readonly config: Config;
-  readonly log: Logger;
-  readonly issueDate: IsoDate;
+  readonly run: RunContext;
 }
 
 /** `--date YYYY-MM-DD`, else today in the schedule's time zone. */
@@ -25,5 +25,5 @@ export function issueDateOf(args: ParsedArgs, config: Config): IsoDate {
 /** Loads the config (stops with every problem listed when invalid) and sets up logging. */
 export async function commandContext(args: ParsedArgs, command: string): Promise<CommandContext> {
   const config = await loadConfig(stringOption(args, 'config'));
-  return { config, log: createLogger({ base: { command } }), issueDate: issueDateOf(args, config) };
+  return { config, run: runContext({ log: createLogger({ base: { command } }), issueDate: issueDateOf(args, config) }) };
 }

@@ -5,11 +5,13 @@
  */
 import { dirname, resolve } from 'node:path';
 import type { Quantity, Tier } from '../types.ts';
-import { THRESHOLD_UNITS } from './indicator-needs.ts';
+import { thresholdUnits } from './threshold-units.ts';
 import type { Config, IndicatorConfig, IndicatorKind, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
 
 /** Runs a missing tier's last stage is held by default (escalation.hold-missing-runs). */
 export const DEFAULT_HOLD_MISSING_RUNS = 2;
+/** Debian's Chromium (package `chromium`), used for PDFs when `delivery.pdf-chromium` is not given. */
+export const DEFAULT_CHROMIUM = '/usr/bin/chromium';
 
 /* The raw tree as the schema describes it (kebab-case keys). */
 type Texts = Record<string, string>;
@@ -26,7 +28,7 @@ interface RawTree {
   escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'hold-missing-runs'?: number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
-  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number };
+  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number; 'pdf-chromium'?: string | null };
   cautions: Record<string, string[]>;
   'probability-words': ({ below?: number } & Record<string, string | number>)[];
   ledger: string;
@@ -35,9 +37,14 @@ interface RawTree {
 
 const camel = (k: string) => k.replace(/-([a-z0-9])/g, (_, c: string) => c.toUpperCase());
 
+/** YAML `params:` (kebab-case keys) as the indicator kinds read them (camelCase keys). */
+export function paramsFromYaml(params: Readonly<Record<string, unknown>>): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(params).map(([k, v]) => [camel(k), v]));
+}
+
 function toThreshold(t: RawThreshold, kind: IndicatorKind): ThresholdSpec {
   if (t.percentile !== undefined) return { kind: 'percentile', percentile: t.percentile };
-  const family = THRESHOLD_UNITS[kind];
+  const family = thresholdUnits(kind);
   return { kind: 'absolute', value: family.accepted[t.units as string](t.value as number), units: family.canonical };
 }
 
@@ -46,6 +53,7 @@ function toShape(r: RawTree['regions'][number]): RegionShape {
   return { kind: 'polygon', ring: (r.polygon ?? []).map(([lon, lat]) => [lon, lat] as const) };
 }
 
+/** The schema has checked `params` against the kind's params schema, so kind and params belong together. */
 function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
   return {
     id: i.id,
@@ -56,8 +64,8 @@ function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
     regionThresholds: Object.fromEntries(Object.entries(i['region-thresholds'] ?? {}).map(([r, t]) => [r, toThreshold(t, i.kind)])),
     aggregate: i.aggregate,
     tiers: i.tiers,
-    params: Object.fromEntries(Object.entries(i.params ?? {}).map(([k, v]) => [camel(k), v])),
-  };
+    params: paramsFromYaml(i.params ?? {}),
+  } as IndicatorConfig;
 }
 
 function toRule(r: RawTree['trigger-rules'][number]): TriggerRule {
@@ -132,6 +140,7 @@ export function buildConfig(rawTree: unknown, file: string): Config {
       operators: d.operators,
       retries: d.retries,
       retryBaseSeconds: d['retry-base-seconds'],
+      pdfChromium: d['pdf-chromium'] === undefined ? DEFAULT_CHROMIUM : d['pdf-chromium'],
     },
     cautions: raw.cautions,
     // The last band has no bound in YAML: it covers everything up to and including 1.

@@ -35,8 +35,11 @@ export interface ConfigCheck {
   readonly sourceMap: ConfigSourceMap;
 }
 
-/** The semantic checks, each with the code its problems carry. They need the included lists: without them every reference would look unknown. */
-const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>) => ConfigProblem[]])[] = [
+/**
+ * The semantic checks, each with the code its problems carry. They need the included lists: without them every
+ * reference would look unknown. The schema's problems let a check skip what the schema already refused.
+ */
+const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, schemaProblems: readonly ConfigProblem[]) => ConfigProblem[]])[] = [
   ['config-duplicate-id', checkDuplicateIds],
   ['config-reference', checkReferences],
   ['config-rule', checkRules],
@@ -83,9 +86,10 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
     else raw[key] = read.value;
   }
 
-  pending.push(...validateAgainstSchema(raw).map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
+  const schemaProblems = validateAgainstSchema(raw);
+  pending.push(...schemaProblems.map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
   if (includesComplete) {
-    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
+    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, schemaProblems).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
   }
   diagnostics.push(...pending.map(([code, p]) => sourceMap.place(code, p)));
   const unique = uniqueDiagnostics(diagnostics).sort(byPlace);

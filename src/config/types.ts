@@ -2,6 +2,7 @@
  * The operator-owned configuration, as loaded and validated from YAML (see config/forelight.yaml).
  * Paths are resolved against the directory of the main YAML file by the loader.
  */
+import type { IndicatorKind, IndicatorParams } from '../indicators/registry.ts';
 import type { Quantity, Tier } from '../types.ts';
 
 export interface SourceConfig {
@@ -57,23 +58,11 @@ export type ThresholdSpec =
   /** Percentile of the model climate (hindcasts) at the same lead. */
   | { readonly kind: 'percentile'; readonly percentile: number };
 
-export type IndicatorKind =
-  | 'tmax-mean'
-  | 'tmin-mean'
-  | 'tmean-mean'
-  | 'heat-index'
-  | 'humidex'
-  | 'apparent-temperature'
-  | 'wbgt-simplified'
-  | 'excess-heat-factor'
-  | 'hot-days-run'
-  | 'heat-load'
-  | 'malaria-suitability';
+export type { IndicatorKind };
 
-export interface IndicatorConfig {
+interface IndicatorCommon {
   readonly id: string;
   readonly name: string;
-  readonly kind: IndicatorKind;
   /** Running-mean window in days where the kind uses one. */
   readonly windowDays: number;
   /** Threshold used for exceedance; per-region overrides below. */
@@ -83,9 +72,13 @@ export interface IndicatorConfig {
   readonly aggregate: 'mean' | 'max' | 'sum';
   /** Tiers this indicator is computed for. */
   readonly tiers: readonly Tier[];
-  /** Kind-specific parameters (species, lag months, breakpoints, ...), validated by the indicator. */
-  readonly params: Readonly<Record<string, number | string | boolean>>;
 }
+
+/**
+ * One configured indicator, discriminated by `kind`: `params` (camelCase keys) are those its definition in
+ * src/indicators/kinds/ declares, validated at load against the kind's params schema.
+ */
+export type IndicatorConfig = { [K in IndicatorKind]: IndicatorCommon & { readonly kind: K; readonly params: IndicatorParams<K> } }[IndicatorKind];
 
 export interface StageConfig {
   readonly id: string;
@@ -163,6 +156,8 @@ export interface DeliveryConfig {
   readonly operators: readonly string[];
   readonly retries: number;
   readonly retryBaseSeconds: number;
+  /** Chromium used to print each bulletin to PDF (`pdf-chromium`); null or absent: bulletins go without PDF. */
+  readonly pdfChromium?: string | null;
 }
 
 export interface ScheduleConfig {

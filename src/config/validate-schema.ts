@@ -28,6 +28,8 @@ export function validateAgainstSchema(raw: unknown): ConfigProblem[] {
   const out: ConfigProblem[] = [];
   const seen = new Set<string>();
   for (const e of validate.errors ?? []) {
+    // "must match then": the branch's own errors (e.g. an indicator kind's params) are reported instead.
+    if (e.keyword === 'if') continue;
     const p = describeSchemaError(e);
     const key = `${p.pointer}|${p.message}`;
     if (!seen.has(key)) {

@@ -106,6 +106,17 @@ export function checkCron(expr: string): void {
   wallClockJob(expr);
 }
 
+/**
+ * Calls `wake` at the slot times of `expr` in zone `tz` (croner's own timer, never two calls at once). Around a DST
+ * change croner may call at another time than computeNextRuns says (a skipped time at the end of the gap), so
+ * `wake` must ask computeNextRuns which slot is due.
+ */
+export function wakeAtSlots(expr: string, tz: string, wake: () => void): { stop(): void } {
+  checkCron(expr);
+  checkTimeZone(tz);
+  return new Cron(expr, { ...CLASSIC, timezone: tz, paused: false, protect: true }, wake);
+}
+
 /** The first `n` firing instants strictly after `from`. */
 export function computeNextRuns(cronExpr: string, tz: string, from: Date, n: number): Date[] {
   const job = wallClockJob(cronExpr);

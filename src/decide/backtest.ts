@@ -10,11 +10,10 @@
  * Persistence runs from one start date to the next; with one start per year the counters span years,
  * which is what the operational rules would do only if runs were that far apart — read counts accordingly.
  */
-import type { Config } from '../config/types.ts';
 import type { IsoDate, LeadProbability, Tier } from '../types.ts';
 import { decideStages } from './decide-stages.ts';
 import { eventKey, trackKey, type EventKey, type TunedKey } from '../core/keys.ts';
-import { EMPTY_HISTORY, type StageHistory } from './types.ts';
+import { EMPTY_HISTORY, type DecideConfig, type StageHistory } from './types.ts';
 
 export interface BacktestCase {
   readonly startDate: IsoDate;
@@ -46,7 +45,7 @@ export interface BacktestOptions {
 type Counts = { -readonly [K in keyof BacktestRow]: BacktestRow[K] } & { stageCounts: Record<string, number> };
 
 /** Leads covered by the rules of indicator × tier; null = every lead. */
-function coveredLeads(config: Config, indicator: string, tier: Tier): Set<number> | null {
+function coveredLeads(config: DecideConfig, indicator: string, tier: Tier): Set<number> | null {
   const leads = new Set<number>();
   for (const r of config.rules) {
     if (r.indicator !== indicator || r.tier !== tier) continue;
@@ -56,7 +55,7 @@ function coveredLeads(config: Config, indicator: string, tier: Tier): Set<number
   return leads;
 }
 
-export function backtestRules(config: Config, casesByStartDate: readonly BacktestCase[], options: BacktestOptions = {}): BacktestRow[] {
+export function backtestRules(config: DecideConfig, casesByStartDate: readonly BacktestCase[], options: BacktestOptions = {}): BacktestRow[] {
   const rows = new Map<string, Counts>();
   let history: StageHistory = EMPTY_HISTORY;
   const ordered = [...casesByStartDate].sort((a, b) => a.startDate.localeCompare(b.startDate));

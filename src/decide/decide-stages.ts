@@ -5,15 +5,14 @@
  * stage is held for `holdMissingRuns` runs in a row (counted in its track, whose persistence counters are kept),
  * then, or without an earlier stage, it is "no forecast available" (NO_FORECAST_ID), which is never a ladder stage.
  */
-import type { Config } from '../config/types.ts';
 import type { LeadProbability, StageDecision, Tier } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
 import { applyPersistence } from './persistence.ts';
 import { trackKey, type TrackKey, type TunedKey } from '../core/keys.ts';
-import { NO_FORECAST_ID, TIER_ORDER, stageRank, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+import { NO_FORECAST_ID, TIER_ORDER, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
 
 export interface DecideInput {
-  readonly config: Config;
+  readonly config: DecideConfig;
   readonly probabilities: readonly LeadProbability[];
   readonly history: StageHistory;
   /** tunedKey(region, rule id) → probability threshold tuned on that region's hindcasts for rules that give cost-loss. */
@@ -22,7 +21,7 @@ export interface DecideInput {
   readonly skillGate?: 'apply' | 'ignore';
   /** trackKey → why that region × indicator × tier has no usable data (files late or damaged, no grid cells...). */
   readonly unavailable?: ReadonlyMap<string, string>;
-  /** Tiers a source was configured for (default: every source's tier); other tiers are not expected to have data. */
+  /** Tiers a source was configured for; only these are expected to have data (default none: no missing-data handling). */
   readonly expectedTiers?: ReadonlySet<Tier>;
 }
 
@@ -43,7 +42,7 @@ export function decideStages(input: DecideInput): DecideResult {
     else byKey.set(key, [p]);
   }
 
-  const expected = input.expectedTiers ?? new Set(config.sources.map((s) => s.tier));
+  const expected = input.expectedTiers ?? new Set<Tier>();
   const decisions: StageDecision[] = [];
   const tracks: Record<string, StageTrack> = { ...history.tracks };
   for (const region of config.regions) {
@@ -59,7 +58,7 @@ export function decideStages(input: DecideInput): DecideResult {
           decisions.push({ region: region.id, indicator: indicator.id, tier, ...held.decision });
           continue;
         }
-        const raw = evaluateRules(config, region.id, indicator.id, tier, probs, tuned, input.skillGate ?? 'apply');
+        const raw = evaluateRules(config, { region: region.id, indicator: indicator.id, tier, probabilities: probs, tuned, skillGate: input.skillGate ?? 'apply' });
         const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
         tracks[key] = kept.track;
         decisions.push({
@@ -81,7 +80,7 @@ export function decideStages(input: DecideInput): DecideResult {
 }
 
 /** The decision of a region × indicator × tier without data: its last stage held, or "no forecast available". */
-function holdMissing(config: Config, previous: StageTrack | undefined, reason: string): { decision: Omit<StageDecision, 'region' | 'indicator' | 'tier'>; track: StageTrack | null } {
+function holdMissing(config: DecideConfig, previous: StageTrack | undefined, reason: string): { decision: Omit<StageDecision, 'region' | 'indicator' | 'tier'>; track: StageTrack | null } {
   const hold = config.decision.holdMissingRuns;
   const runs = (previous?.missingRuns ?? 0) + 1;
   const onLadder = previous !== undefined && stageRank(config.stages, previous.stageId) >= 0;
@@ -102,7 +101,7 @@ function holdMissing(config: Config, previous: StageTrack | undefined, reason: s
  * indicator on neither axis. On a tie the first decision in config order (indicator, then tier) is named.
  * "No forecast available" decisions take no part; a region with no other decision is "no forecast available".
  */
-export function combineRegionStages(config: Config, decisions: readonly StageDecision[]): RegionStage[] {
+export function combineRegionStages(config: DecideConfig, decisions: readonly StageDecision[]): RegionStage[] {
   const rank = (id: string) => stageRank(config.stages, id);
   const highest = (list: readonly StageDecision[]): StageDecision | null =>
     list.reduce<StageDecision | null>((best, d) => (best === null || rank(d.stageId) > rank(best.stageId) ? d : best), null);

@@ -23,8 +23,23 @@ export interface RawStage {
 
 const fmt = (v: number) => String(+v.toFixed(3));
 
+/** The parts of the configuration the rules read. */
+export type RulesConfig = Pick<Config, 'stages' | 'rules'> & { readonly decision: Pick<Config['decision'], 'skillGate' | 'tierCaps'> };
+
+export interface RuleTrack {
+  readonly region: string;
+  readonly indicator: string;
+  readonly tier: Tier;
+  /** The track's lead probabilities (any order). */
+  readonly probabilities: readonly LeadProbability[];
+  /** tunedKey(region, rule id) → probability threshold tuned for rules that give cost-loss. */
+  readonly tuned: ReadonlyMap<TunedKey, number>;
+  /** "ignore" only for backtests on the hindcasts the skill was measured on. */
+  readonly skillGate: 'apply' | 'ignore';
+}
+
 /** Leads that may raise a stage, and the reasons for those that may not. */
-function applySkillGate(config: Config, probs: readonly LeadProbability[], reasons: string[]): { usable: LeadProbability[]; withheld: LeadWindow[] } {
+function applySkillGate(config: RulesConfig, probs: readonly LeadProbability[], reasons: string[]): { usable: LeadProbability[]; withheld: LeadWindow[] } {
   const gate = config.decision.skillGate;
   const scoreName = gate.score === 'rocArea' ? 'ROC area' : 'Brier skill score';
   const usable: LeadProbability[] = [];
@@ -42,15 +57,8 @@ function applySkillGate(config: Config, probs: readonly LeadProbability[], reaso
   return { usable, withheld };
 }
 
-export function evaluateRules(
-  config: Config,
-  region: string,
-  indicator: string,
-  tier: Tier,
-  probabilities: readonly LeadProbability[],
-  tuned: ReadonlyMap<TunedKey, number>,
-  skillGate: 'apply' | 'ignore',
-): RawStage {
+export function evaluateRules(config: RulesConfig, track: RuleTrack): RawStage {
+  const { region, indicator, tier, probabilities, tuned, skillGate } = track;
   const rank = (id: string) => stageRank(config.stages, id);
   const reasons: string[] = [];
   const probs = [...probabilities].filter((p) => Number.isFinite(p.probability)).sort((a, b) => a.lead.index - b.lead.index);

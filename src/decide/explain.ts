@@ -2,9 +2,8 @@
  * Plain-text explanation of one decision: inputs → threshold → probability and base rate → skill → rule →
  * persistence → stage, with the numbers. Reads only the decision, the probabilities and the ladder.
  */
-import type { Config } from '../config/types.ts';
 import type { LeadProbability, StageDecision } from '../types.ts';
-import { leadName, type StageTrack } from './types.ts';
+import { leadName, type DecideConfig, type StageTrack } from './types.ts';
 import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Summary of the ensemble values at one lead, as computed by the caller. */
@@ -16,7 +15,7 @@ export interface EnsembleSummary {
 }
 
 export interface ExplainInput {
-  readonly config: Config;
+  readonly config: DecideConfig;
   readonly decision: StageDecision;
   /** Probabilities of this run; those of other region × indicator × tier are ignored. */
   readonly probabilities: readonly LeadProbability[];

@@ -2,6 +2,7 @@
  * Types of the decide stage that are not boundary types of src/types.ts: the persistence history (stored
  * by the ledger as JSON), the combined stage per region, and stage changes for dry-run output.
  */
+import type { Config } from '../config/types.ts';
 import type { Tier } from '../types.ts';
 
 /**
@@ -30,6 +31,13 @@ export interface StageTrack {
  * lowest stage; renderers show it with its own label, glyph and grey.
  */
 export const NO_FORECAST_ID = 'no-forecast';
+
+/**
+ * The parts of the configuration the decide stage reads: which regions and indicators exist, the stage ladder,
+ * the trigger rules and the decision settings (skill gate, tier caps, persistence, combination). Nothing about
+ * files, calibration, schedule, delivery or texts.
+ */
+export type DecideConfig = Pick<Config, 'regions' | 'indicators' | 'stages' | 'rules' | 'decision'>;
 
 /** All tracks, keyed by `trackKey(region, indicator, tier)`. Plain JSON. */
 export interface StageHistory {

@@ -1,6 +1,6 @@
 /**
  * One e-mail per bulletin × recipient: HTML with a plain-text alternative and the PNG charts inline
- * (multipart/related, referenced from the HTML as `cid:`), and a stable Message-ID so that a re-send after
+ * (multipart/related, referenced from the HTML as `cid:`), the printable PDF as an ordinary attachment, and a stable Message-ID so that a re-send after
  * a crash carries the same id (mail clients and many servers collapse duplicates by Message-ID).
  */
 import { createHash } from 'node:crypto';
@@ -30,13 +30,10 @@ export function composeMessage(bulletin: StoredBulletin, recipient: string, from
     messageId,
     date: new Date(bulletin.createdAt),
     headers: { 'X-Forelight-Forecast': bulletin.forecastKey, 'X-Forelight-Bulletin': bulletin.id },
-    attachments: bulletin.attachments.map((a) => ({
-      cid: a.cid,
-      filename: a.filename,
-      contentType: a.contentType,
-      content: Buffer.from(a.content),
-      contentDisposition: 'inline' as const,
-    })),
+    // Images are inline parts the HTML references by cid; anything else (the printable PDF) is a plain attachment.
+    attachments: bulletin.attachments.map((a) => (a.contentType.startsWith('image/')
+      ? { cid: a.cid, filename: a.filename, contentType: a.contentType, content: Buffer.from(a.content), contentDisposition: 'inline' as const }
+      : { filename: a.filename, contentType: a.contentType, content: Buffer.from(a.content), contentDisposition: 'attachment' as const })),
   };
 }
 

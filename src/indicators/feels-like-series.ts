@@ -11,7 +11,6 @@
  * AT and simplified WBGT RH with the BoM constants so that e = e_s,BoM(Td) exactly; humidex Td directly.
  * RH up to 100.5 % (dewpoint slightly above the basis temperature) is clamped to 100 %; beyond → out of range.
  */
-import type { IndicatorKind } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import { apparentTemperatureSteadman1994C } from './apparent-temperature-steadman-1994.ts';
@@ -24,7 +23,7 @@ import {
 import { checkAligned, requireQuantity } from './series-checks.ts';
 import { wbgtSimplifiedBomC } from './wbgt-simplified-bom.ts';
 
-export type FeelsLikeKind = Extract<IndicatorKind, 'heat-index' | 'humidex' | 'apparent-temperature' | 'wbgt-simplified'>;
+export type FeelsLikeKind = 'heat-index' | 'humidex' | 'apparent-temperature' | 'wbgt-simplified';
 
 export interface FeelsLikeResult {
   readonly data: Float64Array;

@@ -12,7 +12,6 @@
  * its calendar days gets NaN. Categories: unsuitable < marginalAt (0.25) ≤ marginal < suitableAt (0.75) ≤ suitable
  * (defaults are common practice, no source).
  */
-import type { IndicatorConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { IsoDate } from '../types.ts';
 import { daysInMonth, addMonths, monthOf } from '../core/iso-dates.ts';
@@ -50,7 +49,7 @@ function badParam(id: string, what: string, fix: string): ForelightError {
 }
 
 /** Validates `params` of a malaria-suitability indicator and fills the defaults. */
-export function parseMalariaParams(ind: Pick<IndicatorConfig, 'id' | 'params'>): MalariaParams {
+export function parseMalariaParams(ind: { readonly id: string; readonly params: Readonly<Record<string, unknown>> }): MalariaParams {
   const p = ind.params;
   const speciesRaw = p.species ?? 'falciparum';
   const species = speciesRaw === 'falciparum' || speciesRaw === 'P. falciparum' ? 'falciparum'

@@ -10,6 +10,7 @@ import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/di
 import { describeError, type ForelightError } from '../core/errors.ts';
 import { trackKey, type TrackKey } from '../core/keys.ts';
 import type { Logger } from '../core/log.ts';
+import type { RunContext } from '../core/run-context.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { regionClimatology } from './indicator-context.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
@@ -59,17 +60,20 @@ function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadR
   return { kept, notes: [...notes] };
 }
 
-/**
- * Reads and computes everything for an issue date; never throws for a bad file, region or indicator.
- * @param inputs the files to use, when the caller already resolved them (a run keys its ledger entry on them)
- */
-export async function analyse(
-  config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void,
-  inputs: readonly SourceInputs[] = resolveInputs(config, issueDate),
-): Promise<Analysis> {
+export interface AnalyseOptions {
+  /** Progress of the sources (the CLI's progress bar). */
+  readonly onProgress?: (done: number, total: number, label: string) => void;
+  /** The files to use, when the caller already resolved them (a run keys its ledger entry on them). */
+  readonly inputs?: readonly SourceInputs[];
+}
+
+/** Reads and computes everything for the run's issue date; never throws for a bad file, region or indicator. */
+export async function analyse(config: Config, run: RunContext, options: AnalyseOptions = {}): Promise<Analysis> {
+  const { issueDate, log } = run;
+  const { onProgress, inputs = resolveInputs(config, issueDate) } = options;
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
-  const started = Date.now();
+  const started = Date.now(); // elapsed times for the log, not the run's clock
   const read = await readAll(config, issueDate, inputs);
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
@@ -96,7 +100,8 @@ export async function analyse(
   const problems = uniqueDiagnostics([...fileProblems.map((p) => p.diagnostic), ...sources.flatMap((s) => s.problems)]);
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await saveChecksums(checksums, log);
-  return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: notes, problems, checksums };
+  const timeNotes = read.sources.flatMap((s) => s.notes);
+  return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
 }
 
 /** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */

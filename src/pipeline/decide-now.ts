@@ -2,7 +2,7 @@
  * Analysis + decision against the ledger's history WITHOUT writing anything: what `diff`, `explain` and
  * `run --dry-run` show is exactly what a run on the same inputs would issue.
  */
-import { unavailableReasons } from './missing-data.ts';
+import { missingData } from './missing-data.ts';
 import { existsSync } from 'node:fs';
 import type { Config } from '../config/types.ts';
 import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
@@ -12,9 +12,8 @@ import { pairOf, tunedKey, type TunedKey } from '../core/keys.ts';
 import type { StageHistory } from '../decide/types.ts';
 import { openLedger } from '../ledger/open-ledger.ts';
 import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
-import type { Logger } from '../core/log.ts';
-import type { IsoDate } from '../types.ts';
-import { analyse, type Analysis } from './analyse.ts';
+import type { RunContext } from '../core/run-context.ts';
+import { analyse, type AnalyseOptions, type Analysis } from './analyse.ts';
 import { issuedRegionStages } from './bulletin-run.ts';
 
 export interface DecidedNow {
@@ -40,7 +39,7 @@ export function tunedThresholds(analysis: Analysis): Map<TunedKey, number> {
   return out;
 }
 
-export async function decideNow(config: Config, issueDate: IsoDate, log: Logger, onProgress?: (done: number, total: number, label: string) => void): Promise<DecidedNow> {
+export async function decideNow(config: Config, run: RunContext, options: Pick<AnalyseOptions, 'onProgress'> = {}): Promise<DecidedNow> {
   let historyJson: string | null = null;
   let previous: RegionStageLike[] = [];
   if (existsSync(config.ledger)) {
@@ -53,7 +52,7 @@ export async function decideNow(config: Config, issueDate: IsoDate, log: Logger,
     }
   }
   const history = parseStageHistory(historyJson);
-  const analysis = await analyse(config, issueDate, log, onProgress);
-  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), unavailable: unavailableReasons(config, analysis) });
+  const analysis = await analyse(config, run, options);
+  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), ...missingData(config, analysis) });
   return { analysis, decided, history, previous };
 }

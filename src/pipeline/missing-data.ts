@@ -17,6 +17,11 @@ export function problemClause(d: Diagnostic): string {
   return `${d.place.file ? `${basename(d.place.file)}: ` : ''}${d.message}`;
 }
 
+/** The decide stage's missing-data inputs: which tiers a source serves, and why each region × indicator × tier lacks data. */
+export function missingData(config: Config, analysis: Analysis): { unavailable: Map<string, string>; expectedTiers: Set<Tier> } {
+  return { unavailable: unavailableReasons(config, analysis), expectedTiers: new Set(config.sources.map((s) => s.tier)) };
+}
+
 export function unavailableReasons(config: Config, analysis: Analysis): Map<string, string> {
   const out = new Map<string, string>();
   const put = (tier: Tier, region: string, reason: string, indicator?: string) => {

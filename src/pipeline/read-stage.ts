@@ -26,6 +26,8 @@ export interface SourceRead {
   readonly stale: boolean;
   readonly referenceTime: string;
   readonly series: RegionQuantities;
+  /** How the forecast file's times were read where a convention decided it (for run.json notes). */
+  readonly notes: readonly string[];
 }
 
 export interface ReadResult {
@@ -47,12 +49,21 @@ function group(series: readonly RegionSeries[]): RegionQuantities {
   return out;
 }
 
+/** What one file read needs besides its path: the forecast date (or hindcast start) and the source's tier. */
+export interface FileRequest {
+  readonly referenceTime?: string;
+  readonly tier?: SourceConfig['tier'];
+  /** Receives how the file's times were read (model calendar, monthly values). */
+  readonly notes?: string[];
+}
+
 export async function readFile(
-  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], referenceTime: string | undefined, problems: ForelightError[],
+  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extractRegionSeries(path, { quantities, regions, referenceTime });
+    const r = await extractRegionSeries(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier });
     problems.push(...r.problems);
+    request.notes?.push(...r.notes);
     return group(r.series);
   } catch (err) {
     if (err instanceof ForelightError) {
@@ -79,7 +90,7 @@ export async function readHindcasts(
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   for (const h of files) {
-    const series = await readFile(h.path, source.variables, regions, h.start, problems);
+    const series = await readFile(h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier }, problems);
     if (!series) continue;
     for (const [region, cells] of regionCells(series)) {
       const expected = forecastCells?.get(region);
@@ -116,7 +127,7 @@ export async function readAll(config: Config, issueDate: string, inputs: readonl
     used.push(usable.input);
   }
   const observed = config.observations
-    ? await readFile(config.observations.path, config.observations.variables, config.regions, undefined, problems)
+    ? await readFile(config.observations.path, config.observations.variables, config.regions, {}, problems)
     : null;
   return { sources, inputs: used, observed, problems };
 }

@@ -20,24 +20,23 @@ import { ledgerWriteFault, openLedger, type Ledger } from '../ledger/open-ledger
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
+import type { RunContext } from '../core/run-context.ts';
 import type { PreviousIssue } from '../render/model.ts';
 import { renderBulletins } from '../render/render-bulletins.ts';
 import { EXIT, exitCodeForDeliveries, type ExitCode } from '../core/exit-codes.ts';
-import type { IsoDate } from '../types.ts';
 import { analyse, saveChecksums, type Analysis } from './analyse.ts';
 import { buildBulletinRun, highestStageId, issuedRegionStages } from './bulletin-run.ts';
 import { tunedThresholds } from './decide-now.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
-import { unavailableReasons } from './missing-data.ts';
+import { missingData } from './missing-data.ts';
 import { publishArchive } from './publish.ts';
 
 export interface RunOptions {
   readonly config: Config;
-  readonly issueDate: IsoDate;
-  readonly log: Logger;
+  /** Issue date, clock, logger and stop signal; the run id is filled in once the ledger registers the run. */
+  readonly run: RunContext;
   readonly mode: 'live' | 'exercise';
   readonly force?: boolean;
-  readonly now?: () => Date;
   /** Passed to delivery (fault injection in tests). */
   readonly deliver?: DeliverOptions;
 }
@@ -86,23 +85,23 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
 async function prepare(ledger: Ledger, options: RunOptions, runId: number, analysis: Analysis): Promise<{ bulletins: number; archive: ArchiveEntry }> {
-  const { config, log } = options;
+  const { config, run: context } = options;
+  const { issueDate, log } = context;
   recordDiagnostics(ledger, runId, analysis.problems);
   if (analysis.read.sources.length === 0) {
-    const text = `No forecast of any source could be read for ${options.issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
-    await sendOperatorNotice(config.delivery, `no forecast could be read for ${options.issueDate}`, text, { log, diagnostics: analysis.problems });
+    const text = `No forecast of any source could be read for ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
+    await sendOperatorNotice(config.delivery, `no forecast could be read for ${issueDate}`, text, { log, diagnostics: analysis.problems });
     throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.map(formatDiagnostic).join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
   }
   await recordInputFiles(ledger, runId, analysis, config, log);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
-  const unavailable = unavailableReasons(config, analysis);
-  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), unavailable });
+  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), ...missingData(config, analysis) });
   recordProbabilities(ledger, runId, analysis.probabilities);
   recordDecisions(ledger, runId, decided.decisions);
   saveStageHistory(ledger, runId, JSON.stringify(decided.nextHistory));
   const previous = issuedRegionStages(config, lastIssuedStages(ledger).filter((s) => s.runId !== runId));
   const run = buildBulletinRun({
-    config, runId: `${options.issueDate}-${runId}`, issuedAt: (options.now ?? (() => new Date()))(), mode: options.mode,
+    config, runId: `${issueDate}-${runId}`, issuedAt: context.now(), mode: options.mode,
     sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
     regionStages: decided.regionStages, previous, notes: analysis.combination, problems: analysis.problems,
   });
@@ -111,6 +110,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, analy
     for (const a of rendered.capAlerts) recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
+  for (const note of rendered.notes) log.warn(note, { stage: 'render' });
   log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length });
   return { bulletins: rendered.bulletins.length, archive: rendered.archive };
 }
@@ -137,23 +137,24 @@ function sweepOutputs(config: Config, log: Logger): void {
 }
 
 export async function runOnce(options: RunOptions): Promise<RunOutcome> {
-  const { config, log } = options;
-  const resolved = resolveInputs(config, options.issueDate);
+  const { config } = options;
+  const { issueDate, log } = options.run;
+  const resolved = resolveInputs(config, issueDate);
   if (resolved.every((i) => i.candidates.length === 0)) {
-    const text = `No forecast file of any source was found on or before ${options.issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
-    await sendOperatorNotice(config.delivery, `no forecast data for ${options.issueDate}`, text, { log });
+    const text = `No forecast file of any source was found on or before ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
+    await sendOperatorNotice(config.delivery, `no forecast data for ${issueDate}`, text, { log });
     return { exitCode: EXIT.nothingNew, summary: text, runId: null };
   }
   sweepOutputs(config, log);
   // Unusable is the same as late: the run's key names the forecasts actually used (older ones when newer were unusable).
-  const analysis = await analyse(config, options.issueDate, log, undefined, resolved);
+  const analysis = await analyse(config, options.run, { inputs: resolved });
   const key = forecastKey(analysis.inputs);
-  const ledger = openLedger(config.ledger, { now: options.now });
+  const ledger = openLedger(config.ledger, { now: options.run.now });
   try {
     const begun = beginRun(ledger, key, { force: options.force });
     if (begun.kind === 'already-issued') {
       const text = `The newest forecasts (${key}) were already issued in run ${begun.run.id}; nothing new was sent. Use --force to issue them again.`;
-      await sendOperatorNotice(config.delivery, `nothing new for ${options.issueDate}`, text, { log, diagnostics: analysis.problems });
+      await sendOperatorNotice(config.delivery, `nothing new for ${issueDate}`, text, { log, diagnostics: analysis.problems });
       // A damaged newer file is an input problem even when the older forecast used was already issued.
       return { exitCode: analysis.problems.length > 0 ? EXIT.inputProblem : EXIT.nothingNew, summary: text, runId: begun.run.id, problems: analysis.problems.map(formatDiagnostic) };
     }
@@ -162,7 +163,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     let archive: ArchiveEntry | null = null;
     try {
       if (begun.kind === 'resumed' && hasBulletins(ledger, runId)) rlog.warn('resuming an interrupted run: sending what was not yet sent');
-      else ({ archive } = await prepare(ledger, { ...options, log: rlog }, runId, analysis));
+      else ({ archive } = await prepare(ledger, { ...options, run: { ...options.run, runId, log: rlog } }, runId, analysis));
     } catch (err) {
       const fault = ledgerWriteFault(config.ledger, err);
       try {
@@ -175,7 +176,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     const outputProblems = [publishOrReport(config, archive, rlog)].filter((p): p is string => p !== null);
     const sent = await deliverPending(ledger, config.delivery, rlog, { ...options.deliver, runId });
     if (outputProblems.length > 0) {
-      await sendOperatorNotice(config.delivery, `outputs not written for ${options.issueDate}`,
+      await sendOperatorNotice(config.delivery, `outputs not written for ${issueDate}`,
         `Run ${runId} (${key}) delivered its bulletins, but these outputs could not be written:\n\n${outputProblems.map((p) => `- ${p}`).join('\n')}\n`, { log: rlog, env: options.deliver?.env });
     }
     const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
@@ -187,7 +188,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
       (outputProblems.length > 0 ? `; ${outputProblems.length} output problem(s): ${outputProblems.join(' | ')}` : '');
     rlog.info(summary, { stage: 'deliver' });
     if (problems.length > 0) {
-      await sendOperatorNotice(config.delivery, `input problems in the run of ${options.issueDate}`,
+      await sendOperatorNotice(config.delivery, `input problems in the run of ${issueDate}`,
         `Run ${runId} (${key}) was issued with these input problems; the bulletins say what is missing or which older forecast they are based on.`, { log: rlog, env: options.deliver?.env, diagnostics: problems });
     }
     const exitCode = deliveryCode !== EXIT.ok ? deliveryCode : outputCode !== EXIT.ok ? outputCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;

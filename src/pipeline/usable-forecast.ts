@@ -33,7 +33,7 @@ async function gridMismatch(config: Config, input: SourceInputs, series: RegionQ
   const first = input.hindcasts[0];
   if (!first) return null;
   const [quantity, variable] = Object.entries(input.source.variables)[0] as [Quantity, string];
-  const hindcast = await readFile(first.path, { [quantity]: variable }, config.regions, first.start, problems);
+  const hindcast = await readFile(first.path, { [quantity]: variable }, config.regions, { referenceTime: first.start, tier: input.source.tier }, problems);
   if (!hindcast) return null;
   const theirs = regionCells(hindcast);
   return [...regionCells(series)].filter(([region, cells]) => theirs.has(region) && theirs.get(region) !== cells).map(([region]) => region);
@@ -43,7 +43,8 @@ async function gridMismatch(config: Config, input: SourceInputs, series: RegionQ
 export async function readUsableForecast(config: Config, issueDate: string, input: SourceInputs, problems: ForelightError[]): Promise<UsableForecast | null> {
   const tried: string[] = [];
   for (const candidate of input.candidates) {
-    const series = await readFile(candidate.path, input.source.variables, config.regions, candidate.date, problems);
+    const notes: string[] = [];
+    const series = await readFile(candidate.path, input.source.variables, config.regions, { referenceTime: candidate.date, tier: input.source.tier, notes }, problems);
     const at = candidateInputs(config, input, candidate, issueDate);
     let why = series === null ? 'it could not be read (see above)' : whyUnusable(input.source, series);
     if (series && why === null) {
@@ -60,7 +61,7 @@ export async function readUsableForecast(config: Config, issueDate: string, inpu
       if (tried.length > 0) {
         problems.push(new InputError('forecast-fallback', candidate.path, `used instead of the newer ${tried.join(', ')} of source '${input.source.id}'`, 'replace the damaged file(s); the bulletin says it is based on this older forecast'));
       }
-      return { read: { source: input.source, date: candidate.date, path: candidate.path, stale: at.stale, referenceTime: `${candidate.date}T00:00:00Z`, series }, input: at };
+      return { read: { source: input.source, date: candidate.date, path: candidate.path, stale: at.stale, referenceTime: `${candidate.date}T00:00:00Z`, series, notes }, input: at };
     }
     if (series !== null) problems.push(new InputError('forecast-unusable', candidate.path, `cannot be used for source '${input.source.id}': ${why}`, 'replace the file; an older forecast within the look-back is used meanwhile'));
     tried.push(`${candidate.path} (${candidate.date})`);

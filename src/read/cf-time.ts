@@ -197,3 +197,21 @@ export function decodeTimes(values: ArrayLike<number>, units: string, calendar?:
   }
   return out;
 }
+
+/**
+ * Seconds of each value on the calendar's own continuous day line (day number × 86400 + seconds of day), so that
+ * differences are elapsed time in that calendar (every CF calendar's day has 86400 s, CF §4.4.1).
+ */
+export function calendarSeconds(values: ArrayLike<number>, units: string, calendar?: string): { calendar: CfCalendar; seconds: Float64Array } {
+  const u = parseTimeUnits(units, calendar);
+  const seconds = Float64Array.from(values, (v) => Math.round((u.refDay * 86400 + u.refSecond + v * u.secondsPerUnit) * 1e6) / 1e6);
+  return { calendar: u.calendar, seconds };
+}
+
+/** Days in month `month` (1-12) of `year` in `calendar` (CF §4.4.1). */
+export function daysInCalendarMonth(calendar: CfCalendar, year: number, month: number): number {
+  if (calendar === '360_day') return 30;
+  const leap = calendar === 'all_leap' ? true : calendar === 'noleap' ? false
+    : calendar === 'julian' || (calendar === 'standard' && year < 1583) ? year % 4 === 0 : isGregorianLeap(year);
+  return month === 2 ? (leap ? 29 : 28) : CUMULATIVE_DAYS[month] - CUMULATIVE_DAYS[month - 1];
+}

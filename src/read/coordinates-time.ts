@@ -1,11 +1,15 @@
 /**
- * Time coordinates → milliseconds since 1970-01-01T00:00Z. Absolute times (`<unit> since <date>`, any CF
- * calendar) are decoded by cf-time.ts and placed on the proleptic Gregorian timeline by their calendar
- * components (so a 360_day or noleap date keeps its printed day); lead times (CF §4.4 forecast_period) are
- * plain durations.
+ * Time coordinates → milliseconds since 1970-01-01T00:00Z (the real, Gregorian timeline).
+ * `standard`/`gregorian` and `proleptic_gregorian` dates keep their date components. Model calendars
+ * (`julian`, `noleap`/`365_day`, `all_leap`/`366_day`, `360_day`, CF 1.11 §4.4.1) are placed by ELAPSED TIME
+ * from one anchor per file: the anchor (the forecast reference time, else the first time read) keeps its date
+ * components (a 360_day 2026-11-01 is 1 November 2026), every other time is the anchor plus the model time
+ * elapsed since it, so lead day k of the model is lead day k in the bulletin. An anchor that does not exist in the
+ * Gregorian calendar (29 February of a common year, 30 February) is moved back to the last day of that month.
+ * Lead times (CF §4.4 forecast_period) are plain durations.
  */
 import { InputError, UnitError } from '../core/errors.ts';
-import { decodeTimes } from './cf-time.ts';
+import { calendarSeconds, decodeTimes, type CfCalendar, type CfDateTime } from './cf-time.ts';
 
 const UNIT_MS: Readonly<Record<string, number>> = {
   second: 1000, seconds: 1000, sec: 1000, secs: 1000, s: 1000,
@@ -24,27 +28,48 @@ export function durationUnitMs(units: string, file: string, variable: string): n
   return ms;
 }
 
-/**
- * Decodes `values` of a time variable with CF `units`/`calendar` into ms.
- * @throws InputError naming file and variable when the units or calendar are not understood, or a date does
- * not exist in the Gregorian calendar (e.g. 30 February of a 360_day calendar).
- */
-export function decodeTimesToMs(values: Float64Array, units: string, calendar: string | undefined, file: string, variable: string): Float64Array {
-  let dates;
-  try {
-    dates = decodeTimes(values, units, calendar);
-  } catch (err) {
-    if (!(err instanceof UnitError)) throw err;
-    throw new InputError('time-units', file, `time variable '${variable}': ${err.message}`, '', { cause: err });
-  }
-  const out = new Float64Array(dates.length);
-  dates.forEach((d, i) => {
-    const ms = d.gregorianMs();
-    if (ms === undefined) {
-      throw new InputError('time-calendar', file, `time variable '${variable}' holds ${d.toIsoDate()} (${d.calendar} calendar), which is not a Gregorian date`,
-        'convert the file to the standard calendar first (e.g. cdo setcalendar,standard)');
+const GREGORIAN: readonly CfCalendar[] = ['standard', 'proleptic_gregorian'];
+
+function realMsOf(date: CfDateTime): number {
+  const ms = date.gregorianMs();
+  if (ms !== undefined) return ms;
+  const d = new Date(0);
+  d.setUTCFullYear(date.year, date.month, 0); // last day of the month
+  d.setUTCFullYear(date.year, date.month - 1, Math.min(date.day, d.getUTCDate()));
+  return d.getTime() + ((date.hour * 60 + date.minute) * 60 + date.second) * 1000;
+}
+
+/** One file's placement of times on the real timeline (one anchor shared by all its time variables). */
+export class TimeMapper {
+  private anchor: { seconds: number; ms: number; date: CfDateTime } | null = null;
+  /** Calendar of the first time variable decoded. */
+  calendar: CfCalendar | null = null;
+
+  /**
+   * Decodes `values` of a time variable with CF `units`/`calendar` into ms (rules in the module comment).
+   * @throws InputError naming file and variable when the units or calendar are not understood.
+   */
+  toMs(values: Float64Array, units: string, calendar: string | undefined, file: string, variable: string): Float64Array {
+    let dates: CfDateTime[];
+    let line: { calendar: CfCalendar; seconds: Float64Array };
+    try {
+      dates = decodeTimes(values, units, calendar);
+      line = calendarSeconds(values, units, calendar);
+    } catch (err) {
+      if (!(err instanceof UnitError)) throw err;
+      throw new InputError('time-units', file, `time variable '${variable}': ${err.message}`, err.hint, { cause: err });
     }
-    out[i] = Math.round(ms);
-  });
-  return out;
+    this.calendar ??= line.calendar;
+    if (GREGORIAN.includes(line.calendar)) return Float64Array.from(dates, (d) => Math.round(d.gregorianMs() as number));
+    if (dates.length > 0) this.anchor ??= { seconds: line.seconds[0], ms: realMsOf(dates[0]), date: dates[0] };
+    const anchor = this.anchor;
+    return line.seconds.map((s) => Math.round(anchor!.ms + (s - anchor!.seconds) * 1000));
+  }
+
+  /** How model-calendar times were placed (for run.json notes), or null for Gregorian files. */
+  note(): string | null {
+    if (!this.anchor || this.calendar === null || GREGORIAN.includes(this.calendar)) return null;
+    const real = new Date(this.anchor.ms).toISOString().slice(0, 10);
+    return `times in the ${this.calendar} calendar are placed on real dates by elapsed time from ${this.anchor.date.toIsoDate()} (model) = ${real} (real), so lead days and weeks are the model's`;
+  }
 }

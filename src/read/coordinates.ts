@@ -7,7 +7,9 @@
  */
 import { InputError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
-import { decodeTimesToMs, durationUnitMs } from './coordinates-time.ts';
+import { durationUnitMs, TimeMapper } from './coordinates-time.ts';
+import { decodeTimes } from './cf-time.ts';
+import { detectMonths, type MonthSteps } from './monthly.ts';
 import { decodeCf } from './cf-decode.ts';
 
 export interface LatLonGrid {
@@ -30,6 +32,8 @@ export interface TimeAxis {
   readonly stampsMs: Float64Array;
   /** `[n][2]` valid-time bounds in ms, or null. */
   readonly boundsMs: Float64Array | null;
+  /** The model month of each step when the file holds one value per month (monthly.ts), else null. */
+  readonly months: MonthSteps | null;
 }
 
 export interface FileCoordinates {
@@ -39,6 +43,8 @@ export interface FileCoordinates {
   /** forecast_reference_time (ms) when the file states it. */
   readonly referenceMs: number | null;
   readonly member: { readonly dimension: string; readonly size: number } | null;
+  /** How model-calendar times were placed on real dates (coordinates-time.ts), or null for Gregorian files. */
+  readonly calendarNote: string | null;
 }
 
 /** Where each coordinate sits among a data variable's dimensions (-1 = absent). */
@@ -124,39 +130,48 @@ function isLead(v: VariableInfo): boolean {
     (attr(v, 'standard_name') === 'forecast_period' || LEAD_NAMES.includes(v.name.toLowerCase()));
 }
 
-async function decodeTimeVariable(ds: Dataset, info: VariableInfo, unitsFrom: VariableInfo = info): Promise<Float64Array> {
+async function decodeTimeVariable(ds: Dataset, mapper: TimeMapper, info: VariableInfo, unitsFrom: VariableInfo = info): Promise<Float64Array> {
   const raw = await readWhole(ds, info);
-  return decodeTimesToMs(raw, attr(unitsFrom, 'units') ?? '', attr(unitsFrom, 'calendar'), ds.path, info.name);
+  return mapper.toMs(raw, attr(unitsFrom, 'units') ?? '', attr(unitsFrom, 'calendar'), ds.path, info.name);
 }
 
-async function findReference(ds: Dataset): Promise<number | null> {
+async function findReference(ds: Dataset, mapper: TimeMapper): Promise<number | null> {
   const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
   if (!ref) return null;
   if (ref.shape.reduce((a, b) => a * b, 1) !== 1) {
     throw new InputError('reference-several', ds.path, `'${ref.name}' holds ${ref.shape.join('×')} forecast reference times`,
       'split the file into one file per start date (e.g. cdo splitsel,1)');
   }
-  return (await decodeTimeVariable(ds, ref))[0];
+  return (await decodeTimeVariable(ds, mapper, ref))[0];
 }
 
-async function findTime(ds: Dataset, referenceMs: number | null): Promise<TimeAxis | null> {
+/** Model months of an absolute time axis (monthly.ts), from its values in the file's own calendar. */
+async function monthsOf(ds: Dataset, time: VariableInfo, boundsInfo: VariableInfo | undefined, referenceMs: number | null, stampsMs: Float64Array): Promise<MonthSteps | null> {
+  const units = attr(time, 'units') ?? '';
+  const calendar = attr(time, 'calendar');
+  const stamps = decodeTimes(await readWhole(ds, time), units, calendar);
+  const bounds = boundsInfo ? decodeTimes(await readWhole(ds, boundsInfo), attr(boundsInfo, 'units') ?? units, attr(boundsInfo, 'calendar') ?? calendar) : null;
+  return detectMonths(stamps, bounds, referenceMs, stampsMs);
+}
+
+async function findTime(ds: Dataset, referenceMs: number | null, mapper: TimeMapper): Promise<TimeAxis | null> {
   const lead = ds.variables.find(isLead);
   if (lead && referenceMs !== null) {
     const unitMs = durationUnitMs(attr(lead, 'units') ?? '', ds.path, lead.name);
     const toMs = (values: Float64Array): Float64Array => values.map((x) => Math.round(referenceMs + x * unitMs));
     const bounds = await readBounds(ds, lead, lead.shape[0]);
-    return { dimension: lead.dimensions[0], variable: lead.name, stampsMs: toMs(await readWhole(ds, lead)), boundsMs: bounds && toMs(bounds) };
+    return { dimension: lead.dimensions[0], variable: lead.name, stampsMs: toMs(await readWhole(ds, lead)), boundsMs: bounds && toMs(bounds), months: null };
   }
   const candidates = ds.variables.filter((v) => v.dimensions.length === 1 && isTimeLike(v) && !isReference(v) && !isLead(v));
   const time = candidates.find((v) => v.dimensions[0] === v.name) ?? candidates[0];
   if (!time) return null;
-  const stampsMs = await decodeTimeVariable(ds, time);
+  const stampsMs = await decodeTimeVariable(ds, mapper, time);
   const boundsName = attr(time, 'bounds');
-  const boundsInfo = boundsName === undefined ? undefined : ds.variable(boundsName);
-  const boundsMs = boundsInfo && boundsInfo.shape.length === 2 && boundsInfo.shape[1] === 2
-    ? await decodeTimeVariable(ds, boundsInfo, attr(boundsInfo, 'units') ? boundsInfo : time)
-    : null;
-  return { dimension: time.dimensions[0], variable: time.name, stampsMs, boundsMs };
+  const found = boundsName === undefined ? undefined : ds.variable(boundsName);
+  const boundsInfo = found && found.shape.length === 2 && found.shape[1] === 2 ? found : undefined;
+  const boundsMs = boundsInfo ? await decodeTimeVariable(ds, mapper, boundsInfo, attr(boundsInfo, 'units') ? boundsInfo : time) : null;
+  const months = await monthsOf(ds, time, boundsInfo, referenceMs, stampsMs);
+  return { dimension: time.dimensions[0], variable: time.name, stampsMs, boundsMs, months };
 }
 
 function findMember(ds: Dataset): FileCoordinates['member'] {
@@ -180,8 +195,10 @@ export async function findCoordinates(ds: Dataset): Promise<FileCoordinates> {
     latBounds: await readBounds(ds, latInfo, lat.length),
     lonBounds: await readBounds(ds, lonInfo, lon.length),
   };
-  const referenceMs = await findReference(ds);
-  return { file: ds.path, grid, time: await findTime(ds, referenceMs), referenceMs, member: findMember(ds) };
+  const mapper = new TimeMapper();
+  const referenceMs = await findReference(ds, mapper);
+  const time = await findTime(ds, referenceMs, mapper);
+  return { file: ds.path, grid, time, referenceMs, member: findMember(ds), calendarNote: mapper.note() };
 }
 
 /**

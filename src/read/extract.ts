@@ -6,12 +6,13 @@
  */
 import type { RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
-import type { Quantity, RegionSeries } from '../types.ts';
+import type { Quantity, RegionSeries, Tier } from '../types.ts';
 import { findCoordinates, layoutVariable, type FileCoordinates } from './coordinates.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
 import { dailyMethodFor, planTime, referenceWindowMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
+import { monthlyNote, requireMonthTier, spreadMeansToDays } from './monthly.ts';
 import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
 import { describeShape, selectRegionCells, type RegionCells } from './regions.ts';
@@ -23,11 +24,15 @@ export interface ExtractRequest {
   readonly regions: readonly RegionConfig[];
   /** Expected forecast reference time (ISO 8601, e.g. from the file name); checked against the file. */
   readonly referenceTime?: string;
+  /** The source's tier: a file of monthly values feeds only `months`. */
+  readonly tier?: Tier;
 }
 
 export interface ExtractResult {
   readonly series: RegionSeries[];
   readonly problems: ForelightError[];
+  /** How the file's times were read where a convention decided it (model calendar, monthly values), for run.json. */
+  readonly notes: string[];
 }
 
 function keepOrRethrow(err: unknown, problems: ForelightError[]): void {
@@ -72,9 +77,10 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const series: RegionSeries[] = [];
   const coords = await findCoordinates(ds);
   const wanted = requestedMs(ds.path, request.referenceTime);
+  const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
   const selected = selectAll(coords, request.regions, problems);
   const { band, regions } = planBand(selected.map((s) => s.cells), coords.grid.lat.length, coords.grid.lon.length);
-  if (regions.length === 0) return { series, problems };
+  if (regions.length === 0) return { series, problems, notes };
   for (const [quantity, variable] of Object.entries(request.quantities) as [Quantity, string][]) {
     try {
       const layout = layoutVariable(ds, coords, variable);
@@ -86,11 +92,15 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
         throw new InputError('time-missing', ds.path, `variable '${variable}' has no time axis`, 'map the quantity to a variable with a CF time coordinate');
       }
       const refMs = checkReference(ds.path, window, wanted);
-      const means = await reduceVariable(ds, coords, {
+      const months = coords.time?.months ?? null;
+      if (months) requireMonthTier(ds.path, variable, request.tier);
+      const reduced = await reduceVariable(ds, coords, {
         layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
         utcOffsets: selected.map((s) => s.region.utcOffsetHours),
-        daily: dailyMethodFor(quantity, unitPlan),
+        daily: months ? null : dailyMethodFor(quantity, unitPlan),
       });
+      const means = months ? spreadMeansToDays(ds.path, variable, months, unitPlan.kind, reduced) : reduced;
+      if (months) notes.push(`${ds.path}: ${monthlyNote(variable, months, unitPlan.kind)}`);
       means.forEach((mean, k) => {
         const { region, cells } = selected[k];
         if (!mean.data.some((v) => v === v)) {
@@ -110,7 +120,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
       keepOrRethrow(err, problems);
     }
   }
-  return { series, problems };
+  return { series, problems, notes: [...new Set(notes)] };
 }
 
 /**

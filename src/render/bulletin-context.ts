@@ -2,9 +2,9 @@
  * The variables every bulletin template receives (team e-mail, national summary, archive page, PDF), built
  * once per locale and audience from the region views. No sentence here: templates call `t()`.
  */
-import type { Config, TeamConfig } from '../config/types.ts';
+import type { TeamConfig } from '../config/types.ts';
 import { formatDay } from './locale-format.ts';
-import type { BulletinRun } from './model.ts';
+import type { BulletinRun, RenderConfig } from './model.ts';
 import type { OutlookCell, RegionView } from './region-view.ts';
 import { TIERS, type StageView } from './view-model.ts';
 import type { Translate } from './catalogue.ts';
@@ -29,12 +29,12 @@ export function topStage(regions: readonly RegionView[]): { stage: StageView | n
   return { stage, names: regions.filter((r) => stage !== null && r.stage.rank === stage.rank).map((r) => r.name) };
 }
 
-export function countryName(config: Config, locale: string): string {
+export function countryName(config: RenderConfig, locale: string): string {
   return applyTypography(locale, config.countryNames[locale] ?? config.country);
 }
 
 /** Template variables for one audience (`team` null for the archive) in one locale. */
-export function bulletinContext(config: Config, run: BulletinRun, t: Translate, locale: string, team: TeamConfig | null, regions: readonly RegionView[],
+export function bulletinContext(config: RenderConfig, run: BulletinRun, t: Translate, locale: string, team: TeamConfig | null, regions: readonly RegionView[],
   extra: { issuedDay: string; cautions: readonly string[]; charts: (r: RegionView, indicator: string) => ChartRef | null }) {
   const top = topStage(regions);
   return {

@@ -16,9 +16,8 @@
  * - identifier: `forelight.<runId>.<region>.<indicator>` — stable for a run, unique per region × indicator.
  */
 import type { LeadProbability } from '../types.ts';
-import type { Config } from '../config/types.ts';
 import { escapeXml, toToken, toXmlChars } from './safe-text.ts';
-import type { BulletinRun, CapAlert, PreviousIssue, RegionOutcome, TierOutcome } from './model.ts';
+import type { BulletinRun, CapAlert, PreviousIssue, RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import type { TemplateEnv } from './template-env.ts';
 import { countryName } from './bulletin-context.ts';
 import { buildRegionView, type RegionView } from './region-view.ts';
@@ -67,7 +66,7 @@ export function capPolygon(region: RegionOutcome['region']): string {
 }
 
 /** Sender: the bare address of `delivery.from` (CAP forbids spaces, commas and `<`/`&`). */
-export function capSender(config: Config): string {
+export function capSender(config: RenderConfig): string {
   const m = /<([^>]+)>/.exec(config.delivery.from);
   return (m ? m[1] : config.delivery.from).replace(/[^A-Za-z0-9._@-]/g, '');
 }
@@ -78,7 +77,7 @@ interface IndicatorStage { id: string; name: string; rank: number; stageId: stri
  * Highest stage per indicator of a region; ties go to the shortest tier (listed first in perTier order). Tiers with
  * "no forecast available" take no part; an indicator with no other tier is left out (see DECISIONS.md: no alert).
  */
-function indicatorStages(config: Config, outcome: RegionOutcome): IndicatorStage[] {
+function indicatorStages(config: RenderConfig, outcome: RegionOutcome): IndicatorStage[] {
   const rankOf = stageIndex(config);
   const best = new Map<string, IndicatorStage>();
   for (const t of outcome.perTier) {
@@ -90,7 +89,7 @@ function indicatorStages(config: Config, outcome: RegionOutcome): IndicatorStage
   return [...best.values()];
 }
 
-function localesFor(config: Config, outcome: RegionOutcome): string[] {
+function localesFor(config: RenderConfig, outcome: RegionOutcome): string[] {
   const teams = config.teams.filter((t) => outcome.region.teams.includes(t.id) || t.national);
   const locales = [...new Set(teams.map((t) => t.locale))];
   return locales.length > 0 ? locales : ['en'];
@@ -100,7 +99,7 @@ function el(name: string, value: string | number): string {
   return `<${name}>${escapeXml(toXmlChars(String(value)))}</${name}>`;
 }
 
-function infoXml(config: Config, env: TemplateEnv, outcome: RegionOutcome, ind: IndicatorStage, view: RegionView, locale: string): string {
+function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome, ind: IndicatorStage, view: RegionView, locale: string): string {
   const stage = config.stages[ind.rank];
   const decision = ind.tier.decision;
   const lead = decision.lead ?? ind.tier.probabilities.reduce<LeadProbability | null>((a, p) => (a === null || p.probability > a.probability ? p : a), null);
@@ -142,7 +141,7 @@ function infoXml(config: Config, env: TemplateEnv, outcome: RegionOutcome, ind: 
 }
 
 /** All CAP alerts of a run; `previous` supplies the alerts to Update or Cancel. */
-export function buildCapAlerts(config: Config, env: TemplateEnv, run: BulletinRun, previous?: PreviousIssue): CapAlert[] {
+export function buildCapAlerts(config: RenderConfig, env: TemplateEnv, run: BulletinRun, previous?: PreviousIssue): CapAlert[] {
   const sender = capSender(config);
   const sent = capUtc(run.issuedAt);
   const alerts: CapAlert[] = [];

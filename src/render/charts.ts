@@ -7,9 +7,8 @@
  */
 import { Resvg } from '@resvg/resvg-js';
 import type { Tier } from '../types.ts';
-import type { Config } from '../config/types.ts';
 import { dateTicks, probabilityTicks, textWidth } from './chart-axis.ts';
-import type { RegionOutcome } from './model.ts';
+import type { RegionOutcome, RenderConfig } from './model.ts';
 import { probabilityLines, reachedRank } from './reached-stage.ts';
 import { escapeXml, toToken } from './safe-text.ts';
 import { inkFor, TIERS } from './view-model.ts';
@@ -64,7 +63,7 @@ export interface ChartWords {
 }
 
 /** One chart spec per indicator of a region, panels in days → weeks → months order. */
-export function buildChartSpecs(config: Config, outcome: RegionOutcome, locale: string, words: ChartWords): ChartSpec[] {
+export function buildChartSpecs(config: RenderConfig, outcome: RegionOutcome, locale: string, words: ChartWords): ChartSpec[] {
   const indicators = [...new Map(outcome.perTier.map((t) => [t.indicator.id, t.indicator])).values()];
   const stages = config.stages.map((s) => ({ glyph: s.glyph, label: s.label[locale] ?? s.id, colour: s.colour, ink: inkFor(s.colour) }));
   return indicators.map((ind) => {

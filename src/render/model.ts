@@ -20,7 +20,16 @@
  */
 import type { Diagnostic } from '../core/diagnostics.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
-import type { IndicatorConfig, RegionConfig, StageConfig } from '../config/types.ts';
+import type { Config, IndicatorConfig, RegionConfig, StageConfig } from '../config/types.ts';
+
+/**
+ * The parts of the configuration the render stage reads: country names, teams, indicators (names and
+ * thresholds), the stage ladder, the rules and decision settings (for the wording of why and how sure), the
+ * texts (cautions, probability words), the templates folder and the sender address. Nothing about the files
+ * read, calibration, schedule or the ledger.
+ */
+export type RenderConfig = Pick<Config, 'country' | 'countryNames' | 'teams' | 'indicators' | 'stages' | 'rules' | 'decision' | 'cautions' | 'probabilityWords' | 'templates'>
+  & { readonly delivery: Pick<Config['delivery'], 'from' | 'pdfChromium'> };
 
 export interface ForecastDate {
   /** Source id (`SourceConfig.id`). */

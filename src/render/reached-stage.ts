@@ -4,12 +4,11 @@
  * the decide stage's, after skill gate, caps and persistence. A lead that decided its tier (also through a
  * cost/loss rule, whose probability is tuned at run time) reaches at least the tier's raw stage.
  */
-import type { Config } from '../config/types.ts';
 import type { LeadProbability } from '../types.ts';
-import type { TierOutcome } from './model.ts';
+import type { TierOutcome, RenderConfig } from './model.ts';
 
 /** Ladder rank (0 = lowest) reached by `p` at its lead. NaN probabilities reach the lowest rank. */
-export function reachedRank(config: Config, tier: TierOutcome, p: LeadProbability): number {
+export function reachedRank(config: RenderConfig, tier: TierOutcome, p: LeadProbability): number {
   let rank = 0;
   if (Number.isFinite(p.probability)) {
     config.stages.forEach((s, r) => {
@@ -26,7 +25,7 @@ export function reachedRank(config: Config, tier: TierOutcome, p: LeadProbabilit
 }
 
 /** Rules with a fixed probability for one indicator × tier, each with the leads it applies to (empty = all). */
-export function probabilityLines(config: Config, indicator: string, tierName: TierOutcome['tier']): { probability: number; rank: number; leads: readonly number[] }[] {
+export function probabilityLines(config: RenderConfig, indicator: string, tierName: TierOutcome['tier']): { probability: number; rank: number; leads: readonly number[] }[] {
   return config.rules
     .filter((r) => r.indicator === indicator && r.tier === tierName && r.probability !== undefined)
     .map((r) => ({ probability: r.probability as number, rank: config.stages.findIndex((s) => s.id === r.stage), leads: r.leads }));

@@ -3,12 +3,12 @@
  * dates, how likely, how sure, action, what changed), the outlook strip (hazard × days/weeks/months), short
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
-import type { Config, IndicatorConfig, ThresholdSpec } from '../config/types.ts';
+import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadProbability, Tier } from '../types.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatDayRange, formatNumber } from './locale-format.ts';
-import type { RegionOutcome, TierOutcome } from './model.ts';
+import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
   TIERS, formatThreshold, groupLeads, leadView, noForecastView, stageIndex, sureSentence, toStageView,
   type LeadGroup, type LeadView, type StageView,
@@ -81,7 +81,7 @@ function thresholdWords(t: Translate, locale: string, ind: IndicatorConfig | und
   return formatThreshold(locale, p.threshold.value, p.threshold.units);
 }
 
-function methodLines(t: Translate, locale: string, config: Config, spec: ThresholdSpec | undefined, outcome: TierOutcome, leads: readonly LeadView[]): string[] {
+function methodLines(t: Translate, locale: string, config: RenderConfig, spec: ThresholdSpec | undefined, outcome: TierOutcome, leads: readonly LeadView[]): string[] {
   const p = outcome.probabilities[0];
   const lines: string[] = [];
   const value = p ? formatThreshold(locale, p.threshold.value, p.threshold.units) : '–';
@@ -118,11 +118,11 @@ function missingText(t: Translate, region: RegionOutcome, tiers: readonly TierVi
 }
 
 /** Why the region has its stage: the evidence that drives it, a stage held back by persistence, and any part without data. */
-function whyText(t: Translate, config: Config, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+function whyText(t: Translate, config: RenderConfig, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
   return [evidenceText(t, config, region, tiers, stage, byRank), missingText(t, region, tiers)].filter(Boolean).join(' ');
 }
 
-function evidenceText(t: Translate, config: Config, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+function evidenceText(t: Translate, config: RenderConfig, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
   if (stage.id === NO_FORECAST_ID) return '';
   const rank = (id: string): number => config.stages.findIndex((s) => s.id === id);
   const [driver] = tiers.map((tv, i) => ({ tv, d: region.perTier[i].decision })).filter((x) => !x.d.missing)
@@ -145,7 +145,7 @@ function cellLead(tv: TierView): LeadView | null {
 }
 
 /** Everything the templates need about one region, for one locale and audience. */
-export function buildRegionView(config: Config, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
+export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
   const lookup = stageIndex(config);
   const byRank = config.stages.map((s, r) => toStageView(s, r, locale, audience));
   const none = noForecastView(t);

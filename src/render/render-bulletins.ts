@@ -4,7 +4,7 @@
  * Refuses to render (throws) when a locale in use has no cautions.
  */
 import type { Bulletin } from '../types.ts';
-import type { Config, TeamConfig } from '../config/types.ts';
+import type { TeamConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { ArchiveEntry } from './archive.ts';
 import { bulletinContext, topStage, type ChartRef } from './bulletin-context.ts';
@@ -12,8 +12,9 @@ import type { Translate } from './catalogue.ts';
 import { buildCapAlerts } from './cap.ts';
 import { buildChartSpecs, chartWidth, renderChartPng, renderChartSvg, type ChartSpec } from './charts.ts';
 import { chartWords } from './chart-words.ts';
-import type { BulletinRun, CapAlert, PreviousIssue } from './model.ts';
+import type { BulletinRun, CapAlert, PreviousIssue, RenderConfig } from './model.ts';
 import { buildRegionView, hazardName, type RegionView } from './region-view.ts';
+import { renderPdfs } from './pdf.ts';
 import { renderRunJson } from './run-json.ts';
 import { capHeaderText, toHeaderText, toToken } from './safe-text.ts';
 import { createTemplateEnv } from './template-env.ts';
@@ -25,10 +26,12 @@ export interface RenderedRun {
   readonly json: string;
   /** Everything `writeArchive` needs for this run (keep it in the ledger's list of issued runs). */
   readonly archive: ArchiveEntry;
+  /** Run notes of the render stage (e.g. no PDF because Chromium is missing), also written to run.json. */
+  readonly notes: readonly string[];
 }
 
 /** Cautions of a locale (with its typography); throws when there are none, so no bulletin can go out without them. */
-export function cautionsFor(config: Config, locale: string): readonly string[] {
+export function cautionsFor(config: RenderConfig, locale: string): readonly string[] {
   const list = (config.cautions[locale] ?? []).filter((c) => c.trim() !== '');
   if (list.length === 0) {
     throw new ForelightError('render', 'no-cautions', `config.cautions has no caution text for locale "${locale}"`, `add cautions.${locale} to the config YAML; bulletins are never sent without them`);
@@ -53,7 +56,7 @@ function localDay(iso: string, utcOffsetHours: number): string {
 interface LocaleCharts { specs: Map<string, ChartSpec[]>; svg: Map<string, string>; png: Map<string, Uint8Array> }
 
 /** Render a run for every team, plus CAP, JSON and the archive entry. */
-export async function renderBulletins(config: Config, run: BulletinRun, previous?: PreviousIssue): Promise<RenderedRun> {
+export async function renderBulletins(config: RenderConfig, run: BulletinRun, previous?: PreviousIssue): Promise<RenderedRun> {
   const env = createTemplateEnv(config.templates);
   const nationalTeams = config.teams.filter((t) => t.national);
   const archiveLocale = nationalTeams[0]?.locale ?? config.teams[0]?.locale ?? 'en';
@@ -88,7 +91,7 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
 
   // Check every address before rendering anything, so a bad recipient fails fast and names its team.
   const recipients = new Map(config.teams.map((t) => [t.id, t.recipients.map((a) => cleanAddress(t, a))]));
-  const bulletins: Bulletin[] = [];
+  const drafts: (Omit<Bulletin, 'attachments'> & { attachments: Bulletin['attachments'][number][]; print: string })[] = [];
   for (const team of config.teams) {
     const locale = team.locale;
     const t = env.t(locale);
@@ -109,7 +112,7 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
       }
       return { cid: `${s.key}@forelight`, filename: `${s.key}.png`, contentType: 'image/png', content: png };
     }));
-    bulletins.push({
+    drafts.push({
       id: toToken(`${run.runId}-${team.id}`),
       team: team.id,
       locale,
@@ -118,15 +121,24 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
       html: env.render(`${kind}.html.njk`, locale, ctx),
       text: env.render(`${kind}.txt.njk`, locale, ctx),
       attachments,
+      print: env.render('print.html.njk', locale, ctx),
     });
   }
+  // One printable A4 PDF per bulletin, attached and archived; without Chromium the bulletins go out without it.
+  const printed = await renderPdfs(config.delivery.pdfChromium, drafts.map((d) => ({ key: d.id, html: d.print })));
+  const pdfName = (d: { team: string }) => `forelight-${toToken(run.runId)}-${toToken(d.team)}.pdf`;
+  const bulletins: Bulletin[] = drafts.map(({ print: _print, ...d }) => {
+    const pdf = printed.pdfs.get(d.id);
+    return pdf ? { ...d, attachments: [...d.attachments, { cid: `${d.id}.pdf@forelight`, filename: pdfName(d), contentType: 'application/pdf', content: pdf }] } : d;
+  });
+  const notes = printed.note ? [printed.note] : [];
 
   const archiveViews = views(archiveLocale, nationalTeams[0]?.id ?? 'default', run.regions);
   const at = env.t(archiveLocale);
   const archiveCtx = bulletinContext(config, run, at, archiveLocale, null, archiveViews, {
     issuedDay, cautions: cautionsFor(config, archiveLocale), charts: chartRef(archiveLocale, (key) => `charts/${key}.svg`),
   });
-  const json = renderRunJson(config, run, capAlerts);
+  const json = renderRunJson(config, { ...run, notes: [...(run.notes ?? []), ...notes] }, capAlerts);
   const archive: ArchiveEntry = {
     runId: run.runId,
     issuedAt: run.issuedAt,
@@ -144,10 +156,13 @@ export async function renderBulletins(config: Config, run: BulletinRun, previous
       regionName: run.regions.find((r) => r.region.id === a.region)?.region.name ?? a.region,
       hazard: archiveViews.flatMap((v) => v.indicators).find((i) => i.id === a.indicator)?.hazard ?? a.indicator,
     })),
+    pdfs: bulletins.flatMap((b) => b.attachments.filter((a) => a.contentType === 'application/pdf').map((a) => ({
+      filename: a.filename, team: config.teams.find((t) => t.id === b.team)?.name ?? b.team, base64: Buffer.from(a.content).toString('base64'),
+    }))),
     ladder: config.stages.map((s) => ({ glyph: s.glyph, label: applyTypography(archiveLocale, s.label[archiveLocale] ?? s.id) })),
     json,
   };
-  return { bulletins, capAlerts, json, archive };
+  return { bulletins, capAlerts, json, archive, notes };
 }
 
 /** Subject: each region's stage for a team; for the national summary the top stage and every region at it. */

@@ -23,13 +23,12 @@
  * Numbers are plain JSON numbers (fractions 0..1 for probabilities); NaN and infinities become null.
  */
 import { NO_FORECAST_ID } from '../decide/types.ts';
-import type { Config } from '../config/types.ts';
-import type { BulletinRun, CapAlert } from './model.ts';
+import type { BulletinRun, CapAlert, RenderConfig } from './model.ts';
 
 export const RUN_JSON_SCHEMA = 'forelight-run/2';
 
 /** Serialise a run (2-space indented, stable key order). */
-export function renderRunJson(config: Config, run: BulletinRun, capAlerts: readonly CapAlert[]): string {
+export function renderRunJson(config: RenderConfig, run: BulletinRun, capAlerts: readonly CapAlert[]): string {
   const doc = {
     schema: RUN_JSON_SCHEMA,
     runId: run.runId,

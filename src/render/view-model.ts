@@ -5,11 +5,11 @@
  */
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import type { LeadProbability, SkillSummary, Tier } from '../types.ts';
-import type { Config, StageConfig } from '../config/types.ts';
+import type { StageConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange, formatNumber, formatPercent } from './locale-format.ts';
-import type { TierOutcome } from './model.ts';
+import type { RenderConfig, TierOutcome } from './model.ts';
 import { reachedRank } from './reached-stage.ts';
 import { applyTypography } from './typography.ts';
 
@@ -73,7 +73,7 @@ export function pickLocale(record: Readonly<Record<string, string>> | undefined,
 }
 
 /** Stage ladder lookups for one config. */
-export function stageIndex(config: Config): (id: string) => { stage: StageConfig; rank: number } {
+export function stageIndex(config: RenderConfig): (id: string) => { stage: StageConfig; rank: number } {
   const byId = new Map(config.stages.map((stage, rank) => [stage.id, { stage, rank }]));
   return (id) => {
     const hit = byId.get(id);
@@ -113,7 +113,7 @@ export function toStageView(stage: StageConfig, rank: number, locale: string, au
 }
 
 /** Word for a probability from `config.probabilityWords` (first band whose `below` exceeds p; else the last); '–' for NaN. */
-export function probabilityWord(config: Config, p: number, locale: string): string {
+export function probabilityWord(config: RenderConfig, p: number, locale: string): string {
   if (!Number.isFinite(p)) return '–';
   const bands = config.probabilityWords;
   if (bands.length === 0) throw new ForelightError('render', 'no-probability-words', 'probability-words is empty', 'add probability word bands under probability-words: in the config YAML');
@@ -133,7 +133,7 @@ export function formatThreshold(locale: string, value: number, units: string): s
  * Confidence level from the skill gate's score. Cut points (common practice, no source): ROC area 0.8 and 0.7
  * (0.5 = no discrimination), Brier skill score 0.3 and 0.1 (0 = no better than the normal-year frequency).
  */
-export function sureLevel(config: Config, skill: SkillSummary | null): SureLevel {
+export function sureLevel(config: RenderConfig, skill: SkillSummary | null): SureLevel {
   if (!skill) return 'unchecked';
   if (!skill.skilful) return 'none';
   const score = skill[config.decision.skillGate.score];
@@ -147,7 +147,7 @@ export function sureSentence(t: Translate, lead: Pick<LeadView, 'sure' | 'cases'
   return lead.potential && lead.sure !== 'none' && lead.sure !== 'unchecked' ? `${main} ${t('sure.potential')}` : main;
 }
 
-export function leadView(config: Config, p: LeadProbability, outcome: TierOutcome, locale: string, stageAt: (rank: number) => StageView): LeadView {
+export function leadView(config: RenderConfig, p: LeadProbability, outcome: TierOutcome, locale: string, stageAt: (rank: number) => StageView): LeadView {
   const withheld = outcome.decision.withheldLeads.some((w) => w.index === p.lead.index && w.tier === p.lead.tier);
   const deciding = outcome.decision.lead !== null && outcome.decision.lead.lead.index === p.lead.index;
   const skill = p.skill;

@@ -35,10 +35,9 @@ export async function waitForInputs(
   expectedPaths: readonly string[],
   deadline: Date,
   pollSeconds: number,
-  sleep?: (ms: number) => Promise<void>,
-  now: () => Date = () => new Date(),
-  signal?: AbortSignal,
+  options: { readonly sleep?: (ms: number) => Promise<void>; readonly now?: () => Date; readonly signal?: AbortSignal } = {},
 ): Promise<ArrivalResult> {
+  const { sleep, now = () => new Date(), signal } = options;
   const pause = sleep ? (ms: number) => abortable(sleep(ms), signal) : (ms: number) => timer(ms, signal);
   const lastSize = new Map<string, number>();
   const arrived = new Set<string>();

@@ -9,7 +9,6 @@
  * the ledger, the service catches up with ONE run, however many slots were missed (each run issues the newest
  * forecast anyway).
  */
-import { Cron } from 'croner';
 import type { Config } from '../config/types.ts';
 import { describeError } from '../core/errors.ts';
 import { openLedger } from '../ledger/open-ledger.ts';
@@ -17,7 +16,7 @@ import { lastCompletedRun } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
 import { EXIT, type ExitCode } from '../core/exit-codes.ts';
 import { acquireLock } from './lock-file.ts';
-import { checkCron, checkTimeZone, computeNextRuns } from '../core/next-runs.ts';
+import { checkCron, checkTimeZone, computeNextRuns, wakeAtSlots } from '../core/next-runs.ts';
 import { makeRunReport, nextStatus, readStatus, withServicePid, writeStatus, type RunReport } from './status-file.ts';
 
 export interface RunContext {
@@ -141,7 +140,7 @@ export async function runService(options: ServiceOptions): Promise<void> {
     inFlight = runSlot(due, reason).finally(() => { inFlight = null; });
   };
 
-  const task = new Cron(expr, { timezone, mode: '5-or-6-parts', domAndDow: false, protect: true }, wake);
+  const task = wakeAtSlots(expr, timezone, wake);
   const backstop = setInterval(wake, (options.checkEverySeconds ?? 60) * 1000);
   log.info('service started', { cron: expr, timezone, nextRun: nextRun(), lastRunAt: lastRunAt.toISOString() });
   wake();

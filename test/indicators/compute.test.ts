@@ -50,6 +50,8 @@ describe('feels-like indicators on Tmax with the day\'s humidity', () => {
     const dew = regionSeries('dewpoint', days, 1, f(21, 21, 21));
     const hx = computeIndicator(indicator('humidex', { basis: 'tmean' }), inputsOf(tmax, tmean, dew));
     expect(hx.data[0]).toBeCloseTo(28 + 0.5555 * (6.11 * Math.exp(5417.753 * (1 / 273.16 - 1 / (21 + 273.15))) - 10), 10);
+    // A hand-made config bypasses the load-time schema; the type refuses it and so does the computation.
+    // @ts-expect-error basis 'tmin' is not a basis
     expect(() => computeIndicator(indicator('humidex', { basis: 'tmin' }), inputsOf(tmax, tmean, dew))).toThrow(/params.basis/);
   });
 });
@@ -121,5 +123,27 @@ describe('day-of-year percentile threshold', () => {
     expect(thr('2024-02-29')).toBe(percentileLinear(pooled, 90));
     expect(thr('2023-07-01')).toBeNaN();
     expect(() => dayOfYearPercentileThreshold(values, 90, 4)).toThrow(/odd/);
+  });
+});
+
+describe('running means (common practice, no source): tmin-mean and tmean-mean', () => {
+  it('tmin-mean: trailing mean over window-days, the antecedent days filling the first window', () => {
+    const tmin = regionSeries('tmin', days, 2, f(20, 22, 24, 10, 11, 12));
+    const r = computeIndicator(indicator('tmin-mean', {}, 2), inputsOf(tmin), { antecedent: { tmin: f(18) } });
+    expect(Array.from(r.data)).toEqual([19, 21, 23, 14, 10.5, 11.5]);
+    expect(r.units).toBe('degC');
+    const noAntecedent = computeIndicator(indicator('tmin-mean', {}, 2), inputsOf(tmin));
+    expect(noAntecedent.data[0]).toBeNaN();
+    expect(noAntecedent.missing).toBe(2);
+  });
+  it('tmean-mean: the tmean series when given, else (tmax + tmin)/2 with a note', () => {
+    const tmax = regionSeries('tmax', days, 1, f(30, 32, 34));
+    const tmin = regionSeries('tmin', days, 1, f(20, 22, 20));
+    const fromMaxMin = computeIndicator(indicator('tmean-mean', {}, 2), inputsOf(tmax, tmin));
+    expect(Array.from(fromMaxMin.data)).toEqual([NaN, 26, 27]);
+    expect(fromMaxMin.notes).toEqual(['daily mean temperature taken as (tmax + tmin)/2']);
+    const direct = computeIndicator(indicator('tmean-mean', {}, 2), inputsOf(tmax, tmin, regionSeries('tmean', days, 1, f(24, 26, 28))));
+    expect(Array.from(direct.data)).toEqual([NaN, 25, 27]);
+    expect(direct.notes).toEqual([]);
   });
 });

@@ -1,5 +1,6 @@
 /** Builders for indicator tests: invented Veloria region series and indicator configs (no real data). */
 import type { IndicatorConfig, IndicatorKind } from '../../src/config/types.ts';
+import type { IndicatorParams } from '../../src/indicators/registry.ts';
 import { CANONICAL_UNITS, type IsoDate, type Quantity, type RegionSeries } from '../../src/types.ts';
 import { addDays } from '../../src/core/iso-dates.ts';
 
@@ -18,11 +19,12 @@ export function inputsOf(...series: RegionSeries[]): Map<Quantity, RegionSeries>
   return new Map(series.map((s) => [s.quantity, s]));
 }
 
-export function indicator(kind: IndicatorKind, params: IndicatorConfig['params'] = {}, windowDays = 3): IndicatorConfig {
+/** An indicator of `kind` (every kind's params are optional, so `{}` fits each). */
+export function indicator<K extends IndicatorKind>(kind: K, params: IndicatorParams<K> = {} as IndicatorParams<K>, windowDays = 3): IndicatorConfig {
   return {
     id: `test-${kind}`, name: kind, kind, windowDays, threshold: { kind: 'percentile', percentile: 90 },
     regionThresholds: {}, aggregate: 'mean', tiers: ['days'], params,
-  };
+  } as IndicatorConfig;
 }
 
 /** Deterministic uniform 0..1 generator (mulberry32), so the fixtures are reproducible. */

@@ -21,6 +21,7 @@ import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
 import { silentLogger } from '../../src/core/log.ts';
+import { runContext } from '../../src/core/run-context.ts';
 import { NO_FORECAST_ID, stageRank } from '../../src/decide/types.ts';
 import { openLedger } from '../../src/ledger/open-ledger.ts';
 import { lastIssuedStages } from '../../src/ledger/results.ts';
@@ -108,7 +109,7 @@ async function issue(name: string, options: { forecastDir?: string; edit?: (c: C
   const ledgerBefore = openLedger(config.ledger);
   const before = new Map(issuedRegionStages(config, lastIssuedStages(ledgerBefore)).map((r) => [r.region, r.stageId]));
   ledgerBefore.close();
-  const outcome = await runOnce({ config, log: silentLogger, issueDate: ISSUE, mode: 'exercise', now: () => new Date(`${ISSUE}T07:30:00Z`), deliver: { sleep: async () => {}, env: options.env } });
+  const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }), mode: 'exercise', deliver: { sleep: async () => {}, env: options.env } });
   const ledger = openLedger(config.ledger);
   const stages = new Map(issuedRegionStages(config, lastIssuedStages(ledger)).map((r) => [r.region, r.stageId]));
   ledger.close();
@@ -133,7 +134,7 @@ beforeAll(async () => {
   base = await loadConfig();
   historyDir = tmp('history');
   const config = configFor(historyDir, sampleDir, join(historyDir, 'cache'));
-  for (const d of HISTORY) await runOnce({ config, log: silentLogger, issueDate: d, mode: 'exercise', now: () => new Date(`${d}T07:30:00Z`) });
+  for (const d of HISTORY) await runOnce({ config, run: runContext({ log: silentLogger, issueDate: d, now: () => new Date(`${d}T07:30:00Z`) }), mode: 'exercise' });
   clean = await issue('clean');
 }, 600_000);
 

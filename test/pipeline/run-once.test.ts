@@ -16,6 +16,7 @@ import type { Config } from '../../src/config/types.ts';
 import { formatDiagnostic, isDiagnostic, type Diagnostic } from '../../src/core/diagnostics.ts';
 import { ForelightError } from '../../src/core/errors.ts';
 import { silentLogger } from '../../src/core/log.ts';
+import { runContext } from '../../src/core/run-context.ts';
 import { runOnce } from '../../src/pipeline/run-once.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
 import { generateSample } from '../../src/sample/generate.ts';
@@ -57,7 +58,7 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
   beforeAll(async () => {
     config = isolatedConfig(base, mkdtempSync(join(tmpdir(), 'forelight-run-')), sampleDir);
     for (const issueDate of ISSUES) {
-      outcomes.push(await runOnce({ config, log: silentLogger, issueDate, mode: 'exercise', now: () => new Date(`${issueDate}T07:30:00Z`) }));
+      outcomes.push(await runOnce({ config, run: runContext({ log: silentLogger, issueDate, now: () => new Date(`${issueDate}T07:30:00Z`) }), mode: 'exercise' }));
     }
   }, 240_000);
 
@@ -117,7 +118,7 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
 
   it('re-running the newest issue sends nothing new (nothing-new, exit 5) and tells the operators', async () => {
     const before = filesUnder(config.delivery.outbox, '.eml').length;
-    const again = await runOnce({ config, log: silentLogger, issueDate: '2026-11-30', mode: 'exercise' });
+    const again = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-30' }), mode: 'exercise' });
     expect(again.exitCode).toBe(EXIT.nothingNew);
     const after = filesUnder(config.delivery.outbox, '.eml');
     expect(after.length).toBe(before + 1);
@@ -133,7 +134,7 @@ describe('one bad source never stops the others', () => {
     const bad = join(copy, 'short', 'short_20261126.nc');
     truncateSync(bad, 5000);
     const config = isolatedConfig(base, dir, copy);
-    const outcome = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' });
+    const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' });
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     const db = new Database(config.ledger, { readonly: true });
     try {
@@ -167,7 +168,7 @@ describe('one bad source never stops the others', () => {
     // Unusable is the same as late: every forecast within the look-back must be damaged for nothing to be usable.
     const forecasts = ['short/short_20261123.nc', 'short/short_20261126.nc', 'subseasonal/subs_20261123.nc', 'subseasonal/subs_20261126.nc', 'seasonal/seas_20261126.nc'].map((f) => join(copy, f));
     for (const f of forecasts) truncateSync(f, 5000);
-    const failed = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' }).catch((e: unknown) => e);
+    const failed = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' }).catch((e: unknown) => e);
     expect(failed).toBeInstanceOf(ForelightError);
     expect((failed as ForelightError).code).toBe('no-forecast-read');
     const db = new Database(config.ledger, { readonly: true });
@@ -192,7 +193,7 @@ describe('one bad source never stops the others', () => {
     cpSync(sampleDir, copy, { recursive: true });
     copyFileSync(join(copy, 'manifest.json'), join(copy, 'observed', 'observed_daily.nc'));
     const config = isolatedConfig(base, dir, copy);
-    const outcome = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' });
+    const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' });
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
     const db = new Database(config.ledger, { readonly: true });
@@ -211,7 +212,7 @@ describe('one bad source never stops the others', () => {
     // The 2010 sub-seasonal hindcast replaced by the short-range one of 2010 (0.5° instead of 1°).
     copyFileSync(join(copy, 'short', 'hindcast', 'short_20101126.nc'), join(copy, 'subseasonal', 'hindcast', 'subs_20101126.nc'));
     const config = isolatedConfig(base, dir, copy);
-    const outcome = await runOnce({ config, log: silentLogger, issueDate: '2026-11-26', mode: 'exercise' });
+    const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' });
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     const db = new Database(config.ledger, { readonly: true });
     try {

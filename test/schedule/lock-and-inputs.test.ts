@@ -64,7 +64,7 @@ describe('data arrival', () => {
       if (polls === 1) writeFileSync(a, 'complete');
       if (polls <= 3) appendFileSync(b, 'chunk');
     };
-    const result = await waitForInputs([a, b], new Date(Date.now() + 60_000), 1, sleep);
+    const result = await waitForInputs([a, b], new Date(Date.now() + 60_000), 1, { sleep });
     expect(result).toEqual({ arrived: [a, b], missing: [] });
     expect(polls).toBe(4);
   });
@@ -74,7 +74,7 @@ describe('data arrival', () => {
     const p = join(dir, 'fc_20261126.nc');
     let t = Date.parse('2026-11-26T06:00:00Z');
     const slept: number[] = [];
-    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, async (ms) => { slept.push(ms); t += ms; }, () => new Date(t));
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, { sleep: async (ms) => { slept.push(ms); t += ms; }, now: () => new Date(t) });
     expect(result).toEqual({ arrived: [], missing: [p] });
     expect(slept).toEqual([240_000, 240_000, 120_000]);
   });
@@ -84,14 +84,14 @@ describe('data arrival', () => {
     const p = join(dir, 'fc_20261126.nc');
     writeFileSync(p, 'complete');
     const slept: number[] = [];
-    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, async (ms) => { slept.push(ms); });
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, { sleep: async (ms) => { slept.push(ms); } });
     expect(result).toEqual({ arrived: [p], missing: [] });
     expect(slept).toEqual([2000]);
   });
 
   it('an aborted signal (service stop) ends the wait at once', async () => {
     const stop = new AbortController();
-    const waiting = waitForInputs([join(tempDir('abort'), 'never.nc')], new Date(Date.now() + 3_600_000), 60, undefined, undefined, stop.signal);
+    const waiting = waitForInputs([join(tempDir('abort'), 'never.nc')], new Date(Date.now() + 3_600_000), 60, { signal: stop.signal });
     stop.abort();
     const t0 = Date.now();
     expect((await waiting).missing).toHaveLength(1);

@@ -9,8 +9,8 @@ import { commandContext } from '../context.ts';
 import { progressBar } from '../progress.ts';
 
 export async function backtestCommand(args: ParsedArgs): Promise<number> {
-  const { config, log, issueDate } = await commandContext(args, 'backtest');
-  const analysis = await analyse(config, issueDate, log, progressBar('backtest'));
+  const { config, run } = await commandContext(args, 'backtest');
+  const analysis = await analyse(config, run, { onProgress: progressBar('backtest') });
   const cases = backtestCases(config, analysis);
   const rows = backtestRules(config, cases, { thresholdsFromCostLoss: tunedThresholds(analysis) });
   process.stdout.write(formatBacktest(rows, args.options.csv ? 'csv' : 'text'));

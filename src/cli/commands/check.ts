@@ -6,8 +6,9 @@
 import { checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
 import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
-import { formatDiagnostic, type Diagnostic } from '../../core/diagnostics.ts';
+import { diagnostic, formatDiagnostic, type Diagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
+import { pdfUnavailable } from '../../render/pdf.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 
 export async function checkCommand(args: ParsedArgs): Promise<number> {
@@ -18,6 +19,8 @@ export async function checkCommand(args: ParsedArgs): Promise<number> {
     const extents = await sourceGridExtents(config);
     notes.push(...extents.notes);
     all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
+    const pdf = pdfUnavailable(config.delivery.pdfChromium);
+    if (pdf) notes.push(diagnostic('pdf-unavailable', pdf, '', { pointer: '/delivery/pdf-chromium' }));
   }
   for (const p of all) process.stderr.write(formatDiagnostic(p) + '\n');
   for (const n of notes) process.stderr.write(`note: ${formatDiagnostic(n)}\n`);

@@ -7,6 +7,7 @@ import { existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { loadConfig } from '../../config/load-config.ts';
 import { createLogger } from '../../core/log.ts';
+import { runContext } from '../../core/run-context.ts';
 import { packagePath } from '../../core/package-root.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../core/exit-codes.ts';
@@ -34,7 +35,7 @@ export async function demoCommand(args: ParsedArgs): Promise<number> {
   let worst: number = EXIT.ok;
   for (const issueDate of SAMPLE_ISSUE_DATES) {
     say(`issue of ${issueDate} ...`);
-    const outcome = await runOnce({ config, log, issueDate, mode: 'exercise', now: () => new Date(`${issueDate}T07:30:00Z`) });
+    const outcome = await runOnce({ config, run: runContext({ log, issueDate, now: () => new Date(`${issueDate}T07:30:00Z`) }), mode: 'exercise' });
     say(`  ${outcome.summary}`);
     if (outcome.exitCode !== EXIT.ok && outcome.exitCode !== EXIT.inputProblem) worst = outcome.exitCode;
   }

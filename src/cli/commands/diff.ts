@@ -8,8 +8,9 @@ import { commandContext } from '../context.ts';
 import { progressBar } from '../progress.ts';
 
 export async function diffCommand(args: ParsedArgs): Promise<number> {
-  const { config, log, issueDate } = await commandContext(args, 'diff');
-  const { analysis, decided, previous } = await decideNow(config, issueDate, log, progressBar('diff'));
+  const { config, run } = await commandContext(args, 'diff');
+  const { issueDate } = run;
+  const { analysis, decided, previous } = await decideNow(config, run, { onProgress: progressBar('diff') });
   const label = (id: string | null) => {
     const s = config.stages.find((x) => x.id === id);
     return s ? `${s.glyph} ${s.label.en ?? s.id}` : 'none';

@@ -23,14 +23,15 @@ function ensembleSummaries(leads: LeadValues, units: string): Map<number, Ensemb
 }
 
 export async function explainCommand(args: ParsedArgs): Promise<number> {
-  const { config, log, issueDate } = await commandContext(args, 'explain');
+  const { config, run } = await commandContext(args, 'explain');
+  const { issueDate } = run;
   const region = stringOption(args, 'region');
   const indicator = stringOption(args, 'indicator');
   const tier = stringOption(args, 'tier') as Tier | undefined;
   if (!region || !config.regions.some((r) => r.id === region)) throw usageError(`--region must be one of ${config.regions.map((r) => r.id).join(', ')}`);
   if (!indicator || !config.indicators.some((i) => i.id === indicator)) throw usageError(`--indicator must be one of ${config.indicators.map((i) => i.id).join(', ')}`);
   if (!tier || !TIERS.includes(tier)) throw usageError(`--tier must be one of ${TIERS.join(', ')}`);
-  const { analysis, decided, history } = await decideNow(config, issueDate, log);
+  const { analysis, decided, history } = await decideNow(config, run);
   const decision = decided.decisions.find((d) => d.region === region && d.indicator === indicator && d.tier === tier);
   if (!decision) {
     process.stdout.write(`no decision for ${region} × ${indicator} × ${tier} on ${issueDate}: no source of tier ${tier} computes this indicator, or its data were skipped\n`);

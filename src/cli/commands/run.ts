@@ -32,7 +32,7 @@ function recordStatus(config: Config, report: RunReport): boolean {
 
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
-  const { config, log, issueDate } = await commandContext(args, 'run');
+  const { config, run } = await commandContext(args, 'run');
   const { lockPath } = servicePaths(config.ledger);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
@@ -42,7 +42,7 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   }
   const startedAt = new Date();
   try {
-    const outcome = await runOnce({ config, log, issueDate, mode: 'live', force: args.options.force === true });
+    const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true });
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
     for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);

@@ -5,6 +5,7 @@
  */
 import { loadConfig } from '../../config/load-config.ts';
 import { createLogger } from '../../core/log.ts';
+import { runContext } from '../../core/run-context.ts';
 import { localDate } from '../../pipeline/bulletin-run.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../core/exit-codes.ts';
@@ -23,10 +24,10 @@ export async function serveCommand(args: ParsedArgs): Promise<number> {
       // Seasonal (months-tier) forecasts come once a month: the newest one is used, nobody waits for it.
       const expected = config.sources.filter((s) => s.tier !== 'months').map((s) => forecastPath(s.forecast, issueDate));
       const deadline = new Date(slot.getTime() + config.schedule.waitForDataMinutes * 60_000);
-      const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, undefined, undefined, signal);
+      const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, { signal });
       if (arrival.missing.length > 0) rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
       if (signal.aborted) return { exitCode: EXIT.stopped, summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it` };
-      return runOnce({ config, log: rlog, issueDate, mode: 'live' });
+      return runOnce({ config, run: runContext({ log: rlog, issueDate, signal }), mode: 'live' });
     },
   });
   return EXIT.ok;

@@ -13,9 +13,9 @@ import { commandContext } from '../context.ts';
 import { progressBar } from '../progress.ts';
 
 export async function skillCommand(args: ParsedArgs): Promise<number> {
-  const { config, log, issueDate } = await commandContext(args, 'skill');
+  const { config, run } = await commandContext(args, 'skill');
   const format = args.options.csv ? 'csv' : 'text';
-  const analysis = await analyse(config, issueDate, log, progressBar('skill'));
+  const analysis = await analyse(config, run, { onProgress: progressBar('skill') });
   const entries = analysis.sources.flatMap((s) =>
     [...s.climates.entries()].flatMap(([key, climate]) => {
       const [region, indicator] = key.split('|');

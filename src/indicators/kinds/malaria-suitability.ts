@@ -1,0 +1,67 @@
+/**
+ * Indicator kind malaria-suitability: monthly climate suitability for Plasmodium transmission (fuzzy AND of the
+ * Craig et al. 1999 memberships and a temperature model), put on every day of the month it speaks for
+ * (data month + lag-months). Parameters and defaults: parseMalariaParams (malaria-monthly.ts).
+ */
+import { datesOfMonth } from '../../core/iso-dates.ts';
+import { defineIndicator, paramsSchema } from '../definition.ts';
+import { meanTemperature } from '../kind-inputs.ts';
+import { monthlySuitability, parseMalariaParams } from '../malaria-monthly.ts';
+import { checkAligned, requireQuantity } from '../series-checks.ts';
+
+export type MalariaSuitabilityParams = {
+  readonly species?: 'falciparum' | 'vivax' | 'P. falciparum' | 'P. vivax';
+  readonly temperatureModel?: 'martens-detinova' | 'mordecai-2013';
+  readonly lagMonths?: 1 | 2;
+  readonly minMonthCoverage?: number;
+  readonly marginalAt?: number;
+  readonly suitableAt?: number;
+};
+
+const DEFAULTS = parseMalariaParams({ id: 'defaults', params: {} });
+const fraction = (what: string, dflt: number) => ({ type: 'number', minimum: 0, maximum: 1, default: dflt, description: what });
+
+export const definition = defineIndicator<'malaria-suitability', MalariaSuitabilityParams>({
+  kind: 'malaria-suitability',
+  units: '1',
+  needs: [['tmean', 'tmax'], ['tmean', 'tmin'], ['precip']],
+  params: paramsSchema({
+    species: { enum: ['falciparum', 'vivax', 'P. falciparum', 'P. vivax'], default: DEFAULTS.species, description: 'Plasmodium species (sporogony constants).' },
+    'temperature-model': {
+      enum: ['martens-detinova', 'mordecai-2013'], default: DEFAULTS.temperatureModel,
+      description: 'Temperature term: survival through sporogony (Martens, Detinova) or relative R0 (Mordecai, P. falciparum only).',
+    },
+    'lag-months': { enum: [1, 2], default: DEFAULTS.lagMonths, description: 'Months from the weather to the transmission it shapes.' },
+    'min-month-coverage': fraction('Fraction of a month the forecast must cover for an index.', DEFAULTS.minMonthCoverage),
+    'marginal-at': fraction('Index from which a month is marginal.', DEFAULTS.marginalAt),
+    'suitable-at': fraction('Index from which a month is suitable.', DEFAULTS.suitableAt),
+  }),
+  checkParams: (ind) => void parseMalariaParams(ind),
+  describe: {
+    name: 'Malaria climate suitability',
+    description: 'Monthly index 0..1: min(Craig temperature and rainfall memberships, temperature model), lagged by lag-months.',
+    references: ['craigSnowLeSueur1999', 'martens1997', 'detinova1962', 'mordecai2013'],
+  },
+  compute(ind, inputs) {
+    const notes: string[] = [];
+    const p = parseMalariaParams(ind);
+    const t = meanTemperature(ind, inputs, notes);
+    const pr = requireQuantity(inputs, 'precip', ind.id, 'monthly rainfall for the Craig membership');
+    checkAligned([t, pr]);
+    const months = monthlySuitability(t.days, t.members, t.data, pr.data, p).filter((mo) => {
+      const ok = mo.forecastDays / mo.daysInMonth >= p.minMonthCoverage;
+      if (!ok) notes.push(`month ${mo.dataMonth} has forecast for ${mo.forecastDays} of ${mo.daysInMonth} days: no index for ${mo.targetMonth}`);
+      return ok;
+    });
+    const days = months.flatMap((mo) => datesOfMonth(mo.targetMonth));
+    const data = new Float64Array(t.members * days.length);
+    let col = 0;
+    for (const mo of months) {
+      const n = datesOfMonth(mo.targetMonth).length;
+      for (let m = 0; m < t.members; m++) data.fill(mo.index[m], m * days.length + col, m * days.length + col + n);
+      col += n;
+    }
+    notes.push(`monthly index (month + ${p.lagMonths} lag) repeated on every day of the month it speaks for`);
+    return { template: t, data, outOfRange: 0, notes, days };
+  },
+});
