@@ -14,7 +14,7 @@ describe('decideStages with config/forelight.yaml', async () => {
       prob('kessan-lowlands', 'days', 2, 0.9, 0.8, 'heat-index'),
       prob('tulva-delta', 'months', 2, 0.95, 0.8, 'malaria-pf'),
     ];
-    const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: new Map([[tunedKey('kessan-lowlands', 'heat-index-days-mindful'), 0.25]]) });
+    const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: new Map([[tunedKey('kessan-lowlands', 'heat-index-days-mindful'), 0.25]]), expectedTiers: new Set(config.sources.map((s) => s.tier)) });
     expect(decisions.filter((d) => !d.missing).map((d) => [d.region, d.indicator, d.tier, d.rawStageId, d.stageId])).toEqual([
       ['kessan-lowlands', 'heat-index', 'days', 'act-now', 'act-now'],
       ['tulva-delta', 'malaria-pf', 'months', 'mindful', 'quiet'],
