@@ -5,8 +5,7 @@
  * - the newest file of each tier damaged with real tools (NCO ncrename/ncatted/ncks, nccopy, netCDF4-python):
  *   truncated classic, truncated NetCDF-4, renamed variable, no units, all values missing, another grid;
  * - an empty file and a folder at the newest short-range path; a region without grid cells;
- * - outputs: a read-only archive and a full disk under the archive (real tmpfs), a refused SMTP login (535) from a
- *   real smtp-server on 127.0.0.1.
+ * - a refused SMTP login (535) from a real smtp-server on 127.0.0.1 (disk faults of the outputs: test/core/write-atomic.test.ts).
  * For each: the exit code; no region below its previous stage or below the clean run purely because data vanished;
  * the bulletin names the missing part (or the older forecast used); an operator notice; every team still gets its
  * bulletin, each Message-ID once.
@@ -16,7 +15,7 @@ import { copyFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, 
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import { simpleParser } from 'mailparser';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
@@ -29,7 +28,6 @@ import { runOnce, type RunOutcome } from '../../src/pipeline/run-once.ts';
 import { issuedRegionStages } from '../../src/pipeline/bulletin-run.ts';
 import { generateSample } from '../../src/sample/generate.ts';
 import { startSmtp, type SmtpFixture } from '../deliver/fixtures.ts';
-import { fill, mountFaults, mountTmpfs, type Mounted } from '../support/small-disk.ts';
 
 const HISTORY = ['2026-11-23', '2026-11-26'];
 const ISSUE = '2026-11-30';
@@ -40,7 +38,6 @@ type SourceId = keyof typeof NEWEST;
 let sampleDir: string;
 let base: Config;
 let historyDir: string;
-const mounts: Mounted[] = [];
 
 const tmp = (p: string) => mkdtempSync(join(tmpdir(), `forelight-fault-${p}-`));
 
@@ -138,10 +135,6 @@ beforeAll(async () => {
   clean = await issue('clean');
 }, 600_000);
 
-afterAll(() => {
-  for (const m of mounts.splice(0)) m.unmount();
-});
-
 const recipients = () => base.teams.reduce((n, t) => n + t.recipients.length, 0);
 const rank = (id: string | undefined) => (id === undefined || id === NO_FORECAST_ID ? -1 : stageRank(base.stages, id));
 
@@ -213,29 +206,6 @@ describe('a region without grid cells', () => {
     for (const region of base.regions) expect(s.stages.get(region.id)).toBe(clean.stages.get(region.id));
     expect(s.texts.some((t) => /FAR ISLE: ⊘ No forecast available/.test(t))).toBe(true);
     expect(s.texts.some((t) => /Far Isle: Quiet/.test(t))).toBe(false);
-  }, 240_000);
-});
-
-describe.skipIf(!mountFaults())('output faults (real tmpfs; needs root to mount)', () => {
-  it.each([
-    ['read-only archive folder (EROFS)', (m: Mounted) => m.readOnly(), /EROFS/],
-    ['full disk under the archive (ENOSPC)', (m: Mounted) => fill(m.dir), /ENOSPC/],
-  ])('%s: the e-mails still go out, the archive fault is named with the fix, exit 4, notice', async (_name, fault, code) => {
-    const disk = mountTmpfs(256);
-    mounts.push(disk);
-    const s = await issue(`archive-${_name}`, {
-      edit: (c, dir) => {
-        cpSync(join(dir, 'archive'), disk.dir, { recursive: true });
-        fault(disk);
-        return { ...c, delivery: { ...c.delivery, archive: disk.dir } };
-      },
-    });
-    expect(s.outcome.exitCode).toBe(EXIT.deliveryFailed);
-    expect(s.outcome.summary).toMatch(code);
-    expect(s.outcome.summary).toContain(disk.dir);
-    expectSafe(s);
-    expect(s.notices.some((n) => /outputs not written/.test(n))).toBe(true);
-    expect(readdirSync(disk.dir, { recursive: true, encoding: 'utf8' }).filter((f) => f.includes('.tmp-'))).toEqual([]);
   }, 240_000);
 });
 
