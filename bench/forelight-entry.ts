@@ -42,6 +42,7 @@ const toRegionConfig = (r: BenchRegion): RegionConfig => ({
   name: r.id,
   shape: { kind: 'box', south: r.south, north: r.north, west: r.west, east: r.east },
   utcOffsetHours: 0,
+  cellRule: 'centre' as const,
   teams: [],
 });
 
@@ -72,7 +73,7 @@ const INDICATORS: readonly IndicatorConfig[] = (
 export function benchConfig(base: Config, forecast: string, hindcastPattern: string, regions: readonly BenchRegion[], cacheDir: string): Config {
   return {
     ...base,
-    sources: [{ id: 'bench', name: 'bench ensemble', tier: 'weeks', forecast, hindcast: hindcastPattern, variables: QUANTITIES, priority: 1 }],
+    sources: [{ id: 'bench', name: 'bench ensemble', tier: 'weeks', forecast, hindcast: hindcastPattern, variables: QUANTITIES, priority: 1, lookbackDays: 10 }],
     observations: null,
     regions: regions.map(toRegionConfig),
     teams: [],

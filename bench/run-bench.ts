@@ -14,6 +14,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { makeBenchInputs, type BenchMode } from './make-large-inputs.ts';
+import { regionWeightsBench } from './region-weights-bench.ts';
 import { describeMachine, measure, median } from './measure.ts';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
@@ -150,6 +151,8 @@ function formatTable(results: readonly SetResult[], runs: number): string[] {
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  process.stdout.write(`${regionWeightsBench().join('\n')}\n\n`);
+  if (process.argv.includes('--weights-only')) process.exit(0);
   const mode: BenchMode = process.argv.includes('--small') ? 'small' : 'full';
   const runs = Number(argValue('--runs') ?? 3);
   if (!Number.isInteger(runs) || runs < 1) throw new Error(`--runs must be a positive integer, got ${argValue('--runs')}`);

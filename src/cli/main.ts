@@ -25,8 +25,8 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   run: {
     summary: 'one pass now over the newest inputs: read, compute, decide, render, deliver',
-    usage: 'forelight run [--config FILE] [--date YYYY-MM-DD] [--force] [--dry-run]',
-    spec: { values: ['config', 'date'], flags: ['force', 'dry-run'] },
+    usage: 'forelight run [--config FILE] [--date YYYY-MM-DD] [--force] [--dry-run] [--cluster redis://HOST:PORT]',
+    spec: { values: ['config', 'date', 'cluster'], flags: ['force', 'dry-run'] },
     run: async (a) => (await import('./commands/run.ts')).runCommand(a),
   },
   check: {
@@ -37,9 +37,15 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   extract: {
     summary: 'print the decoded, area-weighted region series of one file as JSON',
-    usage: 'forelight extract <file> --var NAME --box S,N,W,E [--daily max|min|mean|sum] [--utc-offset H] --json',
-    spec: { values: ['var', 'box', 'daily', 'utc-offset'], flags: ['json'] },
+    usage: 'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] --json',
+    spec: { values: ['var', 'box', 'regions', 'id-property', 'name-property', 'daily', 'utc-offset', 'time-zone', 'cells'], flags: ['json'] },
     run: async (a) => (await import('./commands/extract.ts')).extractCommand(a),
+  },
+  regions: {
+    summary: 'per source grid: each region\'s cells, covered area and warnings; writes a GeoJSON preview and an SVG map',
+    usage: 'forelight regions [--config FILE] [--out DIR]',
+    spec: { values: ['config', 'out'], flags: [] },
+    run: async (a) => (await import('./commands/regions.ts')).regionsCommand(a),
   },
   skill: {
     summary: 'print the hindcast skill table (Brier skill score, ROC area, ...) per source, region, indicator and lead',
@@ -67,15 +73,27 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   serve: {
     summary: 'service mode: run on the configured schedule until stopped (SIGTERM)',
-    usage: 'forelight serve [--config FILE]',
-    spec: CONFIG,
+    usage: 'forelight serve [--config FILE] [--cluster redis://HOST:PORT]',
+    spec: { values: ['config', 'cluster'], flags: [] },
     run: async (a) => (await import('./commands/serve.ts')).serveCommand(a),
+  },
+  ledger: {
+    summary: 'bring the ledger (SQLite file or PostgreSQL database) to this version\'s schema',
+    usage: 'forelight ledger migrate [--config FILE]',
+    spec: CONFIG,
+    run: async (a) => (await import('./commands/ledger.ts')).ledgerCommand(a),
   },
   status: {
     summary: 'last run, its result, next run and failures',
-    usage: 'forelight status [--config FILE]',
-    spec: CONFIG,
+    usage: 'forelight status [--config FILE] [--cluster redis://HOST:PORT]',
+    spec: { values: ['config', 'cluster'], flags: [] },
     run: async (a) => (await import('./commands/status.ts')).statusCommand(a),
+  },
+  worker: {
+    summary: 'cluster worker: read files for the coordinators of --cluster until SIGTERM',
+    usage: 'forelight worker --cluster redis://HOST:PORT [--config FILE] [--concurrency N] [--lock-seconds S]',
+    spec: { values: ['cluster', 'config', 'concurrency', 'lock-seconds'], flags: [] },
+    run: async (a) => (await import('./commands/worker.ts')).workerCommand(a),
   },
 };
 

@@ -6,7 +6,9 @@
 import { dirname, resolve } from 'node:path';
 import type { Quantity, Tier } from '../types.ts';
 import { thresholdUnits } from './threshold-units.ts';
-import type { Config, IndicatorConfig, IndicatorKind, RegionShape, SmtpConfig, StageConfig, ThresholdSpec, TriggerRule } from './types.ts';
+import { unwrapRing } from './boundaries/geometry.ts';
+import { entryDefaults } from './boundaries/region-sets.ts';
+import { DEFAULT_LOOKBACK_DAYS, type Config, type IndicatorConfig, type IndicatorKind, type RegionConfig, type RegionShape, type SmtpConfig, type StageConfig, type ThresholdSpec, type TriggerRule } from './types.ts';
 
 /** Runs a missing tier's last stage is held by default (escalation.hold-missing-runs). */
 export const DEFAULT_HOLD_MISSING_RUNS = 2;
@@ -18,9 +20,9 @@ type Texts = Record<string, string>;
 interface RawThreshold { percentile?: number; value?: number; units?: string }
 interface RawTree {
   country: string | Texts;
-  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number }[];
+  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number; 'look-back-days'?: number }[];
   observations?: { file: string; variables: Partial<Record<Quantity, string>> } | null;
-  regions: { id: string; name: string; box?: { south: number; north: number; west: number; east: number }; polygon?: [number, number][]; 'utc-offset-hours': number; teams: string[] }[];
+  regions: ({ id: string; name: string; box?: { south: number; north: number; west: number; east: number }; polygon?: [number, number][]; teams: string[] } & Record<string, unknown>)[];
   teams: { id: string; name: string; locale: string; recipients: string[]; national?: boolean }[];
   indicators: { id: string; name: string; kind: IndicatorKind; 'window-days'?: number; threshold: RawThreshold; 'region-thresholds'?: Record<string, RawThreshold>; aggregate: 'mean' | 'max' | 'sum'; tiers: Tier[]; params?: Record<string, number | string | boolean> }[];
   'stage-ladder': { id: string; label: Texts; glyph: string; colour: string; meaning: Texts; actions: Record<string, Texts>; cap: StageConfig['cap'] }[];
@@ -32,6 +34,7 @@ interface RawTree {
   cautions: Record<string, string[]>;
   'probability-words': ({ below?: number } & Record<string, string | number>)[];
   ledger: string;
+  'ledger-password-env'?: string;
   templates: string;
 }
 
@@ -50,7 +53,12 @@ function toThreshold(t: RawThreshold, kind: IndicatorKind): ThresholdSpec {
 
 function toShape(r: RawTree['regions'][number]): RegionShape {
   if (r.box) return { kind: 'box', ...r.box };
-  return { kind: 'polygon', ring: (r.polygon ?? []).map(([lon, lat]) => [lon, lat] as const) };
+  return { kind: 'polygon', ring: unwrapRing((r.polygon ?? []).map(([lon, lat]) => [lon, lat] as const)) };
+}
+
+/** Inline regions as written; a boundary-file entry as the regions loaded from it (`sets`). */
+function toRegions(raw: RawTree, sets: ReadonlyMap<number, readonly RegionConfig[]>): RegionConfig[] {
+  return raw.regions.flatMap((r, i) => sets.get(i) ?? [{ id: r.id, name: r.name, shape: toShape(r), teams: r.teams, ...entryDefaults(r, raw.schedule.timezone) }]);
 }
 
 /** The schema has checked `params` against the kind's params schema, so kind and params belong together. */
@@ -85,7 +93,7 @@ function toSmtp(s: NonNullable<RawTree['delivery']['smtp']>): SmtpConfig {
 }
 
 /** `file` is the absolute path of the main YAML file; relative paths resolve against its directory. */
-export function buildConfig(rawTree: unknown, file: string): Config {
+export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<number, readonly RegionConfig[]> = new Map()): Config {
   const raw = rawTree as RawTree;
   const dir = dirname(file);
   const path = (p: string) => resolve(dir, p);
@@ -104,9 +112,10 @@ export function buildConfig(rawTree: unknown, file: string): Config {
       ...(s['hindcast-files'] !== undefined ? { hindcast: path(s['hindcast-files']) } : {}),
       variables: s.variables,
       priority: s.priority,
+      lookbackDays: s['look-back-days'] ?? DEFAULT_LOOKBACK_DAYS[s.tier],
     })),
     observations: raw.observations ? { path: path(raw.observations.file), variables: raw.observations.variables } : null,
-    regions: raw.regions.map((r) => ({ id: r.id, name: r.name, shape: toShape(r), utcOffsetHours: r['utc-offset-hours'], teams: r.teams })),
+    regions: toRegions(raw, sets),
     teams: raw.teams.map((t) => ({ id: t.id, name: t.name, locale: t.locale, recipients: t.recipients, national: t.national ?? false })),
     indicators: raw.indicators.map(toIndicator),
     stages: raw['stage-ladder'].map((s) => ({ id: s.id, label: s.label, colour: s.colour, glyph: s.glyph, meaning: s.meaning, actions: s.actions, cap: s.cap })),
@@ -148,7 +157,9 @@ export function buildConfig(rawTree: unknown, file: string): Config {
       below: i === words.length - 1 ? Number.POSITIVE_INFINITY : (w.below as number),
       words: Object.fromEntries(Object.entries(w).filter(([k]) => k !== 'below')) as Record<string, string>,
     })),
-    ledger: path(raw.ledger),
+    // A PostgreSQL URL is kept as written; a SQLite file is relative to this file.
+    ledger: /^postgres(ql)?:\/\//i.test(raw.ledger) ? raw.ledger : path(raw.ledger),
+    ...(raw['ledger-password-env'] !== undefined ? { ledgerPasswordEnv: raw['ledger-password-env'] } : {}),
     templates: path(raw.templates),
   };
 }

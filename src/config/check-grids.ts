@@ -4,7 +4,9 @@
  */
 import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { pointerOf, problem } from './problem.ts';
+import { regionEntryOf } from './load-config.ts';
 import type { ConfigSourceMap } from './source-map.ts';
+import { shapeBounds, type ShapeBounds } from './region-shape.ts';
 import type { Config, RegionShape } from './types.ts';
 
 export interface GridExtent {
@@ -18,11 +20,11 @@ export interface GridExtent {
   readonly lon360: boolean;
 }
 
-function bounds(shape: RegionShape): { south: number; north: number; west: number; east: number } {
+function bounds(shape: RegionShape): ShapeBounds {
   if (shape.kind === 'box') return shape;
-  const lons = shape.ring.map((p) => p[0]);
-  const lats = shape.ring.map((p) => p[1]);
-  return { south: Math.min(...lats), north: Math.max(...lats), west: Math.min(...lons), east: Math.max(...lons) };
+  const b = shapeBounds(shape);
+  // A shape crossing 180° is checked as two arcs' envelope: the whole longitude circle.
+  return b.east > 180 ? { ...b, west: -180, east: 180 } : b;
 }
 
 /**
@@ -45,7 +47,8 @@ const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 &&
  */
 export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
   const out: Diagnostic[] = [];
-  config.regions.forEach((region, i) => {
+  config.regions.forEach((region) => {
+    const i = regionEntryOf(config, region.id);
     const b = bounds(region.shape);
     for (const g of grids) {
       const latOk = overlaps(b.south, b.north, g.latMin, g.latMax);

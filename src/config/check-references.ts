@@ -25,10 +25,11 @@ export function checkDuplicateIds(raw: RawObject): ConfigProblem[] {
   return out;
 }
 
-export function checkReferences(raw: RawObject): ConfigProblem[] {
+/** `setRegionIds`: ids of the regions read from boundary files (regions: entries with boundaries:). */
+export function checkReferences(raw: RawObject, _schemaProblems: readonly unknown[] = [], setRegionIds: readonly string[] = []): ConfigProblem[] {
   const out: ConfigProblem[] = [];
   const teams = known(ids(raw.teams));
-  const regions = known(ids(raw.regions));
+  const regions = known([...ids(raw.regions), ...setRegionIds]);
   const indicators = known(ids(raw.indicators));
   const stages = known(ids(raw['stage-ladder']));
   const sourceTiers = known(list(raw.sources).map((s) => text(obj(s).tier)));

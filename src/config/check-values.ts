@@ -28,8 +28,21 @@ export function checkValues(raw: RawObject): ConfigProblem[] {
   const tzIssue = tz === undefined ? null : timeZoneProblem(tz);
   if (tzIssue) out.push(problem(pointerOf('schedule', 'timezone'), tzIssue.message, tzIssue.fix));
 
-  list(raw.regions).forEach((r, i) => out.push(...checkShape(obj(r), i)));
+  list(raw.regions).forEach((r, i) => out.push(...checkClock(obj(r), i)));
+  list(raw.regions).forEach((r, i) => {
+    if (obj(r).boundaries === undefined) out.push(...checkShape(obj(r), i));
+  });
   return out;
+}
+
+/** A region (or region set) gives at most one of time-zone and utc-offset-hours; the zone must be known. */
+function checkClock(r: RawObject, i: number): ConfigProblem[] {
+  const zone = text(r['time-zone']);
+  if (zone !== undefined && r['utc-offset-hours'] !== undefined) {
+    return [problem(pointerOf('regions', i, 'utc-offset-hours'), 'both time-zone and utc-offset-hours are given', 'keep one: time-zone follows daylight saving, utc-offset-hours is fixed')];
+  }
+  const issue = zone === undefined ? null : timeZoneProblem(zone);
+  return issue ? [problem(pointerOf('regions', i, 'time-zone'), issue.message, issue.fix)] : [];
 }
 
 function checkShape(r: RawObject, i: number): ConfigProblem[] {

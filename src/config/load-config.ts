@@ -7,6 +7,7 @@ import type { DiagnosticCode } from '../core/diagnostic-codes.ts';
 import { byPlace, diagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
 import { ConfigError } from '../core/errors.ts';
 import { packagePath } from '../core/package-root.ts';
+import { loadRegionSets, type RegionSets } from './boundaries/region-sets.ts';
 import { buildConfig } from './build-config.ts';
 import { checkCombine } from './check-combine.ts';
 import { checkIndicators } from './check-indicators.ts';
@@ -37,9 +38,10 @@ export interface ConfigCheck {
 
 /**
  * The semantic checks, each with the code its problems carry. They need the included lists: without them every
- * reference would look unknown. The schema's problems let a check skip what the schema already refused.
+ * reference would look unknown. The schema's problems let a check skip what the schema already refused; the ids
+ * of the regions read from boundary files count as region ids.
  */
-const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, schemaProblems: readonly ConfigProblem[]) => ConfigProblem[]])[] = [
+const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, schemaProblems: readonly ConfigProblem[], setRegionIds: readonly string[]) => ConfigProblem[]])[] = [
   ['config-duplicate-id', checkDuplicateIds],
   ['config-reference', checkReferences],
   ['config-rule', checkRules],
@@ -48,6 +50,18 @@ const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, 
   ['config-indicator', checkIndicators],
   ['config-combine', checkCombine],
 ];
+
+const regionEntries = new WeakMap<Config, ReadonlyMap<string, number>>();
+
+function entryOf(rawRegions: unknown, id: string, byEntry: RegionSets['byEntry']): number {
+  for (const [i, regions] of byEntry) if (regions.some((r) => r.id === id)) return i;
+  return (rawRegions as { id?: string }[]).findIndex((r) => r.id === id);
+}
+
+/** Index of the `regions:` entry (inline region or boundary file) a region comes from, for YAML positions. */
+export function regionEntryOf(config: Config, regionId: string): number {
+  return regionEntries.get(config)?.get(regionId) ?? config.regions.findIndex((r) => r.id === regionId);
+}
 
 export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promise<ConfigCheck> {
   const file = resolve(path);
@@ -88,13 +102,19 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
 
   const schemaProblems = validateAgainstSchema(raw);
   pending.push(...schemaProblems.map((p): [DiagnosticCode, ConfigProblem] => ['config-schema', p]));
+  let sets: RegionSets = { byEntry: new Map(), problems: [] };
   if (includesComplete) {
-    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, schemaProblems).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
+    sets = await loadRegionSets(raw, dirname(file));
+    const setIds = [...sets.byEntry.values()].flat().map((r) => r.id);
+    pending.push(...sets.problems.map((p): [DiagnosticCode, ConfigProblem] => ['config-boundaries', p]));
+    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, schemaProblems, setIds).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
   }
   diagnostics.push(...pending.map(([code, p]) => sourceMap.place(code, p)));
   const unique = uniqueDiagnostics(diagnostics).sort(byPlace);
   if (unique.length > 0) return { diagnostics: unique, sourceMap };
-  return { config: buildConfig(raw, file), diagnostics: [], sourceMap };
+  const config = buildConfig(raw, file, sets.byEntry);
+  regionEntries.set(config, new Map(config.regions.map((r) => [r.id, entryOf(raw.regions, r.id, sets.byEntry)])));
+  return { config, diagnostics: [], sourceMap };
 }
 
 /** Loads a configuration (default: the packaged Veloria sample); throws ConfigError listing every problem. */

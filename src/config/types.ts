@@ -18,7 +18,19 @@ export interface SourceConfig {
   readonly variables: Readonly<Partial<Record<Quantity, string>>>;
   /** Newer/finer sources win overlaps: lower number = higher priority. */
   readonly priority: number;
+  /**
+   * How many days before the issue date a late source's newest forecast may be (YAML `look-back-days`);
+   * default one issue interval of the tier (DEFAULT_LOOKBACK_DAYS).
+   */
+  readonly lookbackDays: number;
 }
+
+/**
+ * Default look-back per tier: seasonal forecasts are issued monthly, so one issue interval plus a few days of
+ * delivery delay is 35 days; daily and sub-seasonal sources (issued daily to twice weekly) keep 10 days.
+ * Common practice, no source.
+ */
+export const DEFAULT_LOOKBACK_DAYS: Readonly<Record<Tier, number>> = { days: 10, weeks: 10, months: 35 };
 
 export interface ObservationsConfig {
   /** Gridded daily observations (or reanalysis) covering the hindcast years. */
@@ -26,17 +38,36 @@ export interface ObservationsConfig {
   readonly variables: Readonly<Partial<Record<Quantity, string>>>;
 }
 
+/** Closed ring of [lon, lat] pairs (GeoJSON order, first point repeated at the end). */
+export type Ring = readonly (readonly [number, number])[];
+
 export type RegionShape =
   | { readonly kind: 'box'; readonly south: number; readonly north: number; readonly west: number; readonly east: number }
   /** Polygon ring of [lon, lat] pairs (GeoJSON order). */
-  | { readonly kind: 'polygon'; readonly ring: readonly (readonly [number, number])[] };
+  | { readonly kind: 'polygon'; readonly ring: Ring }
+  /**
+   * Polygons from a boundary file: each is its outer ring then its holes (either winding). Longitudes of a ring
+   * that crosses 180° are made continuous (e.g. 170..190), so a ring never jumps by 360°.
+   */
+  | { readonly kind: 'multipolygon'; readonly polygons: readonly (readonly Ring[])[] };
+
+/**
+ * How grid cells count for a region: `overlap` weights every cell by the area of its intersection with the region
+ * on the sphere (every region gets a value on any grid); `centre` takes the cells whose centre lies inside, each
+ * weighted by its whole area (the rule of `cdo sellonlatbox`).
+ */
+export type CellRule = 'overlap' | 'centre';
 
 export interface RegionConfig {
   readonly id: string;
   readonly name: string;
   readonly shape: RegionShape;
-  /** Offset of local time from UTC in hours (local day boundaries). */
+  /** Offset of local time from UTC in hours (local day boundaries) when `timeZone` is absent. */
   readonly utcOffsetHours: number;
+  /** IANA time zone of local days (daylight saving followed); wins over `utcOffsetHours`. */
+  readonly timeZone?: string;
+  /** Default `overlap`. */
+  readonly cellRule?: CellRule;
   /** Team ids that receive this region's advisories. */
   readonly teams: readonly string[];
 }
@@ -202,6 +233,9 @@ export interface Config {
   readonly cautions: Readonly<Record<string, readonly string[]>>;
   /** Words for probability ranges: upper bounds ascending with a word per locale. */
   readonly probabilityWords: readonly { readonly below: number; readonly words: Readonly<Record<string, string>> }[];
+  /** SQLite file (absolute path) or PostgreSQL URL `postgres://user@host:port/db` (never with a password). */
   readonly ledger: string;
+  /** Environment variable holding the PostgreSQL ledger's password; never the password itself. */
+  readonly ledgerPasswordEnv?: string;
   readonly templates: string;
 }

@@ -30,6 +30,7 @@ export const DIAGNOSTIC_CODES = {
   'config-text': { stage: 'config', severity: 'error', meaning: 'a text (label, caution, template, phrase) is missing for a locale', fix: 'add the text for every locale a team uses' },
   'config-value': { stage: 'config', severity: 'error', meaning: 'a value is out of range or inconsistent with another (schedule, paths, thresholds)', fix: 'follow the message' },
   'config-indicator': { stage: 'config', severity: 'error', meaning: 'an indicator needs a quantity or parameter that is not configured', fix: 'map the quantity in the sources, or fix the parameter' },
+  'config-boundaries': { stage: 'config', severity: 'error', meaning: 'a boundary file (regions: boundaries:) cannot be read, is not WGS 84 longitude/latitude, or has a feature with an invalid geometry, id or team', fix: 'follow the message (it names the file, the feature index and id); repair with ogr2ogr as suggested' },
   'config-combine': { stage: 'config', severity: 'error', meaning: 'escalation.combine is inconsistent (groups, matrix size or stages)', fix: 'follow the message; see escalation.combine in config/forelight.yaml' },
   'grid-not-checked': { stage: 'config', severity: 'note', meaning: 'a source\'s forecast file is missing or unreadable, so `forelight check` could not compare the regions with its grid', fix: 'run check again once the files are there' },
   'config-grid': { stage: 'config', severity: 'error', meaning: 'a region lies entirely outside the grid of a source', fix: 'check the region coordinates or the source files' },
@@ -114,6 +115,8 @@ export const DIAGNOSTIC_CODES = {
   'delivery-permanent': { stage: 'deliver', severity: 'error', meaning: 'a delivery failed and will not be retried', fix: 'fix the address or SMTP settings named' },
   // ledger
   'ledger-open': { stage: 'ledger', severity: 'error', meaning: 'the ledger file cannot be opened', fix: 'check that its folder exists and is writable, or change config "ledger"' },
+  'ledger-postgres': { stage: 'ledger', severity: 'error', meaning: 'the PostgreSQL ledger refused a statement, or did not answer', fix: 'check the server, the ledger URL and the password variable named by ledger-password-env' },
+  'ledger-password-missing': { stage: 'ledger', severity: 'error', meaning: 'the variable named by ledger-password-env is not set', fix: 'export it with the PostgreSQL password, or remove ledger-password-env' },
   'ledger-newer': { stage: 'ledger', severity: 'error', meaning: 'the ledger was written by a newer Forelight', fix: 'upgrade Forelight or point config "ledger" at another file' },
   'ledger-write': { stage: 'ledger', severity: 'error', meaning: 'the ledger cannot be written (disk full, read-only, I/O error); nothing is sent without it', fix: 'follow the fix named; the next run resumes this one' },
   'run-unknown': { stage: 'ledger', severity: 'error', meaning: 'a run id is not in the ledger', fix: 'list runs with `forelight status`' },
@@ -126,6 +129,9 @@ export const DIAGNOSTIC_CODES = {
   'status-read': { stage: 'schedule', severity: 'error', meaning: 'the service status file cannot be read', fix: 'check its permissions' },
   'status-corrupt': { stage: 'schedule', severity: 'error', meaning: 'the service status file is not valid', fix: 'delete it; the service writes a new one' },
   // cli
+  // cluster
+  'cluster-url': { stage: 'cli', severity: 'error', meaning: '--cluster is not a redis:// URL', fix: 'write it as redis://HOST:PORT' },
+  'cluster-unreachable': { stage: 'cli', severity: 'error', meaning: "the cluster's Redis cannot be reached", fix: 'start redis-server there, or check --cluster' },
   'usage': { stage: 'cli', severity: 'error', meaning: 'the command line is wrong', fix: 'run `forelight --help`' },
 } as const satisfies Record<string, CodeEntry>;
 

@@ -9,6 +9,7 @@ import { readFile } from 'node:fs/promises';
 import { writeFileAtomic } from './write-atomic.ts';
 import { join } from 'node:path';
 import { ForelightError } from './errors.ts';
+import { jsonShape, parseShaped } from './json-shape.ts';
 
 /** sha256 (hex) of one file's contents. */
 export async function sha256File(path: string): Promise<string> {
@@ -28,12 +29,15 @@ export interface ChecksumMemo {
   save(): Promise<void>;
 }
 
+const isMemo = jsonShape<Record<string, string>>({ type: 'object', additionalProperties: { type: 'string', pattern: '^[0-9a-f]{64}$' } });
+
 export async function openChecksumMemo(cacheDir: string | null): Promise<ChecksumMemo> {
   const file = cacheDir ? join(cacheDir, 'file-sha256.json') : null;
   let known: Record<string, string> = {};
   if (file) {
     try {
-      known = JSON.parse(await readFile(file, 'utf8')) as Record<string, string>;
+      const read = parseShaped(await readFile(file, 'utf8'), isMemo);
+      known = read.ok ? read.value : {}; // damaged: every file is hashed again
     } catch {
       known = {}; // absent or unreadable: every file is hashed again
     }

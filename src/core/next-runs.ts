@@ -12,6 +12,7 @@
  * gap, 03:00, and interval jobs twice in a repeated hour; one bulletin slot must stay one run.)
  */
 import { Cron, type CronOptions } from 'croner';
+import cron from 'node-cron';
 import { ConfigError } from './errors.ts';
 import { diagnostic } from './diagnostics.ts';
 
@@ -107,14 +108,16 @@ export function checkCron(expr: string): void {
 }
 
 /**
- * Calls `wake` at the slot times of `expr` in zone `tz` (croner's own timer, never two calls at once). Around a DST
- * change croner may call at another time than computeNextRuns says (a skipped time at the end of the gap), so
- * `wake` must ask computeNextRuns which slot is due.
+ * Calls `wake` at the slot times of `expr` in zone `tz`: node-cron is the scheduler (never two calls at once).
+ * node-cron matches day of month AND day of week where both are restricted and has its own DST handling, so it is
+ * only the alarm clock: `wake` must ask computeNextRuns which slot is due, and the service's one-minute backstop
+ * catches a slot node-cron does not fire at (an OR-only day, a time in a spring-forward gap).
  */
 export function wakeAtSlots(expr: string, tz: string, wake: () => void): { stop(): void } {
   checkCron(expr);
   checkTimeZone(tz);
-  return new Cron(expr, { ...CLASSIC, timezone: tz, paused: false, protect: true }, wake);
+  const task = cron.schedule(expr, wake, { timezone: tz, name: 'forelight', noOverlap: true });
+  return { stop: () => void task.destroy() };
 }
 
 /** The first `n` firing instants strictly after `from`. */

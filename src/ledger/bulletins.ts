@@ -39,7 +39,7 @@ export function recordBulletins(ledger: Ledger, runId: number, bulletins: readon
   const { db } = ledger;
   const find = db.prepare('SELECT id FROM bulletins WHERE run_id = ? AND bulletin_key = ?');
   const insert = db.prepare(`INSERT INTO bulletins (run_id, bulletin_key, team, locale, subject, html, text, content_sha256, created_at)
-    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`);
+    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id`);
   const insertAttachment = db.prepare(`INSERT INTO attachments (bulletin_id, position, cid, filename, content_type, content)
     VALUES (?, ?, ?, ?, ?, ?)`);
   const insertDelivery = db.prepare(`INSERT INTO deliveries (bulletin_id, recipient, status, created_at, updated_at)
@@ -49,7 +49,7 @@ export function recordBulletins(ledger: Ledger, runId: number, bulletins: readon
     return bulletins.map((b) => {
       const existing = find.get(runId, b.id) as { id: number } | undefined;
       if (existing) return existing.id;
-      const rowId = Number(insert.run(runId, b.id, b.team, b.locale, b.subject, b.html, b.text, bulletinContentHash(b), now).lastInsertRowid);
+      const rowId = (insert.get(runId, b.id, b.team, b.locale, b.subject, b.html, b.text, bulletinContentHash(b), now) as { id: number }).id;
       b.attachments.forEach((a, i) => insertAttachment.run(rowId, i, a.cid, a.filename, a.contentType, Buffer.from(a.content)));
       for (const recipient of uniqueRecipients(b.to)) insertDelivery.run(rowId, recipient, now, now);
       return rowId;
@@ -98,15 +98,18 @@ export interface IssuedBulletin {
 
 /** Every bulletin of every issued run (ok or partial), newest first: the listing for the HTML archive. */
 export function issuedBulletins(ledger: Ledger): IssuedBulletin[] {
+  const issued = `FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE r.status IN ('ok', 'partial')`;
   const rows = ledger.db.prepare(`SELECT b.id, b.run_id, r.forecast_key, r.forced, b.bulletin_key, b.team, b.locale, b.subject,
-      b.content_sha256, b.created_at,
-      (SELECT json_group_object(status, n) FROM (SELECT status, count(*) AS n FROM deliveries WHERE bulletin_id = b.id GROUP BY status)) AS counts
-    FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE r.status IN ('ok', 'partial')
-    ORDER BY r.forecast_key DESC, b.run_id DESC, b.id`).all() as
-    (Omit<BulletinRow, 'html' | 'text'> & { forced: number; counts: string })[];
+      b.content_sha256, b.created_at ${issued} ORDER BY r.forecast_key DESC, b.run_id DESC, b.id`).all() as
+    (Omit<BulletinRow, 'html' | 'text'> & { forced: number })[];
+  const counts = new Map<number, Record<string, number>>();
+  for (const c of ledger.db.prepare(`SELECT d.bulletin_id, d.status, count(*) AS n FROM deliveries d
+      WHERE d.bulletin_id IN (SELECT b.id ${issued}) GROUP BY d.bulletin_id, d.status`).all() as { bulletin_id: number; status: string; n: number }[]) {
+    counts.set(c.bulletin_id, { ...counts.get(c.bulletin_id), [c.status]: c.n });
+  }
   return rows.map((r) => ({
     rowId: r.id, runId: r.run_id, forecastKey: r.forecast_key, forced: r.forced === 1, bulletinId: r.bulletin_key, team: r.team,
     locale: r.locale, subject: r.subject, contentSha256: r.content_sha256, createdAt: r.created_at,
-    deliveries: JSON.parse(r.counts ?? '{}') as Record<string, number>,
+    deliveries: counts.get(r.id) ?? {},
   }));
 }

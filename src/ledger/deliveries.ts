@@ -83,7 +83,7 @@ export function markDelivery(
   detail: { error?: string; outboxPath?: string; noticeDue?: boolean } = {},
 ): boolean {
   return ledger.db.prepare(`UPDATE deliveries SET status = ?, last_error = coalesce(?, last_error),
-    outbox_path = coalesce(?, outbox_path), notice = CASE WHEN ? THEN 'due' ELSE notice END,
+    outbox_path = coalesce(?, outbox_path), notice = CASE WHEN ? = 1 THEN 'due' ELSE notice END,
     claimed_by = NULL, claimed_at = NULL, updated_at = ?
     WHERE id = ? AND status = 'sending'`)
     .run(status, detail.error ?? null, detail.outboxPath ?? null, detail.noticeDue ? 1 : 0, stamp(ledger), id).changes === 1;

@@ -1,9 +1,11 @@
 /**
- * Ledger schema, versioned with SQLite `PRAGMA user_version`. Each entry moves the schema one version up;
- * never edit a released entry, append a new one. Version N of the ledger = MIGRATIONS.length applied.
+ * Ledger schema, one migration set for SQLite and PostgreSQL (written in SQLite's DDL; `toPostgresDdl` adapts the
+ * few words that differ). The version is SQLite's `PRAGMA user_version`, or the one row of table
+ * `forelight_schema` in PostgreSQL. Each entry moves the schema one version up; never edit a released entry,
+ * append a new one. Version N of the ledger = MIGRATIONS.length applied.
  */
-import type Database from 'better-sqlite3';
 import { ForelightError } from '../core/errors.ts';
+import { toPostgresDdl, type SqlDb } from './sql-db.ts';
 
 export const MIGRATIONS: readonly string[] = [
   `
@@ -137,20 +139,38 @@ export const MIGRATIONS: readonly string[] = [
   `,
 ];
 
+function schemaVersion(db: SqlDb): number {
+  if (db.dialect === 'sqlite') return (db.prepare('PRAGMA user_version').get() as { user_version: number }).user_version;
+  db.exec('CREATE TABLE IF NOT EXISTS forelight_schema (version INTEGER NOT NULL)');
+  return (db.prepare('SELECT max(version) AS v FROM forelight_schema').get() as { v: number | null }).v ?? 0;
+}
+
+function setSchemaVersion(db: SqlDb, version: number): void {
+  if (db.dialect === 'sqlite') db.exec(`PRAGMA user_version = ${version}`);
+  else {
+    db.exec('DELETE FROM forelight_schema');
+    db.prepare('INSERT INTO forelight_schema (version) VALUES (?)').run(version);
+  }
+}
+
 /** Bring `db` to the newest schema inside one transaction; refuses a ledger written by a newer Forelight. */
-export function applyMigrations(db: Database.Database, path: string): void {
-  const current = db.pragma('user_version', { simple: true }) as number;
+export function applyMigrations(db: SqlDb, path: string): { from: number; to: number } {
+  const current = db.transaction(() => schemaVersion(db)).immediate();
   if (current > MIGRATIONS.length) {
     throw new ForelightError(
       'ledger',
       'ledger-newer',
       `ledger ${path} has schema version ${current}, this Forelight knows up to ${MIGRATIONS.length}`,
-      'upgrade Forelight or point config "ledger" at another file',
+      'upgrade Forelight or point config "ledger" at another database',
     );
   }
-  if (current === MIGRATIONS.length) return;
-  db.transaction(() => {
-    for (let v = current; v < MIGRATIONS.length; v++) db.exec(MIGRATIONS[v]);
-    db.pragma(`user_version = ${MIGRATIONS.length}`);
-  }).immediate();
+  if (current < MIGRATIONS.length) {
+    db.transaction(() => {
+      // Another process may have migrated between the check and the lock.
+      const now = schemaVersion(db);
+      for (let v = now; v < MIGRATIONS.length; v++) db.exec(db.dialect === 'postgres' ? toPostgresDdl(MIGRATIONS[v]) : MIGRATIONS[v]);
+      setSchemaVersion(db, MIGRATIONS.length);
+    }).immediate();
+  }
+  return { from: current, to: MIGRATIONS.length };
 }

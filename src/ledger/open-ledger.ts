@@ -1,6 +1,7 @@
 /**
- * The audit ledger: one SQLite file (WAL mode) recording every run, its inputs, probabilities, decisions,
- * the rendered bulletins (stored BEFORE sending) and each per-recipient delivery. See migrations.ts.
+ * The audit ledger: one SQLite file (WAL mode), or a PostgreSQL database shared by several machines, recording every
+ * run, its inputs, probabilities, decisions, the rendered bulletins (stored BEFORE sending) and each per-recipient
+ * delivery. Both hold the same schema (migrations.ts) and take the same statements (sql-db.ts).
  */
 import Database from 'better-sqlite3';
 import { hostname } from 'node:os';
@@ -8,10 +9,13 @@ import { dirname } from 'node:path';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { fixFor } from '../core/write-atomic.ts';
 import { applyMigrations } from './migrations.ts';
+import { openPostgres } from './pg-sync.ts';
+import { isPostgresUrl, type SqlDb } from './sql-db.ts';
 
 export interface Ledger {
+  /** The SQLite file, or the PostgreSQL URL without its password. */
   readonly path: string;
-  readonly db: Database.Database;
+  readonly db: SqlDb;
   /** Clock for timestamps (injectable for tests). */
   readonly now: () => Date;
   /** `host:pid` of this process, written into runs and delivery claims. */
@@ -19,26 +23,42 @@ export interface Ledger {
   close(): void;
 }
 
-export function openLedger(path: string, options: { now?: () => Date } = {}): Ledger {
-  let db: Database.Database;
+export interface OpenLedgerOptions {
+  readonly now?: () => Date;
+  /** Password of a PostgreSQL ledger (from the environment variable named by `ledger-password-env`). */
+  readonly password?: string;
+  /** Bring the schema up to date on opening (default); `forelight ledger migrate` does it itself to report it. */
+  readonly migrate?: boolean;
+}
+
+function openSqlite(path: string): SqlDb {
+  const db = new Database(path);
+  db.pragma('journal_mode = WAL');
+  db.pragma('synchronous = FULL');
+  db.pragma('foreign_keys = ON');
+  db.pragma('busy_timeout = 5000');
+  return Object.assign(db, { dialect: 'sqlite' as const });
+}
+
+/** Opens (and migrates) the ledger named by config `ledger`: a file path (SQLite) or `postgres://user@host:port/db`. */
+export function openLedger(target: string, options: OpenLedgerOptions = {}): Ledger {
+  const postgres = isPostgresUrl(target);
+  const shown = postgres ? target.replace(/\/\/([^:@/]*)(:[^@/]*)?@/, '//$1@') : target;
+  let db: SqlDb;
   try {
-    db = new Database(path);
-    db.pragma('journal_mode = WAL');
-    db.pragma('synchronous = FULL');
-    db.pragma('foreign_keys = ON');
-    db.pragma('busy_timeout = 5000');
+    db = postgres ? openPostgres(target, options.password) : openSqlite(target);
   } catch (err) {
     throw new ForelightError(
       'ledger',
       'ledger-open',
-      `cannot open ledger ${path}: ${describeError(err)}`,
-      'check that its folder exists and is writable, or change config "ledger"',
+      `cannot open ledger ${shown}: ${describeError(err)}`,
+      postgres ? 'check the server, the URL and ledger-password-env' : 'check that its folder exists and is writable, or change config "ledger"',
       { cause: err },
     );
   }
-  applyMigrations(db, path);
+  if (options.migrate !== false) applyMigrations(db, shown);
   return {
-    path,
+    path: shown,
     db,
     now: options.now ?? (() => new Date()),
     owner: { host: hostname(), pid: process.pid },

@@ -5,14 +5,15 @@
 import type { LeadProbability, StageDecision, Tier } from '../types.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
+import { upsertSql } from './sql-db.ts';
 
 /** Runs whose results count as issued advice. */
 const ISSUED = `status IN ('ok', 'partial')`;
 
 export function recordProbabilities(ledger: Ledger, runId: number, probabilities: readonly LeadProbability[]): void {
-  const insert = ledger.db.prepare(`INSERT OR REPLACE INTO probabilities (run_id, source, region, indicator, tier,
-    lead_index, lead_start, lead_end, probability, base_rate, members, valid_members, threshold_value, threshold_units,
-    threshold_origin, calibrated, flags_json, skill_json) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`);
+  const insert = ledger.db.prepare(upsertSql('probabilities', ['run_id', 'source', 'region', 'indicator', 'tier', 'lead_index',
+    'lead_start', 'lead_end', 'probability', 'base_rate', 'members', 'valid_members', 'threshold_value', 'threshold_units',
+    'threshold_origin', 'calibrated', 'flags_json', 'skill_json'], ['run_id', 'source', 'region', 'indicator', 'tier', 'lead_index']));
   ledger.db.transaction(() => {
     for (const p of probabilities) {
       insert.run(runId, p.source, p.region, p.indicator, p.lead.tier, p.lead.index, p.lead.start, p.lead.end,
@@ -27,8 +28,8 @@ export function recordProbabilities(ledger: Ledger, runId: number, probabilities
 const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 export function recordDecisions(ledger: Ledger, runId: number, decisions: readonly StageDecision[]): void {
-  const insert = ledger.db.prepare(`INSERT OR REPLACE INTO decisions (run_id, region, indicator, tier, stage_id,
-    raw_stage_id, rule_id, reasons_json) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`);
+  const insert = ledger.db.prepare(upsertSql('decisions', ['run_id', 'region', 'indicator', 'tier', 'stage_id', 'raw_stage_id',
+    'rule_id', 'reasons_json'], ['run_id', 'region', 'indicator', 'tier']));
   ledger.db.transaction(() => {
     for (const d of decisions) {
       insert.run(runId, d.region, d.indicator, d.tier, d.stageId, d.rawStageId, d.ruleId, JSON.stringify(d.reasons));
@@ -63,7 +64,7 @@ export function saveStageHistory(ledger: Ledger, runId: number, json: string): v
     throw new ForelightError('ledger', 'stage-history-json', `stage history of run ${runId} is not JSON: ${describeError(err)}`,
       'pass the JSON.stringify-ed state of the decide stage');
   }
-  ledger.db.prepare('INSERT OR REPLACE INTO stage_history (run_id, state_json, saved_at) VALUES (?, ?, ?)')
+  ledger.db.prepare(upsertSql('stage_history', ['run_id', 'state_json', 'saved_at'], ['run_id']))
     .run(runId, json, stamp(ledger));
 }
 
@@ -86,8 +87,7 @@ export interface CapAlertRecord {
 }
 
 export function recordCapAlert(ledger: Ledger, runId: number, region: string, indicator: string, alert: CapAlertRecord): void {
-  ledger.db.prepare(`INSERT OR REPLACE INTO cap_alerts (identifier, run_id, region, indicator, sender, sent, msg_type)
-    VALUES (?, ?, ?, ?, ?, ?, ?)`).run(alert.identifier, runId, region, indicator, alert.sender, alert.sent, alert.msgType);
+  ledger.db.prepare(upsertSql('cap_alerts', ['identifier', 'run_id', 'region', 'indicator', 'sender', 'sent', 'msg_type'], ['identifier'])).run(alert.identifier, runId, region, indicator, alert.sender, alert.sent, alert.msgType);
 }
 
 /** The latest CAP alert issued for region × indicator by an issued run other than `excludeRunId`. */

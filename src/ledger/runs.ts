@@ -7,6 +7,7 @@ import { ForelightError } from '../core/errors.ts';
 import { sha256File } from '../core/file-checksums.ts';
 import { isProcessAlive } from '../core/process-alive.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
+import { upsertSql } from './sql-db.ts';
 
 export type RunStatus = 'running' | 'ok' | 'partial' | 'nothing-new' | 'failed' | 'abandoned';
 
@@ -72,8 +73,8 @@ export function beginRun(ledger: Ledger, forecastKey: string, options: { force?:
       abandonOthers(ledger, latest.id);
       return { kind: 'resumed', run: getRun(ledger, latest.id) };
     }
-    const id = Number(db.prepare(`INSERT INTO runs (forecast_key, started_at, status, forced, host, pid)
-      VALUES (?, ?, 'running', ?, ?, ?)`).run(forecastKey, stamp(ledger), options.force ? 1 : 0, owner.host, owner.pid).lastInsertRowid);
+    const { id } = db.prepare(`INSERT INTO runs (forecast_key, started_at, status, forced, host, pid)
+      VALUES (?, ?, 'running', ?, ?, ?) RETURNING id`).get(forecastKey, stamp(ledger), options.force ? 1 : 0, owner.host, owner.pid) as { id: number };
     abandonOthers(ledger, id);
     return { kind: 'new', run: getRun(ledger, id) };
   }).immediate();
@@ -90,7 +91,7 @@ function abandonOthers(ledger: Ledger, keepRunId: number): void {
     AND forecast_key <= (SELECT forecast_key FROM runs WHERE id = ?)`).all(keepRunId, keepRunId) as { id: number }[];
   for (const { id } of stale) {
     ledger.db.prepare(`UPDATE deliveries SET status = 'superseded', updated_at = ?,
-      last_error = coalesce(last_error || ' | ', '') || 'superseded by run ' || ?
+      last_error = coalesce(last_error || ' | ', '') || 'superseded by run ' || CAST(? AS TEXT)
       WHERE status IN ('pending', 'sending') AND bulletin_id IN (SELECT id FROM bulletins WHERE run_id = ?)`).run(now, keepRunId, id);
     ledger.db.prepare(`UPDATE runs SET status = CASE WHEN status IN ('running', 'failed') THEN 'abandoned' ELSE status END,
       finished_at = coalesce(finished_at, ?) WHERE id = ?`).run(now, id);
@@ -126,8 +127,7 @@ export async function describeInputFile(
 }
 
 export function recordInputs(ledger: Ledger, runId: number, files: readonly InputFileRecord[]): void {
-  const insert = ledger.db.prepare(`INSERT OR REPLACE INTO input_files (run_id, path, sha256, size_bytes, source, reference_time)
-    VALUES (?, ?, ?, ?, ?, ?)`);
+  const insert = ledger.db.prepare(upsertSql('input_files', ['run_id', 'path', 'sha256', 'size_bytes', 'source', 'reference_time'], ['run_id', 'path']));
   ledger.db.transaction(() => {
     for (const f of files) insert.run(runId, f.path, f.sha256, f.sizeBytes, f.source, f.referenceTime);
   })();

@@ -12,6 +12,7 @@ import { trackKey, type TrackKey } from '../core/keys.ts';
 import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
+import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import { regionClimatology } from './indicator-context.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
 import { readAll, type ReadResult } from './read-stage.ts';
@@ -65,21 +66,23 @@ export interface AnalyseOptions {
   readonly onProgress?: (done: number, total: number, label: string) => void;
   /** The files to use, when the caller already resolved them (a run keys its ledger entry on them). */
   readonly inputs?: readonly SourceInputs[];
+  /** How files are read (default: in this process; a cluster's workers with `forelight run --cluster`). */
+  readonly extract?: Extractor;
 }
 
 /** Reads and computes everything for the run's issue date; never throws for a bad file, region or indicator. */
 export async function analyse(config: Config, run: RunContext, options: AnalyseOptions = {}): Promise<Analysis> {
   const { issueDate, log } = run;
-  const { onProgress, inputs = resolveInputs(config, issueDate) } = options;
+  const { onProgress, inputs = resolveInputs(config, issueDate), extract = extractRegionSeries } = options;
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now(); // elapsed times for the log, not the run's clock
-  const read = await readAll(config, issueDate, inputs);
+  const read = await readAll(config, issueDate, inputs, extract);
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
   const checksums = await openChecksumMemo(config.calibration.cacheDir);
   const ctx: SharedContext = {
-    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(), checksums,
+    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(), checksums, extract,
   };
   const fileProblems: ForelightError[] = [...read.problems];
   const sources: SourceOutcome[] = [];

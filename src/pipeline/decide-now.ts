@@ -3,14 +3,13 @@
  * `run --dry-run` show is exactly what a run on the same inputs would issue.
  */
 import { missingData } from './missing-data.ts';
-import { existsSync } from 'node:fs';
 import type { Config } from '../config/types.ts';
 import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { pairOf, tunedKey, type TunedKey } from '../core/keys.ts';
 import type { StageHistory } from '../decide/types.ts';
-import { openLedger } from '../ledger/open-ledger.ts';
+import { ledgerMayHoldRuns, openConfiguredLedger } from '../ledger/ledger-target.ts';
 import { lastIssuedStages, latestStageHistory } from '../ledger/results.ts';
 import type { RunContext } from '../core/run-context.ts';
 import { analyse, type AnalyseOptions, type Analysis } from './analyse.ts';
@@ -42,8 +41,8 @@ export function tunedThresholds(analysis: Analysis): Map<TunedKey, number> {
 export async function decideNow(config: Config, run: RunContext, options: Pick<AnalyseOptions, 'onProgress'> = {}): Promise<DecidedNow> {
   let historyJson: string | null = null;
   let previous: RegionStageLike[] = [];
-  if (existsSync(config.ledger)) {
-    const ledger = openLedger(config.ledger);
+  if (ledgerMayHoldRuns(config)) {
+    const ledger = openConfiguredLedger(config);
     try {
       historyJson = latestStageHistory(ledger);
       previous = issuedRegionStages(config, lastIssuedStages(ledger));

@@ -1,6 +1,6 @@
 /**
- * Which files one run reads: per source the newest forecast on or before the issue date (an older one is used,
- * and said, when the expected one is late), and the hindcast starts within ±windowDays of its day of year.
+ * Which files one run reads: per source the newest forecast on or before the issue date (an older one, at most
+ * the source's `look-back-days` before it, is used and said when the expected one is late), and the hindcast starts within ±windowDays of its day of year.
  */
 import { readdirSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
@@ -11,9 +11,6 @@ import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
 import type { IsoDate } from '../types.ts';
 
-/** How far back a late source may fall back to an older forecast (days). */
-export const LOOKBACK_DAYS = 10;
-
 export interface HindcastFile {
   readonly year: number;
   /** Start date of this hindcast, YYYY-MM-DD. */
@@ -23,6 +20,8 @@ export interface HindcastFile {
 
 export interface SourceInputs {
   readonly source: SourceConfig;
+  /** The issue date the forecast was looked for (back to `source.lookbackDays` days before it). */
+  readonly issueDate: IsoDate;
   /** The forecast date used, or null when no forecast was found within the look-back. */
   readonly date: IsoDate | null;
   readonly path: string | null;
@@ -41,10 +40,10 @@ export interface ForecastCandidate {
   readonly path: string;
 }
 
-/** Paths of a source's forecasts on or before `issueDate` within LOOKBACK_DAYS that exist at all, newest first. */
-export function forecastCandidates(pattern: string, issueDate: IsoDate): ForecastCandidate[] {
+/** Paths of a source's forecasts on or before `issueDate` within the source's look-back that exist at all, newest first. */
+export function forecastCandidates(pattern: string, issueDate: IsoDate, lookbackDays: number): ForecastCandidate[] {
   const out: ForecastCandidate[] = [];
-  for (let back = 0; back <= LOOKBACK_DAYS; back++) {
+  for (let back = 0; back <= lookbackDays; back++) {
     const date = addDays(issueDate, -back);
     const path = forecastPath(pattern, date);
     if (existsSync(path)) out.push({ date, path });
@@ -91,10 +90,10 @@ export function listHindcasts(pattern: string): HindcastFile[] {
 /** Forecast and hindcast files of every source for an issue date (the newest existing forecast; see `candidates`). */
 export function resolveInputs(config: Config, issueDate: IsoDate): SourceInputs[] {
   return config.sources.map((source) => {
-    const candidates = forecastCandidates(source.forecast, issueDate);
+    const candidates = forecastCandidates(source.forecast, issueDate, source.lookbackDays);
     const newest = candidates[0] ?? null;
     return {
-      source, date: newest?.date ?? null, path: newest?.path ?? null, stale: newest === null || newest.date !== issueDate,
+      source, issueDate, date: newest?.date ?? null, path: newest?.path ?? null, stale: newest === null || newest.date !== issueDate,
       hindcasts: hindcastsFor(config, source, newest?.date ?? issueDate), candidates,
     };
   });

@@ -10,7 +10,6 @@ import type { Diagnostic } from '../core/diagnostics.ts';
 import { trackKey } from '../core/keys.ts';
 import type { Tier } from '../types.ts';
 import type { Analysis } from './analyse.ts';
-import { LOOKBACK_DAYS } from './inputs.ts';
 
 /** A diagnostic as one short clause: the file's base name and the message, without the fix. */
 export function problemClause(d: Diagnostic): string {
@@ -38,7 +37,7 @@ export function unavailableReasons(config: Config, analysis: Analysis): Map<stri
       const own = problems.filter((d) => d.code !== 'forecast-missing' && input.candidates.some((c) => c.path === d.place.file));
       const reason = own.length > 0
         ? own.map(problemClause).join('; ')
-        : `no ${input.source.name} file on or before the issue date (looked back ${LOOKBACK_DAYS} days)`;
+        : `no ${input.source.name} file on or before the issue date (looked back ${input.source.lookbackDays} days)`;
       for (const region of config.regions) put(input.source.tier, region.id, reason);
       continue;
     }

@@ -4,6 +4,7 @@
  */
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { ForelightError } from '../core/errors.ts';
+import { jsonShape, parseShaped } from '../core/json-shape.ts';
 import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import type { Config } from '../config/types.ts';
@@ -13,6 +14,21 @@ import { toToken } from '../render/safe-text.ts';
 
 const ENTRY_FILE = 'entry.json';
 
+const TEXT = { type: 'string' };
+const FILES = (fields: readonly string[]) => ({ type: 'array', items: { type: 'object', required: fields, properties: Object.fromEntries(fields.map((f) => [f, TEXT])) } });
+/** The fields the archive site reads; optional ones are absent in entries of older versions. */
+const isEntry = jsonShape<ArchiveEntry>({
+  type: 'object',
+  required: ['runId', 'issuedAt', 'issuedDay', 'locale', 'title', 'regions', 'bodyHtml', 'charts', 'capAlerts', 'json'],
+  properties: {
+    runId: TEXT, issuedAt: TEXT, issuedDay: TEXT, locale: TEXT, title: TEXT, bodyHtml: TEXT, json: TEXT,
+    regions: { type: 'array', items: { type: 'object', required: ['id', 'name', 'stageId', 'rank', 'label', 'glyph', 'colour', 'ink'], properties: {
+      id: TEXT, name: TEXT, stageId: TEXT, rank: { type: 'integer', minimum: 0 }, label: TEXT, glyph: TEXT, colour: TEXT, ink: TEXT, hazard: TEXT, dates: TEXT,
+    } } },
+    charts: FILES(['filename', 'svg']), capAlerts: FILES(['filename', 'xml']), pdfs: FILES(['filename', 'team', 'base64']), ladder: FILES(['glyph', 'label']),
+  },
+});
+
 /** Every archive entry kept under the archive folder, oldest first. */
 export function readArchiveEntries(dir: string): ArchiveEntry[] {
   if (!existsSync(dir)) return [];
@@ -20,11 +36,14 @@ export function readArchiveEntries(dir: string): ArchiveEntry[] {
   for (const name of readdirSync(dir)) {
     const file = join(dir, name, ENTRY_FILE);
     if (!existsSync(file)) continue;
+    let read: ReturnType<typeof isEntry>;
     try {
-      entries.push(JSON.parse(readFileSync(file, 'utf8')) as ArchiveEntry);
+      read = parseShaped(readFileSync(file, 'utf8'), isEntry);
     } catch (err) {
-      throw new ForelightError('render', 'archive-entry', `archive entry ${file} is unreadable (${(err as Error).message})`, 'restore it from a backup or delete its folder; the archive site is rebuilt from the other entries', { cause: err });
+      read = { ok: false, why: (err as Error).message };
     }
+    if (!read.ok) throw new ForelightError('render', 'archive-entry', `archive entry ${file} is unreadable (${read.why})`, 'restore it from a backup or delete its folder; the archive site is rebuilt from the other entries');
+    entries.push(read.value);
   }
   return entries.sort((a, b) => a.issuedAt.localeCompare(b.issuedAt));
 }

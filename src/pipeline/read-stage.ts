@@ -4,9 +4,11 @@
  */
 import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
-import { extractRegionSeries } from '../read/extract.ts';
+import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
-import { LOOKBACK_DAYS, type HindcastFile, type SourceInputs } from './inputs.ts';
+import type { HindcastFile, SourceInputs } from './inputs.ts';
+import { addDays } from '../core/iso-dates.ts';
+import { forecastPath } from '../schedule/input-arrival.ts';
 import { readUsableForecast } from './usable-forecast.ts';
 
 /** region id → quantity → series. */
@@ -55,13 +57,15 @@ export interface FileRequest {
   readonly tier?: SourceConfig['tier'];
   /** Receives how the file's times were read (model calendar, monthly values). */
   readonly notes?: string[];
+  /** Folder of the region-weights cache (calibration.cache-dir), computed once per grid and region set. */
+  readonly weightsCacheDir?: string;
 }
 
 export async function readFile(
-  path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
+  extract: Extractor, path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extractRegionSeries(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier });
+    const r = await extract(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier, weightsCacheDir: request.weightsCacheDir });
     problems.push(...r.problems);
     request.notes?.push(...r.notes);
     return group(r.series);
@@ -73,6 +77,17 @@ export async function readFile(
     problems.push(new InputError('read-failed', path, `could not be read (${err instanceof Error ? err.message : String(err)})`, 'check the file; the other sources went on'));
     return null;
   }
+}
+
+/** `work` over `items` with at most `parallel` in flight; results in input order. */
+async function inOrder<T, R>(items: readonly T[], parallel: number, work: (item: T) => Promise<R>): Promise<R[]> {
+  const out: R[] = new Array(items.length);
+  let next = 0;
+  const lane = async (): Promise<void> => {
+    for (let i = next++; i < items.length; i = next++) out[i] = await work(items[i]);
+  };
+  await Promise.all(Array.from({ length: Math.max(1, Math.min(parallel, items.length)) }, lane));
+  return out;
 }
 
 /** Grid cells each region covers in a file (the same for every quantity of one file). */
@@ -87,10 +102,17 @@ export function regionCells(series: RegionQuantities): Map<string, number> {
  */
 export async function readHindcasts(
   source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>,
+  extract: Extractor = extractRegionSeries, weightsCacheDir?: string,
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
-  for (const h of files) {
-    const series = await readFile(h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier }, problems);
+  // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
+  const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
+    const own: ForelightError[] = [];
+    return { series: await readFile(extract, h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier, weightsCacheDir }, own), own };
+  });
+  for (const [i, h] of files.entries()) {
+    const { series, own } = read[i];
+    problems.push(...own);
     if (!series) continue;
     for (const [region, cells] of regionCells(series)) {
       const expected = forecastCells?.get(region);
@@ -103,23 +125,32 @@ export async function readHindcasts(
   return out;
 }
 
+/** No forecast within the look-back: names the pattern and the dates tried (issue date back to look-back-days before). */
+function forecastMissing(input: SourceInputs): InputError {
+  const { source, issueDate } = input;
+  const oldest = addDays(issueDate, -source.lookbackDays);
+  return new InputError('forecast-missing', source.forecast,
+    `no forecast of source '${source.id}': tried ${forecastPath(source.forecast, issueDate)} and every date back to ${forecastPath(source.forecast, oldest)} (${issueDate} to ${oldest}, look-back-days ${source.lookbackDays})`,
+    'check that the files arrived and the forecast-files pattern of this source; a source issued less often needs a larger look-back-days');
+}
+
 /**
  * Reads every source's forecast and the observations, collecting problems instead of stopping. Hindcasts are read
  * later, per source, only when the model-climate cache misses (`readHindcasts`).
  */
-export async function readAll(config: Config, issueDate: string, inputs: readonly SourceInputs[]): Promise<ReadResult> {
+export async function readAll(config: Config, issueDate: string, inputs: readonly SourceInputs[], extract: Extractor = extractRegionSeries): Promise<ReadResult> {
   const problems: ForelightError[] = [];
   const sources: SourceRead[] = [];
   const used: SourceInputs[] = [];
   for (const input of inputs) {
     if (input.candidates.length === 0) {
-      problems.push(new InputError('forecast-missing', input.source.forecast, `no forecast of source '${input.source.id}' on or before the issue date`, 'check that the files arrived and the path pattern in sources[].forecast'));
+      problems.push(forecastMissing(input));
       used.push(input);
       continue;
     }
-    const usable = await readUsableForecast(config, issueDate, input, problems);
+    const usable = await readUsableForecast(config, issueDate, input, problems, extract);
     if (!usable) {
-      problems.push(new InputError('forecast-missing', input.source.forecast, `no usable forecast of source '${input.source.id}' within ${LOOKBACK_DAYS} days (${input.candidates.length} file(s) tried, each named above)`, 'replace the damaged files; this tier is held at its last stage meanwhile'));
+      problems.push(forecastMissing(input));
       used.push({ ...input, date: null, path: null, stale: true });
       continue;
     }
@@ -127,7 +158,7 @@ export async function readAll(config: Config, issueDate: string, inputs: readonl
     used.push(usable.input);
   }
   const observed = config.observations
-    ? await readFile(config.observations.path, config.observations.variables, config.regions, {}, problems)
+    ? await readFile(extract, config.observations.path, config.observations.variables, config.regions, { weightsCacheDir: config.calibration.cacheDir }, problems)
     : null;
   return { sources, inputs: used, observed, problems };
 }

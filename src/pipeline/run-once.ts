@@ -16,7 +16,9 @@ import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { recordDiagnostics, runDiagnostics } from '../ledger/diagnostics.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
-import { ledgerWriteFault, openLedger, type Ledger } from '../ledger/open-ledger.ts';
+import { openConfiguredLedger } from '../ledger/ledger-target.ts';
+import { ledgerWriteFault, type Ledger } from '../ledger/open-ledger.ts';
+import type { Extractor } from '../read/extract.ts';
 import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
@@ -39,6 +41,8 @@ export interface RunOptions {
   readonly force?: boolean;
   /** Passed to delivery (fault injection in tests). */
   readonly deliver?: DeliverOptions;
+  /** How input files are read (default: in this process; `--cluster`: by the cluster's workers). */
+  readonly extract?: Extractor;
 }
 
 export interface RunOutcome {
@@ -147,9 +151,9 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   }
   sweepOutputs(config, log);
   // Unusable is the same as late: the run's key names the forecasts actually used (older ones when newer were unusable).
-  const analysis = await analyse(config, options.run, { inputs: resolved });
+  const analysis = await analyse(config, options.run, { inputs: resolved, extract: options.extract });
   const key = forecastKey(analysis.inputs);
-  const ledger = openLedger(config.ledger, { now: options.run.now });
+  const ledger = openConfiguredLedger(config, { now: options.run.now });
   try {
     const begun = beginRun(ledger, key, { force: options.force });
     if (begun.kind === 'already-issued') {

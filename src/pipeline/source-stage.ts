@@ -8,6 +8,7 @@ import type { LeadClimate } from '../calibrate/climate.ts';
 import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
 import { leadProbabilities } from '../calibrate/probability.ts';
 import { skillByLead } from '../calibrate/skill.ts';
+import type { Extractor } from '../read/extract.ts';
 import type { ChecksumMemo } from '../core/file-checksums.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import { cachedSkill, fingerprint, skillCacheKey } from '../calibrate/skill-cache.ts';
@@ -44,6 +45,8 @@ export interface SharedContext {
   readonly observedMemo: ObservedIndicators;
   /** Checksums of input files remembered across runs (cache keys). */
   readonly checksums: ChecksumMemo;
+  /** How files are read: in this process, or by a cluster's workers. */
+  readonly extract: Extractor;
 }
 
 type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & { region: string; indicator: string; hindcast: StoredLeadClimate | null; observed: StoredLeadClimate | null };
@@ -67,7 +70,7 @@ async function loadClimates(ctx: SharedContext, input: SourceInputs, read: Sourc
     memo: ctx.checksums,
   });
   const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, async () => {
-    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series));
+    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series), ctx.extract, config.calibration.cacheDir);
     return pairs(config, source.tier).map(({ region, ind }): StoredClimate => {
       const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };

@@ -11,6 +11,7 @@ import type { Config } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import type { Quantity } from '../types.ts';
 import { hindcastsFor, type ForecastCandidate, type SourceInputs } from './inputs.ts';
+import type { Extractor } from '../read/extract.ts';
 import { readFile, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
 
 export interface UsableForecast {
@@ -29,26 +30,26 @@ function whyUnusable(source: SourceInputs['source'], series: RegionQuantities): 
 }
 
 /** Regions whose cell count differs from the first hindcast's (another grid); null when there is no hindcast to compare. */
-async function gridMismatch(config: Config, input: SourceInputs, series: RegionQuantities, problems: ForelightError[]): Promise<string[] | null> {
+async function gridMismatch(config: Config, input: SourceInputs, series: RegionQuantities, problems: ForelightError[], extract: Extractor): Promise<string[] | null> {
   const first = input.hindcasts[0];
   if (!first) return null;
   const [quantity, variable] = Object.entries(input.source.variables)[0] as [Quantity, string];
-  const hindcast = await readFile(first.path, { [quantity]: variable }, config.regions, { referenceTime: first.start, tier: input.source.tier }, problems);
+  const hindcast = await readFile(extract, first.path, { [quantity]: variable }, config.regions, { referenceTime: first.start, tier: input.source.tier }, problems);
   if (!hindcast) return null;
   const theirs = regionCells(hindcast);
   return [...regionCells(series)].filter(([region, cells]) => theirs.has(region) && theirs.get(region) !== cells).map(([region]) => region);
 }
 
 /** The newest usable forecast of one source within its candidates; null when none is usable. */
-export async function readUsableForecast(config: Config, issueDate: string, input: SourceInputs, problems: ForelightError[]): Promise<UsableForecast | null> {
+export async function readUsableForecast(config: Config, issueDate: string, input: SourceInputs, problems: ForelightError[], extract: Extractor): Promise<UsableForecast | null> {
   const tried: string[] = [];
   for (const candidate of input.candidates) {
     const notes: string[] = [];
-    const series = await readFile(candidate.path, input.source.variables, config.regions, { referenceTime: candidate.date, tier: input.source.tier, notes }, problems);
+    const series = await readFile(extract, candidate.path, input.source.variables, config.regions, { referenceTime: candidate.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir }, problems);
     const at = candidateInputs(config, input, candidate, issueDate);
     let why = series === null ? 'it could not be read (see above)' : whyUnusable(input.source, series);
     if (series && why === null) {
-      const differ = await gridMismatch(config, at, series, problems);
+      const differ = await gridMismatch(config, at, series, problems, extract);
       if (differ && differ.length === series.size) why = `its grid differs from the hindcasts' (${differ.join(', ')} cover other cells)`;
       else if (differ) {
         for (const region of differ) {

@@ -15,14 +15,18 @@
  *     start of the day: common practice, no source).
  *  3. otherwise an instantaneous sample at the stamp, standing for one nominal spacing (median step).
  *  Accumulated-since-start fields: step i covers (stamp[i-1], stamp[i]], the first (R or bounds start, stamp[0]].
- * A step belongs to the local day (UTC + utcOffsetHours) holding its interval MIDPOINT, never its stamp alone.
- * A local day is kept only when its steps cover the full 24 h (sum of interval lengths; samples count one
- * spacing each). Incomplete first/last days are DROPPED, so lead day 1 is the first complete local day.
+ * A step belongs to the local day (UTC + the region clock's offset at that instant: a fixed offset, or an IANA
+ * zone following daylight saving) holding its interval MIDPOINT, never its stamp alone.
+ * A local day is kept only when its steps cover 24 h, or the whole day when it is shorter (23 h on a
+ * spring-forward day; a 25 h autumn day needs 24 h, as steps of 3 or 6 h cannot fill 25 h) (sum of interval
+ * lengths; samples count one spacing each). Incomplete first/last days are DROPPED, so lead day 1 is the first
+ * complete local day.
  * A cell's daily value is NaN when any of its steps in that day is missing.
  * Daily (or coarser) input passes through: one step per day, dated by the UTC date of its interval's
  * midpoint (so an end-stamped daily maximum gets the day before its stamp); no local shift, as a daily value
  * cannot be re-cut into local days.
  */
+import { localDayLengthMs, localDayNumber, type LocalClock } from '../core/local-clock.ts';
 import type { IsoDate } from '../types.ts';
 
 export type DailyMethod = 'max' | 'min' | 'mean' | 'sum';
@@ -106,7 +110,7 @@ function isoDate(dayNumber: number): IsoDate {
 }
 
 /** Assigns steps to complete local days (see module comment). */
-export function planLocalDays(intervals: StepIntervals, utcOffsetHours: number): DayPlan {
+export function planLocalDays(intervals: StepIntervals, clock: LocalClock): DayPlan {
   const { startMs, endMs, instantaneous } = intervals;
   const n = startMs.length;
   const spacing = instantaneous ? medianSpacing(startMs) : medianSpacing(endMs);
@@ -126,11 +130,11 @@ export function planLocalDays(intervals: StepIntervals, utcOffsetHours: number):
   const coverage = new Map<number, number>();
   for (let i = 0; i < n; i++) {
     const length = instantaneous ? spacing : endMs[i] - startMs[i];
-    dayNumber[i] = Math.floor(((startMs[i] + endMs[i]) / 2 + utcOffsetHours * HOUR_MS) / DAY_MS);
+    dayNumber[i] = localDayNumber(clock, (startMs[i] + endMs[i]) / 2);
     stepWeight[i] = length / HOUR_MS;
     if (length > 0) coverage.set(dayNumber[i], (coverage.get(dayNumber[i]) ?? 0) + length);
   }
-  const complete = [...coverage.entries()].filter(([, ms]) => ms >= DAY_MS - COVERAGE_SLACK_MS).map(([d]) => d).sort((a, b) => a - b);
+  const complete = [...coverage.entries()].filter(([d, ms]) => ms >= Math.min(DAY_MS, localDayLengthMs(clock, d)) - COVERAGE_SLACK_MS).map(([d]) => d).sort((a, b) => a - b);
   const index = new Map(complete.map((d, k) => [d, k]));
   for (let i = 0; i < n; i++) dayOfStep[i] = stepWeight[i] > 0 ? index.get(dayNumber[i]) ?? -1 : -1;
   return { days: complete.map(isoDate), dayOfStep, stepWeight };

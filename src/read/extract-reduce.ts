@@ -6,6 +6,7 @@
  * member and step. No per-value objects.
  */
 import { InputError } from '../core/errors.ts';
+import type { LocalClock } from '../core/local-clock.ts';
 import type { Dataset } from './dataset.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
 import { bandCellReader, type BandCellReader } from './extract-read.ts';
@@ -20,8 +21,8 @@ export interface ReduceRequest {
   readonly layout: VariableLayout;
   readonly band: GridBand;
   readonly regions: readonly BandRegion[];
-  /** utcOffsetHours of each region, same order. */
-  readonly utcOffsets: readonly number[];
+  /** Local clock of each region, same order. */
+  readonly clocks: readonly LocalClock[];
   /** Step intervals (daily.ts `stepIntervals`), or null when the variable has no time axis. */
   readonly intervals: StepIntervals | null;
   /** Conversion to canonical units, or null to keep the file's units. */
@@ -129,12 +130,13 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
   const steps = layout.timeAxis >= 0 ? layout.info.shape[layout.timeAxis] : 1;
   const members = layout.memberAxis >= 0 ? layout.info.shape[layout.memberAxis] : 1;
   const bandCells = band.used.length;
-  const offsets = [...new Set(req.utcOffsets)];
-  const plans = new Map<number, DayPlan>();
-  if (req.daily && intervals) for (const o of offsets) plans.set(o, planLocalDays(intervals, o));
+  const keys = req.clocks.map((c) => c.key);
+  const offsets = [...new Set(keys)];
+  const plans = new Map<string, DayPlan>();
+  if (req.daily && intervals) for (const c of req.clocks) if (!plans.has(c.key)) plans.set(c.key, planLocalDays(intervals, c));
   const stamps = layout.timeAxis >= 0 && coords.time ? Array.from(coords.time.stampsMs, isoInstant) : [''];
   const out: RegionMeans[] = regions.map((_r, k) => {
-    const labels = plans.get(req.utcOffsets[k])?.days ?? stamps;
+    const labels = plans.get(keys[k])?.days ?? stamps;
     return { labels, data: new Float64Array(members * labels.length) };
   });
   const starts = chunkStarts(steps, band.nLat * band.gridLon, [...plans.values()], req.maxChunkValues);
@@ -165,7 +167,7 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
           [src, rows, firstLabel] = [dayBuffer, range.days, range.first];
         }
         regions.forEach((r, k) => {
-          if (req.utcOffsets[k] === o) regionMeans(src, bandCells, rows, r, out[k], m, firstLabel);
+          if (keys[k] === o) regionMeans(src, bandCells, rows, r, out[k], m, firstLabel);
         });
       }
     }

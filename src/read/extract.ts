@@ -4,19 +4,22 @@
  * goes to `problems`; the others are still computed. A file whose forecast reference time differs from the
  * requested one is refused as a whole.
  */
-import type { RegionConfig } from '../config/types.ts';
+import type { CellRule, RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
+import { regionClock } from '../core/local-clock.ts';
 import type { Quantity, RegionSeries, Tier } from '../types.ts';
-import { findCoordinates, layoutVariable, type FileCoordinates } from './coordinates.ts';
-import type { Dataset, VariableInfo } from './dataset.ts';
+import { findCoordinates, layoutVariable } from './coordinates.ts';
+import type { Dataset } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
 import { dailyMethodFor, planTime, referenceWindowMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
 import { monthlyNote, requireMonthTier, spreadMeansToDays } from './monthly.ts';
 import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
-import { describeShape, selectRegionCells, type RegionCells } from './regions.ts';
-import { missingUnitsError, planUnits, type UnitPlan } from './units.ts';
+import { rawRegionMeans } from './extract-raw.ts';
+import { regionSetCells } from './region-weights.ts';
+import { describeShape } from './regions.ts';
+import { planUnits } from './units.ts';
 
 export interface ExtractRequest {
   /** Canonical quantity → variable name in the file. */
@@ -24,6 +27,8 @@ export interface ExtractRequest {
   readonly regions: readonly RegionConfig[];
   /** Expected forecast reference time (ISO 8601, e.g. from the file name); checked against the file. */
   readonly referenceTime?: string;
+  /** Folder of the region-weights cache (region-weights.ts); absent = computed in this process only. */
+  readonly weightsCacheDir?: string;
   /** The source's tier: a file of monthly values feeds only `months`. */
   readonly tier?: Tier;
 }
@@ -59,18 +64,6 @@ function checkReference(file: string, window: { earliest: number; latest: number
     'the file name and its contents disagree: check the source path pattern or replace the file');
 }
 
-function selectAll(coords: FileCoordinates, regions: readonly RegionConfig[], problems: ForelightError[]): { region: RegionConfig; cells: RegionCells }[] {
-  const out: { region: RegionConfig; cells: RegionCells }[] = [];
-  for (const region of regions) {
-    try {
-      out.push({ region, cells: selectRegionCells(coords.grid, region, coords.file) });
-    } catch (err) {
-      keepOrRethrow(err, problems);
-    }
-  }
-  return out;
-}
-
 /** Reads every requested quantity for every region from an opened dataset (see `extractRegionSeries`). */
 export async function extractFromDataset(ds: Dataset, request: ExtractRequest): Promise<ExtractResult> {
   const problems: ForelightError[] = [];
@@ -78,7 +71,8 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const coords = await findCoordinates(ds);
   const wanted = requestedMs(ds.path, request.referenceTime);
   const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
-  const selected = selectAll(coords, request.regions, problems);
+  const { selected, problems: cellProblems } = regionSetCells(coords.grid, request.regions, coords.file, request.weightsCacheDir ?? null);
+  problems.push(...cellProblems);
   const { band, regions } = planBand(selected.map((s) => s.cells), coords.grid.lat.length, coords.grid.lon.length);
   if (regions.length === 0) return { series, problems, notes };
   for (const [quantity, variable] of Object.entries(request.quantities) as [Quantity, string][]) {
@@ -96,7 +90,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
       if (months) requireMonthTier(ds.path, variable, request.tier);
       const reduced = await reduceVariable(ds, coords, {
         layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
-        utcOffsets: selected.map((s) => s.region.utcOffsetHours),
+        clocks: selected.map((s) => regionClock(s.region)),
         daily: months ? null : dailyMethodFor(quantity, unitPlan),
       });
       const means = months ? spreadMeansToDays(ds.path, variable, months, unitPlan.kind, reduced) : reduced;
@@ -128,6 +122,15 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
  * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
  * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
  */
+/**
+ * Reads one file for a set of regions: `extractRegionSeries` in this process, or a cluster's workers
+ * (src/cluster/). `parallel`: how many calls the read stage may keep in flight (1 when absent).
+ */
+export interface Extractor {
+  (path: string, request: ExtractRequest): Promise<ExtractResult>;
+  readonly parallel?: number;
+}
+
 export function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
   return withDataset(path, (ds) => extractFromDataset(ds, request));
 }
@@ -137,6 +140,10 @@ export interface BoxExtractOptions {
   readonly box: { readonly south: number; readonly north: number; readonly west: number; readonly east: number };
   readonly daily?: DailyMethod;
   readonly utcOffsetHours?: number;
+  /** IANA zone of local days (wins over utcOffsetHours). */
+  readonly timeZone?: string;
+  /** Default `centre` (the cells `cdo sellonlatbox` takes). */
+  readonly cellRule?: CellRule;
 }
 
 /** What `forelight extract … --json` prints: values in the file's own units, members in file order. */
@@ -151,58 +158,11 @@ export interface BoxExtractJson {
 
 /** Area-weighted box mean of one variable of an opened dataset, per member and step (or local day). */
 export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions): Promise<BoxExtractJson> {
-  const coords = await findCoordinates(ds);
-  const region: RegionConfig = { id: 'box', name: 'box', shape: { kind: 'box', ...opts.box }, utcOffsetHours: opts.utcOffsetHours ?? 0, teams: [] };
-  const cells = selectRegionCells(coords.grid, region, ds.path);
-  const { band, regions } = planBand([cells], coords.grid.lat.length, coords.grid.lon.length);
-  const layout = layoutVariable(ds, coords, opts.variable);
-  const unitPlan = canonicalUnitPlan(layout.info, ds.path);
-  const timePlan = planTime(coords, layout, unitPlan);
-  if (opts.daily && !timePlan.intervals) {
-    throw new InputError('time-missing', ds.path, `variable '${opts.variable}' has no time axis`, 'drop --daily or choose a variable with a CF time coordinate');
-  }
-  const [mean] = await reduceVariable(ds, coords, {
-    layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
-    utcOffsets: [region.utcOffsetHours], daily: opts.daily ?? null,
-  });
-  const steps = mean.labels.length;
-  const members: (number | null)[][] = [];
-  for (let m = 0; m < mean.data.length / steps; m++) {
-    members.push(Array.from(mean.data.subarray(m * steps, (m + 1) * steps), (v) => (v === v ? v : null)));
-  }
-  const units = unitPlan?.units ?? layout.info.attributes.units;
-  return { units: typeof units === 'string' ? units : '', times: [...mean.labels], members, cells: cells.weights.length };
-}
-
-/** Quantities tried, in order, to find a variable's canonical units for `extract` (standard_name breaks ties). */
-const GUESS_ORDER = ['tmean', 'rh', 'precip', 'wind'] as const;
-
-const NAME_PATTERNS: Readonly<Record<'tmean' | 'rh' | 'precip' | 'wind', RegExp>> = {
-  tmean: /temperature/, rh: /relative_humidity/, precip: /precipitation|rain/, wind: /wind/,
-};
-
-/**
- * The conversion of a variable to canonical units (°C, %, mm/day, m/s) judged from its units and standard_name,
- * or null when it is none of those quantities (values are then printed in the file's own units).
- * @throws UnitError (the same line as `run` gives) when the variable has no units at all.
- */
-export function canonicalUnitPlan(info: VariableInfo, file: string): UnitPlan | null {
-  const units = info.attributes.units;
-  const standardName = String(info.attributes.standard_name ?? '');
-  if (typeof units !== 'string' || units.trim() === '') {
-    const guess = GUESS_ORDER.find((q) => NAME_PATTERNS[q as keyof typeof NAME_PATTERNS].test(standardName)) ?? null;
-    throw missingUnitsError(file, info.name, guess);
-  }
-  const fits = GUESS_ORDER.flatMap((q) => {
-    try {
-      return [planUnits(q, units, file, info.name)];
-    } catch {
-      return [];
-    }
-  });
-  if (fits.length <= 1) return fits[0] ?? null;
-  const byName = fits.find((p) => NAME_PATTERNS[p.quantity as keyof typeof NAME_PATTERNS].test(standardName));
-  return byName ?? null;
+  const region: RegionConfig = { id: 'box', name: 'box', shape: { kind: 'box', ...opts.box }, utcOffsetHours: opts.utcOffsetHours ?? 0, ...(opts.timeZone ? { timeZone: opts.timeZone } : {}), teams: [], cellRule: opts.cellRule ?? 'centre' };
+  const means = await rawRegionMeans(ds, opts.variable, [region], opts.daily ?? null, null);
+  if (means.problems.length > 0) throw means.problems[0];
+  const [r] = means.regions;
+  return { units: means.units, times: r.times, members: r.members, cells: r.cells };
 }
 
 /** `forelight extract <file> --var … --box S,N,W,E [--daily m] [--utc-offset h] --json`: opens, extracts, closes. */

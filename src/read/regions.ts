@@ -1,6 +1,9 @@
 /**
  * Which grid cells make up a region, and their area weights.
  *
+ * Rule `overlap` (the default): every cell intersecting the region, weighted by the exact spherical area of the
+ * intersection (region-overlap.ts). Rule `centre`, below, for users who must match CDO:
+ *
  * Inclusion (matches `cdo sellonlatbox`, checked on test/fixtures/regions): a cell belongs to a box when its
  * CENTRE lies inside the box, edges inclusive (to 1e-6°). Longitudes are compared modulo 360, so a box may
  * use -180..180 or 0..360 numbers on either kind of grid and may cross 0° or 180° (west > east means it
@@ -14,8 +17,9 @@
  * exactly proportional to cos(latitude).
  */
 import { InputError } from '../core/errors.ts';
-import type { RegionConfig, RegionShape } from '../config/types.ts';
+import type { RegionConfig, RegionShape, Ring } from '../config/types.ts';
 import type { LatLonGrid } from './coordinates.ts';
+import { overlapAreas, shapePolygons } from './region-overlap.ts';
 
 const EDGE_EPS_DEG = 1e-6;
 const DEG = Math.PI / 180;
@@ -41,10 +45,14 @@ function deriveBounds(centres: Float64Array): Float64Array {
   return out;
 }
 
+/** `[n][2]` cell bounds in degrees along both axes: the file's, or derived from the centres (see module comment). */
+export function cellBounds(grid: LatLonGrid): { readonly lat: Float64Array; readonly lon: Float64Array } {
+  return { lat: grid.latBounds ?? deriveBounds(grid.lat), lon: grid.lonBounds ?? deriveBounds(grid.lon) };
+}
+
 /** Per-row factor |sin φ2 − sin φ1| and per-column width |Δλ| in degrees; weight of a cell is their product. */
 export function cellAreaFactors(grid: LatLonGrid): { readonly latFactor: Float64Array; readonly lonWidth: Float64Array } {
-  const latB = grid.latBounds ?? deriveBounds(grid.lat);
-  const lonB = grid.lonBounds ?? deriveBounds(grid.lon);
+  const { lat: latB, lon: lonB } = cellBounds(grid);
   const clamp = (x: number): number => Math.max(-90, Math.min(90, x));
   const latFactor = new Float64Array(grid.lat.length);
   for (let i = 0; i < latFactor.length; i++) latFactor[i] = Math.abs(Math.sin(clamp(latB[2 * i + 1]) * DEG) - Math.sin(clamp(latB[2 * i]) * DEG));
@@ -77,7 +85,7 @@ function onSegment(x: number, y: number, x1: number, y1: number, x2: number, y2:
 }
 
 /** Even-odd ray casting; points on an edge or vertex count as inside. `ring` is [lon, lat] pairs. */
-export function pointInRing(lon: number, lat: number, ring: readonly (readonly [number, number])[]): boolean {
+export function pointInRing(lon: number, lat: number, ring: Ring): boolean {
   let inside = false;
   for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) {
     const [xi, yi] = ring[i];
@@ -91,9 +99,11 @@ export function pointInRing(lon: number, lat: number, ring: readonly (readonly [
 /** "box S..N, W..E" or "polygon of K points, lat a..b, lon c..d" for messages. */
 export function describeShape(shape: RegionShape): string {
   if (shape.kind === 'box') return `box ${shape.south}..${shape.north}, ${shape.west}..${shape.east}`;
-  const lons = shape.ring.map((p) => p[0]);
-  const lats = shape.ring.map((p) => p[1]);
-  return `polygon of ${shape.ring.length} points, lat ${Math.min(...lats)}..${Math.max(...lats)}, lon ${Math.min(...lons)}..${Math.max(...lons)}`;
+  const polygons = shapePolygons(shape);
+  const [s, n] = [Math.min(...polygons.map((p) => p.south)), Math.max(...polygons.map((p) => p.north))];
+  const [w, e] = [Math.min(...polygons.map((p) => p.west)), Math.max(...polygons.map((p) => p.east))];
+  const what = shape.kind === 'polygon' ? `polygon of ${shape.ring.length} points` : `${polygons.length} polygon(s)`;
+  return `${what}, lat ${s}..${n}, lon ${w}..${e}`;
 }
 
 function range(values: Float64Array): string {
@@ -106,47 +116,54 @@ function range(values: Float64Array): string {
   return `${lo}..${hi}`;
 }
 
-/** Latitude extent of a shape (rows outside it are skipped without testing their cells). */
-function latExtent(shape: RegionShape): [number, number] {
-  if (shape.kind === 'box') return [shape.south, shape.north];
-  const lats = shape.ring.map((p) => p[1]);
-  return [Math.min(...lats), Math.max(...lats)];
-}
-
 /** A membership test for one shape on cell centres (lat, lon in the grid's own convention). */
 function shapeTest(shape: RegionShape): (lat: number, lon: number) => boolean {
   if (shape.kind === 'box') {
     return (lat, lon) => lat >= shape.south - EDGE_EPS_DEG && lat <= shape.north + EDGE_EPS_DEG && lonInArc(lon, shape.west, shape.east);
   }
-  const lons = shape.ring.map((p) => p[0]);
-  const mid = (Math.min(...lons) + Math.max(...lons)) / 2;
-  return (lat, lon) => pointInRing(lon + 360 * Math.round((mid - lon) / 360), lat, shape.ring);
+  // Even-odd over all rings of a polygon: inside the outer ring and outside its holes.
+  const polygons = shapePolygons(shape);
+  return (lat, lon) => polygons.some((p) => {
+    if (lat < p.south - EDGE_EPS_DEG || lat > p.north + EDGE_EPS_DEG) return false;
+    const x = lon + 360 * Math.round(((p.west + p.east) / 2 - lon) / 360);
+    return p.rings.reduce((inside, ring) => inside !== pointInRing(x, lat, ring), false);
+  });
+}
+
+function centreCells(grid: LatLonGrid, shape: RegionShape): { latIdx: number[]; lonIdx: number[]; weights: number[] } {
+  const inside = shapeTest(shape);
+  const { latFactor, lonWidth } = cellAreaFactors(grid);
+  const out = { latIdx: [] as number[], lonIdx: [] as number[], weights: [] as number[] };
+  for (let y = 0; y < grid.lat.length; y++) {
+    for (let x = 0; x < grid.lon.length; x++) {
+      if (!inside(grid.lat[y], grid.lon[x])) continue;
+      out.latIdx.push(y);
+      out.lonIdx.push(x);
+      out.weights.push(latFactor[y] * lonWidth[x] * DEG); // steradians, as the overlap rule
+    }
+  }
+  return out;
+}
+
+/** Cells with their intersection area in steradians, ascending by (row, column). */
+function overlapCells(grid: LatLonGrid, shape: RegionShape): { latIdx: number[]; lonIdx: number[]; weights: number[] } {
+  const bounds = cellBounds(grid);
+  const areas = [...overlapAreas(shapePolygons(shape), bounds.lat, bounds.lon)].sort((a, b) => a[0] - b[0]);
+  const nLon = grid.lon.length;
+  return { latIdx: areas.map(([c]) => Math.floor(c / nLon)), lonIdx: areas.map(([c]) => c % nLon), weights: areas.map(([, a]) => a) };
 }
 
 /**
  * The cells of `region` on `grid`, with area weights (see module comment for the rules).
- * @throws InputError `region-empty` when no cell centre falls inside the region.
+ * @throws InputError `region-empty` when no cell counts for the region.
  */
 export function selectRegionCells(grid: LatLonGrid, region: RegionConfig, file: string): RegionCells {
-  const inside = shapeTest(region.shape);
-  const { latFactor, lonWidth } = cellAreaFactors(grid);
-  const latIdx: number[] = [];
-  const lonIdx: number[] = [];
-  const weights: number[] = [];
-  const [latLo, latHi] = latExtent(region.shape);
-  for (let y = 0; y < grid.lat.length; y++) {
-    if (grid.lat[y] < latLo - EDGE_EPS_DEG || grid.lat[y] > latHi + EDGE_EPS_DEG) continue;
-    for (let x = 0; x < grid.lon.length; x++) {
-      if (!inside(grid.lat[y], grid.lon[x])) continue;
-      latIdx.push(y);
-      lonIdx.push(x);
-      weights.push(latFactor[y] * lonWidth[x]);
-    }
-  }
+  const rule = region.cellRule ?? 'overlap';
+  const { latIdx, lonIdx, weights } = rule === 'centre' ? centreCells(grid, region.shape) : overlapCells(grid, region.shape);
   if (latIdx.length === 0) {
     throw new InputError('region-empty', file,
       `region '${region.id}' (${describeShape(region.shape)}) has no grid cell in ${file} (grid lat ${range(grid.lat)}, lon ${range(grid.lon)})`,
-      'check the region box or the source');
+      rule === 'centre' ? 'check the region shape or the source, or use cell-rule: overlap (a region smaller than a cell may hold no centre)' : 'check the region shape (longitude east, latitude north) or the source');
   }
   return { region: region.id, latIndex: Int32Array.from(latIdx), lonIndex: Int32Array.from(lonIdx), weights: Float64Array.from(weights) };
 }

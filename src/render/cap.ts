@@ -16,6 +16,8 @@
  * - identifier: `forelight.<runId>.<region>.<indicator>` — stable for a run, unique per region × indicator.
  */
 import type { LeadProbability } from '../types.ts';
+import { localDayStartIso, regionClock } from '../core/local-clock.ts';
+import { shapeRingSets } from '../config/region-shape.ts';
 import { escapeXml, toToken, toXmlChars } from './safe-text.ts';
 import type { BulletinRun, CapAlert, PreviousIssue, RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import type { TemplateEnv } from './template-env.ts';
@@ -39,13 +41,9 @@ export function capUtc(iso: string): string {
   return `${d.toISOString().slice(0, 19)}-00:00`;
 }
 
-/** CAP dateTime of local midnight starting `day` (`YYYY-MM-DD`) at a whole/half-hour UTC offset. */
-export function capLocalMidnight(day: string, utcOffsetHours: number): string {
-  const sign = utcOffsetHours < 0 ? '-' : '+';
-  const abs = Math.abs(utcOffsetHours);
-  const hh = String(Math.floor(abs)).padStart(2, '0');
-  const mm = String(Math.round((abs % 1) * 60)).padStart(2, '0');
-  return `${day}T00:00:00${sign}${hh}:${mm}`;
+/** CAP dateTime of the local start of `day` (`YYYY-MM-DD`) in the region's time zone or at its UTC offset. */
+export function capLocalMidnight(day: string, region: { readonly utcOffsetHours: number; readonly timeZone?: string }): string {
+  return localDayStartIso(regionClock(region), day);
 }
 
 function nextDay(day: string): string {
@@ -54,15 +52,19 @@ function nextDay(day: string): string {
   return d.toISOString().slice(0, 10);
 }
 
-/** CAP polygon: "lat,lon lat,lon …", closed (first = last); boxes become 5 points. */
-export function capPolygon(region: RegionOutcome['region']): string {
-  const ring: (readonly [number, number])[] = region.shape.kind === 'box'
-    ? [[region.shape.west, region.shape.south], [region.shape.west, region.shape.north], [region.shape.east, region.shape.north], [region.shape.east, region.shape.south]]
-    : [...region.shape.ring];
-  const first = ring[0];
-  const last = ring[ring.length - 1];
-  if (first[0] !== last[0] || first[1] !== last[1]) ring.push(first);
-  return ring.map(([lon, lat]) => `${lat},${lon}`).join(' ');
+/**
+ * CAP polygons (CAP 1.2 §3.2.4 `polygon`, one per outer ring; an area may hold several): "lat,lon lat,lon …",
+ * closed (first = last); boxes become 5 points. Holes cannot be written in CAP, so the outline covers them;
+ * longitudes are written in −180..180 (WGS 84, CAP 1.2 §3.3.4).
+ */
+export function capPolygons(region: RegionOutcome['region']): string[] {
+  return shapeRingSets(region.shape).map(([outer]) => {
+    const ring = [...outer];
+    const first = ring[0];
+    const last = ring[ring.length - 1];
+    if (first[0] !== last[0] || first[1] !== last[1]) ring.push(first);
+    return ring.map(([lon, lat]) => `${lat},${lon > 180 ? lon - 360 : lon}`).join(' ');
+  });
 }
 
 /** Sender: the bare address of `delivery.from` (CAP forbids spaces, commas and `<`/`&`). */
@@ -116,8 +118,8 @@ function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome,
     el('audience', t('cap.audience')),
   ];
   if (lead) {
-    parts.push(el('onset', capLocalMidnight(lead.lead.start, outcome.region.utcOffsetHours)));
-    parts.push(el('expires', capLocalMidnight(nextDay(lead.lead.end), outcome.region.utcOffsetHours)));
+    parts.push(el('onset', capLocalMidnight(lead.lead.start, outcome.region)));
+    parts.push(el('expires', capLocalMidnight(nextDay(lead.lead.end), outcome.region)));
   }
   parts.push(
     el('senderName', t('cap.senderName', { country: countryName(config, locale) })),
@@ -136,7 +138,7 @@ function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome,
     if (lead.skill) params.push([`forelight:${config.decision.skillGate.score}`, lead.skill[config.decision.skillGate.score].toFixed(2)]);
   }
   for (const [k, v] of params) parts.push(`<parameter>${el('valueName', k)}${el('value', v)}</parameter>`);
-  parts.push(`<area>${el('areaDesc', outcome.region.name)}${el('polygon', capPolygon(outcome.region))}</area>`);
+  parts.push(`<area>${el('areaDesc', outcome.region.name)}${capPolygons(outcome.region).map((p) => el('polygon', p)).join('')}</area>`);
   return `<info>${parts.join('')}</info>`;
 }
 

@@ -5,6 +5,7 @@
  */
 import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadProbability, Tier } from '../types.ts';
+import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatDayRange, formatNumber } from './locale-format.ts';
@@ -175,7 +176,8 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
   const indicators = ids.map((id): IndicatorView => {
     const own = tiers.filter((tv) => tv.indicatorId === id);
     const ind = indicatorOf(id);
-    return { id, hazard: own[0].hazard, method: ind ? t(`method.${ind.kind}`, { days: ind.windowDays }) : own[0].hazard, tiers: own };
+    const averaged = t('method.region', { rule: outcome.region.cellRule ?? 'overlap', clock: regionClock(outcome.region).key });
+    return { id, hazard: own[0].hazard, method: `${ind ? t(`method.${ind.kind}`, { days: ind.windowDays }) : own[0].hazard} ${averaged}`, tiers: own };
   });
   const outlook = indicators.map((ind): OutlookRow => ({
     hazard: ind.hazard,

@@ -6,11 +6,12 @@
 import type { Bulletin } from '../types.ts';
 import type { TeamConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
+import { localDayNumber, regionClock, type LocalClock } from '../core/local-clock.ts';
 import type { ArchiveEntry } from './archive.ts';
 import { bulletinContext, topStage, type ChartRef } from './bulletin-context.ts';
 import type { Translate } from './catalogue.ts';
 import { buildCapAlerts } from './cap.ts';
-import { buildChartSpecs, chartWidth, renderChartPng, renderChartSvg, type ChartSpec } from './charts.ts';
+import { buildChartSpecs, chartPngsWithin, chartWidth, renderChartSvg, type ChartSpec } from './charts.ts';
 import { chartWords } from './chart-words.ts';
 import type { BulletinRun, CapAlert, PreviousIssue, RenderConfig } from './model.ts';
 import { buildRegionView, hazardName, type RegionView } from './region-view.ts';
@@ -48,12 +49,17 @@ function cleanAddress(team: TeamConfig, raw: string): string {
   return addr;
 }
 
-/** Local calendar day of an instant at a UTC offset. */
-function localDay(iso: string, utcOffsetHours: number): string {
-  return new Date(new Date(iso).getTime() + utcOffsetHours * 3_600_000).toISOString().slice(0, 10);
+/** Local calendar day of an instant on a region's clock. */
+function localDay(iso: string, clock: LocalClock): string {
+  return new Date(localDayNumber(clock, Date.parse(iso)) * 86_400_000).toISOString().slice(0, 10);
 }
 
-interface LocaleCharts { specs: Map<string, ChartSpec[]>; svg: Map<string, string>; png: Map<string, Uint8Array> }
+interface LocaleCharts { specs: Map<string, ChartSpec[]>; svg: Map<string, string> }
+
+/** Size budget of one e-mail: HTML, text, charts and PDF, before transfer encoding (README, "Outputs"). */
+export const EMAIL_BUDGET_BYTES = 300 * 1024;
+/** Room kept for the printable PDF (one A4 page is 30–70 kB). */
+const PDF_ALLOWANCE_BYTES = 80 * 1024;
 
 /** Render a run for every team, plus CAP, JSON and the archive entry. */
 export async function renderBulletins(config: RenderConfig, run: BulletinRun, previous?: PreviousIssue): Promise<RenderedRun> {
@@ -61,8 +67,7 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
   const nationalTeams = config.teams.filter((t) => t.national);
   const archiveLocale = nationalTeams[0]?.locale ?? config.teams[0]?.locale ?? 'en';
   for (const locale of new Set([...config.teams.map((t) => t.locale), archiveLocale])) cautionsFor(config, locale);
-  const offset = run.regions[0]?.region.utcOffsetHours ?? 0;
-  const issuedDay = localDay(run.issuedAt, offset);
+  const issuedDay = localDay(run.issuedAt, regionClock(run.regions[0]?.region ?? { utcOffsetHours: 0 }));
 
   const charts = new Map<string, LocaleCharts>();
   const chartsFor = (locale: string): LocaleCharts => {
@@ -70,7 +75,7 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     if (!c) {
       const t = env.t(locale);
       const words = chartWords(t, locale, (id) => hazardName(t, config.indicators.find((i) => i.id === id), id));
-      c = { specs: new Map(), svg: new Map(), png: new Map() };
+      c = { specs: new Map(), svg: new Map() };
       for (const r of run.regions) {
         const specs = buildChartSpecs(config, r, locale, words);
         c.specs.set(r.region.id, specs);
@@ -104,22 +109,20 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     });
     const kind = team.national ? 'national' : 'team';
     const c = chartsFor(locale);
-    const attachments = team.national ? [] : regionViews.flatMap((v) => (c.specs.get(v.id) ?? []).map((s) => {
-      let png = c.png.get(s.key);
-      if (!png) {
-        png = renderChartPng(c.svg.get(s.key) as string);
-        c.png.set(s.key, png);
-      }
-      return { cid: `${s.key}@forelight`, filename: `${s.key}.png`, contentType: 'image/png', content: png };
-    }));
+    const specs = team.national ? [] : regionViews.flatMap((v) => c.specs.get(v.id) ?? []);
+    // Charts take what the budget leaves after the text parts and a typical PDF.
+    const html = env.render(`${kind}.html.njk`, locale, ctx);
+    const text = env.render(`${kind}.txt.njk`, locale, ctx);
+    const { pngs } = chartPngsWithin(specs.map((s) => c.svg.get(s.key) as string), EMAIL_BUDGET_BYTES - Buffer.byteLength(html) - Buffer.byteLength(text) - PDF_ALLOWANCE_BYTES);
+    const attachments = specs.map((s, i) => ({ cid: `${s.key}@forelight`, filename: `${s.key}.png`, contentType: 'image/png', content: pngs[i] }));
     drafts.push({
       id: toToken(`${run.runId}-${team.id}`),
       team: team.id,
       locale,
       to: recipients.get(team.id) ?? [],
       subject: capHeaderText(subjectOf(t, ctx, regionViews, team.national)),
-      html: env.render(`${kind}.html.njk`, locale, ctx),
-      text: env.render(`${kind}.txt.njk`, locale, ctx),
+      html,
+      text,
       attachments,
       print: env.render('print.html.njk', locale, ctx),
     });

@@ -4,6 +4,7 @@
  * shared folder); a stale lock is moved aside under a unique name and re-checked before it is removed, so two
  * processes breaking the same stale lock cannot both win.
  */
+import { jsonShape, parseShaped } from '../core/json-shape.ts';
 import { openSync, readFileSync, renameSync, rmSync, writeSync, closeSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { ForelightError } from '../core/errors.ts';
@@ -14,6 +15,11 @@ export interface LockInfo {
   readonly host: string;
   readonly startedAt: string;
 }
+
+const isLockInfo = jsonShape<LockInfo>({
+  type: 'object', required: ['pid', 'host', 'startedAt'],
+  properties: { pid: { type: 'integer' }, host: { type: 'string' }, startedAt: { type: 'string' } },
+});
 
 export interface HeldLock {
   readonly path: string;
@@ -32,12 +38,8 @@ function readLock(path: string): { text: string; info: LockInfo | null } | null 
     if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
     throw err;
   }
-  try {
-    const info = JSON.parse(text) as LockInfo;
-    return { text, info: typeof info.pid === 'number' && typeof info.host === 'string' ? info : null };
-  } catch {
-    return { text, info: null };
-  }
+  const info = parseShaped(text, isLockInfo);
+  return { text, info: info.ok ? info.value : null };
 }
 
 export function isLockStale(info: LockInfo | null, maxAgeSeconds: number, now: Date): boolean {

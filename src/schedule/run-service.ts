@@ -2,8 +2,8 @@
  * Service mode: wake at each slot of `schedule.cron` in `schedule.timezone`, run once per slot under the
  * lock file, write the status file, stop gracefully on SIGTERM/SIGINT (the current run finishes first).
  *
- * Which slot is due is decided by computeNextRuns (DST-correct), not by the timer alone: a croner job wakes
- * the service at slot times and a backstop timer re-checks every minute, so a slot the timer misses (croner
+ * Which slot is due is decided by computeNextRuns (DST-correct), not by the timer alone: node-cron wakes
+ * the service at slot times and a backstop timer re-checks every minute, so a slot the timer misses (node-cron
  * runs a time skipped by a spring-forward gap when the gap ends, computeNextRuns shifts it by the gap) or that
  * passed while the machine slept still runs — once. On start, if a slot passed since the last completed run in
  * the ledger, the service catches up with ONE run, however many slots were missed (each run issues the newest
@@ -11,7 +11,7 @@
  */
 import type { Config } from '../config/types.ts';
 import { describeError } from '../core/errors.ts';
-import { openLedger } from '../ledger/open-ledger.ts';
+import { localStatePrefix, openConfiguredLedger, type LedgerSettings } from '../ledger/ledger-target.ts';
 import { lastCompletedRun } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
 import { EXIT, type ExitCode } from '../core/exit-codes.ts';
@@ -35,7 +35,7 @@ export interface RunResult {
 }
 
 export interface ServiceOptions {
-  readonly config: Pick<Config, 'schedule' | 'ledger'>;
+  readonly config: Pick<Config, 'schedule'> & LedgerSettings;
   readonly runOnce: (ctx: RunContext) => Promise<RunResult>;
   readonly log: Logger;
   /** Stops the service when aborted (in addition to SIGTERM/SIGINT). */
@@ -58,8 +58,8 @@ export interface ServiceOptions {
 /** A slot later than this behind "now" is reported as a catch-up run. */
 const CATCH_UP_AFTER_MS = 120_000;
 
-function ledgerLastCompletedAt(ledgerPath: string): Date | null {
-  const ledger = openLedger(ledgerPath);
+function ledgerLastCompletedAt(config: LedgerSettings): Date | null {
+  const ledger = openConfiguredLedger(config);
   try {
     const run = lastCompletedRun(ledger);
     return run ? new Date(run.startedAt) : null;
@@ -68,9 +68,10 @@ function ledgerLastCompletedAt(ledgerPath: string): Date | null {
   }
 }
 
-/** Where the service keeps its status file and lock, next to the ledger (also for `forelight run` / `status`). */
-export function servicePaths(ledgerPath: string): { statusPath: string; lockPath: string } {
-  return { statusPath: `${ledgerPath}.status.json`, lockPath: `${ledgerPath}.lock` };
+/** Where the service keeps its status file and lock, next to a SQLite ledger (also for `forelight run` / `status`). */
+export function servicePaths(config: LedgerSettings): { statusPath: string; lockPath: string } {
+  const prefix = localStatePrefix(config);
+  return { statusPath: `${prefix}.status.json`, lockPath: `${prefix}.lock` };
 }
 
 /** Runs until stopped; resolves after the in-flight run (if any) has finished. */
@@ -80,10 +81,10 @@ export async function runService(options: ServiceOptions): Promise<void> {
   checkCron(expr);
   checkTimeZone(timezone);
   const now = options.now ?? (() => new Date());
-  const statusPath = options.statusPath ?? servicePaths(config.ledger).statusPath;
-  const lockPath = options.lockPath ?? servicePaths(config.ledger).lockPath;
+  const statusPath = options.statusPath ?? servicePaths(config).statusPath;
+  const lockPath = options.lockPath ?? servicePaths(config).lockPath;
   const startedAt = now();
-  let lastRunAt = (options.lastCompletedAt ?? (() => ledgerLastCompletedAt(config.ledger)))() ?? startedAt;
+  let lastRunAt = (options.lastCompletedAt ?? (() => ledgerLastCompletedAt(config)))() ?? startedAt;
   let inFlight: Promise<void> | null = null;
   let stopping = false;
   const abort = new AbortController();

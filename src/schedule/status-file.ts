@@ -1,4 +1,5 @@
 /** The service status file read by `forelight status`: last run, its result, the next run, failures. */
+import { jsonShape, parseShaped } from '../core/json-shape.ts';
 import { readFileSync } from 'node:fs';
 import { writeFileAtomic } from '../core/write-atomic.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
@@ -38,6 +39,24 @@ export function writeStatus(path: string, status: ServiceStatus): void {
   writeFileAtomic(path, JSON.stringify(status, null, 2) + '\n', 'schedule');
 }
 
+const REPORT = {
+  type: 'object',
+  required: ['reason', 'startedAt', 'finishedAt', 'exitCode', 'exitName', 'summary'],
+  properties: {
+    reason: { enum: ['scheduled', 'catch-up', 'manual'] }, startedAt: { type: 'string' }, finishedAt: { type: 'string' },
+    exitCode: { type: 'integer' }, exitName: { type: 'string' }, summary: { type: 'string' },
+  },
+};
+const isStatus = jsonShape<ServiceStatus>({
+  type: 'object',
+  required: ['updatedAt', 'pid', 'cron', 'timezone', 'lastRun', 'nextRun', 'consecutiveFailures', 'recentFailures'],
+  properties: {
+    updatedAt: { type: 'string' }, pid: { type: 'integer' }, servicePid: { type: ['integer', 'null'] }, cron: { type: 'string' },
+    timezone: { type: 'string' }, lastRun: { anyOf: [REPORT, { type: 'null' }] }, nextRun: { type: ['string', 'null'] },
+    consecutiveFailures: { type: 'integer', minimum: 0 }, recentFailures: { type: 'array', items: REPORT },
+  },
+});
+
 /** Null when the service has not written a status yet. */
 export function readStatus(path: string): ServiceStatus | null {
   let text: string;
@@ -47,12 +66,10 @@ export function readStatus(path: string): ServiceStatus | null {
     if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
     throw new ForelightError('schedule', 'status-read', `cannot read status file ${path}: ${describeError(err)}`, 'check its permissions');
   }
-  try {
-    return JSON.parse(text) as ServiceStatus;
-  } catch (err) {
-    throw new ForelightError('schedule', 'status-corrupt', `status file ${path} is not valid JSON: ${describeError(err)}`,
-      'delete it; the service writes a new one after its next run');
-  }
+  const status = parseShaped(text, isStatus);
+  if (status.ok) return status.value;
+  throw new ForelightError('schedule', 'status-corrupt', `status file ${path} is not a status file: ${status.why}`,
+    'delete it; the service writes a new one after its next run');
 }
 
 /** The status with the service's pid set (at start) or cleared (at stop); the rest is kept. */

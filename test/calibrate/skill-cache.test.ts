@@ -1,6 +1,6 @@
 /** Skill cache keyed by content checksums; hashes checked against Debian coreutils `sha256sum`. */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -76,5 +76,18 @@ describe('checksum memo (file-sha256.json)', () => {
     expect(await again.sha256(f)).toBe(first);
     writeFileSync(f, 'second, longer');
     expect(await again.sha256(f)).toBe(execFileSync('sha256sum', [f], { encoding: 'utf8' }).split(' ')[0]);
+  });
+
+  it('a memo whose entries are not sha256 digests is not trusted: the file is hashed again', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-memo-'));
+    const f = join(dir, 'hc.nc');
+    writeFileSync(f, 'content');
+    const memo = await openChecksumMemo(dir);
+    await memo.sha256(f);
+    await memo.save();
+    const file = join(dir, 'file-sha256.json');
+    const stored = JSON.parse(readFileSync(file, 'utf8')) as Record<string, string>;
+    writeFileSync(file, JSON.stringify(Object.fromEntries(Object.keys(stored).map((k) => [k, 'not-a-digest']))));
+    expect(await (await openChecksumMemo(dir)).sha256(f)).toBe(execFileSync('sha256sum', [f], { encoding: 'utf8' }).split(' ')[0]);
   });
 });

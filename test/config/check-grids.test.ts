@@ -29,7 +29,7 @@ describe('checkRegionsAgainstGrids', async () => {
     const found = checkRegionsAgainstGrids(config, grids, sourceMap);
     expect(found.map((d) => [d.code, d.place.pointer])).toEqual([['config-grid', `/regions/${config.regions.findIndex((r) => r.id === 'orrin-coast')}`]]);
     expect(found.map(formatDiagnostic)).toEqual([
-      'config/regions.yaml:34:3: region orrin-coast (lat -8.5..-6, lon 2..4) lies outside the grid of source subseasonal (lat -15..-4, lon -6..1.9) — check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files',
+      'config/regions.yaml:41:3: region orrin-coast (lat -8.5..-6, lon 2..4) lies outside the grid of source subseasonal (lat -15..-4, lon -6..1.9) — check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files',
     ]);
   });
 });

@@ -78,7 +78,7 @@ describe('problems located at file:line:column', () => {
   it('unknown key is an error at the key', async () => {
     const file = minimalVariant('    priority: 1\n', '    priority: 1\n    prioritty: 2\n');
     expect(await problemsOf(file)).toEqual([
-      `${displayPath(file)}:9:5: unknown key "prioritty" — remove it or fix the spelling; allowed here: id, name, tier, forecast-files, hindcast-files, variables, priority`,
+      `${displayPath(file)}:9:5: unknown key "prioritty" — remove it or fix the spelling; allowed here: id, name, tier, forecast-files, hindcast-files, variables, priority, look-back-days`,
     ]);
   });
 

@@ -1,13 +1,13 @@
 /**
- * The SQLite ledger (better-sqlite3, real files): schema version via PRAGMA user_version, WAL journal mode,
- * run bookkeeping (once per forecast key, resume after a crash, force), superseding stale deliveries,
- * stage history, CAP alert references and the archive listing. Expected values follow from the rules
- * documented in src/ledger/*.ts (no external source).
+ * The ledger on both of its databases — SQLite (better-sqlite3, real files) and PostgreSQL (a throw-away Debian
+ * `postgresql` cluster on a loopback port): schema version, run bookkeeping (once per forecast key, resume after a
+ * crash, force), superseding stale deliveries, stage history, CAP alert references and the archive listing, each
+ * suite run on both. Expected values follow from the rules documented in src/ledger/*.ts (no external source).
  */
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { bulletinContentHash, hasBulletins, issuedBulletins, readBulletin, recordBulletins } from '../../src/ledger/bulletins.ts';
 import { claimDelivery, deliveryCounts, listDeliveries, markDelivery, pendingDeliveries } from '../../src/ledger/deliveries.ts';
 import { MIGRATIONS } from '../../src/ledger/migrations.ts';
@@ -18,12 +18,26 @@ import {
 import { beginRun, describeInputFile, finishRun, lastCompletedRun, recordInputs, runInputs } from '../../src/ledger/runs.ts';
 import type { LeadProbability, StageDecision } from '../../src/types.ts';
 import { sampleBulletin, sampleBulletins, tempDir } from '../deliver/fixtures.ts';
+import { startPostgres, type TestPostgres } from '../support/servers.ts';
 
 const open: Ledger[] = [];
 afterEach(() => { for (const l of open.splice(0)) l.close(); });
-function fresh(): { ledger: Ledger; dir: string } {
+let postgres: TestPostgres;
+let databases = 0;
+beforeAll(async () => { postgres = await startPostgres(); });
+afterAll(() => postgres?.stop());
+
+type Dialect = 'sqlite' | 'postgres';
+/** A new, empty ledger: a SQLite file, or a new database in the test cluster. */
+function fresh(dialect: Dialect = 'sqlite'): { ledger: Ledger; dir: string } {
   const dir = tempDir('ledger');
-  const ledger = openLedger(join(dir, 'ledger.sqlite'));
+  let ledger: Ledger;
+  if (dialect === 'sqlite') ledger = openLedger(join(dir, 'ledger.sqlite'));
+  else {
+    const name = `ledger_${++databases}`;
+    postgres.createDatabase(name);
+    ledger = openLedger(postgres.url(name), { password: postgres.password });
+  }
   open.push(ledger);
   return { ledger, dir };
 }
@@ -35,8 +49,8 @@ const decision = (region: string, stageId: string): StageDecision => ({
 describe('ledger schema', () => {
   it('sets user_version to the number of migrations and uses WAL (SQLite docs: PRAGMA user_version, journal_mode)', () => {
     const { ledger } = fresh();
-    expect(ledger.db.pragma('user_version', { simple: true })).toBe(MIGRATIONS.length);
-    expect(ledger.db.pragma('journal_mode', { simple: true })).toBe('wal');
+    expect(ledger.db.prepare('PRAGMA user_version').get()).toEqual({ user_version: MIGRATIONS.length });
+    expect(ledger.db.prepare('PRAGMA journal_mode').get()).toEqual({ journal_mode: 'wal' });
   });
 
   it('refuses a ledger from a newer Forelight with a one-line error', () => {
@@ -53,11 +67,32 @@ describe('ledger schema', () => {
     writeFileSync(join(dir, 'file'), '');
     expect(() => openLedger(join(dir, 'file', 'l.sqlite'))).toThrow(/^cannot open ledger .*file\/l\.sqlite: .* — check that its folder exists/);
   });
+
+  it('PostgreSQL: the same migrations give the same tables; the version is kept in forelight_schema', () => {
+    const { ledger } = fresh('postgres');
+    const tables = (ledger.db.prepare(`SELECT table_name AS t FROM information_schema.tables WHERE table_schema = 'public' ORDER BY 1`).all() as { t: string }[]).map((r) => r.t);
+    const sqlite = fresh('sqlite').ledger;
+    const sqliteTables = (sqlite.db.prepare(`SELECT name AS t FROM sqlite_master WHERE type = 'table' ORDER BY 1`).all() as { t: string }[]).map((r) => r.t);
+    expect(tables).toEqual([...sqliteTables, 'forelight_schema'].sort());
+    expect(ledger.db.prepare('SELECT version FROM forelight_schema').get()).toEqual({ version: MIGRATIONS.length });
+    // Opening again migrates nothing and keeps one version row.
+    const again = openLedger(ledger.path, { password: postgres.password });
+    open.push(again);
+    expect(again.db.prepare('SELECT count(*) AS n FROM forelight_schema').get()).toEqual({ n: 1 });
+  });
+
+  it('PostgreSQL: a wrong password is one line naming the server (password never printed), SQLSTATE given', () => {
+    const name = `ledger_${++databases}`;
+    postgres.createDatabase(name);
+    const url = postgres.url(name);
+    expect(() => openLedger(url, { password: 'wrong' })).toThrow(/^cannot open ledger postgres:\/\/forelight@127\.0\.0\.1:\d+\/ledger_\d+: .*password authentication failed.*SQLSTATE 28P01/);
+    expect(() => openLedger(url, { password: 'wrong' })).not.toThrow(/wrong/);
+  });
 });
 
-describe('runs', () => {
+describe.each(['sqlite', 'postgres'] as const)('runs (%s)', (dialect) => {
   it('issues a forecast key once; a finished key is already-issued; force starts a new run', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const first = beginRun(ledger, '2026-11-26');
     expect(first.kind).toBe('new');
     finishRun(ledger, first.run.id, 'ok');
@@ -68,7 +103,7 @@ describe('runs', () => {
   });
 
   it('a crashed run (still running, its process gone) is resumed and keeps what it rendered first', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const first = beginRun(ledger, '2026-11-26');
     const ids = recordBulletins(ledger, first.run.id, sampleBulletins());
     const resumed = beginRun(ledger, '2026-11-26');
@@ -81,7 +116,7 @@ describe('runs', () => {
   });
 
   it('a finished run with deliveries still pending is resumed, not skipped', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const run = beginRun(ledger, '2026-11-26').run;
     recordBulletins(ledger, run.id, sampleBulletins());
     finishRun(ledger, run.id, 'partial');
@@ -89,7 +124,7 @@ describe('runs', () => {
   });
 
   it('a newer forecast supersedes the unsent deliveries of an unfinished older run (no stale advice later)', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const old = beginRun(ledger, '2026-11-23').run;
     recordBulletins(ledger, old.id, sampleBulletins('2026-11-23'));
     const d = pendingDeliveries(ledger)[0];
@@ -106,14 +141,14 @@ describe('runs', () => {
   });
 
   it('a key that ended nothing-new is not blocked: late data for it starts a new run', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const a = beginRun(ledger, '2026-11-26').run;
     finishRun(ledger, a.id, 'nothing-new');
     expect(beginRun(ledger, '2026-11-26')).toMatchObject({ kind: 'new', run: { forced: false } });
   });
 
   it('lastCompletedRun ignores failed and running runs', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     expect(lastCompletedRun(ledger)).toBeNull();
     const a = beginRun(ledger, '2026-11-23').run;
     finishRun(ledger, a.id, 'nothing-new');
@@ -123,7 +158,7 @@ describe('runs', () => {
   });
 
   it('records input files with their SHA-256 (checked against sha256sum of "forelight\\n")', async () => {
-    const { ledger, dir } = fresh();
+    const { ledger, dir } = fresh(dialect);
     const path = join(dir, 'fc_20261126.nc');
     writeFileSync(path, 'forelight\n');
     const run = beginRun(ledger, '2026-11-26').run;
@@ -133,9 +168,9 @@ describe('runs', () => {
   });
 });
 
-describe('results and archive', () => {
+describe.each(['sqlite', 'postgres'] as const)('results and archive (%s)', (dialect) => {
   it('stage history and issued stages come from the latest issued run, not the current one', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const a = beginRun(ledger, '2026-11-23').run;
     saveStageHistory(ledger, a.id, JSON.stringify({ v: 'a' }));
     recordDecisions(ledger, a.id, [decision('kessan-lowlands', 'brace'), decision('orrin-coast', 'quiet')]);
@@ -150,7 +185,7 @@ describe('results and archive', () => {
   });
 
   it('previousCapAlert returns the last issued alert for region × indicator', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     expect(previousCapAlert(ledger, 'tulva-delta', 'heat-index')).toBeNull();
     const a = beginRun(ledger, '2026-11-23').run;
     recordCapAlert(ledger, a.id, 'tulva-delta', 'heat-index', { identifier: 'fl-1', sender: 'desk@health.veloria.example', sent: '2026-11-23T06:00:00+01:00', msgType: 'Alert' });
@@ -162,7 +197,7 @@ describe('results and archive', () => {
   });
 
   it('stores probabilities with NaN as NULL', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const run = beginRun(ledger, '2026-11-26').run;
     const p: LeadProbability = {
       source: 'subseasonal', region: 'kessan-lowlands', indicator: 'heat-index', lead: { tier: 'weeks', index: 2, start: '2026-12-03', end: '2026-12-09' },
@@ -174,7 +209,7 @@ describe('results and archive', () => {
   });
 
   it('issuedBulletins lists issued runs with delivery counts and content hashes', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     const run = beginRun(ledger, '2026-11-26').run;
     const b = sampleBulletin('orrin-health', ['orrin@health.veloria.example', 'ORRIN@health.veloria.example '], '2026-11-26');
     recordBulletins(ledger, run.id, [b]);
@@ -189,7 +224,7 @@ describe('results and archive', () => {
   });
 
   it('a delivery is claimed once: a second claim of the same row fails', () => {
-    const { ledger } = fresh();
+    const { ledger } = fresh(dialect);
     recordBulletins(ledger, beginRun(ledger, '2026-11-26').run.id, sampleBulletins());
     const d = pendingDeliveries(ledger)[0];
     expect(claimDelivery(ledger, d.id, 'h:1:a', '<a@x>')).toMatchObject({ status: 'sending', attempts: 1, messageId: '<a@x>' });

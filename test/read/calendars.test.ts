@@ -125,6 +125,17 @@ describe('monthly-mean seasonal files feed month-tier indicators directly', () =
     });
   }
 
+  it('a monthly file that skips a month (January, then March) is refused for that variable, naming both months', async () => {
+    const spec: CdlSpec = {
+      timeUnits: 'days since 2027-01-01 00:00:00', calendar: '360_day', reference: 0, times: [15, 75], bounds: [[0, 30], [60, 90]],
+      variables: { t2m: { attributes: { units: 'K', cell_methods: 'time: mean' }, value: temperature } },
+    };
+    const file = ncgenFixture('monthly-gap', spec);
+    const { series, problems } = await read(file, { tmean: 't2m' }, '2027-01-01', 'months');
+    expect(series).toHaveLength(0);
+    expect(problems).toEqual([`${file}: variable 't2m' jumps from 2027-01 to 2027-03 — provide consecutive monthly values (one per month)`]);
+  });
+
   it('a monthly file under a day-tier source is refused with the YAML fix (one line, names file and variable)', async () => {
     const file = ncgenFixture('monthly-days', monthly('360_day', '2026-12-01', true));
     const { series, problems } = await read(file, { tmean: 't2m' }, '2026-12-01', 'days');

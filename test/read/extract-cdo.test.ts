@@ -65,7 +65,7 @@ describe('box means vs cdo fldmean -sellonlatbox (Debian cdo 2.1.1)', () => {
     const ds = await openDataset(join(DIR, 'grid360.nc'));
     const coords = await findCoordinates(ds);
     await ds.close();
-    const cells = selectRegionCells(coords.grid, { id: 'marrow-highlands', name: 'm', utcOffsetHours: 1, teams: [], shape: { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 } }, 'grid360.nc');
+    const cells = selectRegionCells(coords.grid, { id: 'marrow-highlands', name: 'm', utcOffsetHours: 1, teams: [], cellRule: 'centre', shape: { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 } }, 'grid360.nc');
     const ours = Array.from(cells.latIndex, (y, k) => {
       const lon = coords.grid.lon[cells.lonIndex[k]];
       return `${lon > 180 ? lon - 360 : lon} ${coords.grid.lat[y]}`;

@@ -2,6 +2,7 @@
  * The read stage end to end on in-memory files (fake-forecast.ts) and on the ncgen fixtures. Expected values
  * are worked by hand from the stated rules unless a CDO output file or checks.json row is named.
  */
+import { regionClock } from '../../src/core/local-clock.ts';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -17,7 +18,7 @@ import { planUnits } from '../../src/read/units.ts';
 import { makeFakeDataset } from './fake-dataset.ts';
 import { axis, makeFakeForecast, type ValueFn } from './fake-forecast.ts';
 
-const region = (id: string, shape: RegionShape, utcOffsetHours = 0): RegionConfig => ({ id, name: id, shape, utcOffsetHours, teams: [] });
+const region = (id: string, shape: RegionShape, utcOffsetHours = 0): RegionConfig => ({ id, name: id, shape, utcOffsetHours, teams: [], cellRule: 'centre' });
 const MARROW = region('marrow-highlands', { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 }, 1);
 const KESSAN = region('kessan-lowlands', { kind: 'box', south: -12, north: -9, west: -3.5, east: -0.5 }, 1);
 const OUTSIDE = region('far-away', { kind: 'box', south: 40, north: 45, west: 10, east: 12 });
@@ -146,7 +147,7 @@ async function accumulatedRequest(members: number, stepOuter = false) {
   const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
   const { intervals, accumulated } = planTime(coords, layout, unitPlan);
   const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
-  return { ds, coords, band, req: { layout, band, regions, intervals, unitPlan, accumulated, utcOffsets: [1], daily: 'sum' as const } };
+  return { ds, coords, band, req: { layout, band, regions, intervals, unitPlan, accumulated, clocks: [regionClock({ utcOffsetHours: 1 })], daily: 'sum' as const } };
 }
 
 describe('time chunks (memory bound)', () => {
@@ -226,7 +227,7 @@ describe('bad input', () => {
     expect(series.map((s) => s.region)).toEqual(['marrow-highlands', 'kessan-lowlands']);
     expect(problems).toHaveLength(1);
     expect(problems[0]).toBeInstanceOf(InputError);
-    expect(problems[0].message).toMatch(/region 'far-away' \(box 40\.\.45, 10\.\.12\) has no grid cell in fc_20261123\.nc \(grid lat -14\.\.-4, lon 0\.\.359\) — check the region box or the source/);
+    expect(problems[0].message).toMatch(/region 'far-away' \(box 40\.\.45, 10\.\.12\) has no grid cell in fc_20261123\.nc \(grid lat -14\.\.-4, lon 0\.\.359\) — check the region shape or the source, or use cell-rule: overlap/);
   });
 
   it('a region whose cells are all missing → InputError in problems; other regions kept', async () => {

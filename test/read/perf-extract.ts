@@ -14,7 +14,7 @@ import { extractRegionSeries } from '../../src/read/extract.ts';
 const [file, regionsFile = 'bench/regions.json'] = process.argv.slice(2);
 if (!file) throw new Error('usage: perf-extract.ts <file.nc> [regions.json]');
 const boxes = (JSON.parse(readFileSync(regionsFile, 'utf8')) as { regions: { id: string; south: number; north: number; west: number; east: number }[] }).regions;
-const regions: RegionConfig[] = boxes.map((b) => ({ id: b.id, name: b.id, shape: { kind: 'box', ...b }, utcOffsetHours: 0, teams: [] }));
+const regions: RegionConfig[] = boxes.map((b) => ({ id: b.id, name: b.id, shape: { kind: 'box', ...b }, utcOffsetHours: 0, teams: [], cellRule: 'centre' }));
 
 let t0 = performance.now();
 const { series, problems } = await extractRegionSeries(file, { quantities: { tmax: 'tasmax', tmin: 'tasmin', dewpoint: 'tdps' }, regions });

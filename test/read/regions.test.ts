@@ -11,7 +11,7 @@ const grid = (lat: number[], lon: number[], bounds?: { lat: number[]; lon: numbe
   latName: 'lat', lonName: 'lon', lat: Float64Array.from(lat), lon: Float64Array.from(lon),
   latBounds: bounds ? Float64Array.from(bounds.lat) : null, lonBounds: bounds ? Float64Array.from(bounds.lon) : null,
 });
-const region = (id: string, shape: RegionShape): RegionConfig => ({ id, name: id, shape, utcOffsetHours: 1, teams: [] });
+const region = (id: string, shape: RegionShape): RegionConfig => ({ id, name: id, shape, utcOffsetHours: 1, teams: [], cellRule: 'centre' });
 const TULVA: RegionShape = { kind: 'polygon', ring: [[0.5, -13.5], [3.5, -13.5], [3.5, -11.5], [2, -10.5], [0.5, -11], [0.5, -13.5]] };
 
 function lonLats(g: LatLonGrid, r: RegionConfig): string[] {
@@ -60,7 +60,7 @@ describe('selectRegionCells', () => {
     const r = region('far-away', { kind: 'box', south: 40, north: 45, west: 10, east: 12 });
     expect(() => selectRegionCells(g360, r, 'fc_20261123.nc')).toThrow(InputError);
     expect(() => selectRegionCells(g360, r, 'fc_20261123.nc')).toThrow(
-      "fc_20261123.nc: region 'far-away' (box 40..45, 10..12) has no grid cell in fc_20261123.nc (grid lat -15..-3, lon 0..359.5) — check the region box or the source");
+      "fc_20261123.nc: region 'far-away' (box 40..45, 10..12) has no grid cell in fc_20261123.nc (grid lat -15..-3, lon 0..359.5) — check the region shape or the source, or use cell-rule: overlap (a region smaller than a cell may hold no centre)");
   });
 });
 

@@ -6,7 +6,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { buildCapAlerts, capCertainty, capLocalMidnight, capPolygon, capUtc } from '../../src/render/cap.ts';
+import { buildCapAlerts, capCertainty, capLocalMidnight, capPolygons, capUtc } from '../../src/render/cap.ts';
 import { createTemplateEnv } from '../../src/render/template-env.ts';
 import type { CapAlert, PreviousIssue } from '../../src/render/model.ts';
 import { renderBulletins } from '../../src/render/render-bulletins.ts';
@@ -136,13 +136,20 @@ describe('CAP field helpers', () => {
   it('dateTime matches the CAP pattern \\d\\d\\d\\d-\\d\\d-\\d\\dT\\d\\d:\\d\\d:\\d\\d[-,+]\\d\\d:\\d\\d (schema), UTC as -00:00 (CAP 1.2 §3.3.2)', () => {
     expect(capUtc('2026-11-30T06:30:00.123Z')).toBe('2026-11-30T06:30:00-00:00');
     expect(capUtc('2026-11-30T07:30:00+01:00')).toBe('2026-11-30T06:30:00-00:00');
-    expect(capLocalMidnight('2026-12-04', 1)).toBe('2026-12-04T00:00:00+01:00');
-    expect(capLocalMidnight('2026-12-04', -3.5)).toBe('2026-12-04T00:00:00-03:30');
+    expect(capLocalMidnight('2026-12-04', { utcOffsetHours: 1 })).toBe('2026-12-04T00:00:00+01:00');
+    expect(capLocalMidnight('2026-12-04', { utcOffsetHours: -3.5 })).toBe('2026-12-04T00:00:00-03:30');
+    // IANA zones with daylight saving (tz database rules): Lisbon is UTC+1 in summer, UTC+0 in winter; Cairo
+    // skips 00:00–01:00 on 2026-04-24 (last Friday of April, Egypt's 2023 law), so that day starts at 01:00+03:00.
+    expect(capLocalMidnight('2026-07-01', { utcOffsetHours: 0, timeZone: 'Europe/Lisbon' })).toBe('2026-07-01T00:00:00+01:00');
+    expect(capLocalMidnight('2026-12-04', { utcOffsetHours: 0, timeZone: 'Europe/Lisbon' })).toBe('2026-12-04T00:00:00+00:00');
+    expect(capLocalMidnight('2026-04-24', { utcOffsetHours: 0, timeZone: 'Africa/Cairo' })).toBe('2026-04-24T01:00:00+03:00');
   });
 
   it('polygons put latitude first and close the ring; the Marrow box crossing 0° keeps its signs', () => {
-    expect(capPolygon(sampleRegions[1])).toBe('-9,-1.5 -6.5,-1.5 -6.5,1.5 -9,1.5 -9,-1.5');
+    expect(capPolygons(sampleRegions[1])).toEqual(['-9,-1.5 -6.5,-1.5 -6.5,1.5 -9,1.5 -9,-1.5']);
     const open = { ...sampleRegions[2], shape: { kind: 'polygon' as const, ring: [[0.5, -13.5], [3.5, -13.5], [2, -10.5]] as const } };
-    expect(capPolygon(open)).toBe('-13.5,0.5 -13.5,3.5 -10.5,2 -13.5,0.5');
+    expect(capPolygons(open)).toEqual(['-13.5,0.5 -13.5,3.5 -10.5,2 -13.5,0.5']);
+    const islands = { ...sampleRegions[2], shape: { kind: 'multipolygon' as const, polygons: [[[[179, -1], [181, -1], [181, 1], [179, -1]] as const], [[[10, 0], [11, 0], [11, 1], [10, 0]] as const]] } };
+    expect(capPolygons(islands)).toEqual(['-1,179 -1,-179 1,-179 -1,179', '0,10 0,11 1,11 0,10']);
   });
 });

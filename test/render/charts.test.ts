@@ -2,7 +2,7 @@
 import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { dateTicks, probabilityTicks } from '../../src/render/chart-axis.ts';
-import { buildChartSpecs, chartWidth, renderChartPng, renderChartSvg, type ChartWords } from '../../src/render/charts.ts';
+import { buildChartSpecs, chartPngsWithin, chartWidth, renderChartPng, renderChartSvg, type ChartWords } from '../../src/render/charts.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
@@ -88,5 +88,19 @@ describe('chart axes (d3-scale nice ticks, d3-time date ticks)', () => {
     ticks.forEach((t, i) => { if (i > 0) expect(t.x - t.width / 2).toBeGreaterThan(ticks[i - 1].x + ticks[i - 1].width / 2); });
     const months = dateTicks('fr', new Date('2026-12-01T00:00:00Z'), new Date('2027-03-01T00:00:00Z'), 34, 282, 11, 2, 358).ticks.map((t) => t.label);
     expect(months).toEqual(['déc. 2026', 'janv. 2027', 'févr.', 'mars']);
+  });
+});
+
+describe('charts within the e-mail size budget', () => {
+  it('the sharpest zoom whose PNGs fit is used (2× when there is room, then 1.5×, then 1×); charts are never dropped', () => {
+    const svgs = [renderChartSvg(heat), renderChartSvg(malaria)];
+    const sharp = chartPngsWithin(svgs, 10_000_000);
+    expect(sharp.zoom).toBe(2);
+    const total2 = sharp.pngs.reduce((n, p) => n + p.length, 0);
+    const smaller = chartPngsWithin(svgs, total2 - 1);
+    expect(smaller.zoom).toBeLessThan(2);
+    expect(smaller.pngs).toHaveLength(2);
+    expect(smaller.pngs.reduce((n, p) => n + p.length, 0)).toBeLessThan(total2);
+    expect(chartPngsWithin(svgs, 1).zoom).toBe(1);
   });
 });

@@ -10,7 +10,7 @@ import { chromium, type Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { htmlWithInlineImages } from '../../src/deliver/outbox.ts';
 import { writeArchive } from '../../src/render/archive.ts';
-import { renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
+import { EMAIL_BUDGET_BYTES, renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
@@ -18,7 +18,7 @@ const OUT = resolve(dirname(fileURLToPath(import.meta.url)), '../../test-artifac
 const ARCHIVE = join(OUT, 'archive');
 const VIEWPORTS = [{ width: 390, height: 844 }, { width: 1280, height: 800 }];
 /** E-mail size budget per bulletin (HTML + text + attachments), stated in README (common practice, no source). */
-const BUDGET_BYTES = 300 * 1024;
+const BUDGET_BYTES = EMAIL_BUDGET_BYTES;
 
 let run: RenderedRun;
 let browser: Browser;

@@ -124,7 +124,10 @@ describe('status file', () => {
     expect(readStatus(path)).toMatchObject({ consecutiveFailures: 2, lastRun: { exitName: 'unexpected' }, recentFailures: [{ summary: 'boom' }, { summary: '2 in outbox' }] });
     expect(nextStatus(s, base, makeRunReport('scheduled', t, t, EXIT.nothingNew, 'no new data')).consecutiveFailures).toBe(0);
     writeFileSync(path, '{');
-    expect(() => readStatus(path)).toThrow(/^status file .* is not valid JSON: .* — delete it/);
+    expect(() => readStatus(path)).toThrow(/^status file .* is not a status file: not JSON \(.*\) — delete it/);
+    // Valid JSON of the wrong shape is refused too, naming the field (ajv, JSON Schema 2020-12), not trusted by a cast.
+    writeFileSync(path, JSON.stringify({ ...s, consecutiveFailures: 'two' }));
+    expect(() => readStatus(path)).toThrow(/^status file .* is not a status file: \/consecutiveFailures must be integer — delete it/);
   });
 });
 

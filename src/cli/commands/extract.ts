@@ -1,13 +1,19 @@
 /**
- * `forelight extract <file> --var NAME --box S,N,W,E [--daily max|min|mean|sum] [--utc-offset H] --json`:
- * prints exactly what Forelight sees in a file for one box, as JSON.
+ * `forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P])
+ * [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] --json`:
+ * prints exactly what Forelight sees in a file for one box or for every region of a boundary file, as JSON.
  */
+import { loadBoundarySet } from '../../config/boundaries/boundary-sets.ts';
+import type { CellRule } from '../../config/types.ts';
+import { timeZoneProblem } from '../../core/next-runs.ts';
 import { extractBoxJson } from '../../read/extract.ts';
+import { extractRegionsJson } from '../../read/extract-raw.ts';
 import type { DailyMethod } from '../../read/daily.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
 
 const DAILY: readonly DailyMethod[] = ['max', 'min', 'mean', 'sum'];
+const RULES: readonly CellRule[] = ['overlap', 'centre'];
 
 function parseBox(text: string | undefined): { south: number; north: number; west: number; east: number } {
   const parts = (text ?? '').split(',').map(Number);
@@ -21,18 +27,43 @@ function parseBox(text: string | undefined): { south: number; north: number; wes
   return { south, north, west, east };
 }
 
+function clockOptions(args: ParsedArgs): { utcOffsetHours: number; timeZone?: string } {
+  const offsetText = stringOption(args, 'utc-offset');
+  const zone = stringOption(args, 'time-zone');
+  if (zone !== undefined && offsetText !== undefined) throw usageError('give --time-zone or --utc-offset, not both');
+  if (zone !== undefined) {
+    const issue = timeZoneProblem(zone);
+    if (issue) throw usageError(`--time-zone: ${issue.message}; ${issue.fix}`);
+    return { utcOffsetHours: 0, timeZone: zone };
+  }
+  const utcOffsetHours = offsetText === undefined ? 0 : Number(offsetText);
+  if (!Number.isFinite(utcOffsetHours) || Math.abs(utcOffsetHours) > 14) throw usageError(`--utc-offset must be hours between -14 and 14, got '${offsetText}'`);
+  return { utcOffsetHours };
+}
+
+async function regionsJson(file: string, variable: string, boundaries: string, args: ParsedArgs, daily: DailyMethod | undefined, cellRule: CellRule | undefined): Promise<object> {
+  const entry = { boundaries, 'id-property': stringOption(args, 'id-property'), 'name-property': stringOption(args, 'name-property') };
+  const set = await loadBoundarySet(entry, 0, process.cwd(), { ...clockOptions(args), ...(cellRule ? { cellRule } : {}) });
+  if (set.problems.length > 0) throw usageError(set.problems.map((p) => `${p.message} — ${p.fix}`).join('\n'));
+  return extractRegionsJson(file, variable, set.regions, daily ?? null);
+}
+
 export async function extractCommand(args: ParsedArgs): Promise<number> {
   const file = args.positionals[0];
-  if (!file) throw usageError('extract needs a file: forelight extract <file> --var NAME --box S,N,W,E --json');
+  if (!file) throw usageError('extract needs a file: forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE) --json');
   const variable = stringOption(args, 'var');
   if (!variable) throw usageError('extract needs --var NAME (the variable name in the file)');
   if (!args.options.json) throw usageError('extract prints JSON only: add --json');
-  const daily = stringOption(args, 'daily');
-  if (daily !== undefined && !DAILY.includes(daily as DailyMethod)) throw usageError(`--daily must be one of ${DAILY.join(', ')}, got '${daily}'`);
-  const offsetText = stringOption(args, 'utc-offset');
-  const utcOffsetHours = offsetText === undefined ? 0 : Number(offsetText);
-  if (!Number.isFinite(utcOffsetHours) || Math.abs(utcOffsetHours) > 14) throw usageError(`--utc-offset must be hours between -14 and 14, got '${offsetText}'`);
-  const result = await extractBoxJson(file, { variable, box: parseBox(stringOption(args, 'box')), daily: daily as DailyMethod | undefined, utcOffsetHours });
+  const daily = stringOption(args, 'daily') as DailyMethod | undefined;
+  if (daily !== undefined && !DAILY.includes(daily)) throw usageError(`--daily must be one of ${DAILY.join(', ')}, got '${daily}'`);
+  const cellRule = stringOption(args, 'cells') as CellRule | undefined;
+  if (cellRule !== undefined && !RULES.includes(cellRule)) throw usageError(`--cells must be one of ${RULES.join(', ')}, got '${cellRule}'`);
+  const boundaries = stringOption(args, 'regions');
+  const box = stringOption(args, 'box');
+  if ((boundaries === undefined) === (box === undefined)) throw usageError('extract needs exactly one of --box S,N,W,E and --regions FILE');
+  const result = boundaries !== undefined
+    ? await regionsJson(file, variable, boundaries, args, daily, cellRule)
+    : await extractBoxJson(file, { variable, box: parseBox(box), daily, ...clockOptions(args), ...(cellRule ? { cellRule } : {}) });
   process.stdout.write(JSON.stringify(result) + '\n');
   return EXIT.ok;
 }

@@ -7,7 +7,8 @@ import { computeNextRuns } from '../../core/next-runs.ts';
 import { makeRunReport, nextStatus, readStatus, writeStatus, type RunReport } from '../../schedule/status-file.ts';
 import type { Config } from '../../config/types.ts';
 import { describeError } from '../../core/errors.ts';
-import type { ParsedArgs } from '../args.ts';
+import { stringOption, type ParsedArgs } from '../args.ts';
+import { connectCluster } from '../../cluster/coordinator.ts';
 import { commandContext } from '../context.ts';
 import { diffCommand } from './diff.ts';
 
@@ -19,7 +20,7 @@ const LOCK_MAX_AGE_SECONDS = 6 * 3600;
  * among others: a failure is printed with the path and the fix, and never hides the run's own result.
  */
 function recordStatus(config: Config, report: RunReport): boolean {
-  const { statusPath } = servicePaths(config.ledger);
+  const { statusPath } = servicePaths(config);
   const nextRun = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1)[0]?.toISOString() ?? null;
   try {
     writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: config.schedule.cron, timezone: config.schedule.timezone, nextRun }, report));
@@ -33,7 +34,7 @@ function recordStatus(config: Config, report: RunReport): boolean {
 export async function runCommand(args: ParsedArgs): Promise<number> {
   if (args.options['dry-run']) return diffCommand(args);
   const { config, run } = await commandContext(args, 'run');
-  const { lockPath } = servicePaths(config.ledger);
+  const { lockPath } = servicePaths(config);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
     const holder = got.holder ? `process ${got.holder.pid} on ${got.holder.host} since ${got.holder.startedAt}` : 'another process';
@@ -41,8 +42,10 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
     return EXIT.locked;
   }
   const startedAt = new Date();
+  const url = stringOption(args, 'cluster');
+  const cluster = url ? await connectCluster(url, { log: run.log, cacheDir: config.calibration.cacheDir }) : null;
   try {
-    const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true });
+    const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
     for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);
@@ -52,5 +55,6 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
     throw err;
   } finally {
     got.lock.release();
+    await cluster?.close();
   }
 }

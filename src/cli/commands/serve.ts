@@ -4,8 +4,11 @@
  * forecast with "based on the forecast of <date>" wording, and nothing new means a notice to the operators.
  */
 import { loadConfig } from '../../config/load-config.ts';
-import { createLogger } from '../../core/log.ts';
+import { createLogger, type Logger } from '../../core/log.ts';
 import { runContext } from '../../core/run-context.ts';
+import type { Config } from '../../config/types.ts';
+import type { Extractor } from '../../read/extract.ts';
+import { connectCluster } from '../../cluster/coordinator.ts';
 import { localDate } from '../../pipeline/bulletin-run.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../core/exit-codes.ts';
@@ -16,6 +19,17 @@ import { stringOption, type ParsedArgs } from '../args.ts';
 export async function serveCommand(args: ParsedArgs): Promise<number> {
   const config = await loadConfig(stringOption(args, 'config'));
   const log = createLogger({ base: { command: 'serve' } });
+  const url = stringOption(args, 'cluster');
+  const cluster = url ? await connectCluster(url, { log, cacheDir: config.calibration.cacheDir }) : null;
+  try {
+    await serve(config, log, cluster?.extract);
+  } finally {
+    await cluster?.close();
+  }
+  return EXIT.ok;
+}
+
+async function serve(config: Config, log: Logger, extract: Extractor | undefined): Promise<void> {
   await runService({
     config,
     log,
@@ -27,8 +41,7 @@ export async function serveCommand(args: ParsedArgs): Promise<number> {
       const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, { signal });
       if (arrival.missing.length > 0) rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
       if (signal.aborted) return { exitCode: EXIT.stopped, summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it` };
-      return runOnce({ config, run: runContext({ log: rlog, issueDate, signal }), mode: 'live' });
+      return runOnce({ config, run: runContext({ log: rlog, issueDate, signal }), mode: 'live', extract });
     },
   });
-  return EXIT.ok;
 }

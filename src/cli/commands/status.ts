@@ -1,8 +1,9 @@
 /** `forelight status`: last run, its result, next run and failures, from the service status file and the ledger. */
-import { existsSync } from 'node:fs';
 import { loadConfig } from '../../config/load-config.ts';
 import { listDeliveries } from '../../ledger/deliveries.ts';
-import { openLedger } from '../../ledger/open-ledger.ts';
+import { ledgerMayHoldRuns, openConfiguredLedger } from '../../ledger/ledger-target.ts';
+import { servicePaths } from '../../schedule/run-service.ts';
+import { clusterStatus, formatClusterStatus } from '../../cluster/cluster-status.ts';
 import { runDiagnostics } from '../../ledger/diagnostics.ts';
 import { lastCompletedRun } from '../../ledger/runs.ts';
 import { formatDiagnostic } from '../../core/diagnostics.ts';
@@ -15,16 +16,16 @@ import { stringOption, type ParsedArgs } from '../args.ts';
 export async function statusCommand(args: ParsedArgs): Promise<number> {
   const config = await loadConfig(stringOption(args, 'config'));
   const lines: string[] = [];
-  const service = readStatus(`${config.ledger}.status.json`);
+  const service = readStatus(servicePaths(config).statusPath);
   const [next] = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1);
   lines.push(`next scheduled run: ${next?.toISOString() ?? 'none'} (${config.schedule.cron}, ${config.schedule.timezone})`);
   lines.push(`service: ${describeService(service, isProcessAlive)}`);
   if (service?.lastRun) lines.push(`last run: ${service.lastRun.reason} ${service.lastRun.startedAt} → ${service.lastRun.exitName} (exit ${service.lastRun.exitCode}): ${service.lastRun.summary}`);
   if (service && service.consecutiveFailures > 0) lines.push(`failed runs in a row: ${service.consecutiveFailures}`);
-  if (!existsSync(config.ledger)) {
+  if (!ledgerMayHoldRuns(config)) {
     lines.push(`ledger ${config.ledger}: no runs yet`);
   } else {
-    const ledger = openLedger(config.ledger);
+    const ledger = openConfiguredLedger(config);
     try {
       const last = lastCompletedRun(ledger);
       lines.push(last ? `last completed run: ${last.id} (${last.forecastKey}) ${last.status} at ${last.finishedAt}${last.error ? ` — ${last.error}` : ''}` : 'last completed run: none');
@@ -38,6 +39,8 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
       ledger.close();
     }
   }
+  const cluster = stringOption(args, 'cluster');
+  if (cluster) lines.push(...formatClusterStatus(await clusterStatus(cluster)));
   process.stdout.write(lines.join('\n') + '\n');
   return EXIT.ok;
 }

@@ -1,0 +1,87 @@
+/**
+ * The coordinator's side of a cluster (`forelight run --cluster URL`, `forelight serve --cluster URL`): an `Extractor`
+ * that hands each (file × region set) read to the workers as a BullMQ job on Redis and waits for its result.
+ *
+ * Jobs are idempotent and keyed by what they compute: the job id is the SHA-256 of the file's SHA-256 and the
+ * request, so the same read asked twice (a resumed run, a second configuration on the same files) is one job, and a
+ * finished one is answered from Redis without reading the file again. A worker killed mid-job loses its lock; BullMQ's
+ * stalled-job check puts the job back in the queue and another worker does it.
+ */
+import { createHash } from 'node:crypto';
+import { Queue, QueueEvents } from 'bullmq';
+import { ForelightError, InputError } from '../core/errors.ts';
+import { openChecksumMemo } from '../core/file-checksums.ts';
+import type { Logger } from '../core/log.ts';
+import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.ts';
+import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
+import { fromWire, type ExtractJob, type WireResult } from './wire.ts';
+
+export interface ClusterClient {
+  readonly extract: Extractor;
+  close(): Promise<void>;
+}
+
+export interface ClusterOptions {
+  readonly log: Logger;
+  /** Folder of the checksum memo (config calibration.cache-dir), so files are hashed once across runs. */
+  readonly cacheDir: string | null;
+  /** Reads kept in flight at once (default 64: the workers' total concurrency is what limits the work). */
+  readonly parallel?: number;
+  /** Longest wait for one job, attempts and stalls included (default 30 min). */
+  readonly jobTimeoutMs?: number;
+}
+
+/** A finished job stays in Redis this long, to answer the same read again (24 h). */
+const KEEP_DONE_S = 24 * 3600;
+
+export function jobId(sha256: string, request: ExtractRequest): string {
+  return createHash('sha256').update(sha256).update('\0').update(JSON.stringify(request)).digest('hex');
+}
+
+export async function connectCluster(url: string, options: ClusterOptions): Promise<ClusterClient> {
+  const clients = [redisClient(url), redisClient(url)];
+  const queue = new Queue<ExtractJob, WireResult>(EXTRACT_QUEUE, { connection: clients[0] });
+  const events = new QueueEvents(EXTRACT_QUEUE, { connection: clients[1] });
+  const disconnect = (): void => { for (const c of clients) c.disconnect(); };
+  try {
+    await Promise.all([queue.waitUntilReady(), events.waitUntilReady()]);
+  } catch (err) {
+    await Promise.allSettled([queue.close(), events.close()]);
+    disconnect();
+    throw new ForelightError('cli', 'cluster-unreachable', `cannot reach the cluster's Redis at ${shownUrl(url)}: ${(err as Error).message}`,
+      'start redis-server there, or check --cluster', { cause: err });
+  }
+  const checksums = await openChecksumMemo(options.cacheDir);
+  const timeout = options.jobTimeoutMs ?? 30 * 60_000;
+
+  const extract = (async (path: string, request: ExtractRequest): Promise<ExtractResult> => {
+    const id = jobId(await checksums.sha256(path), request);
+    const earlier = await queue.getJob(id);
+    if (earlier && (await earlier.isFailed())) await earlier.remove(); // a failed read is tried again, not remembered
+    const job = await queue.add('extract', { path, request }, {
+      jobId: id, attempts: 3, backoff: { type: 'exponential', delay: 2000 },
+      removeOnComplete: { age: KEEP_DONE_S }, removeOnFail: { age: KEEP_DONE_S },
+    });
+    options.log.debug('extraction queued', { stage: 'read', job: id, path });
+    let wire: WireResult;
+    try {
+      wire = (await job.waitUntilFinished(events, timeout)) as WireResult;
+    } catch (err) {
+      throw new InputError('read-failed', path, `the cluster's workers could not read it (${(err as Error).message})`,
+        `check the file and "forelight status --cluster ${shownUrl(url)}"; the other sources went on`);
+    }
+    const result = fromWire(wire);
+    if (wire.thrown) throw result.problems[result.problems.length - 1];
+    return result;
+  }) as Extractor;
+  Object.defineProperty(extract, 'parallel', { value: options.parallel ?? 64 });
+
+  return {
+    extract,
+    close: async () => {
+      await checksums.save();
+      await Promise.allSettled([events.close(), queue.close()]);
+      disconnect();
+    },
+  };
+}

@@ -1,0 +1,98 @@
+/**
+ * The cells and weights of a whole region set on one grid, computed once per (grid, region set) and reused:
+ * in this process (hindcast years share the forecast's grid) and across runs through a cache file named by the
+ * sha256 of the grid's cell bounds and of the regions' shapes and cell rules (`<cache-dir>/weights/<sha>.json`).
+ * A region that fails (no cell on this grid) is reported each time and never cached.
+ */
+import { createHash } from 'node:crypto';
+import { mkdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { RegionConfig } from '../config/types.ts';
+import { ForelightError } from '../core/errors.ts';
+import { writeFileAtomic } from '../core/write-atomic.ts';
+import type { LatLonGrid } from './coordinates.ts';
+import { cellBounds, selectRegionCells, type RegionCells } from './regions.ts';
+
+/** Bump when the weight computation changes, so older cache files are not used. */
+const FORMAT = 1;
+
+export interface RegionSetCells {
+  /** Regions with cells, in the order given. */
+  readonly selected: { readonly region: RegionConfig; readonly cells: RegionCells }[];
+  readonly problems: ForelightError[];
+}
+
+const setHashes = new WeakMap<readonly RegionConfig[], string>();
+const memo = new Map<string, Map<string, RegionCells>>();
+
+function regionSetHash(regions: readonly RegionConfig[]): string {
+  let h = setHashes.get(regions);
+  if (!h) {
+    h = createHash('sha256').update(JSON.stringify(regions.map((r) => [r.id, r.cellRule ?? 'overlap', r.shape]))).digest('hex');
+    setHashes.set(regions, h);
+  }
+  return h;
+}
+
+function gridHash(grid: LatLonGrid): string {
+  const { lat, lon } = cellBounds(grid);
+  const hash = createHash('sha256');
+  for (const a of [grid.lat, grid.lon, lat, lon]) hash.update(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
+  return hash.digest('hex');
+}
+
+type Stored = Record<string, { lat: number[]; lon: number[]; w: number[] }>;
+
+function readStored(path: string): Map<string, RegionCells> | null {
+  try {
+    const doc = JSON.parse(readFileSync(path, 'utf8')) as { format: number; regions: Stored };
+    if (doc.format !== FORMAT) return null;
+    return new Map(Object.entries(doc.regions).map(([region, c]) => [region, { region, latIndex: Int32Array.from(c.lat), lonIndex: Int32Array.from(c.lon), weights: Float64Array.from(c.w) }]));
+  } catch {
+    return null; // absent or damaged: computed again and rewritten
+  }
+}
+
+function writeStored(dir: string, path: string, cells: ReadonlyMap<string, RegionCells>): void {
+  try {
+    mkdirSync(dir, { recursive: true });
+    const regions: Stored = {};
+    for (const [id, c] of cells) regions[id] = { lat: [...c.latIndex], lon: [...c.lonIndex], w: [...c.weights] };
+    writeFileAtomic(path, JSON.stringify({ format: FORMAT, regions }));
+  } catch {
+    // A cache that cannot be written only costs the computation next time.
+  }
+}
+
+/**
+ * Cells of every region of `regions` on `grid` (see module comment). `cacheDir` null = in-process memo only.
+ * Regions without cells go to `problems` (the others go on).
+ */
+export function regionSetCells(grid: LatLonGrid, regions: readonly RegionConfig[], file: string, cacheDir: string | null): RegionSetCells {
+  const key = `${gridHash(grid)}-${regionSetHash(regions)}`;
+  const dir = cacheDir === null ? null : join(cacheDir, 'weights');
+  const path = dir === null ? null : join(dir, `${createHash('sha256').update(key).digest('hex')}.json`);
+  let known = memo.get(key) ?? (path ? readStored(path) : null);
+  const fresh = !known;
+  known ??= new Map();
+  const selected: RegionSetCells['selected'] = [];
+  const problems: ForelightError[] = [];
+  for (const region of regions) {
+    const cached = known.get(region.id);
+    if (cached) {
+      selected.push({ region, cells: cached });
+      continue;
+    }
+    try {
+      const cells = selectRegionCells(grid, region, file);
+      known.set(region.id, cells);
+      selected.push({ region, cells });
+    } catch (err) {
+      if (!(err instanceof ForelightError)) throw err;
+      problems.push(err);
+    }
+  }
+  memo.set(key, known);
+  if (fresh && dir && path) writeStored(dir, path, known);
+  return { selected, problems };
+}
