@@ -89,15 +89,43 @@ export interface Threshold {
   readonly origin: string;
 }
 
+/** Why the skill gate passed or not (see calibrate/skill-gate.ts). */
+export type SkillGateReason = 'shown' | 'not-shown' | 'few-events' | 'potential-only';
+
+/** The skill gate's verdict on the pooling window of neighbouring leads that holds a lead. */
+export interface SkillGateResult {
+  /** The pooled leads, e.g. "days 1–7" or "week 2". */
+  readonly leads: string;
+  /** Observed events and distinct hindcast years in the window. */
+  readonly events: number;
+  readonly years: number;
+  /** Fair Brier skill score (Ferro 2014) of the pooled cases and its 90 % year-block bootstrap interval. */
+  readonly fairBrierSkillScore: number;
+  readonly low: number;
+  readonly high: number;
+  readonly passed: boolean;
+  readonly reason: SkillGateReason;
+  /** One line for reasons and logs. */
+  readonly text: string;
+}
+
 /** Skill of one source × region × indicator × lead over the hindcast set. */
 export interface SkillSummary {
   readonly brierScore: number;
   readonly brierSkillScore: number;
+  /** Ensemble-size-adjusted BSS (Ferro 2014), comparable between hindcast and forecast ensemble sizes. */
+  readonly fairBrierSkillScore: number;
   readonly rocArea: number;
   /** "observed" when verified against observations, "potential" for a perfect-model estimate. */
   readonly basis: 'observed' | 'potential';
+  /** Verification cases (for "potential", years × members: not independent). */
   readonly cases: number;
-  /** True when the configured skill floor is met. */
+  /** Distinct hindcast years: the number of independent cases. */
+  readonly years: number;
+  /** Events among the cases at this lead. */
+  readonly events: number;
+  readonly gate: SkillGateResult;
+  /** True when the skill gate passed: observed skill, enough events, interval above the floor. */
   readonly skilful: boolean;
 }
 
@@ -109,7 +137,7 @@ export interface LeadProbability {
   readonly lead: LeadWindow;
   /** Fraction 0..1 of members with value > threshold (strictly greater). */
   readonly probability: number;
-  /** Climatological frequency of exceedance (hindcasts), 0..1. */
+  /** Normal-year frequency of the event, 0..1: observed where observations cover the lead, else the hindcasts'. */
   readonly baseRate: number;
   readonly members: number;
   readonly validMembers: number;

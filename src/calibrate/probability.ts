@@ -16,6 +16,7 @@ import type { LeadProbability, LeadWindow, SkillSummary, Threshold } from '../ty
 import { distinctYears, leadSample, type LeadClimate } from './climate.ts';
 import { leadLabel, type LeadValues } from './lead-tiers.ts';
 import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdObject } from './thresholds.ts';
+import { percentileLinear } from '../core/percentile.ts';
 
 /** Fraction of valid members above (or, with '>=', at or above) the threshold; NaN without valid members. */
 export function exceedanceFraction(members: ArrayLike<number>, threshold: number, rule: '>' | '>=' = '>'): { probability: number; valid: number; missing: number } {
@@ -81,6 +82,20 @@ function fractionAbove(sorted: Float64Array, threshold: number): number {
   return (sorted.length - k) / sorted.length;
 }
 
+/**
+ * The "normal year" frequency printed beside the probability: where observations cover the lead, the observed
+ * frequency of the event (observations above the same percentile of the observations, or above the absolute
+ * value), so a model bias never shows up as a normal-year rate; else the frequency in the lead's climate sample.
+ */
+function normalYearRate(req: ProbabilityRequest, l: number, climate: LeadClimate | null, threshold: number): number {
+  if (covers(req.observed, l)) {
+    const obs = leadSample(req.observed, l);
+    const spec = req.threshold;
+    return fractionAbove(obs, spec.kind === 'percentile' ? percentileLinear(obs, spec.percentile) : spec.value);
+  }
+  return climate ? fractionAbove(leadSample(climate, l), threshold) : Number.NaN;
+}
+
 /** Exceedance probabilities of one source × region × indicator × tier, one LeadProbability per forecast lead. */
 export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
   const { forecast, calibration, hindcast } = req;
@@ -128,7 +143,7 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
       indicator: req.indicator,
       lead,
       probability: exc.probability,
-      baseRate: climate ? fractionAbove(leadSample(climate, l), threshold.value) : Number.NaN,
+      baseRate: normalYearRate(req, l, climate, threshold.value),
       members: forecast.members,
       validMembers: exc.valid,
       threshold,

@@ -1,28 +1,36 @@
 /**
  * Skill of one source × region × indicator over the hindcast set, per lead.
- * (a) basis "observed": one case per hindcast year y. Forecast p_y = fraction of year y's members above the
- *     leave-one-year-out model threshold (from all other years' hindcasts, so a year never sets its own). Event
- *     o_y = observed value of year y above, for a percentile spec, the same percentile of the observed climatology
- *     without year y; for an absolute spec, the absolute value (the forecast side then uses the leave-one-year-out
- *     quantile-mapped threshold for weeks/months, as probability.ts does with all years).
+ * (a) basis "observed": one case per hindcast entry (year, or pooled start of a year). Forecast p = fraction of
+ *     the entry's members above the leave-one-year-out model threshold (from all other years' hindcasts, so a
+ *     year never sets its own). Event o = observed value above, for a percentile spec, the same percentile of
+ *     the observed climatology without that year — both by the unbiased Weibull position, so the observed and
+ *     forecast events have the same nominal frequency (thresholds.ts); for an absolute spec, the absolute value
+ *     (the forecast side then uses the leave-one-year-out quantile-mapped threshold for weeks/months, as
+ *     probability.ts does with all years).
  * (b) basis "potential" (perfect model, when observations do not cover the lead): each member of year y in turn is
- *     the truth, the remaining members the forecast, with the leave-one-year-out model threshold for both;
- *     cases = years × members. It measures predictability in the model's own world, not real skill.
+ *     the truth, the remaining members the forecast, with the leave-one-year-out model threshold for both. Its
+ *     cases (years × members) are not independent: the number of years is. It measures predictability in the
+ *     model's own world, not real skill, and never passes the skill gate (skill-gate.ts).
+ * Every score comes with its event count and a 90 % year-block bootstrap interval (bootstrap.ts); the fair Brier
+ * score (Ferro 2014) removes the ensemble-size penalty so hindcast and forecast ensembles compare.
  */
-import type { DecisionConfig, ThresholdSpec } from '../config/types.ts';
-import type { LeadWindow, SkillSummary } from '../types.ts';
+import type { ThresholdSpec } from '../config/types.ts';
+import type { LeadWindow, SkillGateResult, SkillSummary } from '../types.ts';
 import { distinctYears, leadSample, yearMembers, type LeadClimate } from './climate.ts';
 import { leadLabel } from './lead-tiers.ts';
 import { leaveOneYearOutThresholds, quantileMappedThreshold } from './thresholds.ts';
 import { exceedanceFraction } from './probability.ts';
 import { percentileLinear } from '../core/percentile.ts';
+import { yearBlockBootstrap, type BootstrapIntervals, type VerificationCases } from './bootstrap.ts';
+import { fairBrierScoreFerro2014, fairBrierSkillScore } from './fair-brier.ts';
+import { gateByLead, type SkillGate } from './skill-gate.ts';
 import {
   brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, falseAlarmRatio, hitRate,
   murphyDecomposition1973, peirceSkillScore, reliabilityTable, rocArea, rocPoints, valueEnvelope,
   type ReliabilityRow, type RocPoint, type ValuePoint,
 } from './verify.ts';
 
-export type SkillGate = DecisionConfig['skillGate'];
+export type { SkillGate } from './skill-gate.ts';
 
 export interface StageScores {
   /** Warn when p >= probability. */
@@ -37,14 +45,19 @@ export interface SkillReport {
   readonly lead: LeadWindow;
   readonly basis: 'observed' | 'potential';
   readonly cases: number;
+  readonly events: number;
   readonly years: readonly number[];
   readonly baseRate: number;
   readonly brierScore: number;
   readonly brierSkillScore: number;
+  readonly fairBrierScore: number;
+  readonly fairBrierSkillScore: number;
   readonly reliability: number;
   readonly resolution: number;
   readonly uncertainty: number;
   readonly rocArea: number;
+  /** 90 % year-block bootstrap intervals of BSS, fair BSS and ROC area at this lead alone. */
+  readonly intervals: BootstrapIntervals;
   readonly rocPoints: readonly RocPoint[];
   readonly reliabilityTable: readonly ReliabilityRow[];
   readonly stages: readonly StageScores[];
@@ -54,50 +67,42 @@ export interface SkillReport {
   readonly summary: SkillSummary;
 }
 
-/**
- * Skill gate (DecisionConfig.skillGate): rocArea passes at >= floor (floors are stated inclusively, e.g. 0.6);
- * brierSkillScore must be > floor (a BSS equal to the floor, typically 0, is no gain over climatology).
- * NaN never passes.
- */
-export function applySkillGate(scores: { readonly rocArea: number; readonly brierSkillScore: number }, gate: SkillGate): boolean {
-  return gate.score === 'rocArea' ? scores.rocArea >= gate.floor : scores.brierSkillScore > gate.floor;
+function build(p: number[], m: number[], o: number[], y: number[]): VerificationCases {
+  return { p: Float64Array.from(p), members: Float64Array.from(m), o: Float64Array.from(o), caseYears: Float64Array.from(y), years: [...new Set(y)].sort((a, b) => a - b) };
 }
 
-/** Cases (p, o) of lead position l against observations; years missing on either side are skipped. */
-export function observedCases(hc: LeadClimate, obs: LeadClimate, l: number, spec: ThresholdSpec, tierUsesMapping: boolean): { p: Float64Array; o: Float64Array; years: number[] } {
+/** Cases of lead position l against observations; entries missing on either side are skipped. */
+export function observedCases(hc: LeadClimate, obs: LeadClimate, l: number, spec: ThresholdSpec, tierUsesMapping: boolean): VerificationCases {
   const n = hc.years.length;
   const fcThr = new Float64Array(n);
   const obsThr = new Float64Array(n);
   if (spec.kind === 'percentile') {
     fcThr.set(leaveOneYearOutThresholds(hc, l, spec.percentile));
-    hc.years.forEach((year, y) => (obsThr[y] = percentileLinear(leadSample(obs, l, year), spec.percentile)));
+    hc.years.forEach((year, y) => (obsThr[y] = percentileLinear(leadSample(obs, l, year), spec.percentile, 'weibull')));
   } else {
     hc.years.forEach((year, y) => (fcThr[y] = tierUsesMapping ? quantileMappedThreshold(spec.value, obs, hc, l, year).value : spec.value));
     obsThr.fill(spec.value);
   }
-  const p: number[] = [];
-  const o: number[] = [];
-  const years = new Set<number>();
+  const p: number[] = [], m: number[] = [], o: number[] = [], ys: number[] = [];
   // Observations stacked like the hindcasts (same entries) match by position, else by year.
   hc.years.forEach((year, y) => {
     const oy = obs.years[y] === year ? y : obs.years.indexOf(year);
     if (oy < 0) return;
     const truth = obs.values[oy * obs.leads.length + l];
-    const py = exceedanceFraction(yearMembers(hc, y, l), fcThr[y]).probability;
-    if (Number.isNaN(py) || Number.isNaN(truth) || Number.isNaN(obsThr[y])) return;
-    p.push(py);
+    const exc = exceedanceFraction(yearMembers(hc, y, l), fcThr[y]);
+    if (Number.isNaN(exc.probability) || Number.isNaN(truth) || Number.isNaN(obsThr[y])) return;
+    p.push(exc.probability);
+    m.push(exc.valid);
     o.push(truth > obsThr[y] ? 1 : 0);
-    years.add(year);
+    ys.push(year);
   });
-  return { p: Float64Array.from(p), o: Float64Array.from(o), years: [...years] };
+  return build(p, m, o, ys);
 }
 
 /** Perfect-model cases of lead position l: each member as truth against the others of its year. */
-export function potentialCases(hc: LeadClimate, l: number, spec: ThresholdSpec): { p: Float64Array; o: Float64Array; years: number[] } {
+export function potentialCases(hc: LeadClimate, l: number, spec: ThresholdSpec): VerificationCases {
   const thr = spec.kind === 'percentile' ? leaveOneYearOutThresholds(hc, l, spec.percentile) : new Float64Array(hc.years.length).fill(spec.value);
-  const p: number[] = [];
-  const o: number[] = [];
-  const years = new Set<number>();
+  const p: number[] = [], mm: number[] = [], o: number[] = [], ys: number[] = [];
   const others = new Float64Array(Math.max(hc.members - 1, 0));
   hc.years.forEach((year, y) => {
     const t = thr[y];
@@ -105,22 +110,23 @@ export function potentialCases(hc: LeadClimate, l: number, spec: ThresholdSpec):
     for (let m = 0; m < hc.members; m++) {
       if (Number.isNaN(ens[m]) || Number.isNaN(t)) continue;
       for (let k = 0, j = 0; k < hc.members; k++) if (k !== m) others[j++] = ens[k];
-      const pm = exceedanceFraction(others, t).probability;
-      if (Number.isNaN(pm)) continue;
-      p.push(pm);
+      const exc = exceedanceFraction(others, t);
+      if (Number.isNaN(exc.probability)) continue;
+      p.push(exc.probability);
+      mm.push(exc.valid);
       o.push(ens[m] > t ? 1 : 0);
-      years.add(year);
+      ys.push(year);
     }
   });
-  return { p: Float64Array.from(p), o: Float64Array.from(o), years: [...years] };
+  return build(p, mm, o, ys);
 }
 
-/** All scores of a set of cases. */
+/** All scores of a set of cases; `gate` is the verdict on the lead's pooling window (skill-gate.ts). */
 export function scoreCases(
-  lead: LeadWindow, basis: 'observed' | 'potential', cases: { p: Float64Array; o: Float64Array; years: readonly number[] },
-  stageProbabilities: readonly number[], gate: SkillGate, flags: readonly string[],
+  lead: LeadWindow, basis: 'observed' | 'potential', cases: VerificationCases,
+  stageProbabilities: readonly number[], gate: SkillGate, verdict: SkillGateResult, flags: readonly string[],
 ): SkillReport {
-  const { p, o } = cases;
+  const { p, o, members } = cases;
   const n = p.length;
   const events = o.reduce((a, b) => a + b, 0);
   const allFlags = [...flags];
@@ -131,19 +137,24 @@ export function scoreCases(
   const usable = n > 0;
   const bs = usable ? brierScore1950(p, o) : nan;
   const bss = usable ? brierSkillScoreSampleClimatology(p, o) : nan;
+  const fbs = usable ? fairBrierScoreFerro2014(p, members, o) : nan;
+  const fbss = usable ? fairBrierSkillScore(p, members, o) : nan;
   const auc = usable ? rocArea(p, o) : nan;
   const dec = usable ? murphyDecomposition1973(p, o) : { reliability: nan, resolution: nan, uncertainty: nan };
   const stages = stageProbabilities.map((t) => {
     const tab = contingencyTable(p, o, t);
     return { probability: t, hitRate: hitRate(tab), falseAlarmRate: falseAlarmRate(tab), falseAlarmRatio: falseAlarmRatio(tab), peirceSkillScore: peirceSkillScore(tab) };
   });
-  const scores = { rocArea: auc, brierSkillScore: bss };
+  const intervals = yearBlockBootstrap(cases, { resamples: gate.resamples, seed: gate.seed });
   return {
-    lead, basis, cases: n, years: cases.years, baseRate: usable ? events / n : nan,
-    brierScore: bs, brierSkillScore: bss, ...dec, rocArea: auc,
+    lead, basis, cases: n, events, years: cases.years, baseRate: usable ? events / n : nan,
+    brierScore: bs, brierSkillScore: bss, fairBrierScore: fbs, fairBrierSkillScore: fbss, ...dec, rocArea: auc, intervals,
     rocPoints: usable ? rocPoints(p, o) : [], reliabilityTable: usable ? reliabilityTable(p, o) : [],
     stages, value: usable ? valueEnvelope(p, o) : [], flags: allFlags,
-    summary: { brierScore: bs, brierSkillScore: bss, rocArea: auc, basis, cases: n, skilful: applySkillGate(scores, gate) },
+    summary: {
+      brierScore: bs, brierSkillScore: bss, fairBrierSkillScore: fbss, rocArea: auc, basis, cases: n,
+      years: cases.years.length, events, gate: verdict, skilful: verdict.passed,
+    },
   };
 }
 
@@ -159,18 +170,25 @@ export interface SkillRequest {
   readonly minHindcastYears: number;
 }
 
-/** A SkillReport per hindcast lead: against observations where they cover the lead, else potential skill. */
-export function skillReports(req: SkillRequest): SkillReport[] {
-  const { hindcast: hc, observed } = req;
-  const nYears = distinctYears(hc);
-  const flags = nYears < req.minHindcastYears ? [`thresholds unstable: only ${nYears} hindcast years (minimum ${req.minHindcastYears})`] : [];
+/** Verification cases of every hindcast lead: against observations where they cover the lead, else perfect-model. */
+export function leadCases(hc: LeadClimate, observed: LeadClimate | null, spec: ThresholdSpec): { lead: LeadWindow; basis: 'observed' | 'potential'; cases: VerificationCases; why: string }[] {
   return hc.leads.map((lead, l) => {
     const obsCovers = observed !== null && l < observed.leads.length && leadSample(observed, l).length > 0;
-    if (obsCovers) {
-      return scoreCases(lead, 'observed', observedCases(hc, observed, l, req.threshold, lead.tier !== 'days'), req.stageProbabilities, req.gate, flags);
-    }
+    if (obsCovers) return { lead, basis: 'observed' as const, cases: observedCases(hc, observed, l, spec, lead.tier !== 'days'), why: '' };
     const why = observed === null ? 'no observations configured' : `observations do not cover ${leadLabel(lead)}`;
-    return scoreCases(lead, 'potential', potentialCases(hc, l, req.threshold), req.stageProbabilities, req.gate, [...flags, `potential skill only: ${why}`]);
+    return { lead, basis: 'potential' as const, cases: potentialCases(hc, l, spec), why };
+  });
+}
+
+/** A SkillReport per hindcast lead, each with the skill gate's verdict on its pooling window. */
+export function skillReports(req: SkillRequest): SkillReport[] {
+  const nYears = distinctYears(req.hindcast);
+  const flags = nYears < req.minHindcastYears ? [`thresholds unstable: only ${nYears} hindcast years (minimum ${req.minHindcastYears})`] : [];
+  const leads = leadCases(req.hindcast, req.observed, req.threshold);
+  const verdicts = gateByLead(leads, req.gate);
+  return leads.map((lc) => {
+    const extra = lc.basis === 'potential' ? [`potential skill only: ${lc.why}`] : [];
+    return scoreCases(lc.lead, lc.basis, lc.cases, req.stageProbabilities, req.gate, verdicts.get(lc.lead.index) as SkillGateResult, [...flags, ...extra]);
   });
 }
 

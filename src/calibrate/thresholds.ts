@@ -37,14 +37,18 @@ export function climatePercentileThreshold(c: LeadClimate, l: number, q: number,
   };
 }
 
-/** Leave-one-year-out thresholds at lead position l: entry y is the q-th percentile of all years except year y. */
+/**
+ * Leave-one-year-out thresholds at lead position l: entry y is the q-th percentile of all years except year y,
+ * by the unbiased Weibull plotting position (type 6, see core/percentile.ts) so that the observed side (19
+ * values) and the forecast side (19 × members values) define events of the same frequency, 1 − q/100.
+ */
 export function leaveOneYearOutThresholds(c: LeadClimate, l: number, q: number): Float64Array {
   const all = leadSample(c, l);
   const out = new Float64Array(c.years.length);
   for (let y = 0; y < c.years.length; y++) {
     const removed: number[] = [];
     for (let k = 0; k < c.years.length; k++) if (c.years[k] === c.years[y]) removed.push(...yearMembers(c, k, l));
-    out[y] = percentileOfSortedWithout(all, sortValid(removed), q);
+    out[y] = percentileOfSortedWithout(all, sortValid(removed), q, 'weibull');
   }
   return out;
 }

@@ -48,9 +48,9 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
     run: async (a) => (await import('./commands/regions.ts')).regionsCommand(a),
   },
   skill: {
-    summary: 'print the hindcast skill table (Brier skill score, ROC area, ...) per source, region, indicator and lead',
-    usage: 'forelight skill [--config FILE] [--date YYYY-MM-DD] [--csv] [--detail]',
-    spec: { values: ['config', 'date'], flags: ['csv', 'detail'] },
+    summary: 'print the hindcast skill table (Brier skill score with its 90 % interval, events, ROC area, skill gate) per source, region, indicator and lead',
+    usage: 'forelight skill [--config FILE] [--date YYYY-MM-DD] [--source ID] [--region ID] [--indicator ID] [--csv] [--detail]',
+    spec: { values: ['config', 'date', 'source', 'region', 'indicator'], flags: ['csv', 'detail'] },
     run: async (a) => (await import('./commands/skill.ts')).skillCommand(a),
   },
   explain: {

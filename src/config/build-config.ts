@@ -8,7 +8,7 @@ import type { Quantity, Tier } from '../types.ts';
 import { thresholdUnits } from './threshold-units.ts';
 import { unwrapRing } from './boundaries/geometry.ts';
 import { entryDefaults } from './boundaries/region-sets.ts';
-import { DEFAULT_LOOKBACK_DAYS, type Config, type IndicatorConfig, type IndicatorKind, type RegionConfig, type RegionShape, type SmtpConfig, type StageConfig, type ThresholdSpec, type TriggerRule } from './types.ts';
+import { DEFAULT_LOOKBACK_DAYS, type Config, type DecisionConfig, type IndicatorConfig, type IndicatorKind, type RegionConfig, type RegionShape, type SmtpConfig, type StageConfig, type ThresholdSpec, type TriggerRule } from './types.ts';
 
 /** Runs a missing tier's last stage is held by default (escalation.hold-missing-runs). */
 export const DEFAULT_HOLD_MISSING_RUNS = 2;
@@ -27,7 +27,7 @@ interface RawTree {
   indicators: { id: string; name: string; kind: IndicatorKind; 'window-days'?: number; threshold: RawThreshold; 'region-thresholds'?: Record<string, RawThreshold>; aggregate: 'mean' | 'max' | 'sum'; tiers: Tier[]; params?: Record<string, number | string | boolean> }[];
   'stage-ladder': { id: string; label: Texts; glyph: string; colour: string; meaning: Texts; actions: Record<string, Texts>; cap: StageConfig['cap'] }[];
   'trigger-rules': { id: string; indicator: string; tier: Tier; leads?: number[]; stage: string; probability?: number; 'cost-loss'?: number }[];
-  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'hold-missing-runs'?: number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { score: 'roc-area' | 'brier-skill-score'; floor: number; action: 'withhold' | 'say-no-skill' } };
+  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'hold-missing-runs'?: number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { floor?: number; 'min-events'?: number; 'pool-leads'?: Partial<Record<Tier, number>>; resamples?: number; seed?: number; action: 'withhold' | 'say-no-skill' } };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
   delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number; 'pdf-chromium'?: string | null };
@@ -93,6 +93,21 @@ function toSmtp(s: NonNullable<RawTree['delivery']['smtp']>): SmtpConfig {
 }
 
 /** `file` is the absolute path of the main YAML file; relative paths resolve against its directory. */
+/** Defaults of the skill gate: pool the days of a lead week; weeks and months lead by lead. */
+export const SKILL_GATE_DEFAULTS = { floor: 0, minEvents: 5, poolLeads: { days: 7, weeks: 1, months: 1 }, resamples: 1000, seed: 1 } as const;
+
+function skillGate(g: RawTree['escalation']['skill-gate']): DecisionConfig['skillGate'] {
+  const d = SKILL_GATE_DEFAULTS;
+  return {
+    floor: g.floor ?? d.floor,
+    minEvents: g['min-events'] ?? d.minEvents,
+    poolLeads: { ...d.poolLeads, ...g['pool-leads'] },
+    resamples: g.resamples ?? d.resamples,
+    seed: g.seed ?? d.seed,
+    action: g.action,
+  };
+}
+
 export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<number, readonly RegionConfig[]> = new Map()): Config {
   const raw = rawTree as RawTree;
   const dir = dirname(file);
@@ -127,7 +142,7 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
       holdMissingRuns: e['hold-missing-runs'] ?? DEFAULT_HOLD_MISSING_RUNS,
       topStageImmediate: e['top-stage-immediate'],
       combine: e.combine,
-      skillGate: { score: e['skill-gate'].score === 'roc-area' ? 'rocArea' : 'brierSkillScore', floor: e['skill-gate'].floor, action: e['skill-gate'].action },
+      skillGate: skillGate(e['skill-gate']),
     },
     calibration: {
       windowDays: raw.calibration['window-days'],

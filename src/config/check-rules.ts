@@ -84,10 +84,5 @@ export function checkRules(raw: RawObject): ConfigProblem[] {
     }
   });
 
-  const gate = obj(obj(raw.escalation)['skill-gate']);
-  const floor = num(gate.floor);
-  if (gate.score === 'roc-area' && floor !== undefined && floor < 0.5) {
-    out.push(problem(pointerOf('escalation', 'skill-gate', 'floor'), `ROC area floor ${floor} is below 0.5, the area of a forecast with no skill`, 'use a floor of at least 0.5, e.g. 0.6'));
-  }
   return out;
 }

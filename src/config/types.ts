@@ -164,8 +164,19 @@ export interface DecisionConfig {
   readonly topStageImmediate: boolean;
   /** How indicators and tiers combine for a region: the highest stage wins, or a matrix (see CombineMatrix). */
   readonly combine: 'highest' | { readonly matrix: CombineMatrix };
-  /** Skill gate: which score and its floor. */
-  readonly skillGate: { readonly score: 'rocArea' | 'brierSkillScore'; readonly floor: number; readonly action: 'withhold' | 'say-no-skill' };
+  /** Skill gate (calibrate/skill-gate.ts): a lead may raise a stage only when its pooled window shows skill. */
+  readonly skillGate: {
+    /** The lower end of the 90 % interval of the fair Brier skill score must exceed this (default 0). */
+    readonly floor: number;
+    /** Fewest observed events in the pooling window for skill to be judged at all. */
+    readonly minEvents: number;
+    /** Leads pooled per window, per tier (consecutive blocks: 7 → days 1–7, 8–14, …). */
+    readonly poolLeads: Readonly<Record<Tier, number>>;
+    /** Year-block bootstrap resamples (at least 1000) and the seed that makes intervals reproducible. */
+    readonly resamples: number;
+    readonly seed: number;
+    readonly action: 'withhold' | 'say-no-skill';
+  };
 }
 
 export interface SmtpConfig {

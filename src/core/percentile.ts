@@ -8,16 +8,26 @@
  *
  * NaN values are skipped (as `numpy.nanpercentile`); no valid value gives NaN. Here: the inverse (percent rank,
  * for quantile mapping) and a leave-some-out variant that avoids re-sorting.
+ *
+ * Definition 6 (`method: 'weibull'`, numpy's method='weibull'), h = (n + 1) q / 100 − 1 clamped to 0..n−1, is
+ * the unbiased plotting position: a new value from the same distribution exceeds it with probability
+ * 1 − q/100 whatever n is (Hyndman & Fan 1996, property P6). Cross-validated thresholds from samples of
+ * different sizes (19 observed values, 209 hindcast values) therefore give the same event frequency.
  */
+export type PercentileMethod = 'linear' | 'weibull';
+
+function position(n: number, q: number, method: PercentileMethod): number {
+  return method === 'linear' ? ((n - 1) * q) / 100 : Math.min(Math.max(((n + 1) * q) / 100 - 1, 0), n - 1);
+}
 import { ForelightError } from './errors.ts';
 
-/** q-th percentile (0..100) of the non-NaN values, numpy 'linear' / Hyndman-Fan type 7. */
-export function percentileLinear(values: ArrayLike<number>, q: number): number {
+/** q-th percentile (0..100) of the non-NaN values, numpy 'linear' / Hyndman-Fan type 7 (or 'weibull', type 6). */
+export function percentileLinear(values: ArrayLike<number>, q: number, method: PercentileMethod = 'linear'): number {
   if (!(q >= 0 && q <= 100)) throw new RangeError(`percentile must be within 0..100, got ${q}`);
   const x = sortValid(values);
   const n = x.length;
   if (n === 0) return NaN;
-  const h = ((n - 1) * q) / 100;
+  const h = position(n, q, method);
   const lo = Math.floor(h);
   const hi = Math.min(lo + 1, n - 1);
   return x[lo] + (h - lo) * (x[hi] - x[lo]);
@@ -73,10 +83,10 @@ function lowerBound(sorted: ArrayLike<number>, x: number): number {
 }
 
 /**
- * Type-7 percentile of `sorted` with the values of `removed` (sorted, NaN-free, each present in `sorted`) taken
+ * Type-7 (or type-6) percentile of `sorted` with the values of `removed` (sorted, NaN-free, each present in `sorted`) taken
  * out, without copying: O(r log n) per call. Used for leave-one-year-out thresholds.
  */
-export function percentileOfSortedWithout(sorted: ArrayLike<number>, removed: ArrayLike<number>, q: number): number {
+export function percentileOfSortedWithout(sorted: ArrayLike<number>, removed: ArrayLike<number>, q: number, method: PercentileMethod = 'linear'): number {
   checkPercent(q);
   const n = sorted.length - removed.length;
   if (n <= 0) return Number.NaN;
@@ -89,7 +99,7 @@ export function percentileOfSortedWithout(sorted: ArrayLike<number>, removed: Ar
     for (let j = 0; j < positions.length && positions[j] <= idx; j++) idx++;
     return sorted[idx];
   };
-  const h = ((n - 1) * q) / 100;
+  const h = position(n, q, method);
   const lo = Math.floor(h);
   const a = at(lo);
   return lo + 1 < n ? a + (h - lo) * (at(lo + 1) - a) : a;

@@ -6,7 +6,6 @@ import type { Config } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
 import { tunedKey, type TunedKey } from '../core/keys.ts';
 import { leadName, stageRank } from './types.ts';
-import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
 const P_TOLERANCE = 1e-9;
@@ -38,21 +37,22 @@ export interface RuleTrack {
   readonly skillGate: 'apply' | 'ignore';
 }
 
-/** Leads that may raise a stage, and the reasons for those that may not. */
+/**
+ * Leads that may raise a stage, and the reasons for those that may not: the skill gate's verdict on each lead's
+ * pooling window (calibrate/skill-gate.ts: observed skill, enough events, 90 % interval of the fair Brier skill
+ * score above the floor). A perfect-model estimate never passes.
+ */
 function applySkillGate(config: RulesConfig, probs: readonly LeadProbability[], reasons: string[]): { usable: LeadProbability[]; withheld: LeadWindow[] } {
-  const gate = config.decision.skillGate;
-  const scoreName = gate.score === 'rocArea' ? 'ROC area' : 'Brier skill score';
   const usable: LeadProbability[] = [];
   const withheld: LeadWindow[] = [];
   for (const p of probs) {
-    const score = p.skill ? p.skill[gate.score] : Number.NaN;
-    if (p.skill && passesSkillGate(p.skill, gate)) {
+    if (p.skill?.skilful) {
       usable.push(p);
       continue;
     }
-    const why = Number.isFinite(score) ? `${scoreName} ${fmt(score)} ${gate.score === 'rocArea' ? '<' : '≤'} ${gate.floor}` : 'no hindcast skill available';
+    const why = p.skill ? p.skill.gate.text : 'no hindcast skill available';
     reasons.push(`${leadName(p.lead.tier, p.lead.index)} withheld: ${why} — no demonstrated skill, treat as normal conditions`);
-    if (gate.action === 'say-no-skill') withheld.push(p.lead);
+    if (config.decision.skillGate.action === 'say-no-skill') withheld.push(p.lead);
   }
   return { usable, withheld };
 }

@@ -4,7 +4,6 @@
  */
 import type { LeadProbability, StageDecision } from '../types.ts';
 import { leadName, type DecideConfig, type StageTrack } from './types.ts';
-import { applySkillGate as passesSkillGate } from '../calibrate/skill.ts';
 
 /** Summary of the ensemble values at one lead, as computed by the caller. */
 export interface EnsembleSummary {
@@ -41,7 +40,6 @@ export function explainDecision(input: ExplainInput): string[] {
   const label = (id: string) => `${stage(id)?.glyph ?? ''} ${stage(id)?.label.en ?? id} (${id})`.trim();
   const region = config.regions.find((r) => r.id === d.region)?.name ?? d.region;
   const indicator = config.indicators.find((i) => i.id === d.indicator)?.name ?? d.indicator;
-  const gate = config.decision.skillGate;
   const lines = [`${region} · ${indicator} · ${d.tier}`];
   const probs = input.probabilities
     .filter((p) => p.region === d.region && p.indicator === d.indicator && p.lead.tier === d.tier)
@@ -52,9 +50,9 @@ export function explainDecision(input: ExplainInput): string[] {
     const v = input.values?.get(p.lead.index);
     const values = v ? `values min ${n(v.min)} / median ${n(v.median)} / max ${n(v.max)} ${v.units}; ` : '';
     const skill = p.skill
-      ? `skill ROC area ${n(p.skill.rocArea)}, BSS ${n(p.skill.brierSkillScore)} (${p.skill.basis}, ${p.skill.cases} cases)`
+      ? `skill BSS ${n(p.skill.brierSkillScore)}, fair BSS ${n(p.skill.fairBrierSkillScore)}, ROC area ${n(p.skill.rocArea)} (${p.skill.basis}, ${p.skill.events} events in ${p.skill.years} years); gate ${p.skill.gate.text}`
       : 'skill unknown';
-    const gated = !p.skill || !passesSkillGate(p.skill, gate) ? ' — below the skill floor' : '';
+    const gated = !p.skill?.skilful ? ' — skill not demonstrated, cannot raise a stage' : '';
     const flags = p.flags.length > 0 ? `; flags: ${p.flags.join(', ')}` : '';
     lines.push(`${leadName(p.lead.tier, p.lead.index)} (${p.lead.start}..${p.lead.end}): ${values}P(> threshold) = ${n(p.probability)} from ${p.validMembers}/${p.members} members, base rate ${n(p.baseRate)}; ${skill}${gated}${flags}`);
   }

@@ -24,7 +24,7 @@ export function backtestCases(config: Config, analysis: Analysis): BacktestCase[
       hc.leads.forEach((lead, l) => {
         if (l >= obs.leads.length) return;
         const cases = observedCases(hc, obs, l, spec, lead.tier !== 'days');
-        cases.years.forEach((year, i) => {
+        cases.caseYears.forEach((year, i) => {
           const entry = byYear.get(year) ?? { probabilities: [] as LeadProbability[], events: new Map<EventKey, boolean>(), start: `${year}-${lead.start.slice(5)}` };
           byYear.set(year, entry);
           if (lead.index === 1 && lead.start < entry.start) entry.start = lead.start;

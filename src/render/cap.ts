@@ -135,7 +135,11 @@ function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome,
     params.push(['forelight:exceedanceProbability', lead.probability.toFixed(2)]);
     params.push(['forelight:baseRate', lead.baseRate.toFixed(2)]);
     params.push(['forelight:threshold', `${lead.operator} ${lead.threshold.value} ${lead.threshold.units}`]);
-    if (lead.skill) params.push([`forelight:${config.decision.skillGate.score}`, lead.skill[config.decision.skillGate.score].toFixed(2)]);
+    if (lead.skill) {
+      const g = lead.skill.gate;
+      params.push(['forelight:fairBrierSkillScore', `${g.fairBrierSkillScore.toFixed(2)} (90 % interval ${g.low.toFixed(2)} to ${g.high.toFixed(2)}, ${g.leads}, ${g.events} events in ${g.years} years)`]);
+      params.push(['forelight:skillShown', lead.skill.skilful ? 'yes' : 'no']);
+    }
   }
   for (const [k, v] of params) parts.push(`<parameter>${el('valueName', k)}${el('value', v)}</parameter>`);
   parts.push(`<area>${el('areaDesc', outcome.region.name)}${capPolygons(outcome.region).map((p) => el('polygon', p)).join('')}</area>`);

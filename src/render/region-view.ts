@@ -93,12 +93,13 @@ function methodLines(t: Translate, locale: string, config: RenderConfig, spec: T
   }
   const scored = outcome.probabilities.filter((q) => q.skill);
   if (scored.length > 0) {
-    const score = config.decision.skillGate.score;
-    const values = scored.map((q) => q.skill![score]);
+    const gate = config.decision.skillGate;
+    const values = scored.map((q) => (q.skill!.basis === 'observed' ? q.skill!.gate.fairBrierSkillScore : q.skill!.fairBrierSkillScore)).filter(Number.isFinite);
+    const fmt = (v: number) => (Number.isFinite(v) ? formatNumber(locale, v, 2, 2) : '–');
     lines.push(t('method.skill', {
-      score, min: formatNumber(locale, Math.min(...values), 2, 2), max: formatNumber(locale, Math.max(...values), 2, 2),
-      cases: Math.max(...scored.map((q) => q.skill!.cases)), potential: scored.some((q) => q.skill!.basis === 'potential') ? 'yes' : 'no',
-      floor: formatNumber(locale, config.decision.skillGate.floor, 2, 2), withheld: leads.filter((l) => l.withheld).length,
+      min: fmt(Math.min(...values)), max: fmt(Math.max(...values)),
+      years: Math.max(...scored.map((q) => q.skill!.years)), potential: scored.some((q) => q.skill!.basis === 'potential') ? 'yes' : 'no',
+      floor: formatNumber(locale, gate.floor, 2, 2), minEvents: gate.minEvents, withheld: leads.filter((l) => l.withheld).length,
     }));
   } else lines.push(t('method.noSkill'));
   return lines;

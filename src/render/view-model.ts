@@ -27,8 +27,11 @@ export interface StageView {
   readonly actions: string;
 }
 
-/** How sure a lead is, from its skill figures (message `sure.<level>`). */
-export type SureLevel = 'high' | 'medium' | 'low' | 'none' | 'unchecked';
+/**
+ * How sure a lead is, from its skill figures (message `sure.<level>`): 'few' = too few observed events to judge;
+ * 'none' = skill not shown (or a perfect-model estimate only).
+ */
+export type SureLevel = 'high' | 'medium' | 'low' | 'none' | 'few' | 'unchecked';
 
 export interface LeadView {
   readonly tier: Tier;
@@ -45,9 +48,17 @@ export interface LeadView {
   readonly reached: StageView;
   readonly sure: SureLevel;
   readonly potential: boolean;
-  /** Skill score at this lead formatted for the locale ('' when there is none). */
+  /**
+   * Fair Brier skill score formatted for the locale ('' when there is none), with its 90 % interval: of the skill
+   * gate's pooling window when verified against observations, of the lead alone (no interval) for a
+   * perfect-model estimate.
+   */
   readonly score: string;
-  readonly cases: number;
+  readonly low: string;
+  readonly high: string;
+  /** Independent past cases (hindcast years) and observed events behind the score. */
+  readonly years: number;
+  readonly events: number;
   readonly deciding: boolean;
   readonly withheld: boolean;
   readonly flags: readonly string[];
@@ -130,27 +141,29 @@ export function formatThreshold(locale: string, value: number, units: string): s
 }
 
 /**
- * Confidence level from the skill gate's score. Cut points (common practice, no source): ROC area 0.8 and 0.7
- * (0.5 = no discrimination), Brier skill score 0.3 and 0.1 (0 = no better than the normal-year frequency).
+ * Confidence level from the skill gate's verdict (calibrate/skill-gate.ts): only a passed gate (observed skill,
+ * enough events, 90 % interval of the fair BSS above the floor) gives high/medium/low, by the pooled fair BSS with
+ * cut points 0.3 and 0.1 (common practice, no source; 0 = no better than the normal-year frequency).
  */
-export function sureLevel(config: RenderConfig, skill: SkillSummary | null): SureLevel {
+export function sureLevel(skill: SkillSummary | null): SureLevel {
   if (!skill) return 'unchecked';
-  if (!skill.skilful) return 'none';
-  const score = skill[config.decision.skillGate.score];
-  const [high, medium] = config.decision.skillGate.score === 'rocArea' ? [0.8, 0.7] : [0.3, 0.1];
-  return score >= high ? 'high' : score >= medium ? 'medium' : 'low';
+  if (!skill.skilful) return skill.gate.reason === 'few-events' ? 'few' : 'none';
+  const score = skill.gate.fairBrierSkillScore;
+  return score >= 0.3 ? 'high' : score >= 0.1 ? 'medium' : 'low';
 }
 
 /** One plain sentence on how sure a lead is (message `sure.<level>`, plus `sure.potential` for model-only skill). */
-export function sureSentence(t: Translate, lead: Pick<LeadView, 'sure' | 'cases' | 'potential'>): string {
-  const main = t(`sure.${lead.sure}`, { cases: lead.cases });
-  return lead.potential && lead.sure !== 'none' && lead.sure !== 'unchecked' ? `${main} ${t('sure.potential')}` : main;
+export function sureSentence(t: Translate, lead: Pick<LeadView, 'sure' | 'years' | 'events' | 'score' | 'low' | 'high' | 'potential'>): string {
+  const main = t(`sure.${lead.sure}`, { years: lead.years, events: lead.events, score: lead.score, low: lead.low, high: lead.high });
+  return lead.potential ? `${main} ${t('sure.potential', { score: lead.score, years: lead.years })}` : main;
 }
 
 export function leadView(config: RenderConfig, p: LeadProbability, outcome: TierOutcome, locale: string, stageAt: (rank: number) => StageView): LeadView {
   const withheld = outcome.decision.withheldLeads.some((w) => w.index === p.lead.index && w.tier === p.lead.tier);
   const deciding = outcome.decision.lead !== null && outcome.decision.lead.lead.index === p.lead.index;
   const skill = p.skill;
+  const pooled = skill !== null && skill.basis === 'observed';
+  const num = (v: number | undefined) => (v !== undefined && Number.isFinite(v) ? formatNumber(locale, v, 2, 2) : '');
   return {
     tier: p.lead.tier,
     index: p.lead.index,
@@ -162,10 +175,13 @@ export function leadView(config: RenderConfig, p: LeadProbability, outcome: Tier
     normal: formatPercent(locale, p.baseRate),
     word: probabilityWord(config, p.probability, locale),
     reached: stageAt(withheld ? 0 : reachedRank(config, outcome, p)),
-    sure: sureLevel(config, skill),
+    sure: sureLevel(skill),
     potential: skill?.basis === 'potential',
-    score: skill ? formatNumber(locale, skill[config.decision.skillGate.score], 2, 2) : '',
-    cases: skill?.cases ?? 0,
+    score: num(pooled ? skill?.gate.fairBrierSkillScore : skill?.fairBrierSkillScore),
+    low: num(pooled ? skill?.gate.low : undefined),
+    high: num(pooled ? skill?.gate.high : undefined),
+    years: (pooled ? skill?.gate.years : skill?.years) ?? 0,
+    events: (pooled ? skill?.gate.events : skill?.events) ?? 0,
     deciding,
     withheld,
     flags: p.flags,

@@ -4,6 +4,7 @@ import { leadProbabilities, type ProbabilityRequest } from '../../src/calibrate/
 import type { LeadValues } from '../../src/calibrate/lead-tiers.ts';
 import type { LeadClimate } from '../../src/calibrate/climate.ts';
 import { climate, leadsOf, YEARS_2006_2025 } from './climate-fixture.ts';
+import { skillSummary } from '../support/skill-summary.ts';
 
 // checks.json row ens-exc-gt: these 10 members, threshold 32.0, P(x > 32) = 0.4.
 const ENS = [31.2, 33.5, 29.8, 35.1, 32.0, 30.0, 34.4, 28.9, 32.0, 36.3];
@@ -42,8 +43,17 @@ describe('leadProbabilities', () => {
     // members above 31.791: 33.5, 35.1, 32.0, 34.4, 32.0, 36.3
     expect(p.probability).toBeCloseTo(0.6, 12);
   });
+  it('normal-year rate is the observed frequency where observations exist: a model 1 degC too warm does not show as a higher normal-year rate', () => {
+    // Observations 30.00..30.19 (one per year); hindcasts 1 degC warmer. Absolute 30.15: 4 of 20 observed years exceed.
+    const observed = climate(YEARS_2006_2025, 1, leadsOf('weeks', 3), (y) => 30 + y / 100);
+    const warm = climate(YEARS_2006_2025, 10, leadsOf('weeks', 3), (y, m) => 31 + (y * 10 + m) / 1000);
+    const [p] = leadProbabilities(request({ hindcast: warm, observed, threshold: { kind: 'absolute', value: 30.15, units: 'degC' } }));
+    expect(p.baseRate).toBeCloseTo(4 / 20, 12);
+    const [q] = leadProbabilities(request({ hindcast: warm, observed: null, threshold: { kind: 'absolute', value: 30.15, units: 'degC' } }));
+    expect(q.baseRate).toBe(1); // without observations: the model's own (biased) frequency
+  });
   it('skill summaries are attached by lead index', () => {
-    const s = { brierScore: 0.1, brierSkillScore: 0.2, rocArea: 0.7, basis: 'observed' as const, cases: 20, skilful: true };
+    const s = skillSummary(0.1);
     const out = leadProbabilities(request({ skill: new Map([[2, s]]) }));
     expect(out.map((p) => p.skill)).toEqual([null, s, null]);
   });

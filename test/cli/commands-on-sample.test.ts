@@ -28,9 +28,26 @@ describe('inspection commands on the sample', () => {
     const r = forelight('skill', '--csv', ...DATE);
     expect(r.code).toBe(EXIT.ok);
     const lines = r.stdout.trim().split('\r\n');
-    expect(lines[0]).toBe('source,region,indicator,lead,basis,cases,BS,BSS,ROC area,REL,RES,skilful');
-    expect(lines.some((l) => /^subseasonal,kessan-lowlands,tmax-3day,week 2,observed,20,/.test(l))).toBe(true);
+    expect(lines[0]).toBe('source,region,indicator,lead,basis,years,events,BS,BSS,BSS 90%,fair BSS,ROC area,ROC 90%,REL,RES,gate window,gate events,gate low,skilful');
+    expect(lines.some((l) => /^subseasonal,kessan-lowlands,tmax-3day,week 2,observed,20,\d+,[-0-9.]+,[-0-9.]+,[-0-9.]+\.\.[-0-9.]+,/.test(l))).toBe(true);
+    // A row is skilful only where its gate window's lower bound is above 0 with at least 5 events.
+    for (const l of lines.slice(1)) {
+      const f = l.split(',');
+      if (f[18] === 'yes') expect(f[4] === 'observed' && Number(f[16]) >= 5 && Number(f[17]) > 0).toBe(true);
+    }
     expect(r.stderr).toMatch(/skill \[#+\] 4\/4 done/); // progress bar
+  });
+
+  it('skill --region/--indicator filters rows; an unknown id is refused naming the configured ones; text has the legend', () => {
+    const r = forelight('skill', '--region', 'orrin-coast', '--indicator', 'heat-index', ...DATE);
+    expect(r.code).toBe(EXIT.ok);
+    const rows = r.stdout.split('\n').filter((l) => /^(short|subseasonal|seasonal) /.test(l));
+    expect(rows.length).toBeGreaterThan(0);
+    for (const l of rows) expect(l).toMatch(/^\S+ +orrin-coast +heat-index /);
+    expect(r.stdout).toContain('gate low = lower end of the 90 % interval');
+    const bad = forelight('skill', '--region', 'atlantis', ...DATE);
+    expect(bad.code).not.toBe(EXIT.ok);
+    expect(bad.stderr).toContain("--region 'atlantis' is not a configured region; use one of: kessan-lowlands");
   });
 
   it('diff: the region stages a run would issue, nothing stored (dry run)', () => {
@@ -45,7 +62,7 @@ describe('inspection commands on the sample', () => {
     expect(r.code).toBe(EXIT.ok);
     expect(r.stdout).toMatch(/^Tulva Delta · Heat Index \(Rothfusz regression\) · days$/m);
     expect(r.stdout).toMatch(/^threshold: .*absolute 39 degC/m);
-    expect(r.stdout).toMatch(/^day 1 \(2026-11-26\.\.2026-11-26\): values min .* P\(> threshold\) = .* base rate .* skill ROC area/m);
+    expect(r.stdout).toMatch(/^day 1 \(2026-11-26\.\.2026-11-26\): values min .* P\(> threshold\) = .* base rate .* skill BSS .* fair BSS .* events in \d+ years\); gate days 1–7: /m);
     expect(r.stdout).toMatch(/^persistence before this run: /m);
     expect(r.stdout).toMatch(/issued stage/);
   });

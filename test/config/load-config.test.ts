@@ -25,7 +25,7 @@ describe('shipped configuration (config/forelight.yaml)', () => {
     expect(config.stages.map((s) => s.id)).toEqual(['quiet', 'mindful', 'brace', 'act-now']);
     expect(config.stages.map((s) => s.label.fr)).toEqual(['Calme', 'Vigilant', 'Se préparer', 'Agir maintenant']);
     expect(config.decision).toMatchObject({ tierCaps: { months: 'mindful', weeks: 'brace' }, escalateAfterRuns: 2, relaxAfterRuns: 2, topStageImmediate: true });
-    expect(config.decision.skillGate).toEqual({ score: 'rocArea', floor: 0.6, action: 'say-no-skill' });
+    expect(config.decision.skillGate).toEqual({ floor: 0, minEvents: 5, poolLeads: { days: 7, weeks: 1, months: 1 }, resamples: 1000, seed: 1, action: 'say-no-skill' });
     expect(config.delivery.smtp).toBeNull();
     expect(config.ledger).toBe(join(config.file, '../../forelight-ledger.sqlite'));
     expect(config.sources[1].hindcast).toBe(join(config.file, '../../sample-inputs/data/subseasonal/hindcast/subs_{year}{mmdd}.nc'));
@@ -113,7 +113,7 @@ describe('problems located at file:line:column', () => {
     expect(config.delivery.smtp).toEqual({ host: 'mail.team.example', port: 587, security: 'starttls', user: 'fl', passwordEnv: 'FL_SMTP_PASSWORD', timeoutSeconds: 30 });
   });
 
-  it('a rule on the lowest stage, a rule above its tier cap and a ROC floor below 0.5 are refused', async () => {
+  it('a rule on the lowest stage, a rule above its tier cap and the removed ROC-area skill gate are refused', async () => {
     const file = minimalVariant(
       '  tier-caps: {}\n',
       '  tier-caps: { weeks: calm }\n',
@@ -125,9 +125,10 @@ describe('problems located at file:line:column', () => {
     expect(await problemsOf(low)).toEqual([
       `${displayPath(low)}:53:73: rule raises the lowest stage "calm", which is never raised — name a higher stage or delete the rule`,
     ]);
-    const floor = minimalVariant('floor: 0.6', 'floor: 0.4');
-    expect(await problemsOf(floor)).toEqual([
-      `${displayPath(floor)}:60:41: ROC area floor 0.4 is below 0.5, the area of a forecast with no skill — use a floor of at least 0.5, e.g. 0.6`,
+    // The ROC-area gate was removed (ROC area measures discrimination, not improvement over a normal year).
+    const roc = minimalVariant('skill-gate: { action: say-no-skill }', 'skill-gate: { score: roc-area, floor: 0.6, action: say-no-skill }');
+    expect(await problemsOf(roc)).toEqual([
+      `${displayPath(roc)}:60:17: unknown key "score" — remove it or fix the spelling; allowed here: floor, min-events, pool-leads, resamples, seed, action`,
     ]);
   });
 

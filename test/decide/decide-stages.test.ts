@@ -10,6 +10,7 @@ import { trackKey, tunedKey, type TunedKey } from '../../src/core/keys.ts';
 import { EMPTY_HISTORY, NO_FORECAST_ID, type StageHistory } from '../../src/decide/types.ts';
 import type { LeadProbability } from '../../src/types.ts';
 import { makeConfig, prob } from './helpers.ts';
+import { skillSummary } from '../support/skill-summary.ts';
 
 const config = makeConfig();
 const issued = (stageId: string): StageHistory => ({
@@ -51,28 +52,28 @@ describe('decideStages', () => {
     expect(run([prob('r1', 'weeks', 2, 0.59)]).decisions[0].rawStageId).toBe('mindful');
   });
 
-  it('skill gate: a lead below the ROC floor cannot raise a stage and is listed (say-no-skill)', () => {
-    const probs = [prob('r1', 'weeks', 2, 0.9, 0.55), prob('r1', 'weeks', 3, 0.45, 0.7)];
+  it('skill gate: a lead whose fair-BSS interval does not lie above 0 cannot raise a stage and is listed (say-no-skill)', () => {
+    const probs = [prob('r1', 'weeks', 2, 0.9, -0.05), prob('r1', 'weeks', 3, 0.45, 0.2)];
     const d = run(probs, issued('quiet')).decisions[0];
     expect(d.rawStageId).toBe('mindful');
     expect(d.withheldLeads).toEqual([probs[0].lead]);
-    expect(d.reasons[0]).toBe('week 2 withheld: ROC area 0.55 < 0.6 — no demonstrated skill, treat as normal conditions');
+    expect(d.reasons[0]).toBe('week 2 withheld: week 2: fair Brier skill score 0.10, 90 % interval -0.05 to 0.25 does not lie above 0 (12 events in 20 years) — no demonstrated skill, treat as normal conditions');
     const noSkill = run([prob('r1', 'weeks', 2, 0.9, null)]).decisions[0];
     expect(noSkill.rawStageId).toBe('quiet');
     expect(noSkill.reasons[0]).toBe('week 2 withheld: no hindcast skill available — no demonstrated skill, treat as normal conditions');
-    const silent = run(probs, EMPTY_HISTORY, makeConfig({ skillGate: { score: 'rocArea', floor: 0.6, action: 'withhold' } })).decisions[0];
+    const silent = run(probs, EMPTY_HISTORY, makeConfig({ skillGate: { ...makeConfig().decision.skillGate, action: 'withhold' } })).decisions[0];
     expect(silent.withheldLeads).toEqual([]);
     expect(silent.rawStageId).toBe('mindful');
   });
 
-  it('skill gate on the Brier skill score uses the same rule as calibrate (BSS must exceed the floor: 0 is no gain over climatology)', () => {
-    const bssGate = makeConfig({ skillGate: { score: 'brierSkillScore', floor: 0, action: 'say-no-skill' } });
-    const atFloor = { ...prob('r1', 'weeks', 2, 0.9), skill: { brierScore: 0.2, brierSkillScore: 0, rocArea: 0.8, basis: 'observed' as const, cases: 20, skilful: false } };
-    const d = run([atFloor], EMPTY_HISTORY, bssGate).decisions[0];
+  it('a perfect-model ("potential") estimate never raises a stage, however high; too few events neither', () => {
+    const potential = { ...prob('r1', 'weeks', 2, 0.9), skill: skillSummary(0.5, { basis: 'potential' }) };
+    const d = run([potential]).decisions[0];
     expect(d.rawStageId).toBe('quiet');
-    expect(d.reasons[0]).toBe('week 2 withheld: Brier skill score 0 ≤ 0 — no demonstrated skill, treat as normal conditions');
-    const above = { ...atFloor, skill: { ...atFloor.skill, brierSkillScore: 0.05, skilful: true } };
-    expect(run([above], EMPTY_HISTORY, bssGate).decisions[0].rawStageId).toBe('brace');
+    expect(d.reasons[0]).toContain('perfect-model estimate only');
+    const few = { ...prob('r1', 'weeks', 2, 0.9), skill: skillSummary(0.5, { events: 3 }) };
+    expect(run([few]).decisions[0].rawStageId).toBe('quiet');
+    expect(run([{ ...few, skill: skillSummary(0.5, { events: 5 }) }]).decisions[0].rawStageId).toBe('brace');
   });
 
   it('caps the months tier at mindful', () => {

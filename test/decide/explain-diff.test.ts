@@ -14,7 +14,7 @@ describe('explainDecision', () => {
   });
 
   it('shows values, threshold, probability, base rate, skill, rule, persistence and stage', () => {
-    const probabilities = [prob('r1', 'weeks', 2, 0.64), prob('r1', 'weeks', 3, 0.3, 0.5)];
+    const probabilities = [prob('r1', 'weeks', 2, 0.64), prob('r1', 'weeks', 3, 0.3, -0.1)];
     const { decisions } = decideStages({ config, probabilities, history: EMPTY_HISTORY });
     const lines = explainDecision({
       config,
@@ -25,10 +25,10 @@ describe('explainDecision', () => {
     expect(lines).toEqual([
       'Region One · Heat · weeks',
       'threshold: 39 degC — absolute threshold from the configuration',
-      'week 2 (2026-12-02..2026-12-02): values min 36.1 / median 39.6 / max 42.25 degC; P(> threshold) = 0.64 from 10/10 members, base rate 0.1; skill ROC area 0.75, BSS 0.1 (observed, 20 cases)',
-      'week 3 (2026-12-03..2026-12-03): P(> threshold) = 0.3 from 10/10 members, base rate 0.1; skill ROC area 0.5, BSS 0.1 (observed, 20 cases) — below the skill floor',
+      'week 2 (2026-12-02..2026-12-02): values min 36.1 / median 39.6 / max 42.25 degC; P(> threshold) = 0.64 from 10/10 members, base rate 0.1; skill BSS 0.23, fair BSS 0.25, ROC area 0.8 (observed, 12 events in 20 years); gate week 2: fair Brier skill score 0.25, 90 % interval 0.10 to 0.40 above 0 (12 events in 20 years)',
+      'week 3 (2026-12-03..2026-12-03): P(> threshold) = 0.3 from 10/10 members, base rate 0.1; skill BSS 0.03, fair BSS 0.05, ROC area 0.8 (observed, 12 events in 20 years); gate week 3: fair Brier skill score 0.05, 90 % interval -0.10 to 0.20 does not lie above 0 (12 events in 20 years) — skill not demonstrated, cannot raise a stage',
       'persistence before this run: no previous run recorded (starts from the lowest stage)',
-      '· week 3 withheld: ROC area 0.5 < 0.6 — no demonstrated skill, treat as normal conditions',
+      '· week 3 withheld: week 3: fair Brier skill score 0.05, 90 % interval -0.10 to 0.20 does not lie above 0 (12 events in 20 years) — no demonstrated skill, treat as normal conditions',
       '· P(week 2) = 0.64 ≥ 0.4 (rule heat-weeks-mindful) → mindful',
       '· P(week 2) = 0.64 ≥ 0.6 (rule heat-weeks-brace) → brace',
       '· held at quiet: 1 of 2 runs needed to escalate',

@@ -1,6 +1,7 @@
 /** A small hand-made Config and LeadProbability factory for decide tests (no files involved). */
 import type { Config, DecisionConfig, TriggerRule } from '../../src/config/types.ts';
 import type { LeadProbability, SkillSummary, Tier } from '../../src/types.ts';
+import { skillSummary } from '../support/skill-summary.ts';
 
 const text = (en: string) => ({ en, fr: en });
 
@@ -47,7 +48,7 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
       holdMissingRuns: 2,
       topStageImmediate: true,
       combine: 'highest',
-      skillGate: { score: 'rocArea', floor: 0.6, action: 'say-no-skill' },
+      skillGate: { floor: 0, minEvents: 5, poolLeads: { days: 7, weeks: 1, months: 1 }, resamples: 1000, seed: 1, action: 'say-no-skill' },
       ...decision,
     },
     calibration: { windowDays: 15, minHindcastYears: 10, minMembers: 10, cacheDir: '/virtual/cache' },
@@ -68,10 +69,10 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
   };
 }
 
-export const skill = (rocArea: number): SkillSummary => ({ brierScore: 0.2, brierSkillScore: 0.1, rocArea, basis: 'observed', cases: 20, skilful: rocArea >= 0.6 });
+export const skill = (low: number): SkillSummary => skillSummary(low);
 
-/** One lead probability; skill defaults to ROC area 0.75 (skilful). */
-export function prob(region: string, tier: Tier, index: number, probability: number, rocArea: number | null = 0.75, indicator = 'heat'): LeadProbability {
+/** One lead probability; skill defaults to a fair-BSS interval whose lower end is 0.1 (skilful); ≤ 0 is not. */
+export function prob(region: string, tier: Tier, index: number, probability: number, skillLow: number | null = 0.1, indicator = 'heat'): LeadProbability {
   return {
     source: tier === 'days' ? 'short' : tier === 'weeks' ? 'subseasonal' : 'seasonal',
     region,
@@ -84,7 +85,7 @@ export function prob(region: string, tier: Tier, index: number, probability: num
     threshold: { value: 39, units: 'degC', origin: 'absolute threshold from the configuration' },
     operator: '>',
     flags: [],
-    skill: rocArea === null ? null : skill(rocArea),
+    skill: skillLow === null ? null : skillSummary(skillLow, { leads: `${tier.slice(0, -1)} ${index}` }),
     calibrated: true,
   };
 }

@@ -11,8 +11,8 @@ describe('decideStages with config/forelight.yaml', async () => {
 
   it('Heat Index P = 0.9 on day 2 in the lowlands issues act-now at once; malaria months wait for a second run', () => {
     const probabilities = [
-      prob('kessan-lowlands', 'days', 2, 0.9, 0.8, 'heat-index'),
-      prob('tulva-delta', 'months', 2, 0.95, 0.8, 'malaria-pf'),
+      prob('kessan-lowlands', 'days', 2, 0.9, 0.2, 'heat-index'),
+      prob('tulva-delta', 'months', 2, 0.95, 0.2, 'malaria-pf'),
     ];
     const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: new Map([[tunedKey('kessan-lowlands', 'heat-index-days-mindful'), 0.25]]), expectedTiers: new Set(config.sources.map((s) => s.tier)) });
     expect(decisions.filter((d) => !d.missing).map((d) => [d.region, d.indicator, d.tier, d.rawStageId, d.stageId])).toEqual([

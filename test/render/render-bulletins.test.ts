@@ -65,7 +65,8 @@ describe('renderBulletins on the sample run', () => {
 
   it('outlook strip: one row per hazard, days / weeks / months, glyph and chance; "not forecast" where a hazard has no range', () => {
     expect(plain('kessan-health')).toContain(' - Hot days (3-day average of daily highs): ◑ 70% / ◔ 44% / ○ 32%');
-    expect(plain('kessan-health')).toContain(' - Weather favouring malaria: not forecast / not forecast / ○ 44%');
+    // Its months are a perfect-model estimate only: never used to raise a stage, so no usable chance ('–', * = no proven skill).
+    expect(plain('kessan-health')).toContain(' - Weather favouring malaria: not forecast / not forecast / ○ –*');
   });
 
   it('short tables merge consecutive leads with the same stage; the full per-lead table is left to the archive', () => {
@@ -84,13 +85,13 @@ describe('renderBulletins on the sample run', () => {
       expect(body, team).not.toMatch(/\btiers?\b|hindcast|quantile|degC|percentile|Rothfusz|lead (day|week|month)|ROC/i);
       expect(note).toMatch(/90th percentile of the model's own climate \(hindcasts/);
     }
-    expect(plain('kessan-health')).toContain('Skill over 20 past cases: ROC area 0.68 to 0.88');
+    expect(plain('kessan-health')).toContain('Skill over 20 past years: fair Brier skill score 0.23 to 0.43; a lead raises a stage only when the lower end of the 90 % interval');
   });
 
   it('says plainly when a range has no demonstrated skill, and when skill is a model-only estimate', () => {
     const k = plain('kessan-health');
     expect(k).toContain('15 – 28 Dec: ○ Quiet, 16–24% (normal year 10%), no proven skill at this range: treat as normal');
-    expect(plain('tulva-health')).toContain('Estimation tirée du seul modèle de prévision ; la fiabilité réelle est souvent plus faible.');
+    expect(k).toContain('(potential skill: model against itself, no observations, never used to raise a stage)');
     expect(plain('tulva-health')).toContain('fiabilité non démontrée à cette échéance : considérer comme normal');
   });
 

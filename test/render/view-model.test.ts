@@ -2,7 +2,9 @@
 import { describe, expect, it } from 'vitest';
 import { ForelightError } from '../../src/core/errors.ts';
 import { MAX_SUBJECT_CHARS, capHeaderText, escapeXml, toHeaderText, toXmlChars } from '../../src/render/safe-text.ts';
-import { formatThreshold, inkFor, probabilityWord, toStageView } from '../../src/render/view-model.ts';
+import { formatThreshold, inkFor, probabilityWord, sureLevel, sureSentence, toStageView } from '../../src/render/view-model.ts';
+import { loadCatalogue } from '../../src/render/catalogue.ts';
+import { skillSummary } from '../support/skill-summary.ts';
 import { sampleConfig, sampleStages } from './fixtures/sample-config.ts';
 
 describe('probabilityWord (config.probabilityWords, first band with p < below)', () => {
@@ -51,5 +53,25 @@ describe('escaping', () => {
   it('thresholds print with the unit symbol', () => {
     expect(formatThreshold('en', 39, 'degC')).toBe('39\u00a0°C');
     expect(formatThreshold('fr', 0.5, '1')).toBe('0,5');
+  });
+});
+
+describe('how sure: wording from the skill gate figures only', () => {
+  const t = loadCatalogue().forLocale('en');
+  const lead = (s: ReturnType<typeof skillSummary>) => {
+    const level = sureLevel(s);
+    const pooled = s.basis === 'observed';
+    return { sure: level, potential: !pooled, years: pooled ? s.gate.years : s.years, events: pooled ? s.gate.events : s.events, score: '0.25', low: pooled ? '0.10' : '', high: pooled ? '0.40' : '' };
+  };
+  it('a passed gate says "better than a normal-year guess" with the years, interval and events', () => {
+    expect(sureLevel(skillSummary(0.1))).toBe('medium'); // pooled fair BSS 0.25
+    expect(sureSentence(t, lead(skillSummary(0.1)))).toBe('Moderately sure: at this range, past forecasts did better than a normal-year guess over 20 past years (skill score 0.25, 90 % range 0.10 to 0.40; 12 events).');
+  });
+  it('an interval reaching 0, too few events, or a perfect-model estimate never claims skill', () => {
+    expect(sureSentence(t, lead(skillSummary(-0.05)))).toMatch(/^Not sure at all: at this range, past forecasts were not shown to do better/);
+    expect(sureSentence(t, lead(skillSummary(0.3, { events: 3 })))).toBe('Not sure at all: too few past events to judge this range (3 in 20 past years). Treat as normal conditions.');
+    const potential = sureSentence(t, lead(skillSummary(0.5, { basis: 'potential' })));
+    expect(potential).toMatch(/^Not sure at all: .* it cannot raise the stage\.$/);
+    expect(potential).not.toMatch(/did better|Fairly|Moderately/);
   });
 });
