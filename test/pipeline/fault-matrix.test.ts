@@ -201,7 +201,7 @@ describe('a region without grid cells', () => {
         regions: [...c.regions, { id: 'far-isle', name: 'Far Isle', shape: { kind: 'box', south: 60, north: 61, west: 100, east: 101 }, utcOffsetHours: 1, teams: [c.teams.find((t) => t.national)?.id ?? c.teams[0].id] }],
       }),
     });
-    expect(s.outcome.exitCode).toBe(EXIT.inputProblem);
+    expect(s.outcome.exitCode, s.outcome.summary).toBe(EXIT.inputProblem);
     expect(s.stages.get('far-isle')).toBe(NO_FORECAST_ID);
     for (const region of base.regions) expect(s.stages.get(region.id)).toBe(clean.stages.get(region.id));
     expect(s.texts.some((t) => /FAR ISLE: ⊘ No forecast available/.test(t))).toBe(true);
