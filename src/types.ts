@@ -164,8 +164,19 @@ export interface StageDecision {
   readonly lead: LeadProbability | null;
   /** Leads withheld by the skill gate. */
   readonly withheldLeads: readonly LeadWindow[];
+  /**
+   * Per usable lead of the rules, the highest stage its probability reaches by the rules alone (before the tier cap
+   * and persistence); leads that no rule looks at, or the skill gate withheld, are absent. Lets the bulletin say why
+   * a high chance did not raise the stage.
+   */
+  readonly leadStages?: readonly { readonly index: number; readonly stageId: string }[];
   /** Human-readable chain of reasons, in order. */
   readonly reasons: readonly string[];
+  /**
+   * Set when this region × indicator × tier had no usable data this run: why, how many runs in a row, and whether
+   * the last issued stage is held (`stageId` is then that stage) or the hold expired (`stageId` is "no-forecast").
+   */
+  readonly missing?: { readonly reason: string; readonly runs: number; readonly held: boolean };
 }
 
 /** A rendered bulletin for one audience (a team or the national office). */

@@ -10,6 +10,8 @@ import { unwrapRing } from './boundaries/geometry.ts';
 import { entryDefaults } from './boundaries/region-sets.ts';
 import { DEFAULT_LOOKBACK_DAYS, type Config, type DecisionConfig, type IndicatorConfig, type IndicatorKind, type RegionConfig, type RegionShape, type SmtpConfig, type StageConfig, type ThresholdSpec, type TriggerRule } from './types.ts';
 
+/** Runs a missing tier's last stage is held by default (escalation.hold-missing-runs). */
+export const DEFAULT_HOLD_MISSING_RUNS = 2;
 /** Debian's Chromium (package `chromium`), used for PDFs when `delivery.pdf-chromium` is not given. */
 export const DEFAULT_CHROMIUM = '/usr/bin/chromium';
 
@@ -25,7 +27,7 @@ interface RawTree {
   indicators: { id: string; name: string; kind: IndicatorKind; 'window-days'?: number; threshold: RawThreshold; 'region-thresholds'?: Record<string, RawThreshold>; aggregate: 'mean' | 'max' | 'sum'; tiers: Tier[]; params?: Record<string, number | string | boolean> }[];
   'stage-ladder': { id: string; label: Texts; glyph: string; colour: string; meaning: Texts; actions: Record<string, Texts>; cap: StageConfig['cap'] }[];
   'trigger-rules': { id: string; indicator: string; tier: Tier; leads?: number[]; stage: string; probability?: number; 'cost-loss'?: number }[];
-  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { floor?: number; 'min-events'?: number; 'pool-leads'?: Partial<Record<Tier, number>>; resamples?: number; seed?: number; action: 'withhold' | 'say-no-skill' } };
+  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'hold-missing-runs'?: number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { floor?: number; 'min-events'?: number; 'pool-leads'?: Partial<Record<Tier, number>>; resamples?: number; seed?: number; action: 'withhold' | 'say-no-skill' } };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
   delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number; 'pdf-chromium'?: string | null };
@@ -137,6 +139,7 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
       tierCaps: e['tier-caps'],
       escalateAfterRuns: e['escalate-after-runs'],
       relaxAfterRuns: e['relax-after-runs'],
+      holdMissingRuns: e['hold-missing-runs'] ?? DEFAULT_HOLD_MISSING_RUNS,
       topStageImmediate: e['top-stage-immediate'],
       combine: e.combine,
       skillGate: skillGate(e['skill-gate']),

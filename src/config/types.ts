@@ -155,6 +155,11 @@ export interface DecisionConfig {
   readonly escalateAfterRuns: number;
   /** Runs in a row below before de-escalating. */
   readonly relaxAfterRuns: number;
+  /**
+   * Runs in a row a region × indicator × tier without usable data keeps its last issued stage (its contribution is
+   * held, never relaxed, while data is missing); after that it shows "no forecast available".
+   */
+  readonly holdMissingRuns: number;
   /** Top stage escalates at once, skipping persistence. */
   readonly topStageImmediate: boolean;
   /** How indicators and tiers combine for a region: the highest stage wins, or a matrix (see CombineMatrix). */

@@ -60,9 +60,11 @@ export function backtestRules(config: DecideConfig, casesByStartDate: readonly B
   let history: StageHistory = EMPTY_HISTORY;
   const ordered = [...casesByStartDate].sort((a, b) => a.startDate.localeCompare(b.startDate));
   for (const c of ordered) {
-    const result = decideStages({ config, probabilities: c.probabilities, history, thresholdsFromCostLoss: options.thresholdsFromCostLoss, skillGate: options.skillGate ?? 'ignore' });
+    // A hindcast case carries the tiers it was made for; a region it does not cover is no case.
+    const expectedTiers = new Set(c.probabilities.map((p) => p.lead.tier));
+    const result = decideStages({ config, probabilities: c.probabilities, history, thresholdsFromCostLoss: options.thresholdsFromCostLoss, skillGate: options.skillGate ?? 'ignore', expectedTiers });
     history = result.nextHistory;
-    for (const d of result.decisions) {
+    for (const d of result.decisions.filter((x) => !x.missing)) {
       const key = trackKey(d.region, d.indicator, d.tier);
       let row = rows.get(key);
       if (!row) {

@@ -1,13 +1,15 @@
 /**
  * The decide stage (pure): for each region × indicator × tier, raw stage from the rules, then persistence
- * against the history; then each region's stage = the highest of its decisions. A region × indicator ×
- * tier without any probability this run gets no decision and keeps its history track unchanged.
+ * against the history; then each region's stage = the highest of its decisions. A region × indicator × tier whose
+ * tier has a source but no usable probability this run is never relaxed because data vanished: its last issued
+ * stage is held for `holdMissingRuns` runs in a row (counted in its track, whose persistence counters are kept),
+ * then, or without an earlier stage, it is "no forecast available" (NO_FORECAST_ID), which is never a ladder stage.
  */
-import type { LeadProbability, StageDecision } from '../types.ts';
+import type { LeadProbability, StageDecision, Tier } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
 import { applyPersistence } from './persistence.ts';
 import { trackKey, type TrackKey, type TunedKey } from '../core/keys.ts';
-import { TIER_ORDER, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+import { NO_FORECAST_ID, TIER_ORDER, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
 
 export interface DecideInput {
   readonly config: DecideConfig;
@@ -17,6 +19,10 @@ export interface DecideInput {
   readonly thresholdsFromCostLoss?: ReadonlyMap<TunedKey, number>;
   /** "ignore" only for backtests on the hindcasts the skill was measured on (default "apply"). */
   readonly skillGate?: 'apply' | 'ignore';
+  /** trackKey → why that region × indicator × tier has no usable data (files late or damaged, no grid cells...). */
+  readonly unavailable?: ReadonlyMap<string, string>;
+  /** Tiers a source was configured for; only these are expected to have data (default none: no missing-data handling). */
+  readonly expectedTiers?: ReadonlySet<Tier>;
 }
 
 export interface DecideResult {
@@ -36,6 +42,7 @@ export function decideStages(input: DecideInput): DecideResult {
     else byKey.set(key, [p]);
   }
 
+  const expected = input.expectedTiers ?? new Set<Tier>();
   const decisions: StageDecision[] = [];
   const tracks: Record<string, StageTrack> = { ...history.tracks };
   for (const region of config.regions) {
@@ -44,7 +51,13 @@ export function decideStages(input: DecideInput): DecideResult {
         if (!indicator.tiers.includes(tier)) continue;
         const key = trackKey(region.id, indicator.id, tier);
         const probs = byKey.get(key);
-        if (!probs) continue;
+        if (!probs) {
+          if (!expected.has(tier)) continue;
+          const held = holdMissing(config, history.tracks[key], input.unavailable?.get(key) ?? 'no usable forecast values this run');
+          if (held.track) tracks[key] = held.track;
+          decisions.push({ region: region.id, indicator: indicator.id, tier, ...held.decision });
+          continue;
+        }
         const raw = evaluateRules(config, { region: region.id, indicator: indicator.id, tier, probabilities: probs, tuned, skillGate: input.skillGate ?? 'apply' });
         const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
         tracks[key] = kept.track;
@@ -57,6 +70,7 @@ export function decideStages(input: DecideInput): DecideResult {
           ruleId: raw.ruleId,
           lead: raw.lead,
           withheldLeads: raw.withheldLeads,
+          leadStages: raw.leadStages,
           reasons: [...raw.reasons, ...kept.reasons, `issued: ${kept.stageId}`],
         });
       }
@@ -65,10 +79,27 @@ export function decideStages(input: DecideInput): DecideResult {
   return { decisions, regionStages: combineRegionStages(config, decisions), nextHistory: { version: 1, tracks } };
 }
 
+/** The decision of a region × indicator × tier without data: its last stage held, or "no forecast available". */
+function holdMissing(config: DecideConfig, previous: StageTrack | undefined, reason: string): { decision: Omit<StageDecision, 'region' | 'indicator' | 'tier'>; track: StageTrack | null } {
+  const hold = config.decision.holdMissingRuns;
+  const runs = (previous?.missingRuns ?? 0) + 1;
+  const onLadder = previous !== undefined && stageRank(config.stages, previous.stageId) >= 0;
+  const held = onLadder && runs <= hold;
+  const stageId = held ? previous.stageId : NO_FORECAST_ID;
+  const why = held
+    ? `held at ${previous.stageId}: run ${runs} of ${hold} without usable data (never relaxed because data vanished)`
+    : onLadder ? `hold of ${hold} run${hold === 1 ? '' : 's'} without data expired → no forecast available` : 'no earlier stage to hold → no forecast available';
+  return {
+    decision: { stageId, rawStageId: stageId, ruleId: null, lead: null, withheldLeads: [], reasons: [`no usable data: ${reason}`, why, `issued: ${stageId}`], missing: { reason, runs, held } },
+    track: previous ? { ...previous, missingRuns: runs } : null,
+  };
+}
+
 /**
  * The region's stage from its decisions: the highest wins, or with a matrix (DecisionConfig.combine) the table
  * entry for the highest stage of the row indicators and of the column indicators — never below the stage of an
  * indicator on neither axis. On a tie the first decision in config order (indicator, then tier) is named.
+ * "No forecast available" decisions take no part; a region with no other decision is "no forecast available".
  */
 export function combineRegionStages(config: DecideConfig, decisions: readonly StageDecision[]): RegionStage[] {
   const rank = (id: string) => stageRank(config.stages, id);
@@ -77,7 +108,8 @@ export function combineRegionStages(config: DecideConfig, decisions: readonly St
   const named = (d: StageDecision | null) => (d ? { region: d.region, indicator: d.indicator, tier: d.tier } : null);
   const combine = config.decision.combine;
   return config.regions.map((region) => {
-    const own = decisions.filter((d) => d.region === region.id);
+    const own = decisions.filter((d) => d.region === region.id && d.stageId !== NO_FORECAST_ID);
+    if (own.length === 0) return { region: region.id, stageId: NO_FORECAST_ID, fromDecision: null };
     if (combine === 'highest') {
       const best = highest(own);
       return { region: region.id, stageId: best?.stageId ?? config.stages[0].id, fromDecision: named(best) };

@@ -15,6 +15,8 @@ export interface RawStage {
   readonly ruleId: string | null;
   readonly lead: LeadProbability | null;
   readonly withheldLeads: readonly LeadWindow[];
+  /** See StageDecision.leadStages. */
+  readonly leadStages: readonly { readonly index: number; readonly stageId: string }[];
   readonly reasons: readonly string[];
 }
 
@@ -63,6 +65,7 @@ export function evaluateRules(config: RulesConfig, track: RuleTrack): RawStage {
   const { usable, withheld } = skillGate === 'apply' ? applySkillGate(config, probs, reasons) : { usable: probs, withheld: [] };
 
   let best: { rank: number; ruleId: string; lead: LeadProbability } | null = null;
+  const perLead = new Map<number, number>(); // lead index → highest rank its probability reaches by the rules
   for (const rule of config.rules) {
     if (rule.indicator !== indicator || rule.tier !== tier) continue;
     const threshold = rule.probability ?? tuned.get(tunedKey(region, rule.id));
@@ -72,6 +75,10 @@ export function evaluateRules(config: RulesConfig, track: RuleTrack): RawStage {
     }
     const origin = rule.probability === undefined ? `, tuned for cost/loss ${rule.costLoss}` : '';
     const leads = usable.filter((p) => rule.leads.length === 0 || rule.leads.includes(p.lead.index));
+    for (const p of leads) {
+      const reached = p.probability >= threshold - P_TOLERANCE ? rank(rule.stage) : 0;
+      perLead.set(p.lead.index, Math.max(perLead.get(p.lead.index) ?? 0, reached));
+    }
     if (leads.length === 0) {
       reasons.push(`rule ${rule.id}: no usable lead among ${rule.leads.length === 0 ? 'all leads' : rule.leads.map((l) => leadName(tier, l)).join(', ')}`);
       continue;
@@ -89,9 +96,10 @@ export function evaluateRules(config: RulesConfig, track: RuleTrack): RawStage {
   }
 
   const lowest = config.stages[0].id;
+  const leadStages = [...perLead].sort((a, b) => a[0] - b[0]).map(([index, r]) => ({ index, stageId: config.stages[r].id }));
   if (!best) {
     reasons.push(`no rule fired → ${lowest}`);
-    return { rawStageId: lowest, ruleId: null, lead: null, withheldLeads: withheld, reasons };
+    return { rawStageId: lowest, ruleId: null, lead: null, withheldLeads: withheld, leadStages, reasons };
   }
   let rawStageId = config.stages[best.rank].id;
   const cap = config.decision.tierCaps[tier];
@@ -99,5 +107,5 @@ export function evaluateRules(config: RulesConfig, track: RuleTrack): RawStage {
     reasons.push(`capped at ${cap} for tier ${tier} (rule ${best.ruleId} gives ${rawStageId})`);
     rawStageId = cap;
   }
-  return { rawStageId, ruleId: best.ruleId, lead: best.lead, withheldLeads: withheld, reasons };
+  return { rawStageId, ruleId: best.ruleId, lead: best.lead, withheldLeads: withheld, leadStages, reasons };
 }

@@ -10,7 +10,7 @@ function isTrack(v: unknown): v is StageTrack {
   const t = v as Record<string, unknown>;
   const count = (x: unknown) => Number.isInteger(x) && (x as number) >= 0;
   const idOrNull = (x: unknown) => x === null || typeof x === 'string';
-  return typeof t.stageId === 'string' && count(t.runsAbove) && count(t.runsBelow) && idOrNull(t.lowestAboveId) && idOrNull(t.highestBelowId);
+  return typeof t.stageId === 'string' && count(t.runsAbove) && count(t.runsBelow) && idOrNull(t.lowestAboveId) && idOrNull(t.highestBelowId) && (t.missingRuns === undefined || count(t.missingRuns));
 }
 
 /** null (no earlier run) → empty history; anything not shaped like StageHistory version 1 → ForelightError. */

@@ -21,7 +21,16 @@ export interface StageTrack {
   readonly runsBelow: number;
   /** Highest raw stage seen in those runs (the stage relaxed to), null when runsBelow = 0. */
   readonly highestBelowId: string | null;
+  /** Consecutive runs without usable data (absent = 0); the other counters are left as they were. */
+  readonly missingRuns?: number;
 }
+
+/**
+ * Stage id of the "no forecast available" state: a region × indicator × tier (or a whole region) without usable
+ * data once its hold has expired, or with no earlier stage to hold. It is on no ladder and never counts as the
+ * lowest stage; renderers show it with its own label, glyph and grey.
+ */
+export const NO_FORECAST_ID = 'no-forecast';
 
 /**
  * The parts of the configuration the decide stage reads: which regions and indicators exist, the stage ladder,

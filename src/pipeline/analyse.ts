@@ -77,7 +77,7 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now(); // elapsed times for the log, not the run's clock
-  const read = await readAll(config, inputs, extract);
+  const read = await readAll(config, issueDate, inputs, extract);
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
   const checksums = await openChecksumMemo(config.calibration.cacheDir);
@@ -88,7 +88,7 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   const sources: SourceOutcome[] = [];
   for (const s of read.sources) {
     const t0 = Date.now();
-    const input = inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
+    const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
     const outcome = await calibrateSource(ctx, s, input, fileProblems);
     log.info('calibrated source', { stage: 'calibrate', source: s.source.id, ms: Date.now() - t0, fromCache: outcome.fromCache, probabilities: outcome.probabilities.length });
     sources.push(outcome);
@@ -104,7 +104,7 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await saveChecksums(checksums, log);
   const timeNotes = read.sources.flatMap((s) => s.notes);
-  return { issueDate, inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
+  return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
 }
 
 /** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */

@@ -6,7 +6,7 @@ import type { Diagnostic } from '../core/diagnostics.ts';
 import type { Config, StageConfig } from '../config/types.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { combineRegionStages } from '../decide/decide-stages.ts';
-import { stageRank, type RegionStage } from '../decide/types.ts';
+import { NO_FORECAST_ID, stageRank, type RegionStage } from '../decide/types.ts';
 import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
 import { computeNextRuns } from '../core/next-runs.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
@@ -54,15 +54,16 @@ export function highestStageId(config: Config, ids: readonly string[]): string {
   return ids.reduce((best, id) => (rank(id) > rank(best) ? id : best), config.stages[0].id);
 }
 
-function stageById(config: Config, id: string): StageConfig {
-  return config.stages.find((s) => s.id === id) ?? config.stages[0];
+/** The ladder stage of an id; null for "no forecast available" (never the lowest stage in disguise). */
+function stageById(config: Config, id: string): StageConfig | null {
+  return config.stages.find((s) => s.id === id) ?? null;
 }
 
 export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
   const { config } = input;
   const previousStage = new Map(input.previous.map((p) => [p.region, p.stageId]));
   const regions: RegionOutcome[] = config.regions.map((region) => {
-    const stageId = input.regionStages.find((r) => r.region === region.id)?.stageId ?? config.stages[0].id;
+    const stageId = input.regionStages.find((r) => r.region === region.id)?.stageId ?? NO_FORECAST_ID;
     const perTier: TierOutcome[] = input.decisions
       .filter((d) => d.region === region.id)
       .map((decision) => {

@@ -2,6 +2,7 @@
  * Analysis + decision against the ledger's history WITHOUT writing anything: what `diff`, `explain` and
  * `run --dry-run` show is exactly what a run on the same inputs would issue.
  */
+import { missingData } from './missing-data.ts';
 import type { Config } from '../config/types.ts';
 import { decideStages, type DecideResult } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
@@ -51,6 +52,6 @@ export async function decideNow(config: Config, run: RunContext, options: Pick<A
   }
   const history = parseStageHistory(historyJson);
   const analysis = await analyse(config, run, options);
-  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis) });
+  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), ...missingData(config, analysis) });
   return { analysis, decided, history, previous };
 }

@@ -6,7 +6,9 @@ import { readdirSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import type { Config, SourceConfig } from '../config/types.ts';
 import { startsWithinWindow } from '../calibrate/climate.ts';
-import { resolveLatestInputs } from '../schedule/input-arrival.ts';
+import { existsSync } from 'node:fs';
+import { addDays } from '../core/iso-dates.ts';
+import { forecastPath } from '../schedule/input-arrival.ts';
 import type { IsoDate } from '../types.ts';
 
 export interface HindcastFile {
@@ -26,6 +28,35 @@ export interface SourceInputs {
   /** True when the forecast used is older than the issue date. */
   readonly stale: boolean;
   readonly hindcasts: readonly HindcastFile[];
+  /**
+   * Every path of the source within the look-back that exists (file, empty file or folder), newest first: the read
+   * stage uses the first usable one, so a damaged newest file counts as late (src/pipeline/usable-forecast.ts).
+   */
+  readonly candidates: readonly ForecastCandidate[];
+}
+
+export interface ForecastCandidate {
+  readonly date: IsoDate;
+  readonly path: string;
+}
+
+/** Paths of a source's forecasts on or before `issueDate` within the source's look-back that exist at all, newest first. */
+export function forecastCandidates(pattern: string, issueDate: IsoDate, lookbackDays: number): ForecastCandidate[] {
+  const out: ForecastCandidate[] = [];
+  for (let back = 0; back <= lookbackDays; back++) {
+    const date = addDays(issueDate, -back);
+    const path = forecastPath(pattern, date);
+    if (existsSync(path)) out.push({ date, path });
+  }
+  return out;
+}
+
+/** The hindcast starts of a source that calibrate a forecast of `forecastDate` (within ±windowDays, before it). */
+export function hindcastsFor(config: Config, source: SourceConfig, forecastDate: IsoDate): HindcastFile[] {
+  const all = source.hindcast ? listHindcasts(source.hindcast) : [];
+  const keep = new Set(startsWithinWindow(forecastDate, all.map((h) => h.start), config.calibration.windowDays));
+  // A hindcast is a past start: one at or after the forecast date would be the forecast itself.
+  return all.filter((h) => keep.has(h.start) && h.start < forecastDate);
 }
 
 function escapeRegExp(s: string): string {
@@ -56,15 +87,14 @@ export function listHindcasts(pattern: string): HindcastFile[] {
   return out.sort((a, b) => a.start.localeCompare(b.start));
 }
 
-/** Forecast and hindcast files of every source for an issue date. */
+/** Forecast and hindcast files of every source for an issue date (the newest existing forecast; see `candidates`). */
 export function resolveInputs(config: Config, issueDate: IsoDate): SourceInputs[] {
   return config.sources.map((source) => {
-    const latest = resolveLatestInputs(source.forecast, issueDate, source.lookbackDays);
-    const all = source.hindcast ? listHindcasts(source.hindcast) : [];
-    const forecastDate = latest.date ?? issueDate;
-    const keep = new Set(startsWithinWindow(forecastDate, all.map((h) => h.start), config.calibration.windowDays));
-    // A hindcast is a past start: one at or after the forecast date would be the forecast itself.
-    const hindcasts = all.filter((h) => keep.has(h.start) && h.start < forecastDate);
-    return { source, issueDate, date: latest.date, path: latest.path, stale: latest.stale, hindcasts };
+    const candidates = forecastCandidates(source.forecast, issueDate, source.lookbackDays);
+    const newest = candidates[0] ?? null;
+    return {
+      source, issueDate, date: newest?.date ?? null, path: newest?.path ?? null, stale: newest === null || newest.date !== issueDate,
+      hindcasts: hindcastsFor(config, source, newest?.date ?? issueDate), candidates,
+    };
   });
 }

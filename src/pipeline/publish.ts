@@ -23,7 +23,7 @@ const isEntry = jsonShape<ArchiveEntry>({
   properties: {
     runId: TEXT, issuedAt: TEXT, issuedDay: TEXT, locale: TEXT, title: TEXT, bodyHtml: TEXT, json: TEXT,
     regions: { type: 'array', items: { type: 'object', required: ['id', 'name', 'stageId', 'rank', 'label', 'glyph', 'colour', 'ink'], properties: {
-      id: TEXT, name: TEXT, stageId: TEXT, rank: { type: 'integer', minimum: 0 }, label: TEXT, glyph: TEXT, colour: TEXT, ink: TEXT, hazard: TEXT, dates: TEXT,
+      id: TEXT, name: TEXT, stageId: TEXT, rank: { type: 'integer', minimum: -1 }, label: TEXT, glyph: TEXT, colour: TEXT, ink: TEXT, hazard: TEXT, dates: TEXT,
     } } },
     charts: FILES(['filename', 'svg']), capAlerts: FILES(['filename', 'xml']), pdfs: FILES(['filename', 'team', 'base64']), ladder: FILES(['glyph', 'label']),
   },

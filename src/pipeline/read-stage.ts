@@ -9,6 +9,7 @@ import type { Quantity, RegionSeries } from '../types.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
+import { readUsableForecast } from './usable-forecast.ts';
 
 /** region id → quantity → series. */
 export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
@@ -33,6 +34,8 @@ export interface SourceRead {
 
 export interface ReadResult {
   readonly sources: readonly SourceRead[];
+  /** Per source, the inputs of the forecast used (an older one when newer ones were unusable) or, without one, as resolved. */
+  readonly inputs: readonly SourceInputs[];
   readonly observed: RegionQuantities | null;
   /** Every file, variable or region that could not be read, as one-line messages. */
   readonly problems: readonly ForelightError[];
@@ -49,7 +52,7 @@ function group(series: readonly RegionSeries[]): RegionQuantities {
 }
 
 /** What one file read needs besides its path: the forecast date (or hindcast start) and the source's tier. */
-interface FileRequest {
+export interface FileRequest {
   readonly referenceTime?: string;
   readonly tier?: SourceConfig['tier'];
   /** Receives how the file's times were read (model calendar, monthly values). */
@@ -58,7 +61,7 @@ interface FileRequest {
   readonly weightsCacheDir?: string;
 }
 
-async function readFile(
+export async function readFile(
   extract: Extractor, path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
@@ -135,21 +138,27 @@ function forecastMissing(input: SourceInputs): InputError {
  * Reads every source's forecast and the observations, collecting problems instead of stopping. Hindcasts are read
  * later, per source, only when the model-climate cache misses (`readHindcasts`).
  */
-export async function readAll(config: Config, inputs: readonly SourceInputs[], extract: Extractor = extractRegionSeries): Promise<ReadResult> {
+export async function readAll(config: Config, issueDate: string, inputs: readonly SourceInputs[], extract: Extractor = extractRegionSeries): Promise<ReadResult> {
   const problems: ForelightError[] = [];
   const sources: SourceRead[] = [];
+  const used: SourceInputs[] = [];
   for (const input of inputs) {
-    if (!input.path || !input.date) {
+    if (input.candidates.length === 0) {
       problems.push(forecastMissing(input));
+      used.push(input);
       continue;
     }
-    const notes: string[] = [];
-    const series = await readFile(extract, input.path, input.source.variables, config.regions, { referenceTime: input.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir }, problems);
-    if (!series) continue;
-    sources.push({ source: input.source, date: input.date, path: input.path, stale: input.stale, referenceTime: `${input.date}T00:00:00Z`, series, notes });
+    const usable = await readUsableForecast(config, issueDate, input, problems, extract);
+    if (!usable) {
+      problems.push(forecastMissing(input));
+      used.push({ ...input, date: null, path: null, stale: true });
+      continue;
+    }
+    sources.push(usable.read);
+    used.push(usable.input);
   }
   const observed = config.observations
     ? await readFile(extract, config.observations.path, config.observations.variables, config.regions, { weightsCacheDir: config.calibration.cacheDir }, problems)
     : null;
-  return { sources, observed, problems };
+  return { sources, inputs: used, observed, problems };
 }

@@ -30,6 +30,7 @@ import { analyse, saveChecksums, type Analysis } from './analyse.ts';
 import { buildBulletinRun, highestStageId, issuedRegionStages } from './bulletin-run.ts';
 import { tunedThresholds } from './decide-now.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
+import { missingData } from './missing-data.ts';
 import { publishArchive } from './publish.ts';
 
 export interface RunOptions {
@@ -48,6 +49,8 @@ export interface RunOutcome {
   readonly exitCode: ExitCode;
   readonly summary: string;
   readonly runId: number | null;
+  /** Every input problem of the run, one line each (file, variable, region, reason and fix), for the terminal. */
+  readonly problems?: readonly string[];
 }
 
 /** The forecasts a run would issue, e.g. "short 2026-11-30, subseasonal 2026-11-30, seasonal 2026-11-26". */
@@ -85,10 +88,9 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 }
 
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
-async function prepare(ledger: Ledger, options: RunOptions, runId: number, inputs: readonly SourceInputs[]): Promise<{ bulletins: number; archive: ArchiveEntry }> {
+async function prepare(ledger: Ledger, options: RunOptions, runId: number, analysis: Analysis): Promise<{ bulletins: number; archive: ArchiveEntry }> {
   const { config, run: context } = options;
   const { issueDate, log } = context;
-  const analysis = await analyse(config, context, { inputs, extract: options.extract }); // the files the run key names
   recordDiagnostics(ledger, runId, analysis.problems);
   if (analysis.read.sources.length === 0) {
     const text = `No forecast of any source could be read for ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
@@ -97,7 +99,7 @@ async function prepare(ledger: Ledger, options: RunOptions, runId: number, input
   }
   await recordInputFiles(ledger, runId, analysis, config, log);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
-  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis) });
+  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), ...missingData(config, analysis) });
   recordProbabilities(ledger, runId, analysis.probabilities);
   recordDecisions(ledger, runId, decided.decisions);
   saveStageHistory(ledger, runId, JSON.stringify(decided.nextHistory));
@@ -141,28 +143,31 @@ function sweepOutputs(config: Config, log: Logger): void {
 export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   const { config } = options;
   const { issueDate, log } = options.run;
-  const inputs = resolveInputs(config, issueDate);
-  if (inputs.every((i) => i.path === null)) {
+  const resolved = resolveInputs(config, issueDate);
+  if (resolved.every((i) => i.candidates.length === 0)) {
     const text = `No forecast file of any source was found on or before ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
     await sendOperatorNotice(config.delivery, `no forecast data for ${issueDate}`, text, { log });
     return { exitCode: EXIT.nothingNew, summary: text, runId: null };
   }
-  const key = forecastKey(inputs);
   sweepOutputs(config, log);
+  // Unusable is the same as late: the run's key names the forecasts actually used (older ones when newer were unusable).
+  const analysis = await analyse(config, options.run, { inputs: resolved, extract: options.extract });
+  const key = forecastKey(analysis.inputs);
   const ledger = openConfiguredLedger(config, { now: options.run.now });
   try {
     const begun = beginRun(ledger, key, { force: options.force });
     if (begun.kind === 'already-issued') {
       const text = `The newest forecasts (${key}) were already issued in run ${begun.run.id}; nothing new was sent. Use --force to issue them again.`;
-      await sendOperatorNotice(config.delivery, `nothing new for ${issueDate}`, text, { log });
-      return { exitCode: EXIT.nothingNew, summary: text, runId: begun.run.id };
+      await sendOperatorNotice(config.delivery, `nothing new for ${issueDate}`, text, { log, diagnostics: analysis.problems });
+      // A damaged newer file is an input problem even when the older forecast used was already issued.
+      return { exitCode: analysis.problems.length > 0 ? EXIT.inputProblem : EXIT.nothingNew, summary: text, runId: begun.run.id, problems: analysis.problems.map(formatDiagnostic) };
     }
     const runId = begun.run.id;
     const rlog = log.child({ runId });
     let archive: ArchiveEntry | null = null;
     try {
       if (begun.kind === 'resumed' && hasBulletins(ledger, runId)) rlog.warn('resuming an interrupted run: sending what was not yet sent');
-      else ({ archive } = await prepare(ledger, { ...options, run: { ...options.run, runId, log: rlog } }, runId, inputs));
+      else ({ archive } = await prepare(ledger, { ...options, run: { ...options.run, runId, log: rlog } }, runId, analysis));
     } catch (err) {
       const fault = ledgerWriteFault(config.ledger, err);
       try {
@@ -186,8 +191,12 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)` +
       (outputProblems.length > 0 ? `; ${outputProblems.length} output problem(s): ${outputProblems.join(' | ')}` : '');
     rlog.info(summary, { stage: 'deliver' });
+    if (problems.length > 0) {
+      await sendOperatorNotice(config.delivery, `input problems in the run of ${issueDate}`,
+        `Run ${runId} (${key}) was issued with these input problems; the bulletins say what is missing or which older forecast they are based on.`, { log: rlog, env: options.deliver?.env, diagnostics: problems });
+    }
     const exitCode = deliveryCode !== EXIT.ok ? deliveryCode : outputCode !== EXIT.ok ? outputCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
-    return { exitCode, summary, runId };
+    return { exitCode, summary, runId, problems: problems.map(formatDiagnostic) };
   } finally {
     ledger.close();
   }

@@ -14,7 +14,9 @@ const TOP = 12;
 
 /** SVG of the timeline; `ladder` lowest first. Dates are shown for the first, the last and at most every fourth point. */
 export function renderTimelineSvg(points: readonly TimelinePoint[], ladder: readonly { glyph: string; label: string }[], title: string): string {
-  const height = TOP + ladder.length * ROW + 34;
+  // A run with no forecast for the region (rank -1, below every stage) gets its own row under the ladder.
+  const rows = ladder.length + (points.some((p) => p.rank < 0) ? 1 : 0);
+  const height = TOP + rows * ROW + 34;
   const y = (rank: number): number => TOP + (ladder.length - 1 - rank) * ROW + ROW / 2;
   const span = TIMELINE_WIDTH - LEFT - RIGHT;
   const x = (i: number): number => (points.length <= 1 ? LEFT + span / 2 : LEFT + (span * i) / (points.length - 1));

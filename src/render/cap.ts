@@ -24,6 +24,7 @@ import type { TemplateEnv } from './template-env.ts';
 import { countryName } from './bulletin-context.ts';
 import { buildRegionView, type RegionView } from './region-view.ts';
 import { stageIndex, sureSentence } from './view-model.ts';
+import { NO_FORECAST_ID } from '../decide/types.ts';
 
 export const CAP_NAMESPACE = 'urn:oasis:names:tc:emergency:cap:1.2';
 
@@ -74,11 +75,15 @@ export function capSender(config: RenderConfig): string {
 
 interface IndicatorStage { id: string; name: string; rank: number; stageId: string; tier: TierOutcome }
 
-/** Highest stage per indicator of a region; ties go to the shortest tier (listed first in perTier order). */
+/**
+ * Highest stage per indicator of a region; ties go to the shortest tier (listed first in perTier order). Tiers with
+ * "no forecast available" take no part; an indicator with no other tier is left out (see DECISIONS.md: no alert).
+ */
 function indicatorStages(config: RenderConfig, outcome: RegionOutcome): IndicatorStage[] {
   const rankOf = stageIndex(config);
   const best = new Map<string, IndicatorStage>();
   for (const t of outcome.perTier) {
+    if (t.decision.stageId === NO_FORECAST_ID) continue;
     const rank = rankOf(t.decision.stageId).rank;
     const seen = best.get(t.indicator.id);
     if (!seen || rank > seen.rank) best.set(t.indicator.id, { id: t.indicator.id, name: t.indicator.name, rank, stageId: t.decision.stageId, tier: t });

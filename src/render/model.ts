@@ -12,7 +12,8 @@
  *   regions        one outcome per configured region, in config order
  *
  * RegionOutcome
- *   stage            combined stage of the region (highest over indicators and tiers)
+ *   stage            combined stage of the region (highest over indicators and tiers), null when no forecast of any
+ *                    tier could be used and no earlier stage is held ("no forecast available", never the lowest stage)
  *   previousStageId  combined stage in the last issued bulletin, null when there was none
  *   changeReason     the decide stage's one-line reason for the change (or for holding), shown as given
  *   perTier          one entry per indicator × tier, each with its StageDecision and every LeadProbability
@@ -56,8 +57,8 @@ export interface TierOutcome {
 
 export interface RegionOutcome {
   readonly region: RegionConfig;
-  /** Combined (highest) stage over all indicators and tiers. */
-  readonly stage: StageConfig;
+  /** Combined (highest) stage over all indicators and tiers; null = no forecast available (no usable data at all). */
+  readonly stage: StageConfig | null;
   readonly previousStageId: string | null;
   readonly changeReason: string;
   readonly perTier: readonly TierOutcome[];

@@ -7,10 +7,11 @@ import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadProbability, Tier } from '../types.ts';
 import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
+import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatDayRange, formatNumber } from './locale-format.ts';
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
-  TIERS, formatThreshold, groupLeads, leadView, stageIndex, sureSentence, toStageView,
+  TIERS, formatThreshold, groupLeads, leadView, noForecastView, stageIndex, sureSentence, toStageView,
   type LeadGroup, type LeadView, type StageView,
 } from './view-model.ts';
 
@@ -104,11 +105,31 @@ function methodLines(t: Translate, locale: string, config: RenderConfig, spec: T
   return lines;
 }
 
-/** Why the region has its stage: the evidence that drives it, and a stage held back by persistence. */
+/**
+ * The parts without usable data, each in plain words with the reason and whether the last stage is kept (issue:
+ * a missing tier is said, never silently left out); one sentence per tier range, indicators of one range merged.
+ */
+function missingText(t: Translate, region: RegionOutcome, tiers: readonly TierView[]): string {
+  const said = new Map<string, string>();
+  region.perTier.forEach((tier, i) => {
+    const m = tier.decision.missing;
+    if (!m || said.has(tier.tier)) return;
+    said.set(tier.tier, t('why.missing', { range: tier.tier, reason: m.reason, held: m.held ? 'yes' : 'no', glyph: tiers[i].stage.glyph, label: tiers[i].stage.label }));
+  });
+  return [...said.values()].join(' ');
+}
+
+/** Why the region has its stage: the evidence that drives it, a stage held back by persistence, and any part without data. */
 function whyText(t: Translate, config: RenderConfig, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+  return [evidenceText(t, config, region, tiers, stage, byRank), missingText(t, region, tiers)].filter(Boolean).join(' ');
+}
+
+function evidenceText(t: Translate, config: RenderConfig, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+  if (stage.id === NO_FORECAST_ID) return '';
   const rank = (id: string): number => config.stages.findIndex((s) => s.id === id);
-  const [driver] = tiers.map((tv, i) => ({ tv, d: region.perTier[i].decision }))
+  const [driver] = tiers.map((tv, i) => ({ tv, d: region.perTier[i].decision })).filter((x) => !x.d.missing)
     .sort((a, b) => rank(b.d.rawStageId) - rank(a.d.rawStageId) || rank(b.d.stageId) - rank(a.d.stageId));
+  if (!driver && region.perTier.some((x) => x.decision.missing)) return '';
   if (!driver || !driver.tv.deciding) return t('why.none');
   const lead = driver.tv.deciding;
   const evidence = t('why.evidence', { hazard: driver.tv.hazard, range: driver.tv.tier, chance: lead.chance, dates: lead.dates, normal: lead.normal });
@@ -129,8 +150,9 @@ function cellLead(tv: TierView): LeadView | null {
 export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
   const lookup = stageIndex(config);
   const byRank = config.stages.map((s, r) => toStageView(s, r, locale, audience));
-  const view = (id: string): StageView => byRank[lookup(id).rank];
-  const stage = view(outcome.stage.id);
+  const none = noForecastView(t);
+  const view = (id: string): StageView => (id === NO_FORECAST_ID ? none : byRank[lookup(id).rank]);
+  const stage = view(outcome.stage?.id ?? NO_FORECAST_ID);
   const previous = outcome.previousStageId === null ? null : view(outcome.previousStageId);
   const change = previous === null ? 'new' : stage.rank > previous.rank ? 'raised' : stage.rank < previous.rank ? 'lowered' : 'held';
   const indicatorOf = (id: string) => config.indicators.find((i) => i.id === id);

@@ -22,6 +22,7 @@
  *
  * Numbers are plain JSON numbers (fractions 0..1 for probabilities); NaN and infinities become null.
  */
+import { NO_FORECAST_ID } from '../decide/types.ts';
 import type { BulletinRun, CapAlert, RenderConfig } from './model.ts';
 
 export const RUN_JSON_SCHEMA = 'forelight-run/2';
@@ -41,7 +42,7 @@ export function renderRunJson(config: RenderConfig, run: BulletinRun, capAlerts:
     regions: run.regions.map((r) => ({
       id: r.region.id,
       name: r.region.name,
-      stageId: r.stage.id,
+      stageId: r.stage?.id ?? NO_FORECAST_ID,
       previousStageId: r.previousStageId,
       changeReason: r.changeReason,
       tiers: r.perTier.map((t) => ({ tier: t.tier, indicator: t.indicator, decision: t.decision, probabilities: t.probabilities })),

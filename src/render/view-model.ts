@@ -3,6 +3,7 @@
  * labels, dates and percentages already formatted. Sentences come from the message catalogue (`t`); this module
  * picks which message applies and supplies the numbers. Region assembly is in `region-view.ts`.
  */
+import { NO_FORECAST_ID } from '../decide/types.ts';
 import type { LeadProbability, SkillSummary, Tier } from '../types.ts';
 import type { StageConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
@@ -89,6 +90,21 @@ export function stageIndex(config: RenderConfig): (id: string) => { stage: Stage
     const hit = byId.get(id);
     if (!hit) throw new ForelightError('render', 'unknown-stage', `stage "${id}" is not in the configured ladder (${[...byId.keys()].join(', ')})`, 'check the decide stage output against config stages');
     return hit;
+  };
+}
+
+/**
+ * The "no forecast available" state (decide's NO_FORECAST_ID): its own glyph (U+2298 CIRCLED DIVISION SLASH) and a
+ * neutral grey that is no stage colour (`forelight check` refuses a ladder colour equal to it); rank -1, below
+ * every stage, so it never reads as the lowest stage. Its words are the catalogue's noForecast.* messages.
+ */
+export const NO_FORECAST_GLYPH = '⊘';
+export const NO_FORECAST_COLOUR = '#d0d0d0';
+
+export function noForecastView(t: (key: string) => string): StageView {
+  return {
+    id: NO_FORECAST_ID, rank: -1, label: t('noForecast.label'), glyph: NO_FORECAST_GLYPH, colour: NO_FORECAST_COLOUR,
+    ink: inkFor(NO_FORECAST_COLOUR), meaning: t('noForecast.meaning'), actions: t('noForecast.actions'),
   };
 }
 

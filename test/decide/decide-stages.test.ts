@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { combineRegionStages, decideStages } from '../../src/decide/decide-stages.ts';
 import { parseStageHistory } from '../../src/decide/history.ts';
 import { trackKey, tunedKey, type TunedKey } from '../../src/core/keys.ts';
-import { EMPTY_HISTORY, type StageHistory } from '../../src/decide/types.ts';
+import { EMPTY_HISTORY, NO_FORECAST_ID, type StageHistory } from '../../src/decide/types.ts';
 import type { LeadProbability } from '../../src/types.ts';
 import { makeConfig, prob } from './helpers.ts';
 import { skillSummary } from '../support/skill-summary.ts';
@@ -107,12 +107,12 @@ describe('decideStages', () => {
     expect(waits.stageId).toBe('quiet');
   });
 
-  it('combines indicators and tiers per region: highest wins; a region without data stays at the lowest stage', () => {
+  it('combines indicators and tiers per region: highest wins; a region without data is "no forecast available", never the lowest stage', () => {
     const history: StageHistory = { version: 1, tracks: { ...issued('brace').tracks, [trackKey('r1', 'heat', 'months')]: { stageId: 'mindful', runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null } } };
     const result = run([prob('r1', 'months', 1, 0.9), prob('r1', 'weeks', 2, 0.7)], history);
     expect(result.regionStages).toEqual([
       { region: 'r1', stageId: 'brace', fromDecision: { region: 'r1', indicator: 'heat', tier: 'weeks' } },
-      { region: 'r2', stageId: 'quiet', fromDecision: null },
+      { region: 'r2', stageId: NO_FORECAST_ID, fromDecision: null },
     ]);
   });
 
@@ -129,7 +129,7 @@ describe('decideStages', () => {
       ({ region, indicator, tier: 'months' as const, stageId, rawStageId: stageId, ruleId: null, lead: null, withheldLeads: [], reasons: [] });
     expect(combineRegionStages(matrixConfig, [decision('r1', 'heat', 'mindful'), decision('r1', 'malaria', 'mindful')])).toEqual([
       { region: 'r1', stageId: 'brace', fromDecision: { region: 'r1', indicator: 'heat', tier: 'months' } },
-      { region: 'r2', stageId: 'quiet', fromDecision: null },
+      { region: 'r2', stageId: NO_FORECAST_ID, fromDecision: null },
     ]);
     expect(combineRegionStages(matrixConfig, [decision('r1', 'malaria', 'mindful')])[0].stageId).toBe('mindful');
     // With highest-wins the same inputs give mindful: the matrix is what raises it.

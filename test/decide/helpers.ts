@@ -45,6 +45,7 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
       tierCaps: { months: 'mindful', weeks: 'brace' },
       escalateAfterRuns: 2,
       relaxAfterRuns: 2,
+      holdMissingRuns: 2,
       topStageImmediate: true,
       combine: 'highest',
       skillGate: { floor: 0, minEvents: 5, poolLeads: { days: 7, weeks: 1, months: 1 }, resamples: 1000, seed: 1, action: 'say-no-skill' },

@@ -41,7 +41,7 @@ describe('look-back-days', () => {
     expect(weekly.sources[0].lookbackDays).toBe(10);
     const inputs = resolveInputs(weekly, '2026-11-26');
     expect(inputs[0].path).toBeNull();
-    const read = await readAll(weekly, inputs);
+    const read = await readAll(weekly, '2026-11-26', inputs);
     expect(read.problems).toHaveLength(1);
     const line = read.problems[0].message;
     expect(line).toMatch(/no forecast of source 'weekly': tried .*data\/w_20261126\.nc and every date back to .*data\/w_20261116\.nc \(2026-11-26 to 2026-11-16, look-back-days 10\)/);

@@ -67,8 +67,12 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
     expect(outcomes[0].summary).toMatch(/seasonal none/);
   });
 
-  it('writes one .eml per bulletin and recipient to the outbox, each Message-ID once (no duplicates)', async () => {
-    const emls = filesUnder(config.delivery.outbox, '.eml');
+  it('writes one .eml per bulletin and recipient to the outbox, each Message-ID once (no duplicates); the first issue\'s input problem goes to the operators', async () => {
+    const all = filesUnder(config.delivery.outbox, '.eml');
+    const notices = all.filter((f) => f.includes('notice_'));
+    expect(notices).toHaveLength(1);
+    expect(readFileSync(notices[0], 'utf8')).toMatch(/input problems in the run of 2026-11-23/);
+    const emls = all.filter((f) => !f.includes('notice_'));
     const recipients = config.teams.reduce((n, t) => n + t.recipients.length, 0);
     expect(emls.length).toBe(ISSUES.length * recipients);
     const parsed = await Promise.all(emls.map((f) => simpleParser(readFileSync(f))));
@@ -91,7 +95,7 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
       for (const i of inputs) expect(i.sha256).toMatch(/^[0-9a-f]{64}$/);
       expect((db.prepare('SELECT count(*) AS n FROM probabilities WHERE run_id = ?').get(runs[2].id) as { n: number }).n).toBeGreaterThan(100);
       const statuses = db.prepare('SELECT status, count(*) AS n FROM deliveries GROUP BY status').all() as { status: string; n: number }[];
-      expect(statuses).toEqual([{ status: 'outbox', n: filesUnder(config.delivery.outbox, '.eml').length }]);
+      expect(statuses).toEqual([{ status: 'outbox', n: filesUnder(config.delivery.outbox, '.eml').filter((f) => !f.includes('notice_')).length }]);
     } finally {
       db.close();
     }
@@ -118,12 +122,12 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
     expect(again.exitCode).toBe(EXIT.nothingNew);
     const after = filesUnder(config.delivery.outbox, '.eml');
     expect(after.length).toBe(before + 1);
-    expect(after.filter((f) => f.includes('notice_'))).toHaveLength(1);
+    expect(after.filter((f) => f.includes('notice_') && readFileSync(f, 'utf8').includes('nothing new for 2026-11-30'))).toHaveLength(1);
   });
 });
 
 describe('one bad source never stops the others', () => {
-  it('a truncated short-range forecast is reported by file name; the run still issues from the other sources (exit 3)', async () => {
+  it('a truncated short-range forecast is reported by file name and counts as late: the previous one (23 Nov) is used and said (exit 3)', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-bad-'));
     const copy = join(dir, 'data');
     cpSync(sampleDir, copy, { recursive: true });
@@ -143,7 +147,9 @@ describe('one bad source never stops the others', () => {
       expect(truncated[0].severity).toBe('error');
       expect(formatDiagnostic(truncated[0])).toMatch(/^.*short_20261126\.nc: file is truncated/);
       const tiers = db.prepare('SELECT DISTINCT tier FROM probabilities ORDER BY tier').all() as { tier: string }[];
-      expect(tiers.map((t) => t.tier)).toEqual(['months', 'weeks']);
+      expect(tiers.map((t) => t.tier)).toEqual(['days', 'months', 'weeks']);
+      expect((db.prepare('SELECT forecast_key AS k FROM runs').get() as { k: string }).k).toMatch(/^short 2026-11-23, /);
+      expect(problems.some((p) => p.code === 'forecast-fallback')).toBe(true);
     } finally {
       db.close();
     }
@@ -159,7 +165,8 @@ describe('one bad source never stops the others', () => {
     const copy = join(dir, 'data');
     cpSync(sampleDir, copy, { recursive: true });
     const config = isolatedConfig(base, dir, copy);
-    const forecasts = [join(copy, 'short', 'short_20261126.nc'), join(copy, 'subseasonal', 'subs_20261126.nc'), join(copy, 'seasonal', 'seas_20261126.nc')];
+    // Unusable is the same as late: every forecast within the look-back must be damaged for nothing to be usable.
+    const forecasts = ['short/short_20261123.nc', 'short/short_20261126.nc', 'subseasonal/subs_20261123.nc', 'subseasonal/subs_20261126.nc', 'seasonal/seas_20261126.nc'].map((f) => join(copy, f));
     for (const f of forecasts) truncateSync(f, 5000);
     const failed = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' }).catch((e: unknown) => e);
     expect(failed).toBeInstanceOf(ForelightError);

@@ -48,6 +48,7 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
     const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
+    for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);
     return !recorded && outcome.exitCode === EXIT.ok ? EXIT.deliveryFailed : outcome.exitCode;
   } catch (err) {
     recordStatus(config, makeRunReport('manual', startedAt, new Date(), EXIT.unexpected, describeError(err)));
