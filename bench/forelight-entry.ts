@@ -60,20 +60,49 @@ export async function extractBenchSeries(files: readonly string[], regions: read
 
 /** The four bench indicators, each against the 90th percentile of the model climate at the same lead. */
 const INDICATORS: readonly IndicatorConfig[] = (
-  [['tmax-3day', 'tmax-mean', 'max'], ['tmin-3day', 'tmin-mean', 'mean'], ['heat-index', 'heat-index', 'max'], ['humidex', 'humidex', 'max']] as const
+  [
+    ['tmax-3day', 'tmax-mean', 'max'],
+    ['tmin-3day', 'tmin-mean', 'mean'],
+    ['heat-index', 'heat-index', 'max'],
+    ['humidex', 'humidex', 'max'],
+  ] as const
 ).map(([id, kind, aggregate]) => ({
-  id, name: id, kind, windowDays: kind.endsWith('-mean') ? 3 : 1, threshold: { kind: 'percentile', percentile: 90 },
-  regionThresholds: {}, aggregate, tiers: ['weeks'], params: {},
+  id,
+  name: id,
+  kind,
+  windowDays: kind.endsWith('-mean') ? 3 : 1,
+  threshold: { kind: 'percentile', percentile: 90 },
+  regionThresholds: {},
+  aggregate,
+  tiers: ['weeks'],
+  params: {},
 }));
 
 /**
  * The shipped configuration narrowed to the bench: one sub-seasonal source (the forecast file, hindcasts by
  * pattern), the 20 bench boxes, four indicators with a "mindful" and a "brace" rule each, no observations.
  */
-export function benchConfig(base: Config, forecast: string, hindcastPattern: string, regions: readonly BenchRegion[], cacheDir: string): Config {
+export function benchConfig(
+  base: Config,
+  forecast: string,
+  hindcastPattern: string,
+  regions: readonly BenchRegion[],
+  cacheDir: string,
+): Config {
   return {
     ...base,
-    sources: [{ id: 'bench', name: 'bench ensemble', tier: 'weeks', forecast, hindcast: hindcastPattern, variables: QUANTITIES, priority: 1, lookbackDays: 10 }],
+    sources: [
+      {
+        id: 'bench',
+        name: 'bench ensemble',
+        tier: 'weeks',
+        forecast,
+        hindcast: hindcastPattern,
+        variables: QUANTITIES,
+        priority: 1,
+        lookbackDays: 10,
+      },
+    ],
     observations: null,
     regions: regions.map(toRegionConfig),
     teams: [],
@@ -94,7 +123,11 @@ const BENCH_ISSUE_DATE = '2026-11-26';
  * 4 indicators, the model climate of the hindcasts coming from the cache as in operations (the first run fills
  * it). Without a hindcast pattern (the hindcast input set) the files are read and reduced to box means only.
  */
-export async function runForelightBench(files: readonly string[], regions: readonly BenchRegion[], hindcastPattern?: string): Promise<void> {
+export async function runForelightBench(
+  files: readonly string[],
+  regions: readonly BenchRegion[],
+  hindcastPattern?: string,
+): Promise<void> {
   if (!hindcastPattern) {
     await extractBenchSeries(files, regions);
     return;
@@ -103,10 +136,17 @@ export async function runForelightBench(files: readonly string[], regions: reado
   for (const file of files) {
     const config = benchConfig(base, file, hindcastPattern, regions, join(dirname(file), 'cache'));
     const analysis = await analyse(config, runContext({ issueDate: BENCH_ISSUE_DATE, log: silentLogger }));
-    if (analysis.problems.length > 0) throw new Error(`${file}: ${analysis.problems.length} problems, first: ${formatDiagnostic(analysis.problems[0])}`);
+    if (analysis.problems.length > 0)
+      throw new Error(`${file}: ${analysis.problems.length} problems, first: ${formatDiagnostic(analysis.problems[0])}`);
     const expected = regions.length * INDICATORS.length * 6;
-    if (analysis.probabilities.length !== expected) throw new Error(`${file}: ${analysis.probabilities.length} probabilities, expected ${expected}`);
-    decideStages({ config, probabilities: analysis.probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: tunedThresholds(analysis) });
+    if (analysis.probabilities.length !== expected)
+      throw new Error(`${file}: ${analysis.probabilities.length} probabilities, expected ${expected}`);
+    decideStages({
+      config,
+      probabilities: analysis.probabilities,
+      history: EMPTY_HISTORY,
+      thresholdsFromCostLoss: tunedThresholds(analysis),
+    });
   }
 }
 
@@ -119,12 +159,20 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
   };
   const checkOut = option('--check');
   const hindcastPattern = option('--pipeline');
-  const optionIndexes = new Set(['--check', '--pipeline'].flatMap((n) => (args.indexOf(n) > 0 ? [args.indexOf(n), args.indexOf(n) + 1] : [])));
+  const optionIndexes = new Set(
+    ['--check', '--pipeline'].flatMap((n) => (args.indexOf(n) > 0 ? [args.indexOf(n), args.indexOf(n) + 1] : [])),
+  );
   const files = args.slice(1).filter((_, i) => !optionIndexes.has(i + 1));
   const began = performance.now();
   if (checkOut) {
     const series = await extractBenchSeries(files, regions);
-    const firstMember = series.map((s) => ({ file: s.provenance.file, region: s.region, variable: s.provenance.variable, units: s.units, values: Array.from(s.data.subarray(0, s.days.length)) }));
+    const firstMember = series.map((s) => ({
+      file: s.provenance.file,
+      region: s.region,
+      variable: s.provenance.variable,
+      units: s.units,
+      values: Array.from(s.data.subarray(0, s.days.length)),
+    }));
     writeFileSync(checkOut, JSON.stringify(firstMember));
   } else {
     await runForelightBench(files, regions, hindcastPattern);

@@ -30,9 +30,30 @@ export interface BenchInputs {
 }
 
 const VARIABLES = [
-  { name: 'tasmax', standardName: 'air_temperature', longName: 'Daily maximum near-surface air temperature', units: 'K', cellMethods: 'time: maximum', offsetK: 5 },
-  { name: 'tasmin', standardName: 'air_temperature', longName: 'Daily minimum near-surface air temperature', units: 'K', cellMethods: 'time: minimum', offsetK: -5 },
-  { name: 'tdps', standardName: 'dew_point_temperature', longName: 'Daily mean near-surface dew point temperature', units: 'K', cellMethods: 'time: mean', offsetK: -8 },
+  {
+    name: 'tasmax',
+    standardName: 'air_temperature',
+    longName: 'Daily maximum near-surface air temperature',
+    units: 'K',
+    cellMethods: 'time: maximum',
+    offsetK: 5,
+  },
+  {
+    name: 'tasmin',
+    standardName: 'air_temperature',
+    longName: 'Daily minimum near-surface air temperature',
+    units: 'K',
+    cellMethods: 'time: minimum',
+    offsetK: -5,
+  },
+  {
+    name: 'tdps',
+    standardName: 'dew_point_temperature',
+    longName: 'Daily mean near-surface dew point temperature',
+    units: 'K',
+    cellMethods: 'time: mean',
+    offsetK: -8,
+  },
 ];
 const SIZES = { small: { members: 11, years: 2 }, full: { members: 101, years: 20 } } as const;
 const DAYS = 46;
@@ -41,7 +62,10 @@ const SEED = 46_101;
 
 export const benchDataDir = (mode: BenchMode | 'huge'): string => fileURLToPath(new URL(`./data/${mode}`, import.meta.url));
 
-const globalGrid = (step: number): GridSpec => ({ lats: axis(90, -step, Math.round(180 / step) + 1), lons: axis(0, step, Math.round(360 / step)) });
+const globalGrid = (step: number): GridSpec => ({
+  lats: axis(90, -step, Math.round(180 / step) + 1),
+  lons: axis(0, step, Math.round(360 / step)),
+});
 
 /** Writes one synthetic ensemble file: climatology by latitude and longitude + member/day anomalies + cell noise. */
 async function writeSynthetic(path: string, format: NcFormat, grid: GridSpec, start: string, members: number): Promise<number> {
@@ -50,7 +74,8 @@ async function writeSynthetic(path: string, format: NcFormat, grid: GridSpec, st
   const base = new Float32Array(nLat * nLon);
   for (let y = 0; y < nLat; y++) {
     const coslat = Math.cos((grid.lats[y] * Math.PI) / 180);
-    for (let x = 0; x < nLon; x++) base[y * nLon + x] = 273.15 - 25 + 52 * coslat ** 1.5 + 4 * Math.sin((grid.lons[x] * Math.PI) / 90) * coslat;
+    for (let x = 0; x < nLon; x++)
+      base[y * nLon + x] = 273.15 - 25 + 52 * coslat ** 1.5 + 4 * Math.sin((grid.lons[x] * Math.PI) / 90) * coslat;
   }
   const rng = createRandom(deriveSeed(SEED, path));
   const def: CfFileDef = {
@@ -59,7 +84,11 @@ async function writeSynthetic(path: string, format: NcFormat, grid: GridSpec, st
     start: new Date(`${start}T00:00:00Z`),
     days: DAYS,
     variables: VARIABLES,
-    globalAttributes: { title: 'Forelight benchmark input (synthetic)', source: 'bench/make-large-inputs.ts', comment: 'Synthetic values for timing only.' },
+    globalAttributes: {
+      title: 'Forelight benchmark input (synthetic)',
+      source: 'bench/make-large-inputs.ts',
+      comment: 'Synthetic values for timing only.',
+    },
   };
   const cells = base.length;
   return writeEnsembleFile(path, def, members, (t, out) => {

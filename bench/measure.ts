@@ -55,7 +55,9 @@ export const median = (xs: readonly number[]): number => {
 
 function firstLine(cmd: string, args: readonly string[]): string {
   try {
-    return execFileSync(cmd, args, { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] }).split('\n')[0].trim();
+    return execFileSync(cmd, args, { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] })
+      .split('\n')[0]
+      .trim();
   } catch {
     return `${cmd}: not available`;
   }

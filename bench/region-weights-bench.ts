@@ -56,10 +56,12 @@ function naturalEarth50m(): { regions: RegionConfig[]; refused: number } {
 
 function quarterDegreeGrid(): LatLonGrid {
   return {
-    latName: 'latitude', lonName: 'longitude',
+    latName: 'latitude',
+    lonName: 'longitude',
     lat: Float64Array.from({ length: 721 }, (_, i) => 90 - 0.25 * i),
     lon: Float64Array.from({ length: 1440 }, (_, i) => 0.25 * i),
-    latBounds: null, lonBounds: null,
+    latBounds: null,
+    lonBounds: null,
   };
 }
 

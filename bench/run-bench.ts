@@ -70,13 +70,20 @@ async function crossCheck(files: readonly string[], scratch: string): Promise<nu
   const pyJson = join(scratch, 'python-check.json');
   await measure([process.execPath, ENTRY_BUNDLE, REGIONS, '--check', flJson, ...files], ROOT);
   await measure(['/usr/bin/python3', join(ROOT, 'bench', 'python-baseline.py'), REGIONS, pyJson, ...files], ROOT);
-  const fl = JSON.parse(readFileSync(flJson, 'utf8')) as { file: string; region: string; variable: string; units: string; values: number[] }[];
+  const fl = JSON.parse(readFileSync(flJson, 'utf8')) as {
+    file: string;
+    region: string;
+    variable: string;
+    units: string;
+    values: number[];
+  }[];
   const py = JSON.parse(readFileSync(pyJson, 'utf8')) as Record<string, Record<string, Record<string, number[][]>>>;
   let worst = 0;
   for (const s of fl) {
     if (s.units !== 'degC') throw new Error(`cross-check: Forelight gave ${s.units} for ${s.variable}, expected degC`);
     const ref = py[s.file]?.[s.region]?.[s.variable]?.[0];
-    if (!ref || ref.length !== s.values.length) throw new Error(`cross-check: no matching Python series for ${s.file} ${s.region} ${s.variable}`);
+    if (!ref || ref.length !== s.values.length)
+      throw new Error(`cross-check: no matching Python series for ${s.file} ${s.region} ${s.variable}`);
     s.values.forEach((v, t) => (worst = Math.max(worst, Math.abs(v + 273.15 - ref[t]))));
   }
   const boxes = (JSON.parse(readFileSync(REGIONS, 'utf8')) as { regions: unknown[] }).regions.length;
@@ -98,7 +105,9 @@ async function runSet(set: InputSet, runs: number, log: (l: string) => void): Pr
     }
     if (set.hindcastPattern) {
       // Untimed warm-up: fills the model-climate cache from the hindcasts, as the first operational run would.
-      const warm = await measure(commandOf('forelight', set, scratch), ROOT).catch((err: Error) => failures.push(`forelight warm-up: ${err.message}`));
+      const warm = await measure(commandOf('forelight', set, scratch), ROOT).catch((err: Error) =>
+        failures.push(`forelight warm-up: ${err.message}`),
+      );
       if (typeof warm === 'object') log(`${set.label}: Forelight warm-up (hindcast climate into the cache) ${warm.seconds.toFixed(2)} s`);
     }
     const times: Record<Tool, number[]> = { forelight: [], cdo: [], python: [], cat: [] };
@@ -121,7 +130,8 @@ async function runSet(set: InputSet, runs: number, log: (l: string) => void): Pr
         log(`${set.label} run ${r + 1}/${runs} ${tool}: ${m.seconds.toFixed(2)} s, peak RSS ${(m.maxRssKb / 1024).toFixed(0)} MB`);
       }
     }
-    const med = (xs: Record<Tool, number[]>): Record<Tool, number> => Object.fromEntries(TOOLS.map((t) => [t, median(xs[t])])) as Record<Tool, number>;
+    const med = (xs: Record<Tool, number[]>): Record<Tool, number> =>
+      Object.fromEntries(TOOLS.map((t) => [t, median(xs[t])])) as Record<Tool, number>;
     const gigabytes = set.files.reduce((s, f) => s + statSync(f).size, 0) / 1e9;
     return { set, gigabytes, seconds: med(times), maxRssMb: med(rss), forelightInProcess: median(inProcess), maxAbsDiffK, failures };
   } finally {

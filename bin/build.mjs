@@ -25,8 +25,17 @@ const inputsFile = (bundle) => `${bundle}.inputs.json`;
 export async function buildBundle(entry = join(ROOT, 'src', 'cli', 'main.ts'), outfile = CLI_BUNDLE) {
   const { build } = await import('esbuild');
   const result = await build({
-    entryPoints: [entry], outfile, bundle: true, platform: 'node', format: 'esm', target: 'node20',
-    packages: 'external', sourcemap: true, metafile: true, absWorkingDir: ROOT, logLevel: 'warning',
+    entryPoints: [entry],
+    outfile,
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    packages: 'external',
+    sourcemap: true,
+    metafile: true,
+    absWorkingDir: ROOT,
+    logLevel: 'warning',
   });
   const inputs = [...Object.keys(result.metafile.inputs), THIS_SCRIPT].sort();
   writeFileSync(inputsFile(outfile), `${JSON.stringify(Object.fromEntries(inputs.map((p) => [p, sha256(join(ROOT, p))])), null, 1)}\n`);

@@ -13,5 +13,10 @@ const arg = (name: string): string | undefined => {
 const out = arg('--out');
 const seedText = arg('--seed');
 if (seedText !== undefined && !/^\d+$/.test(seedText)) throw new RangeError(`--seed must be a non-negative integer, got '${seedText}'`);
-const summary = await generateSample(out ? resolve(out) : undefined, { seed: seedText ? Number(seedText) : undefined, onProgress: (l) => process.stdout.write(`${l}\n`) });
-process.stdout.write(`${summary.files.length} files, ${(summary.totalBytes / 1e6).toFixed(1)} MB in ${summary.seconds.toFixed(1)} s → ${summary.outDir}\n`);
+const summary = await generateSample(out ? resolve(out) : undefined, {
+  seed: seedText ? Number(seedText) : undefined,
+  onProgress: (l) => process.stdout.write(`${l}\n`),
+});
+process.stdout.write(
+  `${summary.files.length} files, ${(summary.totalBytes / 1e6).toFixed(1)} MB in ${summary.seconds.toFixed(1)} s → ${summary.outDir}\n`,
+);

@@ -35,7 +35,16 @@ export interface GeneratedFile {
 /** Table rows as trimmed cells, without the separator row. */
 function tableCells(readme: string): string[][] {
   const table = readme.slice(readme.indexOf(TABLE_START) + TABLE_START.length, readme.indexOf(TABLE_END));
-  return table.split('\n').filter((l) => l.trim().startsWith('|')).map((l) => l.trim().replace(/^\||\|$/g, '').split('|').map((c) => c.trim()))
+  return table
+    .split('\n')
+    .filter((l) => l.trim().startsWith('|'))
+    .map((l) =>
+      l
+        .trim()
+        .replace(/^\||\|$/g, '')
+        .split('|')
+        .map((c) => c.trim()),
+    )
     .filter((cells) => !cells.every((c) => /^:?-+:?$/.test(c)));
 }
 
@@ -43,7 +52,9 @@ const tokens = (ts: string) => ts.replace(/\/\/.*$/gm, '').replace(/[\s,]+/g, ''
 
 /** Kind module file names, sorted (the registry's order). */
 export function kindModules(root = ROOT): string[] {
-  return readdirSync(join(root, KINDS_DIR)).filter((f) => f.endsWith('.ts') && f !== INDEX).sort();
+  return readdirSync(join(root, KINDS_DIR))
+    .filter((f) => f.endsWith('.ts') && f !== INDEX)
+    .sort();
 }
 
 const camel = (file: string) => file.replace(/\.ts$/, '').replace(/-([a-z0-9])/g, (_, c: string) => c.toUpperCase());
@@ -66,11 +77,17 @@ function schemaText(current: string, defs: readonly Definition[]): string {
   const indicator = schema.$defs.indicator;
   const properties = indicator.properties as Record<string, JsonSchema>;
   properties.kind = { enum: defs.map((d) => d.kind), description: 'Formula family of the indicator (README: Indicator kinds).' };
-  properties.params = { type: 'object', description: 'Kind-specific parameters: see params-<kind> in $defs and the README\'s indicator table.' };
+  properties.params = {
+    type: 'object',
+    description: "Kind-specific parameters: see params-<kind> in $defs and the README's indicator table.",
+  };
   for (const key of Object.keys(schema.$defs)) if (key.startsWith('params-')) delete schema.$defs[key];
   for (const d of defs) {
     const none = Object.keys((d.params.properties ?? {}) as object).length === 0;
-    schema.$defs[`params-${d.kind}`] = { ...d.params, description: none ? `${d.kind} takes no parameters.` : `Parameters of ${d.kind} (${d.describe.name}).` };
+    schema.$defs[`params-${d.kind}`] = {
+      ...d.params,
+      description: none ? `${d.kind} takes no parameters.` : `Parameters of ${d.kind} (${d.describe.name}).`,
+    };
   }
   schema.$defs.indicator = {
     ...indicator,
@@ -92,10 +109,16 @@ function citation(key: ReferenceKey): string {
 function paramsCell(params: JsonSchema): string {
   const props = Object.entries((params.properties ?? {}) as Record<string, JsonSchema>);
   if (props.length === 0) return '—';
-  return props.map(([key, p]) => {
-    const values = Array.isArray(p.enum) ? p.enum.join(', ') : p.minimum !== undefined ? `${String(p.minimum)}–${String(p.maximum)}` : String(p.type);
-    return `\`${key}\`: ${values}${p.default !== undefined ? ` (default ${String(p.default)})` : ''}`;
-  }).join('; ');
+  return props
+    .map(([key, p]) => {
+      const values = Array.isArray(p.enum)
+        ? p.enum.join(', ')
+        : p.minimum !== undefined
+          ? `${String(p.minimum)}–${String(p.maximum)}`
+          : String(p.type);
+      return `\`${key}\`: ${values}${p.default !== undefined ? ` (default ${String(p.default)})` : ''}`;
+    })
+    .join('; ');
 }
 
 export function indicatorTable(defs: readonly Definition[]): string {
@@ -104,7 +127,9 @@ export function indicatorTable(defs: readonly Definition[]): string {
     const sources = d.describe.references.length > 0 ? d.describe.references.map(citation).join('; ') : 'common practice, no source';
     return `| \`${d.kind}\` | ${d.describe.name}. ${d.describe.description} | ${needs} | ${d.units} | ${paramsCell(d.params)} | ${sources} |`;
   });
-  return ['| kind | what it is | quantities a source must map | units | params | sources |', '|---|---|---|---|---|---|', ...rows].join('\n');
+  return ['| kind | what it is | quantities a source must map | units | params | sources |', '|---|---|---|---|---|---|', ...rows].join(
+    '\n',
+  );
 }
 
 function readmeText(current: string, defs: readonly Definition[]): string {

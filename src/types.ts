@@ -188,7 +188,12 @@ export interface Bulletin {
   readonly subject: string;
   readonly html: string;
   readonly text: string;
-  readonly attachments: readonly { readonly cid: string; readonly filename: string; readonly contentType: string; readonly content: Uint8Array }[];
+  readonly attachments: readonly {
+    readonly cid: string;
+    readonly filename: string;
+    readonly contentType: string;
+    readonly content: Uint8Array;
+  }[];
 }
 
 /** Result of delivering one bulletin to one recipient. */

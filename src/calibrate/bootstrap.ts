@@ -69,7 +69,10 @@ export function concatCases(sets: readonly VerificationCases[]): VerificationCas
  * sample (test/calibrate/bootstrap.test.ts).
  */
 function weightedScores(c: VerificationCases, w: Float64Array, order: Int32Array, groupEnd: Int32Array): [number, number, number] | null {
-  let n = 0, events = 0, bs = 0, fair = 0;
+  let n = 0,
+    events = 0,
+    bs = 0,
+    fair = 0;
   for (let k = 0; k < w.length; k++) {
     if (w[k] === 0) continue;
     const d = (c.p[k] - c.o[k]) ** 2;
@@ -81,9 +84,11 @@ function weightedScores(c: VerificationCases, w: Float64Array, order: Int32Array
   if (events === 0 || events === n) return null;
   const s = events / n;
   const ref = s * (1 - s);
-  let auc = 0, below = 0;
+  let auc = 0,
+    below = 0;
   for (let g = 0, start = 0; g < groupEnd.length; start = groupEnd[g], g++) {
-    let e = 0, ne = 0;
+    let e = 0,
+      ne = 0;
     for (let j = start; j < groupEnd[g]; j++) {
       const k = order[j];
       e += w[k] * c.o[k];
@@ -128,5 +133,11 @@ export function yearBlockBootstrap(cases: VerificationCases, options: BootstrapO
     fair.push(scores[1]);
     auc.push(scores[2]);
   }
-  return { brierSkillScore: interval(bss), fairBrierSkillScore: interval(fair), rocArea: interval(auc), resamples: options.resamples, degenerate };
+  return {
+    brierSkillScore: interval(bss),
+    fairBrierSkillScore: interval(fair),
+    rocArea: interval(auc),
+    resamples: options.resamples,
+    degenerate,
+  };
 }

@@ -27,14 +27,24 @@ export interface LeadClimate {
  * `place`; a year with fewer leads has NaN for the missing ones.
  */
 export function stackYears(
-  what: string, units: string, perYear: readonly { year: number; leads: LeadValues }[], place: Place = {},
+  what: string,
+  units: string,
+  perYear: readonly { year: number; leads: LeadValues }[],
+  place: Place = {},
 ): { climate: LeadClimate | null; problems: Diagnostic[] } {
   const problems: Diagnostic[] = [];
   if (perYear.length === 0) return { climate: null, problems: [diagnostic('hindcast-none', `${what}: no years given`, '', place)] };
   const members = perYear[0].leads.members;
   const used = perYear.filter((y) => {
     if (y.leads.members === members) return true;
-    problems.push(diagnostic('hindcast-members', `${what}: year ${y.year} has ${y.leads.members} members, year ${perYear[0].year} has ${members}; year ${y.year} left out`, 'regenerate it with the same ensemble', place));
+    problems.push(
+      diagnostic(
+        'hindcast-members',
+        `${what}: year ${y.year} has ${y.leads.members} members, year ${perYear[0].year} has ${members}; year ${y.year} left out`,
+        'regenerate it with the same ensemble',
+        place,
+      ),
+    );
     return false;
   });
   const longest = used.reduce((a, y) => (y.leads.leads.length > a.leads.leads.length ? y : a), used[0]);

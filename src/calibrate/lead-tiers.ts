@@ -22,7 +22,13 @@ const DAY_MS = 86_400_000;
 
 function dayNumber(day: IsoDate): number {
   const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(day);
-  if (!m) throw new ForelightError('calibrate', 'lead-date', `local day "${day}" is not YYYY-MM-DD`, 'pass IsoDate strings from the indicators stage');
+  if (!m)
+    throw new ForelightError(
+      'calibrate',
+      'lead-date',
+      `local day "${day}" is not YYYY-MM-DD`,
+      'pass IsoDate strings from the indicators stage',
+    );
   return Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])) / DAY_MS;
 }
 
@@ -38,11 +44,17 @@ export function buildLeadSpans(days: readonly IsoDate[], tier: Tier, maxLeads: n
   const nums = days.map(dayNumber);
   for (let i = 1; i < nums.length; i++) {
     if (nums[i] !== nums[i - 1] + 1) {
-      throw new ForelightError('calibrate', 'lead-days-gap', `local days jump from ${days[i - 1]} to ${days[i]}`, 'the indicators stage must pass consecutive daily values (NaN for missing days)');
+      throw new ForelightError(
+        'calibrate',
+        'lead-days-gap',
+        `local days jump from ${days[i - 1]} to ${days[i]}`,
+        'the indicators stage must pass consecutive daily values (NaN for missing days)',
+      );
     }
   }
   const spans: LeadSpan[] = [];
-  const push = (from: number, to: number) => spans.push({ lead: { tier, index: spans.length + 1, start: days[from], end: days[to - 1] }, from, to });
+  const push = (from: number, to: number) =>
+    spans.push({ lead: { tier, index: spans.length + 1, start: days[from], end: days[to - 1] }, from, to });
   if (tier === 'days') {
     for (let i = 0; i < days.length && spans.length < maxLeads; i++) push(i, i + 1);
   } else if (tier === 'weeks') {
@@ -110,7 +122,9 @@ export const COMBINE_RULE =
   'Leads of different tiers never displace each other.';
 
 /** Merge the leads of several sources: the higher-ranked source wins each overlap, the rule is returned as text. */
-export function combineSources<T extends { readonly lead: LeadWindow }>(perSource: readonly SourceLeads<T>[]): {
+export function combineSources<T extends { readonly lead: LeadWindow }>(
+  perSource: readonly SourceLeads<T>[],
+): {
   kept: { source: string; item: T }[];
   dropped: { source: string; item: T; coveredBy: string }[];
   rule: string;

@@ -19,7 +19,11 @@ import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdO
 import { percentileLinear } from '../core/percentile.ts';
 
 /** Fraction of valid members above (or, with '>=', at or above) the threshold; NaN without valid members. */
-export function exceedanceFraction(members: ArrayLike<number>, threshold: number, rule: '>' | '>=' = '>'): { probability: number; valid: number; missing: number } {
+export function exceedanceFraction(
+  members: ArrayLike<number>,
+  threshold: number,
+  rule: '>' | '>=' = '>',
+): { probability: number; valid: number; missing: number } {
   let valid = 0;
   let above = 0;
   for (let i = 0; i < members.length; i++) {
@@ -72,7 +76,11 @@ function fallbackThreshold(req: ProbabilityRequest, l: number, lead: LeadWindow)
     const t = climatePercentileThreshold(req.observed, l, spec.percentile, 'observations', lead);
     return { ...t, origin: `${t.origin} (not model climate)` };
   }
-  return { value: Number.NaN, units: req.units, origin: `no threshold for the ${spec.percentile} percentile at ${leadLabel(lead)}: neither hindcasts nor observations cover it` };
+  return {
+    value: Number.NaN,
+    units: req.units,
+    origin: `no threshold for the ${spec.percentile} percentile at ${leadLabel(lead)}: neither hindcasts nor observations cover it`,
+  };
 }
 
 function fractionAbove(sorted: Float64Array, threshold: number): number {
@@ -123,13 +131,23 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
       } else if (lead.tier !== 'days' && covers(req.observed, l)) {
         const qm = quantileMappedThresholdObject(spec, req.observed, hindcast, l, lead);
         threshold = qm.threshold;
-        if (qm.clipped) flags.push(`quantile-map-clipped: ${spec.value} ${spec.units} lies outside the observed climatology at ${leadLabel(lead)}; mapped to the model climate's extreme`);
+        if (qm.clipped)
+          flags.push(
+            `quantile-map-clipped: ${spec.value} ${spec.units} lies outside the observed climatology at ${leadLabel(lead)}; mapped to the model climate's extreme`,
+          );
       } else {
-        threshold = absoluteThreshold(spec, req.units, lead, lead.tier === 'days' ? 'short range: not quantile-mapped' : 'not quantile-mapped: no observations');
+        threshold = absoluteThreshold(
+          spec,
+          req.units,
+          lead,
+          lead.tier === 'days' ? 'short range: not quantile-mapped' : 'not quantile-mapped: no observations',
+        );
       }
     }
     if (hindcast && hindcast.members !== forecast.members) {
-      flags.push(`hindcast-members: hindcasts have ${hindcast.members} members per year, the forecast ${forecast.members}; thresholds pool all hindcast years × members, skill was measured with ${hindcast.members}-member ensembles`);
+      flags.push(
+        `hindcast-members: hindcasts have ${hindcast.members} members per year, the forecast ${forecast.members}; thresholds pool all hindcast years × members, skill was measured with ${hindcast.members}-member ensembles`,
+      );
     }
     const exc = exceedanceFraction(members, threshold.value);
     if (exc.missing > 0) flags.push(`missing-members: ${exc.missing} of ${forecast.members} members have no value at ${leadLabel(lead)}`);

@@ -25,12 +25,27 @@ export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): 
 /** sha256 of a JSON value with object keys sorted (order-independent configuration fingerprint). */
 export function fingerprint(value: unknown): string {
   const canon = (v: unknown): unknown =>
-    Array.isArray(v) ? v.map(canon) : v !== null && typeof v === 'object' ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canon((v as Record<string, unknown>)[k])])) : v;
-  return createHash('sha256').update(JSON.stringify(canon(value))).digest('hex');
+    Array.isArray(v)
+      ? v.map(canon)
+      : v !== null && typeof v === 'object'
+        ? Object.fromEntries(
+            Object.keys(v)
+              .sort()
+              .map((k) => [k, canon((v as Record<string, unknown>)[k])]),
+          )
+        : v;
+  return createHash('sha256')
+    .update(JSON.stringify(canon(value)))
+    .digest('hex');
 }
 
 /** Cache key for one skill computation. */
-export async function skillCacheKey(input: { hindcastFiles: readonly string[]; observationsFile: string | null; configFingerprint: string; memo?: ChecksumMemo }): Promise<string> {
+export async function skillCacheKey(input: {
+  hindcastFiles: readonly string[];
+  observationsFile: string | null;
+  configFingerprint: string;
+  memo?: ChecksumMemo;
+}): Promise<string> {
   const files = await hashFiles(input.hindcastFiles, input.memo);
   const obs = input.observationsFile ? await hashFiles([input.observationsFile], input.memo) : 'none';
   return createHash('sha256').update(`v${SKILL_CACHE_VERSION}\n${files}\n${obs}\n${input.configFingerprint}`).digest('hex');
@@ -38,13 +53,19 @@ export async function skillCacheKey(input: { hindcastFiles: readonly string[]; o
 
 const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
 const decode = (_k: string, v: unknown): unknown =>
-  v !== null && typeof v === 'object' && !Array.isArray(v) && Object.keys(v).length === 1 && '$num' in v ? Number((v as { $num: string }).$num) : v;
+  v !== null && typeof v === 'object' && !Array.isArray(v) && Object.keys(v).length === 1 && '$num' in v
+    ? Number((v as { $num: string }).$num)
+    : v;
 
 /**
  * The cached value for `key`, or else `compute()` stored under `key`. An unreadable or corrupt entry is
  * recomputed and overwritten (`note` says so).
  */
-export async function cachedSkill<T>(cacheDir: string, key: string, compute: () => T | Promise<T>): Promise<{ value: T; fromCache: boolean; note: string }> {
+export async function cachedSkill<T>(
+  cacheDir: string,
+  key: string,
+  compute: () => T | Promise<T>,
+): Promise<{ value: T; fromCache: boolean; note: string }> {
   const file = join(cacheDir, `skill-${key}.json`);
   let note = '';
   try {

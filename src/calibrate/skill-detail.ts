@@ -19,7 +19,15 @@ export function skillDetailRows(ids: { source: string; region: string; indicator
   const lead = `${r.lead.tier.slice(0, -1)} ${r.lead.index}`;
   const head = [ids.source, ids.region, ids.indicator, lead];
   return [
-    ...r.stages.map((s) => [...head, 'stage', num(s.probability, 2), num(s.hitRate), num(s.falseAlarmRate), num(s.falseAlarmRatio), num(s.peirceSkillScore)]),
+    ...r.stages.map((s) => [
+      ...head,
+      'stage',
+      num(s.probability, 2),
+      num(s.hitRate),
+      num(s.falseAlarmRate),
+      num(s.falseAlarmRatio),
+      num(s.peirceSkillScore),
+    ]),
     ...r.reliabilityTable.map((t) => [...head, 'reliability', num(t.forecastMean), num(t.observedFrequency), String(t.count), '', '']),
     ...r.value.map((v) => [...head, 'value', num(v.alpha, 2), num(v.value), num(v.threshold), num(v.hitRate), num(v.falseAlarmRate)]),
   ];
@@ -30,6 +38,10 @@ const csvField = (s: string): string => (/[",\r\n]/.test(s) ? `"${s.replace(/"/g
 export function formatSkillDetail(rows: readonly string[][], format: 'text' | 'csv'): string {
   if (format === 'csv') return [HEAD, ...rows].map((r) => r.map(csvField).join(',')).join('\r\n') + '\r\n';
   const widths = HEAD.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-  const line = (r: readonly string[]) => r.map((s, i) => (i >= 5 ? s.padStart(widths[i]) : s.padEnd(widths[i]))).join('  ').trimEnd();
+  const line = (r: readonly string[]) =>
+    r
+      .map((s, i) => (i >= 5 ? s.padStart(widths[i]) : s.padEnd(widths[i])))
+      .join('  ')
+      .trimEnd();
   return [LEGEND, '', line(HEAD), ...rows.map(line)].join('\n') + '\n';
 }

@@ -57,18 +57,41 @@ export function gateByLead(leads: readonly LeadCases[], gate: SkillGate): Map<nu
     const pooled = concatCases(observed.map((m) => m.cases));
     const events = countEvents(pooled);
     const score = observed.length > 0 ? fairBrierSkillScore(pooled.p, pooled.members, pooled.o) : Number.NaN;
-    const ci = observed.length > 0 ? yearBlockBootstrap(pooled, { resamples: gate.resamples, seed: gate.seed }).fairBrierSkillScore : { low: Number.NaN, high: Number.NaN };
+    const ci =
+      observed.length > 0
+        ? yearBlockBootstrap(pooled, { resamples: gate.resamples, seed: gate.seed }).fairBrierSkillScore
+        : { low: Number.NaN, high: Number.NaN };
     const base = { leads: label, events, years: pooled.years.length, fairBrierSkillScore: score, low: ci.low, high: ci.high };
     for (const m of members) {
       let result: SkillGateResult;
       if (m.basis === 'potential') {
-        result = { ...base, passed: false, reason: 'potential-only', text: `${label}: perfect-model estimate only (no observations); it cannot raise a stage` };
+        result = {
+          ...base,
+          passed: false,
+          reason: 'potential-only',
+          text: `${label}: perfect-model estimate only (no observations); it cannot raise a stage`,
+        };
       } else if (events < gate.minEvents) {
-        result = { ...base, passed: false, reason: 'few-events', text: `${label}: only ${events} observed events in ${base.years} years (at least ${gate.minEvents} needed to judge skill)` };
+        result = {
+          ...base,
+          passed: false,
+          reason: 'few-events',
+          text: `${label}: only ${events} observed events in ${base.years} years (at least ${gate.minEvents} needed to judge skill)`,
+        };
       } else if (!(ci.low > gate.floor)) {
-        result = { ...base, passed: false, reason: 'not-shown', text: `${label}: fair Brier skill score ${fmt(score)}, 90 % interval ${fmt(ci.low)} to ${fmt(ci.high)} does not lie above ${gate.floor} (${events} events in ${base.years} years)` };
+        result = {
+          ...base,
+          passed: false,
+          reason: 'not-shown',
+          text: `${label}: fair Brier skill score ${fmt(score)}, 90 % interval ${fmt(ci.low)} to ${fmt(ci.high)} does not lie above ${gate.floor} (${events} events in ${base.years} years)`,
+        };
       } else {
-        result = { ...base, passed: true, reason: 'shown', text: `${label}: fair Brier skill score ${fmt(score)}, 90 % interval ${fmt(ci.low)} to ${fmt(ci.high)} above ${gate.floor} (${events} events in ${base.years} years)` };
+        result = {
+          ...base,
+          passed: true,
+          reason: 'shown',
+          text: `${label}: fair Brier skill score ${fmt(score)}, 90 % interval ${fmt(ci.low)} to ${fmt(ci.high)} above ${gate.floor} (${events} events in ${base.years} years)`,
+        };
       }
       out.set(m.lead.index, result);
     }

@@ -62,7 +62,8 @@ export const SKILL_LEGEND =
   'skilful = observed basis, at least the minimum events and gate low above the floor; ' +
   '"potential" = perfect-model estimate (no observations), never counted as skill.';
 
-const num = (v: number, key: keyof SkillRow, nan: string): string => (Number.isNaN(v) ? nan : key === 'years' || key.endsWith('vents') ? String(v) : v.toFixed(3));
+const num = (v: number, key: keyof SkillRow, nan: string): string =>
+  Number.isNaN(v) ? nan : key === 'years' || key.endsWith('vents') ? String(v) : v.toFixed(3);
 
 function cell(row: SkillRow, key: keyof SkillRow, nan: string): string {
   const v = row[key];
@@ -84,7 +85,10 @@ export function formatSkillTable(rows: readonly SkillRow[], format: 'text' | 'cs
   const cells = rows.map((r) => COLUMNS.map((c) => cell(r, c.key, 'n/a')));
   const widths = COLUMNS.map((c, i) => Math.max(c.head.length, ...cells.map((row) => row[i].length)));
   const line = (parts: readonly string[]) =>
-    parts.map((s, i) => (COLUMNS[i].numeric ? s.padStart(widths[i]) : s.padEnd(widths[i]))).join('  ').trimEnd();
+    parts
+      .map((s, i) => (COLUMNS[i].numeric ? s.padStart(widths[i]) : s.padEnd(widths[i])))
+      .join('  ')
+      .trimEnd();
   return [line(COLUMNS.map((c) => c.head)), line(widths.map((w) => '-'.repeat(w))), ...cells.map(line)].join('\n') + '\n';
 }
 
@@ -92,9 +96,22 @@ export function formatSkillTable(rows: readonly SkillRow[], format: 'text' | 'cs
 export function skillRow(ids: { source: string; region: string; indicator: string }, r: SkillReport): SkillRow {
   const g = r.summary.gate;
   return {
-    ...ids, lead: `${r.lead.tier.slice(0, -1)} ${r.lead.index}`, basis: r.basis, years: r.years.length, events: r.events,
-    brierScore: r.brierScore, brierSkillScore: r.brierSkillScore, brierSkillScore90: r.intervals.brierSkillScore,
-    fairBrierSkillScore: r.fairBrierSkillScore, rocArea: r.rocArea, rocArea90: r.intervals.rocArea,
-    reliability: r.reliability, resolution: r.resolution, gateLeads: g.leads, gateEvents: g.events, gateLow: g.low, skilful: r.summary.skilful,
+    ...ids,
+    lead: `${r.lead.tier.slice(0, -1)} ${r.lead.index}`,
+    basis: r.basis,
+    years: r.years.length,
+    events: r.events,
+    brierScore: r.brierScore,
+    brierSkillScore: r.brierSkillScore,
+    brierSkillScore90: r.intervals.brierSkillScore,
+    fairBrierSkillScore: r.fairBrierSkillScore,
+    rocArea: r.rocArea,
+    rocArea90: r.intervals.rocArea,
+    reliability: r.reliability,
+    resolution: r.resolution,
+    gateLeads: g.leads,
+    gateEvents: g.events,
+    gateLow: g.low,
+    skilful: r.summary.skilful,
   };
 }

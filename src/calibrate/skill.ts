@@ -25,9 +25,21 @@ import { yearBlockBootstrap, type BootstrapIntervals, type VerificationCases } f
 import { fairBrierScoreFerro2014, fairBrierSkillScore } from './fair-brier.ts';
 import { gateByLead, type SkillGate } from './skill-gate.ts';
 import {
-  brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, falseAlarmRatio, hitRate,
-  murphyDecomposition1973, peirceSkillScore, reliabilityTable, rocArea, rocPoints, valueEnvelope,
-  type ReliabilityRow, type RocPoint, type ValuePoint,
+  brierScore1950,
+  brierSkillScoreSampleClimatology,
+  contingencyTable,
+  falseAlarmRate,
+  falseAlarmRatio,
+  hitRate,
+  murphyDecomposition1973,
+  peirceSkillScore,
+  reliabilityTable,
+  rocArea,
+  rocPoints,
+  valueEnvelope,
+  type ReliabilityRow,
+  type RocPoint,
+  type ValuePoint,
 } from './verify.ts';
 
 export type { SkillGate } from './skill-gate.ts';
@@ -68,11 +80,23 @@ export interface SkillReport {
 }
 
 function build(p: number[], m: number[], o: number[], y: number[]): VerificationCases {
-  return { p: Float64Array.from(p), members: Float64Array.from(m), o: Float64Array.from(o), caseYears: Float64Array.from(y), years: [...new Set(y)].sort((a, b) => a - b) };
+  return {
+    p: Float64Array.from(p),
+    members: Float64Array.from(m),
+    o: Float64Array.from(o),
+    caseYears: Float64Array.from(y),
+    years: [...new Set(y)].sort((a, b) => a - b),
+  };
 }
 
 /** Cases of lead position l against observations; entries missing on either side are skipped. */
-export function observedCases(hc: LeadClimate, obs: LeadClimate, l: number, spec: ThresholdSpec, tierUsesMapping: boolean): VerificationCases {
+export function observedCases(
+  hc: LeadClimate,
+  obs: LeadClimate,
+  l: number,
+  spec: ThresholdSpec,
+  tierUsesMapping: boolean,
+): VerificationCases {
   const n = hc.years.length;
   const fcThr = new Float64Array(n);
   const obsThr = new Float64Array(n);
@@ -83,7 +107,10 @@ export function observedCases(hc: LeadClimate, obs: LeadClimate, l: number, spec
     hc.years.forEach((year, y) => (fcThr[y] = tierUsesMapping ? quantileMappedThreshold(spec.value, obs, hc, l, year).value : spec.value));
     obsThr.fill(spec.value);
   }
-  const p: number[] = [], m: number[] = [], o: number[] = [], ys: number[] = [];
+  const p: number[] = [],
+    m: number[] = [],
+    o: number[] = [],
+    ys: number[] = [];
   // Observations stacked like the hindcasts (same entries) match by position, else by year.
   hc.years.forEach((year, y) => {
     const oy = obs.years[y] === year ? y : obs.years.indexOf(year);
@@ -101,8 +128,12 @@ export function observedCases(hc: LeadClimate, obs: LeadClimate, l: number, spec
 
 /** Perfect-model cases of lead position l: each member as truth against the others of its year. */
 export function potentialCases(hc: LeadClimate, l: number, spec: ThresholdSpec): VerificationCases {
-  const thr = spec.kind === 'percentile' ? leaveOneYearOutThresholds(hc, l, spec.percentile) : new Float64Array(hc.years.length).fill(spec.value);
-  const p: number[] = [], mm: number[] = [], o: number[] = [], ys: number[] = [];
+  const thr =
+    spec.kind === 'percentile' ? leaveOneYearOutThresholds(hc, l, spec.percentile) : new Float64Array(hc.years.length).fill(spec.value);
+  const p: number[] = [],
+    mm: number[] = [],
+    o: number[] = [],
+    ys: number[] = [];
   const others = new Float64Array(Math.max(hc.members - 1, 0));
   hc.years.forEach((year, y) => {
     const t = thr[y];
@@ -123,8 +154,13 @@ export function potentialCases(hc: LeadClimate, l: number, spec: ThresholdSpec):
 
 /** All scores of a set of cases; `gate` is the verdict on the lead's pooling window (skill-gate.ts). */
 export function scoreCases(
-  lead: LeadWindow, basis: 'observed' | 'potential', cases: VerificationCases,
-  stageProbabilities: readonly number[], gate: SkillGate, verdict: SkillGateResult, flags: readonly string[],
+  lead: LeadWindow,
+  basis: 'observed' | 'potential',
+  cases: VerificationCases,
+  stageProbabilities: readonly number[],
+  gate: SkillGate,
+  verdict: SkillGateResult,
+  flags: readonly string[],
 ): SkillReport {
   const { p, o, members } = cases;
   const n = p.length;
@@ -143,17 +179,45 @@ export function scoreCases(
   const dec = usable ? murphyDecomposition1973(p, o) : { reliability: nan, resolution: nan, uncertainty: nan };
   const stages = stageProbabilities.map((t) => {
     const tab = contingencyTable(p, o, t);
-    return { probability: t, hitRate: hitRate(tab), falseAlarmRate: falseAlarmRate(tab), falseAlarmRatio: falseAlarmRatio(tab), peirceSkillScore: peirceSkillScore(tab) };
+    return {
+      probability: t,
+      hitRate: hitRate(tab),
+      falseAlarmRate: falseAlarmRate(tab),
+      falseAlarmRatio: falseAlarmRatio(tab),
+      peirceSkillScore: peirceSkillScore(tab),
+    };
   });
   const intervals = yearBlockBootstrap(cases, { resamples: gate.resamples, seed: gate.seed });
   return {
-    lead, basis, cases: n, events, years: cases.years, baseRate: usable ? events / n : nan,
-    brierScore: bs, brierSkillScore: bss, fairBrierScore: fbs, fairBrierSkillScore: fbss, ...dec, rocArea: auc, intervals,
-    rocPoints: usable ? rocPoints(p, o) : [], reliabilityTable: usable ? reliabilityTable(p, o) : [],
-    stages, value: usable ? valueEnvelope(p, o) : [], flags: allFlags,
+    lead,
+    basis,
+    cases: n,
+    events,
+    years: cases.years,
+    baseRate: usable ? events / n : nan,
+    brierScore: bs,
+    brierSkillScore: bss,
+    fairBrierScore: fbs,
+    fairBrierSkillScore: fbss,
+    ...dec,
+    rocArea: auc,
+    intervals,
+    rocPoints: usable ? rocPoints(p, o) : [],
+    reliabilityTable: usable ? reliabilityTable(p, o) : [],
+    stages,
+    value: usable ? valueEnvelope(p, o) : [],
+    flags: allFlags,
     summary: {
-      brierScore: bs, brierSkillScore: bss, fairBrierSkillScore: fbss, rocArea: auc, basis, cases: n,
-      years: cases.years.length, events, gate: verdict, skilful: verdict.passed,
+      brierScore: bs,
+      brierSkillScore: bss,
+      fairBrierSkillScore: fbss,
+      rocArea: auc,
+      basis,
+      cases: n,
+      years: cases.years.length,
+      events,
+      gate: verdict,
+      skilful: verdict.passed,
     },
   };
 }
@@ -171,7 +235,11 @@ export interface SkillRequest {
 }
 
 /** Verification cases of every hindcast lead: against observations where they cover the lead, else perfect-model. */
-export function leadCases(hc: LeadClimate, observed: LeadClimate | null, spec: ThresholdSpec): { lead: LeadWindow; basis: 'observed' | 'potential'; cases: VerificationCases; why: string }[] {
+export function leadCases(
+  hc: LeadClimate,
+  observed: LeadClimate | null,
+  spec: ThresholdSpec,
+): { lead: LeadWindow; basis: 'observed' | 'potential'; cases: VerificationCases; why: string }[] {
   return hc.leads.map((lead, l) => {
     const obsCovers = observed !== null && l < observed.leads.length && leadSample(observed, l).length > 0;
     if (obsCovers) return { lead, basis: 'observed' as const, cases: observedCases(hc, observed, l, spec, lead.tier !== 'days'), why: '' };
@@ -183,12 +251,16 @@ export function leadCases(hc: LeadClimate, observed: LeadClimate | null, spec: T
 /** A SkillReport per hindcast lead, each with the skill gate's verdict on its pooling window. */
 export function skillReports(req: SkillRequest): SkillReport[] {
   const nYears = distinctYears(req.hindcast);
-  const flags = nYears < req.minHindcastYears ? [`thresholds unstable: only ${nYears} hindcast years (minimum ${req.minHindcastYears})`] : [];
+  const flags =
+    nYears < req.minHindcastYears ? [`thresholds unstable: only ${nYears} hindcast years (minimum ${req.minHindcastYears})`] : [];
   const leads = leadCases(req.hindcast, req.observed, req.threshold);
   const verdicts = gateByLead(leads, req.gate);
   return leads.map((lc) => {
     const extra = lc.basis === 'potential' ? [`potential skill only: ${lc.why}`] : [];
-    return scoreCases(lc.lead, lc.basis, lc.cases, req.stageProbabilities, req.gate, verdicts.get(lc.lead.index) as SkillGateResult, [...flags, ...extra]);
+    return scoreCases(lc.lead, lc.basis, lc.cases, req.stageProbabilities, req.gate, verdicts.get(lc.lead.index) as SkillGateResult, [
+      ...flags,
+      ...extra,
+    ]);
   });
 }
 

@@ -19,7 +19,7 @@ export function resolveThresholdSpec(indicator: IndicatorConfig, region: string)
 export function ordinal(q: number): string {
   if (!Number.isInteger(q)) return `${q}th`;
   const teen = q % 100 >= 11 && q % 100 <= 13;
-  const suffix = teen ? 'th' : ['th', 'st', 'nd', 'rd'][q % 10] ?? 'th';
+  const suffix = teen ? 'th' : (['th', 'st', 'nd', 'rd'][q % 10] ?? 'th');
   return `${q}${suffix}`;
 }
 
@@ -28,7 +28,13 @@ function fmt(x: number): string {
 }
 
 /** q-th percentile (Hyndman-Fan type 7) of the climate sample at lead position l, with its origin text. */
-export function climatePercentileThreshold(c: LeadClimate, l: number, q: number, what: 'hindcasts' | 'observations', lead: LeadWindow): Threshold {
+export function climatePercentileThreshold(
+  c: LeadClimate,
+  l: number,
+  q: number,
+  what: 'hindcasts' | 'observations',
+  lead: LeadWindow,
+): Threshold {
   const sample = leadSample(c, l);
   return {
     value: percentileLinear(sample, q),
@@ -55,7 +61,10 @@ export function leaveOneYearOutThresholds(c: LeadClimate, l: number, q: number):
 
 function requireUnits(spec: { value: number; units: string }, units: string): void {
   if (spec.units !== units) {
-    throw new UnitError(`threshold ${spec.value} ${spec.units} cannot be compared with indicator values in ${units}`, `write the threshold in ${units} in the YAML`);
+    throw new UnitError(
+      `threshold ${spec.value} ${spec.units} cannot be compared with indicator values in ${units}`,
+      `write the threshold in ${units} in the YAML`,
+    );
   }
 }
 
@@ -89,7 +98,13 @@ export function quantileMappedThreshold(
 }
 
 /** The quantile-mapped threshold as a Threshold with its origin text. */
-export function quantileMappedThresholdObject(spec: { value: number; units: string }, observed: LeadClimate, model: LeadClimate, l: number, lead: LeadWindow): { threshold: Threshold; clipped: boolean } {
+export function quantileMappedThresholdObject(
+  spec: { value: number; units: string },
+  observed: LeadClimate,
+  model: LeadClimate,
+  l: number,
+  lead: LeadWindow,
+): { threshold: Threshold; clipped: boolean } {
   requireUnits(spec, model.units);
   requireUnits({ value: spec.value, units: observed.units }, model.units);
   const m = quantileMappedThreshold(spec.value, observed, model, l);

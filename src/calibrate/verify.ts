@@ -10,7 +10,12 @@ type Vec = ArrayLike<number>;
 
 function checkPair(p: Vec, o: Vec): number {
   if (p.length !== o.length) {
-    throw new ForelightError('calibrate', 'verify-shape', `${p.length} forecasts but ${o.length} outcomes`, 'pass one outcome per forecast');
+    throw new ForelightError(
+      'calibrate',
+      'verify-shape',
+      `${p.length} forecasts but ${o.length} outcomes`,
+      'pass one outcome per forecast',
+    );
   }
   return p.length;
 }
@@ -74,7 +79,11 @@ export function reliabilityTable(p: Vec, o: Vec, binEdges?: readonly number[]): 
  * Exact with distinct-value bins; with `binEdges` p_k is the bin's mean forecast and the identity holds only
  * approximately (within-bin variance is left out).
  */
-export function murphyDecomposition1973(p: Vec, o: Vec, binEdges?: readonly number[]): { reliability: number; resolution: number; uncertainty: number } {
+export function murphyDecomposition1973(
+  p: Vec,
+  o: Vec,
+  binEdges?: readonly number[],
+): { reliability: number; resolution: number; uncertainty: number } {
   const n = checkPair(p, o);
   const s = baseRate(o);
   let rel = 0;
@@ -96,7 +105,10 @@ export interface Contingency {
 /** 2x2 table for "warn when p >= threshold". */
 export function contingencyTable(p: Vec, o: Vec, threshold: number): Contingency {
   const n = checkPair(p, o);
-  let a = 0, b = 0, c = 0, d = 0;
+  let a = 0,
+    b = 0,
+    c = 0,
+    d = 0;
   for (let i = 0; i < n; i++) {
     const warn = p[i] >= threshold;
     if (o[i] === 1) warn ? a++ : c++;
@@ -142,8 +154,9 @@ export function rocPoints(p: Vec, o: Vec): RocPoint[] {
   for (let i = 0; i < n; i++) events += o[i];
   const nonEvents = n - events;
   const points: RocPoint[] = [{ threshold: Infinity, falseAlarmRate: 0, hitRate: 0 }];
-  let a = 0, b = 0;
-  for (let k = 0; k < n; ) {
+  let a = 0,
+    b = 0;
+  for (let k = 0; k < n;) {
     const t = p[idx[k]];
     while (k < n && p[idx[k]] === t) {
       o[idx[k]] === 1 ? a++ : b++;

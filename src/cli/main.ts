@@ -37,18 +37,23 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   extract: {
     summary: 'print the decoded, area-weighted region series of one file as JSON',
-    usage: 'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] --json',
-    spec: { values: ['var', 'box', 'regions', 'id-property', 'name-property', 'daily', 'utc-offset', 'time-zone', 'cells'], flags: ['json'] },
+    usage:
+      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] --json',
+    spec: {
+      values: ['var', 'box', 'regions', 'id-property', 'name-property', 'daily', 'utc-offset', 'time-zone', 'cells'],
+      flags: ['json'],
+    },
     run: async (a) => (await import('./commands/extract.ts')).extractCommand(a),
   },
   regions: {
-    summary: 'per source grid: each region\'s cells, covered area and warnings; writes a GeoJSON preview and an SVG map',
+    summary: "per source grid: each region's cells, covered area and warnings; writes a GeoJSON preview and an SVG map",
     usage: 'forelight regions [--config FILE] [--out DIR]',
     spec: { values: ['config', 'out'], flags: [] },
     run: async (a) => (await import('./commands/regions.ts')).regionsCommand(a),
   },
   skill: {
-    summary: 'print the hindcast skill table (Brier skill score with its 90 % interval, events, ROC area, skill gate) per source, region, indicator and lead',
+    summary:
+      'print the hindcast skill table (Brier skill score with its 90 % interval, events, ROC area, skill gate) per source, region, indicator and lead',
     usage: 'forelight skill [--config FILE] [--date YYYY-MM-DD] [--source ID] [--region ID] [--indicator ID] [--csv] [--detail]',
     spec: { values: ['config', 'date', 'source', 'region', 'indicator'], flags: ['csv', 'detail'] },
     run: async (a) => (await import('./commands/skill.ts')).skillCommand(a),
@@ -78,7 +83,7 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
     run: async (a) => (await import('./commands/serve.ts')).serveCommand(a),
   },
   ledger: {
-    summary: 'bring the ledger (SQLite file or PostgreSQL database) to this version\'s schema',
+    summary: "bring the ledger (SQLite file or PostgreSQL database) to this version's schema",
     usage: 'forelight ledger migrate [--config FILE]',
     spec: CONFIG,
     run: async (a) => (await import('./commands/ledger.ts')).ledgerCommand(a),
@@ -106,7 +111,7 @@ export function helpText(): string {
     'Commands:',
     ...lines,
     '',
-    "Without --config the embedded sample configuration (config/forelight.yaml) is used.",
+    'Without --config the embedded sample configuration (config/forelight.yaml) is used.',
     "Run 'forelight <command> --help' for its options.",
   ].join('\n');
 }

@@ -23,7 +23,12 @@ export async function clusterStatus(url: string): Promise<ClusterStatus> {
       url: shownUrl(url),
       workers: workers.map((w) => `${w.name ?? 'worker'} (${w.addr ?? '?'}, connected ${w.age ?? '?'} s)`),
       counts: counts as ClusterStatus['counts'],
-      failed: failed.map((j) => ({ id: j.id ?? '?', path: j.data.path, reason: j.failedReason, at: new Date(j.finishedOn ?? j.timestamp).toISOString() })),
+      failed: failed.map((j) => ({
+        id: j.id ?? '?',
+        path: j.data.path,
+        reason: j.failedReason,
+        at: new Date(j.finishedOn ?? j.timestamp).toISOString(),
+      })),
     };
   } finally {
     await queue.close();

@@ -22,9 +22,15 @@ export function parseClusterUrl(url: string): RedisConnection {
   try {
     u = new URL(url);
   } catch {
-    throw new ForelightError('cli', 'cluster-url', `--cluster '${url}' is not a URL`, 'write it as redis://HOST:PORT, e.g. redis://127.0.0.1:6379');
+    throw new ForelightError(
+      'cli',
+      'cluster-url',
+      `--cluster '${url}' is not a URL`,
+      'write it as redis://HOST:PORT, e.g. redis://127.0.0.1:6379',
+    );
   }
-  if (u.protocol !== 'redis:') throw new ForelightError('cli', 'cluster-url', `--cluster '${url}' is not a redis:// URL`, 'write it as redis://HOST:PORT');
+  if (u.protocol !== 'redis:')
+    throw new ForelightError('cli', 'cluster-url', `--cluster '${url}' is not a redis:// URL`, 'write it as redis://HOST:PORT');
   const db = u.pathname.length > 1 ? Number(u.pathname.slice(1)) : undefined;
   return {
     host: u.hostname || '127.0.0.1',

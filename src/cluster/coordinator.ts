@@ -42,14 +42,21 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
   const clients = [redisClient(url), redisClient(url)];
   const queue = new Queue<ExtractJob, WireResult>(EXTRACT_QUEUE, { connection: clients[0] });
   const events = new QueueEvents(EXTRACT_QUEUE, { connection: clients[1] });
-  const disconnect = (): void => { for (const c of clients) c.disconnect(); };
+  const disconnect = (): void => {
+    for (const c of clients) c.disconnect();
+  };
   try {
     await Promise.all([queue.waitUntilReady(), events.waitUntilReady()]);
   } catch (err) {
     await Promise.allSettled([queue.close(), events.close()]);
     disconnect();
-    throw new ForelightError('cli', 'cluster-unreachable', `cannot reach the cluster's Redis at ${shownUrl(url)}: ${(err as Error).message}`,
-      'start redis-server there, or check --cluster', { cause: err });
+    throw new ForelightError(
+      'cli',
+      'cluster-unreachable',
+      `cannot reach the cluster's Redis at ${shownUrl(url)}: ${(err as Error).message}`,
+      'start redis-server there, or check --cluster',
+      { cause: err },
+    );
   }
   const checksums = await openChecksumMemo(options.cacheDir);
   const timeout = options.jobTimeoutMs ?? 30 * 60_000;
@@ -58,17 +65,28 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     const id = jobId(await checksums.sha256(path), request);
     const earlier = await queue.getJob(id);
     if (earlier && (await earlier.isFailed())) await earlier.remove(); // a failed read is tried again, not remembered
-    const job = await queue.add('extract', { path, request }, {
-      jobId: id, attempts: 3, backoff: { type: 'exponential', delay: 2000 },
-      removeOnComplete: { age: KEEP_DONE_S }, removeOnFail: { age: KEEP_DONE_S },
-    });
+    const job = await queue.add(
+      'extract',
+      { path, request },
+      {
+        jobId: id,
+        attempts: 3,
+        backoff: { type: 'exponential', delay: 2000 },
+        removeOnComplete: { age: KEEP_DONE_S },
+        removeOnFail: { age: KEEP_DONE_S },
+      },
+    );
     options.log.debug('extraction queued', { stage: 'read', job: id, path });
     let wire: WireResult;
     try {
       wire = (await job.waitUntilFinished(events, timeout)) as WireResult;
     } catch (err) {
-      throw new InputError('read-failed', path, `the cluster's workers could not read it (${(err as Error).message})`,
-        `check the file and "forelight status --cluster ${shownUrl(url)}"; the other sources went on`);
+      throw new InputError(
+        'read-failed',
+        path,
+        `the cluster's workers could not read it (${(err as Error).message})`,
+        `check the file and "forelight status --cluster ${shownUrl(url)}"; the other sources went on`,
+      );
     }
     const result = fromWire(wire);
     if (wire.thrown) throw result.problems[result.problems.length - 1];

@@ -65,4 +65,3 @@ export async function runClusterWorker(url: string, options: WorkerOptions): Pro
   await worker.close();
   client.disconnect();
 }
-

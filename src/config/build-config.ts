@@ -8,7 +8,19 @@ import type { Quantity, Tier } from '../types.ts';
 import { thresholdUnits } from './threshold-units.ts';
 import { unwrapRing } from './boundaries/geometry.ts';
 import { entryDefaults } from './boundaries/region-sets.ts';
-import { DEFAULT_LOOKBACK_DAYS, type Config, type DecisionConfig, type IndicatorConfig, type IndicatorKind, type RegionConfig, type RegionShape, type SmtpConfig, type StageConfig, type ThresholdSpec, type TriggerRule } from './types.ts';
+import {
+  DEFAULT_LOOKBACK_DAYS,
+  type Config,
+  type DecisionConfig,
+  type IndicatorConfig,
+  type IndicatorKind,
+  type RegionConfig,
+  type RegionShape,
+  type SmtpConfig,
+  type StageConfig,
+  type ThresholdSpec,
+  type TriggerRule,
+} from './types.ts';
 
 /** Runs a missing tier's last stage is held by default (escalation.hold-missing-runs). */
 export const DEFAULT_HOLD_MISSING_RUNS = 2;
@@ -17,20 +29,96 @@ export const DEFAULT_CHROMIUM = '/usr/bin/chromium';
 
 /* The raw tree as the schema describes it (kebab-case keys). */
 type Texts = Record<string, string>;
-interface RawThreshold { percentile?: number; value?: number; units?: string }
+interface RawThreshold {
+  percentile?: number;
+  value?: number;
+  units?: string;
+}
 interface RawTree {
   country: string | Texts;
-  sources: { id: string; name: string; tier: Tier; 'forecast-files': string; 'hindcast-files'?: string; variables: Partial<Record<Quantity, string>>; priority: number; 'look-back-days'?: number }[];
+  sources: {
+    id: string;
+    name: string;
+    tier: Tier;
+    'forecast-files': string;
+    'hindcast-files'?: string;
+    variables: Partial<Record<Quantity, string>>;
+    priority: number;
+    'look-back-days'?: number;
+  }[];
   observations?: { file: string; variables: Partial<Record<Quantity, string>> } | null;
-  regions: ({ id: string; name: string; box?: { south: number; north: number; west: number; east: number }; polygon?: [number, number][]; teams: string[] } & Record<string, unknown>)[];
+  regions: ({
+    id: string;
+    name: string;
+    box?: { south: number; north: number; west: number; east: number };
+    polygon?: [number, number][];
+    teams: string[];
+  } & Record<string, unknown>)[];
   teams: { id: string; name: string; locale: string; recipients: string[]; national?: boolean }[];
-  indicators: { id: string; name: string; kind: IndicatorKind; 'window-days'?: number; threshold: RawThreshold; 'region-thresholds'?: Record<string, RawThreshold>; aggregate: 'mean' | 'max' | 'sum'; tiers: Tier[]; params?: Record<string, number | string | boolean> }[];
-  'stage-ladder': { id: string; label: Texts; glyph: string; colour: string; meaning: Texts; actions: Record<string, Texts>; cap: StageConfig['cap'] }[];
-  'trigger-rules': { id: string; indicator: string; tier: Tier; leads?: number[]; stage: string; probability?: number; 'cost-loss'?: number }[];
-  escalation: { 'tier-caps': Partial<Record<Tier, string>>; 'escalate-after-runs': number; 'relax-after-runs': number; 'hold-missing-runs'?: number; 'top-stage-immediate': boolean; combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } }; 'skill-gate': { floor?: number; 'min-events'?: number; 'pool-leads'?: Partial<Record<Tier, number>>; resamples?: number; seed?: number; action: 'withhold' | 'say-no-skill' } };
+  indicators: {
+    id: string;
+    name: string;
+    kind: IndicatorKind;
+    'window-days'?: number;
+    threshold: RawThreshold;
+    'region-thresholds'?: Record<string, RawThreshold>;
+    aggregate: 'mean' | 'max' | 'sum';
+    tiers: Tier[];
+    params?: Record<string, number | string | boolean>;
+  }[];
+  'stage-ladder': {
+    id: string;
+    label: Texts;
+    glyph: string;
+    colour: string;
+    meaning: Texts;
+    actions: Record<string, Texts>;
+    cap: StageConfig['cap'];
+  }[];
+  'trigger-rules': {
+    id: string;
+    indicator: string;
+    tier: Tier;
+    leads?: number[];
+    stage: string;
+    probability?: number;
+    'cost-loss'?: number;
+  }[];
+  escalation: {
+    'tier-caps': Partial<Record<Tier, string>>;
+    'escalate-after-runs': number;
+    'relax-after-runs': number;
+    'hold-missing-runs'?: number;
+    'top-stage-immediate': boolean;
+    combine: 'highest' | { matrix: { rows: string[]; columns: string[]; table: string[][] } };
+    'skill-gate': {
+      floor?: number;
+      'min-events'?: number;
+      'pool-leads'?: Partial<Record<Tier, number>>;
+      resamples?: number;
+      seed?: number;
+      action: 'withhold' | 'say-no-skill';
+    };
+  };
   calibration: { 'window-days': number; 'min-hindcast-years': number; 'min-members': number; 'cache-dir': string };
   schedule: { cron: string; timezone: string; 'wait-for-data-minutes': number; 'poll-seconds': number };
-  delivery: { from: string; smtp: { host: string; port: number; security: SmtpConfig['security']; user?: string; 'password-env'?: string; 'timeout-seconds'?: number } | null; outbox: string; archive: string; operators: string[]; retries: number; 'retry-base-seconds': number; 'pdf-chromium'?: string | null };
+  delivery: {
+    from: string;
+    smtp: {
+      host: string;
+      port: number;
+      security: SmtpConfig['security'];
+      user?: string;
+      'password-env'?: string;
+      'timeout-seconds'?: number;
+    } | null;
+    outbox: string;
+    archive: string;
+    operators: string[];
+    retries: number;
+    'retry-base-seconds': number;
+    'pdf-chromium'?: string | null;
+  };
   cautions: Record<string, string[]>;
   'probability-words': ({ below?: number } & Record<string, string | number>)[];
   ledger: string;
@@ -58,7 +146,9 @@ function toShape(r: RawTree['regions'][number]): RegionShape {
 
 /** Inline regions as written; a boundary-file entry as the regions loaded from it (`sets`). */
 function toRegions(raw: RawTree, sets: ReadonlyMap<number, readonly RegionConfig[]>): RegionConfig[] {
-  return raw.regions.flatMap((r, i) => sets.get(i) ?? [{ id: r.id, name: r.name, shape: toShape(r), teams: r.teams, ...entryDefaults(r, raw.schedule.timezone) }]);
+  return raw.regions.flatMap(
+    (r, i) => sets.get(i) ?? [{ id: r.id, name: r.name, shape: toShape(r), teams: r.teams, ...entryDefaults(r, raw.schedule.timezone) }],
+  );
 }
 
 /** The schema has checked `params` against the kind's params schema, so kind and params belong together. */
@@ -94,7 +184,13 @@ function toSmtp(s: NonNullable<RawTree['delivery']['smtp']>): SmtpConfig {
 
 /** `file` is the absolute path of the main YAML file; relative paths resolve against its directory. */
 /** Defaults of the skill gate: pool the days of a lead week; weeks and months lead by lead. */
-export const SKILL_GATE_DEFAULTS = { floor: 0, minEvents: 5, poolLeads: { days: 7, weeks: 1, months: 1 }, resamples: 1000, seed: 1 } as const;
+export const SKILL_GATE_DEFAULTS = {
+  floor: 0,
+  minEvents: 5,
+  poolLeads: { days: 7, weeks: 1, months: 1 },
+  resamples: 1000,
+  seed: 1,
+} as const;
 
 function skillGate(g: RawTree['escalation']['skill-gate']): DecisionConfig['skillGate'] {
   const d = SKILL_GATE_DEFAULTS;
@@ -117,7 +213,7 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
   const words = raw['probability-words'];
   return {
     file,
-    country: typeof raw.country === 'string' ? raw.country : raw.country.en ?? Object.values(raw.country)[0],
+    country: typeof raw.country === 'string' ? raw.country : (raw.country.en ?? Object.values(raw.country)[0]),
     countryNames: typeof raw.country === 'string' ? {} : raw.country,
     sources: raw.sources.map((s) => ({
       id: s.id,
@@ -133,7 +229,15 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
     regions: toRegions(raw, sets),
     teams: raw.teams.map((t) => ({ id: t.id, name: t.name, locale: t.locale, recipients: t.recipients, national: t.national ?? false })),
     indicators: raw.indicators.map(toIndicator),
-    stages: raw['stage-ladder'].map((s) => ({ id: s.id, label: s.label, colour: s.colour, glyph: s.glyph, meaning: s.meaning, actions: s.actions, cap: s.cap })),
+    stages: raw['stage-ladder'].map((s) => ({
+      id: s.id,
+      label: s.label,
+      colour: s.colour,
+      glyph: s.glyph,
+      meaning: s.meaning,
+      actions: s.actions,
+      cap: s.cap,
+    })),
     rules: raw['trigger-rules'].map(toRule),
     decision: {
       tierCaps: e['tier-caps'],

@@ -21,24 +21,53 @@ export function checkCombine(raw: RawObject): ConfigProblem[] {
   columns.forEach((id, i) => {
     if (id === undefined) return;
     if (!indicators.has(id)) out.push(problem(at('columns', i), `unknown indicator '${id}'`, oneOf(indicators)));
-    else if (rows.includes(id)) out.push(problem(at('columns', i), `indicator '${id}' is on both axes of the matrix`, 'put each indicator in rows or in columns, not both'));
+    else if (rows.includes(id))
+      out.push(
+        problem(at('columns', i), `indicator '${id}' is on both axes of the matrix`, 'put each indicator in rows or in columns, not both'),
+      );
   });
   const table = list(matrix.table).map((r) => list(r).map(text));
   if (table.length !== stages.length) {
-    out.push(problem(at('table'), `the table has ${table.length} rows but the ladder has ${stages.length} stages`, 'write one row per stage, lowest stage first'));
+    out.push(
+      problem(
+        at('table'),
+        `the table has ${table.length} rows but the ladder has ${stages.length} stages`,
+        'write one row per stage, lowest stage first',
+      ),
+    );
     return out;
   }
   const rank = (id: string | undefined) => (id === undefined ? -1 : stages.indexOf(id));
   table.forEach((row, r) => {
     if (row.length !== stages.length) {
-      out.push(problem(at('table', r), `row ${r + 1} has ${row.length} entries but the ladder has ${stages.length} stages`, 'write one stage id per stage of the ladder, lowest first'));
+      out.push(
+        problem(
+          at('table', r),
+          `row ${r + 1} has ${row.length} entries but the ladder has ${stages.length} stages`,
+          'write one stage id per stage of the ladder, lowest first',
+        ),
+      );
       return;
     }
     row.forEach((cell, c) => {
       const k = rank(cell);
       if (k < 0) out.push(problem(at('table', r, c), `unknown stage '${cell ?? ''}'`, oneOf(known(stages))));
-      else if (k < Math.max(r, c)) out.push(problem(at('table', r, c), `'${cell}' is lower than an input stage (row ${stages[r]}, column ${stages[c]}): the matrix would hide a warning`, `use ${stages[Math.max(r, c)]} or higher`));
-      else if ((c > 0 && k < rank(row[c - 1])) || (r > 0 && k < rank(table[r - 1][c]))) out.push(problem(at('table', r, c), `'${cell}' is lower than the entry before it: a rising input would lower the region's stage`, 'make every row and column non-decreasing'));
+      else if (k < Math.max(r, c))
+        out.push(
+          problem(
+            at('table', r, c),
+            `'${cell}' is lower than an input stage (row ${stages[r]}, column ${stages[c]}): the matrix would hide a warning`,
+            `use ${stages[Math.max(r, c)]} or higher`,
+          ),
+        );
+      else if ((c > 0 && k < rank(row[c - 1])) || (r > 0 && k < rank(table[r - 1][c])))
+        out.push(
+          problem(
+            at('table', r, c),
+            `'${cell}' is lower than the entry before it: a rising input would lower the region's stage`,
+            'make every row and column non-decreasing',
+          ),
+        );
     });
   });
   return out;

@@ -36,7 +36,12 @@ export function lonIntervals(west: number, east: number, lon360: boolean): [numb
   const start = lo + ((((west - lo) % 360) + 360) % 360);
   const span = east - west >= 360 ? 360 : (((east - west) % 360) + 360) % 360;
   const end = start + span;
-  return end <= lo + 360 ? [[start, end]] : [[start, lo + 360], [lo, end - 360]];
+  return end <= lo + 360
+    ? [[start, end]]
+    : [
+        [start, lo + 360],
+        [lo, end - 360],
+      ];
 }
 
 const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 && b0 <= a1;
@@ -45,7 +50,11 @@ const overlaps = (a0: number, a1: number, b0: number, b1: number) => a0 <= b1 &&
  * One diagnostic per region that lies entirely outside a source's grid, at the region's YAML line when the
  * source map of the loaded configuration is given (`checkConfigFile` returns it), else naming the file only.
  */
-export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExtent[], sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
+export function checkRegionsAgainstGrids(
+  config: Config,
+  grids: readonly GridExtent[],
+  sourceMap: ConfigSourceMap | undefined,
+): Diagnostic[] {
   const out: Diagnostic[] = [];
   config.regions.forEach((region) => {
     const i = regionEntryOf(config, region.id);
@@ -54,10 +63,16 @@ export function checkRegionsAgainstGrids(config: Config, grids: readonly GridExt
       const latOk = overlaps(b.south, b.north, g.latMin, g.latMax);
       const lonOk = lonIntervals(b.west, b.east, g.lon360).some(([w, e]) => overlaps(w, e, g.lonMin, g.lonMax));
       if (latOk && lonOk) continue;
-      const p = problem(pointerOf('regions', i),
+      const p = problem(
+        pointerOf('regions', i),
         `region ${region.id} (lat ${b.south}..${b.north}, lon ${b.west}..${b.east}) lies outside the grid of source ${g.source} (lat ${g.latMin}..${g.latMax}, lon ${g.lonMin}..${g.lonMax})`,
-        'check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files');
-      out.push(sourceMap ? sourceMap.place('config-grid', p) : diagnostic('config-grid', p.message, p.fix, { file: config.file, pointer: p.pointer }));
+        'check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files',
+      );
+      out.push(
+        sourceMap
+          ? sourceMap.place('config-grid', p)
+          : diagnostic('config-grid', p.message, p.fix, { file: config.file, pointer: p.pointer }),
+      );
     }
   });
   return out;

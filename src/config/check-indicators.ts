@@ -39,7 +39,13 @@ export function checkIndicators(raw: RawObject, schemaProblems: readonly ConfigP
       const name = text(holder.id) ? `source ${text(holder.id)}` : 'the observations';
       for (const anyOf of indicatorDefinition(kind).needs) {
         if (anyOf.some((q) => text(variables[q]) !== undefined)) continue;
-        out.push(problem(at + '/variables', `indicator ${id} (${kind}) needs ${anyOf.join(' or ')}, which ${name} does not map`, `add ${anyOf[0]}: <variable name in the file> under variables`));
+        out.push(
+          problem(
+            at + '/variables',
+            `indicator ${id} (${kind}) needs ${anyOf.join(' or ')}, which ${name} does not map`,
+            `add ${anyOf[0]}: <variable name in the file> under variables`,
+          ),
+        );
       }
     }
   });
@@ -49,14 +55,22 @@ export function checkIndicators(raw: RawObject, schemaProblems: readonly ConfigP
 function checkThreshold(th: RawObject, at: string, id: string, kind: IndicatorKind | undefined): ConfigProblem[] {
   const hasP = th.percentile !== undefined;
   const hasV = th.value !== undefined;
-  if (hasP && (hasV || th.units !== undefined)) return [problem(at, `threshold of ${id} mixes percentile with value/units`, 'write either { percentile: 90 } or { value: 39, units: degC }')];
-  if (!hasP && !hasV) return [problem(at, `threshold of ${id} has neither percentile nor value`, 'write either { percentile: 90 } or { value: 39, units: degC }')];
+  if (hasP && (hasV || th.units !== undefined))
+    return [
+      problem(at, `threshold of ${id} mixes percentile with value/units`, 'write either { percentile: 90 } or { value: 39, units: degC }'),
+    ];
+  if (!hasP && !hasV)
+    return [
+      problem(at, `threshold of ${id} has neither percentile nor value`, 'write either { percentile: 90 } or { value: 39, units: degC }'),
+    ];
   if (hasP || kind === undefined) return [];
   const units = text(th.units);
   const family = thresholdUnits(kind);
   if (units === undefined) return [problem(at, `threshold value of ${id} has no units`, `add units: ${family.canonical}`)];
   if (!Object.hasOwn(family.accepted, units)) {
-    return [problem(at + '/units', `units "${units}" do not fit indicator ${id} (${kind})`, `use ${Object.keys(family.accepted).join(', ')}`)];
+    return [
+      problem(at + '/units', `units "${units}" do not fit indicator ${id} (${kind})`, `use ${Object.keys(family.accepted).join(', ')}`),
+    ];
   }
   return [];
 }

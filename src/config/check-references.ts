@@ -19,14 +19,21 @@ export function checkDuplicateIds(raw: RawObject): ConfigProblem[] {
       if (id === undefined) return;
       const j = first.get(id);
       if (j === undefined) first.set(id, i);
-      else out.push(problem(pointerOf(key, i, 'id'), `duplicate ${what} id "${id}" (also entry ${j + 1} of ${key})`, `give each ${what} its own id`));
+      else
+        out.push(
+          problem(pointerOf(key, i, 'id'), `duplicate ${what} id "${id}" (also entry ${j + 1} of ${key})`, `give each ${what} its own id`),
+        );
     });
   }
   return out;
 }
 
 /** `setRegionIds`: ids of the regions read from boundary files (regions: entries with boundaries:). */
-export function checkReferences(raw: RawObject, _schemaProblems: readonly unknown[] = [], setRegionIds: readonly string[] = []): ConfigProblem[] {
+export function checkReferences(
+  raw: RawObject,
+  _schemaProblems: readonly unknown[] = [],
+  setRegionIds: readonly string[] = [],
+): ConfigProblem[] {
   const out: ConfigProblem[] = [];
   const teams = known(ids(raw.teams));
   const regions = known([...ids(raw.regions), ...setRegionIds]);
@@ -36,18 +43,26 @@ export function checkReferences(raw: RawObject, _schemaProblems: readonly unknow
 
   list(raw.regions).forEach((r, i) => {
     list(obj(r).teams).forEach((t, j) => {
-      if (typeof t === 'string' && !teams.has(t)) out.push(problem(pointerOf('regions', i, 'teams', j), `unknown team "${t}"`, oneOf(teams)));
+      if (typeof t === 'string' && !teams.has(t))
+        out.push(problem(pointerOf('regions', i, 'teams', j), `unknown team "${t}"`, oneOf(teams)));
     });
   });
 
   list(raw.indicators).forEach((ind, i) => {
     const o = obj(ind);
     for (const region of Object.keys(obj(o['region-thresholds']))) {
-      if (!regions.has(region)) out.push(problem(pointerOf('indicators', i, 'region-thresholds', region), `unknown region "${region}"`, oneOf(regions), 'key'));
+      if (!regions.has(region))
+        out.push(problem(pointerOf('indicators', i, 'region-thresholds', region), `unknown region "${region}"`, oneOf(regions), 'key'));
     }
     list(o.tiers).forEach((tier, j) => {
       if (typeof tier === 'string' && !sourceTiers.has(tier)) {
-        out.push(problem(pointerOf('indicators', i, 'tiers', j), `no source has tier ${tier}`, `add a source with tier: ${tier} or remove ${tier} from this indicator's tiers`));
+        out.push(
+          problem(
+            pointerOf('indicators', i, 'tiers', j),
+            `no source has tier ${tier}`,
+            `add a source with tier: ${tier} or remove ${tier} from this indicator's tiers`,
+          ),
+        );
       }
     });
   });
@@ -55,7 +70,14 @@ export function checkReferences(raw: RawObject, _schemaProblems: readonly unknow
   list(raw['stage-ladder']).forEach((s, i) => {
     for (const audience of Object.keys(obj(obj(s).actions))) {
       if (audience !== 'default' && !teams.has(audience)) {
-        out.push(problem(pointerOf('stage-ladder', i, 'actions', audience), `unknown team "${audience}" in actions`, `use default or a team id: ${[...teams].join(', ')}`, 'key'));
+        out.push(
+          problem(
+            pointerOf('stage-ladder', i, 'actions', audience),
+            `unknown team "${audience}" in actions`,
+            `use default or a team id: ${[...teams].join(', ')}`,
+            'key',
+          ),
+        );
       }
     }
   });
@@ -66,15 +88,24 @@ export function checkReferences(raw: RawObject, _schemaProblems: readonly unknow
     const ind = text(o.indicator);
     const stage = text(o.stage);
     const tier = text(o.tier);
-    if (ind !== undefined && !indicators.has(ind)) out.push(problem(pointerOf('trigger-rules', i, 'indicator'), `unknown indicator "${ind}"`, oneOf(indicators)));
+    if (ind !== undefined && !indicators.has(ind))
+      out.push(problem(pointerOf('trigger-rules', i, 'indicator'), `unknown indicator "${ind}"`, oneOf(indicators)));
     else if (ind !== undefined && tier !== undefined && !indicatorTiers.get(ind)?.includes(tier)) {
-      out.push(problem(pointerOf('trigger-rules', i, 'tier'), `indicator ${ind} is not computed for tier ${tier}`, `add ${tier} to the tiers of indicator ${ind} or change this rule's tier`));
+      out.push(
+        problem(
+          pointerOf('trigger-rules', i, 'tier'),
+          `indicator ${ind} is not computed for tier ${tier}`,
+          `add ${tier} to the tiers of indicator ${ind} or change this rule's tier`,
+        ),
+      );
     }
-    if (stage !== undefined && !stages.has(stage)) out.push(problem(pointerOf('trigger-rules', i, 'stage'), `unknown stage "${stage}"`, oneOf(stages)));
+    if (stage !== undefined && !stages.has(stage))
+      out.push(problem(pointerOf('trigger-rules', i, 'stage'), `unknown stage "${stage}"`, oneOf(stages)));
   });
 
   for (const [tier, stage] of Object.entries(obj(obj(raw.escalation)['tier-caps']))) {
-    if (typeof stage === 'string' && !stages.has(stage)) out.push(problem(pointerOf('escalation', 'tier-caps', tier), `unknown stage "${stage}"`, oneOf(stages)));
+    if (typeof stage === 'string' && !stages.has(stage))
+      out.push(problem(pointerOf('escalation', 'tier-caps', tier), `unknown stage "${stage}"`, oneOf(stages)));
   }
   return out;
 }

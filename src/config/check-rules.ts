@@ -34,15 +34,34 @@ export function checkRules(raw: RawObject): ConfigProblem[] {
     const hasCL = o['cost-loss'] !== undefined;
     const at = pointerOf('trigger-rules', index);
     if (hasP === hasCL) {
-      out.push(problem(at, hasP ? 'rule gives both probability and cost-loss' : 'rule gives neither probability nor cost-loss', 'keep exactly one: probability (fixed) or cost-loss (tuned on the hindcasts)'));
+      out.push(
+        problem(
+          at,
+          hasP ? 'rule gives both probability and cost-loss' : 'rule gives neither probability nor cost-loss',
+          'keep exactly one: probability (fixed) or cost-loss (tuned on the hindcasts)',
+        ),
+      );
     }
     const stage = text(o.stage);
     const tier = text(o.tier);
     const stageRank = rank(stage);
-    if (stageRank === 0) out.push(problem(pointerOf('trigger-rules', index, 'stage'), `rule raises the lowest stage "${stage}", which is never raised`, 'name a higher stage or delete the rule'));
+    if (stageRank === 0)
+      out.push(
+        problem(
+          pointerOf('trigger-rules', index, 'stage'),
+          `rule raises the lowest stage "${stage}", which is never raised`,
+          'name a higher stage or delete the rule',
+        ),
+      );
     const cap = tier !== undefined ? text(caps[tier]) : undefined;
     if (cap !== undefined && stageRank > rank(cap) && rank(cap) >= 0) {
-      out.push(problem(pointerOf('trigger-rules', index, 'stage'), `rule raises ${stage} but tier ${tier} is capped at ${cap}`, `lower the rule's stage to ${cap} or raise the cap in escalation.tier-caps`));
+      out.push(
+        problem(
+          pointerOf('trigger-rules', index, 'stage'),
+          `rule raises ${stage} but tier ${tier} is capped at ${cap}`,
+          `lower the rule's stage to ${cap} or raise the cap in escalation.tier-caps`,
+        ),
+      );
     }
     return {
       index,
@@ -63,9 +82,13 @@ export function checkRules(raw: RawObject): ConfigProblem[] {
       if (hi.stageRank <= lo.stageRank || lo.stageRank < 0 || hi.probability === undefined || lo.probability === undefined) continue;
       if (hi.indicator !== lo.indicator || hi.tier !== lo.tier || !leadsOverlap(hi.leads, lo.leads)) continue;
       if (hi.probability <= lo.probability) {
-        out.push(problem(pointerOf('trigger-rules', hi.index, 'probability'),
-          `rule ${hi.id} raises ${hi.stage} at P ≥ ${hi.probability}, not above rule ${lo.id} (${lo.stage}) at P ≥ ${lo.probability} on the same indicator, tier and leads`,
-          `give the higher stage a higher probability than ${lo.probability}`));
+        out.push(
+          problem(
+            pointerOf('trigger-rules', hi.index, 'probability'),
+            `rule ${hi.id} raises ${hi.stage} at P ≥ ${hi.probability}, not above rule ${lo.id} (${lo.stage}) at P ≥ ${lo.probability} on the same indicator, tier and leads`,
+            `give the higher stage a higher probability than ${lo.probability}`,
+          ),
+        );
       }
     }
   }
@@ -77,7 +100,13 @@ export function checkRules(raw: RawObject): ConfigProblem[] {
     const r = sev === undefined ? -1 : SEVERITY_ORDER.indexOf(sev);
     if (r < 0) return;
     if (r < highest) {
-      out.push(problem(pointerOf('stage-ladder', i, 'cap', 'severity'), `CAP severity ${sev} is lower than ${SEVERITY_ORDER[highest]} of the lower stage ${highestStage}`, 'order stages lowest first and give higher stages an equal or higher severity'));
+      out.push(
+        problem(
+          pointerOf('stage-ladder', i, 'cap', 'severity'),
+          `CAP severity ${sev} is lower than ${SEVERITY_ORDER[highest]} of the lower stage ${highestStage}`,
+          'order stages lowest first and give higher stages an equal or higher severity',
+        ),
+      );
     } else {
       highest = r;
       highestStage = text(obj(s).id) ?? `#${i + 1}`;

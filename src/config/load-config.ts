@@ -41,7 +41,10 @@ export interface ConfigCheck {
  * reference would look unknown. The schema's problems let a check skip what the schema already refused; the ids
  * of the regions read from boundary files count as region ids.
  */
-const SEMANTIC_CHECKS: readonly (readonly [DiagnosticCode, (raw: Record<string, unknown>, schemaProblems: readonly ConfigProblem[], setRegionIds: readonly string[]) => ConfigProblem[]])[] = [
+const SEMANTIC_CHECKS: readonly (readonly [
+  DiagnosticCode,
+  (raw: Record<string, unknown>, schemaProblems: readonly ConfigProblem[], setRegionIds: readonly string[]) => ConfigProblem[],
+])[] = [
   ['config-duplicate-id', checkDuplicateIds],
   ['config-reference', checkReferences],
   ['config-rule', checkRules],
@@ -67,7 +70,8 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
   const file = resolve(path);
   const sourceMap = new ConfigSourceMap();
   const main = await readYamlFile(file);
-  if (!main.ok) return { diagnostics: [diagnostic('config-file', main.message, main.fix, { file: displayPath(file), line: 1, column: 1 })], sourceMap };
+  if (!main.ok)
+    return { diagnostics: [diagnostic('config-file', main.message, main.fix, { file: displayPath(file), line: 1, column: 1 })], sourceMap };
   sourceMap.addDocument(file, main.doc, main.lineCounter);
   if (main.problems.length > 0) return { diagnostics: main.problems, sourceMap };
 
@@ -79,12 +83,16 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
   for (const key of INCLUDABLE) {
     const rel = text(include[key]);
     if (rel === undefined) {
-      if (raw[key] === undefined) pending.push(['config-include', problem('', `no ${key} given`, `add ${key}: inline or include: ${key}: <file>`)]);
+      if (raw[key] === undefined)
+        pending.push(['config-include', problem('', `no ${key} given`, `add ${key}: inline or include: ${key}: <file>`)]);
       continue;
     }
     const at = pointerOf('include', key);
     if (raw[key] !== undefined) {
-      pending.push(['config-include', problem(at, `${key} are given both inline and in an included file`, `keep one: delete the inline ${key}: or this include`)]);
+      pending.push([
+        'config-include',
+        problem(at, `${key} are given both inline and in an included file`, `keep one: delete the inline ${key}: or this include`),
+      ]);
       continue;
     }
     const includedFile = resolve(dirname(file), rel);
@@ -107,7 +115,8 @@ export async function checkConfigFile(path: string = DEFAULT_CONFIG_PATH): Promi
     sets = await loadRegionSets(raw, dirname(file));
     const setIds = [...sets.byEntry.values()].flat().map((r) => r.id);
     pending.push(...sets.problems.map((p): [DiagnosticCode, ConfigProblem] => ['config-boundaries', p]));
-    for (const [code, check] of SEMANTIC_CHECKS) pending.push(...check(raw, schemaProblems, setIds).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
+    for (const [code, check] of SEMANTIC_CHECKS)
+      pending.push(...check(raw, schemaProblems, setIds).map((p): [DiagnosticCode, ConfigProblem] => [code, p]));
   }
   diagnostics.push(...pending.map(([code, p]) => sourceMap.place(code, p)));
   const unique = uniqueDiagnostics(diagnostics).sort(byPlace);

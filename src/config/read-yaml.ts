@@ -11,7 +11,13 @@ export const MAX_CONFIG_BYTES = 1024 * 1024;
 export const MAX_ALIAS_COUNT = 100;
 
 export type YamlRead =
-  | { readonly ok: true; readonly doc: Document; readonly lineCounter: LineCounter; readonly value: unknown; readonly problems: readonly Diagnostic[] }
+  | {
+      readonly ok: true;
+      readonly doc: Document;
+      readonly lineCounter: LineCounter;
+      readonly value: unknown;
+      readonly problems: readonly Diagnostic[];
+    }
   /** The file could not be read at all; the caller places the message (e.g. at the include key). */
   | { readonly ok: false; readonly message: string; readonly fix: string };
 
@@ -59,24 +65,47 @@ export async function readYamlFile(file: string): Promise<YamlRead> {
   try {
     size = (await stat(file)).size;
   } catch (err) {
-    return { ok: false, message: `cannot read ${displayPath(file)} (${(err as NodeJS.ErrnoException).code ?? String(err)})`, fix: 'check the path (relative to the including file)' };
+    return {
+      ok: false,
+      message: `cannot read ${displayPath(file)} (${(err as NodeJS.ErrnoException).code ?? String(err)})`,
+      fix: 'check the path (relative to the including file)',
+    };
   }
   if (size > MAX_CONFIG_BYTES) {
-    return { ok: false, message: `${displayPath(file)} is ${size} bytes, over the ${MAX_CONFIG_BYTES}-byte limit for configuration files`, fix: 'remove the bulk or split regions and teams into included files' };
+    return {
+      ok: false,
+      message: `${displayPath(file)} is ${size} bytes, over the ${MAX_CONFIG_BYTES}-byte limit for configuration files`,
+      fix: 'remove the bulk or split regions and teams into included files',
+    };
   }
   let bytes: Buffer;
   try {
     bytes = await readFile(file);
   } catch (err) {
     const code = (err as NodeJS.ErrnoException).code;
-    return { ok: false, message: `cannot read ${displayPath(file)} (${code === 'EISDIR' ? 'it is a folder' : code ?? String(err)})`, fix: code === 'EISDIR' ? 'name the YAML file inside it' : 'check the path and its permissions' };
+    return {
+      ok: false,
+      message: `cannot read ${displayPath(file)} (${code === 'EISDIR' ? 'it is a folder' : (code ?? String(err))})`,
+      fix: code === 'EISDIR' ? 'name the YAML file inside it' : 'check the path and its permissions',
+    };
   }
   const bad = firstInvalidUtf8(bytes);
   if (bad !== null) {
     const { line, col } = positionOf(bytes, bad);
-    return { ok: true, doc: parseDocument(''), lineCounter: new LineCounter(), value: undefined, problems: [
-      diagnostic('config-yaml', `byte 0x${bytes[bad].toString(16).padStart(2, '0')} is not UTF-8 (YAML 1.2 §5.2 requires Unicode)`, 'save the file as UTF-8 (e.g. iconv -f latin1 -t utf-8)', { file: displayPath(file), line, column: col }),
-    ] };
+    return {
+      ok: true,
+      doc: parseDocument(''),
+      lineCounter: new LineCounter(),
+      value: undefined,
+      problems: [
+        diagnostic(
+          'config-yaml',
+          `byte 0x${bytes[bad].toString(16).padStart(2, '0')} is not UTF-8 (YAML 1.2 §5.2 requires Unicode)`,
+          'save the file as UTF-8 (e.g. iconv -f latin1 -t utf-8)',
+          { file: displayPath(file), line, column: col },
+        ),
+      ],
+    };
   }
   const text = bytes.toString('utf8');
   const lineCounter = new LineCounter();
@@ -91,16 +120,36 @@ export async function readYamlFile(file: string): Promise<YamlRead> {
   for (const w of doc.warnings) {
     const pos = lineCounter.linePos(w.pos[0]);
     const custom = w.code === 'TAG_RESOLVE_FAILED';
-    problems.push(custom
-      ? yamlProblem(pos.line, pos.col, `custom YAML tags are not allowed (${w.message.split('\n')[0]})`, 'write plain values without tags')
-      : yamlProblem(pos.line, pos.col, `YAML: ${w.message.split('\n')[0]}`, 'fix the YAML at this position'));
+    problems.push(
+      custom
+        ? yamlProblem(
+            pos.line,
+            pos.col,
+            `custom YAML tags are not allowed (${w.message.split('\n')[0]})`,
+            'write plain values without tags',
+          )
+        : yamlProblem(pos.line, pos.col, `YAML: ${w.message.split('\n')[0]}`, 'fix the YAML at this position'),
+    );
   }
   if (problems.length > 0) return { ok: true, doc, lineCounter, value: undefined, problems };
   let value: unknown;
   try {
     value = doc.toJS({ maxAliasCount: MAX_ALIAS_COUNT });
   } catch (err) {
-    return { ok: true, doc, lineCounter, value: undefined, problems: [yamlProblem(1, 1, `YAML aliases expand too much (${(err as Error).message}; limit ${MAX_ALIAS_COUNT})`, 'write the values out instead of nesting *aliases')] };
+    return {
+      ok: true,
+      doc,
+      lineCounter,
+      value: undefined,
+      problems: [
+        yamlProblem(
+          1,
+          1,
+          `YAML aliases expand too much (${(err as Error).message}; limit ${MAX_ALIAS_COUNT})`,
+          'write the values out instead of nesting *aliases',
+        ),
+      ],
+    };
   }
   return { ok: true, doc, lineCounter, value, problems };
 }

@@ -6,7 +6,17 @@ export function shapeRingSets(shape: RegionShape): (readonly Ring[])[] {
   if (shape.kind === 'box') {
     const east = shape.east < shape.west ? shape.east + 360 : shape.east;
     const { south: s, north: n, west: w } = shape;
-    return [[[[w, s], [w, n], [east, n], [east, s], [w, s]]]];
+    return [
+      [
+        [
+          [w, s],
+          [w, n],
+          [east, n],
+          [east, s],
+          [w, s],
+        ],
+      ],
+    ];
   }
   return shape.kind === 'polygon' ? [[shape.ring]] : shape.polygons.map((p) => [...p]);
 }
@@ -34,7 +44,9 @@ export function ringBounds(ring: Ring): ShapeBounds {
 export function shapeBounds(shape: RegionShape): ShapeBounds {
   const b = shapeRingSets(shape).map((p) => ringBounds(p[0]));
   return {
-    south: Math.min(...b.map((x) => x.south)), north: Math.max(...b.map((x) => x.north)),
-    west: Math.min(...b.map((x) => x.west)), east: Math.max(...b.map((x) => x.east)),
+    south: Math.min(...b.map((x) => x.south)),
+    north: Math.max(...b.map((x) => x.north)),
+    west: Math.min(...b.map((x) => x.west)),
+    east: Math.max(...b.map((x) => x.east)),
   };
 }

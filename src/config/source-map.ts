@@ -31,7 +31,7 @@ export class ConfigSourceMap {
       return { file, line, column: col };
     };
     const visit = (node: Node | null | undefined, pointer: string, key: SourcePosition | undefined, fallback: SourcePosition): void => {
-      const value = node?.range ? at(node.range[0]) : key ?? fallback;
+      const value = node?.range ? at(node.range[0]) : (key ?? fallback);
       this.entries.set(pointer, { key, value });
       if (!node || isAlias(node)) return;
       if (isMap(node)) {

@@ -109,7 +109,9 @@ interface IndicatorCommon {
  * One configured indicator, discriminated by `kind`: `params` (camelCase keys) are those its definition in
  * src/indicators/kinds/ declares, validated at load against the kind's params schema.
  */
-export type IndicatorConfig = { [K in IndicatorKind]: IndicatorCommon & { readonly kind: K; readonly params: IndicatorParams<K> } }[IndicatorKind];
+export type IndicatorConfig = {
+  [K in IndicatorKind]: IndicatorCommon & { readonly kind: K; readonly params: IndicatorParams<K> };
+}[IndicatorKind];
 
 export interface StageConfig {
   readonly id: string;
@@ -121,7 +123,10 @@ export interface StageConfig {
   /** Pre-agreed actions: audience (team id or "default") → locale → text. */
   readonly actions: Readonly<Record<string, Readonly<Record<string, string>>>>;
   /** CAP 1.2 severity and urgency for this stage. */
-  readonly cap: { readonly severity: 'Extreme' | 'Severe' | 'Moderate' | 'Minor' | 'Unknown'; readonly urgency: 'Immediate' | 'Expected' | 'Future' | 'Unknown' };
+  readonly cap: {
+    readonly severity: 'Extreme' | 'Severe' | 'Moderate' | 'Minor' | 'Unknown';
+    readonly urgency: 'Immediate' | 'Expected' | 'Future' | 'Unknown';
+  };
 }
 
 export interface TriggerRule {

@@ -55,7 +55,9 @@ function keyName(pointer: string): string {
 
 /** A probability written as percent (70) is almost always meant as 0.7. */
 function probabilityFix(v: number): string {
-  return v > 1 && v <= 100 ? `write ${+(v / 100).toFixed(4)} (probabilities are fractions, not percent)` : 'write a fraction between 0 and 1';
+  return v > 1 && v <= 100
+    ? `write ${+(v / 100).toFixed(4)} (probabilities are fractions, not percent)`
+    : 'write a fraction between 0 and 1';
 }
 
 function describeSchemaError(e: ErrorObject): ConfigProblem {
@@ -67,10 +69,18 @@ function describeSchemaError(e: ErrorObject): ConfigProblem {
       const key = (e.params as { additionalProperty: string }).additionalProperty;
       const ptr = at + pointerOf(key);
       if (SECRET_KEY.test(key)) {
-        return problem(ptr, `a secret must not be written in the configuration ("${key}")`, 'put the password in an environment variable and name it in password-env', 'key');
+        return problem(
+          ptr,
+          `a secret must not be written in the configuration ("${key}")`,
+          'put the password in an environment variable and name it in password-env',
+          'key',
+        );
       }
       const allowed = Object.keys((ps.properties as object | undefined) ?? {});
-      const fix = allowed.length > 0 ? `remove it or fix the spelling; allowed here: ${allowed.join(', ')}` : `remove it or fix the spelling; ${help}`;
+      const fix =
+        allowed.length > 0
+          ? `remove it or fix the spelling; allowed here: ${allowed.join(', ')}`
+          : `remove it or fix the spelling; ${help}`;
       return problem(ptr, `unknown key "${key}"`, fix, 'key');
     }
     case 'required': {
@@ -79,7 +89,11 @@ function describeSchemaError(e: ErrorObject): ConfigProblem {
       return problem(at, `missing key "${key}"`, `add ${key}: ${props[key]?.description ?? ''}`.trim(), 'key');
     }
     case 'type':
-      return problem(at, `expected ${String((e.params as { type: string | string[] }).type).replace(',', ' or ')}, got ${show(e.data)}`, help);
+      return problem(
+        at,
+        `expected ${String((e.params as { type: string | string[] }).type).replace(',', ' or ')}, got ${show(e.data)}`,
+        help,
+      );
     case 'enum': {
       const allowed = (e.params as { allowedValues: unknown[] }).allowedValues.map(String).join(', ');
       return problem(at, `${show(e.data)} is not one of: ${allowed}`, `use one of: ${allowed}`);
@@ -91,7 +105,8 @@ function describeSchemaError(e: ErrorObject): ConfigProblem {
       return describeRangeError(at, ps, e.data as number, help);
     case 'pattern':
       // Never echo what was written as password-env: it may be the password itself.
-      if (at.endsWith('/password-env')) return problem(at, 'password-env must be the NAME of an environment variable, not the password', help);
+      if (at.endsWith('/password-env'))
+        return problem(at, 'password-env must be the NAME of an environment variable, not the password', help);
       return problem(at, `${show(e.data)} is not in the expected form`, help);
     case 'minItems':
       return problem(at, `needs at least ${(e.params as { limit: number }).limit} entries`, help);
@@ -107,7 +122,11 @@ function describeSchemaError(e: ErrorObject): ConfigProblem {
 function describeRangeError(at: string, ps: Record<string, unknown>, v: number, help: string): ConfigProblem {
   if (ps.minimum === 0 && ps.maximum === 1) return problem(at, `probability expected 0–1, got ${v}`, probabilityFix(v));
   if (ps.exclusiveMinimum === 0 && ps.exclusiveMaximum === 100) {
-    return problem(at, `percentile must be strictly between 0 and 100, got ${v}`, 'use e.g. 90 for the 90th percentile, or an absolute { value, units } threshold');
+    return problem(
+      at,
+      `percentile must be strictly between 0 and 100, got ${v}`,
+      'use e.g. 90 for the 90th percentile, or an absolute { value, units } threshold',
+    );
   }
   if (ps.exclusiveMinimum === 0 && ps.exclusiveMaximum === 1) {
     return problem(at, `${keyName(at)} must be strictly between 0 and 1, got ${v}`, 'write the ratio cost/loss as a fraction, e.g. 0.2');

@@ -37,7 +37,13 @@ export interface Diagnostic {
 }
 
 /** A diagnostic with the catalogue's stage and severity unless given. */
-export function diagnostic(code: DiagnosticCode, message: string, hint: string, place: Place = {}, over: { stage?: Stage; severity?: Severity } = {}): Diagnostic {
+export function diagnostic(
+  code: DiagnosticCode,
+  message: string,
+  hint: string,
+  place: Place = {},
+  over: { stage?: Stage; severity?: Severity } = {},
+): Diagnostic {
   const entry = DIAGNOSTIC_CODES[code];
   return { code, severity: over.severity ?? entry.severity, stage: over.stage ?? entry.stage, place, message, hint };
 }
@@ -82,12 +88,22 @@ const isRecord = (v: unknown): v is Record<string, unknown> => v !== null && typ
 
 function isPlace(v: unknown): v is Place {
   if (!isRecord(v)) return false;
-  return Object.entries(v).every(([k, x]) =>
-    ((PLACE_TEXT as readonly string[]).includes(k) && typeof x === 'string') || ((PLACE_NUMBER as readonly string[]).includes(k) && Number.isInteger(x)));
+  return Object.entries(v).every(
+    ([k, x]) =>
+      ((PLACE_TEXT as readonly string[]).includes(k) && typeof x === 'string') ||
+      ((PLACE_NUMBER as readonly string[]).includes(k) && Number.isInteger(x)),
+  );
 }
 
 /** Type guard for diagnostics read back from JSON (ledger, run.json). */
 export function isDiagnostic(v: unknown): v is Diagnostic {
-  return isRecord(v) && isDiagnosticCode(v.code) && (v.severity === 'error' || v.severity === 'warning' || v.severity === 'note')
-    && (STAGES as readonly unknown[]).includes(v.stage) && isPlace(v.place) && typeof v.message === 'string' && typeof v.hint === 'string';
+  return (
+    isRecord(v) &&
+    isDiagnosticCode(v.code) &&
+    (v.severity === 'error' || v.severity === 'warning' || v.severity === 'note') &&
+    (STAGES as readonly unknown[]).includes(v.stage) &&
+    isPlace(v.place) &&
+    typeof v.message === 'string' &&
+    typeof v.hint === 'string'
+  );
 }

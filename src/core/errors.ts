@@ -42,7 +42,13 @@ export class ConfigError extends ForelightError {
 /** A problem with an input file (NetCDF, observations): names the file and the variable. */
 export class InputError extends ForelightError {
   readonly file: string;
-  constructor(code: DiagnosticCode, file: string, message: string, hint: string, options?: { cause?: unknown; place?: Omit<Place, 'file'> }) {
+  constructor(
+    code: DiagnosticCode,
+    file: string,
+    message: string,
+    hint: string,
+    options?: { cause?: unknown; place?: Omit<Place, 'file'> },
+  ) {
     super('read', code, message, hint, { cause: options?.cause, place: { ...options?.place, file } });
     this.file = file;
   }

@@ -38,6 +38,9 @@ export function exitCodeName(code: number): string {
  * Exit code after delivery: `deliveryFailed` when any recipient was rejected, is still pending, or (with SMTP
  * configured) ended in the outbox; with `smtp: null` the outbox IS the delivery, so it counts as ok.
  */
-export function exitCodeForDeliveries(counts: { readonly failed: number; readonly outbox: number; readonly pending: number }, smtpConfigured: boolean): ExitCode {
+export function exitCodeForDeliveries(
+  counts: { readonly failed: number; readonly outbox: number; readonly pending: number },
+  smtpConfigured: boolean,
+): ExitCode {
   return counts.failed > 0 || counts.pending > 0 || (smtpConfigured && counts.outbox > 0) ? EXIT.deliveryFailed : EXIT.ok;
 }

@@ -17,7 +17,13 @@ export async function sha256File(path: string): Promise<string> {
   try {
     for await (const chunk of createReadStream(path)) h.update(chunk as Buffer);
   } catch (err) {
-    throw new ForelightError('calibrate', 'checksum-read', `cannot read ${path} to checksum it: ${(err as Error).message}`, 'check the hindcast/observation path in the YAML', { cause: err });
+    throw new ForelightError(
+      'calibrate',
+      'checksum-read',
+      `cannot read ${path} to checksum it: ${(err as Error).message}`,
+      'check the hindcast/observation path in the YAML',
+      { cause: err },
+    );
   }
   return h.digest('hex');
 }
@@ -50,7 +56,13 @@ export async function openChecksumMemo(cacheDir: string | null): Promise<Checksu
         const s = statSync(path);
         key = `${path}|${s.size}|${s.mtimeMs}`;
       } catch (err) {
-        throw new ForelightError('calibrate', 'checksum-read', `cannot read ${path} to checksum it: ${(err as Error).message}`, 'check the hindcast/observation path in the YAML', { cause: err });
+        throw new ForelightError(
+          'calibrate',
+          'checksum-read',
+          `cannot read ${path} to checksum it: ${(err as Error).message}`,
+          'check the hindcast/observation path in the YAML',
+          { cause: err },
+        );
       }
       const hit = known[key];
       if (hit) return hit;

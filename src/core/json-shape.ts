@@ -20,7 +20,11 @@ export function jsonShape<T>(schema: Record<string, unknown>): ShapeCheck<T> {
 }
 
 /** Parses `text` as JSON and checks its shape; a parse error is reported like a mismatch. */
-export function parseShaped<T>(text: string, check: ShapeCheck<T>, reviver?: (key: string, value: unknown) => unknown): ReturnType<ShapeCheck<T>> {
+export function parseShaped<T>(
+  text: string,
+  check: ShapeCheck<T>,
+  reviver?: (key: string, value: unknown) => unknown,
+): ReturnType<ShapeCheck<T>> {
   let value: unknown;
   try {
     value = JSON.parse(text, reviver);

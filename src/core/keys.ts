@@ -28,7 +28,8 @@ export function pairOf(key: PairKey): { readonly region: string; readonly indica
 export const trackKey = (region: string, indicator: string, tier: string): TrackKey => join(region, indicator, tier);
 
 /** Key of one lead of a stage track (a backtest's observed event). */
-export const eventKey = (region: string, indicator: string, tier: string, leadIndex: number): EventKey => join(region, indicator, tier, leadIndex);
+export const eventKey = (region: string, indicator: string, tier: string, leadIndex: number): EventKey =>
+  join(region, indicator, tier, leadIndex);
 
 /** Key of a cost/loss threshold tuned for one region and rule (the tuning is per region: its own hindcasts). */
 export const tunedKey = (region: string, ruleId: string): TunedKey => join(region, ruleId);

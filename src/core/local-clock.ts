@@ -16,7 +16,16 @@ const formatters = new Map<string, Intl.DateTimeFormat>();
 function partsFormatter(zone: string): Intl.DateTimeFormat {
   let f = formatters.get(zone);
   if (!f) {
-    f = new Intl.DateTimeFormat('en-US', { timeZone: zone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric' });
+    f = new Intl.DateTimeFormat('en-US', {
+      timeZone: zone,
+      hourCycle: 'h23',
+      year: 'numeric',
+      month: 'numeric',
+      day: 'numeric',
+      hour: 'numeric',
+      minute: 'numeric',
+      second: 'numeric',
+    });
     formatters.set(zone, f);
   }
   return f;
@@ -24,7 +33,11 @@ function partsFormatter(zone: string): Intl.DateTimeFormat {
 
 /** Offset of IANA zone `zone` at instant `utcMs` (whole seconds). */
 export function zoneOffsetMs(zone: string, utcMs: number): number {
-  const p = Object.fromEntries(partsFormatter(zone).formatToParts(new Date(utcMs)).map((x) => [x.type, Number(x.value)]));
+  const p = Object.fromEntries(
+    partsFormatter(zone)
+      .formatToParts(new Date(utcMs))
+      .map((x) => [x.type, Number(x.value)]),
+  );
   const wall = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
   return wall - Math.floor(utcMs / 1000) * 1000;
 }

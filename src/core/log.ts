@@ -22,10 +22,8 @@ function redact(fields: Record<string, unknown>): Record<string, unknown> {
   return out;
 }
 
-export function createLogger(
-  options: { level?: Level; sink?: (line: string) => void; base?: Record<string, unknown> } = {},
-): Logger {
-  const min = ORDER[options.level ?? ((process.env.FORELIGHT_LOG_LEVEL as Level | undefined) ?? 'info')] ?? ORDER.info;
+export function createLogger(options: { level?: Level; sink?: (line: string) => void; base?: Record<string, unknown> } = {}): Logger {
+  const min = ORDER[options.level ?? (process.env.FORELIGHT_LOG_LEVEL as Level | undefined) ?? 'info'] ?? ORDER.info;
   const sink = options.sink ?? ((line: string) => process.stderr.write(line + '\n'));
   const base = options.base ?? {};
   const emit = (level: Level, msg: string, fields?: Record<string, unknown>) => {

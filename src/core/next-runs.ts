@@ -22,7 +22,14 @@ function zoneFormatter(tz: string): Intl.DateTimeFormat {
   let f = formatters.get(tz);
   if (!f) {
     f = new Intl.DateTimeFormat('en-US', {
-      timeZone: tz, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric',
+      timeZone: tz,
+      hourCycle: 'h23',
+      year: 'numeric',
+      month: 'numeric',
+      day: 'numeric',
+      hour: 'numeric',
+      minute: 'numeric',
+      second: 'numeric',
     });
     formatters.set(tz, f);
   }
@@ -50,7 +57,7 @@ function zoneOffsetMs(tz: string, ms: number): number {
   const p: Record<string, number> = {};
   for (const part of zoneFormatter(tz).formatToParts(new Date(ms))) if (part.type !== 'literal') p[part.type] = Number(part.value);
   const asUtc = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
-  return asUtc - (ms - (ms % 1000 + 1000) % 1000);
+  return asUtc - (ms - (((ms % 1000) + 1000) % 1000));
 }
 
 /** The instant of a local wall time (given as a UTC-based ms "wall" value) in zone `tz`, "compatible" disambiguation. */
@@ -70,7 +77,10 @@ const FORM_FIX = 'use 5 fields (min hour day month weekday) or 6 with seconds fi
 /** Day-of-month and day-of-week fields with the weekday names taken out (WED holds a W, names are fine). */
 function dayFields(expr: string): string {
   const parts = expr.trim().split(/\s+/);
-  return [parts[parts.length - 3], parts[parts.length - 1]].join(' ').toUpperCase().replace(/SUN|MON|TUE|WED|THU|FRI|SAT/g, '');
+  return [parts[parts.length - 3], parts[parts.length - 1]]
+    .join(' ')
+    .toUpperCase()
+    .replace(/SUN|MON|TUE|WED|THU|FRI|SAT/g, '');
 }
 
 /**
@@ -86,12 +96,17 @@ export function cronProblem(expr: string): { message: string; fix: string } | nu
   }
   if (!expr.trim().startsWith('@')) {
     const days = dayFields(expr);
-    if (/[LW#]/.test(days)) return { message: `"${expr}" uses L, W or # day tokens, which Forelight does not schedule`, fix: 'list the days instead' };
+    if (/[LW#]/.test(days))
+      return { message: `"${expr}" uses L, W or # day tokens, which Forelight does not schedule`, fix: 'list the days instead' };
     if (/[?+]/.test(expr)) {
-      return { message: `"${expr}" uses ? or +, which classic cron does not have`, fix: 'write * for any day; when both day fields are restricted a day matches either (classic cron)' };
+      return {
+        message: `"${expr}" uses ? or +, which classic cron does not have`,
+        fix: 'write * for any day; when both day fields are restricted a day matches either (classic cron)',
+      };
     }
   }
-  if (job.nextRun() === null) return { message: `"${expr}" never fires (no month has that day)`, fix: 'check the day of month against the months' };
+  if (job.nextRun() === null)
+    return { message: `"${expr}" never fires (no month has that day)`, fix: 'check the day of month against the months' };
   return null;
 }
 

@@ -86,7 +86,12 @@ function lowerBound(sorted: ArrayLike<number>, x: number): number {
  * Type-7 (or type-6) percentile of `sorted` with the values of `removed` (sorted, NaN-free, each present in `sorted`) taken
  * out, without copying: O(r log n) per call. Used for leave-one-year-out thresholds.
  */
-export function percentileOfSortedWithout(sorted: ArrayLike<number>, removed: ArrayLike<number>, q: number, method: PercentileMethod = 'linear'): number {
+export function percentileOfSortedWithout(
+  sorted: ArrayLike<number>,
+  removed: ArrayLike<number>,
+  q: number,
+  method: PercentileMethod = 'linear',
+): number {
   checkPercent(q);
   const n = sorted.length - removed.length;
   if (n <= 0) return Number.NaN;

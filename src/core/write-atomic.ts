@@ -35,7 +35,10 @@ export function fixFor(code: string | undefined, dir: string): string {
 export function writeFault(stage: Stage, path: string, err: unknown, what = 'file'): ForelightError {
   const code = (err as NodeJS.ErrnoException).code;
   const reason = code ?? (err instanceof Error ? err.message : String(err));
-  return new ForelightError(stage, 'write-failed', `cannot write ${what} (${reason})`, fixFor(code, dirname(path)), { cause: err, place: { file: path } });
+  return new ForelightError(stage, 'write-failed', `cannot write ${what} (${reason})`, fixFor(code, dirname(path)), {
+    cause: err,
+    place: { file: path },
+  });
 }
 
 /**

@@ -55,27 +55,53 @@ function coveredLeads(config: DecideConfig, indicator: string, tier: Tier): Set<
   return leads;
 }
 
-export function backtestRules(config: DecideConfig, casesByStartDate: readonly BacktestCase[], options: BacktestOptions = {}): BacktestRow[] {
+export function backtestRules(
+  config: DecideConfig,
+  casesByStartDate: readonly BacktestCase[],
+  options: BacktestOptions = {},
+): BacktestRow[] {
   const rows = new Map<string, Counts>();
   let history: StageHistory = EMPTY_HISTORY;
   const ordered = [...casesByStartDate].sort((a, b) => a.startDate.localeCompare(b.startDate));
   for (const c of ordered) {
     // A hindcast case carries the tiers it was made for; a region it does not cover is no case.
     const expectedTiers = new Set(c.probabilities.map((p) => p.lead.tier));
-    const result = decideStages({ config, probabilities: c.probabilities, history, thresholdsFromCostLoss: options.thresholdsFromCostLoss, skillGate: options.skillGate ?? 'ignore', expectedTiers });
+    const result = decideStages({
+      config,
+      probabilities: c.probabilities,
+      history,
+      thresholdsFromCostLoss: options.thresholdsFromCostLoss,
+      skillGate: options.skillGate ?? 'ignore',
+      expectedTiers,
+    });
     history = result.nextHistory;
     for (const d of result.decisions.filter((x) => !x.missing)) {
       const key = trackKey(d.region, d.indicator, d.tier);
       let row = rows.get(key);
       if (!row) {
-        row = { region: d.region, indicator: d.indicator, tier: d.tier, cases: 0, stageCounts: Object.fromEntries(config.stages.map((s) => [s.id, 0])), hits: 0, misses: 0, falseAlarms: 0, correctNegatives: 0, unverified: 0 };
+        row = {
+          region: d.region,
+          indicator: d.indicator,
+          tier: d.tier,
+          cases: 0,
+          stageCounts: Object.fromEntries(config.stages.map((s) => [s.id, 0])),
+          hits: 0,
+          misses: 0,
+          falseAlarms: 0,
+          correctNegatives: 0,
+          unverified: 0,
+        };
         rows.set(key, row);
       }
       row.cases += 1;
       row.stageCounts[d.stageId] += 1;
       const covered = coveredLeads(config, d.indicator, d.tier);
-      const leads = c.probabilities.filter((p) => p.region === d.region && p.indicator === d.indicator && p.lead.tier === d.tier).map((p) => p.lead.index);
-      const observed = leads.filter((l) => covered === null || covered.has(l)).map((l) => c.observedEvents.get(eventKey(d.region, d.indicator, d.tier, l)));
+      const leads = c.probabilities
+        .filter((p) => p.region === d.region && p.indicator === d.indicator && p.lead.tier === d.tier)
+        .map((p) => p.lead.index);
+      const observed = leads
+        .filter((l) => covered === null || covered.has(l))
+        .map((l) => c.observedEvents.get(eventKey(d.region, d.indicator, d.tier, l)));
       if (observed.every((o) => o === undefined)) {
         row.unverified += 1;
         continue;
@@ -94,9 +120,29 @@ export function backtestRules(config: DecideConfig, casesByStartDate: readonly B
 export function formatBacktest(rows: readonly BacktestRow[], format: 'text' | 'csv'): string {
   const stageIds = rows.length > 0 ? Object.keys(rows[0].stageCounts) : [];
   const header = ['region', 'indicator', 'tier', 'cases', ...stageIds, 'hits', 'misses', 'false_alarms', 'correct_negatives', 'unverified'];
-  const body = rows.map((r) => [r.region, r.indicator, r.tier, r.cases, ...stageIds.map((s) => r.stageCounts[s] ?? 0), r.hits, r.misses, r.falseAlarms, r.correctNegatives, r.unverified].map(String));
-  if (format === 'csv') return [header, ...body].map((cells) => cells.map((c) => (/[",\n]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c)).join(',')).join('\n') + '\n';
+  const body = rows.map((r) =>
+    [
+      r.region,
+      r.indicator,
+      r.tier,
+      r.cases,
+      ...stageIds.map((s) => r.stageCounts[s] ?? 0),
+      r.hits,
+      r.misses,
+      r.falseAlarms,
+      r.correctNegatives,
+      r.unverified,
+    ].map(String),
+  );
+  if (format === 'csv')
+    return (
+      [header, ...body].map((cells) => cells.map((c) => (/[",\n]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c)).join(',')).join('\n') + '\n'
+    );
   const widths = header.map((h, i) => Math.max(h.length, ...body.map((b) => b[i].length)));
-  const line = (cells: string[]) => cells.map((c, i) => (i < 3 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join('  ').trimEnd();
+  const line = (cells: string[]) =>
+    cells
+      .map((c, i) => (i < 3 ? c.padEnd(widths[i]) : c.padStart(widths[i])))
+      .join('  ')
+      .trimEnd();
   return [line(header), ...body.map(line)].join('\n') + '\n';
 }

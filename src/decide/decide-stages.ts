@@ -58,7 +58,14 @@ export function decideStages(input: DecideInput): DecideResult {
           decisions.push({ region: region.id, indicator: indicator.id, tier, ...held.decision });
           continue;
         }
-        const raw = evaluateRules(config, { region: region.id, indicator: indicator.id, tier, probabilities: probs, tuned, skillGate: input.skillGate ?? 'apply' });
+        const raw = evaluateRules(config, {
+          region: region.id,
+          indicator: indicator.id,
+          tier,
+          probabilities: probs,
+          tuned,
+          skillGate: input.skillGate ?? 'apply',
+        });
         const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
         tracks[key] = kept.track;
         decisions.push({
@@ -80,7 +87,11 @@ export function decideStages(input: DecideInput): DecideResult {
 }
 
 /** The decision of a region × indicator × tier without data: its last stage held, or "no forecast available". */
-function holdMissing(config: DecideConfig, previous: StageTrack | undefined, reason: string): { decision: Omit<StageDecision, 'region' | 'indicator' | 'tier'>; track: StageTrack | null } {
+function holdMissing(
+  config: DecideConfig,
+  previous: StageTrack | undefined,
+  reason: string,
+): { decision: Omit<StageDecision, 'region' | 'indicator' | 'tier'>; track: StageTrack | null } {
   const hold = config.decision.holdMissingRuns;
   const runs = (previous?.missingRuns ?? 0) + 1;
   const onLadder = previous !== undefined && stageRank(config.stages, previous.stageId) >= 0;
@@ -88,9 +99,19 @@ function holdMissing(config: DecideConfig, previous: StageTrack | undefined, rea
   const stageId = held ? previous.stageId : NO_FORECAST_ID;
   const why = held
     ? `held at ${previous.stageId}: run ${runs} of ${hold} without usable data (never relaxed because data vanished)`
-    : onLadder ? `hold of ${hold} run${hold === 1 ? '' : 's'} without data expired → no forecast available` : 'no earlier stage to hold → no forecast available';
+    : onLadder
+      ? `hold of ${hold} run${hold === 1 ? '' : 's'} without data expired → no forecast available`
+      : 'no earlier stage to hold → no forecast available';
   return {
-    decision: { stageId, rawStageId: stageId, ruleId: null, lead: null, withheldLeads: [], reasons: [`no usable data: ${reason}`, why, `issued: ${stageId}`], missing: { reason, runs, held } },
+    decision: {
+      stageId,
+      rawStageId: stageId,
+      ruleId: null,
+      lead: null,
+      withheldLeads: [],
+      reasons: [`no usable data: ${reason}`, why, `issued: ${stageId}`],
+      missing: { reason, runs, held },
+    },
     track: previous ? { ...previous, missingRuns: runs } : null,
   };
 }

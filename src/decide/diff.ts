@@ -20,7 +20,11 @@ function why(current: RegionStage, decisions: readonly StageDecision[]): string 
 }
 
 /** Regions whose stage differs (in current-run order, then regions that disappeared). */
-export function diffStages(previous: readonly RegionStageLike[], current: readonly RegionStage[], decisions: readonly StageDecision[] = []): StageChange[] {
+export function diffStages(
+  previous: readonly RegionStageLike[],
+  current: readonly RegionStage[],
+  decisions: readonly StageDecision[] = [],
+): StageChange[] {
   const before = new Map(previous.map((p) => [p.region, p.stageId]));
   const changes: StageChange[] = [];
   for (const c of current) {

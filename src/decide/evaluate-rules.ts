@@ -42,7 +42,11 @@ export interface RuleTrack {
  * pooling window (calibrate/skill-gate.ts: observed skill, enough events, 90 % interval of the fair Brier skill
  * score above the floor). A perfect-model estimate never passes.
  */
-function applySkillGate(config: RulesConfig, probs: readonly LeadProbability[], reasons: string[]): { usable: LeadProbability[]; withheld: LeadWindow[] } {
+function applySkillGate(
+  config: RulesConfig,
+  probs: readonly LeadProbability[],
+  reasons: string[],
+): { usable: LeadProbability[]; withheld: LeadWindow[] } {
   const usable: LeadProbability[] = [];
   const withheld: LeadWindow[] = [];
   for (const p of probs) {
@@ -80,7 +84,9 @@ export function evaluateRules(config: RulesConfig, track: RuleTrack): RawStage {
       perLead.set(p.lead.index, Math.max(perLead.get(p.lead.index) ?? 0, reached));
     }
     if (leads.length === 0) {
-      reasons.push(`rule ${rule.id}: no usable lead among ${rule.leads.length === 0 ? 'all leads' : rule.leads.map((l) => leadName(tier, l)).join(', ')}`);
+      reasons.push(
+        `rule ${rule.id}: no usable lead among ${rule.leads.length === 0 ? 'all leads' : rule.leads.map((l) => leadName(tier, l)).join(', ')}`,
+      );
       continue;
     }
     // The lead with the highest probability speaks for the rule (earliest lead on ties).

@@ -45,7 +45,10 @@ export function explainDecision(input: ExplainInput): string[] {
     .filter((p) => p.region === d.region && p.indicator === d.indicator && p.lead.tier === d.tier)
     .sort((a, b) => a.lead.index - b.lead.index);
   const first = probs[0];
-  if (first) lines.push(`threshold: ${n(first.threshold.value)} ${first.threshold.units} — ${first.threshold.origin}${first.calibrated ? '' : ' (not calibrated on hindcasts)'}`);
+  if (first)
+    lines.push(
+      `threshold: ${n(first.threshold.value)} ${first.threshold.units} — ${first.threshold.origin}${first.calibrated ? '' : ' (not calibrated on hindcasts)'}`,
+    );
   for (const p of probs) {
     const v = input.values?.get(p.lead.index);
     const values = v ? `values min ${n(v.min)} / median ${n(v.median)} / max ${n(v.max)} ${v.units}; ` : '';
@@ -54,7 +57,9 @@ export function explainDecision(input: ExplainInput): string[] {
       : 'skill unknown';
     const gated = !p.skill?.skilful ? ' — skill not demonstrated, cannot raise a stage' : '';
     const flags = p.flags.length > 0 ? `; flags: ${p.flags.join(', ')}` : '';
-    lines.push(`${leadName(p.lead.tier, p.lead.index)} (${p.lead.start}..${p.lead.end}): ${values}P(> threshold) = ${n(p.probability)} from ${p.validMembers}/${p.members} members, base rate ${n(p.baseRate)}; ${skill}${gated}${flags}`);
+    lines.push(
+      `${leadName(p.lead.tier, p.lead.index)} (${p.lead.start}..${p.lead.end}): ${values}P(> threshold) = ${n(p.probability)} from ${p.validMembers}/${p.members} members, base rate ${n(p.baseRate)}; ${skill}${gated}${flags}`,
+    );
   }
   if (probs.length === 0) lines.push('no probabilities for this region, indicator and tier');
   lines.push(`persistence before this run: ${trackText(input.previous)}`);

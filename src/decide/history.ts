@@ -10,14 +10,26 @@ function isTrack(v: unknown): v is StageTrack {
   const t = v as Record<string, unknown>;
   const count = (x: unknown) => Number.isInteger(x) && (x as number) >= 0;
   const idOrNull = (x: unknown) => x === null || typeof x === 'string';
-  return typeof t.stageId === 'string' && count(t.runsAbove) && count(t.runsBelow) && idOrNull(t.lowestAboveId) && idOrNull(t.highestBelowId) && (t.missingRuns === undefined || count(t.missingRuns));
+  return (
+    typeof t.stageId === 'string' &&
+    count(t.runsAbove) &&
+    count(t.runsBelow) &&
+    idOrNull(t.lowestAboveId) &&
+    idOrNull(t.highestBelowId) &&
+    (t.missingRuns === undefined || count(t.missingRuns))
+  );
 }
 
 /** null (no earlier run) → empty history; anything not shaped like StageHistory version 1 → ForelightError. */
 export function parseStageHistory(json: string | null): StageHistory {
   if (json === null) return EMPTY_HISTORY;
   const fail = (why: string) =>
-    new ForelightError('decide', 'bad-stage-history', `stored stage history is unusable: ${why}`, 'inspect the ledger; to start persistence afresh, run once with an empty history');
+    new ForelightError(
+      'decide',
+      'bad-stage-history',
+      `stored stage history is unusable: ${why}`,
+      'inspect the ledger; to start persistence afresh, run once with an empty history',
+    );
   let v: unknown;
   try {
     v = JSON.parse(json);

@@ -16,7 +16,12 @@ export interface PersistenceResult {
 
 const settled = (stageId: string): StageTrack => ({ stageId, runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null });
 
-export function applyPersistence(stages: readonly StageConfig[], decision: DecisionConfig, previous: StageTrack | undefined, rawStageId: string): PersistenceResult {
+export function applyPersistence(
+  stages: readonly StageConfig[],
+  decision: DecisionConfig,
+  previous: StageTrack | undefined,
+  rawStageId: string,
+): PersistenceResult {
   const rank = (id: string | null) => (id === null ? -1 : stageRank(stages, id));
   const reasons: string[] = [];
   let prev = previous ?? settled(stages[0].id);

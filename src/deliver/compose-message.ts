@@ -31,9 +31,17 @@ export function composeMessage(bulletin: StoredBulletin, recipient: string, from
     date: new Date(bulletin.createdAt),
     headers: { 'X-Forelight-Forecast': bulletin.forecastKey, 'X-Forelight-Bulletin': bulletin.id },
     // Images are inline parts the HTML references by cid; anything else (the printable PDF) is a plain attachment.
-    attachments: bulletin.attachments.map((a) => (a.contentType.startsWith('image/')
-      ? { cid: a.cid, filename: a.filename, contentType: a.contentType, content: Buffer.from(a.content), contentDisposition: 'inline' as const }
-      : { filename: a.filename, contentType: a.contentType, content: Buffer.from(a.content), contentDisposition: 'attachment' as const })),
+    attachments: bulletin.attachments.map((a) =>
+      a.contentType.startsWith('image/')
+        ? {
+            cid: a.cid,
+            filename: a.filename,
+            contentType: a.contentType,
+            content: Buffer.from(a.content),
+            contentDisposition: 'inline' as const,
+          }
+        : { filename: a.filename, contentType: a.contentType, content: Buffer.from(a.content), contentDisposition: 'attachment' as const },
+    ),
   };
 }
 

@@ -19,7 +19,15 @@ import type { DeliveryConfig } from '../config/types.ts';
 import { describeError } from '../core/errors.ts';
 import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
 import {
-  claimDelivery, dueNotices, getDelivery, listDeliveries, markDelivery, markNoticesDone, releaseClaim, toReceipt, type DeliveryRecord,
+  claimDelivery,
+  dueNotices,
+  getDelivery,
+  listDeliveries,
+  markDelivery,
+  markNoticesDone,
+  releaseClaim,
+  toReceipt,
+  type DeliveryRecord,
 } from '../ledger/deliveries.ts';
 import type { Ledger } from '../ledger/open-ledger.ts';
 import type { Logger } from '../core/log.ts';
@@ -66,23 +74,29 @@ function reclaimDeadClaims(ledger: Ledger, staleClaimSeconds: number, log: Logge
     const [host, pidText, token] = (d.claimedBy ?? '').split(':');
     const pid = Number(pidText);
     const ageSeconds = (ledger.now().getTime() - Date.parse(d.claimedAt ?? '')) / 1000;
-    const claimerAlive = host === hostname()
-      ? activeTokens.has(token) || (pid !== process.pid && isProcessAlive(pid))
-      : !(ageSeconds > staleClaimSeconds);
+    const claimerAlive =
+      host === hostname() ? activeTokens.has(token) || (pid !== process.pid && isProcessAlive(pid)) : !(ageSeconds > staleClaimSeconds);
     if (claimerAlive) continue;
     const note = `claim by ${d.claimedBy} abandoned (process ended during sending); re-sent with the same Message-ID`;
     if (releaseClaim(ledger, d.id, d.claimedBy ?? '', note)) {
       reclaimed++;
       log.warn('re-sending a delivery interrupted during SMTP; the recipient may get it twice (same Message-ID)', {
-        deliveryId: d.id, recipient: d.recipient, messageId: d.messageId,
+        deliveryId: d.id,
+        recipient: d.recipient,
+        messageId: d.messageId,
       });
     }
   }
   return reclaimed;
 }
 
-async function sendWithRetry(transport: SmtpTransporter, message: Mail.Options,
-  delivery: DeliveryConfig, sleep: (ms: number) => Promise<void>, log: Logger): Promise<void> {
+async function sendWithRetry(
+  transport: SmtpTransporter,
+  message: Mail.Options,
+  delivery: DeliveryConfig,
+  sleep: (ms: number) => Promise<void>,
+  log: Logger,
+): Promise<void> {
   for (let attempt = 0; ; attempt++) {
     try {
       await transport.sendMail(message);
@@ -115,13 +129,27 @@ function describeFailure(d: DeliveryRecord & { team: string }): string {
 async function noticeFailures(ledger: Ledger, transport: SmtpTransporter | null, delivery: DeliveryConfig, log: Logger): Promise<void> {
   const due = dueNotices(ledger);
   if (due.length === 0) return;
-  const result = await notifyOperators(transport, delivery, `${due.length} bulletin deliveries failed`,
+  const result = await notifyOperators(
+    transport,
+    delivery,
+    `${due.length} bulletin deliveries failed`,
     `Forelight could not deliver these bulletins by e-mail:\n\n${due.map(describeFailure).join('\n')}\n\n` +
-    'Forward the outbox copies by hand or fix the addresses in the teams configuration.\n', log);
-  if (result.status !== 'failed') markNoticesDone(ledger, due.map((d) => d.id));
+      'Forward the outbox copies by hand or fix the addresses in the teams configuration.\n',
+    log,
+  );
+  if (result.status !== 'failed')
+    markNoticesDone(
+      ledger,
+      due.map((d) => d.id),
+    );
 }
 
-export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, log: Logger, options: DeliverOptions = {}): Promise<DeliverySummary> {
+export async function deliverPending(
+  ledger: Ledger,
+  delivery: DeliveryConfig,
+  log: Logger,
+  options: DeliverOptions = {},
+): Promise<DeliverySummary> {
   const sleep = options.sleep ?? defaultSleep;
   const reclaimed = reclaimDeadClaims(ledger, options.staleClaimSeconds ?? 3600, log);
   const todo = listDeliveries(ledger, { statuses: ['pending'], runId: options.runId });
@@ -143,7 +171,12 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
     for (const pending of todo) {
       const bulletin = bulletins.get(pending.bulletinRowId) ?? readBulletin(ledger, pending.bulletinRowId);
       bulletins.set(bulletin.rowId, bulletin);
-      const claimed = claimDelivery(ledger, pending.id, claimer, messageIdFor(bulletin.runId, bulletin.id, pending.recipient, delivery.from));
+      const claimed = claimDelivery(
+        ledger,
+        pending.id,
+        claimer,
+        messageIdFor(bulletin.runId, bulletin.id, pending.recipient, delivery.from),
+      );
       if (!claimed) continue;
       await options.onStep?.('claimed', claimed);
       const message = composeMessage(bulletin, claimed.recipient, delivery.from, claimed.messageId ?? '');
@@ -151,7 +184,10 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
       let status: 'sent' | 'outbox' | 'failed' = 'outbox';
       let error: string | undefined;
       if (transport && !loginRefused) {
-        const sendError = await sendWithRetry(transport, message, delivery, sleep, dlog).then(() => null, (err: unknown) => err);
+        const sendError = await sendWithRetry(transport, message, delivery, sleep, dlog).then(
+          () => null,
+          (err: unknown) => err,
+        );
         if (sendError === null) {
           await options.onStep?.('accepted', claimed);
           status = 'sent';
@@ -163,7 +199,7 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
             dlog.error('SMTP login refused; every bulletin of this run goes to the outbox', { error: failure.detail });
           }
           status = failure && !failure.temporary && !failure.auth ? 'failed' : 'outbox';
-          error = failure?.auth ? loginRefused ?? undefined : failure?.detail ?? describeError(sendError);
+          error = failure?.auth ? (loginRefused ?? undefined) : (failure?.detail ?? describeError(sendError));
         }
       } else if (loginRefused) {
         error = loginRefused;
@@ -171,19 +207,30 @@ export async function deliverPending(ledger: Ledger, delivery: DeliveryConfig, l
       let outboxPath: string | undefined;
       if (status !== 'sent') {
         try {
-          [outboxPath] = writeOutboxFiles(delivery.outbox, outboxBaseName(bulletin.forecastKey, bulletin.runId, bulletin.team, claimed.recipient), [
-            { ext: 'eml', content: await renderEml(message) },
-            { ext: 'html', content: htmlWithInlineImages(bulletin) },
-          ]);
+          [outboxPath] = writeOutboxFiles(
+            delivery.outbox,
+            outboxBaseName(bulletin.forecastKey, bulletin.runId, bulletin.team, claimed.recipient),
+            [
+              { ext: 'eml', content: await renderEml(message) },
+              { ext: 'html', content: htmlWithInlineImages(bulletin) },
+            ],
+          );
         } catch (err) {
           // Not sent and no copy: keep it pending for the next run, never drop it.
-          markDelivery(ledger, claimed.id, 'pending', { error: [error, describeError(err)].filter(Boolean).join(' | '), noticeDue: !!transport });
+          markDelivery(ledger, claimed.id, 'pending', {
+            error: [error, describeError(err)].filter(Boolean).join(' | '),
+            noticeDue: !!transport,
+          });
           counts.pending++;
           dlog.error('delivery kept pending: outbox not writable', { error: describeError(err) });
           if (!transport) throw err;
           continue;
         }
-        if (transport && !loginRefused) dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', { error, outboxPath });
+        if (transport && !loginRefused)
+          dlog.error(status === 'failed' ? 'recipient rejected the bulletin' : 'bulletin not delivered after retries', {
+            error,
+            outboxPath,
+          });
       }
       markDelivery(ledger, claimed.id, status, { error, outboxPath, noticeDue: !!transport && status !== 'sent' });
       counts[status]++;

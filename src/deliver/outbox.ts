@@ -12,7 +12,10 @@ import { DeliveryError } from '../core/errors.ts';
 
 /** File-name-safe part: ASCII letters, digits, `.`, `_`, `-` only; no leading dot; at most `max` characters. */
 export function safeNamePart(value: string, max = 80): string {
-  const cleaned = value.replace(/[^A-Za-z0-9._-]+/g, '_').replace(/^[._]+/, '').slice(0, max);
+  const cleaned = value
+    .replace(/[^A-Za-z0-9._-]+/g, '_')
+    .replace(/^[._]+/, '')
+    .slice(0, max);
   return cleaned === '' ? 'x' : cleaned;
 }
 

@@ -13,11 +13,19 @@ export type SmtpTransporter = Transporter<SMTPTransport.SentMessageInfo>;
 export function smtpPassword(smtp: SmtpConfig, env: NodeJS.ProcessEnv): string | undefined {
   if (!smtp.user) return undefined;
   if (!smtp.passwordEnv) {
-    throw new DeliveryError('delivery.smtp.user is set but delivery.smtp.password-env is not', 'name the environment variable holding the password in delivery.smtp.password-env of the config YAML', false);
+    throw new DeliveryError(
+      'delivery.smtp.user is set but delivery.smtp.password-env is not',
+      'name the environment variable holding the password in delivery.smtp.password-env of the config YAML',
+      false,
+    );
   }
   const value = env[smtp.passwordEnv];
   if (value === undefined || value === '') {
-    throw new DeliveryError(`environment variable ${smtp.passwordEnv} is not set`, 'export it, or remove delivery.smtp.user from the config YAML', false);
+    throw new DeliveryError(
+      `environment variable ${smtp.passwordEnv} is not set`,
+      'export it, or remove delivery.smtp.user from the config YAML',
+      false,
+    );
   }
   return value;
 }

@@ -17,7 +17,10 @@ export function apparentTemperatureSteadman1994C(tC: number, rhPct: number, wind
 
 /** Vectorised {@link apparentTemperatureSteadman1994C}. */
 export function apparentTemperatureSteadman1994CArray(
-  tC: ArrayLike<number>, rhPct: ArrayLike<number>, wind10mMs: ArrayLike<number>, out: Float64Array,
+  tC: ArrayLike<number>,
+  rhPct: ArrayLike<number>,
+  wind10mMs: ArrayLike<number>,
+  out: Float64Array,
 ): ElementwiseCounts {
   return mapElementwise3(tC, rhPct, wind10mMs, out, apparentTemperatureSteadman1994C);
 }

@@ -18,7 +18,8 @@ export interface EhfClimatology {
 /** T95 and EHF85 from daily Tmax/Tmin (°C) of one reference period, same days, at least 34 days. */
 export function ehfClimatology(tmaxC: Float64Array, tminC: Float64Array): EhfClimatology {
   const n = tmaxC.length;
-  if (tminC.length !== n || n < 34) throw new RangeError(`ehfClimatology needs equal-length Tmax/Tmin of at least 34 days, got ${n}/${tminC.length}`);
+  if (tminC.length !== n || n < 34)
+    throw new RangeError(`ehfClimatology needs equal-length Tmax/Tmin of at least 34 days, got ${n}/${tminC.length}`);
   const dmt = new Float64Array(n - 1);
   for (let i = 0; i + 1 < n; i++) dmt[i] = dailyMeanTemperatureDmtC(tmaxC[i], tminC[i + 1]);
   const dmtP95C = percentileLinear(dmt, 95);

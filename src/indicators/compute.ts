@@ -13,7 +13,14 @@ import { countNaN } from './series-checks.ts';
 export { ehfClimatology, type EhfClimatology } from './climatology.ts';
 export type { AntecedentQuantity, IndicatorClimatology, IndicatorContext } from './definition.ts';
 export { ehfSeverityCategory, ehfSeverityRatio, type EhfSeverity } from './excess-heat-factor-nairn-fawcett-2015.ts';
-export { monthlySuitability, parseMalariaParams, suitabilityCategory, type MalariaParams, type MonthlySuitability, type SuitabilityCategory } from './malaria-monthly.ts';
+export {
+  monthlySuitability,
+  parseMalariaParams,
+  suitabilityCategory,
+  type MalariaParams,
+  type MonthlySuitability,
+  type SuitabilityCategory,
+} from './malaria-monthly.ts';
 export { dayOfYearPercentileThreshold } from './percentile.ts';
 
 /** An IndicatorSeries plus plain-language notes on partial or assumed inputs (for the ledger and bulletins). */
@@ -26,12 +33,23 @@ export interface IndicatorResult extends IndicatorSeries {
  * Throws ForelightError ('indicators') for a missing quantity, climatology or bad params; InputError/UnitError
  * for impossible input values or non-canonical units (naming region and quantity).
  */
-export function computeIndicator(ind: AnyIndicatorSpec, inputs: ReadonlyMap<Quantity, RegionSeries>, context: IndicatorContext = {}): IndicatorResult {
+export function computeIndicator(
+  ind: AnyIndicatorSpec,
+  inputs: ReadonlyMap<Quantity, RegionSeries>,
+  context: IndicatorContext = {},
+): IndicatorResult {
   const definition = indicatorDefinition(ind.kind);
   const out = definition.compute(ind, inputs, context);
   const { template: t, data } = out;
   return {
-    region: t.region, indicator: ind.id, units: definition.units, days: out.days ?? t.days, members: t.members, data,
-    outOfRange: out.outOfRange, missing: countNaN(data), notes: out.notes,
+    region: t.region,
+    indicator: ind.id,
+    units: definition.units,
+    days: out.days ?? t.days,
+    members: t.members,
+    data,
+    outOfRange: out.outOfRange,
+    missing: countNaN(data),
+    notes: out.notes,
   };
 }

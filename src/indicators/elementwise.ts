@@ -16,7 +16,10 @@ function checkLengths(out: Float64Array, ...inputs: ArrayLike<number>[]): void {
 }
 
 export function mapElementwise2(
-  a: ArrayLike<number>, b: ArrayLike<number>, out: Float64Array, f: (x: number, y: number) => number,
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+  out: Float64Array,
+  f: (x: number, y: number) => number,
 ): ElementwiseCounts {
   checkLengths(out, a, b);
   let outOfRange = 0;
@@ -35,7 +38,10 @@ export function mapElementwise2(
 }
 
 export function mapElementwise3(
-  a: ArrayLike<number>, b: ArrayLike<number>, c: ArrayLike<number>, out: Float64Array,
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+  c: ArrayLike<number>,
+  out: Float64Array,
   f: (x: number, y: number, z: number) => number,
 ): ElementwiseCounts {
   checkLengths(out, a, b, c);

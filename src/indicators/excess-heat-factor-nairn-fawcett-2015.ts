@@ -58,8 +58,13 @@ export interface EhfSeriesCounts {
  * as 1 (EHF = EHIsig). The last 3 days are NaN (no Tmin of the following morning / no full forward window).
  */
 export function excessHeatFactorSeries(
-  tmaxC: Float64Array, tminC: Float64Array, members: number, steps: number,
-  t95C: number, antecedentDmtC: Float64Array | undefined, out: Float64Array,
+  tmaxC: Float64Array,
+  tminC: Float64Array,
+  members: number,
+  steps: number,
+  t95C: number,
+  antecedentDmtC: Float64Array | undefined,
+  out: Float64Array,
 ): EhfSeriesCounts {
   const ante = antecedentDmtC ? antecedentDmtC.subarray(Math.max(0, antecedentDmtC.length - 30)) : new Float64Array(0);
   const a = ante.length;

@@ -7,11 +7,13 @@ import { countOutOfRange } from './series-checks.ts';
 export type FeelsLikeParams = { readonly basis?: 'tmax' | 'tmean' };
 
 const PARAMS = paramsSchema({
-  basis: { enum: ['tmax', 'tmean'], default: 'tmax', description: 'Basis temperature: the day\'s maximum or mean.' },
+  basis: { enum: ['tmax', 'tmean'], default: 'tmax', description: "Basis temperature: the day's maximum or mean." },
 });
 
 export function feelsLikeKind<K extends FeelsLikeKind>(
-  kind: K, needs: readonly (readonly Quantity[])[], describe: IndicatorDefinition['describe'],
+  kind: K,
+  needs: readonly (readonly Quantity[])[],
+  describe: IndicatorDefinition['describe'],
 ): IndicatorDefinition<K, FeelsLikeParams> {
   return defineIndicator<K, FeelsLikeParams>({
     kind,

@@ -18,7 +18,11 @@ import { mapElementwise2, mapElementwise3 } from './elementwise.ts';
 import { heatIndexRothfusz1990C } from './heat-index-rothfusz-1990.ts';
 import { humidexMastertonRichardson1979 } from './humidex-masterton-richardson-1979.ts';
 import {
-  dewpointFromRhMagnusC, MAGNUS_ALDUCHOV_ESKRIDGE_1996, MAGNUS_BOM, rhFromDewpointMagnusPct, type MagnusCoefficients,
+  dewpointFromRhMagnusC,
+  MAGNUS_ALDUCHOV_ESKRIDGE_1996,
+  MAGNUS_BOM,
+  rhFromDewpointMagnusPct,
+  type MagnusCoefficients,
 } from './magnus-humidity.ts';
 import { checkAligned, requireQuantity } from './series-checks.ts';
 import { wbgtSimplifiedBomC } from './wbgt-simplified-bom.ts';
@@ -44,7 +48,10 @@ function clampRh(rhPct: number): number {
 }
 
 function dewpointSeries(
-  inputs: ReadonlyMap<Quantity, RegionSeries>, basis: RegionSeries, id: string, notes: string[],
+  inputs: ReadonlyMap<Quantity, RegionSeries>,
+  basis: RegionSeries,
+  id: string,
+  notes: string[],
 ): { readonly tdC: Float64Array; readonly raw: readonly Float64Array[] } {
   if (inputs.has('dewpoint')) {
     const td = requireQuantity(inputs, 'dewpoint', id, 'humidity');
@@ -56,7 +63,9 @@ function dewpointSeries(
   const rhT = inputs.has('tmean') ? requireQuantity(inputs, 'tmean', id, 'temperature at which RH holds') : basis;
   checkAligned([basis, rh, rhT]);
   if (rhT === basis && basis.quantity !== 'tmean') {
-    notes.push(`relative humidity assumed to hold at ${basis.quantity} (no tmean to convert it to a dewpoint): heat stress may be overstated`);
+    notes.push(
+      `relative humidity assumed to hold at ${basis.quantity} (no tmean to convert it to a dewpoint): heat stress may be overstated`,
+    );
   }
   const tdC = new Float64Array(rh.data.length);
   mapElementwise2(rhT.data, rh.data, tdC, (t, r) => dewpointFromRhMagnusC(t, clampRh(r), MAGNUS_ALDUCHOV_ESKRIDGE_1996));
@@ -65,7 +74,10 @@ function dewpointSeries(
 
 /** Computes one feels-like kind for all members and days. `params.basis`: 'tmax' (default) or 'tmean'. */
 export function feelsLikeSeries(
-  kind: FeelsLikeKind, inputs: ReadonlyMap<Quantity, RegionSeries>, id: string, basisParam: string | number | boolean | undefined,
+  kind: FeelsLikeKind,
+  inputs: ReadonlyMap<Quantity, RegionSeries>,
+  id: string,
+  basisParam: string | number | boolean | undefined,
 ): FeelsLikeResult {
   if (basisParam !== undefined && basisParam !== 'tmax' && basisParam !== 'tmean') {
     throw new ForelightError('indicators', 'bad-param', `indicator "${id}": params.basis is "${String(basisParam)}"`, 'use tmax or tmean');

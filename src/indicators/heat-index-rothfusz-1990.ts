@@ -25,8 +25,17 @@ function simpleHeatIndexF(tF: number, rhPct: number): number {
 export function heatIndexRegressionRothfusz1990F(tF: number, rhPct: number): number {
   const t = tF;
   const r = rhPct;
-  return -42.379 + 2.04901523 * t + 10.14333127 * r - 0.22475541 * t * r - 6.83783e-3 * t * t
-    - 5.481717e-2 * r * r + 1.22874e-3 * t * t * r + 8.5282e-4 * t * r * r - 1.99e-6 * t * t * r * r;
+  return (
+    -42.379 +
+    2.04901523 * t +
+    10.14333127 * r -
+    0.22475541 * t * r -
+    6.83783e-3 * t * t -
+    5.481717e-2 * r * r +
+    1.22874e-3 * t * t * r +
+    8.5282e-4 * t * r * r -
+    1.99e-6 * t * t * r * r
+  );
 }
 
 /** Which step of the WPC algorithm applies at (T °F, RH %). */

@@ -12,17 +12,28 @@ export function badParam(ind: IndicatorSpec<string, unknown>, what: string, fix:
 }
 
 export function missingClimatology(ind: IndicatorSpec<string, unknown>, region: string, what: string): ForelightError {
-  return new ForelightError('indicators', 'missing-climatology', `indicator "${ind.id}", region ${region}: no ${what} in the climatology`, 'configure hindcasts or observations for this source so the climatology can be computed');
+  return new ForelightError(
+    'indicators',
+    'missing-climatology',
+    `indicator "${ind.id}", region ${region}: no ${what} in the climatology`,
+    'configure hindcasts or observations for this source so the climatology can be computed',
+  );
 }
 
 export function windowDays(ind: IndicatorSpec<string, unknown>): number {
-  if (!(Number.isInteger(ind.windowDays) && ind.windowDays >= 1)) throw badParam(ind, `windowDays is ${ind.windowDays}`, 'use a whole number of days ≥ 1');
+  if (!(Number.isInteger(ind.windowDays) && ind.windowDays >= 1))
+    throw badParam(ind, `windowDays is ${ind.windowDays}`, 'use a whole number of days ≥ 1');
   return ind.windowDays;
 }
 
 /** Daily mean temperature: the tmean series, else (tmax + tmin)/2 (with a note). */
-export function meanTemperature(ind: IndicatorSpec<string, unknown>, inputs: ReadonlyMap<Quantity, RegionSeries>, notes: string[]): RegionSeries {
-  if (inputs.has('tmean') || !inputs.has('tmax') || !inputs.has('tmin')) return requireQuantity(inputs, 'tmean', ind.id, 'daily mean temperature');
+export function meanTemperature(
+  ind: IndicatorSpec<string, unknown>,
+  inputs: ReadonlyMap<Quantity, RegionSeries>,
+  notes: string[],
+): RegionSeries {
+  if (inputs.has('tmean') || !inputs.has('tmax') || !inputs.has('tmin'))
+    return requireQuantity(inputs, 'tmean', ind.id, 'daily mean temperature');
   const tmax = requireQuantity(inputs, 'tmax', ind.id, 'daily mean temperature as (tmax + tmin)/2');
   const tmin = requireQuantity(inputs, 'tmin', ind.id, 'daily mean temperature as (tmax + tmin)/2');
   checkAligned([tmax, tmin]);
@@ -36,10 +47,15 @@ export function meanTemperature(ind: IndicatorSpec<string, unknown>, inputs: Rea
 export type DailyThresholdParams = { readonly quantity?: AntecedentQuantity; readonly dayThresholdC?: number };
 
 /** The daily threshold: params.dayThresholdC, else the climatology's day-of-year or fixed threshold. */
-export function dayThreshold(ind: IndicatorSpec<string, DailyThresholdParams>, region: string, context: IndicatorContext): (date: IsoDate) => number {
+export function dayThreshold(
+  ind: IndicatorSpec<string, DailyThresholdParams>,
+  region: string,
+  context: IndicatorContext,
+): (date: IsoDate) => number {
   const fixed = ind.params.dayThresholdC;
   if (fixed !== undefined) {
-    if (typeof fixed !== 'number' || !Number.isFinite(fixed)) throw badParam(ind, `params.dayThresholdC is "${String(fixed)}"`, 'give a number in degC, or leave it out to use the climatology');
+    if (typeof fixed !== 'number' || !Number.isFinite(fixed))
+      throw badParam(ind, `params.dayThresholdC is "${String(fixed)}"`, 'give a number in degC, or leave it out to use the climatology');
     return () => fixed;
   }
   const c = context.climatology;
@@ -51,7 +67,10 @@ export function dayThreshold(ind: IndicatorSpec<string, DailyThresholdParams>, r
 
 /** The temperature series named by params.quantity (default `fallback`). */
 export function temperatureInput(
-  ind: IndicatorSpec<string, DailyThresholdParams>, inputs: ReadonlyMap<Quantity, RegionSeries>, fallback: AntecedentQuantity, notes: string[],
+  ind: IndicatorSpec<string, DailyThresholdParams>,
+  inputs: ReadonlyMap<Quantity, RegionSeries>,
+  fallback: AntecedentQuantity,
+  notes: string[],
 ): RegionSeries {
   const q = ind.params.quantity ?? fallback;
   if (q !== 'tmax' && q !== 'tmin' && q !== 'tmean') throw badParam(ind, `params.quantity is "${String(q)}"`, 'use tmax, tmin or tmean');
@@ -61,5 +80,5 @@ export function temperatureInput(
 /** Schema of the daily-threshold params (YAML keys). */
 export const DAILY_THRESHOLD_PARAMS = {
   quantity: { enum: ['tmax', 'tmin', 'tmean'], default: 'tmax', description: 'Daily temperature compared with the threshold.' },
-  'day-threshold-c': { type: 'number', description: 'Fixed daily threshold in degC; default: the climatology\'s day-of-year threshold.' },
+  'day-threshold-c': { type: 'number', description: "Fixed daily threshold in degC; default: the climatology's day-of-year threshold." },
 } as const;

@@ -23,19 +23,35 @@ export interface MagnusCoefficients {
 
 /** Alduchov & Eskridge (1996), J. Appl. Meteor. 35:601-609, eq. 21 (AERK): 6.1094, 17.625, 243.04. Default. */
 export const MAGNUS_ALDUCHOV_ESKRIDGE_1996: MagnusCoefficients = {
-  name: 'alduchov-eskridge-1996', cHpa: 6.1094, a: 17.625, bC: 243.04, source: 'alduchovEskridge1996',
+  name: 'alduchov-eskridge-1996',
+  cHpa: 6.1094,
+  a: 17.625,
+  bC: 243.04,
+  source: 'alduchovEskridge1996',
 };
 /** Bolton (1980), Mon. Wea. Rev. 108:1046-1053, eq. 10: 6.112, 17.67, 243.5. */
 export const MAGNUS_BOLTON_1980: MagnusCoefficients = {
-  name: 'bolton-1980', cHpa: 6.112, a: 17.67, bC: 243.5, source: 'bolton1980',
+  name: 'bolton-1980',
+  cHpa: 6.112,
+  a: 17.67,
+  bC: 243.5,
+  source: 'bolton1980',
 };
 /** Sonntag (1990) Magnus constants as used by WMO: 6.112, 17.62, 243.12. */
 export const MAGNUS_WMO_SONNTAG_1990: MagnusCoefficients = {
-  name: 'wmo-sonntag-1990', cHpa: 6.112, a: 17.62, bC: 243.12, source: 'sonntag1990',
+  name: 'wmo-sonntag-1990',
+  cHpa: 6.112,
+  a: 17.62,
+  bC: 243.12,
+  source: 'sonntag1990',
 };
 /** Tetens-type constants printed with the BoM apparent-temperature formula: 6.105, 17.27, 237.7. */
 export const MAGNUS_BOM: MagnusCoefficients = {
-  name: 'bom', cHpa: 6.105, a: 17.27, bC: 237.7, source: 'bomThermalComfort',
+  name: 'bom',
+  cHpa: 6.105,
+  a: 17.27,
+  bC: 237.7,
+  source: 'bomThermalComfort',
 };
 
 export const MAGNUS_SETS: Readonly<Record<string, MagnusCoefficients>> = {
@@ -87,8 +103,10 @@ export function vapourPressureBomHpa(tC: number, rhPct: number): number {
 
 /** Vectorised {@link rhFromDewpointMagnusPct}: out[i] = RH(tC[i], tdC[i]). */
 export function rhFromDewpointMagnusPctArray(
-  tC: ArrayLike<number>, tdC: ArrayLike<number>, out: Float64Array, k: MagnusCoefficients = MAGNUS_ALDUCHOV_ESKRIDGE_1996,
+  tC: ArrayLike<number>,
+  tdC: ArrayLike<number>,
+  out: Float64Array,
+  k: MagnusCoefficients = MAGNUS_ALDUCHOV_ESKRIDGE_1996,
 ): ElementwiseCounts {
   return mapElementwise2(tC, tdC, out, (t, td) => rhFromDewpointMagnusPct(t, td, k));
 }
-

@@ -52,15 +52,23 @@ function badParam(id: string, what: string, fix: string): ForelightError {
 export function parseMalariaParams(ind: { readonly id: string; readonly params: Readonly<Record<string, unknown>> }): MalariaParams {
   const p = ind.params;
   const speciesRaw = p.species ?? 'falciparum';
-  const species = speciesRaw === 'falciparum' || speciesRaw === 'P. falciparum' ? 'falciparum'
-    : speciesRaw === 'vivax' || speciesRaw === 'P. vivax' ? 'vivax' : null;
+  const species =
+    speciesRaw === 'falciparum' || speciesRaw === 'P. falciparum'
+      ? 'falciparum'
+      : speciesRaw === 'vivax' || speciesRaw === 'P. vivax'
+        ? 'vivax'
+        : null;
   if (!species) throw badParam(ind.id, `params.species is "${String(speciesRaw)}"`, 'use falciparum or vivax');
   const temperatureModel = p.temperatureModel ?? 'martens-detinova';
   if (temperatureModel !== 'martens-detinova' && temperatureModel !== 'mordecai-2013') {
     throw badParam(ind.id, `params.temperatureModel is "${String(temperatureModel)}"`, 'use martens-detinova or mordecai-2013');
   }
   if (temperatureModel === 'mordecai-2013' && species !== 'falciparum') {
-    throw badParam(ind.id, 'params.temperatureModel mordecai-2013 is fitted for P. falciparum only', 'use species falciparum or the martens-detinova model');
+    throw badParam(
+      ind.id,
+      'params.temperatureModel mordecai-2013 is fitted for P. falciparum only',
+      'use species falciparum or the martens-detinova model',
+    );
   }
   const lagMonths = p.lagMonths ?? 1;
   if (lagMonths !== 1 && lagMonths !== 2) throw badParam(ind.id, `params.lagMonths is ${String(lagMonths)}`, 'use 1 or 2');
@@ -71,7 +79,8 @@ export function parseMalariaParams(ind: { readonly id: string; readonly params: 
   };
   const marginalAt = num('marginalAt', 0.25);
   const suitableAt = num('suitableAt', 0.75);
-  if (!(marginalAt < suitableAt)) throw badParam(ind.id, `params.marginalAt ${marginalAt} is not below params.suitableAt ${suitableAt}`, 'make marginalAt < suitableAt');
+  if (!(marginalAt < suitableAt))
+    throw badParam(ind.id, `params.marginalAt ${marginalAt} is not below params.suitableAt ${suitableAt}`, 'make marginalAt < suitableAt');
   return { species, temperatureModel, lagMonths, minMonthCoverage: num('minMonthCoverage', 0.5), marginalAt, suitableAt };
 }
 
@@ -98,7 +107,11 @@ function temperatureModel(p: MalariaParams): (tC: number) => number {
  * Negative rain down to the packing tolerance is counted as 0 (Math.max keeps NaN as NaN).
  */
 export function monthlySuitability(
-  days: readonly IsoDate[], members: number, tMeanC: Float64Array, precipMmPerDay: Float64Array, p: MalariaParams,
+  days: readonly IsoDate[],
+  members: number,
+  tMeanC: Float64Array,
+  precipMmPerDay: Float64Array,
+  p: MalariaParams,
 ): MonthlySuitability[] {
   const steps = days.length;
   const model = temperatureModel(p);
@@ -124,7 +137,15 @@ export function monthlySuitability(
       rainTotalMm[m] = (rSum / (end - start)) * nDays;
       index[m] = covered ? Math.min(craigMonthlySuitability1999(tempMeanC[m], rainTotalMm[m]), model(tempMeanC[m])) : NaN;
     }
-    result.push({ dataMonth: month, targetMonth: addMonths(month, p.lagMonths), forecastDays: end - start, daysInMonth: nDays, tempMeanC, rainTotalMm, index });
+    result.push({
+      dataMonth: month,
+      targetMonth: addMonths(month, p.lagMonths),
+      forecastDays: end - start,
+      daysInMonth: nDays,
+      tempMeanC,
+      rainTotalMm,
+      index,
+    });
     start = end;
   }
   return result;

@@ -17,7 +17,9 @@ import { percentileLinear } from '../core/percentile.ts';
  * smoothingWindowDays: odd, 1..61 (e.g. 15, a common choice for percentile thresholds; no specific source).
  */
 export function dayOfYearPercentileThreshold(
-  dailyValuesByDate: ReadonlyMap<IsoDate, number>, q: number, smoothingWindowDays: number,
+  dailyValuesByDate: ReadonlyMap<IsoDate, number>,
+  q: number,
+  smoothingWindowDays: number,
 ): (date: IsoDate) => number {
   if (!(Number.isInteger(smoothingWindowDays) && smoothingWindowDays % 2 === 1 && smoothingWindowDays <= 61)) {
     throw new RangeError(`smoothingWindowDays must be an odd whole number 1..61, got ${smoothingWindowDays}`);

@@ -68,7 +68,8 @@ export const REFERENCES = {
   sonntag1990: {
     author: 'Sonntag, D.',
     year: 1990,
-    title: 'Important new values of the physical constants of 1986, vapour pressure formulations based on the ITS-90, and psychrometer formulae',
+    title:
+      'Important new values of the physical constants of 1986, vapour pressure formulations based on the ITS-90, and psychrometer formulae',
     journal: 'Zeitschrift für Meteorologie 40:340-344 (Magnus constants as adopted by WMO)',
   },
   nairnFawcett2015: {
@@ -122,4 +123,3 @@ export const REFERENCES = {
 } as const satisfies Record<string, Reference>;
 
 export type ReferenceKey = keyof typeof REFERENCES;
-

@@ -73,4 +73,3 @@ const PROFILE = r0ProfileMordecai2013();
 export function relativeR0Mordecai2013(tC: number): number {
   return r0UnscaledMordecai2013(tC) / PROFILE.maxR0;
 }
-

@@ -10,7 +10,10 @@ export type NoParams = { readonly [key: string]: never };
 
 /** Running mean over `window-days` of daily `of` (tmean: the tmean series, else (tmax + tmin)/2), °C. */
 export function runningMeanKind<K extends string>(
-  kind: K, of: AntecedentQuantity, needs: readonly (readonly Quantity[])[], describe: IndicatorDefinition['describe'],
+  kind: K,
+  of: AntecedentQuantity,
+  needs: readonly (readonly Quantity[])[],
+  describe: IndicatorDefinition['describe'],
 ): IndicatorDefinition<K, NoParams> {
   return defineIndicator<K, NoParams>({
     kind,

@@ -29,7 +29,12 @@ export function checkSeries(s: RegionSeries): void {
     );
   }
   if (s.data.length !== s.members * s.days.length) {
-    throw new InputError('series-shape', s.provenance.file, `region ${s.region}, quantity ${s.quantity}: ${s.data.length} values for ${s.members} members × ${s.days.length} days`, 'report this as a read-stage bug');
+    throw new InputError(
+      'series-shape',
+      s.provenance.file,
+      `region ${s.region}, quantity ${s.quantity}: ${s.data.length} values for ${s.members} members × ${s.days.length} days`,
+      'report this as a read-stage bug',
+    );
   }
   const [lo, hi] = IMPOSSIBLE_BOUNDS[s.quantity];
   let bad = 0;
@@ -44,7 +49,8 @@ export function checkSeries(s: RegionSeries): void {
   if (bad > 0) {
     const steps = s.days.length;
     throw new InputError(
-      'impossible-value', s.provenance.file,
+      'impossible-value',
+      s.provenance.file,
       `region ${s.region}, quantity ${s.quantity} (variable ${s.provenance.variable}): ${s.data[first]} ${units} on ${s.days[first % steps]} member ${Math.floor(first / steps) + 1} is outside the possible range ${lo}..${hi} ${units} (${bad} such values)`,
       'check the variable mapping, its units attribute and scale_factor/add_offset',
     );
@@ -55,7 +61,12 @@ export function checkSeries(s: RegionSeries): void {
 export function requireQuantity(inputs: ReadonlyMap<Quantity, RegionSeries>, q: Quantity, indicatorId: string, why: string): RegionSeries {
   const s = inputs.get(q);
   if (!s) {
-    throw new ForelightError('indicators', 'missing-quantity', `indicator "${indicatorId}" needs quantity "${q}" (${why}) but the source provides none`, `map "${q}" to a variable in the source's variables, or remove the indicator from this tier`);
+    throw new ForelightError(
+      'indicators',
+      'missing-quantity',
+      `indicator "${indicatorId}" needs quantity "${q}" (${why}) but the source provides none`,
+      `map "${q}" to a variable in the source's variables, or remove the indicator from this tier`,
+    );
   }
   checkSeries(s);
   return s;
@@ -66,9 +77,12 @@ export function checkAligned(series: readonly RegionSeries[]): void {
   const [a, ...rest] = series;
   for (const b of rest) {
     if (b.members !== a.members || b.days.length !== a.days.length || b.days[0] !== a.days[0]) {
-      throw new InputError('misaligned', b.provenance.file,
+      throw new InputError(
+        'misaligned',
+        b.provenance.file,
         `region ${b.region}: quantity ${b.quantity} has ${b.members} members from ${b.days[0]} (${b.days.length} days) but ${a.quantity} has ${a.members} members from ${a.days[0]} (${a.days.length} days)`,
-        'read all quantities of a source on the same members and days');
+        'read all quantities of a source on the same members and days',
+      );
     }
   }
 }

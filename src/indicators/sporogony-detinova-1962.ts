@@ -36,4 +36,3 @@ export function sporogonyRateDetinova1962PerDay(tC: number, k: SporogonyConstant
   if (Number.isNaN(tC)) return NaN;
   return tC > k.tMinC ? (tC - k.tMinC) / k.degreeDays : 0;
 }
-

@@ -11,7 +11,12 @@
  */
 
 export const CRAIG_1999_BREAKPOINTS = {
-  tempRiseStartC: 18, tempRiseEndC: 22, tempFallStartC: 32, tempFallEndC: 40, rainRiseStartMm: 0, rainRiseEndMm: 80,
+  tempRiseStartC: 18,
+  tempRiseEndC: 22,
+  tempFallStartC: 32,
+  tempFallEndC: 40,
+  rainRiseStartMm: 0,
+  rainRiseEndMm: 80,
 } as const;
 
 /** Cosine-squared S-curve rising from 0 at a to 1 at b. */
@@ -41,4 +46,3 @@ export function craigRainfallMembership1999(rainMonthMm: number): number {
 export function craigMonthlySuitability1999(tMonthMeanC: number, rainMonthMm: number): number {
   return Math.min(craigTemperatureMembership1999(tMonthMeanC), craigRainfallMembership1999(rainMonthMm));
 }
-

@@ -45,4 +45,3 @@ export function maxSurvivalThroughSporogony(k: SporogonyConstants): { readonly t
 export function relativeSurvivalThroughSporogony(tC: number, k: SporogonyConstants, maxValue: number): number {
   return survivalThroughSporogony(tC, k) / maxValue;
 }
-

@@ -28,7 +28,8 @@ function extendedRow(s: DailySeries, m: number, antecedent: Float64Array, buf: F
  * series days); `fill` writes the member's `steps` results from `out[base]` on. One reused row buffer.
  */
 function perMember(
-  s: DailySeries, antecedent: Float64Array,
+  s: DailySeries,
+  antecedent: Float64Array,
   fill: (x: Float64Array, antecedentDays: number, out: Float64Array, base: number) => void,
 ): Float64Array {
   const steps = s.days.length;
@@ -66,7 +67,11 @@ function thresholdsFor(s: DailySeries, antecedentLength: number, thresholdC: (da
  * Length of the run of consecutive days with value > threshold (strictly) ending on each day [days].
  * A missing day makes the run unknown (NaN) until the next day at or below the threshold.
  */
-export function hotDaysRunSeries(s: DailySeries, thresholdC: (date: IsoDate) => number, antecedent: Float64Array = new Float64Array(0)): Float64Array {
+export function hotDaysRunSeries(
+  s: DailySeries,
+  thresholdC: (date: IsoDate) => number,
+  antecedent: Float64Array = new Float64Array(0),
+): Float64Array {
   const thr = thresholdsFor(s, antecedent.length, thresholdC);
   return perMember(s, antecedent, (x, a, out, base) => {
     let run = 0;
@@ -85,7 +90,10 @@ export function hotDaysRunSeries(s: DailySeries, thresholdC: (date: IsoDate) => 
 
 /** Heat load: sum over the trailing `windowDays` of max(0, value − threshold) [°C·day]; NaN when incomplete. */
 export function heatLoadSeries(
-  s: DailySeries, windowDays: number, thresholdC: (date: IsoDate) => number, antecedent: Float64Array = new Float64Array(0),
+  s: DailySeries,
+  windowDays: number,
+  thresholdC: (date: IsoDate) => number,
+  antecedent: Float64Array = new Float64Array(0),
 ): Float64Array {
   const thr = thresholdsFor(s, antecedent.length, thresholdC);
   return perMember(s, antecedent, (x, a, out, base) => {

@@ -44,17 +44,20 @@ export function recordBulletins(ledger: Ledger, runId: number, bulletins: readon
     VALUES (?, ?, ?, ?, ?, ?)`);
   const insertDelivery = db.prepare(`INSERT INTO deliveries (bulletin_id, recipient, status, created_at, updated_at)
     VALUES (?, ?, 'pending', ?, ?)`);
-  return db.transaction(() => {
-    const now = stamp(ledger);
-    return bulletins.map((b) => {
-      const existing = find.get(runId, b.id) as { id: number } | undefined;
-      if (existing) return existing.id;
-      const rowId = (insert.get(runId, b.id, b.team, b.locale, b.subject, b.html, b.text, bulletinContentHash(b), now) as { id: number }).id;
-      b.attachments.forEach((a, i) => insertAttachment.run(rowId, i, a.cid, a.filename, a.contentType, Buffer.from(a.content)));
-      for (const recipient of uniqueRecipients(b.to)) insertDelivery.run(rowId, recipient, now, now);
-      return rowId;
-    });
-  }).immediate();
+  return db
+    .transaction(() => {
+      const now = stamp(ledger);
+      return bulletins.map((b) => {
+        const existing = find.get(runId, b.id) as { id: number } | undefined;
+        if (existing) return existing.id;
+        const rowId = (insert.get(runId, b.id, b.team, b.locale, b.subject, b.html, b.text, bulletinContentHash(b), now) as { id: number })
+          .id;
+        b.attachments.forEach((a, i) => insertAttachment.run(rowId, i, a.cid, a.filename, a.contentType, Buffer.from(a.content)));
+        for (const recipient of uniqueRecipients(b.to)) insertDelivery.run(rowId, recipient, now, now);
+        return rowId;
+      });
+    })
+    .immediate();
 }
 
 export function hasBulletins(ledger: Ledger, runId: number): boolean {
@@ -62,22 +65,51 @@ export function hasBulletins(ledger: Ledger, runId: number): boolean {
 }
 
 interface BulletinRow {
-  id: number; run_id: number; forecast_key: string; bulletin_key: string; team: string; locale: string; subject: string;
-  html: string; text: string; content_sha256: string; created_at: string;
+  id: number;
+  run_id: number;
+  forecast_key: string;
+  bulletin_key: string;
+  team: string;
+  locale: string;
+  subject: string;
+  html: string;
+  text: string;
+  content_sha256: string;
+  created_at: string;
 }
 
 export function readBulletin(ledger: Ledger, rowId: number): StoredBulletin {
-  const row = ledger.db.prepare(`SELECT b.*, r.forecast_key FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE b.id = ?`)
-    .get(rowId) as BulletinRow | undefined;
-  if (!row) throw new ForelightError('ledger', 'bulletin-unknown', `bulletin row ${rowId} is not in ledger ${ledger.path}`, 'list bulletins with issuedBulletins()');
-  const attachments = (ledger.db.prepare('SELECT cid, filename, content_type, content FROM attachments WHERE bulletin_id = ? ORDER BY position')
-    .all(rowId) as { cid: string; filename: string; content_type: string; content: Buffer }[])
-    .map((a) => ({ cid: a.cid, filename: a.filename, contentType: a.content_type, content: new Uint8Array(a.content) }));
-  const to = (ledger.db.prepare('SELECT recipient FROM deliveries WHERE bulletin_id = ? ORDER BY id').all(rowId) as { recipient: string }[])
-    .map((r) => r.recipient);
+  const row = ledger.db.prepare(`SELECT b.*, r.forecast_key FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE b.id = ?`).get(rowId) as
+    BulletinRow | undefined;
+  if (!row)
+    throw new ForelightError(
+      'ledger',
+      'bulletin-unknown',
+      `bulletin row ${rowId} is not in ledger ${ledger.path}`,
+      'list bulletins with issuedBulletins()',
+    );
+  const attachments = (
+    ledger.db
+      .prepare('SELECT cid, filename, content_type, content FROM attachments WHERE bulletin_id = ? ORDER BY position')
+      .all(rowId) as { cid: string; filename: string; content_type: string; content: Buffer }[]
+  ).map((a) => ({ cid: a.cid, filename: a.filename, contentType: a.content_type, content: new Uint8Array(a.content) }));
+  const to = (
+    ledger.db.prepare('SELECT recipient FROM deliveries WHERE bulletin_id = ? ORDER BY id').all(rowId) as { recipient: string }[]
+  ).map((r) => r.recipient);
   return {
-    rowId: row.id, runId: row.run_id, forecastKey: row.forecast_key, id: row.bulletin_key, team: row.team, locale: row.locale,
-    to, subject: row.subject, html: row.html, text: row.text, attachments, contentSha256: row.content_sha256, createdAt: row.created_at,
+    rowId: row.id,
+    runId: row.run_id,
+    forecastKey: row.forecast_key,
+    id: row.bulletin_key,
+    team: row.team,
+    locale: row.locale,
+    to,
+    subject: row.subject,
+    html: row.html,
+    text: row.text,
+    attachments,
+    contentSha256: row.content_sha256,
+    createdAt: row.created_at,
   };
 }
 
@@ -99,17 +131,32 @@ export interface IssuedBulletin {
 /** Every bulletin of every issued run (ok or partial), newest first: the listing for the HTML archive. */
 export function issuedBulletins(ledger: Ledger): IssuedBulletin[] {
   const issued = `FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE r.status IN ('ok', 'partial')`;
-  const rows = ledger.db.prepare(`SELECT b.id, b.run_id, r.forecast_key, r.forced, b.bulletin_key, b.team, b.locale, b.subject,
-      b.content_sha256, b.created_at ${issued} ORDER BY r.forecast_key DESC, b.run_id DESC, b.id`).all() as
-    (Omit<BulletinRow, 'html' | 'text'> & { forced: number })[];
+  const rows = ledger.db
+    .prepare(
+      `SELECT b.id, b.run_id, r.forecast_key, r.forced, b.bulletin_key, b.team, b.locale, b.subject,
+      b.content_sha256, b.created_at ${issued} ORDER BY r.forecast_key DESC, b.run_id DESC, b.id`,
+    )
+    .all() as (Omit<BulletinRow, 'html' | 'text'> & { forced: number })[];
   const counts = new Map<number, Record<string, number>>();
-  for (const c of ledger.db.prepare(`SELECT d.bulletin_id, d.status, count(*) AS n FROM deliveries d
-      WHERE d.bulletin_id IN (SELECT b.id ${issued}) GROUP BY d.bulletin_id, d.status`).all() as { bulletin_id: number; status: string; n: number }[]) {
+  for (const c of ledger.db
+    .prepare(
+      `SELECT d.bulletin_id, d.status, count(*) AS n FROM deliveries d
+      WHERE d.bulletin_id IN (SELECT b.id ${issued}) GROUP BY d.bulletin_id, d.status`,
+    )
+    .all() as { bulletin_id: number; status: string; n: number }[]) {
     counts.set(c.bulletin_id, { ...counts.get(c.bulletin_id), [c.status]: c.n });
   }
   return rows.map((r) => ({
-    rowId: r.id, runId: r.run_id, forecastKey: r.forecast_key, forced: r.forced === 1, bulletinId: r.bulletin_key, team: r.team,
-    locale: r.locale, subject: r.subject, contentSha256: r.content_sha256, createdAt: r.created_at,
+    rowId: r.id,
+    runId: r.run_id,
+    forecastKey: r.forecast_key,
+    forced: r.forced === 1,
+    bulletinId: r.bulletin_key,
+    team: r.team,
+    locale: r.locale,
+    subject: r.subject,
+    contentSha256: r.content_sha256,
+    createdAt: r.created_at,
     deliveries: counts.get(r.id) ?? {},
   }));
 }

@@ -28,25 +28,50 @@ export interface DeliveryRecord {
 }
 
 interface DeliveryRow {
-  id: number; bulletin_id: number; run_id: number; forecast_key: string; recipient: string; status: DeliveryStatus;
-  attempts: number; last_error: string | null; message_id: string | null; claimed_by: string | null; claimed_at: string | null;
-  outbox_path: string | null; notice: 'due' | 'done' | null; updated_at: string;
+  id: number;
+  bulletin_id: number;
+  run_id: number;
+  forecast_key: string;
+  recipient: string;
+  status: DeliveryStatus;
+  attempts: number;
+  last_error: string | null;
+  message_id: string | null;
+  claimed_by: string | null;
+  claimed_at: string | null;
+  outbox_path: string | null;
+  notice: 'due' | 'done' | null;
+  updated_at: string;
 }
 
 const SELECT = `SELECT d.*, b.run_id, r.forecast_key FROM deliveries d
   JOIN bulletins b ON b.id = d.bulletin_id JOIN runs r ON r.id = b.run_id`;
 
 const toRecord = (r: DeliveryRow): DeliveryRecord => ({
-  id: r.id, bulletinRowId: r.bulletin_id, runId: r.run_id, forecastKey: r.forecast_key, recipient: r.recipient, status: r.status,
-  attempts: r.attempts, lastError: r.last_error, messageId: r.message_id, claimedBy: r.claimed_by, claimedAt: r.claimed_at,
-  outboxPath: r.outbox_path, notice: r.notice, updatedAt: r.updated_at,
+  id: r.id,
+  bulletinRowId: r.bulletin_id,
+  runId: r.run_id,
+  forecastKey: r.forecast_key,
+  recipient: r.recipient,
+  status: r.status,
+  attempts: r.attempts,
+  lastError: r.last_error,
+  messageId: r.message_id,
+  claimedBy: r.claimed_by,
+  claimedAt: r.claimed_at,
+  outboxPath: r.outbox_path,
+  notice: r.notice,
+  updatedAt: r.updated_at,
 });
 
 /** Deliveries in the given statuses (default: pending), optionally of one run, oldest first. */
 export function listDeliveries(ledger: Ledger, options: { statuses?: readonly DeliveryStatus[]; runId?: number } = {}): DeliveryRecord[] {
   const statuses = options.statuses ?? ['pending'];
-  const rows = ledger.db.prepare(`${SELECT} WHERE d.status IN (${statuses.map(() => '?').join(', ')})
-    ${options.runId === undefined ? '' : 'AND b.run_id = ?'} ORDER BY d.id`)
+  const rows = ledger.db
+    .prepare(
+      `${SELECT} WHERE d.status IN (${statuses.map(() => '?').join(', ')})
+    ${options.runId === undefined ? '' : 'AND b.run_id = ?'} ORDER BY d.id`,
+    )
     .all(...statuses, ...(options.runId === undefined ? [] : [options.runId])) as DeliveryRow[];
   return rows.map(toRecord);
 }
@@ -61,8 +86,11 @@ export function pendingDeliveries(ledger: Ledger, runId?: number): DeliveryRecor
  */
 export function claimDelivery(ledger: Ledger, id: number, claimedBy: string, messageId: string): DeliveryRecord | null {
   const now = stamp(ledger);
-  const changed = ledger.db.prepare(`UPDATE deliveries SET status = 'sending', attempts = attempts + 1, claimed_by = ?,
-    claimed_at = ?, updated_at = ?, message_id = coalesce(message_id, ?) WHERE id = ? AND status = 'pending'`)
+  const changed = ledger.db
+    .prepare(
+      `UPDATE deliveries SET status = 'sending', attempts = attempts + 1, claimed_by = ?,
+    claimed_at = ?, updated_at = ?, message_id = coalesce(message_id, ?) WHERE id = ? AND status = 'pending'`,
+    )
     .run(claimedBy, now, now, messageId, id).changes;
   return changed === 1 ? getDelivery(ledger, id) : null;
 }
@@ -82,29 +110,46 @@ export function markDelivery(
   status: 'sent' | 'outbox' | 'failed' | 'pending',
   detail: { error?: string; outboxPath?: string; noticeDue?: boolean } = {},
 ): boolean {
-  return ledger.db.prepare(`UPDATE deliveries SET status = ?, last_error = coalesce(?, last_error),
+  return (
+    ledger.db
+      .prepare(
+        `UPDATE deliveries SET status = ?, last_error = coalesce(?, last_error),
     outbox_path = coalesce(?, outbox_path), notice = CASE WHEN ? = 1 THEN 'due' ELSE notice END,
     claimed_by = NULL, claimed_at = NULL, updated_at = ?
-    WHERE id = ? AND status = 'sending'`)
-    .run(status, detail.error ?? null, detail.outboxPath ?? null, detail.noticeDue ? 1 : 0, stamp(ledger), id).changes === 1;
+    WHERE id = ? AND status = 'sending'`,
+      )
+      .run(status, detail.error ?? null, detail.outboxPath ?? null, detail.noticeDue ? 1 : 0, stamp(ledger), id).changes === 1
+  );
 }
 
 /** Failures the operators have not been told of yet, oldest first. */
 export function dueNotices(ledger: Ledger): (DeliveryRecord & { team: string })[] {
-  return (ledger.db.prepare(`SELECT d.*, b.run_id, b.team, r.forecast_key FROM deliveries d
-    JOIN bulletins b ON b.id = d.bulletin_id JOIN runs r ON r.id = b.run_id WHERE d.notice = 'due' ORDER BY d.id`)
-    .all() as (DeliveryRow & { team: string })[]).map((r) => ({ ...toRecord(r), team: r.team }));
+  return (
+    ledger.db
+      .prepare(
+        `SELECT d.*, b.run_id, b.team, r.forecast_key FROM deliveries d
+    JOIN bulletins b ON b.id = d.bulletin_id JOIN runs r ON r.id = b.run_id WHERE d.notice = 'due' ORDER BY d.id`,
+      )
+      .all() as (DeliveryRow & { team: string })[]
+  ).map((r) => ({ ...toRecord(r), team: r.team }));
 }
 
 export function markNoticesDone(ledger: Ledger, ids: readonly number[]): void {
   const update = ledger.db.prepare(`UPDATE deliveries SET notice = 'done' WHERE id = ? AND notice = 'due'`);
-  ledger.db.transaction(() => { for (const id of ids) update.run(id); })();
+  ledger.db.transaction(() => {
+    for (const id of ids) update.run(id);
+  })();
 }
 
 export function deliveryCounts(ledger: Ledger, runId: number): Record<DeliveryStatus, number> {
   const counts: Record<DeliveryStatus, number> = { pending: 0, sending: 0, sent: 0, outbox: 0, failed: 0, superseded: 0 };
-  for (const r of ledger.db.prepare(`SELECT d.status, count(*) AS n FROM deliveries d JOIN bulletins b ON b.id = d.bulletin_id
-    WHERE b.run_id = ? GROUP BY d.status`).all(runId) as { status: DeliveryStatus; n: number }[]) counts[r.status] = r.n;
+  for (const r of ledger.db
+    .prepare(
+      `SELECT d.status, count(*) AS n FROM deliveries d JOIN bulletins b ON b.id = d.bulletin_id
+    WHERE b.run_id = ? GROUP BY d.status`,
+    )
+    .all(runId) as { status: DeliveryStatus; n: number }[])
+    counts[r.status] = r.n;
   return counts;
 }
 
@@ -116,6 +161,12 @@ export function toReceipt(d: DeliveryRecord & { status: 'sent' | 'outbox' | 'fai
 
 /** Put a `sending` row whose claimer is gone back to pending (only if `claimedBy` still holds it). */
 export function releaseClaim(ledger: Ledger, id: number, claimedBy: string, note: string): boolean {
-  return ledger.db.prepare(`UPDATE deliveries SET status = 'pending', claimed_by = NULL, claimed_at = NULL, updated_at = ?,
-    last_error = ? WHERE id = ? AND status = 'sending' AND claimed_by = ?`).run(stamp(ledger), note, id, claimedBy).changes === 1;
+  return (
+    ledger.db
+      .prepare(
+        `UPDATE deliveries SET status = 'pending', claimed_by = NULL, claimed_at = NULL, updated_at = ?,
+    last_error = ? WHERE id = ? AND status = 'sending' AND claimed_by = ?`,
+      )
+      .run(stamp(ledger), note, id, claimedBy).changes === 1
+  );
 }

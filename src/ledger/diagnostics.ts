@@ -8,7 +8,9 @@ import type { Ledger } from './open-ledger.ts';
 
 /** Replaces the stored diagnostics of `runId` with `list` (a resumed run records its own). */
 export function recordDiagnostics(ledger: Ledger, runId: number, list: readonly Diagnostic[]): void {
-  const insert = ledger.db.prepare('INSERT INTO run_diagnostics (run_id, position, code, severity, diagnostic_json) VALUES (?, ?, ?, ?, ?)');
+  const insert = ledger.db.prepare(
+    'INSERT INTO run_diagnostics (run_id, position, code, severity, diagnostic_json) VALUES (?, ?, ?, ?, ?)',
+  );
   ledger.db.transaction(() => {
     ledger.db.prepare('DELETE FROM run_diagnostics WHERE run_id = ?').run(runId);
     list.forEach((d, i) => insert.run(runId, i, d.code, d.severity, JSON.stringify(d)));
@@ -27,7 +29,12 @@ export function runDiagnostics(ledger: Ledger, runId: number): Diagnostic[] {
       value = undefined;
     }
     if (!isDiagnostic(value)) {
-      throw new ForelightError('ledger', 'ledger-row', `run_diagnostics row of run ${runId} in ledger ${ledger.path} is not a diagnostic`, 'inspect the ledger; it may have been edited by hand');
+      throw new ForelightError(
+        'ledger',
+        'ledger-row',
+        `run_diagnostics row of run ${runId} in ledger ${ledger.path} is not a diagnostic`,
+        'inspect the ledger; it may have been edited by hand',
+      );
     }
     return value;
   });

@@ -18,8 +18,12 @@ export function ledgerPassword(config: LedgerSettings, env: NodeJS.ProcessEnv = 
   if (!isPostgresUrl(config.ledger) || !config.ledgerPasswordEnv) return undefined;
   const value = env[config.ledgerPasswordEnv];
   if (value === undefined) {
-    throw new ForelightError('ledger', 'ledger-password-missing', `environment variable ${config.ledgerPasswordEnv} (ledger-password-env) is not set`,
-      'export it with the PostgreSQL password, or remove ledger-password-env when the server needs none');
+    throw new ForelightError(
+      'ledger',
+      'ledger-password-missing',
+      `environment variable ${config.ledgerPasswordEnv} (ledger-password-env) is not set`,
+      'export it with the PostgreSQL password, or remove ledger-password-env when the server needs none',
+    );
   }
   return value;
 }

@@ -52,7 +52,9 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
       'ledger',
       'ledger-open',
       `cannot open ledger ${shown}: ${describeError(err)}`,
-      postgres ? 'check the server, the URL and ledger-password-env' : 'check that its folder exists and is writable, or change config "ledger"',
+      postgres
+        ? 'check the server, the URL and ledger-password-env'
+        : 'check that its folder exists and is writable, or change config "ledger"',
       { cause: err },
     );
   }
@@ -67,7 +69,12 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
 }
 
 /** SQLite result codes that mean the ledger's file system refuses the write (SQLite C API, "Result and Error Codes"). */
-const WRITE_FAULTS: Readonly<Record<string, string>> = { SQLITE_FULL: 'ENOSPC', SQLITE_READONLY: 'EROFS', SQLITE_CANTOPEN: 'EACCES', SQLITE_IOERR: 'EIO' };
+const WRITE_FAULTS: Readonly<Record<string, string>> = {
+  SQLITE_FULL: 'ENOSPC',
+  SQLITE_READONLY: 'EROFS',
+  SQLITE_CANTOPEN: 'EACCES',
+  SQLITE_IOERR: 'EIO',
+};
 
 /**
  * A ledger write that failed because of its disk, as one line naming the ledger and the fix (nothing is sent
@@ -77,8 +84,13 @@ export function ledgerWriteFault(path: string, err: unknown): unknown {
   const code = (err as { code?: string }).code ?? '';
   const base = Object.keys(WRITE_FAULTS).find((k) => code === k || code.startsWith(`${k}_`));
   if (!base) return err;
-  return new ForelightError('ledger', 'ledger-write', `ledger cannot be written (${code}: ${describeError(err)})`,
-    `${fixFor(WRITE_FAULTS[base], dirname(path))}; nothing was sent, the next run resumes this one`, { cause: err, place: { file: path } });
+  return new ForelightError(
+    'ledger',
+    'ledger-write',
+    `ledger cannot be written (${code}: ${describeError(err)})`,
+    `${fixFor(WRITE_FAULTS[base], dirname(path))}; nothing was sent, the next run resumes this one`,
+    { cause: err, place: { file: path } },
+  );
 }
 
 /** ISO timestamp from the ledger clock. */

@@ -37,7 +37,11 @@ export function openPostgres(connectionString: string, password: string | undefi
   const flag = new SharedArrayBuffer(4);
   const signal = new Int32Array(flag);
   const { port1, port2 } = new MessageChannel();
-  const worker = new Worker(WORKER_URL, { workerData: { port: port2, flag, connectionString, password }, transferList: [port2], execArgv: [] });
+  const worker = new Worker(WORKER_URL, {
+    workerData: { port: port2, flag, connectionString, password },
+    transferList: [port2],
+    execArgv: [],
+  });
   worker.unref();
   const where = connectionString.replace(/\/\/[^@/]*@/, '//');
 
@@ -47,12 +51,20 @@ export function openPostgres(connectionString: string, password: string | undefi
     const waited = Atomics.wait(signal, 0, 0, STATEMENT_TIMEOUT_MS);
     const got = receiveMessageOnPort(port1)?.message as Reply | undefined;
     if (waited === 'timed-out' || !got) {
-      throw new ForelightError('ledger', 'ledger-postgres', `PostgreSQL ledger ${where} did not answer within ${STATEMENT_TIMEOUT_MS / 1000} s`,
-        'check that the server is up and reachable, and that no other session holds a lock for long');
+      throw new ForelightError(
+        'ledger',
+        'ledger-postgres',
+        `PostgreSQL ledger ${where} did not answer within ${STATEMENT_TIMEOUT_MS / 1000} s`,
+        'check that the server is up and reachable, and that no other session holds a lock for long',
+      );
     }
     if (got.error) {
-      throw new ForelightError('ledger', 'ledger-postgres', `PostgreSQL ledger ${where}: ${got.error.message}${got.error.code ? ` (SQLSTATE ${got.error.code})` : ''}`,
-        'check the ledger URL, the password variable named by ledger-password-env, and that the database exists');
+      throw new ForelightError(
+        'ledger',
+        'ledger-postgres',
+        `PostgreSQL ledger ${where}: ${got.error.message}${got.error.code ? ` (SQLSTATE ${got.error.code})` : ''}`,
+        'check the ledger URL, the password variable named by ledger-password-env, and that the database exists',
+      );
     }
     return got.ok!;
   };
@@ -91,14 +103,23 @@ export function openPostgres(connectionString: string, password: string | undefi
       const text = numberPlaceholders(sql);
       return {
         run: (...params): RunResult => ({ changes: query(text, params).changes }),
-        get: (...params) => { const row = query(text, params).rows[0]; return row ? asBuffers(row) : undefined; },
+        get: (...params) => {
+          const row = query(text, params).rows[0];
+          return row ? asBuffers(row) : undefined;
+        },
         all: (...params) => query(text, params).rows.map(asBuffers),
       };
     },
-    exec: (sql) => { query(sql); },
+    exec: (sql) => {
+      query(sql);
+    },
     transaction,
     close: () => {
-      try { call({ op: 'close' }); } finally { void worker.terminate(); }
+      try {
+        call({ op: 'close' });
+      } finally {
+        void worker.terminate();
+      }
     },
   };
 }

@@ -34,18 +34,33 @@ export type BeginRun =
   | { readonly kind: 'already-issued'; readonly run: RunRecord };
 
 interface RunRow {
-  id: number; forecast_key: string; started_at: string; finished_at: string | null; status: RunStatus;
-  forced: number; error: string | null; host: string; pid: number;
+  id: number;
+  forecast_key: string;
+  started_at: string;
+  finished_at: string | null;
+  status: RunStatus;
+  forced: number;
+  error: string | null;
+  host: string;
+  pid: number;
 }
 
 const toRecord = (r: RunRow): RunRecord => ({
-  id: r.id, forecastKey: r.forecast_key, startedAt: r.started_at, finishedAt: r.finished_at, status: r.status,
-  forced: r.forced === 1, error: r.error, host: r.host, pid: r.pid,
+  id: r.id,
+  forecastKey: r.forecast_key,
+  startedAt: r.started_at,
+  finishedAt: r.finished_at,
+  status: r.status,
+  forced: r.forced === 1,
+  error: r.error,
+  host: r.host,
+  pid: r.pid,
 });
 
 export function getRun(ledger: Ledger, runId: number): RunRecord {
   const row = ledger.db.prepare('SELECT * FROM runs WHERE id = ?').get(runId) as RunRow | undefined;
-  if (!row) throw new ForelightError('ledger', 'run-unknown', `run ${runId} is not in ledger ${ledger.path}`, 'list runs with "forelight status"');
+  if (!row)
+    throw new ForelightError('ledger', 'run-unknown', `run ${runId} is not in ledger ${ledger.path}`, 'list runs with "forelight status"');
   return toRecord(row);
 }
 
@@ -55,29 +70,40 @@ const UNFINISHED = `(status IN ('running', 'failed')
 
 export function beginRun(ledger: Ledger, forecastKey: string, options: { force?: boolean } = {}): BeginRun {
   const { db, owner } = ledger;
-  return db.transaction((): BeginRun => {
-    const latest = db.prepare(`SELECT * FROM runs WHERE forecast_key = ? ORDER BY id DESC LIMIT 1`)
-      .get(forecastKey) as RunRow | undefined;
-    if (latest && latest.status === 'running' && latest.host === owner.host && latest.pid !== owner.pid
-      && isProcessAlive(latest.pid)) {
-      throw new ForelightError('ledger', 'run-in-progress',
-        `forecast ${forecastKey} is being issued by process ${latest.pid} (run ${latest.id})`,
-        'wait for it to finish or stop that process');
-    }
-    // A key that ended "nothing-new" was never issued: late data for it starts a fresh run.
-    if (latest && latest.status !== 'nothing-new' && !options.force) {
-      const unfinished = db.prepare(`SELECT 1 FROM runs WHERE id = ? AND ${UNFINISHED}`).get(latest.id);
-      if (!unfinished) return { kind: 'already-issued', run: toRecord(latest) };
-      db.prepare(`UPDATE runs SET status = 'running', finished_at = NULL, host = ?, pid = ? WHERE id = ?`)
-        .run(owner.host, owner.pid, latest.id);
-      abandonOthers(ledger, latest.id);
-      return { kind: 'resumed', run: getRun(ledger, latest.id) };
-    }
-    const { id } = db.prepare(`INSERT INTO runs (forecast_key, started_at, status, forced, host, pid)
-      VALUES (?, ?, 'running', ?, ?, ?) RETURNING id`).get(forecastKey, stamp(ledger), options.force ? 1 : 0, owner.host, owner.pid) as { id: number };
-    abandonOthers(ledger, id);
-    return { kind: 'new', run: getRun(ledger, id) };
-  }).immediate();
+  return db
+    .transaction((): BeginRun => {
+      const latest = db.prepare(`SELECT * FROM runs WHERE forecast_key = ? ORDER BY id DESC LIMIT 1`).get(forecastKey) as
+        RunRow | undefined;
+      if (latest && latest.status === 'running' && latest.host === owner.host && latest.pid !== owner.pid && isProcessAlive(latest.pid)) {
+        throw new ForelightError(
+          'ledger',
+          'run-in-progress',
+          `forecast ${forecastKey} is being issued by process ${latest.pid} (run ${latest.id})`,
+          'wait for it to finish or stop that process',
+        );
+      }
+      // A key that ended "nothing-new" was never issued: late data for it starts a fresh run.
+      if (latest && latest.status !== 'nothing-new' && !options.force) {
+        const unfinished = db.prepare(`SELECT 1 FROM runs WHERE id = ? AND ${UNFINISHED}`).get(latest.id);
+        if (!unfinished) return { kind: 'already-issued', run: toRecord(latest) };
+        db.prepare(`UPDATE runs SET status = 'running', finished_at = NULL, host = ?, pid = ? WHERE id = ?`).run(
+          owner.host,
+          owner.pid,
+          latest.id,
+        );
+        abandonOthers(ledger, latest.id);
+        return { kind: 'resumed', run: getRun(ledger, latest.id) };
+      }
+      const { id } = db
+        .prepare(
+          `INSERT INTO runs (forecast_key, started_at, status, forced, host, pid)
+      VALUES (?, ?, 'running', ?, ?, ?) RETURNING id`,
+        )
+        .get(forecastKey, stamp(ledger), options.force ? 1 : 0, owner.host, owner.pid) as { id: number };
+      abandonOthers(ledger, id);
+      return { kind: 'new', run: getRun(ledger, id) };
+    })
+    .immediate();
 }
 
 /**
@@ -87,14 +113,26 @@ export function beginRun(ledger: Ledger, forecastKey: string, options: { force?:
  */
 function abandonOthers(ledger: Ledger, keepRunId: number): void {
   const now = stamp(ledger);
-  const stale = ledger.db.prepare(`SELECT id FROM runs WHERE id <> ? AND ${UNFINISHED}
-    AND forecast_key <= (SELECT forecast_key FROM runs WHERE id = ?)`).all(keepRunId, keepRunId) as { id: number }[];
+  const stale = ledger.db
+    .prepare(
+      `SELECT id FROM runs WHERE id <> ? AND ${UNFINISHED}
+    AND forecast_key <= (SELECT forecast_key FROM runs WHERE id = ?)`,
+    )
+    .all(keepRunId, keepRunId) as { id: number }[];
   for (const { id } of stale) {
-    ledger.db.prepare(`UPDATE deliveries SET status = 'superseded', updated_at = ?,
+    ledger.db
+      .prepare(
+        `UPDATE deliveries SET status = 'superseded', updated_at = ?,
       last_error = coalesce(last_error || ' | ', '') || 'superseded by run ' || CAST(? AS TEXT)
-      WHERE status IN ('pending', 'sending') AND bulletin_id IN (SELECT id FROM bulletins WHERE run_id = ?)`).run(now, keepRunId, id);
-    ledger.db.prepare(`UPDATE runs SET status = CASE WHEN status IN ('running', 'failed') THEN 'abandoned' ELSE status END,
-      finished_at = coalesce(finished_at, ?) WHERE id = ?`).run(now, id);
+      WHERE status IN ('pending', 'sending') AND bulletin_id IN (SELECT id FROM bulletins WHERE run_id = ?)`,
+      )
+      .run(now, keepRunId, id);
+    ledger.db
+      .prepare(
+        `UPDATE runs SET status = CASE WHEN status IN ('running', 'failed') THEN 'abandoned' ELSE status END,
+      finished_at = coalesce(finished_at, ?) WHERE id = ?`,
+      )
+      .run(now, id);
   }
 }
 
@@ -105,8 +143,12 @@ export function finishRun(ledger: Ledger, runId: number, status: Exclude<RunStat
 
 /** Latest run that completed (ok, partial or nothing-new): the reference for catch-up after downtime. */
 export function lastCompletedRun(ledger: Ledger): RunRecord | null {
-  const row = ledger.db.prepare(`SELECT * FROM runs WHERE status IN ('ok', 'partial', 'nothing-new')
-    ORDER BY started_at DESC, id DESC LIMIT 1`).get() as RunRow | undefined;
+  const row = ledger.db
+    .prepare(
+      `SELECT * FROM runs WHERE status IN ('ok', 'partial', 'nothing-new')
+    ORDER BY started_at DESC, id DESC LIMIT 1`,
+    )
+    .get() as RunRow | undefined;
   return row ? toRecord(row) : null;
 }
 
@@ -121,20 +163,31 @@ export interface InputFileRecord {
 
 /** Hash a file (streamed) for `recordInputs`; `checksum` may come from a memo of earlier runs. */
 export async function describeInputFile(
-  path: string, source: string, referenceTime: string, checksum: (path: string) => Promise<string> = sha256File,
+  path: string,
+  source: string,
+  referenceTime: string,
+  checksum: (path: string) => Promise<string> = sha256File,
 ): Promise<InputFileRecord> {
   return { path, sha256: await checksum(path), sizeBytes: (await stat(path)).size, source, referenceTime };
 }
 
 export function recordInputs(ledger: Ledger, runId: number, files: readonly InputFileRecord[]): void {
-  const insert = ledger.db.prepare(upsertSql('input_files', ['run_id', 'path', 'sha256', 'size_bytes', 'source', 'reference_time'], ['run_id', 'path']));
+  const insert = ledger.db.prepare(
+    upsertSql('input_files', ['run_id', 'path', 'sha256', 'size_bytes', 'source', 'reference_time'], ['run_id', 'path']),
+  );
   ledger.db.transaction(() => {
     for (const f of files) insert.run(runId, f.path, f.sha256, f.sizeBytes, f.source, f.referenceTime);
   })();
 }
 
 export function runInputs(ledger: Ledger, runId: number): InputFileRecord[] {
-  return (ledger.db.prepare('SELECT * FROM input_files WHERE run_id = ? ORDER BY path').all(runId) as
-    { path: string; sha256: string; size_bytes: number; source: string; reference_time: string }[])
-    .map((r) => ({ path: r.path, sha256: r.sha256, sizeBytes: r.size_bytes, source: r.source, referenceTime: r.reference_time }));
+  return (
+    ledger.db.prepare('SELECT * FROM input_files WHERE run_id = ? ORDER BY path').all(runId) as {
+      path: string;
+      sha256: string;
+      size_bytes: number;
+      source: string;
+      reference_time: string;
+    }[]
+  ).map((r) => ({ path: r.path, sha256: r.sha256, sizeBytes: r.size_bytes, source: r.source, referenceTime: r.reference_time }));
 }

@@ -56,7 +56,8 @@ function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadR
     );
     kept.push(...merged.kept.map((k) => k.item));
     if (bySource.size > 1) notes.add(merged.rule);
-    for (const d of merged.dropped) notes.add(`${d.source} ${d.item.lead.tier} ${d.item.lead.index} for ${d.item.region} replaced by ${d.coveredBy}`);
+    for (const d of merged.dropped)
+      notes.add(`${d.source} ${d.item.lead.tier} ${d.item.lead.index} for ${d.item.region} replaced by ${d.coveredBy}`);
   }
   return { kept, notes: [...notes] };
 }
@@ -82,7 +83,13 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
   const checksums = await openChecksumMemo(config.calibration.cacheDir);
   const ctx: SharedContext = {
-    config, observed: read.observed, observationsPath: config.observations?.path ?? null, climatology, observedMemo: new Map(), checksums, extract,
+    config,
+    observed: read.observed,
+    observationsPath: config.observations?.path ?? null,
+    climatology,
+    observedMemo: new Map(),
+    checksums,
+    extract,
   };
   const fileProblems: ForelightError[] = [...read.problems];
   const sources: SourceOutcome[] = [];
@@ -90,7 +97,13 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
     const t0 = Date.now();
     const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
     const outcome = await calibrateSource(ctx, s, input, fileProblems);
-    log.info('calibrated source', { stage: 'calibrate', source: s.source.id, ms: Date.now() - t0, fromCache: outcome.fromCache, probabilities: outcome.probabilities.length });
+    log.info('calibrated source', {
+      stage: 'calibrate',
+      source: s.source.id,
+      ms: Date.now() - t0,
+      fromCache: outcome.fromCache,
+      probabilities: outcome.probabilities.length,
+    });
     sources.push(outcome);
     onProgress?.(sources.length, total, `calibrated ${s.source.id}`);
   }

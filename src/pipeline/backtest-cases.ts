@@ -25,14 +25,27 @@ export function backtestCases(config: Config, analysis: Analysis): BacktestCase[
         if (l >= obs.leads.length) return;
         const cases = observedCases(hc, obs, l, spec, lead.tier !== 'days');
         cases.caseYears.forEach((year, i) => {
-          const entry = byYear.get(year) ?? { probabilities: [] as LeadProbability[], events: new Map<EventKey, boolean>(), start: `${year}-${lead.start.slice(5)}` };
+          const entry = byYear.get(year) ?? {
+            probabilities: [] as LeadProbability[],
+            events: new Map<EventKey, boolean>(),
+            start: `${year}-${lead.start.slice(5)}`,
+          };
           byYear.set(year, entry);
           if (lead.index === 1 && lead.start < entry.start) entry.start = lead.start;
           entry.probabilities.push({
-            source: source.source, region, indicator, lead: { ...lead, start: `${year}${lead.start.slice(4)}`, end: `${year}${lead.end.slice(4)}` },
-            probability: cases.p[i], baseRate: Number.NaN, members: hc.members, validMembers: hc.members,
-            threshold: { value: Number.NaN, units: hc.units, origin: 'leave-one-year-out model threshold' }, operator: '>',
-            flags: [], skill: null, calibrated: true,
+            source: source.source,
+            region,
+            indicator,
+            lead: { ...lead, start: `${year}${lead.start.slice(4)}`, end: `${year}${lead.end.slice(4)}` },
+            probability: cases.p[i],
+            baseRate: Number.NaN,
+            members: hc.members,
+            validMembers: hc.members,
+            threshold: { value: Number.NaN, units: hc.units, origin: 'leave-one-year-out model threshold' },
+            operator: '>',
+            flags: [],
+            skill: null,
+            calibrated: true,
           });
           entry.events.set(eventKey(region, indicator, lead.tier, lead.index), cases.o[i] === 1);
         });

@@ -42,10 +42,22 @@ export function nextIssueDate(config: Config, from: Date): IsoDate {
 }
 
 /** Region stages of an issued run's rows, combined as the run's own decisions were (highest wins, or the matrix). */
-export function issuedRegionStages(config: Config, rows: readonly { region: string; indicator: string; tier: Tier; stageId: string }[]): RegionStageLike[] {
-  const decisions: StageDecision[] = rows.map((r) => ({ ...r, rawStageId: r.stageId, ruleId: null, lead: null, withheldLeads: [], reasons: [] }));
+export function issuedRegionStages(
+  config: Config,
+  rows: readonly { region: string; indicator: string; tier: Tier; stageId: string }[],
+): RegionStageLike[] {
+  const decisions: StageDecision[] = rows.map((r) => ({
+    ...r,
+    rawStageId: r.stageId,
+    ruleId: null,
+    lead: null,
+    withheldLeads: [],
+    reasons: [],
+  }));
   const present = new Set(rows.map((r) => r.region));
-  return combineRegionStages(config, decisions).filter((r) => present.has(r.region)).map(({ region, stageId }) => ({ region, stageId }));
+  return combineRegionStages(config, decisions)
+    .filter((r) => present.has(r.region))
+    .map(({ region, stageId }) => ({ region, stageId }));
 }
 
 /** The highest of some stage ids on the ladder (the lowest stage when there are none). */
@@ -79,14 +91,24 @@ export function buildBulletinRun(input: BulletinRunInput): BulletinRun {
         };
       });
     const previousStageId = previousStage.get(region.id) ?? null;
-    const reason = changeReason(config, stageId, perTier.map((t) => t.decision));
+    const reason = changeReason(
+      config,
+      stageId,
+      perTier.map((t) => t.decision),
+    );
     return { region, stage: stageById(config, stageId), previousStageId, changeReason: reason, perTier };
   });
   return {
     runId: input.runId,
     issuedAt: input.issuedAt.toISOString().replace(/\.\d{3}Z$/, 'Z'),
     mode: input.mode,
-    forecastDates: input.sources.map((s) => ({ source: s.source.id, name: s.source.name, tier: s.source.tier, referenceTime: s.referenceTime, basedOnOlder: s.stale })),
+    forecastDates: input.sources.map((s) => ({
+      source: s.source.id,
+      name: s.source.name,
+      tier: s.source.tier,
+      referenceTime: s.referenceTime,
+      basedOnOlder: s.stale,
+    })),
     nextIssue: nextIssueDate(config, input.issuedAt),
     regions,
     notes: input.notes,

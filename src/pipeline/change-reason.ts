@@ -26,10 +26,11 @@ export function changeReason(config: Config, stageId: string, decisions: readonl
   const evidence = driver?.lead
     ? `${name(driver.indicator)} over ${RANGE[driver.tier]}: ${Math.round(driver.lead.probability * 100)}% chance for ${dates(driver.lead.lead.start, driver.lead.lead.end)}, against ${Math.round(driver.lead.baseRate * 100)}% in a normal year.`
     : 'No indicator passed any of its trigger levels.';
-  const held = driver && rank(driver.rawStageId) !== rank(stageId)
-    ? rank(driver.rawStageId) > rank(stageId)
-      ? ` The forecasts point to ${label(driver.rawStageId)}; the stage is raised only when that shows in ${config.decision.escalateAfterRuns} bulletins in a row.`
-      : ` The forecasts point to ${label(driver.rawStageId)}; the stage is lowered only after ${config.decision.relaxAfterRuns} bulletins in a row below it.`
-    : '';
+  const held =
+    driver && rank(driver.rawStageId) !== rank(stageId)
+      ? rank(driver.rawStageId) > rank(stageId)
+        ? ` The forecasts point to ${label(driver.rawStageId)}; the stage is raised only when that shows in ${config.decision.escalateAfterRuns} bulletins in a row.`
+        : ` The forecasts point to ${label(driver.rawStageId)}; the stage is lowered only after ${config.decision.relaxAfterRuns} bulletins in a row below it.`
+      : '';
   return `${evidence}${held}`;
 }

@@ -32,7 +32,11 @@ export type ObservedIndicators = Map<PairKey, IndicatorSeries | Diagnostic>;
 const isSeries = (v: IndicatorSeries | Diagnostic | null): v is IndicatorSeries => v !== null && 'data' in v;
 
 export function observedIndicator(
-  ind: IndicatorConfig, region: RegionConfig, observed: RegionQuantities | null, climatology: IndicatorClimatology, memo: ObservedIndicators,
+  ind: IndicatorConfig,
+  region: RegionConfig,
+  observed: RegionQuantities | null,
+  climatology: IndicatorClimatology,
+  memo: ObservedIndicators,
 ): IndicatorSeries | Diagnostic | null {
   const obs = observed?.get(region.id);
   if (!obs) return null;
@@ -56,10 +60,19 @@ function onDays(series: IndicatorSeries, like: IndicatorSeries): IndicatorSeries
 
 /** Stage probabilities of the rules on this indicator × tier (for hit and false-alarm rates). */
 function ruleProbabilities(config: Config, ind: IndicatorConfig, tier: SourceConfig['tier']): number[] {
-  return config.rules.filter((r) => r.indicator === ind.id && r.tier === tier && r.probability !== undefined).map((r) => r.probability as number);
+  return config.rules
+    .filter((r) => r.indicator === ind.id && r.tier === tier && r.probability !== undefined)
+    .map((r) => r.probability as number);
 }
 
-function tuneCostLoss(config: Config, ind: IndicatorConfig, source: SourceConfig, region: RegionConfig, hc: LeadClimate, obs: LeadClimate | null): Record<string, number> {
+function tuneCostLoss(
+  config: Config,
+  ind: IndicatorConfig,
+  source: SourceConfig,
+  region: RegionConfig,
+  hc: LeadClimate,
+  obs: LeadClimate | null,
+): Record<string, number> {
   const tuned: Record<string, number> = {};
   const spec = resolveThresholdSpec(ind, region.id);
   for (const rule of config.rules) {
@@ -80,8 +93,14 @@ function tuneCostLoss(config: Config, ind: IndicatorConfig, source: SourceConfig
 
 /** Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator. */
 export function buildIndicatorClimate(
-  config: Config, source: SourceConfig, region: RegionConfig, ind: IndicatorConfig,
-  hindcasts: readonly HindcastRead[], observed: RegionQuantities | null, climatology: IndicatorClimatology, memo: ObservedIndicators,
+  config: Config,
+  source: SourceConfig,
+  region: RegionConfig,
+  ind: IndicatorConfig,
+  hindcasts: readonly HindcastRead[],
+  observed: RegionQuantities | null,
+  climatology: IndicatorClimatology,
+  memo: ObservedIndicators,
 ): IndicatorClimate {
   const problems: Diagnostic[] = [];
   const tier = source.tier;
@@ -107,11 +126,13 @@ export function buildIndicatorClimate(
       failures.set(text, { first: failures.get(text)?.first ?? first, files: (failures.get(text)?.files ?? 0) + 1 });
     }
   }
-  for (const { first, files } of failures.values()) problems.push(within(first, `${files} hindcast file(s) of ${source.id}, region ${region.id}`, place));
+  for (const { first, files } of failures.values())
+    problems.push(within(first, `${files} hindcast file(s) of ${source.id}, region ${region.id}`, place));
   if (hcYears.length === 0) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const what = `${source.id} hindcasts for ${region.id} (${ind.id})`;
   const hc = stackYears(what, units, hcYears, place);
-  const obs = obsYears.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsYears, place) : { climate: null, problems: [] };
+  const obs =
+    obsYears.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsYears, place) : { climate: null, problems: [] };
   problems.push(...hc.problems, ...obs.problems);
   if (!hc.climate) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const skill = skillReports({

@@ -52,6 +52,12 @@ export async function decideNow(config: Config, run: RunContext, options: Pick<A
   }
   const history = parseStageHistory(historyJson);
   const analysis = await analyse(config, run, options);
-  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), ...missingData(config, analysis) });
+  const decided = decideStages({
+    config,
+    probabilities: analysis.probabilities,
+    history,
+    thresholdsFromCostLoss: tunedThresholds(analysis),
+    ...missingData(config, analysis),
+  });
   return { analysis, decided, history, previous };
 }

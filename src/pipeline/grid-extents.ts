@@ -22,7 +22,9 @@ export function newestForecastFile(pattern: string): string | null {
   } catch {
     return null;
   }
-  const dated = entries.filter((e) => e.startsWith(before) && e.endsWith(after) && /^\d{8}$/.test(e.slice(before.length, e.length - after.length)));
+  const dated = entries.filter(
+    (e) => e.startsWith(before) && e.endsWith(after) && /^\d{8}$/.test(e.slice(before.length, e.length - after.length)),
+  );
   return dated.length === 0 ? null : join(dirname(pattern), dated.sort().at(-1) as string);
 }
 
@@ -33,16 +35,33 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
   for (const source of config.sources) {
     const file = newestForecastFile(source.forecast);
     if (!file) {
-      notes.push(diagnostic('grid-not-checked', `source '${source.id}': no forecast file yet matches ${source.forecast}; its grid was not checked`, '', { source: source.id }));
+      notes.push(
+        diagnostic(
+          'grid-not-checked',
+          `source '${source.id}': no forecast file yet matches ${source.forecast}; its grid was not checked`,
+          '',
+          { source: source.id },
+        ),
+      );
       continue;
     }
     try {
       const { grid } = await withDataset(file, findCoordinates);
       const lats = Array.from(grid.lat);
       const lons = Array.from(grid.lon);
-      grids.push({ source: source.id, latMin: Math.min(...lats), latMax: Math.max(...lats), lonMin: Math.min(...lons), lonMax: Math.max(...lons), lon360: Math.max(...lons) > 180 });
+      grids.push({
+        source: source.id,
+        latMin: Math.min(...lats),
+        latMax: Math.max(...lats),
+        lonMin: Math.min(...lons),
+        lonMax: Math.max(...lons),
+        lon360: Math.max(...lons) > 180,
+      });
     } catch (err) {
-      notes.push({ ...within(diagnosticOf(err, 'read-failed'), `source '${source.id}'`, { source: source.id }, 'grid-not-checked'), severity: 'note' });
+      notes.push({
+        ...within(diagnosticOf(err, 'read-failed'), `source '${source.id}'`, { source: source.id }, 'grid-not-checked'),
+        severity: 'note',
+      });
     }
   }
   return { grids, notes };

@@ -14,7 +14,10 @@ const HOT_DAY_PERCENTILE = 90;
 const HOT_DAY_WINDOW = 15;
 
 /** Values of a one-member daily series on the given days (NaN where absent). */
-export function valuesOnDays(series: { readonly days: readonly IsoDate[]; readonly data: Float64Array }, days: readonly IsoDate[]): Float64Array {
+export function valuesOnDays(
+  series: { readonly days: readonly IsoDate[]; readonly data: Float64Array },
+  days: readonly IsoDate[],
+): Float64Array {
   const index = new Map(series.days.map((d, i) => [d, i]));
   const out = new Float64Array(days.length).fill(Number.NaN);
   days.forEach((d, i) => {
@@ -46,7 +49,10 @@ export function regionClimatology(reference: ReadonlyMap<Quantity, RegionSeries>
 }
 
 /** Analysed values of the 30 days before `firstDay` from a one-member reference, oldest first. */
-export function antecedentContext(reference: ReadonlyMap<Quantity, RegionSeries> | undefined, firstDay: IsoDate): Pick<IndicatorContext, 'antecedent' | 'antecedentDmtC'> {
+export function antecedentContext(
+  reference: ReadonlyMap<Quantity, RegionSeries> | undefined,
+  firstDay: IsoDate,
+): Pick<IndicatorContext, 'antecedent' | 'antecedentDmtC'> {
   const tmax = reference?.get('tmax');
   const tmin = reference?.get('tmin');
   if (!tmax || !tmin || tmax.members !== 1 || tmin.members !== 1) return {};
@@ -67,7 +73,9 @@ export function antecedentContext(reference: ReadonlyMap<Quantity, RegionSeries>
 
 /** The full context of one indicator for a series starting on `firstDay`. */
 export function indicatorContext(
-  climatology: IndicatorClimatology, reference: ReadonlyMap<Quantity, RegionSeries> | undefined, firstDay: IsoDate | undefined,
+  climatology: IndicatorClimatology,
+  reference: ReadonlyMap<Quantity, RegionSeries> | undefined,
+  firstDay: IsoDate | undefined,
 ): IndicatorContext {
   return { climatology, ...(firstDay ? antecedentContext(reference, firstDay) : {}) };
 }

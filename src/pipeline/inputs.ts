@@ -54,7 +54,13 @@ export function forecastCandidates(pattern: string, issueDate: IsoDate, lookback
 /** The hindcast starts of a source that calibrate a forecast of `forecastDate` (within ±windowDays, before it). */
 export function hindcastsFor(config: Config, source: SourceConfig, forecastDate: IsoDate): HindcastFile[] {
   const all = source.hindcast ? listHindcasts(source.hindcast) : [];
-  const keep = new Set(startsWithinWindow(forecastDate, all.map((h) => h.start), config.calibration.windowDays));
+  const keep = new Set(
+    startsWithinWindow(
+      forecastDate,
+      all.map((h) => h.start),
+      config.calibration.windowDays,
+    ),
+  );
   // A hindcast is a past start: one at or after the forecast date would be the forecast itself.
   return all.filter((h) => keep.has(h.start) && h.start < forecastDate);
 }
@@ -93,8 +99,13 @@ export function resolveInputs(config: Config, issueDate: IsoDate): SourceInputs[
     const candidates = forecastCandidates(source.forecast, issueDate, source.lookbackDays);
     const newest = candidates[0] ?? null;
     return {
-      source, issueDate, date: newest?.date ?? null, path: newest?.path ?? null, stale: newest === null || newest.date !== issueDate,
-      hindcasts: hindcastsFor(config, source, newest?.date ?? issueDate), candidates,
+      source,
+      issueDate,
+      date: newest?.date ?? null,
+      path: newest?.path ?? null,
+      stale: newest === null || newest.date !== issueDate,
+      hindcasts: hindcastsFor(config, source, newest?.date ?? issueDate),
+      candidates,
     };
   });
 }

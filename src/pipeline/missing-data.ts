@@ -35,15 +35,18 @@ export function unavailableReasons(config: Config, analysis: Analysis): Map<stri
     const read = analysis.read.sources.find((r) => r.source.id === input.source.id);
     if (!read) {
       const own = problems.filter((d) => d.code !== 'forecast-missing' && input.candidates.some((c) => c.path === d.place.file));
-      const reason = own.length > 0
-        ? own.map(problemClause).join('; ')
-        : `no ${input.source.name} file on or before the issue date (looked back ${input.source.lookbackDays} days)`;
+      const reason =
+        own.length > 0
+          ? own.map(problemClause).join('; ')
+          : `no ${input.source.name} file on or before the issue date (looked back ${input.source.lookbackDays} days)`;
       for (const region of config.regions) put(input.source.tier, region.id, reason);
       continue;
     }
     for (const region of config.regions) {
       if (read.series.has(region.id)) continue;
-      const own = problems.find((d) => d.place.file === read.path && (d.place.region === region.id || d.message.includes(`'${region.id}'`)));
+      const own = problems.find(
+        (d) => d.place.file === read.path && (d.place.region === region.id || d.message.includes(`'${region.id}'`)),
+      );
       put(input.source.tier, region.id, own ? problemClause(own) : `${basename(read.path)} has no grid cell or no value in this region`);
     }
   }

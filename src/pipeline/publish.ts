@@ -15,17 +15,45 @@ import { toToken } from '../render/safe-text.ts';
 const ENTRY_FILE = 'entry.json';
 
 const TEXT = { type: 'string' };
-const FILES = (fields: readonly string[]) => ({ type: 'array', items: { type: 'object', required: fields, properties: Object.fromEntries(fields.map((f) => [f, TEXT])) } });
+const FILES = (fields: readonly string[]) => ({
+  type: 'array',
+  items: { type: 'object', required: fields, properties: Object.fromEntries(fields.map((f) => [f, TEXT])) },
+});
 /** The fields the archive site reads; optional ones are absent in entries of older versions. */
 const isEntry = jsonShape<ArchiveEntry>({
   type: 'object',
   required: ['runId', 'issuedAt', 'issuedDay', 'locale', 'title', 'regions', 'bodyHtml', 'charts', 'capAlerts', 'json'],
   properties: {
-    runId: TEXT, issuedAt: TEXT, issuedDay: TEXT, locale: TEXT, title: TEXT, bodyHtml: TEXT, json: TEXT,
-    regions: { type: 'array', items: { type: 'object', required: ['id', 'name', 'stageId', 'rank', 'label', 'glyph', 'colour', 'ink'], properties: {
-      id: TEXT, name: TEXT, stageId: TEXT, rank: { type: 'integer', minimum: -1 }, label: TEXT, glyph: TEXT, colour: TEXT, ink: TEXT, hazard: TEXT, dates: TEXT,
-    } } },
-    charts: FILES(['filename', 'svg']), capAlerts: FILES(['filename', 'xml']), pdfs: FILES(['filename', 'team', 'base64']), ladder: FILES(['glyph', 'label']),
+    runId: TEXT,
+    issuedAt: TEXT,
+    issuedDay: TEXT,
+    locale: TEXT,
+    title: TEXT,
+    bodyHtml: TEXT,
+    json: TEXT,
+    regions: {
+      type: 'array',
+      items: {
+        type: 'object',
+        required: ['id', 'name', 'stageId', 'rank', 'label', 'glyph', 'colour', 'ink'],
+        properties: {
+          id: TEXT,
+          name: TEXT,
+          stageId: TEXT,
+          rank: { type: 'integer', minimum: -1 },
+          label: TEXT,
+          glyph: TEXT,
+          colour: TEXT,
+          ink: TEXT,
+          hazard: TEXT,
+          dates: TEXT,
+        },
+      },
+    },
+    charts: FILES(['filename', 'svg']),
+    capAlerts: FILES(['filename', 'xml']),
+    pdfs: FILES(['filename', 'team', 'base64']),
+    ladder: FILES(['glyph', 'label']),
   },
 });
 
@@ -42,7 +70,13 @@ export function readArchiveEntries(dir: string): ArchiveEntry[] {
     } catch (err) {
       read = { ok: false, why: (err as Error).message };
     }
-    if (!read.ok) throw new ForelightError('render', 'archive-entry', `archive entry ${file} is unreadable (${read.why})`, 'restore it from a backup or delete its folder; the archive site is rebuilt from the other entries');
+    if (!read.ok)
+      throw new ForelightError(
+        'render',
+        'archive-entry',
+        `archive entry ${file} is unreadable (${read.why})`,
+        'restore it from a backup or delete its folder; the archive site is rebuilt from the other entries',
+      );
     entries.push(read.value);
   }
   return entries.sort((a, b) => a.issuedAt.localeCompare(b.issuedAt));

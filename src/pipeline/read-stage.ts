@@ -62,10 +62,21 @@ export interface FileRequest {
 }
 
 export async function readFile(
-  extract: Extractor, path: string, quantities: SourceConfig['variables'], regions: readonly RegionConfig[], request: FileRequest, problems: ForelightError[],
+  extract: Extractor,
+  path: string,
+  quantities: SourceConfig['variables'],
+  regions: readonly RegionConfig[],
+  request: FileRequest,
+  problems: ForelightError[],
 ): Promise<RegionQuantities | null> {
   try {
-    const r = await extract(path, { quantities, regions, referenceTime: request.referenceTime, tier: request.tier, weightsCacheDir: request.weightsCacheDir });
+    const r = await extract(path, {
+      quantities,
+      regions,
+      referenceTime: request.referenceTime,
+      tier: request.tier,
+      weightsCacheDir: request.weightsCacheDir,
+    });
     problems.push(...r.problems);
     request.notes?.push(...r.notes);
     return group(r.series);
@@ -74,7 +85,14 @@ export async function readFile(
       problems.push(err);
       return null;
     }
-    problems.push(new InputError('read-failed', path, `could not be read (${err instanceof Error ? err.message : String(err)})`, 'check the file; the other sources went on'));
+    problems.push(
+      new InputError(
+        'read-failed',
+        path,
+        `could not be read (${err instanceof Error ? err.message : String(err)})`,
+        'check the file; the other sources went on',
+      ),
+    );
     return null;
   }
 }
@@ -101,14 +119,29 @@ export function regionCells(series: RegionQuantities): Map<string, number> {
  * region with a message, so its leads are not calibrated on a different grid.
  */
 export async function readHindcasts(
-  source: SourceConfig, files: readonly HindcastFile[], regions: readonly RegionConfig[], problems: ForelightError[], forecastCells?: ReadonlyMap<string, number>,
-  extract: Extractor = extractRegionSeries, weightsCacheDir?: string,
+  source: SourceConfig,
+  files: readonly HindcastFile[],
+  regions: readonly RegionConfig[],
+  problems: ForelightError[],
+  forecastCells?: ReadonlyMap<string, number>,
+  extract: Extractor = extractRegionSeries,
+  weightsCacheDir?: string,
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
   const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
     const own: ForelightError[] = [];
-    return { series: await readFile(extract, h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier, weightsCacheDir }, own), own };
+    return {
+      series: await readFile(
+        extract,
+        h.path,
+        source.variables,
+        regions,
+        { referenceTime: h.start, tier: source.tier, weightsCacheDir },
+        own,
+      ),
+      own,
+    };
   });
   for (const [i, h] of files.entries()) {
     const { series, own } = read[i];
@@ -118,7 +151,14 @@ export async function readHindcasts(
       const expected = forecastCells?.get(region);
       if (expected === undefined || expected === cells) continue;
       series.delete(region);
-      problems.push(new InputError('hindcast-grid', h.path, `region '${region}' covers ${cells} grid cells here but ${expected} in the forecast: the hindcast grid differs`, `provide hindcasts of source '${source.id}' on the forecast's grid; this region's leads are not calibrated on them`));
+      problems.push(
+        new InputError(
+          'hindcast-grid',
+          h.path,
+          `region '${region}' covers ${cells} grid cells here but ${expected} in the forecast: the hindcast grid differs`,
+          `provide hindcasts of source '${source.id}' on the forecast's grid; this region's leads are not calibrated on them`,
+        ),
+      );
     }
     out.push({ year: h.year, start: h.start, path: h.path, series });
   }
@@ -129,16 +169,24 @@ export async function readHindcasts(
 function forecastMissing(input: SourceInputs): InputError {
   const { source, issueDate } = input;
   const oldest = addDays(issueDate, -source.lookbackDays);
-  return new InputError('forecast-missing', source.forecast,
+  return new InputError(
+    'forecast-missing',
+    source.forecast,
     `no forecast of source '${source.id}': tried ${forecastPath(source.forecast, issueDate)} and every date back to ${forecastPath(source.forecast, oldest)} (${issueDate} to ${oldest}, look-back-days ${source.lookbackDays})`,
-    'check that the files arrived and the forecast-files pattern of this source; a source issued less often needs a larger look-back-days');
+    'check that the files arrived and the forecast-files pattern of this source; a source issued less often needs a larger look-back-days',
+  );
 }
 
 /**
  * Reads every source's forecast and the observations, collecting problems instead of stopping. Hindcasts are read
  * later, per source, only when the model-climate cache misses (`readHindcasts`).
  */
-export async function readAll(config: Config, issueDate: string, inputs: readonly SourceInputs[], extract: Extractor = extractRegionSeries): Promise<ReadResult> {
+export async function readAll(
+  config: Config,
+  issueDate: string,
+  inputs: readonly SourceInputs[],
+  extract: Extractor = extractRegionSeries,
+): Promise<ReadResult> {
   const problems: ForelightError[] = [];
   const sources: SourceRead[] = [];
   const used: SourceInputs[] = [];
@@ -158,7 +206,14 @@ export async function readAll(config: Config, issueDate: string, inputs: readonl
     used.push(usable.input);
   }
   const observed = config.observations
-    ? await readFile(extract, config.observations.path, config.observations.variables, config.regions, { weightsCacheDir: config.calibration.cacheDir }, problems)
+    ? await readFile(
+        extract,
+        config.observations.path,
+        config.observations.variables,
+        config.regions,
+        { weightsCacheDir: config.calibration.cacheDir },
+        problems,
+      )
     : null;
   return { sources, inputs: used, observed, problems };
 }

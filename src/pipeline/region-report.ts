@@ -34,7 +34,11 @@ export async function regionReport(config: Config): Promise<{ sources: SourceReg
       const { grid } = await withDataset(file, findCoordinates);
       const { selected, problems } = regionSetCells(grid, config.regions, file, config.calibration.cacheDir);
       const b = cellBounds(grid);
-      const cellSr = (y: number, x: number) => Math.abs(Math.sin(b.lat[2 * y + 1] * Math.PI / 180) - Math.sin(b.lat[2 * y] * Math.PI / 180)) * Math.abs(b.lon[2 * x + 1] - b.lon[2 * x]) * Math.PI / 180;
+      const cellSr = (y: number, x: number) =>
+        (Math.abs(Math.sin((b.lat[2 * y + 1] * Math.PI) / 180) - Math.sin((b.lat[2 * y] * Math.PI) / 180)) *
+          Math.abs(b.lon[2 * x + 1] - b.lon[2 * x]) *
+          Math.PI) /
+        180;
       const regions = selected.map(({ region, cells }) => {
         const total = cells.weights.reduce((a, w) => a + w, 0);
         const used = Array.from(cells.weights, (w, k): UsedCell => {
@@ -45,7 +49,14 @@ export async function regionReport(config: Config): Promise<{ sources: SourceReg
         });
         const largest = Math.max(...Array.from(cells.latIndex, (y, k) => toKm2(cellSr(y, cells.lonIndex[k]))));
         const regionKm2 = toKm2(regionAreaSr(region.shape));
-        return { region, cells: used, coveredKm2: toKm2(total), regionKm2, largestCellKm2: largest, small: regionKm2 < SMALL_REGION_SHARE * largest };
+        return {
+          region,
+          cells: used,
+          coveredKm2: toKm2(total),
+          regionKm2,
+          largestCellKm2: largest,
+          small: regionKm2 < SMALL_REGION_SHARE * largest,
+        };
       });
       sources.push({ source: source.id, file, regions, problems: problems.map(describeError) });
     } catch (err) {

@@ -19,7 +19,15 @@ import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
 import { openConfiguredLedger } from '../ledger/ledger-target.ts';
 import { ledgerWriteFault, type Ledger } from '../ledger/open-ledger.ts';
 import type { Extractor } from '../read/extract.ts';
-import { lastIssuedStages, latestStageHistory, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory } from '../ledger/results.ts';
+import {
+  lastIssuedStages,
+  latestStageHistory,
+  previousCapAlert,
+  recordCapAlert,
+  recordDecisions,
+  recordProbabilities,
+  saveStageHistory,
+} from '../ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, recordInputs } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
@@ -61,7 +69,9 @@ export function forecastKey(inputs: readonly SourceInputs[]): string {
 async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysis, config: Config, log: Logger): Promise<void> {
   const wanted: [path: string, source: string, referenceTime: string][] = [
     ...analysis.read.sources.map((s): [string, string, string] => [s.path, s.source.id, s.referenceTime]),
-    ...analysis.inputs.flatMap((i) => i.hindcasts.map((h): [string, string, string] => [h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`])),
+    ...analysis.inputs.flatMap((i) =>
+      i.hindcasts.map((h): [string, string, string] => [h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`]),
+    ),
     ...(config.observations ? [[config.observations.path, 'observations', ''] as [string, string, string]] : []),
   ];
   const files = [];
@@ -80,7 +90,10 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
     for (const ind of config.indicators) {
       const a = previousCapAlert(ledger, region.id, ind.id, runId);
       if (!a || a.msgType === 'Cancel') continue;
-      const issued = highestStageId(config, stages.filter((s) => s.region === region.id && s.indicator === ind.id).map((s) => s.stageId));
+      const issued = highestStageId(
+        config,
+        stages.filter((s) => s.region === region.id && s.indicator === ind.id).map((s) => s.stageId),
+      );
       alerts.push({ region: region.id, indicator: ind.id, sender: a.sender, id: a.identifier, sent: a.sent, stageId: issued });
     }
   }
@@ -88,34 +101,66 @@ function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousI
 }
 
 /** Computes, stores and renders the bulletins of a new run (nothing is sent here). */
-async function prepare(ledger: Ledger, options: RunOptions, runId: number, analysis: Analysis): Promise<{ bulletins: number; archive: ArchiveEntry }> {
+async function prepare(
+  ledger: Ledger,
+  options: RunOptions,
+  runId: number,
+  analysis: Analysis,
+): Promise<{ bulletins: number; archive: ArchiveEntry }> {
   const { config, run: context } = options;
   const { issueDate, log } = context;
   recordDiagnostics(ledger, runId, analysis.problems);
   if (analysis.read.sources.length === 0) {
     const text = `No forecast of any source could be read for ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
     await sendOperatorNotice(config.delivery, `no forecast could be read for ${issueDate}`, text, { log, diagnostics: analysis.problems });
-    throw new ForelightError('read', 'no-forecast-read', `no forecast could be read: ${analysis.problems.map(formatDiagnostic).join(' | ')}`, 'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued');
+    throw new ForelightError(
+      'read',
+      'no-forecast-read',
+      `no forecast could be read: ${analysis.problems.map(formatDiagnostic).join(' | ')}`,
+      'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued',
+    );
   }
   await recordInputFiles(ledger, runId, analysis, config, log);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
-  const decided = decideStages({ config, probabilities: analysis.probabilities, history, thresholdsFromCostLoss: tunedThresholds(analysis), ...missingData(config, analysis) });
+  const decided = decideStages({
+    config,
+    probabilities: analysis.probabilities,
+    history,
+    thresholdsFromCostLoss: tunedThresholds(analysis),
+    ...missingData(config, analysis),
+  });
   recordProbabilities(ledger, runId, analysis.probabilities);
   recordDecisions(ledger, runId, decided.decisions);
   saveStageHistory(ledger, runId, JSON.stringify(decided.nextHistory));
-  const previous = issuedRegionStages(config, lastIssuedStages(ledger).filter((s) => s.runId !== runId));
+  const previous = issuedRegionStages(
+    config,
+    lastIssuedStages(ledger).filter((s) => s.runId !== runId),
+  );
   const run = buildBulletinRun({
-    config, runId: `${issueDate}-${runId}`, issuedAt: context.now(), mode: options.mode,
-    sources: analysis.read.sources, probabilities: analysis.probabilities, decisions: decided.decisions,
-    regionStages: decided.regionStages, previous, notes: analysis.combination, problems: analysis.problems,
+    config,
+    runId: `${issueDate}-${runId}`,
+    issuedAt: context.now(),
+    mode: options.mode,
+    sources: analysis.read.sources,
+    probabilities: analysis.probabilities,
+    decisions: decided.decisions,
+    regionStages: decided.regionStages,
+    previous,
+    notes: analysis.combination,
+    problems: analysis.problems,
   });
   const rendered = await renderBulletins(config, run, previousIssue(ledger, config, runId));
   ledger.db.transaction(() => {
-    for (const a of rendered.capAlerts) recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
+    for (const a of rendered.capAlerts)
+      recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
   for (const note of rendered.notes) log.warn(note, { stage: 'render' });
-  log.info('bulletins rendered and stored', { stage: 'render', bulletins: rendered.bulletins.length, capAlerts: rendered.capAlerts.length });
+  log.info('bulletins rendered and stored', {
+    stage: 'render',
+    bulletins: rendered.bulletins.length,
+    capAlerts: rendered.capAlerts.length,
+  });
   return { bulletins: rendered.bulletins.length, archive: rendered.archive };
 }
 
@@ -134,7 +179,11 @@ function publishOrReport(config: Config, entry: ArchiveEntry | null, log: Logger
 
 /** Removes temporary files that a process killed mid-write left in the output folders. */
 function sweepOutputs(config: Config, log: Logger): void {
-  const folders: [string, boolean][] = [[config.delivery.outbox, false], [config.delivery.archive, true], [dirname(config.ledger), false]];
+  const folders: [string, boolean][] = [
+    [config.delivery.outbox, false],
+    [config.delivery.archive, true],
+    [dirname(config.ledger), false],
+  ];
   if (config.calibration.cacheDir) folders.push([config.calibration.cacheDir, false]);
   const removed = folders.flatMap(([dir, recursive]) => sweepStaleTemps(dir, recursive));
   if (removed.length > 0) log.warn('removed temporary files left by an interrupted write', { files: removed });
@@ -160,7 +209,12 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
       const text = `The newest forecasts (${key}) were already issued in run ${begun.run.id}; nothing new was sent. Use --force to issue them again.`;
       await sendOperatorNotice(config.delivery, `nothing new for ${issueDate}`, text, { log, diagnostics: analysis.problems });
       // A damaged newer file is an input problem even when the older forecast used was already issued.
-      return { exitCode: analysis.problems.length > 0 ? EXIT.inputProblem : EXIT.nothingNew, summary: text, runId: begun.run.id, problems: analysis.problems.map(formatDiagnostic) };
+      return {
+        exitCode: analysis.problems.length > 0 ? EXIT.inputProblem : EXIT.nothingNew,
+        summary: text,
+        runId: begun.run.id,
+        problems: analysis.problems.map(formatDiagnostic),
+      };
     }
     const runId = begun.run.id;
     const rlog = log.child({ runId });
@@ -180,22 +234,32 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     const outputProblems = [publishOrReport(config, archive, rlog)].filter((p): p is string => p !== null);
     const sent = await deliverPending(ledger, config.delivery, rlog, { ...options.deliver, runId });
     if (outputProblems.length > 0) {
-      await sendOperatorNotice(config.delivery, `outputs not written for ${issueDate}`,
-        `Run ${runId} (${key}) delivered its bulletins, but these outputs could not be written:\n\n${outputProblems.map((p) => `- ${p}`).join('\n')}\n`, { log: rlog, env: options.deliver?.env });
+      await sendOperatorNotice(
+        config.delivery,
+        `outputs not written for ${issueDate}`,
+        `Run ${runId} (${key}) delivered its bulletins, but these outputs could not be written:\n\n${outputProblems.map((p) => `- ${p}`).join('\n')}\n`,
+        { log: rlog, env: options.deliver?.env },
+      );
     }
     const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
     const outputCode = outputProblems.length > 0 ? EXIT.deliveryFailed : EXIT.ok;
     const problems: readonly Diagnostic[] = runDiagnostics(ledger, runId); // also those of the interrupted start
     const status = problems.length > 0 || deliveryCode !== EXIT.ok || outputCode !== EXIT.ok ? 'partial' : 'ok';
     finishRun(ledger, runId, status, outputProblems.length > 0 ? outputProblems.join(' | ') : undefined);
-    const summary = `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)` +
+    const summary =
+      `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)` +
       (outputProblems.length > 0 ? `; ${outputProblems.length} output problem(s): ${outputProblems.join(' | ')}` : '');
     rlog.info(summary, { stage: 'deliver' });
     if (problems.length > 0) {
-      await sendOperatorNotice(config.delivery, `input problems in the run of ${issueDate}`,
-        `Run ${runId} (${key}) was issued with these input problems; the bulletins say what is missing or which older forecast they are based on.`, { log: rlog, env: options.deliver?.env, diagnostics: problems });
+      await sendOperatorNotice(
+        config.delivery,
+        `input problems in the run of ${issueDate}`,
+        `Run ${runId} (${key}) was issued with these input problems; the bulletins say what is missing or which older forecast they are based on.`,
+        { log: rlog, env: options.deliver?.env, diagnostics: problems },
+      );
     }
-    const exitCode = deliveryCode !== EXIT.ok ? deliveryCode : outputCode !== EXIT.ok ? outputCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
+    const exitCode =
+      deliveryCode !== EXIT.ok ? deliveryCode : outputCode !== EXIT.ok ? outputCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
     return { exitCode, summary, runId, problems: problems.map(formatDiagnostic) };
   } finally {
     ledger.close();

@@ -49,39 +49,85 @@ export interface SharedContext {
   readonly extract: Extractor;
 }
 
-type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & { region: string; indicator: string; hindcast: StoredLeadClimate | null; observed: StoredLeadClimate | null };
+type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & {
+  region: string;
+  indicator: string;
+  hindcast: StoredLeadClimate | null;
+  observed: StoredLeadClimate | null;
+};
 type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: number[] };
 
 const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: Array.from(c.values) } : null);
 const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: Float64Array.from(c.values) } : null);
 
 function pairs(config: Config, tier: string): { region: RegionConfig; ind: IndicatorConfig }[] {
-  return config.regions.flatMap((region) => config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })));
+  return config.regions.flatMap((region) =>
+    config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })),
+  );
 }
 
-async function loadClimates(ctx: SharedContext, input: SourceInputs, read: SourceRead, problems: ForelightError[]): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
+async function loadClimates(
+  ctx: SharedContext,
+  input: SourceInputs,
+  read: SourceRead,
+  problems: ForelightError[],
+): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
   const { config } = ctx;
   const source = input.source;
   if (input.hindcasts.length === 0) return { climates: new Map(), fromCache: false, cacheNote: '' };
   const key = await skillCacheKey({
     hindcastFiles: input.hindcasts.map((h) => h.path),
     observationsFile: ctx.observationsPath,
-    configFingerprint: fingerprint({ source: { id: source.id, tier: source.tier, hindcast: source.hindcast, variables: source.variables }, regions: config.regions, indicators: config.indicators, rules: config.rules, gate: config.decision.skillGate, calibration: config.calibration }),
+    configFingerprint: fingerprint({
+      source: { id: source.id, tier: source.tier, hindcast: source.hindcast, variables: source.variables },
+      regions: config.regions,
+      indicators: config.indicators,
+      rules: config.rules,
+      gate: config.decision.skillGate,
+      calibration: config.calibration,
+    }),
     memo: ctx.checksums,
   });
   const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, async () => {
-    const hindcasts = await readHindcasts(source, input.hindcasts, config.regions, problems, regionCells(read.series), ctx.extract, config.calibration.cacheDir);
+    const hindcasts = await readHindcasts(
+      source,
+      input.hindcasts,
+      config.regions,
+      problems,
+      regionCells(read.series),
+      ctx.extract,
+      config.calibration.cacheDir,
+    );
     return pairs(config, source.tier).map(({ region, ind }): StoredClimate => {
-      const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo);
+      const c = buildIndicatorClimate(
+        config,
+        source,
+        region,
+        ind,
+        hindcasts,
+        ctx.observed,
+        ctx.climatology.get(region.id) ?? {},
+        ctx.observedMemo,
+      );
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
     });
   });
-  const climates = new Map(cached.value.map(({ region, indicator, ...c }) => [pairKey(region, indicator), { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) }]));
+  const climates = new Map(
+    cached.value.map(({ region, indicator, ...c }) => [
+      pairKey(region, indicator),
+      { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) },
+    ]),
+  );
   return { climates, fromCache: cached.fromCache, cacheNote: cached.note };
 }
 
 /** Probabilities of every region × indicator of one source (the source's tier), with the climates behind them. */
-export async function calibrateSource(ctx: SharedContext, read: SourceRead, input: SourceInputs, fileProblems: ForelightError[]): Promise<SourceOutcome> {
+export async function calibrateSource(
+  ctx: SharedContext,
+  read: SourceRead,
+  input: SourceInputs,
+  fileProblems: ForelightError[],
+): Promise<SourceOutcome> {
   const { config } = ctx;
   const { climates, fromCache, cacheNote } = await loadClimates(ctx, input, read, fileProblems);
   const probabilities: LeadProbability[] = [];
@@ -94,7 +140,11 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
     if (climate) problems.push(...climate.problems);
     try {
       const first = [...inputs.values()][0]?.days[0];
-      const series = computeIndicator(ind, inputs, indicatorContext(ctx.climatology.get(region.id) ?? {}, ctx.observed?.get(region.id), first));
+      const series = computeIndicator(
+        ind,
+        inputs,
+        indicatorContext(ctx.climatology.get(region.id) ?? {}, ctx.observed?.get(region.id), first),
+      );
       const forecast = aggregateToLeads(series, read.source.tier, ind.aggregate);
       forecastLeads.set(pairKey(region.id, ind.id), forecast);
       probabilities.push(
@@ -113,7 +163,9 @@ export async function calibrateSource(ctx: SharedContext, read: SourceRead, inpu
       );
     } catch (err) {
       const place = { file: read.path, source: read.source.id, region: region.id, indicator: ind.id };
-      problems.push(within(diagnosticOf(err, 'indicator-skipped'), `${read.source.id} forecast, region ${region.id}, indicator ${ind.id}`, place));
+      problems.push(
+        within(diagnosticOf(err, 'indicator-skipped'), `${read.source.id} forecast, region ${region.id}, indicator ${ind.id}`, place),
+      );
     }
   }
   return { source: read.source.id, probabilities, climates, forecastLeads, fromCache, cacheNote, problems };

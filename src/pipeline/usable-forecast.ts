@@ -30,22 +30,48 @@ function whyUnusable(source: SourceInputs['source'], series: RegionQuantities): 
 }
 
 /** Regions whose cell count differs from the first hindcast's (another grid); null when there is no hindcast to compare. */
-async function gridMismatch(config: Config, input: SourceInputs, series: RegionQuantities, problems: ForelightError[], extract: Extractor): Promise<string[] | null> {
+async function gridMismatch(
+  config: Config,
+  input: SourceInputs,
+  series: RegionQuantities,
+  problems: ForelightError[],
+  extract: Extractor,
+): Promise<string[] | null> {
   const first = input.hindcasts[0];
   if (!first) return null;
   const [quantity, variable] = Object.entries(input.source.variables)[0] as [Quantity, string];
-  const hindcast = await readFile(extract, first.path, { [quantity]: variable }, config.regions, { referenceTime: first.start, tier: input.source.tier }, problems);
+  const hindcast = await readFile(
+    extract,
+    first.path,
+    { [quantity]: variable },
+    config.regions,
+    { referenceTime: first.start, tier: input.source.tier },
+    problems,
+  );
   if (!hindcast) return null;
   const theirs = regionCells(hindcast);
   return [...regionCells(series)].filter(([region, cells]) => theirs.has(region) && theirs.get(region) !== cells).map(([region]) => region);
 }
 
 /** The newest usable forecast of one source within its candidates; null when none is usable. */
-export async function readUsableForecast(config: Config, issueDate: string, input: SourceInputs, problems: ForelightError[], extract: Extractor): Promise<UsableForecast | null> {
+export async function readUsableForecast(
+  config: Config,
+  issueDate: string,
+  input: SourceInputs,
+  problems: ForelightError[],
+  extract: Extractor,
+): Promise<UsableForecast | null> {
   const tried: string[] = [];
   for (const candidate of input.candidates) {
     const notes: string[] = [];
-    const series = await readFile(extract, candidate.path, input.source.variables, config.regions, { referenceTime: candidate.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir }, problems);
+    const series = await readFile(
+      extract,
+      candidate.path,
+      input.source.variables,
+      config.regions,
+      { referenceTime: candidate.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir },
+      problems,
+    );
     const at = candidateInputs(config, input, candidate, issueDate);
     let why = series === null ? 'it could not be read (see above)' : whyUnusable(input.source, series);
     if (series && why === null) {
@@ -54,22 +80,61 @@ export async function readUsableForecast(config: Config, issueDate: string, inpu
       else if (differ) {
         for (const region of differ) {
           series.delete(region);
-          problems.push(new InputError('forecast-grid', candidate.path, `region '${region}' covers other grid cells than in the hindcasts`, `provide forecasts and hindcasts of source '${input.source.id}' on one grid; this region's ${input.source.tier} part is held`));
+          problems.push(
+            new InputError(
+              'forecast-grid',
+              candidate.path,
+              `region '${region}' covers other grid cells than in the hindcasts`,
+              `provide forecasts and hindcasts of source '${input.source.id}' on one grid; this region's ${input.source.tier} part is held`,
+            ),
+          );
         }
       }
     }
     if (series && why === null) {
       if (tried.length > 0) {
-        problems.push(new InputError('forecast-fallback', candidate.path, `used instead of the newer ${tried.join(', ')} of source '${input.source.id}'`, 'replace the damaged file(s); the bulletin says it is based on this older forecast'));
+        problems.push(
+          new InputError(
+            'forecast-fallback',
+            candidate.path,
+            `used instead of the newer ${tried.join(', ')} of source '${input.source.id}'`,
+            'replace the damaged file(s); the bulletin says it is based on this older forecast',
+          ),
+        );
       }
-      return { read: { source: input.source, date: candidate.date, path: candidate.path, stale: at.stale, referenceTime: `${candidate.date}T00:00:00Z`, series, notes }, input: at };
+      return {
+        read: {
+          source: input.source,
+          date: candidate.date,
+          path: candidate.path,
+          stale: at.stale,
+          referenceTime: `${candidate.date}T00:00:00Z`,
+          series,
+          notes,
+        },
+        input: at,
+      };
     }
-    if (series !== null) problems.push(new InputError('forecast-unusable', candidate.path, `cannot be used for source '${input.source.id}': ${why}`, 'replace the file; an older forecast within the look-back is used meanwhile'));
+    if (series !== null)
+      problems.push(
+        new InputError(
+          'forecast-unusable',
+          candidate.path,
+          `cannot be used for source '${input.source.id}': ${why}`,
+          'replace the file; an older forecast within the look-back is used meanwhile',
+        ),
+      );
     tried.push(`${candidate.path} (${candidate.date})`);
   }
   return null;
 }
 
 function candidateInputs(config: Config, input: SourceInputs, candidate: ForecastCandidate, issueDate: string): SourceInputs {
-  return { ...input, date: candidate.date, path: candidate.path, stale: candidate.date !== issueDate, hindcasts: hindcastsFor(config, input.source, candidate.date) };
+  return {
+    ...input,
+    date: candidate.date,
+    path: candidate.path,
+    stale: candidate.date !== issueDate,
+    hindcasts: hindcastsFor(config, input.source, candidate.date),
+  };
 }

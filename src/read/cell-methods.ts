@@ -19,8 +19,11 @@ export function parseCellMethods(text: string): CellMethod[] {
   const out: CellMethod[] = [];
   const re = /((?:[A-Za-z_][\w]*:\s*)+)([A-Za-z_]+)\s*(\([^)]*\))?/g;
   for (let m = re.exec(text); m !== null; m = re.exec(text)) {
-    const names = m[1].split(':').map((s) => s.trim()).filter((s) => s !== '');
-    const interval = m[3] ? /interval:\s*([^)]*?)\s*(?:comment:|\)|$)/i.exec(m[3])?.[1] ?? null : null;
+    const names = m[1]
+      .split(':')
+      .map((s) => s.trim())
+      .filter((s) => s !== '');
+    const interval = m[3] ? (/interval:\s*([^)]*?)\s*(?:comment:|\)|$)/i.exec(m[3])?.[1] ?? null) : null;
     out.push({ names, method: m[2], interval });
   }
   return out;
@@ -39,8 +42,21 @@ export function timeCellMethod(info: VariableInfo, time: TimeAxis | null): strin
 }
 
 const INTERVAL_UNIT_MS: Readonly<Record<string, number>> = {
-  s: 1000, sec: 1000, second: 1000, seconds: 1000, min: 60_000, minute: 60_000, minutes: 60_000,
-  h: 3_600_000, hr: 3_600_000, hrs: 3_600_000, hour: 3_600_000, hours: 3_600_000, d: 86_400_000, day: 86_400_000, days: 86_400_000,
+  s: 1000,
+  sec: 1000,
+  second: 1000,
+  seconds: 1000,
+  min: 60_000,
+  minute: 60_000,
+  minutes: 60_000,
+  h: 3_600_000,
+  hr: 3_600_000,
+  hrs: 3_600_000,
+  hour: 3_600_000,
+  hours: 3_600_000,
+  d: 86_400_000,
+  day: 86_400_000,
+  days: 86_400_000,
 };
 
 /** The `(interval: …)` of the time entry in ms, or null when absent or not a fixed-length unit (months, years). */

@@ -15,8 +15,8 @@ import type { AttributeValue, StorageType, VariableInfo } from './dataset.ts';
 export const NETCDF_DEFAULT_FILL: Readonly<Partial<Record<StorageType, number>>> = {
   short: -32767,
   int: -2147483647,
-  float: Math.fround(9.9692099683868690e36),
-  double: 9.9692099683868690e36,
+  float: Math.fround(9.969209968386869e36),
+  double: 9.969209968386869e36,
   ushort: 65535,
   uint: 4294967295,
   int64: -9223372036854775806,
@@ -47,8 +47,8 @@ export function decodeCf(info: VariableInfo, raw: Float64Array): DecodedValues {
   if (fills.length === 0 && NETCDF_DEFAULT_FILL[info.type] !== undefined) fills.push(NETCDF_DEFAULT_FILL[info.type]!);
   const masked = [...fills.slice(0, 1), ...numbers(a.missing_value)].map((v) => asStored(info.type, v));
   const range = numbers(a.valid_range);
-  const min = range.length === 2 ? range[0] : numbers(a.valid_min)[0] ?? -Infinity;
-  const max = range.length === 2 ? range[1] : numbers(a.valid_max)[0] ?? Infinity;
+  const min = range.length === 2 ? range[0] : (numbers(a.valid_min)[0] ?? -Infinity);
+  const max = range.length === 2 ? range[1] : (numbers(a.valid_max)[0] ?? Infinity);
   const scale = numbers(a.scale_factor)[0] ?? 1;
   const offset = numbers(a.add_offset)[0] ?? 0;
   const m0 = masked[0] ?? NaN;

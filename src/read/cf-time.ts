@@ -12,17 +12,42 @@ import { UnitError } from '../core/errors.ts';
 export type CfCalendar = 'standard' | 'proleptic_gregorian' | 'julian' | 'noleap' | 'all_leap' | '360_day';
 
 const CALENDAR_ALIASES: Readonly<Record<string, CfCalendar>> = {
-  standard: 'standard', gregorian: 'standard', proleptic_gregorian: 'proleptic_gregorian', julian: 'julian',
-  noleap: 'noleap', '365_day': 'noleap', all_leap: 'all_leap', '366_day': 'all_leap', '360_day': '360_day',
+  standard: 'standard',
+  gregorian: 'standard',
+  proleptic_gregorian: 'proleptic_gregorian',
+  julian: 'julian',
+  noleap: 'noleap',
+  '365_day': 'noleap',
+  all_leap: 'all_leap',
+  '366_day': 'all_leap',
+  '360_day': '360_day',
 };
 
 const SECONDS_PER_UNIT: Readonly<Record<string, number>> = {
-  microseconds: 1e-6, microsecond: 1e-6, us: 1e-6,
-  milliseconds: 1e-3, millisecond: 1e-3, msec: 1e-3, ms: 1e-3,
-  seconds: 1, second: 1, secs: 1, sec: 1, s: 1,
-  minutes: 60, minute: 60, mins: 60, min: 60,
-  hours: 3600, hour: 3600, hrs: 3600, hr: 3600, h: 3600,
-  days: 86400, day: 86400, d: 86400,
+  microseconds: 1e-6,
+  microsecond: 1e-6,
+  us: 1e-6,
+  milliseconds: 1e-3,
+  millisecond: 1e-3,
+  msec: 1e-3,
+  ms: 1e-3,
+  seconds: 1,
+  second: 1,
+  secs: 1,
+  sec: 1,
+  s: 1,
+  minutes: 60,
+  minute: 60,
+  mins: 60,
+  min: 60,
+  hours: 3600,
+  hour: 3600,
+  hrs: 3600,
+  hr: 3600,
+  h: 3600,
+  days: 86400,
+  day: 86400,
+  d: 86400,
 };
 
 const CUMULATIVE_DAYS = [0, 31, 59, 90, 120, 151, 181, 212, 243, 273, 304, 334, 365];
@@ -110,23 +135,31 @@ function jdnToDate(jdn: number, gregorian: boolean): [number, number, number] {
 /** Day number of a date in `calendar` (any fixed origin per calendar). */
 function toDayNumber(calendar: CfCalendar, y: number, m: number, d: number): number {
   switch (calendar) {
-    case 'proleptic_gregorian': return gregorianToJdn(y, m, d);
-    case 'julian': return julianToJdn(y, m, d);
+    case 'proleptic_gregorian':
+      return gregorianToJdn(y, m, d);
+    case 'julian':
+      return julianToJdn(y, m, d);
     case 'standard': {
       const g = gregorianToJdn(y, m, d);
       return g >= JDN_GREGORIAN_START ? g : julianToJdn(y, m, d);
     }
-    case 'noleap': return y * 365 + CUMULATIVE_DAYS[m - 1] + d - 1;
-    case 'all_leap': return y * 366 + CUMULATIVE_DAYS[m - 1] + (m > 2 ? 1 : 0) + d - 1;
-    case '360_day': return y * 360 + (m - 1) * 30 + d - 1;
+    case 'noleap':
+      return y * 365 + CUMULATIVE_DAYS[m - 1] + d - 1;
+    case 'all_leap':
+      return y * 366 + CUMULATIVE_DAYS[m - 1] + (m > 2 ? 1 : 0) + d - 1;
+    case '360_day':
+      return y * 360 + (m - 1) * 30 + d - 1;
   }
 }
 
 function fromDayNumber(calendar: CfCalendar, n: number): [number, number, number] {
   switch (calendar) {
-    case 'proleptic_gregorian': return jdnToDate(n, true);
-    case 'julian': return jdnToDate(n, false);
-    case 'standard': return jdnToDate(n, n >= JDN_GREGORIAN_START);
+    case 'proleptic_gregorian':
+      return jdnToDate(n, true);
+    case 'julian':
+      return jdnToDate(n, false);
+    case 'standard':
+      return jdnToDate(n, n >= JDN_GREGORIAN_START);
     case '360_day': {
       const y = Math.floor(n / 360);
       const r = n - y * 360;
@@ -145,7 +178,8 @@ function fromDayNumber(calendar: CfCalendar, n: number): [number, number, number
   }
 }
 
-const REFERENCE = /^(-?\d{1,4})-(\d{1,2})-(\d{1,2})(?:[T ](\d{1,2}):(\d{1,2})(?::(\d{1,2}(?:\.\d+)?))?)?\s*(Z|UTC|GMT|[+-]\d{1,2}(?::?\d{2})?)?$/i;
+const REFERENCE =
+  /^(-?\d{1,4})-(\d{1,2})-(\d{1,2})(?:[T ](\d{1,2}):(\d{1,2})(?::(\d{1,2}(?:\.\d+)?))?)?\s*(Z|UTC|GMT|[+-]\d{1,2}(?::?\d{2})?)?$/i;
 
 export interface TimeUnits {
   readonly secondsPerUnit: number;
@@ -163,10 +197,14 @@ export function parseTimeUnits(units: string, calendar = 'standard'): TimeUnits 
   const secondsPerUnit = match ? SECONDS_PER_UNIT[match[1].toLowerCase()] : undefined;
   const ref = match ? REFERENCE.exec(match[2]) : null;
   if (!match || secondsPerUnit === undefined || !ref) {
-    throw new UnitError(`time units '${units}' are not '<days|hours|minutes|seconds> since <YYYY-MM-DD[ hh:mm:ss]>'`, 'fix the time variable\'s units attribute (CF §4.4); months and years are not fixed-length units');
+    throw new UnitError(
+      `time units '${units}' are not '<days|hours|minutes|seconds> since <YYYY-MM-DD[ hh:mm:ss]>'`,
+      "fix the time variable's units attribute (CF §4.4); months and years are not fixed-length units",
+    );
   }
   const [y, mo, d] = [Number(ref[1]), Number(ref[2]), Number(ref[3])];
-  if (mo < 1 || mo > 12 || d < 1 || d > 31) throw new UnitError(`time units '${units}' have an invalid reference date`, 'fix the time variable\'s units attribute (CF §4.4)');
+  if (mo < 1 || mo > 12 || d < 1 || d > 31)
+    throw new UnitError(`time units '${units}' have an invalid reference date`, "fix the time variable's units attribute (CF §4.4)");
   let tzSeconds = 0;
   const tz = ref[7];
   if (tz && /^[+-]/.test(tz)) {
@@ -185,7 +223,8 @@ export function decodeTimes(values: ArrayLike<number>, units: string, calendar?:
   const out: CfDateTime[] = new Array(values.length);
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
-    if (!Number.isFinite(v)) throw new UnitError(`time value ${v} at index ${i} cannot be decoded with units '${units}'`, 'mask missing times before decoding');
+    if (!Number.isFinite(v))
+      throw new UnitError(`time value ${v} at index ${i} cannot be decoded with units '${units}'`, 'mask missing times before decoding');
     // Round to the microsecond, as cftime does, then split into whole days and seconds of day.
     const micros = Math.round((u.refSecond + v * u.secondsPerUnit) * 1e6);
     const dayOffset = Math.floor(micros / 86_400_000_000);
@@ -202,7 +241,11 @@ export function decodeTimes(values: ArrayLike<number>, units: string, calendar?:
  * Seconds of each value on the calendar's own continuous day line (day number × 86400 + seconds of day), so that
  * differences are elapsed time in that calendar (every CF calendar's day has 86400 s, CF §4.4.1).
  */
-export function calendarSeconds(values: ArrayLike<number>, units: string, calendar?: string): { calendar: CfCalendar; seconds: Float64Array } {
+export function calendarSeconds(
+  values: ArrayLike<number>,
+  units: string,
+  calendar?: string,
+): { calendar: CfCalendar; seconds: Float64Array } {
   const u = parseTimeUnits(units, calendar);
   const seconds = Float64Array.from(values, (v) => Math.round((u.refDay * 86400 + u.refSecond + v * u.secondsPerUnit) * 1e6) / 1e6);
   return { calendar: u.calendar, seconds };
@@ -211,7 +254,13 @@ export function calendarSeconds(values: ArrayLike<number>, units: string, calend
 /** Days in month `month` (1-12) of `year` in `calendar` (CF §4.4.1). */
 export function daysInCalendarMonth(calendar: CfCalendar, year: number, month: number): number {
   if (calendar === '360_day') return 30;
-  const leap = calendar === 'all_leap' ? true : calendar === 'noleap' ? false
-    : calendar === 'julian' || (calendar === 'standard' && year < 1583) ? year % 4 === 0 : isGregorianLeap(year);
+  const leap =
+    calendar === 'all_leap'
+      ? true
+      : calendar === 'noleap'
+        ? false
+        : calendar === 'julian' || (calendar === 'standard' && year < 1583)
+          ? year % 4 === 0
+          : isGregorianLeap(year);
   return month === 2 ? (leap ? 29 : 28) : CUMULATIVE_DAYS[month] - CUMULATIVE_DAYS[month - 1];
 }

@@ -36,10 +36,21 @@ async function readHeader(file: string, handle: FileHandle, fileBytes: number): 
       return parseClassicHeader(prefix);
     } catch (err) {
       if (!(err instanceof HeaderNeedsMoreBytes)) {
-        throw new InputError('input-corrupt', file, `NetCDF classic header is malformed (${(err as Error).message})`, 're-download the file or check it with `ncdump -h`', { cause: err });
+        throw new InputError(
+          'input-corrupt',
+          file,
+          `NetCDF classic header is malformed (${(err as Error).message})`,
+          're-download the file or check it with `ncdump -h`',
+          { cause: err },
+        );
       }
       if (want >= fileBytes) {
-        throw new InputError('input-truncated', file, `file is truncated: the NetCDF header continues past the end of the file (${fileBytes} bytes)`, 're-download it');
+        throw new InputError(
+          'input-truncated',
+          file,
+          `file is truncated: the NetCDF header continues past the end of the file (${fileBytes} bytes)`,
+          're-download it',
+        );
       }
     }
   }

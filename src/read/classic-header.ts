@@ -43,10 +43,17 @@ const NC_ATTRIBUTE = 0x0c;
 const STREAMING = 0xffffffff;
 
 const TYPES: Record<number, { type: StorageType; bytes: number }> = {
-  1: { type: 'byte', bytes: 1 }, 2: { type: 'char', bytes: 1 }, 3: { type: 'short', bytes: 2 },
-  4: { type: 'int', bytes: 4 }, 5: { type: 'float', bytes: 4 }, 6: { type: 'double', bytes: 8 },
-  7: { type: 'ubyte', bytes: 1 }, 8: { type: 'ushort', bytes: 2 }, 9: { type: 'uint', bytes: 4 },
-  10: { type: 'int64', bytes: 8 }, 11: { type: 'uint64', bytes: 8 },
+  1: { type: 'byte', bytes: 1 },
+  2: { type: 'char', bytes: 1 },
+  3: { type: 'short', bytes: 2 },
+  4: { type: 'int', bytes: 4 },
+  5: { type: 'float', bytes: 4 },
+  6: { type: 'double', bytes: 8 },
+  7: { type: 'ubyte', bytes: 1 },
+  8: { type: 'ushort', bytes: 2 },
+  9: { type: 'uint', bytes: 4 },
+  10: { type: 'int64', bytes: 8 },
+  11: { type: 'uint64', bytes: 8 },
 };
 
 /** Bytes per stored value of each storage type. */
@@ -56,7 +63,10 @@ export const STORAGE_BYTES: Readonly<Record<StorageType, number>> = Object.fromE
 
 class Cursor {
   pos = 4;
-  constructor(readonly bytes: Buffer, readonly version: ClassicVersion) {}
+  constructor(
+    readonly bytes: Buffer,
+    readonly version: ClassicVersion,
+  ) {}
 
   need(n: number): void {
     if (this.pos + n > this.bytes.length) throw new HeaderNeedsMoreBytes(`header needs byte ${this.pos + n}`);
@@ -163,16 +173,22 @@ export function parseClassicHeader(bytes: Buffer): ClassicHeader {
     let dataBytes = t.bytes;
     for (let d = isRecord ? 1 : 0; d < vdims.length; d++) dataBytes *= vdims[d].size;
     return {
-      name: p.name, dimensions: vdims.map((d) => d.name), shape: vdims.map((d) => d.size), type: t.type,
-      attributes: p.attributes, isRecord, begin: p.begin, elementBytes: t.bytes, dataBytes,
+      name: p.name,
+      dimensions: vdims.map((d) => d.name),
+      shape: vdims.map((d) => d.size),
+      type: t.type,
+      attributes: p.attributes,
+      isRecord,
+      begin: p.begin,
+      elementBytes: t.bytes,
+      dataBytes,
     };
   });
 
   const recordVars = variables.filter((v) => v.isRecord);
   // Spec: each record variable's slab is padded to 4 bytes, except when it is the only record variable.
-  const recordBytes = recordVars.length === 1
-    ? recordVars[0].dataBytes
-    : recordVars.reduce((sum, v) => sum + Math.ceil(v.dataBytes / 4) * 4, 0);
+  const recordBytes =
+    recordVars.length === 1 ? recordVars[0].dataBytes : recordVars.reduce((sum, v) => sum + Math.ceil(v.dataBytes / 4) * 4, 0);
   return { version, numRecords, dimensions: dims, attributes, variables, recordBytes };
 }
 
@@ -206,15 +222,36 @@ export function decodeBigEndian(type: StorageType, buf: Buffer, byteOffset: numb
   }
   const view = new DataView(buf.buffer, at, n * size);
   switch (type) {
-    case 'byte': for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt8(i); break;
-    case 'char': case 'ubyte': for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint8(i); break;
-    case 'short': for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt16(i * 2); break;
-    case 'ushort': for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint16(i * 2); break;
-    case 'int': for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt32(i * 4); break;
-    case 'uint': for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint32(i * 4); break;
-    case 'float': for (let i = 0; i < n; i++) out[outOffset + i] = view.getFloat32(i * 4); break;
-    case 'double': for (let i = 0; i < n; i++) out[outOffset + i] = view.getFloat64(i * 8); break;
-    case 'int64': for (let i = 0; i < n; i++) out[outOffset + i] = Number(view.getBigInt64(i * 8)); break;
-    case 'uint64': for (let i = 0; i < n; i++) out[outOffset + i] = Number(view.getBigUint64(i * 8)); break;
+    case 'byte':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt8(i);
+      break;
+    case 'char':
+    case 'ubyte':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint8(i);
+      break;
+    case 'short':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt16(i * 2);
+      break;
+    case 'ushort':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint16(i * 2);
+      break;
+    case 'int':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt32(i * 4);
+      break;
+    case 'uint':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint32(i * 4);
+      break;
+    case 'float':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getFloat32(i * 4);
+      break;
+    case 'double':
+      for (let i = 0; i < n; i++) out[outOffset + i] = view.getFloat64(i * 8);
+      break;
+    case 'int64':
+      for (let i = 0; i < n; i++) out[outOffset + i] = Number(view.getBigInt64(i * 8));
+      break;
+    case 'uint64':
+      for (let i = 0; i < n; i++) out[outOffset + i] = Number(view.getBigUint64(i * 8));
+      break;
   }
 }

@@ -29,14 +29,24 @@ export interface ReadPlan {
 export function validateSelection(file: string, info: VariableInfo, start: readonly number[], count: readonly number[]): number {
   const rank = info.shape.length;
   if (start.length !== rank || count.length !== rank) {
-    throw new InputError('read-selection', file, `variable '${info.name}' has ${rank} dimensions (${info.dimensions.join(', ')}) but start/count have ${start.length}/${count.length}`, 'pass one start and one count per dimension');
+    throw new InputError(
+      'read-selection',
+      file,
+      `variable '${info.name}' has ${rank} dimensions (${info.dimensions.join(', ')}) but start/count have ${start.length}/${count.length}`,
+      'pass one start and one count per dimension',
+    );
   }
   let total = 1;
   for (let d = 0; d < rank; d++) {
     const s = start[d];
     const n = count[d];
     if (!Number.isInteger(s) || !Number.isInteger(n) || s < 0 || n < 0 || s + n > info.shape[d]) {
-      throw new InputError('read-selection', file, `variable '${info.name}' dimension '${info.dimensions[d]}' has size ${info.shape[d]} but the read asks for ${n} values from index ${s}`, 'check the region box and the lead/member ranges against the file');
+      throw new InputError(
+        'read-selection',
+        file,
+        `variable '${info.name}' dimension '${info.dimensions[d]}' has size ${info.shape[d]} but the read asks for ${n} values from index ${s}`,
+        'check the region box and the lead/member ranges against the file',
+      );
     }
     total *= n;
   }
@@ -47,7 +57,14 @@ export function validateSelection(file: string, info: VariableInfo, start: reado
  * Plans reads of the box. `strides[d]` is the byte distance between consecutive indices of dimension d
  * (for record variables, stride 0 is the record size); `begin` is the byte offset of index 0.
  */
-export function planReads(begin: number, strides: readonly number[], elementBytes: number, shape: readonly number[], start: readonly number[], count: readonly number[]): ReadPlan {
+export function planReads(
+  begin: number,
+  strides: readonly number[],
+  elementBytes: number,
+  shape: readonly number[],
+  start: readonly number[],
+  count: readonly number[],
+): ReadPlan {
   const rank = shape.length;
   let totalValues = 1;
   for (const n of count) totalValues *= n;

@@ -12,18 +12,35 @@ import { InputError, UnitError } from '../core/errors.ts';
 import { calendarSeconds, decodeTimes, type CfCalendar, type CfDateTime } from './cf-time.ts';
 
 const UNIT_MS: Readonly<Record<string, number>> = {
-  second: 1000, seconds: 1000, sec: 1000, secs: 1000, s: 1000,
-  minute: 60_000, minutes: 60_000, min: 60_000, mins: 60_000,
-  hour: 3_600_000, hours: 3_600_000, hr: 3_600_000, hrs: 3_600_000, h: 3_600_000,
-  day: 86_400_000, days: 86_400_000, d: 86_400_000,
+  second: 1000,
+  seconds: 1000,
+  sec: 1000,
+  secs: 1000,
+  s: 1000,
+  minute: 60_000,
+  minutes: 60_000,
+  min: 60_000,
+  mins: 60_000,
+  hour: 3_600_000,
+  hours: 3_600_000,
+  hr: 3_600_000,
+  hrs: 3_600_000,
+  h: 3_600_000,
+  day: 86_400_000,
+  days: 86_400_000,
+  d: 86_400_000,
 };
 
 /** Length in ms of a duration unit ("hours", "days", …) of a lead-time coordinate. */
 export function durationUnitMs(units: string, file: string, variable: string): number {
   const ms = UNIT_MS[units.trim().toLowerCase()];
   if (ms === undefined) {
-    throw new InputError('time-units', file, `lead-time variable '${variable}' has units '${units}', expected seconds, minutes, hours or days`,
-      'fix the units attribute of the lead-time coordinate');
+    throw new InputError(
+      'time-units',
+      file,
+      `lead-time variable '${variable}' has units '${units}', expected seconds, minutes, hours or days`,
+      'fix the units attribute of the lead-time coordinate',
+    );
   }
   return ms;
 }

@@ -93,20 +93,41 @@ function findAxisVariable(ds: Dataset, axis: 'X' | 'Y'): VariableInfo {
     (v: VariableInfo) => names.includes(v.name.toLowerCase()),
   ];
   // 1-D coordinates first, so that e.g. a `lat_bnds` carrying units degrees_north is never taken for them.
-  const found = pick(ds, tests.map((t) => (v: VariableInfo) => v.dimensions.length === 1 && t(v)));
+  const found = pick(
+    ds,
+    tests.map((t) => (v: VariableInfo) => v.dimensions.length === 1 && t(v)),
+  );
   if (found) return found;
-  const curvilinear = pick(ds, tests.slice(0, 2).map((t) => (v: VariableInfo) => v.dimensions.length === 2 && t(v)));
+  const curvilinear = pick(
+    ds,
+    tests.slice(0, 2).map((t) => (v: VariableInfo) => v.dimensions.length === 2 && t(v)),
+  );
   if (curvilinear) {
-    throw new InputError('grid-unsupported', ds.path, `${standard} variable '${curvilinear.name}' has 2 dimensions (curvilinear grid)`,
-      'regrid to a regular latitude-longitude grid first (e.g. cdo remapbil)');
+    throw new InputError(
+      'grid-unsupported',
+      ds.path,
+      `${standard} variable '${curvilinear.name}' has 2 dimensions (curvilinear grid)`,
+      'regrid to a regular latitude-longitude grid first (e.g. cdo remapbil)',
+    );
   }
-  throw new InputError('no-coordinate', ds.path, `no ${standard} coordinate (standard_name ${standard} or units ${units[0]})`,
-    `add CF attributes to the ${standard} variable (e.g. ncatted -a units,<var>,o,c,${units[0]})`);
+  throw new InputError(
+    'no-coordinate',
+    ds.path,
+    `no ${standard} coordinate (standard_name ${standard} or units ${units[0]})`,
+    `add CF attributes to the ${standard} variable (e.g. ncatted -a units,<var>,o,c,${units[0]})`,
+  );
 }
 
 /** All CF-decoded values of a (small, coordinate) variable. */
 async function readWhole(ds: Dataset, info: VariableInfo): Promise<Float64Array> {
-  return decodeCf(info, await ds.readRaw(info.name, info.shape.map(() => 0), info.shape)).values;
+  return decodeCf(
+    info,
+    await ds.readRaw(
+      info.name,
+      info.shape.map(() => 0),
+      info.shape,
+    ),
+  ).values;
 }
 
 async function readBounds(ds: Dataset, info: VariableInfo, n: number): Promise<Float64Array | null> {
@@ -126,11 +147,19 @@ function isReference(v: VariableInfo): boolean {
 
 function isLead(v: VariableInfo): boolean {
   const units = attr(v, 'units') ?? '';
-  return v.dimensions.length === 1 && !/ since /i.test(units) &&
-    (attr(v, 'standard_name') === 'forecast_period' || LEAD_NAMES.includes(v.name.toLowerCase()));
+  return (
+    v.dimensions.length === 1 &&
+    !/ since /i.test(units) &&
+    (attr(v, 'standard_name') === 'forecast_period' || LEAD_NAMES.includes(v.name.toLowerCase()))
+  );
 }
 
-async function decodeTimeVariable(ds: Dataset, mapper: TimeMapper, info: VariableInfo, unitsFrom: VariableInfo = info): Promise<Float64Array> {
+async function decodeTimeVariable(
+  ds: Dataset,
+  mapper: TimeMapper,
+  info: VariableInfo,
+  unitsFrom: VariableInfo = info,
+): Promise<Float64Array> {
   const raw = await readWhole(ds, info);
   return mapper.toMs(raw, attr(unitsFrom, 'units') ?? '', attr(unitsFrom, 'calendar'), ds.path, info.name);
 }
@@ -139,18 +168,30 @@ async function findReference(ds: Dataset, mapper: TimeMapper): Promise<number | 
   const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
   if (!ref) return null;
   if (ref.shape.reduce((a, b) => a * b, 1) !== 1) {
-    throw new InputError('reference-several', ds.path, `'${ref.name}' holds ${ref.shape.join('×')} forecast reference times`,
-      'split the file into one file per start date (e.g. cdo splitsel,1)');
+    throw new InputError(
+      'reference-several',
+      ds.path,
+      `'${ref.name}' holds ${ref.shape.join('×')} forecast reference times`,
+      'split the file into one file per start date (e.g. cdo splitsel,1)',
+    );
   }
   return (await decodeTimeVariable(ds, mapper, ref))[0];
 }
 
 /** Model months of an absolute time axis (monthly.ts), from its values in the file's own calendar. */
-async function monthsOf(ds: Dataset, time: VariableInfo, boundsInfo: VariableInfo | undefined, referenceMs: number | null, stampsMs: Float64Array): Promise<MonthSteps | null> {
+async function monthsOf(
+  ds: Dataset,
+  time: VariableInfo,
+  boundsInfo: VariableInfo | undefined,
+  referenceMs: number | null,
+  stampsMs: Float64Array,
+): Promise<MonthSteps | null> {
   const units = attr(time, 'units') ?? '';
   const calendar = attr(time, 'calendar');
   const stamps = decodeTimes(await readWhole(ds, time), units, calendar);
-  const bounds = boundsInfo ? decodeTimes(await readWhole(ds, boundsInfo), attr(boundsInfo, 'units') ?? units, attr(boundsInfo, 'calendar') ?? calendar) : null;
+  const bounds = boundsInfo
+    ? decodeTimes(await readWhole(ds, boundsInfo), attr(boundsInfo, 'units') ?? units, attr(boundsInfo, 'calendar') ?? calendar)
+    : null;
   return detectMonths(stamps, bounds, referenceMs, stampsMs);
 }
 
@@ -160,7 +201,13 @@ async function findTime(ds: Dataset, referenceMs: number | null, mapper: TimeMap
     const unitMs = durationUnitMs(attr(lead, 'units') ?? '', ds.path, lead.name);
     const toMs = (values: Float64Array): Float64Array => values.map((x) => Math.round(referenceMs + x * unitMs));
     const bounds = await readBounds(ds, lead, lead.shape[0]);
-    return { dimension: lead.dimensions[0], variable: lead.name, stampsMs: toMs(await readWhole(ds, lead)), boundsMs: bounds && toMs(bounds), months: null };
+    return {
+      dimension: lead.dimensions[0],
+      variable: lead.name,
+      stampsMs: toMs(await readWhole(ds, lead)),
+      boundsMs: bounds && toMs(bounds),
+      months: null,
+    };
   }
   const candidates = ds.variables.filter((v) => v.dimensions.length === 1 && isTimeLike(v) && !isReference(v) && !isLead(v));
   const time = candidates.find((v) => v.dimensions[0] === v.name) ?? candidates[0];
@@ -208,7 +255,10 @@ export async function findCoordinates(ds: Dataset): Promise<FileCoordinates> {
 export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: string): VariableLayout {
   const info = ds.variable(name);
   if (!info) {
-    const names = ds.variables.filter((v) => v.dimensions.includes(coords.grid.latName) && v.dimensions.includes(coords.grid.lonName)).map((v) => v.name).join(', ');
+    const names = ds.variables
+      .filter((v) => v.dimensions.includes(coords.grid.latName) && v.dimensions.includes(coords.grid.lonName))
+      .map((v) => v.name)
+      .join(', ');
     throw new InputError('variable-missing', ds.path, `no variable '${name}'`, `map the quantity to one of: ${names}`);
   }
   const dims = info.dimensions;
@@ -220,14 +270,22 @@ export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: strin
     memberAxis: coords.member ? dims.indexOf(coords.member.dimension) : -1,
   };
   if (layout.latAxis < 0 || layout.lonAxis < 0) {
-    throw new InputError('variable-not-gridded', ds.path, `variable '${name}' (${dims.join(', ')}) is not on the latitude-longitude grid`,
-      'map the quantity to a gridded variable');
+    throw new InputError(
+      'variable-not-gridded',
+      ds.path,
+      `variable '${name}' (${dims.join(', ')}) is not on the latitude-longitude grid`,
+      'map the quantity to a gridded variable',
+    );
   }
   const known = new Set([layout.latAxis, layout.lonAxis, layout.timeAxis, layout.memberAxis]);
   dims.forEach((d, k) => {
     if (!known.has(k) && info.shape[k] !== 1) {
-      throw new InputError('variable-extra-dimension', ds.path, `variable '${name}' has extra dimension '${d}' of size ${info.shape[k]}`,
-        `select one ${d} first (e.g. cdo sellevidx,1 or ncks -d ${d},0)`);
+      throw new InputError(
+        'variable-extra-dimension',
+        ds.path,
+        `variable '${name}' has extra dimension '${d}' of size ${info.shape[k]}`,
+        `select one ${d} first (e.g. cdo sellevidx,1 or ncks -d ${d},0)`,
+      );
     }
   });
   return layout;

@@ -134,9 +134,12 @@ export function planLocalDays(intervals: StepIntervals, clock: LocalClock): DayP
     stepWeight[i] = length / HOUR_MS;
     if (length > 0) coverage.set(dayNumber[i], (coverage.get(dayNumber[i]) ?? 0) + length);
   }
-  const complete = [...coverage.entries()].filter(([d, ms]) => ms >= Math.min(DAY_MS, localDayLengthMs(clock, d)) - COVERAGE_SLACK_MS).map(([d]) => d).sort((a, b) => a - b);
+  const complete = [...coverage.entries()]
+    .filter(([d, ms]) => ms >= Math.min(DAY_MS, localDayLengthMs(clock, d)) - COVERAGE_SLACK_MS)
+    .map(([d]) => d)
+    .sort((a, b) => a - b);
   const index = new Map(complete.map((d, k) => [d, k]));
-  for (let i = 0; i < n; i++) dayOfStep[i] = stepWeight[i] > 0 ? index.get(dayNumber[i]) ?? -1 : -1;
+  for (let i = 0; i < n; i++) dayOfStep[i] = stepWeight[i] > 0 ? (index.get(dayNumber[i]) ?? -1) : -1;
   return { days: complete.map(isoDate), dayOfStep, stepWeight };
 }
 
@@ -188,7 +191,14 @@ export interface ChunkWindow {
  * Every day touched by the chunk must lie wholly inside it. `mean` weights steps by `plan.stepWeight`;
  * NaN in any step of a day makes that cell-day NaN.
  */
-export function reduceToDays(values: Float64Array, cells: number, plan: DayPlan, method: DailyMethod, out: Float64Array, window: ChunkWindow): void {
+export function reduceToDays(
+  values: Float64Array,
+  cells: number,
+  plan: DayPlan,
+  method: DailyMethod,
+  out: Float64Array,
+  window: ChunkWindow,
+): void {
   const init = method === 'max' ? -Infinity : method === 'min' ? Infinity : 0;
   out.fill(init, 0, window.days * cells);
   const weightSum = new Float64Array(window.days);

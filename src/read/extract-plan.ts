@@ -58,7 +58,12 @@ function isPeriodVariable(layout: VariableLayout, method: string | null, unitPla
  * `referenceHintMs`: the forecast date the file was found under, used when the file states no forecast_reference_time.
  * @throws InputError when `cell_methods` gives periods longer than the time spacing (overlapping running periods).
  */
-export function planTime(coords: FileCoordinates, layout: VariableLayout, unitPlan: UnitPlan | null, referenceHintMs: number | null = null): TimePlan {
+export function planTime(
+  coords: FileCoordinates,
+  layout: VariableLayout,
+  unitPlan: UnitPlan | null,
+  referenceHintMs: number | null = null,
+): TimePlan {
   const time = coords.time;
   if (!time || layout.timeAxis < 0) return { intervals: null, accumulated: false };
   const method = timeCellMethod(layout.info, time);
@@ -67,9 +72,12 @@ export function planTime(coords: FileCoordinates, layout: VariableLayout, unitPl
   const period = isPeriodVariable(layout, method, unitPlan);
   if (period && !time.boundsMs && periodMs !== null && time.stampsMs.length > 1 && periodMs > axisSpacing(time.stampsMs) + SLACK_MS) {
     const every = Math.round(periodMs / axisSpacing(time.stampsMs));
-    throw new InputError('time-overlap', coords.file,
+    throw new InputError(
+      'time-overlap',
+      coords.file,
       `variable '${layout.info.name}': cell_methods gives ${periodMs / 3_600_000}-hour periods but the steps are ${axisSpacing(time.stampsMs) / 3_600_000} hours apart (overlapping running periods)`,
-      `keep every ${every}th step (e.g. ncks -d ${time.dimension},${every - 1},,${every} in.nc out.nc) or add time_bnds`);
+      `keep every ${every}th step (e.g. ncks -d ${time.dimension},${every - 1},,${every} in.nc out.nc) or add time_bnds`,
+    );
   }
   const intervals = stepIntervals({
     stampsMs: time.stampsMs,

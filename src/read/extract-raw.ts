@@ -24,28 +24,50 @@ export interface RawRegionMeans {
 }
 
 /** Means of `variable` over each region with cells (see module comment); `cacheDir` for the weights cache. */
-export async function rawRegionMeans(ds: Dataset, variable: string, regionList: readonly RegionConfig[], daily: DailyMethod | null, cacheDir: string | null): Promise<RawRegionMeans> {
+export async function rawRegionMeans(
+  ds: Dataset,
+  variable: string,
+  regionList: readonly RegionConfig[],
+  daily: DailyMethod | null,
+  cacheDir: string | null,
+): Promise<RawRegionMeans> {
   const coords = await findCoordinates(ds);
   const { selected, problems } = regionSetCells(coords.grid, regionList, ds.path, cacheDir);
   const layout = layoutVariable(ds, coords, variable);
   const unitPlan = canonicalUnitPlan(layout.info, ds.path);
   const timePlan = planTime(coords, layout, unitPlan);
   if (daily && !timePlan.intervals) {
-    throw new InputError('time-missing', ds.path, `variable '${variable}' has no time axis`, 'drop --daily or choose a variable with a CF time coordinate');
+    throw new InputError(
+      'time-missing',
+      ds.path,
+      `variable '${variable}' has no time axis`,
+      'drop --daily or choose a variable with a CF time coordinate',
+    );
   }
   const units = unitPlan?.units ?? layout.info.attributes.units;
   if (selected.length === 0) return { units: typeof units === 'string' ? units : '', regions: [], problems };
-  const { band, regions } = planBand(selected.map((s) => s.cells), coords.grid.lat.length, coords.grid.lon.length);
+  const { band, regions } = planBand(
+    selected.map((s) => s.cells),
+    coords.grid.lat.length,
+    coords.grid.lon.length,
+  );
   const means = await reduceVariable(ds, coords, {
-    layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
-    clocks: selected.map((s) => regionClock(s.region)), daily,
+    layout,
+    band,
+    regions,
+    intervals: timePlan.intervals,
+    unitPlan,
+    accumulated: timePlan.accumulated,
+    clocks: selected.map((s) => regionClock(s.region)),
+    daily,
   });
   return {
     units: typeof units === 'string' ? units : '',
     regions: means.map((mean, k) => {
       const steps = mean.labels.length;
       const members: (number | null)[][] = [];
-      for (let m = 0; m < mean.data.length / steps; m++) members.push(Array.from(mean.data.subarray(m * steps, (m + 1) * steps), (v) => (v === v ? v : null)));
+      for (let m = 0; m < mean.data.length / steps; m++)
+        members.push(Array.from(mean.data.subarray(m * steps, (m + 1) * steps), (v) => (v === v ? v : null)));
       return { id: selected[k].region.id, times: [...mean.labels], members, cells: selected[k].cells.weights.length };
     }),
     problems,
@@ -61,7 +83,12 @@ export interface RegionsExtractJson {
   readonly problems: string[];
 }
 
-export function extractRegionsJson(path: string, variable: string, regions: readonly RegionConfig[], daily: DailyMethod | null): Promise<RegionsExtractJson> {
+export function extractRegionsJson(
+  path: string,
+  variable: string,
+  regions: readonly RegionConfig[],
+  daily: DailyMethod | null,
+): Promise<RegionsExtractJson> {
   return withDataset(path, async (ds) => {
     const means = await rawRegionMeans(ds, variable, regions, daily, null);
     return {
@@ -77,7 +104,10 @@ export function extractRegionsJson(path: string, variable: string, regions: read
 const GUESS_ORDER = ['tmean', 'rh', 'precip', 'wind'] as const;
 
 const NAME_PATTERNS: Readonly<Record<'tmean' | 'rh' | 'precip' | 'wind', RegExp>> = {
-  tmean: /temperature/, rh: /relative_humidity/, precip: /precipitation|rain/, wind: /wind/,
+  tmean: /temperature/,
+  rh: /relative_humidity/,
+  precip: /precipitation|rain/,
+  wind: /wind/,
 };
 
 /**

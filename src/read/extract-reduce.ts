@@ -10,7 +10,15 @@ import type { LocalClock } from '../core/local-clock.ts';
 import type { Dataset } from './dataset.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
 import { bandCellReader, type BandCellReader } from './extract-read.ts';
-import { clampAccumulationNoise, deaccumulateInPlace, planLocalDays, reduceToDays, type DailyMethod, type DayPlan, type StepIntervals } from './daily.ts';
+import {
+  clampAccumulationNoise,
+  deaccumulateInPlace,
+  planLocalDays,
+  reduceToDays,
+  type DailyMethod,
+  type DayPlan,
+  type StepIntervals,
+} from './daily.ts';
 import type { BandRegion, GridBand } from './regions-band.ts';
 import { convertInPlace, type UnitPlan } from './units.ts';
 
@@ -59,7 +67,15 @@ export function chunkStarts(steps: number, valuesPerStep: number, plans: readonl
 }
 
 /** Weighted mean of `region` over `rows` rows of `src` ([row][usedCell]) into labels `firstLabel`… of `member`. */
-function regionMeans(src: Float64Array, bandCells: number, rows: number, region: BandRegion, out: RegionMeans, member: number, firstLabel: number): void {
+function regionMeans(
+  src: Float64Array,
+  bandCells: number,
+  rows: number,
+  region: BandRegion,
+  out: RegionMeans,
+  member: number,
+  firstLabel: number,
+): void {
   const { cells, weights } = region;
   const base = member * out.labels.length + firstLabel;
   for (let d = 0; d < rows; d++) {
@@ -95,7 +111,12 @@ function dayRange(plan: DayPlan, t0: number, t1: number): { first: number; days:
  * that a threaded reader (NetCDF-4) decompresses ahead while this thread reduces. A failed read throws when its
  * turn comes; reads issued after it are left to settle unobserved.
  */
-function readsAhead(read: BandCellReader, members: number, starts: readonly number[], depth: number): { next(m: number, c: number): Promise<Float64Array> } {
+function readsAhead(
+  read: BandCellReader,
+  members: number,
+  starts: readonly number[],
+  depth: number,
+): { next(m: number, c: number): Promise<Float64Array> } {
   const chunks = starts.length - 1;
   const inFlight = new Map<number, Promise<Float64Array>>();
   let issued = 0;
@@ -119,9 +140,12 @@ function readsAhead(read: BandCellReader, members: number, starts: readonly numb
 
 /** A running accumulation that decreases is not one: name file, variable, member, step and the fix (tested on such a file). */
 function accumulationDecrease(file: string, variable: string, member: number, step: number, validAt: string, byMm: number): InputError {
-  return new InputError('accumulation-decrease', file,
+  return new InputError(
+    'accumulation-decrease',
+    file,
     `variable '${variable}' member index ${member} step ${step} (valid ${validAt}) is ${byMm.toPrecision(3)} mm below the step before, so it is not accumulated since the start`,
-    `if it holds per-step totals, say so (ncatted -a cell_methods,${variable},o,c,"time: sum" ${file}); otherwise replace the file`);
+    `if it holds per-step totals, say so (ncatted -a cell_methods,${variable},o,c,"time: sum" ${file}); otherwise replace the file`,
+  );
 }
 
 /** Area means of every region of `req`, all members, in the order of `req.regions`. */

@@ -50,7 +50,12 @@ function requestedMs(file: string, requested: string | undefined): number | null
   if (requested === undefined) return null;
   const wanted = Date.parse(/^\d{4}-\d{2}-\d{2}$/.test(requested) ? `${requested}T00:00:00Z` : requested);
   if (Number.isNaN(wanted)) {
-    throw new InputError('reference-invalid', file, `requested reference time '${requested}' is not an ISO 8601 date`, 'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ');
+    throw new InputError(
+      'reference-invalid',
+      file,
+      `requested reference time '${requested}' is not an ISO 8601 date`,
+      'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ',
+    );
   }
   return wanted;
 }
@@ -59,9 +64,12 @@ function requestedMs(file: string, requested: string | undefined): number | null
 function checkReference(file: string, window: { earliest: number; latest: number }, wanted: number | null): number {
   if (wanted === null) return window.latest;
   if (wanted >= window.earliest && wanted <= window.latest) return wanted;
-  throw new InputError('reference-mismatch', file,
+  throw new InputError(
+    'reference-mismatch',
+    file,
     `the file holds the forecast of ${isoInstant(window.latest)} but ${isoInstant(wanted)} was requested`,
-    'the file name and its contents disagree: check the source path pattern or replace the file');
+    'the file name and its contents disagree: check the source path pattern or replace the file',
+  );
 }
 
 /** Reads every requested quantity for every region from an opened dataset (see `extractRegionSeries`). */
@@ -73,7 +81,11 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
   const { selected, problems: cellProblems } = regionSetCells(coords.grid, request.regions, coords.file, request.weightsCacheDir ?? null);
   problems.push(...cellProblems);
-  const { band, regions } = planBand(selected.map((s) => s.cells), coords.grid.lat.length, coords.grid.lon.length);
+  const { band, regions } = planBand(
+    selected.map((s) => s.cells),
+    coords.grid.lat.length,
+    coords.grid.lon.length,
+  );
   if (regions.length === 0) return { series, problems, notes };
   for (const [quantity, variable] of Object.entries(request.quantities) as [Quantity, string][]) {
     try {
@@ -83,13 +95,23 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
       const timePlan = planTime(coords, layout, unitPlan, wanted);
       const window = referenceWindowMs(coords, timePlan);
       if (window === null) {
-        throw new InputError('time-missing', ds.path, `variable '${variable}' has no time axis`, 'map the quantity to a variable with a CF time coordinate');
+        throw new InputError(
+          'time-missing',
+          ds.path,
+          `variable '${variable}' has no time axis`,
+          'map the quantity to a variable with a CF time coordinate',
+        );
       }
       const refMs = checkReference(ds.path, window, wanted);
       const months = coords.time?.months ?? null;
       if (months) requireMonthTier(ds.path, variable, request.tier);
       const reduced = await reduceVariable(ds, coords, {
-        layout, band, regions, intervals: timePlan.intervals, unitPlan, accumulated: timePlan.accumulated,
+        layout,
+        band,
+        regions,
+        intervals: timePlan.intervals,
+        unitPlan,
+        accumulated: timePlan.accumulated,
         clocks: selected.map((s) => regionClock(s.region)),
         daily: months ? null : dailyMethodFor(quantity, unitPlan),
       });
@@ -98,14 +120,25 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
       means.forEach((mean, k) => {
         const { region, cells } = selected[k];
         if (!mean.data.some((v) => v === v)) {
-          problems.push(new InputError('region-all-missing', ds.path,
-            `every cell of region '${region.id}' (${describeShape(region.shape)}) is missing for '${variable}' (${quantity})`,
-            'check the _FillValue/valid_range of the variable or the region box'));
+          problems.push(
+            new InputError(
+              'region-all-missing',
+              ds.path,
+              `every cell of region '${region.id}' (${describeShape(region.shape)}) is missing for '${variable}' (${quantity})`,
+              'check the _FillValue/valid_range of the variable or the region box',
+            ),
+          );
           return;
         }
         const members = layout.memberAxis >= 0 ? layout.info.shape[layout.memberAxis] : 1;
         series.push({
-          region: region.id, quantity, units: unitPlan.units, days: mean.labels, members, data: mean.data, cells: cells.weights.length,
+          region: region.id,
+          quantity,
+          units: unitPlan.units,
+          days: mean.labels,
+          members,
+          data: mean.data,
+          cells: cells.weights.length,
           provenance: { file: ds.path, variable, referenceTime: isoInstant(refMs) },
         });
       });
@@ -158,7 +191,15 @@ export interface BoxExtractJson {
 
 /** Area-weighted box mean of one variable of an opened dataset, per member and step (or local day). */
 export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions): Promise<BoxExtractJson> {
-  const region: RegionConfig = { id: 'box', name: 'box', shape: { kind: 'box', ...opts.box }, utcOffsetHours: opts.utcOffsetHours ?? 0, ...(opts.timeZone ? { timeZone: opts.timeZone } : {}), teams: [], cellRule: opts.cellRule ?? 'centre' };
+  const region: RegionConfig = {
+    id: 'box',
+    name: 'box',
+    shape: { kind: 'box', ...opts.box },
+    utcOffsetHours: opts.utcOffsetHours ?? 0,
+    ...(opts.timeZone ? { timeZone: opts.timeZone } : {}),
+    teams: [],
+    cellRule: opts.cellRule ?? 'centre',
+  };
   const means = await rawRegionMeans(ds, opts.variable, [region], opts.daily ?? null, null);
   if (means.problems.length > 0) throw means.problems[0];
   const [r] = means.regions;

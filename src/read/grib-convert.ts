@@ -38,12 +38,26 @@ async function eccodes(tool: string, args: string[], file: string): Promise<void
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderr?: string };
     if (e.code === 'ENOENT') {
-      throw new InputError('eccodes-missing', file, `is GRIB, and reading GRIB needs ecCodes' ${tool}, which is not installed`,
-        'install the Debian package libeccodes-tools (apt-get install libeccodes-tools)', { cause: err });
+      throw new InputError(
+        'eccodes-missing',
+        file,
+        `is GRIB, and reading GRIB needs ecCodes' ${tool}, which is not installed`,
+        'install the Debian package libeccodes-tools (apt-get install libeccodes-tools)',
+        { cause: err },
+      );
     }
-    const said = (e.stderr ?? '').split('\n').map((l) => l.trim()).find((l) => /error/i.test(l)) ?? e.message.split('\n')[0];
-    throw new InputError('grib-unreadable', file, `ecCodes ${tool} could not convert the GRIB file (${said})`,
-      'check that the download is complete (grib_ls lists every message) or ask the provider for the file again', { cause: err });
+    const said =
+      (e.stderr ?? '')
+        .split('\n')
+        .map((l) => l.trim())
+        .find((l) => /error/i.test(l)) ?? e.message.split('\n')[0];
+    throw new InputError(
+      'grib-unreadable',
+      file,
+      `ecCodes ${tool} could not convert the GRIB file (${said})`,
+      'check that the download is complete (grib_ls lists every message) or ask the provider for the file again',
+      { cause: err },
+    );
   }
 }
 
@@ -59,7 +73,11 @@ const memberOrder = (name: string): number => {
 export async function gribAsNetcdf(path: string): Promise<string[]> {
   const root = gribCacheDir();
   const dir = join(root, await sha256File(path));
-  const list = () => readdirSync(dir).filter((n) => n.endsWith('.nc')).sort((a, b) => memberOrder(a) - memberOrder(b)).map((n) => join(dir, n));
+  const list = () =>
+    readdirSync(dir)
+      .filter((n) => n.endsWith('.nc'))
+      .sort((a, b) => memberOrder(a) - memberOrder(b))
+      .map((n) => join(dir, n));
   if (existsSync(dir)) return list();
   mkdirSync(root, { recursive: true });
   const work = `${dir}.tmp-${process.pid}`;
@@ -90,7 +108,10 @@ export function withGribReference(ds: Dataset): Dataset {
   const time = ds.variables.find((v) => v.dimensions.length === 1 && / since /i.test(String(v.attributes.units ?? '')));
   if (!time || ds.variable('forecast_reference_time') || ds.variables.some((v) => v.name === 'time' && v !== time)) return ds;
   const reference: VariableInfo = {
-    name: 'forecast_reference_time', dimensions: [], shape: [], type: 'double',
+    name: 'forecast_reference_time',
+    dimensions: [],
+    shape: [],
+    type: 'double',
     attributes: { standard_name: 'forecast_reference_time', units: String(time.attributes.units) },
   };
   return {

@@ -16,7 +16,18 @@ import { packageExportPath } from './hdf5-package.ts';
 import { type Hdf5SlicePool, SliceError, sharedSlicePool } from './hdf5-slice-pool.ts';
 
 /** Attributes netCDF-C uses for its own bookkeeping; ncdump does not show them. */
-const HIDDEN_ATTRIBUTES = new Set(['_Netcdf4Coordinates', '_Netcdf4Dimid', 'CLASS', 'NAME', 'REFERENCE_LIST', 'DIMENSION_LIST', '_NCProperties', '_nc3_strict', '_IsNetcdf4', '_SuperblockVersion']);
+const HIDDEN_ATTRIBUTES = new Set([
+  '_Netcdf4Coordinates',
+  '_Netcdf4Dimid',
+  'CLASS',
+  'NAME',
+  'REFERENCE_LIST',
+  'DIMENSION_LIST',
+  '_NCProperties',
+  '_nc3_strict',
+  '_IsNetcdf4',
+  '_SuperblockVersion',
+]);
 const DIMENSION_ONLY = 'This is a netCDF dimension but not a netCDF variable';
 /** HDF5 reports H5S_UNLIMITED (2^64-1) as a maxshape entry. */
 const UNLIMITED_AT_LEAST = 2 ** 53;
@@ -42,7 +53,13 @@ function loadH5wasm(): Promise<H5wasm> {
 
 function oneLine(err: unknown): string {
   const text = err instanceof Error ? err.message : String(err);
-  return text.split('\n').map((l) => l.trim()).filter(Boolean).slice(0, 4).join(' | ').slice(0, 400);
+  return text
+    .split('\n')
+    .map((l) => l.trim())
+    .filter(Boolean)
+    .slice(0, 4)
+    .join(' | ')
+    .slice(0, 400);
 }
 
 function toAttributeValue(value: unknown): AttributeValue {
@@ -60,7 +77,12 @@ function storageType(ds: H5Dataset): StorageType | undefined {
   const m = ds.metadata;
   if (m.type === 1) return m.size === 4 ? 'float' : m.size === 8 ? 'double' : undefined;
   if (m.type === 0) {
-    const ints: Record<number, [StorageType, StorageType]> = { 1: ['byte', 'ubyte'], 2: ['short', 'ushort'], 4: ['int', 'uint'], 8: ['int64', 'uint64'] };
+    const ints: Record<number, [StorageType, StorageType]> = {
+      1: ['byte', 'ubyte'],
+      2: ['short', 'ushort'],
+      4: ['int', 'uint'],
+      8: ['int64', 'uint64'],
+    };
     const pair = ints[m.size];
     return pair ? pair[m.signed ? 0 : 1] : undefined;
   }
@@ -112,7 +134,8 @@ class Hdf5Dataset implements Dataset {
     const v = this.byName.get(name);
     if (!v) throw variableNotFound(this.path, name, this.variables);
     const total = validateSelection(this.path, v, start, count);
-    if (!v.numeric) throw new InputError('input-type', this.path, `variable '${name}' is not numeric`, 'choose a numeric variable in the source config');
+    if (!v.numeric)
+      throw new InputError('input-type', this.path, `variable '${name}' is not numeric`, 'choose a numeric variable in the source config');
     if (!this.filtersChecked.has(name)) {
       checkHdf5Filters(this.path, name, (this.file.get(name) as H5Dataset).filters);
       this.filtersChecked.add(name);
@@ -121,7 +144,8 @@ class Hdf5Dataset implements Dataset {
     const scalar = v.shape.length === 0;
     const [from, size] = scalar ? [[], []] : [start, count];
     try {
-      if (this.pool) return await this.pool.read({ path: resolve(this.path), identity: this.identity, name, start: from, count: size, positions });
+      if (this.pool)
+        return await this.pool.read({ path: resolve(this.path), identity: this.identity, name, start: from, count: size, positions });
       checkIdentity(this.path, this.identity);
       return readSlab(this.file, name, from, size, positions);
     } catch (err) {
@@ -137,11 +161,29 @@ class Hdf5Dataset implements Dataset {
       case 'not-numeric':
         return new InputError('input-type', this.path, text, 'choose a numeric variable in the source config', { cause: err });
       case 'changed':
-        return new InputError('input-changed', this.path, `${text} (variable '${name}')`, 'run again once the download has finished; deliver files by writing to a temporary name and renaming', { cause: err });
+        return new InputError(
+          'input-changed',
+          this.path,
+          `${text} (variable '${name}')`,
+          'run again once the download has finished; deliver files by writing to a temporary name and renaming',
+          { cause: err },
+        );
       case 'worker':
-        return new InputError('read-worker', this.path, `reading variable '${name}' failed: ${text}`, 'run again; if it repeats, set FORELIGHT_READ_THREADS=0 to read in the main thread and report the file', { cause: err });
+        return new InputError(
+          'read-worker',
+          this.path,
+          `reading variable '${name}' failed: ${text}`,
+          'run again; if it repeats, set FORELIGHT_READ_THREADS=0 to read in the main thread and report the file',
+          { cause: err },
+        );
       default:
-        return new InputError('input-hdf5', this.path, `HDF5 could not read variable '${name}' (${text})`, 'check the file with `ncdump -h -s`; re-create it with `nccopy -d1` if a filter is missing', { cause: err });
+        return new InputError(
+          'input-hdf5',
+          this.path,
+          `HDF5 could not read variable '${name}' (${text})`,
+          'check the file with `ncdump -h -s`; re-create it with `nccopy -d1` if a filter is missing',
+          { cause: err },
+        );
     }
   }
 
@@ -188,7 +230,13 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
   try {
     h5 = new h5wasm.File(resolve(file), 'r');
   } catch (err) {
-    throw new InputError('input-corrupt', file, `HDF5 could not open the file (${oneLine(err)})`, 're-download it or check it with `ncdump -h`', { cause: err });
+    throw new InputError(
+      'input-corrupt',
+      file,
+      `HDF5 could not open the file (${oneLine(err)})`,
+      're-download it or check it with `ncdump -h`',
+      { cause: err },
+    );
   }
   try {
     const datasets: [string, H5Dataset][] = [];
@@ -231,13 +279,26 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
         return name;
       });
       const type = storageType(ds);
-      variables.push({ name: key, dimensions, shape, type: type ?? 'char', attributes: readAttributes(ds), numeric: type !== undefined && type !== 'char' });
+      variables.push({
+        name: key,
+        dimensions,
+        shape,
+        type: type ?? 'char',
+        attributes: readAttributes(ds),
+        numeric: type !== undefined && type !== 'char',
+      });
     }
     const dimensions = dims.map(({ name, size, unlimited }) => ({ name, size, unlimited }));
     return new Hdf5Dataset(file, h5, dimensions, readAttributes(h5), variables, pool, identity);
   } catch (err) {
     h5.close();
     if (err instanceof InputError) throw err;
-    throw new InputError('input-corrupt', file, `NetCDF-4 metadata could not be read (${oneLine(err)})`, 'check the file with `ncdump -h`', { cause: err });
+    throw new InputError(
+      'input-corrupt',
+      file,
+      `NetCDF-4 metadata could not be read (${oneLine(err)})`,
+      'check the file with `ncdump -h`',
+      { cause: err },
+    );
   }
 }

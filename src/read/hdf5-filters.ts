@@ -12,12 +12,24 @@ export interface Hdf5Filter {
 }
 
 export const SUPPORTED_HDF5_FILTERS: Readonly<Record<number, string>> = {
-  1: 'deflate (zlib)', 2: 'shuffle', 3: 'fletcher32', 4: 'szip', 5: 'nbit', 6: 'scaleoffset',
+  1: 'deflate (zlib)',
+  2: 'shuffle',
+  3: 'fletcher32',
+  4: 'szip',
+  5: 'nbit',
+  6: 'scaleoffset',
 };
 
 const KNOWN_UNSUPPORTED: Readonly<Record<number, string>> = {
-  307: 'bzip2', 32000: 'lzf', 32001: 'blosc', 32004: 'lz4', 32008: 'bitshuffle', 32013: 'zfp',
-  32015: 'zstd', 32017: 'sz', 32026: 'blosc2',
+  307: 'bzip2',
+  32000: 'lzf',
+  32001: 'blosc',
+  32004: 'lz4',
+  32008: 'bitshuffle',
+  32013: 'zfp',
+  32015: 'zstd',
+  32017: 'sz',
+  32026: 'blosc2',
 };
 
 /** Throws InputError naming the first filter of `variable` that this reader cannot decode. */
@@ -26,7 +38,8 @@ export function checkHdf5Filters(file: string, variable: string, filters: readon
     if (SUPPORTED_HDF5_FILTERS[f.id]) continue;
     const label = KNOWN_UNSUPPORTED[f.id] ?? f.name ?? 'unknown';
     throw new InputError(
-      'input-filter', file,
+      'input-filter',
+      file,
       `variable '${variable}' is compressed with HDF5 filter ${f.id} (${label}), which this reader cannot decode`,
       `re-compress the file with \`nccopy -d1 ${file} fixed.nc\` (deflate), or install decoding support for filter ${f.id}`,
     );

@@ -16,7 +16,7 @@ export function packageExportPath(name: string, subpath: string): string {
   if (!pkgPath) throw new Error(`package ${name} is not installed (run npm ci)`);
   const pkg = JSON.parse(readFileSync(pkgPath, 'utf8')) as { exports: Record<string, ExportTarget> };
   const entry = pkg.exports[subpath];
-  const target = typeof entry === 'string' ? entry : entry.import ?? entry.default;
+  const target = typeof entry === 'string' ? entry : (entry.import ?? entry.default);
   const file = typeof target === 'string' ? target : target?.default;
   if (!file) throw new Error(`package ${name} has no import export '${subpath}'`);
   return join(dirname(pkgPath), file);

@@ -6,4 +6,10 @@ export type SlabErrorKind = 'not-numeric' | 'changed';
 /** See hdf5-slab.mjs. */
 export function fileIdentity(path: string): string;
 export function checkIdentity(path: string, expected: string): void;
-export function readSlab(file: H5File, name: string, start: readonly number[], count: readonly number[], positions?: Int32Array): Float64Array;
+export function readSlab(
+  file: H5File,
+  name: string,
+  start: readonly number[],
+  count: readonly number[],
+  positions?: Int32Array,
+): Float64Array;

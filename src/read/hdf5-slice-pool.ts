@@ -29,7 +29,10 @@ export interface SliceRequest {
 export type SliceErrorKind = SlabErrorKind | 'hdf5' | 'worker';
 
 export class SliceError extends Error {
-  constructor(readonly kind: SliceErrorKind, message: string) {
+  constructor(
+    readonly kind: SliceErrorKind,
+    message: string,
+  ) {
     super(message);
   }
 }
@@ -55,7 +58,10 @@ export class Hdf5SlicePool {
   private nextId = 0;
 
   /** @param workerUrl the worker script (tests pass one that fails on purpose) */
-  constructor(readonly size: number, private readonly workerUrl: URL = WORKER_URL) {}
+  constructor(
+    readonly size: number,
+    private readonly workerUrl: URL = WORKER_URL,
+  ) {}
 
   /** The raw values of one hyperslab (or of its `positions`), decompressed on the least busy worker. */
   read(request: SliceRequest): Promise<Float64Array> {
@@ -139,7 +145,12 @@ export function readThreads(env: NodeJS.ProcessEnv = process.env): number {
   if (text === undefined || text === '') return Math.min(2, availableParallelism());
   const n = Number(text);
   if (Number.isInteger(n) && n >= 0) return n;
-  throw new ForelightError('read', 'read-threads', `FORELIGHT_READ_THREADS='${text}' is not a whole number of threads`, 'unset it, or set 0 (read in the main thread) or e.g. 2');
+  throw new ForelightError(
+    'read',
+    'read-threads',
+    `FORELIGHT_READ_THREADS='${text}' is not a whole number of threads`,
+    'unset it, or set 0 (read in the main thread) or e.g. 2',
+  );
 }
 
 /** The process-wide pool, or null when reads stay in the main thread (FORELIGHT_READ_THREADS=0). */

@@ -29,16 +29,31 @@ function sameValues(a: Float64Array, b: Float64Array): boolean {
 }
 
 async function readWholeRaw(ds: Dataset, info: VariableInfo): Promise<Float64Array> {
-  return ds.readRaw(info.name, info.shape.map(() => 0), info.shape);
+  return ds.readRaw(
+    info.name,
+    info.shape.map(() => 0),
+    info.shape,
+  );
 }
 
 /** Throws when `part` differs from `first` in a non-stacked variable's values or a stacked variable's shape. */
 async function checkPart(first: Dataset, part: Dataset, stacked: ReadonlySet<string>, memberDim: string | null): Promise<void> {
   for (const v of first.variables) {
     const other = part.variable(v.name);
-    const differs = (what: string) => new InputError('members-differ', part.path, `${what} of '${v.name}' differs from ${first.path}`,
-      'give every member file the same grid, times and variables (one forecast split by member)');
-    if (!other) throw new InputError('members-differ', part.path, `has no variable '${v.name}', which ${first.path} has`, 'give every member file the same variables');
+    const differs = (what: string) =>
+      new InputError(
+        'members-differ',
+        part.path,
+        `${what} of '${v.name}' differs from ${first.path}`,
+        'give every member file the same grid, times and variables (one forecast split by member)',
+      );
+    if (!other)
+      throw new InputError(
+        'members-differ',
+        part.path,
+        `has no variable '${v.name}', which ${first.path} has`,
+        'give every member file the same variables',
+      );
     const dims = (x: VariableInfo) => x.dimensions.map((d, k) => (d === memberDim ? 'member' : `${d}=${x.shape[k]}`)).join(',');
     if (dims(v) !== dims(other)) throw differs(`the shape (${other.dimensions.join(', ')})`);
     if (stacked.has(v.name) || (memberDim !== null && v.dimensions.includes(memberDim))) continue;
@@ -48,7 +63,10 @@ async function checkPart(first: Dataset, part: Dataset, stacked: ReadonlySet<str
 
 /** Splits a hyperslab along the member axis over the parts and reassembles it in C order. */
 async function readAcross(
-  parts: readonly Part[], axis: number, start: readonly number[], count: readonly number[],
+  parts: readonly Part[],
+  axis: number,
+  start: readonly number[],
+  count: readonly number[],
   read: (p: Part, start: number[], count: number[]) => Promise<Float64Array>,
 ): Promise<Float64Array> {
   const outer = count.slice(0, axis).reduce((a, b) => a * b, 1);
@@ -78,7 +96,9 @@ export async function stackMembers(path: string, parts: readonly Dataset[]): Pro
   const coords = await findCoordinates(first);
   const memberDim = coords.member?.dimension ?? null;
   const gridded = (v: VariableInfo) => v.dimensions.includes(coords.grid.latName) && v.dimensions.includes(coords.grid.lonName);
-  const stacked = new Set(first.variables.filter((v) => (memberDim !== null ? v.dimensions.includes(memberDim) : gridded(v))).map((v) => v.name));
+  const stacked = new Set(
+    first.variables.filter((v) => (memberDim !== null ? v.dimensions.includes(memberDim) : gridded(v))).map((v) => v.name),
+  );
   for (const part of parts.slice(1)) await checkPart(first, part, stacked, memberDim);
   let next = 0;
   const laid: Part[] = parts.map((ds) => {
@@ -89,9 +109,10 @@ export async function stackMembers(path: string, parts: readonly Dataset[]): Pro
   });
   const total = next;
   const dimName = memberDim ?? ADDED_MEMBER_DIMENSION;
-  const dimensions: DimensionInfo[] = memberDim !== null
-    ? first.dimensions.map((d) => (d.name === memberDim ? { ...d, size: total } : d))
-    : [{ name: dimName, size: total, unlimited: false }, ...first.dimensions];
+  const dimensions: DimensionInfo[] =
+    memberDim !== null
+      ? first.dimensions.map((d) => (d.name === memberDim ? { ...d, size: total } : d))
+      : [{ name: dimName, size: total, unlimited: false }, ...first.dimensions];
   const variables: VariableInfo[] = first.variables.map((v) => {
     if (!stacked.has(v.name)) return v;
     if (memberDim !== null) return { ...v, shape: v.shape.map((n, k) => (v.dimensions[k] === memberDim ? total : n)) };
@@ -120,22 +141,24 @@ export async function stackMembers(path: string, parts: readonly Dataset[]): Pro
     variable: (name) => byName.get(name),
     readAhead: first.readAhead,
     readRaw,
-    ...(parts.every((p) => p.readRawAt) ? {
-      async readRawAt(name: string, start: readonly number[], count: readonly number[], positions: Int32Array) {
-        const v = infoOf(name);
-        if (!stacked.has(name)) return first.readRawAt!(name, start, count, positions);
-        const axis = memberAxisOf(v);
-        if (count[axis] !== 1) {
-          const slab = await readRaw(name, start, count);
-          return Float64Array.from(positions, (q) => slab[q]);
+    ...(parts.every((p) => p.readRawAt)
+      ? {
+          async readRawAt(name: string, start: readonly number[], count: readonly number[], positions: Int32Array) {
+            const v = infoOf(name);
+            if (!stacked.has(name)) return first.readRawAt!(name, start, count, positions);
+            const axis = memberAxisOf(v);
+            if (count[axis] !== 1) {
+              const slab = await readRaw(name, start, count);
+              return Float64Array.from(positions, (q) => slab[q]);
+            }
+            // One member: flat positions are the same with or without that size-1 axis.
+            const p = laid.find((q) => start[axis] >= q.first && start[axis] < q.first + q.members) as Part;
+            const s = [...start];
+            s[axis] -= p.first;
+            return p.ds.readRawAt!(name, strip(s), strip(count), positions);
+          },
         }
-        // One member: flat positions are the same with or without that size-1 axis.
-        const p = laid.find((q) => start[axis] >= q.first && start[axis] < q.first + q.members) as Part;
-        const s = [...start];
-        s[axis] -= p.first;
-        return p.ds.readRawAt!(name, strip(s), strip(count), positions);
-      },
-    } : {}),
+      : {}),
     async close() {
       for (const p of parts) await p.close();
     },

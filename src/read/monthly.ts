@@ -41,15 +41,26 @@ function fromIndex(i: number): { year: number; month: number } {
 }
 
 /** The model months of the steps, or null when the steps are not months (rules in the module comment). */
-export function detectMonths(stamps: readonly CfDateTime[], bounds: readonly CfDateTime[] | null, referenceMs: number | null, stampsMs: Float64Array): MonthSteps | null {
+export function detectMonths(
+  stamps: readonly CfDateTime[],
+  bounds: readonly CfDateTime[] | null,
+  referenceMs: number | null,
+  stampsMs: Float64Array,
+): MonthSteps | null {
   if (stamps.length === 0) return null;
   let indices: number[];
   if (bounds) {
     indices = stamps.map((_s, i) => monthIndex(bounds[2 * i]));
-    const whole = stamps.every((_s, i) => atMonthStart(bounds[2 * i]) && atMonthStart(bounds[2 * i + 1]) && monthIndex(bounds[2 * i + 1]) === indices[i] + 1);
+    const whole = stamps.every(
+      (_s, i) => atMonthStart(bounds[2 * i]) && atMonthStart(bounds[2 * i + 1]) && monthIndex(bounds[2 * i + 1]) === indices[i] + 1,
+    );
     if (!whole) return null;
   } else {
-    if (stamps.length < 2 || stampsMs.some((ms, i) => i > 0 && (ms - stampsMs[i - 1] < MIN_MONTH_MS || ms - stampsMs[i - 1] > MAX_MONTH_MS))) return null;
+    if (
+      stamps.length < 2 ||
+      stampsMs.some((ms, i) => i > 0 && (ms - stampsMs[i - 1] < MIN_MONTH_MS || ms - stampsMs[i - 1] > MAX_MONTH_MS))
+    )
+      return null;
     const endStamped = stamps.every(atMonthStart) && referenceMs !== null && stampsMs[0] > referenceMs;
     indices = stamps.map((s) => monthIndex(s) - (endStamped ? 1 : 0));
     if (indices.some((m, i) => i > 0 && m !== indices[i - 1] + 1)) return null;
@@ -72,13 +83,24 @@ function dayFactor(kind: TemporalKind, modelDays: number, realDays: number): num
  * Spreads member-major `[member][month]` values onto the real days of consecutive months.
  * @throws InputError when the months are not consecutive (a gap would make lead months wrong).
  */
-export function spreadMonthsToDays(file: string, variable: string, months: MonthSteps, kind: TemporalKind, data: Float64Array): { days: string[]; data: Float64Array } {
+export function spreadMonthsToDays(
+  file: string,
+  variable: string,
+  months: MonthSteps,
+  kind: TemporalKind,
+  data: Float64Array,
+): { days: string[]; data: Float64Array } {
   const n = months.months.length;
   for (let i = 1; i < n; i++) {
     const [y0, m0] = months.months[i - 1].split('-').map(Number);
     const [y1, m1] = months.months[i].split('-').map(Number);
     if (y1 * 12 + m1 !== y0 * 12 + m0 + 1) {
-      throw new InputError('months-gap', file, `variable '${variable}' jumps from ${months.months[i - 1]} to ${months.months[i]}`, 'provide consecutive monthly values (one per month)');
+      throw new InputError(
+        'months-gap',
+        file,
+        `variable '${variable}' jumps from ${months.months[i - 1]} to ${months.months[i]}`,
+        'provide consecutive monthly values (one per month)',
+      );
     }
   }
   const days = months.months.flatMap(datesOfMonth);
@@ -100,12 +122,22 @@ export function spreadMonthsToDays(file: string, variable: string, months: Month
 /** A file of monthly values feeds month-tier indicators only (its days would all repeat the month's value). */
 export function requireMonthTier(file: string, variable: string, tier: Tier | undefined): void {
   if (tier === undefined || tier === 'months') return;
-  throw new InputError('monthly-values', file, `variable '${variable}' holds one value per month, which cannot feed the '${tier}' tier`,
-    "set 'tier: months' for this source in sources[] (month-tier indicators read it directly)");
+  throw new InputError(
+    'monthly-values',
+    file,
+    `variable '${variable}' holds one value per month, which cannot feed the '${tier}' tier`,
+    "set 'tier: months' for this source in sources[] (month-tier indicators read it directly)",
+  );
 }
 
 /** `spreadMonthsToDays` for the region means of one variable (labels become the real days). */
-export function spreadMeansToDays(file: string, variable: string, months: MonthSteps, kind: TemporalKind, means: readonly { labels: readonly string[]; data: Float64Array }[]): { labels: string[]; data: Float64Array }[] {
+export function spreadMeansToDays(
+  file: string,
+  variable: string,
+  months: MonthSteps,
+  kind: TemporalKind,
+  means: readonly { labels: readonly string[]; data: Float64Array }[],
+): { labels: string[]; data: Float64Array }[] {
   return means.map((mean) => {
     const spread = spreadMonthsToDays(file, variable, months, kind, mean.data);
     return { labels: spread.days, data: spread.data };
@@ -114,7 +146,11 @@ export function spreadMeansToDays(file: string, variable: string, months: MonthS
 
 /** The run.json note for a monthly variable. */
 export function monthlyNote(variable: string, months: MonthSteps, kind: TemporalKind): string {
-  const how = kind === 'rate' ? 'its monthly total is the mean rate times the model month length'
-    : kind === 'state' ? 'the monthly value holds for each day' : 'the monthly total is shared among the real days';
+  const how =
+    kind === 'rate'
+      ? 'its monthly total is the mean rate times the model month length'
+      : kind === 'state'
+        ? 'the monthly value holds for each day'
+        : 'the monthly total is shared among the real days';
   return `'${variable}' holds one value per month (${months.months[0]} to ${months.months[months.months.length - 1]}); each model month is the real month of that name and ${how}`;
 }

@@ -15,7 +15,9 @@ const HDF5_SIGNATURE = Buffer.from([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x
 
 function describeMagic(bytes: Buffer): string {
   if (bytes.length === 0) return 'the file is empty';
-  const text = [...bytes.subarray(0, 4)].map((b) => (b >= 0x20 && b < 0x7f ? String.fromCharCode(b) : `\\x${b.toString(16).padStart(2, '0')}`)).join('');
+  const text = [...bytes.subarray(0, 4)]
+    .map((b) => (b >= 0x20 && b < 0x7f ? String.fromCharCode(b) : `\\x${b.toString(16).padStart(2, '0')}`))
+    .join('');
   return `starts with "${text}"`;
 }
 
@@ -45,7 +47,8 @@ async function openGrib(path: string): Promise<Dataset> {
   const parts: Dataset[] = [];
   try {
     for (const nc of await gribAsNetcdf(path)) parts.push(await openNetcdf(nc));
-    if (parts.length === 0) throw new InputError('grib-empty', path, 'holds no GRIB message', 'check that the download is complete (grib_ls lists the messages)');
+    if (parts.length === 0)
+      throw new InputError('grib-empty', path, 'holds no GRIB message', 'check that the download is complete (grib_ls lists the messages)');
     return withGribReference(await stackMembers(path, parts));
   } catch (err) {
     for (const p of parts) await p.close().catch(() => undefined);
@@ -58,12 +61,24 @@ async function openNetcdf(path: string): Promise<Dataset> {
   try {
     handle = await open(path, 'r');
   } catch (err) {
-    throw new InputError('input-missing', path, `cannot open the file (${(err as NodeJS.ErrnoException).code ?? String(err)})`, 'check the path (sources[].forecast in the config, or the command line) and that the download finished', { cause: err });
+    throw new InputError(
+      'input-missing',
+      path,
+      `cannot open the file (${(err as NodeJS.ErrnoException).code ?? String(err)})`,
+      'check the path (sources[].forecast in the config, or the command line) and that the download finished',
+      { cause: err },
+    );
   }
   let owned = false;
   try {
     const stats = await handle.stat();
-    if (stats.isDirectory()) throw new InputError('input-folder', path, 'is a folder, not a NetCDF file', 'point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake');
+    if (stats.isDirectory())
+      throw new InputError(
+        'input-folder',
+        path,
+        'is a folder, not a NetCDF file',
+        'point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake',
+      );
     const { size } = stats;
     const magic = Buffer.alloc(64);
     const { bytesRead } = await handle.read(magic, 0, 64, 0);
@@ -73,7 +88,12 @@ async function openNetcdf(path: string): Promise<Dataset> {
       return await openClassicDataset(path, handle, size);
     }
     if (bytesRead >= 8 && head.subarray(0, 8).equals(HDF5_SIGNATURE)) return await openHdf5Dataset(path, head, size);
-    throw new InputError('input-format', path, `not a NetCDF file (${describeMagic(head)}; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature)`, 'check the source path, or convert the file with `cdo -f nc4 copy in out.nc`');
+    throw new InputError(
+      'input-format',
+      path,
+      `not a NetCDF file (${describeMagic(head)}; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature)`,
+      'check the source path, or convert the file with `cdo -f nc4 copy in out.nc`',
+    );
   } catch (err) {
     if (owned) await handle.close().catch(() => undefined);
     throw err;

@@ -28,7 +28,9 @@ const memo = new Map<string, Map<string, RegionCells>>();
 function regionSetHash(regions: readonly RegionConfig[]): string {
   let h = setHashes.get(regions);
   if (!h) {
-    h = createHash('sha256').update(JSON.stringify(regions.map((r) => [r.id, r.cellRule ?? 'overlap', r.shape]))).digest('hex');
+    h = createHash('sha256')
+      .update(JSON.stringify(regions.map((r) => [r.id, r.cellRule ?? 'overlap', r.shape])))
+      .digest('hex');
     setHashes.set(regions, h);
   }
   return h;
@@ -47,7 +49,12 @@ function readStored(path: string): Map<string, RegionCells> | null {
   try {
     const doc = JSON.parse(readFileSync(path, 'utf8')) as { format: number; regions: Stored };
     if (doc.format !== FORMAT) return null;
-    return new Map(Object.entries(doc.regions).map(([region, c]) => [region, { region, latIndex: Int32Array.from(c.lat), lonIndex: Int32Array.from(c.lon), weights: Float64Array.from(c.w) }]));
+    return new Map(
+      Object.entries(doc.regions).map(([region, c]) => [
+        region,
+        { region, latIndex: Int32Array.from(c.lat), lonIndex: Int32Array.from(c.lon), weights: Float64Array.from(c.w) },
+      ]),
+    );
   } catch {
     return null; // absent or damaged: computed again and rewritten
   }

@@ -56,7 +56,9 @@ export function planBand(regions: readonly RegionCells[], gridLat: number, gridL
   if (latMax < 0) return { band: { lat0: 0, nLat: 0, lon0: 0, nLon: 0, gridLon, used: new Int32Array(0) }, regions: [] };
   const { lon0, nLon } = columnArc(usedCols);
   const nLat = latMax - latMin + 1;
-  const flat = regions.map((r) => Int32Array.from(r.latIndex, (y, k) => (y - latMin) * nLon + ((r.lonIndex[k] - lon0 + gridLon) % gridLon)));
+  const flat = regions.map((r) =>
+    Int32Array.from(r.latIndex, (y, k) => (y - latMin) * nLon + ((r.lonIndex[k] - lon0 + gridLon) % gridLon)),
+  );
   const compact = new Int32Array(nLat * nLon).fill(-1);
   for (const cells of flat) for (const c of cells) compact[c] = 0;
   const used: number[] = [];
@@ -67,5 +69,8 @@ export function planBand(regions: readonly RegionCells[], gridLat: number, gridL
     }
   });
   const band: GridBand = { lat0: latMin, nLat, lon0, nLon, gridLon, used: Int32Array.from(used) };
-  return { band, regions: flat.map((cells, k) => ({ region: regions[k].region, cells: cells.map((c) => compact[c]), weights: regions[k].weights })) };
+  return {
+    band,
+    regions: flat.map((cells, k) => ({ region: regions[k].region, cells: cells.map((c) => compact[c]), weights: regions[k].weights })),
+  };
 }

@@ -55,7 +55,8 @@ export function cellAreaFactors(grid: LatLonGrid): { readonly latFactor: Float64
   const { lat: latB, lon: lonB } = cellBounds(grid);
   const clamp = (x: number): number => Math.max(-90, Math.min(90, x));
   const latFactor = new Float64Array(grid.lat.length);
-  for (let i = 0; i < latFactor.length; i++) latFactor[i] = Math.abs(Math.sin(clamp(latB[2 * i + 1]) * DEG) - Math.sin(clamp(latB[2 * i]) * DEG));
+  for (let i = 0; i < latFactor.length; i++)
+    latFactor[i] = Math.abs(Math.sin(clamp(latB[2 * i + 1]) * DEG) - Math.sin(clamp(latB[2 * i]) * DEG));
   const lonWidth = new Float64Array(grid.lon.length);
   for (let i = 0; i < lonWidth.length; i++) {
     const w = Math.abs(lonB[2 * i + 1] - lonB[2 * i]) % 360;
@@ -80,8 +81,12 @@ function onSegment(x: number, y: number, x1: number, y1: number, x2: number, y2:
   const cross = (x2 - x1) * (y - y1) - (y2 - y1) * (x - x1);
   const len = Math.hypot(x2 - x1, y2 - y1);
   if (Math.abs(cross) > EDGE_EPS_DEG * Math.max(len, 1)) return false;
-  return x >= Math.min(x1, x2) - EDGE_EPS_DEG && x <= Math.max(x1, x2) + EDGE_EPS_DEG &&
-    y >= Math.min(y1, y2) - EDGE_EPS_DEG && y <= Math.max(y1, y2) + EDGE_EPS_DEG;
+  return (
+    x >= Math.min(x1, x2) - EDGE_EPS_DEG &&
+    x <= Math.max(x1, x2) + EDGE_EPS_DEG &&
+    y >= Math.min(y1, y2) - EDGE_EPS_DEG &&
+    y <= Math.max(y1, y2) + EDGE_EPS_DEG
+  );
 }
 
 /** Even-odd ray casting; points on an edge or vertex count as inside. `ring` is [lon, lat] pairs. */
@@ -91,7 +96,7 @@ export function pointInRing(lon: number, lat: number, ring: Ring): boolean {
     const [xi, yi] = ring[i];
     const [xj, yj] = ring[j];
     if (onSegment(lon, lat, xj, yj, xi, yi)) return true;
-    if ((yi > lat) !== (yj > lat) && lon < ((xj - xi) * (lat - yi)) / (yj - yi) + xi) inside = !inside;
+    if (yi > lat !== yj > lat && lon < ((xj - xi) * (lat - yi)) / (yj - yi) + xi) inside = !inside;
   }
   return inside;
 }
@@ -123,11 +128,12 @@ function shapeTest(shape: RegionShape): (lat: number, lon: number) => boolean {
   }
   // Even-odd over all rings of a polygon: inside the outer ring and outside its holes.
   const polygons = shapePolygons(shape);
-  return (lat, lon) => polygons.some((p) => {
-    if (lat < p.south - EDGE_EPS_DEG || lat > p.north + EDGE_EPS_DEG) return false;
-    const x = lon + 360 * Math.round(((p.west + p.east) / 2 - lon) / 360);
-    return p.rings.reduce((inside, ring) => inside !== pointInRing(x, lat, ring), false);
-  });
+  return (lat, lon) =>
+    polygons.some((p) => {
+      if (lat < p.south - EDGE_EPS_DEG || lat > p.north + EDGE_EPS_DEG) return false;
+      const x = lon + 360 * Math.round(((p.west + p.east) / 2 - lon) / 360);
+      return p.rings.reduce((inside, ring) => inside !== pointInRing(x, lat, ring), false);
+    });
 }
 
 function centreCells(grid: LatLonGrid, shape: RegionShape): { latIdx: number[]; lonIdx: number[]; weights: number[] } {
@@ -161,9 +167,14 @@ export function selectRegionCells(grid: LatLonGrid, region: RegionConfig, file: 
   const rule = region.cellRule ?? 'overlap';
   const { latIdx, lonIdx, weights } = rule === 'centre' ? centreCells(grid, region.shape) : overlapCells(grid, region.shape);
   if (latIdx.length === 0) {
-    throw new InputError('region-empty', file,
+    throw new InputError(
+      'region-empty',
+      file,
       `region '${region.id}' (${describeShape(region.shape)}) has no grid cell in ${file} (grid lat ${range(grid.lat)}, lon ${range(grid.lon)})`,
-      rule === 'centre' ? 'check the region shape or the source, or use cell-rule: overlap (a region smaller than a cell may hold no centre)' : 'check the region shape (longitude east, latitude north) or the source');
+      rule === 'centre'
+        ? 'check the region shape or the source, or use cell-rule: overlap (a region smaller than a cell may hold no centre)'
+        : 'check the region shape (longitude east, latitude north) or the source',
+    );
   }
   return { region: region.id, latIndex: Int32Array.from(latIdx), lonIndex: Int32Array.from(lonIdx), weights: Float64Array.from(weights) };
 }

@@ -136,8 +136,14 @@ export function normaliseUnits(units: string): string {
 export function missingUnitsError(file: string, variable: string, quantity: Quantity | null): UnitError {
   const example = `e.g. ncatted -a units,${variable},o,c,<units> ${file}`;
   return quantity === null
-    ? new UnitError(`${file}: variable '${variable}' has no units attribute`, `set it to its units (${example}); without units its values cannot be read`)
-    : new UnitError(`${file}: variable '${variable}' (${quantity}) has no units attribute`, `set it to one of ${SUGGESTED[quantity]} (${example}) or map ${quantity} to another variable`);
+    ? new UnitError(
+        `${file}: variable '${variable}' has no units attribute`,
+        `set it to its units (${example}); without units its values cannot be read`,
+      )
+    : new UnitError(
+        `${file}: variable '${variable}' (${quantity}) has no units attribute`,
+        `set it to one of ${SUGGESTED[quantity]} (${example}) or map ${quantity} to another variable`,
+      );
 }
 
 /**

@@ -39,7 +39,12 @@ export interface ArchiveEntry {
   readonly bodyHtml: string;
   readonly charts: readonly { readonly filename: string; readonly svg: string }[];
   /** CAP alerts with the region and hazard they concern (names absent in older entries). */
-  readonly capAlerts: readonly { readonly filename: string; readonly xml: string; readonly regionName?: string; readonly hazard?: string }[];
+  readonly capAlerts: readonly {
+    readonly filename: string;
+    readonly xml: string;
+    readonly regionName?: string;
+    readonly hazard?: string;
+  }[];
   /** Printable PDFs per team, base64 (absent when Chromium was not available). */
   readonly pdfs?: readonly { readonly filename: string; readonly team: string; readonly base64: string }[];
   /** The stage ladder in the entry's locale, lowest first (absent in older entries). */
@@ -78,14 +83,25 @@ export function writeArchive(dir: string, entries: readonly ArchiveEntry[], opti
   const regionIds = [...new Map(runs.flatMap((r) => r.regions.map((g) => [g.id, g.name] as const))).entries()];
   const t = env.t(locale);
   const byRegion = regionIds.map(([id, name]) => ({
-    id, name, file: `${toToken(id)}.html`,
+    id,
+    name,
+    file: `${toToken(id)}.html`,
     items: runs.flatMap((r) => r.regions.filter((g) => g.id === id).map((g) => ({ folder: r.folder, date: r.date, stage: g }))),
   }));
   for (const g of byRegion) {
     const oldestFirst = [...g.items].reverse();
     const ladder = runs[0]?.ladder ?? ladderOf(runs.flatMap((r) => r.regions));
-    const points = oldestFirst.map((i) => ({ date: i.date, rank: i.stage.rank, glyph: i.stage.glyph, colour: i.stage.colour, ink: i.stage.ink }));
-    const alt = t('archive.timelineAlt', { region: g.name, points: oldestFirst.map((i) => `${i.date}: ${i.stage.glyph} ${i.stage.label}`).join(', ') });
+    const points = oldestFirst.map((i) => ({
+      date: i.date,
+      rank: i.stage.rank,
+      glyph: i.stage.glyph,
+      colour: i.stage.colour,
+      ink: i.stage.ink,
+    }));
+    const alt = t('archive.timelineAlt', {
+      region: g.name,
+      points: oldestFirst.map((i) => `${i.date}: ${i.stage.glyph} ${i.stage.label}`).join(', '),
+    });
     put(`regions/${g.file.replace(/\.html$/, '.svg')}`, renderTimelineSvg(points, ladder, alt));
     put(`regions/${g.file}`, env.render('archive-region.html.njk', locale, { region: g, timelineAlt: alt, timelineWidth: TIMELINE_WIDTH }));
   }

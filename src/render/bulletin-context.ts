@@ -10,16 +10,32 @@ import { TIERS, type StageView } from './view-model.ts';
 import type { Translate } from './catalogue.ts';
 import { applyTypography } from './typography.ts';
 
-export interface ChartRef { readonly src: string; readonly alt: string; readonly title: string; readonly width: number }
+export interface ChartRef {
+  readonly src: string;
+  readonly alt: string;
+  readonly title: string;
+  readonly width: number;
+}
 
 /** One row of the national region × range table: the region's stage and, per range, its highest tier stage. */
-export interface NationalRow { readonly id: string; readonly name: string; readonly stage: StageView; readonly cells: readonly (OutlookCell | null)[] }
+export interface NationalRow {
+  readonly id: string;
+  readonly name: string;
+  readonly stage: StageView;
+  readonly cells: readonly (OutlookCell | null)[];
+}
 
 export function nationalRows(regions: readonly RegionView[]): NationalRow[] {
   return regions.map((r) => ({
-    id: r.id, name: r.name, stage: r.stage,
-    cells: TIERS.map((_, i) => r.outlook.map((row) => row.cells[i]).filter((c): c is OutlookCell => c !== null)
-      .reduce<OutlookCell | null>((a, c) => (a === null || c.stage.rank > a.stage.rank ? c : a), null)),
+    id: r.id,
+    name: r.name,
+    stage: r.stage,
+    cells: TIERS.map((_, i) =>
+      r.outlook
+        .map((row) => row.cells[i])
+        .filter((c): c is OutlookCell => c !== null)
+        .reduce<OutlookCell | null>((a, c) => (a === null || c.stage.rank > a.stage.rank ? c : a), null),
+    ),
   }));
 }
 
@@ -34,8 +50,15 @@ export function countryName(config: RenderConfig, locale: string): string {
 }
 
 /** Template variables for one audience (`team` null for the archive) in one locale. */
-export function bulletinContext(config: RenderConfig, run: BulletinRun, t: Translate, locale: string, team: TeamConfig | null, regions: readonly RegionView[],
-  extra: { issuedDay: string; cautions: readonly string[]; charts: (r: RegionView, indicator: string) => ChartRef | null }) {
+export function bulletinContext(
+  config: RenderConfig,
+  run: BulletinRun,
+  t: Translate,
+  locale: string,
+  team: TeamConfig | null,
+  regions: readonly RegionView[],
+  extra: { issuedDay: string; cautions: readonly string[]; charts: (r: RegionView, indicator: string) => ChartRef | null },
+) {
   const top = topStage(regions);
   return {
     country: countryName(config, locale),
@@ -46,7 +69,11 @@ export function bulletinContext(config: RenderConfig, run: BulletinRun, t: Trans
     nextIssue: formatDay(locale, run.nextIssue),
     cautions: extra.cautions,
     ladderText: config.stages.map((s) => `${s.glyph} ${applyTypography(locale, s.label[locale] ?? s.id)}`).join(', '),
-    forecasts: run.forecastDates.map((f) => ({ tier: f.tier, date: formatDay(locale, f.referenceTime.slice(0, 10)), older: f.basedOnOlder ? 'yes' : 'no' })),
+    forecasts: run.forecastDates.map((f) => ({
+      tier: f.tier,
+      date: formatDay(locale, f.referenceTime.slice(0, 10)),
+      older: f.basedOnOlder ? 'yes' : 'no',
+    })),
     regions: regions.map((r) => ({ ...r, indicators: r.indicators.map((ind) => ({ ...ind, chart: extra.charts(r, ind.id) })) })),
     highest: top.stage,
     topRegions: top.names.join(t('list.separator')),

@@ -73,7 +73,13 @@ export function capSender(config: RenderConfig): string {
   return (m ? m[1] : config.delivery.from).replace(/[^A-Za-z0-9._@-]/g, '');
 }
 
-interface IndicatorStage { id: string; name: string; rank: number; stageId: string; tier: TierOutcome }
+interface IndicatorStage {
+  id: string;
+  name: string;
+  rank: number;
+  stageId: string;
+  tier: TierOutcome;
+}
 
 /**
  * Highest stage per indicator of a region; ties go to the shortest tier (listed first in perTier order). Tiers with
@@ -86,7 +92,8 @@ function indicatorStages(config: RenderConfig, outcome: RegionOutcome): Indicato
     if (t.decision.stageId === NO_FORECAST_ID) continue;
     const rank = rankOf(t.decision.stageId).rank;
     const seen = best.get(t.indicator.id);
-    if (!seen || rank > seen.rank) best.set(t.indicator.id, { id: t.indicator.id, name: t.indicator.name, rank, stageId: t.decision.stageId, tier: t });
+    if (!seen || rank > seen.rank)
+      best.set(t.indicator.id, { id: t.indicator.id, name: t.indicator.name, rank, stageId: t.decision.stageId, tier: t });
   }
   return [...best.values()];
 }
@@ -101,10 +108,19 @@ function el(name: string, value: string | number): string {
   return `<${name}>${escapeXml(toXmlChars(String(value)))}</${name}>`;
 }
 
-function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome, ind: IndicatorStage, view: RegionView, locale: string): string {
+function infoXml(
+  config: RenderConfig,
+  env: TemplateEnv,
+  outcome: RegionOutcome,
+  ind: IndicatorStage,
+  view: RegionView,
+  locale: string,
+): string {
   const stage = config.stages[ind.rank];
   const decision = ind.tier.decision;
-  const lead = decision.lead ?? ind.tier.probabilities.reduce<LeadProbability | null>((a, p) => (a === null || p.probability > a.probability ? p : a), null);
+  const lead =
+    decision.lead ??
+    ind.tier.probabilities.reduce<LeadProbability | null>((a, p) => (a === null || p.probability > a.probability ? p : a), null);
   const tierView = view.tiers.find((t) => t.tier === ind.tier.tier && t.indicatorId === ind.id) ?? view.tiers[0];
   const stageView = tierView.stage;
   const leadView = tierView.leads.find((l) => lead !== null && l.index === lead.lead.index) ?? null;
@@ -112,9 +128,13 @@ function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome,
   const hazard = tierView.hazard;
   const p = lead?.probability ?? 0;
   const parts = [
-    el('language', locale), el('category', 'Health'), el('category', 'Met'),
+    el('language', locale),
+    el('category', 'Health'),
+    el('category', 'Met'),
     el('event', t('cap.event', { hazard })),
-    el('urgency', stage.cap.urgency), el('severity', stage.cap.severity), el('certainty', capCertainty(p)),
+    el('urgency', stage.cap.urgency),
+    el('severity', stage.cap.severity),
+    el('certainty', capCertainty(p)),
     el('audience', t('cap.audience')),
   ];
   if (lead) {
@@ -123,13 +143,37 @@ function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome,
   }
   parts.push(
     el('senderName', t('cap.senderName', { country: countryName(config, locale) })),
-    el('headline', t('cap.headline', { region: outcome.region.name, glyph: stageView.glyph, label: stageView.label, hazard, dates: leadView?.dates ?? 'none' })),
-    el('description', leadView
-      ? t('cap.description', { meaning: stageView.meaning, hazard, threshold: tierView.threshold, dates: leadView.dates, chance: leadView.chance, word: leadView.word, normal: leadView.normal, sure: sureSentence(t, leadView) })
-      : stageView.meaning),
+    el(
+      'headline',
+      t('cap.headline', {
+        region: outcome.region.name,
+        glyph: stageView.glyph,
+        label: stageView.label,
+        hazard,
+        dates: leadView?.dates ?? 'none',
+      }),
+    ),
+    el(
+      'description',
+      leadView
+        ? t('cap.description', {
+            meaning: stageView.meaning,
+            hazard,
+            threshold: tierView.threshold,
+            dates: leadView.dates,
+            chance: leadView.chance,
+            word: leadView.word,
+            normal: leadView.normal,
+            sure: sureSentence(t, leadView),
+          })
+        : stageView.meaning,
+    ),
     el('instruction', stageView.actions),
   );
-  const params: [string, string][] = [['forelight:stage', stage.id], ['forelight:tier', ind.tier.tier]];
+  const params: [string, string][] = [
+    ['forelight:stage', stage.id],
+    ['forelight:tier', ind.tier.tier],
+  ];
   if (lead) {
     params.push(['forelight:lead', `${lead.lead.tier} ${lead.lead.index} (${lead.lead.start}/${lead.lead.end})`]);
     params.push(['forelight:exceedanceProbability', lead.probability.toFixed(2)]);
@@ -137,12 +181,19 @@ function infoXml(config: RenderConfig, env: TemplateEnv, outcome: RegionOutcome,
     params.push(['forelight:threshold', `${lead.operator} ${lead.threshold.value} ${lead.threshold.units}`]);
     if (lead.skill) {
       const g = lead.skill.gate;
-      params.push(['forelight:fairBrierSkillScore', `${g.fairBrierSkillScore.toFixed(2)} (90 % interval ${g.low.toFixed(2)} to ${g.high.toFixed(2)}, ${g.leads}, ${g.events} events in ${g.years} years)`]);
+      params.push([
+        'forelight:fairBrierSkillScore',
+        `${g.fairBrierSkillScore.toFixed(2)} (90 % interval ${g.low.toFixed(2)} to ${g.high.toFixed(2)}, ${g.leads}, ${g.events} events in ${g.years} years)`,
+      ]);
       params.push(['forelight:skillShown', lead.skill.skilful ? 'yes' : 'no']);
     }
   }
   for (const [k, v] of params) parts.push(`<parameter>${el('valueName', k)}${el('value', v)}</parameter>`);
-  parts.push(`<area>${el('areaDesc', outcome.region.name)}${capPolygons(outcome.region).map((p) => el('polygon', p)).join('')}</area>`);
+  parts.push(
+    `<area>${el('areaDesc', outcome.region.name)}${capPolygons(outcome.region)
+      .map((p) => el('polygon', p))
+      .join('')}</area>`,
+  );
   return `<info>${parts.join('')}</info>`;
 }
 
@@ -163,9 +214,13 @@ export function buildCapAlerts(config: RenderConfig, env: TemplateEnv, run: Bull
       const msgType = !active ? 'Cancel' : priorActive ? 'Update' : 'Alert';
       const identifier = `forelight.${toToken(run.runId)}.${toToken(outcome.region.id)}.${toToken(ind.id)}`;
       const head = [
-        el('identifier', identifier), el('sender', sender), el('sent', sent),
-        el('status', run.mode === 'exercise' ? 'Exercise' : 'Actual'), el('msgType', msgType),
-        el('source', 'Forelight'), el('scope', 'Restricted'),
+        el('identifier', identifier),
+        el('sender', sender),
+        el('sent', sent),
+        el('status', run.mode === 'exercise' ? 'Exercise' : 'Actual'),
+        el('msgType', msgType),
+        el('source', 'Forelight'),
+        el('scope', 'Restricted'),
         el('restriction', env.t(locales[0])('cap.restriction')),
       ];
       if (run.mode === 'exercise') head.push(el('note', env.t(locales[0])('cap.exerciseNote')));

@@ -37,7 +37,12 @@ export function readMessages(file: string): Map<string, string> {
   const doc = parseDocument(readFileSync(file, 'utf8'), { prettyErrors: false });
   if (doc.errors.length > 0) {
     const e = doc.errors[0];
-    throw new ForelightError('render', 'catalogue', `${file}:${e.linePos?.[0].line ?? 0}:${e.linePos?.[0].col ?? 0}: ${e.message.split('\n')[0]}`, 'fix the YAML of the message catalogue');
+    throw new ForelightError(
+      'render',
+      'catalogue',
+      `${file}:${e.linePos?.[0].line ?? 0}:${e.linePos?.[0].col ?? 0}: ${e.message.split('\n')[0]}`,
+      'fix the YAML of the message catalogue',
+    );
   }
   const raw = doc.toJS() as unknown;
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) {
@@ -57,9 +62,17 @@ export function loadCatalogue(overrideDir = ''): Catalogue {
   const load = (locale: string) => {
     const hit = cache.get(locale);
     if (hit) return hit;
-    const files = [join(SHIPPED_MESSAGES, `${locale}.yaml`), ...(overrideDir ? [join(overrideDir, 'messages', `${locale}.yaml`)] : [])].filter((f) => existsSync(f));
+    const files = [
+      join(SHIPPED_MESSAGES, `${locale}.yaml`),
+      ...(overrideDir ? [join(overrideDir, 'messages', `${locale}.yaml`)] : []),
+    ].filter((f) => existsSync(f));
     if (files.length === 0) {
-      throw new ForelightError('render', 'no-catalogue', `no message catalogue for locale "${locale}" (looked for messages/${locale}.yaml)`, `copy templates/messages/en.yaml to messages/${locale}.yaml in the templates folder and translate every message`);
+      throw new ForelightError(
+        'render',
+        'no-catalogue',
+        `no message catalogue for locale "${locale}" (looked for messages/${locale}.yaml)`,
+        `copy templates/messages/en.yaml to messages/${locale}.yaml in the templates folder and translate every message`,
+      );
     }
     const messages = new Map<string, string>();
     for (const f of files) for (const [k, v] of readMessages(f)) messages.set(k, v);
@@ -70,12 +83,23 @@ export function loadCatalogue(overrideDir = ''): Catalogue {
       if (!fn) {
         const source = messages.get(key);
         if (source === undefined) {
-          throw new ForelightError('render', 'missing-message', `message "${key}" is missing from the ${locale} catalogue (${files.join(', ')})`, `add "${key}:" to messages/${locale}.yaml`);
+          throw new ForelightError(
+            'render',
+            'missing-message',
+            `message "${key}" is missing from the ${locale} catalogue (${files.join(', ')})`,
+            `add "${key}:" to messages/${locale}.yaml`,
+          );
         }
         try {
           fn = mf.compile(source) as (args: MessageArgs) => string;
         } catch (err) {
-          throw new ForelightError('render', 'bad-message', `message "${key}" of the ${locale} catalogue does not parse: ${(err as Error).message.split('\n')[0]}`, 'fix its ICU MessageFormat syntax (braces, plural and select cases)', { cause: err });
+          throw new ForelightError(
+            'render',
+            'bad-message',
+            `message "${key}" of the ${locale} catalogue does not parse: ${(err as Error).message.split('\n')[0]}`,
+            'fix its ICU MessageFormat syntax (braces, plural and select cases)',
+            { cause: err },
+          );
         }
         compiled.set(key, fn);
       }

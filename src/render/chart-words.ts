@@ -8,13 +8,27 @@ export function chartWords(t: Translate, locale: string, hazard: (indicator: str
   return {
     hazard,
     title: (region, name) => t('chart.title', { region, hazard: name }),
-    description: (region, name, panels) => t('chart.alt', {
-      region, hazard: name,
-      panels: panels.map((p) => t('chart.panel', { range: p.title, values: p.points.map((pt) => `${pt.dates}: ${formatPercent(locale, pt.probability)}`).join(', ') })).join(' '),
-    }),
+    description: (region, name, panels) =>
+      t('chart.alt', {
+        region,
+        hazard: name,
+        panels: panels
+          .map((p) =>
+            t('chart.panel', {
+              range: p.title,
+              values: p.points.map((pt) => `${pt.dates}: ${formatPercent(locale, pt.probability)}`).join(', '),
+            }),
+          )
+          .join(' '),
+      }),
     tier: (tier: Tier) => t(`tier.${tier}`),
     dates: (start, end) => formatDayRange(locale, start, end),
     yLabel: t('chart.yLabel'),
-    legend: { chance: t('chart.legendChance'), normal: t('chart.legendNormal'), line: t('chart.legendLine'), noSkill: t('chart.legendNoSkill') },
+    legend: {
+      chance: t('chart.legendChance'),
+      normal: t('chart.legendNormal'),
+      line: t('chart.legendLine'),
+      noSkill: t('chart.legendNoSkill'),
+    },
   };
 }

@@ -13,7 +13,12 @@ import { probabilityLines, reachedRank } from './reached-stage.ts';
 import { escapeXml, toToken } from './safe-text.ts';
 import { inkFor, TIERS } from './view-model.ts';
 
-export interface ChartStage { readonly glyph: string; readonly label: string; readonly colour: string; readonly ink: string }
+export interface ChartStage {
+  readonly glyph: string;
+  readonly label: string;
+  readonly colour: string;
+  readonly ink: string;
+}
 
 export interface ChartPoint {
   readonly start: string;
@@ -78,21 +83,35 @@ export function buildChartSpecs(config: RenderConfig, outcome: RegionOutcome, lo
           points: t.probabilities.map((p) => {
             const withheld = t.decision.withheldLeads.some((w) => w.tier === p.lead.tier && w.index === p.lead.index);
             return {
-              start: p.lead.start, end: p.lead.end, dates: words.dates(p.lead.start, p.lead.end), probability: p.probability, baseRate: p.baseRate,
-              rank: withheld ? 0 : reachedRank(config, t, p), noSkill: withheld || (p.skill !== null && !p.skill.skilful),
+              start: p.lead.start,
+              end: p.lead.end,
+              dates: words.dates(p.lead.start, p.lead.end),
+              probability: p.probability,
+              baseRate: p.baseRate,
+              rank: withheld ? 0 : reachedRank(config, t, p),
+              noSkill: withheld || (p.skill !== null && !p.skill.skilful),
             };
           }),
-          lines: probabilityLines(config, ind.id, t.tier).map((l) => {
-            const covered = l.leads.length === 0 ? [1, n] : [Math.min(...l.leads), Math.min(Math.max(...l.leads), n)];
-            return { probability: l.probability, rank: l.rank, first: covered[0], last: covered[1] };
-          }).filter((l) => l.first <= n),
+          lines: probabilityLines(config, ind.id, t.tier)
+            .map((l) => {
+              const covered = l.leads.length === 0 ? [1, n] : [Math.min(...l.leads), Math.min(Math.max(...l.leads), n)];
+              return { probability: l.probability, rank: l.rank, first: covered[0], last: covered[1] };
+            })
+            .filter((l) => l.first <= n),
         };
       });
     const hazard = words.hazard(ind.id);
     return {
-      key: toToken(`${outcome.region.id}-${ind.id}`), indicator: ind.id, indicatorName: hazard, locale,
-      title: words.title(outcome.region.name, hazard), description: words.description(outcome.region.name, hazard, panels),
-      yLabel: words.yLabel, legend: words.legend, stages, panels,
+      key: toToken(`${outcome.region.id}-${ind.id}`),
+      indicator: ind.id,
+      indicatorName: hazard,
+      locale,
+      title: words.title(outcome.region.name, hazard),
+      description: words.description(outcome.region.name, hazard, panels),
+      yLabel: words.yLabel,
+      legend: words.legend,
+      stages,
+      panels,
     };
   });
 }
@@ -125,14 +144,20 @@ function drawPanel(spec: ChartSpec, panel: ChartPanel, top: number): string {
   // Marker at the middle of its lead's days (for a single day: on that day's tick).
   const mid = (p: ChartPoint): number => scale(new Date((utc(p.start).getTime() + utc(p.end).getTime() + DAY) / 2 - shift));
   const edge = (day: string, after: boolean): number => scale(new Date(utc(day).getTime() + (after ? DAY : 0) - shift));
-  const out: string[] = [`<g><text x="${x0}" y="${top + 14}" font-weight="bold" font-size="13" fill="#111">${escapeXml(panel.title)}</text>`];
+  const out: string[] = [
+    `<g><text x="${x0}" y="${top + 14}" font-weight="bold" font-size="13" fill="#111">${escapeXml(panel.title)}</text>`,
+  ];
   for (const g of probabilityTicks(spec.locale)) {
     out.push(`<line x1="${x0}" x2="${x1}" y1="${num(y(g.value))}" y2="${num(y(g.value))}" stroke="#e2e2e2"/>`);
-    out.push(`<text class="tick" x="${x0 - 5}" y="${num(y(g.value) + 4)}" text-anchor="end" font-size="${TICK}" fill="#444">${g.label}</text>`);
+    out.push(
+      `<text class="tick" x="${x0 - 5}" y="${num(y(g.value) + 4)}" text-anchor="end" font-size="${TICK}" fill="#444">${g.label}</text>`,
+    );
   }
   for (const t of ticks) {
     out.push(`<line x1="${num(t.x)}" x2="${num(t.x)}" y1="${bottom}" y2="${bottom + 4}" stroke="#333"/>`);
-    out.push(`<text class="tick" x="${num(t.x)}" y="${bottom + 19}" text-anchor="middle" font-size="${TICK}" fill="#333">${escapeXml(t.label)}</text>`);
+    out.push(
+      `<text class="tick" x="${num(t.x)}" y="${bottom + 19}" text-anchor="middle" font-size="${TICK}" fill="#333">${escapeXml(t.label)}</text>`,
+    );
   }
   // Stage lines over the leads their rule covers; labels in the right margin, pushed apart so they never overlap.
   const labels: { y: number; text: string }[] = [];
@@ -141,21 +166,34 @@ function drawPanel(spec: ChartSpec, panel: ChartPanel, top: number): string {
     const b = panel.points[line.last - 1];
     const lx0 = edge(a.start, false);
     const lx1 = edge(b.end, true);
-    out.push(`<line x1="${num(lx0)}" x2="${num(lx1)}" y1="${num(y(line.probability))}" y2="${num(y(line.probability))}" stroke="#333" stroke-width="1.2" stroke-dasharray="2 3"/>`);
+    out.push(
+      `<line x1="${num(lx0)}" x2="${num(lx1)}" y1="${num(y(line.probability))}" y2="${num(y(line.probability))}" stroke="#333" stroke-width="1.2" stroke-dasharray="2 3"/>`,
+    );
     const s = spec.stages[line.rank];
     labels.push({ y: y(line.probability) + 4, text: `${s.glyph} ${s.label}` });
   }
-  labels.sort((p, q) => p.y - q.y).forEach((l, i, all) => { if (i > 0 && l.y < all[i - 1].y + 13) l.y = all[i - 1].y + 13; });
-  for (const l of labels) out.push(`<text class="tick" x="${x1 + 4}" y="${num(l.y)}" font-size="${TICK - 1}" fill="#222">${escapeXml(l.text)}</text>`);
+  labels
+    .sort((p, q) => p.y - q.y)
+    .forEach((l, i, all) => {
+      if (i > 0 && l.y < all[i - 1].y + 13) l.y = all[i - 1].y + 13;
+    });
+  for (const l of labels)
+    out.push(`<text class="tick" x="${x1 + 4}" y="${num(l.y)}" font-size="${TICK - 1}" fill="#222">${escapeXml(l.text)}</text>`);
   const path = (pick: (p: ChartPoint) => number): string => {
     let pen = 'M';
-    return panel.points.map((p) => {
-      const v = pick(p);
-      if (!Number.isFinite(v)) { pen = 'M'; return ''; }
-      const seg = `${pen}${num(mid(p))} ${num(y(v))}`;
-      pen = 'L';
-      return seg;
-    }).filter(Boolean).join(' ');
+    return panel.points
+      .map((p) => {
+        const v = pick(p);
+        if (!Number.isFinite(v)) {
+          pen = 'M';
+          return '';
+        }
+        const seg = `${pen}${num(mid(p))} ${num(y(v))}`;
+        pen = 'L';
+        return seg;
+      })
+      .filter(Boolean)
+      .join(' ');
   };
   const base = path((p) => p.baseRate);
   const chance = path((p) => p.probability);
@@ -166,28 +204,54 @@ function drawPanel(spec: ChartSpec, panel: ChartPanel, top: number): string {
     const s = spec.stages[p.rank];
     const cx = num(mid(p));
     const cy = num(y(p.probability));
-    out.push(p.noSkill
-      ? `<circle cx="${cx}" cy="${cy}" r="7" fill="#ffffff" stroke="#555" stroke-dasharray="2 2"/><text x="${cx}" y="${num(y(p.probability) + 4)}" text-anchor="middle" font-size="10" fill="#555">*</text>`
-      : `<circle cx="${cx}" cy="${cy}" r="7" fill="${s.colour}" stroke="#333"/><text x="${cx}" y="${num(y(p.probability) + 4)}" text-anchor="middle" font-size="10" fill="${s.ink}">${escapeXml(s.glyph)}</text>`);
+    out.push(
+      p.noSkill
+        ? `<circle cx="${cx}" cy="${cy}" r="7" fill="#ffffff" stroke="#555" stroke-dasharray="2 2"/><text x="${cx}" y="${num(y(p.probability) + 4)}" text-anchor="middle" font-size="10" fill="#555">*</text>`
+        : `<circle cx="${cx}" cy="${cy}" r="7" fill="${s.colour}" stroke="#333"/><text x="${cx}" y="${num(y(p.probability) + 4)}" text-anchor="middle" font-size="10" fill="${s.ink}">${escapeXml(s.glyph)}</text>`,
+    );
   }
-  out.push(`<line x1="${x0}" x2="${x0}" y1="${plotTop}" y2="${bottom}" stroke="#333"/><line x1="${x0}" x2="${x1}" y1="${bottom}" y2="${bottom}" stroke="#333"/></g>`);
+  out.push(
+    `<line x1="${x0}" x2="${x0}" y1="${plotTop}" y2="${bottom}" stroke="#333"/><line x1="${x0}" x2="${x1}" y1="${bottom}" y2="${bottom}" stroke="#333"/></g>`,
+  );
   return out.join('');
 }
 
 /** Legend items laid out left to right, wrapping within the chart width; returns the SVG and its height. */
 function legend(spec: ChartSpec, top: number): { svg: string; height: number } {
   const items: { w: number; draw: (x: number, y: number) => string }[] = [
-    { w: 34 + textWidth(spec.legend.chance, TICK), draw: (x, y) => `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#2a0028" stroke-width="2"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.chance)}</text>` },
-    { w: 34 + textWidth(spec.legend.normal, TICK), draw: (x, y) => `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#777" stroke-width="1.5" stroke-dasharray="6 4"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.normal)}</text>` },
-    { w: 34 + textWidth(spec.legend.line, TICK), draw: (x, y) => `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#333" stroke-width="1.2" stroke-dasharray="2 3"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.line)}</text>` },
-    ...spec.stages.map((s) => ({ w: 22 + textWidth(s.label, TICK), draw: (x: number, y: number) => `<circle cx="${x + 7}" cy="${y - 4}" r="7" fill="${s.colour}" stroke="#333"/><text x="${x + 7}" y="${y}" text-anchor="middle" font-size="10" fill="${s.ink}">${escapeXml(s.glyph)}</text><text class="legend" x="${x + 18}" y="${y}" font-size="${TICK}">${escapeXml(s.label)}</text>` })),
-    { w: textWidth(spec.legend.noSkill, TICK), draw: (x, y) => `<text class="legend" x="${x}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.noSkill)}</text>` },
+    {
+      w: 34 + textWidth(spec.legend.chance, TICK),
+      draw: (x, y) =>
+        `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#2a0028" stroke-width="2"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.chance)}</text>`,
+    },
+    {
+      w: 34 + textWidth(spec.legend.normal, TICK),
+      draw: (x, y) =>
+        `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#777" stroke-width="1.5" stroke-dasharray="6 4"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.normal)}</text>`,
+    },
+    {
+      w: 34 + textWidth(spec.legend.line, TICK),
+      draw: (x, y) =>
+        `<line x1="${x}" x2="${x + 26}" y1="${y - 4}" y2="${y - 4}" stroke="#333" stroke-width="1.2" stroke-dasharray="2 3"/><text class="legend" x="${x + 30}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.line)}</text>`,
+    },
+    ...spec.stages.map((s) => ({
+      w: 22 + textWidth(s.label, TICK),
+      draw: (x: number, y: number) =>
+        `<circle cx="${x + 7}" cy="${y - 4}" r="7" fill="${s.colour}" stroke="#333"/><text x="${x + 7}" y="${y}" text-anchor="middle" font-size="10" fill="${s.ink}">${escapeXml(s.glyph)}</text><text class="legend" x="${x + 18}" y="${y}" font-size="${TICK}">${escapeXml(s.label)}</text>`,
+    })),
+    {
+      w: textWidth(spec.legend.noSkill, TICK),
+      draw: (x, y) => `<text class="legend" x="${x}" y="${y}" font-size="${TICK}">${escapeXml(spec.legend.noSkill)}</text>`,
+    },
   ];
   const out: string[] = [];
   let x = 10;
   let row = 0;
   for (const item of items) {
-    if (x > 10 && x + item.w > WIDTH - 8) { x = 10; row += 1; }
+    if (x > 10 && x + item.w > WIDTH - 8) {
+      x = 10;
+      row += 1;
+    }
     out.push(item.draw(x, top + 14 + row * 20));
     x += item.w + 14;
   }
@@ -223,7 +287,9 @@ export function renderChartSvg(spec: ChartSpec): string {
     `<title id="t-${spec.key}">${escapeXml(spec.title)}</title>`,
     `<desc id="d-${spec.key}">${escapeXml(spec.description)}</desc>`,
     `<rect width="${WIDTH}" height="${H}" fill="#ffffff"/>`,
-    ...titleLines.map((line, i) => `<text x="10" y="${18 + i * 16}" font-size="13" font-weight="bold" fill="#111">${escapeXml(line)}</text>`),
+    ...titleLines.map(
+      (line, i) => `<text x="10" y="${18 + i * 16}" font-size="13" font-weight="bold" fill="#111">${escapeXml(line)}</text>`,
+    ),
     `<text x="10" y="${head - 6}" font-size="11" fill="#333">${escapeXml(spec.yLabel)}</text>`,
     panels,
     key.svg,
@@ -247,7 +313,11 @@ export const PNG_ZOOMS = [2, 1.5, 1] as const;
  * PNGs of `svgs` at the sharpest zoom whose total stays within `budgetBytes` (1× when even that does not fit:
  * charts are never dropped, the caller's budget test then fails loudly).
  */
-export function chartPngsWithin(svgs: readonly string[], budgetBytes: number, render: (svg: string, zoom: number) => Uint8Array = renderChartPng): { pngs: Uint8Array[]; zoom: number } {
+export function chartPngsWithin(
+  svgs: readonly string[],
+  budgetBytes: number,
+  render: (svg: string, zoom: number) => Uint8Array = renderChartPng,
+): { pngs: Uint8Array[]; zoom: number } {
   let last: { pngs: Uint8Array[]; zoom: number } = { pngs: [], zoom: PNG_ZOOMS[0] };
   for (const zoom of PNG_ZOOMS) {
     const pngs = svgs.map((svg) => render(svg, zoom));

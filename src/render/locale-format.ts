@@ -17,7 +17,9 @@ function utcDay(day: IsoDate): Date {
 
 /** "30 Nov 2026" / "30 nov. 2026". */
 export function formatDay(locale: string, day: IsoDate): string {
-  return new Intl.DateTimeFormat(toIntlLocale(locale), { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' }).format(utcDay(day));
+  return new Intl.DateTimeFormat(toIntlLocale(locale), { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' }).format(
+    utcDay(day),
+  );
 }
 
 /** "Tue 1 Dec" for one day, "1–7 Dec" or "28 Dec – 3 Jan" for a range (year omitted). */

@@ -28,8 +28,10 @@ import type { Config, IndicatorConfig, RegionConfig, StageConfig } from '../conf
  * texts (cautions, probability words), the templates folder and the sender address. Nothing about the files
  * read, calibration, schedule or the ledger.
  */
-export type RenderConfig = Pick<Config, 'country' | 'countryNames' | 'teams' | 'indicators' | 'stages' | 'rules' | 'decision' | 'cautions' | 'probabilityWords' | 'templates'>
-  & { readonly delivery: Pick<Config['delivery'], 'from' | 'pdfChromium'> };
+export type RenderConfig = Pick<
+  Config,
+  'country' | 'countryNames' | 'teams' | 'indicators' | 'stages' | 'rules' | 'decision' | 'cautions' | 'probabilityWords' | 'templates'
+> & { readonly delivery: Pick<Config['delivery'], 'from' | 'pdfChromium'> };
 
 export interface ForecastDate {
   /** Source id (`SourceConfig.id`). */

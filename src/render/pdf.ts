@@ -6,15 +6,32 @@
 import { existsSync } from 'node:fs';
 import { chromium } from 'playwright-core';
 
-export interface PdfJob { readonly key: string; readonly html: string }
-export interface PdfResult { readonly pdfs: ReadonlyMap<string, Uint8Array>; readonly note: string | null }
+export interface PdfJob {
+  readonly key: string;
+  readonly html: string;
+}
+export interface PdfResult {
+  readonly pdfs: ReadonlyMap<string, Uint8Array>;
+  readonly note: string | null;
+}
 
-const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
+const ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-dev-shm-usage',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+];
 
 /** Why PDFs cannot be made with `executable` (null when they can be tried). */
 export function pdfUnavailable(executable: string | null | undefined): string | null {
   if (!executable) return null;
-  return existsSync(executable) ? null : `no PDF bulletins: Chromium not found at ${executable} (delivery.pdf-chromium); install the Debian package chromium or set pdf-chromium: null`;
+  return existsSync(executable)
+    ? null
+    : `no PDF bulletins: Chromium not found at ${executable} (delivery.pdf-chromium); install the Debian package chromium or set pdf-chromium: null`;
 }
 
 /** One PDF per job, A4 portrait, backgrounds printed (stage colours; glyphs carry the stage in black and white). */
@@ -26,14 +43,21 @@ export async function renderPdfs(executable: string | null | undefined, jobs: re
   try {
     browser = await chromium.launch({ executablePath: executable, args: ARGS });
   } catch (err) {
-    return { pdfs: new Map(), note: `no PDF bulletins: Chromium at ${executable} did not start (${(err as Error).message.split('\n')[0]})` };
+    return {
+      pdfs: new Map(),
+      note: `no PDF bulletins: Chromium at ${executable} did not start (${(err as Error).message.split('\n')[0]})`,
+    };
   }
   try {
     const pdfs = new Map<string, Uint8Array>();
     const page = await browser.newPage();
     for (const job of jobs) {
       await page.setContent(job.html, { waitUntil: 'load' });
-      const pdf = await page.pdf({ format: 'A4', printBackground: true, margin: { top: '12mm', bottom: '12mm', left: '12mm', right: '12mm' } });
+      const pdf = await page.pdf({
+        format: 'A4',
+        printBackground: true,
+        margin: { top: '12mm', bottom: '12mm', left: '12mm', right: '12mm' },
+      });
       pdfs.set(job.key, new Uint8Array(pdf));
     }
     return { pdfs, note: null };

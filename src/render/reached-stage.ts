@@ -12,20 +12,34 @@ export function reachedRank(config: RenderConfig, tier: TierOutcome, p: LeadProb
   let rank = 0;
   if (Number.isFinite(p.probability)) {
     config.stages.forEach((s, r) => {
-      const fires = config.rules.some((rule) => rule.indicator === tier.indicator.id && rule.tier === tier.tier && rule.stage === s.id
-        && rule.probability !== undefined && p.probability >= rule.probability && (rule.leads.length === 0 || rule.leads.includes(p.lead.index)));
+      const fires = config.rules.some(
+        (rule) =>
+          rule.indicator === tier.indicator.id &&
+          rule.tier === tier.tier &&
+          rule.stage === s.id &&
+          rule.probability !== undefined &&
+          p.probability >= rule.probability &&
+          (rule.leads.length === 0 || rule.leads.includes(p.lead.index)),
+      );
       if (fires && r > rank) rank = r;
     });
   }
   const decided = tier.decision.lead;
   if (decided && decided.lead.index === p.lead.index) {
-    rank = Math.max(rank, config.stages.findIndex((s) => s.id === tier.decision.rawStageId));
+    rank = Math.max(
+      rank,
+      config.stages.findIndex((s) => s.id === tier.decision.rawStageId),
+    );
   }
   return rank;
 }
 
 /** Rules with a fixed probability for one indicator × tier, each with the leads it applies to (empty = all). */
-export function probabilityLines(config: RenderConfig, indicator: string, tierName: TierOutcome['tier']): { probability: number; rank: number; leads: readonly number[] }[] {
+export function probabilityLines(
+  config: RenderConfig,
+  indicator: string,
+  tierName: TierOutcome['tier'],
+): { probability: number; rank: number; leads: readonly number[] }[] {
   return config.rules
     .filter((r) => r.indicator === indicator && r.tier === tierName && r.probability !== undefined)
     .map((r) => ({ probability: r.probability as number, rank: config.stages.findIndex((s) => s.id === r.stage), leads: r.leads }));

@@ -36,8 +36,6 @@ export interface SourceRegions {
   readonly problems: readonly string[];
 }
 
-
-
 /** A cell's rectangle shifted by a multiple of 360° next to the region. */
 function framedCell(cell: UsedCell, r: RegionOnGrid): Box {
   const b = shapeBounds(r.region.shape);
@@ -46,7 +44,13 @@ function framedCell(cell: UsedCell, r: RegionOnGrid): Box {
   return [w + 360 * k, s, e + 360 * k, n];
 }
 
-const rect = ([w, s, e, n]: Box): Ring => [[w, s], [e, s], [e, n], [w, n], [w, s]];
+const rect = ([w, s, e, n]: Box): Ring => [
+  [w, s],
+  [e, s],
+  [e, n],
+  [w, n],
+  [w, s],
+];
 const round = (v: number, d = 6) => Number(v.toFixed(d));
 
 /** FeatureCollection of region outlines (kind "region") and the cells they use (kind "cell", with weight). */
@@ -55,7 +59,16 @@ export function regionPreviewGeoJson(report: SourceRegions): object {
   for (const r of report.regions) {
     features.push({
       type: 'Feature',
-      properties: { kind: 'region', source: report.source, id: r.region.id, name: r.region.name, cells: r.cells.length, area_km2: round(r.regionKm2, 1), covered_km2: round(r.coveredKm2, 1), much_smaller_than_a_cell: r.small },
+      properties: {
+        kind: 'region',
+        source: report.source,
+        id: r.region.id,
+        name: r.region.name,
+        cells: r.cells.length,
+        area_km2: round(r.regionKm2, 1),
+        covered_km2: round(r.coveredKm2, 1),
+        much_smaller_than_a_cell: r.small,
+      },
       geometry: { type: 'MultiPolygon', coordinates: shapeRingSets(r.region.shape) },
     });
     for (const c of r.cells) {
@@ -71,8 +84,19 @@ export function regionPreviewGeoJson(report: SourceRegions): object {
 
 /** SVG map of every region and its cells (cell opacity ∝ weight within its region), ~900 px wide. */
 export function regionMapSvg(report: SourceRegions, title: string): string {
-  const boxes = report.regions.flatMap((r) => [shapeBounds(r.region.shape), ...r.cells.map((c) => { const [w, s, e, n] = framedCell(c, r); return { west: w, south: s, east: e, north: n }; })]);
-  const [w, s, e, n] = [Math.min(...boxes.map((b) => b.west)), Math.min(...boxes.map((b) => b.south)), Math.max(...boxes.map((b) => b.east)), Math.max(...boxes.map((b) => b.north))];
+  const boxes = report.regions.flatMap((r) => [
+    shapeBounds(r.region.shape),
+    ...r.cells.map((c) => {
+      const [w, s, e, n] = framedCell(c, r);
+      return { west: w, south: s, east: e, north: n };
+    }),
+  ]);
+  const [w, s, e, n] = [
+    Math.min(...boxes.map((b) => b.west)),
+    Math.min(...boxes.map((b) => b.south)),
+    Math.max(...boxes.map((b) => b.east)),
+    Math.max(...boxes.map((b) => b.north)),
+  ];
   const pad = 0.03 * Math.max(e - w, n - s, 1e-3);
   const scale = 900 / (e - w + 2 * pad);
   const x = (lon: number) => ((lon - w + pad) * scale).toFixed(1);
@@ -83,14 +107,23 @@ export function regionMapSvg(report: SourceRegions, title: string): string {
     const top = Math.max(...r.cells.map((c) => c.weight));
     for (const c of r.cells) {
       const [cw, cs, ce, cn] = framedCell(c, r);
-      parts.push(`<rect x="${x(cw)}" y="${y(cn)}" width="${((ce - cw) * scale).toFixed(1)}" height="${((cn - cs) * scale).toFixed(1)}" fill="#4a78a8" fill-opacity="${(0.15 + 0.6 * c.weight / top).toFixed(3)}" stroke="#4a78a8" stroke-width="0.5"><title>${escapeXml(`${r.region.id}: weight ${(100 * c.weight).toFixed(1)} %`)}</title></rect>`);
+      parts.push(
+        `<rect x="${x(cw)}" y="${y(cn)}" width="${((ce - cw) * scale).toFixed(1)}" height="${((cn - cs) * scale).toFixed(1)}" fill="#4a78a8" fill-opacity="${(0.15 + (0.6 * c.weight) / top).toFixed(3)}" stroke="#4a78a8" stroke-width="0.5"><title>${escapeXml(`${r.region.id}: weight ${(100 * c.weight).toFixed(1)} %`)}</title></rect>`,
+      );
     }
   }
   for (const r of report.regions) {
-    const d = shapeRingSets(r.region.shape).flat().map((ring) => 'M' + ring.map(([lon, lat]) => `${x(lon)},${y(lat)}`).join('L') + 'Z').join('');
+    const d = shapeRingSets(r.region.shape)
+      .flat()
+      .map((ring) => 'M' + ring.map(([lon, lat]) => `${x(lon)},${y(lat)}`).join('L') + 'Z')
+      .join('');
     const b = shapeBounds(r.region.shape);
-    parts.push(`<path d="${d}" fill="none" stroke="#1d1d1d" stroke-width="1.2" fill-rule="evenodd"><title>${escapeXml(`${r.region.name} (${r.region.id}): ${r.cells.length} cells`)}</title></path>`);
-    parts.push(`<text x="${x((b.west + b.east) / 2)}" y="${y((b.south + b.north) / 2)}" font-size="11" text-anchor="middle" fill="#1d1d1d">${escapeXml(r.region.id)}</text>`);
+    parts.push(
+      `<path d="${d}" fill="none" stroke="#1d1d1d" stroke-width="1.2" fill-rule="evenodd"><title>${escapeXml(`${r.region.name} (${r.region.id}): ${r.cells.length} cells`)}</title></path>`,
+    );
+    parts.push(
+      `<text x="${x((b.west + b.east) / 2)}" y="${y((b.south + b.north) / 2)}" font-size="11" text-anchor="middle" fill="#1d1d1d">${escapeXml(r.region.id)}</text>`,
+    );
   }
   return `<svg xmlns="http://www.w3.org/2000/svg" width="900" height="${height}" viewBox="0 0 900 ${height}" role="img" aria-label="${escapeXml(title)}"><title>${escapeXml(title)}</title>${parts.join('')}</svg>\n`;
 }

@@ -11,8 +11,17 @@ import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatDayRange, formatNumber } from './locale-format.ts';
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
-  TIERS, formatThreshold, groupLeads, leadView, noForecastView, stageIndex, sureSentence, toStageView,
-  type LeadGroup, type LeadView, type StageView,
+  TIERS,
+  formatThreshold,
+  groupLeads,
+  leadView,
+  noForecastView,
+  stageIndex,
+  sureSentence,
+  toStageView,
+  type LeadGroup,
+  type LeadView,
+  type StageView,
 } from './view-model.ts';
 
 export interface TierView {
@@ -38,8 +47,16 @@ export interface IndicatorView {
   readonly tiers: readonly TierView[];
 }
 
-export interface OutlookCell { readonly stage: StageView; readonly chance: string; readonly dates: string; readonly noSkill: boolean }
-export interface OutlookRow { readonly hazard: string; readonly cells: readonly (OutlookCell | null)[] }
+export interface OutlookCell {
+  readonly stage: StageView;
+  readonly chance: string;
+  readonly dates: string;
+  readonly noSkill: boolean;
+}
+export interface OutlookRow {
+  readonly hazard: string;
+  readonly cells: readonly (OutlookCell | null)[];
+}
 
 export interface Headline {
   readonly hazard: string;
@@ -77,30 +94,48 @@ export function hazardName(t: Translate, ind: IndicatorConfig | undefined, fallb
 
 function thresholdWords(t: Translate, locale: string, ind: IndicatorConfig | undefined, p: LeadProbability | undefined): string {
   if (!p || !Number.isFinite(p.threshold.value)) return t('threshold.none');
-  if (ind?.kind === 'excess-heat-factor') return p.threshold.value === 0 ? t('threshold.ehfAny') : t('threshold.ehf', { value: formatNumber(locale, p.threshold.value, 1) });
+  if (ind?.kind === 'excess-heat-factor')
+    return p.threshold.value === 0 ? t('threshold.ehfAny') : t('threshold.ehf', { value: formatNumber(locale, p.threshold.value, 1) });
   if (ind?.kind === 'malaria-suitability') return t('threshold.index', { value: formatNumber(locale, p.threshold.value, 2) });
   return formatThreshold(locale, p.threshold.value, p.threshold.units);
 }
 
-function methodLines(t: Translate, locale: string, config: RenderConfig, spec: ThresholdSpec | undefined, outcome: TierOutcome, leads: readonly LeadView[]): string[] {
+function methodLines(
+  t: Translate,
+  locale: string,
+  config: RenderConfig,
+  spec: ThresholdSpec | undefined,
+  outcome: TierOutcome,
+  leads: readonly LeadView[],
+): string[] {
   const p = outcome.probabilities[0];
   const lines: string[] = [];
   const value = p ? formatThreshold(locale, p.threshold.value, p.threshold.units) : '–';
   if (spec?.kind === 'percentile') lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value }));
   else if (spec?.kind === 'absolute') {
     const mapped = p !== undefined && Math.abs(p.threshold.value - spec.value) > 1e-9;
-    lines.push(t('method.thresholdAbsolute', { fixed: formatThreshold(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }));
+    lines.push(
+      t('method.thresholdAbsolute', { fixed: formatThreshold(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }),
+    );
   }
   const scored = outcome.probabilities.filter((q) => q.skill);
   if (scored.length > 0) {
     const gate = config.decision.skillGate;
-    const values = scored.map((q) => (q.skill!.basis === 'observed' ? q.skill!.gate.fairBrierSkillScore : q.skill!.fairBrierSkillScore)).filter(Number.isFinite);
+    const values = scored
+      .map((q) => (q.skill!.basis === 'observed' ? q.skill!.gate.fairBrierSkillScore : q.skill!.fairBrierSkillScore))
+      .filter(Number.isFinite);
     const fmt = (v: number) => (Number.isFinite(v) ? formatNumber(locale, v, 2, 2) : '–');
-    lines.push(t('method.skill', {
-      min: fmt(Math.min(...values)), max: fmt(Math.max(...values)),
-      years: Math.max(...scored.map((q) => q.skill!.years)), potential: scored.some((q) => q.skill!.basis === 'potential') ? 'yes' : 'no',
-      floor: formatNumber(locale, gate.floor, 2, 2), minEvents: gate.minEvents, withheld: leads.filter((l) => l.withheld).length,
-    }));
+    lines.push(
+      t('method.skill', {
+        min: fmt(Math.min(...values)),
+        max: fmt(Math.max(...values)),
+        years: Math.max(...scored.map((q) => q.skill!.years)),
+        potential: scored.some((q) => q.skill!.basis === 'potential') ? 'yes' : 'no',
+        floor: formatNumber(locale, gate.floor, 2, 2),
+        minEvents: gate.minEvents,
+        withheld: leads.filter((l) => l.withheld).length,
+      }),
+    );
   } else lines.push(t('method.noSkill'));
   return lines;
 }
@@ -114,36 +149,75 @@ function missingText(t: Translate, region: RegionOutcome, tiers: readonly TierVi
   region.perTier.forEach((tier, i) => {
     const m = tier.decision.missing;
     if (!m || said.has(tier.tier)) return;
-    said.set(tier.tier, t('why.missing', { range: tier.tier, reason: m.reason, held: m.held ? 'yes' : 'no', glyph: tiers[i].stage.glyph, label: tiers[i].stage.label }));
+    said.set(
+      tier.tier,
+      t('why.missing', {
+        range: tier.tier,
+        reason: m.reason,
+        held: m.held ? 'yes' : 'no',
+        glyph: tiers[i].stage.glyph,
+        label: tiers[i].stage.label,
+      }),
+    );
   });
   return [...said.values()].join(' ');
 }
 
 /** Why the region has its stage: the evidence that drives it, a stage held back by persistence, and any part without data. */
-function whyText(t: Translate, config: RenderConfig, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+function whyText(
+  t: Translate,
+  config: RenderConfig,
+  region: RegionOutcome,
+  tiers: readonly TierView[],
+  stage: StageView,
+  byRank: readonly StageView[],
+): string {
   return [evidenceText(t, config, region, tiers, stage, byRank), missingText(t, region, tiers)].filter(Boolean).join(' ');
 }
 
-function evidenceText(t: Translate, config: RenderConfig, region: RegionOutcome, tiers: readonly TierView[], stage: StageView, byRank: readonly StageView[]): string {
+function evidenceText(
+  t: Translate,
+  config: RenderConfig,
+  region: RegionOutcome,
+  tiers: readonly TierView[],
+  stage: StageView,
+  byRank: readonly StageView[],
+): string {
   if (stage.id === NO_FORECAST_ID) return '';
   const rank = (id: string): number => config.stages.findIndex((s) => s.id === id);
-  const [driver] = tiers.map((tv, i) => ({ tv, d: region.perTier[i].decision })).filter((x) => !x.d.missing)
+  const [driver] = tiers
+    .map((tv, i) => ({ tv, d: region.perTier[i].decision }))
+    .filter((x) => !x.d.missing)
     .sort((a, b) => rank(b.d.rawStageId) - rank(a.d.rawStageId) || rank(b.d.stageId) - rank(a.d.stageId));
   if (!driver && region.perTier.some((x) => x.decision.missing)) return '';
   if (!driver || !driver.tv.deciding) return t('why.none');
   const lead = driver.tv.deciding;
-  const evidence = t('why.evidence', { hazard: driver.tv.hazard, range: driver.tv.tier, chance: lead.chance, dates: lead.dates, normal: lead.normal });
+  const evidence = t('why.evidence', {
+    hazard: driver.tv.hazard,
+    range: driver.tv.tier,
+    chance: lead.chance,
+    dates: lead.dates,
+    normal: lead.normal,
+  });
   const raw = rank(driver.d.rawStageId);
   if (raw === stage.rank) return evidence;
   const up = raw > stage.rank;
-  const held = t(up ? 'why.heldUp' : 'why.heldDown', { glyph: byRank[raw].glyph, label: byRank[raw].label, runs: up ? config.decision.escalateAfterRuns : config.decision.relaxAfterRuns });
+  const held = t(up ? 'why.heldUp' : 'why.heldDown', {
+    glyph: byRank[raw].glyph,
+    label: byRank[raw].label,
+    runs: up ? config.decision.escalateAfterRuns : config.decision.relaxAfterRuns,
+  });
   return `${evidence} ${held}`;
 }
 
 /** The lead an outlook cell shows: the deciding one, else the likeliest one not withheld. */
 function cellLead(tv: TierView): LeadView | null {
-  return tv.deciding ?? tv.leads.filter((l) => !l.withheld && Number.isFinite(l.probability))
-    .reduce<LeadView | null>((a, l) => (a === null || l.probability > a.probability ? l : a), null);
+  return (
+    tv.deciding ??
+    tv.leads
+      .filter((l) => !l.withheld && Number.isFinite(l.probability))
+      .reduce<LeadView | null>((a, l) => (a === null || l.probability > a.probability ? l : a), null)
+  );
 }
 
 /** Everything the templates need about one region, for one locale and audience. */
@@ -159,7 +233,7 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
   const tiers = outcome.perTier.map((tier): TierView => {
     const ind = indicatorOf(tier.indicator.id);
     const leads = tier.probabilities.map((p) => leadView(config, p, tier, locale, (r) => byRank[r]));
-    const spec = ind ? ind.regionThresholds[outcome.region.id] ?? ind.threshold : undefined;
+    const spec = ind ? (ind.regionThresholds[outcome.region.id] ?? ind.threshold) : undefined;
     return {
       tier: tier.tier,
       tierName: t(`tier.${tier.tier}`),
@@ -178,7 +252,12 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
     const own = tiers.filter((tv) => tv.indicatorId === id);
     const ind = indicatorOf(id);
     const averaged = t('method.region', { rule: outcome.region.cellRule ?? 'overlap', clock: regionClock(outcome.region).key });
-    return { id, hazard: own[0].hazard, method: `${ind ? t(`method.${ind.kind}`, { days: ind.windowDays }) : own[0].hazard} ${averaged}`, tiers: own };
+    return {
+      id,
+      hazard: own[0].hazard,
+      method: `${ind ? t(`method.${ind.kind}`, { days: ind.windowDays }) : own[0].hazard} ${averaged}`,
+      tiers: own,
+    };
   });
   const outlook = indicators.map((ind): OutlookRow => ({
     hazard: ind.hazard,
@@ -186,27 +265,47 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
       const tv = ind.tiers.find((x) => x.tier === tierName);
       if (!tv) return null;
       const pick = cellLead(tv);
-      return { stage: tv.stage, chance: pick?.chance ?? '–', dates: pick?.dates ?? '', noSkill: tv.leads.length > 0 && tv.leads.every((l) => l.withheld) };
+      return {
+        stage: tv.stage,
+        chance: pick?.chance ?? '–',
+        dates: pick?.dates ?? '',
+        noSkill: tv.leads.length > 0 && tv.leads.every((l) => l.withheld),
+      };
     }),
   }));
-  const changeText = change === 'new' ? t('change.new') : t(`change.${change}`, { fromGlyph: previous?.glyph ?? '', from: previous?.label ?? '', toGlyph: stage.glyph, to: stage.label });
+  const changeText =
+    change === 'new'
+      ? t('change.new')
+      : t(`change.${change}`, { fromGlyph: previous?.glyph ?? '', from: previous?.label ?? '', toGlyph: stage.glyph, to: stage.label });
   return {
-    id: outcome.region.id, name: outcome.region.name, stage, previous, change, changeText,
+    id: outcome.region.id,
+    name: outcome.region.name,
+    stage,
+    previous,
+    change,
+    changeText,
     why: whyText(t, config, outcome, tiers, stage, byRank),
     headline: headlineOf(t, locale, tiers),
-    outlook, tiers, indicators,
+    outlook,
+    tiers,
+    indicators,
   };
 }
 
 /** The tier that sets the region's stage (highest issued, then highest raw, shortest range first); else the likeliest usable lead. */
 function headlineOf(t: Translate, locale: string, tiers: readonly TierView[]): Headline | null {
-  const driving = tiers.filter((tv) => tv.deciding).sort((a, b) => b.stage.rank - a.stage.rank || TIERS.indexOf(a.tier) - TIERS.indexOf(b.tier))[0];
+  const driving = tiers
+    .filter((tv) => tv.deciding)
+    .sort((a, b) => b.stage.rank - a.stage.rank || TIERS.indexOf(a.tier) - TIERS.indexOf(b.tier))[0];
   let tv: TierView | undefined = driving;
   let lead: LeadView | null = driving?.deciding ?? null;
   if (!tv) {
     for (const x of tiers) {
       const l = cellLead(x);
-      if (l && (lead === null || l.probability > lead.probability)) { tv = x; lead = l; }
+      if (l && (lead === null || l.probability > lead.probability)) {
+        tv = x;
+        lead = l;
+      }
     }
   }
   if (!tv || !lead) return null;
@@ -218,9 +317,15 @@ function headlineOf(t: Translate, locale: string, tiers: readonly TierView[]): H
   while (first > 0 && tv.leads[first - 1].reached.id === chosen.reached.id && !tv.leads[first - 1].withheld) first -= 1;
   while (last < tv.leads.length - 1 && tv.leads[last + 1].reached.id === chosen.reached.id && !tv.leads[last + 1].withheld) last += 1;
   return {
-    hazard: tv.hazard, tierName: tv.tierName, threshold: tv.threshold,
+    hazard: tv.hazard,
+    tierName: tv.tierName,
+    threshold: tv.threshold,
     dates: formatDayRange(locale, tv.leads[first].start, tv.leads[last].end),
-    peakDates: chosen.dates, chance: chosen.chance, normal: chosen.normal, word: chosen.word,
-    sure: sureSentence(t, chosen), triggered: driving !== undefined,
+    peakDates: chosen.dates,
+    chance: chosen.chance,
+    normal: chosen.normal,
+    word: chosen.word,
+    sure: sureSentence(t, chosen),
+    triggered: driving !== undefined,
   };
 }

@@ -35,7 +35,12 @@ export interface RenderedRun {
 export function cautionsFor(config: RenderConfig, locale: string): readonly string[] {
   const list = (config.cautions[locale] ?? []).filter((c) => c.trim() !== '');
   if (list.length === 0) {
-    throw new ForelightError('render', 'no-cautions', `config.cautions has no caution text for locale "${locale}"`, `add cautions.${locale} to the config YAML; bulletins are never sent without them`);
+    throw new ForelightError(
+      'render',
+      'no-cautions',
+      `config.cautions has no caution text for locale "${locale}"`,
+      `add cautions.${locale} to the config YAML; bulletins are never sent without them`,
+    );
   }
   return list.map((c) => applyTypography(locale, c));
 }
@@ -44,7 +49,12 @@ export function cautionsFor(config: RenderConfig, locale: string): readonly stri
 function cleanAddress(team: TeamConfig, raw: string): string {
   const addr = toHeaderText(raw);
   if (!/^[^\s@<>,;:"()[\]\\]+@[^\s@<>,;:"()[\]\\]+$/.test(addr)) {
-    throw new ForelightError('render', 'bad-recipient', `team "${team.id}" recipient ${JSON.stringify(raw)} is not a single e-mail address`, 'write one plain address per recipients entry');
+    throw new ForelightError(
+      'render',
+      'bad-recipient',
+      `team "${team.id}" recipient ${JSON.stringify(raw)} is not a single e-mail address`,
+      'write one plain address per recipients entry',
+    );
   }
   return addr;
 }
@@ -54,7 +64,10 @@ function localDay(iso: string, clock: LocalClock): string {
   return new Date(localDayNumber(clock, Date.parse(iso)) * 86_400_000).toISOString().slice(0, 10);
 }
 
-interface LocaleCharts { specs: Map<string, ChartSpec[]>; svg: Map<string, string> }
+interface LocaleCharts {
+  specs: Map<string, ChartSpec[]>;
+  svg: Map<string, string>;
+}
 
 /** Size budget of one e-mail: HTML, text, charts and PDF, before transfer encoding (README, "Outputs"). */
 export const EMAIL_BUDGET_BYTES = 300 * 1024;
@@ -74,7 +87,13 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     let c = charts.get(locale);
     if (!c) {
       const t = env.t(locale);
-      const words = chartWords(t, locale, (id) => hazardName(t, config.indicators.find((i) => i.id === id), id));
+      const words = chartWords(t, locale, (id) =>
+        hazardName(
+          t,
+          config.indicators.find((i) => i.id === id),
+          id,
+        ),
+      );
       c = { specs: new Map(), svg: new Map() };
       for (const r of run.regions) {
         const specs = buildChartSpecs(config, r, locale, words);
@@ -85,10 +104,12 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     }
     return c;
   };
-  const chartRef = (locale: string, src: (key: string) => string) => (r: RegionView, indicator: string): ChartRef | null => {
-    const spec = (chartsFor(locale).specs.get(r.id) ?? []).find((s) => s.indicator === indicator);
-    return spec ? { src: src(spec.key), alt: spec.description, title: spec.title, width: chartWidth(spec) } : null;
-  };
+  const chartRef =
+    (locale: string, src: (key: string) => string) =>
+    (r: RegionView, indicator: string): ChartRef | null => {
+      const spec = (chartsFor(locale).specs.get(r.id) ?? []).find((s) => s.indicator === indicator);
+      return spec ? { src: src(spec.key), alt: spec.description, title: spec.title, width: chartWidth(spec) } : null;
+    };
   const views = (locale: string, audience: string, regions: BulletinRun['regions']): RegionView[] =>
     regions.map((r) => buildRegionView(config, r, locale, audience, env.t(locale)));
 
@@ -105,7 +126,9 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     const regionViews = views(locale, team.id, covered);
     // The national summary carries no charts (size budget); the team bulletins one per region × indicator.
     const ctx = bulletinContext(config, run, t, locale, team, regionViews, {
-      issuedDay, cautions: cautionsFor(config, locale), charts: team.national ? () => null : chartRef(locale, (key) => `cid:${key}@forelight`),
+      issuedDay,
+      cautions: cautionsFor(config, locale),
+      charts: team.national ? () => null : chartRef(locale, (key) => `cid:${key}@forelight`),
     });
     const kind = team.national ? 'national' : 'team';
     const c = chartsFor(locale);
@@ -113,8 +136,16 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     // Charts take what the budget leaves after the text parts and a typical PDF.
     const html = env.render(`${kind}.html.njk`, locale, ctx);
     const text = env.render(`${kind}.txt.njk`, locale, ctx);
-    const { pngs } = chartPngsWithin(specs.map((s) => c.svg.get(s.key) as string), EMAIL_BUDGET_BYTES - Buffer.byteLength(html) - Buffer.byteLength(text) - PDF_ALLOWANCE_BYTES);
-    const attachments = specs.map((s, i) => ({ cid: `${s.key}@forelight`, filename: `${s.key}.png`, contentType: 'image/png', content: pngs[i] }));
+    const { pngs } = chartPngsWithin(
+      specs.map((s) => c.svg.get(s.key) as string),
+      EMAIL_BUDGET_BYTES - Buffer.byteLength(html) - Buffer.byteLength(text) - PDF_ALLOWANCE_BYTES,
+    );
+    const attachments = specs.map((s, i) => ({
+      cid: `${s.key}@forelight`,
+      filename: `${s.key}.png`,
+      contentType: 'image/png',
+      content: pngs[i],
+    }));
     drafts.push({
       id: toToken(`${run.runId}-${team.id}`),
       team: team.id,
@@ -128,18 +159,31 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     });
   }
   // One printable A4 PDF per bulletin, attached and archived; without Chromium the bulletins go out without it.
-  const printed = await renderPdfs(config.delivery.pdfChromium, drafts.map((d) => ({ key: d.id, html: d.print })));
+  const printed = await renderPdfs(
+    config.delivery.pdfChromium,
+    drafts.map((d) => ({ key: d.id, html: d.print })),
+  );
   const pdfName = (d: { team: string }) => `forelight-${toToken(run.runId)}-${toToken(d.team)}.pdf`;
   const bulletins: Bulletin[] = drafts.map(({ print: _print, ...d }) => {
     const pdf = printed.pdfs.get(d.id);
-    return pdf ? { ...d, attachments: [...d.attachments, { cid: `${d.id}.pdf@forelight`, filename: pdfName(d), contentType: 'application/pdf', content: pdf }] } : d;
+    return pdf
+      ? {
+          ...d,
+          attachments: [
+            ...d.attachments,
+            { cid: `${d.id}.pdf@forelight`, filename: pdfName(d), contentType: 'application/pdf', content: pdf },
+          ],
+        }
+      : d;
   });
   const notes = printed.note ? [printed.note] : [];
 
   const archiveViews = views(archiveLocale, nationalTeams[0]?.id ?? 'default', run.regions);
   const at = env.t(archiveLocale);
   const archiveCtx = bulletinContext(config, run, at, archiveLocale, null, archiveViews, {
-    issuedDay, cautions: cautionsFor(config, archiveLocale), charts: chartRef(archiveLocale, (key) => `charts/${key}.svg`),
+    issuedDay,
+    cautions: cautionsFor(config, archiveLocale),
+    charts: chartRef(archiveLocale, (key) => `charts/${key}.svg`),
   });
   const json = renderRunJson(config, { ...run, notes: [...(run.notes ?? []), ...notes] }, capAlerts);
   const archive: ArchiveEntry = {
@@ -149,19 +193,34 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     locale: archiveLocale,
     title: toHeaderText(subjectOf(at, archiveCtx, archiveViews, true)),
     regions: archiveViews.map((v) => ({
-      id: v.id, name: v.name, stageId: v.stage.id, rank: v.stage.rank, label: v.stage.label, glyph: v.stage.glyph, colour: v.stage.colour, ink: v.stage.ink,
-      hazard: v.headline?.triggered ? v.headline.hazard : '', dates: v.headline?.triggered ? v.headline.dates : '',
+      id: v.id,
+      name: v.name,
+      stageId: v.stage.id,
+      rank: v.stage.rank,
+      label: v.stage.label,
+      glyph: v.stage.glyph,
+      colour: v.stage.colour,
+      ink: v.stage.ink,
+      hazard: v.headline?.triggered ? v.headline.hazard : '',
+      dates: v.headline?.triggered ? v.headline.dates : '',
     })),
     bodyHtml: env.render('archive-body.html.njk', archiveLocale, archiveCtx),
     charts: [...chartsFor(archiveLocale).svg].map(([key, svg]) => ({ filename: `${key}.svg`, svg })),
     capAlerts: capAlerts.map((a) => ({
-      filename: `${toToken(a.id)}.xml`, xml: a.xml,
+      filename: `${toToken(a.id)}.xml`,
+      xml: a.xml,
       regionName: run.regions.find((r) => r.region.id === a.region)?.region.name ?? a.region,
       hazard: archiveViews.flatMap((v) => v.indicators).find((i) => i.id === a.indicator)?.hazard ?? a.indicator,
     })),
-    pdfs: bulletins.flatMap((b) => b.attachments.filter((a) => a.contentType === 'application/pdf').map((a) => ({
-      filename: a.filename, team: config.teams.find((t) => t.id === b.team)?.name ?? b.team, base64: Buffer.from(a.content).toString('base64'),
-    }))),
+    pdfs: bulletins.flatMap((b) =>
+      b.attachments
+        .filter((a) => a.contentType === 'application/pdf')
+        .map((a) => ({
+          filename: a.filename,
+          team: config.teams.find((t) => t.id === b.team)?.name ?? b.team,
+          base64: Buffer.from(a.content).toString('base64'),
+        })),
+    ),
     ladder: config.stages.map((s) => ({ glyph: s.glyph, label: applyTypography(archiveLocale, s.label[archiveLocale] ?? s.id) })),
     json,
   };
@@ -173,9 +232,15 @@ function subjectOf(t: Translate, ctx: ReturnType<typeof bulletinContext>, region
   const base = { exercise: ctx.exercise ? 'yes' : 'no', country: ctx.country, issued: ctx.issued };
   if (national) {
     const top = topStage(regions);
-    return t('subject.national', { ...base, label: top.stage?.label ?? '', glyph: top.stage?.glyph ?? '', regions: top.names.join(t('list.separator')) });
+    return t('subject.national', {
+      ...base,
+      label: top.stage?.label ?? '',
+      glyph: top.stage?.glyph ?? '',
+      regions: top.names.join(t('list.separator')),
+    });
   }
-  const list = regions.map((r) => t('subject.regionStage', { region: r.name, label: r.stage.label, glyph: r.stage.glyph })).join(t('list.separator'));
+  const list = regions
+    .map((r) => t('subject.regionStage', { region: r.name, label: r.stage.label, glyph: r.stage.glyph }))
+    .join(t('list.separator'));
   return t('subject.team', { ...base, regions: list });
 }
-

@@ -35,7 +35,12 @@ export function renderRunJson(config: RenderConfig, run: BulletinRun, capAlerts:
     issuedAt: run.issuedAt,
     mode: run.mode,
     nextIssue: run.nextIssue,
-    forecastDates: run.forecastDates.map((f) => ({ source: f.source, name: f.name, referenceTime: f.referenceTime, basedOnOlder: f.basedOnOlder ?? false })),
+    forecastDates: run.forecastDates.map((f) => ({
+      source: f.source,
+      name: f.name,
+      referenceTime: f.referenceTime,
+      basedOnOlder: f.basedOnOlder ?? false,
+    })),
     notes: run.notes ?? [],
     problems: run.problems ?? [],
     stages: config.stages.map((s) => ({ id: s.id, label: s.label, glyph: s.glyph, colour: s.colour })),

@@ -33,17 +33,15 @@ export function capHeaderText(value: string, max = MAX_SUBJECT_CHARS): string {
 
 /** Escape the five XML special characters (element content and attribute values). */
 export function escapeXml(value: string): string {
-  return value
-    .replace(/&/g, '&amp;')
-    .replace(/</g, '&lt;')
-    .replace(/>/g, '&gt;')
-    .replace(/"/g, '&quot;')
-    .replace(/'/g, '&apos;');
+  return value.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&apos;');
 }
 
 /** Drop characters that XML 1.0 forbids (C0 controls except tab/LF/CR, U+FFFE, U+FFFF, lone surrogates). */
 export function toXmlChars(value: string): string {
-  return value.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\ufffe\uffff]|[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/g, '');
+  return value.replace(
+    /[\u0000-\u0008\u000b\u000c\u000e-\u001f\ufffe\uffff]|[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/g,
+    '',
+  );
 }
 
 /** A token made of `[A-Za-z0-9._-]` only (file names, CAP identifiers, content ids). */

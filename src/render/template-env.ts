@@ -48,7 +48,13 @@ export function createTemplateEnv(overrideDir: string): TemplateEnv {
       if (err instanceof ForelightError) throw err;
       const inner = (err as { cause?: unknown }).cause;
       if (inner instanceof ForelightError) throw inner;
-      throw new ForelightError('render', 'template', `template ${name} (searched ${searchPaths.join(', ')}) failed: ${oneLine(err)}`, 'fix the template or remove the override to use the shipped one', { cause: err });
+      throw new ForelightError(
+        'render',
+        'template',
+        `template ${name} (searched ${searchPaths.join(', ')}) failed: ${oneLine(err)}`,
+        'fix the template or remove the override to use the shipped one',
+        { cause: err },
+      );
     }
   };
   return { catalogue, t: (locale) => catalogue.forLocale(locale), render };

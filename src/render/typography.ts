@@ -13,13 +13,15 @@ const NNBSP = '\u202f';
 /** Text with the locale's spacing rules applied; idempotent. */
 export function applyTypography(locale: string, text: string): string {
   if (locale !== 'fr' && !locale.startsWith('fr-')) return text;
-  return text
-    // an ordinary space (or none) before a high sign becomes the right no-break space; never inside URLs or clock times
-    .replace(/(?<=\S) (?=:)|(?<=[^\s/:])(?=:(?:\s|$))/g, NBSP)
-    .replace(/(?<=\S) (?=[;!?%])|(?<=[^\s/\u00a0\u202f;!?])(?<!&[#a-zA-Z0-9]+)(?=[;!?](?:\s|$))/g, NNBSP)
-    .replace(/(?<=\d)(?=%)/g, NNBSP)
-    .replace(/«[ \u00a0]?/g, `«${NBSP}`)
-    .replace(/[ \u00a0]?»/g, `${NBSP}»`);
+  return (
+    text
+      // an ordinary space (or none) before a high sign becomes the right no-break space; never inside URLs or clock times
+      .replace(/(?<=\S) (?=:)|(?<=[^\s/:])(?=:(?:\s|$))/g, NBSP)
+      .replace(/(?<=\S) (?=[;!?%])|(?<=[^\s/\u00a0\u202f;!?])(?<!&[#a-zA-Z0-9]+)(?=[;!?](?:\s|$))/g, NNBSP)
+      .replace(/(?<=\d)(?=%)/g, NNBSP)
+      .replace(/«[ \u00a0]?/g, `«${NBSP}`)
+      .replace(/[ \u00a0]?»/g, `${NBSP}»`)
+  );
 }
 
 /** The same rules on the text between the tags of an HTML document (markup, attributes and entities untouched). */

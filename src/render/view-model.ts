@@ -78,7 +78,12 @@ export interface LeadGroup {
 export function pickLocale(record: Readonly<Record<string, string>> | undefined, locale: string, what: string): string {
   const text = record?.[locale];
   if (text === undefined || text.trim() === '') {
-    throw new ForelightError('render', 'missing-translation', `${what} has no text for locale "${locale}"`, `add a "${locale}" entry for it in the config YAML`);
+    throw new ForelightError(
+      'render',
+      'missing-translation',
+      `${what} has no text for locale "${locale}"`,
+      `add a "${locale}" entry for it in the config YAML`,
+    );
   }
   return applyTypography(locale, text);
 }
@@ -88,7 +93,13 @@ export function stageIndex(config: RenderConfig): (id: string) => { stage: Stage
   const byId = new Map(config.stages.map((stage, rank) => [stage.id, { stage, rank }]));
   return (id) => {
     const hit = byId.get(id);
-    if (!hit) throw new ForelightError('render', 'unknown-stage', `stage "${id}" is not in the configured ladder (${[...byId.keys()].join(', ')})`, 'check the decide stage output against config stages');
+    if (!hit)
+      throw new ForelightError(
+        'render',
+        'unknown-stage',
+        `stage "${id}" is not in the configured ladder (${[...byId.keys()].join(', ')})`,
+        'check the decide stage output against config stages',
+      );
     return hit;
   };
 }
@@ -103,8 +114,14 @@ export const NO_FORECAST_COLOUR = '#d0d0d0';
 
 export function noForecastView(t: (key: string) => string): StageView {
   return {
-    id: NO_FORECAST_ID, rank: -1, label: t('noForecast.label'), glyph: NO_FORECAST_GLYPH, colour: NO_FORECAST_COLOUR,
-    ink: inkFor(NO_FORECAST_COLOUR), meaning: t('noForecast.meaning'), actions: t('noForecast.actions'),
+    id: NO_FORECAST_ID,
+    rank: -1,
+    label: t('noForecast.label'),
+    glyph: NO_FORECAST_GLYPH,
+    colour: NO_FORECAST_COLOUR,
+    ink: inkFor(NO_FORECAST_COLOUR),
+    meaning: t('noForecast.meaning'),
+    actions: t('noForecast.actions'),
   };
 }
 
@@ -127,7 +144,13 @@ export function toStageView(stage: StageConfig, rank: number, locale: string, au
 export function probabilityWord(config: RenderConfig, p: number, locale: string): string {
   if (!Number.isFinite(p)) return '–';
   const bands = config.probabilityWords;
-  if (bands.length === 0) throw new ForelightError('render', 'no-probability-words', 'probability-words is empty', 'add probability word bands under probability-words: in the config YAML');
+  if (bands.length === 0)
+    throw new ForelightError(
+      'render',
+      'no-probability-words',
+      'probability-words is empty',
+      'add probability word bands under probability-words: in the config YAML',
+    );
   const band = bands.find((b) => p < b.below) ?? bands[bands.length - 1];
   return pickLocale(band.words, locale, `probability word band below ${band.below}`);
 }
@@ -153,12 +176,21 @@ export function sureLevel(skill: SkillSummary | null): SureLevel {
 }
 
 /** One plain sentence on how sure a lead is (message `sure.<level>`, plus `sure.potential` for model-only skill). */
-export function sureSentence(t: Translate, lead: Pick<LeadView, 'sure' | 'years' | 'events' | 'score' | 'low' | 'high' | 'potential'>): string {
+export function sureSentence(
+  t: Translate,
+  lead: Pick<LeadView, 'sure' | 'years' | 'events' | 'score' | 'low' | 'high' | 'potential'>,
+): string {
   const main = t(`sure.${lead.sure}`, { years: lead.years, events: lead.events, score: lead.score, low: lead.low, high: lead.high });
   return lead.potential ? `${main} ${t('sure.potential', { score: lead.score, years: lead.years })}` : main;
 }
 
-export function leadView(config: RenderConfig, p: LeadProbability, outcome: TierOutcome, locale: string, stageAt: (rank: number) => StageView): LeadView {
+export function leadView(
+  config: RenderConfig,
+  p: LeadProbability,
+  outcome: TierOutcome,
+  locale: string,
+  stageAt: (rank: number) => StageView,
+): LeadView {
   const withheld = outcome.decision.withheldLeads.some((w) => w.index === p.lead.index && w.tier === p.lead.tier);
   const deciding = outcome.decision.lead !== null && outcome.decision.lead.lead.index === p.lead.index;
   const skill = p.skill;
@@ -213,8 +245,14 @@ export function groupLeads(locale: string, leads: readonly LeadView[], probabili
     return {
       dates: formatDayRange(locale, leads[first].start, leads[last].end),
       reached: leads[first].reached,
-      chance: percentRange(locale, probs.map((p) => p.probability)),
-      normal: percentRange(locale, probs.map((p) => p.baseRate)),
+      chance: percentRange(
+        locale,
+        probs.map((p) => p.probability),
+      ),
+      normal: percentRange(
+        locale,
+        probs.map((p) => p.baseRate),
+      ),
       noSkill: leads[first].sure === 'none',
       deciding: span.some((l) => l.deciding),
     };
@@ -230,5 +268,5 @@ export function inkFor(colour: string): string {
     return c <= 0.03928 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
   };
   const l = 0.2126 * lin(m[1]) + 0.7152 * lin(m[2]) + 0.0722 * lin(m[3]);
-  return (1.05) / (l + 0.05) >= (l + 0.05) / 0.05 ? '#ffffff' : '#000000';
+  return 1.05 / (l + 0.05) >= (l + 0.05) / 0.05 ? '#ffffff' : '#000000';
 }

@@ -9,7 +9,13 @@
  * (`stamps: 'day-end'`, the usual forecast-centre encoding) at the end of each day (24, 48, …) without bounds.
  */
 import { rename, rm } from 'node:fs/promises';
-import { createNetcdfClassic, type NcAttribute, type NcFormat, type NcVariableSpec, type NetcdfClassicWriter } from './netcdf-classic-writer.ts';
+import {
+  createNetcdfClassic,
+  type NcAttribute,
+  type NcFormat,
+  type NcVariableSpec,
+  type NetcdfClassicWriter,
+} from './netcdf-classic-writer.ts';
 
 export interface GridSpec {
   /** Cell-centre latitudes (degrees_north), in file order. */
@@ -54,7 +60,6 @@ export interface CfFileDef {
   readonly globalAttributes: Readonly<Record<string, string>>;
 }
 
-
 const SHORT_FILL = -32767;
 const FLOAT_FILL = 1.0e20;
 
@@ -95,12 +100,34 @@ function toStored(def: CfVariableDef, values: Float32Array): Int16Array | Float3
 }
 
 function coordinateSpecs(timeUnits: string, withBounds: boolean): NcVariableSpec[] {
-  const time: NcVariableSpec = { name: 'time', type: 'double', dimensions: ['time'], attributes: { standard_name: 'time', long_name: 'time', units: timeUnits, calendar: 'standard', axis: 'T', ...(withBounds ? { bounds: 'time_bnds' } : {}) } };
+  const time: NcVariableSpec = {
+    name: 'time',
+    type: 'double',
+    dimensions: ['time'],
+    attributes: {
+      standard_name: 'time',
+      long_name: 'time',
+      units: timeUnits,
+      calendar: 'standard',
+      axis: 'T',
+      ...(withBounds ? { bounds: 'time_bnds' } : {}),
+    },
+  };
   return [
     time,
     ...(withBounds ? [{ name: 'time_bnds', type: 'double' as const, dimensions: ['time', 'bnds'], attributes: {} }] : []),
-    { name: 'lat', type: 'double', dimensions: ['lat'], attributes: { standard_name: 'latitude', long_name: 'latitude', units: 'degrees_north', axis: 'Y' } },
-    { name: 'lon', type: 'double', dimensions: ['lon'], attributes: { standard_name: 'longitude', long_name: 'longitude', units: 'degrees_east', axis: 'X' } },
+    {
+      name: 'lat',
+      type: 'double',
+      dimensions: ['lat'],
+      attributes: { standard_name: 'latitude', long_name: 'latitude', units: 'degrees_north', axis: 'Y' },
+    },
+    {
+      name: 'lon',
+      type: 'double',
+      dimensions: ['lon'],
+      attributes: { standard_name: 'longitude', long_name: 'longitude', units: 'degrees_east', axis: 'X' },
+    },
   ];
 }
 
@@ -121,8 +148,23 @@ async function openCfFile(path: string, def: CfFileDef, members: number | undefi
   const variables: NcVariableSpec[] = [...coordinateSpecs(timeUnits, withBounds), ...def.variables.map((v) => variableSpec(v, fieldDims))];
   if (ensemble) {
     variables.push(
-      { name: 'number', type: 'int', dimensions: ['number'], attributes: { standard_name: 'realization', long_name: 'ensemble member number' } },
-      { name: 'forecast_reference_time', type: 'double', dimensions: [], attributes: { standard_name: 'forecast_reference_time', long_name: 'forecast reference time', units: timeUnits, calendar: 'standard' } },
+      {
+        name: 'number',
+        type: 'int',
+        dimensions: ['number'],
+        attributes: { standard_name: 'realization', long_name: 'ensemble member number' },
+      },
+      {
+        name: 'forecast_reference_time',
+        type: 'double',
+        dimensions: [],
+        attributes: {
+          standard_name: 'forecast_reference_time',
+          long_name: 'forecast reference time',
+          units: timeUnits,
+          calendar: 'standard',
+        },
+      },
     );
   }
   const dimensions = [
@@ -133,7 +175,12 @@ async function openCfFile(path: string, def: CfFileDef, members: number | undefi
     ...(withBounds ? [{ name: 'bnds', size: 2 }] : []),
   ];
   const part = `${path}.part`;
-  const writer = await createNetcdfClassic(part, { format: def.format, dimensions, attributes: { Conventions: 'CF-1.8', ...def.globalAttributes }, variables });
+  const writer = await createNetcdfClassic(part, {
+    format: def.format,
+    dimensions,
+    attributes: { Conventions: 'CF-1.8', ...def.globalAttributes },
+    variables,
+  });
   const time = new Float64Array(def.days);
   const bnds = new Float64Array(2 * def.days);
   for (let i = 0; i < def.days; i++) {
@@ -146,7 +193,11 @@ async function openCfFile(path: string, def: CfFileDef, members: number | undefi
   await writer.write('lat', 0, def.grid.lats);
   await writer.write('lon', 0, def.grid.lons);
   if (ensemble) {
-    await writer.write('number', 0, Array.from({ length: members }, (_, m) => m));
+    await writer.write(
+      'number',
+      0,
+      Array.from({ length: members }, (_, m) => m),
+    );
     await writer.write('forecast_reference_time', 0, [0]);
   }
   return {
@@ -168,13 +219,19 @@ async function openCfFile(path: string, def: CfFileDef, members: number | undefi
  * Writes an ensemble file (time, number, lat, lon) one day at a time: `fill(t, out)` gives every variable's
  * members × lat × lon field of day `t` (`out[v]`, NaN = missing). Returns the byte size.
  */
-export async function writeEnsembleFile(path: string, def: CfFileDef, members: number, fill: (t: number, out: readonly Float32Array[]) => void): Promise<number> {
+export async function writeEnsembleFile(
+  path: string,
+  def: CfFileDef,
+  members: number,
+  fill: (t: number, out: readonly Float32Array[]) => void,
+): Promise<number> {
   const f = await openCfFile(path, def, members);
   try {
     const fields = def.variables.map(() => new Float32Array(members * f.cells));
     for (let t = 0; t < def.days; t++) {
       fill(t, fields);
-      for (let v = 0; v < def.variables.length; v++) await f.writer.write(def.variables[v].name, t * fields[v].length, toStored(def.variables[v], fields[v]));
+      for (let v = 0; v < def.variables.length; v++)
+        await f.writer.write(def.variables[v].name, t * fields[v].length, toStored(def.variables[v], fields[v]));
     }
   } catch (err) {
     await f.abandon();
@@ -184,13 +241,18 @@ export async function writeEnsembleFile(path: string, def: CfFileDef, members: n
 }
 
 /** Writes an observed file (time unlimited, lat, lon); `fill(day, out)` gives every variable's field of one day. */
-export async function writeObservedFile(path: string, def: CfFileDef, fill: (day: number, out: readonly Float32Array[]) => void): Promise<number> {
+export async function writeObservedFile(
+  path: string,
+  def: CfFileDef,
+  fill: (day: number, out: readonly Float32Array[]) => void,
+): Promise<number> {
   const f = await openCfFile(path, def, undefined);
   try {
     const fields = def.variables.map(() => new Float32Array(f.cells));
     for (let t = 0; t < def.days; t++) {
       fill(t, fields);
-      for (let v = 0; v < def.variables.length; v++) await f.writer.write(def.variables[v].name, t * f.cells, toStored(def.variables[v], fields[v]));
+      for (let v = 0; v < def.variables.length; v++)
+        await f.writer.write(def.variables[v].name, t * f.cells, toStored(def.variables[v], fields[v]));
     }
   } catch (err) {
     await f.abandon();

@@ -7,8 +7,17 @@
  */
 import { open, type FileHandle } from 'node:fs/promises';
 import {
-  HeaderBuilder, NC_DIMENSION, NC_VARIABLE, TYPE_CODE, TYPE_SIZE, VERSION, encodeValues, padTo4, writeAttributes,
-  type NcFileSpec, type NcVariableSpec,
+  HeaderBuilder,
+  NC_DIMENSION,
+  NC_VARIABLE,
+  TYPE_CODE,
+  TYPE_SIZE,
+  VERSION,
+  encodeValues,
+  padTo4,
+  writeAttributes,
+  type NcFileSpec,
+  type NcVariableSpec,
 } from './netcdf-classic-header.ts';
 
 export type { NcAttribute, NcDimensionSpec, NcFileSpec, NcFormat, NcType, NcVariableSpec } from './netcdf-classic-header.ts';
@@ -38,7 +47,8 @@ export class NetcdfClassicWriter {
     const version = VERSION[spec.format];
     const dims = new Map(spec.dimensions.map((d, i) => [d.name, { ...d, id: i }]));
     const recordDim = spec.dimensions.find((d) => d.unlimited);
-    if (spec.dimensions.filter((d) => d.unlimited).length > 1) throw new RangeError(`${path}: more than one unlimited dimension; the classic format allows one`);
+    if (spec.dimensions.filter((d) => d.unlimited).length > 1)
+      throw new RangeError(`${path}: more than one unlimited dimension; the classic format allows one`);
     const numrecs = recordDim?.size ?? 0;
     const layouts: VariableLayout[] = spec.variables.map((v) => {
       const ds = v.dimensions.map((name) => {
@@ -46,15 +56,26 @@ export class NetcdfClassicWriter {
         if (!d) throw new RangeError(`${path}: variable ${v.name} uses undeclared dimension ${name}; declare it in dimensions`);
         return d;
       });
-      if (ds.slice(1).some((d) => d.unlimited)) throw new RangeError(`${path}: variable ${v.name} has the unlimited dimension not first; move it first`);
+      if (ds.slice(1).some((d) => d.unlimited))
+        throw new RangeError(`${path}: variable ${v.name} has the unlimited dimension not first; move it first`);
       const isRecord = ds.length > 0 && ds[0].unlimited === true;
       const elementsPerRecord = ds.slice(isRecord ? 1 : 0).reduce((p, d) => p * d.size, 1);
       const bytes = elementsPerRecord * TYPE_SIZE[v.type];
-      return { spec: v, isRecord, elementsPerRecord, totalElements: elementsPerRecord * (isRecord ? numrecs : 1), vsize: padTo4(bytes), begin: 0 };
+      return {
+        spec: v,
+        isRecord,
+        elementsPerRecord,
+        totalElements: elementsPerRecord * (isRecord ? numrecs : 1),
+        vsize: padTo4(bytes),
+        begin: 0,
+      };
     });
     const recordVars = layouts.filter((l) => l.isRecord);
     // Spec: with exactly one record variable, records are not padded.
-    const recordSize = recordVars.length === 1 ? recordVars[0].elementsPerRecord * TYPE_SIZE[recordVars[0].spec.type] : recordVars.reduce((s, l) => s + l.vsize, 0);
+    const recordSize =
+      recordVars.length === 1
+        ? recordVars[0].elementsPerRecord * TYPE_SIZE[recordVars[0].spec.type]
+        : recordVars.reduce((s, l) => s + l.vsize, 0);
     const buildHeader = (): Buffer => {
       const h = new HeaderBuilder(version);
       h.raw(Buffer.from([0x43, 0x44, 0x46, version]));

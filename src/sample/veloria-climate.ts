@@ -27,7 +27,7 @@ export function veloriaGrid(resolutionDeg: number): GridSpec {
 }
 
 const gauss = (lat: number, lon: number, lat0: number, lon0: number, sLat: number, sLon: number): number =>
-  Math.exp(-(((lat - lat0) ** 2) / (2 * sLat * sLat) + ((lon - lon0) ** 2) / (2 * sLon * sLon)));
+  Math.exp(-((lat - lat0) ** 2 / (2 * sLat * sLat) + (lon - lon0) ** 2 / (2 * sLon * sLon)));
 
 export function describeCells(grid: GridSpec): CellGeography {
   const cells = grid.lats.length * grid.lons.length;

@@ -86,7 +86,16 @@ interface DayState {
 }
 
 /** Writes the four fields (tasmax, tasmin, tdps in K; precipitation) of one day into `out[v][offset + c]`. */
-function writeDay(g: CellGeography, rng: SeededRandom, day: number, s: DayState, traits: ModelTraits, accum: Float64Array, out: readonly Float32Array[], offset: number): void {
+function writeDay(
+  g: CellGeography,
+  rng: SeededRandom,
+  day: number,
+  s: DayState,
+  traits: ModelTraits,
+  accum: Float64Array,
+  out: readonly Float32Array[],
+  offset: number,
+): void {
   const season = seasonOf(day);
   const clim: DailyClimate = { tmaxC: 0, tminC: 0, dewpointC: 0, precipMmPerDay: 0 };
   const pWet = 0.35 + 0.45 * season.rainSeason;
@@ -101,18 +110,39 @@ function writeDay(g: CellGeography, rng: SeededRandom, day: number, s: DayState,
     const fast = s.fast0 + 0.7 * s.fast1 * g.eastWest[c];
     const slow = s.slow * (1 + 0.3 * g.lowland[c]);
     const heat = s.heat * g.lowland[c];
-    const tmaxC = clim.tmaxC + traits.biasK + SIGMA.tmax.fast * fast + SIGMA.tmax.slow * slow + SIGMA.tmax.local * rng.normal() + HEAT_AMPLITUDE.tmax * heat;
-    const tminC = clim.tminC + traits.biasK + SIGMA.tmin.fast * fast + SIGMA.tmin.slow * slow + SIGMA.tmin.local * rng.normal() + HEAT_AMPLITUDE.tmin * heat;
+    const tmaxC =
+      clim.tmaxC +
+      traits.biasK +
+      SIGMA.tmax.fast * fast +
+      SIGMA.tmax.slow * slow +
+      SIGMA.tmax.local * rng.normal() +
+      HEAT_AMPLITUDE.tmax * heat;
+    const tminC =
+      clim.tminC +
+      traits.biasK +
+      SIGMA.tmin.fast * fast +
+      SIGMA.tmin.slow * slow +
+      SIGMA.tmin.local * rng.normal() +
+      HEAT_AMPLITUDE.tmin * heat;
     const dewC =
-      clim.dewpointC + SIGMA.dewpoint.fast * fast + SIGMA.dewpoint.slow * slow + SIGMA.dewpoint.local * rng.normal() + HEAT_AMPLITUDE.dewpoint * heat + WET_AMPLITUDE.dewpoint * s.wet * g.orrin[c];
-    const rainLog = SIGMA.rain.fast * (s.rainFast0 + 0.7 * s.rainFast1 * g.eastWest[c]) + SIGMA.rain.slow * s.rainSlow + WET_AMPLITUDE.rainLog * s.wet * g.orrin[c] - rainVar / 2;
+      clim.dewpointC +
+      SIGMA.dewpoint.fast * fast +
+      SIGMA.dewpoint.slow * slow +
+      SIGMA.dewpoint.local * rng.normal() +
+      HEAT_AMPLITUDE.dewpoint * heat +
+      WET_AMPLITUDE.dewpoint * s.wet * g.orrin[c];
+    const rainLog =
+      SIGMA.rain.fast * (s.rainFast0 + 0.7 * s.rainFast1 * g.eastWest[c]) +
+      SIGMA.rain.slow * s.rainSlow +
+      WET_AMPLITUDE.rainLog * s.wet * g.orrin[c] -
+      rainVar / 2;
     const meanMm = clim.precipMmPerDay * traits.precipFactor * Math.exp(rainLog);
     const rainMm = rng.uniform() < pWet ? (meanMm / pWet) * -Math.log(1 - rng.uniform()) : 0;
     out[0][i] = tmaxC + 273.15;
     out[1][i] = Math.min(tminC, tmaxC - 1) + 273.15;
     out[2][i] = Math.min(dewC, tmaxC - 1) + 273.15;
     if (traits.precip === 'flux') out[3][i] = rainMm / 86_400;
-    else out[3][i] = (accum[c] += rainMm / 1000);
+    else out[3][i] = accum[c] += rainMm / 1000;
   }
 }
 
@@ -128,7 +158,14 @@ export interface RunSpec {
  * Fills one member's slabs (`out[v]`: days × cells) for a forecast issued on `run.start`. `streamTag` names
  * the file, so every (file, member) has its own reproducible random stream.
  */
-export function fillMember(truth: TruthHistory, run: RunSpec, seed: number, streamTag: string, member: number, out: readonly Float32Array[]): void {
+export function fillMember(
+  truth: TruthHistory,
+  run: RunSpec,
+  seed: number,
+  streamTag: string,
+  member: number,
+  out: readonly Float32Array[],
+): void {
   const rng = createRandom(deriveSeed(seed, streamTag, member));
   const own = { heat: modes(rng, run.days), rain: modes(rng, run.days) };
   const heatFactor = Math.max(0, Math.min(1.5, heatConfidence(run.start) + 0.3 * rng.normal()));
@@ -155,7 +192,12 @@ export function fillMember(truth: TruthHistory, run: RunSpec, seed: number, stre
 }
 
 /** A day-by-day filler of the observations (the truth itself plus local noise), first day `start`. */
-export function observedFiller(truth: TruthHistory, geography: CellGeography, start: number, seed: number): (t: number, out: readonly Float32Array[]) => void {
+export function observedFiller(
+  truth: TruthHistory,
+  geography: CellGeography,
+  start: number,
+  seed: number,
+): (t: number, out: readonly Float32Array[]) => void {
   const rng = createRandom(deriveSeed(seed, 'observed'));
   const traits: ModelTraits = { biasK: 0, precipFactor: 1, precip: 'flux' };
   const accum = new Float64Array(geography.cells);

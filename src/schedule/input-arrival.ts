@@ -67,8 +67,14 @@ export async function waitForInputs(
 /** A timer that an abort clears (so a stopped service does not linger until the next poll). */
 function timer(ms: number, signal: AbortSignal | undefined): Promise<void> {
   return new Promise((resolve) => {
-    const onAbort = () => { clearTimeout(t); resolve(); };
-    const t = setTimeout(() => { signal?.removeEventListener('abort', onAbort); resolve(); }, ms);
+    const onAbort = () => {
+      clearTimeout(t);
+      resolve();
+    };
+    const t = setTimeout(() => {
+      signal?.removeEventListener('abort', onAbort);
+      resolve();
+    }, ms);
     signal?.addEventListener('abort', onAbort, { once: true });
   });
 }
@@ -77,7 +83,10 @@ function timer(ms: number, signal: AbortSignal | undefined): Promise<void> {
 function abortable(p: Promise<void>, signal: AbortSignal | undefined): Promise<void> {
   if (!signal) return p;
   let onAbort = () => {};
-  const aborted = new Promise<void>((resolve) => { onAbort = resolve; signal.addEventListener('abort', onAbort, { once: true }); });
+  const aborted = new Promise<void>((resolve) => {
+    onAbort = resolve;
+    signal.addEventListener('abort', onAbort, { once: true });
+  });
   return Promise.race([p, aborted]).finally(() => signal.removeEventListener('abort', onAbort));
 }
 

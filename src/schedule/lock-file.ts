@@ -17,7 +17,8 @@ export interface LockInfo {
 }
 
 const isLockInfo = jsonShape<LockInfo>({
-  type: 'object', required: ['pid', 'host', 'startedAt'],
+  type: 'object',
+  required: ['pid', 'host', 'startedAt'],
   properties: { pid: { type: 'integer' }, host: { type: 'string' }, startedAt: { type: 'string' } },
 });
 
@@ -28,7 +29,8 @@ export interface HeldLock {
   release(): void;
 }
 
-export type LockResult = { readonly acquired: true; readonly lock: HeldLock } | { readonly acquired: false; readonly holder: LockInfo | null };
+export type LockResult =
+  { readonly acquired: true; readonly lock: HeldLock } | { readonly acquired: false; readonly holder: LockInfo | null };
 
 function readLock(path: string): { text: string; info: LockInfo | null } | null {
   let text: string;
@@ -63,12 +65,23 @@ export function acquireLock(path: string, options: { maxAgeSeconds: number; now?
       const text = JSON.stringify(info) + '\n';
       return {
         acquired: true,
-        lock: { path, info, release: () => { if (readLock(path)?.text === text) rmSync(path, { force: true }); } },
+        lock: {
+          path,
+          info,
+          release: () => {
+            if (readLock(path)?.text === text) rmSync(path, { force: true });
+          },
+        },
       };
     } catch (err) {
       if ((err as NodeJS.ErrnoException).code !== 'EEXIST') {
-        throw new ForelightError('schedule', 'lock-create', `cannot create lock file ${path}: ${(err as Error).message}`,
-          'check that its folder exists and is writable', { cause: err });
+        throw new ForelightError(
+          'schedule',
+          'lock-create',
+          `cannot create lock file ${path}: ${(err as Error).message}`,
+          'check that its folder exists and is writable',
+          { cause: err },
+        );
       }
     }
     const current = readLock(path);

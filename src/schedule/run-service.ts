@@ -92,7 +92,10 @@ export async function runService(options: ServiceOptions): Promise<void> {
 
   const record = (run: RunReport) => {
     try {
-      writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: expr, timezone, nextRun: nextRun(), servicePid: process.pid }, run));
+      writeStatus(
+        statusPath,
+        nextStatus(readStatus(statusPath), { cron: expr, timezone, nextRun: nextRun(), servicePid: process.pid }, run),
+      );
     } catch (err) {
       log.error('could not write the status file', { statusPath, error: describeError(err) });
     }
@@ -138,7 +141,9 @@ export async function runService(options: ServiceOptions): Promise<void> {
     const t = now().getTime();
     if (!due || due.getTime() > t + 1000) return;
     const reason = t - due.getTime() > CATCH_UP_AFTER_MS ? 'catch-up' : 'scheduled';
-    inFlight = runSlot(due, reason).finally(() => { inFlight = null; });
+    inFlight = runSlot(due, reason).finally(() => {
+      inFlight = null;
+    });
   };
 
   const task = wakeAtSlots(expr, timezone, wake);

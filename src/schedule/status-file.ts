@@ -30,8 +30,21 @@ export interface ServiceStatus {
   readonly recentFailures: readonly RunReport[];
 }
 
-export function makeRunReport(reason: RunReport['reason'], startedAt: Date, finishedAt: Date, exitCode: number, summary: string): RunReport {
-  return { reason, startedAt: startedAt.toISOString(), finishedAt: finishedAt.toISOString(), exitCode, exitName: exitCodeName(exitCode), summary };
+export function makeRunReport(
+  reason: RunReport['reason'],
+  startedAt: Date,
+  finishedAt: Date,
+  exitCode: number,
+  summary: string,
+): RunReport {
+  return {
+    reason,
+    startedAt: startedAt.toISOString(),
+    finishedAt: finishedAt.toISOString(),
+    exitCode,
+    exitName: exitCodeName(exitCode),
+    summary,
+  };
 }
 
 /** Write atomically (temporary file + rename) so a reader never sees half a file. */
@@ -43,17 +56,27 @@ const REPORT = {
   type: 'object',
   required: ['reason', 'startedAt', 'finishedAt', 'exitCode', 'exitName', 'summary'],
   properties: {
-    reason: { enum: ['scheduled', 'catch-up', 'manual'] }, startedAt: { type: 'string' }, finishedAt: { type: 'string' },
-    exitCode: { type: 'integer' }, exitName: { type: 'string' }, summary: { type: 'string' },
+    reason: { enum: ['scheduled', 'catch-up', 'manual'] },
+    startedAt: { type: 'string' },
+    finishedAt: { type: 'string' },
+    exitCode: { type: 'integer' },
+    exitName: { type: 'string' },
+    summary: { type: 'string' },
   },
 };
 const isStatus = jsonShape<ServiceStatus>({
   type: 'object',
   required: ['updatedAt', 'pid', 'cron', 'timezone', 'lastRun', 'nextRun', 'consecutiveFailures', 'recentFailures'],
   properties: {
-    updatedAt: { type: 'string' }, pid: { type: 'integer' }, servicePid: { type: ['integer', 'null'] }, cron: { type: 'string' },
-    timezone: { type: 'string' }, lastRun: { anyOf: [REPORT, { type: 'null' }] }, nextRun: { type: ['string', 'null'] },
-    consecutiveFailures: { type: 'integer', minimum: 0 }, recentFailures: { type: 'array', items: REPORT },
+    updatedAt: { type: 'string' },
+    pid: { type: 'integer' },
+    servicePid: { type: ['integer', 'null'] },
+    cron: { type: 'string' },
+    timezone: { type: 'string' },
+    lastRun: { anyOf: [REPORT, { type: 'null' }] },
+    nextRun: { type: ['string', 'null'] },
+    consecutiveFailures: { type: 'integer', minimum: 0 },
+    recentFailures: { type: 'array', items: REPORT },
   },
 });
 
@@ -68,27 +91,48 @@ export function readStatus(path: string): ServiceStatus | null {
   }
   const status = parseShaped(text, isStatus);
   if (status.ok) return status.value;
-  throw new ForelightError('schedule', 'status-corrupt', `status file ${path} is not a status file: ${status.why}`,
-    'delete it; the service writes a new one after its next run');
+  throw new ForelightError(
+    'schedule',
+    'status-corrupt',
+    `status file ${path} is not a status file: ${status.why}`,
+    'delete it; the service writes a new one after its next run',
+  );
 }
 
 /** The status with the service's pid set (at start) or cleared (at stop); the rest is kept. */
-export function withServicePid(previous: ServiceStatus | null, base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun'>, servicePid: number | null, at: Date): ServiceStatus {
+export function withServicePid(
+  previous: ServiceStatus | null,
+  base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun'>,
+  servicePid: number | null,
+  at: Date,
+): ServiceStatus {
   return {
-    updatedAt: at.toISOString(), pid: process.pid, lastRun: null, consecutiveFailures: 0, recentFailures: [], ...previous, ...base, servicePid,
+    updatedAt: at.toISOString(),
+    pid: process.pid,
+    lastRun: null,
+    consecutiveFailures: 0,
+    recentFailures: [],
+    ...previous,
+    ...base,
+    servicePid,
   };
 }
 
 /** "running (pid N)" or why the service is not running, from the status file and a liveness probe of its pid. */
 export function describeService(status: ServiceStatus | null, alive: (pid: number) => boolean): string {
-  if (!status?.servicePid) return `not running (no service has recorded itself${status ? `; last written by process ${status.pid} at ${status.updatedAt}` : ''})`;
+  if (!status?.servicePid)
+    return `not running (no service has recorded itself${status ? `; last written by process ${status.pid} at ${status.updatedAt}` : ''})`;
   return alive(status.servicePid)
     ? `running (pid ${status.servicePid})`
     : `NOT RUNNING: process ${status.servicePid} recorded at ${status.updatedAt} is gone (crashed or killed) — start it again (systemctl start forelight)`;
 }
 
 /** The status after one more run (`base.servicePid` when the service writes it; a manual run keeps the previous one). */
-export function nextStatus(previous: ServiceStatus | null, base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun' | 'servicePid'>, run: RunReport): ServiceStatus {
+export function nextStatus(
+  previous: ServiceStatus | null,
+  base: Pick<ServiceStatus, 'cron' | 'timezone' | 'nextRun' | 'servicePid'>,
+  run: RunReport,
+): ServiceStatus {
   const failed = !['ok', 'nothingNew', 'inputProblem', 'stopped'].includes(run.exitName);
   return {
     updatedAt: run.finishedAt,

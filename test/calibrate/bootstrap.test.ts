@@ -18,7 +18,10 @@ describe('fair Brier score and year-block bootstrap vs numpy/scipy (reference_bo
   const rand = mulberry32(20261202);
   const gauss = normal(rand);
   // 20 years × 3 pooled starts; 11-member ensembles (i of m above); outcome correlated with the forecast.
-  const year: number[] = [], i: number[] = [], m: number[] = [], o: number[] = [];
+  const year: number[] = [],
+    i: number[] = [],
+    m: number[] = [],
+    o: number[] = [];
   for (let y = 0; y < 20; y++) {
     const signal = gauss();
     for (let s = 0; s < 3; s++) {
@@ -32,21 +35,30 @@ describe('fair Brier score and year-block bootstrap vs numpy/scipy (reference_bo
     }
   }
   const cases: VerificationCases = {
-    p: Float64Array.from(i, (x, k) => x / m[k]), members: Float64Array.from(m), o: Float64Array.from(o),
-    caseYears: Float64Array.from(year), years: [...new Set(year)],
+    p: Float64Array.from(i, (x, k) => x / m[k]),
+    members: Float64Array.from(m),
+    o: Float64Array.from(o),
+    caseYears: Float64Array.from(year),
+    years: [...new Set(year)],
   };
   const samples = [Array.from({ length: 19 }, gauss), Array.from({ length: 209 }, () => 30 + 2 * gauss())];
   const qs = [0, 5, 10, 50, 75, 90, 95, 100];
   const resamples = 20000;
-  const ref = JSON.parse(execFileSync('/usr/bin/python3', [script], { input: JSON.stringify({ i, m, o, year, resamples, seed: 7, samples, qs }) }).toString());
+  const ref = JSON.parse(
+    execFileSync('/usr/bin/python3', [script], { input: JSON.stringify({ i, m, o, year, resamples, seed: 7, samples, qs }) }).toString(),
+  );
 
   it('fair Brier score and fair BSS equal numpy to 1e-12 (mixed 11- and 51-member cases)', () => {
     expect(Math.abs(fairBrierScoreFerro2014(cases.p, cases.members, cases.o) - ref.fair_bs)).toBeLessThan(1e-12);
     expect(Math.abs(fairBrierSkillScore(cases.p, cases.members, cases.o) - ref.fair_bss)).toBeLessThan(1e-12);
   });
-  it('90 % intervals of BSS, fair BSS and ROC area agree with numpy\'s bootstrap within Monte-Carlo error (0.02 at 20000 resamples)', () => {
+  it("90 % intervals of BSS, fair BSS and ROC area agree with numpy's bootstrap within Monte-Carlo error (0.02 at 20000 resamples)", () => {
     const ours = yearBlockBootstrap(cases, { resamples, seed: 7 });
-    const pairs: [typeof ours.rocArea, number[]][] = [[ours.brierSkillScore, ref.bss], [ours.fairBrierSkillScore, ref.fair], [ours.rocArea, ref.auc]];
+    const pairs: [typeof ours.rocArea, number[]][] = [
+      [ours.brierSkillScore, ref.bss],
+      [ours.fairBrierSkillScore, ref.fair],
+      [ours.rocArea, ref.auc],
+    ];
     for (const [iv, r] of pairs) {
       expect(Math.abs(iv.low - r[0])).toBeLessThan(0.02);
       expect(Math.abs(iv.high - r[1])).toBeLessThan(0.02);
@@ -58,7 +70,9 @@ describe('fair Brier score and year-block bootstrap vs numpy/scipy (reference_bo
     expect(yearBlockBootstrap(cases, { resamples: 1000, seed: 4 }).brierSkillScore).not.toEqual(a.brierSkillScore);
   });
   it("Weibull percentile (Hyndman-Fan type 6) = numpy.percentile(method='weibull')", () => {
-    samples.forEach((x, k) => qs.forEach((q, j) => expect(Math.abs(percentileLinear(x, q, 'weibull') - ref.weibull[k][j])).toBeLessThan(1e-9)));
+    samples.forEach((x, k) =>
+      qs.forEach((q, j) => expect(Math.abs(percentileLinear(x, q, 'weibull') - ref.weibull[k][j])).toBeLessThan(1e-9)),
+    );
   });
 });
 
@@ -67,7 +81,9 @@ describe('fairness (Ferro 2014, section 2: the expected fair score does not depe
     const gauss = normal(mulberry32(11));
     for (const members of [5, 50]) {
       const n = 4000;
-      const p = new Float64Array(n), mm = new Float64Array(n).fill(members), o = new Float64Array(n);
+      const p = new Float64Array(n),
+        mm = new Float64Array(n).fill(members),
+        o = new Float64Array(n);
       for (let k = 0; k < n; k++) {
         let above = 0;
         for (let j = 0; j < members; j++) if (gauss() > 0.5) above++;

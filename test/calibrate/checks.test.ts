@@ -7,12 +7,27 @@ import { describe, expect, it } from 'vitest';
 import { exceedanceFraction } from '../../src/calibrate/probability.ts';
 import { percentileLinear } from '../../src/core/percentile.ts';
 import {
-  brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, falseAlarmRatio, hitRate,
-  murphyDecomposition1973, peirceSkillScore, relativeEconomicValueRichardson2000, rocArea,
+  brierScore1950,
+  brierSkillScoreSampleClimatology,
+  contingencyTable,
+  falseAlarmRate,
+  falseAlarmRatio,
+  hitRate,
+  murphyDecomposition1973,
+  peirceSkillScore,
+  relativeEconomicValueRichardson2000,
+  rocArea,
 } from '../../src/calibrate/verify.ts';
 
-interface Row { id: string; quantity: string; inputs: Record<string, unknown>; expected: number; tolerance: number; source: string }
-const rows = (JSON.parse(readFileSync(new URL('../reference/checks.json', import.meta.url), 'utf8')) as Row[]);
+interface Row {
+  id: string;
+  quantity: string;
+  inputs: Record<string, unknown>;
+  expected: number;
+  tolerance: number;
+  source: string;
+}
+const rows = JSON.parse(readFileSync(new URL('../reference/checks.json', import.meta.url), 'utf8')) as Row[];
 
 type In = Record<string, any>;
 const table = (i: In) => contingencyTable(i.p, i.o, i.warn_if_p_ge);
@@ -27,7 +42,18 @@ const HANDLERS: Record<string, (i: In) => number> = {
   false_alarm_ratio: (i) => falseAlarmRatio(table(i)),
   peirce_skill_score: (i) => peirceSkillScore(table(i)),
   relative_economic_value: (i) => relativeEconomicValueRichardson2000(i.hit_rate, i.false_alarm_rate, i.base_rate, i.cost_loss),
-  ensemble_exceedance_probability: (i) => exceedanceFraction(i.members, i.threshold, i.rule === 'x > threshold' ? '>' : i.rule === 'x >= threshold' ? '>=' : (() => { throw new Error(`unknown rule ${i.rule}`); })()).probability,
+  ensemble_exceedance_probability: (i) =>
+    exceedanceFraction(
+      i.members,
+      i.threshold,
+      i.rule === 'x > threshold'
+        ? '>'
+        : i.rule === 'x >= threshold'
+          ? '>='
+          : (() => {
+              throw new Error(`unknown rule ${i.rule}`);
+            })(),
+    ).probability,
   percentile95_linear: (i) => percentileLinear(i.sample_c, 95),
 };
 
@@ -44,7 +70,11 @@ describe('checks.json rows (calibrate)', () => {
   }
   it('every row of the handled quantities was exercised', () => {
     expect(mine.length).toBeGreaterThanOrEqual(15);
-    for (const q of Object.keys(HANDLERS)) expect(mine.some((r) => r.quantity === q), q).toBe(true);
+    for (const q of Object.keys(HANDLERS))
+      expect(
+        mine.some((r) => r.quantity === q),
+        q,
+      ).toBe(true);
     expect([...exercised].sort()).toEqual(mine.map((r) => r.id).sort());
   });
 });

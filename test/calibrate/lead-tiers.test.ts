@@ -9,7 +9,16 @@ function daysFrom(start: string, n: number): string[] {
 }
 
 function series(days: string[], rows: number[][]): IndicatorSeries {
-  return { region: 'kessan-lowlands', indicator: 'tmax-mean', units: 'degC', days, members: rows.length, data: Float64Array.from(rows.flat()), outOfRange: 0, missing: 0 };
+  return {
+    region: 'kessan-lowlands',
+    indicator: 'tmax-mean',
+    units: 'degC',
+    days,
+    members: rows.length,
+    data: Float64Array.from(rows.flat()),
+    outOfRange: 0,
+    missing: 0,
+  };
 }
 
 describe('buildLeadSpans', () => {
@@ -36,7 +45,10 @@ describe('buildLeadSpans', () => {
   });
   it('months: a series ending exactly on a month end gives no extra, empty month (malaria target months do)', () => {
     const s = buildLeadSpans(daysFrom('2027-01-01', 31 + 28), 'months');
-    expect(s.map((x) => [x.lead.start, x.lead.end])).toEqual([['2027-01-01', '2027-01-31'], ['2027-02-01', '2027-02-28']]);
+    expect(s.map((x) => [x.lead.start, x.lead.end])).toEqual([
+      ['2027-01-01', '2027-01-31'],
+      ['2027-02-01', '2027-02-28'],
+    ]);
   });
   it('a gap in the local days throws a one-line error naming the days', () => {
     expect(() => buildLeadSpans(['2026-11-27', '2026-11-29'], 'days')).toThrow(/2026-11-27 to 2026-11-29/);
@@ -68,13 +80,37 @@ describe('combineSources', () => {
   const w = (index: number, start: string, end: string): { lead: LeadWindow } => ({ lead: { tier: 'weeks', index, start, end } });
   it('the higher-priority source wins an overlap, newer issue breaks ties, tiers never compete, and the rule is returned', () => {
     const r = combineSources([
-      { source: 'seasonal', priority: 3, issued: '2026-11-01T00:00:00Z', leads: [w(4, '2026-11-22', '2026-11-28'), w(5, '2026-11-29', '2026-12-05'), w(6, '2026-12-13', '2026-12-19')] },
-      { source: 'subseasonal', priority: 2, issued: '2026-11-26T00:00:00Z', leads: [w(1, '2026-11-27', '2026-12-03'), w(2, '2026-12-04', '2026-12-10')] },
+      {
+        source: 'seasonal',
+        priority: 3,
+        issued: '2026-11-01T00:00:00Z',
+        leads: [w(4, '2026-11-22', '2026-11-28'), w(5, '2026-11-29', '2026-12-05'), w(6, '2026-12-13', '2026-12-19')],
+      },
+      {
+        source: 'subseasonal',
+        priority: 2,
+        issued: '2026-11-26T00:00:00Z',
+        leads: [w(1, '2026-11-27', '2026-12-03'), w(2, '2026-12-04', '2026-12-10')],
+      },
       { source: 'subseasonal-old', priority: 2, issued: '2026-11-23T00:00:00Z', leads: [w(1, '2026-11-24', '2026-11-30')] },
-      { source: 'short', priority: 1, issued: '2026-11-26T00:00:00Z', leads: [{ lead: { tier: 'days', index: 1, start: '2026-11-27', end: '2026-11-27' } }] },
+      {
+        source: 'short',
+        priority: 1,
+        issued: '2026-11-26T00:00:00Z',
+        leads: [{ lead: { tier: 'days', index: 1, start: '2026-11-27', end: '2026-11-27' } }],
+      },
     ]);
-    expect(r.kept.map((k) => `${k.source}:${k.item.lead.tier}${k.item.lead.index}`)).toEqual(['short:days1', 'subseasonal:weeks1', 'subseasonal:weeks2', 'seasonal:weeks6']);
-    expect(r.dropped.map((d) => `${d.source}:${d.item.lead.index}<${d.coveredBy}`)).toEqual(['subseasonal-old:1<subseasonal', 'seasonal:4<subseasonal', 'seasonal:5<subseasonal']);
+    expect(r.kept.map((k) => `${k.source}:${k.item.lead.tier}${k.item.lead.index}`)).toEqual([
+      'short:days1',
+      'subseasonal:weeks1',
+      'subseasonal:weeks2',
+      'seasonal:weeks6',
+    ]);
+    expect(r.dropped.map((d) => `${d.source}:${d.item.lead.index}<${d.coveredBy}`)).toEqual([
+      'subseasonal-old:1<subseasonal',
+      'seasonal:4<subseasonal',
+      'seasonal:5<subseasonal',
+    ]);
     expect(r.rule).toBe(COMBINE_RULE);
   });
 });

@@ -17,10 +17,16 @@ function forecast(leads: number, members = ENS, tier: 'days' | 'weeks' = 'weeks'
 
 function request(over: Partial<ProbabilityRequest>): ProbabilityRequest {
   return {
-    source: 'subseasonal', region: 'marrow-highlands', indicator: 'tmax-week', units: 'degC',
-    forecast: forecast(3), hindcast: climate(YEARS_2006_2025, 10, leadsOf('weeks', 3), (y, m) => 30 + (y * 10 + m) / 100),
-    observed: null, threshold: { kind: 'absolute', value: 32, units: 'degC' },
-    calibration: { minMembers: 10, minHindcastYears: 10 }, ...over,
+    source: 'subseasonal',
+    region: 'marrow-highlands',
+    indicator: 'tmax-week',
+    units: 'degC',
+    forecast: forecast(3),
+    hindcast: climate(YEARS_2006_2025, 10, leadsOf('weeks', 3), (y, m) => 30 + (y * 10 + m) / 100),
+    observed: null,
+    threshold: { kind: 'absolute', value: 32, units: 'degC' },
+    calibration: { minMembers: 10, minHindcastYears: 10 },
+    ...over,
   };
 }
 
@@ -49,7 +55,9 @@ describe('leadProbabilities', () => {
     const warm = climate(YEARS_2006_2025, 10, leadsOf('weeks', 3), (y, m) => 31 + (y * 10 + m) / 1000);
     const [p] = leadProbabilities(request({ hindcast: warm, observed, threshold: { kind: 'absolute', value: 30.15, units: 'degC' } }));
     expect(p.baseRate).toBeCloseTo(4 / 20, 12);
-    const [q] = leadProbabilities(request({ hindcast: warm, observed: null, threshold: { kind: 'absolute', value: 30.15, units: 'degC' } }));
+    const [q] = leadProbabilities(
+      request({ hindcast: warm, observed: null, threshold: { kind: 'absolute', value: 30.15, units: 'degC' } }),
+    );
     expect(q.baseRate).toBe(1); // without observations: the model's own (biased) frequency
   });
   it('skill summaries are attached by lead index', () => {
@@ -58,7 +66,9 @@ describe('leadProbabilities', () => {
     expect(out.map((p) => p.skill)).toEqual([null, s, null]);
   });
   it('hindcasts shorter than the forecast: uncovered leads uncalibrated with a clear message, others go on', () => {
-    const out = leadProbabilities(request({ hindcast: climate(YEARS_2006_2025, 10, leadsOf('weeks', 2), () => 30) , threshold: { kind: 'percentile', percentile: 90 } }));
+    const out = leadProbabilities(
+      request({ hindcast: climate(YEARS_2006_2025, 10, leadsOf('weeks', 2), () => 30), threshold: { kind: 'percentile', percentile: 90 } }),
+    );
     expect(out.map((p) => p.calibrated)).toEqual([true, true, false]);
     expect(out[2].flags).toContain('uncalibrated: hindcasts of subseasonal do not cover lead week 3');
     expect(out[2].probability).toBeNaN();
@@ -66,9 +76,13 @@ describe('leadProbabilities', () => {
     expect(out[0].probability).toBeCloseTo(0.7, 12); // threshold 30: all members but 29.8, 30.0, 28.9
   });
   it('hindcasts with a different member count (usual in operations, 11 against 51): named in a flag, leads stay calibrated on the pooled climate', () => {
-    const out = leadProbabilities(request({ hindcast: climate(YEARS_2006_2025, 11, leadsOf('weeks', 3), () => 30), threshold: { kind: 'percentile', percentile: 90 } }));
+    const out = leadProbabilities(
+      request({ hindcast: climate(YEARS_2006_2025, 11, leadsOf('weeks', 3), () => 30), threshold: { kind: 'percentile', percentile: 90 } }),
+    );
     expect(out.every((p) => p.calibrated)).toBe(true);
-    expect(out[0].flags).toContain('hindcast-members: hindcasts have 11 members per year, the forecast 10; thresholds pool all hindcast years × members, skill was measured with 11-member ensembles');
+    expect(out[0].flags).toContain(
+      'hindcast-members: hindcasts have 11 members per year, the forecast 10; thresholds pool all hindcast years × members, skill was measured with 11-member ensembles',
+    );
     expect(out[0].threshold.value).toBe(30);
   });
   it('uncalibrated percentile lead falls back to the observed climatology, labelled "not model climate"', () => {
@@ -87,14 +101,23 @@ describe('leadProbabilities', () => {
     const [p] = leadProbabilities(request({ forecast: f, hindcast: climate(YEARS_2006_2025, 10, leadsOf('weeks', 3), () => 30) }));
     expect(p.validMembers).toBe(8);
     expect(p.probability).toBeCloseTo(3 / 8, 12);
-    expect(p.flags).toEqual(['missing-members: 2 of 10 members have no value at lead week 1', 'few-members: 8 valid members < 10; the probability moves in steps of 1/8 (12.5 %)']);
+    expect(p.flags).toEqual([
+      'missing-members: 2 of 10 members have no value at lead week 1',
+      'few-members: 8 valid members < 10; the probability moves in steps of 1/8 (12.5 %)',
+    ]);
   });
   it('quantile mapping at week leads when observations are configured; not at day leads', () => {
     const obs = climate(YEARS_2006_2025, 1, leadsOf('weeks', 3), (y) => 31 + y / 10);
     const hcWarm = climate(YEARS_2006_2025, 10, leadsOf('weeks', 3), (y) => 33 + y / 10);
     const [w] = leadProbabilities(request({ observed: obs, hindcast: hcWarm }));
     expect(w.threshold.value).toBeCloseTo(34, 12); // 32 is the observed median → model median 34
-    const d = leadProbabilities(request({ forecast: forecast(1, ENS, 'days'), observed: climate(YEARS_2006_2025, 1, leadsOf('days', 1), (y) => 31 + y / 10), hindcast: climate(YEARS_2006_2025, 10, leadsOf('days', 1), (y) => 33 + y / 10) }));
+    const d = leadProbabilities(
+      request({
+        forecast: forecast(1, ENS, 'days'),
+        observed: climate(YEARS_2006_2025, 1, leadsOf('days', 1), (y) => 31 + y / 10),
+        hindcast: climate(YEARS_2006_2025, 10, leadsOf('days', 1), (y) => 33 + y / 10),
+      }),
+    );
     expect(d[0].threshold.value).toBe(32);
     expect(d[0].threshold.origin).toMatch(/short range: not quantile-mapped/);
   });

@@ -7,8 +7,13 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { percentileLinear } from '../../src/core/percentile.ts';
 import {
-  brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, falseAlarmRate, hitRate,
-  relativeEconomicValueRichardson2000, rocArea,
+  brierScore1950,
+  brierSkillScoreSampleClimatology,
+  contingencyTable,
+  falseAlarmRate,
+  hitRate,
+  relativeEconomicValueRichardson2000,
+  rocArea,
 } from '../../src/calibrate/verify.ts';
 import { mulberry32, normal } from '../support/rng.ts';
 
@@ -29,7 +34,11 @@ describe('scores vs numpy/scipy reference_scores.py', () => {
     Array.from({ length: 220 }, () => Math.round(10 * gauss()) / 4), // many ties
   ];
   const qs = [0, 5, 10, 33.3, 50, 90, 95, 97.5, 100];
-  const ref = JSON.parse(execFileSync('/usr/bin/python3', [script], { input: JSON.stringify({ p, o, thresholds, alphas, percentile_samples: samples, qs }) }).toString());
+  const ref = JSON.parse(
+    execFileSync('/usr/bin/python3', [script], {
+      input: JSON.stringify({ p, o, thresholds, alphas, percentile_samples: samples, qs }),
+    }).toString(),
+  );
 
   it('Brier score and BSS (numpy)', () => {
     expect(Math.abs(brierScore1950(p, o) - ref.bs)).toBeLessThan(1e-9);
@@ -46,7 +55,9 @@ describe('scores vs numpy/scipy reference_scores.py', () => {
       expect(Math.abs(h - ref.rates[k].H)).toBeLessThan(1e-9);
       expect(Math.abs(f - ref.rates[k].F)).toBeLessThan(1e-9);
       const s = o.reduce((a, b) => a + b, 0) / n;
-      alphas.forEach((al, j) => expect(Math.abs(relativeEconomicValueRichardson2000(h, f, s, al) - ref.rates[k].rev[j])).toBeLessThan(1e-9));
+      alphas.forEach((al, j) =>
+        expect(Math.abs(relativeEconomicValueRichardson2000(h, f, s, al) - ref.rates[k].rev[j])).toBeLessThan(1e-9),
+      );
     });
   });
   it("percentile = numpy.percentile(method='linear') on random samples", () => {

@@ -18,7 +18,9 @@ writeFileSync(obs, 'observations');
 describe('hashFiles', () => {
   it('equals sha256 over the lines "<sha256sum of each file>\\n" (coreutils sha256sum)', async () => {
     const sums = [a, b].map((f) => execFileSync('sha256sum', [f]).toString().split(' ')[0]);
-    const want = execFileSync('sha256sum', [], { input: sums.map((s) => `${s}\n`).join('') }).toString().split(' ')[0];
+    const want = execFileSync('sha256sum', [], { input: sums.map((s) => `${s}\n`).join('') })
+      .toString()
+      .split(' ')[0];
     expect(await hashFiles([a, b])).toBe(want);
   });
   it('a missing file gives a one-line error naming it', async () => {
@@ -31,7 +33,10 @@ describe('cachedSkill', () => {
     const cacheDir = join(dir, 'cache');
     const key = await skillCacheKey({ hindcastFiles: [a, b], observationsFile: obs, configFingerprint: fingerprint({ x: 1, y: [2] }) });
     let calls = 0;
-    const compute = () => { calls++; return { bs: NaN, top: Infinity, low: -Infinity, rows: [{ n: 1.5 }] }; };
+    const compute = () => {
+      calls++;
+      return { bs: NaN, top: Infinity, low: -Infinity, rows: [{ n: 1.5 }] };
+    };
     const first = await cachedSkill(cacheDir, key, compute);
     const second = await cachedSkill(cacheDir, key, compute);
     expect(calls).toBe(1);

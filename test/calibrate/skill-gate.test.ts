@@ -15,10 +15,21 @@ import { climate, leadsOf } from './climate-fixture.ts';
 import { mulberry32, normal } from '../support/rng.ts';
 
 const YEARS = Array.from({ length: 20 }, (_, i) => 2006 + i);
-const gate: DecisionConfig['skillGate'] = { ...SKILL_GATE_DEFAULTS, poolLeads: { ...SKILL_GATE_DEFAULTS.poolLeads }, action: 'say-no-skill' };
+const gate: DecisionConfig['skillGate'] = {
+  ...SKILL_GATE_DEFAULTS,
+  poolLeads: { ...SKILL_GATE_DEFAULTS.poolLeads },
+  action: 'say-no-skill',
+};
 
 /** Share of pooling windows that pass, over `runs` simulated hindcast sets of `leads` leads. */
-function passRate(tier: Tier, leads: number, runs: number, seed: number, noise: number | null, g = gate): { rate: number; windows: number } {
+function passRate(
+  tier: Tier,
+  leads: number,
+  runs: number,
+  seed: number,
+  noise: number | null,
+  g = gate,
+): { rate: number; windows: number } {
   const gauss = normal(mulberry32(seed));
   let passed = 0;
   let windows = 0;
@@ -28,7 +39,14 @@ function passRate(tier: Tier, leads: number, runs: number, seed: number, noise: 
     // noise null: no skill (observations independent of the members); else shared signal plus noise.
     const hc = climate(YEARS, 11, ls, (y, _m, l) => (noise === null ? gauss() : signal[y][l] + noise * gauss()));
     const obs = climate(YEARS, 1, ls, (y, _m, l) => (noise === null ? gauss() : signal[y][l] + noise * gauss()));
-    const reports = skillReports({ hindcast: hc, observed: obs, threshold: { kind: 'percentile', percentile: 90 }, stageProbabilities: [], gate: g, minHindcastYears: 15 });
+    const reports = skillReports({
+      hindcast: hc,
+      observed: obs,
+      threshold: { kind: 'percentile', percentile: 90 },
+      stageProbabilities: [],
+      gate: g,
+      minHindcastYears: 15,
+    });
     const seen = new Set<string>();
     for (const rep of reports) {
       if (seen.has(rep.summary.gate.leads)) continue;
@@ -76,7 +94,14 @@ describe('pooling windows', () => {
     const signal = YEARS.map(() => ls.map(() => gauss()));
     const hc = climate(YEARS, 11, ls, (y, _m, l) => signal[y][l] + 0.8 * gauss());
     const obs = climate(YEARS, 1, ls, (y, _m, l) => signal[y][l] + 0.8 * gauss());
-    const reps = skillReports({ hindcast: hc, observed: obs, threshold: { kind: 'percentile', percentile: 90 }, stageProbabilities: [], gate, minHindcastYears: 15 });
+    const reps = skillReports({
+      hindcast: hc,
+      observed: obs,
+      threshold: { kind: 'percentile', percentile: 90 },
+      stageProbabilities: [],
+      gate,
+      minHindcastYears: 15,
+    });
     const first = reps.slice(0, 7).map((r) => r.summary.gate);
     expect(new Set(first.map((g) => JSON.stringify(g))).size).toBe(1);
     expect(first[0].leads).toBe('days 1–7');

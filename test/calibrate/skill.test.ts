@@ -12,7 +12,15 @@ const gate = { floor: 0, minEvents: 5, poolLeads: { days: 7, weeks: 1, months: 1
 const years = (n: number) => Array.from({ length: n }, (_, i) => 1000 + i);
 
 function req(over: Partial<SkillRequest>): SkillRequest {
-  return { hindcast: climate([2006], 1, leadsOf('days', 1), () => 0), observed: null, threshold: { kind: 'percentile', percentile: 80 }, stageProbabilities: [0.3, 0.6], gate, minHindcastYears: 10, ...over };
+  return {
+    hindcast: climate([2006], 1, leadsOf('days', 1), () => 0),
+    observed: null,
+    threshold: { kind: 'percentile', percentile: 80 },
+    stageProbabilities: [0.3, 0.6],
+    gate,
+    minHindcastYears: 10,
+    ...over,
+  };
 }
 
 describe('synthetic truth', () => {
@@ -20,7 +28,13 @@ describe('synthetic truth', () => {
     const g = normal(mulberry32(1));
     const truth = Array.from({ length: 60 }, g);
     const leads = leadsOf('days', 1);
-    const [r] = skillReports(req({ hindcast: climate(years(60), 10, leads, (y) => truth[y]), observed: climate(years(60), 1, leads, (y) => truth[y]), threshold: { kind: 'absolute', value: 0.5, units: 'degC' } }));
+    const [r] = skillReports(
+      req({
+        hindcast: climate(years(60), 10, leads, (y) => truth[y]),
+        observed: climate(years(60), 1, leads, (y) => truth[y]),
+        threshold: { kind: 'absolute', value: 0.5, units: 'degC' },
+      }),
+    );
     expect(r.basis).toBe('observed');
     expect(r.cases).toBe(60);
     expect(r.brierSkillScore).toBe(1);
@@ -67,7 +81,9 @@ describe('synthetic truth', () => {
   });
   it('climatological ensemble, potential skill: BSS ≈ -1/(N-1) with N - 1 = 9 forecast members, ROC ≈ 0.5', () => {
     const g = normal(mulberry32(4));
-    const [r] = skillReports(req({ hindcast: climate(years(300), 10, leadsOf('weeks', 1), () => g()), threshold: { kind: 'percentile', percentile: 70 } }));
+    const [r] = skillReports(
+      req({ hindcast: climate(years(300), 10, leadsOf('weeks', 1), () => g()), threshold: { kind: 'percentile', percentile: 70 } }),
+    );
     expect(r.cases).toBe(3000);
     expect(Math.abs(r.brierSkillScore + 1 / 9)).toBeLessThan(0.04);
     expect(Math.abs(r.rocArea - 0.5)).toBeLessThan(0.04);

@@ -4,8 +4,13 @@ import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { distinctYears, leadSample, stackYears, startsWithinWindow } from '../../src/calibrate/climate.ts';
 import { percentileLinear, percentRankOfSorted, percentileOfSortedWithout, sortValid } from '../../src/core/percentile.ts';
 import {
-  absoluteThreshold, climatePercentileThreshold, leaveOneYearOutThresholds, ordinal, quantileMappedThreshold,
-  quantileMappedThresholdObject, resolveThresholdSpec,
+  absoluteThreshold,
+  climatePercentileThreshold,
+  leaveOneYearOutThresholds,
+  ordinal,
+  quantileMappedThreshold,
+  quantileMappedThresholdObject,
+  resolveThresholdSpec,
 } from '../../src/calibrate/thresholds.ts';
 import type { IndicatorConfig } from '../../src/config/types.ts';
 import { climate, leadsOf, YEARS_2006_2025 } from './climate-fixture.ts';
@@ -45,10 +50,23 @@ describe('model-climate percentile thresholds', () => {
     }
   });
   it('ordinals', () => {
-    expect([1, 2, 3, 11, 12, 13, 21, 90, 97.5].map(ordinal)).toEqual(['1st', '2nd', '3rd', '11th', '12th', '13th', '21st', '90th', '97.5th']);
+    expect([1, 2, 3, 11, 12, 13, 21, 90, 97.5].map(ordinal)).toEqual([
+      '1st',
+      '2nd',
+      '3rd',
+      '11th',
+      '12th',
+      '13th',
+      '21st',
+      '90th',
+      '97.5th',
+    ]);
   });
   it('region override of the threshold spec', () => {
-    const ind = { threshold: { kind: 'percentile', percentile: 90 }, regionThresholds: { 'tulva-delta': { kind: 'absolute', value: 35, units: 'degC' } } } as unknown as IndicatorConfig;
+    const ind = {
+      threshold: { kind: 'percentile', percentile: 90 },
+      regionThresholds: { 'tulva-delta': { kind: 'absolute', value: 35, units: 'degC' } },
+    } as unknown as IndicatorConfig;
     expect(resolveThresholdSpec(ind, 'tulva-delta')).toEqual({ kind: 'absolute', value: 35, units: 'degC' });
     expect(resolveThresholdSpec(ind, 'orrin-coast')).toEqual({ kind: 'percentile', percentile: 90 });
   });
@@ -70,7 +88,9 @@ describe('absolute thresholds and empirical quantile mapping', () => {
     expect(quantileMappedThreshold(30.3, obs, warm, 1).value).toBeCloseTo(32.3, 12);
     const { threshold, clipped } = quantileMappedThresholdObject({ value: 30.3, units: 'degC' }, obs, warm, 1, weeks[1]);
     expect(clipped).toBe(false);
-    expect(threshold.origin).toMatch(/^absolute 30.3 degC quantile-mapped to 32.3 degC \(percent rank [\d.]+ in observations 2006–2025, 20 values → same percentile of hindcasts 2006–2025, 20 values\), lead week 2$/);
+    expect(threshold.origin).toMatch(
+      /^absolute 30.3 degC quantile-mapped to 32.3 degC \(percent rank [\d.]+ in observations 2006–2025, 20 values → same percentile of hindcasts 2006–2025, 20 values\), lead week 2$/,
+    );
   });
   it('outside the observed range: clipped to the model extreme, no extrapolation', () => {
     const r = quantileMappedThreshold(99, obs, hc, 0);
@@ -84,7 +104,12 @@ describe('absolute thresholds and empirical quantile mapping', () => {
 
 describe('pooled starts (±windowDays)', () => {
   it('startsWithinWindow is circular over the year end', () => {
-    expect(startsWithinWindow('2026-11-26', ['11-19', '11-23', '11-26', '11-30', '12-04'], 7)).toEqual(['11-19', '11-23', '11-26', '11-30']);
+    expect(startsWithinWindow('2026-11-26', ['11-19', '11-23', '11-26', '11-30', '12-04'], 7)).toEqual([
+      '11-19',
+      '11-23',
+      '11-26',
+      '11-30',
+    ]);
     expect(startsWithinWindow('2026-12-30', ['01-02', '01-10'], 5)).toEqual(['01-02']);
   });
   it('leave-one-year-out removes every start of the year; distinct years are counted', () => {
@@ -97,8 +122,16 @@ describe('pooled starts (±windowDays)', () => {
 
 describe('stackYears', () => {
   it('a year with a different member count is left out with a problem line; others go on', () => {
-    const lv = (members: number, nLeads: number) => ({ leads: leadsOf('weeks', nLeads), members, values: new Float64Array(members * nLeads).fill(1) });
-    const r = stackYears('subseasonal hindcasts', 'degC', [{ year: 2006, leads: lv(11, 3) }, { year: 2007, leads: lv(10, 3) }, { year: 2008, leads: lv(11, 2) }]);
+    const lv = (members: number, nLeads: number) => ({
+      leads: leadsOf('weeks', nLeads),
+      members,
+      values: new Float64Array(members * nLeads).fill(1),
+    });
+    const r = stackYears('subseasonal hindcasts', 'degC', [
+      { year: 2006, leads: lv(11, 3) },
+      { year: 2007, leads: lv(10, 3) },
+      { year: 2008, leads: lv(11, 2) },
+    ]);
     expect(r.climate!.years).toEqual([2006, 2008]);
     expect(r.problems.map(formatDiagnostic)).toEqual([expect.stringMatching(/year 2007 has 10 members, year 2006 has 11/)]);
     expect(r.problems.map((d) => d.code)).toEqual(['hindcast-members']);

@@ -1,8 +1,16 @@
 /** Verification details beyond the checks.json numbers: CHECKS.md §12 hand check of the 12-case example. */
 import { describe, expect, it } from 'vitest';
 import {
-  bestProbabilityThreshold, brierScore1950, brierSkillScoreSampleClimatology, contingencyTable, hitRate,
-  murphyDecomposition1973, reliabilityTable, rocPoints, valueEnvelope, VALUE_ALPHAS,
+  bestProbabilityThreshold,
+  brierScore1950,
+  brierSkillScoreSampleClimatology,
+  contingencyTable,
+  hitRate,
+  murphyDecomposition1973,
+  reliabilityTable,
+  rocPoints,
+  valueEnvelope,
+  VALUE_ALPHAS,
 } from '../../src/calibrate/verify.ts';
 
 // CHECKS.md §12 invented example.
@@ -12,9 +20,18 @@ const O = [0, 0, 0, 1, 0, 1, 0, 1, 1, 0, 1, 1];
 describe('verification (CHECKS.md §12 hand check)', () => {
   it('ROC points (0,0), (0,1/3), (1/6,2/3), (1/2,5/6), (1,1)', () => {
     const pts = rocPoints(P, O).map((q) => [q.falseAlarmRate, q.hitRate]);
-    const want = [[0, 0], [0, 1 / 3], [1 / 6, 2 / 3], [1 / 2, 5 / 6], [1, 1]];
+    const want = [
+      [0, 0],
+      [0, 1 / 3],
+      [1 / 6, 2 / 3],
+      [1 / 2, 5 / 6],
+      [1, 1],
+    ];
     expect(pts).toHaveLength(5);
-    pts.forEach((pt, i) => { expect(pt[0]).toBeCloseTo(want[i][0], 12); expect(pt[1]).toBeCloseTo(want[i][1], 12); });
+    pts.forEach((pt, i) => {
+      expect(pt[0]).toBeCloseTo(want[i][0], 12);
+      expect(pt[1]).toBeCloseTo(want[i][1], 12);
+    });
   });
   it('reliability table: bins 0.1/0.3/0.7/0.9 with observed frequency 1/4, 1/3, 2/3, 1', () => {
     const t = reliabilityTable(P, O);

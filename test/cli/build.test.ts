@@ -46,7 +46,9 @@ describe('bin/build.mjs', () => {
   it('the inputs list of a real build names the entry, the sample generator the demo bundles, and this script', async () => {
     await buildBundle(join(ROOT, 'src', 'cli', 'main.ts'), bundle);
     const inputs = Object.keys(JSON.parse(readFileSync(`${bundle}.inputs.json`, 'utf8')) as Record<string, string>);
-    expect(inputs).toEqual(expect.arrayContaining(['src/cli/main.ts', 'src/read/hdf5-slab.mjs', 'src/sample/generate.ts', 'bin/build.mjs']));
+    expect(inputs).toEqual(
+      expect.arrayContaining(['src/cli/main.ts', 'src/read/hdf5-slab.mjs', 'src/sample/generate.ts', 'bin/build.mjs']),
+    );
     expect(inputs.some((p) => p.includes('node_modules'))).toBe(false);
     expect(freshBundle(bundle)).toBe(bundle);
   });

@@ -24,7 +24,8 @@ describe('forelight CLI', () => {
   it('--help lists every command and exits 0', () => {
     const r = forelight('--help');
     expect(r.code).toBe(EXIT.ok);
-    for (const c of ['demo', 'run', 'check', 'extract', 'skill', 'explain', 'diff', 'backtest', 'serve', 'status']) expect(r.stdout).toMatch(new RegExp(`^  ${c} `, 'm'));
+    for (const c of ['demo', 'run', 'check', 'extract', 'skill', 'explain', 'diff', 'backtest', 'serve', 'status'])
+      expect(r.stdout).toMatch(new RegExp(`^  ${c} `, 'm'));
   });
 
   it('extract --json prints {units, times, members, cells} exactly as the library computes it (canonical °C)', async () => {
@@ -58,7 +59,12 @@ describe('forelight CLI', () => {
     expect(r.stdout).toBe('');
     const lines = r.stderr.trim().split('\n');
     expect(lines).toHaveLength(1);
-    const run = await extractRegionSeries(file, { quantities: { tmean: 't2m' }, regions: [{ id: 'm', name: 'm', utcOffsetHours: 0, teams: [], shape: { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 } }] });
+    const run = await extractRegionSeries(file, {
+      quantities: { tmean: 't2m' },
+      regions: [
+        { id: 'm', name: 'm', utcOffsetHours: 0, teams: [], shape: { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 } },
+      ],
+    });
     expect(run.problems).toHaveLength(1);
     expect(lines[0]).toContain(run.problems[0].message);
     const fix = /\(e\.g\. (ncatted [^)]*)\)/.exec(lines[0])![1].replace('<units>', 'K');
@@ -96,7 +102,9 @@ describe('forelight CLI', () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-cli-dir-'));
     const e = forelight('extract', dir, '--var', 't2m', '--box', MARROW, '--json');
     expect(e.code).toBe(EXIT.inputProblem);
-    expect(e.stderr.trim().split('\n')).toEqual([`forelight: ${dir}: is a folder, not a NetCDF file — point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake`]);
+    expect(e.stderr.trim().split('\n')).toEqual([
+      `forelight: ${dir}: is a folder, not a NetCDF file — point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake`,
+    ]);
     const c = forelight('check', '--config', dir);
     expect(c.code).toBe(EXIT.configInvalid);
     expect(c.stderr.trim().split('\n')[0]).toMatch(/:1:1: cannot read .* \(it is a folder\) — name the YAML file inside it$/);
@@ -105,10 +113,19 @@ describe('forelight CLI', () => {
   it('check: a YAML file that is not UTF-8 (Latin-1 "é") is an error at the first bad byte (YAML 1.2 §5.2)', () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-cli-latin1-'));
     const file = join(dir, 'forelight.yaml');
-    writeFileSync(file, Buffer.concat([Buffer.from('country: Republic of Veloria\n# notes: '), Buffer.from([0x63, 0x61, 0x66, 0xe9]), Buffer.from(' au port\n')]));
+    writeFileSync(
+      file,
+      Buffer.concat([
+        Buffer.from('country: Republic of Veloria\n# notes: '),
+        Buffer.from([0x63, 0x61, 0x66, 0xe9]),
+        Buffer.from(' au port\n'),
+      ]),
+    );
     const r = forelight('check', '--config', file);
     expect(r.code).toBe(EXIT.configInvalid);
-    expect(r.stderr.trim().split('\n')[0]).toBe(`${file}:2:13: byte 0xe9 is not UTF-8 (YAML 1.2 §5.2 requires Unicode) — save the file as UTF-8 (e.g. iconv -f latin1 -t utf-8)`);
+    expect(r.stderr.trim().split('\n')[0]).toBe(
+      `${file}:2:13: byte 0xe9 is not UTF-8 (YAML 1.2 §5.2 requires Unicode) — save the file as UTF-8 (e.g. iconv -f latin1 -t utf-8)`,
+    );
   });
 
   it('check on a configuration with errors: every problem as file:line:column, then exit 2', () => {
@@ -120,13 +137,16 @@ describe('forelight CLI', () => {
     expect(lines.at(-1)).toMatch(/problem\(s\) in the configuration/);
   });
 
-  it('check opens each source\'s newest file: a region off every grid is reported at its line in regions.yaml', () => {
+  it("check opens each source's newest file: a region off every grid is reported at its line in regions.yaml", () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-check-'));
     for (const f of ['forelight.yaml', 'teams.yaml', 'forelight.schema.json']) copyFileSync(join(ROOT, 'config', f), join(dir, f));
     // Every source reads the ncgen fixture (latitudes 14°S..4°S); one region is moved to 40°N.
     const main = readFileSync(join(dir, 'forelight.yaml'), 'utf8').replace(/forecast-files: \S+/g, `forecast-files: ${GRID}`);
     writeFileSync(join(dir, 'forelight.yaml'), main);
-    const regions = readFileSync(join(ROOT, 'config/regions.yaml'), 'utf8').replace('box: { south: -8.5, north: -6, west: 2, east: 4 }', 'box: { south: 40, north: 42, west: 2, east: 4 }');
+    const regions = readFileSync(join(ROOT, 'config/regions.yaml'), 'utf8').replace(
+      'box: { south: -8.5, north: -6, west: 2, east: 4 }',
+      'box: { south: 40, north: 42, west: 2, east: 4 }',
+    );
     writeFileSync(join(dir, 'regions.yaml'), regions);
     const line = regions.split('\n').findIndex((l) => l.includes('south: 40')) + 1;
     const r = forelight('check', '--config', join(dir, 'forelight.yaml'));

@@ -15,7 +15,12 @@ const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const DATE = ['--date', '2026-11-26'];
 
 function forelight(...args: string[]): { code: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], { cwd: ROOT, encoding: 'utf8', timeout: 120_000, env: { ...process.env, FORELIGHT_LOG_LEVEL: 'error' } });
+  const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], {
+    cwd: ROOT,
+    encoding: 'utf8',
+    timeout: 120_000,
+    env: { ...process.env, FORELIGHT_LOG_LEVEL: 'error' },
+  });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -28,8 +33,12 @@ describe('inspection commands on the sample', () => {
     const r = forelight('skill', '--csv', ...DATE);
     expect(r.code).toBe(EXIT.ok);
     const lines = r.stdout.trim().split('\r\n');
-    expect(lines[0]).toBe('source,region,indicator,lead,basis,years,events,BS,BSS,BSS 90%,fair BSS,ROC area,ROC 90%,REL,RES,gate window,gate events,gate low,skilful');
-    expect(lines.some((l) => /^subseasonal,kessan-lowlands,tmax-3day,week 2,observed,20,\d+,[-0-9.]+,[-0-9.]+,[-0-9.]+\.\.[-0-9.]+,/.test(l))).toBe(true);
+    expect(lines[0]).toBe(
+      'source,region,indicator,lead,basis,years,events,BS,BSS,BSS 90%,fair BSS,ROC area,ROC 90%,REL,RES,gate window,gate events,gate low,skilful',
+    );
+    expect(
+      lines.some((l) => /^subseasonal,kessan-lowlands,tmax-3day,week 2,observed,20,\d+,[-0-9.]+,[-0-9.]+,[-0-9.]+\.\.[-0-9.]+,/.test(l)),
+    ).toBe(true);
     // A row is skilful only where its gate window's lower bound is above 0 with at least 5 events.
     for (const l of lines.slice(1)) {
       const f = l.split(',');
@@ -62,7 +71,9 @@ describe('inspection commands on the sample', () => {
     expect(r.code).toBe(EXIT.ok);
     expect(r.stdout).toMatch(/^Tulva Delta · Heat Index \(Rothfusz regression\) · days$/m);
     expect(r.stdout).toMatch(/^threshold: .*absolute 39 degC/m);
-    expect(r.stdout).toMatch(/^day 1 \(2026-11-26\.\.2026-11-26\): values min .* P\(> threshold\) = .* base rate .* skill BSS .* fair BSS .* events in \d+ years\); gate days 1–7: /m);
+    expect(r.stdout).toMatch(
+      /^day 1 \(2026-11-26\.\.2026-11-26\): values min .* P\(> threshold\) = .* base rate .* skill BSS .* fair BSS .* events in \d+ years\); gate days 1–7: /m,
+    );
     expect(r.stdout).toMatch(/^persistence before this run: /m);
     expect(r.stdout).toMatch(/issued stage/);
   });

@@ -58,13 +58,21 @@ function cli(args: string[]): { code: number | null; stdout: string; stderr: str
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
-interface Worker { readonly child: ChildProcess; log: string }
+interface Worker {
+  readonly child: ChildProcess;
+  log: string;
+}
 function startWorker(config: string): Worker {
-  const child = spawn(process.execPath, [CLI, 'worker', '--cluster', redis.url, '--config', config, '--lock-seconds', '3'],
-    { cwd: ROOT, env: env(), stdio: ['ignore', 'ignore', 'pipe'] });
+  const child = spawn(process.execPath, [CLI, 'worker', '--cluster', redis.url, '--config', config, '--lock-seconds', '3'], {
+    cwd: ROOT,
+    env: env(),
+    stdio: ['ignore', 'ignore', 'pipe'],
+  });
   children.push(child);
   const w: Worker = { child, log: '' };
-  child.stderr!.on('data', (b: Buffer) => { w.log += b.toString(); });
+  child.stderr!.on('data', (b: Buffer) => {
+    w.log += b.toString();
+  });
   return w;
 }
 
@@ -78,7 +86,10 @@ const waitFor = async (what: () => boolean, ms: number, label: string): Promise<
 
 /** Job ids of the worker's log lines with message `msg`. */
 const jobLines = (log: string, msg: string): string[] =>
-  log.split('\n').filter((l) => l.includes(`"msg":"${msg}"`)).map((l) => /"job":"([0-9a-f]+)"/.exec(l)?.[1] ?? '');
+  log
+    .split('\n')
+    .filter((l) => l.includes(`"msg":"${msg}"`))
+    .map((l) => /"job":"([0-9a-f]+)"/.exec(l)?.[1] ?? '');
 
 /** A job the worker started and has not reported done. */
 const unfinishedJob = (log: string): string | undefined => {
@@ -88,7 +99,9 @@ const unfinishedJob = (log: string): string | undefined => {
 
 /** Region stages with every probability behind them (run.json `regions`) of the newest run.json under an archive. */
 function outcome(archive: string): unknown {
-  const runs = readdirSync(archive, { recursive: true, encoding: 'utf8' }).filter((f) => f.endsWith('run.json')).sort();
+  const runs = readdirSync(archive, { recursive: true, encoding: 'utf8' })
+    .filter((f) => f.endsWith('run.json'))
+    .sort();
   expect(runs.length).toBeGreaterThan(0);
   const doc = JSON.parse(readFileSync(join(archive, runs[runs.length - 1]), 'utf8')) as { regions: unknown[] };
   expect(doc.regions.length).toBeGreaterThan(0);
@@ -123,22 +136,37 @@ describe('forelight run --cluster: 3 workers, PostgreSQL ledger, one worker kill
     const workers = [startWorker(config), startWorker(config), startWorker(config)];
     await waitFor(() => workers.every((w) => w.log.includes('worker ready')), 60_000, 'three workers');
 
-    const run = spawn(process.execPath, [CLI, 'run', '--config', config, '--date', DATE, '--cluster', redis.url], { cwd: ROOT, env: env(), stdio: ['ignore', 'pipe', 'pipe'] });
+    const run = spawn(process.execPath, [CLI, 'run', '--config', config, '--date', DATE, '--cluster', redis.url], {
+      cwd: ROOT,
+      env: env(),
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     children.push(run);
     let runOut = '';
-    run.stdout!.on('data', (b: Buffer) => { runOut += b.toString(); });
-    run.stderr!.on('data', (b: Buffer) => { runOut += b.toString(); });
+    run.stdout!.on('data', (b: Buffer) => {
+      runOut += b.toString();
+    });
+    run.stderr!.on('data', (b: Buffer) => {
+      runOut += b.toString();
+    });
     // Kill a worker while it holds a job: freeze it (SIGSTOP) as soon as it starts one, let its pipe drain, and
     // SIGKILL it only if the job is still unfinished (else let it go on and wait for the next job).
     let victim: Worker | undefined;
     let killedJob: string | undefined;
     while (!victim && run.exitCode === null) {
       const candidate = workers.find((w) => unfinishedJob(w.log) !== undefined);
-      if (!candidate) { await new Promise((r) => setTimeout(r, 20)); continue; }
+      if (!candidate) {
+        await new Promise((r) => setTimeout(r, 20));
+        continue;
+      }
       candidate.child.kill('SIGSTOP');
       await new Promise((r) => setTimeout(r, 300));
       const job = unfinishedJob(candidate.log);
-      if (job) { candidate.child.kill('SIGKILL'); victim = candidate; killedJob = job; } else candidate.child.kill('SIGCONT');
+      if (job) {
+        candidate.child.kill('SIGKILL');
+        victim = candidate;
+        killedJob = job;
+      } else candidate.child.kill('SIGCONT');
     }
     expect(victim, `no worker was caught holding a job; coordinator said: ${runOut}`).toBeDefined();
     const code = await new Promise<number | null>((r) => run.once('exit', r));
@@ -146,7 +174,10 @@ describe('forelight run --cluster: 3 workers, PostgreSQL ledger, one worker kill
 
     // The killed worker's job was done again by another worker.
     const survivors = workers.filter((w) => w !== victim);
-    expect(survivors.some((w) => jobLines(w.log, 'job done').includes(killedJob!)), 'stalled job recovered by another worker').toBe(true);
+    expect(
+      survivors.some((w) => jobLines(w.log, 'job done').includes(killedJob!)),
+      'stalled job recovered by another worker',
+    ).toBe(true);
     expect(outcome(join(dir, 'archive'))).toEqual(outcome(join(single, 'archive')));
 
     // Exactly one copy per recipient, and the same recipients as the single-process outbox.

@@ -27,7 +27,9 @@ describe('checkRegionsAgainstGrids', async () => {
     // Grid over the western half only: Orrin Coast (lon 2..4) lies east of it; line 33 = "- id: orrin-coast".
     const grids = [{ source: 'subseasonal', latMin: -15, latMax: -4, lonMin: -6, lonMax: 1.9, lon360: false }];
     const found = checkRegionsAgainstGrids(config, grids, sourceMap);
-    expect(found.map((d) => [d.code, d.place.pointer])).toEqual([['config-grid', `/regions/${config.regions.findIndex((r) => r.id === 'orrin-coast')}`]]);
+    expect(found.map((d) => [d.code, d.place.pointer])).toEqual([
+      ['config-grid', `/regions/${config.regions.findIndex((r) => r.id === 'orrin-coast')}`],
+    ]);
     expect(found.map(formatDiagnostic)).toEqual([
       'config/regions.yaml:41:3: region orrin-coast (lat -8.5..-6, lon 2..4) lies outside the grid of source subseasonal (lat -15..-4, lon -6..1.9) — check the region coordinates (latitude north positive, longitude east positive, -180..180) or the source files',
     ]);

@@ -21,7 +21,9 @@ const shown = (file: string) => (relative(process.cwd(), file).startsWith('..') 
 
 describe('YAML boxes across 180°', () => {
   it('west 172, east -174 loads without a problem and keeps its edges', async () => {
-    const { config, diagnostics } = await checkConfigFile(minimalVariant(BOX_LINE, '    box: { south: 1, north: 2, west: 172, east: -174 }'));
+    const { config, diagnostics } = await checkConfigFile(
+      minimalVariant(BOX_LINE, '    box: { south: 1, north: 2, west: 172, east: -174 }'),
+    );
     expect(diagnostics).toEqual([]);
     expect(config?.regions[0].shape).toEqual({ kind: 'box', south: 1, north: 2, west: 172, east: -174 });
   });
@@ -30,15 +32,23 @@ describe('YAML boxes across 180°', () => {
     const file = minimalVariant(BOX_LINE, '    box: { south: 1, north: 2, west: 5, east: 5 }');
     const { config, diagnostics } = await checkConfigFile(file);
     expect(config).toBeUndefined();
-    expect(diagnostics.map(formatDiagnostic)).toEqual([`${shown(file)}:13:47: east 5 equals west 5: the box has no width — give the eastern edge (a box across 180° has west > east, e.g. west: 172, east: -174)`]);
+    expect(diagnostics.map(formatDiagnostic)).toEqual([
+      `${shown(file)}:13:47: east 5 equals west 5: the box has no width — give the eastern edge (a box across 180° has west > east, e.g. west: 172, east: -174)`,
+    ]);
   });
 });
 
 describe('region against grid extents for a box across 180°', () => {
   it('the arc 172 → -174 in each grid convention', () => {
     expect(lonIntervals(172, -174, true)).toEqual([[172, 186]]);
-    expect(lonIntervals(172, -174, false)).toEqual([[172, 180], [-180, -174]]);
-    expect(lonIntervals(-1.5, 1.5, true)).toEqual([[358.5, 360], [0, 1.5]]);
+    expect(lonIntervals(172, -174, false)).toEqual([
+      [172, 180],
+      [-180, -174],
+    ]);
+    expect(lonIntervals(-1.5, 1.5, true)).toEqual([
+      [358.5, 360],
+      [0, 1.5],
+    ]);
     expect(lonIntervals(-1.5, 1.5, false)).toEqual([[-1.5, 1.5]]);
   });
 
@@ -51,7 +61,8 @@ describe('region against grid extents for a box across 180°', () => {
       { source: 'g180-west', latMin: -10, latMax: 10, lonMin: 170, lonMax: 179.5, lon360: false },
     ];
     // Only the first region (`north`) has the box; `south` lies near 0° and is outside these grids.
-    const aboutNorth = (grids: typeof near) => checkRegionsAgainstGrids(config, grids, undefined).filter((p) => p.message.includes('region north '));
+    const aboutNorth = (grids: typeof near) =>
+      checkRegionsAgainstGrids(config, grids, undefined).filter((p) => p.message.includes('region north '));
     expect(aboutNorth(near)).toEqual([]);
     const far = [{ source: 'europe', latMin: -10, latMax: 10, lonMin: -20, lonMax: 40, lon360: false }];
     expect(aboutNorth(far)).toHaveLength(1);
@@ -61,7 +72,11 @@ describe('region against grid extents for a box across 180°', () => {
 
 /** CDO's box mean per member and step, in the file's K. */
 function cdoBoxMean(file: string, west: number, east: number, south: number, north: number): number[][] {
-  const out = execFileSync('cdo', ['-s', '--precision', '12', 'outputtab,lev,value', '-fldmean', `-sellonlatbox,${west},${east},${south},${north}`, file], { encoding: 'utf8' });
+  const out = execFileSync(
+    'cdo',
+    ['-s', '--precision', '12', 'outputtab,lev,value', '-fldmean', `-sellonlatbox,${west},${east},${south},${north}`, file],
+    { encoding: 'utf8' },
+  );
   const members: number[][] = [];
   for (const line of out.split('\n')) {
     const f = line.trim().split(/\s+/);
@@ -72,9 +87,16 @@ function cdoBoxMean(file: string, west: number, east: number, south: number, nor
 }
 
 describe('forelight extract --box S,N,W,E with W > E, against cdo fldmean -sellonlatbox', () => {
-  it.each([['grid360.nc', '0..360'], ['grid180desc.nc', '-180..180, descending latitude, with bounds']])('%s (%s grid)', (file, _what) => {
+  it.each([
+    ['grid360.nc', '0..360'],
+    ['grid180desc.nc', '-180..180, descending latitude, with bounds'],
+  ])('%s (%s grid)', (file, _what) => {
     const path = join(REGIONS, file);
-    const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), 'extract', path, '--var', 't2m', '--box', '-12,-6,172,-174', '--json'], { cwd: ROOT, encoding: 'utf8' });
+    const r = spawnSync(
+      process.execPath,
+      [join(ROOT, 'bin/forelight.mjs'), 'extract', path, '--var', 't2m', '--box', '-12,-6,172,-174', '--json'],
+      { cwd: ROOT, encoding: 'utf8' },
+    );
     expect(r.stderr).toBe('');
     expect(r.status).toBe(EXIT.ok);
     const got = JSON.parse(r.stdout) as { units: string; members: number[][]; cells: number };
@@ -85,7 +107,11 @@ describe('forelight extract --box S,N,W,E with W > E, against cdo fldmean -sello
   });
 
   it('west equal to east is a usage error (exit 64) in one line', () => {
-    const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), 'extract', join(REGIONS, 'grid360.nc'), '--var', 't2m', '--box', '-12,-6,5,5', '--json'], { cwd: ROOT, encoding: 'utf8' });
+    const r = spawnSync(
+      process.execPath,
+      [join(ROOT, 'bin/forelight.mjs'), 'extract', join(REGIONS, 'grid360.nc'), '--var', 't2m', '--box', '-12,-6,5,5', '--json'],
+      { cwd: ROOT, encoding: 'utf8' },
+    );
     expect(r.status).toBe(EXIT.usage);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(r.stderr).toMatch(/west 5 equals east 5/);

@@ -33,8 +33,14 @@ describe('indicator params checked at load (fixtures/bad-indicator-params.yaml)'
 
   it('schema findings carry config-schema, the rules between parameters config-indicator', () => {
     expect(result.diagnostics.map((d) => `${d.place.line} ${d.code}`)).toEqual([
-      '37 config-schema', '44 config-schema', '51 config-schema', '51 config-schema', '58 config-schema', '65 config-schema',
-      '72 config-indicator', '79 config-indicator',
+      '37 config-schema',
+      '44 config-schema',
+      '51 config-schema',
+      '51 config-schema',
+      '58 config-schema',
+      '65 config-schema',
+      '72 config-indicator',
+      '79 config-indicator',
     ]);
   });
 });

@@ -24,8 +24,20 @@ describe('shipped configuration (config/forelight.yaml)', () => {
     expect(config.teams.map((t) => t.id)).toEqual(['kessan-health', 'marrow-health', 'tulva-health', 'orrin-health', 'national-desk']);
     expect(config.stages.map((s) => s.id)).toEqual(['quiet', 'mindful', 'brace', 'act-now']);
     expect(config.stages.map((s) => s.label.fr)).toEqual(['Calme', 'Vigilant', 'Se préparer', 'Agir maintenant']);
-    expect(config.decision).toMatchObject({ tierCaps: { months: 'mindful', weeks: 'brace' }, escalateAfterRuns: 2, relaxAfterRuns: 2, topStageImmediate: true });
-    expect(config.decision.skillGate).toEqual({ floor: 0, minEvents: 5, poolLeads: { days: 7, weeks: 1, months: 1 }, resamples: 1000, seed: 1, action: 'say-no-skill' });
+    expect(config.decision).toMatchObject({
+      tierCaps: { months: 'mindful', weeks: 'brace' },
+      escalateAfterRuns: 2,
+      relaxAfterRuns: 2,
+      topStageImmediate: true,
+    });
+    expect(config.decision.skillGate).toEqual({
+      floor: 0,
+      minEvents: 5,
+      poolLeads: { days: 7, weeks: 1, months: 1 },
+      resamples: 1000,
+      seed: 1,
+      action: 'say-no-skill',
+    });
     expect(config.delivery.smtp).toBeNull();
     expect(config.ledger).toBe(join(config.file, '../../forelight-ledger.sqlite'));
     expect(config.sources[1].hindcast).toBe(join(config.file, '../../sample-inputs/data/subseasonal/hindcast/subs_{year}{mmdd}.nc'));
@@ -90,7 +102,10 @@ describe('problems located at file:line:column', () => {
   });
 
   it('a literal password is refused without echoing it', async () => {
-    const file = minimalVariant('  smtp: null', '  smtp: { host: mail.team.example, port: 587, security: starttls, password: hunter2-secret }');
+    const file = minimalVariant(
+      '  smtp: null',
+      '  smtp: { host: mail.team.example, port: 587, security: starttls, password: hunter2-secret }',
+    );
     const problems = await problemsOf(file);
     expect(problems).toEqual([
       `${displayPath(file)}:65:67: a secret must not be written in the configuration ("password") — put the password in an environment variable and name it in password-env`,
@@ -99,7 +114,10 @@ describe('problems located at file:line:column', () => {
   });
 
   it('a password written as password-env is refused without echoing it', async () => {
-    const file = minimalVariant('  smtp: null', '  smtp: { host: mail.team.example, port: 587, security: starttls, password-env: "hunter2 secret!" }');
+    const file = minimalVariant(
+      '  smtp: null',
+      '  smtp: { host: mail.team.example, port: 587, security: starttls, password-env: "hunter2 secret!" }',
+    );
     const problems = await problemsOf(file);
     expect(problems).toEqual([
       `${displayPath(file)}:65:81: password-env must be the NAME of an environment variable, not the password — NAME of the environment variable that holds the password (never the password itself).`,
@@ -108,16 +126,23 @@ describe('problems located at file:line:column', () => {
   });
 
   it('password-env is accepted and reaches Config as passwordEnv', async () => {
-    const file = minimalVariant('  smtp: null', '  smtp: { host: mail.team.example, port: 587, security: starttls, user: fl, password-env: FL_SMTP_PASSWORD }');
+    const file = minimalVariant(
+      '  smtp: null',
+      '  smtp: { host: mail.team.example, port: 587, security: starttls, user: fl, password-env: FL_SMTP_PASSWORD }',
+    );
     const config = await loadConfig(file);
-    expect(config.delivery.smtp).toEqual({ host: 'mail.team.example', port: 587, security: 'starttls', user: 'fl', passwordEnv: 'FL_SMTP_PASSWORD', timeoutSeconds: 30 });
+    expect(config.delivery.smtp).toEqual({
+      host: 'mail.team.example',
+      port: 587,
+      security: 'starttls',
+      user: 'fl',
+      passwordEnv: 'FL_SMTP_PASSWORD',
+      timeoutSeconds: 30,
+    });
   });
 
   it('a rule on the lowest stage, a rule above its tier cap and the removed ROC-area skill gate are refused', async () => {
-    const file = minimalVariant(
-      '  tier-caps: {}\n',
-      '  tier-caps: { weeks: calm }\n',
-    );
+    const file = minimalVariant('  tier-caps: {}\n', '  tier-caps: { weeks: calm }\n');
     expect(await problemsOf(file)).toEqual([
       `${displayPath(file)}:53:73: rule raises alert but tier weeks is capped at calm — lower the rule's stage to calm or raise the cap in escalation.tier-caps`,
     ]);
@@ -139,11 +164,15 @@ describe('problems located at file:line:column', () => {
   });
 
   it('a missing included file is reported at the include key', async () => {
-    const text = readFileSync(fixture('with-includes.yaml'), 'utf8').replace('regions: bad-regions.yaml', 'regions: nowhere.yaml').replace('teams: teams.yaml', `teams: ${fixture('teams.yaml')}`);
+    const text = readFileSync(fixture('with-includes.yaml'), 'utf8')
+      .replace('regions: bad-regions.yaml', 'regions: nowhere.yaml')
+      .replace('teams: teams.yaml', `teams: ${fixture('teams.yaml')}`);
     const file = writeTemp('missing-include.yaml', text);
     const problems = await problemsOf(file);
     expect(problems).toHaveLength(1);
-    expect(problems[0]).toMatch(/^.*missing-include\.yaml:11:12: cannot read .*nowhere\.yaml \(ENOENT\) — check the path \(relative to the including file\)$/);
+    expect(problems[0]).toMatch(
+      /^.*missing-include\.yaml:11:12: cannot read .*nowhere\.yaml \(ENOENT\) — check the path \(relative to the including file\)$/,
+    );
   });
 
   it('YAML syntax errors and custom tags are reported with their position', async () => {
@@ -166,12 +195,16 @@ describe('resolution', () => {
 
   it('duplicate keys are a YAML error at the second key', async () => {
     const file = minimalVariant('country: Testland', 'country: Testland\ncountry: Otherland');
-    expect(await problemsOf(file)).toEqual([`${displayPath(file)}:3:1: YAML syntax: Map keys must be unique — fix the YAML at this position`]);
+    expect(await problemsOf(file)).toEqual([
+      `${displayPath(file)}:3:1: YAML syntax: Map keys must be unique — fix the YAML at this position`,
+    ]);
   });
 
   it('regions both inline and included is an error at the include', async () => {
     const file = minimalVariant('country: Testland', `country: Testland\ninclude:\n  regions: ${fixture('bad-regions.yaml')}`);
-    expect(await problemsOf(file)).toEqual([`${displayPath(file)}:4:12: regions are given both inline and in an included file — keep one: delete the inline regions: or this include`]);
+    expect(await problemsOf(file)).toEqual([
+      `${displayPath(file)}:4:12: regions are given both inline and in an included file — keep one: delete the inline regions: or this include`,
+    ]);
   });
 });
 
@@ -179,7 +212,9 @@ describe('bounded parsing', () => {
   it('refuses an alias bomb', async () => {
     const problems = await problemsOf(fixture('alias-bomb.yaml'));
     expect(problems).toHaveLength(1);
-    expect(problems[0]).toMatch(/^test\/config\/fixtures\/alias-bomb\.yaml:1:1: YAML aliases expand too much \(.*limit 100\) — write the values out instead of nesting \*aliases$/);
+    expect(problems[0]).toMatch(
+      /^test\/config\/fixtures\/alias-bomb\.yaml:1:1: YAML aliases expand too much \(.*limit 100\) — write the values out instead of nesting \*aliases$/,
+    );
   });
 
   it('refuses a file over the size limit before reading it', async () => {

@@ -43,7 +43,9 @@ function usedCodes(): Map<string, string[]> {
 const cell = (text: string) => text.replace(/\|/g, '\\|');
 
 function renderCodeTable(): string {
-  const rows = Object.entries(DIAGNOSTIC_CODES as Record<string, CodeEntry>).map(([code, e]) => `| \`${code}\` | ${e.stage} | ${e.severity} | ${cell(e.meaning)} | ${cell(e.fix)} |`);
+  const rows = Object.entries(DIAGNOSTIC_CODES as Record<string, CodeEntry>).map(
+    ([code, e]) => `| \`${code}\` | ${e.stage} | ${e.severity} | ${cell(e.meaning)} | ${cell(e.fix)} |`,
+  );
   return ['| code | stage | severity | meaning | what to do |', '|---|---|---|---|---|', ...rows].join('\n');
 }
 
@@ -53,11 +55,23 @@ const END = '<!-- diagnostic-codes:end -->';
 describe('diagnostic catalogue', () => {
   it('finds the codes raised in src/ (the scan itself works: a known code of each kind is seen)', () => {
     const used = usedCodes();
-    for (const code of ['input-truncated', 'template', 'config-rule', 'config-grid', 'hindcast-members', 'unit', 'delivery-temporary', 'config-invalid']) expect(used.has(code), code).toBe(true);
+    for (const code of [
+      'input-truncated',
+      'template',
+      'config-rule',
+      'config-grid',
+      'hindcast-members',
+      'unit',
+      'delivery-temporary',
+      'config-invalid',
+    ])
+      expect(used.has(code), code).toBe(true);
   });
 
   it('every code raised in src/ is in the catalogue', () => {
-    const unknown = [...usedCodes()].filter(([code]) => !Object.hasOwn(DIAGNOSTIC_CODES, code)).map(([code, files]) => `${code} (${files.join(', ')})`);
+    const unknown = [...usedCodes()]
+      .filter(([code]) => !Object.hasOwn(DIAGNOSTIC_CODES, code))
+      .map(([code, files]) => `${code} (${files.join(', ')})`);
     expect(unknown).toEqual([]);
   });
 
@@ -82,7 +96,8 @@ describe('diagnostic catalogue', () => {
     expect(a, 'DEVELOPERS.md lacks the diagnostic-codes markers').toBeGreaterThan(0);
     const current = text.slice(a + START.length, b).trim();
     const wanted = renderCodeTable();
-    if (current !== wanted && process.env.FORELIGHT_WRITE_DOCS === '1') writeFileSync(path, `${text.slice(0, a + START.length)}\n${wanted}\n${text.slice(b)}`);
+    if (current !== wanted && process.env.FORELIGHT_WRITE_DOCS === '1')
+      writeFileSync(path, `${text.slice(0, a + START.length)}\n${wanted}\n${text.slice(b)}`);
     else expect(current, 'the table is stale: run FORELIGHT_WRITE_DOCS=1 npx vitest run test/core/diagnostic-codes.test.ts').toBe(wanted);
   });
 });

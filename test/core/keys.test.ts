@@ -14,7 +14,15 @@ describe('combination keys', () => {
 
   it('keys of one kind are equal exactly when their ids are', () => {
     expect(trackKey('r1', 'heat', 'weeks')).toBe(trackKey('r1', 'heat', 'weeks'));
-    expect(new Set([trackKey('r1', 'heat', 'weeks'), trackKey('r1', 'heat', 'months'), eventKey('r1', 'heat', 'weeks', 1), eventKey('r1', 'heat', 'weeks', 2), tunedKey('r1', 'heat')]).size).toBe(5);
+    expect(
+      new Set([
+        trackKey('r1', 'heat', 'weeks'),
+        trackKey('r1', 'heat', 'months'),
+        eventKey('r1', 'heat', 'weeks', 1),
+        eventKey('r1', 'heat', 'weeks', 2),
+        tunedKey('r1', 'heat'),
+      ]).size,
+    ).toBe(5);
   });
 
   it('kinds do not mix (compile-time)', () => {
@@ -26,7 +34,9 @@ describe('combination keys', () => {
   });
 
   it('the configuration schema keeps "|" out of ids', () => {
-    const schema = JSON.parse(readFileSync(new URL('../../config/forelight.schema.json', import.meta.url), 'utf8')) as { $defs: { id: { pattern: string } } };
+    const schema = JSON.parse(readFileSync(new URL('../../config/forelight.schema.json', import.meta.url), 'utf8')) as {
+      $defs: { id: { pattern: string } };
+    };
     const id = new RegExp(schema.$defs.id.pattern);
     expect(id.test('kessan-lowlands')).toBe(true);
     expect(id.test('a|b')).toBe(false);

@@ -34,7 +34,9 @@ describe.skipIf(!canMount)('writeFileAtomic on a faulty disk (needs root to moun
     const disk = mountTmpfs(64);
     mounts.push(disk);
     disk.readOnly();
-    expect(() => writeFileAtomic(join(disk.dir, 'a', 'entry.json'), '{}', 'render')).toThrow(/\(EROFS\) — .* is on a read-only file system: remount it read-write or point the config at a writable folder/);
+    expect(() => writeFileAtomic(join(disk.dir, 'a', 'entry.json'), '{}', 'render')).toThrow(
+      /\(EROFS\) — .* is on a read-only file system: remount it read-write or point the config at a writable folder/,
+    );
   });
 });
 

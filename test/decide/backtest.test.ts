@@ -7,7 +7,10 @@ import { eventKey } from '../../src/core/keys.ts';
 import { backtestRules, formatBacktest, type BacktestCase } from '../../src/decide/backtest.ts';
 import { makeConfig, prob, RULES } from './helpers.ts';
 
-const config = makeConfig({}, RULES.filter((r) => r.tier === 'weeks'));
+const config = makeConfig(
+  {},
+  RULES.filter((r) => r.tier === 'weeks'),
+);
 const week = (year: number, p1: number, p2: number, p3: number, events: Record<number, boolean>): BacktestCase => ({
   startDate: `${year}-11-26`,
   // Skill null: the gate would withhold every lead, but backtests ignore it by default.
@@ -37,7 +40,18 @@ describe('backtestRules', () => {
 
   it('replays with persistence in start-date order and counts stages and outcomes', () => {
     expect(rows).toEqual([
-      { region: 'r1', indicator: 'heat', tier: 'weeks', cases: 6, stageCounts: { quiet: 2, mindful: 2, brace: 2, 'act-now': 0 }, hits: 1, misses: 1, falseAlarms: 2, correctNegatives: 1, unverified: 1 },
+      {
+        region: 'r1',
+        indicator: 'heat',
+        tier: 'weeks',
+        cases: 6,
+        stageCounts: { quiet: 2, mindful: 2, brace: 2, 'act-now': 0 },
+        hits: 1,
+        misses: 1,
+        falseAlarms: 2,
+        correctNegatives: 1,
+        unverified: 1,
+      },
     ]);
   });
 
@@ -52,7 +66,11 @@ describe('backtestRules', () => {
         'r1,heat,weeks,6,2,2,2,0,1,1,2,1,1\n',
     );
     const text = formatBacktest(rows, 'text').split('\n');
-    expect(text[0]).toBe('region  indicator  tier   cases  quiet  mindful  brace  act-now  hits  misses  false_alarms  correct_negatives  unverified');
-    expect(text[1]).toBe('r1      heat       weeks      6      2        2      2        0     1       1             2                  1           1');
+    expect(text[0]).toBe(
+      'region  indicator  tier   cases  quiet  mindful  brace  act-now  hits  misses  false_alarms  correct_negatives  unverified',
+    );
+    expect(text[1]).toBe(
+      'r1      heat       weeks      6      2        2      2        0     1       1             2                  1           1',
+    );
   });
 });

@@ -27,7 +27,14 @@ describe('decideStages', () => {
     const probs = [prob('r1', 'weeks', 1, 0.9), prob('r1', 'weeks', 2, 0.64), prob('r1', 'weeks', 3, 0.5)];
     const first = run(probs);
     const d = first.decisions[0];
-    expect(d).toMatchObject({ region: 'r1', indicator: 'heat', tier: 'weeks', rawStageId: 'brace', stageId: 'quiet', ruleId: 'heat-weeks-brace' });
+    expect(d).toMatchObject({
+      region: 'r1',
+      indicator: 'heat',
+      tier: 'weeks',
+      rawStageId: 'brace',
+      stageId: 'quiet',
+      ruleId: 'heat-weeks-brace',
+    });
     expect(d.lead?.lead.index).toBe(2); // week 1 (P 0.9) is not a lead of these rules
     expect(d.reasons).toEqual([
       'P(week 2) = 0.64 ≥ 0.4 (rule heat-weeks-mindful) → mindful',
@@ -35,7 +42,13 @@ describe('decideStages', () => {
       'held at quiet: 1 of 2 runs needed to escalate',
       'issued: quiet',
     ]);
-    expect(first.nextHistory.tracks[trackKey('r1', 'heat', 'weeks')]).toEqual({ stageId: 'quiet', runsAbove: 1, lowestAboveId: 'brace', runsBelow: 0, highestBelowId: null });
+    expect(first.nextHistory.tracks[trackKey('r1', 'heat', 'weeks')]).toEqual({
+      stageId: 'quiet',
+      runsAbove: 1,
+      lowestAboveId: 'brace',
+      runsBelow: 0,
+      highestBelowId: null,
+    });
     const second = run(probs, first.nextHistory);
     expect(second.decisions[0].stageId).toBe('brace');
     expect(second.decisions[0].reasons).toContain('escalated to brace after 2 runs at or above it');
@@ -57,11 +70,14 @@ describe('decideStages', () => {
     const d = run(probs, issued('quiet')).decisions[0];
     expect(d.rawStageId).toBe('mindful');
     expect(d.withheldLeads).toEqual([probs[0].lead]);
-    expect(d.reasons[0]).toBe('week 2 withheld: week 2: fair Brier skill score 0.10, 90 % interval -0.05 to 0.25 does not lie above 0 (12 events in 20 years) — no demonstrated skill, treat as normal conditions');
+    expect(d.reasons[0]).toBe(
+      'week 2 withheld: week 2: fair Brier skill score 0.10, 90 % interval -0.05 to 0.25 does not lie above 0 (12 events in 20 years) — no demonstrated skill, treat as normal conditions',
+    );
     const noSkill = run([prob('r1', 'weeks', 2, 0.9, null)]).decisions[0];
     expect(noSkill.rawStageId).toBe('quiet');
     expect(noSkill.reasons[0]).toBe('week 2 withheld: no hindcast skill available — no demonstrated skill, treat as normal conditions');
-    const silent = run(probs, EMPTY_HISTORY, makeConfig({ skillGate: { ...makeConfig().decision.skillGate, action: 'withhold' } })).decisions[0];
+    const silent = run(probs, EMPTY_HISTORY, makeConfig({ skillGate: { ...makeConfig().decision.skillGate, action: 'withhold' } }))
+      .decisions[0];
     expect(silent.withheldLeads).toEqual([]);
     expect(silent.rawStageId).toBe('mindful');
   });
@@ -94,7 +110,13 @@ describe('decideStages', () => {
   it('a run back at the issued stage resets the counters', () => {
     const a = run([prob('r1', 'weeks', 2, 0.1)], issued('brace'));
     const b = run([prob('r1', 'weeks', 2, 0.7)], a.nextHistory);
-    expect(b.nextHistory.tracks[trackKey('r1', 'heat', 'weeks')]).toEqual({ stageId: 'brace', runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null });
+    expect(b.nextHistory.tracks[trackKey('r1', 'heat', 'weeks')]).toEqual({
+      stageId: 'brace',
+      runsAbove: 0,
+      lowestAboveId: null,
+      runsBelow: 0,
+      highestBelowId: null,
+    });
     const c = run([prob('r1', 'weeks', 2, 0.1)], b.nextHistory);
     expect(c.decisions[0].stageId).toBe('brace');
   });
@@ -108,7 +130,13 @@ describe('decideStages', () => {
   });
 
   it('combines indicators and tiers per region: highest wins; a region without data is "no forecast available", never the lowest stage', () => {
-    const history: StageHistory = { version: 1, tracks: { ...issued('brace').tracks, [trackKey('r1', 'heat', 'months')]: { stageId: 'mindful', runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null } } };
+    const history: StageHistory = {
+      version: 1,
+      tracks: {
+        ...issued('brace').tracks,
+        [trackKey('r1', 'heat', 'months')]: { stageId: 'mindful', runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null },
+      },
+    };
     const result = run([prob('r1', 'months', 1, 0.9), prob('r1', 'weeks', 2, 0.7)], history);
     expect(result.regionStages).toEqual([
       { region: 'r1', stageId: 'brace', fromDecision: { region: 'r1', indicator: 'heat', tier: 'weeks' } },
@@ -125,24 +153,40 @@ describe('decideStages', () => {
       ['act-now', 'act-now', 'act-now', 'act-now'],
     ];
     const matrixConfig = makeConfig({ combine: { matrix: { rows: ['heat'], columns: ['malaria'], table } } });
-    const decision = (region: string, indicator: string, stageId: string) =>
-      ({ region, indicator, tier: 'months' as const, stageId, rawStageId: stageId, ruleId: null, lead: null, withheldLeads: [], reasons: [] });
+    const decision = (region: string, indicator: string, stageId: string) => ({
+      region,
+      indicator,
+      tier: 'months' as const,
+      stageId,
+      rawStageId: stageId,
+      ruleId: null,
+      lead: null,
+      withheldLeads: [],
+      reasons: [],
+    });
     expect(combineRegionStages(matrixConfig, [decision('r1', 'heat', 'mindful'), decision('r1', 'malaria', 'mindful')])).toEqual([
       { region: 'r1', stageId: 'brace', fromDecision: { region: 'r1', indicator: 'heat', tier: 'months' } },
       { region: 'r2', stageId: NO_FORECAST_ID, fromDecision: null },
     ]);
     expect(combineRegionStages(matrixConfig, [decision('r1', 'malaria', 'mindful')])[0].stageId).toBe('mindful');
     // With highest-wins the same inputs give mindful: the matrix is what raises it.
-    expect(combineRegionStages(makeConfig(), [decision('r1', 'heat', 'mindful'), decision('r1', 'malaria', 'mindful')])[0].stageId).toBe('mindful');
+    expect(combineRegionStages(makeConfig(), [decision('r1', 'heat', 'mindful'), decision('r1', 'malaria', 'mindful')])[0].stageId).toBe(
+      'mindful',
+    );
     const onlyRows = makeConfig({ combine: { matrix: { rows: ['heat'], columns: [], table } } });
-    expect(combineRegionStages(onlyRows, [decision('r1', 'malaria', 'brace')])[0]).toMatchObject({ stageId: 'brace', fromDecision: { indicator: 'malaria' } });
+    expect(combineRegionStages(onlyRows, [decision('r1', 'malaria', 'brace')])[0]).toMatchObject({
+      stageId: 'brace',
+      fromDecision: { indicator: 'malaria' },
+    });
   });
 
   it('cost/loss rule: skipped when not tuned, uses the tuned threshold when given', () => {
     const probs = [prob('r1', 'days', 1, 0.35)];
     const untuned = run(probs).decisions[0];
     expect(untuned.rawStageId).toBe('quiet');
-    expect(untuned.reasons[0]).toBe('rule heat-days-mindful-cl not tuned (cost/loss 0.2 needs a probability tuned on the hindcasts) — skipped');
+    expect(untuned.reasons[0]).toBe(
+      'rule heat-days-mindful-cl not tuned (cost/loss 0.2 needs a probability tuned on the hindcasts) — skipped',
+    );
     const tuned = run(probs, EMPTY_HISTORY, config, new Map([[tunedKey('r1', 'heat-days-mindful-cl'), 0.3]])).decisions[0];
     expect(tuned.rawStageId).toBe('mindful');
     expect(tuned.reasons[0]).toBe('P(day 1) = 0.35 ≥ 0.3 (rule heat-days-mindful-cl, tuned for cost/loss 0.2) → mindful');
@@ -150,9 +194,15 @@ describe('decideStages', () => {
 
   it('cost/loss thresholds are tuned per region: the same P fires where the tuned threshold is lower only', () => {
     const probs = [prob('r1', 'days', 1, 0.35), prob('r2', 'days', 1, 0.35)];
-    const tuned = new Map([[tunedKey('r1', 'heat-days-mindful-cl'), 0.3], [tunedKey('r2', 'heat-days-mindful-cl'), 0.5]]);
+    const tuned = new Map([
+      [tunedKey('r1', 'heat-days-mindful-cl'), 0.3],
+      [tunedKey('r2', 'heat-days-mindful-cl'), 0.5],
+    ]);
     const decisions = run(probs, EMPTY_HISTORY, config, tuned).decisions;
-    expect(decisions.map((d) => [d.region, d.rawStageId])).toEqual([['r1', 'mindful'], ['r2', 'quiet']]);
+    expect(decisions.map((d) => [d.region, d.rawStageId])).toEqual([
+      ['r1', 'mindful'],
+      ['r2', 'quiet'],
+    ]);
     expect(decisions[1].reasons[0]).toBe('P(day 1) = 0.35 < 0.5 (rule heat-days-mindful-cl, tuned for cost/loss 0.2) — not fired');
   });
 
@@ -171,6 +221,8 @@ describe('parseStageHistory', () => {
     expect(parseStageHistory(JSON.stringify(h))).toEqual(h);
     expect(parseStageHistory(null)).toEqual(EMPTY_HISTORY);
     expect(() => parseStageHistory('{"v":"a"}')).toThrow('stored stage history is unusable: expected { version: 1, tracks: {...} }');
-    expect(() => parseStageHistory('{"version":1,"tracks":{"r1|heat|weeks":{"stageId":"quiet"}}}')).toThrow(/track "r1\|heat\|weeks" lacks/);
+    expect(() => parseStageHistory('{"version":1,"tracks":{"r1|heat|weeks":{"stageId":"quiet"}}}')).toThrow(
+      /track "r1\|heat\|weeks" lacks/,
+    );
   });
 });

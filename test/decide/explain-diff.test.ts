@@ -52,9 +52,22 @@ describe('diffStages', () => {
   it('lists regions whose stage changed with the deciding reasons, and regions that disappeared', () => {
     const probabilities = [prob('r1', 'days', 2, 0.85), prob('r2', 'weeks', 2, 0.1)];
     const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY });
-    const changes = diffStages([{ region: 'r1', stageId: 'mindful' }, { region: 'r2', stageId: 'quiet' }, { region: 'gone', stageId: 'brace' }], regionStages, decisions);
+    const changes = diffStages(
+      [
+        { region: 'r1', stageId: 'mindful' },
+        { region: 'r2', stageId: 'quiet' },
+        { region: 'gone', stageId: 'brace' },
+      ],
+      regionStages,
+      decisions,
+    );
     expect(changes).toEqual([
-      { region: 'r1', from: 'mindful', to: 'act-now', why: 'heat days; P(day 2) = 0.85 ≥ 0.6 (rule heat-days-brace) → brace; P(day 2) = 0.85 ≥ 0.8 (rule heat-days-act-now) → act-now; act-now issued at once (top stage, no persistence wait)' },
+      {
+        region: 'r1',
+        from: 'mindful',
+        to: 'act-now',
+        why: 'heat days; P(day 2) = 0.85 ≥ 0.6 (rule heat-days-brace) → brace; P(day 2) = 0.85 ≥ 0.8 (rule heat-days-act-now) → act-now; act-now issued at once (top stage, no persistence wait)',
+      },
       { region: 'gone', from: 'brace', to: null, why: 'region not in this run' },
     ]);
   });

@@ -28,8 +28,28 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
     ],
     teams: [{ id: 't1', name: 'Team', locale: 'en', recipients: ['t@team.example'], national: false }],
     indicators: [
-      { id: 'heat', name: 'Heat', kind: 'heat-index', windowDays: 1, threshold: { kind: 'absolute', value: 39, units: 'degC' }, regionThresholds: {}, aggregate: 'max', tiers: ['days', 'weeks', 'months'], params: {} },
-      { id: 'malaria', name: 'Malaria suitability', kind: 'malaria-suitability', windowDays: 30, threshold: { kind: 'absolute', value: 0.5, units: '1' }, regionThresholds: {}, aggregate: 'mean', tiers: ['months'], params: {} },
+      {
+        id: 'heat',
+        name: 'Heat',
+        kind: 'heat-index',
+        windowDays: 1,
+        threshold: { kind: 'absolute', value: 39, units: 'degC' },
+        regionThresholds: {},
+        aggregate: 'max',
+        tiers: ['days', 'weeks', 'months'],
+        params: {},
+      },
+      {
+        id: 'malaria',
+        name: 'Malaria suitability',
+        kind: 'malaria-suitability',
+        windowDays: 30,
+        threshold: { kind: 'absolute', value: 0.5, units: '1' },
+        regionThresholds: {},
+        aggregate: 'mean',
+        tiers: ['months'],
+        params: {},
+      },
     ],
     stages: ['quiet', 'mindful', 'brace', 'act-now'].map((id, i) => ({
       id,
@@ -55,7 +75,14 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
     schedule: { cron: '30 7 * * 1,4', timezone: 'Etc/GMT-1', waitForDataMinutes: 60, pollSeconds: 60 },
     delivery: {
       from: 'f@team.example',
-      smtp: { host: 'mail.team.example', port: 587, security: 'starttls', user: 'fl', passwordEnv: 'FORELIGHT_TEST_SMTP_PASSWORD', timeoutSeconds: 30 },
+      smtp: {
+        host: 'mail.team.example',
+        port: 587,
+        security: 'starttls',
+        user: 'fl',
+        passwordEnv: 'FORELIGHT_TEST_SMTP_PASSWORD',
+        timeoutSeconds: 30,
+      },
       outbox: '/virtual/outbox',
       archive: '/virtual/archive',
       operators: [],
@@ -72,7 +99,14 @@ export function makeConfig(decision: Partial<DecisionConfig> = {}, rules: readon
 export const skill = (low: number): SkillSummary => skillSummary(low);
 
 /** One lead probability; skill defaults to a fair-BSS interval whose lower end is 0.1 (skilful); ≤ 0 is not. */
-export function prob(region: string, tier: Tier, index: number, probability: number, skillLow: number | null = 0.1, indicator = 'heat'): LeadProbability {
+export function prob(
+  region: string,
+  tier: Tier,
+  index: number,
+  probability: number,
+  skillLow: number | null = 0.1,
+  indicator = 'heat',
+): LeadProbability {
   return {
     source: tier === 'days' ? 'short' : tier === 'weeks' ? 'subseasonal' : 'seasonal',
     region,

@@ -14,11 +14,20 @@ import { makeConfig, prob } from './helpers.ts';
 
 const tiers = new Set<Tier>(['weeks', 'months']);
 const key = trackKey('r1', 'heat', 'weeks');
-const braceIssued: StageHistory = { version: 1, tracks: { [key]: { stageId: 'brace', runsAbove: 0, lowestAboveId: null, runsBelow: 1, highestBelowId: 'mindful' } } };
+const braceIssued: StageHistory = {
+  version: 1,
+  tracks: { [key]: { stageId: 'brace', runsAbove: 0, lowestAboveId: null, runsBelow: 1, highestBelowId: 'mindful' } },
+};
 
 function run(probabilities: LeadProbability[], history: StageHistory, holdMissingRuns = 2) {
   const config = makeConfig({ holdMissingRuns });
-  return decideStages({ config, probabilities, history, expectedTiers: tiers, unavailable: new Map([[key, 'short_20261130.nc: variable tasmax has no units']]) });
+  return decideStages({
+    config,
+    probabilities,
+    history,
+    expectedTiers: tiers,
+    unavailable: new Map([[key, 'short_20261130.nc: variable tasmax has no units']]),
+  });
 }
 
 // Only the months tier has data: the weeks tier of r1 vanished.
@@ -28,7 +37,10 @@ describe('a tier whose data vanished', () => {
   it('holds the last issued stage for hold-missing-runs runs, says why, keeps the persistence counters, then "no forecast available"', () => {
     const first = run(monthsOnly, braceIssued);
     const d1 = first.decisions.find((d) => d.region === 'r1' && d.tier === 'weeks');
-    expect(d1).toMatchObject({ stageId: 'brace', missing: { held: true, runs: 1, reason: 'short_20261130.nc: variable tasmax has no units' } });
+    expect(d1).toMatchObject({
+      stageId: 'brace',
+      missing: { held: true, runs: 1, reason: 'short_20261130.nc: variable tasmax has no units' },
+    });
     expect(d1?.reasons).toEqual([
       'no usable data: short_20261130.nc: variable tasmax has no units',
       'held at brace: run 1 of 2 without usable data (never relaxed because data vanished)',
@@ -38,7 +50,10 @@ describe('a tier whose data vanished', () => {
     expect(first.nextHistory.tracks[key]).toEqual({ ...braceIssued.tracks[key], missingRuns: 1 });
 
     const second = run(monthsOnly, first.nextHistory);
-    expect(second.decisions.find((d) => d.region === 'r1' && d.tier === 'weeks')).toMatchObject({ stageId: 'brace', missing: { held: true, runs: 2 } });
+    expect(second.decisions.find((d) => d.region === 'r1' && d.tier === 'weeks')).toMatchObject({
+      stageId: 'brace',
+      missing: { held: true, runs: 2 },
+    });
 
     const third = run(monthsOnly, second.nextHistory);
     const d3 = third.decisions.find((d) => d.region === 'r1' && d.tier === 'weeks');
@@ -62,7 +77,10 @@ describe('a tier whose data vanished', () => {
 
   it('no earlier stage (fresh ledger), or hold-missing-runs 0: "no forecast available" at once, never the lowest stage', () => {
     const fresh = run(monthsOnly, { version: 1, tracks: {} });
-    expect(fresh.decisions.find((d) => d.region === 'r1' && d.tier === 'weeks')).toMatchObject({ stageId: NO_FORECAST_ID, missing: { held: false } });
+    expect(fresh.decisions.find((d) => d.region === 'r1' && d.tier === 'weeks')).toMatchObject({
+      stageId: NO_FORECAST_ID,
+      missing: { held: false },
+    });
     expect(fresh.regionStages.find((r) => r.region === 'r2')?.stageId).toBe(NO_FORECAST_ID);
     const noHold = run(monthsOnly, braceIssued, 0);
     expect(noHold.decisions.find((d) => d.region === 'r1' && d.tier === 'weeks')?.stageId).toBe(NO_FORECAST_ID);

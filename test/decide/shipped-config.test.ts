@@ -14,12 +14,20 @@ describe('decideStages with config/forelight.yaml', async () => {
       prob('kessan-lowlands', 'days', 2, 0.9, 0.2, 'heat-index'),
       prob('tulva-delta', 'months', 2, 0.95, 0.2, 'malaria-pf'),
     ];
-    const { decisions, regionStages } = decideStages({ config, probabilities, history: EMPTY_HISTORY, thresholdsFromCostLoss: new Map([[tunedKey('kessan-lowlands', 'heat-index-days-mindful'), 0.25]]), expectedTiers: new Set(config.sources.map((s) => s.tier)) });
+    const { decisions, regionStages } = decideStages({
+      config,
+      probabilities,
+      history: EMPTY_HISTORY,
+      thresholdsFromCostLoss: new Map([[tunedKey('kessan-lowlands', 'heat-index-days-mindful'), 0.25]]),
+      expectedTiers: new Set(config.sources.map((s) => s.tier)),
+    });
     expect(decisions.filter((d) => !d.missing).map((d) => [d.region, d.indicator, d.tier, d.rawStageId, d.stageId])).toEqual([
       ['kessan-lowlands', 'heat-index', 'days', 'act-now', 'act-now'],
       ['tulva-delta', 'malaria-pf', 'months', 'mindful', 'quiet'],
     ]);
-    expect(decisions.find((d) => d.region === 'tulva-delta' && d.indicator === 'malaria-pf')?.reasons).toContain('held at quiet: 1 of 2 runs needed to escalate');
+    expect(decisions.find((d) => d.region === 'tulva-delta' && d.indicator === 'malaria-pf')?.reasons).toContain(
+      'held at quiet: 1 of 2 runs needed to escalate',
+    );
     // Every other region × indicator × tier has no data and no earlier stage: "no forecast available", never quiet.
     const missing = decisions.filter((d) => d.missing);
     expect(missing.length).toBeGreaterThan(0);

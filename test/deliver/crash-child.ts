@@ -18,12 +18,19 @@ const pause = async (point: string) => {
 
 const ledger = openLedger(env.FL_LEDGER!);
 const counts: Record<string, number> = {};
-const r = await issueForecast(ledger, env.FL_KEY!, sampleBulletins(env.FL_KEY), deliveryConfig(Number(env.FL_PORT), env.FL_OUTBOX!), silentLogger, {
-  afterRecord: () => pause('after-record'),
-  onStep: async (step) => {
-    counts[step] = (counts[step] ?? 0) + 1;
-    await pause(`${step}:${counts[step]}`);
+const r = await issueForecast(
+  ledger,
+  env.FL_KEY!,
+  sampleBulletins(env.FL_KEY),
+  deliveryConfig(Number(env.FL_PORT), env.FL_OUTBOX!),
+  silentLogger,
+  {
+    afterRecord: () => pause('after-record'),
+    onStep: async (step) => {
+      counts[step] = (counts[step] ?? 0) + 1;
+      await pause(`${step}:${counts[step]}`);
+    },
   },
-});
+);
 ledger.close();
 process.stdout.write(JSON.stringify({ kind: r.kind, sent: r.summary?.sent ?? 0, reclaimed: r.summary?.reclaimed ?? 0 }) + '\n');

@@ -14,16 +14,32 @@ import { sampleBulletins, startSmtp, tempDir, type SmtpFixture } from './fixture
 const CHILD = join(import.meta.dirname, 'crash-child.ts');
 const ROOT = join(import.meta.dirname, '..', '..');
 let smtp: SmtpFixture;
-beforeAll(async () => { smtp = await startSmtp(); });
-afterAll(async () => { await smtp.close(); });
+beforeAll(async () => {
+  smtp = await startSmtp();
+});
+afterAll(async () => {
+  await smtp.close();
+});
 
-function runChild(env: Record<string, string>): { done: Promise<{ code: number | null; signal: string | null; out: string }>; kill: () => void } {
-  const child = spawn(process.execPath, ['--import', 'tsx', CHILD], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+function runChild(env: Record<string, string>): {
+  done: Promise<{ code: number | null; signal: string | null; out: string }>;
+  kill: () => void;
+} {
+  const child = spawn(process.execPath, ['--import', 'tsx', CHILD], {
+    cwd: ROOT,
+    env: { ...process.env, ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let out = '';
-  child.stdout.on('data', (d) => { out += d; });
-  child.stderr.on('data', (d) => { out += d; });
+  child.stdout.on('data', (d) => {
+    out += d;
+  });
+  child.stderr.on('data', (d) => {
+    out += d;
+  });
   const done = new Promise<{ code: number | null; signal: string | null; out: string }>((resolve) =>
-    child.on('exit', (code, signal) => resolve({ code, signal, out })));
+    child.on('exit', (code, signal) => resolve({ code, signal, out })),
+  );
   return { done, kill: () => child.kill('SIGKILL') };
 }
 
@@ -38,7 +54,13 @@ async function waitFor(path: string, ms = 20_000): Promise<void> {
 /** Kill at `pauseAt`, restart, return copies received per recipient for this forecast key. */
 async function killAndRestart(key: string, pauseAt: string) {
   const dir = tempDir('crash');
-  const env = { FL_LEDGER: join(dir, 'ledger.sqlite'), FL_PORT: String(smtp.port), FL_OUTBOX: join(dir, 'outbox'), FL_KEY: key, FL_MARKER: join(dir, 'marker') };
+  const env = {
+    FL_LEDGER: join(dir, 'ledger.sqlite'),
+    FL_PORT: String(smtp.port),
+    FL_OUTBOX: join(dir, 'outbox'),
+    FL_KEY: key,
+    FL_MARKER: join(dir, 'marker'),
+  };
   const first = runChild({ ...env, FL_PAUSE_AT: pauseAt });
   await waitFor(env.FL_MARKER);
   first.kill();

@@ -21,7 +21,9 @@ export const tempDir = (prefix: string) => mkdtempSync(join(tmpdir(), `forelight
 
 /** A 1×1 PNG (PNG specification, ISO/IEC 15948:2004: signature, IHDR, IDAT, IEND). */
 export const PNG_1X1 = Buffer.from(
-  'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==', 'base64');
+  'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==',
+  'base64',
+);
 
 export function sampleBulletin(team: string, to: readonly string[], forecastKey = '2026-11-26', locale = 'en'): Bulletin {
   return {
@@ -124,7 +126,14 @@ export async function startSmtp(
         if (fault) return callback(fault);
         const raw = Buffer.concat(chunks);
         const messageId = /^Message-ID:\s*(<[^>]+>)/im.exec(raw.toString('utf8'))?.[1] ?? '';
-        received.push({ secure: session.secure, user: (session.user as string | undefined) ?? null, from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '', to, raw, messageId });
+        received.push({
+          secure: session.secure,
+          user: (session.user as string | undefined) ?? null,
+          from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '',
+          to,
+          raw,
+          messageId,
+        });
         callback();
       });
     },
@@ -138,11 +147,18 @@ export async function startSmtp(
 /** A TCP server that accepts and never says anything (SMTP greeting timeout). */
 export async function startSilentServer(): Promise<{ port: number; close(): Promise<void> }> {
   const sockets = new Set<Socket>();
-  const server: Server = createServer((s) => { sockets.add(s); s.on('error', () => {}); });
+  const server: Server = createServer((s) => {
+    sockets.add(s);
+    s.on('error', () => {});
+  });
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   return {
     port: (server.address() as { port: number }).port,
-    close: () => new Promise<void>((resolve) => { for (const s of sockets) s.destroy(); server.close(() => resolve()); }),
+    close: () =>
+      new Promise<void>((resolve) => {
+        for (const s of sockets) s.destroy();
+        server.close(() => resolve());
+      }),
   };
 }
 
@@ -158,7 +174,11 @@ export async function refusedPort(): Promise<number> {
  * deliver, finish. `afterRecord` runs between storing and sending (crash point in tests).
  */
 export async function issueForecast(
-  ledger: Ledger, key: string, bulletins: readonly Bulletin[], delivery: DeliveryConfig, log: Logger,
+  ledger: Ledger,
+  key: string,
+  bulletins: readonly Bulletin[],
+  delivery: DeliveryConfig,
+  log: Logger,
   options: DeliverOptions & { force?: boolean; afterRecord?: () => Promise<void> | void } = {},
 ): Promise<{ kind: string; runId: number; summary: DeliverySummary | null }> {
   const begun = beginRun(ledger, key, { force: options.force });

@@ -18,7 +18,9 @@ import { silentLogger } from '../../src/core/log.ts';
 import { ADDR, deliveryConfig, sampleBulletin, sampleBulletins, smtpError, startSmtp, tempDir } from './fixtures.ts';
 
 const ledgers: Ledger[] = [];
-afterEach(() => { for (const l of ledgers.splice(0)) l.close(); });
+afterEach(() => {
+  for (const l of ledgers.splice(0)) l.close();
+});
 
 function freshLedger(dir: string): Ledger {
   const ledger = openLedger(join(dir, 'ledger.sqlite'));
@@ -49,7 +51,9 @@ describe('outbox delivery (smtp: null)', () => {
 
   it('two long addresses of one team that differ only at the end get files of their own, within 255 bytes', () => {
     const key = '2026-11-30T00:00:00Z_weeks-ensemble_2026-11-30T00:00:00Z_days-ensemble';
-    const [a, b] = ['duty-officer-a', 'duty-officer-b'].map((who) => outboxBaseName(key, 12, 'kessan-health-and-emergency-response-team', `${'x'.repeat(40)}.${who}@health.veloria.example`));
+    const [a, b] = ['duty-officer-a', 'duty-officer-b'].map((who) =>
+      outboxBaseName(key, 12, 'kessan-health-and-emergency-response-team', `${'x'.repeat(40)}.${who}@health.veloria.example`),
+    );
     const dir = tempDir('long-names');
     const paths = [a, b].map((base) => writeOutboxFiles(dir, base, [{ ext: 'eml', content: base }])[0]);
     expect(new Set(paths).size).toBe(2);
@@ -79,7 +83,8 @@ describe('outbox delivery (smtp: null)', () => {
     recordBulletins(ledger, beginRun(ledger, '2026-11-30').run.id, sampleBulletins('2026-11-30'));
     const err = await deliverPending(ledger, deliveryConfig(null, outbox), silentLogger).catch((e: Error) => e);
     expect((err as Error).message).toBe(
-      `outbox folder ${outbox} is not writable (ENOTDIR) — part of the path ${outbox} is a file, not a folder: fix the path in the config (delivery.outbox); unsent bulletins stay pending in the ledger`);
+      `outbox folder ${outbox} is not writable (ENOTDIR) — part of the path ${outbox} is a file, not a folder: fix the path in the config (delivery.outbox); unsent bulletins stay pending in the ledger`,
+    );
     expect(pendingDeliveries(ledger)).toHaveLength(5);
     const later = await deliverPending(ledger, deliveryConfig(null, join(dir, 'outbox')), silentLogger);
     expect(later.outbox).toBe(5);
@@ -96,7 +101,9 @@ describe('outbox delivery (smtp: null)', () => {
       expect(summary).toMatchObject({ sent: 4, pending: 1 });
       expect(pendingDeliveries(ledger).map((d) => d.recipient)).toEqual([ADDR('desk')]);
       const notice = smtp.received.find((m) => m.to.includes(ADDR('ops')))!;
-      expect((await simpleParser(notice.raw)).text).toMatch(/desk@health\.veloria\.example .*: pending; .*550.* — still pending, retried at the next run/);
+      expect((await simpleParser(notice.raw)).text).toMatch(
+        /desk@health\.veloria\.example .*: pending; .*550.* — still pending, retried at the next run/,
+      );
     } finally {
       await smtp.close();
     }
@@ -104,8 +111,11 @@ describe('outbox delivery (smtp: null)', () => {
 
   it('sendOperatorNotice without SMTP writes the notice to the outbox', async () => {
     const dir = tempDir('notice');
-    const result = await sendOperatorNotice(deliveryConfig(null, join(dir, 'outbox')), 'no new forecast for 2026-11-30',
-      'No source delivered a forecast newer than 2026-11-26; no bulletin was sent.');
+    const result = await sendOperatorNotice(
+      deliveryConfig(null, join(dir, 'outbox')),
+      'no new forecast for 2026-11-30',
+      'No source delivered a forecast newer than 2026-11-26; no bulletin was sent.',
+    );
     expect(result.status).toBe('outbox');
     const mail = await simpleParser(readFileSync(result.detail));
     expect(mail.subject).toBe('[forelight] no new forecast for 2026-11-30');
@@ -116,7 +126,10 @@ describe('outbox delivery (smtp: null)', () => {
 describe('outbox .html copy', () => {
   it('replaces cid: image references by data: URLs of the attachments (RFC 2392 cid, RFC 2397 data URL)', () => {
     const png = Uint8Array.from([0x89, 0x50, 0x4e, 0x47]);
-    const html = htmlWithInlineImages({ html: '<img src="cid:chart-1@forelight"><img src="cid:chart-1@forelight">', attachments: [{ cid: 'chart-1@forelight', filename: 'c.png', contentType: 'image/png', content: png }] });
+    const html = htmlWithInlineImages({
+      html: '<img src="cid:chart-1@forelight"><img src="cid:chart-1@forelight">',
+      attachments: [{ cid: 'chart-1@forelight', filename: 'c.png', contentType: 'image/png', content: png }],
+    });
     expect(html).toBe('<img src="data:image/png;base64,iVBORw=="><img src="data:image/png;base64,iVBORw==">');
   });
 });

@@ -16,15 +16,18 @@ import type { Bulletin } from '../../src/types.ts';
 import { mulberry32 } from '../support/rng.ts';
 import { ADDR, deliveryConfig, issueForecast, sampleBulletin, smtpError, startSmtp, tempDir, type SmtpFixture } from './fixtures.ts';
 
-
 class Crash extends Error {}
 
 const TEAMS = ['kessan-health', 'marrow-health', 'tulva-health', 'orrin-health', 'national-desk'];
 const POOL = ['a', 'b', 'c', 'd', 'e', 'f', 'g', 'h'].map((x) => ADDR(`duty.${x}`));
 
 let smtp: SmtpFixture;
-beforeAll(async () => { smtp = await startSmtp(); });
-afterAll(async () => { await smtp.close(); });
+beforeAll(async () => {
+  smtp = await startSmtp();
+});
+afterAll(async () => {
+  await smtp.close();
+});
 
 describe('soak: 50 runs with seeded faults and crashes', () => {
   it('ends with zero duplicates and zero losses in the ledger and at the server', async () => {
@@ -34,12 +37,16 @@ describe('soak: 50 runs with seeded faults and crashes', () => {
     const ledger = openLedger(join(dir, 'ledger.sqlite'));
     const outbox = join(dir, 'outbox');
     const cfg = deliveryConfig(smtp.port, outbox, {
-      retries: 1, smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 0.3 },
+      retries: 1,
+      smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 0.3 },
     });
     const rejected = new Set<string>();
     smtp.faults = {
       rcpt: (a) => (rejected.has(a) ? smtpError(550, 'mailbox unknown') : rand() < 0.12 ? smtpError(451, 'try later') : null),
-      data: () => { const r = rand(); return r < 0.05 ? 'drop' : r < 0.08 ? 'hang' : null; },
+      data: () => {
+        const r = rand();
+        return r < 0.05 ? 'drop' : r < 0.08 ? 'hang' : null;
+      },
     };
     let day = Date.parse('2026-11-02T00:00:00Z');
     let key = '2026-11-02';
@@ -56,7 +63,8 @@ describe('soak: 50 runs with seeded faults and crashes', () => {
       rejected.clear();
       if (rand() < 0.3) rejected.add(pick(POOL));
       const bulletins: Bulletin[] = [];
-      for (const team of TEAMS) if (rand() < 0.35) bulletins.push(sampleBulletin(team, [pick(POOL), pick(POOL)].slice(0, 1 + Math.floor(rand() * 2)), key));
+      for (const team of TEAMS)
+        if (rand() < 0.35) bulletins.push(sampleBulletin(team, [pick(POOL), pick(POOL)].slice(0, 1 + Math.floor(rand() * 2)), key));
       if (bulletins.length === 0) bulletins.push(sampleBulletin('national-desk', [pick(POOL)], key));
       const crashAt = rand() < 0.35 ? pick(['after-record', 'claimed', 'recorded']) : null;
       const force = rand() < 0.05;
@@ -68,8 +76,12 @@ describe('soak: 50 runs with seeded faults and crashes', () => {
         await issueForecast(ledger, key, bulletins, cfg, silentLogger, {
           force,
           sleep: async () => {},
-          afterRecord: () => { if (crashAt === 'after-record') throw new Crash(); },
-          onStep: (step) => { if (step === crashAt && ++steps === crashStep) throw new Crash(); },
+          afterRecord: () => {
+            if (crashAt === 'after-record') throw new Crash();
+          },
+          onStep: (step) => {
+            if (step === crashAt && ++steps === crashStep) throw new Crash();
+          },
         });
       } catch (err) {
         if (!(err instanceof Crash)) throw err;
@@ -99,7 +111,9 @@ describe('soak: 50 runs with seeded faults and crashes', () => {
     }
     // Superseded rows never reached the server either (stale advice is not sent later).
     for (const d of rows.filter((r) => r.status === 'superseded')) expect(copies.has(d.messageId ?? '')).toBe(false);
-    const byStatus = Object.fromEntries(['sent', 'failed', 'outbox', 'superseded'].map((s) => [s, rows.filter((d) => d.status === s).length]));
+    const byStatus = Object.fromEntries(
+      ['sent', 'failed', 'outbox', 'superseded'].map((s) => [s, rows.filter((d) => d.status === s).length]),
+    );
     // Operators were told of every failure, even when a crash came between the failure and the notice.
     for (const d of rows.filter((r) => r.status === 'failed' || r.status === 'outbox')) expect(d.notice, d.recipient).toBe('done');
     const notices = smtp.received.length - bulletinMail.length;

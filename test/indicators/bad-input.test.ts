@@ -11,7 +11,10 @@ describe('NaN propagation (counted as missing, never read as zero)', () => {
   it('heat index: a NaN member-day gives NaN there and missing = 1', () => {
     const tmax = temps([33, 34, NaN, 35, 36, 34, 30, 31, 32, 33, 34, 35]);
     const dew = temps([24, 24, 24, 25, 25, 25, 22, 22, 22, 22, 22, 22]);
-    const r = computeIndicator(indicator('heat-index'), inputsOf(regionSeries('tmax', days, 2, tmax), regionSeries('dewpoint', days, 2, dew)));
+    const r = computeIndicator(
+      indicator('heat-index'),
+      inputsOf(regionSeries('tmax', days, 2, tmax), regionSeries('dewpoint', days, 2, dew)),
+    );
     expect(r.data[2]).toBeNaN();
     expect(r.missing).toBe(1);
     expect(r.outOfRange).toBe(0);
@@ -33,9 +36,15 @@ describe('NaN propagation (counted as missing, never read as zero)', () => {
     expect(r.missing).toBe(2);
   });
 
-  it('out of a formula\'s valid range → NaN counted in outOfRange, not missing', () => {
+  it("out of a formula's valid range → NaN counted in outOfRange, not missing", () => {
     // 55 °C is possible as an input (< 60) but outside the heat-index range (≤ 120 °F = 48.9 °C).
-    const r = computeIndicator(indicator('heat-index'), inputsOf(regionSeries('tmax', days, 1, temps([30, 55, 30, 30, 30, 30])), regionSeries('dewpoint', days, 1, temps([20, 20, 20, 20, 20, 20]))));
+    const r = computeIndicator(
+      indicator('heat-index'),
+      inputsOf(
+        regionSeries('tmax', days, 1, temps([30, 55, 30, 30, 30, 30])),
+        regionSeries('dewpoint', days, 1, temps([20, 20, 20, 20, 20, 20])),
+      ),
+    );
     expect(r.data[1]).toBeNaN();
     expect(r.outOfRange).toBe(1);
     expect(r.missing).toBe(1);
@@ -45,14 +54,25 @@ describe('NaN propagation (counted as missing, never read as zero)', () => {
 describe('impossible values are rejected with region and quantity', () => {
   it('RH 130 % → InputError naming region, quantity and the file', () => {
     const rh = temps([60, 70, 130, 80, 60, 50]);
-    const run = () => computeIndicator(indicator('heat-index'), inputsOf(regionSeries('tmax', days, 1, temps([30, 30, 30, 30, 30, 30]), 'orrin-coast'), regionSeries('rh', days, 1, rh, 'orrin-coast')));
+    const run = () =>
+      computeIndicator(
+        indicator('heat-index'),
+        inputsOf(
+          regionSeries('tmax', days, 1, temps([30, 30, 30, 30, 30, 30]), 'orrin-coast'),
+          regionSeries('rh', days, 1, rh, 'orrin-coast'),
+        ),
+      );
     expect(run).toThrow(InputError);
     expect(run).toThrow(/orrin-coast.*quantity rh.*130/);
     expect(run).toThrow(/forecast-20261123\.nc/);
   });
 
   it('T −120 °C → InputError naming region and quantity', () => {
-    const run = () => computeIndicator(indicator('tmax-mean'), inputsOf(regionSeries('tmax', days, 1, temps([30, 31, -120, 30, 30, 30]), 'marrow-highlands')));
+    const run = () =>
+      computeIndicator(
+        indicator('tmax-mean'),
+        inputsOf(regionSeries('tmax', days, 1, temps([30, 31, -120, 30, 30, 30]), 'marrow-highlands')),
+      );
     expect(run).toThrow(InputError);
     expect(run).toThrow(/marrow-highlands, quantity tmax.*-120/);
   });
@@ -63,13 +83,22 @@ describe('impossible values are rejected with region and quantity', () => {
   });
 
   it('apparent temperature without wind fails naming "wind" (calm is never assumed)', () => {
-    const run = () => computeIndicator(indicator('apparent-temperature'), inputsOf(regionSeries('tmax', days, 1, temps([30, 30, 30, 30, 30, 30])), regionSeries('dewpoint', days, 1, temps([20, 20, 20, 20, 20, 20]))));
+    const run = () =>
+      computeIndicator(
+        indicator('apparent-temperature'),
+        inputsOf(
+          regionSeries('tmax', days, 1, temps([30, 30, 30, 30, 30, 30])),
+          regionSeries('dewpoint', days, 1, temps([20, 20, 20, 20, 20, 20])),
+        ),
+      );
     expect(run).toThrow(ForelightError);
     expect(run).toThrow(/needs quantity "wind"/);
   });
 
   it('EHF without T95 in the climatology fails saying what to configure', () => {
     const s = regionSeries('tmax', days, 1, temps([30, 30, 30, 30, 30, 30]));
-    expect(() => computeIndicator(indicator('excess-heat-factor'), inputsOf(s, { ...s, quantity: 'tmin' }), {})).toThrow(/T95.*hindcasts or observations/);
+    expect(() => computeIndicator(indicator('excess-heat-factor'), inputsOf(s, { ...s, quantity: 'tmin' }), {})).toThrow(
+      /T95.*hindcasts or observations/,
+    );
   });
 });

@@ -4,15 +4,47 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { apparentTemperatureSteadman1994C, apparentTemperatureSteadman1994CArray } from '../../src/indicators/apparent-temperature-steadman-1994.ts';
-import { ehfSeverityRatio, excessHeatFactorFromDmt, excessHeatFactorSeries } from '../../src/indicators/excess-heat-factor-nairn-fawcett-2015.ts';
-import { heatIndexBranchNws, heatIndexRothfusz1990C, heatIndexRothfusz1990CArray, heatIndexRothfusz1990F, type HeatIndexBranch } from '../../src/indicators/heat-index-rothfusz-1990.ts';
-import { humidexMastertonRichardson1979, humidexMastertonRichardson1979Array } from '../../src/indicators/humidex-masterton-richardson-1979.ts';
-import { MAGNUS_ALDUCHOV_ESKRIDGE_1996, MAGNUS_BOLTON_1980, MAGNUS_BOM, rhFromDewpointMagnusPct, rhFromDewpointMagnusPctArray, type MagnusCoefficients } from '../../src/indicators/magnus-humidity.ts';
+import {
+  apparentTemperatureSteadman1994C,
+  apparentTemperatureSteadman1994CArray,
+} from '../../src/indicators/apparent-temperature-steadman-1994.ts';
+import {
+  ehfSeverityRatio,
+  excessHeatFactorFromDmt,
+  excessHeatFactorSeries,
+} from '../../src/indicators/excess-heat-factor-nairn-fawcett-2015.ts';
+import {
+  heatIndexBranchNws,
+  heatIndexRothfusz1990C,
+  heatIndexRothfusz1990CArray,
+  heatIndexRothfusz1990F,
+  type HeatIndexBranch,
+} from '../../src/indicators/heat-index-rothfusz-1990.ts';
+import {
+  humidexMastertonRichardson1979,
+  humidexMastertonRichardson1979Array,
+} from '../../src/indicators/humidex-masterton-richardson-1979.ts';
+import {
+  MAGNUS_ALDUCHOV_ESKRIDGE_1996,
+  MAGNUS_BOLTON_1980,
+  MAGNUS_BOM,
+  rhFromDewpointMagnusPct,
+  rhFromDewpointMagnusPctArray,
+  type MagnusCoefficients,
+} from '../../src/indicators/magnus-humidity.ts';
 import { percentileLinear } from '../../src/core/percentile.ts';
 import { r0ProfileMordecai2013, relativeR0Mordecai2013 } from '../../src/indicators/relative-r0-mordecai-2013.ts';
-import { DETINOVA_1962, sporogonyDurationDetinova1962Days, sporogonyRateDetinova1962PerDay, type PlasmodiumSpecies } from '../../src/indicators/sporogony-detinova-1962.ts';
-import { craigMonthlySuitability1999, craigRainfallMembership1999, craigTemperatureMembership1999 } from '../../src/indicators/suitability-craig-1999.ts';
+import {
+  DETINOVA_1962,
+  sporogonyDurationDetinova1962Days,
+  sporogonyRateDetinova1962PerDay,
+  type PlasmodiumSpecies,
+} from '../../src/indicators/sporogony-detinova-1962.ts';
+import {
+  craigMonthlySuitability1999,
+  craigRainfallMembership1999,
+  craigTemperatureMembership1999,
+} from '../../src/indicators/suitability-craig-1999.ts';
 import { dailySurvivalMartens1997, survivalThroughSporogony } from '../../src/indicators/survival-martens-1997.ts';
 import { wbgtSimplifiedBomC, wbgtSimplifiedBomCArray } from '../../src/indicators/wbgt-simplified-bom.ts';
 
@@ -30,7 +62,8 @@ type In = Record<string, any>;
 const rows: CheckRow[] = JSON.parse(readFileSync(new URL('../reference/checks.json', import.meta.url), 'utf8'));
 
 /** Quantity families this folder owns; any row of these families must have an evaluator below. */
-const OWNED = /^(heat_index|humidex|apparent_temperature|wbgt|rh_from_dewpoint|excess_heat_factor|ehf_|percentile|sporogony|daily_survival|survival_through|craig_|mordecai_)/;
+const OWNED =
+  /^(heat_index|humidex|apparent_temperature|wbgt|rh_from_dewpoint|excess_heat_factor|ehf_|percentile|sporogony|daily_survival|survival_through|craig_|mordecai_)/;
 
 function species(name: string): PlasmodiumSpecies {
   if (name === 'P. falciparum') return 'falciparum';
@@ -110,7 +143,10 @@ const EVALUATORS: Record<string, (i: In) => number> = {
 };
 
 const BRANCH_NAMES: Record<string, HeatIndexBranch> = {
-  simple: 'simple', rothfusz: 'regression', 'rothfusz-lowRH': 'regression-low-rh', 'rothfusz+highRH': 'regression-high-rh',
+  simple: 'simple',
+  rothfusz: 'regression',
+  'rothfusz-lowRH': 'regression-low-rh',
+  'rothfusz+highRH': 'regression-high-rh',
 };
 
 /** Branch named in the row's source: "branch=X" or the chart rows' "WPC algorithm value N F (X)". */
@@ -131,7 +167,9 @@ describe('checks.json indicator rows (CHECKS.md §2-§10)', () => {
       const evaluate = EVALUATORS[row.quantity];
       expect(evaluate, `no evaluator for quantity ${row.quantity}`).toBeDefined();
       const actual = evaluate(row.inputs as In);
-      expect(Math.abs(actual - row.expected), `${row.id}: got ${actual}, expected ${row.expected} ± ${row.tolerance}`).toBeLessThanOrEqual(row.tolerance);
+      expect(Math.abs(actual - row.expected), `${row.id}: got ${actual}, expected ${row.expected} ± ${row.tolerance}`).toBeLessThanOrEqual(
+        row.tolerance,
+      );
       const branch = row.quantity === 'heat_index_nws' ? expectedBranch(row) : null;
       if (row.source.includes('branch')) expect(branch, `${row.id} says branch but none parsed`).not.toBeNull();
       if (branch) expect(heatIndexBranchNws((row.inputs as In).t_air_f, (row.inputs as In).rh_pct)).toBe(branch);

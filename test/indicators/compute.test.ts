@@ -14,7 +14,7 @@ import { dayList, indicator, inputsOf, regionSeries } from './fixtures.ts';
 const days = dayList('2026-11-30', 3);
 const f = (...v: number[]) => Float64Array.from(v);
 
-describe('feels-like indicators on Tmax with the day\'s humidity', () => {
+describe("feels-like indicators on Tmax with the day's humidity", () => {
   const tmax = regionSeries('tmax', days, 1, f(34, 36, 38));
   it('dewpoint input: RH at Tmax by Magnus (Alduchov & Eskridge 1996), then the WPC heat index', () => {
     const r = computeIndicator(indicator('heat-index'), inputsOf(tmax, regionSeries('dewpoint', days, 1, f(24, 25, 26))));
@@ -62,8 +62,14 @@ describe('EHF severity ratio output', () => {
     const tmax = regionSeries('tmax', d, 1, f(36, 39, 41, 40, 38));
     const tmin = regionSeries('tmin', d, 1, f(20, 22, 25, 27, 26));
     const ante = Float64Array.from({ length: 30 }, (_, k) => 20 + k / 10);
-    const ehf = computeIndicator(indicator('excess-heat-factor'), inputsOf(tmax, tmin), { climatology: { dmtP95C: 25 }, antecedentDmtC: ante });
-    const ratio = computeIndicator(indicator('excess-heat-factor', { output: 'severity-ratio' }), inputsOf(tmax, tmin), { climatology: { dmtP95C: 25, ehf85: 20 }, antecedentDmtC: ante });
+    const ehf = computeIndicator(indicator('excess-heat-factor'), inputsOf(tmax, tmin), {
+      climatology: { dmtP95C: 25 },
+      antecedentDmtC: ante,
+    });
+    const ratio = computeIndicator(indicator('excess-heat-factor', { output: 'severity-ratio' }), inputsOf(tmax, tmin), {
+      climatology: { dmtP95C: 25, ehf85: 20 },
+      antecedentDmtC: ante,
+    });
     expect(ehf.data[0]).toBeCloseTo(68.1111, 3); // checks.json ehf-04
     expect(ratio.data[0]).toBeCloseTo(68.1111 / 20, 3);
   });
@@ -80,7 +86,11 @@ describe('malaria suitability, monthly with lag', () => {
   it('monthlySuitability: rain total = mean rate × days in month; index = min(Craig T, Craig R, p^n relative); target = month + lag', () => {
     const p = parseMalariaParams({ id: 'mal', params: { species: 'falciparum', lagMonths: 1 } });
     const months = monthlySuitability(d, 2, tmean, precip, p);
-    expect(months.map((m) => [m.dataMonth, m.targetMonth, m.forecastDays])).toEqual([['2026-11', '2026-12', 8], ['2026-12', '2027-01', 31], ['2027-01', '2027-02', 31]]);
+    expect(months.map((m) => [m.dataMonth, m.targetMonth, m.forecastDays])).toEqual([
+      ['2026-11', '2026-12', 8],
+      ['2026-12', '2027-01', 31],
+      ['2027-01', '2027-02', 31],
+    ]);
     expect(months[0].index[0]).toBeNaN(); // 8 of 30 days < 50 % coverage
     expect(months[1].rainTotalMm[0]).toBeCloseTo(62, 12);
     expect(months[1].index[0]).toBeCloseTo(Math.min(craigS(62, 0, 80), 0.753), 3); // p^n(25)/max = 0.753 (0.2767/0.3675)
@@ -90,7 +100,7 @@ describe('malaria suitability, monthly with lag', () => {
     expect(months[1].index[1]).toBeCloseTo(Math.min(craigS(19, 18, 22), craigS(124, 0, 80), pn19), 12);
   });
 
-  it('computeIndicator puts each month\'s index on the days of the month it speaks for (lag 2)', () => {
+  it("computeIndicator puts each month's index on the days of the month it speaks for (lag 2)", () => {
     const ind = indicator('malaria-suitability', { species: 'falciparum', lagMonths: 2 });
     const r = computeIndicator(ind, inputsOf(regionSeries('tmean', d, 2, tmean), regionSeries('precip', d, 2, precip)));
     expect(r.days[0]).toBe('2027-02-01');
@@ -109,7 +119,9 @@ describe('malaria suitability, monthly with lag', () => {
     expect(suitabilityCategory(0.1, p)).toBe('unsuitable');
     expect(suitabilityCategory(0.25, p)).toBe('marginal');
     expect(suitabilityCategory(0.75, p)).toBe('suitable');
-    expect(() => parseMalariaParams({ id: 'mal', params: { species: 'vivax', temperatureModel: 'mordecai-2013' } })).toThrow(/P. falciparum only/);
+    expect(() => parseMalariaParams({ id: 'mal', params: { species: 'vivax', temperatureModel: 'mordecai-2013' } })).toThrow(
+      /P. falciparum only/,
+    );
     expect(() => parseMalariaParams({ id: 'mal', params: { lagMonths: 3 } })).toThrow(/lagMonths/);
   });
 });

@@ -8,9 +8,21 @@ export function dayList(first: IsoDate, n: number): IsoDate[] {
   return Array.from({ length: n }, (_, i) => addDays(first, i));
 }
 
-export function regionSeries(quantity: Quantity, days: readonly IsoDate[], members: number, data: Float64Array, region = 'kessan-lowlands'): RegionSeries {
+export function regionSeries(
+  quantity: Quantity,
+  days: readonly IsoDate[],
+  members: number,
+  data: Float64Array,
+  region = 'kessan-lowlands',
+): RegionSeries {
   return {
-    region, quantity, units: CANONICAL_UNITS[quantity], days, members, data, cells: 12,
+    region,
+    quantity,
+    units: CANONICAL_UNITS[quantity],
+    days,
+    members,
+    data,
+    cells: 12,
     provenance: { file: `sample-inputs/forecast-20261123.nc`, variable: `${quantity}_var`, referenceTime: '2026-11-23T00:00:00Z' },
   };
 }
@@ -20,10 +32,21 @@ export function inputsOf(...series: RegionSeries[]): Map<Quantity, RegionSeries>
 }
 
 /** An indicator of `kind` (every kind's params are optional, so `{}` fits each). */
-export function indicator<K extends IndicatorKind>(kind: K, params: IndicatorParams<K> = {} as IndicatorParams<K>, windowDays = 3): IndicatorConfig {
+export function indicator<K extends IndicatorKind>(
+  kind: K,
+  params: IndicatorParams<K> = {} as IndicatorParams<K>,
+  windowDays = 3,
+): IndicatorConfig {
   return {
-    id: `test-${kind}`, name: kind, kind, windowDays, threshold: { kind: 'percentile', percentile: 90 },
-    regionThresholds: {}, aggregate: 'mean', tiers: ['days'], params,
+    id: `test-${kind}`,
+    name: kind,
+    kind,
+    windowDays,
+    threshold: { kind: 'percentile', percentile: 90 },
+    regionThresholds: {},
+    aggregate: 'mean',
+    tiers: ['days'],
+    params,
   } as IndicatorConfig;
 }
 

@@ -4,7 +4,11 @@ import { excessHeatFactorNairnFawcett2015 } from '../../src/indicators/excess-he
 import { heatIndexRothfusz1990F } from '../../src/indicators/heat-index-rothfusz-1990.ts';
 import { relativeR0Mordecai2013 } from '../../src/indicators/relative-r0-mordecai-2013.ts';
 import { DETINOVA_1962 } from '../../src/indicators/sporogony-detinova-1962.ts';
-import { craigMonthlySuitability1999, craigRainfallMembership1999, craigTemperatureMembership1999 } from '../../src/indicators/suitability-craig-1999.ts';
+import {
+  craigMonthlySuitability1999,
+  craigRainfallMembership1999,
+  craigTemperatureMembership1999,
+} from '../../src/indicators/suitability-craig-1999.ts';
 import { dailySurvivalMartens1997, survivalThroughSporogony } from '../../src/indicators/survival-martens-1997.ts';
 import { computeIndicator, dayOfYearPercentileThreshold } from '../../src/indicators/compute.ts';
 import { dayList, indicator, inputsOf, regionSeries, rng } from './fixtures.ts';

@@ -19,13 +19,18 @@ import { dayList, inputsOf, regionSeries } from './fixtures.ts';
 
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 const here = fileURLToPath(new URL('.', import.meta.url));
-const testTexts = readdirSync(here).filter((f) => f.endsWith('.test.ts') && f !== 'registry.test.ts').map((f) => readFileSync(join(here, f), 'utf8'));
+const testTexts = readdirSync(here)
+  .filter((f) => f.endsWith('.test.ts') && f !== 'registry.test.ts')
+  .map((f) => readFileSync(join(here, f), 'utf8'));
 const ajv = () => new Ajv2020({ strict: true, allErrors: true });
 
 describe('derived files are current (node bin/run-ts.mjs scripts/update-indicator-registry.ts)', async () => {
   const files = await generatedFiles();
   it.each(files.map((f) => [f.path, f] as const))('%s', (path, f) => {
-    expect(f.same(readFileSync(join(ROOT, path), 'utf8')), `${path} is stale: run node bin/run-ts.mjs scripts/update-indicator-registry.ts`).toBe(true);
+    expect(
+      f.same(readFileSync(join(ROOT, path), 'utf8')),
+      `${path} is stale: run node bin/run-ts.mjs scripts/update-indicator-registry.ts`,
+    ).toBe(true);
   });
   it('and would notice a stale file', () => {
     const [index, schema, readme] = files;
@@ -79,21 +84,36 @@ describe('adding a kind is one module: the worked example of DEVELOPERS.md, in a
 
   it('the generator lists it, puts its kind and params schema into the configuration schema and its row into the README', () => {
     expect(files['src/indicators/kinds/all.ts']).toContain("import { definition as humidexDays } from './humidex-days.ts';");
-    const schema = JSON.parse(files['config/forelight.schema.json']) as { $id: string; $defs: Record<string, JsonSchema & { properties: Record<string, JsonSchema> }> };
+    const schema = JSON.parse(files['config/forelight.schema.json']) as {
+      $id: string;
+      $defs: Record<string, JsonSchema & { properties: Record<string, JsonSchema> }>;
+    };
     expect(schema.$defs.indicator.properties.kind.enum).toContain('humidex-days');
     const check = ajv().addSchema(schema).getSchema(`${schema.$id}#/$defs/indicator`);
     if (!check) throw new Error('no $defs/indicator in the generated schema');
-    const ind = (params: object) => ({ id: 'muggy', name: 'Muggy days', kind: 'humidex-days', threshold: { value: 3, units: 'days' }, aggregate: 'max', tiers: ['weeks'], params });
+    const ind = (params: object) => ({
+      id: 'muggy',
+      name: 'Muggy days',
+      kind: 'humidex-days',
+      threshold: { value: 3, units: 'days' },
+      aggregate: 'max',
+      tiers: ['weeks'],
+      params,
+    });
     expect(check(ind({ 'at-least': 45 }))).toBe(true);
     expect(check(ind({ 'at-least': 90 }))).toBe(false);
     expect(check.errors?.map((e) => e.instancePath)).toContain('/params/at-least');
     expect(check(ind({ 'at-least': 45, basis: 'tmax' }))).toBe(false);
     const table = files['README.md'].slice(files['README.md'].indexOf(TABLE_START), files['README.md'].indexOf(TABLE_END));
-    expect(table).toContain('| `humidex-days` | Humidex days. Days in the window with daily humidex ≥ at-least. | tmax; dewpoint | days | `at-least`: 20–60 (default 40) | Masterton & Richardson 1979 |');
+    expect(table).toContain(
+      '| `humidex-days` | Humidex days. Days in the window with daily humidex ≥ at-least. | tmax; dewpoint | days | `at-least`: 20–60 (default 40) | Masterton & Richardson 1979 |',
+    );
   });
 
   it('its definition computes: a count per window, unknown where a window is incomplete or a day is missing', async () => {
-    const mod = (await import(pathToFileURL(join(tree, 'src/indicators/kinds/humidex-days.ts')).href)) as { definition: IndicatorDefinition<'humidex-days', { atLeast?: number }> };
+    const mod = (await import(pathToFileURL(join(tree, 'src/indicators/kinds/humidex-days.ts')).href)) as {
+      definition: IndicatorDefinition<'humidex-days', { atLeast?: number }>;
+    };
     const days = dayList('2026-12-01', 4);
     // Tmax 35 °C with Td 25 °C: humidex ≈ 47 (≥ 40); with Td 10 °C: ≈ 35.
     const tmax = regionSeries('tmax', days, 1, Float64Array.from([35, 35, 35, 35]));

@@ -39,18 +39,34 @@ const climTmax = Float64Array.from({ length: 4 * 365 }, (_, i) => 30 + 3 * Math.
 const climTmin = climTmax.map((t) => t - 9 + 2 * (rand() - 0.5));
 
 let dir = '';
-let ref: { t95: number; clim_t95: number; clim_ehf85: number; ehf: (number | null)[][]; ehf_no_antecedent: (number | null)[][]; run: number[][]; load: (number | null)[][] };
+let ref: {
+  t95: number;
+  clim_t95: number;
+  clim_ehf85: number;
+  ehf: (number | null)[][];
+  ehf_no_antecedent: (number | null)[][];
+  run: number[][];
+  load: (number | null)[][];
+};
 
 beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'forelight-ehf-'));
   const rows = (a: Float64Array) => Array.from({ length: MEMBERS }, (_, m) => Array.from(a.subarray(m * STEPS, (m + 1) * STEPS)));
   const input = join(dir, 'input.json');
-  writeFileSync(input, JSON.stringify({
-    tmax: rows(tmax), tmin: rows(tmin), antecedent_dmt: Array.from(antecedentDmt), climatology_dmt: Array.from(climatologyDmt),
-    tmax_antecedent: Array.from(tmaxAntecedent), load_window: LOAD_WINDOW,
-    clim_tmax: Array.from(climTmax), clim_tmin: Array.from(climTmin),
-    threshold: [...tmaxAntecedent.map((_, k) => thresholdC(addDays(days[0], k - tmaxAntecedent.length))), ...days.map(thresholdC)],
-  }));
+  writeFileSync(
+    input,
+    JSON.stringify({
+      tmax: rows(tmax),
+      tmin: rows(tmin),
+      antecedent_dmt: Array.from(antecedentDmt),
+      climatology_dmt: Array.from(climatologyDmt),
+      tmax_antecedent: Array.from(tmaxAntecedent),
+      load_window: LOAD_WINDOW,
+      clim_tmax: Array.from(climTmax),
+      clim_tmin: Array.from(climTmin),
+      threshold: [...tmaxAntecedent.map((_, k) => thresholdC(addDays(days[0], k - tmaxAntecedent.length))), ...days.map(thresholdC)],
+    }),
+  );
   ref = JSON.parse(execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'numpy_ehf_reference.py'), input], { encoding: 'utf8' }));
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -90,20 +106,26 @@ describe('series indicators vs numpy (numpy_ehf_reference.py)', () => {
     expect(positive).toBeGreaterThan(0); // the invented heatwave is detected
   });
 
-  it('EHF without antecedent: T30 from the forecast\'s own earlier days, flagged as partial', () => {
+  it("EHF without antecedent: T30 from the forecast's own earlier days, flagged as partial", () => {
     const r = computeIndicator(indicator('excess-heat-factor'), inputs(), { climatology: { dmtP95C: ref.t95 } });
     expectMatches(r.data, ref.ehf_no_antecedent, 1e-9);
     expect(r.notes.join(' ')).toContain('fewer than 30 analysed days for 30 lead day(s)');
   });
 
   it('hot-days-run with a day-of-year threshold and analysed antecedent days', () => {
-    const r = computeIndicator(indicator('hot-days-run'), inputs(), { climatology: { dayOfYearThresholdC: thresholdC }, antecedent: { tmax: tmaxAntecedent } });
+    const r = computeIndicator(indicator('hot-days-run'), inputs(), {
+      climatology: { dayOfYearThresholdC: thresholdC },
+      antecedent: { tmax: tmaxAntecedent },
+    });
     expectMatches(r.data, ref.run, 0);
     expect(Math.max(...r.data)).toBeGreaterThanOrEqual(3);
   });
 
   it('heat-load over a 5-day window with the same threshold', () => {
-    const r = computeIndicator(indicator('heat-load', {}, LOAD_WINDOW), inputs(), { climatology: { dayOfYearThresholdC: thresholdC }, antecedent: { tmax: tmaxAntecedent } });
+    const r = computeIndicator(indicator('heat-load', {}, LOAD_WINDOW), inputs(), {
+      climatology: { dayOfYearThresholdC: thresholdC },
+      antecedent: { tmax: tmaxAntecedent },
+    });
     expectMatches(r.data, ref.load, 1e-9);
     expect(r.units).toBe('degC day');
   });

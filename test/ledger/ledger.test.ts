@@ -13,7 +13,13 @@ import { claimDelivery, deliveryCounts, listDeliveries, markDelivery, pendingDel
 import { MIGRATIONS } from '../../src/ledger/migrations.ts';
 import { openLedger, type Ledger } from '../../src/ledger/open-ledger.ts';
 import {
-  latestStageHistory, lastIssuedStages, previousCapAlert, recordCapAlert, recordDecisions, recordProbabilities, saveStageHistory,
+  latestStageHistory,
+  lastIssuedStages,
+  previousCapAlert,
+  recordCapAlert,
+  recordDecisions,
+  recordProbabilities,
+  saveStageHistory,
 } from '../../src/ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, lastCompletedRun, recordInputs, runInputs } from '../../src/ledger/runs.ts';
 import type { LeadProbability, StageDecision } from '../../src/types.ts';
@@ -21,10 +27,14 @@ import { sampleBulletin, sampleBulletins, tempDir } from '../deliver/fixtures.ts
 import { startPostgres, type TestPostgres } from '../support/servers.ts';
 
 const open: Ledger[] = [];
-afterEach(() => { for (const l of open.splice(0)) l.close(); });
+afterEach(() => {
+  for (const l of open.splice(0)) l.close();
+});
 let postgres: TestPostgres;
 let databases = 0;
-beforeAll(async () => { postgres = await startPostgres(); });
+beforeAll(async () => {
+  postgres = await startPostgres();
+});
 afterAll(() => postgres?.stop());
 
 type Dialect = 'sqlite' | 'postgres';
@@ -43,7 +53,15 @@ function fresh(dialect: Dialect = 'sqlite'): { ledger: Ledger; dir: string } {
 }
 
 const decision = (region: string, stageId: string): StageDecision => ({
-  region, indicator: 'heat-index', tier: 'weeks', stageId, rawStageId: stageId, ruleId: 'hi-weeks', lead: null, withheldLeads: [], reasons: ['test'],
+  region,
+  indicator: 'heat-index',
+  tier: 'weeks',
+  stageId,
+  rawStageId: stageId,
+  ruleId: 'hi-weeks',
+  lead: null,
+  withheldLeads: [],
+  reasons: ['test'],
 });
 
 describe('ledger schema', () => {
@@ -59,20 +77,30 @@ describe('ledger schema', () => {
     const db = new Database(path);
     db.pragma(`user_version = ${MIGRATIONS.length + 1}`);
     db.close();
-    expect(() => openLedger(path)).toThrow(`ledger ${path} has schema version ${MIGRATIONS.length + 1}, this Forelight knows up to ${MIGRATIONS.length} — upgrade Forelight`);
+    expect(() => openLedger(path)).toThrow(
+      `ledger ${path} has schema version ${MIGRATIONS.length + 1}, this Forelight knows up to ${MIGRATIONS.length} — upgrade Forelight`,
+    );
   });
 
   it('names the file when it cannot be opened', () => {
     const dir = tempDir('ledger-bad');
     writeFileSync(join(dir, 'file'), '');
-    expect(() => openLedger(join(dir, 'file', 'l.sqlite'))).toThrow(/^cannot open ledger .*file\/l\.sqlite: .* — check that its folder exists/);
+    expect(() => openLedger(join(dir, 'file', 'l.sqlite'))).toThrow(
+      /^cannot open ledger .*file\/l\.sqlite: .* — check that its folder exists/,
+    );
   });
 
   it('PostgreSQL: the same migrations give the same tables; the version is kept in forelight_schema', () => {
     const { ledger } = fresh('postgres');
-    const tables = (ledger.db.prepare(`SELECT table_name AS t FROM information_schema.tables WHERE table_schema = 'public' ORDER BY 1`).all() as { t: string }[]).map((r) => r.t);
+    const tables = (
+      ledger.db.prepare(`SELECT table_name AS t FROM information_schema.tables WHERE table_schema = 'public' ORDER BY 1`).all() as {
+        t: string;
+      }[]
+    ).map((r) => r.t);
     const sqlite = fresh('sqlite').ledger;
-    const sqliteTables = (sqlite.db.prepare(`SELECT name AS t FROM sqlite_master WHERE type = 'table' ORDER BY 1`).all() as { t: string }[]).map((r) => r.t);
+    const sqliteTables = (
+      sqlite.db.prepare(`SELECT name AS t FROM sqlite_master WHERE type = 'table' ORDER BY 1`).all() as { t: string }[]
+    ).map((r) => r.t);
     expect(tables).toEqual([...sqliteTables, 'forelight_schema'].sort());
     expect(ledger.db.prepare('SELECT version FROM forelight_schema').get()).toEqual({ version: MIGRATIONS.length });
     // Opening again migrates nothing and keeps one version row.
@@ -85,7 +113,9 @@ describe('ledger schema', () => {
     const name = `ledger_${++databases}`;
     postgres.createDatabase(name);
     const url = postgres.url(name);
-    expect(() => openLedger(url, { password: 'wrong' })).toThrow(/^cannot open ledger postgres:\/\/forelight@127\.0\.0\.1:\d+\/ledger_\d+: .*password authentication failed.*SQLSTATE 28P01/);
+    expect(() => openLedger(url, { password: 'wrong' })).toThrow(
+      /^cannot open ledger postgres:\/\/forelight@127\.0\.0\.1:\d+\/ledger_\d+: .*password authentication failed.*SQLSTATE 28P01/,
+    );
     expect(() => openLedger(url, { password: 'wrong' })).not.toThrow(/wrong/);
   });
 });
@@ -164,7 +194,15 @@ describe.each(['sqlite', 'postgres'] as const)('runs (%s)', (dialect) => {
     const run = beginRun(ledger, '2026-11-26').run;
     recordInputs(ledger, run.id, [await describeInputFile(path, 'subseasonal', '2026-11-26T00:00:00Z')]);
     // `printf 'forelight\n' | sha256sum` (GNU coreutils)
-    expect(runInputs(ledger, run.id)).toEqual([{ path, sha256: 'c2f0473d1f7538514aa1ac4446348684b875c3259c19d875df29e6a3ac55c377', sizeBytes: 10, source: 'subseasonal', referenceTime: '2026-11-26T00:00:00Z' }]);
+    expect(runInputs(ledger, run.id)).toEqual([
+      {
+        path,
+        sha256: 'c2f0473d1f7538514aa1ac4446348684b875c3259c19d875df29e6a3ac55c377',
+        sizeBytes: 10,
+        source: 'subseasonal',
+        referenceTime: '2026-11-26T00:00:00Z',
+      },
+    ]);
   });
 });
 
@@ -178,7 +216,10 @@ describe.each(['sqlite', 'postgres'] as const)('results and archive (%s)', (dial
     const b = beginRun(ledger, '2026-11-26').run;
     saveStageHistory(ledger, b.id, JSON.stringify({ v: 'b' }));
     expect(latestStageHistory(ledger, b.id)).toBe('{"v":"a"}');
-    expect(lastIssuedStages(ledger).map((s) => [s.region, s.stageId])).toEqual([['kessan-lowlands', 'brace'], ['orrin-coast', 'quiet']]);
+    expect(lastIssuedStages(ledger).map((s) => [s.region, s.stageId])).toEqual([
+      ['kessan-lowlands', 'brace'],
+      ['orrin-coast', 'quiet'],
+    ]);
     finishRun(ledger, b.id, 'ok');
     expect(latestStageHistory(ledger)).toBe('{"v":"b"}');
     expect(() => saveStageHistory(ledger, b.id, '{oops')).toThrow(/stage history of run \d+ is not JSON/);
@@ -188,10 +229,20 @@ describe.each(['sqlite', 'postgres'] as const)('results and archive (%s)', (dial
     const { ledger } = fresh(dialect);
     expect(previousCapAlert(ledger, 'tulva-delta', 'heat-index')).toBeNull();
     const a = beginRun(ledger, '2026-11-23').run;
-    recordCapAlert(ledger, a.id, 'tulva-delta', 'heat-index', { identifier: 'fl-1', sender: 'desk@health.veloria.example', sent: '2026-11-23T06:00:00+01:00', msgType: 'Alert' });
+    recordCapAlert(ledger, a.id, 'tulva-delta', 'heat-index', {
+      identifier: 'fl-1',
+      sender: 'desk@health.veloria.example',
+      sent: '2026-11-23T06:00:00+01:00',
+      msgType: 'Alert',
+    });
     finishRun(ledger, a.id, 'ok');
     const b = beginRun(ledger, '2026-11-26').run;
-    recordCapAlert(ledger, b.id, 'tulva-delta', 'heat-index', { identifier: 'fl-2', sender: 'desk@health.veloria.example', sent: '2026-11-26T06:00:00+01:00', msgType: 'Update' });
+    recordCapAlert(ledger, b.id, 'tulva-delta', 'heat-index', {
+      identifier: 'fl-2',
+      sender: 'desk@health.veloria.example',
+      sent: '2026-11-26T06:00:00+01:00',
+      msgType: 'Update',
+    });
     expect(previousCapAlert(ledger, 'tulva-delta', 'heat-index', b.id)?.identifier).toBe('fl-1');
     expect(previousCapAlert(ledger, 'kessan-lowlands', 'heat-index')).toBeNull();
   });
@@ -200,9 +251,19 @@ describe.each(['sqlite', 'postgres'] as const)('results and archive (%s)', (dial
     const { ledger } = fresh(dialect);
     const run = beginRun(ledger, '2026-11-26').run;
     const p: LeadProbability = {
-      source: 'subseasonal', region: 'kessan-lowlands', indicator: 'heat-index', lead: { tier: 'weeks', index: 2, start: '2026-12-03', end: '2026-12-09' },
-      probability: 0.6, baseRate: Number.NaN, members: 11, validMembers: 11, threshold: { value: 32, units: 'degC', origin: 'test' },
-      operator: '>', flags: [], skill: null, calibrated: false,
+      source: 'subseasonal',
+      region: 'kessan-lowlands',
+      indicator: 'heat-index',
+      lead: { tier: 'weeks', index: 2, start: '2026-12-03', end: '2026-12-09' },
+      probability: 0.6,
+      baseRate: Number.NaN,
+      members: 11,
+      validMembers: 11,
+      threshold: { value: 32, units: 'degC', origin: 'test' },
+      operator: '>',
+      flags: [],
+      skill: null,
+      calibrated: false,
     };
     recordProbabilities(ledger, run.id, [p]);
     expect(ledger.db.prepare('SELECT probability, base_rate FROM probabilities').get()).toEqual({ probability: 0.6, base_rate: null });
@@ -220,7 +281,12 @@ describe.each(['sqlite', 'postgres'] as const)('results and archive (%s)', (dial
     finishRun(ledger, run.id, 'ok');
     const listed = issuedBulletins(ledger);
     expect(listed).toHaveLength(1);
-    expect(listed[0]).toMatchObject({ team: 'orrin-health', forecastKey: '2026-11-26', deliveries: { sent: 1 }, contentSha256: bulletinContentHash(b) });
+    expect(listed[0]).toMatchObject({
+      team: 'orrin-health',
+      forecastKey: '2026-11-26',
+      deliveries: { sent: 1 },
+      contentSha256: bulletinContentHash(b),
+    });
   });
 
   it('a delivery is claimed once: a second claim of the same row fails', () => {

@@ -11,7 +11,20 @@
  * bulletin, each Message-ID once.
  */
 import { execFileSync } from 'node:child_process';
-import { copyFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, symlinkSync, truncateSync, writeFileSync } from 'node:fs';
+import {
+  copyFileSync,
+  cpSync,
+  existsSync,
+  mkdirSync,
+  mkdtempSync,
+  readdirSync,
+  readFileSync,
+  rmSync,
+  statSync,
+  symlinkSync,
+  truncateSync,
+  writeFileSync,
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import { simpleParser } from 'mailparser';
@@ -31,7 +44,11 @@ import { startSmtp, type SmtpFixture } from '../deliver/fixtures.ts';
 
 const HISTORY = ['2026-11-23', '2026-11-26'];
 const ISSUE = '2026-11-30';
-const NEWEST = { short: 'short/short_20261130.nc', subseasonal: 'subseasonal/subs_20261130.nc', seasonal: 'seasonal/seas_20261126.nc' } as const;
+const NEWEST = {
+  short: 'short/short_20261130.nc',
+  subseasonal: 'subseasonal/subs_20261130.nc',
+  seasonal: 'seasonal/seas_20261126.nc',
+} as const;
 const TIER_WORDS = { short: 'short-range', subseasonal: 'sub-seasonal', seasonal: 'seasonal' } as const;
 type SourceId = keyof typeof NEWEST;
 
@@ -46,7 +63,11 @@ function configFor(dir: string, forecastDir: string, cacheDir: string): Config {
   const sample = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
   return {
     ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.replace(/.*sample-inputs\/data/, forecastDir), hindcast: s.hindcast && sample(s.hindcast) })),
+    sources: base.sources.map((s) => ({
+      ...s,
+      forecast: s.forecast.replace(/.*sample-inputs\/data/, forecastDir),
+      hindcast: s.hindcast && sample(s.hindcast),
+    })),
     observations: base.observations && { ...base.observations, path: sample(base.observations.path) },
     ledger: join(dir, 'ledger.sqlite'),
     delivery: { ...base.delivery, outbox: join(dir, 'outbox'), archive: join(dir, 'archive') },
@@ -75,15 +96,25 @@ const py = (code: string, ...args: string[]) => run('/usr/bin/python3', '-c', co
 const firstVar = (_src: string) => 'tasmax';
 
 const DAMAGES: Record<string, (src: string, dst: string) => void> = {
-  'truncated classic file': (src, dst) => { copyFileSync(src, dst); truncateSync(dst, Math.floor(statSync(src).size * 0.6)); },
-  'truncated NetCDF-4 file (nccopy -k nc4)': (src, dst) => { run('nccopy', '-k', 'nc4', '-d', '1', src, dst); truncateSync(dst, Math.floor(statSync(dst).size * 0.5)); },
+  'truncated classic file': (src, dst) => {
+    copyFileSync(src, dst);
+    truncateSync(dst, Math.floor(statSync(src).size * 0.6));
+  },
+  'truncated NetCDF-4 file (nccopy -k nc4)': (src, dst) => {
+    run('nccopy', '-k', 'nc4', '-d', '1', src, dst);
+    truncateSync(dst, Math.floor(statSync(dst).size * 0.5));
+  },
   'renamed variable (ncrename)': (src, dst) => run('ncrename', '-O', '-v', `${firstVar(src)},tmax_renamed`, src, dst),
   'no units (ncatted -a units,d)': (src, dst) => run('ncatted', '-O', '-a', `units,${firstVar(src)},d,,`, src, dst),
   'all values missing (netCDF4-python writes _FillValue everywhere)': (src, dst) => {
     copyFileSync(src, dst);
-    py('import sys, netCDF4\nd = netCDF4.Dataset(sys.argv[1], "a")\nv = d.variables["tasmax"]\nv.set_auto_maskandscale(False)\nv[:] = v._FillValue\nd.close()', dst);
+    py(
+      'import sys, netCDF4\nd = netCDF4.Dataset(sys.argv[1], "a")\nv = d.variables["tasmax"]\nv.set_auto_maskandscale(False)\nv[:] = v._FillValue\nd.close()',
+      dst,
+    );
   },
-  'another grid (ncks keeps every second latitude and longitude)': (src, dst) => run('ncks', '-O', '-d', 'lat,,,2', '-d', 'lon,,,2', src, dst),
+  'another grid (ncks keeps every second latitude and longitude)': (src, dst) =>
+    run('ncks', '-O', '-d', 'lat,,,2', '-d', 'lon,,,2', src, dst),
 };
 
 interface Scenario {
@@ -97,7 +128,10 @@ interface Scenario {
   readonly messageIds: string[];
 }
 
-async function issue(name: string, options: { forecastDir?: string; edit?: (c: Config, dir: string) => Config; smtp?: SmtpFixture; env?: NodeJS.ProcessEnv } = {}): Promise<Scenario> {
+async function issue(
+  name: string,
+  options: { forecastDir?: string; edit?: (c: Config, dir: string) => Config; smtp?: SmtpFixture; env?: NodeJS.ProcessEnv } = {},
+): Promise<Scenario> {
   const dir = tmp(name.replace(/\W+/g, '-').slice(0, 30));
   copyFileSync(join(historyDir, 'ledger.sqlite'), join(dir, 'ledger.sqlite'));
   cpSync(join(historyDir, 'archive'), join(dir, 'archive'), { recursive: true });
@@ -106,17 +140,27 @@ async function issue(name: string, options: { forecastDir?: string; edit?: (c: C
   const ledgerBefore = openLedger(config.ledger);
   const before = new Map(issuedRegionStages(config, lastIssuedStages(ledgerBefore)).map((r) => [r.region, r.stageId]));
   ledgerBefore.close();
-  const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }), mode: 'exercise', deliver: { sleep: async () => {}, env: options.env } });
+  const outcome = await runOnce({
+    config,
+    run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }),
+    mode: 'exercise',
+    deliver: { sleep: async () => {}, env: options.env },
+  });
   const ledger = openLedger(config.ledger);
   const stages = new Map(issuedRegionStages(config, lastIssuedStages(ledger)).map((r) => [r.region, r.stageId]));
   ledger.close();
   const outbox = config.delivery.outbox;
   const files = existsSync(outbox) ? readdirSync(outbox) : [];
-  const parsed = await Promise.all(files.filter((f) => f.endsWith('.eml') && !f.startsWith('notice_')).map(async (f) => simpleParser(readFileSync(join(outbox, f)))));
+  const parsed = await Promise.all(
+    files.filter((f) => f.endsWith('.eml') && !f.startsWith('notice_')).map(async (f) => simpleParser(readFileSync(join(outbox, f)))),
+  );
   const smtpParsed = await Promise.all((options.smtp?.received ?? []).map((r) => simpleParser(r.raw)));
   const all = [...parsed, ...smtpParsed];
   return {
-    outcome, config, stages, before,
+    outcome,
+    config,
+    stages,
+    before,
     texts: all.map((m) => m.text ?? ''),
     notices: files.filter((f) => f.startsWith('notice_')).map((f) => readFileSync(join(outbox, f), 'utf8')),
     messageIds: all.map((m) => m.messageId ?? ''),
@@ -131,7 +175,12 @@ beforeAll(async () => {
   base = await loadConfig();
   historyDir = tmp('history');
   const config = configFor(historyDir, sampleDir, join(historyDir, 'cache'));
-  for (const d of HISTORY) await runOnce({ config, run: runContext({ log: silentLogger, issueDate: d, now: () => new Date(`${d}T07:30:00Z`) }), mode: 'exercise' });
+  for (const d of HISTORY)
+    await runOnce({
+      config,
+      run: runContext({ log: silentLogger, issueDate: d, now: () => new Date(`${d}T07:30:00Z`) }),
+      mode: 'exercise',
+    });
   clean = await issue('clean');
 }, 600_000);
 
@@ -143,7 +192,10 @@ function expectSafe(s: Scenario): void {
   for (const region of base.regions) {
     const now = rank(s.stages.get(region.id));
     const floor = Math.min(rank(s.before.get(region.id)), rank(clean.stages.get(region.id)));
-    expect(now, `${region.id}: ${s.stages.get(region.id)} after ${s.before.get(region.id)} (clean run: ${clean.stages.get(region.id)})`).toBeGreaterThanOrEqual(floor);
+    expect(
+      now,
+      `${region.id}: ${s.stages.get(region.id)} after ${s.before.get(region.id)} (clean run: ${clean.stages.get(region.id)})`,
+    ).toBeGreaterThanOrEqual(floor);
   }
   expect(s.messageIds).toHaveLength(recipients());
   expect(new Set(s.messageIds).size).toBe(recipients());
@@ -157,40 +209,52 @@ describe('clean run of 30 Nov (the reference)', () => {
 });
 
 describe.each(Object.keys(NEWEST) as SourceId[])('damaged newest %s forecast', (source) => {
-  it.each(Object.keys(DAMAGES))('%s: input problem named (exit 3), older forecast or held stage said, nothing calmer, notice written', async (kind) => {
-    const forecastDir = forecastCopy();
-    damage(forecastDir, NEWEST[source], DAMAGES[kind]);
-    const s = await issue(`${source}-${kind}`, { forecastDir });
-    expect(s.outcome.exitCode).toBe(EXIT.inputProblem);
-    expect((s.outcome.problems ?? []).some((p) => p.includes(basename(NEWEST[source])))).toBe(true);
-    expect(s.outcome.summary).toMatch(/[1-9]\d* input problem\(s\)/);
-    expectSafe(s);
-    const en = s.texts.filter((t) => /READ BEFORE ACTING/i.test(t));
-    expect(en.length).toBeGreaterThan(0);
-    for (const text of en) {
-      // Either an older forecast of the source was used (and said), or the missing part is named.
-      expect(text).toMatch(new RegExp(`based on the forecast of|No ${TIER_WORDS[source]} forecast could be used this time`));
-    }
-    expect(s.notices.some((n) => n.includes(basename(NEWEST[source])))).toBe(true);
-  }, 240_000);
+  it.each(Object.keys(DAMAGES))(
+    '%s: input problem named (exit 3), older forecast or held stage said, nothing calmer, notice written',
+    async (kind) => {
+      const forecastDir = forecastCopy();
+      damage(forecastDir, NEWEST[source], DAMAGES[kind]);
+      const s = await issue(`${source}-${kind}`, { forecastDir });
+      expect(s.outcome.exitCode).toBe(EXIT.inputProblem);
+      expect((s.outcome.problems ?? []).some((p) => p.includes(basename(NEWEST[source])))).toBe(true);
+      expect(s.outcome.summary).toMatch(/[1-9]\d* input problem\(s\)/);
+      expectSafe(s);
+      const en = s.texts.filter((t) => /READ BEFORE ACTING/i.test(t));
+      expect(en.length).toBeGreaterThan(0);
+      for (const text of en) {
+        // Either an older forecast of the source was used (and said), or the missing part is named.
+        expect(text).toMatch(new RegExp(`based on the forecast of|No ${TIER_WORDS[source]} forecast could be used this time`));
+      }
+      expect(s.notices.some((n) => n.includes(basename(NEWEST[source])))).toBe(true);
+    },
+    240_000,
+  );
 });
 
 describe('files that are not forecasts at the newest short-range path', () => {
   it.each([
     ['an empty file', (p: string) => writeFileSync(p, '')],
     ['a folder', (p: string) => mkdirSync(p)],
-  ])('%s is an input problem (exit 3) and the previous forecast is used and said', async (_name, make) => {
-    const forecastDir = forecastCopy();
-    rmSync(join(forecastDir, NEWEST.short));
-    make(join(forecastDir, NEWEST.short));
-    const s = await issue(`short-${_name}`, { forecastDir });
-    expect(s.outcome.exitCode).toBe(EXIT.inputProblem);
-    expect((s.outcome.problems ?? []).some((p) => p.includes('short_20261130.nc'))).toBe(true);
-    expect(s.outcome.summary).toMatch(/short 2026-11-26/);
-    expectSafe(s);
-    expect(s.texts.some((t) => /Short-range forecast: the newer forecast was late, so this bulletin is based on the forecast of 26 Nov 2026/.test(t))).toBe(true);
-    expect(s.notices.some((n) => n.includes('short_20261130.nc'))).toBe(true);
-  }, 240_000);
+  ])(
+    '%s is an input problem (exit 3) and the previous forecast is used and said',
+    async (_name, make) => {
+      const forecastDir = forecastCopy();
+      rmSync(join(forecastDir, NEWEST.short));
+      make(join(forecastDir, NEWEST.short));
+      const s = await issue(`short-${_name}`, { forecastDir });
+      expect(s.outcome.exitCode).toBe(EXIT.inputProblem);
+      expect((s.outcome.problems ?? []).some((p) => p.includes('short_20261130.nc'))).toBe(true);
+      expect(s.outcome.summary).toMatch(/short 2026-11-26/);
+      expectSafe(s);
+      expect(
+        s.texts.some((t) =>
+          /Short-range forecast: the newer forecast was late, so this bulletin is based on the forecast of 26 Nov 2026/.test(t),
+        ),
+      ).toBe(true);
+      expect(s.notices.some((n) => n.includes('short_20261130.nc'))).toBe(true);
+    },
+    240_000,
+  );
 });
 
 describe('a region without grid cells', () => {
@@ -198,7 +262,16 @@ describe('a region without grid cells', () => {
     const s = await issue('no-cells', {
       edit: (c) => ({
         ...c,
-        regions: [...c.regions, { id: 'far-isle', name: 'Far Isle', shape: { kind: 'box', south: 60, north: 61, west: 100, east: 101 }, utcOffsetHours: 1, teams: [c.teams.find((t) => t.national)?.id ?? c.teams[0].id] }],
+        regions: [
+          ...c.regions,
+          {
+            id: 'far-isle',
+            name: 'Far Isle',
+            shape: { kind: 'box', south: 60, north: 61, west: 100, east: 101 },
+            utcOffsetHours: 1,
+            teams: [c.teams.find((t) => t.national)?.id ?? c.teams[0].id],
+          },
+        ],
       }),
     });
     expect(s.outcome.exitCode, s.outcome.summary).toBe(EXIT.inputProblem);
@@ -216,7 +289,21 @@ describe('SMTP login refused (535) by a real server on 127.0.0.1', () => {
       const s = await issue('smtp-535', {
         smtp,
         env: { FORELIGHT_SMTP_PASSWORD: 'wrong' },
-        edit: (c) => ({ ...c, delivery: { ...c.delivery, retries: 0, smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 5, user: 'forelight', passwordEnv: 'FORELIGHT_SMTP_PASSWORD' } } }),
+        edit: (c) => ({
+          ...c,
+          delivery: {
+            ...c.delivery,
+            retries: 0,
+            smtp: {
+              host: '127.0.0.1',
+              port: smtp.port,
+              security: 'none',
+              timeoutSeconds: 5,
+              user: 'forelight',
+              passwordEnv: 'FORELIGHT_SMTP_PASSWORD',
+            },
+          },
+        }),
       });
       expect(s.outcome.exitCode).toBe(EXIT.deliveryFailed);
       expect(smtp.received).toHaveLength(0);

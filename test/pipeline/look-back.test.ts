@@ -16,8 +16,10 @@ const SOURCE = '    tier: weeks\n    forecast-files: data/w_{date}.nc\n    prior
 
 /** minimal.yaml with every tier set to `tier` and `lookBack` lines added to its source. */
 function variant(tier: string, lookBack: string): string {
-  const text = readFileSync(fixture('minimal.yaml'), 'utf8').replace(SOURCE, `${SOURCE}${lookBack}`)
-    .replaceAll('tier: weeks', `tier: ${tier}`).replace('tiers: [weeks]', `tiers: [${tier}]`);
+  const text = readFileSync(fixture('minimal.yaml'), 'utf8')
+    .replace(SOURCE, `${SOURCE}${lookBack}`)
+    .replaceAll('tier: weeks', `tier: ${tier}`)
+    .replace('tiers: [weeks]', `tiers: [${tier}]`);
   return writeTemp(`look-back-${tier}-${lookBack.length}.yaml`, text);
 }
 
@@ -31,7 +33,7 @@ async function setUp(tier: string, lookBack: string, fileDate: string) {
 }
 
 describe('look-back-days', () => {
-  it('a months source finds last month\'s issue by default (35 days); a weeks source does not (10 days) and says what it tried', async () => {
+  it("a months source finds last month's issue by default (35 days); a weeks source does not (10 days) and says what it tried", async () => {
     const seasonal = await setUp('months', '', '2026-10-25');
     expect(seasonal.sources[0].lookbackDays).toBe(35);
     const [found] = resolveInputs(seasonal, '2026-11-26');
@@ -44,7 +46,9 @@ describe('look-back-days', () => {
     const read = await readAll(weekly, '2026-11-26', inputs);
     expect(read.problems).toHaveLength(1);
     const line = read.problems[0].message;
-    expect(line).toMatch(/no forecast of source 'weekly': tried .*data\/w_20261126\.nc and every date back to .*data\/w_20261116\.nc \(2026-11-26 to 2026-11-16, look-back-days 10\)/);
+    expect(line).toMatch(
+      /no forecast of source 'weekly': tried .*data\/w_20261126\.nc and every date back to .*data\/w_20261116\.nc \(2026-11-26 to 2026-11-16, look-back-days 10\)/,
+    );
     expect(line).toMatch(/larger look-back-days/);
   });
 

@@ -11,9 +11,23 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 describe('readArchiveEntries', () => {
   it('returns the entries oldest first, skips folders without one, and names a damaged entry', () => {
-    for (const [run, issuedAt] of [['2026-11-26-2', '2026-11-26T07:30:00Z'], ['2026-11-23-1', '2026-11-23T07:30:00Z']]) {
+    for (const [run, issuedAt] of [
+      ['2026-11-26-2', '2026-11-26T07:30:00Z'],
+      ['2026-11-23-1', '2026-11-23T07:30:00Z'],
+    ]) {
       mkdirSync(join(dir, run));
-      const entry = { runId: run, issuedAt, issuedDay: issuedAt.slice(0, 10), locale: 'en', title: `Bulletin ${run}`, regions: [], bodyHtml: '<p>x</p>', charts: [], capAlerts: [], json: '{}' };
+      const entry = {
+        runId: run,
+        issuedAt,
+        issuedDay: issuedAt.slice(0, 10),
+        locale: 'en',
+        title: `Bulletin ${run}`,
+        regions: [],
+        bodyHtml: '<p>x</p>',
+        charts: [],
+        capAlerts: [],
+        json: '{}',
+      };
       writeFileSync(join(dir, run, 'entry.json'), JSON.stringify(entry));
     }
     mkdirSync(join(dir, 'assets'));
@@ -21,9 +35,15 @@ describe('readArchiveEntries', () => {
     mkdirSync(join(dir, '2026-11-30-3'));
     writeFileSync(join(dir, '2026-11-30-3', 'entry.json'), '{"runId": "2026-11-30-3", "issu');
     expect(() => readArchiveEntries(dir)).toThrow(ForelightError);
-    expect(() => readArchiveEntries(dir)).toThrow(new RegExp(`^archive entry ${join(dir, '2026-11-30-3', 'entry.json')} is unreadable \\(.+\\) — restore it from a backup or delete its folder`));
+    expect(() => readArchiveEntries(dir)).toThrow(
+      new RegExp(
+        `^archive entry ${join(dir, '2026-11-30-3', 'entry.json')} is unreadable \\(.+\\) — restore it from a backup or delete its folder`,
+      ),
+    );
     // Valid JSON without the fields the site needs is named too (ajv, JSON Schema 2020-12), not trusted by a cast.
     writeFileSync(join(dir, '2026-11-30-3', 'entry.json'), JSON.stringify({ runId: '2026-11-30-3', issuedAt: '2026-11-30T07:30:00Z' }));
-    expect(() => readArchiveEntries(dir)).toThrow(new RegExp(`^archive entry ${join(dir, '2026-11-30-3', 'entry.json')} is unreadable \\(/ must have required property 'issuedDay'\\)`));
+    expect(() => readArchiveEntries(dir)).toThrow(
+      new RegExp(`^archive entry ${join(dir, '2026-11-30-3', 'entry.json')} is unreadable \\(/ must have required property 'issuedDay'\\)`),
+    );
   });
 });

@@ -39,7 +39,9 @@ function isolatedConfig(base: Config, dir: string, sampleDir?: string): Config {
 
 function filesUnder(dir: string, ext: string): string[] {
   if (!existsSync(dir)) return [];
-  return readdirSync(dir, { recursive: true, encoding: 'utf8' }).filter((f) => f.endsWith(ext)).map((f) => join(dir, f));
+  return readdirSync(dir, { recursive: true, encoding: 'utf8' })
+    .filter((f) => f.endsWith(ext))
+    .map((f) => join(dir, f));
 }
 
 let sampleDir: string;
@@ -58,7 +60,13 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
   beforeAll(async () => {
     config = isolatedConfig(base, mkdtempSync(join(tmpdir(), 'forelight-run-')), sampleDir);
     for (const issueDate of ISSUES) {
-      outcomes.push(await runOnce({ config, run: runContext({ log: silentLogger, issueDate, now: () => new Date(`${issueDate}T07:30:00Z`) }), mode: 'exercise' }));
+      outcomes.push(
+        await runOnce({
+          config,
+          run: runContext({ log: silentLogger, issueDate, now: () => new Date(`${issueDate}T07:30:00Z`) }),
+          mode: 'exercise',
+        }),
+      );
     }
   }, 240_000);
 
@@ -67,7 +75,7 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
     expect(outcomes[0].summary).toMatch(/seasonal none/);
   });
 
-  it('writes one .eml per bulletin and recipient to the outbox, each Message-ID once (no duplicates); the first issue\'s input problem goes to the operators', async () => {
+  it("writes one .eml per bulletin and recipient to the outbox, each Message-ID once (no duplicates); the first issue's input problem goes to the operators", async () => {
     const all = filesUnder(config.delivery.outbox, '.eml');
     const notices = all.filter((f) => f.includes('notice_'));
     expect(notices).toHaveLength(1);
@@ -93,9 +101,13 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
       const inputs = db.prepare('SELECT sha256 FROM input_files WHERE run_id = ?').all(runs[1].id) as { sha256: string }[];
       expect(inputs.length).toBeGreaterThan(20);
       for (const i of inputs) expect(i.sha256).toMatch(/^[0-9a-f]{64}$/);
-      expect((db.prepare('SELECT count(*) AS n FROM probabilities WHERE run_id = ?').get(runs[2].id) as { n: number }).n).toBeGreaterThan(100);
+      expect((db.prepare('SELECT count(*) AS n FROM probabilities WHERE run_id = ?').get(runs[2].id) as { n: number }).n).toBeGreaterThan(
+        100,
+      );
       const statuses = db.prepare('SELECT status, count(*) AS n FROM deliveries GROUP BY status').all() as { status: string; n: number }[];
-      expect(statuses).toEqual([{ status: 'outbox', n: filesUnder(config.delivery.outbox, '.eml').filter((f) => !f.includes('notice_')).length }]);
+      expect(statuses).toEqual([
+        { status: 'outbox', n: filesUnder(config.delivery.outbox, '.eml').filter((f) => !f.includes('notice_')).length },
+      ]);
     } finally {
       db.close();
     }
@@ -104,7 +116,10 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
   it('every CAP alert of the run validates against the OASIS CAP 1.2 schema (xmllint, Debian libxml2-utils)', () => {
     const alerts = filesUnder(config.delivery.archive, '.xml');
     expect(alerts.length).toBeGreaterThan(0);
-    const out = execFileSync('xmllint', ['--noout', '--schema', SCHEMA, ...alerts], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] });
+    const out = execFileSync('xmllint', ['--noout', '--schema', SCHEMA, ...alerts], {
+      encoding: 'utf8',
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     expect(out).toBe('');
   });
 
@@ -140,7 +155,11 @@ describe('one bad source never stops the others', () => {
     try {
       const run = db.prepare('SELECT status FROM runs').get() as { status: string };
       expect(run.status).toBe('partial');
-      const problems = db.prepare('SELECT code, severity, diagnostic_json FROM run_diagnostics ORDER BY position').all() as { code: string; severity: string; diagnostic_json: string }[];
+      const problems = db.prepare('SELECT code, severity, diagnostic_json FROM run_diagnostics ORDER BY position').all() as {
+        code: string;
+        severity: string;
+        diagnostic_json: string;
+      }[];
       const truncated = problems.filter((p) => p.code === 'input-truncated').map((p) => JSON.parse(p.diagnostic_json) as Diagnostic);
       expect(truncated).toHaveLength(1);
       expect(truncated[0].place.file).toBe(bad);
@@ -154,9 +173,14 @@ describe('one bad source never stops the others', () => {
       db.close();
     }
     expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
-    const runJson = JSON.parse(readFileSync(filesUnder(config.delivery.archive, 'run.json')[0], 'utf8')) as { problems: unknown[]; notes: string[] };
+    const runJson = JSON.parse(readFileSync(filesUnder(config.delivery.archive, 'run.json')[0], 'utf8')) as {
+      problems: unknown[];
+      notes: string[];
+    };
     expect(runJson.problems.every(isDiagnostic)).toBe(true);
-    expect(runJson.problems.filter((p) => isDiagnostic(p) && p.code === 'input-truncated').map((p) => (p as Diagnostic).place.file)).toEqual([bad]);
+    expect(
+      runJson.problems.filter((p) => isDiagnostic(p) && p.code === 'input-truncated').map((p) => (p as Diagnostic).place.file),
+    ).toEqual([bad]);
     expect(runJson.notes.some((n) => n.includes('truncated'))).toBe(false); // problems are data, not notes
   });
 
@@ -166,15 +190,29 @@ describe('one bad source never stops the others', () => {
     cpSync(sampleDir, copy, { recursive: true });
     const config = isolatedConfig(base, dir, copy);
     // Unusable is the same as late: every forecast within the look-back must be damaged for nothing to be usable.
-    const forecasts = ['short/short_20261123.nc', 'short/short_20261126.nc', 'subseasonal/subs_20261123.nc', 'subseasonal/subs_20261126.nc', 'seasonal/seas_20261126.nc'].map((f) => join(copy, f));
+    const forecasts = [
+      'short/short_20261123.nc',
+      'short/short_20261126.nc',
+      'subseasonal/subs_20261123.nc',
+      'subseasonal/subs_20261126.nc',
+      'seasonal/seas_20261126.nc',
+    ].map((f) => join(copy, f));
     for (const f of forecasts) truncateSync(f, 5000);
-    const failed = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' }).catch((e: unknown) => e);
+    const failed = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' }).catch(
+      (e: unknown) => e,
+    );
     expect(failed).toBeInstanceOf(ForelightError);
     expect((failed as ForelightError).code).toBe('no-forecast-read');
     const db = new Database(config.ledger, { readonly: true });
     try {
       expect((db.prepare('SELECT status FROM runs').get() as { status: string }).status).toBe('failed');
-      const files = (db.prepare("SELECT json_extract(diagnostic_json, '$.place.file') AS file FROM run_diagnostics WHERE code = 'input-truncated' ORDER BY file").all() as { file: string }[]).map((r) => r.file);
+      const files = (
+        db
+          .prepare(
+            "SELECT json_extract(diagnostic_json, '$.place.file') AS file FROM run_diagnostics WHERE code = 'input-truncated' ORDER BY file",
+          )
+          .all() as { file: string }[]
+      ).map((r) => r.file);
       expect(files).toEqual([...forecasts].sort());
       expect(db.prepare('SELECT count(*) AS n FROM bulletins').get()).toEqual({ n: 0 });
     } finally {
@@ -198,7 +236,9 @@ describe('one bad source never stops the others', () => {
     expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
     const db = new Database(config.ledger, { readonly: true });
     try {
-      const skills = db.prepare("SELECT DISTINCT json_extract(skill_json, '$.basis') AS basis FROM probabilities WHERE skill_json IS NOT NULL").all() as { basis: string }[];
+      const skills = db
+        .prepare("SELECT DISTINCT json_extract(skill_json, '$.basis') AS basis FROM probabilities WHERE skill_json IS NOT NULL")
+        .all() as { basis: string }[];
       expect(skills.map((s) => s.basis)).toEqual(['potential']); // perfect-model estimate, labelled as such
     } finally {
       db.close();
@@ -216,9 +256,12 @@ describe('one bad source never stops the others', () => {
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     const db = new Database(config.ledger, { readonly: true });
     try {
-      const problems = (db.prepare("SELECT diagnostic_json FROM run_diagnostics WHERE code = 'hindcast-grid'").all() as { diagnostic_json: string }[])
-        .map((p) => formatDiagnostic(JSON.parse(p.diagnostic_json) as Diagnostic));
-      expect(problems.join('\n')).toMatch(/subs_20101126\.nc: region 'kessan-lowlands' covers \d+ grid cells here but \d+ in the forecast: the hindcast grid differs/);
+      const problems = (
+        db.prepare("SELECT diagnostic_json FROM run_diagnostics WHERE code = 'hindcast-grid'").all() as { diagnostic_json: string }[]
+      ).map((p) => formatDiagnostic(JSON.parse(p.diagnostic_json) as Diagnostic));
+      expect(problems.join('\n')).toMatch(
+        /subs_20101126\.nc: region 'kessan-lowlands' covers \d+ grid cells here but \d+ in the forecast: the hindcast grid differs/,
+      );
       const weeks = db.prepare("SELECT count(*) AS n FROM probabilities WHERE tier = 'weeks' AND calibrated = 1").get() as { n: number };
       expect(weeks.n).toBeGreaterThan(0);
     } finally {

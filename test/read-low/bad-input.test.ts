@@ -21,7 +21,10 @@ function truncatedCopy(name: string, bytes: number): string {
 }
 
 async function openError(path: string): Promise<InputError> {
-  const err = await openDataset(path).then(() => undefined, (e: unknown) => e);
+  const err = await openDataset(path).then(
+    () => undefined,
+    (e: unknown) => e,
+  );
   expect(err).toBeInstanceOf(InputError);
   expect((err as Error).message).not.toContain('\n');
   return err as InputError;
@@ -38,7 +41,9 @@ describe('openDataset on bad files', () => {
 
   it('reports a classic file cut inside its header', async () => {
     const file = truncatedCopy('forecast-64bit.nc', 100);
-    expect((await openError(file)).message).toMatch(/file is truncated: the NetCDF header continues past the end of the file \(100 bytes\) — re-download it$/);
+    expect((await openError(file)).message).toMatch(
+      /file is truncated: the NetCDF header continues past the end of the file \(100 bytes\) — re-download it$/,
+    );
   });
 
   it('reports a NetCDF-4 file shorter than its HDF5 superblock end-of-file address', async () => {
@@ -49,7 +54,9 @@ describe('openDataset on bad files', () => {
   it('rejects a text file and an empty file as not NetCDF, naming what it starts with', async () => {
     const text = join(tmp, 'notes.txt');
     writeFileSync(text, 'station,temp\n1,20\n');
-    expect((await openError(text)).message).toMatch(/notes\.txt: not a NetCDF file \(starts with "stat"; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature\) — check the source path/);
+    expect((await openError(text)).message).toMatch(
+      /notes\.txt: not a NetCDF file \(starts with "stat"; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature\) — check the source path/,
+    );
     const empty = join(tmp, 'empty.nc');
     writeFileSync(empty, '');
     expect((await openError(empty)).message).toContain('not a NetCDF file (the file is empty');
@@ -65,7 +72,9 @@ describe('variables and selections', () => {
     const ds = await openDataset(dir + name);
     try {
       expect(ds.variable('tas')).toBeUndefined();
-      await expect(ds.readRaw('tas', [0], [1])).rejects.toThrow(`${dir}${name}: variable 'tas' not found — use one of: ${ds.variables.map((v) => v.name).join(', ')}`);
+      await expect(ds.readRaw('tas', [0], [1])).rejects.toThrow(
+        `${dir}${name}: variable 'tas' not found — use one of: ${ds.variables.map((v) => v.name).join(', ')}`,
+      );
     } finally {
       await ds.close();
     }
@@ -74,8 +83,12 @@ describe('variables and selections', () => {
   it.each(['forecast-classic.nc', 'forecast-nc4.nc'])('%s: a box outside the variable names the dimension', async (name) => {
     const ds = await openDataset(dir + name);
     try {
-      await expect(ds.readRaw('t2m', [0, 0, 4, 0], [1, 1, 2, 6])).rejects.toThrow(/variable 't2m' dimension 'lat' has size 5 but the read asks for 2 values from index 4/);
-      await expect(ds.readRaw('t2m', [0, 0], [1, 1])).rejects.toThrow(/has 4 dimensions \(number, step, lat, lon\) but start\/count have 2\/2/);
+      await expect(ds.readRaw('t2m', [0, 0, 4, 0], [1, 1, 2, 6])).rejects.toThrow(
+        /variable 't2m' dimension 'lat' has size 5 but the read asks for 2 values from index 4/,
+      );
+      await expect(ds.readRaw('t2m', [0, 0], [1, 1])).rejects.toThrow(
+        /has 4 dimensions \(number, step, lat, lon\) but start\/count have 2\/2/,
+      );
     } finally {
       await ds.close();
     }

@@ -59,7 +59,10 @@ describe('a header larger than the first 64 KiB prefix (ncgen -k 64-bit-offset, 
     const cdl = join(dir, 'wide-header.cdl');
     const nc = join(dir, 'wide-header.nc');
     const history = 'x'.repeat(150_000);
-    writeFileSync(cdl, `netcdf wide { dimensions: n = 3 ; variables: double v(n) ; v:note = "${history}" ; :history = "${history}" ; data: v = 1.5, -2, 3.25 ; }`);
+    writeFileSync(
+      cdl,
+      `netcdf wide { dimensions: n = 3 ; variables: double v(n) ; v:note = "${history}" ; :history = "${history}" ; data: v = 1.5, -2, 3.25 ; }`,
+    );
     execFileSync('ncgen', ['-k', '64-bit-offset', '-o', nc, cdl]);
     const wide = await openDataset(nc);
     try {

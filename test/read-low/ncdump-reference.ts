@@ -11,7 +11,10 @@ export function ncdumpValues(file: string, variable: string): (number | null)[] 
   const data = text.slice(text.indexOf('\ndata:'));
   const match = new RegExp(`\\n ${variable} =([^;]*);`).exec(data);
   if (!match) throw new Error(`ncdump printed no data for ${variable} in ${file}`);
-  return match[1].split(',').map((s) => s.trim()).map((s) => (s === '_' ? null : Number(s)));
+  return match[1]
+    .split(',')
+    .map((s) => s.trim())
+    .map((s) => (s === '_' ? null : Number(s)));
 }
 
 /** The stored value ncdump's `_` stands for: the _FillValue attribute or netCDF-C's default. */

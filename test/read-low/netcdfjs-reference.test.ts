@@ -37,10 +37,16 @@ describe('classic reader agrees with netcdfjs (independent implementation of the
             else expect(mine).toEqual(a.value);
           }
           if (ours.type === 'char' || (ref.record && NARROW.has(ours.type))) continue;
-          const raw = await ds.readRaw(ref.name, ours.shape.map(() => 0), ours.shape);
+          const raw = await ds.readRaw(
+            ref.name,
+            ours.shape.map(() => 0),
+            ours.shape,
+          );
           const expected = (reference.getDataVariable(ref.name) as (number | number[])[]).flat();
           expect(raw.length).toBe(expected.length);
-          raw.forEach((v, i) => (Number.isNaN(v) ? expect(Number.isNaN(expected[i])).toBe(true) : expect(v).toBeCloseTo(expected[i] as number, 4)));
+          raw.forEach((v, i) =>
+            Number.isNaN(v) ? expect(Number.isNaN(expected[i])).toBe(true) : expect(v).toBeCloseTo(expected[i] as number, 4),
+          );
         }
       } finally {
         await ds.close();

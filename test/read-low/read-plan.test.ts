@@ -8,7 +8,13 @@ import { planReads } from '../../src/read/classic-hyperslab.ts';
 describe('planReads', () => {
   it('reads a 10×10 box of a 1000×1000 float grid as one span of 10 blocks', () => {
     const plan = planReads(1000, [4000, 4], 4, [1000, 1000], [500, 200], [10, 10]);
-    expect(plan.spans).toEqual([{ offset: 1000 + 500 * 4000 + 200 * 4, bytes: 9 * 4000 + 40, blockOffsets: [0, 4000, 8000, 12000, 16000, 20000, 24000, 28000, 32000, 36000] }]);
+    expect(plan.spans).toEqual([
+      {
+        offset: 1000 + 500 * 4000 + 200 * 4,
+        bytes: 9 * 4000 + 40,
+        blockOffsets: [0, 4000, 8000, 12000, 16000, 20000, 24000, 28000, 32000, 36000],
+      },
+    ]);
     expect(plan.blockValues).toBe(10);
   });
 
@@ -32,7 +38,11 @@ describe('planReads', () => {
   });
 
   it('plans a scalar and an empty box', () => {
-    expect(planReads(64, [], 8, [], [], [])).toEqual({ blockValues: 1, totalValues: 1, spans: [{ offset: 64, bytes: 8, blockOffsets: [0] }] });
+    expect(planReads(64, [], 8, [], [], [])).toEqual({
+      blockValues: 1,
+      totalValues: 1,
+      spans: [{ offset: 64, bytes: 8, blockOffsets: [0] }],
+    });
     expect(planReads(64, [4], 4, [3], [1], [0]).spans).toEqual([]);
   });
 });

@@ -15,8 +15,17 @@ const dir = fileURLToPath(new URL('../fixtures/netcdf/', import.meta.url));
 
 /** netCDF-C default fill values (netcdf.h NC_FILL_*), which ncdump prints as `_`. */
 const DEFAULT_FILL: Record<StorageType, number> = {
-  byte: -127, char: 0, short: -32767, int: -2147483647, float: Math.fround(9.9692099683868690e36), double: 9.9692099683868690e36,
-  ubyte: 255, ushort: 65535, uint: 4294967295, int64: -9223372036854775806, uint64: 18446744073709551614,
+  byte: -127,
+  char: 0,
+  short: -32767,
+  int: -2147483647,
+  float: Math.fround(9.969209968386869e36),
+  double: 9.969209968386869e36,
+  ubyte: 255,
+  ushort: 65535,
+  uint: 4294967295,
+  int64: -9223372036854775806,
+  uint64: 18446744073709551614,
 };
 
 function expectedValues(file: string, ds: Dataset, name: string): number[] {
@@ -53,10 +62,35 @@ describe.each(FORECAST_FILES)('%s', (fileName, format) => {
     try {
       expect(ds.format).toBe(format);
       // Expected metadata written from forecast.cdl (ncgen input).
-      expect(ds.dimensions.map((d) => `${d.name}=${d.size}${d.unlimited ? '*' : ''}`)).toEqual(['number=3', 'step=4', 'lat=5', 'lon=6', 'three=3', 'time=5*']);
-      expect(ds.variables.map((v) => v.name)).toEqual(['number', 'step', 'lat', 'lon', 't2m', 'time', 'tp', 'flag', 'q', 'rh', 'scalar_var']);
+      expect(ds.dimensions.map((d) => `${d.name}=${d.size}${d.unlimited ? '*' : ''}`)).toEqual([
+        'number=3',
+        'step=4',
+        'lat=5',
+        'lon=6',
+        'three=3',
+        'time=5*',
+      ]);
+      expect(ds.variables.map((v) => v.name)).toEqual([
+        'number',
+        'step',
+        'lat',
+        'lon',
+        't2m',
+        'time',
+        'tp',
+        'flag',
+        'q',
+        'rh',
+        'scalar_var',
+      ]);
       expect(ds.variable('t2m')).toMatchObject({ dimensions: ['number', 'step', 'lat', 'lon'], shape: [3, 4, 5, 6], type: 'short' });
-      expect(ds.variable('t2m')!.attributes).toEqual({ units: 'K', scale_factor: 0.01, add_offset: 290, _FillValue: -32767, valid_range: [-3000, 3000] });
+      expect(ds.variable('t2m')!.attributes).toEqual({
+        units: 'K',
+        scale_factor: 0.01,
+        add_offset: 290,
+        _FillValue: -32767,
+        valid_range: [-3000, 3000],
+      });
       expect(ds.variable('tp')!.attributes.missing_value).toEqual([-999, -998]);
       expect(ds.variable('scalar_var')).toMatchObject({ dimensions: [], shape: [] });
       expect(ds.attributes).toMatchObject({ Conventions: 'CF-1.8', title: 'Veloria test forecast', version: 3, weights: [0.5, 0.25] });
@@ -69,7 +103,11 @@ describe.each(FORECAST_FILES)('%s', (fileName, format) => {
     const ds = await openDataset(file);
     try {
       for (const v of ds.variables) {
-        const raw = await ds.readRaw(v.name, v.shape.map(() => 0), v.shape);
+        const raw = await ds.readRaw(
+          v.name,
+          v.shape.map(() => 0),
+          v.shape,
+        );
         expect(Array.from(raw), v.name).toEqual(expectedValues(file, ds, v.name));
       }
     } finally {
@@ -124,10 +162,18 @@ describe.each(FORECAST_FILES)('%s', (fileName, format) => {
 
 describe.each([
   ['one-record-classic.nc', 's'],
-  ['extended-types-cdf5.nc', 'ub'], ['extended-types-cdf5.nc', 'us'], ['extended-types-cdf5.nc', 'ui'],
-  ['extended-types-cdf5.nc', 'i64'], ['extended-types-cdf5.nc', 'u64'], ['extended-types-cdf5.nc', 'f'],
-  ['extended-types-nc4.nc', 'ub'], ['extended-types-nc4.nc', 'us'], ['extended-types-nc4.nc', 'ui'],
-  ['extended-types-nc4.nc', 'i64'], ['extended-types-nc4.nc', 'u64'], ['extended-types-nc4.nc', 'f'],
+  ['extended-types-cdf5.nc', 'ub'],
+  ['extended-types-cdf5.nc', 'us'],
+  ['extended-types-cdf5.nc', 'ui'],
+  ['extended-types-cdf5.nc', 'i64'],
+  ['extended-types-cdf5.nc', 'u64'],
+  ['extended-types-cdf5.nc', 'f'],
+  ['extended-types-nc4.nc', 'ub'],
+  ['extended-types-nc4.nc', 'us'],
+  ['extended-types-nc4.nc', 'ui'],
+  ['extended-types-nc4.nc', 'i64'],
+  ['extended-types-nc4.nc', 'u64'],
+  ['extended-types-nc4.nc', 'f'],
 ])('%s variable %s', (fileName, name) => {
   it('reads every value as ncdump (netCDF-C, Unidata) prints it, and single values one by one', async () => {
     const file = dir + fileName;
@@ -135,11 +181,27 @@ describe.each([
     try {
       const info = ds.variable(name)!;
       const expected = expectedValues(file, ds, name);
-      expect(Array.from(await ds.readRaw(name, info.shape.map(() => 0), info.shape))).toEqual(expected);
+      expect(
+        Array.from(
+          await ds.readRaw(
+            name,
+            info.shape.map(() => 0),
+            info.shape,
+          ),
+        ),
+      ).toEqual(expected);
       const n = info.shape[info.shape.length - 1];
       for (let i = 0; i < expected.length; i++) {
         const start = info.shape.length === 2 ? [Math.floor(i / n), i % n] : [i];
-        expect((await ds.readRaw(name, start, start.map(() => 1)))[0]).toBe(expected[i]);
+        expect(
+          (
+            await ds.readRaw(
+              name,
+              start,
+              start.map(() => 1),
+            )
+          )[0],
+        ).toBe(expected[i]);
       }
     } finally {
       await ds.close();

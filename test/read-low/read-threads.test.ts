@@ -23,23 +23,29 @@ type ChildOutput = { threads: number; values: Record<string, { whole: number[]; 
 
 function readInChild(file: string, threads: string): ChildOutput {
   const text = execFileSync(process.execPath, [join(root, 'bin/run-ts.mjs'), join(root, 'test/read-low/read-threads-child.ts'), file], {
-    env: { ...process.env, FORELIGHT_READ_THREADS: threads }, encoding: 'utf8', timeout: 60_000,
+    env: { ...process.env, FORELIGHT_READ_THREADS: threads },
+    encoding: 'utf8',
+    timeout: 60_000,
   });
   return JSON.parse(text) as ChildOutput;
 }
 
 describe('NetCDF-4 reads on worker threads', () => {
-  it.each(['forecast-nc4.nc', 'forecast-nc4-szip.nc'])('%s: the same values on 0, 1 and 2 threads, equal to ncdump; the child exits by itself', (name) => {
-    const [zero, one, two] = ['0', '1', '2'].map((t) => readInChild(dir + name, t));
-    expect([zero.threads, one.threads, two.threads]).toEqual([0, 1, 2]);
-    expect(one.values).toEqual(zero.values);
-    expect(two.values).toEqual(zero.values);
-    const inThread = zero.values;
-    // ncdump prints `_` for the fill value; t2m's _FillValue is -32767 (forecast.cdl).
-    expect(inThread.t2m.whole).toEqual(ncdumpValues(dir + name, 't2m').map((v) => v ?? -32767));
-    const n = inThread.t2m.whole.length;
-    expect(inThread.t2m.picked).toEqual([1, 3, 5, 7, 9].map((k) => inThread.t2m.whole[n - k]));
-  }, 120_000);
+  it.each(['forecast-nc4.nc', 'forecast-nc4-szip.nc'])(
+    '%s: the same values on 0, 1 and 2 threads, equal to ncdump; the child exits by itself',
+    (name) => {
+      const [zero, one, two] = ['0', '1', '2'].map((t) => readInChild(dir + name, t));
+      expect([zero.threads, one.threads, two.threads]).toEqual([0, 1, 2]);
+      expect(one.values).toEqual(zero.values);
+      expect(two.values).toEqual(zero.values);
+      const inThread = zero.values;
+      // ncdump prints `_` for the fill value; t2m's _FillValue is -32767 (forecast.cdl).
+      expect(inThread.t2m.whole).toEqual(ncdumpValues(dir + name, 't2m').map((v) => v ?? -32767));
+      const n = inThread.t2m.whole.length;
+      expect(inThread.t2m.picked).toEqual([1, 3, 5, 7, 9].map((k) => inThread.t2m.whole[n - k]));
+    },
+    120_000,
+  );
 
   it('a file replaced after it was opened is refused by name (the worker would open the new one); another file still reads', async () => {
     const file = join(tmp, 'replaced.nc');
@@ -52,7 +58,9 @@ describe('NetCDF-4 reads on worker threads', () => {
       const fine = good.readRaw('t2m', [0, 0, 0, 0], [3, 4, 5, 6]);
       await expect(failed).rejects.toBeInstanceOf(InputError);
       await expect(failed).rejects.toMatchObject({ code: 'input-changed' });
-      await expect(failed).rejects.toThrow(`${file}: the file was replaced or modified on disk after it was opened (variable 't2m') — run again once the download has finished`);
+      await expect(failed).rejects.toThrow(
+        `${file}: the file was replaced or modified on disk after it was opened (variable 't2m') — run again once the download has finished`,
+      );
       expect(Array.from(await fine)).toEqual(ncdumpValues(dir + 'forecast-nc4.nc', 't2m').map((v) => v ?? -32767));
     } finally {
       await ds.close();
@@ -71,9 +79,15 @@ describe('NetCDF-4 reads on worker threads', () => {
   });
 
   it('a bad FORELIGHT_READ_THREADS is reported as itself, not as a problem of the NetCDF-4 file', () => {
-    const r = spawnSync(process.execPath, [join(root, 'bin/forelight.mjs'), 'extract', dir + 'forecast-nc4.nc', '--var', 't2m', '--box', '-90,90,-180,180', '--json'], {
-      env: { ...process.env, FORELIGHT_READ_THREADS: 'two' }, encoding: 'utf8', timeout: 60_000,
-    });
+    const r = spawnSync(
+      process.execPath,
+      [join(root, 'bin/forelight.mjs'), 'extract', dir + 'forecast-nc4.nc', '--var', 't2m', '--box', '-90,90,-180,180', '--json'],
+      {
+        env: { ...process.env, FORELIGHT_READ_THREADS: 'two' },
+        encoding: 'utf8',
+        timeout: 60_000,
+      },
+    );
     expect(r.status).not.toBe(0);
     expect(r.stderr).toContain("FORELIGHT_READ_THREADS='two' is not a whole number of threads — unset it");
     expect(r.stderr).not.toContain('metadata could not be read');
@@ -86,7 +100,9 @@ describe('NetCDF-4 reads on worker threads', () => {
     expect(readThreads({})).toBeLessThanOrEqual(2);
     for (const bad of ['two', '-1', '1.5']) {
       expect(() => readThreads({ FORELIGHT_READ_THREADS: bad })).toThrow(ForelightError);
-      expect(() => readThreads({ FORELIGHT_READ_THREADS: bad })).toThrow(`FORELIGHT_READ_THREADS='${bad}' is not a whole number of threads — unset it, or set 0`);
+      expect(() => readThreads({ FORELIGHT_READ_THREADS: bad })).toThrow(
+        `FORELIGHT_READ_THREADS='${bad}' is not a whole number of threads — unset it, or set 0`,
+      );
     }
   });
 });

@@ -20,16 +20,25 @@ const region: RegionConfig = { id: 'box', name: 'box', shape: { kind: 'box', ...
 const temperature = (m: number, t: number, y: number, x: number): number => 290 + 4 * Math.sin(0.9 * t + y) + 0.2 * x + 0.4 * m;
 
 function realDates(file: string): { calendar: string; model: string[]; real: string[] } {
-  return JSON.parse(execFileSync('/usr/bin/python3', [new URL('./calendar_dates.py', import.meta.url).pathname, file], { encoding: 'utf8' }));
+  return JSON.parse(
+    execFileSync('/usr/bin/python3', [new URL('./calendar_dates.py', import.meta.url).pathname, file], { encoding: 'utf8' }),
+  );
 }
 
-async function read(file: string, quantities: Record<string, string>, referenceTime: string, tier?: 'days' | 'months'): Promise<{ series: RegionSeries[]; notes: string[]; problems: string[] }> {
+async function read(
+  file: string,
+  quantities: Record<string, string>,
+  referenceTime: string,
+  tier?: 'days' | 'months',
+): Promise<{ series: RegionSeries[]; notes: string[]; problems: string[] }> {
   const r = await extractRegionSeries(file, { quantities, regions: [region], referenceTime, tier });
   return { series: r.series, notes: r.notes, problems: r.problems.map((p) => p.message) };
 }
 
 const sixHourly = (calendar: string, start: string, days: number): CdlSpec => ({
-  timeUnits: `hours since ${start} 00:00:00`, calendar, reference: 0,
+  timeUnits: `hours since ${start} 00:00:00`,
+  calendar,
+  reference: 0,
   times: Array.from({ length: 4 * days }, (_, i) => 6 * i),
   variables: { t2m: { attributes: { units: 'K', standard_name: 'air_temperature' }, value: temperature } },
 });
@@ -52,15 +61,22 @@ describe('daily means in model calendars = cdo daymean, dated by the elapsed-tim
       expect(s.days).toEqual(expected.real.filter((_d, i) => i % 4 === 0));
       const cdo = cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-daymean'], file);
       expect(cdo.dates.map((d) => d.slice(0, 10))).toEqual(expected.model.filter((_d, i) => i % 4 === 0).map((d) => d.slice(0, 10)));
-      for (let m = 0; m < 2; m++) for (let d = 0; d < 5; d++) expect(Math.abs(s.data[m * 5 + d] - (cdo.members[m][d] - KELVIN))).toBeLessThanOrEqual(TOL);
-      expect(notes.join(' ')).toMatch(new RegExp(`${c.calendar === '365_day' ? 'noleap' : c.calendar} calendar are placed on real dates by elapsed time from ${c.start} \\(model\\) = ${c.start} \\(real\\)`));
+      for (let m = 0; m < 2; m++)
+        for (let d = 0; d < 5; d++) expect(Math.abs(s.data[m * 5 + d] - (cdo.members[m][d] - KELVIN))).toBeLessThanOrEqual(TOL);
+      expect(notes.join(' ')).toMatch(
+        new RegExp(
+          `${c.calendar === '365_day' ? 'noleap' : c.calendar} calendar are placed on real dates by elapsed time from ${c.start} \\(model\\) = ${c.start} \\(real\\)`,
+        ),
+      );
     });
   }
 });
 
 describe('a 360-day seasonal forecast and its hindcast compare at the same lead', () => {
   const daily360 = (start: string): CdlSpec => ({
-    timeUnits: `days since ${start} 00:00:00`, calendar: '360_day', reference: 0,
+    timeUnits: `days since ${start} 00:00:00`,
+    calendar: '360_day',
+    reference: 0,
     times: Array.from({ length: 75 }, (_, i) => i + 1),
     variables: { tas: { attributes: { units: 'K', cell_methods: 'time: mean' }, value: temperature } },
   });
@@ -84,16 +100,29 @@ describe('monthly-mean seasonal files feed month-tier indicators directly', () =
     const ends = calendar === '360_day' ? [30, 60, 90] : [31, 62, 90]; // Dec, Jan, Feb of a common year
     const starts = [0, ends[0], ends[1]];
     return {
-      timeUnits: `days since ${start} 00:00:00`, calendar, reference: 0,
+      timeUnits: `days since ${start} 00:00:00`,
+      calendar,
+      reference: 0,
       times: bounds ? starts.map((s, i) => (s + ends[i]) / 2) : [15.5, 46.5, 76],
       bounds: bounds ? starts.map((s, i) => [s, ends[i]] as [number, number]) : undefined,
       variables: {
         t2m: { attributes: { units: 'K', cell_methods: 'time: mean' }, value: temperature },
-        tprate: { attributes: { units: 'kg m-2 s-1', cell_methods: 'time: mean' }, value: (m, t, y, x) => (1 + ((5 * t + 3 * y + x + m) % 7)) * 1e-5 },
+        tprate: {
+          attributes: { units: 'kg m-2 s-1', cell_methods: 'time: mean' },
+          value: (m, t, y, x) => (1 + ((5 * t + 3 * y + x + m) % 7)) * 1e-5,
+        },
       },
     };
   };
-  const malaria = (): IndicatorConfig => ({ id: 'malaria', name: 'malaria', kind: 'malaria-suitability', tiers: ['months'], aggregate: 'mean', params: { species: 'falciparum', lagMonths: 1 } } as unknown as IndicatorConfig);
+  const malaria = (): IndicatorConfig =>
+    ({
+      id: 'malaria',
+      name: 'malaria',
+      kind: 'malaria-suitability',
+      tiers: ['months'],
+      aggregate: 'mean',
+      params: { species: 'falciparum', lagMonths: 1 },
+    }) as unknown as IndicatorConfig;
 
   for (const c of [
     { calendar: '360_day', bounds: true, what: '360_day with month bounds (every model month 30 days)' },
@@ -127,13 +156,22 @@ describe('monthly-mean seasonal files feed month-tier indicators directly', () =
 
   it('a monthly file that skips a month (January, then March) is refused for that variable, naming both months', async () => {
     const spec: CdlSpec = {
-      timeUnits: 'days since 2027-01-01 00:00:00', calendar: '360_day', reference: 0, times: [15, 75], bounds: [[0, 30], [60, 90]],
+      timeUnits: 'days since 2027-01-01 00:00:00',
+      calendar: '360_day',
+      reference: 0,
+      times: [15, 75],
+      bounds: [
+        [0, 30],
+        [60, 90],
+      ],
       variables: { t2m: { attributes: { units: 'K', cell_methods: 'time: mean' }, value: temperature } },
     };
     const file = ncgenFixture('monthly-gap', spec);
     const { series, problems } = await read(file, { tmean: 't2m' }, '2027-01-01', 'months');
     expect(series).toHaveLength(0);
-    expect(problems).toEqual([`${file}: variable 't2m' jumps from 2027-01 to 2027-03 — provide consecutive monthly values (one per month)`]);
+    expect(problems).toEqual([
+      `${file}: variable 't2m' jumps from 2027-01 to 2027-03 — provide consecutive monthly values (one per month)`,
+    ]);
   });
 
   it('a monthly file under a day-tier source is refused with the YAML fix (one line, names file and variable)', async () => {

@@ -32,24 +32,49 @@ export const LON = [10, 12, 14, 16, 18, 20];
 export const BOX = { south: -9, north: -5, west: 11, east: 17 };
 export const CDO_BOX = `${BOX.west},${BOX.east},${BOX.south},${BOX.north}`;
 
-const attr = (owner: string, key: string, v: string | number): string => `    ${owner}:${key} = ${typeof v === 'number' ? String(v) : JSON.stringify(v)} ;`;
+const attr = (owner: string, key: string, v: string | number): string =>
+  `    ${owner}:${key} = ${typeof v === 'number' ? String(v) : JSON.stringify(v)} ;`;
 
 /** The CDL text of `spec` (floats with 6 decimals; NaN written as the _FillValue -9999). */
 export function cdlText(spec: CdlSpec): string {
   const members = spec.members ?? 2;
   const nt = spec.times.length;
-  const lines = ['netcdf fixture {', 'dimensions:', `  time = ${nt} ;`, `  number = ${members} ;`, `  lat = ${LAT.length} ;`, `  lon = ${LON.length} ;`];
+  const lines = [
+    'netcdf fixture {',
+    'dimensions:',
+    `  time = ${nt} ;`,
+    `  number = ${members} ;`,
+    `  lat = ${LAT.length} ;`,
+    `  lon = ${LON.length} ;`,
+  ];
   if (spec.bounds) lines.push('  bnds = 2 ;');
-  lines.push('variables:', '  double time(time) ;', attr('time', 'units', spec.timeUnits), attr('time', 'calendar', spec.calendar ?? 'standard'),
-    attr('time', 'standard_name', 'time'), attr('time', 'axis', 'T'));
+  lines.push(
+    'variables:',
+    '  double time(time) ;',
+    attr('time', 'units', spec.timeUnits),
+    attr('time', 'calendar', spec.calendar ?? 'standard'),
+    attr('time', 'standard_name', 'time'),
+    attr('time', 'axis', 'T'),
+  );
   if (spec.bounds) lines.push(attr('time', 'bounds', 'time_bnds'), '  double time_bnds(time, bnds) ;');
   if (spec.reference !== undefined) {
-    lines.push('  double forecast_reference_time ;', attr('forecast_reference_time', 'units', spec.timeUnits),
-      attr('forecast_reference_time', 'calendar', spec.calendar ?? 'standard'), attr('forecast_reference_time', 'standard_name', 'forecast_reference_time'));
+    lines.push(
+      '  double forecast_reference_time ;',
+      attr('forecast_reference_time', 'units', spec.timeUnits),
+      attr('forecast_reference_time', 'calendar', spec.calendar ?? 'standard'),
+      attr('forecast_reference_time', 'standard_name', 'forecast_reference_time'),
+    );
   }
-  lines.push('  int number(number) ;', attr('number', 'standard_name', 'realization'),
-    '  double lat(lat) ;', attr('lat', 'units', 'degrees_north'), attr('lat', 'standard_name', 'latitude'),
-    '  double lon(lon) ;', attr('lon', 'units', 'degrees_east'), attr('lon', 'standard_name', 'longitude'));
+  lines.push(
+    '  int number(number) ;',
+    attr('number', 'standard_name', 'realization'),
+    '  double lat(lat) ;',
+    attr('lat', 'units', 'degrees_north'),
+    attr('lat', 'standard_name', 'latitude'),
+    '  double lon(lon) ;',
+    attr('lon', 'units', 'degrees_east'),
+    attr('lon', 'standard_name', 'longitude'),
+  );
   for (const [name, v] of Object.entries(spec.variables)) {
     lines.push(`  float ${name}(time, number, lat, lon) ;`, `    ${name}:_FillValue = -9999.f ;`);
     for (const [k, a] of Object.entries(v.attributes)) lines.push(attr(name, k, a));
@@ -57,13 +82,20 @@ export function cdlText(spec: CdlSpec): string {
   lines.push('data:', `  time = ${spec.times.join(', ')} ;`);
   if (spec.bounds) lines.push(`  time_bnds = ${spec.bounds.map((b) => b.join(', ')).join(', ')} ;`);
   if (spec.reference !== undefined) lines.push(`  forecast_reference_time = ${spec.reference} ;`);
-  lines.push(`  number = ${Array.from({ length: members }, (_, m) => m).join(', ')} ;`, `  lat = ${LAT.join(', ')} ;`, `  lon = ${LON.join(', ')} ;`);
+  lines.push(
+    `  number = ${Array.from({ length: members }, (_, m) => m).join(', ')} ;`,
+    `  lat = ${LAT.join(', ')} ;`,
+    `  lon = ${LON.join(', ')} ;`,
+  );
   for (const [name, v] of Object.entries(spec.variables)) {
     const values: string[] = [];
-    for (let t = 0; t < nt; t++) for (let m = 0; m < members; m++) for (let y = 0; y < LAT.length; y++) for (let x = 0; x < LON.length; x++) {
-      const value = v.value(m, t, y, x);
-      values.push(Number.isNaN(value) ? '-9999' : value.toFixed(6));
-    }
+    for (let t = 0; t < nt; t++)
+      for (let m = 0; m < members; m++)
+        for (let y = 0; y < LAT.length; y++)
+          for (let x = 0; x < LON.length; x++) {
+            const value = v.value(m, t, y, x);
+            values.push(Number.isNaN(value) ? '-9999' : value.toFixed(6));
+          }
     lines.push(`  ${name} = ${values.join(', ')} ;`);
   }
   lines.push('}');
@@ -93,4 +125,3 @@ export function cdoTable(operators: readonly string[], file: string): { dates: s
   }
   return { dates, members };
 }
-

@@ -19,7 +19,11 @@ describe('findCoordinates', () => {
         xc: { dimensions: ['xc'], attributes: { units: 'degree_east' }, data: [0, 2, 4] },
         t: { dimensions: ['t'], attributes: { axis: 'T', units: 'days since 2026-11-23', bounds: 't_b' }, data: [0.5, 1.5] },
         t_b: { dimensions: ['t', 'nv'], data: [0, 1, 1, 2] },
-        tas: { dimensions: ['t', 'ens', 'yc', 'xc'], attributes: { units: 'K', cell_methods: 'area: mean t: maximum (interval: 1 hour)' }, data: new Array(24).fill(300) },
+        tas: {
+          dimensions: ['t', 'ens', 'yc', 'xc'],
+          attributes: { units: 'K', cell_methods: 'area: mean t: maximum (interval: 1 hour)' },
+          data: new Array(24).fill(300),
+        },
       },
     });
     const c = await findCoordinates(ds);
@@ -36,7 +40,14 @@ describe('findCoordinates', () => {
   });
 
   it('reads forecast_reference_time + forecast_period (step) as valid times, member by standard_name realization', async () => {
-    const ds = makeFakeForecast({ lat: [-9, -8], lon: [0, 1], stepsHours: [6, 12], members: 3, referenceHours: 72, variables: { t2m: { attributes: { units: 'K' }, value: () => 290 } } });
+    const ds = makeFakeForecast({
+      lat: [-9, -8],
+      lon: [0, 1],
+      stepsHours: [6, 12],
+      members: 3,
+      referenceHours: 72,
+      variables: { t2m: { attributes: { units: 'K' }, value: () => 290 } },
+    });
     const c = await findCoordinates(ds);
     expect(c.referenceMs).toBe(REF + 72 * H);
     expect(c.time?.dimension).toBe('step');
@@ -62,7 +73,9 @@ describe('findCoordinates', () => {
         nav_lon: { dimensions: ['j', 'i'], attributes: { standard_name: 'longitude' }, data: [1, 2] },
       },
     });
-    await expect(findCoordinates(curvi)).rejects.toThrow(/curvi\.nc: latitude variable 'nav_lat' has 2 dimensions \(curvilinear grid\) — regrid/);
+    await expect(findCoordinates(curvi)).rejects.toThrow(
+      /curvi\.nc: latitude variable 'nav_lat' has 2 dimensions \(curvilinear grid\) — regrid/,
+    );
   });
 
   it('no latitude coordinate → InputError naming the file and what to add', async () => {
@@ -94,7 +107,11 @@ describe('parseCellMethods (CF 1.11 §7.3 syntax, §7.3.2 interval)', () => {
       { names: ['time'], method: 'maximum', interval: '6 hours' },
       { names: ['lat', 'lon'], method: 'mean', interval: null },
     ]);
-    expect(parseCellMethods('time: maximum within days time: mean over days')[0]).toEqual({ names: ['time'], method: 'maximum', interval: null });
+    expect(parseCellMethods('time: maximum within days time: mean over days')[0]).toEqual({
+      names: ['time'],
+      method: 'maximum',
+      interval: null,
+    });
     expect(parseCellMethods('time: sum (interval: 1 day comment: from hourly data)')[0].interval).toBe('1 day');
   });
 });

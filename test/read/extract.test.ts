@@ -18,7 +18,14 @@ import { planUnits } from '../../src/read/units.ts';
 import { makeFakeDataset } from './fake-dataset.ts';
 import { axis, makeFakeForecast, type ValueFn } from './fake-forecast.ts';
 
-const region = (id: string, shape: RegionShape, utcOffsetHours = 0): RegionConfig => ({ id, name: id, shape, utcOffsetHours, teams: [], cellRule: 'centre' });
+const region = (id: string, shape: RegionShape, utcOffsetHours = 0): RegionConfig => ({
+  id,
+  name: id,
+  shape,
+  utcOffsetHours,
+  teams: [],
+  cellRule: 'centre',
+});
 const MARROW = region('marrow-highlands', { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 }, 1);
 const KESSAN = region('kessan-lowlands', { kind: 'box', south: -12, north: -9, west: -3.5, east: -0.5 }, 1);
 const OUTSIDE = region('far-away', { kind: 'box', south: 40, north: 45, west: 10, east: 12 });
@@ -26,7 +33,10 @@ const OUTSIDE = region('far-away', { kind: 'box', south: 40, north: 45, west: 10
 /** 1° grid 0..359 × -14..-4, 6-hourly maxima stamped at the end of their 6 h (00Z reference), 2 members. */
 function sixHourlyMax(value: ValueFn, attributes: Record<string, string> = { units: 'K', cell_methods: 'time: maximum' }, more = {}) {
   return makeFakeForecast({
-    lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 12), members: 2,
+    lat: axis(-14, 1, 11),
+    lon: axis(0, 1, 360),
+    stepsHours: axis(6, 6, 12),
+    members: 2,
     variables: { mx2t6: { attributes, value }, ...more },
   });
 }
@@ -35,7 +45,11 @@ describe('extractFromDataset', () => {
   it('daily maximum by local day (UTC+1), K → degC, members in file order, one band read per member', async () => {
     // value = 290 + member + step index, so the max over a day is its last 6-h step: steps 0-3 → day 1, 4-7 → day 2.
     const ds = sixHourlyMax((m, t) => 290 + m + t);
-    const { series, problems } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [MARROW, KESSAN], referenceTime: '2026-11-23' });
+    const { series, problems } = await extractFromDataset(ds, {
+      quantities: { tmax: 'mx2t6' },
+      regions: [MARROW, KESSAN],
+      referenceTime: '2026-11-23',
+    });
     expect(problems).toEqual([]);
     const marrow = series.find((s) => s.region === 'marrow-highlands');
     expect(marrow?.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
@@ -59,7 +73,10 @@ describe('extractFromDataset', () => {
     const ds = sixHourlyMax((_m, t) => 290 + t);
     const east = { ...MARROW, id: 'marrow-utc10', utcOffsetHours: 10 };
     const { series } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6' }, regions: [MARROW, east] });
-    expect(series.map((s) => s.days)).toEqual([['2026-11-23', '2026-11-24', '2026-11-25'], ['2026-11-24', '2026-11-25']]);
+    expect(series.map((s) => s.days)).toEqual([
+      ['2026-11-23', '2026-11-24', '2026-11-25'],
+      ['2026-11-24', '2026-11-25'],
+    ]);
     // UTC+10: the day 2026-11-24 holds the 6-h periods ending 18Z … 12Z (+10 h midpoints 25 … 43 h): steps 2..5.
     expect(Array.from(series[1].data.subarray(0, 2)).map((v) => +v.toFixed(9))).toEqual([5 + 16.85, 9 + 16.85]);
     expect(ds.reads.filter((r) => r.name === 'mx2t6')).toHaveLength(2);
@@ -77,7 +94,10 @@ describe('extractFromDataset', () => {
   it('accumulated precipitation in m (lwe_thickness_of_precipitation_amount) → mm/day (checks.json conv-pr-1..3)', async () => {
     const acc = [0.0125, 0.03, 0.03];
     const ds = makeFakeForecast({
-      lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: [24, 48, 72], members: 1,
+      lat: axis(-14, 1, 11),
+      lon: axis(0, 1, 360),
+      stepsHours: [24, 48, 72],
+      members: 1,
       variables: { tp: { attributes: { units: 'm', standard_name: 'lwe_thickness_of_precipitation_amount' }, value: (_m, t) => acc[t] } },
     });
     const { series } = await extractFromDataset(ds, { quantities: { precip: 'tp' }, regions: [MARROW] });
@@ -87,19 +107,27 @@ describe('extractFromDataset', () => {
   });
 
   it('kg m-2 amounts: per step without bounds (summed), accumulated when time_bnds all start at the reference', async () => {
-    const file = (bounds: number[] | null) => makeFakeDataset({
-      dimensions: { time: 4, lat: 1, lon: 1, nv: 2 },
-      variables: {
-        time: { dimensions: ['time'], attributes: { units: 'hours since 2026-11-23', standard_name: 'time', ...(bounds ? { bounds: 'time_bnds' } : {}) }, data: [6, 12, 18, 24] },
-        time_bnds: { dimensions: ['time', 'nv'], data: bounds ?? new Array(8).fill(0) },
-        lat: { dimensions: ['lat'], attributes: { standard_name: 'latitude' }, data: [-8] },
-        lon: { dimensions: ['lon'], attributes: { standard_name: 'longitude' }, data: [0] },
-        pr: { dimensions: ['time', 'lat', 'lon'], attributes: { units: 'kg m-2' }, data: [1, 2, 3, 4] },
-      },
-    });
+    const file = (bounds: number[] | null) =>
+      makeFakeDataset({
+        dimensions: { time: 4, lat: 1, lon: 1, nv: 2 },
+        variables: {
+          time: {
+            dimensions: ['time'],
+            attributes: { units: 'hours since 2026-11-23', standard_name: 'time', ...(bounds ? { bounds: 'time_bnds' } : {}) },
+            data: [6, 12, 18, 24],
+          },
+          time_bnds: { dimensions: ['time', 'nv'], data: bounds ?? new Array(8).fill(0) },
+          lat: { dimensions: ['lat'], attributes: { standard_name: 'latitude' }, data: [-8] },
+          lon: { dimensions: ['lon'], attributes: { standard_name: 'longitude' }, data: [0] },
+          pr: { dimensions: ['time', 'lat', 'lon'], attributes: { units: 'kg m-2' }, data: [1, 2, 3, 4] },
+        },
+      });
     const perStep = await extractFromDataset(file(null), { quantities: { precip: 'pr' }, regions: [{ ...MARROW, utcOffsetHours: 0 }] });
     expect(Array.from(perStep.series[0].data)).toEqual([10]);
-    const accumulated = await extractFromDataset(file([0, 6, 0, 12, 0, 18, 0, 24]), { quantities: { precip: 'pr' }, regions: [{ ...MARROW, utcOffsetHours: 0 }] });
+    const accumulated = await extractFromDataset(file([0, 6, 0, 12, 0, 18, 0, 24]), {
+      quantities: { precip: 'pr' },
+      regions: [{ ...MARROW, utcOffsetHours: 0 }],
+    });
     expect(Array.from(accumulated.series[0].data)).toEqual([4]);
     expect(accumulated.series[0].days).toEqual(['2026-11-23']);
   });
@@ -111,7 +139,11 @@ describe('extractFromDataset', () => {
         time: { dimensions: ['time'], attributes: { units: 'days since 2026-11-23', standard_name: 'time' }, data: [0, 1] },
         lat: { dimensions: ['lat'], attributes: { standard_name: 'latitude' }, data: [-8, -7] },
         lon: { dimensions: ['lon'], attributes: { standard_name: 'longitude' }, data: [-1, 0, 1] },
-        rh: { dimensions: ['time', 'lat', 'lon'], attributes: { units: '1' }, data: [0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.7, 0.7, 0.7, 0.7, 0.7, 0.7] },
+        rh: {
+          dimensions: ['time', 'lat', 'lon'],
+          attributes: { units: '1' },
+          data: [0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.7, 0.7, 0.7, 0.7, 0.7, 0.7],
+        },
       },
     });
     const { series } = await extractFromDataset(ds, { quantities: { rh: 'rh' }, regions: [MARROW] });
@@ -132,14 +164,21 @@ describe('extractBoxFromDataset (forelight extract --json)', () => {
     expect(round(steps.members)[1].slice(0, 5)).toEqual([null, null, null, null, 30.85]);
     const daily = await extractBoxFromDataset(ds, { variable: 'mx2t6', box, daily: 'max', utcOffsetHours: 1 });
     expect(daily.times).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
-    expect(round(daily.members)).toEqual([[29.85, 33.85, 37.85], [null, 33.85, 37.85]]);
+    expect(round(daily.members)).toEqual([
+      [29.85, 33.85, 37.85],
+      [null, 33.85, 37.85],
+    ]);
   });
 });
 
 /** 6-hourly accumulated precipitation (m) over 4 days, `members` members, and the request for Marrow's daily sums. */
 async function accumulatedRequest(members: number, stepOuter = false) {
   const ds = makeFakeForecast({
-    lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 16), members, stepOuter,
+    lat: axis(-14, 1, 11),
+    lon: axis(0, 1, 360),
+    stepsHours: axis(6, 6, 16),
+    members,
+    stepOuter,
     variables: { tp: { attributes: { units: 'm' }, value: (m, t, lat) => (t + 1) * (t + 2) * 1e-4 * (1 + m) + lat * 1e-6 } },
   });
   const coords = await findCoordinates(ds);
@@ -147,7 +186,12 @@ async function accumulatedRequest(members: number, stepOuter = false) {
   const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
   const { intervals, accumulated } = planTime(coords, layout, unitPlan);
   const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
-  return { ds, coords, band, req: { layout, band, regions, intervals, unitPlan, accumulated, clocks: [regionClock({ utcOffsetHours: 1 })], daily: 'sum' as const } };
+  return {
+    ds,
+    coords,
+    band,
+    req: { layout, band, regions, intervals, unitPlan, accumulated, clocks: [regionClock({ utcOffsetHours: 1 })], daily: 'sum' as const },
+  };
 }
 
 describe('time chunks (memory bound)', () => {
@@ -206,7 +250,11 @@ describe('read-ahead (threaded readers)', () => {
 
 describe('bad input', () => {
   it('variable with no units → UnitError in problems; the other quantity is still computed', async () => {
-    const ds = sixHourlyMax(() => 300, { cell_methods: 'time: maximum' }, { mn2t6: { attributes: { units: 'K', cell_methods: 'time: minimum' }, value: () => 280 } });
+    const ds = sixHourlyMax(
+      () => 300,
+      { cell_methods: 'time: maximum' },
+      { mn2t6: { attributes: { units: 'K', cell_methods: 'time: minimum' }, value: () => 280 } },
+    );
     const { series, problems } = await extractFromDataset(ds, { quantities: { tmax: 'mx2t6', tmin: 'mn2t6' }, regions: [MARROW] });
     expect(series.map((s) => [s.quantity, +s.data[0].toFixed(9)])).toEqual([['tmin', 6.85]]);
     expect(problems).toHaveLength(1);
@@ -227,7 +275,9 @@ describe('bad input', () => {
     expect(series.map((s) => s.region)).toEqual(['marrow-highlands', 'kessan-lowlands']);
     expect(problems).toHaveLength(1);
     expect(problems[0]).toBeInstanceOf(InputError);
-    expect(problems[0].message).toMatch(/region 'far-away' \(box 40\.\.45, 10\.\.12\) has no grid cell in fc_20261123\.nc \(grid lat -14\.\.-4, lon 0\.\.359\) — check the region shape or the source, or use cell-rule: overlap/);
+    expect(problems[0].message).toMatch(
+      /region 'far-away' \(box 40\.\.45, 10\.\.12\) has no grid cell in fc_20261123\.nc \(grid lat -14\.\.-4, lon 0\.\.359\) — check the region shape or the source, or use cell-rule: overlap/,
+    );
   });
 
   it('a region whose cells are all missing → InputError in problems; other regions kept', async () => {
@@ -239,19 +289,32 @@ describe('bad input', () => {
   });
 
   it('wrong forecast date in the file name vs contents → InputError naming both dates', async () => {
-    const ds = makeFakeForecast({ lat: axis(-14, 1, 11), lon: axis(0, 1, 360), stepsHours: axis(6, 6, 8), referenceHours: 72, variables: { t2m: { attributes: { units: 'K' }, value: () => 300 } } });
-    await expect(extractFromDataset(ds, { quantities: { tmean: 't2m' }, regions: [MARROW], referenceTime: '2026-11-23' }))
-      .rejects.toThrow(/the file holds the forecast of 2026-11-26T00:00:00Z but 2026-11-23T00:00:00Z was requested/);
+    const ds = makeFakeForecast({
+      lat: axis(-14, 1, 11),
+      lon: axis(0, 1, 360),
+      stepsHours: axis(6, 6, 8),
+      referenceHours: 72,
+      variables: { t2m: { attributes: { units: 'K' }, value: () => 300 } },
+    });
+    await expect(extractFromDataset(ds, { quantities: { tmean: 't2m' }, regions: [MARROW], referenceTime: '2026-11-23' })).rejects.toThrow(
+      /the file holds the forecast of 2026-11-26T00:00:00Z but 2026-11-23T00:00:00Z was requested/,
+    );
   });
 });
 
 describe('extractRegionSeries on the ncgen fixtures', () => {
   it('tmax by local day equals cdo fldmean -daymax minus 273.15 (test/fixtures/regions/cdo-6h-marrow-daymax.txt)', async () => {
     const file = join(import.meta.dirname, '../fixtures/regions/sixhourly.nc');
-    const { series, problems } = await extractRegionSeries(file, { quantities: { tmax: 't2m' }, regions: [{ ...MARROW, utcOffsetHours: 0 }], referenceTime: '2026-11-23T00:00Z' });
+    const { series, problems } = await extractRegionSeries(file, {
+      quantities: { tmax: 't2m' },
+      regions: [{ ...MARROW, utcOffsetHours: 0 }],
+      referenceTime: '2026-11-23T00:00Z',
+    });
     expect(problems).toEqual([]);
     const cdo = readFileSync(join(import.meta.dirname, '../fixtures/regions/cdo-6h-marrow-daymax.txt'), 'utf8')
-      .split('\n').filter((l) => /^\s*\d{4}-/.test(l)).map((l) => l.trim().split(/\s+/));
+      .split('\n')
+      .filter((l) => /^\s*\d{4}-/.test(l))
+      .map((l) => l.trim().split(/\s+/));
     for (const [date, lev, value] of cdo.slice(0, 6)) {
       const d = series[0].days.indexOf(date);
       expect(Math.abs(series[0].data[Number(lev) * series[0].days.length + d] - (Number(value) - 273.15))).toBeLessThanOrEqual(1e-4);
@@ -261,14 +324,23 @@ describe('extractRegionSeries on the ncgen fixtures', () => {
   it('forecast-centre layout (number, step; forecast_reference_time; tp accumulated in m; mx2t6 stamped at the end of its 6 h), UTC+1 local days, vs numpy (leadtime-expected.json, written by gen-cdl.py)', async () => {
     const dir = join(import.meta.dirname, '../fixtures/regions');
     const expected = JSON.parse(readFileSync(join(dir, 'leadtime-expected.json'), 'utf8'));
-    const { series, problems } = await extractRegionSeries(join(dir, 'leadtime.nc'), { quantities: { precip: 'tp', tmax: 'mx2t6' }, regions: [MARROW], referenceTime: '2026-11-30' });
+    const { series, problems } = await extractRegionSeries(join(dir, 'leadtime.nc'), {
+      quantities: { precip: 'tp', tmax: 'mx2t6' },
+      regions: [MARROW],
+      referenceTime: '2026-11-30',
+    });
     expect(problems).toEqual([]);
     const byQ = new Map(series.map((s) => [s.quantity, s]));
-    for (const [q, key] of [['precip', 'precip_mm_day'], ['tmax', 'tmax_degC']] as const) {
+    for (const [q, key] of [
+      ['precip', 'precip_mm_day'],
+      ['tmax', 'tmax_degC'],
+    ] as const) {
       const s = byQ.get(q);
       expect(s?.days).toEqual(expected.days);
       expect(s?.provenance.referenceTime).toBe('2026-11-30T00:00:00Z');
-      (expected[key] as number[][]).forEach((row, m) => row.forEach((v, d) => expect(Math.abs((s?.data[m * 2 + d] ?? NaN) - v)).toBeLessThanOrEqual(1e-4)));
+      (expected[key] as number[][]).forEach((row, m) =>
+        row.forEach((v, d) => expect(Math.abs((s?.data[m * 2 + d] ?? NaN) - v)).toBeLessThanOrEqual(1e-4)),
+      );
     }
   });
 });

@@ -33,23 +33,37 @@ export function makeFakeForecast(o: FakeForecastOptions) {
     for (let a = 0; a < outer; a++) {
       for (let b = 0; b < inner; b++) {
         const [m, t] = o.stepOuter ? [b, a] : [a, b];
-        for (const la of o.lat) for (const lo of o.lon) {
-          const v = value(m, t, la, lo);
-          data.push(Number.isNaN(v) ? FILL : v);
-        }
+        for (const la of o.lat)
+          for (const lo of o.lon) {
+            const v = value(m, t, la, lo);
+            data.push(Number.isNaN(v) ? FILL : v);
+          }
       }
     }
     return data;
   };
   const variables: Record<string, FakeVariable> = {
-    number: { dimensions: ['number'], attributes: { standard_name: 'realization' }, type: 'int', data: Array.from({ length: members }, (_x, i) => i) },
-    time: { dimensions: [], attributes: { standard_name: 'forecast_reference_time', units: 'hours since 2026-11-23 00:00:00' }, data: [o.referenceHours ?? 0] },
+    number: {
+      dimensions: ['number'],
+      attributes: { standard_name: 'realization' },
+      type: 'int',
+      data: Array.from({ length: members }, (_x, i) => i),
+    },
+    time: {
+      dimensions: [],
+      attributes: { standard_name: 'forecast_reference_time', units: 'hours since 2026-11-23 00:00:00' },
+      data: [o.referenceHours ?? 0],
+    },
     step: { dimensions: ['step'], attributes: { standard_name: 'forecast_period', units: 'hours' }, data: o.stepsHours },
     latitude: { dimensions: ['latitude'], attributes: { units: 'degrees_north' }, data: o.lat },
     longitude: { dimensions: ['longitude'], attributes: { units: 'degrees_east' }, data: o.lon },
   };
   for (const [name, v] of Object.entries(o.variables)) {
-    variables[name] = { dimensions: o.stepOuter ? ['step', 'number', 'latitude', 'longitude'] : ['number', 'step', 'latitude', 'longitude'], attributes: { _FillValue: FILL, ...v.attributes }, data: fill(v.value) };
+    variables[name] = {
+      dimensions: o.stepOuter ? ['step', 'number', 'latitude', 'longitude'] : ['number', 'step', 'latitude', 'longitude'],
+      attributes: { _FillValue: FILL, ...v.attributes },
+      data: fill(v.value),
+    };
   }
   return makeFakeDataset({
     path: o.path ?? 'fc_20261123.nc',

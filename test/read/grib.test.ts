@@ -19,7 +19,9 @@ const HERE = import.meta.dirname;
 const tmp = mkdtempSync(join(tmpdir(), 'forelight-grib-'));
 const cache = join(tmp, 'cache');
 const previousCache = process.env.FORELIGHT_GRIB_CACHE;
-beforeAll(() => { process.env.FORELIGHT_GRIB_CACHE = cache; });
+beforeAll(() => {
+  process.env.FORELIGHT_GRIB_CACHE = cache;
+});
 afterAll(() => {
   if (previousCache === undefined) delete process.env.FORELIGHT_GRIB_CACHE;
   else process.env.FORELIGHT_GRIB_CACHE = previousCache;
@@ -28,13 +30,31 @@ afterAll(() => {
 
 function makeGrib(name: string, members: number, steps: string, deterministic = false): string {
   const out = join(tmp, name);
-  execFileSync('/usr/bin/python3', [join(HERE, 'grib/make-grib.py'), out, String(members), steps, ...(deterministic ? ['deterministic'] : [])]);
+  execFileSync('/usr/bin/python3', [
+    join(HERE, 'grib/make-grib.py'),
+    out,
+    String(members),
+    steps,
+    ...(deterministic ? ['deterministic'] : []),
+  ]);
   return out;
 }
 
-interface Reference { times: string[]; members: number[][] }
+interface Reference {
+  times: string[];
+  members: number[][];
+}
 function cfgrib(file: string, box: { south: number; north: number; west: number; east: number }, daily?: string): Reference {
-  const args = [join(HERE, 'grib/cfgrib-box.py'), file, 't2m', String(box.south), String(box.north), String(box.west), String(box.east), ...(daily ? [daily] : [])];
+  const args = [
+    join(HERE, 'grib/cfgrib-box.py'),
+    file,
+    't2m',
+    String(box.south),
+    String(box.north),
+    String(box.west),
+    String(box.east),
+    ...(daily ? [daily] : []),
+  ];
   return JSON.parse(execFileSync('/usr/bin/python3', args, { encoding: 'utf8' })) as Reference;
 }
 
@@ -51,7 +71,9 @@ describe('GRIB2 ensemble (template 4.1) against cfgrib/xarray', () => {
     expect(got.units).toBe('degC');
     expect(got.times.map((t) => t.slice(0, 19))).toEqual(ref.times);
     expect(got.members).toHaveLength(3);
-    got.members.forEach((row, m) => row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)));
+    got.members.forEach((row, m) =>
+      row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)),
+    );
   });
 
   it('daily maximum per cell, then the box mean (UTC days; the incomplete last day is dropped)', async () => {
@@ -59,7 +81,9 @@ describe('GRIB2 ensemble (template 4.1) against cfgrib/xarray', () => {
     const got = await extractBoxJson(ensemble, { variable: 't2m', box, daily: 'max' });
     const ref = cfgrib(ensemble, box, 'max');
     expect(got.times).toEqual(['2026-11-23', '2026-11-24']);
-    got.members.forEach((row, m) => row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)));
+    got.members.forEach((row, m) =>
+      row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)),
+    );
   });
 
   it('is converted once, into a folder named by the sha256 of the GRIB file', async () => {
@@ -80,7 +104,9 @@ describe('GRIB2 ensemble (template 4.1) against cfgrib/xarray', () => {
     expect(r.problems).toEqual([]);
     expect(r.series[0].provenance.referenceTime).toBe('2026-11-23T00:00:00Z');
     expect(r.series[0].members).toBe(2);
-    await expect(extractRegionSeries(late, { quantities: { tmean: 't2m' }, regions, referenceTime: '2026-11-24' })).rejects.toThrow(/holds the forecast of 2026-11-23T00:00:00Z/);
+    await expect(extractRegionSeries(late, { quantities: { tmean: 't2m' }, regions, referenceTime: '2026-11-24' })).rejects.toThrow(
+      /holds the forecast of 2026-11-23T00:00:00Z/,
+    );
   });
 });
 
@@ -97,7 +123,10 @@ describe('other GRIB cases', () => {
     const cut = join(tmp, 'cut.grib2');
     copyFileSync(ensemble, cut);
     truncateSync(cut, Math.floor(statSync(ensemble).size / 2) + 7);
-    const err = await openDataset(cut).then(() => null, (e: Error) => e);
+    const err = await openDataset(cut).then(
+      () => null,
+      (e: Error) => e,
+    );
     expect(err?.message).toMatch(/cut\.grib2/);
     expect(err?.message).toMatch(/ecCodes grib_(copy|to_netcdf) could not convert/);
     expect(err?.message.split('\n')).toHaveLength(1);

@@ -23,7 +23,10 @@ describe('(step, number, lat, lon) files written by ncpdq', () => {
   execFileSync('nccopy', ['-k', 'nc4', '-d', '1', '-s', permuted, permutedNc4]);
   const box = { south: -90, north: 90, west: -180, east: 180 };
 
-  it.each([['classic', permuted], ['NetCDF-4', permutedNc4]])('%s: the permutation really is step-outer, and every member and step equals the original', async (_kind, file) => {
+  it.each([
+    ['classic', permuted],
+    ['NetCDF-4', permutedNc4],
+  ])('%s: the permutation really is step-outer, and every member and step equals the original', async (_kind, file) => {
     const ds = await openDataset(file);
     try {
       expect(ds.variable('t2m')?.dimensions).toEqual(['step', 'number', 'lat', 'lon']);

@@ -8,11 +8,32 @@ import { cellAreaFactors, pointInRing, selectRegionCells } from '../../src/read/
 import { axis } from './fake-forecast.ts';
 
 const grid = (lat: number[], lon: number[], bounds?: { lat: number[]; lon: number[] }): LatLonGrid => ({
-  latName: 'lat', lonName: 'lon', lat: Float64Array.from(lat), lon: Float64Array.from(lon),
-  latBounds: bounds ? Float64Array.from(bounds.lat) : null, lonBounds: bounds ? Float64Array.from(bounds.lon) : null,
+  latName: 'lat',
+  lonName: 'lon',
+  lat: Float64Array.from(lat),
+  lon: Float64Array.from(lon),
+  latBounds: bounds ? Float64Array.from(bounds.lat) : null,
+  lonBounds: bounds ? Float64Array.from(bounds.lon) : null,
 });
-const region = (id: string, shape: RegionShape): RegionConfig => ({ id, name: id, shape, utcOffsetHours: 1, teams: [], cellRule: 'centre' });
-const TULVA: RegionShape = { kind: 'polygon', ring: [[0.5, -13.5], [3.5, -13.5], [3.5, -11.5], [2, -10.5], [0.5, -11], [0.5, -13.5]] };
+const region = (id: string, shape: RegionShape): RegionConfig => ({
+  id,
+  name: id,
+  shape,
+  utcOffsetHours: 1,
+  teams: [],
+  cellRule: 'centre',
+});
+const TULVA: RegionShape = {
+  kind: 'polygon',
+  ring: [
+    [0.5, -13.5],
+    [3.5, -13.5],
+    [3.5, -11.5],
+    [2, -10.5],
+    [0.5, -11],
+    [0.5, -13.5],
+  ],
+};
 
 function lonLats(g: LatLonGrid, r: RegionConfig): string[] {
   const c = selectRegionCells(g, r, 'f.nc');
@@ -21,8 +42,15 @@ function lonLats(g: LatLonGrid, r: RegionConfig): string[] {
 
 describe('pointInRing (even-odd rule, edges inside)', () => {
   it.each([
-    [1, -12, true], [2, -10.5, true], [3.5, -12, true], [0.5, -11, true], [2, -13.5, true],
-    [3, -10.5, false], [0.4, -12, false], [2, -10.4, false], [3.6, -12, false],
+    [1, -12, true],
+    [2, -10.5, true],
+    [3.5, -12, true],
+    [0.5, -11, true],
+    [2, -13.5, true],
+    [3, -10.5, false],
+    [0.4, -12, false],
+    [2, -10.4, false],
+    [3.6, -12, false],
   ])('tulva-delta ring: (%f, %f) → %s (hand-checked against the ring drawn on paper, no published source)', (lon, lat, inside) => {
     expect(pointInRing(lon, lat, TULVA.kind === 'polygon' ? TULVA.ring : [])).toBe(inside);
   });
@@ -34,7 +62,10 @@ describe('selectRegionCells', () => {
 
   it('box crossing 0° selects the same cells on 0..360 and -180..180 grids and on descending latitude', () => {
     const r = region('marrow-highlands', { kind: 'box', south: -9, north: -6.5, west: -1.5, east: 1.5 });
-    const a = lonLats(g360, r).map((s) => s.split(',').map(Number)).map(([lo, la]) => `${lo > 180 ? lo - 360 : lo},${la}`).sort();
+    const a = lonLats(g360, r)
+      .map((s) => s.split(',').map(Number))
+      .map(([lo, la]) => `${lo > 180 ? lo - 360 : lo},${la}`)
+      .sort();
     const b = lonLats(g180, r);
     expect(a).toEqual(b);
     expect(a.length).toBe(7 * 6);
@@ -52,7 +83,18 @@ describe('selectRegionCells', () => {
     expect(cells).toContain('2,-10.5');
     expect(cells).toContain('3.5,-12');
     expect(cells).not.toContain('3,-10.5');
-    const across0 = lonLats(g360, region('p', { kind: 'polygon', ring: [[-0.5, -9], [0.5, -9], [0.5, -9], [-0.5, -9]] }));
+    const across0 = lonLats(
+      g360,
+      region('p', {
+        kind: 'polygon',
+        ring: [
+          [-0.5, -9],
+          [0.5, -9],
+          [0.5, -9],
+          [-0.5, -9],
+        ],
+      }),
+    );
     expect(across0).toEqual(['0,-9', '0.5,-9', '359.5,-9'].sort());
   });
 
@@ -60,7 +102,8 @@ describe('selectRegionCells', () => {
     const r = region('far-away', { kind: 'box', south: 40, north: 45, west: 10, east: 12 });
     expect(() => selectRegionCells(g360, r, 'fc_20261123.nc')).toThrow(InputError);
     expect(() => selectRegionCells(g360, r, 'fc_20261123.nc')).toThrow(
-      "fc_20261123.nc: region 'far-away' (box 40..45, 10..12) has no grid cell in fc_20261123.nc (grid lat -15..-3, lon 0..359.5) — check the region shape or the source, or use cell-rule: overlap (a region smaller than a cell may hold no centre)");
+      "fc_20261123.nc: region 'far-away' (box 40..45, 10..12) has no grid cell in fc_20261123.nc (grid lat -15..-3, lon 0..359.5) — check the region shape or the source, or use cell-rule: overlap (a region smaller than a cell may hold no centre)",
+    );
   });
 });
 

@@ -15,10 +15,17 @@ import { BOX, CDO_BOX, cdoTable, ncgenFixture, type CdlSpec } from './cdl-fixtur
 const TOL = 1e-4;
 const KELVIN = 273.15;
 
-const region = (utcOffsetHours = 0): RegionConfig => ({ id: 'box', name: 'box', shape: { kind: 'box', ...BOX }, utcOffsetHours, teams: [] });
+const region = (utcOffsetHours = 0): RegionConfig => ({
+  id: 'box',
+  name: 'box',
+  shape: { kind: 'box', ...BOX },
+  utcOffsetHours,
+  teams: [],
+});
 
 /** A smooth, member- and cell-dependent temperature in K. */
-const temperature = (m: number, t: number, y: number, x: number): number => 290 + 5 * Math.sin(0.7 * t + y) + 0.3 * x + 0.5 * m + 0.1 * ((7 * t + 3 * y + 5 * x) % 11);
+const temperature = (m: number, t: number, y: number, x: number): number =>
+  290 + 5 * Math.sin(0.7 * t + y) + 0.3 * x + 0.5 * m + 0.1 * ((7 * t + 3 * y + 5 * x) % 11);
 /** Per-step rain in mm (never negative). */
 const rainMm = (m: number, t: number, y: number, x: number): number => ((13 * t + 7 * y + 3 * x + 5 * m) % 17) * 0.37;
 /** Rain accumulated since step 0 (value 0 at step 0), in metres. */
@@ -28,7 +35,13 @@ const accumulatedM = (m: number, t: number, y: number, x: number): number => {
   return sum / 1000;
 };
 
-async function readOne(file: string, quantity: Quantity, variable: string, referenceTime: string, utcOffsetHours = 0): Promise<RegionSeries> {
+async function readOne(
+  file: string,
+  quantity: Quantity,
+  variable: string,
+  referenceTime: string,
+  utcOffsetHours = 0,
+): Promise<RegionSeries> {
   const r = await extractRegionSeries(file, { quantities: { [quantity]: variable }, regions: [region(utcOffsetHours)], referenceTime });
   if (r.problems.length) throw r.problems[0];
   return r.series[0];
@@ -39,7 +52,8 @@ function expectSameAsCdo(got: RegionSeries, cdo: { dates: string[]; members: num
   expect(got.days).toEqual(cdo.dates.slice(cdoFrom, cdoFrom + got.days.length));
   expect(got.members).toBe(cdo.members.length);
   for (let m = 0; m < got.members; m++) {
-    for (let d = 0; d < got.days.length; d++) expect(Math.abs(got.data[m * got.days.length + d] - (cdo.members[m][cdoFrom + d] + shift))).toBeLessThanOrEqual(TOL);
+    for (let d = 0; d < got.days.length; d++)
+      expect(Math.abs(got.data[m * got.days.length + d] - (cdo.members[m][cdoFrom + d] + shift))).toBeLessThanOrEqual(TOL);
   }
 }
 
@@ -48,7 +62,8 @@ const hours = (from: number, step: number, n: number): number[] => Array.from({ 
 
 describe('end-of-period stamps without bounds (GRIB step semantics; CF 1.11 §7.3 cell_methods)', () => {
   const tmax24 = (times: number[], attributes: Record<string, string> = { cell_methods: 'time: maximum' }): CdlSpec => ({
-    timeUnits: 'hours since 2026-11-23 00:00:00', times: daily(times),
+    timeUnits: 'hours since 2026-11-23 00:00:00',
+    times: daily(times),
     variables: { mx2t24: { attributes: { units: 'K', standard_name: 'air_temperature', ...attributes }, value: temperature } },
   });
 
@@ -103,19 +118,34 @@ describe('end-of-period stamps without bounds (GRIB step semantics; CF 1.11 §7.
 
   it('a forecast of the 22nd (24-h maxima stamped from the 23rd) asked for as the 24th is refused, naming the 22nd', async () => {
     const spec = { ...tmax24(hours(24, 24, 3)), timeUnits: 'hours since 2026-11-22 00:00:00' };
-    await expect(extractRegionSeries(ncgenFixture('tmax-yesterday', spec), { quantities: { tmax: 'mx2t24' }, regions: [region()], referenceTime: '2026-11-24' }))
-      .rejects.toThrow(/holds the forecast of 2026-11-22T00:00:00Z but 2026-11-24T00:00:00Z was requested/);
+    await expect(
+      extractRegionSeries(ncgenFixture('tmax-yesterday', spec), {
+        quantities: { tmax: 'mx2t24' },
+        regions: [region()],
+        referenceTime: '2026-11-24',
+      }),
+    ).rejects.toThrow(/holds the forecast of 2026-11-22T00:00:00Z but 2026-11-24T00:00:00Z was requested/);
   });
 });
 
 describe('period totals vs running accumulations (CF 1.11 §7.1 bounds, §7.3 time: sum; GRIB total precipitation)', () => {
-  const precip = (times: number[], value: CdlSpec['variables'][string]['value'], attributes: Record<string, string>, bounds?: [number, number][]): CdlSpec => ({
-    timeUnits: 'hours since 2026-11-23 00:00:00', times, bounds,
+  const precip = (
+    times: number[],
+    value: CdlSpec['variables'][string]['value'],
+    attributes: Record<string, string>,
+    bounds?: [number, number][],
+  ): CdlSpec => ({
+    timeUnits: 'hours since 2026-11-23 00:00:00',
+    times,
+    bounds,
     variables: { tp: { attributes: { standard_name: 'precipitation_amount', ...attributes }, value } },
   });
 
   it('24-h totals in mm stamped at their end with a step-0 field: no extra leading day', async () => {
-    const file = ncgenFixture('tp24', precip(hours(0, 24, 6), (m, t, y, x) => (t === 0 ? 0 : rainMm(m, t, y, x)), { units: 'mm' }));
+    const file = ncgenFixture(
+      'tp24',
+      precip(hours(0, 24, 6), (m, t, y, x) => (t === 0 ? 0 : rainMm(m, t, y, x)), { units: 'mm' }),
+    );
     const got = await readOne(file, 'precip', 'tp', '2026-11-23');
     expect(got.days[0]).toBe('2026-11-23');
     expect(got.days).toHaveLength(5);
@@ -132,16 +162,43 @@ describe('period totals vs running accumulations (CF 1.11 §7.1 bounds, §7.3 ti
 
   it('per-period totals in m with "time: sum" and 6-h bounds not starting at the reference: summed, not differenced', async () => {
     const times = hours(6, 6, 12);
-    const file = ncgenFixture('tp-sum', precip(times, (m, t, y, x) => rainMm(m, t + 1, y, x) / 1000, { units: 'm', cell_methods: 'time: sum' }, times.map((h) => [h - 6, h])));
+    const file = ncgenFixture(
+      'tp-sum',
+      precip(
+        times,
+        (m, t, y, x) => rainMm(m, t + 1, y, x) / 1000,
+        { units: 'm', cell_methods: 'time: sum' },
+        times.map((h) => [h - 6, h]),
+      ),
+    );
     const got = await readOne(file, 'precip', 'tp', '2026-11-23');
     expectSameAsCdo(got, cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-mulc,1000', '-daysum', '-shifttime,-1sec'], file));
   });
 
   it('equal-length bounds alone (no cell_methods) also mark totals; bounds all starting at the reference mark an accumulation', async () => {
     const times = hours(6, 6, 8);
-    const totals = ncgenFixture('tp-bnds', precip(times, (m, t, y, x) => rainMm(m, t + 1, y, x) / 1000, { units: 'm' }, times.map((h) => [h - 6, h])));
-    expectSameAsCdo(await readOne(totals, 'precip', 'tp', '2026-11-23'), cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-mulc,1000', '-daysum', '-shifttime,-1sec'], totals));
-    const running = ncgenFixture('tp-bnds-acc', precip(times, (m, t, y, x) => accumulatedM(m, t + 1, y, x) + rainMm(m, 0, y, x) / 1000, { units: 'kg m-2', cell_methods: 'time: sum' }, times.map((h) => [0, h])));
+    const totals = ncgenFixture(
+      'tp-bnds',
+      precip(
+        times,
+        (m, t, y, x) => rainMm(m, t + 1, y, x) / 1000,
+        { units: 'm' },
+        times.map((h) => [h - 6, h]),
+      ),
+    );
+    expectSameAsCdo(
+      await readOne(totals, 'precip', 'tp', '2026-11-23'),
+      cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-mulc,1000', '-daysum', '-shifttime,-1sec'], totals),
+    );
+    const running = ncgenFixture(
+      'tp-bnds-acc',
+      precip(
+        times,
+        (m, t, y, x) => accumulatedM(m, t + 1, y, x) + rainMm(m, 0, y, x) / 1000,
+        { units: 'kg m-2', cell_methods: 'time: sum' },
+        times.map((h) => [0, h]),
+      ),
+    );
     const got = await readOne(running, 'precip', 'tp', '2026-11-23');
     // numpy-free check: the day's total is the accumulation at 24 h (kg m-2 = mm), then its increase to 48 h.
     const cdoAcc = cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-seltimestep,4,8'], running);
@@ -152,7 +209,10 @@ describe('period totals vs running accumulations (CF 1.11 §7.1 bounds, §7.3 ti
   });
 
   it('a decreasing accumulation is an error naming file, variable, member and step; the suggested ncatted fix reads it as totals', async () => {
-    const file = ncgenFixture('tp-decrease', precip(hours(6, 6, 8), (m, t, y, x) => rainMm(m, t + 1, y, x) / 1000, { units: 'm' }));
+    const file = ncgenFixture(
+      'tp-decrease',
+      precip(hours(6, 6, 8), (m, t, y, x) => rainMm(m, t + 1, y, x) / 1000, { units: 'm' }),
+    );
     const r = await extractRegionSeries(file, { quantities: { precip: 'tp' }, regions: [region()], referenceTime: '2026-11-23' });
     expect(r.series).toHaveLength(0);
     const message = r.problems[0].message;

@@ -4,11 +4,23 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { UnitError } from '../../src/core/errors.ts';
 import {
-  convertInPlace, kelvinToCelsius, kelvinToFahrenheit, normaliseUnits, planUnits, precipMmPerDayFromAccumulationM,
-  precipMmPerDayFromFluxKgM2S, precipMmPerDayFromRateMPerS, precipMmPerMonthFromMeanRate,
+  convertInPlace,
+  kelvinToCelsius,
+  kelvinToFahrenheit,
+  normaliseUnits,
+  planUnits,
+  precipMmPerDayFromAccumulationM,
+  precipMmPerDayFromFluxKgM2S,
+  precipMmPerDayFromRateMPerS,
+  precipMmPerMonthFromMeanRate,
 } from '../../src/read/units.ts';
 
-interface CheckRow { id: string; inputs: Record<string, number>; expected: number; tolerance: number }
+interface CheckRow {
+  id: string;
+  inputs: Record<string, number>;
+  expected: number;
+  tolerance: number;
+}
 const checks: CheckRow[] = JSON.parse(readFileSync(join(import.meta.dirname, '../reference/checks.json'), 'utf8'));
 const row = (id: string): CheckRow => {
   const r = checks.find((c) => c.id === id);
@@ -52,13 +64,26 @@ describe('check values (test/reference/checks.json)', () => {
 
 describe('unit strings (UDUNITS-2 / CF spellings)', () => {
   it.each([
-    ['kg m**-2 s**-1', 'kgm-2s-1'], ['kg/m2/s', 'kgm-2s-1'], ['kg m-2', 'kgm-2'], ['m/s', 'ms-1'], ['m s**-1', 'ms-1'],
-    ['km/h', 'kmh-1'], ['degrees_Celsius', 'degreescelsius'], ['deg_C', 'degc'], ['mm/day', 'mmday-1'],
+    ['kg m**-2 s**-1', 'kgm-2s-1'],
+    ['kg/m2/s', 'kgm-2s-1'],
+    ['kg m-2', 'kgm-2'],
+    ['m/s', 'ms-1'],
+    ['m s**-1', 'ms-1'],
+    ['km/h', 'kmh-1'],
+    ['degrees_Celsius', 'degreescelsius'],
+    ['deg_C', 'degc'],
+    ['mm/day', 'mmday-1'],
   ])('%s → %s', (raw, key) => expect(normaliseUnits(raw)).toBe(key));
 
   it.each([
-    ['tmax', 'degF', 95, 35], ['tmin', 'Celsius', 20, 20], ['dewpoint', 'degC', 12, 12], ['rh', '1', 0.55, 55], ['rh', '%', 55, 55],
-    ['wind', 'km/h', 36, 10], ['precip', 'kg m-2', 3, 3], ['precip', 'm', 0.0125, 12.5],
+    ['tmax', 'degF', 95, 35],
+    ['tmin', 'Celsius', 20, 20],
+    ['dewpoint', 'degC', 12, 12],
+    ['rh', '1', 0.55, 55],
+    ['rh', '%', 55, 55],
+    ['wind', 'km/h', 36, 10],
+    ['precip', 'kg m-2', 3, 3],
+    ['precip', 'm', 0.0125, 12.5],
   ] as const)('%s in %s: %f → %f (definitions: (F-32)/1.8, fraction ×100, km/h ÷3.6, m ×1000)', (q, units, raw, want) => {
     const v = Float64Array.of(raw);
     convertInPlace(v, planUnits(q, units, 'f.nc', 'v'));
@@ -74,11 +99,15 @@ describe('unit strings (UDUNITS-2 / CF spellings)', () => {
 
   it('missing units → UnitError naming file, variable and what to do', () => {
     expect(() => planUnits('tmax', undefined, 'fc_20261123.nc', 'mx2t6')).toThrow(UnitError);
-    expect(() => planUnits('tmax', ' ', 'fc_20261123.nc', 'mx2t6')).toThrow(/fc_20261123\.nc: variable 'mx2t6' \(tmax\) has no units attribute — set it to one of K, degC or degF/);
+    expect(() => planUnits('tmax', ' ', 'fc_20261123.nc', 'mx2t6')).toThrow(
+      /fc_20261123\.nc: variable 'mx2t6' \(tmax\) has no units attribute — set it to one of K, degC or degF/,
+    );
   });
 
   it('unknown or incompatible units → UnitError naming file and variable', () => {
-    expect(() => planUnits('precip', 'furlongs', 'fc.nc', 'tp')).toThrow(/fc\.nc: variable 'tp' \(precip\) has units 'furlongs' that cannot be converted to mm\/day — expected one of m, kg m-2/);
+    expect(() => planUnits('precip', 'furlongs', 'fc.nc', 'tp')).toThrow(
+      /fc\.nc: variable 'tp' \(precip\) has units 'furlongs' that cannot be converted to mm\/day — expected one of m, kg m-2/,
+    );
     expect(() => planUnits('tmax', 'm s-1', 'fc.nc', 'u10')).toThrow(UnitError);
   });
 });

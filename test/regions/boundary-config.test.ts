@@ -47,7 +47,15 @@ describe('regions: boundaries: FILE', () => {
 `);
     expect(problems).toEqual([]);
     const regions = config!.regions.filter((r) => r.id !== 'north');
-    expect(regions.map((r) => r.id)).toEqual(['kessan-nord', 'kessan-sud', 'lac-mirel', 'marrow-highlands', 'tulva-delta', 'orrin-coast', 'port-saly']);
+    expect(regions.map((r) => r.id)).toEqual([
+      'kessan-nord',
+      'kessan-sud',
+      'lac-mirel',
+      'marrow-highlands',
+      'tulva-delta',
+      'orrin-coast',
+      'port-saly',
+    ]);
     const byId = new Map(regions.map((r) => [r.id, r]));
     expect(byId.get('port-saly')).toMatchObject({ name: 'Port Saly', teams: ['north-team', 'south-team'], timeZone: 'Etc/GMT-1' });
     expect(byId.get('lac-mirel')!.teams).toEqual(['north-team', 'south-team']);
@@ -57,10 +65,14 @@ describe('regions: boundaries: FILE', () => {
   });
 
   it('time-zone, utc-offset-hours and cell-rule of the entry apply to every feature; both clocks at once is refused', async () => {
-    const zone = await withSet('  - boundaries: districts.geojson\n    id-property: code\n    time-zone: Africa/Cairo\n    cell-rule: centre\n');
+    const zone = await withSet(
+      '  - boundaries: districts.geojson\n    id-property: code\n    time-zone: Africa/Cairo\n    cell-rule: centre\n',
+    );
     expect(zone.problems).toEqual([]);
     expect(zone.config!.regions[1]).toMatchObject({ id: 'ks-01', name: 'KS-01', timeZone: 'Africa/Cairo', cellRule: 'centre' });
-    const both = await withSet('  - boundaries: districts.geojson\n    id-property: code\n    time-zone: Africa/Cairo\n    utc-offset-hours: 2\n');
+    const both = await withSet(
+      '  - boundaries: districts.geojson\n    id-property: code\n    time-zone: Africa/Cairo\n    utc-offset-hours: 2\n',
+    );
     expect(both.problems.join('\n')).toMatch(/:\d+:\d+: both time-zone and utc-offset-hours are given/);
     const unknown = await withSet('  - boundaries: districts.geojson\n    id-property: code\n    time-zone: Africa/Veloria\n');
     expect(unknown.problems.join('\n')).toMatch(/unknown IANA time zone "Africa\/Veloria"/);
@@ -79,14 +91,78 @@ describe('regions: boundaries: FILE', () => {
   });
 
   it.each([
-    ['a self-intersecting ring (bow tie)', polygon([[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]), /feature 1 \(id "bow"\) ring 0 \(outer\) intersects itself near/],
-    ['an unclosed ring', polygon([[0, 0], [1, 0], [1, 1], [0, 1]]), /feature 1 \(id "bow"\) ring 0 \(outer\) is not closed: last position \[0, 1\] differs from the first \[0, 0\]/],
+    [
+      'a self-intersecting ring (bow tie)',
+      polygon([
+        [0, 0],
+        [1, 1],
+        [1, 0],
+        [0, 1],
+        [0, 0],
+      ]),
+      /feature 1 \(id "bow"\) ring 0 \(outer\) intersects itself near/,
+    ],
+    [
+      'an unclosed ring',
+      polygon([
+        [0, 0],
+        [1, 0],
+        [1, 1],
+        [0, 1],
+      ]),
+      /feature 1 \(id "bow"\) ring 0 \(outer\) is not closed: last position \[0, 1\] differs from the first \[0, 0\]/,
+    ],
     ['no geometry', null, /feature 1 \(id "bow"\) has no geometry \(empty\)/],
     ['an empty MultiPolygon', { type: 'MultiPolygon', coordinates: [] }, /feature 1 \(id "bow"\) has no polygon \(empty\)/],
-    ['a line', { type: 'LineString', coordinates: [[0, 0], [1, 1]] }, /has geometry type LineString; regions need Polygon or MultiPolygon/],
-    ['a hole crossing its outer ring', { type: 'Polygon', coordinates: [[[0, 0], [2, 0], [2, 2], [0, 2], [0, 0]], [[1, 1], [3, 1], [3, 1.5], [1, 1]]] }, /ring [01] \((outer|hole)\) crosses ring [01] \((outer|hole)\) near/],
+    [
+      'a line',
+      {
+        type: 'LineString',
+        coordinates: [
+          [0, 0],
+          [1, 1],
+        ],
+      },
+      /has geometry type LineString; regions need Polygon or MultiPolygon/,
+    ],
+    [
+      'a hole crossing its outer ring',
+      {
+        type: 'Polygon',
+        coordinates: [
+          [
+            [0, 0],
+            [2, 0],
+            [2, 2],
+            [0, 2],
+            [0, 0],
+          ],
+          [
+            [1, 1],
+            [3, 1],
+            [3, 1.5],
+            [1, 1],
+          ],
+        ],
+      },
+      /ring [01] \((outer|hole)\) crosses ring [01] \((outer|hole)\) near/,
+    ],
   ])('%s: one line with the YAML position, file, feature index and id, and how to repair', async (_what, geometry, message) => {
-    const { config, problems } = await withSet('  - boundaries: districts.geojson\n    id-property: name\n', fc(feature({ name: 'ok' }, polygon([[5, 5], [6, 5], [6, 6], [5, 5]])), feature({ name: 'bow' }, geometry)));
+    const { config, problems } = await withSet(
+      '  - boundaries: districts.geojson\n    id-property: name\n',
+      fc(
+        feature(
+          { name: 'ok' },
+          polygon([
+            [5, 5],
+            [6, 5],
+            [6, 6],
+            [5, 5],
+          ]),
+        ),
+        feature({ name: 'bow' }, geometry),
+      ),
+    );
     expect(config).toBeUndefined();
     expect(problems).toHaveLength(1);
     expect(problems[0]).toMatch(/variant-\d+\.yaml:\d+:\d+: .*districts\.geojson: /);
@@ -95,17 +171,63 @@ describe('regions: boundaries: FILE', () => {
   });
 
   it('bad ids, teams and files are named', async () => {
-    const twoNames = fc(feature({ name: 'Kessan' }, polygon([[0, 0], [1, 0], [1, 1], [0, 0]])), feature({ name: 'kessan' }, polygon([[2, 0], [3, 0], [3, 1], [2, 0]])), feature({ other: 1 }, polygon([[4, 0], [5, 0], [5, 1], [4, 0]])));
-    const ids = await withSet('  - boundaries: districts.geojson\n    id-property: name\n    teams-by-id: { nowhere: [north-team] }\n    teams-by-property: { property: name, teams: { Kessan: [ghost-team], Atlantis: [north-team] } }\n', twoNames);
+    const twoNames = fc(
+      feature(
+        { name: 'Kessan' },
+        polygon([
+          [0, 0],
+          [1, 0],
+          [1, 1],
+          [0, 0],
+        ]),
+      ),
+      feature(
+        { name: 'kessan' },
+        polygon([
+          [2, 0],
+          [3, 0],
+          [3, 1],
+          [2, 0],
+        ]),
+      ),
+      feature(
+        { other: 1 },
+        polygon([
+          [4, 0],
+          [5, 0],
+          [5, 1],
+          [4, 0],
+        ]),
+      ),
+    );
+    const ids = await withSet(
+      '  - boundaries: districts.geojson\n    id-property: name\n    teams-by-id: { nowhere: [north-team] }\n    teams-by-property: { property: name, teams: { Kessan: [ghost-team], Atlantis: [north-team] } }\n',
+      twoNames,
+    );
     const text = ids.problems.join('\n');
     expect(text).toMatch(/feature 1 \(id "kessan"\) has region id 'kessan', as feature 0 does/);
-    expect(text).toMatch(/feature 2 has no usable value of property 'name' — set id-property to a property every feature has \(properties of this feature: other\)/);
+    expect(text).toMatch(
+      /feature 2 has no usable value of property 'name' — set id-property to a property every feature has \(properties of this feature: other\)/,
+    );
     expect(text).toMatch(/no region 'nowhere' in districts\.geojson/);
     expect(text).toMatch(/unknown team "ghost-team"/);
     expect(text).toMatch(/no feature has name = 'Atlantis'/);
     const missing = await withSet('  - boundaries: nowhere.geojson\n');
     expect(missing.problems.join('\n')).toMatch(/boundary file .*nowhere\.geojson cannot be read/);
-    const clash = await withSet('  - boundaries: districts.geojson\n    id-property: name\n', fc(feature({ name: 'North' }, polygon([[0, 0], [1, 0], [1, 1], [0, 0]]))));
+    const clash = await withSet(
+      '  - boundaries: districts.geojson\n    id-property: name\n',
+      fc(
+        feature(
+          { name: 'North' },
+          polygon([
+            [0, 0],
+            [1, 0],
+            [1, 1],
+            [0, 0],
+          ]),
+        ),
+      ),
+    );
     expect(clash.problems.join('\n')).toMatch(/region id 'north' from districts\.geojson is also used by entry 1 of regions/);
   });
 

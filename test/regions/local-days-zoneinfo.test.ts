@@ -21,12 +21,20 @@ function series(stepHours: number, periodEnding: boolean) {
 
 describe('local days by IANA time zone vs zoneinfo', () => {
   it.each([
-    ['Europe/Lisbon', 1, true], ['Africa/Cairo', 1, true], ['America/Santiago', 1, true],
-    ['Europe/Lisbon', 6, false], ['Africa/Cairo', 6, false], ['America/Santiago', 6, false],
+    ['Europe/Lisbon', 1, true],
+    ['Africa/Cairo', 1, true],
+    ['America/Santiago', 1, true],
+    ['Europe/Lisbon', 6, false],
+    ['Africa/Cairo', 6, false],
+    ['America/Santiago', 6, false],
   ] as const)('%s, %i-hourly steps (period-ending %s): same kept days and step → day as zoneinfo', (zone, stepHours, periodEnding) => {
     const iv = series(stepHours, periodEnding);
     const plan = planLocalDays(iv, regionClock({ utcOffsetHours: 0, timeZone: zone }));
-    const ref = JSON.parse(execFileSync('/usr/bin/python3', [SCRIPT], { input: JSON.stringify({ zone, start_ms: [...iv.startMs], end_ms: [...iv.endMs] }) }).toString()) as { days: string[]; day_of_step: number[] };
+    const ref = JSON.parse(
+      execFileSync('/usr/bin/python3', [SCRIPT], {
+        input: JSON.stringify({ zone, start_ms: [...iv.startMs], end_ms: [...iv.endMs] }),
+      }).toString(),
+    ) as { days: string[]; day_of_step: number[] };
     expect(plan.days).toEqual(ref.days);
     expect([...plan.dayOfStep]).toEqual(ref.day_of_step);
     expect(plan.days.length).toBeGreaterThan(360);

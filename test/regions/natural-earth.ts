@@ -7,7 +7,6 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { feature } from 'topojson-client';
 
-
 export interface NaturalEarthCollection {
   readonly type: 'FeatureCollection';
   readonly features: { type: 'Feature'; id?: string; properties: { name: string }; geometry: { type: string; coordinates: unknown } }[];

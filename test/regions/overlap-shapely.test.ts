@@ -26,32 +26,115 @@ function grid(step: number, lon0: number, descending = false): { grid: LatLonGri
   for (let w = lon0; w < lon0 + 360 - 1e-9; w += step) lonBounds.push([w, w + step]);
   const centres = (b: number[][]) => Float64Array.from(b, ([a, c]) => (a + c) / 2);
   return {
-    grid: { latName: 'lat', lonName: 'lon', lat: centres(latBounds), lon: centres(lonBounds), latBounds: Float64Array.from(latBounds.flat()), lonBounds: Float64Array.from(lonBounds.flat()) },
-    latBounds, lonBounds,
+    grid: {
+      latName: 'lat',
+      lonName: 'lon',
+      lat: centres(latBounds),
+      lon: centres(lonBounds),
+      latBounds: Float64Array.from(latBounds.flat()),
+      lonBounds: Float64Array.from(lonBounds.flat()),
+    },
+    latBounds,
+    lonBounds,
   };
 }
 
 const GRIDS = { g1: grid(1, -180), g25desc: grid(2.5, 0, true), g5: grid(5, -177.5) };
 
 const INVENTED: { id: string; geometry: Geometry }[] = [
-  { id: 'lakes-and-islands', geometry: { type: 'MultiPolygon', coordinates: [
-    [[[10.2, 40.3], [17.9, 40.1], [19.4, 44.6], [14.1, 47.7], [10.6, 45.2], [10.2, 40.3]], // counter-clockwise outer
-      [[12.3, 42.2], [13.9, 44.8], [15.6, 42.9], [12.3, 42.2]], // clockwise hole
-      [[16.1, 41.0], [17.2, 41.1], [17.0, 42.3], [16.1, 41.0]]], // counter-clockwise hole (either winding)
-    [[[20.5, 40.5], [21.7, 43.9], [23.8, 40.9], [20.5, 40.5]], [[21.2, 41.1], [22.6, 41.3], [21.7, 42.6], [21.2, 41.1]]], // clockwise island with a lake
-  ] } },
-  { id: 'dateline-atoll', geometry: { type: 'Polygon', coordinates: [[[170.3, -20.2], [-170.6, -19.7], [-165.2, -10.4], [175.8, -5.1], [170.3, -20.2]]] } },
-  { id: 'tiny-district', geometry: { type: 'Polygon', coordinates: [[[3.11, -10.13], [3.19, -10.12], [3.15, -10.04], [3.11, -10.13]]] } },
+  {
+    id: 'lakes-and-islands',
+    geometry: {
+      type: 'MultiPolygon',
+      coordinates: [
+        [
+          [
+            [10.2, 40.3],
+            [17.9, 40.1],
+            [19.4, 44.6],
+            [14.1, 47.7],
+            [10.6, 45.2],
+            [10.2, 40.3],
+          ], // counter-clockwise outer
+          [
+            [12.3, 42.2],
+            [13.9, 44.8],
+            [15.6, 42.9],
+            [12.3, 42.2],
+          ], // clockwise hole
+          [
+            [16.1, 41.0],
+            [17.2, 41.1],
+            [17.0, 42.3],
+            [16.1, 41.0],
+          ],
+        ], // counter-clockwise hole (either winding)
+        [
+          [
+            [20.5, 40.5],
+            [21.7, 43.9],
+            [23.8, 40.9],
+            [20.5, 40.5],
+          ],
+          [
+            [21.2, 41.1],
+            [22.6, 41.3],
+            [21.7, 42.6],
+            [21.2, 41.1],
+          ],
+        ], // clockwise island with a lake
+      ],
+    },
+  },
+  {
+    id: 'dateline-atoll',
+    geometry: {
+      type: 'Polygon',
+      coordinates: [
+        [
+          [170.3, -20.2],
+          [-170.6, -19.7],
+          [-165.2, -10.4],
+          [175.8, -5.1],
+          [170.3, -20.2],
+        ],
+      ],
+    },
+  },
+  {
+    id: 'tiny-district',
+    geometry: {
+      type: 'Polygon',
+      coordinates: [
+        [
+          [3.11, -10.13],
+          [3.19, -10.12],
+          [3.15, -10.04],
+          [3.11, -10.13],
+        ],
+      ],
+    },
+  },
 ];
 
 const NE = naturalEarthCountries().features;
-const pick = (names: string[]) => NE.filter((f) => names.includes(f.properties.name)).map((f) => ({ id: f.properties.name.toLowerCase().replace(/\W+/g, '-'), geometry: f.geometry }));
+const pick = (names: string[]) =>
+  NE.filter((f) => names.includes(f.properties.name)).map((f) => ({
+    id: f.properties.name.toLowerCase().replace(/\W+/g, '-'),
+    geometry: f.geometry,
+  }));
 const REAL = pick(['Fiji', 'South Africa', 'Lesotho', 'Italy', 'Indonesia', 'New Zealand']);
 
-function reference(regions: { id: string; geometry: Geometry }[], grids: Record<string, { latBounds: number[][]; lonBounds: number[][] }>, areas = true) {
+function reference(
+  regions: { id: string; geometry: Geometry }[],
+  grids: Record<string, { latBounds: number[][]; lonBounds: number[][] }>,
+  areas = true,
+) {
   const input = JSON.stringify({ grids, regions, areas });
   return JSON.parse(execFileSync('/usr/bin/python3', [SCRIPT], { input, maxBuffer: 1 << 28 }).toString()) as {
-    weights: Record<string, Record<string, [number, number, number][]>>; equal_area: Record<string, number>; valid: Record<string, boolean>;
+    weights: Record<string, Record<string, [number, number, number][]>>;
+    equal_area: Record<string, number>;
+    valid: Record<string, boolean>;
   };
 }
 
@@ -63,18 +146,24 @@ function regionOf(id: string, geometry: Geometry): RegionConfig {
 
 describe('overlap weights vs shapely (exact cell ∩ polygon area on the sphere)', () => {
   const regions = [...INVENTED, ...REAL];
-  const ref = reference(regions, Object.fromEntries(Object.entries(GRIDS).map(([k, g]) => [k, { latBounds: g.latBounds, lonBounds: g.lonBounds }])));
+  const ref = reference(
+    regions,
+    Object.fromEntries(Object.entries(GRIDS).map(([k, g]) => [k, { latBounds: g.latBounds, lonBounds: g.lonBounds }])),
+  );
 
-  it.each(Object.keys(GRIDS).flatMap((g) => regions.map((r) => [g, r.id] as const)))('grid %s, region %s: every cell within 1e-6 relative', (g, id) => {
-    const { grid: lg } = GRIDS[g as keyof typeof GRIDS];
-    const cells = selectRegionCells(lg, regionOf(id, regions.find((r) => r.id === id)!.geometry), `${g}.nc`);
-    const mine = new Map(Array.from(cells.weights, (w, k) => [`${cells.latIndex[k]},${cells.lonIndex[k]}`, w]));
-    const theirs = new Map(ref.weights[g][id].map(([y, x, a]) => [`${y},${x}`, a]));
-    expect(theirs.size).toBeGreaterThan(0);
-    const floor = 1e-15; // sr (≈ 0.04 m²): slivers below this may be kept by one side only
-    for (const [cell, a] of theirs) expect(Math.abs((mine.get(cell) ?? 0) - a), `cell ${cell}`).toBeLessThanOrEqual(1e-6 * a + floor);
-    for (const [cell, a] of mine) if (!theirs.has(cell)) expect(a, `extra cell ${cell}`).toBeLessThanOrEqual(floor);
-  });
+  it.each(Object.keys(GRIDS).flatMap((g) => regions.map((r) => [g, r.id] as const)))(
+    'grid %s, region %s: every cell within 1e-6 relative',
+    (g, id) => {
+      const { grid: lg } = GRIDS[g as keyof typeof GRIDS];
+      const cells = selectRegionCells(lg, regionOf(id, regions.find((r) => r.id === id)!.geometry), `${g}.nc`);
+      const mine = new Map(Array.from(cells.weights, (w, k) => [`${cells.latIndex[k]},${cells.lonIndex[k]}`, w]));
+      const theirs = new Map(ref.weights[g][id].map(([y, x, a]) => [`${y},${x}`, a]));
+      expect(theirs.size).toBeGreaterThan(0);
+      const floor = 1e-15; // sr (≈ 0.04 m²): slivers below this may be kept by one side only
+      for (const [cell, a] of theirs) expect(Math.abs((mine.get(cell) ?? 0) - a), `cell ${cell}`).toBeLessThanOrEqual(1e-6 * a + floor);
+      for (const [cell, a] of mine) if (!theirs.has(cell)) expect(a, `extra cell ${cell}`).toBeLessThanOrEqual(floor);
+    },
+  );
 
   it.each(regions.map((r) => r.id))('%s: total weight on the 1° grid = equal-area projection area within 1e-6', (id) => {
     const cells = selectRegionCells(GRIDS.g1.grid, regionOf(id, regions.find((r) => r.id === id)!.geometry), 'g1.nc');

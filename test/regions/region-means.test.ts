@@ -14,21 +14,42 @@ import { naturalEarthCountries } from './natural-earth.ts';
 const ROOT = join(import.meta.dirname, '../..');
 const DISTRICTS = join(ROOT, 'config/veloria-districts.geojson');
 const dir = mkdtempSync(join(tmpdir(), 'forelight-means-'));
-const forelight = (...args: string[]) => JSON.parse(execFileSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], { cwd: ROOT }).toString());
+const forelight = (...args: string[]) =>
+  JSON.parse(execFileSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], { cwd: ROOT }).toString());
 
 describe('forelight extract --regions vs numpy + shapely', () => {
-  const countries = { type: 'FeatureCollection', features: naturalEarthCountries().features.filter((f) => ['Fiji', 'New Zealand', 'Lesotho', 'South Africa'].includes(f.properties.name)) };
+  const countries = {
+    type: 'FeatureCollection',
+    features: naturalEarthCountries().features.filter((f) =>
+      ['Fiji', 'New Zealand', 'Lesotho', 'South Africa'].includes(f.properties.name),
+    ),
+  };
   const countriesFile = join(dir, 'countries.geojson');
   writeFileSync(countriesFile, JSON.stringify(countries));
   const nc = join(dir, 'tas.nc');
   const regions = [
-    ...(JSON.parse(execFileSync('cat', [DISTRICTS]).toString()).features as { properties: { code: string }; geometry: object }[]).map((f) => ({ id: regionIdOf(f.properties.code), geometry: f.geometry })),
+    ...(JSON.parse(execFileSync('cat', [DISTRICTS]).toString()).features as { properties: { code: string }; geometry: object }[]).map(
+      (f) => ({ id: regionIdOf(f.properties.code), geometry: f.geometry }),
+    ),
     ...countries.features.map((f) => ({ id: regionIdOf(f.properties.name), geometry: f.geometry })),
   ];
-  const ref = JSON.parse(execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'region_means_reference.py'), nc], { input: JSON.stringify({ regions }), cwd: import.meta.dirname }).toString()) as Record<string, number[]>;
+  const ref = JSON.parse(
+    execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'region_means_reference.py'), nc], {
+      input: JSON.stringify({ regions }),
+      cwd: import.meta.dirname,
+    }).toString(),
+  ) as Record<string, number[]>;
 
-  it.each([['sample districts', DISTRICTS, 'code'], ['Natural Earth countries', countriesFile, 'name']])('%s: every region, every day within 1e-4 relative', (_label, file, idProperty) => {
-    const got = forelight('extract', nc, '--var', 'tas', '--regions', file, '--id-property', idProperty, '--json') as { units: string; times: string[]; regions: Record<string, { members: number[][]; cells: number }>; problems: string[] };
+  it.each([
+    ['sample districts', DISTRICTS, 'code'],
+    ['Natural Earth countries', countriesFile, 'name'],
+  ])('%s: every region, every day within 1e-4 relative', (_label, file, idProperty) => {
+    const got = forelight('extract', nc, '--var', 'tas', '--regions', file, '--id-property', idProperty, '--json') as {
+      units: string;
+      times: string[];
+      regions: Record<string, { members: number[][]; cells: number }>;
+      problems: string[];
+    };
     expect(got.units).toBe('degC');
     expect(got.problems).toEqual([]);
     expect(got.times).toHaveLength(3);

@@ -10,10 +10,17 @@ import { describe, expect, it } from 'vitest';
 
 const ROOT = join(import.meta.dirname, '../..');
 const DISTRICTS = join(ROOT, 'config/veloria-districts.geojson');
-const run = (cacheDir: string, step: number) => JSON.parse(execFileSync(process.execPath, [join(ROOT, 'bin/run-ts.mjs'), join(import.meta.dirname, 'weights-child.ts'), cacheDir, DISTRICTS, String(step)], { cwd: ROOT }).toString()) as Record<string, number[]>;
+const run = (cacheDir: string, step: number) =>
+  JSON.parse(
+    execFileSync(
+      process.execPath,
+      [join(ROOT, 'bin/run-ts.mjs'), join(import.meta.dirname, 'weights-child.ts'), cacheDir, DISTRICTS, String(step)],
+      { cwd: ROOT },
+    ).toString(),
+  ) as Record<string, number[]>;
 
 describe('region weights cache (calibration.cache-dir/weights, keyed by sha256 of grid and region set)', () => {
-  it('a second run reuses the first run\'s file; a different grid gets its own file', () => {
+  it("a second run reuses the first run's file; a different grid gets its own file", () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-weights-'));
     const first = run(dir, 1);
     const files = readdirSync(join(dir, 'weights'));

@@ -16,32 +16,55 @@ const dir = mkdtempSync(join(tmpdir(), 'forelight-regions-'));
 
 beforeAll(async () => {
   if (!existsSync(join(ROOT, 'sample-inputs/data/manifest.json'))) await generateSample();
-  const main = readFileSync(join(ROOT, 'config/forelight.yaml'), 'utf8').replaceAll('../sample-inputs/', `${join(ROOT, 'sample-inputs')}/`).replaceAll('../templates', join(ROOT, 'templates'));
+  const main = readFileSync(join(ROOT, 'config/forelight.yaml'), 'utf8')
+    .replaceAll('../sample-inputs/', `${join(ROOT, 'sample-inputs')}/`)
+    .replaceAll('../templates', join(ROOT, 'templates'));
   writeFileSync(join(dir, 'forelight.yaml'), main);
   writeFileSync(join(dir, 'teams.yaml'), readFileSync(join(ROOT, 'config/teams.yaml')));
   // The sample's own regions (the rules name them) and, beside them, its district file.
-  writeFileSync(join(dir, 'regions.yaml'), `${readFileSync(join(ROOT, 'config/regions.yaml'), 'utf8')}
+  writeFileSync(
+    join(dir, 'regions.yaml'),
+    `${readFileSync(join(ROOT, 'config/regions.yaml'), 'utf8')}
 - boundaries: ${join(ROOT, 'config/veloria-districts.geojson')}
   id-property: code
   name-property: district
   time-zone: Africa/Lagos
   teams-by-property: { property: province, teams: { Kessan: [kessan-health], Marrow: [marrow-health], Tulva: [tulva-health], Orrin: [orrin-health] } }
-`);
+`,
+  );
 }, 120_000);
 
 describe('forelight regions', () => {
   it('prints cells and areas per source grid, warns about the district smaller than a cell, writes preview and map', () => {
     const out = join(dir, 'out');
-    const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), 'regions', '--config', join(dir, 'forelight.yaml'), '--out', out], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, FORELIGHT_LOG_LEVEL: 'error' } });
+    const r = spawnSync(
+      process.execPath,
+      [join(ROOT, 'bin/forelight.mjs'), 'regions', '--config', join(dir, 'forelight.yaml'), '--out', out],
+      { cwd: ROOT, encoding: 'utf8', env: { ...process.env, FORELIGHT_LOG_LEVEL: 'error' } },
+    );
     expect(r.stderr).not.toMatch(/problem:/);
     expect(r.status).toBe(0);
     for (const source of ['short', 'subseasonal', 'seasonal']) expect(r.stdout).toContain(`source ${source} (`);
     expect(r.stdout).toMatch(/\n {2}oc-02 +1 /); // Port Saly: one cell on every grid
     expect(r.stderr).toMatch(/warning: region 'oc-02' \([\d.]+ km²\) is much smaller than a grid cell of source seasonal/);
     expect(r.stderr).not.toMatch(/warning: region 'ks-01'/);
-    const preview = JSON.parse(readFileSync(join(out, 'seasonal.geojson'), 'utf8')) as { features: { properties: Record<string, unknown>; geometry: { type: string } }[] };
+    const preview = JSON.parse(readFileSync(join(out, 'seasonal.geojson'), 'utf8')) as {
+      features: { properties: Record<string, unknown>; geometry: { type: string } }[];
+    };
     const regions = preview.features.filter((f) => f.properties.kind === 'region');
-    expect(regions.map((f) => f.properties.id)).toEqual(['kessan-lowlands', 'marrow-highlands', 'tulva-delta', 'orrin-coast', 'ks-01', 'ks-02', 'ks-03', 'mh-01', 'td-01', 'oc-01', 'oc-02']);
+    expect(regions.map((f) => f.properties.id)).toEqual([
+      'kessan-lowlands',
+      'marrow-highlands',
+      'tulva-delta',
+      'orrin-coast',
+      'ks-01',
+      'ks-02',
+      'ks-03',
+      'mh-01',
+      'td-01',
+      'oc-01',
+      'oc-02',
+    ]);
     for (const id of regions.map((f) => f.properties.id)) {
       const cells = preview.features.filter((f) => f.properties.kind === 'cell' && f.properties.region === id);
       expect(cells.reduce((a, f) => a + (f.properties.weight as number), 0)).toBeCloseTo(1, 6);

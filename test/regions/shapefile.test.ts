@@ -20,7 +20,16 @@ const run = (cmd: string, args: string[]) => execFileSync(cmd, args, { cwd: dir 
 function ringSets(f: { geometry: RawFeature['geometry'] }): string[] {
   const g = featurePolygons(f.geometry);
   if ('problem' in g) throw new Error(g.problem);
-  return g.polygons.flat().map((ring) => ring.slice(1).map(([x, y]) => `${x.toFixed(9)},${y.toFixed(9)}`).sort().join(' ')).sort();
+  return g.polygons
+    .flat()
+    .map((ring) =>
+      ring
+        .slice(1)
+        .map(([x, y]) => `${x.toFixed(9)},${y.toFixed(9)}`)
+        .sort()
+        .join(' '),
+    )
+    .sort();
 }
 
 async function features(file: string): Promise<RawFeature[]> {
@@ -33,7 +42,9 @@ describe('shapefile boundaries vs GDAL', () => {
   it('same features, properties and rings as ogr2ogr converting the same .shp back to GeoJSON', async () => {
     run('ogr2ogr', ['-f', 'ESRI Shapefile', 'districts.shp', DISTRICTS]);
     const mine = await features(join(dir, 'districts.shp'));
-    const gdal = JSON.parse(run('ogr2ogr', ['-f', 'GeoJSON', '/vsistdout/', 'districts.shp'])) as { features: { properties: Record<string, unknown>; geometry: RawFeature['geometry'] }[] };
+    const gdal = JSON.parse(run('ogr2ogr', ['-f', 'GeoJSON', '/vsistdout/', 'districts.shp'])) as {
+      features: { properties: Record<string, unknown>; geometry: RawFeature['geometry'] }[];
+    };
     expect(mine.length).toBe(gdal.features.length);
     expect(mine.length).toBe(7);
     mine.forEach((f, i) => {
@@ -58,13 +69,21 @@ describe('shapefile boundaries vs GDAL', () => {
     const [cmd, ...args] = command!.split(' ');
     run(cmd, args);
     const back = await features(join(dir, 'utm-wgs84.shp'));
-    const original = (JSON.parse(execFileSync('ogr2ogr', ['-f', 'GeoJSON', '/vsistdout/', DISTRICTS]).toString()) as { features: { geometry: RawFeature['geometry'] }[] }).features;
+    const original = (
+      JSON.parse(execFileSync('ogr2ogr', ['-f', 'GeoJSON', '/vsistdout/', DISTRICTS]).toString()) as {
+        features: { geometry: RawFeature['geometry'] }[];
+      }
+    ).features;
     back.forEach((f, i) => {
       const a = featurePolygons(f.geometry);
       const b = featurePolygons(original[i].geometry);
       if ('problem' in a || 'problem' in b) throw new Error('invalid');
       // UTM round trip through PROJ: within 1e-6° (0.1 m), common practice, no source.
-      const flat = (p: typeof a.polygons) => p.flat(2).flat().sort((x, y) => x - y);
+      const flat = (p: typeof a.polygons) =>
+        p
+          .flat(2)
+          .flat()
+          .sort((x, y) => x - y);
       const [fa, fb] = [flat(a.polygons), flat(b.polygons)];
       expect(fa.length).toBe(fb.length);
       fa.forEach((v, k) => expect(Math.abs(v - fb[k])).toBeLessThan(1e-6));
@@ -75,6 +94,8 @@ describe('shapefile boundaries vs GDAL', () => {
     run('ogr2ogr', ['-f', 'ESRI Shapefile', 'noprj.shp', DISTRICTS]);
     rmSync(join(dir, 'noprj.prj'));
     const r = await readBoundaryFeatures(join(dir, 'noprj.shp'));
-    expect(r.ok ? '' : `${r.message} — ${r.fix}`).toMatch(/has no noprj\.prj, so its coordinate reference system is unknown — if it is longitude\/latitude on WGS 84, declare it: ogr2ogr -a_srs EPSG:4326 noprj-wgs84\.shp noprj\.shp/);
+    expect(r.ok ? '' : `${r.message} — ${r.fix}`).toMatch(
+      /has no noprj\.prj, so its coordinate reference system is unknown — if it is longitude\/latitude on WGS 84, declare it: ogr2ogr -a_srs EPSG:4326 noprj-wgs84\.shp noprj\.shp/,
+    );
   });
 });

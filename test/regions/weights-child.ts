@@ -5,11 +5,19 @@ import { regionSetCells } from '../../src/read/region-weights.ts';
 import { readFileSync } from 'node:fs';
 
 const [cacheDir, districts, step] = process.argv.slice(2);
-const fc = JSON.parse(readFileSync(districts, 'utf8')) as { features: { properties: { code: string }; geometry: { type: string; coordinates: unknown } }[] };
+const fc = JSON.parse(readFileSync(districts, 'utf8')) as {
+  features: { properties: { code: string }; geometry: { type: string; coordinates: unknown } }[];
+};
 const regions: RegionConfig[] = fc.features.map((f) => {
   const g = featurePolygons(f.geometry);
   if ('problem' in g) throw new Error(g.problem);
-  return { id: f.properties.code, name: f.properties.code, shape: { kind: 'multipolygon', polygons: g.polygons }, utcOffsetHours: 0, teams: [] };
+  return {
+    id: f.properties.code,
+    name: f.properties.code,
+    shape: { kind: 'multipolygon', polygons: g.polygons },
+    utcOffsetHours: 0,
+    teams: [],
+  };
 });
 const d = Number(step);
 const axis = (lo: number, n: number) => Float64Array.from({ length: n }, (_, i) => lo + d / 2 + i * d);

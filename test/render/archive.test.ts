@@ -21,7 +21,12 @@ let written: string[];
 beforeAll(async () => {
   rmSync(ARTIFACTS, { recursive: true, force: true });
   mkdirSync(ARTIFACTS, { recursive: true });
-  first = await renderBulletins(sampleConfig(), { ...sampleRun(), runId: '2026-11-26-a', issuedAt: '2026-11-26T06:30:00Z', nextIssue: '2026-11-30' });
+  first = await renderBulletins(sampleConfig(), {
+    ...sampleRun(),
+    runId: '2026-11-26-a',
+    issuedAt: '2026-11-26T06:30:00Z',
+    nextIssue: '2026-11-30',
+  });
   second = await renderBulletins(sampleConfig(), sampleRun());
   written = writeArchive(ARCHIVE, [first.archive, second.archive]);
 });
@@ -30,7 +35,12 @@ describe('writeArchive', () => {
   it('writes the index, one page per run, charts as SVG, CAP XML and run.json', () => {
     expect(written).toContain('index.html');
     for (const run of ['2026-11-26-a', '2026-11-30-a']) {
-      for (const f of ['index.html', 'run.json', 'charts/kessan-lowlands-tmax-3day.svg', 'cap/forelight.' + run + '.kessan-lowlands.tmax-3day.xml']) {
+      for (const f of [
+        'index.html',
+        'run.json',
+        'charts/kessan-lowlands-tmax-3day.svg',
+        'cap/forelight.' + run + '.kessan-lowlands.tmax-3day.xml',
+      ]) {
         expect(existsSync(join(ARCHIVE, run, f)), `${run}/${f}`).toBe(true);
       }
     }
@@ -39,7 +49,8 @@ describe('writeArchive', () => {
   it('index lists runs newest first; per run each region with stage (glyph + label), the hazard that drove it and its dates', () => {
     const index = readFileSync(join(ARCHIVE, 'index.html'), 'utf8').replace(/[\u00a0\u2009\u202f]/g, ' ');
     expect(index.indexOf('2026-11-30-a/index.html')).toBeLessThan(index.indexOf('2026-11-26-a/index.html'));
-    const kessanRow = /<th scope="row"[^>]*>Kessan Lowlands<\/th>\s*<td[^>]*><span[^>]*>◑ Brace<\/span><\/td>\s*<td[^>]*>Hot days \(3-day average of daily highs\)<\/td>\s*<td[^>]*>3 – 5 Dec<\/td>/;
+    const kessanRow =
+      /<th scope="row"[^>]*>Kessan Lowlands<\/th>\s*<td[^>]*><span[^>]*>◑ Brace<\/span><\/td>\s*<td[^>]*>Hot days \(3-day average of daily highs\)<\/td>\s*<td[^>]*>3 – 5 Dec<\/td>/;
     expect(index).toMatch(kessanRow);
     expect(index).toMatch(/<th scope="row"[^>]*>Orrin Coast<\/th>\s*<td[^>]*><span[^>]*>○ Quiet<\/span><\/td>\s*<td[^>]*>—<\/td>/);
     expect(index).not.toMatch(/<script|https?:\/\//);
@@ -86,7 +97,16 @@ describe('in headless Chromium', () => {
   beforeAll(async () => {
     browser = await chromium.launch({
       executablePath: '/usr/bin/chromium',
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-dev-shm-usage',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
     });
   });
   afterAll(async () => {
@@ -96,7 +116,9 @@ describe('in headless Chromium', () => {
   async function open(file: string, shot: string): Promise<{ page: Page; errors: string[] }> {
     const page = await browser.newPage({ viewport: { width: 820, height: 1100 } });
     const errors: string[] = [];
-    page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+    page.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
     page.on('pageerror', (e) => errors.push(e.message));
     page.on('requestfailed', (r) => errors.push(`failed: ${r.url()}`));
     await page.goto(pathToFileURL(file).href, { waitUntil: 'load' });
@@ -127,7 +149,8 @@ describe('in headless Chromium', () => {
   it('team e-mail (cid: images swapped for data: URLs): no console errors, no broken images, labels visible', async () => {
     const b = second.bulletins.find((x) => x.team === 'kessan-health')!;
     let html = b.html;
-    for (const a of b.attachments) html = html.replaceAll(`cid:${a.cid}`, `data:${a.contentType};base64,${Buffer.from(a.content).toString('base64')}`);
+    for (const a of b.attachments)
+      html = html.replaceAll(`cid:${a.cid}`, `data:${a.contentType};base64,${Buffer.from(a.content).toString('base64')}`);
     const file = join(ARTIFACTS, 'email-kessan-health.html');
     writeFileSync(file, html);
     const { page, errors } = await open(file, 'email-kessan-health.png');
@@ -140,7 +163,8 @@ describe('in headless Chromium', () => {
   it('French team e-mail renders too', async () => {
     const b = second.bulletins.find((x) => x.team === 'tulva-health')!;
     let html = b.html;
-    for (const a of b.attachments) html = html.replaceAll(`cid:${a.cid}`, `data:${a.contentType};base64,${Buffer.from(a.content).toString('base64')}`);
+    for (const a of b.attachments)
+      html = html.replaceAll(`cid:${a.cid}`, `data:${a.contentType};base64,${Buffer.from(a.content).toString('base64')}`);
     const file = join(ARTIFACTS, 'email-tulva-health.html');
     writeFileSync(file, html);
     const { page, errors } = await open(file, 'email-tulva-health.png');

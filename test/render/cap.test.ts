@@ -35,7 +35,9 @@ beforeAll(async () => {
 describe('CAP 1.2 alerts of the sample run', () => {
   it('one alert per region × indicator above the lowest stage (Kessan heat, Marrow heat, Tulva malaria)', () => {
     expect(alerts.map((a) => `${a.region}/${a.indicator}/${a.msgType}`)).toEqual([
-      'kessan-lowlands/tmax-3day/Alert', 'marrow-highlands/tmax-3day/Alert', 'tulva-delta/malaria-pf/Alert',
+      'kessan-lowlands/tmax-3day/Alert',
+      'marrow-highlands/tmax-3day/Alert',
+      'tulva-delta/malaria-pf/Alert',
     ]);
   });
 
@@ -94,17 +96,35 @@ describe('CAP 1.2 alerts of the sample run', () => {
     const previous: PreviousIssue = {
       runId: '2026-11-26-a',
       alerts: [
-        { region: 'kessan-lowlands', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'forelight.2026-11-26-a.kessan-lowlands.tmax-3day', sent: '2026-11-26T06:30:00-00:00', stageId: 'mindful' },
-        { region: 'orrin-coast', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'forelight.2026-11-26-a.orrin-coast.tmax-3day', sent: '2026-11-26T06:30:00-00:00', stageId: 'mindful' },
+        {
+          region: 'kessan-lowlands',
+          indicator: 'tmax-3day',
+          sender: 'forelight@health.veloria.example',
+          id: 'forelight.2026-11-26-a.kessan-lowlands.tmax-3day',
+          sent: '2026-11-26T06:30:00-00:00',
+          stageId: 'mindful',
+        },
+        {
+          region: 'orrin-coast',
+          indicator: 'tmax-3day',
+          sender: 'forelight@health.veloria.example',
+          id: 'forelight.2026-11-26-a.orrin-coast.tmax-3day',
+          sent: '2026-11-26T06:30:00-00:00',
+          stageId: 'mindful',
+        },
       ],
     };
     const capAlerts = buildCapAlerts(sampleConfig(), createTemplateEnv(''), sampleRun(), previous);
     const kessan = capAlerts.find((a) => a.region === 'kessan-lowlands')!;
     const orrin = capAlerts.find((a) => a.region === 'orrin-coast')!;
     expect(kessan.msgType).toBe('Update');
-    expect(kessan.xml).toContain('<references>forelight@health.veloria.example,forelight.2026-11-26-a.kessan-lowlands.tmax-3day,2026-11-26T06:30:00-00:00</references>');
+    expect(kessan.xml).toContain(
+      '<references>forelight@health.veloria.example,forelight.2026-11-26-a.kessan-lowlands.tmax-3day,2026-11-26T06:30:00-00:00</references>',
+    );
     expect(orrin.msgType).toBe('Cancel');
-    expect(orrin.xml).toContain('<references>forelight@health.veloria.example,forelight.2026-11-26-a.orrin-coast.tmax-3day,2026-11-26T06:30:00-00:00</references>');
+    expect(orrin.xml).toContain(
+      '<references>forelight@health.veloria.example,forelight.2026-11-26-a.orrin-coast.tmax-3day,2026-11-26T06:30:00-00:00</references>',
+    );
     expect(xmllint(capAlerts.map((a) => save(`prev-${a.id}.xml`, a.xml))).status).toBe(0);
   });
 
@@ -112,8 +132,22 @@ describe('CAP 1.2 alerts of the sample run', () => {
     const cancelled: PreviousIssue = {
       runId: '2026-11-26-a',
       alerts: [
-        { region: 'kessan-lowlands', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'x.kessan', sent: '2026-11-26T06:30:00-00:00', stageId: 'quiet' },
-        { region: 'orrin-coast', indicator: 'tmax-3day', sender: 'forelight@health.veloria.example', id: 'x.orrin', sent: '2026-11-26T06:30:00-00:00', stageId: 'quiet' },
+        {
+          region: 'kessan-lowlands',
+          indicator: 'tmax-3day',
+          sender: 'forelight@health.veloria.example',
+          id: 'x.kessan',
+          sent: '2026-11-26T06:30:00-00:00',
+          stageId: 'quiet',
+        },
+        {
+          region: 'orrin-coast',
+          indicator: 'tmax-3day',
+          sender: 'forelight@health.veloria.example',
+          id: 'x.orrin',
+          sent: '2026-11-26T06:30:00-00:00',
+          stageId: 'quiet',
+        },
       ],
     };
     const capAlerts = buildCapAlerts(sampleConfig(), createTemplateEnv(''), sampleRun(), cancelled);
@@ -147,9 +181,42 @@ describe('CAP field helpers', () => {
 
   it('polygons put latitude first and close the ring; the Marrow box crossing 0° keeps its signs', () => {
     expect(capPolygons(sampleRegions[1])).toEqual(['-9,-1.5 -6.5,-1.5 -6.5,1.5 -9,1.5 -9,-1.5']);
-    const open = { ...sampleRegions[2], shape: { kind: 'polygon' as const, ring: [[0.5, -13.5], [3.5, -13.5], [2, -10.5]] as const } };
+    const open = {
+      ...sampleRegions[2],
+      shape: {
+        kind: 'polygon' as const,
+        ring: [
+          [0.5, -13.5],
+          [3.5, -13.5],
+          [2, -10.5],
+        ] as const,
+      },
+    };
     expect(capPolygons(open)).toEqual(['-13.5,0.5 -13.5,3.5 -10.5,2 -13.5,0.5']);
-    const islands = { ...sampleRegions[2], shape: { kind: 'multipolygon' as const, polygons: [[[[179, -1], [181, -1], [181, 1], [179, -1]] as const], [[[10, 0], [11, 0], [11, 1], [10, 0]] as const]] } };
+    const islands = {
+      ...sampleRegions[2],
+      shape: {
+        kind: 'multipolygon' as const,
+        polygons: [
+          [
+            [
+              [179, -1],
+              [181, -1],
+              [181, 1],
+              [179, -1],
+            ] as const,
+          ],
+          [
+            [
+              [10, 0],
+              [11, 0],
+              [11, 1],
+              [10, 0],
+            ] as const,
+          ],
+        ],
+      },
+    };
     expect(capPolygons(islands)).toEqual(['-1,179 -1,-179 1,-179 -1,179', '0,10 0,11 1,11 0,10']);
   });
 });

@@ -7,7 +7,7 @@ import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
 const words: ChartWords = {
-  hazard: (id) => ({ 'tmax-3day': '3-day mean maximum temperature' } as Record<string, string>)[id] ?? id,
+  hazard: (id) => (({ 'tmax-3day': '3-day mean maximum temperature' }) as Record<string, string>)[id] ?? id,
   title: (region, indicator) => `${region} — ${indicator}`,
   description: (region, indicator, panels) => `${region} ${indicator}: ${panels.map((p) => p.title).join(', ')}`,
   tier: (tier) => tier,
@@ -30,7 +30,10 @@ describe('charts', () => {
     expect(glyphs(0)).toBe('○○◑◑◑○○');
     // Weeks rules only look at weeks 2–3: week 1 (0.56) stays ○, week 2 (0.44) is ◔; their lines span weeks 2–3 only.
     expect(glyphs(1)).toBe('○◔○○');
-    expect(heat.panels[1].lines.map((l) => [l.first, l.last])).toEqual([[2, 3], [2, 3]]);
+    expect(heat.panels[1].lines.map((l) => [l.first, l.last])).toEqual([
+      [2, 3],
+      [2, 3],
+    ]);
     expect(heat.panels[1].points.map((p) => p.noSkill)).toEqual([false, false, true, true]);
   });
 
@@ -85,8 +88,12 @@ describe('chart axes (d3-scale nice ticks, d3-time date ticks)', () => {
     expect(ticks.length).toBeGreaterThan(2);
     expect(ticks[0].label).toMatch(/Nov|Dec/);
     expect(ticks.some((t) => t.label === '1 Dec')).toBe(true);
-    ticks.forEach((t, i) => { if (i > 0) expect(t.x - t.width / 2).toBeGreaterThan(ticks[i - 1].x + ticks[i - 1].width / 2); });
-    const months = dateTicks('fr', new Date('2026-12-01T00:00:00Z'), new Date('2027-03-01T00:00:00Z'), 34, 282, 11, 2, 358).ticks.map((t) => t.label);
+    ticks.forEach((t, i) => {
+      if (i > 0) expect(t.x - t.width / 2).toBeGreaterThan(ticks[i - 1].x + ticks[i - 1].width / 2);
+    });
+    const months = dateTicks('fr', new Date('2026-12-01T00:00:00Z'), new Date('2027-03-01T00:00:00Z'), 34, 282, 11, 2, 358).ticks.map(
+      (t) => t.label,
+    );
     expect(months).toEqual(['déc. 2026', 'janv. 2027', 'févr.', 'mars']);
   });
 });

@@ -13,14 +13,24 @@ import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
 const catalogue = loadCatalogue();
-const locales = readdirSync(SHIPPED_MESSAGES).filter((f) => f.endsWith('.yaml')).map((f) => f.slice(0, -5));
+const locales = readdirSync(SHIPPED_MESSAGES)
+  .filter((f) => f.endsWith('.yaml'))
+  .map((f) => f.slice(0, -5));
 
 /** English words that never belong in French prose (common practice, no source: a stop-word list). */
-const ENGLISH = /\b(the|and|of|with|for|above|below|normal year|threshold|forecast|days?|weeks?|months?|skill|hindcasts?|issued|next|stage|percentile|based|run|what|team|should|heat|malaria|outlook|Republic|past|cases|unlikely|likely)\b/i;
+const ENGLISH =
+  /\b(the|and|of|with|for|above|below|normal year|threshold|forecast|days?|weeks?|months?|skill|hindcasts?|issued|next|stage|percentile|based|run|what|team|should|heat|malaria|outlook|Republic|past|cases|unlikely|likely)\b/i;
 
 /** Visible text of an HTML document: tags dropped, entities decoded. */
 function visibleText(html: string): string {
-  return html.replace(/<(style|script)[\s\S]*?<\/\1>/g, ' ').replace(/<[^>]+>/g, ' ').replace(/&#39;/g, "'").replace(/&quot;/g, '"').replace(/&amp;/g, '&').replace(/&lt;/g, '<').replace(/&gt;/g, '>');
+  return html
+    .replace(/<(style|script)[\s\S]*?<\/\1>/g, ' ')
+    .replace(/<[^>]+>/g, ' ')
+    .replace(/&#39;/g, "'")
+    .replace(/&quot;/g, '"')
+    .replace(/&amp;/g, '&')
+    .replace(/&lt;/g, '<')
+    .replace(/&gt;/g, '>');
 }
 
 /** Names that stay as written in every language (proper names from the YAML, file names, the product). */
@@ -29,7 +39,9 @@ function withoutNames(text: string): string {
 }
 
 function englishIn(text: string): string[] {
-  return withoutNames(text).split(/(?<=[.!?])\s+|\n/).filter((sentence) => ENGLISH.test(sentence));
+  return withoutNames(text)
+    .split(/(?<=[.!?])\s+|\n/)
+    .filter((sentence) => ENGLISH.test(sentence));
 }
 
 describe('message catalogues', () => {
@@ -43,15 +55,23 @@ describe('message catalogues', () => {
 
   it('every key the templates and the render code name exists in every catalogue, and every message parses', () => {
     const sources = [
-      ...readdirSync(SHIPPED_TEMPLATES).filter((f) => f.endsWith('.njk')).map((f) => readFileSync(join(SHIPPED_TEMPLATES, f), 'utf8')),
-      ...readdirSync(new URL('../../src/render/', import.meta.url)).filter((f) => f.endsWith('.ts')).map((f) => readFileSync(new URL(`../../src/render/${f}`, import.meta.url), 'utf8')),
+      ...readdirSync(SHIPPED_TEMPLATES)
+        .filter((f) => f.endsWith('.njk'))
+        .map((f) => readFileSync(join(SHIPPED_TEMPLATES, f), 'utf8')),
+      ...readdirSync(new URL('../../src/render/', import.meta.url))
+        .filter((f) => f.endsWith('.ts'))
+        .map((f) => readFileSync(new URL(`../../src/render/${f}`, import.meta.url), 'utf8')),
     ];
     const used = new Set(sources.flatMap((s) => [...s.matchAll(/\bt\('([a-z][\w-]*\.[\w.-]*\w)'/g)].map((m) => m[1])));
     expect(used.size).toBeGreaterThan(40);
     for (const l of locales) {
       const have = new Set(catalogue.keys(l));
-      expect([...used].filter((k) => !have.has(k)), l).toEqual([]);
-      for (const k of catalogue.keys(l)) expect(() => catalogue.forLocale(l)(k, { days: 3, count: 2, cases: 20 }), `${l} ${k}`).not.toThrow();
+      expect(
+        [...used].filter((k) => !have.has(k)),
+        l,
+      ).toEqual([]);
+      for (const k of catalogue.keys(l))
+        expect(() => catalogue.forLocale(l)(k, { days: 3, count: 2, cases: 20 }), `${l} ${k}`).not.toThrow();
     }
   });
 
@@ -71,7 +91,13 @@ describe('a French rendering has no English and French typography', () => {
   beforeAll(async () => {
     const cfg = sampleConfig();
     // Every team in French, the national desk too, so the national summary and the archive are French as well.
-    fr = await renderBulletins({ ...cfg, teams: cfg.teams.map((t) => ({ ...t, locale: 'fr', name: t.national ? 'Bureau national climat et santé' : 'Équipe sanitaire' })) }, sampleRun());
+    fr = await renderBulletins(
+      {
+        ...cfg,
+        teams: cfg.teams.map((t) => ({ ...t, locale: 'fr', name: t.national ? 'Bureau national climat et santé' : 'Équipe sanitaire' })),
+      },
+      sampleRun(),
+    );
   });
 
   it('the English detector itself flags English (so the next test can fail)', () => {
@@ -79,11 +105,20 @@ describe('a French rendering has no English and French typography', () => {
   });
 
   it('e-mails (HTML and text), the archive page and the CAP French info blocks', () => {
-    const texts: [string, string][] = fr.bulletins.flatMap((b) => [[`${b.team} text`, b.text], [`${b.team} html`, visibleText(b.html)], [`${b.team} subject`, b.subject]] as [string, string][]);
+    const texts: [string, string][] = fr.bulletins.flatMap(
+      (b) =>
+        [
+          [`${b.team} text`, b.text],
+          [`${b.team} html`, visibleText(b.html)],
+          [`${b.team} subject`, b.subject],
+        ] as [string, string][],
+    );
     texts.push(['archive', visibleText(fr.archive.bodyHtml)]);
     for (const a of fr.capAlerts) {
       for (const info of a.xml.match(/<info><language>fr<\/language>[\s\S]*?<\/info>/g) ?? []) {
-        const fields = [...info.matchAll(/<(event|headline|description|instruction|audience|senderName)>([^<]*)</g)].map((m) => m[2]).join('\n');
+        const fields = [...info.matchAll(/<(event|headline|description|instruction|audience|senderName)>([^<]*)</g)]
+          .map((m) => m[2])
+          .join('\n');
         texts.push([`cap ${a.id}`, fields]);
       }
     }
@@ -111,6 +146,8 @@ describe('a French rendering has no English and French typography', () => {
     expect(t('header.for', { team: 'Équipe sanitaire du delta de Tulva' })).toBe('Destinataire\u00a0: Équipe sanitaire du delta de Tulva');
     expect(t('cautions.short', { count: 1 })).toContain('la précaution');
     expect(t('cautions.short', { count: 5 })).toContain('les 5\u00a0précautions'.replace('\u00a0', ' '));
-    expect(t('header.issued', { issued: '30 nov. 2026', next: '3 déc. 2026' })).toBe('Émis le 30 nov. 2026 · prochain bulletin le 3 déc. 2026');
+    expect(t('header.issued', { issued: '30 nov. 2026', next: '3 déc. 2026' })).toBe(
+      'Émis le 30 nov. 2026 · prochain bulletin le 3 déc. 2026',
+    );
   });
 });

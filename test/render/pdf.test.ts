@@ -13,7 +13,10 @@ import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'forelight-pdf-'));
-const withPdf = (chromium: string | null) => { const c = sampleConfig(); return { ...c, delivery: { ...c.delivery, pdfChromium: chromium } }; };
+const withPdf = (chromium: string | null) => {
+  const c = sampleConfig();
+  return { ...c, delivery: { ...c.delivery, pdfChromium: chromium } };
+};
 /** Size budget of one PDF (inside the 300 kB e-mail budget; common practice, no source). */
 const PDF_BUDGET = 150 * 1024;
 
@@ -32,7 +35,8 @@ function pdfOf(team: string): string {
 }
 
 const info = (file: string) => spawnSync('pdfinfo', [file], { encoding: 'utf8' }).stdout;
-const text = (file: string) => spawnSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' }).stdout.replace(/[\u00a0\u2009\u202f]/g, ' ');
+const text = (file: string) =>
+  spawnSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' }).stdout.replace(/[\u00a0\u2009\u202f]/g, ' ');
 
 describe('PDF per bulletin (Chromium → pdfinfo / pdftotext)', () => {
   it('every team bulletin is one A4 page within the size budget; the national summary at most three pages', () => {
@@ -49,7 +53,15 @@ describe('PDF per bulletin (Chromium → pdfinfo / pdftotext)', () => {
 
   it('the page carries stage glyph and label, hazard, dates, chance, action and every caution as text', () => {
     const k = text(pdfOf('kessan-health')).replace(/\s+/g, ' ');
-    for (const s of ['◑ Brace', 'Hot days', 'When: 3 – 5 Dec', '70% chance', 'Alert clinics and community health workers', 'Stage for this range: ◑ Brace']) expect(k).toContain(s);
+    for (const s of [
+      '◑ Brace',
+      'Hot days',
+      'When: 3 – 5 Dec',
+      '70% chance',
+      'Alert clinics and community health workers',
+      'Stage for this range: ◑ Brace',
+    ])
+      expect(k).toContain(s);
     for (const c of sampleConfig().cautions.en) expect(k).toContain(c.split(' ').slice(0, 6).join(' '));
     const f = text(pdfOf('tulva-health')).replace(/\s+/g, ' ');
     expect(f).toContain('◔ Vigilant');

@@ -16,7 +16,10 @@ import { sampleRun } from './fixtures/sample-run.ts';
 
 const OUT = resolve(dirname(fileURLToPath(import.meta.url)), '../../test-artifacts/phone');
 const ARCHIVE = join(OUT, 'archive');
-const VIEWPORTS = [{ width: 390, height: 844 }, { width: 1280, height: 800 }];
+const VIEWPORTS = [
+  { width: 390, height: 844 },
+  { width: 1280, height: 800 },
+];
 /** E-mail size budget per bulletin (HTML + text + attachments), stated in README (common practice, no source). */
 const BUDGET_BYTES = EMAIL_BUDGET_BYTES;
 
@@ -27,7 +30,12 @@ const pages: { name: string; file: string; team: boolean }[] = [];
 beforeAll(async () => {
   rmSync(OUT, { recursive: true, force: true });
   mkdirSync(OUT, { recursive: true });
-  const first = await renderBulletins(sampleConfig(), { ...sampleRun(), runId: '2026-11-26-a', issuedAt: '2026-11-26T06:30:00Z', nextIssue: '2026-11-30' });
+  const first = await renderBulletins(sampleConfig(), {
+    ...sampleRun(),
+    runId: '2026-11-26-a',
+    issuedAt: '2026-11-26T06:30:00Z',
+    nextIssue: '2026-11-30',
+  });
   run = await renderBulletins(sampleConfig(), sampleRun());
   writeArchive(ARCHIVE, [first.archive, run.archive]);
   for (const b of run.bulletins) {
@@ -37,10 +45,20 @@ beforeAll(async () => {
   }
   pages.push({ name: 'archive-index', file: join(ARCHIVE, 'index.html'), team: false });
   pages.push({ name: 'archive-run', file: join(ARCHIVE, '2026-11-30-a', 'index.html'), team: false });
-  for (const f of readdirSync(join(ARCHIVE, 'regions')).filter((x) => x.endsWith('.html'))) pages.push({ name: `archive-region-${f.replace('.html', '')}`, file: join(ARCHIVE, 'regions', f), team: false });
+  for (const f of readdirSync(join(ARCHIVE, 'regions')).filter((x) => x.endsWith('.html')))
+    pages.push({ name: `archive-region-${f.replace('.html', '')}`, file: join(ARCHIVE, 'regions', f), team: false });
   browser = await chromium.launch({
     executablePath: '/usr/bin/chromium',
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-dev-shm-usage',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+    ],
   });
 }, 120_000);
 
@@ -63,7 +81,8 @@ describe.each(VIEWPORTS)('at $width × $height', (viewport) => {
           const el = await page.$(`[data-role~="${role}"]`);
           const box = el ? await el.boundingBox() : null;
           if (!box) problems.push(`${p.name}: no ${role}`);
-          else if (box.y + box.height > viewport.height) problems.push(`${p.name}: ${role} ends at ${Math.round(box.y + box.height)} px, below ${viewport.height}`);
+          else if (box.y + box.height > viewport.height)
+            problems.push(`${p.name}: ${role} ends at ${Math.round(box.y + box.height)} px, below ${viewport.height}`);
         }
       }
       await page.screenshot({ path: join(OUT, `${p.name}-${viewport.width}-first-screen.png`) });
@@ -91,16 +110,20 @@ describe('charts in Chromium', () => {
     const page = await browser.newPage({ viewport: { width: 400, height: 900 } });
     const svgs = [
       ...readdirSync(join(ARCHIVE, '2026-11-30-a', 'charts')).map((f) => join(ARCHIVE, '2026-11-30-a', 'charts', f)),
-      ...readdirSync(join(ARCHIVE, 'regions')).filter((f) => f.endsWith('.svg')).map((f) => join(ARCHIVE, 'regions', f)),
+      ...readdirSync(join(ARCHIVE, 'regions'))
+        .filter((f) => f.endsWith('.svg'))
+        .map((f) => join(ARCHIVE, 'regions', f)),
     ];
     expect(svgs.length).toBeGreaterThan(6);
     const overlaps: string[] = [];
     for (const file of svgs) {
       await page.goto(pathToFileURL(file).href);
-      const boxes = await page.$$eval('text.tick, text.legend', (els) => els.map((e) => {
-        const r = e.getBoundingClientRect();
-        return { t: e.textContent ?? '', x: r.left, y: r.top, w: r.width, h: r.height, right: r.right };
-      }));
+      const boxes = await page.$$eval('text.tick, text.legend', (els) =>
+        els.map((e) => {
+          const r = e.getBoundingClientRect();
+          return { t: e.textContent ?? '', x: r.left, y: r.top, w: r.width, h: r.height, right: r.right };
+        }),
+      );
       const width = await page.evaluate(() => document.documentElement.getBoundingClientRect().width);
       for (const [i, a] of boxes.entries()) {
         if (a.x < -0.5 || a.right > Math.max(width, 360) + 0.5) overlaps.push(`${file}: "${a.t}" outside the drawing`);

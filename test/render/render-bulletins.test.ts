@@ -22,20 +22,27 @@ beforeAll(async () => {
 describe('renderBulletins on the sample run', () => {
   it('one bulletin per team, in the team locale, addressed to its recipients', () => {
     expect(out.bulletins.map((b) => `${b.team}:${b.locale}`)).toEqual([
-      'kessan-health:en', 'marrow-health:en', 'tulva-health:fr', 'orrin-health:en', 'national-desk:en',
+      'kessan-health:en',
+      'marrow-health:en',
+      'tulva-health:fr',
+      'orrin-health:en',
+      'national-desk:en',
     ]);
     expect(byTeam('national-desk').to).toEqual(['desk@health.veloria.example', 'epidemiology@health.veloria.example']);
   });
 
   it('subjects name the date and each region stage with label and glyph', () => {
     expect(byTeam('kessan-health').subject).toBe('Republic of Veloria heat and malaria outlook, 30 Nov 2026 — Kessan Lowlands: Brace ◑');
-    expect(byTeam('tulva-health').subject.replace(/[\u00a0\u202f]/g, ' ')).toBe('République de Veloria — perspectives chaleur et paludisme, 30 nov. 2026 — Tulva Delta : Vigilant ◔');
+    expect(byTeam('tulva-health').subject.replace(/[\u00a0\u202f]/g, ' ')).toBe(
+      'République de Veloria — perspectives chaleur et paludisme, 30 nov. 2026 — Tulva Delta : Vigilant ◔',
+    );
     expect(byTeam('national-desk').subject).toBe('Republic of Veloria heat and malaria summary, 30 Nov 2026 — Brace ◑: Kessan Lowlands');
   });
 
   it('team bulletins cover only their regions; the national summary covers all four', () => {
     expect(byTeam('kessan-health').text).not.toContain('MARROW HIGHLANDS');
-    for (const name of ['KESSAN LOWLANDS', 'MARROW HIGHLANDS', 'TULVA DELTA', 'ORRIN COAST']) expect(byTeam('national-desk').text).toContain(name);
+    for (const name of ['KESSAN LOWLANDS', 'MARROW HIGHLANDS', 'TULVA DELTA', 'ORRIN COAST'])
+      expect(byTeam('national-desk').text).toContain(name);
   });
 
   it('every bulletin carries every caution of its locale, in HTML and text', () => {
@@ -56,10 +63,21 @@ describe('renderBulletins on the sample run', () => {
 
   it('first screen: hazard in plain words with its threshold, dates, chance against the normal year with the configured word, how sure', () => {
     const k = plain('kessan-health');
-    expect(k).toContain('Hot days (3-day average of daily highs), above 34.2 °C\nWhen: 3 – 5 Dec\nHow likely: 70% chance, likely (in a normal year 10%), highest on Fri 4 Dec\nHow sure: Fairly sure');
+    expect(k).toContain(
+      'Hot days (3-day average of daily highs), above 34.2 °C\nWhen: 3 – 5 Dec\nHow likely: 70% chance, likely (in a normal year 10%), highest on Fri 4 Dec\nHow sure: Fairly sure',
+    );
     expect(plain('tulva-health')).toContain('Probabilité : 68 % de probabilité, probable (une année normale : 30 %)');
     // Order of the first screen (issue: stage, hazard and dates, how likely, how sure, action, what changed, outlook).
-    const order = ['==== KESSAN LOWLANDS: ◑ Brace', 'Hot days', 'When:', 'How likely:', 'How sure:', 'What your team should do now:', 'Since the last bulletin:', 'Outlook'].map((x) => k.indexOf(x));
+    const order = [
+      '==== KESSAN LOWLANDS: ◑ Brace',
+      'Hot days',
+      'When:',
+      'How likely:',
+      'How sure:',
+      'What your team should do now:',
+      'Since the last bulletin:',
+      'Outlook',
+    ].map((x) => k.indexOf(x));
     expect(order.every((v, i) => v >= 0 && (i === 0 || v > order[i - 1]))).toBe(true);
   });
 
@@ -85,7 +103,9 @@ describe('renderBulletins on the sample run', () => {
       expect(body, team).not.toMatch(/\btiers?\b|hindcast|quantile|degC|percentile|Rothfusz|lead (day|week|month)|ROC/i);
       expect(note).toMatch(/90th percentile of the model's own climate \(hindcasts/);
     }
-    expect(plain('kessan-health')).toContain('Skill over 20 past years: fair Brier skill score 0.23 to 0.43; a lead raises a stage only when the lower end of the 90 % interval');
+    expect(plain('kessan-health')).toContain(
+      'Skill over 20 past years: fair Brier skill score 0.23 to 0.43; a lead raises a stage only when the lower end of the 90 % interval',
+    );
   });
 
   it('says plainly when a range has no demonstrated skill, and when skill is a model-only estimate', () => {
@@ -96,14 +116,18 @@ describe('renderBulletins on the sample run', () => {
   });
 
   it('uses the team-specific actions when configured, else the default', () => {
-    expect(byTeam('tulva-health').text).toContain('Revoir les plans, vérifier les stocks de moustiquaires et de tests rapides dans le delta.');
+    expect(byTeam('tulva-health').text).toContain(
+      'Revoir les plans, vérifier les stocks de moustiquaires et de tests rapides dans le delta.',
+    );
     expect(byTeam('kessan-health').text).toContain('Alert clinics and community health workers');
     expect(byTeam('national-desk').text).toContain('Inform the ministry duty officer');
   });
 
   it('says what changed and why, which forecasts were used (late source flagged) and the next issue date', () => {
     const t = plain('kessan-health');
-    expect(t).toContain('Since the last bulletin: Raised from ◔ Mindful to ◑ Brace. Hot days (3-day average of daily highs) over the next days: 70% chance for Fri 4 Dec, against 10% in a normal year.');
+    expect(t).toContain(
+      'Since the last bulletin: Raised from ◔ Mindful to ◑ Brace. Hot days (3-day average of daily highs) over the next days: 70% chance for Fri 4 Dec, against 10% in a normal year.',
+    );
     expect(t).toContain('Sub-seasonal forecast: the newer forecast was late, so this bulletin is based on the forecast of 26 Nov 2026');
     expect(t).toContain('Short-range forecast: forecast of 30 Nov 2026');
     expect(t).toContain('Next bulletin: 3 Dec 2026.');
@@ -186,7 +210,11 @@ describe('hostile names from YAML', () => {
 
   it('rejects a recipient address carrying extra header lines', async () => {
     const cfg = sampleConfig();
-    const teams = cfg.teams.map((t) => (t.id === 'orrin-health' ? { ...t, recipients: ['alerts@orrin.health.veloria.example\r\nBcc: x@y.example'] } : t));
-    await expect(renderBulletins({ ...cfg, teams }, sampleRun())).rejects.toThrow(/team "orrin-health" recipient .* is not a single e-mail address/);
+    const teams = cfg.teams.map((t) =>
+      t.id === 'orrin-health' ? { ...t, recipients: ['alerts@orrin.health.veloria.example\r\nBcc: x@y.example'] } : t,
+    );
+    await expect(renderBulletins({ ...cfg, teams }, sampleRun())).rejects.toThrow(
+      /team "orrin-health" recipient .* is not a single e-mail address/,
+    );
   });
 });

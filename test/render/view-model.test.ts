@@ -9,7 +9,13 @@ import { sampleConfig, sampleStages } from './fixtures/sample-config.ts';
 
 describe('probabilityWord (config.probabilityWords, first band with p < below)', () => {
   const cfg = sampleConfig();
-  it.each([[0, 'very unlikely'], [0.1, 'unlikely'], [0.5, 'about an even chance'], [0.65, 'likely'], [1, 'very likely']])('p=%s → %s', (p, word) => {
+  it.each([
+    [0, 'very unlikely'],
+    [0.1, 'unlikely'],
+    [0.5, 'about an even chance'],
+    [0.65, 'likely'],
+    [1, 'very likely'],
+  ])('p=%s → %s', (p, word) => {
     expect(probabilityWord(cfg, p, 'en')).toBe(word);
   });
   it('NaN gets a dash, never the top word', () => {
@@ -61,15 +67,29 @@ describe('how sure: wording from the skill gate figures only', () => {
   const lead = (s: ReturnType<typeof skillSummary>) => {
     const level = sureLevel(s);
     const pooled = s.basis === 'observed';
-    return { sure: level, potential: !pooled, years: pooled ? s.gate.years : s.years, events: pooled ? s.gate.events : s.events, score: '0.25', low: pooled ? '0.10' : '', high: pooled ? '0.40' : '' };
+    return {
+      sure: level,
+      potential: !pooled,
+      years: pooled ? s.gate.years : s.years,
+      events: pooled ? s.gate.events : s.events,
+      score: '0.25',
+      low: pooled ? '0.10' : '',
+      high: pooled ? '0.40' : '',
+    };
   };
   it('a passed gate says "better than a normal-year guess" with the years, interval and events', () => {
     expect(sureLevel(skillSummary(0.1))).toBe('medium'); // pooled fair BSS 0.25
-    expect(sureSentence(t, lead(skillSummary(0.1)))).toBe('Moderately sure: at this range, past forecasts did better than a normal-year guess over 20 past years (skill score 0.25, 90 % range 0.10 to 0.40; 12 events).');
+    expect(sureSentence(t, lead(skillSummary(0.1)))).toBe(
+      'Moderately sure: at this range, past forecasts did better than a normal-year guess over 20 past years (skill score 0.25, 90 % range 0.10 to 0.40; 12 events).',
+    );
   });
   it('an interval reaching 0, too few events, or a perfect-model estimate never claims skill', () => {
-    expect(sureSentence(t, lead(skillSummary(-0.05)))).toMatch(/^Not sure at all: at this range, past forecasts were not shown to do better/);
-    expect(sureSentence(t, lead(skillSummary(0.3, { events: 3 })))).toBe('Not sure at all: too few past events to judge this range (3 in 20 past years). Treat as normal conditions.');
+    expect(sureSentence(t, lead(skillSummary(-0.05)))).toMatch(
+      /^Not sure at all: at this range, past forecasts were not shown to do better/,
+    );
+    expect(sureSentence(t, lead(skillSummary(0.3, { events: 3 })))).toBe(
+      'Not sure at all: too few past events to judge this range (3 in 20 past years). Treat as normal conditions.',
+    );
     const potential = sureSentence(t, lead(skillSummary(0.5, { basis: 'potential' })));
     expect(potential).toMatch(/^Not sure at all: .* it cannot raise the stage\.$/);
     expect(potential).not.toMatch(/did better|Fairly|Moderately/);

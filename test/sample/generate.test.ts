@@ -63,20 +63,27 @@ describe('generateSample', () => {
     expect(seas).toContain('tp:units = "m" ;');
     expect(seas).not.toContain('tp:cell_methods'); // accumulated since the reference: no per-step method
     expect(seas).not.toContain('time_bnds'); // forecast-centre encoding: stamps close each day
-    expect(execFileSync('ncdump', ['-v', 'time', join(dirA, 'seasonal', 'seas_20261126.nc')], { encoding: 'utf8' }).replace(/\s+/g, ' ')).toContain('time = 24, 48, 72,');
+    expect(
+      execFileSync('ncdump', ['-v', 'time', join(dirA, 'seasonal', 'seas_20261126.nc')], { encoding: 'utf8' }).replace(/\s+/g, ' '),
+    ).toContain('time = 24, 48, 72,');
     expect(seas).toMatch(/number = 25 ;[\s\S]*time = 184 ;/);
     expect(header(join(dirA, 'subseasonal', 'hindcast', 'subs_20201126.nc'))).toMatch(/number = 11 ;[\s\S]*time = 46 ;/);
     expect(header(join(dirA, 'observed', 'observed_daily.nc'))).toContain('time = UNLIMITED ; // (3986 currently)');
   });
 
   it('has a descending latitude axis and -180..180 longitudes (ncdump -v)', () => {
-    const cdl = execFileSync('ncdump', ['-v', 'lat,lon', join(dirA, 'subseasonal', 'subs_20261126.nc')], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    const cdl = execFileSync('ncdump', ['-v', 'lat,lon', join(dirA, 'subseasonal', 'subs_20261126.nc')], { encoding: 'utf8' }).replace(
+      /\s+/g,
+      ' ',
+    );
     expect(cdl).toContain('lat = -4, -5, -6, -7, -8, -9, -10, -11, -12, -13, -14, -15, -16 ;');
     expect(cdl).toContain('lon = -6, -5, -4, -3, -2, -1, 0, 1, 2, 3, 4, 5, 6 ;');
   });
 
   it('holds plausible values with skill decaying by lead and the 2026 scenario (python3-netcdf4 + numpy)', () => {
-    const out = execFileSync('/usr/bin/python3', ['test/sample/summarize_sample.py', dirA, String(YEARS[0]), String(YEARS.at(-1))], { encoding: 'utf8' });
+    const out = execFileSync('/usr/bin/python3', ['test/sample/summarize_sample.py', dirA, String(YEARS[0]), String(YEARS.at(-1))], {
+      encoding: 'utf8',
+    });
     const s = JSON.parse(out);
     expect(s.observed.first).toBe('2016-01-01');
     expect(s.observed.last).toBe('2026-11-29');

@@ -15,13 +15,32 @@ const ncdump = (...args: string[]): string => execFileSync('ncdump', args, { enc
 function smallSpec(format: NcFormat): NcFileSpec {
   return {
     format,
-    dimensions: [{ name: 'time', size: 2, unlimited: true }, { name: 'lat', size: 2 }, { name: 'lon', size: 3 }],
-    attributes: { Conventions: 'CF-1.8', counts: { type: 'int', values: [1, -2] }, flags: { type: 'short', values: [7] }, ratio: { type: 'float', values: [0.25] }, pi: 3.5 },
+    dimensions: [
+      { name: 'time', size: 2, unlimited: true },
+      { name: 'lat', size: 2 },
+      { name: 'lon', size: 3 },
+    ],
+    attributes: {
+      Conventions: 'CF-1.8',
+      counts: { type: 'int', values: [1, -2] },
+      flags: { type: 'short', values: [7] },
+      ratio: { type: 'float', values: [0.25] },
+      pi: 3.5,
+    },
     variables: [
       { name: 'lat', type: 'double', dimensions: ['lat'], attributes: { units: 'degrees_north' } },
       { name: 'time', type: 'double', dimensions: ['time'], attributes: { units: 'hours since 2026-11-26 00:00:00' } },
       // 3 shorts per record: 6 bytes padded to 8 between records (spec: vsize rounded up to 4).
-      { name: 'packed', type: 'short', dimensions: ['time', 'lon'], attributes: { scale_factor: { type: 'float', values: [0.01] }, add_offset: { type: 'float', values: [300] }, _FillValue: { type: 'short', values: [-32767] } } },
+      {
+        name: 'packed',
+        type: 'short',
+        dimensions: ['time', 'lon'],
+        attributes: {
+          scale_factor: { type: 'float', values: [0.01] },
+          add_offset: { type: 'float', values: [300] },
+          _FillValue: { type: 'short', values: [-32767] },
+        },
+      },
       { name: 'field', type: 'float', dimensions: ['time', 'lat', 'lon'], attributes: { _FillValue: { type: 'float', values: [1e20] } } },
       { name: 'code', type: 'int', dimensions: [] },
       { name: 'odd', type: 'byte', dimensions: ['lon'] },
@@ -42,7 +61,11 @@ async function writeSmall(path: string, format: NcFormat): Promise<void> {
 }
 
 describe('netcdf classic writer vs ncdump', () => {
-  for (const [format, kind] of [['classic', 'classic'], ['64bit-offset', '64-bit offset'], ['cdf5', 'cdf5']] as const) {
+  for (const [format, kind] of [
+    ['classic', 'classic'],
+    ['64bit-offset', '64-bit offset'],
+    ['cdf5', 'cdf5'],
+  ] as const) {
     it(`${format}: ncdump -k says "${kind}" and dumps header and data as written`, async () => {
       const path = join(dir, `small-${format}.nc`);
       await writeSmall(path, format);
@@ -69,7 +92,11 @@ describe('netcdf classic writer vs ncdump', () => {
 
   it('a single record variable is stored without record padding (spec special case)', async () => {
     const path = join(dir, 'one-record-var.nc');
-    const w = await createNetcdfClassic(path, { format: 'classic', dimensions: [{ name: 't', size: 3, unlimited: true }], variables: [{ name: 's', type: 'short', dimensions: ['t'] }] });
+    const w = await createNetcdfClassic(path, {
+      format: 'classic',
+      dimensions: [{ name: 't', size: 3, unlimited: true }],
+      variables: [{ name: 's', type: 'short', dimensions: ['t'] }],
+    });
     await w.write('s', 0, [1, 2, 3]);
     await w.close();
     expect(ncdump('-v', 's', path).replace(/\s+/g, ' ')).toContain('s = 1, 2, 3 ;');
@@ -82,8 +109,13 @@ describe('netcdf classic writer vs ncdump', () => {
       const huge = 400_000_000; // floats: 1.6 GB each, three of them push `tail` past 4.8 GB
       const w = await createNetcdfClassic(path, {
         format,
-        dimensions: [{ name: 'n', size: huge }, { name: 'k', size: 2 }],
-        variables: ['a', 'b', 'c'].map((name) => ({ name, type: 'float' as const, dimensions: ['n'] })).concat([{ name: 'tail', type: 'float', dimensions: ['k'] }]),
+        dimensions: [
+          { name: 'n', size: huge },
+          { name: 'k', size: 2 },
+        ],
+        variables: ['a', 'b', 'c']
+          .map((name) => ({ name, type: 'float' as const, dimensions: ['n'] }))
+          .concat([{ name: 'tail', type: 'float', dimensions: ['k'] }]),
       });
       await w.write('c', huge - 1, [7.5]);
       await w.write('tail', 0, [1.25, -2]);
@@ -102,13 +134,24 @@ describe('netcdf classic writer vs ncdump', () => {
   }
 
   it('refuses a write that overruns the variable, naming file and variable', async () => {
-    const w = await createNetcdfClassic(join(dir, 'overrun.nc'), { format: 'classic', dimensions: [{ name: 'x', size: 2 }], variables: [{ name: 'v', type: 'int', dimensions: ['x'] }] });
+    const w = await createNetcdfClassic(join(dir, 'overrun.nc'), {
+      format: 'classic',
+      dimensions: [{ name: 'x', size: 2 }],
+      variables: [{ name: 'v', type: 'int', dimensions: ['x'] }],
+    });
     await expect(w.write('v', 1, [1, 2])).rejects.toThrow(/overrun.nc.*overruns v/);
     await w.close();
   });
 
   it('refuses CDF-1 when offsets pass 2 GiB', async () => {
-    const spec: NcFileSpec = { format: 'classic', dimensions: [{ name: 'n', size: 600_000_000 }], variables: [{ name: 'a', type: 'float', dimensions: ['n'] }, { name: 'b', type: 'float', dimensions: ['n'] }] };
+    const spec: NcFileSpec = {
+      format: 'classic',
+      dimensions: [{ name: 'n', size: 600_000_000 }],
+      variables: [
+        { name: 'a', type: 'float', dimensions: ['n'] },
+        { name: 'b', type: 'float', dimensions: ['n'] },
+      ],
+    };
     await expect(createNetcdfClassic(join(dir, 'too-big.nc'), spec)).rejects.toThrow(/use format 64bit-offset or cdf5/);
   });
 });

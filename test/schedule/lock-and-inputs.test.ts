@@ -74,7 +74,13 @@ describe('data arrival', () => {
     const p = join(dir, 'fc_20261126.nc');
     let t = Date.parse('2026-11-26T06:00:00Z');
     const slept: number[] = [];
-    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, { sleep: async (ms) => { slept.push(ms); t += ms; }, now: () => new Date(t) });
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, {
+      sleep: async (ms) => {
+        slept.push(ms);
+        t += ms;
+      },
+      now: () => new Date(t),
+    });
     expect(result).toEqual({ arrived: [], missing: [p] });
     expect(slept).toEqual([240_000, 240_000, 120_000]);
   });
@@ -84,7 +90,11 @@ describe('data arrival', () => {
     const p = join(dir, 'fc_20261126.nc');
     writeFileSync(p, 'complete');
     const slept: number[] = [];
-    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, { sleep: async (ms) => { slept.push(ms); } });
+    const result = await waitForInputs([p], new Date('2026-11-26T06:10:00Z'), 240, {
+      sleep: async (ms) => {
+        slept.push(ms);
+      },
+    });
     expect(result).toEqual({ arrived: [p], missing: [] });
     expect(slept).toEqual([2000]);
   });
@@ -104,7 +114,10 @@ describe('data arrival', () => {
     writeFileSync(forecastPath(pattern, '2026-11-23'), 'x');
     expect(forecastPath(pattern, '2026-11-23')).toBe(join(dir, 'subseasonal_20261123.nc'));
     expect(resolveLatestInputs(pattern, '2026-11-26', 7)).toEqual({
-      expectedDate: '2026-11-26', date: '2026-11-23', path: join(dir, 'subseasonal_20261123.nc'), stale: true,
+      expectedDate: '2026-11-26',
+      date: '2026-11-23',
+      path: join(dir, 'subseasonal_20261123.nc'),
+      stale: true,
     });
     writeFileSync(forecastPath(pattern, '2026-11-26'), 'x');
     expect(resolveLatestInputs(pattern, '2026-11-26', 7)).toMatchObject({ date: '2026-11-26', stale: false });
@@ -121,7 +134,11 @@ describe('status file', () => {
     let s = nextStatus(null, base, makeRunReport('scheduled', t, t, EXIT.deliveryFailed, '2 in outbox'));
     s = nextStatus(s, base, makeRunReport('scheduled', t, t, EXIT.unexpected, 'boom'));
     writeStatus(path, s);
-    expect(readStatus(path)).toMatchObject({ consecutiveFailures: 2, lastRun: { exitName: 'unexpected' }, recentFailures: [{ summary: 'boom' }, { summary: '2 in outbox' }] });
+    expect(readStatus(path)).toMatchObject({
+      consecutiveFailures: 2,
+      lastRun: { exitName: 'unexpected' },
+      recentFailures: [{ summary: 'boom' }, { summary: '2 in outbox' }],
+    });
     expect(nextStatus(s, base, makeRunReport('scheduled', t, t, EXIT.nothingNew, 'no new data')).consecutiveFailures).toBe(0);
     writeFileSync(path, '{');
     expect(() => readStatus(path)).toThrow(/^status file .* is not a status file: not JSON \(.*\) — delete it/);
@@ -139,8 +156,12 @@ describe('status: is the service running?', () => {
     const started = withServicePid(null, base, process.pid, t);
     expect(describeService(started, isProcessAlive)).toBe(`running (pid ${process.pid})`);
     const deadPid = 2 ** 22 + 777; // above Linux's pid_max limit: never alive
-    expect(describeService({ ...started, servicePid: deadPid }, isProcessAlive)).toMatch(new RegExp(`^NOT RUNNING: process ${deadPid} recorded at .* is gone .* — start it again`));
-    expect(describeService(withServicePid(started, base, null, t), isProcessAlive)).toMatch(/^not running \(no service has recorded itself; last written by process \d+/);
+    expect(describeService({ ...started, servicePid: deadPid }, isProcessAlive)).toMatch(
+      new RegExp(`^NOT RUNNING: process ${deadPid} recorded at .* is gone .* — start it again`),
+    );
+    expect(describeService(withServicePid(started, base, null, t), isProcessAlive)).toMatch(
+      /^not running \(no service has recorded itself; last written by process \d+/,
+    );
     expect(describeService(null, isProcessAlive)).toMatch(/^not running/);
   });
 
@@ -148,7 +169,11 @@ describe('status: is the service running?', () => {
     const started = withServicePid(null, base, 4242, t);
     const manual = nextStatus(started, base, makeRunReport('manual', t, t, EXIT.ok, 'issued'));
     expect(manual.servicePid).toBe(4242);
-    const stopped = nextStatus(manual, { ...base, servicePid: 4242 }, makeRunReport('scheduled', t, t, EXIT.stopped, 'stopped by a signal before issuing'));
+    const stopped = nextStatus(
+      manual,
+      { ...base, servicePid: 4242 },
+      makeRunReport('scheduled', t, t, EXIT.stopped, 'stopped by a signal before issuing'),
+    );
     expect(stopped.lastRun).toMatchObject({ exitCode: 143, exitName: 'stopped' });
     expect(stopped.consecutiveFailures).toBe(0);
   });

@@ -56,7 +56,10 @@ describe('computeNextRuns across DST (IANA tzdata via Node ICU)', () => {
   it('twice-weekly Mon/Thu 06:00 in Berlin keeps 06:00 local across the October change', () => {
     const runs = computeNextRuns('0 6 * * 1,4', 'Europe/Berlin', new Date('2026-10-19T00:00:00Z'), 4);
     expect(runs.map((d) => local(d, 'Europe/Berlin'))).toEqual([
-      '2026-10-19 06:00:00', '2026-10-22 06:00:00', '2026-10-26 06:00:00', '2026-10-29 06:00:00',
+      '2026-10-19 06:00:00',
+      '2026-10-22 06:00:00',
+      '2026-10-26 06:00:00',
+      '2026-10-29 06:00:00',
     ]);
     expect(runs[2].toISOString()).toBe('2026-10-26T05:00:00.000Z');
   });
@@ -76,8 +79,12 @@ describe('computeNextRuns across DST (IANA tzdata via Node ICU)', () => {
   });
 
   it('rejects bad expressions and zones with one line naming the setting', () => {
-    expect(() => computeNextRuns('61 2 * * *', 'Europe/Berlin', new Date(), 1)).toThrow(/^schedule\.cron: "61 2 \* \* \*" is not a valid cron expression/);
-    expect(() => computeNextRuns('0 6 * * *', 'Veloria/Kessan', new Date(), 1)).toThrow(/^schedule\.timezone: unknown IANA time zone "Veloria\/Kessan"/);
+    expect(() => computeNextRuns('61 2 * * *', 'Europe/Berlin', new Date(), 1)).toThrow(
+      /^schedule\.cron: "61 2 \* \* \*" is not a valid cron expression/,
+    );
+    expect(() => computeNextRuns('0 6 * * *', 'Veloria/Kessan', new Date(), 1)).toThrow(
+      /^schedule\.timezone: unknown IANA time zone "Veloria\/Kessan"/,
+    );
   });
 
   it('`forelight check` refuses what the service cannot schedule: node-cron accepts L, the config check does not', () => {
@@ -119,7 +126,9 @@ while len(out) < n:
         out.append(datetime.datetime(day.year, day.month, day.day, 6, tzinfo=tz).astimezone(datetime.timezone.utc).strftime('%Y-%m-%dT%H:%M:%S.000Z'))
     day += datetime.timedelta(days=1)
 print(json.dumps(out))`;
-    return JSON.parse(execFileSync('/usr/bin/python3', ['-c', script, tz, JSON.stringify(doms), JSON.stringify(dows), String(n)], { encoding: 'utf8' })) as string[];
+    return JSON.parse(
+      execFileSync('/usr/bin/python3', ['-c', script, tz, JSON.stringify(doms), JSON.stringify(dows), String(n)], { encoding: 'utf8' }),
+    ) as string[];
   }
   const from = new Date('2026-11-30T12:00:00Z');
   const iso = (runs: Date[]) => runs.map((d) => d.toISOString());
@@ -134,7 +143,9 @@ print(json.dumps(out))`;
   });
 
   it('a ranged day-of-month with named weekdays is still OR; a * field leaves the other alone (Europe/Berlin, winter)', () => {
-    expect(iso(computeNextRuns('0 6 1-3 * SAT,SUN', 'Europe/Berlin', from, 10))).toEqual(pythonSlots('Europe/Berlin', [1, 2, 3], [6, 0], 10));
+    expect(iso(computeNextRuns('0 6 1-3 * SAT,SUN', 'Europe/Berlin', from, 10))).toEqual(
+      pythonSlots('Europe/Berlin', [1, 2, 3], [6, 0], 10),
+    );
     expect(iso(computeNextRuns('0 6 * * 1', 'Europe/Berlin', from, 5))).toEqual(pythonSlots('Europe/Berlin', null, [1], 5));
     expect(iso(computeNextRuns('0 6 1,15 * *', 'Europe/Berlin', from, 5))).toEqual(pythonSlots('Europe/Berlin', [1, 15], null, 5));
   });

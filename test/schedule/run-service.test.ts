@@ -33,7 +33,10 @@ describe('runService', () => {
       signal: stop.signal,
       handleSignals: false,
       checkEverySeconds: 0.02,
-      runOnce: async (ctx) => { calls.push(ctx); return { exitCode: EXIT.ok, summary: 'issued' }; },
+      runOnce: async (ctx) => {
+        calls.push(ctx);
+        return { exitCode: EXIT.ok, summary: 'issued' };
+      },
     });
     await sleep(300);
     stop.abort();
@@ -51,15 +54,23 @@ describe('runService', () => {
     const stop = new AbortController();
     const service = runService({
       config: { ledger: join(dir, 'ledger.sqlite'), schedule: schedule('* * * * * *') },
-      log: silentLogger, signal: stop.signal, handleSignals: false,
-      runOnce: async (ctx) => { calls.push(ctx); return { exitCode: EXIT.nothingNew, summary: 'no new data' }; },
+      log: silentLogger,
+      signal: stop.signal,
+      handleSignals: false,
+      runOnce: async (ctx) => {
+        calls.push(ctx);
+        return { exitCode: EXIT.nothingNew, summary: 'no new data' };
+      },
     });
     await sleep(1600);
     stop.abort();
     await service;
     expect(calls.length).toBeGreaterThanOrEqual(1);
     expect(calls.every((c) => c.reason === 'scheduled')).toBe(true);
-    expect(readStatus(join(dir, 'ledger.sqlite.status.json'))).toMatchObject({ consecutiveFailures: 0, lastRun: { exitName: 'nothingNew' } });
+    expect(readStatus(join(dir, 'ledger.sqlite.status.json'))).toMatchObject({
+      consecutiveFailures: 0,
+      lastRun: { exitName: 'nothingNew' },
+    });
   });
 
   it('skips the slot when another live process holds the lock (exit code locked)', async () => {
@@ -69,9 +80,15 @@ describe('runService', () => {
     let calls = 0;
     const stop = new AbortController();
     const service = runService({
-      config: { ledger, schedule: schedule('0 6 * * 1,4') }, log: silentLogger, signal: stop.signal, handleSignals: false,
+      config: { ledger, schedule: schedule('0 6 * * 1,4') },
+      log: silentLogger,
+      signal: stop.signal,
+      handleSignals: false,
       lastCompletedAt: () => new Date(Date.now() - 10 * 86_400_000),
-      runOnce: async () => { calls++; return { exitCode: EXIT.ok, summary: '' }; },
+      runOnce: async () => {
+        calls++;
+        return { exitCode: EXIT.ok, summary: '' };
+      },
     });
     await sleep(200);
     stop.abort();
@@ -85,15 +102,25 @@ describe('runService', () => {
     const stop = new AbortController();
     let sawAbort = false;
     const service = runService({
-      config: { ledger: join(dir, 'ledger.sqlite'), schedule: schedule('0 6 * * 1,4') }, log: silentLogger, signal: stop.signal, handleSignals: false,
+      config: { ledger: join(dir, 'ledger.sqlite'), schedule: schedule('0 6 * * 1,4') },
+      log: silentLogger,
+      signal: stop.signal,
+      handleSignals: false,
       lastCompletedAt: () => new Date(Date.now() - 10 * 86_400_000),
-      runOnce: async (ctx) => { await sleep(300); sawAbort = ctx.signal.aborted; throw new Error('disk full'); },
+      runOnce: async (ctx) => {
+        await sleep(300);
+        sawAbort = ctx.signal.aborted;
+        throw new Error('disk full');
+      },
     });
     await sleep(50);
     stop.abort();
     await service;
     expect(sawAbort).toBe(true);
-    expect(readStatus(join(dir, 'ledger.sqlite.status.json'))).toMatchObject({ consecutiveFailures: 1, lastRun: { exitCode: 1, summary: 'disk full' } });
+    expect(readStatus(join(dir, 'ledger.sqlite.status.json'))).toMatchObject({
+      consecutiveFailures: 1,
+      lastRun: { exitCode: 1, summary: 'disk full' },
+    });
     expect(existsSync(join(dir, 'ledger.sqlite.lock'))).toBe(false);
   });
 
@@ -101,7 +128,9 @@ describe('runService', () => {
     const dir = tempDir('svc-sigterm');
     const marker = join(dir, 'marker');
     const child = spawn(process.execPath, ['--import', 'tsx', join(import.meta.dirname, 'service-child.ts')], {
-      cwd: join(import.meta.dirname, '..', '..'), env: { ...process.env, FL_LEDGER: join(dir, 'ledger.sqlite'), FL_MARKER: marker }, stdio: 'ignore',
+      cwd: join(import.meta.dirname, '..', '..'),
+      env: { ...process.env, FL_LEDGER: join(dir, 'ledger.sqlite'), FL_MARKER: marker },
+      stdio: 'ignore',
     });
     const exited = new Promise<number | null>((r) => child.on('exit', (code) => r(code)));
     const end = Date.now() + 20_000;

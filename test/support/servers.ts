@@ -24,7 +24,11 @@ export async function freePort(): Promise<number> {
 
 function postgresBin(tool: string): string {
   const root = '/usr/lib/postgresql';
-  const versions = existsSync(root) ? readdirSync(root).filter((v) => /^\d+$/.test(v)).sort((a, b) => Number(b) - Number(a)) : [];
+  const versions = existsSync(root)
+    ? readdirSync(root)
+        .filter((v) => /^\d+$/.test(v))
+        .sort((a, b) => Number(b) - Number(a))
+    : [];
   for (const v of versions) if (existsSync(join(root, v, 'bin', tool))) return join(root, v, 'bin', tool);
   throw new Error(`PostgreSQL's ${tool} not found under ${root}: apt-get install postgresql`);
 }
@@ -57,18 +61,37 @@ export async function startPostgres(): Promise<TestPostgres> {
   };
   const data = join(dir, 'data');
   run('initdb', ['-D', data, '-U', user, '--auth=scram-sha-256', `--pwfile=${pwfile}`, '--no-sync', '-E', 'UTF8']);
-  run('pg_ctl', ['-D', data, '-l', join(dir, 'log'), '-w', '-t', '60', '-o',
-    `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=off -c synchronous_commit=off -c full_page_writes=off`, 'start']);
+  run('pg_ctl', [
+    '-D',
+    data,
+    '-l',
+    join(dir, 'log'),
+    '-w',
+    '-t',
+    '60',
+    '-o',
+    `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=off -c synchronous_commit=off -c full_page_writes=off`,
+    'start',
+  ]);
   const psql = (sql: string): void => {
-    execFileSync(postgresBin('psql'), ['-h', '127.0.0.1', '-p', String(port), '-U', user, '-d', 'postgres', '-v', 'ON_ERROR_STOP=1', '-c', sql],
-      { env: { ...process.env, PGPASSWORD: password }, stdio: ['ignore', 'pipe', 'pipe'] });
+    execFileSync(
+      postgresBin('psql'),
+      ['-h', '127.0.0.1', '-p', String(port), '-U', user, '-d', 'postgres', '-v', 'ON_ERROR_STOP=1', '-c', sql],
+      { env: { ...process.env, PGPASSWORD: password }, stdio: ['ignore', 'pipe', 'pipe'] },
+    );
   };
   return {
-    port, user, password,
+    port,
+    user,
+    password,
     url: (name) => `postgres://${user}@127.0.0.1:${port}/${name}`,
     createDatabase: (name) => psql(`CREATE DATABASE ${name}`),
     stop: () => {
-      try { run('pg_ctl', ['-D', data, '-m', 'immediate', 'stop']); } finally { rmSync(dir, { recursive: true, force: true }); }
+      try {
+        run('pg_ctl', ['-D', data, '-m', 'immediate', 'stop']);
+      } finally {
+        rmSync(dir, { recursive: true, force: true });
+      }
     },
   };
 }
@@ -82,20 +105,33 @@ export interface TestRedis {
 export async function startRedis(): Promise<TestRedis> {
   const dir = mkdtempSync(join(tmpdir(), 'forelight-redis-'));
   const port = await freePort();
-  const child: ChildProcess = spawn('redis-server', ['--port', String(port), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--dir', dir],
-    { stdio: ['ignore', 'pipe', 'pipe'] });
+  const child: ChildProcess = spawn(
+    'redis-server',
+    ['--port', String(port), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--dir', dir],
+    { stdio: ['ignore', 'pipe', 'pipe'] },
+  );
   await new Promise<void>((resolve, reject) => {
     let out = '';
     const timer = setTimeout(() => reject(new Error(`redis-server did not start: ${out}`)), 20_000);
     child.stdout!.on('data', (b: Buffer) => {
       out += b.toString();
-      if (out.includes('Ready to accept connections')) { clearTimeout(timer); resolve(); }
+      if (out.includes('Ready to accept connections')) {
+        clearTimeout(timer);
+        resolve();
+      }
     });
-    child.once('error', (e) => { clearTimeout(timer); reject(new Error(`redis-server could not start (${e.message}): apt-get install redis-server`)); });
-    child.once('exit', (code) => { clearTimeout(timer); reject(new Error(`redis-server exited ${code}: ${out}`)); });
+    child.once('error', (e) => {
+      clearTimeout(timer);
+      reject(new Error(`redis-server could not start (${e.message}): apt-get install redis-server`));
+    });
+    child.once('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`redis-server exited ${code}: ${out}`));
+    });
   });
   return {
-    port, url: `redis://127.0.0.1:${port}`,
+    port,
+    url: `redis://127.0.0.1:${port}`,
     stop: async () => {
       child.kill('SIGTERM');
       await new Promise((r) => (child.exitCode !== null ? r(null) : child.once('exit', r)));

@@ -5,7 +5,10 @@
  */
 import type { SkillSummary } from '../../src/types.ts';
 
-export function skillSummary(low: number, opts: { basis?: SkillSummary['basis']; events?: number; years?: number; leads?: string } = {}): SkillSummary {
+export function skillSummary(
+  low: number,
+  opts: { basis?: SkillSummary['basis']; events?: number; years?: number; leads?: string } = {},
+): SkillSummary {
   const basis = opts.basis ?? 'observed';
   const events = opts.events ?? 12;
   const years = opts.years ?? 20;
@@ -13,12 +16,30 @@ export function skillSummary(low: number, opts: { basis?: SkillSummary['basis'];
   const leads = opts.leads ?? 'week 2';
   const passed = basis === 'observed' && events >= 5 && low > 0;
   const reason = basis === 'potential' ? 'potential-only' : events < 5 ? 'few-events' : passed ? 'shown' : 'not-shown';
-  const text = basis === 'potential'
-    ? `${leads}: perfect-model estimate only (no observations); it cannot raise a stage`
-    : `${leads}: fair Brier skill score ${score.toFixed(2)}, 90 % interval ${low.toFixed(2)} to ${(score + 0.15).toFixed(2)} ${passed ? 'above' : 'does not lie above'} 0 (${events} events in ${years} years)`;
+  const text =
+    basis === 'potential'
+      ? `${leads}: perfect-model estimate only (no observations); it cannot raise a stage`
+      : `${leads}: fair Brier skill score ${score.toFixed(2)}, 90 % interval ${low.toFixed(2)} to ${(score + 0.15).toFixed(2)} ${passed ? 'above' : 'does not lie above'} 0 (${events} events in ${years} years)`;
   return {
-    brierScore: 0.08, brierSkillScore: score - 0.02, fairBrierSkillScore: score, rocArea: 0.8, basis, cases: years, years, events,
-    gate: { leads, events: basis === 'observed' ? events : 0, years: basis === 'observed' ? years : 0, fairBrierSkillScore: basis === 'observed' ? score : Number.NaN, low: basis === 'observed' ? low : Number.NaN, high: basis === 'observed' ? score + 0.15 : Number.NaN, passed, reason, text },
+    brierScore: 0.08,
+    brierSkillScore: score - 0.02,
+    fairBrierSkillScore: score,
+    rocArea: 0.8,
+    basis,
+    cases: years,
+    years,
+    events,
+    gate: {
+      leads,
+      events: basis === 'observed' ? events : 0,
+      years: basis === 'observed' ? years : 0,
+      fairBrierSkillScore: basis === 'observed' ? score : Number.NaN,
+      low: basis === 'observed' ? low : Number.NaN,
+      high: basis === 'observed' ? score + 0.15 : Number.NaN,
+      passed,
+      reason,
+      text,
+    },
     skilful: passed,
   };
 }

@@ -14,6 +14,9 @@ export async function backtestCommand(args: ParsedArgs): Promise<number> {
   const cases = backtestCases(config, analysis);
   const rows = backtestRules(config, cases, { thresholdsFromCostLoss: tunedThresholds(analysis) });
   process.stdout.write(formatBacktest(rows, args.options.csv ? 'csv' : 'text'));
-  if (!args.options.csv) process.stdout.write(`\n${cases.length} hindcast start(s) replayed in date order with persistence; skill gate not applied (skill comes from the same hindcasts).\n`);
+  if (!args.options.csv)
+    process.stdout.write(
+      `\n${cases.length} hindcast start(s) replayed in date order with persistence; skill gate not applied (skill comes from the same hindcasts).\n`,
+    );
   return EXIT.ok;
 }

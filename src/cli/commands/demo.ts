@@ -35,7 +35,11 @@ export async function demoCommand(args: ParsedArgs): Promise<number> {
   let worst: number = EXIT.ok;
   for (const issueDate of SAMPLE_ISSUE_DATES) {
     say(`issue of ${issueDate} ...`);
-    const outcome = await runOnce({ config, run: runContext({ log, issueDate, now: () => new Date(`${issueDate}T07:30:00Z`) }), mode: 'exercise' });
+    const outcome = await runOnce({
+      config,
+      run: runContext({ log, issueDate, now: () => new Date(`${issueDate}T07:30:00Z`) }),
+      mode: 'exercise',
+    });
     say(`  ${outcome.summary}`);
     if (outcome.exitCode !== EXIT.ok && outcome.exitCode !== EXIT.inputProblem) worst = outcome.exitCode;
   }

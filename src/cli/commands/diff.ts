@@ -16,7 +16,9 @@ export async function diffCommand(args: ParsedArgs): Promise<number> {
     return s ? `${s.glyph} ${s.label.en ?? s.id}` : 'none';
   };
   const changes = diffStages(previous, decided.regionStages, decided.decisions);
-  const lines = [`dry run for ${issueDate} (nothing stored or sent); compared with the last issued bulletin${previous.length === 0 ? ' (none yet)' : ''}`];
+  const lines = [
+    `dry run for ${issueDate} (nothing stored or sent); compared with the last issued bulletin${previous.length === 0 ? ' (none yet)' : ''}`,
+  ];
   for (const r of decided.regionStages) {
     const c = changes.find((x) => x.region === r.region);
     const name = config.regions.find((x) => x.id === r.region)?.name ?? r.region;

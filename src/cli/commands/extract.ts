@@ -23,7 +23,8 @@ function parseBox(text: string | undefined): { south: number; north: number; wes
   const [south, north, west, east] = parts;
   if (south > north) throw usageError(`--box south ${south} is north of north ${north}: write south,north,west,east`);
   // West > east is a box across 180° (read eastwards from west), as in the YAML.
-  if (west === east) throw usageError(`--box west ${west} equals east ${east}: the box has no width (across 180° write west > east, e.g. 172,-174)`);
+  if (west === east)
+    throw usageError(`--box west ${west} equals east ${east}: the box has no width (across 180° write west > east, e.g. 172,-174)`);
   return { south, north, west, east };
 }
 
@@ -37,11 +38,19 @@ function clockOptions(args: ParsedArgs): { utcOffsetHours: number; timeZone?: st
     return { utcOffsetHours: 0, timeZone: zone };
   }
   const utcOffsetHours = offsetText === undefined ? 0 : Number(offsetText);
-  if (!Number.isFinite(utcOffsetHours) || Math.abs(utcOffsetHours) > 14) throw usageError(`--utc-offset must be hours between -14 and 14, got '${offsetText}'`);
+  if (!Number.isFinite(utcOffsetHours) || Math.abs(utcOffsetHours) > 14)
+    throw usageError(`--utc-offset must be hours between -14 and 14, got '${offsetText}'`);
   return { utcOffsetHours };
 }
 
-async function regionsJson(file: string, variable: string, boundaries: string, args: ParsedArgs, daily: DailyMethod | undefined, cellRule: CellRule | undefined): Promise<object> {
+async function regionsJson(
+  file: string,
+  variable: string,
+  boundaries: string,
+  args: ParsedArgs,
+  daily: DailyMethod | undefined,
+  cellRule: CellRule | undefined,
+): Promise<object> {
   const entry = { boundaries, 'id-property': stringOption(args, 'id-property'), 'name-property': stringOption(args, 'name-property') };
   const set = await loadBoundarySet(entry, 0, process.cwd(), { ...clockOptions(args), ...(cellRule ? { cellRule } : {}) });
   if (set.problems.length > 0) throw usageError(set.problems.map((p) => `${p.message} — ${p.fix}`).join('\n'));
@@ -57,13 +66,15 @@ export async function extractCommand(args: ParsedArgs): Promise<number> {
   const daily = stringOption(args, 'daily') as DailyMethod | undefined;
   if (daily !== undefined && !DAILY.includes(daily)) throw usageError(`--daily must be one of ${DAILY.join(', ')}, got '${daily}'`);
   const cellRule = stringOption(args, 'cells') as CellRule | undefined;
-  if (cellRule !== undefined && !RULES.includes(cellRule)) throw usageError(`--cells must be one of ${RULES.join(', ')}, got '${cellRule}'`);
+  if (cellRule !== undefined && !RULES.includes(cellRule))
+    throw usageError(`--cells must be one of ${RULES.join(', ')}, got '${cellRule}'`);
   const boundaries = stringOption(args, 'regions');
   const box = stringOption(args, 'box');
   if ((boundaries === undefined) === (box === undefined)) throw usageError('extract needs exactly one of --box S,N,W,E and --regions FILE');
-  const result = boundaries !== undefined
-    ? await regionsJson(file, variable, boundaries, args, daily, cellRule)
-    : await extractBoxJson(file, { variable, box: parseBox(box), daily, ...clockOptions(args), ...(cellRule ? { cellRule } : {}) });
+  const result =
+    boundaries !== undefined
+      ? await regionsJson(file, variable, boundaries, args, daily, cellRule)
+      : await extractBoxJson(file, { variable, box: parseBox(box), daily, ...clockOptions(args), ...(cellRule ? { cellRule } : {}) });
   process.stdout.write(JSON.stringify(result) + '\n');
   return EXIT.ok;
 }

@@ -25,11 +25,15 @@ export async function regionsCommand(args: ParsedArgs): Promise<number> {
     const width = Math.max(...s.regions.map((r) => r.region.id.length), 6);
     process.stdout.write(`  ${'region'.padEnd(width)}  cells  covered km²  region km²  rule\n`);
     for (const r of s.regions) {
-      process.stdout.write(`  ${r.region.id.padEnd(width)}  ${String(r.cells.length).padStart(5)}  ${km2(r.coveredKm2).padStart(11)}  ${km2(r.regionKm2).padStart(10)}  ${r.region.cellRule ?? 'overlap'}\n`);
+      process.stdout.write(
+        `  ${r.region.id.padEnd(width)}  ${String(r.cells.length).padStart(5)}  ${km2(r.coveredKm2).padStart(11)}  ${km2(r.regionKm2).padStart(10)}  ${r.region.cellRule ?? 'overlap'}\n`,
+      );
     }
     for (const r of s.regions.filter((x) => x.small)) {
       warnings++;
-      process.stderr.write(`warning: region '${r.region.id}' (${km2(r.regionKm2)} km²) is much smaller than a grid cell of source ${s.source} (up to ${km2(r.largestCellKm2)} km², below ${SMALL_REGION_SHARE * 100} %): its value is ${r.cells.length === 1 ? 'that of the one cell it lies in' : `a weighted blend of ${r.cells.length} neighbouring cells`}, land and sea alike — prefer a finer source for it, or read its advisories with that in mind\n`);
+      process.stderr.write(
+        `warning: region '${r.region.id}' (${km2(r.regionKm2)} km²) is much smaller than a grid cell of source ${s.source} (up to ${km2(r.largestCellKm2)} km², below ${SMALL_REGION_SHARE * 100} %): its value is ${r.cells.length === 1 ? 'that of the one cell it lies in' : `a weighted blend of ${r.cells.length} neighbouring cells`}, land and sea alike — prefer a finer source for it, or read its advisories with that in mind\n`,
+      );
     }
     for (const p of s.problems) process.stderr.write(`problem: ${p}\n`);
     writeFileAtomic(join(out, `${s.source}.geojson`), JSON.stringify(regionPreviewGeoJson(s)) + '\n');

@@ -23,7 +23,10 @@ function recordStatus(config: Config, report: RunReport): boolean {
   const { statusPath } = servicePaths(config);
   const nextRun = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1)[0]?.toISOString() ?? null;
   try {
-    writeStatus(statusPath, nextStatus(readStatus(statusPath), { cron: config.schedule.cron, timezone: config.schedule.timezone, nextRun }, report));
+    writeStatus(
+      statusPath,
+      nextStatus(readStatus(statusPath), { cron: config.schedule.cron, timezone: config.schedule.timezone, nextRun }, report),
+    );
     return true;
   } catch (err) {
     process.stderr.write(`forelight: status file not updated: ${describeError(err)}\n`);
@@ -38,7 +41,9 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
     const holder = got.holder ? `process ${got.holder.pid} on ${got.holder.host} since ${got.holder.startedAt}` : 'another process';
-    process.stderr.write(`forelight: another run holds ${lockPath} (${holder}) — wait for it, or remove the file if that process is gone\n`);
+    process.stderr.write(
+      `forelight: another run holds ${lockPath} (${holder}) — wait for it, or remove the file if that process is gone\n`,
+    );
     return EXIT.locked;
   }
   const startedAt = new Date();

@@ -39,8 +39,13 @@ async function serve(config: Config, log: Logger, extract: Extractor | undefined
       const expected = config.sources.filter((s) => s.tier !== 'months').map((s) => forecastPath(s.forecast, issueDate));
       const deadline = new Date(slot.getTime() + config.schedule.waitForDataMinutes * 60_000);
       const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, { signal });
-      if (arrival.missing.length > 0) rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
-      if (signal.aborted) return { exitCode: EXIT.stopped, summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it` };
+      if (arrival.missing.length > 0)
+        rlog.warn('forecast files late at the deadline; older forecasts are used where available', { missing: arrival.missing });
+      if (signal.aborted)
+        return {
+          exitCode: EXIT.stopped,
+          summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it`,
+        };
       return runOnce({ config, run: runContext({ log: rlog, issueDate, signal }), mode: 'live', extract });
     },
   });

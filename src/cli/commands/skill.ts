@@ -19,7 +19,9 @@ type Filter = { source?: string; region?: string; indicator?: string };
 /** The --source/--region/--indicator filters, each checked against the configured ids. */
 function filters(args: ParsedArgs, config: Config): Filter {
   const known: Record<keyof Filter, readonly string[]> = {
-    source: config.sources.map((s) => s.id), region: config.regions.map((r) => r.id), indicator: config.indicators.map((i) => i.id),
+    source: config.sources.map((s) => s.id),
+    region: config.regions.map((r) => r.id),
+    indicator: config.indicators.map((i) => i.id),
   };
   const out: Filter = {};
   for (const key of ['source', 'region', 'indicator'] as const) {
@@ -36,24 +38,44 @@ export async function skillCommand(args: ParsedArgs): Promise<number> {
   const format = args.options.csv ? 'csv' : 'text';
   const keep = filters(args, config);
   const analysis = await analyse(config, run, { onProgress: progressBar('skill') });
-  const wanted = (ids: Filter) => (['source', 'region', 'indicator'] as const).every((k) => keep[k] === undefined || ids[k] === undefined || keep[k] === ids[k]);
+  const wanted = (ids: Filter) =>
+    (['source', 'region', 'indicator'] as const).every((k) => keep[k] === undefined || ids[k] === undefined || keep[k] === ids[k]);
   const climates = analysis.sources
     .filter((s) => wanted({ source: s.source }))
-    .flatMap((s) => [...s.climates.entries()].map(([key, climate]) => {
-      const [region, indicator] = key.split('|');
-      return { ids: { source: s.source, region, indicator }, key, climate };
-    }))
+    .flatMap((s) =>
+      [...s.climates.entries()].map(([key, climate]) => {
+        const [region, indicator] = key.split('|');
+        return { ids: { source: s.source, region, indicator }, key, climate };
+      }),
+    )
     .filter((c) => wanted(c.ids));
   const entries = climates.flatMap((c) => c.climate.skill.map((report) => ({ ids: c.ids, report })));
   if (args.options.detail) {
-    process.stdout.write(formatSkillDetail(entries.flatMap((e) => skillDetailRows(e.ids, e.report)), format));
+    process.stdout.write(
+      formatSkillDetail(
+        entries.flatMap((e) => skillDetailRows(e.ids, e.report)),
+        format,
+      ),
+    );
     return EXIT.ok;
   }
-  process.stdout.write(formatSkillTable(entries.map((e) => skillRow(e.ids, e.report)), format));
+  process.stdout.write(
+    formatSkillTable(
+      entries.map((e) => skillRow(e.ids, e.report)),
+      format,
+    ),
+  );
   if (format === 'text') {
     process.stdout.write(`\n${entries.length} rows. ${SKILL_LEGEND}\n`);
-    const tuned = climates.flatMap((c) => Object.entries(c.climate.tuned).map(([rule, p]) => `  ${rule} · ${c.ids.source} · ${c.key.replace('|', ' · ')}: warn when P >= ${p.toFixed(2)}`));
-    if (tuned.length > 0) process.stdout.write(`\nprobability thresholds tuned for cost/loss rules (maximum relative economic value on the hindcasts):\n${tuned.join('\n')}\n`);
+    const tuned = climates.flatMap((c) =>
+      Object.entries(c.climate.tuned).map(
+        ([rule, p]) => `  ${rule} · ${c.ids.source} · ${c.key.replace('|', ' · ')}: warn when P >= ${p.toFixed(2)}`,
+      ),
+    );
+    if (tuned.length > 0)
+      process.stdout.write(
+        `\nprobability thresholds tuned for cost/loss rules (maximum relative economic value on the hindcasts):\n${tuned.join('\n')}\n`,
+      );
   }
   for (const p of analysis.problems) process.stderr.write(`skipped: ${formatDiagnostic(p)}\n`);
   return EXIT.ok;

@@ -20,7 +20,10 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
   const [next] = computeNextRuns(config.schedule.cron, config.schedule.timezone, new Date(), 1);
   lines.push(`next scheduled run: ${next?.toISOString() ?? 'none'} (${config.schedule.cron}, ${config.schedule.timezone})`);
   lines.push(`service: ${describeService(service, isProcessAlive)}`);
-  if (service?.lastRun) lines.push(`last run: ${service.lastRun.reason} ${service.lastRun.startedAt} → ${service.lastRun.exitName} (exit ${service.lastRun.exitCode}): ${service.lastRun.summary}`);
+  if (service?.lastRun)
+    lines.push(
+      `last run: ${service.lastRun.reason} ${service.lastRun.startedAt} → ${service.lastRun.exitName} (exit ${service.lastRun.exitCode}): ${service.lastRun.summary}`,
+    );
   if (service && service.consecutiveFailures > 0) lines.push(`failed runs in a row: ${service.consecutiveFailures}`);
   if (!ledgerMayHoldRuns(config)) {
     lines.push(`ledger ${config.ledger}: no runs yet`);
@@ -28,7 +31,11 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
     const ledger = openConfiguredLedger(config);
     try {
       const last = lastCompletedRun(ledger);
-      lines.push(last ? `last completed run: ${last.id} (${last.forecastKey}) ${last.status} at ${last.finishedAt}${last.error ? ` — ${last.error}` : ''}` : 'last completed run: none');
+      lines.push(
+        last
+          ? `last completed run: ${last.id} (${last.forecastKey}) ${last.status} at ${last.finishedAt}${last.error ? ` — ${last.error}` : ''}`
+          : 'last completed run: none',
+      );
       const problems = last ? runDiagnostics(ledger, last.id) : [];
       if (problems.length > 0) lines.push(`input problems of run ${last?.id}: ${problems.length}`);
       for (const d of problems.slice(0, 20)) lines.push(`  ${formatDiagnostic(d)}`);

@@ -26,7 +26,12 @@ export async function workerCommand(args: ParsedArgs): Promise<number> {
   process.once('SIGTERM', onSignal);
   process.once('SIGINT', onSignal);
   try {
-    await runClusterWorker(url, { log, concurrency: positiveInteger(args, 'concurrency'), lockSeconds: positiveInteger(args, 'lock-seconds'), signal: stop.signal });
+    await runClusterWorker(url, {
+      log,
+      concurrency: positiveInteger(args, 'concurrency'),
+      lockSeconds: positiveInteger(args, 'lock-seconds'),
+      signal: stop.signal,
+    });
   } finally {
     process.off('SIGTERM', onSignal);
     process.off('SIGINT', onSignal);

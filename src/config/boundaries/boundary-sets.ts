@@ -14,13 +14,21 @@ import { readBoundaryFeatures, type RawFeature } from './read-features.ts';
 
 /** Region id from a property value: lower case, accents dropped, other characters to single hyphens. */
 export function regionIdOf(value: unknown): string {
-  return String(value).normalize('NFKD').replace(/[\u0300-\u036f]/g, '').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '');
+  return String(value)
+    .normalize('NFKD')
+    .replace(/[\u0300-\u036f]/g, '')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-|-$/g, '');
 }
 
 /** The region fields a set gives each of its features (clock, rule). */
 export type SetDefaults = Pick<RegionConfig, 'utcOffsetHours' | 'timeZone' | 'cellRule'>;
 
-interface Loaded { readonly regions: RegionConfig[]; readonly problems: ConfigProblem[] }
+interface Loaded {
+  readonly regions: RegionConfig[];
+  readonly problems: ConfigProblem[];
+}
 
 const strings = (v: unknown): string[] => list(v).filter((t): t is string => typeof t === 'string');
 
@@ -58,8 +66,13 @@ export async function loadBoundarySet(entry: RawObject, index: number, dir: stri
     const id = raw === undefined || raw === null ? '' : regionIdOf(raw);
     if (id === '') {
       const what = idProperty !== undefined ? `has no usable value of property '${idProperty}'` : 'has no Feature id';
-      problems.push(problem(at(idProperty !== undefined ? 'id-property' : 'boundaries'), `${file}: ${label(f, raw)} ${what}`,
-        `set id-property to a property every feature has (properties of this feature: ${Object.keys(f.properties).join(', ') || 'none'})`));
+      problems.push(
+        problem(
+          at(idProperty !== undefined ? 'id-property' : 'boundaries'),
+          `${file}: ${label(f, raw)} ${what}`,
+          `set id-property to a property every feature has (properties of this feature: ${Object.keys(f.properties).join(', ') || 'none'})`,
+        ),
+      );
       continue;
     }
     const geometry = featurePolygons(f.geometry);
@@ -69,15 +82,33 @@ export async function loadBoundarySet(entry: RawObject, index: number, dir: stri
     }
     const twin = seen.get(id);
     if (twin !== undefined) {
-      problems.push(problem(at('id-property'), `${file}: ${label(f, raw)} has region id '${id}', as feature ${twin} does`, 'choose an id-property that is unique per feature (or merge the two features)'));
+      problems.push(
+        problem(
+          at('id-property'),
+          `${file}: ${label(f, raw)} has region id '${id}', as feature ${twin} does`,
+          'choose an id-property that is unique per feature (or merge the two features)',
+        ),
+      );
       continue;
     }
     seen.set(id, f.index);
     const name = nameProperty !== undefined ? f.properties[nameProperty] : undefined;
-    regions.push({ id, name: name === undefined || name === null ? String(raw) : String(name), shape: { kind: 'multipolygon', polygons: geometry.polygons }, teams: teamsOf(entry, id, f), ...defaults });
+    regions.push({
+      id,
+      name: name === undefined || name === null ? String(raw) : String(name),
+      shape: { kind: 'multipolygon', polygons: geometry.polygons },
+      teams: teamsOf(entry, id, f),
+      ...defaults,
+    });
   }
   if (nameProperty !== undefined && read.features.length > 0 && read.features.every((f) => f.properties[nameProperty] === undefined)) {
-    problems.push(problem(at('name-property'), `${file}: no feature has property '${nameProperty}'`, `use one of: ${Object.keys(read.features[0].properties).join(', ')}`));
+    problems.push(
+      problem(
+        at('name-property'),
+        `${file}: no feature has property '${nameProperty}'`,
+        `use one of: ${Object.keys(read.features[0].properties).join(', ')}`,
+      ),
+    );
   }
   problems.push(...checkTeamKeys(entry, index, read.features, new Set(seen.keys())));
   return { regions, problems };
@@ -87,14 +118,35 @@ export async function loadBoundarySet(entry: RawObject, index: number, dir: stri
 function checkTeamKeys(entry: RawObject, index: number, features: readonly RawFeature[], ids: ReadonlySet<string>): ConfigProblem[] {
   const out: ConfigProblem[] = [];
   for (const key of Object.keys(obj(entry['teams-by-id']))) {
-    if (!ids.has(key)) out.push(problem(pointerOf('regions', index, 'teams-by-id', key), `no region '${key}' in ${text(entry.boundaries)}`, `use region ids of the file: ${[...ids].slice(0, 8).join(', ')}${ids.size > 8 ? ', …' : ''}`, 'key'));
+    if (!ids.has(key))
+      out.push(
+        problem(
+          pointerOf('regions', index, 'teams-by-id', key),
+          `no region '${key}' in ${text(entry.boundaries)}`,
+          `use region ids of the file: ${[...ids].slice(0, 8).join(', ')}${ids.size > 8 ? ', …' : ''}`,
+          'key',
+        ),
+      );
   }
   const byProperty = obj(entry['teams-by-property']);
   const property = text(byProperty.property);
   if (property === undefined) return out;
-  const values = new Set(features.map((f) => f.properties[property]).filter((v) => v !== undefined && v !== null).map(String));
+  const values = new Set(
+    features
+      .map((f) => f.properties[property])
+      .filter((v) => v !== undefined && v !== null)
+      .map(String),
+  );
   for (const key of Object.keys(obj(byProperty.teams))) {
-    if (!values.has(key)) out.push(problem(pointerOf('regions', index, 'teams-by-property', 'teams', key), `no feature has ${property} = '${key}'`, `use values of ${property}: ${[...values].slice(0, 8).join(', ')}`, 'key'));
+    if (!values.has(key))
+      out.push(
+        problem(
+          pointerOf('regions', index, 'teams-by-property', 'teams', key),
+          `no feature has ${property} = '${key}'`,
+          `use values of ${property}: ${[...values].slice(0, 8).join(', ')}`,
+          'key',
+        ),
+      );
   }
   return out;
 }
@@ -102,8 +154,9 @@ function checkTeamKeys(entry: RawObject, index: number, features: readonly RawFe
 /** Team ids named in the set's `teams-by-id` and `teams-by-property`, with their pointers (for reference checks). */
 export function setTeamReferences(entry: RawObject, index: number): { team: string; pointer: string }[] {
   const out: { team: string; pointer: string }[] = [];
-  for (const [key, teams] of Object.entries(obj(entry['teams-by-id']))) strings(teams).forEach((team, j) => out.push({ team, pointer: pointerOf('regions', index, 'teams-by-id', key, j) }));
-  for (const [key, teams] of Object.entries(obj(obj(entry['teams-by-property']).teams))) strings(teams).forEach((team, j) => out.push({ team, pointer: pointerOf('regions', index, 'teams-by-property', 'teams', key, j) }));
+  for (const [key, teams] of Object.entries(obj(entry['teams-by-id'])))
+    strings(teams).forEach((team, j) => out.push({ team, pointer: pointerOf('regions', index, 'teams-by-id', key, j) }));
+  for (const [key, teams] of Object.entries(obj(obj(entry['teams-by-property']).teams)))
+    strings(teams).forEach((team, j) => out.push({ team, pointer: pointerOf('regions', index, 'teams-by-property', 'teams', key, j) }));
   return out;
 }
-

@@ -11,7 +11,8 @@ export type GeometryCheck = { readonly polygons: Ring[][] } | { readonly problem
 function polygonsOf(geometry: RawFeature['geometry']): unknown[] | string {
   if (!geometry) return 'has no geometry (empty)';
   if (geometry.type === 'Polygon') return [geometry.coordinates];
-  if (geometry.type === 'MultiPolygon') return Array.isArray(geometry.coordinates) ? geometry.coordinates : 'has MultiPolygon without coordinates';
+  if (geometry.type === 'MultiPolygon')
+    return Array.isArray(geometry.coordinates) ? geometry.coordinates : 'has MultiPolygon without coordinates';
   return `has geometry type ${geometry.type}; regions need Polygon or MultiPolygon`;
 }
 
@@ -32,7 +33,8 @@ export function featurePolygons(geometry: RawFeature['geometry']): GeometryCheck
     const cross = selfIntersection(framed);
     if (cross) {
       const name = (r: number) => `ring ${r} ${r === 0 ? '(outer)' : '(hole)'}`;
-      const what = cross.ring === cross.other ? `${name(cross.ring)} intersects itself` : `${name(cross.ring)} crosses ${name(cross.other)}`;
+      const what =
+        cross.ring === cross.other ? `${name(cross.ring)} intersects itself` : `${name(cross.ring)} crosses ${name(cross.other)}`;
       return { problem: `${where}${what} near [${cross.near[0]}, ${cross.near[1]}]` };
     }
     out.push(framed);

@@ -40,18 +40,27 @@ export function framePolygon(rings: readonly Ring[]): Ring[] {
 /** First problem with a ring's positions, or null. */
 export function ringProblem(ring: readonly (readonly number[])[]): string | null {
   if (ring.length === 0) return 'is empty';
-  if (ring.some((p) => !Array.isArray(p) || p.length < 2 || !Number.isFinite(p[0]) || !Number.isFinite(p[1]))) return 'has a position that is not a pair of numbers';
+  if (ring.some((p) => !Array.isArray(p) || p.length < 2 || !Number.isFinite(p[0]) || !Number.isFinite(p[1])))
+    return 'has a position that is not a pair of numbers';
   const bad = ring.find((p) => Math.abs(p[1]) > 90);
   if (bad) return `has latitude ${bad[1]} outside −90..90 (are longitude and latitude swapped, or is it not in degrees?)`;
   if (ring.length < 4) return `has ${ring.length} positions; a ring needs at least 4 (the first repeated at the end)`;
   const [first, last] = [ring[0], ring[ring.length - 1]];
-  if (first[0] !== last[0] || first[1] !== last[1]) return `is not closed: last position [${last[0]}, ${last[1]}] differs from the first [${first[0]}, ${first[1]}]`;
+  if (first[0] !== last[0] || first[1] !== last[1])
+    return `is not closed: last position [${last[0]}, ${last[1]}] differs from the first [${first[0]}, ${first[1]}]`;
   const distinct = new Set(ring.slice(1).map((p) => `${p[0]},${p[1]}`)).size;
   if (distinct < 3) return `has only ${distinct} distinct positions; a ring needs at least 3 (it encloses no area)`;
   return null;
 }
 
-interface Segment { readonly ring: number; readonly index: number; readonly a: Point; readonly b: Point; readonly minX: number; readonly maxX: number }
+interface Segment {
+  readonly ring: number;
+  readonly index: number;
+  readonly a: Point;
+  readonly b: Point;
+  readonly minX: number;
+  readonly maxX: number;
+}
 
 function orient(p: Point, q: Point, r: Point): number {
   const v = (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]);
@@ -70,7 +79,12 @@ function intersects(s: Segment, t: Segment): boolean {
   const [o1, o2, o3, o4] = [orient(s.a, s.b, t.a), orient(s.a, s.b, t.b), orient(t.a, t.b, s.a), orient(t.a, t.b, s.b)];
   if (s.ring !== t.ring) return o1 * o2 < 0 && o3 * o4 < 0;
   if (o1 !== o2 && o3 !== o4) return true;
-  return (o1 === 0 && onSeg(s.a, t.a, s.b)) || (o2 === 0 && onSeg(s.a, t.b, s.b)) || (o3 === 0 && onSeg(t.a, s.a, t.b)) || (o4 === 0 && onSeg(t.a, s.b, t.b));
+  return (
+    (o1 === 0 && onSeg(s.a, t.a, s.b)) ||
+    (o2 === 0 && onSeg(s.a, t.b, s.b)) ||
+    (o3 === 0 && onSeg(t.a, s.a, t.b)) ||
+    (o4 === 0 && onSeg(t.a, s.b, t.b))
+  );
 }
 
 /** Segments that are neighbours on one ring share an end point legitimately. */
@@ -101,7 +115,8 @@ export function selfIntersection(rings: readonly Ring[]): { ring: number; other:
     for (let j = i + 1; j < segs.length && segs[j].minX <= segs[i].maxX; j++) {
       const [s, t] = [segs[i], segs[j]];
       if (adjacent(s, t, sizes)) continue;
-      if (Math.max(Math.min(s.a[1], s.b[1]), Math.min(t.a[1], t.b[1])) > Math.min(Math.max(s.a[1], s.b[1]), Math.max(t.a[1], t.b[1]))) continue;
+      if (Math.max(Math.min(s.a[1], s.b[1]), Math.min(t.a[1], t.b[1])) > Math.min(Math.max(s.a[1], s.b[1]), Math.max(t.a[1], t.b[1])))
+        continue;
       if (intersects(s, t)) return { ring: s.ring, other: t.ring, near: s.a };
     }
   }

@@ -17,7 +17,8 @@ export interface RawFeature {
   readonly geometry: { readonly type: string; readonly coordinates?: unknown } | null;
 }
 
-export type FeatureRead = { readonly ok: true; readonly features: RawFeature[] } | { readonly ok: false; readonly message: string; readonly fix: string };
+export type FeatureRead =
+  { readonly ok: true; readonly features: RawFeature[] } | { readonly ok: false; readonly message: string; readonly fix: string };
 
 const fail = (message: string, fix: string): FeatureRead => ({ ok: false, message, fix });
 
@@ -31,9 +32,14 @@ async function readGeoJson(file: string): Promise<FeatureRead> {
   }
   const fc = doc as { type?: unknown; features?: unknown };
   if (fc?.type !== 'FeatureCollection' || !Array.isArray(fc.features)) {
-    return fail(`boundary file ${file} is not a GeoJSON FeatureCollection (type ${JSON.stringify(fc?.type)})`, 'give a FeatureCollection with one Feature per region');
+    return fail(
+      `boundary file ${file} is not a GeoJSON FeatureCollection (type ${JSON.stringify(fc?.type)})`,
+      'give a FeatureCollection with one Feature per region',
+    );
   }
-  const features = (fc.features as { id?: string | number; properties?: Record<string, unknown> | null; geometry?: RawFeature['geometry'] }[]).map((f, index) => ({
+  const features = (
+    fc.features as { id?: string | number; properties?: Record<string, unknown> | null; geometry?: RawFeature['geometry'] }[]
+  ).map((f, index) => ({
     index,
     ...(f?.id !== undefined ? { featureId: f.id } : {}),
     properties: f?.properties ?? {},
@@ -55,7 +61,10 @@ async function readShapefile(file: string): Promise<FeatureRead> {
     }
     return { ok: true, features };
   } catch (err) {
-    return fail(`shapefile ${file} (with ${basename(stem)}.dbf) cannot be read (${(err as Error).message})`, 'keep the .shp, .shx, .dbf and .prj files together, or export GeoJSON instead');
+    return fail(
+      `shapefile ${file} (with ${basename(stem)}.dbf) cannot be read (${(err as Error).message})`,
+      'keep the .shp, .shx, .dbf and .prj files together, or export GeoJSON instead',
+    );
   }
 }
 
@@ -64,5 +73,10 @@ export function readBoundaryFeatures(file: string): Promise<FeatureRead> {
   const ext = extname(file).toLowerCase();
   if (ext === '.shp') return readShapefile(file);
   if (ext === '.geojson' || ext === '.json') return readGeoJson(file);
-  return Promise.resolve(fail(`boundary file ${file} has extension '${ext}'; Forelight reads .geojson/.json and .shp`, 'convert it, e.g. ogr2ogr -f GeoJSON -t_srs EPSG:4326 districts.geojson <your file>'));
+  return Promise.resolve(
+    fail(
+      `boundary file ${file} has extension '${ext}'; Forelight reads .geojson/.json and .shp`,
+      'convert it, e.g. ogr2ogr -f GeoJSON -t_srs EPSG:4326 districts.geojson <your file>',
+    ),
+  );
 }

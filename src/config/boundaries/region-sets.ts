@@ -18,7 +18,11 @@ export function entryDefaults(entry: RawObject, defaultZone: string | undefined)
   const rule = text(entry['cell-rule']) as CellRule | undefined;
   const offset = num(entry['utc-offset-hours']);
   const zone = text(entry['time-zone']) ?? (offset === undefined ? defaultZone : undefined);
-  return { utcOffsetHours: offset ?? 0, ...(zone !== undefined ? { timeZone: zone } : {}), ...(rule !== undefined ? { cellRule: rule } : {}) };
+  return {
+    utcOffsetHours: offset ?? 0,
+    ...(zone !== undefined ? { timeZone: zone } : {}),
+    ...(rule !== undefined ? { cellRule: rule } : {}),
+  };
 }
 
 export async function loadRegionSets(raw: RawObject, dir: string): Promise<RegionSets> {
@@ -36,10 +40,18 @@ export async function loadRegionSets(raw: RawObject, dir: string): Promise<Regio
     problems.push(...loaded.problems);
     for (const r of loaded.regions) {
       const other = owner.get(r.id);
-      if (other) problems.push(problem(pointerOf('regions', i, 'boundaries'), `region id '${r.id}' from ${text(entry.boundaries)} is also used by ${other}`, 'give each region its own id (id-property, or rename the inline region)'));
+      if (other)
+        problems.push(
+          problem(
+            pointerOf('regions', i, 'boundaries'),
+            `region id '${r.id}' from ${text(entry.boundaries)} is also used by ${other}`,
+            'give each region its own id (id-property, or rename the inline region)',
+          ),
+        );
       else owner.set(r.id, `${text(entry.boundaries)}`);
     }
-    for (const ref of setTeamReferences(entry, i)) if (!teams.has(ref.team)) problems.push(problem(ref.pointer, `unknown team "${ref.team}"`, oneOf(teams)));
+    for (const ref of setTeamReferences(entry, i))
+      if (!teams.has(ref.team)) problems.push(problem(ref.pointer, `unknown team "${ref.team}"`, oneOf(teams)));
     byEntry.set(i, loaded.regions);
   }
   return { byEntry, problems };

@@ -28,16 +28,27 @@ export const definition = defineIndicator<'excess-heat-factor', ExcessHeatFactor
     const t95 = context.climatology?.dmtP95C;
     if (t95 === undefined) throw missingClimatology(ind, tmax.region, 'T95 of daily mean temperature (dmtP95C)');
     const output = ind.params.output ?? 'ehf';
-    if (output !== 'ehf' && output !== 'severity-ratio') throw badParam(ind, `params.output is "${String(output)}"`, 'use ehf or severity-ratio');
+    if (output !== 'ehf' && output !== 'severity-ratio')
+      throw badParam(ind, `params.output is "${String(output)}"`, 'use ehf or severity-ratio');
     const ehf85 = context.climatology?.ehf85;
     if (output === 'severity-ratio' && !(ehf85 !== undefined && ehf85 > 0)) throw missingClimatology(ind, tmax.region, 'positive EHF85');
     const data = new Float64Array(tmax.data.length);
     const notes: string[] = [];
-    const { partialAcclimatisationDays } = excessHeatFactorSeries(tmax.data, tmin.data, tmax.members, tmax.days.length, t95, context.antecedentDmtC, data);
+    const { partialAcclimatisationDays } = excessHeatFactorSeries(
+      tmax.data,
+      tmin.data,
+      tmax.members,
+      tmax.days.length,
+      t95,
+      context.antecedentDmtC,
+      data,
+    );
     if (partialAcclimatisationDays > 0) {
-      notes.push(`EHF acclimatisation (30-day mean) rests on fewer than 30 analysed days for ${partialAcclimatisationDays / tmax.members} lead day(s): give antecedentDmtC`);
+      notes.push(
+        `EHF acclimatisation (30-day mean) rests on fewer than 30 analysed days for ${partialAcclimatisationDays / tmax.members} lead day(s): give antecedentDmtC`,
+      );
     }
-    notes.push('EHF is NaN on the last 3 days (needs the next morning\'s Tmin and a 3-day forward window)');
+    notes.push("EHF is NaN on the last 3 days (needs the next morning's Tmin and a 3-day forward window)");
     if (output === 'severity-ratio') for (let i = 0; i < data.length; i++) data[i] = ehfSeverityRatio(data[i], ehf85 as number);
     return { template: tmax, data, outOfRange: 0, notes };
   },

@@ -16,7 +16,12 @@ export const definition = defineIndicator<'heat-load', DailyThresholdParams>({
   compute(ind, inputs, context) {
     const notes: string[] = [];
     const t = temperatureInput(ind, inputs, 'tmax', notes);
-    const data = heatLoadSeries(t, windowDays(ind), dayThreshold(ind, t.region, context), context.antecedent?.[t.quantity as AntecedentQuantity]);
+    const data = heatLoadSeries(
+      t,
+      windowDays(ind),
+      dayThreshold(ind, t.region, context),
+      context.antecedent?.[t.quantity as AntecedentQuantity],
+    );
     return { template: t, data, outOfRange: 0, notes };
   },
 });

@@ -10,7 +10,8 @@ export const definition = defineIndicator<'hot-days-run', DailyThresholdParams>(
   params: paramsSchema(DAILY_THRESHOLD_PARAMS),
   describe: {
     name: 'Run of hot days',
-    description: 'Consecutive days, up to each day, with the temperature above the daily threshold (analysed days before lead day 1 count).',
+    description:
+      'Consecutive days, up to each day, with the temperature above the daily threshold (analysed days before lead day 1 count).',
     references: [],
   },
   compute(ind, inputs, context) {

@@ -26,9 +26,14 @@ export const definition = defineIndicator<'malaria-suitability', MalariaSuitabil
   units: '1',
   needs: [['tmean', 'tmax'], ['tmean', 'tmin'], ['precip']],
   params: paramsSchema({
-    species: { enum: ['falciparum', 'vivax', 'P. falciparum', 'P. vivax'], default: DEFAULTS.species, description: 'Plasmodium species (sporogony constants).' },
+    species: {
+      enum: ['falciparum', 'vivax', 'P. falciparum', 'P. vivax'],
+      default: DEFAULTS.species,
+      description: 'Plasmodium species (sporogony constants).',
+    },
     'temperature-model': {
-      enum: ['martens-detinova', 'mordecai-2013'], default: DEFAULTS.temperatureModel,
+      enum: ['martens-detinova', 'mordecai-2013'],
+      default: DEFAULTS.temperatureModel,
       description: 'Temperature term: survival through sporogony (Martens, Detinova) or relative R0 (Mordecai, P. falciparum only).',
     },
     'lag-months': { enum: [1, 2], default: DEFAULTS.lagMonths, description: 'Months from the weather to the transmission it shapes.' },
@@ -50,7 +55,8 @@ export const definition = defineIndicator<'malaria-suitability', MalariaSuitabil
     checkAligned([t, pr]);
     const months = monthlySuitability(t.days, t.members, t.data, pr.data, p).filter((mo) => {
       const ok = mo.forecastDays / mo.daysInMonth >= p.minMonthCoverage;
-      if (!ok) notes.push(`month ${mo.dataMonth} has forecast for ${mo.forecastDays} of ${mo.daysInMonth} days: no index for ${mo.targetMonth}`);
+      if (!ok)
+        notes.push(`month ${mo.dataMonth} has forecast for ${mo.forecastDays} of ${mo.daysInMonth} days: no index for ${mo.targetMonth}`);
       return ok;
     });
     const days = months.flatMap((mo) => datesOfMonth(mo.targetMonth));
