@@ -15,31 +15,12 @@ import { Cron, type CronOptions } from 'croner';
 import cron from 'node-cron';
 import { ConfigError } from './errors.ts';
 import { diagnostic } from './diagnostics.ts';
-
-const formatters = new Map<string, Intl.DateTimeFormat>();
-
-function zoneFormatter(tz: string): Intl.DateTimeFormat {
-  let f = formatters.get(tz);
-  if (!f) {
-    f = new Intl.DateTimeFormat('en-US', {
-      timeZone: tz,
-      hourCycle: 'h23',
-      year: 'numeric',
-      month: 'numeric',
-      day: 'numeric',
-      hour: 'numeric',
-      minute: 'numeric',
-      second: 'numeric',
-    });
-    formatters.set(tz, f);
-  }
-  return f;
-}
+import { zoneOffsetMs } from './local-clock.ts';
 
 /** What is wrong with time zone `tz` and what to write instead, or null when this Node knows the IANA zone. */
 export function timeZoneProblem(tz: string): { message: string; fix: string } | null {
   try {
-    zoneFormatter(tz);
+    zoneOffsetMs(tz, 0);
     return null;
   } catch {
     return { message: `unknown IANA time zone "${tz}"`, fix: 'use a zone name such as Etc/GMT-1 (fixed UTC+1) or Africa/Lagos' };
@@ -50,14 +31,6 @@ export function timeZoneProblem(tz: string): { message: string; fix: string } | 
 export function checkTimeZone(tz: string): void {
   const p = timeZoneProblem(tz);
   if (p) throw new ConfigError([diagnostic('config-value', `schedule.timezone: ${p.message}`, p.fix, { pointer: '/schedule/timezone' })]);
-}
-
-/** Offset of zone `tz` from UTC at instant `ms`, in milliseconds (local = UTC + offset). */
-function zoneOffsetMs(tz: string, ms: number): number {
-  const p: Record<string, number> = {};
-  for (const part of zoneFormatter(tz).formatToParts(new Date(ms))) if (part.type !== 'literal') p[part.type] = Number(part.value);
-  const asUtc = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
-  return asUtc - (ms - (((ms % 1000) + 1000) % 1000));
 }
 
 /** The instant of a local wall time (given as a UTC-based ms "wall" value) in zone `tz`, "compatible" disambiguation. */
