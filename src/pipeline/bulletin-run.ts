@@ -11,7 +11,7 @@ import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts
 import { computeNextRuns } from '../core/next-runs.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
 import { changeReason } from './change-reason.ts';
-import type { SourceRead } from './read-stage.ts';
+import type { SourceRead } from './read-file.ts';
 
 export interface BulletinRunInput {
   readonly config: Config;

@@ -15,7 +15,8 @@ import { pairKey, type PairKey } from '../core/keys.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
 import type { IndicatorSeries } from '../types.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
-import type { HindcastRead, RegionQuantities } from './read-stage.ts';
+import type { RegionQuantities } from './read-file.ts';
+import type { HindcastRead } from './read-stage.ts';
 
 export interface IndicatorClimate {
   readonly hindcast: LeadClimate | null;

@@ -5,31 +5,17 @@
 import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
-import type { Quantity, RegionSeries } from '../types.ts';
+import { readFile, regionCells, type RegionQuantities, type SourceRead } from './read-file.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
 import { readUsableForecast } from './usable-forecast.ts';
-
-/** region id → quantity → series. */
-export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
 
 export interface HindcastRead {
   readonly year: number;
   readonly start: string;
   readonly path: string;
   readonly series: RegionQuantities;
-}
-
-export interface SourceRead {
-  readonly source: SourceConfig;
-  readonly date: string;
-  readonly path: string;
-  readonly stale: boolean;
-  readonly referenceTime: string;
-  readonly series: RegionQuantities;
-  /** How the forecast file's times were read where a convention decided it (for run.json notes). */
-  readonly notes: readonly string[];
 }
 
 export interface ReadResult {
@@ -41,62 +27,6 @@ export interface ReadResult {
   readonly problems: readonly ForelightError[];
 }
 
-function group(series: readonly RegionSeries[]): RegionQuantities {
-  const out: RegionQuantities = new Map();
-  for (const s of series) {
-    let byQ = out.get(s.region);
-    if (!byQ) out.set(s.region, (byQ = new Map()));
-    byQ.set(s.quantity, s);
-  }
-  return out;
-}
-
-/** What one file read needs besides its path: the forecast date (or hindcast start) and the source's tier. */
-export interface FileRequest {
-  readonly referenceTime?: string;
-  readonly tier?: SourceConfig['tier'];
-  /** Receives how the file's times were read (model calendar, monthly values). */
-  readonly notes?: string[];
-  /** Folder of the region-weights cache (calibration.cache-dir), computed once per grid and region set. */
-  readonly weightsCacheDir?: string;
-}
-
-export async function readFile(
-  extract: Extractor,
-  path: string,
-  quantities: SourceConfig['variables'],
-  regions: readonly RegionConfig[],
-  request: FileRequest,
-  problems: ForelightError[],
-): Promise<RegionQuantities | null> {
-  try {
-    const r = await extract(path, {
-      quantities,
-      regions,
-      referenceTime: request.referenceTime,
-      tier: request.tier,
-      weightsCacheDir: request.weightsCacheDir,
-    });
-    problems.push(...r.problems);
-    request.notes?.push(...r.notes);
-    return group(r.series);
-  } catch (err) {
-    if (err instanceof ForelightError) {
-      problems.push(err);
-      return null;
-    }
-    problems.push(
-      new InputError(
-        'read-failed',
-        path,
-        `could not be read (${err instanceof Error ? err.message : String(err)})`,
-        'check the file; the other sources went on',
-      ),
-    );
-    return null;
-  }
-}
-
 /** `work` over `items` with at most `parallel` in flight; results in input order. */
 async function inOrder<T, R>(items: readonly T[], parallel: number, work: (item: T) => Promise<R>): Promise<R[]> {
   const out: R[] = new Array(items.length);
@@ -106,11 +36,6 @@ async function inOrder<T, R>(items: readonly T[], parallel: number, work: (item:
   };
   await Promise.all(Array.from({ length: Math.max(1, Math.min(parallel, items.length)) }, lane));
   return out;
-}
-
-/** Grid cells each region covers in a file (the same for every quantity of one file). */
-export function regionCells(series: RegionQuantities): Map<string, number> {
-  return new Map([...series].map(([region, byQ]) => [region, [...byQ.values()][0]?.cells ?? 0]));
 }
 
 /**

@@ -20,7 +20,8 @@ import type { LeadProbability } from '../types.ts';
 import { buildIndicatorClimate, type IndicatorClimate, type ObservedIndicators } from './climate-stage.ts';
 import { indicatorContext } from './indicator-context.ts';
 import type { SourceInputs } from './inputs.ts';
-import { readHindcasts, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
+import { regionCells, type RegionQuantities, type SourceRead } from './read-file.ts';
+import { readHindcasts } from './read-stage.ts';
 
 export interface SourceOutcome {
   readonly source: string;

@@ -12,7 +12,7 @@ import { ForelightError, InputError } from '../core/errors.ts';
 import type { Quantity } from '../types.ts';
 import { hindcastsFor, type ForecastCandidate, type SourceInputs } from './inputs.ts';
 import type { Extractor } from '../read/extract.ts';
-import { readFile, regionCells, type RegionQuantities, type SourceRead } from './read-stage.ts';
+import { readFile, regionCells, type RegionQuantities, type SourceRead } from './read-file.ts';
 
 export interface UsableForecast {
   readonly read: SourceRead;
