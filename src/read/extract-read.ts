@@ -31,24 +31,34 @@ export function bandCellReader(ds: Dataset, layout: VariableLayout, band: GridBa
   count[layout.latAxis] = band.nLat;
   start[layout.lonAxis] = wraps ? 0 : band.lon0;
   count[layout.lonAxis] = wraps ? band.gridLon : band.nLon;
-  const strides = new Array<number>(rank).fill(1);
-  for (let k = rank - 2; k >= 0; k--) strides[k] = strides[k + 1] * count[k + 1];
-  const sT = layout.timeAxis >= 0 ? strides[layout.timeAxis] : 0;
   const cells = band.used.length;
   const firstLon = wraps ? band.lon0 : 0;
-  const offsets = Array.from(band.used, (u) => {
-    const r = Math.floor(u / band.nLon);
-    const c = (u - r * band.nLon + firstLon) % count[layout.lonAxis];
-    return r * strides[layout.latAxis] + c * strides[layout.lonAxis];
-  });
-  /** order[j] = the used cell at the j-th smallest offset. */
+  /** C-order strides of the hyperslab when it spans `steps` time steps (they depend on it when time is inner to lat/lon). */
+  const stridesFor = (steps: number): number[] => {
+    const n = [...count];
+    if (layout.timeAxis >= 0) n[layout.timeAxis] = steps;
+    const strides = new Array<number>(rank).fill(1);
+    for (let k = rank - 2; k >= 0; k--) strides[k] = strides[k + 1] * n[k + 1];
+    return strides;
+  };
+  const offsetsWith = (strides: readonly number[]): number[] =>
+    Array.from(band.used, (u) => {
+      const r = Math.floor(u / band.nLon);
+      const c = (u - r * band.nLon + firstLon) % count[layout.lonAxis];
+      return r * strides[layout.latAxis] + c * strides[layout.lonAxis];
+    });
+  const offsets = offsetsWith(stridesFor(1));
+  /** order[j] = the used cell at the j-th smallest offset (the same for any number of steps: axis order decides it). */
   const order = Int32Array.from(offsets.keys()).sort((a, b) => offsets[a] - offsets[b]);
-  const sortedOffsets = Int32Array.from(order, (k) => offsets[k]);
-  /** Ascending positions of the used cells over `steps` steps: the same for every member, so built once per length. */
+  /** Positions of the used cells over `steps` steps, [time][cell in `order`]: the same for every member, so built once per length. */
   const positionsByLength = new Map<number, Int32Array>();
   const positionsFor = (steps: number): Int32Array => {
     let positions = positionsByLength.get(steps);
     if (!positions) {
+      const strides = stridesFor(steps);
+      const sT = layout.timeAxis >= 0 ? strides[layout.timeAxis] : 0;
+      const stepOffsets = offsetsWith(strides);
+      const sortedOffsets = Int32Array.from(order, (k) => stepOffsets[k]);
       positions = new Int32Array(steps * cells);
       for (let t = 0; t < steps; t++) for (let j = 0; j < cells; j++) positions[t * cells + j] = t * sT + sortedOffsets[j];
       positionsByLength.set(steps, positions);
