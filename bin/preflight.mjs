@@ -10,8 +10,8 @@ import { fileURLToPath } from 'node:url';
 const listFile = join(dirname(fileURLToPath(import.meta.url)), '..', '.ci', 'debian-packages.txt');
 const wanted = readFileSync(listFile, 'utf8')
   .split('\n')
-  .map((l) => l.trim())
-  .filter((l) => l && !l.startsWith('#'));
+  .map((l) => l.replace(/#.*/, '').trim())
+  .filter(Boolean);
 
 function installed(pkg) {
   const r = spawnSync('dpkg-query', ['-W', '-f=${Status}', pkg], { encoding: 'utf8' });
