@@ -11,19 +11,27 @@ import { join } from 'node:path';
 import { ForelightError } from './errors.ts';
 import { jsonShape, parseShaped } from './json-shape.ts';
 
+/** The one error for a file that cannot be read to checksum it. */
+function unreadable(path: string, err: unknown): ForelightError {
+  const why = err instanceof Error ? err.message : String(err);
+  return new ForelightError(
+    'calibrate',
+    'checksum-read',
+    `cannot read ${path} to checksum it: ${why}`,
+    'check the hindcast/observation path in the YAML',
+    {
+      cause: err,
+    },
+  );
+}
+
 /** sha256 (hex) of one file's contents. */
 export async function sha256File(path: string): Promise<string> {
   const h = createHash('sha256');
   try {
     for await (const chunk of createReadStream(path)) h.update(chunk as Buffer);
   } catch (err) {
-    throw new ForelightError(
-      'calibrate',
-      'checksum-read',
-      `cannot read ${path} to checksum it: ${(err as Error).message}`,
-      'check the hindcast/observation path in the YAML',
-      { cause: err },
-    );
+    throw unreadable(path, err);
   }
   return h.digest('hex');
 }
@@ -56,13 +64,7 @@ export async function openChecksumMemo(cacheDir: string | null): Promise<Checksu
         const s = statSync(path);
         key = `${path}|${s.size}|${s.mtimeMs}`;
       } catch (err) {
-        throw new ForelightError(
-          'calibrate',
-          'checksum-read',
-          `cannot read ${path} to checksum it: ${(err as Error).message}`,
-          'check the hindcast/observation path in the YAML',
-          { cause: err },
-        );
+        throw unreadable(path, err);
       }
       const hit = known[key];
       if (hit) return hit;
