@@ -44,6 +44,16 @@ export interface RegionSeries {
   /** Number of grid cells that fall in the region. */
   readonly cells: number;
   readonly provenance: Provenance;
+  /** How the cells were weighted: by area (absent) or by the people of the population raster. */
+  readonly weighting?: 'population';
+  /** Every cell's own series, for indicators whose region value is a share above a level (absent otherwise). */
+  readonly perCell?: CellSeries;
+}
+
+/** The cells of a region one by one: weights (area or people, summing to 1) and [cell][member][day] values. */
+export interface CellSeries {
+  readonly weights: Float64Array;
+  readonly data: Float64Array;
 }
 
 /** All region series of one forecast (or one hindcast start, or the observations). */
