@@ -167,6 +167,37 @@ export interface ReliabilityDiagram {
   readonly bins: readonly ReliabilityBin[];
 }
 
+/** Tercile boundaries (1/3 and 2/3 quantiles of the hindcast climate, calibrate/terciles.ts). */
+export interface TercileEdges {
+  readonly lower: number;
+  readonly upper: number;
+}
+
+/** Skill of a tercile outlook over the hindcast years (rpss.ts), with its 90 % year-block bootstrap interval. */
+export interface TercileSkill {
+  readonly years: number;
+  readonly rpss: number;
+  readonly rpssDebiased: number;
+  readonly low: number;
+  readonly high: number;
+}
+
+/** Below/near/above-normal chances of a month or a 3-month season of the forecast. */
+export interface TercileOutlook {
+  readonly period: 'month' | 'season';
+  /** Month leads covered (1-based): [first, last]. */
+  readonly months: readonly [number, number];
+  readonly start: string;
+  readonly end: string;
+  readonly below: number;
+  readonly near: number;
+  readonly above: number;
+  readonly members: number;
+  readonly edges: TercileEdges;
+  /** Null without observations covering the period (never a perfect-model estimate). */
+  readonly skill: TercileSkill | null;
+}
+
 /** Output of the calibrate stage: exceedance probability at one lead. */
 export interface LeadProbability {
   readonly source: string;
@@ -186,6 +217,11 @@ export interface LeadProbability {
   readonly skill: SkillSummary | null;
   /** False when hindcasts did not cover this lead (threshold not from model climate). */
   readonly calibrated: boolean;
+  /**
+   * Months tier, temperature and rain indicators: below/near/above-normal chances of this month and of the
+   * 3-month season starting with it (null past the last full season), with their RPSS.
+   */
+  readonly terciles?: { readonly month: TercileOutlook; readonly season: TercileOutlook | null };
 }
 
 /** Output of the decide stage: the stage for one region × indicator × tier, with the reasons. */

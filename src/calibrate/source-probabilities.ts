@@ -13,6 +13,7 @@ import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
 import { tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
 import { leadProbabilities } from './probability.ts';
 import { skillByLead } from './skill.ts';
+import { withTerciles } from './terciles.ts';
 import { resolveThresholdSpec } from './thresholds.ts';
 
 export interface SourceOutcome {
@@ -61,18 +62,26 @@ export function sourceProbabilities(
       );
       const forecast = aggregateToLeads(series, read.source.tier, ind.aggregate);
       forecastLeads.set(pairKey(region.id, ind.id), forecast);
+      const leads = leadProbabilities({
+        source: read.source.id,
+        region: region.id,
+        indicator: ind.id,
+        units: series.units,
+        forecast,
+        hindcast: climate?.hindcast ?? null,
+        observed: climate?.observed ?? null,
+        threshold: resolveThresholdSpec(ind, region.id),
+        calibration: config.calibration,
+        skill: climate ? skillByLead(climate.skill) : undefined,
+      });
       probabilities.push(
-        ...leadProbabilities({
-          source: read.source.id,
-          region: region.id,
-          indicator: ind.id,
-          units: series.units,
+        ...withTerciles(leads, {
           forecast,
           hindcast: climate?.hindcast ?? null,
           observed: climate?.observed ?? null,
-          threshold: resolveThresholdSpec(ind, region.id),
-          calibration: config.calibration,
-          skill: climate ? skillByLead(climate.skill) : undefined,
+          units: series.units,
+          aggregate: ind.aggregate,
+          bootstrap: config.decision.skillGate,
         }),
       );
     } catch (err) {

@@ -9,17 +9,14 @@
  * both sides, so neither side's category frequencies are biased against the other).
  */
 import { percentileLinear } from '../core/percentile.ts';
-import type { LeadWindow } from '../types.ts';
+import type { LeadProbability, LeadWindow, TercileEdges, TercileOutlook, TercileSkill } from '../types.ts';
+
+export type { TercileEdges, TercileOutlook, TercileSkill } from '../types.ts';
 import { leadSample, yearMembers, type LeadClimate } from './climate.ts';
-import type { CategoryCases } from './rpss.ts';
+import { rankedProbabilitySkill, rpssBootstrap, type CategoryCases } from './rpss.ts';
 
 export type TercileCategory = 'below' | 'near' | 'above';
 export const TERCILES: readonly TercileCategory[] = ['below', 'near', 'above'];
-
-export interface TercileEdges {
-  readonly lower: number;
-  readonly upper: number;
-}
 
 /** The 1/3 and 2/3 quantiles of the valid values (NaN when none). */
 export function tercileEdges(values: ArrayLike<number>): TercileEdges {
@@ -90,4 +87,93 @@ export function tercileCases(hc: LeadClimate, obs: LeadClimate, l: number): Cate
     members: Float64Array.from(members),
     caseYears: Float64Array.from(caseYears),
   };
+}
+
+export interface TercileRequest {
+  /** Forecast month leads (aggregateToLeads, tier months). */
+  readonly forecast: { readonly leads: readonly LeadWindow[]; readonly members: number; readonly values: Float64Array };
+  readonly hindcast: LeadClimate;
+  readonly observed: LeadClimate | null;
+  /** How months make a season: mean (temperature) or sum (rain). */
+  readonly how: 'mean' | 'sum';
+  readonly bootstrap: { readonly resamples: number; readonly seed: number };
+}
+
+function forecastSeason(f: TercileRequest['forecast'], how: 'mean' | 'sum'): LeadClimate {
+  return seasonalClimate({ years: [0], members: f.members, leads: [...f.leads], units: '', values: f.values }, how);
+}
+
+function outlookAt(
+  period: 'month' | 'season',
+  l: number,
+  members: Float64Array,
+  hc: LeadClimate,
+  obs: LeadClimate | null,
+  boot: TercileRequest['bootstrap'],
+): TercileOutlook {
+  const edges = tercileEdges(leadSample(hc, l));
+  const f = tercileProbabilities(members, edges);
+  let skill: TercileSkill | null = null;
+  if (obs && l < obs.leads.length && leadSample(obs, l).length > 0) {
+    const cases = tercileCases(hc, obs, l);
+    const s = rankedProbabilitySkill(cases);
+    const iv = rpssBootstrap(cases, boot);
+    skill = { years: new Set(cases.caseYears).size, rpss: s.rpss, rpssDebiased: s.rpssDebiased, low: iv.low, high: iv.high };
+  }
+  const span = period === 'month' ? 0 : 2;
+  return {
+    period,
+    months: [l + 1, l + 1 + span],
+    start: hc.leads[l].start,
+    end: hc.leads[l].end,
+    below: f.p[0],
+    near: f.p[1],
+    above: f.p[2],
+    members: f.valid,
+    edges,
+    skill,
+  };
+}
+
+/** Tercile outlooks of every forecast month and every 3-month season the hindcasts cover. */
+export function tercileOutlooks(req: TercileRequest): TercileOutlook[] {
+  const { forecast: f, hindcast: hc, observed: obs } = req;
+  const n = Math.min(f.leads.length, hc.leads.length);
+  const memberValues = (values: Float64Array, nLeads: number, l: number) =>
+    Float64Array.from({ length: f.members }, (_, m) => values[m * nLeads + l]);
+  const months = Array.from({ length: n }, (_, l) =>
+    outlookAt('month', l, memberValues(f.values, f.leads.length, l), hc, obs, req.bootstrap),
+  );
+  const fs = forecastSeason(f, req.how);
+  const hs = seasonalClimate(hc, req.how);
+  const os = obs ? seasonalClimate(obs, req.how) : null;
+  const seasons = Array.from({ length: Math.min(fs.leads.length, hs.leads.length) }, (_, s) =>
+    outlookAt('season', s, memberValues(fs.values, fs.leads.length, s), hs, os, req.bootstrap),
+  );
+  return [...months, ...seasons];
+}
+
+/** Units of the quantities seasonal outlooks are read for: temperature and rain (an index or a count has none). */
+const TERCILE_UNITS = new Set(['degC', 'mm', 'mm/day']);
+
+/**
+ * The months-tier probabilities of a temperature or rain indicator with their tercile outlooks attached (month l
+ * and the season starting at l); other tiers, units or a missing hindcast climate are returned unchanged.
+ */
+export function withTerciles(
+  probabilities: readonly LeadProbability[],
+  req: Omit<TercileRequest, 'hindcast' | 'how'> & {
+    readonly hindcast: LeadClimate | null;
+    readonly units: string;
+    readonly aggregate: 'mean' | 'max' | 'sum';
+  },
+): LeadProbability[] {
+  const hindcast = req.hindcast;
+  if (!hindcast || !TERCILE_UNITS.has(req.units) || req.forecast.leads[0]?.tier !== 'months') return [...probabilities];
+  const outlooks = tercileOutlooks({ ...req, hindcast, how: req.aggregate === 'sum' ? 'sum' : 'mean' });
+  return probabilities.map((p) => {
+    const month = outlooks.find((o) => o.period === 'month' && o.months[0] === p.lead.index);
+    if (!month) return p;
+    return { ...p, terciles: { month, season: outlooks.find((o) => o.period === 'season' && o.months[0] === p.lead.index) ?? null } };
+  });
 }

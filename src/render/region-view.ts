@@ -9,6 +9,7 @@ import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatDayRange, formatNumber } from './locale-format.ts';
+import { tercileLines } from './tercile-words.ts';
 import { pastYearsShare, thresholdNumber, thresholdWords } from './threshold-words.ts';
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
@@ -135,6 +136,7 @@ function methodLines(
       }),
     );
   } else lines.push(t('method.noSkill'));
+  lines.push(...tercileLines(t, locale, outcome.probabilities));
   const beyond = leads.filter(isBeyondTable).length;
   if (beyond > 0) lines.push(t('method.beyondTable', { leads: beyond }));
   return lines;

@@ -14,7 +14,15 @@ import {
   rpssDebiasTerm,
   type CategoryCases,
 } from '../../src/calibrate/rpss.ts';
-import { seasonalClimate, tercileCases, tercileEdges, tercileProbabilities } from '../../src/calibrate/terciles.ts';
+import {
+  seasonalClimate,
+  tercileCases,
+  tercileEdges,
+  tercileOutlooks,
+  tercileProbabilities,
+  withTerciles,
+} from '../../src/calibrate/terciles.ts';
+import type { LeadProbability } from '../../src/types.ts';
 import { contingencyTable, falseAlarmRate, falseAlarmRatio, hitRate, peirceSkillScore } from '../../src/calibrate/verify.ts';
 import { mulberry32, normal } from '../support/rng.ts';
 import { climate, leadsOf, YEARS_2006_2025 } from './climate-fixture.ts';
@@ -176,5 +184,49 @@ describe('consistency bars tell reliable from unreliable forecasts', () => {
     );
     const ends = noSkill.bins.filter((b) => b.forecastMean <= 0.1 || b.forecastMean >= 0.9);
     expect(ends.every((b) => b.observedFrequency < b.consistencyLow || b.observedFrequency > b.consistencyHigh)).toBe(true);
+  });
+});
+
+describe('tercile outlooks of a forecast (months and 3-month seasons)', () => {
+  const rand = mulberry32(8);
+  const gauss = normal(rand);
+  const hc = climate(YEARS_2006_2025, 5, leadsOf('months', 4), () => 25 + gauss());
+  const obs = climate(YEARS_2006_2025, 1, leadsOf('months', 4), () => 25 + gauss());
+  const members = 6;
+  // members far above the climate in month 1, far below in month 2, at the climate's centre afterwards
+  const values = Float64Array.from({ length: members * 4 }, (_, i) => [30, 20, 25, 25][i % 4]);
+  const forecast = { leads: leadsOf('months', 4), members, values };
+  const boot = { resamples: 300, seed: 2 };
+
+  it('chances per month and season; skill only where observations verify them', () => {
+    const out = tercileOutlooks({ forecast, hindcast: hc, observed: obs, how: 'mean', bootstrap: boot });
+    const months = out.filter((o) => o.period === 'month');
+    const seasons = out.filter((o) => o.period === 'season');
+    expect(months.map((o) => [o.below, o.near, o.above])).toEqual([
+      [0, 0, 1],
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 1, 0],
+    ]);
+    expect(seasons.map((o) => o.months)).toEqual([
+      [1, 3],
+      [2, 4],
+    ]);
+    expect(seasons[0].near).toBe(1); // season mean (30 + 20 + 25)/3 = 25: near normal
+    expect(out.every((o) => o.skill !== null && o.skill.years === 20 && o.skill.low <= o.skill.high)).toBe(true);
+    const unchecked = tercileOutlooks({ forecast, hindcast: hc, observed: null, how: 'mean', bootstrap: boot });
+    expect(unchecked.every((o) => o.skill === null)).toBe(true);
+  });
+
+  it('attached to the months tier of temperature and rain only', () => {
+    const probs = leadsOf('months', 4).map((lead) => ({ lead }) as unknown as LeadProbability);
+    const base = { forecast, hindcast: hc, observed: obs, aggregate: 'mean' as const, bootstrap: boot };
+    const withT = withTerciles(probs, { ...base, units: 'degC' });
+    expect(withT[0].terciles?.month.above).toBe(1);
+    expect(withT[0].terciles?.season?.months).toEqual([1, 3]);
+    expect(withT[3].terciles?.season).toBeNull();
+    expect(withTerciles(probs, { ...base, units: '1' })[0].terciles).toBeUndefined(); // an index 0..1 has no seasonal categories
+    const weeks = { ...forecast, leads: leadsOf('weeks', 4) };
+    expect(withTerciles(probs, { ...base, forecast: weeks, units: 'degC' })[0].terciles).toBeUndefined();
   });
 });
