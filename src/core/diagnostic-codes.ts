@@ -516,6 +516,13 @@ export const DIAGNOSTIC_CODES = {
     meaning: 'an archive entry is unreadable',
     fix: 'delete or restore the file named; the archive is rebuilt from the others',
   },
+  'bulletin-contradiction': {
+    stage: 'render',
+    severity: 'error',
+    meaning:
+      'two statements of a rendered bulletin disagree (stage and the rows that drove it, probability word and number, skill wording and figures, threshold text and value, "no forecast available" and the rows); the bulletin went out as rendered',
+    fix: 'report it with run.json of the run: it is a bug in Forelight, and the message names region, hazard, range and what disagrees',
+  },
   'write-failed': {
     stage: 'render',
     severity: 'error',
