@@ -99,6 +99,13 @@ export const DIAGNOSTIC_CODES = {
     meaning: "a source's forecast file is missing or unreadable, so `forelight check` could not compare the regions with its grid",
     fix: 'run check again once the files are there',
   },
+  'region-between-centres': {
+    stage: 'config',
+    severity: 'warning',
+    meaning:
+      'a box region lies on a source grid but contains no cell centre: with cell-rule centre it gets no cells; with overlap (default) its value is that of the cells around it',
+    fix: 'remove cell-rule: centre, enlarge the box, or use a finer grid',
+  },
   'config-grid': {
     stage: 'config',
     severity: 'error',
