@@ -44,16 +44,28 @@ export interface RegionSeries {
   /** Number of grid cells that fall in the region. */
   readonly cells: number;
   readonly provenance: Provenance;
+  /** How the cells were weighted: by area (absent) or by the people of the population raster. */
+  readonly weighting?: 'population';
+  /** Every cell's own series, for indicators whose region value is a share above a level (absent otherwise). */
+  readonly perCell?: CellSeries;
 }
 
-/** All region series of one forecast (or one hindcast start, or the observations). */
-export interface EnsembleForecast {
-  readonly source: string;
-  readonly kind: 'forecast' | 'hindcast' | 'observed';
-  /** ISO 8601 UTC reference (start) time. */
-  readonly referenceTime: string;
-  /** region id → quantity → series. */
-  readonly series: ReadonlyMap<string, ReadonlyMap<Quantity, RegionSeries>>;
+/** The cells of a region one by one: weights (area or people, summing to 1) and [cell][member][day] values. */
+export interface CellSeries {
+  readonly weights: Float64Array;
+  readonly data: Float64Array;
+}
+
+/** Output of the read stage for one file (a forecast, one hindcast start or the observations): region id → quantity → series. */
+export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
+
+/** Output of the read stage for one hindcast start of a source. */
+export interface HindcastRead {
+  readonly year: number;
+  /** Start date, YYYY-MM-DD. */
+  readonly start: IsoDate;
+  readonly path: string;
+  readonly series: RegionQuantities;
 }
 
 /** Output of the indicators stage: one indicator for one region, per member and day. */
