@@ -81,6 +81,8 @@ export interface IndicatorSeries {
   readonly outOfRange: number;
   /** Count of missing (NaN) values in the result. */
   readonly missing: number;
+  /** 1 where a value lies beyond the formula's published table and was capped there (heat index), member-major. */
+  readonly beyondTable?: Uint8Array;
 }
 
 /** One lead of a tier: the local days it speaks for. */

@@ -10,10 +10,10 @@ import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatNumber } from './locale-format.ts';
 import { USABLE, headlineOf, type Headline } from './headline.ts';
+import { pastYearsShare, rangeWords, thresholdNumber, thresholdRangeWords, thresholdWords } from './threshold-words.ts';
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
   TIERS,
-  formatThreshold,
   groupLeads,
   leadView,
   noForecastView,
@@ -83,33 +83,15 @@ export function hazardName(t: Translate, ind: IndicatorConfig | undefined, fallb
   return ind ? t(`hazard.${ind.kind}`, { days: ind.windowDays }) : fallback;
 }
 
-function thresholdWords(t: Translate, locale: string, ind: IndicatorConfig | undefined, p: LeadProbability | undefined): string {
-  if (!p || !Number.isFinite(p.threshold.value)) return t('threshold.none');
-  if (ind?.kind === 'excess-heat-factor')
-    return p.threshold.value === 0 ? t('threshold.ehfAny') : t('threshold.ehf', { value: formatNumber(locale, p.threshold.value, 1) });
-  if (ind?.kind === 'malaria-suitability') return t('threshold.index', { value: formatNumber(locale, p.threshold.value, 2) });
-  return formatThreshold(locale, p.threshold.value, p.threshold.units);
+/** A lead with members beyond the formula's published table (flag of calibrate/probability.ts). */
+function isBeyondTable(lead: LeadView): boolean {
+  return lead.flags.some((f) => f.startsWith('beyond-table:'));
 }
 
 /** Lowest and highest threshold over a tier's leads. */
 function thresholdRangeOf(probabilities: readonly LeadProbability[]): { low: number; high: number } {
   const values = probabilities.map((p) => p.threshold.value).filter(Number.isFinite);
   return values.length === 0 ? { low: NaN, high: NaN } : { low: Math.min(...values), high: Math.max(...values) };
-}
-
-/** The thresholds of the leads shown in words: one value when they print alike, else "lowest to highest". */
-function thresholdText(
-  t: Translate,
-  locale: string,
-  probabilities: readonly LeadProbability[],
-  words: (p: LeadProbability) => string,
-): string {
-  const finite = probabilities.filter((p) => Number.isFinite(p.threshold.value));
-  if (finite.length === 0) return '';
-  const low = finite.reduce((a, p) => (p.threshold.value < a.threshold.value ? p : a));
-  const high = finite.reduce((a, p) => (p.threshold.value > a.threshold.value ? p : a));
-  const [lo, hi] = [words(low), words(high)];
-  return lo === hi ? lo : t('threshold.range', { low: lo, high: hi });
 }
 
 /** Why a range's stage is not what its rows point to: kept higher by persistence, or no usable data. */
@@ -131,13 +113,13 @@ function methodLines(
 ): string[] {
   const lines: string[] = [];
   const range = thresholdRangeOf(outcome.probabilities);
-  const value =
-    thresholdText(t, locale, outcome.probabilities, (p) => formatThreshold(locale, p.threshold.value, p.threshold.units)) || '–';
-  if (spec?.kind === 'percentile') lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value }));
+  const value = rangeWords(t, outcome.probabilities, (p) => thresholdNumber(locale, p.threshold.value, p.threshold.units)) || '–';
+  if (spec?.kind === 'percentile')
+    lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value, ...pastYearsShare(spec.percentile) }));
   else if (spec?.kind === 'absolute') {
     const mapped = Number.isFinite(range.low) && (Math.abs(range.low - spec.value) > 1e-9 || Math.abs(range.high - spec.value) > 1e-9);
     lines.push(
-      t('method.thresholdAbsolute', { fixed: formatThreshold(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }),
+      t('method.thresholdAbsolute', { fixed: thresholdNumber(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }),
     );
   }
   const scored = outcome.probabilities.filter((q) => q.skill);
@@ -159,6 +141,8 @@ function methodLines(
       }),
     );
   } else lines.push(t('method.noSkill'));
+  const beyond = leads.filter(isBeyondTable).length;
+  if (beyond > 0) lines.push(t('method.beyondTable', { leads: beyond }));
   return lines;
 }
 
@@ -194,7 +178,9 @@ function whyText(
   stage: StageView,
   byRank: readonly StageView[],
 ): string {
-  return [evidenceText(t, config, region, tiers, stage, byRank), missingText(t, region, tiers)].filter(Boolean).join(' ');
+  const beyond = tiers.filter((tv) => tv.leads.some(isBeyondTable)).map((tv) => tv.hazard);
+  const beyondText = beyond.length > 0 ? t('why.beyondTable', { hazards: [...new Set(beyond)].join(', ') }) : '';
+  return [evidenceText(t, config, region, tiers, stage, byRank), beyondText, missingText(t, region, tiers)].filter(Boolean).join(' ');
 }
 
 function evidenceText(
@@ -254,13 +240,13 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
   const indicatorOf = (id: string) => config.indicators.find((i) => i.id === id);
   const tiers = outcome.perTier.map((tier): TierView => {
     const ind = indicatorOf(tier.indicator.id);
-    const words = { t, threshold: (p: LeadProbability) => thresholdWords(t, locale, ind, p) };
+    const spec = ind ? (ind.regionThresholds[outcome.region.id] ?? ind.threshold) : undefined;
+    const words = { t, threshold: (p: LeadProbability) => thresholdWords(t, locale, ind, spec, p) };
     const uses = tierLeadUses(config, tier);
     const lowest = config.stages[0].id;
     const useOf = (index: number) =>
       uses.find((u) => u.index === index) ?? { index, kind: 'no-value' as const, reachedId: lowest, supportsId: lowest };
     const leads = tier.probabilities.map((p) => leadView(config, p, tier, locale, (r) => byRank[r], useOf(p.lead.index), words));
-    const spec = ind ? (ind.regionThresholds[outcome.region.id] ?? ind.threshold) : undefined;
     const stageView = view(tier.decision.stageId);
     return {
       tier: tier.tier,
@@ -271,7 +257,7 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
       deciding: leads.find((l) => l.deciding) ?? null,
       leads,
       groups: groupLeads(locale, leads, tier.probabilities),
-      threshold: thresholdText(t, locale, tier.probabilities, words.threshold) || t('threshold.none'),
+      threshold: thresholdRangeWords(t, locale, ind, spec, tier.probabilities),
       thresholdRange: thresholdRangeOf(tier.probabilities),
       note: tierNote(t, tier, stageView),
       method: methodLines(t, locale, config, spec, tier, leads),
