@@ -9,25 +9,10 @@
  * observed frequency outside its bar is evidence of unreliability at that probability. Seeded mulberry32.
  */
 import { percentileLinear } from '../core/percentile.ts';
+import type { ReliabilityBin, ReliabilityDiagram } from '../types.ts';
 import { mulberry32 } from './seeded-random.ts';
 
-export interface ReliabilityBin {
-  /** Bin edges: [low, high) (the last bin includes 1). */
-  readonly low: number;
-  readonly high: number;
-  readonly count: number;
-  readonly forecastMean: number;
-  readonly observedFrequency: number;
-  /** 90 % consistency bar (NaN when no resample put a case in the bin). */
-  readonly consistencyLow: number;
-  readonly consistencyHigh: number;
-}
-
-export interface ReliabilityDiagram {
-  readonly cases: number;
-  readonly resamples: number;
-  readonly bins: readonly ReliabilityBin[];
-}
+export type { ReliabilityBin, ReliabilityDiagram } from '../types.ts';
 
 export const DEFAULT_RELIABILITY_EDGES: readonly number[] = Array.from({ length: 10 }, (_, i) => (2 * i + 1) / 20);
 

@@ -18,7 +18,7 @@ import type { HindcastRead } from '../types.ts';
 import type { LeadClimate } from './climate.ts';
 import { buildIndicatorClimate, tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
 
-export const SKILL_CACHE_VERSION = 5;
+export const SKILL_CACHE_VERSION = 6;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {
