@@ -8,7 +8,9 @@
 export type IsoDate = string;
 
 /** Lead-time tiers: short-range days, sub-seasonal weeks, seasonal months. */
-export type Tier = 'days' | 'weeks' | 'months';
+/** The tiers, shortest first. */
+export const TIERS = ['days', 'weeks', 'months'] as const;
+export type Tier = (typeof TIERS)[number];
 
 /** Canonical physical quantities Forelight reads, with their canonical units. */
 export type Quantity = 'tmax' | 'tmin' | 'tmean' | 'dewpoint' | 'rh' | 'precip' | 'wind';
