@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { describeError } from '../core/errors.ts';
 import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
 
-export const SKILL_CACHE_VERSION = 5;
+export const SKILL_CACHE_VERSION = 6;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {
