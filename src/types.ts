@@ -46,14 +46,16 @@ export interface RegionSeries {
   readonly provenance: Provenance;
 }
 
-/** All region series of one forecast (or one hindcast start, or the observations). */
-export interface EnsembleForecast {
-  readonly source: string;
-  readonly kind: 'forecast' | 'hindcast' | 'observed';
-  /** ISO 8601 UTC reference (start) time. */
-  readonly referenceTime: string;
-  /** region id → quantity → series. */
-  readonly series: ReadonlyMap<string, ReadonlyMap<Quantity, RegionSeries>>;
+/** Output of the read stage for one file (a forecast, one hindcast start or the observations): region id → quantity → series. */
+export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
+
+/** Output of the read stage for one hindcast start of a source. */
+export interface HindcastRead {
+  readonly year: number;
+  /** Start date, YYYY-MM-DD. */
+  readonly start: IsoDate;
+  readonly path: string;
+  readonly series: RegionQuantities;
 }
 
 /** Output of the indicators stage: one indicator for one region, per member and day. */

@@ -1,5 +1,5 @@
 /**
- * File cache of skill reports (with file-checksums.ts, the only I/O of the calibrate stage). The key is the sha256 of the hindcast files'
+ * File cache of skill reports and model climates (with file-checksums.ts, the only I/O of the calibrate stage). The key is the sha256 of the hindcast files'
  * contents, the observations file's contents, a configuration fingerprint and the cache format version; a changed
  * input gives a new key, so stale entries are never read (checksums are remembered per path, size and
  * modification time, see file-checksums.ts). Entries are JSON files
@@ -12,6 +12,11 @@ import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import { describeError } from '../core/errors.ts';
 import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
+import { pairKey, type PairKey } from '../core/keys.ts';
+import type { SourceConfig } from '../config/types.ts';
+import type { HindcastRead } from '../types.ts';
+import type { LeadClimate } from './climate.ts';
+import { buildIndicatorClimate, tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
 
 export const SKILL_CACHE_VERSION = 6;
 
@@ -82,4 +87,57 @@ export async function cachedSkill<T>(
     note = [note, `skill cache not kept: ${describeError(err)}`].filter(Boolean).join('; ');
   }
   return { value, fromCache: false, note };
+}
+
+type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & {
+  region: string;
+  indicator: string;
+  hindcast: StoredLeadClimate | null;
+  observed: StoredLeadClimate | null;
+};
+type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: number[] };
+
+const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: Array.from(c.values) } : null);
+const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: Float64Array.from(c.values) } : null);
+
+/**
+ * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
+ * observation files and the configuration are unchanged, else `readHindcasts()` and `buildIndicatorClimate`, stored.
+ */
+export async function cachedClimates(
+  ctx: CalibrateContext,
+  source: SourceConfig,
+  hindcastFiles: readonly string[],
+  readHindcasts: () => Promise<readonly HindcastRead[]>,
+): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
+  const { config } = ctx;
+  if (hindcastFiles.length === 0) return { climates: new Map(), fromCache: false, cacheNote: '' };
+  const key = await skillCacheKey({
+    hindcastFiles,
+    observationsFile: ctx.observationsPath,
+    configFingerprint: fingerprint({
+      source: { id: source.id, tier: source.tier, hindcast: source.hindcast, variables: source.variables },
+      regions: config.regions,
+      indicators: config.indicators,
+      rules: config.rules,
+      gate: config.decision.skillGate,
+      calibration: config.calibration,
+    }),
+    memo: ctx.checksums,
+  });
+  const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, async () => {
+    const hindcasts = await readHindcasts();
+    return tierPairs(config, source.tier).map(({ region, ind }): StoredClimate => {
+      const climatology = ctx.climatology.get(region.id) ?? {};
+      const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, climatology, ctx.observedMemo);
+      return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
+    });
+  });
+  const climates = new Map(
+    cached.value.map(({ region, indicator, ...c }) => [
+      pairKey(region, indicator),
+      { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) },
+    ]),
+  );
+  return { climates, fromCache: cached.fromCache, cacheNote: cached.note };
 }

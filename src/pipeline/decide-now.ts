@@ -34,7 +34,8 @@ export function tunedThresholds(analysis: Analysis): Map<TunedKey, number> {
   for (const s of analysis.sources) {
     for (const [key, c] of s.climates) {
       const { region } = pairOf(key);
-      for (const [rule, t] of Object.entries(c.tuned)) if (!out.has(tunedKey(region, rule))) out.set(tunedKey(region, rule), t.forecastThreshold);
+      for (const [rule, t] of Object.entries(c.tuned))
+        if (!out.has(tunedKey(region, rule))) out.set(tunedKey(region, rule), t.forecastThreshold);
     }
   }
   return out;
