@@ -25,6 +25,7 @@ import { yearBlockBootstrap, type BootstrapIntervals, type VerificationCases } f
 import { fairBrierScoreFerro2014, fairBrierSkillScore } from './fair-brier.ts';
 import { gateByLead, type SkillGate } from './skill-gate.ts';
 import { outOfSampleValueCurve, type OutOfSampleValue } from './trigger-tuning.ts';
+import { reliabilityDiagram } from './reliability.ts';
 import {
   brierScore1950,
   brierSkillScoreSampleClimatology,
@@ -222,6 +223,7 @@ export function scoreCases(
       years: cases.years.length,
       events,
       gate: verdict,
+      reliability: usable ? reliabilityDiagram(p, o, { resamples: gate.resamples, seed: gate.seed }) : null,
       skilful: verdict.passed,
     },
   };
