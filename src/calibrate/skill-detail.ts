@@ -5,6 +5,7 @@
  * leave-one-year-out with its 90 % year-block bootstrap interval (trigger-tuning.ts). Text is aligned columns, CSV
  * follows RFC 4180 like the summary table.
  */
+import { leadName } from './lead-tiers.ts';
 import type { SkillReport } from './skill.ts';
 import type { TunedTrigger } from './trigger-tuning.ts';
 
@@ -21,7 +22,7 @@ const num = (v: number, digits = 3): string => (Number.isFinite(v) ? v.toFixed(d
 
 /** Detail lines of one report. */
 export function skillDetailRows(ids: { source: string; region: string; indicator: string }, r: SkillReport): string[][] {
-  const lead = `${r.lead.tier.slice(0, -1)} ${r.lead.index}`;
+  const lead = leadName(r.lead.tier, r.lead.index);
   const head = [ids.source, ids.region, ids.indicator, lead];
   return [
     ...r.stages.map((s) => [

@@ -7,6 +7,7 @@
  */
 import type { LeadProbability, StageDecision, Tier } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
+import { leadUses } from './lead-use.ts';
 import { applyPersistence } from './persistence.ts';
 import { trackKey, type TrackKey, type TunedKey } from '../core/keys.ts';
 import { NO_FORECAST_ID, TIER_ORDER, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
@@ -68,6 +69,15 @@ export function decideStages(input: DecideInput): DecideResult {
         });
         const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
         tracks[key] = kept.track;
+        const uses = leadUses(config.stages, {
+          probabilities: probs,
+          leadStages: raw.leadStages,
+          skilfulLeads: raw.skilfulLeads,
+          capId: raw.cap?.stageId ?? null,
+          decidingIndex: raw.lead?.lead.index ?? null,
+          issuedId: kept.stageId,
+          wait: kept.wait,
+        });
         decisions.push({
           region: region.id,
           indicator: indicator.id,
@@ -79,6 +89,9 @@ export function decideStages(input: DecideInput): DecideResult {
           withheldLeads: raw.withheldLeads,
           leadStages: raw.leadStages,
           reasons: [...raw.reasons, ...kept.reasons, `issued: ${kept.stageId}`],
+          ...(raw.cap ? { cap: raw.cap } : {}),
+          ...(kept.wait ? { wait: kept.wait } : {}),
+          leadUses: uses,
         });
       }
     }

@@ -8,7 +8,8 @@
  * - a refused SMTP login (535) from a real smtp-server on 127.0.0.1 (disk faults of the outputs: test/core/write-atomic.test.ts).
  * For each: the exit code; no region below its previous stage or below the clean run purely because data vanished;
  * the bulletin names the missing part (or the older forecast used); an operator notice; every team still gets its
- * bulletin, each Message-ID once.
+ * bulletin, each Message-ID once; no bulletin contradicts itself (render/consistency.ts in every render, and the rows
+ * of the text as sent).
  */
 import { execFileSync } from 'node:child_process';
 import {
@@ -41,6 +42,8 @@ import { runOnce, type RunOutcome } from '../../src/pipeline/run-once.ts';
 import { issuedRegionStages } from '../../src/pipeline/bulletin-run.ts';
 import { generateSample } from '../../src/sample/generate.ts';
 import { startSmtp, type SmtpFixture } from '../deliver/fixtures.ts';
+import { runDiagnostics } from '../../src/ledger/diagnostics.ts';
+import { rowsAboveStageWithoutReason } from '../support/bulletin-rows.ts';
 
 const HISTORY = ['2026-11-23', '2026-11-26'];
 const ISSUE = '2026-11-30';
@@ -126,6 +129,8 @@ interface Scenario {
   readonly texts: string[];
   readonly notices: string[];
   readonly messageIds: string[];
+  /** Findings of the consistency checker that ran inside the render (ledger run_diagnostics). */
+  readonly contradictions: string[];
 }
 
 async function issue(
@@ -148,6 +153,7 @@ async function issue(
   });
   const ledger = openLedger(config.ledger);
   const stages = new Map(issuedRegionStages(config, lastIssuedStages(ledger)).map((r) => [r.region, r.stageId]));
+  const found = outcome.runId === null ? [] : runDiagnostics(ledger, outcome.runId).filter((d) => d.code === 'bulletin-contradiction');
   ledger.close();
   const outbox = config.delivery.outbox;
   const files = existsSync(outbox) ? readdirSync(outbox) : [];
@@ -164,6 +170,7 @@ async function issue(
     texts: all.map((m) => m.text ?? ''),
     notices: files.filter((f) => f.startsWith('notice_')).map((f) => readFileSync(join(outbox, f), 'utf8')),
     messageIds: all.map((m) => m.messageId ?? ''),
+    contradictions: found.map((d) => d.message),
   };
 }
 
@@ -199,6 +206,16 @@ function expectSafe(s: Scenario): void {
   }
   expect(s.messageIds).toHaveLength(recipients());
   expect(new Set(s.messageIds).size).toBe(recipients());
+  // No bulletin contradicts itself: the checker of every render found nothing, and no row of the text as sent
+  // points above its range's stage without saying why.
+  expect(s.contradictions).toEqual([]);
+  for (const text of s.texts)
+    expect(
+      rowsAboveStageWithoutReason(
+        text,
+        base.stages.map((st) => st.glyph),
+      ),
+    ).toEqual([]);
 }
 
 describe('clean run of 30 Nov (the reference)', () => {
