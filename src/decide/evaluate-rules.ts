@@ -5,7 +5,8 @@
 import type { Config } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
 import { tunedKey, type TunedKey } from '../core/keys.ts';
-import { leadName, stageRank } from './types.ts';
+import { leadName } from '../calibrate/lead-tiers.ts';
+import { stageRank } from './types.ts';
 
 /** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
 const P_TOLERANCE = 1e-9;
