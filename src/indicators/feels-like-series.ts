@@ -11,7 +11,7 @@
  * AT and simplified WBGT RH with the BoM constants so that e = e_s,BoM(Td) exactly; humidex Td directly.
  * RH up to 100.5 % (dewpoint slightly above the basis temperature) is clamped to 100 %; beyond → out of range.
  */
-import { ForelightError } from '../core/errors.ts';
+import { badParam } from './kind-inputs.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import { apparentTemperatureSteadman1994C } from './apparent-temperature-steadman-1994.ts';
 import { mapElementwise2, mapElementwise3 } from './elementwise.ts';
@@ -82,7 +82,7 @@ export function feelsLikeSeries(
   basisParam: string | number | boolean | undefined,
 ): FeelsLikeResult {
   if (basisParam !== undefined && basisParam !== 'tmax' && basisParam !== 'tmean') {
-    throw new ForelightError('indicators', 'bad-param', `indicator "${id}": params.basis is "${String(basisParam)}"`, 'use tmax or tmean');
+    throw badParam({ id }, `params.basis is "${String(basisParam)}"`, 'use tmax or tmean');
   }
   const basisQ: Quantity = basisParam === 'tmean' ? 'tmean' : 'tmax';
   const basis = requireQuantity(inputs, basisQ, id, 'basis temperature');

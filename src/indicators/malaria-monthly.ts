@@ -14,7 +14,7 @@
  * its calendar days gets NaN. Categories: unsuitable < marginalAt (0.25) ≤ marginal < suitableAt (0.75) ≤ suitable
  * (defaults are common practice, no source).
  */
-import { ForelightError } from '../core/errors.ts';
+import { badParam } from './kind-inputs.ts';
 import type { IsoDate } from '../types.ts';
 import { daysInMonth, addMonths, monthOf } from '../core/iso-dates.ts';
 import { relativeR0Mordecai2013 } from './relative-r0-mordecai-2013.ts';
@@ -49,10 +49,6 @@ export interface MonthlySuitability {
 
 export type SuitabilityCategory = 'unsuitable' | 'marginal' | 'suitable';
 
-function badParam(id: string, what: string, fix: string): ForelightError {
-  return new ForelightError('indicators', 'bad-param', `indicator "${id}": ${what}`, fix);
-}
-
 /** Validates `params` of a malaria-suitability indicator and fills the defaults. */
 export function parseMalariaParams(ind: { readonly id: string; readonly params: Readonly<Record<string, unknown>> }): MalariaParams {
   const p = ind.params;
@@ -63,33 +59,33 @@ export function parseMalariaParams(ind: { readonly id: string; readonly params: 
       : speciesRaw === 'vivax' || speciesRaw === 'P. vivax'
         ? 'vivax'
         : null;
-  if (!species) throw badParam(ind.id, `params.species is "${String(speciesRaw)}"`, 'use falciparum or vivax');
+  if (!species) throw badParam(ind, `params.species is "${String(speciesRaw)}"`, 'use falciparum or vivax');
   const temperatureModel = MALARIA_TEMPERATURE_MODELS.find((m) => m === (p.temperatureModel ?? 'craig-1999'));
   if (!temperatureModel) {
     throw badParam(
-      ind.id,
+      ind,
       `params.temperatureModel is "${String(p.temperatureModel)}"`,
       `use one of ${MALARIA_TEMPERATURE_MODELS.join(', ')}`,
     );
   }
   if (temperatureModel === 'mordecai-2013' && species !== 'falciparum') {
     throw badParam(
-      ind.id,
+      ind,
       'params.temperatureModel mordecai-2013 is fitted for P. falciparum only',
       'use species falciparum, or the craig-1999 or martens-detinova model',
     );
   }
   const lagMonths = p.lagMonths ?? 1;
-  if (lagMonths !== 1 && lagMonths !== 2) throw badParam(ind.id, `params.lagMonths is ${String(lagMonths)}`, 'use 1 or 2');
+  if (lagMonths !== 1 && lagMonths !== 2) throw badParam(ind, `params.lagMonths is ${String(lagMonths)}`, 'use 1 or 2');
   const num = (key: string, dflt: number): number => {
     const v = p[key] ?? dflt;
-    if (typeof v !== 'number' || !(v >= 0 && v <= 1)) throw badParam(ind.id, `params.${key} is ${String(v)}`, 'use a number from 0 to 1');
+    if (typeof v !== 'number' || !(v >= 0 && v <= 1)) throw badParam(ind, `params.${key} is ${String(v)}`, 'use a number from 0 to 1');
     return v;
   };
   const marginalAt = num('marginalAt', 0.25);
   const suitableAt = num('suitableAt', 0.75);
   if (!(marginalAt < suitableAt))
-    throw badParam(ind.id, `params.marginalAt ${marginalAt} is not below params.suitableAt ${suitableAt}`, 'make marginalAt < suitableAt');
+    throw badParam(ind, `params.marginalAt ${marginalAt} is not below params.suitableAt ${suitableAt}`, 'make marginalAt < suitableAt');
   return { species, temperatureModel, lagMonths, minMonthCoverage: num('minMonthCoverage', 0.5), marginalAt, suitableAt };
 }
 
