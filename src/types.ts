@@ -143,7 +143,7 @@ export interface SkillSummary {
   readonly gate: SkillGateResult;
   /**
    * Reliability diagram of this lead's cases (calibrate/reliability.ts: bins with Bröcker & Smith 2007
-   * consistency bars); null without cases. For a "potential" basis it describes the model against itself.
+   * consistency bars, 500 resamples); null without cases and for a "potential" basis (no observations).
    */
   readonly reliability: ReliabilityDiagram | null;
   /** True when the skill gate passed: observed skill, enough events, interval above the floor. */
