@@ -106,6 +106,20 @@ export const DIAGNOSTIC_CODES = {
       "a forecast-files or hindcast-files pattern has an unknown placeholder, or one of a source's patterns matches no file while the others do",
     fix: 'fix the pattern at the line given (placeholders: {date}, {year}, {mmdd}, {var}, {member})',
   },
+  'region-between-centres': {
+    stage: 'config',
+    severity: 'warning',
+    meaning:
+      'a box region lies on a source grid but contains no cell centre: with cell-rule centre it gets no cells; with overlap (default) its value is that of the cells around it',
+    fix: 'remove cell-rule: centre, enlarge the box, or use a finer grid',
+  },
+  'config-population': {
+    stage: 'config',
+    severity: 'error',
+    meaning:
+      'the population raster named by population.file is missing, unreadable, not WGS 84 longitude/latitude, or does not cover a region',
+    fix: 'follow the message; reproject with gdalwarp -t_srs EPSG:4326 where it says so',
+  },
   'config-grid': {
     stage: 'config',
     severity: 'error',
@@ -330,6 +344,31 @@ export const DIAGNOSTIC_CODES = {
     meaning: 'a region contains no grid cell centre of the file',
     fix: 'enlarge the region or use a finer grid',
   },
+  'population-raster': {
+    stage: 'read',
+    severity: 'error',
+    meaning:
+      'the population raster cannot be read or converted (file missing, GDAL missing, no people variable on a latitude-longitude grid)',
+    fix: 'check population.file and population.variable in the YAML; GeoTIFF needs the Debian package gdal-bin',
+  },
+  'population-crs': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the population raster is not on a WGS 84 longitude/latitude grid',
+    fix: 'reproject it once: gdalwarp -t_srs EPSG:4326 IN.tif OUT.tif',
+  },
+  'population-coverage': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the population raster does not cover a region that an indicator weights by population',
+    fix: 'give a raster that covers every region, or weight that indicator by area',
+  },
+  'population-empty': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the population raster holds nobody in a region (all zero or missing), so a population-weighted value has no meaning there',
+    fix: 'check the raster over that region (gdalinfo -stats), or weight that indicator by area',
+  },
   'region-all-missing': {
     stage: 'read',
     severity: 'error',
@@ -522,6 +561,13 @@ export const DIAGNOSTIC_CODES = {
     severity: 'error',
     meaning: 'an archive entry is unreadable',
     fix: 'delete or restore the file named; the archive is rebuilt from the others',
+  },
+  'bulletin-contradiction': {
+    stage: 'render',
+    severity: 'error',
+    meaning:
+      'two statements of a rendered bulletin disagree (stage and the rows that drove it, probability word and number, skill wording and figures, threshold text and value, "no forecast available" and the rows); the bulletin went out as rendered',
+    fix: 'report it with run.json of the run: it is a bug in Forelight, and the message names region, hazard, range and what disagrees',
   },
   'write-failed': {
     stage: 'render',

@@ -5,11 +5,8 @@
 import type { RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import type { Extractor } from '../read/extract.ts';
-import type { Quantity, RegionSeries } from '../types.ts';
+import type { RegionQuantities, RegionSeries } from '../types.ts';
 import { groupInputFiles, type InputFiles } from './split-files.ts';
-
-/** region id → quantity → series. */
-export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
 
 export interface SourceRead {
   readonly source: SourceConfig;

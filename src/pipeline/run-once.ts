@@ -66,7 +66,13 @@ export function forecastKey(inputs: readonly SourceInputs[]): string {
   return inputs.map((i) => `${i.source.id} ${i.date ?? 'none'}`).join(', ');
 }
 
-async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysis, config: Config, log: Logger): Promise<void> {
+async function recordInputFiles(
+  ledger: Ledger,
+  runId: number,
+  analysis: Analysis,
+  config: Pick<Config, 'observations'>,
+  log: Logger,
+): Promise<void> {
   const wanted: [path: string, source: string, referenceTime: string][] = [
     ...analysis.read.sources.flatMap((s) => s.files.map((f): [string, string, string] => [f, s.source.id, s.referenceTime])),
     ...analysis.inputs.flatMap((i) =>
@@ -85,7 +91,11 @@ async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysi
   recordInputs(ledger, runId, files);
 }
 
-function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousIssue | undefined {
+function previousIssue(
+  ledger: Ledger,
+  config: Pick<Config, 'regions' | 'indicators' | 'stages'>,
+  runId: number,
+): PreviousIssue | undefined {
   const stages = lastIssuedStages(ledger);
   const alerts = [];
   for (const region of config.regions) {
@@ -157,6 +167,9 @@ async function prepare(
       recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
+  // A bulletin that contradicts itself is a bug: each finding is an error in the log, the ledger and run.json.
+  if (rendered.contradictions.length > 0) recordDiagnostics(ledger, runId, [...analysis.problems, ...rendered.contradictions]);
+  for (const d of rendered.contradictions) log.error(formatDiagnostic(d), { stage: 'render', code: d.code });
   for (const note of rendered.notes) log.warn(note, { stage: 'render' });
   log.info('bulletins rendered and stored', {
     stage: 'render',

@@ -3,7 +3,7 @@
  * local day), in canonical units when the variable is recognisably a temperature, humidity, precipitation or
  * wind (else in the file's own units), members in file order. Regions from `--box` or a boundary file.
  */
-import type { RegionConfig } from '../config/types.ts';
+import type { PopulationConfig, RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { regionClock } from '../core/local-clock.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
@@ -12,9 +12,9 @@ import type { Dataset, VariableInfo } from './dataset.ts';
 import { planTime } from './extract-plan.ts';
 import { reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
-import { regionSetCells } from './region-weights.ts';
 import { planBand } from './regions-band.ts';
 import { missingUnitsError, planUnits, type UnitPlan } from './units.ts';
+import { regionSelection } from './weighted-selection.ts';
 
 export interface RawRegionMeans {
   readonly units: string;
@@ -23,16 +23,20 @@ export interface RawRegionMeans {
   readonly problems: ForelightError[];
 }
 
-/** Means of `variable` over each region with cells (see module comment); `cacheDir` for the weights cache. */
+/**
+ * Means of `variable` over each region with cells (see module comment); `cacheDir` for the weights cache,
+ * `population` for regions weighted by people.
+ */
 export async function rawRegionMeans(
   ds: Dataset,
   variable: string,
   regionList: readonly RegionConfig[],
   daily: DailyMethod | null,
   cacheDir: string | null,
+  population: PopulationConfig | null = null,
 ): Promise<RawRegionMeans> {
   const coords = await findCoordinates(ds);
-  const { selected, problems } = regionSetCells(coords.grid, regionList, ds.path, cacheDir);
+  const { selected, problems } = await regionSelection(coords.grid, regionList, { population, cacheDir, file: ds.path });
   const layout = layoutVariable(ds, coords, variable);
   const unitPlan = canonicalUnitPlan(layout.info, ds.path);
   const timePlan = planTime(coords, layout, unitPlan);
@@ -88,9 +92,10 @@ export function extractRegionsJson(
   variable: string,
   regions: readonly RegionConfig[],
   daily: DailyMethod | null,
+  population: PopulationConfig | null = null,
 ): Promise<RegionsExtractJson> {
   return withDataset(path, async (ds) => {
-    const means = await rawRegionMeans(ds, variable, regions, daily, null);
+    const means = await rawRegionMeans(ds, variable, regions, daily, null, population);
     return {
       units: means.units,
       times: means.regions[0]?.times ?? [],

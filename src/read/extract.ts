@@ -4,7 +4,7 @@
  * goes to `problems`; the others are still computed. A file whose forecast reference time differs from the
  * requested one is refused as a whole.
  */
-import type { CellRule, RegionConfig } from '../config/types.ts';
+import type { CellRule, PopulationConfig, RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { regionClock } from '../core/local-clock.ts';
 import type { Quantity, RegionSeries, Tier } from '../types.ts';
@@ -17,7 +17,7 @@ import { monthlyNote, requireMonthTier, spreadMeansToDays } from './monthly.ts';
 import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
 import { rawRegionMeans } from './extract-raw.ts';
-import { regionSetCells } from './region-weights.ts';
+import { cellSeriesOf, regionSelection } from './weighted-selection.ts';
 import { describeShape } from './regions.ts';
 import { planUnits } from './units.ts';
 
@@ -33,6 +33,8 @@ export interface ExtractRequest {
   readonly tier?: Tier;
   /** Files holding the next members of the same forecast, in member order (one file per member or member group). */
   readonly moreMembers?: readonly string[];
+  /** The population raster, for regions whose `weighting` is `population`. */
+  readonly population?: PopulationConfig | null;
 }
 
 export interface ExtractResult {
@@ -81,10 +83,18 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const coords = await findCoordinates(ds);
   const wanted = requestedMs(ds.path, request.referenceTime);
   const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
-  const { selected, problems: cellProblems } = regionSetCells(coords.grid, request.regions, coords.file, request.weightsCacheDir ?? null);
-  problems.push(...cellProblems);
+  const {
+    selected,
+    cellRegions,
+    problems: weightProblems,
+  } = await regionSelection(coords.grid, request.regions, {
+    population: request.population ?? null,
+    cacheDir: request.weightsCacheDir ?? null,
+    file: ds.path,
+  });
+  problems.push(...weightProblems);
   const { band, regions } = planBand(
-    selected.map((s) => s.cells),
+    [...selected.map((s) => s.cells), ...cellRegions.map((c) => c.cells)],
     coords.grid.lat.length,
     coords.grid.lon.length,
   );
@@ -114,10 +124,11 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
         intervals: timePlan.intervals,
         unitPlan,
         accumulated: timePlan.accumulated,
-        clocks: selected.map((s) => regionClock(s.region)),
+        clocks: [...selected, ...cellRegions].map((s) => regionClock(s.region)),
         daily: months ? null : dailyMethodFor(quantity, unitPlan),
       });
-      const means = months ? spreadMeansToDays(ds.path, variable, months, unitPlan.kind, reduced) : reduced;
+      const all = months ? spreadMeansToDays(ds.path, variable, months, unitPlan.kind, reduced) : reduced;
+      const means = all.slice(0, selected.length);
       if (months) notes.push(`${ds.path}: ${monthlyNote(variable, months, unitPlan.kind)}`);
       means.forEach((mean, k) => {
         const { region, cells } = selected[k];
@@ -142,6 +153,8 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
           data: mean.data,
           cells: cells.weights.length,
           provenance: { file: ds.path, variable, referenceTime: isoInstant(refMs) },
+          ...(region.weighting === 'population' ? { weighting: 'population' as const } : {}),
+          ...(region.keepCells ? { perCell: cellSeriesOf(cells.weights, all, selected.length, cellRegions, k) } : {}),
         });
       });
     } catch (err) {
@@ -153,11 +166,6 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
 }
 
 /**
- * Opens `path` and extracts per-region daily ensemble series for `request.quantities` (canonical units,
- * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
- * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
- */
-/**
  * Reads one file for a set of regions: `extractRegionSeries` in this process, or a cluster's workers
  * (src/cluster/). `parallel`: how many calls the read stage may keep in flight (1 when absent).
  */
@@ -166,6 +174,11 @@ export interface Extractor {
   readonly parallel?: number;
 }
 
+/**
+ * Opens `path` and extracts per-region daily ensemble series for `request.quantities` (canonical units,
+ * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
+ * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
+ */
 export function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
   return withDataset(path, (ds) => extractFromDataset(ds, request), request.moreMembers);
 }

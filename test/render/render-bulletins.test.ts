@@ -64,7 +64,7 @@ describe('renderBulletins on the sample run', () => {
   it('first screen: hazard in plain words with its threshold, dates, chance against the normal year with the configured word, how sure', () => {
     const k = plain('kessan-health');
     expect(k).toContain(
-      'Hot days (3-day average of daily highs), above 34.2 °C\nWhen: 3 – 5 Dec\nHow likely: 70% chance, likely (in a normal year 10%), highest on Fri 4 Dec\nHow sure: Fairly sure',
+      'Hot days (3-day average of daily highs), above 34.2 °C, higher than in 9 of 10 past years\nWhen: 3 – 5 Dec\nHow likely: 70% chance, likely (in a normal year 10%), highest on Fri 4 Dec\nHow sure: Fairly sure',
     );
     expect(plain('tulva-health')).toContain('Probabilité : 68 % de probabilité, probable (une année normale : 30 %)');
     // Order of the first screen (issue: stage, hazard and dates, how likely, how sure, action, what changed, outlook).
@@ -110,9 +110,13 @@ describe('renderBulletins on the sample run', () => {
 
   it('says plainly when a range has no demonstrated skill, and when skill is a model-only estimate', () => {
     const k = plain('kessan-health');
-    expect(k).toContain('15 – 28 Dec: ○ Quiet, 16–24% (normal year 10%), no proven skill at this range: treat as normal');
+    expect(k).toContain(
+      '15 – 28 Dec: ○ Quiet, 16–24% (normal year 10%), not used for the stage: no demonstrated skill at this range, treat as normal',
+    );
     expect(k).toContain('(potential skill: model against itself, no observations, never used to raise a stage)');
-    expect(plain('tulva-health')).toContain('fiabilité non démontrée à cette échéance : considérer comme normal');
+    expect(plain('tulva-health')).toContain(
+      'non retenu pour le niveau : fiabilité non démontrée à cette échéance, considérer comme normal',
+    );
   });
 
   it('uses the team-specific actions when configured, else the default', () => {

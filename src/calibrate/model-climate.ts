@@ -1,34 +1,55 @@
 /**
  * Model climate and skill of one source × region × indicator: the indicator computed on every hindcast start
  * and on the observations for the same days, aggregated to the source's tier, then verified (skill per lead)
- * and, for rules that give a cost/loss ratio, the probability threshold of maximum economic value.
+ * and, for rules that give a cost/loss ratio, the trigger of maximum economic value judged out of sample.
  */
 import type { Config, IndicatorConfig, RegionConfig, SourceConfig } from '../config/types.ts';
-import { stackYears, type LeadClimate } from '../calibrate/climate.ts';
-import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
-import { observedCases, potentialCases, skillReports, type SkillReport } from '../calibrate/skill.ts';
-import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
-import { bestProbabilityThreshold } from '../calibrate/verify.ts';
 import { formatDiagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
 import { diagnosticOf } from '../core/errors.ts';
+import type { ChecksumMemo } from '../core/file-checksums.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
-import type { IndicatorSeries } from '../types.ts';
+import type { HindcastRead, IndicatorSeries, RegionQuantities } from '../types.ts';
+import { stackYears, type LeadClimate } from './climate.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
-import type { RegionQuantities } from './read-file.ts';
-import type { HindcastRead } from './read-stage.ts';
+import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
+import { leadCases, skillReports, type SkillReport } from './skill.ts';
+import { resolveThresholdSpec } from './thresholds.ts';
+import { tuneTrigger, type TunedTrigger } from './trigger-tuning.ts';
+
+/** The part of the configuration the calibrate stage reads. */
+export type CalibrateConfig = Pick<Config, 'regions' | 'indicators' | 'rules' | 'decision' | 'calibration'>;
 
 export interface IndicatorClimate {
   readonly hindcast: LeadClimate | null;
   readonly observed: LeadClimate | null;
   readonly skill: readonly SkillReport[];
-  /** Rule id → tuned probability threshold (maximum relative economic value on the hindcasts). */
-  readonly tuned: Readonly<Record<string, number>>;
+  /** Rule id → trigger tuned for its cost/loss ratio (maximum relative economic value, judged leave-one-year-out). */
+  readonly tuned: Readonly<Record<string, TunedTrigger>>;
   readonly problems: readonly Diagnostic[];
 }
 
 /** The observed indicator of a region over the whole observation record (one member), or why there is none. */
 export type ObservedIndicators = Map<PairKey, IndicatorSeries | Diagnostic>;
+
+/** What calibrating every source of one run shares: the observations, their climatology and the cache's checksums. */
+export interface CalibrateContext {
+  readonly config: CalibrateConfig;
+  readonly observed: RegionQuantities | null;
+  readonly observationsPath: string | null;
+  /** region id → climatology from observations. */
+  readonly climatology: ReadonlyMap<string, IndicatorClimatology>;
+  readonly observedMemo: ObservedIndicators;
+  /** Checksums of input files remembered across runs (cache keys). */
+  readonly checksums: ChecksumMemo;
+}
+
+/** The region × indicator pairs of a tier (every region, each indicator computed on that tier). */
+export function tierPairs(config: Pick<Config, 'regions' | 'indicators'>, tier: string): { region: RegionConfig; ind: IndicatorConfig }[] {
+  return config.regions.flatMap((region) =>
+    config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })),
+  );
+}
 
 const isSeries = (v: IndicatorSeries | Diagnostic | null): v is IndicatorSeries => v !== null && 'data' in v;
 
@@ -60,41 +81,41 @@ function onDays(series: IndicatorSeries, like: IndicatorSeries): IndicatorSeries
 }
 
 /** Stage probabilities of the rules on this indicator × tier (for hit and false-alarm rates). */
-function ruleProbabilities(config: Config, ind: IndicatorConfig, tier: SourceConfig['tier']): number[] {
+function ruleProbabilities(config: CalibrateConfig, ind: IndicatorConfig, tier: SourceConfig['tier']): number[] {
   return config.rules
     .filter((r) => r.indicator === ind.id && r.tier === tier && r.probability !== undefined)
     .map((r) => r.probability as number);
 }
 
+/** Each cost/loss rule of this indicator × tier tuned on its leads' cases, judged leave-one-year-out (trigger-tuning.ts). */
 function tuneCostLoss(
-  config: Config,
+  config: CalibrateConfig,
   ind: IndicatorConfig,
   source: SourceConfig,
   region: RegionConfig,
   hc: LeadClimate,
   obs: LeadClimate | null,
-): Record<string, number> {
-  const tuned: Record<string, number> = {};
-  const spec = resolveThresholdSpec(ind, region.id);
-  for (const rule of config.rules) {
-    if (rule.indicator !== ind.id || rule.tier !== source.tier || rule.costLoss === undefined) continue;
-    const p: number[] = [];
-    const o: number[] = [];
-    hc.leads.forEach((lead, l) => {
-      if (rule.leads.length > 0 && !rule.leads.includes(lead.index)) return;
-      const cases = obs && l < obs.leads.length ? observedCases(hc, obs, l, spec, lead.tier !== 'days') : potentialCases(hc, l, spec);
-      p.push(...cases.p);
-      o.push(...cases.o);
-    });
-    const best = bestProbabilityThreshold(Float64Array.from(p), Float64Array.from(o), rule.costLoss);
-    if (Number.isFinite(best.threshold)) tuned[rule.id] = best.threshold;
+): Record<string, TunedTrigger> {
+  const tuned: Record<string, TunedTrigger> = {};
+  const rules = config.rules.filter((r) => r.indicator === ind.id && r.tier === source.tier && r.costLoss !== undefined);
+  if (rules.length === 0) return tuned;
+  const leads = leadCases(hc, obs, resolveThresholdSpec(ind, region.id)).map((l) => ({
+    index: l.lead.index,
+    basis: l.basis,
+    cases: l.cases,
+  }));
+  const { resamples, seed } = config.decision.skillGate;
+  for (const rule of rules) {
+    const own = leads.filter((l) => rule.leads.length === 0 || rule.leads.includes(l.index));
+    const trigger = tuneTrigger(own, rule.costLoss as number, { resamples, seed });
+    if (trigger) tuned[rule.id] = trigger;
   }
   return tuned;
 }
 
 /** Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator. */
 export function buildIndicatorClimate(
-  config: Config,
+  config: CalibrateConfig,
   source: SourceConfig,
   region: RegionConfig,
   ind: IndicatorConfig,
