@@ -100,6 +100,11 @@ type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: number[] };
 const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: Array.from(c.values) } : null);
 const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: Float64Array.from(c.values) } : null);
 
+/** The population raster's sha256 (a changed raster changes population-weighted climates); 'unreadable' when it cannot be read. */
+function rasterChecksum(ctx: CalibrateContext, file: string): Promise<string> {
+  return ctx.checksums.sha256(file).catch(() => 'unreadable');
+}
+
 /**
  * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
  * observation files and the configuration are unchanged, else `readHindcasts()` and `buildIndicatorClimate`, stored.
@@ -122,6 +127,7 @@ export async function cachedClimates(
       rules: config.rules,
       gate: config.decision.skillGate,
       calibration: config.calibration,
+      population: config.population ? { ...config.population, sha256: await rasterChecksum(ctx, config.population.file) } : null,
     }),
     memo: ctx.checksums,
   });

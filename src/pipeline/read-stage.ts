@@ -6,7 +6,8 @@ import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import type { HindcastRead, RegionQuantities } from '../types.ts';
-import { readFile, regionCells, type SourceRead } from './read-file.ts';
+import { readFile, regionCells, type FileRequest, type SourceRead } from './read-file.ts';
+import { readRegions } from '../config/region-views.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
@@ -44,21 +45,14 @@ export async function readHindcasts(
   problems: ForelightError[],
   forecastCells?: ReadonlyMap<string, number>,
   extract: Extractor = extractRegionSeries,
-  weightsCacheDir?: string,
+  weights: Pick<FileRequest, 'weightsCacheDir' | 'population'> = {},
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
   const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
     const own: ForelightError[] = [];
     return {
-      series: await readFile(
-        extract,
-        h.path,
-        source.variables,
-        regions,
-        { referenceTime: h.start, tier: source.tier, weightsCacheDir },
-        own,
-      ),
+      series: await readFile(extract, h.path, source.variables, regions, { referenceTime: h.start, tier: source.tier, ...weights }, own),
       own,
     };
   });
@@ -129,8 +123,8 @@ export async function readAll(
         extract,
         config.observations.path,
         config.observations.variables,
-        config.regions,
-        { weightsCacheDir: config.calibration.cacheDir },
+        readRegions(config),
+        { weightsCacheDir: config.calibration.cacheDir, population: config.population },
         problems,
       )
     : null;

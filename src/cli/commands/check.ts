@@ -6,6 +6,7 @@
 import { checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
 import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
+import { populationProblems } from '../../pipeline/population-check.ts';
 import { diagnostic, formatDiagnostic, type Diagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { pdfUnavailable } from '../../render/pdf.ts';
@@ -19,6 +20,7 @@ export async function checkCommand(args: ParsedArgs): Promise<number> {
     const extents = await sourceGridExtents(config);
     notes.push(...extents.notes);
     all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
+    all.push(...(await populationProblems(config, sourceMap)));
     const pdf = pdfUnavailable(config.delivery.pdfChromium);
     if (pdf) notes.push(diagnostic('pdf-unavailable', pdf, '', { pointer: '/delivery/pdf-chromium' }));
   }
