@@ -12,13 +12,14 @@ import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import { describeError } from '../core/errors.ts';
 import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
+import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { SourceConfig } from '../config/types.ts';
 import type { HindcastRead } from '../types.ts';
-import type { LeadClimate } from './climate.ts';
 import { buildIndicatorClimate, tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
+import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
-export const SKILL_CACHE_VERSION = 5;
+export const SKILL_CACHE_VERSION = 6;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {
@@ -63,21 +64,27 @@ const decode = (_k: string, v: unknown): unknown =>
     : v;
 
 /**
- * The cached value for `key`, or else `compute()` stored under `key`. An unreadable or corrupt entry is
- * recomputed and overwritten (`note` says so).
+ * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as stored (non-finite
+ * numbers still in their {"$num": …} form); an unreadable, corrupt or misshapen entry is recomputed and
+ * overwritten (`note` says so).
  */
 export async function cachedSkill<T>(
   cacheDir: string,
   key: string,
   compute: () => T | Promise<T>,
+  shape: ShapeCheck<unknown>,
 ): Promise<{ value: T; fromCache: boolean; note: string }> {
   const file = join(cacheDir, `skill-${key}.json`);
   let note = '';
-  try {
-    return { value: JSON.parse(await readFile(file, 'utf8'), decode) as T, fromCache: true, note };
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code !== 'ENOENT') note = `skill cache entry ${file} unreadable (${(err as Error).message}); recomputed`;
+  const text = await readFile(file, 'utf8').catch((err: NodeJS.ErrnoException) => {
+    if (err.code !== 'ENOENT') note = `skill cache entry ${file} unreadable (${err.message}); recomputed`;
+    return null;
+  });
+  if (text !== null) {
+    const checked = parseShaped(text, shape);
+    // The shape was checked on the stored form; decoding only turns {"$num": …} back into numbers.
+    if (checked.ok) return { value: JSON.parse(text, decode) as T, fromCache: true, note };
+    note = `skill cache entry ${file} unreadable (${checked.why}); recomputed`;
   }
   const value = await compute();
   try {
@@ -88,17 +95,6 @@ export async function cachedSkill<T>(
   }
   return { value, fromCache: false, note };
 }
-
-type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & {
-  region: string;
-  indicator: string;
-  hindcast: StoredLeadClimate | null;
-  observed: StoredLeadClimate | null;
-};
-type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: number[] };
-
-const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: Array.from(c.values) } : null);
-const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: Float64Array.from(c.values) } : null);
 
 /** The population raster's sha256 (a changed raster changes population-weighted climates); 'unreadable' when it cannot be read. */
 function rasterChecksum(ctx: CalibrateContext, file: string): Promise<string> {
@@ -131,14 +127,15 @@ export async function cachedClimates(
     }),
     memo: ctx.checksums,
   });
-  const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, async () => {
+  const compute = async (): Promise<StoredClimate[]> => {
     const hindcasts = await readHindcasts();
     return tierPairs(config, source.tier).map(({ region, ind }): StoredClimate => {
       const climatology = ctx.climatology.get(region.id) ?? {};
       const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, climatology, ctx.observedMemo);
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
     });
-  });
+  };
+  const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, compute, isStoredClimates);
   const climates = new Map(
     cached.value.map(({ region, indicator, ...c }) => [
       pairKey(region, indicator),

@@ -51,7 +51,7 @@ export function forecastCandidates(pattern: string, issueDate: IsoDate, lookback
 }
 
 /** The hindcast starts of a source that calibrate a forecast of `forecastDate` (within ±windowDays, before it). */
-export function hindcastsFor(config: Config, source: SourceConfig, forecastDate: IsoDate): HindcastFile[] {
+export function hindcastsFor(config: Pick<Config, 'calibration'>, source: SourceConfig, forecastDate: IsoDate): HindcastFile[] {
   const all = source.hindcast ? listHindcasts(source.hindcast) : [];
   const keep = new Set(
     startsWithinWindow(
@@ -77,7 +77,7 @@ export function listHindcasts(pattern: string): HindcastFile[] {
 }
 
 /** Forecast and hindcast files of every source for an issue date (the newest existing forecast; see `candidates`). */
-export function resolveInputs(config: Config, issueDate: IsoDate): SourceInputs[] {
+export function resolveInputs(config: Pick<Config, 'sources' | 'calibration'>, issueDate: IsoDate): SourceInputs[] {
   return config.sources.map((source) => {
     const candidates = forecastCandidates(source.forecast, issueDate, source.lookbackDays);
     const newest = candidates[0] ?? null;
