@@ -56,6 +56,7 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
         lonMin: Math.min(...lons),
         lonMax: Math.max(...lons),
         lon360: Math.max(...lons) > 180,
+        centres: { lats, lons },
       });
     } catch (err) {
       notes.push({

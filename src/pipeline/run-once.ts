@@ -166,6 +166,9 @@ async function prepare(
       recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
+  // A bulletin that contradicts itself is a bug: each finding is an error in the log, the ledger and run.json.
+  if (rendered.contradictions.length > 0) recordDiagnostics(ledger, runId, [...analysis.problems, ...rendered.contradictions]);
+  for (const d of rendered.contradictions) log.error(formatDiagnostic(d), { stage: 'render', code: d.code });
   for (const note of rendered.notes) log.warn(note, { stage: 'render' });
   log.info('bulletins rendered and stored', {
     stage: 'render',

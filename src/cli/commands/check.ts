@@ -1,9 +1,9 @@
 /**
  * `forelight check`: validate a configuration and print every problem as file:line:column, exit 2 when any.
  * With a valid configuration, each source's newest forecast file is opened to check that every region lies on
- * its grid.
+ * its grid (an error otherwise) and whether a box region holds a cell centre of it (a warning otherwise).
  */
-import { checkRegionsAgainstGrids } from '../../config/check-grids.ts';
+import { checkBoxesBetweenCentres, checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
 import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
 import { populationProblems } from '../../pipeline/population-check.ts';
@@ -16,15 +16,18 @@ export async function checkCommand(args: ParsedArgs): Promise<number> {
   const { config, diagnostics, sourceMap } = await checkConfigFile(stringOption(args, 'config'));
   const all = [...diagnostics];
   const notes: Diagnostic[] = [];
+  const warnings: Diagnostic[] = [];
   if (config) {
     const extents = await sourceGridExtents(config);
     notes.push(...extents.notes);
     all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
     all.push(...(await populationProblems(config, sourceMap)));
+    warnings.push(...checkBoxesBetweenCentres(config, extents.grids, sourceMap));
     const pdf = pdfUnavailable(config.delivery.pdfChromium);
     if (pdf) notes.push(diagnostic('pdf-unavailable', pdf, '', { pointer: '/delivery/pdf-chromium' }));
   }
   for (const p of all) process.stderr.write(formatDiagnostic(p) + '\n');
+  for (const w of warnings) process.stderr.write(`warning: ${formatDiagnostic(w)}\n`);
   for (const n of notes) process.stderr.write(`note: ${formatDiagnostic(n)}\n`);
   if (!config || all.length > 0) {
     process.stderr.write(`forelight: ${all.length} problem(s) in the configuration\n`);
