@@ -75,9 +75,11 @@ async function recordInputFiles(
   log: Logger,
 ): Promise<void> {
   const wanted: [path: string, source: string, referenceTime: string][] = [
-    ...analysis.read.sources.map((s): [string, string, string] => [s.path, s.source.id, s.referenceTime]),
+    ...analysis.read.sources.flatMap((s) => s.files.map((f): [string, string, string] => [f, s.source.id, s.referenceTime])),
     ...analysis.inputs.flatMap((i) =>
-      i.hindcasts.map((h): [string, string, string] => [h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`]),
+      i.hindcasts.flatMap((h) =>
+        h.files.existing.map((f): [string, string, string] => [f, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`]),
+      ),
     ),
     ...(config.observations ? [[config.observations.path, 'observations', ''] as [string, string, string]] : []),
   ];

@@ -60,6 +60,10 @@ export interface OutlookCell {
   readonly chance: string;
   readonly dates: string;
   readonly noSkill: boolean;
+  /** The lead whose chance the cell shows (null: none usable). */
+  readonly lead: LeadView | null;
+  /** Printed after the chance: "*" no proven skill, "+" it points above the cell's stage (waiting or capped), else "". */
+  readonly mark: string;
 }
 export interface OutlookRow {
   readonly hazard: string;
@@ -303,11 +307,15 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
       const tv = ind.tiers.find((x) => x.tier === tierName);
       if (!tv) return null;
       const pick = cellLead(tv);
+      const noSkill = tv.leads.length > 0 && tv.leads.every((l) => l.withheld);
+      const above = pick !== null && pick.reached.rank > tv.stage.rank;
       return {
         stage: tv.stage,
         chance: pick?.chance ?? '–',
         dates: pick?.dates ?? '',
-        noSkill: tv.leads.length > 0 && tv.leads.every((l) => l.withheld),
+        noSkill,
+        lead: pick,
+        mark: above ? '+' : noSkill ? '*' : '',
       };
     }),
   }));

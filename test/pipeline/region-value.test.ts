@@ -62,7 +62,7 @@ function withRegionValues(base: Config, sampleDir: string): Config {
     ...base,
     indicators,
     population: { file: populationTiff(), values: 'people-per-pixel' },
-    sources: base.sources.map((s) => ({ ...s, forecast: move(s.forecast), hindcast: s.hindcast && move(s.hindcast) })),
+    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
     observations: base.observations && { ...base.observations, path: move(base.observations.path) },
     ledger: join(dir, 'ledger.sqlite'),
     delivery: { ...base.delivery, outbox: join(dir, 'outbox'), archive: join(dir, 'archive') },
@@ -141,7 +141,7 @@ describe('region values per indicator (population mean, share of people above a 
 
   it('population means differ from area means and lie within the cells; the share is recomputed from the cells', async () => {
     const source = config.sources.find((s) => s.tier === 'days')!;
-    const file = source.forecast.replace('{date}', ISSUE.replaceAll('-', ''));
+    const file = source.forecast[0].replace('{date}', ISSUE.replaceAll('-', ''));
     const series = (await readFile(
       extractRegionSeries,
       file,
