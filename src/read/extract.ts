@@ -31,6 +31,8 @@ export interface ExtractRequest {
   readonly weightsCacheDir?: string;
   /** The source's tier: a file of monthly values feeds only `months`. */
   readonly tier?: Tier;
+  /** Files holding the next members of the same forecast, in member order (one file per member or member group). */
+  readonly moreMembers?: readonly string[];
   /** The population raster, for regions whose `weighting` is `population`. */
   readonly population?: PopulationConfig | null;
 }
@@ -178,7 +180,7 @@ export interface Extractor {
  * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
  */
 export function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
-  return withDataset(path, (ds) => extractFromDataset(ds, request));
+  return withDataset(path, (ds) => extractFromDataset(ds, request), request.moreMembers);
 }
 
 export interface BoxExtractOptions {

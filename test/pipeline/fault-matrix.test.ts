@@ -72,7 +72,7 @@ function configFor(dir: string, forecastDir: string, cacheDir: string): Config {
     ...base,
     sources: base.sources.map((s) => ({
       ...s,
-      forecast: s.forecast.replace(/.*sample-inputs\/data/, forecastDir),
+      forecast: s.forecast.map((p) => p.replace(/.*sample-inputs\/data/, forecastDir)),
       hindcast: s.hindcast && sample(s.hindcast),
     })),
     observations: base.observations && { ...base.observations, path: sample(base.observations.path) },
