@@ -11,6 +11,7 @@ import { pairKey, type PairKey } from '../core/keys.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
 import type { HindcastRead, IndicatorSeries, RegionQuantities } from '../types.ts';
 import { stackYears, type LeadClimate } from './climate.ts';
+import { sameLeadMonths } from './month-true.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
 import { leadCases, skillReports, type SkillReport } from './skill.ts';
@@ -152,9 +153,14 @@ export function buildIndicatorClimate(
     problems.push(within(first, `${files} hindcast file(s) of ${source.id}, region ${region.id}`, place));
   if (hcYears.length === 0) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const what = `${source.id} hindcasts for ${region.id} (${ind.id})`;
-  const hc = stackYears(what, units, hcYears, place);
+  const pooled = tier === 'months' ? sameLeadMonths(what, hcYears, config.calibration.minHindcastYears, place) : null;
+  if (pooled) problems.push(...pooled.problems);
+  const keep = new Set(pooled?.kept ?? hcYears);
+  const hc = stackYears(what, units, pooled?.kept ?? hcYears, place);
+  // Observed entries were pushed beside the hindcast ones (same positions): keep the same starts.
+  const obsKept = obsYears.filter((_, i) => keep.has(hcYears[i]));
   const obs =
-    obsYears.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsYears, place) : { climate: null, problems: [] };
+    obsKept.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsKept, place) : { climate: null, problems: [] };
   problems.push(...hc.problems, ...obs.problems);
   if (!hc.climate) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const skill = skillReports({
