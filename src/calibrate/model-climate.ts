@@ -170,6 +170,7 @@ export function buildIndicatorClimate(
     stageProbabilities: ruleProbabilities(config, ind, tier),
     gate: config.decision.skillGate,
     minHindcastYears: config.calibration.minHindcastYears,
+    outOfSampleValue: true,
   });
   const tuned = tuneCostLoss(config, ind, source, region, hc.climate, obs.climate);
   return { hindcast: hc.climate, observed: obs.climate, skill, tuned, problems };
