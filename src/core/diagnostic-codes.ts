@@ -99,6 +99,13 @@ export const DIAGNOSTIC_CODES = {
     meaning: "a source's forecast file is missing or unreadable, so `forelight check` could not compare the regions with its grid",
     fix: 'run check again once the files are there',
   },
+  'config-pattern': {
+    stage: 'config',
+    severity: 'error',
+    meaning:
+      "a forecast-files or hindcast-files pattern has an unknown placeholder, or one of a source's patterns matches no file while the others do",
+    fix: 'fix the pattern at the line given (placeholders: {date}, {year}, {mmdd}, {var}, {member})',
+  },
   'region-between-centres': {
     stage: 'config',
     severity: 'warning',

@@ -5,12 +5,12 @@
  * stage is held for `holdMissingRuns` runs in a row (counted in its track, whose persistence counters are kept),
  * then, or without an earlier stage, it is "no forecast available" (NO_FORECAST_ID), which is never a ladder stage.
  */
-import type { LeadProbability, StageDecision, Tier } from '../types.ts';
+import { TIERS, type LeadProbability, type StageDecision, type Tier } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
 import { leadUses } from './lead-use.ts';
 import { applyPersistence } from './persistence.ts';
 import { trackKey, type TrackKey, type TunedKey } from '../core/keys.ts';
-import { NO_FORECAST_ID, TIER_ORDER, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+import { NO_FORECAST_ID, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
 
 export interface DecideInput {
   readonly config: DecideConfig;
@@ -48,7 +48,7 @@ export function decideStages(input: DecideInput): DecideResult {
   const tracks: Record<string, StageTrack> = { ...history.tracks };
   for (const region of config.regions) {
     for (const indicator of config.indicators) {
-      for (const tier of TIER_ORDER) {
+      for (const tier of TIERS) {
         if (!indicator.tiers.includes(tier)) continue;
         const key = trackKey(region.id, indicator.id, tier);
         const probs = byKey.get(key);

@@ -65,8 +65,6 @@ export interface StageChange {
   readonly why: string;
 }
 
-export const TIER_ORDER: readonly Tier[] = ['days', 'weeks', 'months'];
-
 /** The English label of stage `id` ("Warning"), or the id when the ladder has no such stage or label. */
 export const stageLabel = (stages: readonly Pick<StageConfig, 'id' | 'label'>[], id: string): string =>
   stages.find((s) => s.id === id)?.label.en ?? id;

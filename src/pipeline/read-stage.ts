@@ -6,7 +6,8 @@ import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import type { HindcastRead, RegionQuantities } from '../types.ts';
-import { readFile, regionCells, type SourceRead } from './read-file.ts';
+import { readFile, readInputFiles, regionCells, type FileRequest, type SourceRead } from './read-file.ts';
+import { readRegions } from '../config/region-views.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
@@ -44,19 +45,19 @@ export async function readHindcasts(
   problems: ForelightError[],
   forecastCells?: ReadonlyMap<string, number>,
   extract: Extractor = extractRegionSeries,
-  weightsCacheDir?: string,
+  weights: Pick<FileRequest, 'weightsCacheDir' | 'population'> = {},
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
   const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
     const own: ForelightError[] = [];
     return {
-      series: await readFile(
+      series: await readInputFiles(
         extract,
-        h.path,
+        h.files,
         source.variables,
         regions,
-        { referenceTime: h.start, tier: source.tier, weightsCacheDir },
+        { referenceTime: h.start, tier: source.tier, ...weights },
         own,
       ),
       own,
@@ -88,10 +89,11 @@ export async function readHindcasts(
 function forecastMissing(input: SourceInputs): InputError {
   const { source, issueDate } = input;
   const oldest = addDays(issueDate, -source.lookbackDays);
+  const on = (date: string) => source.forecast.map((p) => forecastPath(p, date)).join(' + ');
   return new InputError(
     'forecast-missing',
-    source.forecast,
-    `no forecast of source '${source.id}': tried ${forecastPath(source.forecast, issueDate)} and every date back to ${forecastPath(source.forecast, oldest)} (${issueDate} to ${oldest}, look-back-days ${source.lookbackDays})`,
+    source.forecast[0],
+    `no forecast of source '${source.id}': tried ${on(issueDate)} and every date back to ${on(oldest)} (${issueDate} to ${oldest}, look-back-days ${source.lookbackDays})`,
     'check that the files arrived and the forecast-files pattern of this source; a source issued less often needs a larger look-back-days',
   );
 }
@@ -129,8 +131,8 @@ export async function readAll(
         extract,
         config.observations.path,
         config.observations.variables,
-        config.regions,
-        { weightsCacheDir: config.calibration.cacheDir },
+        readRegions(config),
+        { weightsCacheDir: config.calibration.cacheDir, population: config.population },
         problems,
       )
     : null;

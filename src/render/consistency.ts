@@ -6,7 +6,8 @@
  * - stage: the region's, a range's or the headline's stage differs from the decision, or the combined stage is not
  *   the highest range stage (escalation.combine: highest);
  * - rows: a row points above its range's stage without saying why (skill gate, no rule, tier cap, persistence), a
- *   stage above the lowest is backed by no row and no note, or "nothing reaches above" while a row does;
+ *   stage above the lowest is backed by no row and no note, an outlook cell's chance points above its stage unmarked,
+ *   or "nothing reaches above" while a row does;
  * - words: a probability word is not the configured band of its number (probability-words), or the headline's
  *   chance and word are not those of its lead;
  * - skill: "sure" wording without a passed skill gate, a row used for the stage without one, a withheld row without
@@ -147,6 +148,11 @@ export function checkRegionView(
   }
   if (view.stage.id === NO_FORECAST_ID && view.tiers.some((tv) => tv.leads.some((l) => Number.isFinite(l.probability))))
     say('no-forecast', 'region shows "no forecast available" beside forecast values');
+  for (const row of view.outlook)
+    for (const cell of row.cells) {
+      if (cell?.lead && cell.lead.reached.rank > cell.stage.rank && cell.mark !== '+')
+        say('rows', `outlook ${row.hazard}: ${cell.chance} points to ${cell.lead.reached.id} above the cell's ${cell.stage.id} unmarked`);
+    }
   checkHeadline(t, view, sayFor(view.headline?.indicatorId, 'first screen: '));
   return found;
 }

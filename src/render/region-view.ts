@@ -3,7 +3,9 @@
  * dates, how likely, how sure, action, what changed), the outlook strip (hazard × days/weeks/months), short
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
-import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
+import type { IndicatorConfig, RegionConfig, ThresholdSpec } from '../config/types.ts';
+import { basename } from 'node:path';
+import { indicatorDefinition } from '../indicators/registry.ts';
 import type { LeadProbability, Tier } from '../types.ts';
 import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
@@ -14,6 +16,7 @@ import { pastYearsShare, rangeWords, thresholdNumber, thresholdRangeWords, thres
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
   TIERS,
+  formatThreshold,
   groupLeads,
   leadView,
   noForecastView,
@@ -57,6 +60,10 @@ export interface OutlookCell {
   readonly chance: string;
   readonly dates: string;
   readonly noSkill: boolean;
+  /** The lead whose chance the cell shows (null: none usable). */
+  readonly lead: LeadView | null;
+  /** Printed after the chance: "*" no proven skill, "+" it points above the cell's stage (waiting or capped), else "". */
+  readonly mark: string;
 }
 export interface OutlookRow {
   readonly hazard: string;
@@ -228,6 +235,25 @@ function cellLead(tv: TierView): LeadView | null {
   );
 }
 
+/** How the region's value of an indicator was formed (config region-value), for the technical note. */
+function regionValueLine(
+  t: Translate,
+  locale: string,
+  region: RegionConfig,
+  ind: IndicatorConfig | undefined,
+  raster: string | undefined,
+): string {
+  const value = ind?.regionValue ?? { weights: 'area' as const };
+  const args = {
+    rule: region.cellRule ?? 'overlap',
+    clock: regionClock(region).key,
+    weights: value.weights,
+    raster: raster ? basename(raster) : '',
+  };
+  if (value.shareAbove === undefined || !ind) return t('method.region', args);
+  return t('method.share', { ...args, level: formatThreshold(locale, value.shareAbove, indicatorDefinition(ind.kind).units) });
+}
+
 /** Everything the templates need about one region, for one locale and audience. */
 export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
   const lookup = stageIndex(config);
@@ -267,7 +293,7 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
   const indicators = ids.map((id): IndicatorView => {
     const own = tiers.filter((tv) => tv.indicatorId === id);
     const ind = indicatorOf(id);
-    const averaged = t('method.region', { rule: outcome.region.cellRule ?? 'overlap', clock: regionClock(outcome.region).key });
+    const averaged = regionValueLine(t, locale, outcome.region, ind, config.population?.file);
     return {
       id,
       hazard: own[0].hazard,
@@ -281,11 +307,15 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
       const tv = ind.tiers.find((x) => x.tier === tierName);
       if (!tv) return null;
       const pick = cellLead(tv);
+      const noSkill = tv.leads.length > 0 && tv.leads.every((l) => l.withheld);
+      const above = pick !== null && pick.reached.rank > tv.stage.rank;
       return {
         stage: tv.stage,
         chance: pick?.chance ?? '–',
         dates: pick?.dates ?? '',
-        noSkill: tv.leads.length > 0 && tv.leads.every((l) => l.withheld),
+        noSkill,
+        lead: pick,
+        mark: above ? '+' : noSkill ? '*' : '',
       };
     }),
   }));

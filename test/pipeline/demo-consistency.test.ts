@@ -34,7 +34,7 @@ beforeAll(async () => {
   const sample = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
   config = {
     ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: sample(s.forecast), hindcast: s.hindcast && sample(s.hindcast) })),
+    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(sample), hindcast: s.hindcast && sample(s.hindcast) })),
     observations: base.observations && { ...base.observations, path: sample(base.observations.path) },
     teams: [
       ...base.teams,

@@ -5,7 +5,10 @@
  * - the newest file of each tier damaged with real tools (NCO ncrename/ncatted/ncks, nccopy, netCDF4-python):
  *   truncated classic, truncated NetCDF-4, renamed variable, no units, all values missing, another grid;
  * - an empty file and a folder at the newest short-range path; a region without grid cells;
- * - a refused SMTP login (535) from a real smtp-server on 127.0.0.1 (disk faults of the outputs: test/core/write-atomic.test.ts).
+ * - a refused SMTP login (535) from a real smtp-server on 127.0.0.1;
+ * - the archive folder on a real tmpfs remounted read-only (EROFS), and on a real tmpfs filled up (ENOSPC): the
+ *   e-mails still go out, exit 4, the message and the operator notice name the folder and the fix, no temp file is
+ *   left (single writes: test/core/write-atomic.test.ts).
  * For each: the exit code; no region below its previous stage or below the clean run purely because data vanished;
  * the bulletin names the missing part (or the older forecast used); an operator notice; every team still gets its
  * bulletin, each Message-ID once; no bulletin contradicts itself (render/consistency.ts in every render, and the rows
@@ -27,7 +30,7 @@ import {
   writeFileSync,
 } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { basename, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { simpleParser } from 'mailparser';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
@@ -42,6 +45,7 @@ import { runOnce, type RunOutcome } from '../../src/pipeline/run-once.ts';
 import { issuedRegionStages } from '../../src/pipeline/bulletin-run.ts';
 import { generateSample } from '../../src/sample/generate.ts';
 import { startSmtp, type SmtpFixture } from '../deliver/fixtures.ts';
+import { fill, mountFaults, mountTmpfs, type Mounted } from '../support/small-disk.ts';
 import { runDiagnostics } from '../../src/ledger/diagnostics.ts';
 import { rowsAboveStageWithoutReason } from '../support/bulletin-rows.ts';
 
@@ -68,7 +72,7 @@ function configFor(dir: string, forecastDir: string, cacheDir: string): Config {
     ...base,
     sources: base.sources.map((s) => ({
       ...s,
-      forecast: s.forecast.replace(/.*sample-inputs\/data/, forecastDir),
+      forecast: s.forecast.map((p) => p.replace(/.*sample-inputs\/data/, forecastDir)),
       hindcast: s.hindcast && sample(s.hindcast),
     })),
     observations: base.observations && { ...base.observations, path: sample(base.observations.path) },
@@ -330,4 +334,42 @@ describe('SMTP login refused (535) by a real server on 127.0.0.1', () => {
       await smtp.close();
     }
   }, 240_000);
+});
+
+/** Every temporary file (write-atomic's ".tmp-" mark) under the given folders. */
+function tempFiles(...dirs: string[]): string[] {
+  return dirs.flatMap((d) =>
+    existsSync(d)
+      ? (readdirSync(d, { recursive: true }) as string[]).filter((f) => basename(f).includes('.tmp-')).map((f) => join(d, f))
+      : [],
+  );
+}
+
+describe.skipIf(!mountFaults())('the archive folder on a faulty disk (real tmpfs, mount(8))', () => {
+  const cases: [string, (disk: Mounted) => void, RegExp][] = [
+    ['read-only (EROFS)', (disk) => disk.readOnly(), /EROFS.*read-only file system: remount it read-write/],
+    ['full (ENOSPC)', (disk) => fill(disk.dir), /ENOSPC.*is full: free space there/],
+  ];
+  it.each(cases)(
+    '%s: every e-mail still goes out, exit 4, path and fix named on the terminal and in the notice, no temp file left',
+    async (_name, fault, fix) => {
+      const disk = mountTmpfs(64 * 1024);
+      try {
+        cpSync(join(historyDir, 'archive'), disk.dir, { recursive: true });
+        fault(disk);
+        const s = await issue(`archive-${_name}`, { edit: (c) => ({ ...c, delivery: { ...c.delivery, archive: disk.dir } }) });
+        expect(s.outcome.exitCode, s.outcome.summary).toBe(EXIT.deliveryFailed);
+        expect(s.outcome.summary).toMatch(new RegExp(`output problem\\(s\\): archive: .*${disk.dir}`));
+        expect(s.outcome.summary).toMatch(fix);
+        expectSafe(s);
+        expect(s.notices.some((n) => n.includes('outputs not written') && n.includes(disk.dir))).toBe(true);
+        expect(tempFiles(disk.dir, s.config.delivery.outbox, dirname(s.config.ledger))).toEqual([]);
+        // The stages were issued and stored although the archive could not be written.
+        expect(s.stages).toEqual(clean.stages);
+      } finally {
+        disk.unmount();
+      }
+    },
+    240_000,
+  );
 });

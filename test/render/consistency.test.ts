@@ -56,6 +56,19 @@ describe('checkRegionView', () => {
     expect(kinds('kessan-lowlands', said)).toEqual([]);
   });
 
+  it('rows: an outlook cell whose chance points above its stage without the "+" mark', () => {
+    const v = view('kessan-lowlands');
+    const actNow = toStageView(config.stages[3], 3, 'en', 'default');
+    const outlook = v.outlook.map((row, i) =>
+      i > 0 ? row : { ...row, cells: row.cells.map((c, j) => (j === 0 && c?.lead ? { ...c, lead: { ...c.lead, reached: actNow } } : c)) },
+    );
+    expect(kinds('kessan-lowlands', { ...v, outlook })).toEqual(['rows']);
+    const marked = outlook.map((row, i) =>
+      i > 0 ? row : { ...row, cells: row.cells.map((c, j) => (j === 0 && c ? { ...c, mark: '+' } : c)) },
+    );
+    expect(kinds('kessan-lowlands', { ...v, outlook: marked })).toEqual([]);
+  });
+
   it('words: "very unlikely" printed for 70 % (configured band: likely)', () => {
     const v = withLead(view('kessan-lowlands'), 'days', 4, (l) => ({ ...l, word: 'very unlikely' }));
     expect(kinds('kessan-lowlands', v)).toContain('words');
