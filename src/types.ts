@@ -8,7 +8,9 @@
 export type IsoDate = string;
 
 /** Lead-time tiers: short-range days, sub-seasonal weeks, seasonal months. */
-export type Tier = 'days' | 'weeks' | 'months';
+/** The tiers, shortest first. */
+export const TIERS = ['days', 'weeks', 'months'] as const;
+export type Tier = (typeof TIERS)[number];
 
 /** Canonical physical quantities Forelight reads, with their canonical units. */
 export type Quantity = 'tmax' | 'tmin' | 'tmean' | 'dewpoint' | 'rh' | 'precip' | 'wind';
@@ -44,16 +46,28 @@ export interface RegionSeries {
   /** Number of grid cells that fall in the region. */
   readonly cells: number;
   readonly provenance: Provenance;
+  /** How the cells were weighted: by area (absent) or by the people of the population raster. */
+  readonly weighting?: 'population';
+  /** Every cell's own series, for indicators whose region value is a share above a level (absent otherwise). */
+  readonly perCell?: CellSeries;
 }
 
-/** All region series of one forecast (or one hindcast start, or the observations). */
-export interface EnsembleForecast {
-  readonly source: string;
-  readonly kind: 'forecast' | 'hindcast' | 'observed';
-  /** ISO 8601 UTC reference (start) time. */
-  readonly referenceTime: string;
-  /** region id → quantity → series. */
-  readonly series: ReadonlyMap<string, ReadonlyMap<Quantity, RegionSeries>>;
+/** The cells of a region one by one: weights (area or people, summing to 1) and [cell][member][day] values. */
+export interface CellSeries {
+  readonly weights: Float64Array;
+  readonly data: Float64Array;
+}
+
+/** Output of the read stage for one file (a forecast, one hindcast start or the observations): region id → quantity → series. */
+export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
+
+/** Output of the read stage for one hindcast start of a source. */
+export interface HindcastRead {
+  readonly year: number;
+  /** Start date, YYYY-MM-DD. */
+  readonly start: IsoDate;
+  readonly path: string;
+  readonly series: RegionQuantities;
 }
 
 /** Output of the indicators stage: one indicator for one region, per member and day. */
@@ -69,6 +83,8 @@ export interface IndicatorSeries {
   readonly outOfRange: number;
   /** Count of missing (NaN) values in the result. */
   readonly missing: number;
+  /** 1 where a value lies beyond the formula's published table and was capped there (heat index), member-major. */
+  readonly beyondTable?: Uint8Array;
 }
 
 /** One lead of a tier: the local days it speaks for. */
@@ -125,8 +141,32 @@ export interface SkillSummary {
   /** Events among the cases at this lead. */
   readonly events: number;
   readonly gate: SkillGateResult;
+  /**
+   * Reliability diagram of this lead's cases (calibrate/reliability.ts: bins with Bröcker & Smith 2007
+   * consistency bars); null without cases. For a "potential" basis it describes the model against itself.
+   */
+  readonly reliability: ReliabilityDiagram | null;
   /** True when the skill gate passed: observed skill, enough events, interval above the floor. */
   readonly skilful: boolean;
+}
+
+/** One probability bin of a reliability diagram (calibrate/reliability.ts). */
+export interface ReliabilityBin {
+  /** Bin edges: [low, high) (the last bin includes 1). */
+  readonly low: number;
+  readonly high: number;
+  readonly count: number;
+  readonly forecastMean: number;
+  readonly observedFrequency: number;
+  /** 90 % consistency bar (NaN when no resample put a case in the bin). */
+  readonly consistencyLow: number;
+  readonly consistencyHigh: number;
+}
+
+export interface ReliabilityDiagram {
+  readonly cases: number;
+  readonly resamples: number;
+  readonly bins: readonly ReliabilityBin[];
 }
 
 /** Output of the calibrate stage: exceedance probability at one lead. */

@@ -78,6 +78,8 @@ export interface LeadValues {
   readonly leads: LeadWindow[];
   readonly members: number;
   readonly values: Float64Array;
+  /** Member-major [member][lead]: 1 when a day of the lead lies beyond the formula's published table. */
+  readonly beyondTable?: Uint8Array;
 }
 
 /** Aggregate daily values (member-major [member][day]) to the leads of `tier` by mean, max or sum. */
@@ -103,7 +105,15 @@ export function aggregateToLeads(series: IndicatorSeries, tier: Tier, how: 'mean
       values[m * nLeads + l] = !enough ? Number.NaN : how === 'mean' ? acc / valid : acc;
     }
   }
-  return { leads: spans.map((s) => s.lead), members: series.members, values };
+  const leads = spans.map((s) => s.lead);
+  const mask = series.beyondTable;
+  if (!mask) return { leads, members: series.members, values };
+  const beyondTable = new Uint8Array(series.members * nLeads);
+  for (let m = 0; m < series.members; m++)
+    spans.forEach(
+      ({ from, to }, l) => (beyondTable[m * nLeads + l] = Number(mask.subarray(m * nDays + from, m * nDays + to).some(Boolean))),
+    );
+  return { leads, members: series.members, values, beyondTable };
 }
 
 /** One source's leads (any objects carrying a lead window, e.g. LeadProbability) for source combination. */

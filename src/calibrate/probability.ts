@@ -7,6 +7,8 @@
  *   "few-members: …"               valid members < minMembers; with N members p moves in steps of 1/N
  *   "missing-members: k of N …"    members without a value at this lead
  *   "quantile-map-clipped: …"      the absolute threshold lies outside the observed climatology
+ *   "beyond-table: k of N …"       members whose value at this lead lies beyond the formula's published table
+ *                                  (heat index: capped at the table's top, not extrapolated)
  *   "hindcast-members: …"          hindcasts have another ensemble size than the forecast. Operational hindcasts
  *                                  usually do (e.g. 11 against 51): thresholds and base rates pool all years ×
  *                                  members, so they stay calibrated, but skill was measured with the hindcast size.
@@ -104,6 +106,12 @@ function normalYearRate(req: ProbabilityRequest, l: number, climate: LeadClimate
   return climate ? fractionAbove(leadSample(climate, l), threshold) : Number.NaN;
 }
 
+function countBeyond(mask: Uint8Array, members: number, nLeads: number, l: number): number {
+  let n = 0;
+  for (let m = 0; m < members; m++) n += mask[m * nLeads + l];
+  return n;
+}
+
 /** Exceedance probabilities of one source × region × indicator × tier, one LeadProbability per forecast lead. */
 export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
   const { forecast, calibration, hindcast } = req;
@@ -149,6 +157,11 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
         `hindcast-members: hindcasts have ${hindcast.members} members per year, the forecast ${forecast.members}; thresholds pool all hindcast years × members, skill was measured with ${hindcast.members}-member ensembles`,
       );
     }
+    const beyond = forecast.beyondTable ? countBeyond(forecast.beyondTable, forecast.members, nLeads, l) : 0;
+    if (beyond > 0)
+      flags.push(
+        `beyond-table: ${beyond} of ${forecast.members} members lie beyond the published table at ${leadLabel(lead)}; their values are capped at its top, not extrapolated`,
+      );
     const exc = exceedanceFraction(members, threshold.value);
     if (exc.missing > 0) flags.push(`missing-members: ${exc.missing} of ${forecast.members} members have no value at ${leadLabel(lead)}`);
     if (exc.valid < calibration.minMembers) {

@@ -1,5 +1,5 @@
 /**
- * File cache of skill reports (with file-checksums.ts, the only I/O of the calibrate stage). The key is the sha256 of the hindcast files'
+ * File cache of skill reports and model climates (with file-checksums.ts, the only I/O of the calibrate stage). The key is the sha256 of the hindcast files'
  * contents, the observations file's contents, a configuration fingerprint and the cache format version; a changed
  * input gives a new key, so stale entries are never read (checksums are remembered per path, size and
  * modification time, see file-checksums.ts). Entries are JSON files
@@ -12,8 +12,14 @@ import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import { describeError } from '../core/errors.ts';
 import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
+import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
+import { pairKey, type PairKey } from '../core/keys.ts';
+import type { SourceConfig } from '../config/types.ts';
+import type { HindcastRead } from '../types.ts';
+import { buildIndicatorClimate, tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
+import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
-export const SKILL_CACHE_VERSION = 5;
+export const SKILL_CACHE_VERSION = 6;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {
@@ -58,21 +64,27 @@ const decode = (_k: string, v: unknown): unknown =>
     : v;
 
 /**
- * The cached value for `key`, or else `compute()` stored under `key`. An unreadable or corrupt entry is
- * recomputed and overwritten (`note` says so).
+ * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as stored (non-finite
+ * numbers still in their {"$num": …} form); an unreadable, corrupt or misshapen entry is recomputed and
+ * overwritten (`note` says so).
  */
 export async function cachedSkill<T>(
   cacheDir: string,
   key: string,
   compute: () => T | Promise<T>,
+  shape: ShapeCheck<unknown>,
 ): Promise<{ value: T; fromCache: boolean; note: string }> {
   const file = join(cacheDir, `skill-${key}.json`);
   let note = '';
-  try {
-    return { value: JSON.parse(await readFile(file, 'utf8'), decode) as T, fromCache: true, note };
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code !== 'ENOENT') note = `skill cache entry ${file} unreadable (${(err as Error).message}); recomputed`;
+  const text = await readFile(file, 'utf8').catch((err: NodeJS.ErrnoException) => {
+    if (err.code !== 'ENOENT') note = `skill cache entry ${file} unreadable (${err.message}); recomputed`;
+    return null;
+  });
+  if (text !== null) {
+    const checked = parseShaped(text, shape);
+    // The shape was checked on the stored form; decoding only turns {"$num": …} back into numbers.
+    if (checked.ok) return { value: JSON.parse(text, decode) as T, fromCache: true, note };
+    note = `skill cache entry ${file} unreadable (${checked.why}); recomputed`;
   }
   const value = await compute();
   try {
@@ -82,4 +94,47 @@ export async function cachedSkill<T>(
     note = [note, `skill cache not kept: ${describeError(err)}`].filter(Boolean).join('; ');
   }
   return { value, fromCache: false, note };
+}
+
+/**
+ * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
+ * observation files and the configuration are unchanged, else `readHindcasts()` and `buildIndicatorClimate`, stored.
+ */
+export async function cachedClimates(
+  ctx: CalibrateContext,
+  source: SourceConfig,
+  hindcastFiles: readonly string[],
+  readHindcasts: () => Promise<readonly HindcastRead[]>,
+): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
+  const { config } = ctx;
+  if (hindcastFiles.length === 0) return { climates: new Map(), fromCache: false, cacheNote: '' };
+  const key = await skillCacheKey({
+    hindcastFiles,
+    observationsFile: ctx.observationsPath,
+    configFingerprint: fingerprint({
+      source: { id: source.id, tier: source.tier, hindcast: source.hindcast, variables: source.variables },
+      regions: config.regions,
+      indicators: config.indicators,
+      rules: config.rules,
+      gate: config.decision.skillGate,
+      calibration: config.calibration,
+    }),
+    memo: ctx.checksums,
+  });
+  const compute = async (): Promise<StoredClimate[]> => {
+    const hindcasts = await readHindcasts();
+    return tierPairs(config, source.tier).map(({ region, ind }): StoredClimate => {
+      const climatology = ctx.climatology.get(region.id) ?? {};
+      const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, climatology, ctx.observedMemo);
+      return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
+    });
+  };
+  const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, compute, isStoredClimates);
+  const climates = new Map(
+    cached.value.map(({ region, indicator, ...c }) => [
+      pairKey(region, indicator),
+      { ...c, hindcast: fromStored(c.hindcast), observed: fromStored(c.observed) },
+    ]),
+  );
+  return { climates, fromCache: cached.fromCache, cacheNote: cached.note };
 }

@@ -24,6 +24,7 @@ import { percentileLinear } from '../core/percentile.ts';
 import { yearBlockBootstrap, type BootstrapIntervals, type VerificationCases } from './bootstrap.ts';
 import { fairBrierScoreFerro2014, fairBrierSkillScore } from './fair-brier.ts';
 import { gateByLead, type SkillGate } from './skill-gate.ts';
+import { reliabilityDiagram } from './reliability.ts';
 import {
   brierScore1950,
   brierSkillScoreSampleClimatology,
@@ -217,6 +218,7 @@ export function scoreCases(
       years: cases.years.length,
       events,
       gate: verdict,
+      reliability: usable ? reliabilityDiagram(p, o, { resamples: gate.resamples, seed: gate.seed }) : null,
       skilful: verdict.passed,
     },
   };

@@ -38,9 +38,22 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   extract: {
     summary: 'print the decoded, area-weighted region series of one file as JSON',
     usage:
-      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] --json',
+      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json',
     spec: {
-      values: ['var', 'box', 'regions', 'id-property', 'name-property', 'daily', 'utc-offset', 'time-zone', 'cells'],
+      values: [
+        'var',
+        'box',
+        'regions',
+        'id-property',
+        'name-property',
+        'daily',
+        'utc-offset',
+        'time-zone',
+        'cells',
+        'population',
+        'population-variable',
+        'population-values',
+      ],
       flags: ['json'],
     },
     run: async (a) => (await import('./commands/extract.ts')).extractCommand(a),

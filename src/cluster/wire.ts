@@ -20,8 +20,18 @@ interface WireProblem {
   readonly diagnostic: Diagnostic;
 }
 
-interface WireSeries extends Omit<RegionSeries, 'data'> {
+interface WireSeries extends Omit<RegionSeries, 'data' | 'perCell'> {
   readonly data: string;
+  readonly perCell?: { readonly weights: string; readonly data: string };
+}
+
+const toBase64 = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');
+
+function fromBase64(text: string): Float64Array {
+  const bytes = Buffer.from(text, 'base64');
+  const data = new Float64Array(bytes.byteLength / 8);
+  new Uint8Array(data.buffer).set(bytes);
+  return data;
 }
 
 export interface WireResult {
@@ -35,7 +45,11 @@ export interface WireResult {
 export function toWire(result: ExtractResult, thrown = false): WireResult {
   return {
     ...(thrown ? { thrown } : {}),
-    series: result.series.map((s) => ({ ...s, data: Buffer.from(s.data.buffer, s.data.byteOffset, s.data.byteLength).toString('base64') })),
+    series: result.series.map(({ perCell, ...s }) => ({
+      ...s,
+      data: toBase64(s.data),
+      ...(perCell ? { perCell: { weights: toBase64(perCell.weights), data: toBase64(perCell.data) } } : {}),
+    })),
     problems: result.problems.map((p) => ({ input: p instanceof InputError, diagnostic: p.diagnostic })),
     notes: result.notes,
   };
@@ -50,12 +64,11 @@ function fromDiagnostic({ input, diagnostic: d }: WireProblem): ForelightError {
 
 export function fromWire(wire: WireResult): ExtractResult {
   return {
-    series: wire.series.map((s) => {
-      const bytes = Buffer.from(s.data, 'base64');
-      const data = new Float64Array(bytes.byteLength / 8);
-      new Uint8Array(data.buffer).set(bytes);
-      return { ...s, data };
-    }),
+    series: wire.series.map(({ perCell, ...s }) => ({
+      ...s,
+      data: fromBase64(s.data),
+      ...(perCell ? { perCell: { weights: fromBase64(perCell.weights), data: fromBase64(perCell.data) } } : {}),
+    })),
     problems: wire.problems.map(fromDiagnostic),
     notes: [...wire.notes],
   };

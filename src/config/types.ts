@@ -68,8 +68,38 @@ export interface RegionConfig {
   readonly timeZone?: string;
   /** Default `overlap`. */
   readonly cellRule?: CellRule;
+  /**
+   * Set only on the read stage's derived regions (pipeline/region-values.ts): `population` weights each cell by
+   * the people of the population raster living in cell ∩ region instead of its area; `keepCells` also returns
+   * every cell's own series (for indicators whose region value is a share above a level).
+   */
+  readonly weighting?: RegionWeighting;
+  readonly keepCells?: boolean;
   /** Team ids that receive this region's advisories. */
   readonly teams: readonly string[];
+}
+
+/** How a region's cells are weighted: by area (the default) or by the people living in each cell ∩ region. */
+export type RegionWeighting = 'area' | 'population';
+
+/** The gridded population raster (YAML `population:`), WGS 84 longitude/latitude. */
+export interface PopulationConfig {
+  /** NetCDF or GeoTIFF file (absolute path). */
+  readonly file: string;
+  /** NetCDF variable of the people; absent = the only variable on the latitude × longitude grid. */
+  readonly variable?: string;
+  /** `people-per-pixel` (counts, e.g. a census raster) or `people-per-km2` (density). */
+  readonly values: 'people-per-pixel' | 'people-per-km2';
+}
+
+/**
+ * How an indicator's per-member region value is formed (YAML `region-value:`): the mean of the cells weighted by
+ * `weights`, or, with `shareAbove`, the percentage of the region's area or people whose own cell value of the
+ * indicator exceeds `shareAbove` (in the indicator's units).
+ */
+export interface RegionValueConfig {
+  readonly weights: RegionWeighting;
+  readonly shareAbove?: number;
 }
 
 export interface TeamConfig {
@@ -103,6 +133,8 @@ interface IndicatorCommon {
   readonly aggregate: 'mean' | 'max' | 'sum';
   /** Tiers this indicator is computed for. */
   readonly tiers: readonly Tier[];
+  /** How the region value is formed; absent = the area-weighted mean. */
+  readonly regionValue?: RegionValueConfig;
 }
 
 /**
@@ -236,6 +268,8 @@ export interface Config {
   readonly sources: readonly SourceConfig[];
   readonly observations: ObservationsConfig | null;
   readonly regions: readonly RegionConfig[];
+  /** The population raster that `region-value: { weights: population }` indicators weight by; null when none. */
+  readonly population?: PopulationConfig | null;
   readonly teams: readonly TeamConfig[];
   readonly indicators: readonly IndicatorConfig[];
   /** Ordered lowest ("nothing unusual") to highest ("act now"). */

@@ -99,6 +99,13 @@ export const DIAGNOSTIC_CODES = {
     meaning: "a source's forecast file is missing or unreadable, so `forelight check` could not compare the regions with its grid",
     fix: 'run check again once the files are there',
   },
+  'config-population': {
+    stage: 'config',
+    severity: 'error',
+    meaning:
+      'the population raster named by population.file is missing, unreadable, not WGS 84 longitude/latitude, or does not cover a region',
+    fix: 'follow the message; reproject with gdalwarp -t_srs EPSG:4326 where it says so',
+  },
   'config-grid': {
     stage: 'config',
     severity: 'error',
@@ -322,6 +329,31 @@ export const DIAGNOSTIC_CODES = {
     severity: 'error',
     meaning: 'a region contains no grid cell centre of the file',
     fix: 'enlarge the region or use a finer grid',
+  },
+  'population-raster': {
+    stage: 'read',
+    severity: 'error',
+    meaning:
+      'the population raster cannot be read or converted (file missing, GDAL missing, no people variable on a latitude-longitude grid)',
+    fix: 'check population.file and population.variable in the YAML; GeoTIFF needs the Debian package gdal-bin',
+  },
+  'population-crs': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the population raster is not on a WGS 84 longitude/latitude grid',
+    fix: 'reproject it once: gdalwarp -t_srs EPSG:4326 IN.tif OUT.tif',
+  },
+  'population-coverage': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the population raster does not cover a region that an indicator weights by population',
+    fix: 'give a raster that covers every region, or weight that indicator by area',
+  },
+  'population-empty': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the population raster holds nobody in a region (all zero or missing), so a population-weighted value has no meaning there',
+    fix: 'check the raster over that region (gdalinfo -stats), or weight that indicator by area',
   },
   'region-all-missing': {
     stage: 'read',

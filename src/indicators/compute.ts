@@ -49,6 +49,7 @@ export function computeIndicator(
     members: t.members,
     data,
     outOfRange: out.outOfRange,
+    ...(out.beyondTable ? { beyondTable: out.beyondTable } : {}),
     missing: countNaN(data),
     notes: out.notes,
   };

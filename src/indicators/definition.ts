@@ -48,6 +48,8 @@ export interface KindOutput {
   readonly outOfRange: number;
   /** Plain-language notes on partial or assumed inputs (for the ledger and bulletins). */
   readonly notes: readonly string[];
+  /** 1 where a value lies beyond the formula's published table and was capped there (heat index), member-major. */
+  readonly beyondTable?: Uint8Array;
   /** Days of the result when they differ from the template's (monthly indices). */
   readonly days?: readonly IsoDate[];
 }

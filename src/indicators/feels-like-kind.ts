@@ -23,7 +23,7 @@ export function feelsLikeKind<K extends FeelsLikeKind>(
     describe,
     compute(ind, inputs) {
       const r = feelsLikeSeries(kind, inputs, ind.id, ind.params.basis);
-      return { template: r.template, data: r.data, outOfRange: countOutOfRange(r.data, r.raw), notes: r.notes };
+      return { template: r.template, data: r.data, outOfRange: countOutOfRange(r.data, r.raw), notes: r.notes, beyondTable: r.beyondTable };
     },
   });
 }

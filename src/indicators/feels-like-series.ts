@@ -11,11 +11,11 @@
  * AT and simplified WBGT RH with the BoM constants so that e = e_s,BoM(Td) exactly; humidex Td directly.
  * RH up to 100.5 % (dewpoint slightly above the basis temperature) is clamped to 100 %; beyond → out of range.
  */
-import { ForelightError } from '../core/errors.ts';
+import { badParam } from './kind-inputs.ts';
 import type { Quantity, RegionSeries } from '../types.ts';
 import { apparentTemperatureSteadman1994C } from './apparent-temperature-steadman-1994.ts';
 import { mapElementwise2, mapElementwise3 } from './elementwise.ts';
-import { heatIndexRothfusz1990C } from './heat-index-rothfusz-1990.ts';
+import { heatIndexBeyondTableC, heatIndexRothfusz1990C } from './heat-index-rothfusz-1990.ts';
 import { humidexMastertonRichardson1979 } from './humidex-masterton-richardson-1979.ts';
 import {
   dewpointFromRhMagnusC,
@@ -35,6 +35,8 @@ export interface FeelsLikeResult {
   readonly raw: readonly Float64Array[];
   readonly notes: readonly string[];
   readonly template: RegionSeries;
+  /** Heat index only: 1 where the value lies beyond the published table (capped there), member-major. */
+  readonly beyondTable?: Uint8Array;
 }
 
 /** RH [%] at temperature tC for dewpoint tdC, clamped to 100 up to 100.5, NaN beyond. */
@@ -80,7 +82,7 @@ export function feelsLikeSeries(
   basisParam: string | number | boolean | undefined,
 ): FeelsLikeResult {
   if (basisParam !== undefined && basisParam !== 'tmax' && basisParam !== 'tmean') {
-    throw new ForelightError('indicators', 'bad-param', `indicator "${id}": params.basis is "${String(basisParam)}"`, 'use tmax or tmean');
+    throw badParam({ id }, `params.basis is "${String(basisParam)}"`, 'use tmax or tmean');
   }
   const basisQ: Quantity = basisParam === 'tmean' ? 'tmean' : 'tmax';
   const basis = requireQuantity(inputs, basisQ, id, 'basis temperature');
@@ -95,7 +97,16 @@ export function feelsLikeSeries(
     return { data: out, raw: [t, wind.data, ...raw], notes, template: basis };
   }
   mapElementwise2(t, tdC, out, TWO_INPUT_FORMULAS[kind]);
-  return { data: out, raw: [t, ...raw], notes, template: basis };
+  if (kind !== 'heat-index') return { data: out, raw: [t, ...raw], notes, template: basis };
+  const beyondTable = new Uint8Array(t.length);
+  for (let i = 0; i < t.length; i++)
+    beyondTable[i] = Number(heatIndexBeyondTableC(t[i], rhAt(t[i], tdC[i], MAGNUS_ALDUCHOV_ESKRIDGE_1996)));
+  const beyond = beyondTable.reduce((a, b) => a + b, 0);
+  if (beyond > 0)
+    notes.push(
+      `${beyond} member-days beyond the published Heat Index table (above 43.3 °C air temperature or 58.3 °C heat index): capped at 58.3 °C, not extrapolated`,
+    );
+  return { data: out, raw: [t, ...raw], notes, template: basis, beyondTable };
 }
 
 const TWO_INPUT_FORMULAS: Readonly<Record<Exclude<FeelsLikeKind, 'apparent-temperature'>, (tC: number, tdC: number) => number>> = {

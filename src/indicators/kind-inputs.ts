@@ -7,7 +7,7 @@ import type { IsoDate, Quantity, RegionSeries } from '../types.ts';
 import type { AntecedentQuantity, IndicatorContext, IndicatorSpec } from './definition.ts';
 import { checkAligned, requireQuantity } from './series-checks.ts';
 
-export function badParam(ind: IndicatorSpec<string, unknown>, what: string, fix: string): ForelightError {
+export function badParam(ind: Pick<IndicatorSpec<string, unknown>, 'id'>, what: string, fix: string): ForelightError {
   return new ForelightError('indicators', 'bad-param', `indicator "${ind.id}": ${what}`, fix);
 }
 

@@ -3,26 +3,31 @@
  * Per member and calendar month of the forecast ("data month"):
  *   T = mean of the daily mean temperatures of the month's forecast days;
  *   R = mean daily rate (mm/day) × days in that month (checks.json row monthly_total_from_mean_rate);
- *   index = min(f_T Craig 1999, f_R Craig 1999, temperature model)   (fuzzy AND)
- * temperature model: 'martens-detinova' = p^n (Martens 1997 p, Detinova 1962 n for params.species) divided by its
- * maximum over temperature, or 'mordecai-2013' = relative R0 (P. falciparum only).
+ *   index = min(temperature term, f_R Craig 1999)   (fuzzy AND, as Craig et al. 1999 combine memberships)
+ * The temperature term is ONE of (params.temperatureModel), never two at once, so warmth is counted once:
+ *   'craig-1999' (default) = f_T of Craig et al. 1999;
+ *   'martens-detinova' = p^n (Martens 1997 p, Detinova 1962 n for params.species) divided by its maximum over
+ *     temperature; 'mordecai-2013' = relative R0 (P. falciparum only). Each replaces f_T; none is combined with it.
  * The index speaks for targetMonth = dataMonth + params.lagMonths (1 or 2): rain and warmth in month m shape
  * transmission in month m + lag, so a forecast reaching month 2 informs months 2 + lag.
  * A data month with forecast days for less than `minMonthCoverage` (default 0.5, common practice, no source) of
  * its calendar days gets NaN. Categories: unsuitable < marginalAt (0.25) ≤ marginal < suitableAt (0.75) ≤ suitable
  * (defaults are common practice, no source).
  */
-import { ForelightError } from '../core/errors.ts';
+import { badParam } from './kind-inputs.ts';
 import type { IsoDate } from '../types.ts';
 import { daysInMonth, addMonths, monthOf } from '../core/iso-dates.ts';
 import { relativeR0Mordecai2013 } from './relative-r0-mordecai-2013.ts';
 import { DETINOVA_1962, type PlasmodiumSpecies } from './sporogony-detinova-1962.ts';
-import { craigMonthlySuitability1999 } from './suitability-craig-1999.ts';
+import { craigRainfallMembership1999, craigTemperatureMembership1999 } from './suitability-craig-1999.ts';
 import { maxSurvivalThroughSporogony, relativeSurvivalThroughSporogony } from './survival-martens-1997.ts';
+
+export const MALARIA_TEMPERATURE_MODELS = ['craig-1999', 'martens-detinova', 'mordecai-2013'] as const;
+export type MalariaTemperatureModel = (typeof MALARIA_TEMPERATURE_MODELS)[number];
 
 export interface MalariaParams {
   readonly species: PlasmodiumSpecies;
-  readonly temperatureModel: 'martens-detinova' | 'mordecai-2013';
+  readonly temperatureModel: MalariaTemperatureModel;
   readonly lagMonths: 1 | 2;
   readonly minMonthCoverage: number;
   readonly marginalAt: number;
@@ -44,10 +49,6 @@ export interface MonthlySuitability {
 
 export type SuitabilityCategory = 'unsuitable' | 'marginal' | 'suitable';
 
-function badParam(id: string, what: string, fix: string): ForelightError {
-  return new ForelightError('indicators', 'bad-param', `indicator "${id}": ${what}`, fix);
-}
-
 /** Validates `params` of a malaria-suitability indicator and fills the defaults. */
 export function parseMalariaParams(ind: { readonly id: string; readonly params: Readonly<Record<string, unknown>> }): MalariaParams {
   const p = ind.params;
@@ -58,29 +59,33 @@ export function parseMalariaParams(ind: { readonly id: string; readonly params: 
       : speciesRaw === 'vivax' || speciesRaw === 'P. vivax'
         ? 'vivax'
         : null;
-  if (!species) throw badParam(ind.id, `params.species is "${String(speciesRaw)}"`, 'use falciparum or vivax');
-  const temperatureModel = p.temperatureModel ?? 'martens-detinova';
-  if (temperatureModel !== 'martens-detinova' && temperatureModel !== 'mordecai-2013') {
-    throw badParam(ind.id, `params.temperatureModel is "${String(temperatureModel)}"`, 'use martens-detinova or mordecai-2013');
+  if (!species) throw badParam(ind, `params.species is "${String(speciesRaw)}"`, 'use falciparum or vivax');
+  const temperatureModel = MALARIA_TEMPERATURE_MODELS.find((m) => m === (p.temperatureModel ?? 'craig-1999'));
+  if (!temperatureModel) {
+    throw badParam(
+      ind,
+      `params.temperatureModel is "${String(p.temperatureModel)}"`,
+      `use one of ${MALARIA_TEMPERATURE_MODELS.join(', ')}`,
+    );
   }
   if (temperatureModel === 'mordecai-2013' && species !== 'falciparum') {
     throw badParam(
-      ind.id,
+      ind,
       'params.temperatureModel mordecai-2013 is fitted for P. falciparum only',
-      'use species falciparum or the martens-detinova model',
+      'use species falciparum, or the craig-1999 or martens-detinova model',
     );
   }
   const lagMonths = p.lagMonths ?? 1;
-  if (lagMonths !== 1 && lagMonths !== 2) throw badParam(ind.id, `params.lagMonths is ${String(lagMonths)}`, 'use 1 or 2');
+  if (lagMonths !== 1 && lagMonths !== 2) throw badParam(ind, `params.lagMonths is ${String(lagMonths)}`, 'use 1 or 2');
   const num = (key: string, dflt: number): number => {
     const v = p[key] ?? dflt;
-    if (typeof v !== 'number' || !(v >= 0 && v <= 1)) throw badParam(ind.id, `params.${key} is ${String(v)}`, 'use a number from 0 to 1');
+    if (typeof v !== 'number' || !(v >= 0 && v <= 1)) throw badParam(ind, `params.${key} is ${String(v)}`, 'use a number from 0 to 1');
     return v;
   };
   const marginalAt = num('marginalAt', 0.25);
   const suitableAt = num('suitableAt', 0.75);
   if (!(marginalAt < suitableAt))
-    throw badParam(ind.id, `params.marginalAt ${marginalAt} is not below params.suitableAt ${suitableAt}`, 'make marginalAt < suitableAt');
+    throw badParam(ind, `params.marginalAt ${marginalAt} is not below params.suitableAt ${suitableAt}`, 'make marginalAt < suitableAt');
   return { species, temperatureModel, lagMonths, minMonthCoverage: num('minMonthCoverage', 0.5), marginalAt, suitableAt };
 }
 
@@ -94,7 +99,9 @@ export function suitabilityCategory(index: number, p: Pick<MalariaParams, 'margi
 /** Maximum of p^n per species, computed once (grid scan). */
 const MAX_SURVIVAL = new Map<PlasmodiumSpecies, number>();
 
+/** The one temperature term of the index (0..1). */
 function temperatureModel(p: MalariaParams): (tC: number) => number {
+  if (p.temperatureModel === 'craig-1999') return craigTemperatureMembership1999;
   if (p.temperatureModel === 'mordecai-2013') return relativeR0Mordecai2013;
   const k = DETINOVA_1962[p.species];
   if (!MAX_SURVIVAL.has(p.species)) MAX_SURVIVAL.set(p.species, maxSurvivalThroughSporogony(k).value);
@@ -135,7 +142,7 @@ export function monthlySuitability(
       }
       tempMeanC[m] = tSum / (end - start);
       rainTotalMm[m] = (rSum / (end - start)) * nDays;
-      index[m] = covered ? Math.min(craigMonthlySuitability1999(tempMeanC[m], rainTotalMm[m]), model(tempMeanC[m])) : NaN;
+      index[m] = covered ? Math.min(model(tempMeanC[m]), craigRainfallMembership1999(rainTotalMm[m])) : NaN;
     }
     result.push({
       dataMonth: month,

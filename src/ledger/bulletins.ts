@@ -6,6 +6,7 @@ import { createHash } from 'node:crypto';
 import { ForelightError } from '../core/errors.ts';
 import type { Bulletin } from '../types.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
+import { idRows, returnedId, rowReader } from './rows.ts';
 
 export interface StoredBulletin extends Bulletin {
   /** Ledger row id (unique across runs, unlike `id`). */
@@ -48,10 +49,10 @@ export function recordBulletins(ledger: Ledger, runId: number, bulletins: readon
     .transaction(() => {
       const now = stamp(ledger);
       return bulletins.map((b) => {
-        const existing = find.get(runId, b.id) as { id: number } | undefined;
+        const existing = idRows.one(find.get(runId, b.id), ledger.path);
         if (existing) return existing.id;
-        const rowId = (insert.get(runId, b.id, b.team, b.locale, b.subject, b.html, b.text, bulletinContentHash(b), now) as { id: number })
-          .id;
+        const inserted = insert.get(runId, b.id, b.team, b.locale, b.subject, b.html, b.text, bulletinContentHash(b), now);
+        const rowId = returnedId('bulletins', inserted, ledger.path);
         b.attachments.forEach((a, i) => insertAttachment.run(rowId, i, a.cid, a.filename, a.contentType, Buffer.from(a.content)));
         for (const recipient of uniqueRecipients(b.to)) insertDelivery.run(rowId, recipient, now, now);
         return rowId;
@@ -64,23 +65,28 @@ export function hasBulletins(ledger: Ledger, runId: number): boolean {
   return ledger.db.prepare('SELECT 1 FROM bulletins WHERE run_id = ? LIMIT 1').get(runId) !== undefined;
 }
 
-interface BulletinRow {
-  id: number;
-  run_id: number;
-  forecast_key: string;
-  bulletin_key: string;
-  team: string;
-  locale: string;
-  subject: string;
-  html: string;
-  text: string;
-  content_sha256: string;
-  created_at: string;
-}
+const BULLETIN_COLUMNS = {
+  id: 'integer',
+  run_id: 'integer',
+  forecast_key: 'text',
+  bulletin_key: 'text',
+  team: 'text',
+  locale: 'text',
+  subject: 'text',
+  content_sha256: 'text',
+  created_at: 'text',
+} as const;
+const bulletinRows = rowReader('bulletins', { ...BULLETIN_COLUMNS, html: 'text', text: 'text' });
+const issuedRows = rowReader('issued bulletins', { ...BULLETIN_COLUMNS, forced: 'integer' });
+const attachmentRows = rowReader('attachments', { cid: 'text', filename: 'text', content_type: 'text', content: 'blob' });
+const recipientRows = rowReader('deliveries recipient', { recipient: 'text' });
+const statusCountRows = rowReader('delivery counts', { bulletin_id: 'integer', status: 'text', n: 'integer' });
 
 export function readBulletin(ledger: Ledger, rowId: number): StoredBulletin {
-  const row = ledger.db.prepare(`SELECT b.*, r.forecast_key FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE b.id = ?`).get(rowId) as
-    BulletinRow | undefined;
+  const row = bulletinRows.one(
+    ledger.db.prepare(`SELECT b.*, r.forecast_key FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE b.id = ?`).get(rowId),
+    ledger.path,
+  );
   if (!row)
     throw new ForelightError(
       'ledger',
@@ -88,14 +94,15 @@ export function readBulletin(ledger: Ledger, rowId: number): StoredBulletin {
       `bulletin row ${rowId} is not in ledger ${ledger.path}`,
       'list bulletins with issuedBulletins()',
     );
-  const attachments = (
-    ledger.db
-      .prepare('SELECT cid, filename, content_type, content FROM attachments WHERE bulletin_id = ? ORDER BY position')
-      .all(rowId) as { cid: string; filename: string; content_type: string; content: Buffer }[]
-  ).map((a) => ({ cid: a.cid, filename: a.filename, contentType: a.content_type, content: new Uint8Array(a.content) }));
-  const to = (
-    ledger.db.prepare('SELECT recipient FROM deliveries WHERE bulletin_id = ? ORDER BY id').all(rowId) as { recipient: string }[]
-  ).map((r) => r.recipient);
+  const attachments = attachmentRows
+    .all(
+      ledger.db.prepare('SELECT cid, filename, content_type, content FROM attachments WHERE bulletin_id = ? ORDER BY position').all(rowId),
+      ledger.path,
+    )
+    .map((a) => ({ cid: a.cid, filename: a.filename, contentType: a.content_type, content: new Uint8Array(a.content) }));
+  const to = recipientRows
+    .all(ledger.db.prepare('SELECT recipient FROM deliveries WHERE bulletin_id = ? ORDER BY id').all(rowId), ledger.path)
+    .map((r) => r.recipient);
   return {
     rowId: row.id,
     runId: row.run_id,
@@ -131,19 +138,19 @@ export interface IssuedBulletin {
 /** Every bulletin of every issued run (ok or partial), newest first: the listing for the HTML archive. */
 export function issuedBulletins(ledger: Ledger): IssuedBulletin[] {
   const issued = `FROM bulletins b JOIN runs r ON r.id = b.run_id WHERE r.status IN ('ok', 'partial')`;
-  const rows = ledger.db
-    .prepare(
-      `SELECT b.id, b.run_id, r.forecast_key, r.forced, b.bulletin_key, b.team, b.locale, b.subject,
+  const rows = issuedRows.all(
+    ledger.db
+      .prepare(
+        `SELECT b.id, b.run_id, r.forecast_key, r.forced, b.bulletin_key, b.team, b.locale, b.subject,
       b.content_sha256, b.created_at ${issued} ORDER BY r.forecast_key DESC, b.run_id DESC, b.id`,
-    )
-    .all() as (Omit<BulletinRow, 'html' | 'text'> & { forced: number })[];
+      )
+      .all(),
+    ledger.path,
+  );
   const counts = new Map<number, Record<string, number>>();
-  for (const c of ledger.db
-    .prepare(
-      `SELECT d.bulletin_id, d.status, count(*) AS n FROM deliveries d
-      WHERE d.bulletin_id IN (SELECT b.id ${issued}) GROUP BY d.bulletin_id, d.status`,
-    )
-    .all() as { bulletin_id: number; status: string; n: number }[]) {
+  const countSql = `SELECT d.bulletin_id, d.status, count(*) AS n FROM deliveries d
+      WHERE d.bulletin_id IN (SELECT b.id ${issued}) GROUP BY d.bulletin_id, d.status`;
+  for (const c of statusCountRows.all(ledger.db.prepare(countSql).all(), ledger.path)) {
     counts.set(c.bulletin_id, { ...counts.get(c.bulletin_id), [c.status]: c.n });
   }
   return rows.map((r) => ({

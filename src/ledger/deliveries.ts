@@ -3,10 +3,13 @@
  * pending when nothing could be tried (outbox not writable, password missing). `superseded` = a newer run
  * made it stale. Every transition is one UPDATE guarded by the expected current status (atomic claim).
  */
+import { ForelightError } from '../core/errors.ts';
 import type { DeliveryReceipt } from '../types.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
+import { rowReader, type RowType } from './rows.ts';
 
-export type DeliveryStatus = 'pending' | 'sending' | 'sent' | 'outbox' | 'failed' | 'superseded';
+const DELIVERY_STATUSES = ['pending', 'sending', 'sent', 'outbox', 'failed', 'superseded'] as const;
+export type DeliveryStatus = (typeof DELIVERY_STATUSES)[number];
 
 export interface DeliveryRecord {
   readonly id: number;
@@ -27,22 +30,26 @@ export interface DeliveryRecord {
   readonly updatedAt: string;
 }
 
-interface DeliveryRow {
-  id: number;
-  bulletin_id: number;
-  run_id: number;
-  forecast_key: string;
-  recipient: string;
-  status: DeliveryStatus;
-  attempts: number;
-  last_error: string | null;
-  message_id: string | null;
-  claimed_by: string | null;
-  claimed_at: string | null;
-  outbox_path: string | null;
-  notice: 'due' | 'done' | null;
-  updated_at: string;
-}
+const DELIVERY_COLUMNS = {
+  id: 'integer',
+  bulletin_id: 'integer',
+  run_id: 'integer',
+  forecast_key: 'text',
+  recipient: 'text',
+  status: DELIVERY_STATUSES,
+  attempts: 'integer',
+  last_error: 'text?',
+  message_id: 'text?',
+  claimed_by: 'text?',
+  claimed_at: 'text?',
+  outbox_path: 'text?',
+  notice: ['due', 'done', null],
+  updated_at: 'text',
+} as const;
+const deliveryRows = rowReader('deliveries', DELIVERY_COLUMNS);
+const noticeRows = rowReader('deliveries with team', { ...DELIVERY_COLUMNS, team: 'text' });
+const countRows = rowReader('delivery counts', { status: DELIVERY_STATUSES, n: 'integer' });
+type DeliveryRow = RowType<typeof deliveryRows>;
 
 const SELECT = `SELECT d.*, b.run_id, r.forecast_key FROM deliveries d
   JOIN bulletins b ON b.id = d.bulletin_id JOIN runs r ON r.id = b.run_id`;
@@ -72,8 +79,8 @@ export function listDeliveries(ledger: Ledger, options: { statuses?: readonly De
       `${SELECT} WHERE d.status IN (${statuses.map(() => '?').join(', ')})
     ${options.runId === undefined ? '' : 'AND b.run_id = ?'} ORDER BY d.id`,
     )
-    .all(...statuses, ...(options.runId === undefined ? [] : [options.runId])) as DeliveryRow[];
-  return rows.map(toRecord);
+    .all(...statuses, ...(options.runId === undefined ? [] : [options.runId]));
+  return deliveryRows.all(rows, ledger.path).map(toRecord);
 }
 
 export function pendingDeliveries(ledger: Ledger, runId?: number): DeliveryRecord[] {
@@ -96,7 +103,15 @@ export function claimDelivery(ledger: Ledger, id: number, claimedBy: string, mes
 }
 
 export function getDelivery(ledger: Ledger, id: number): DeliveryRecord {
-  return toRecord(ledger.db.prepare(`${SELECT} WHERE d.id = ?`).get(id) as DeliveryRow);
+  const row = deliveryRows.one(ledger.db.prepare(`${SELECT} WHERE d.id = ?`).get(id), ledger.path);
+  if (!row)
+    throw new ForelightError(
+      'ledger',
+      'ledger-row',
+      `delivery ${id} is not in ledger ${ledger.path}`,
+      'list deliveries with "forelight status"',
+    );
+  return toRecord(row);
 }
 
 /**
@@ -124,14 +139,13 @@ export function markDelivery(
 
 /** Failures the operators have not been told of yet, oldest first. */
 export function dueNotices(ledger: Ledger): (DeliveryRecord & { team: string })[] {
-  return (
-    ledger.db
-      .prepare(
-        `SELECT d.*, b.run_id, b.team, r.forecast_key FROM deliveries d
+  const rows = ledger.db
+    .prepare(
+      `SELECT d.*, b.run_id, b.team, r.forecast_key FROM deliveries d
     JOIN bulletins b ON b.id = d.bulletin_id JOIN runs r ON r.id = b.run_id WHERE d.notice = 'due' ORDER BY d.id`,
-      )
-      .all() as (DeliveryRow & { team: string })[]
-  ).map((r) => ({ ...toRecord(r), team: r.team }));
+    )
+    .all();
+  return noticeRows.all(rows, ledger.path).map((r) => ({ ...toRecord(r), team: r.team }));
 }
 
 export function markNoticesDone(ledger: Ledger, ids: readonly number[]): void {
@@ -143,13 +157,9 @@ export function markNoticesDone(ledger: Ledger, ids: readonly number[]): void {
 
 export function deliveryCounts(ledger: Ledger, runId: number): Record<DeliveryStatus, number> {
   const counts: Record<DeliveryStatus, number> = { pending: 0, sending: 0, sent: 0, outbox: 0, failed: 0, superseded: 0 };
-  for (const r of ledger.db
-    .prepare(
-      `SELECT d.status, count(*) AS n FROM deliveries d JOIN bulletins b ON b.id = d.bulletin_id
-    WHERE b.run_id = ? GROUP BY d.status`,
-    )
-    .all(runId) as { status: DeliveryStatus; n: number }[])
-    counts[r.status] = r.n;
+  const sql = `SELECT d.status, count(*) AS n FROM deliveries d JOIN bulletins b ON b.id = d.bulletin_id
+    WHERE b.run_id = ? GROUP BY d.status`;
+  for (const r of countRows.all(ledger.db.prepare(sql).all(runId), ledger.path)) counts[r.status] = r.n;
   return counts;
 }
 

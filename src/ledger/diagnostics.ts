@@ -5,6 +5,9 @@
 import { isDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { Ledger } from './open-ledger.ts';
+import { rowReader } from './rows.ts';
+
+const diagnosticRows = rowReader('run_diagnostics', { position: 'integer', diagnostic_json: 'text' });
 
 /** Replaces the stored diagnostics of `runId` with `list` (a resumed run records its own). */
 export function recordDiagnostics(ledger: Ledger, runId: number, list: readonly Diagnostic[]): void {
@@ -20,11 +23,10 @@ export function recordDiagnostics(ledger: Ledger, runId: number, list: readonly 
 /** The diagnostics of `runId` in the order they were found; a row that is not a diagnostic is an error. */
 export function runDiagnostics(ledger: Ledger, runId: number): Diagnostic[] {
   const rows = ledger.db.prepare('SELECT position, diagnostic_json FROM run_diagnostics WHERE run_id = ? ORDER BY position').all(runId);
-  return rows.map((row) => {
-    const json = row !== null && typeof row === 'object' && 'diagnostic_json' in row ? row.diagnostic_json : undefined;
+  return diagnosticRows.all(rows, ledger.path).map((row) => {
     let value: unknown;
     try {
-      value = typeof json === 'string' ? JSON.parse(json) : undefined;
+      value = JSON.parse(row.diagnostic_json);
     } catch {
       value = undefined;
     }

@@ -5,6 +5,7 @@
  * append a new one. Version N of the ledger = MIGRATIONS.length applied.
  */
 import { ForelightError } from '../core/errors.ts';
+import { rowReader } from './rows.ts';
 import { toPostgresDdl, type SqlDb } from './sql-db.ts';
 
 export const MIGRATIONS: readonly string[] = [
@@ -139,10 +140,13 @@ export const MIGRATIONS: readonly string[] = [
   `,
 ];
 
-function schemaVersion(db: SqlDb): number {
-  if (db.dialect === 'sqlite') return (db.prepare('PRAGMA user_version').get() as { user_version: number }).user_version;
+const sqliteVersion = rowReader('PRAGMA user_version', { user_version: 'integer' });
+const postgresVersion = rowReader('forelight_schema', { v: 'integer?' });
+
+function schemaVersion(db: SqlDb, path: string): number {
+  if (db.dialect === 'sqlite') return sqliteVersion.one(db.prepare('PRAGMA user_version').get(), path)?.user_version ?? 0;
   db.exec('CREATE TABLE IF NOT EXISTS forelight_schema (version INTEGER NOT NULL)');
-  return (db.prepare('SELECT max(version) AS v FROM forelight_schema').get() as { v: number | null }).v ?? 0;
+  return postgresVersion.one(db.prepare('SELECT max(version) AS v FROM forelight_schema').get(), path)?.v ?? 0;
 }
 
 function setSchemaVersion(db: SqlDb, version: number): void {
@@ -155,7 +159,7 @@ function setSchemaVersion(db: SqlDb, version: number): void {
 
 /** Bring `db` to the newest schema inside one transaction; refuses a ledger written by a newer Forelight. */
 export function applyMigrations(db: SqlDb, path: string): { from: number; to: number } {
-  const current = db.transaction(() => schemaVersion(db)).immediate();
+  const current = db.transaction(() => schemaVersion(db, path)).immediate();
   if (current > MIGRATIONS.length) {
     throw new ForelightError(
       'ledger',
@@ -167,7 +171,7 @@ export function applyMigrations(db: SqlDb, path: string): { from: number; to: nu
   if (current < MIGRATIONS.length) {
     db.transaction(() => {
       // Another process may have migrated between the check and the lock.
-      const now = schemaVersion(db);
+      const now = schemaVersion(db, path);
       for (let v = now; v < MIGRATIONS.length; v++) db.exec(db.dialect === 'postgres' ? toPostgresDdl(MIGRATIONS[v]) : MIGRATIONS[v]);
       setSchemaVersion(db, MIGRATIONS.length);
     }).immediate();

@@ -2,9 +2,10 @@
  * What a run computed and decided: exceedance probabilities, stage decisions, the persistence state the
  * decide stage carries from run to run, and the CAP alert identifiers issued (for CAP `references`).
  */
-import type { LeadProbability, StageDecision, Tier } from '../types.ts';
+import { TIERS, type LeadProbability, type StageDecision, type Tier } from '../types.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
+import { rowReader } from './rows.ts';
 import { upsertSql } from './sql-db.ts';
 
 /** Runs whose results count as issued advice. */
@@ -90,18 +91,28 @@ export interface IssuedStage {
   readonly stageId: string;
 }
 
+const issuedStageRows = rowReader('decisions', {
+  run_id: 'integer',
+  forecast_key: 'text',
+  region: 'text',
+  indicator: 'text',
+  tier: TIERS,
+  stage_id: 'text',
+});
+const historyRows = rowReader('stage_history', { state_json: 'text' });
+const capRows = rowReader('cap_alerts', { identifier: 'text', sender: 'text', sent: 'text', msg_type: ['Alert', 'Update', 'Cancel'] });
+
 /** Stages of the latest issued run (ok or partial), one per region × indicator × tier. */
 export function lastIssuedStages(ledger: Ledger): IssuedStage[] {
-  return (
-    ledger.db
-      .prepare(
-        `SELECT d.run_id, r.forecast_key, d.region, d.indicator, d.tier, d.stage_id
+  const rows = ledger.db
+    .prepare(
+      `SELECT d.run_id, r.forecast_key, d.region, d.indicator, d.tier, d.stage_id
     FROM decisions d JOIN runs r ON r.id = d.run_id
     WHERE d.run_id = (SELECT id FROM runs WHERE ${ISSUED} AND id IN (SELECT run_id FROM decisions) ORDER BY id DESC LIMIT 1)
     ORDER BY d.region, d.indicator, d.tier`,
-      )
-      .all() as { run_id: number; forecast_key: string; region: string; indicator: string; tier: Tier; stage_id: string }[]
-  ).map((r) => ({
+    )
+    .all();
+  return issuedStageRows.all(rows, ledger.path).map((r) => ({
     runId: r.run_id,
     forecastKey: r.forecast_key,
     region: r.region,
@@ -131,12 +142,9 @@ export function saveStageHistory(ledger: Ledger, runId: number, json: string): v
  * resumed run starts from the same history it started from the first time). Null on a fresh ledger.
  */
 export function latestStageHistory(ledger: Ledger, excludeRunId?: number): string | null {
-  const row = ledger.db
-    .prepare(
-      `SELECT h.state_json FROM stage_history h JOIN runs r ON r.id = h.run_id
-    WHERE r.${ISSUED} AND h.run_id <> ? ORDER BY h.run_id DESC LIMIT 1`,
-    )
-    .get(excludeRunId ?? -1) as { state_json: string } | undefined;
+  const sql = `SELECT h.state_json FROM stage_history h JOIN runs r ON r.id = h.run_id
+    WHERE r.${ISSUED} AND h.run_id <> ? ORDER BY h.run_id DESC LIMIT 1`;
+  const row = historyRows.one(ledger.db.prepare(sql).get(excludeRunId ?? -1), ledger.path);
   return row ? row.state_json : null;
 }
 
@@ -156,12 +164,8 @@ export function recordCapAlert(ledger: Ledger, runId: number, region: string, in
 
 /** The latest CAP alert issued for region × indicator by an issued run other than `excludeRunId`. */
 export function previousCapAlert(ledger: Ledger, region: string, indicator: string, excludeRunId?: number): CapAlertRecord | null {
-  const row = ledger.db
-    .prepare(
-      `SELECT c.identifier, c.sender, c.sent, c.msg_type FROM cap_alerts c JOIN runs r ON r.id = c.run_id
-    WHERE c.region = ? AND c.indicator = ? AND r.${ISSUED} AND c.run_id <> ? ORDER BY c.run_id DESC, c.sent DESC LIMIT 1`,
-    )
-    .get(region, indicator, excludeRunId ?? -1) as
-    { identifier: string; sender: string; sent: string; msg_type: CapAlertRecord['msgType'] } | undefined;
+  const sql = `SELECT c.identifier, c.sender, c.sent, c.msg_type FROM cap_alerts c JOIN runs r ON r.id = c.run_id
+    WHERE c.region = ? AND c.indicator = ? AND r.${ISSUED} AND c.run_id <> ? ORDER BY c.run_id DESC, c.sent DESC LIMIT 1`;
+  const row = capRows.one(ledger.db.prepare(sql).get(region, indicator, excludeRunId ?? -1), ledger.path);
   return row ? { identifier: row.identifier, sender: row.sender, sent: row.sent, msgType: row.msg_type } : null;
 }

@@ -7,9 +7,11 @@ import { ForelightError } from '../core/errors.ts';
 import { sha256File } from '../core/file-checksums.ts';
 import { isProcessAlive } from '../core/process-alive.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
+import { idRows, returnedId, rowReader, type RowType } from './rows.ts';
 import { upsertSql } from './sql-db.ts';
 
-export type RunStatus = 'running' | 'ok' | 'partial' | 'nothing-new' | 'failed' | 'abandoned';
+const RUN_STATUSES = ['running', 'ok', 'partial', 'nothing-new', 'failed', 'abandoned'] as const;
+export type RunStatus = (typeof RUN_STATUSES)[number];
 
 export interface RunRecord {
   readonly id: number;
@@ -33,17 +35,18 @@ export type BeginRun =
   | { readonly kind: 'resumed'; readonly run: RunRecord }
   | { readonly kind: 'already-issued'; readonly run: RunRecord };
 
-interface RunRow {
-  id: number;
-  forecast_key: string;
-  started_at: string;
-  finished_at: string | null;
-  status: RunStatus;
-  forced: number;
-  error: string | null;
-  host: string;
-  pid: number;
-}
+const runRows = rowReader('runs', {
+  id: 'integer',
+  forecast_key: 'text',
+  started_at: 'text',
+  finished_at: 'text?',
+  status: RUN_STATUSES,
+  forced: 'integer',
+  error: 'text?',
+  host: 'text',
+  pid: 'integer',
+});
+type RunRow = RowType<typeof runRows>;
 
 const toRecord = (r: RunRow): RunRecord => ({
   id: r.id,
@@ -58,7 +61,7 @@ const toRecord = (r: RunRow): RunRecord => ({
 });
 
 export function getRun(ledger: Ledger, runId: number): RunRecord {
-  const row = ledger.db.prepare('SELECT * FROM runs WHERE id = ?').get(runId) as RunRow | undefined;
+  const row = runRows.one(ledger.db.prepare('SELECT * FROM runs WHERE id = ?').get(runId), ledger.path);
   if (!row)
     throw new ForelightError('ledger', 'run-unknown', `run ${runId} is not in ledger ${ledger.path}`, 'list runs with "forelight status"');
   return toRecord(row);
@@ -72,8 +75,10 @@ export function beginRun(ledger: Ledger, forecastKey: string, options: { force?:
   const { db, owner } = ledger;
   return db
     .transaction((): BeginRun => {
-      const latest = db.prepare(`SELECT * FROM runs WHERE forecast_key = ? ORDER BY id DESC LIMIT 1`).get(forecastKey) as
-        RunRow | undefined;
+      const latest = runRows.one(
+        db.prepare(`SELECT * FROM runs WHERE forecast_key = ? ORDER BY id DESC LIMIT 1`).get(forecastKey),
+        ledger.path,
+      );
       if (latest && latest.status === 'running' && latest.host === owner.host && latest.pid !== owner.pid && isProcessAlive(latest.pid)) {
         throw new ForelightError(
           'ledger',
@@ -94,12 +99,13 @@ export function beginRun(ledger: Ledger, forecastKey: string, options: { force?:
         abandonOthers(ledger, latest.id);
         return { kind: 'resumed', run: getRun(ledger, latest.id) };
       }
-      const { id } = db
+      const inserted = db
         .prepare(
           `INSERT INTO runs (forecast_key, started_at, status, forced, host, pid)
       VALUES (?, ?, 'running', ?, ?, ?) RETURNING id`,
         )
-        .get(forecastKey, stamp(ledger), options.force ? 1 : 0, owner.host, owner.pid) as { id: number };
+        .get(forecastKey, stamp(ledger), options.force ? 1 : 0, owner.host, owner.pid);
+      const id = returnedId('runs', inserted, ledger.path);
       abandonOthers(ledger, id);
       return { kind: 'new', run: getRun(ledger, id) };
     })
@@ -113,12 +119,15 @@ export function beginRun(ledger: Ledger, forecastKey: string, options: { force?:
  */
 function abandonOthers(ledger: Ledger, keepRunId: number): void {
   const now = stamp(ledger);
-  const stale = ledger.db
-    .prepare(
-      `SELECT id FROM runs WHERE id <> ? AND ${UNFINISHED}
+  const stale = idRows.all(
+    ledger.db
+      .prepare(
+        `SELECT id FROM runs WHERE id <> ? AND ${UNFINISHED}
     AND forecast_key <= (SELECT forecast_key FROM runs WHERE id = ?)`,
-    )
-    .all(keepRunId, keepRunId) as { id: number }[];
+      )
+      .all(keepRunId, keepRunId),
+    ledger.path,
+  );
   for (const { id } of stale) {
     ledger.db
       .prepare(
@@ -143,12 +152,15 @@ export function finishRun(ledger: Ledger, runId: number, status: Exclude<RunStat
 
 /** Latest run that completed (ok, partial or nothing-new): the reference for catch-up after downtime. */
 export function lastCompletedRun(ledger: Ledger): RunRecord | null {
-  const row = ledger.db
-    .prepare(
-      `SELECT * FROM runs WHERE status IN ('ok', 'partial', 'nothing-new')
+  const row = runRows.one(
+    ledger.db
+      .prepare(
+        `SELECT * FROM runs WHERE status IN ('ok', 'partial', 'nothing-new')
     ORDER BY started_at DESC, id DESC LIMIT 1`,
-    )
-    .get() as RunRow | undefined;
+      )
+      .get(),
+    ledger.path,
+  );
   return row ? toRecord(row) : null;
 }
 
@@ -180,14 +192,16 @@ export function recordInputs(ledger: Ledger, runId: number, files: readonly Inpu
   })();
 }
 
+const inputFileRows = rowReader('input_files', {
+  path: 'text',
+  sha256: 'text',
+  size_bytes: 'integer',
+  source: 'text',
+  reference_time: 'text',
+});
+
 export function runInputs(ledger: Ledger, runId: number): InputFileRecord[] {
-  return (
-    ledger.db.prepare('SELECT * FROM input_files WHERE run_id = ? ORDER BY path').all(runId) as {
-      path: string;
-      sha256: string;
-      size_bytes: number;
-      source: string;
-      reference_time: string;
-    }[]
-  ).map((r) => ({ path: r.path, sha256: r.sha256, sizeBytes: r.size_bytes, source: r.source, referenceTime: r.reference_time }));
+  return inputFileRows
+    .all(ledger.db.prepare('SELECT * FROM input_files WHERE run_id = ? ORDER BY path').all(runId), ledger.path)
+    .map((r) => ({ path: r.path, sha256: r.sha256, sizeBytes: r.size_bytes, source: r.source, referenceTime: r.reference_time }));
 }

@@ -5,18 +5,20 @@
  */
 import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
-import { combineSources } from '../calibrate/lead-tiers.ts';
+import { combineOutcomes } from '../calibrate/combine-outcomes.ts';
+import { regionClimatology } from '../calibrate/indicator-context.ts';
+import type { CalibrateContext } from '../calibrate/model-climate.ts';
+import { cachedClimates } from '../calibrate/skill-cache.ts';
+import { sourceProbabilities, type SourceOutcome } from '../calibrate/source-probabilities.ts';
 import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError, type ForelightError } from '../core/errors.ts';
-import { trackKey, type TrackKey } from '../core/keys.ts';
 import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
-import { regionClimatology } from './indicator-context.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
-import { readAll, type ReadResult } from './read-stage.ts';
-import { calibrateSource, type SharedContext, type SourceOutcome } from './source-stage.ts';
+import { regionCells, type SourceRead } from './read-file.ts';
+import { readAll, readHindcasts, type ReadResult } from './read-stage.ts';
 
 export interface Analysis {
   readonly issueDate: IsoDate;
@@ -31,35 +33,6 @@ export interface Analysis {
   readonly problems: readonly Diagnostic[];
   /** Input file checksums remembered across runs (saved under calibration.cacheDir). */
   readonly checksums: ChecksumMemo;
-}
-
-function combine(outcomes: readonly SourceOutcome[], config: Config, read: ReadResult): { kept: LeadProbability[]; notes: string[] } {
-  const groups = new Map<TrackKey, Map<string, LeadProbability[]>>();
-  for (const o of outcomes) {
-    for (const p of o.probabilities) {
-      const key = trackKey(p.region, p.indicator, p.lead.tier);
-      const bySource = groups.get(key) ?? new Map<string, LeadProbability[]>();
-      groups.set(key, bySource);
-      bySource.set(o.source, [...(bySource.get(o.source) ?? []), p]);
-    }
-  }
-  const kept: LeadProbability[] = [];
-  const notes = new Set<string>();
-  for (const bySource of groups.values()) {
-    const merged = combineSources(
-      [...bySource.entries()].map(([source, leads]) => ({
-        source,
-        priority: config.sources.find((s) => s.id === source)?.priority ?? 0,
-        issued: read.sources.find((s) => s.source.id === source)?.referenceTime ?? '1970-01-01T00:00:00Z',
-        leads,
-      })),
-    );
-    kept.push(...merged.kept.map((k) => k.item));
-    if (bySource.size > 1) notes.add(merged.rule);
-    for (const d of merged.dropped)
-      notes.add(`${d.source} ${d.item.lead.tier} ${d.item.lead.index} for ${d.item.region} replaced by ${d.coveredBy}`);
-  }
-  return { kept, notes: [...notes] };
 }
 
 export interface AnalyseOptions {
@@ -82,21 +55,20 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
   const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
   const checksums = await openChecksumMemo(config.calibration.cacheDir);
-  const ctx: SharedContext = {
+  const ctx: CalibrateContext = {
     config,
     observed: read.observed,
     observationsPath: config.observations?.path ?? null,
     climatology,
     observedMemo: new Map(),
     checksums,
-    extract,
   };
   const fileProblems: ForelightError[] = [...read.problems];
   const sources: SourceOutcome[] = [];
   for (const s of read.sources) {
     const t0 = Date.now();
     const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
-    const outcome = await calibrateSource(ctx, s, input, fileProblems);
+    const outcome = await calibrateSource(ctx, s, input, { fileProblems, extract });
     log.info('calibrated source', {
       stage: 'calibrate',
       source: s.source.id,
@@ -108,7 +80,10 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
     onProgress?.(sources.length, total, `calibrated ${s.source.id}`);
   }
   onProgress?.(total, total, 'done');
-  const { kept, notes } = combine(sources, config, read);
+  const { kept, notes } = combineOutcomes(sources, (source) => ({
+    priority: config.sources.find((s) => s.id === source)?.priority ?? 0,
+    issued: read.sources.find((s) => s.source.id === source)?.referenceTime ?? '1970-01-01T00:00:00Z',
+  }));
   for (const s of sources.filter((o) => o.cacheNote)) {
     log.warn('model-climate cache', { source: s.source, note: s.cacheNote });
     notes.push(`${s.source}: ${s.cacheNote}`);
@@ -118,6 +93,32 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   await saveChecksums(checksums, log);
   const timeNotes = read.sources.flatMap((s) => s.notes);
   return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
+}
+
+/** One source's model climate (cached, or its hindcasts read and computed), then its forecast's probabilities. */
+async function calibrateSource(
+  ctx: CalibrateContext,
+  read: SourceRead,
+  input: SourceInputs,
+  options: { fileProblems: ForelightError[]; extract: Extractor },
+): Promise<SourceOutcome> {
+  const { config } = ctx;
+  const model = await cachedClimates(
+    ctx,
+    input.source,
+    input.hindcasts.map((h) => h.path),
+    () =>
+      readHindcasts(
+        input.source,
+        input.hindcasts,
+        config.regions,
+        options.fileProblems,
+        regionCells(read.series),
+        options.extract,
+        config.calibration.cacheDir,
+      ),
+  );
+  return sourceProbabilities(ctx, read, model);
 }
 
 /** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */

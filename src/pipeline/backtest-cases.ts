@@ -11,7 +11,7 @@ import { eventKey, pairOf, type EventKey } from '../core/keys.ts';
 import type { LeadProbability } from '../types.ts';
 import type { Analysis } from './analyse.ts';
 
-export function backtestCases(config: Config, analysis: Analysis): BacktestCase[] {
+export function backtestCases(config: Pick<Config, 'indicators'>, analysis: Analysis): BacktestCase[] {
   const byYear = new Map<number, { probabilities: LeadProbability[]; events: Map<EventKey, boolean>; start: string }>();
   for (const source of analysis.sources) {
     for (const [key, climate] of source.climates) {

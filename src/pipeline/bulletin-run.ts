@@ -6,7 +6,7 @@ import type { Diagnostic } from '../core/diagnostics.ts';
 import type { Config, StageConfig } from '../config/types.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { combineRegionStages } from '../decide/decide-stages.ts';
-import { NO_FORECAST_ID, stageRank, type RegionStage } from '../decide/types.ts';
+import { NO_FORECAST_ID, stageRank, type DecideConfig, type RegionStage } from '../decide/types.ts';
 import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
 import { computeNextRuns } from '../core/next-runs.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
@@ -36,14 +36,14 @@ export function localDate(instant: Date, timeZone: string): IsoDate {
 }
 
 /** Date of the next scheduled issue after `from`, in the schedule's time zone. */
-export function nextIssueDate(config: Config, from: Date): IsoDate {
+export function nextIssueDate(config: Pick<Config, 'schedule'>, from: Date): IsoDate {
   const [next] = computeNextRuns(config.schedule.cron, config.schedule.timezone, from, 1);
   return localDate(next ?? from, config.schedule.timezone);
 }
 
 /** Region stages of an issued run's rows, combined as the run's own decisions were (highest wins, or the matrix). */
 export function issuedRegionStages(
-  config: Config,
+  config: DecideConfig,
   rows: readonly { region: string; indicator: string; tier: Tier; stageId: string }[],
 ): RegionStageLike[] {
   const decisions: StageDecision[] = rows.map((r) => ({
@@ -61,13 +61,13 @@ export function issuedRegionStages(
 }
 
 /** The highest of some stage ids on the ladder (the lowest stage when there are none). */
-export function highestStageId(config: Config, ids: readonly string[]): string {
+export function highestStageId(config: Pick<Config, 'stages'>, ids: readonly string[]): string {
   const rank = (id: string) => stageRank(config.stages, id);
   return ids.reduce((best, id) => (rank(id) > rank(best) ? id : best), config.stages[0].id);
 }
 
 /** The ladder stage of an id; null for "no forecast available" (never the lowest stage in disguise). */
-function stageById(config: Config, id: string): StageConfig | null {
+function stageById(config: Pick<Config, 'stages'>, id: string): StageConfig | null {
   return config.stages.find((s) => s.id === id) ?? null;
 }
 

@@ -18,7 +18,11 @@ function dates(start: string, end: string): string {
  * Why the region has its stage (the templates say whether it was raised, lowered or kept): the evidence that
  * drives it, and a higher or lower stage being held back by the persistence rule.
  */
-export function changeReason(config: Config, stageId: string, decisions: readonly StageDecision[]): string {
+export function changeReason(
+  config: Pick<Config, 'stages' | 'indicators' | 'decision'>,
+  stageId: string,
+  decisions: readonly StageDecision[],
+): string {
   const rank = (id: string) => stageRank(config.stages, id);
   const label = (id: string) => config.stages.find((s) => s.id === id)?.label.en ?? id;
   const name = (id: string) => config.indicators.find((i) => i.id === id)?.name ?? id;

@@ -2,12 +2,11 @@
  * Which files one run reads: per source the newest forecast on or before the issue date (an older one, at most
  * the source's `look-back-days` before it, is used and said when the expected one is late), and the hindcast starts within ±windowDays of its day of year.
  */
-import { readdirSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
 import type { Config, SourceConfig } from '../config/types.ts';
 import { startsWithinWindow } from '../calibrate/climate.ts';
 import { existsSync } from 'node:fs';
 import { addDays } from '../core/iso-dates.ts';
+import { matchPattern } from '../core/path-patterns.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
 import type { IsoDate } from '../types.ts';
 
@@ -52,7 +51,7 @@ export function forecastCandidates(pattern: string, issueDate: IsoDate, lookback
 }
 
 /** The hindcast starts of a source that calibrate a forecast of `forecastDate` (within ±windowDays, before it). */
-export function hindcastsFor(config: Config, source: SourceConfig, forecastDate: IsoDate): HindcastFile[] {
+export function hindcastsFor(config: Pick<Config, 'calibration'>, source: SourceConfig, forecastDate: IsoDate): HindcastFile[] {
   const all = source.hindcast ? listHindcasts(source.hindcast) : [];
   const keep = new Set(
     startsWithinWindow(
@@ -65,36 +64,20 @@ export function hindcastsFor(config: Config, source: SourceConfig, forecastDate:
   return all.filter((h) => keep.has(h.start) && h.start < forecastDate);
 }
 
-function escapeRegExp(s: string): string {
-  return s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
-}
-
-/** Every hindcast file matching the source's pattern (`{year}`, `{mmdd}` in the file name only). */
+/** Every hindcast file matching the source's pattern (`{year}`, `{mmdd}` or `{date}` anywhere in the path, core/path-patterns.ts). */
 export function listHindcasts(pattern: string): HindcastFile[] {
-  const dir = dirname(pattern);
-  const name = basename(pattern);
-  const re = new RegExp(
-    '^' + escapeRegExp(name).replace(escapeRegExp('{year}'), '(?<year>\\d{4})').replace(escapeRegExp('{mmdd}'), '(?<mmdd>\\d{4})') + '$',
-  );
-  let entries: string[];
-  try {
-    entries = readdirSync(dir);
-  } catch {
-    return [];
-  }
   const out: HindcastFile[] = [];
-  for (const entry of entries) {
-    const m = re.exec(entry);
-    if (!m?.groups) continue;
-    const year = Number(m.groups.year);
-    const mmdd = m.groups.mmdd ?? '0101';
-    out.push({ year, start: `${year}-${mmdd.slice(0, 2)}-${mmdd.slice(2)}`, path: join(dir, entry) });
+  for (const { path, values } of matchPattern(pattern)) {
+    const year = values.year ?? values.date?.slice(0, 4);
+    if (year === undefined) continue;
+    const mmdd = values.mmdd ?? values.date?.slice(4) ?? '0101';
+    out.push({ year: Number(year), start: `${year}-${mmdd.slice(0, 2)}-${mmdd.slice(2)}`, path });
   }
   return out.sort((a, b) => a.start.localeCompare(b.start));
 }
 
 /** Forecast and hindcast files of every source for an issue date (the newest existing forecast; see `candidates`). */
-export function resolveInputs(config: Config, issueDate: IsoDate): SourceInputs[] {
+export function resolveInputs(config: Pick<Config, 'sources' | 'calibration'>, issueDate: IsoDate): SourceInputs[] {
   return config.sources.map((source) => {
     const candidates = forecastCandidates(source.forecast, issueDate, source.lookbackDays);
     const newest = candidates[0] ?? null;

@@ -16,12 +16,14 @@ export function problemClause(d: Diagnostic): string {
   return `${d.place.file ? `${basename(d.place.file)}: ` : ''}${d.message}`;
 }
 
+type MissingDataConfig = Pick<Config, 'sources' | 'regions' | 'indicators'>;
+
 /** The decide stage's missing-data inputs: which tiers a source serves, and why each region × indicator × tier lacks data. */
-export function missingData(config: Config, analysis: Analysis): { unavailable: Map<string, string>; expectedTiers: Set<Tier> } {
+export function missingData(config: MissingDataConfig, analysis: Analysis): { unavailable: Map<string, string>; expectedTiers: Set<Tier> } {
   return { unavailable: unavailableReasons(config, analysis), expectedTiers: new Set(config.sources.map((s) => s.tier)) };
 }
 
-export function unavailableReasons(config: Config, analysis: Analysis): Map<string, string> {
+export function unavailableReasons(config: MissingDataConfig, analysis: Analysis): Map<string, string> {
   const out = new Map<string, string>();
   const put = (tier: Tier, region: string, reason: string, indicator?: string) => {
     for (const ind of config.indicators) {

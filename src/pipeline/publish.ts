@@ -83,7 +83,7 @@ export function readArchiveEntries(dir: string): ArchiveEntry[] {
 }
 
 /** Keeps this run's entry and rewrites the whole archive site; returns the index path. */
-export function publishArchive(config: Config, entry: ArchiveEntry): string {
+export function publishArchive(config: Pick<Config, 'delivery' | 'templates'>, entry: ArchiveEntry): string {
   const dir = config.delivery.archive;
   const runDir = join(dir, toToken(entry.runId));
   writeFileAtomic(join(runDir, ENTRY_FILE), JSON.stringify(entry), 'render');

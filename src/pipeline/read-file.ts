@@ -5,10 +5,7 @@
 import type { RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import type { Extractor } from '../read/extract.ts';
-import type { Quantity, RegionSeries } from '../types.ts';
-
-/** region id → quantity → series. */
-export type RegionQuantities = Map<string, Map<Quantity, RegionSeries>>;
+import type { RegionQuantities, RegionSeries } from '../types.ts';
 
 export interface SourceRead {
   readonly source: SourceConfig;

@@ -5,18 +5,12 @@
 import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
-import { readFile, regionCells, type RegionQuantities, type SourceRead } from './read-file.ts';
+import type { HindcastRead, RegionQuantities } from '../types.ts';
+import { readFile, regionCells, type SourceRead } from './read-file.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
 import { readUsableForecast } from './usable-forecast.ts';
-
-export interface HindcastRead {
-  readonly year: number;
-  readonly start: string;
-  readonly path: string;
-  readonly series: RegionQuantities;
-}
 
 export interface ReadResult {
   readonly sources: readonly SourceRead[];

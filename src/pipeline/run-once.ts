@@ -66,7 +66,13 @@ export function forecastKey(inputs: readonly SourceInputs[]): string {
   return inputs.map((i) => `${i.source.id} ${i.date ?? 'none'}`).join(', ');
 }
 
-async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysis, config: Config, log: Logger): Promise<void> {
+async function recordInputFiles(
+  ledger: Ledger,
+  runId: number,
+  analysis: Analysis,
+  config: Pick<Config, 'observations'>,
+  log: Logger,
+): Promise<void> {
   const wanted: [path: string, source: string, referenceTime: string][] = [
     ...analysis.read.sources.map((s): [string, string, string] => [s.path, s.source.id, s.referenceTime]),
     ...analysis.inputs.flatMap((i) =>
@@ -83,7 +89,11 @@ async function recordInputFiles(ledger: Ledger, runId: number, analysis: Analysi
   recordInputs(ledger, runId, files);
 }
 
-function previousIssue(ledger: Ledger, config: Config, runId: number): PreviousIssue | undefined {
+function previousIssue(
+  ledger: Ledger,
+  config: Pick<Config, 'regions' | 'indicators' | 'stages'>,
+  runId: number,
+): PreviousIssue | undefined {
   const stages = lastIssuedStages(ledger);
   const alerts = [];
   for (const region of config.regions) {

@@ -9,10 +9,10 @@
  */
 import type { Config } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
-import type { Quantity } from '../types.ts';
+import type { Quantity, RegionQuantities } from '../types.ts';
 import { hindcastsFor, type ForecastCandidate, type SourceInputs } from './inputs.ts';
 import type { Extractor } from '../read/extract.ts';
-import { readFile, regionCells, type RegionQuantities, type SourceRead } from './read-file.ts';
+import { readFile, regionCells, type SourceRead } from './read-file.ts';
 
 export interface UsableForecast {
   readonly read: SourceRead;

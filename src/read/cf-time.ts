@@ -50,6 +50,11 @@ const SECONDS_PER_UNIT: Readonly<Record<string, number>> = {
   d: 86400,
 };
 
+/** Seconds in one time unit as CF/UDUNITS names it ("days", "h", "ms", …, any case); undefined when not a fixed-length unit. */
+export function secondsPerUnit(unit: string): number | undefined {
+  return SECONDS_PER_UNIT[unit.toLowerCase()];
+}
+
 const CUMULATIVE_DAYS = [0, 31, 59, 90, 120, 151, 181, 212, 243, 273, 304, 334, 365];
 const JDN_GREGORIAN_START = 2299161; // 1582-10-15 (Gregorian) = 1582-10-05 (Julian) + 10 days
 
@@ -194,9 +199,9 @@ export function parseTimeUnits(units: string, calendar = 'standard'): TimeUnits 
   const cal = CALENDAR_ALIASES[calendar.trim().toLowerCase()];
   if (!cal) throw new UnitError(`unknown CF calendar '${calendar}'`, `use one of: ${Object.keys(CALENDAR_ALIASES).join(', ')} (CF §4.4.1)`);
   const match = /^\s*(\S+)\s+since\s+(.+?)\s*$/i.exec(units);
-  const secondsPerUnit = match ? SECONDS_PER_UNIT[match[1].toLowerCase()] : undefined;
+  const unitSeconds = match ? secondsPerUnit(match[1]) : undefined;
   const ref = match ? REFERENCE.exec(match[2]) : null;
-  if (!match || secondsPerUnit === undefined || !ref) {
+  if (!match || unitSeconds === undefined || !ref) {
     throw new UnitError(
       `time units '${units}' are not '<days|hours|minutes|seconds> since <YYYY-MM-DD[ hh:mm:ss]>'`,
       "fix the time variable's units attribute (CF §4.4); months and years are not fixed-length units",
@@ -214,7 +219,7 @@ export function parseTimeUnits(units: string, calendar = 'standard'): TimeUnits 
     tzSeconds = (tz[0] === '-' ? -1 : 1) * (hours * 3600 + minutes * 60);
   }
   const refSecond = Number(ref[4] ?? 0) * 3600 + Number(ref[5] ?? 0) * 60 + Number(ref[6] ?? 0) - tzSeconds;
-  return { secondsPerUnit, calendar: cal, refDay: toDayNumber(cal, y, mo, d), refSecond };
+  return { secondsPerUnit: unitSeconds, calendar: cal, refDay: toDayNumber(cal, y, mo, d), refSecond };
 }
 
 /** Decodes CF time values (`values` in `units`, e.g. "hours since 2026-11-23 00:00:00") into calendar dates. */

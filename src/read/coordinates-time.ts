@@ -9,40 +9,20 @@
  * Lead times (CF §4.4 forecast_period) are plain durations.
  */
 import { InputError, UnitError } from '../core/errors.ts';
-import { calendarSeconds, decodeTimes, type CfCalendar, type CfDateTime } from './cf-time.ts';
+import { calendarSeconds, decodeTimes, secondsPerUnit, type CfCalendar, type CfDateTime } from './cf-time.ts';
 
-const UNIT_MS: Readonly<Record<string, number>> = {
-  second: 1000,
-  seconds: 1000,
-  sec: 1000,
-  secs: 1000,
-  s: 1000,
-  minute: 60_000,
-  minutes: 60_000,
-  min: 60_000,
-  mins: 60_000,
-  hour: 3_600_000,
-  hours: 3_600_000,
-  hr: 3_600_000,
-  hrs: 3_600_000,
-  h: 3_600_000,
-  day: 86_400_000,
-  days: 86_400_000,
-  d: 86_400_000,
-};
-
-/** Length in ms of a duration unit ("hours", "days", …) of a lead-time coordinate. */
+/** Length in ms of a duration unit ("hours", "days", …) of a lead-time coordinate (the units of cf-time.ts). */
 export function durationUnitMs(units: string, file: string, variable: string): number {
-  const ms = UNIT_MS[units.trim().toLowerCase()];
-  if (ms === undefined) {
+  const seconds = secondsPerUnit(units.trim());
+  if (seconds === undefined) {
     throw new InputError(
       'time-units',
       file,
-      `lead-time variable '${variable}' has units '${units}', expected seconds, minutes, hours or days`,
+      `lead-time variable '${variable}' has units '${units}', expected days, hours, minutes, seconds, milliseconds or microseconds`,
       'fix the units attribute of the lead-time coordinate',
     );
   }
-  return ms;
+  return seconds * 1000;
 }
 
 const GREGORIAN: readonly CfCalendar[] = ['standard', 'proleptic_gregorian'];

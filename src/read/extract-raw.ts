@@ -3,7 +3,7 @@
  * local day), in canonical units when the variable is recognisably a temperature, humidity, precipitation or
  * wind (else in the file's own units), members in file order. Regions from `--box` or a boundary file.
  */
-import type { RegionConfig } from '../config/types.ts';
+import type { PopulationConfig, RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { regionClock } from '../core/local-clock.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
@@ -15,6 +15,7 @@ import { withDataset } from './open-dataset.ts';
 import { regionSetCells } from './region-weights.ts';
 import { planBand } from './regions-band.ts';
 import { missingUnitsError, planUnits, type UnitPlan } from './units.ts';
+import { weightedSelection } from './weighted-selection.ts';
 
 export interface RawRegionMeans {
   readonly units: string;
@@ -23,16 +24,23 @@ export interface RawRegionMeans {
   readonly problems: ForelightError[];
 }
 
-/** Means of `variable` over each region with cells (see module comment); `cacheDir` for the weights cache. */
+/**
+ * Means of `variable` over each region with cells (see module comment); `cacheDir` for the weights cache,
+ * `population` for regions weighted by people.
+ */
 export async function rawRegionMeans(
   ds: Dataset,
   variable: string,
   regionList: readonly RegionConfig[],
   daily: DailyMethod | null,
   cacheDir: string | null,
+  population: PopulationConfig | null = null,
 ): Promise<RawRegionMeans> {
   const coords = await findCoordinates(ds);
-  const { selected, problems } = regionSetCells(coords.grid, regionList, ds.path, cacheDir);
+  const area = regionSetCells(coords.grid, regionList, ds.path, cacheDir);
+  const weighted = await weightedSelection(coords.grid, area.selected, { population, cacheDir, file: ds.path });
+  const selected = weighted.selected;
+  const problems = [...area.problems, ...weighted.problems];
   const layout = layoutVariable(ds, coords, variable);
   const unitPlan = canonicalUnitPlan(layout.info, ds.path);
   const timePlan = planTime(coords, layout, unitPlan);
@@ -88,9 +96,10 @@ export function extractRegionsJson(
   variable: string,
   regions: readonly RegionConfig[],
   daily: DailyMethod | null,
+  population: PopulationConfig | null = null,
 ): Promise<RegionsExtractJson> {
   return withDataset(path, async (ds) => {
-    const means = await rawRegionMeans(ds, variable, regions, daily, null);
+    const means = await rawRegionMeans(ds, variable, regions, daily, null, population);
     return {
       units: means.units,
       times: means.regions[0]?.times ?? [],

@@ -4,7 +4,7 @@
  * goes to `problems`; the others are still computed. A file whose forecast reference time differs from the
  * requested one is refused as a whole.
  */
-import type { CellRule, RegionConfig } from '../config/types.ts';
+import type { CellRule, PopulationConfig, RegionConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { regionClock } from '../core/local-clock.ts';
 import type { Quantity, RegionSeries, Tier } from '../types.ts';
@@ -18,6 +18,7 @@ import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
 import { rawRegionMeans } from './extract-raw.ts';
 import { regionSetCells } from './region-weights.ts';
+import { cellSeriesOf, weightedSelection } from './weighted-selection.ts';
 import { describeShape } from './regions.ts';
 import { planUnits } from './units.ts';
 
@@ -31,6 +32,8 @@ export interface ExtractRequest {
   readonly weightsCacheDir?: string;
   /** The source's tier: a file of monthly values feeds only `months`. */
   readonly tier?: Tier;
+  /** The population raster, for regions whose `weighting` is `population`. */
+  readonly population?: PopulationConfig | null;
 }
 
 export interface ExtractResult {
@@ -79,10 +82,20 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const coords = await findCoordinates(ds);
   const wanted = requestedMs(ds.path, request.referenceTime);
   const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
-  const { selected, problems: cellProblems } = regionSetCells(coords.grid, request.regions, coords.file, request.weightsCacheDir ?? null);
-  problems.push(...cellProblems);
+  const areaCells = regionSetCells(coords.grid, request.regions, coords.file, request.weightsCacheDir ?? null);
+  problems.push(...areaCells.problems);
+  const {
+    selected,
+    cellRegions,
+    problems: weightProblems,
+  } = await weightedSelection(coords.grid, areaCells.selected, {
+    population: request.population ?? null,
+    cacheDir: request.weightsCacheDir ?? null,
+    file: ds.path,
+  });
+  problems.push(...weightProblems);
   const { band, regions } = planBand(
-    selected.map((s) => s.cells),
+    [...selected.map((s) => s.cells), ...cellRegions.map((c) => c.cells)],
     coords.grid.lat.length,
     coords.grid.lon.length,
   );
@@ -112,10 +125,11 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
         intervals: timePlan.intervals,
         unitPlan,
         accumulated: timePlan.accumulated,
-        clocks: selected.map((s) => regionClock(s.region)),
+        clocks: [...selected, ...cellRegions].map((s) => regionClock(s.region)),
         daily: months ? null : dailyMethodFor(quantity, unitPlan),
       });
-      const means = months ? spreadMeansToDays(ds.path, variable, months, unitPlan.kind, reduced) : reduced;
+      const all = months ? spreadMeansToDays(ds.path, variable, months, unitPlan.kind, reduced) : reduced;
+      const means = all.slice(0, selected.length);
       if (months) notes.push(`${ds.path}: ${monthlyNote(variable, months, unitPlan.kind)}`);
       means.forEach((mean, k) => {
         const { region, cells } = selected[k];
@@ -140,6 +154,8 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
           data: mean.data,
           cells: cells.weights.length,
           provenance: { file: ds.path, variable, referenceTime: isoInstant(refMs) },
+          ...(region.weighting === 'population' ? { weighting: 'population' as const } : {}),
+          ...(region.keepCells ? { perCell: cellSeriesOf(cells.weights, all, selected.length, cellRegions, k) } : {}),
         });
       });
     } catch (err) {

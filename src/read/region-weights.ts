@@ -36,7 +36,8 @@ function regionSetHash(regions: readonly RegionConfig[]): string {
   return h;
 }
 
-function gridHash(grid: LatLonGrid): string {
+/** sha256 of a grid's centres and cell bounds (cache keys). */
+export function gridHash(grid: LatLonGrid): string {
   const { lat, lon } = cellBounds(grid);
   const hash = createHash('sha256');
   for (const a of [grid.lat, grid.lon, lat, lon]) hash.update(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
@@ -45,7 +46,8 @@ function gridHash(grid: LatLonGrid): string {
 
 type Stored = Record<string, { lat: number[]; lon: number[]; w: number[] }>;
 
-function readStored(path: string): Map<string, RegionCells> | null {
+/** A stored cell set (`writeStored`), or null when absent, damaged or of an older format. */
+export function readStored(path: string): Map<string, RegionCells> | null {
   try {
     const doc = JSON.parse(readFileSync(path, 'utf8')) as { format: number; regions: Stored };
     if (doc.format !== FORMAT) return null;
@@ -60,7 +62,8 @@ function readStored(path: string): Map<string, RegionCells> | null {
   }
 }
 
-function writeStored(dir: string, path: string, cells: ReadonlyMap<string, RegionCells>): void {
+/** Stores a cell set atomically; a failure only costs the computation next time. */
+export function writeStored(dir: string, path: string, cells: ReadonlyMap<string, RegionCells>): void {
   try {
     mkdirSync(dir, { recursive: true });
     const regions: Stored = {};

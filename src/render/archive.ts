@@ -47,6 +47,8 @@ export interface ArchiveEntry {
   }[];
   /** Printable PDFs per team, base64 (absent when Chromium was not available). */
   readonly pdfs?: readonly { readonly filename: string; readonly team: string; readonly base64: string }[];
+  /** Reliability diagrams (render/reliability-chart.ts), written to `charts/` and linked from the run page. */
+  readonly reliability?: readonly { readonly filename: string; readonly label: string; readonly svg: string }[];
   /** The stage ladder in the entry's locale, lowest first (absent in older entries). */
   readonly ladder?: readonly { readonly glyph: string; readonly label: string }[];
   readonly json: string;
@@ -71,9 +73,15 @@ export function writeArchive(dir: string, entries: readonly ArchiveEntry[], opti
     written.push(rel);
   };
 
-  const runs = sorted.map((e) => ({ ...e, pdfs: e.pdfs ?? [], folder: toToken(e.runId), date: formatDay(locale, e.issuedDay) }));
+  const runs = sorted.map((e) => ({
+    ...e,
+    pdfs: e.pdfs ?? [],
+    reliability: e.reliability ?? [],
+    folder: toToken(e.runId),
+    date: formatDay(locale, e.issuedDay),
+  }));
   for (const run of runs) {
-    for (const c of run.charts) put(`${run.folder}/charts/${c.filename}`, c.svg);
+    for (const c of [...run.charts, ...run.reliability]) put(`${run.folder}/charts/${c.filename}`, c.svg);
     for (const a of run.capAlerts) put(`${run.folder}/cap/${a.filename}`, a.xml);
     for (const p of run.pdfs) put(`${run.folder}/pdf/${p.filename}`, Buffer.from(p.base64, 'base64'));
     put(`${run.folder}/run.json`, run.json);

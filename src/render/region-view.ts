@@ -4,15 +4,15 @@
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
 import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
-import type { LeadProbability, Tier } from '../types.ts';
+import type { Tier } from '../types.ts';
 import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatDayRange, formatNumber } from './locale-format.ts';
+import { pastYearsShare, thresholdNumber, thresholdWords } from './threshold-words.ts';
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
   TIERS,
-  formatThreshold,
   groupLeads,
   leadView,
   noForecastView,
@@ -92,12 +92,9 @@ export function hazardName(t: Translate, ind: IndicatorConfig | undefined, fallb
   return ind ? t(`hazard.${ind.kind}`, { days: ind.windowDays }) : fallback;
 }
 
-function thresholdWords(t: Translate, locale: string, ind: IndicatorConfig | undefined, p: LeadProbability | undefined): string {
-  if (!p || !Number.isFinite(p.threshold.value)) return t('threshold.none');
-  if (ind?.kind === 'excess-heat-factor')
-    return p.threshold.value === 0 ? t('threshold.ehfAny') : t('threshold.ehf', { value: formatNumber(locale, p.threshold.value, 1) });
-  if (ind?.kind === 'malaria-suitability') return t('threshold.index', { value: formatNumber(locale, p.threshold.value, 2) });
-  return formatThreshold(locale, p.threshold.value, p.threshold.units);
+/** A lead with members beyond the formula's published table (flag of calibrate/probability.ts). */
+function isBeyondTable(lead: LeadView): boolean {
+  return lead.flags.some((f) => f.startsWith('beyond-table:'));
 }
 
 function methodLines(
@@ -110,12 +107,13 @@ function methodLines(
 ): string[] {
   const p = outcome.probabilities[0];
   const lines: string[] = [];
-  const value = p ? formatThreshold(locale, p.threshold.value, p.threshold.units) : '–';
-  if (spec?.kind === 'percentile') lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value }));
+  const value = p ? thresholdNumber(locale, p.threshold.value, p.threshold.units) : '–';
+  if (spec?.kind === 'percentile')
+    lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value, ...pastYearsShare(spec.percentile) }));
   else if (spec?.kind === 'absolute') {
     const mapped = p !== undefined && Math.abs(p.threshold.value - spec.value) > 1e-9;
     lines.push(
-      t('method.thresholdAbsolute', { fixed: formatThreshold(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }),
+      t('method.thresholdAbsolute', { fixed: thresholdNumber(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }),
     );
   }
   const scored = outcome.probabilities.filter((q) => q.skill);
@@ -137,6 +135,8 @@ function methodLines(
       }),
     );
   } else lines.push(t('method.noSkill'));
+  const beyond = leads.filter(isBeyondTable).length;
+  if (beyond > 0) lines.push(t('method.beyondTable', { leads: beyond }));
   return lines;
 }
 
@@ -172,7 +172,9 @@ function whyText(
   stage: StageView,
   byRank: readonly StageView[],
 ): string {
-  return [evidenceText(t, config, region, tiers, stage, byRank), missingText(t, region, tiers)].filter(Boolean).join(' ');
+  const beyond = tiers.filter((tv) => tv.leads.some(isBeyondTable)).map((tv) => tv.hazard);
+  const beyondText = beyond.length > 0 ? t('why.beyondTable', { hazards: [...new Set(beyond)].join(', ') }) : '';
+  return [evidenceText(t, config, region, tiers, stage, byRank), beyondText, missingText(t, region, tiers)].filter(Boolean).join(' ');
 }
 
 function evidenceText(
@@ -243,7 +245,7 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
       deciding: leads.find((l) => l.deciding) ?? null,
       leads,
       groups: groupLeads(locale, leads, tier.probabilities),
-      threshold: thresholdWords(t, locale, ind, tier.probabilities[0]),
+      threshold: thresholdWords(t, locale, ind, spec, tier.probabilities[0]),
       method: methodLines(t, locale, config, spec, tier, leads),
     };
   });

@@ -11,6 +11,7 @@ import type { ArchiveEntry } from './archive.ts';
 import { bulletinContext, topStage, type ChartRef } from './bulletin-context.ts';
 import type { Translate } from './catalogue.ts';
 import { buildCapAlerts } from './cap.ts';
+import { reliabilityCharts } from './reliability-chart.ts';
 import { buildChartSpecs, chartPngsWithin, chartWidth, renderChartSvg, type ChartSpec } from './charts.ts';
 import { chartWords } from './chart-words.ts';
 import type { BulletinRun, CapAlert, PreviousIssue, RenderConfig } from './model.ts';
@@ -220,6 +221,11 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
           team: config.teams.find((t) => t.id === b.team)?.name ?? b.team,
           base64: Buffer.from(a.content).toString('base64'),
         })),
+    ),
+    reliability: reliabilityCharts(
+      run.regions,
+      at,
+      (id) => archiveViews.flatMap((v) => v.indicators).find((i) => i.id === id)?.hazard ?? id,
     ),
     ladder: config.stages.map((s) => ({ glyph: s.glyph, label: applyTypography(archiveLocale, s.label[archiveLocale] ?? s.id) })),
     json,

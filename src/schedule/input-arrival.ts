@@ -4,11 +4,12 @@
  */
 import { statSync } from 'node:fs';
 import { addDays } from '../core/iso-dates.ts';
+import { compactDate, fillPattern } from '../core/path-patterns.ts';
 import type { IsoDate } from '../types.ts';
 
 /** Pattern with `{date}` replaced by the compact date of `date` (YYYY-MM-DD). */
 export function forecastPath(pattern: string, date: IsoDate): string {
-  return pattern.replaceAll('{date}', date.replaceAll('-', ''));
+  return fillPattern(pattern, { date: compactDate(date) });
 }
 
 function sizeOf(path: string): number | null {

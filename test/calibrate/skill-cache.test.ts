@@ -5,6 +5,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cachedSkill, fingerprint, hashFiles, skillCacheKey } from '../../src/calibrate/skill-cache.ts';
+import { isStoredClimates } from '../../src/calibrate/stored-climate.ts';
+import { jsonShape } from '../../src/core/json-shape.ts';
 import { openChecksumMemo } from '../../src/core/file-checksums.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'forelight-calib-'));
@@ -28,6 +30,9 @@ describe('hashFiles', () => {
   });
 });
 
+const anyObject = jsonShape<unknown>({ type: 'object' });
+const aNumber = jsonShape<unknown>({ type: 'number' });
+
 describe('cachedSkill', () => {
   it('computes once, then reads the cache; NaN and Infinity survive; a changed byte changes the key', async () => {
     const cacheDir = join(dir, 'cache');
@@ -37,8 +42,8 @@ describe('cachedSkill', () => {
       calls++;
       return { bs: NaN, top: Infinity, low: -Infinity, rows: [{ n: 1.5 }] };
     };
-    const first = await cachedSkill(cacheDir, key, compute);
-    const second = await cachedSkill(cacheDir, key, compute);
+    const first = await cachedSkill(cacheDir, key, compute, anyObject);
+    const second = await cachedSkill(cacheDir, key, compute, anyObject);
     expect(calls).toBe(1);
     expect(first.fromCache).toBe(false);
     expect(second.fromCache).toBe(true);
@@ -47,7 +52,7 @@ describe('cachedSkill', () => {
     writeFileSync(b, 'hindcast 2007!');
     const key2 = await skillCacheKey({ hindcastFiles: [a, b], observationsFile: obs, configFingerprint: fingerprint({ y: [2], x: 1 }) });
     expect(key2).not.toBe(key);
-    await cachedSkill(cacheDir, key2, compute);
+    await cachedSkill(cacheDir, key2, compute, anyObject);
     expect(calls).toBe(2);
   });
   it('config fingerprint ignores key order but not values; the observations file counts', async () => {
@@ -59,12 +64,28 @@ describe('cachedSkill', () => {
   });
   it('a corrupt entry is recomputed and overwritten, with a note', async () => {
     const cacheDir = join(dir, 'cache2');
-    await cachedSkill(cacheDir, 'k', () => 1);
+    await cachedSkill(cacheDir, 'k', () => 1, aNumber);
     writeFileSync(join(cacheDir, 'skill-k.json'), '{broken');
-    const r = await cachedSkill(cacheDir, 'k', () => 2);
+    const r = await cachedSkill(cacheDir, 'k', () => 2, aNumber);
     expect(r.value).toBe(2);
     expect(r.note).toMatch(/unreadable .* recomputed/);
-    expect((await cachedSkill(cacheDir, 'k', () => 3)).value).toBe(2);
+    expect((await cachedSkill(cacheDir, 'k', () => 3, aNumber)).value).toBe(2);
+  });
+  it('an entry of another shape (valid JSON, e.g. left by an older format) is recomputed, the note names where it differs', async () => {
+    const cacheDir = join(dir, 'cache3');
+    const key = 'shape';
+    await cachedSkill(cacheDir, key, () => [{ region: 'north' }], anyObject);
+    writeFileSync(join(cacheDir, `skill-${key}.json`), JSON.stringify([{ region: 'north', indicator: 'hi', hindcast: 1 }]));
+    const r = await cachedSkill(cacheDir, key, () => 7, isStoredClimates);
+    expect(r.fromCache).toBe(false);
+    expect(r.value).toBe(7);
+    expect(r.note).toMatch(/skill-shape\.json unreadable \(\/0 must have required property 'observed'\); recomputed/);
+    const stored = [
+      { region: 'north', indicator: 'hi', hindcast: null, observed: null, skill: [], tuned: { r1: { $num: 'NaN' } }, problems: [] },
+    ];
+    writeFileSync(join(cacheDir, `skill-${key}.json`), JSON.stringify(stored));
+    const back = await cachedSkill(cacheDir, key, () => [], isStoredClimates);
+    expect(back).toEqual({ value: [{ ...stored[0], tuned: { r1: NaN } }], fromCache: true, note: '' });
   });
 });
 

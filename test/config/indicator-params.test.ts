@@ -26,7 +26,7 @@ describe('indicator params checked at load (fixtures/bad-indicator-params.yaml)'
       // malaria: lag-months 3 fails the schema, so the cross-parameter rules are not asked about this indicator
       `${F}:65:43: 3 is not one of: 1, 2 — use one of: 1, 2`,
       // rules between parameters (the kind's checkParams), in the operators' spelling of the keys
-      `${F}:72:13: indicator "mal-r0": params.temperature-model mordecai-2013 is fitted for P. falciparum only — use species falciparum or the martens-detinova model`,
+      `${F}:72:13: indicator "mal-r0": params.temperature-model mordecai-2013 is fitted for P. falciparum only — use species falciparum, or the craig-1999 or martens-detinova model`,
       `${F}:79:13: indicator "mal-cut": params.marginal-at 0.8 is not below params.suitable-at 0.5 — make marginal-at < suitable-at`,
     ]);
   });

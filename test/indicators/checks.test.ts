@@ -14,6 +14,7 @@ import {
   excessHeatFactorSeries,
 } from '../../src/indicators/excess-heat-factor-nairn-fawcett-2015.ts';
 import {
+  heatIndexBeyondTableF,
   heatIndexBranchNws,
   heatIndexRothfusz1990C,
   heatIndexRothfusz1990CArray,
@@ -173,6 +174,9 @@ describe('checks.json indicator rows (CHECKS.md §2-§10)', () => {
       const branch = row.quantity === 'heat_index_nws' ? expectedBranch(row) : null;
       if (row.source.includes('branch')) expect(branch, `${row.id} says branch but none parsed`).not.toBeNull();
       if (branch) expect(heatIndexBranchNws((row.inputs as In).t_air_f, (row.inputs as In).rh_pct)).toBe(branch);
+      // every published heat index row lies inside the table: none is capped or flagged beyond it
+      if (row.quantity === 'heat_index_nws')
+        expect(heatIndexBeyondTableF((row.inputs as In).t_air_f, (row.inputs as In).rh_pct)).toBe(false);
       exercised.add(row.id);
     });
   }

@@ -2,6 +2,8 @@
 import { describe, expect, it } from 'vitest';
 import { computeIndicator } from '../../src/indicators/compute.ts';
 import { heatIndexRothfusz1990C } from '../../src/indicators/heat-index-rothfusz-1990.ts';
+import { aggregateToLeads } from '../../src/calibrate/lead-tiers.ts';
+import { leadProbabilities } from '../../src/calibrate/probability.ts';
 import { dewpointFromRhMagnusC, rhFromDewpointMagnusPct } from '../../src/indicators/magnus-humidity.ts';
 import { monthlySuitability, parseMalariaParams, suitabilityCategory } from '../../src/indicators/malaria-monthly.ts';
 import { percentileLinear } from '../../src/core/percentile.ts';
@@ -21,6 +23,32 @@ describe("feels-like indicators on Tmax with the day's humidity", () => {
     for (let i = 0; i < 3; i++) expect(r.data[i]).toBe(heatIndexRothfusz1990C(tmax.data[i], rhFromDewpointMagnusPct(tmax.data[i], 24 + i)));
     expect(r.units).toBe('degC');
     expect(r.notes).toEqual([]);
+  });
+  it('a day beyond the published heat index table is capped at 58.3 °C, masked, noted, and flagged on its lead', () => {
+    // 46 °C with dewpoint 30 °C: T > 110 °F, beyond the NWS chart of Steadman (1979); day 2 (36 °C, Td 25) inside
+    const hot = regionSeries('tmax', days, 2, f(46, 36, 34, 34, 36, 34));
+    const r = computeIndicator(indicator('heat-index'), inputsOf(hot, regionSeries('dewpoint', days, 2, f(30, 25, 24, 24, 25, 24))));
+    expect(r.data[0]).toBeCloseTo((137 - 32) / 1.8, 10);
+    expect([...(r.beyondTable ?? [])]).toEqual([1, 0, 0, 0, 0, 0]);
+    expect(r.notes.join(' ')).toContain('1 member-days beyond the published Heat Index table');
+    const leads = aggregateToLeads(r, 'days', 'max');
+    expect([...(leads.beyondTable ?? [])]).toEqual([1, 0, 0, 0, 0, 0]);
+    const probs = leadProbabilities({
+      source: 's',
+      region: r.region,
+      indicator: r.indicator,
+      units: 'degC',
+      forecast: leads,
+      hindcast: null,
+      observed: null,
+      threshold: { kind: 'absolute', value: 41, units: 'degC' },
+      calibration: { minMembers: 1, minHindcastYears: 1 },
+    });
+    expect(probs[0].flags.filter((x) => x.startsWith('beyond-table:'))).toEqual([
+      'beyond-table: 1 of 2 members lie beyond the published table at lead day 1; their values are capped at its top, not extrapolated',
+    ]);
+    expect(probs[0].probability).toBe(0.5); // the capped member still counts above 41 °C
+    expect(probs[1].flags.some((x) => x.startsWith('beyond-table:'))).toBe(false);
   });
   it('RH + tmean input: dewpoint from the daily mean, RH re-evaluated at Tmax (lower than the daily-mean RH)', () => {
     const rh = regionSeries('rh', days, 1, f(70, 70, 70));
@@ -83,8 +111,9 @@ describe('malaria suitability, monthly with lag', () => {
   precip.fill(2, 0, 70).fill(4, 70, 140);
   const craigS = (x: number, a: number, b: number) => (x <= a ? 0 : x >= b ? 1 : (1 - Math.cos((Math.PI * (x - a)) / (b - a))) / 2);
 
-  it('monthlySuitability: rain total = mean rate × days in month; index = min(Craig T, Craig R, p^n relative); target = month + lag', () => {
+  it('monthlySuitability: rain total = mean rate × days in month; default index = min(Craig T, Craig R) alone; target = month + lag', () => {
     const p = parseMalariaParams({ id: 'mal', params: { species: 'falciparum', lagMonths: 1 } });
+    expect(p.temperatureModel).toBe('craig-1999');
     const months = monthlySuitability(d, 2, tmean, precip, p);
     expect(months.map((m) => [m.dataMonth, m.targetMonth, m.forecastDays])).toEqual([
       ['2026-11', '2026-12', 8],
@@ -93,11 +122,32 @@ describe('malaria suitability, monthly with lag', () => {
     ]);
     expect(months[0].index[0]).toBeNaN(); // 8 of 30 days < 50 % coverage
     expect(months[1].rainTotalMm[0]).toBeCloseTo(62, 12);
-    expect(months[1].index[0]).toBeCloseTo(Math.min(craigS(62, 0, 80), 0.753), 3); // p^n(25)/max = 0.753 (0.2767/0.3675)
+    // Craig et al. (1999): f_T = 1 on 22..32 °C, so at 25 °C only the rain (62 mm) limits
+    expect(months[1].index[0]).toBeCloseTo(craigS(62, 0, 80), 12);
+    expect(months[1].index[1]).toBeCloseTo(Math.min(craigS(19, 18, 22), craigS(124, 0, 80)), 12);
+  });
+
+  it('temperature is counted once: 22 °C with ample rain is fully suitable by default, and warmth up to 32 °C never lowers it', () => {
+    // The former min(Craig f_T, p^n) gave 0.42 at 22 °C and fell above 30.6 °C (issue finding 7)
+    const days = dayList('2027-01-01', 31);
+    const p = parseMalariaParams({ id: 'mal', params: {} });
+    const at = (tC: number) => monthlySuitability(days, 1, new Float64Array(31).fill(tC), new Float64Array(31).fill(5), p)[0].index[0];
+    expect(at(22)).toBe(1);
+    let last = -1;
+    for (let tC = 16; tC <= 32; tC += 0.25) {
+      expect(at(tC)).toBeGreaterThanOrEqual(last);
+      last = at(tC);
+    }
+  });
+
+  it('martens-detinova replaces the Craig temperature membership (min with Craig rain only)', () => {
+    const p = parseMalariaParams({ id: 'mal', params: { species: 'falciparum', temperatureModel: 'martens-detinova' } });
+    const months = monthlySuitability(d, 2, tmean, precip, p);
     const k = DETINOVA_1962.falciparum;
-    const pn19 = survivalThroughSporogony(19, k) / maxSurvivalThroughSporogony(k).value;
-    expect(pn19).toBeLessThan(craigS(19, 18, 22)); // at 19 °C the mosquito/parasite side is the limiting factor
-    expect(months[1].index[1]).toBeCloseTo(Math.min(craigS(19, 18, 22), craigS(124, 0, 80), pn19), 12);
+    const rel = (tC: number) => survivalThroughSporogony(tC, k) / maxSurvivalThroughSporogony(k).value;
+    expect(months[1].index[0]).toBeCloseTo(Math.min(craigS(62, 0, 80), rel(25)), 12); // p^n(25)/max = 0.753 (0.2767/0.3675)
+    expect(months[1].index[1]).toBeCloseTo(Math.min(rel(19), craigS(124, 0, 80)), 12);
+    expect(rel(19)).not.toBeCloseTo(craigS(19, 18, 22), 2); // so the two terms differ and the test can tell them apart
   });
 
   it("computeIndicator puts each month's index on the days of the month it speaks for (lag 2)", () => {
@@ -114,7 +164,7 @@ describe('malaria suitability, monthly with lag', () => {
   it('Mordecai option, categories and parameter errors', () => {
     const p = parseMalariaParams({ id: 'mal', params: { temperatureModel: 'mordecai-2013' } });
     const months = monthlySuitability(d, 2, tmean, precip, p);
-    expect(months[1].index[1]).toBeCloseTo(Math.min(craigS(19, 18, 22), relativeR0Mordecai2013(19)), 12);
+    expect(months[1].index[1]).toBeCloseTo(Math.min(craigS(124, 0, 80), relativeR0Mordecai2013(19)), 12);
     expect(months[1].index[0]).toBeCloseTo(Math.min(craigS(62, 0, 80), relativeR0Mordecai2013(25)), 12);
     expect(suitabilityCategory(0.1, p)).toBe('unsuitable');
     expect(suitabilityCategory(0.25, p)).toBe('marginal');
@@ -123,6 +173,9 @@ describe('malaria suitability, monthly with lag', () => {
       /P. falciparum only/,
     );
     expect(() => parseMalariaParams({ id: 'mal', params: { lagMonths: 3 } })).toThrow(/lagMonths/);
+    expect(() => parseMalariaParams({ id: 'mal', params: { temperatureModel: 'both' } })).toThrow(
+      /craig-1999, martens-detinova, mordecai-2013/,
+    );
   });
 });
 

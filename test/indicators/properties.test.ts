@@ -1,7 +1,14 @@
 /** Property tests of the formulas (shape of the published curves, CHECKS.md §2, §6, §8, §9, §10). */
 import { describe, expect, it } from 'vitest';
 import { excessHeatFactorNairnFawcett2015 } from '../../src/indicators/excess-heat-factor-nairn-fawcett-2015.ts';
-import { heatIndexRothfusz1990F } from '../../src/indicators/heat-index-rothfusz-1990.ts';
+import {
+  HEAT_INDEX_TABLE_MAX_F,
+  heatIndexBeyondTableC,
+  heatIndexBeyondTableF,
+  heatIndexRegressionRothfusz1990F,
+  heatIndexRothfusz1990C,
+  heatIndexRothfusz1990F,
+} from '../../src/indicators/heat-index-rothfusz-1990.ts';
 import { relativeR0Mordecai2013 } from '../../src/indicators/relative-r0-mordecai-2013.ts';
 import { DETINOVA_1962 } from '../../src/indicators/sporogony-detinova-1962.ts';
 import {
@@ -14,20 +21,32 @@ import { computeIndicator, dayOfYearPercentileThreshold } from '../../src/indica
 import { dayList, indicator, inputsOf, regionSeries, rng } from './fixtures.ts';
 
 describe('Heat Index (WPC algorithm)', () => {
-  it('rises with humidity at fixed temperature above 80 °F (Steadman 1979 sultriness increases with vapour pressure)', () => {
+  it('rises with humidity at fixed temperature above 80 °F (Steadman 1979 sultriness increases with vapour pressure); flat at the table top', () => {
     for (let t = 82; t <= 110; t += 2) {
       let prev = -Infinity;
       for (let rh = 15; rh <= 100; rh += 1) {
         const hi = heatIndexRothfusz1990F(t, rh);
-        expect(hi, `T=${t} RH=${rh}`).toBeGreaterThan(prev);
+        if (heatIndexBeyondTableF(t, rh)) expect(hi, `T=${t} RH=${rh}`).toBe(HEAT_INDEX_TABLE_MAX_F);
+        else expect(hi, `T=${t} RH=${rh}`).toBeGreaterThan(prev);
         prev = hi;
       }
     }
   });
-  it('is flagged (NaN), not extrapolated, outside 40..120 °F or 0..100 %', () => {
-    expect(heatIndexRothfusz1990F(125, 50)).toBeNaN();
+  it('is flagged (NaN), not extrapolated, below 40 °F or outside 0..100 %', () => {
     expect(heatIndexRothfusz1990F(35, 50)).toBeNaN();
     expect(heatIndexRothfusz1990F(90, 101)).toBeNaN();
+  });
+  it('beyond the published table (NWS chart of Steadman 1979: T > 110 °F or HI > 137 °F, from memory) it is capped, never extrapolated', () => {
+    // The raw Rothfusz regression gives about 380 °F at 120 °F and 100 % (issue finding 8)
+    expect(heatIndexRegressionRothfusz1990F(120, 100)).toBeGreaterThan(370);
+    expect(heatIndexRothfusz1990F(120, 100)).toBe(137);
+    expect(heatIndexBeyondTableF(120, 100)).toBe(true);
+    expect(heatIndexBeyondTableF(125, 5)).toBe(true); // hotter than the chart's last column, even if dry
+    expect(heatIndexRothfusz1990F(125, 5)).toBeLessThan(137);
+    expect(heatIndexBeyondTableF(110, 40)).toBe(false); // chart cell 136 (checks.json hi-nws-chart-10)
+    expect(heatIndexBeyondTableF(90, 100)).toBe(false); // chart cell 132 (hi-nws-chart-13)
+    expect(heatIndexBeyondTableC(45, 20)).toBe(true);
+    expect(heatIndexRothfusz1990C(50, 90)).toBeCloseTo((137 - 32) / 1.8, 12);
   });
 });
 

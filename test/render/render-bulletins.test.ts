@@ -64,7 +64,7 @@ describe('renderBulletins on the sample run', () => {
   it('first screen: hazard in plain words with its threshold, dates, chance against the normal year with the configured word, how sure', () => {
     const k = plain('kessan-health');
     expect(k).toContain(
-      'Hot days (3-day average of daily highs), above 34.2 °C\nWhen: 3 – 5 Dec\nHow likely: 70% chance, likely (in a normal year 10%), highest on Fri 4 Dec\nHow sure: Fairly sure',
+      'Hot days (3-day average of daily highs), above 34.2 °C, higher than in 9 of 10 past years\nWhen: 3 – 5 Dec\nHow likely: 70% chance, likely (in a normal year 10%), highest on Fri 4 Dec\nHow sure: Fairly sure',
     );
     expect(plain('tulva-health')).toContain('Probabilité : 68 % de probabilité, probable (une année normale : 30 %)');
     // Order of the first screen (issue: stage, hazard and dates, how likely, how sure, action, what changed, outlook).

@@ -40,6 +40,7 @@ export function skillSummary(
       reason,
       text,
     },
+    reliability: null,
     skilful: passed,
   };
 }

@@ -1,10 +1,13 @@
 /**
  * `forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P])
- * [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] --json`:
- * prints exactly what Forelight sees in a file for one box or for every region of a boundary file, as JSON.
+ * [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre]
+ * [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json`:
+ * prints exactly what Forelight sees in a file for one box or for every region of a boundary file, as JSON;
+ * with --population the region means are weighted by the people of that raster (NetCDF or GeoTIFF).
  */
+import { resolve } from 'node:path';
 import { loadBoundarySet } from '../../config/boundaries/boundary-sets.ts';
-import type { CellRule } from '../../config/types.ts';
+import type { CellRule, PopulationConfig } from '../../config/types.ts';
 import { timeZoneProblem } from '../../core/next-runs.ts';
 import { extractBoxJson } from '../../read/extract.ts';
 import { extractRegionsJson } from '../../read/extract-raw.ts';
@@ -14,6 +17,20 @@ import { stringOption, usageError, type ParsedArgs } from '../args.ts';
 
 const DAILY: readonly DailyMethod[] = ['max', 'min', 'mean', 'sum'];
 const RULES: readonly CellRule[] = ['overlap', 'centre'];
+const PEOPLE_VALUES: readonly PopulationConfig['values'][] = ['people-per-pixel', 'people-per-km2'];
+
+function populationOption(args: ParsedArgs): PopulationConfig | null {
+  const file = stringOption(args, 'population');
+  const variable = stringOption(args, 'population-variable');
+  const values = (stringOption(args, 'population-values') ?? 'people-per-pixel') as PopulationConfig['values'];
+  if (file === undefined) {
+    if (variable !== undefined || stringOption(args, 'population-values') !== undefined)
+      throw usageError('--population-variable and --population-values need --population RASTER');
+    return null;
+  }
+  if (!PEOPLE_VALUES.includes(values)) throw usageError(`--population-values must be one of ${PEOPLE_VALUES.join(', ')}, got '${values}'`);
+  return { file: resolve(file), values, ...(variable !== undefined ? { variable } : {}) };
+}
 
 function parseBox(text: string | undefined): { south: number; north: number; west: number; east: number } {
   const parts = (text ?? '').split(',').map(Number);
@@ -54,7 +71,9 @@ async function regionsJson(
   const entry = { boundaries, 'id-property': stringOption(args, 'id-property'), 'name-property': stringOption(args, 'name-property') };
   const set = await loadBoundarySet(entry, 0, process.cwd(), { ...clockOptions(args), ...(cellRule ? { cellRule } : {}) });
   if (set.problems.length > 0) throw usageError(set.problems.map((p) => `${p.message} — ${p.fix}`).join('\n'));
-  return extractRegionsJson(file, variable, set.regions, daily ?? null);
+  const population = populationOption(args);
+  const regions = population ? set.regions.map((r) => ({ ...r, weighting: 'population' as const })) : set.regions;
+  return extractRegionsJson(file, variable, regions, daily ?? null, population);
 }
 
 export async function extractCommand(args: ParsedArgs): Promise<number> {
@@ -71,6 +90,8 @@ export async function extractCommand(args: ParsedArgs): Promise<number> {
   const boundaries = stringOption(args, 'regions');
   const box = stringOption(args, 'box');
   if ((boundaries === undefined) === (box === undefined)) throw usageError('extract needs exactly one of --box S,N,W,E and --regions FILE');
+  if (box !== undefined && stringOption(args, 'population') !== undefined)
+    throw usageError('--population goes with --regions FILE, not --box');
   const result =
     boundaries !== undefined
       ? await regionsJson(file, variable, boundaries, args, daily, cellRule)

@@ -1,17 +1,17 @@
 /**
- * Indicator kind malaria-suitability: monthly climate suitability for Plasmodium transmission (fuzzy AND of the
- * Craig et al. 1999 memberships and a temperature model), put on every day of the month it speaks for
+ * Indicator kind malaria-suitability: monthly climate suitability for Plasmodium transmission (fuzzy AND of one
+ * temperature term, by default Craig et al. 1999, and the Craig rainfall membership), put on every day of the month it speaks for
  * (data month + lag-months). Parameters and defaults: parseMalariaParams (malaria-monthly.ts).
  */
 import { datesOfMonth } from '../../core/iso-dates.ts';
 import { defineIndicator, paramsSchema } from '../definition.ts';
 import { meanTemperature } from '../kind-inputs.ts';
-import { monthlySuitability, parseMalariaParams } from '../malaria-monthly.ts';
+import { MALARIA_TEMPERATURE_MODELS, monthlySuitability, parseMalariaParams, type MalariaTemperatureModel } from '../malaria-monthly.ts';
 import { checkAligned, requireQuantity } from '../series-checks.ts';
 
 export type MalariaSuitabilityParams = {
   readonly species?: 'falciparum' | 'vivax' | 'P. falciparum' | 'P. vivax';
-  readonly temperatureModel?: 'martens-detinova' | 'mordecai-2013';
+  readonly temperatureModel?: MalariaTemperatureModel;
   readonly lagMonths?: 1 | 2;
   readonly minMonthCoverage?: number;
   readonly marginalAt?: number;
@@ -32,9 +32,10 @@ export const definition = defineIndicator<'malaria-suitability', MalariaSuitabil
       description: 'Plasmodium species (sporogony constants).',
     },
     'temperature-model': {
-      enum: ['martens-detinova', 'mordecai-2013'],
+      enum: [...MALARIA_TEMPERATURE_MODELS],
       default: DEFAULTS.temperatureModel,
-      description: 'Temperature term: survival through sporogony (Martens, Detinova) or relative R0 (Mordecai, P. falciparum only).',
+      description:
+        'The one temperature term: Craig membership, or instead survival through sporogony (Martens, Detinova) or relative R0 (Mordecai, P. falciparum only).',
     },
     'lag-months': { enum: [1, 2], default: DEFAULTS.lagMonths, description: 'Months from the weather to the transmission it shapes.' },
     'min-month-coverage': fraction('Fraction of a month the forecast must cover for an index.', DEFAULTS.minMonthCoverage),
@@ -44,7 +45,8 @@ export const definition = defineIndicator<'malaria-suitability', MalariaSuitabil
   checkParams: (ind) => void parseMalariaParams(ind),
   describe: {
     name: 'Malaria climate suitability',
-    description: 'Monthly index 0..1: min(Craig temperature and rainfall memberships, temperature model), lagged by lag-months.',
+    description:
+      'Monthly index 0..1: min(temperature term, Craig rainfall membership); the temperature term is the Craig membership unless temperature-model names another (never both). Lagged by lag-months.',
     references: ['craigSnowLeSueur1999', 'martens1997', 'detinova1962', 'mordecai2013'],
   },
   compute(ind, inputs) {

@@ -4,19 +4,21 @@
  * and, for rules that give a cost/loss ratio, the probability threshold of maximum economic value.
  */
 import type { Config, IndicatorConfig, RegionConfig, SourceConfig } from '../config/types.ts';
-import { stackYears, type LeadClimate } from '../calibrate/climate.ts';
-import { aggregateToLeads, type LeadValues } from '../calibrate/lead-tiers.ts';
-import { observedCases, potentialCases, skillReports, type SkillReport } from '../calibrate/skill.ts';
-import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
-import { bestProbabilityThreshold } from '../calibrate/verify.ts';
 import { formatDiagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
 import { diagnosticOf } from '../core/errors.ts';
+import type { ChecksumMemo } from '../core/file-checksums.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
-import type { IndicatorSeries } from '../types.ts';
+import type { HindcastRead, IndicatorSeries, RegionQuantities } from '../types.ts';
+import { stackYears, type LeadClimate } from './climate.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
-import type { RegionQuantities } from './read-file.ts';
-import type { HindcastRead } from './read-stage.ts';
+import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
+import { observedCases, potentialCases, skillReports, type SkillReport } from './skill.ts';
+import { resolveThresholdSpec } from './thresholds.ts';
+import { bestProbabilityThreshold } from './verify.ts';
+
+/** The part of the configuration the calibrate stage reads. */
+export type CalibrateConfig = Pick<Config, 'regions' | 'indicators' | 'rules' | 'decision' | 'calibration'>;
 
 export interface IndicatorClimate {
   readonly hindcast: LeadClimate | null;
@@ -29,6 +31,25 @@ export interface IndicatorClimate {
 
 /** The observed indicator of a region over the whole observation record (one member), or why there is none. */
 export type ObservedIndicators = Map<PairKey, IndicatorSeries | Diagnostic>;
+
+/** What calibrating every source of one run shares: the observations, their climatology and the cache's checksums. */
+export interface CalibrateContext {
+  readonly config: CalibrateConfig;
+  readonly observed: RegionQuantities | null;
+  readonly observationsPath: string | null;
+  /** region id → climatology from observations. */
+  readonly climatology: ReadonlyMap<string, IndicatorClimatology>;
+  readonly observedMemo: ObservedIndicators;
+  /** Checksums of input files remembered across runs (cache keys). */
+  readonly checksums: ChecksumMemo;
+}
+
+/** The region × indicator pairs of a tier (every region, each indicator computed on that tier). */
+export function tierPairs(config: Pick<Config, 'regions' | 'indicators'>, tier: string): { region: RegionConfig; ind: IndicatorConfig }[] {
+  return config.regions.flatMap((region) =>
+    config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })),
+  );
+}
 
 const isSeries = (v: IndicatorSeries | Diagnostic | null): v is IndicatorSeries => v !== null && 'data' in v;
 
@@ -60,14 +81,14 @@ function onDays(series: IndicatorSeries, like: IndicatorSeries): IndicatorSeries
 }
 
 /** Stage probabilities of the rules on this indicator × tier (for hit and false-alarm rates). */
-function ruleProbabilities(config: Config, ind: IndicatorConfig, tier: SourceConfig['tier']): number[] {
+function ruleProbabilities(config: CalibrateConfig, ind: IndicatorConfig, tier: SourceConfig['tier']): number[] {
   return config.rules
     .filter((r) => r.indicator === ind.id && r.tier === tier && r.probability !== undefined)
     .map((r) => r.probability as number);
 }
 
 function tuneCostLoss(
-  config: Config,
+  config: CalibrateConfig,
   ind: IndicatorConfig,
   source: SourceConfig,
   region: RegionConfig,
@@ -94,7 +115,7 @@ function tuneCostLoss(
 
 /** Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator. */
 export function buildIndicatorClimate(
-  config: Config,
+  config: CalibrateConfig,
   source: SourceConfig,
   region: RegionConfig,
   ind: IndicatorConfig,
