@@ -46,7 +46,7 @@ export function benchConfig(
         id: 'bench',
         name: 'bench ensemble',
         tier: 'weeks',
-        forecast,
+        forecast: [forecast],
         hindcast: hindcastPattern,
         variables: QUANTITIES,
         priority: 1,

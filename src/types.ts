@@ -217,6 +217,43 @@ export interface StageDecision {
    * the last issued stage is held (`stageId` is then that stage) or the hold expired (`stageId` is "no-forecast").
    */
   readonly missing?: { readonly reason: string; readonly runs: number; readonly held: boolean };
+  /** Set when the rules' stage was above the tier cap: the cap applied and the stage the rules gave. */
+  readonly cap?: { readonly stageId: string; readonly uncappedId: string };
+  /**
+   * Set when persistence issued another stage than the (capped) rules gave: waiting to raise towards `towardsId`
+   * or to lower, after `runs` of the `needed` bulletins in a row.
+   */
+  readonly wait?: PersistenceWait;
+  /** How each lead of the tier took part in the stage, lead 1 first (decide/lead-use.ts). */
+  readonly leadUses?: readonly LeadUse[];
+}
+
+/** Persistence holding the issued stage against the rules (decide/persistence.ts). */
+export interface PersistenceWait {
+  readonly direction: 'raise' | 'lower';
+  /** The stage the rules point to. */
+  readonly towardsId: string;
+  /** Consecutive runs so far (this one included) and runs needed before the stage moves. */
+  readonly runs: number;
+  readonly needed: number;
+}
+
+/**
+ * How one lead took part in its tier's stage: `sets-stage` = its probability set the issued stage; `counted` = used
+ * by the rules, pointing to no stage above the issued one; `no-skill` = withheld by the skill gate (no demonstrated
+ * skill); `no-rule` = no trigger rule of the tier looks at this lead; `no-value` = no probability; `capped` = the rules
+ * give a stage above the tier cap; `awaiting` = it points above the issued stage, which waits for confirmation in the
+ * next run(s) (persistence).
+ */
+export type LeadUseKind = 'sets-stage' | 'counted' | 'no-skill' | 'no-rule' | 'no-value' | 'capped' | 'awaiting';
+
+export interface LeadUse {
+  readonly index: number;
+  readonly kind: LeadUseKind;
+  /** Stage its probability reaches by the rules alone (before cap and persistence); lowest when not used. */
+  readonly reachedId: string;
+  /** The stage it supports after the tier cap (= reachedId without a cap). */
+  readonly supportsId: string;
 }
 
 /** A rendered bulletin for one audience (a team or the national office). */

@@ -162,7 +162,12 @@ export function combineSources<T extends { readonly lead: LeadWindow }>(
   return { kept, dropped, rule: COMBINE_RULE };
 }
 
+/** "day 3", "week 2", "month 1". */
+export function leadName(tier: Tier, index: number): string {
+  return `${tier.slice(0, -1)} ${index}`;
+}
+
 /** "lead day 3", "lead week 2", "lead month 1". */
 export function leadLabel(lead: LeadWindow): string {
-  return `lead ${lead.tier.slice(0, -1)} ${lead.index}`;
+  return `lead ${leadName(lead.tier, lead.index)}`;
 }

@@ -1,7 +1,7 @@
 /**
  * Model climate and skill of one source × region × indicator: the indicator computed on every hindcast start
  * and on the observations for the same days, aggregated to the source's tier, then verified (skill per lead)
- * and, for rules that give a cost/loss ratio, the probability threshold of maximum economic value.
+ * and, for rules that give a cost/loss ratio, the trigger of maximum economic value judged out of sample.
  */
 import type { Config, IndicatorConfig, RegionConfig, SourceConfig } from '../config/types.ts';
 import { formatDiagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
@@ -13,9 +13,9 @@ import type { HindcastRead, IndicatorSeries, RegionQuantities } from '../types.t
 import { stackYears, type LeadClimate } from './climate.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
-import { observedCases, potentialCases, skillReports, type SkillReport } from './skill.ts';
+import { leadCases, skillReports, type SkillReport } from './skill.ts';
 import { resolveThresholdSpec } from './thresholds.ts';
-import { bestProbabilityThreshold } from './verify.ts';
+import { tuneTrigger, type TunedTrigger } from './trigger-tuning.ts';
 
 /** The part of the configuration the calibrate stage reads. */
 export type CalibrateConfig = Pick<Config, 'regions' | 'indicators' | 'rules' | 'decision' | 'calibration'>;
@@ -24,8 +24,8 @@ export interface IndicatorClimate {
   readonly hindcast: LeadClimate | null;
   readonly observed: LeadClimate | null;
   readonly skill: readonly SkillReport[];
-  /** Rule id → tuned probability threshold (maximum relative economic value on the hindcasts). */
-  readonly tuned: Readonly<Record<string, number>>;
+  /** Rule id → trigger tuned for its cost/loss ratio (maximum relative economic value, judged leave-one-year-out). */
+  readonly tuned: Readonly<Record<string, TunedTrigger>>;
   readonly problems: readonly Diagnostic[];
 }
 
@@ -87,6 +87,7 @@ function ruleProbabilities(config: CalibrateConfig, ind: IndicatorConfig, tier: 
     .map((r) => r.probability as number);
 }
 
+/** Each cost/loss rule of this indicator × tier tuned on its leads' cases, judged leave-one-year-out (trigger-tuning.ts). */
 function tuneCostLoss(
   config: CalibrateConfig,
   ind: IndicatorConfig,
@@ -94,21 +95,20 @@ function tuneCostLoss(
   region: RegionConfig,
   hc: LeadClimate,
   obs: LeadClimate | null,
-): Record<string, number> {
-  const tuned: Record<string, number> = {};
-  const spec = resolveThresholdSpec(ind, region.id);
-  for (const rule of config.rules) {
-    if (rule.indicator !== ind.id || rule.tier !== source.tier || rule.costLoss === undefined) continue;
-    const p: number[] = [];
-    const o: number[] = [];
-    hc.leads.forEach((lead, l) => {
-      if (rule.leads.length > 0 && !rule.leads.includes(lead.index)) return;
-      const cases = obs && l < obs.leads.length ? observedCases(hc, obs, l, spec, lead.tier !== 'days') : potentialCases(hc, l, spec);
-      p.push(...cases.p);
-      o.push(...cases.o);
-    });
-    const best = bestProbabilityThreshold(Float64Array.from(p), Float64Array.from(o), rule.costLoss);
-    if (Number.isFinite(best.threshold)) tuned[rule.id] = best.threshold;
+): Record<string, TunedTrigger> {
+  const tuned: Record<string, TunedTrigger> = {};
+  const rules = config.rules.filter((r) => r.indicator === ind.id && r.tier === source.tier && r.costLoss !== undefined);
+  if (rules.length === 0) return tuned;
+  const leads = leadCases(hc, obs, resolveThresholdSpec(ind, region.id)).map((l) => ({
+    index: l.lead.index,
+    basis: l.basis,
+    cases: l.cases,
+  }));
+  const { resamples, seed } = config.decision.skillGate;
+  for (const rule of rules) {
+    const own = leads.filter((l) => rule.leads.length === 0 || rule.leads.includes(l.index));
+    const trigger = tuneTrigger(own, rule.costLoss as number, { resamples, seed });
+    if (trigger) tuned[rule.id] = trigger;
   }
   return tuned;
 }

@@ -4,6 +4,7 @@
  * an empty field in CSV. `SKILL_LEGEND` explains every column (printed under the text table).
  */
 import type { Interval } from './bootstrap.ts';
+import { leadName } from './lead-tiers.ts';
 import type { SkillReport } from './skill.ts';
 
 export interface SkillRow {
@@ -97,7 +98,7 @@ export function skillRow(ids: { source: string; region: string; indicator: strin
   const g = r.summary.gate;
   return {
     ...ids,
-    lead: `${r.lead.tier.slice(0, -1)} ${r.lead.index}`,
+    lead: leadName(r.lead.tier, r.lead.index),
     basis: r.basis,
     years: r.years.length,
     events: r.events,

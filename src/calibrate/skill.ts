@@ -24,6 +24,7 @@ import { percentileLinear } from '../core/percentile.ts';
 import { yearBlockBootstrap, type BootstrapIntervals, type VerificationCases } from './bootstrap.ts';
 import { fairBrierScoreFerro2014, fairBrierSkillScore } from './fair-brier.ts';
 import { gateByLead, type SkillGate } from './skill-gate.ts';
+import { outOfSampleValueCurve, type OutOfSampleValue } from './trigger-tuning.ts';
 import { reliabilityDiagram } from './reliability.ts';
 import {
   brierScore1950,
@@ -38,6 +39,7 @@ import {
   rocArea,
   rocPoints,
   valueEnvelope,
+  VALUE_ALPHAS,
   type ReliabilityRow,
   type RocPoint,
   type ValuePoint,
@@ -74,8 +76,10 @@ export interface SkillReport {
   readonly rocPoints: readonly RocPoint[];
   readonly reliabilityTable: readonly ReliabilityRow[];
   readonly stages: readonly StageScores[];
-  /** Value envelope over cost/loss 0.05..0.95. */
+  /** Value envelope over cost/loss 0.05..0.95, thresholds chosen and judged on the same cases (in-sample). */
   readonly value: readonly ValuePoint[];
+  /** The same curve judged out of sample (leave-one-year-out thresholds), with 90 % bootstrap intervals. */
+  readonly outOfSampleValue: readonly OutOfSampleValue[];
   readonly flags: readonly string[];
   readonly summary: SkillSummary;
 }
@@ -207,6 +211,7 @@ export function scoreCases(
     reliabilityTable: usable ? reliabilityTable(p, o) : [],
     stages,
     value: usable ? valueEnvelope(p, o) : [],
+    outOfSampleValue: usable ? outOfSampleValueCurve(cases, VALUE_ALPHAS, { resamples: gate.resamples, seed: gate.seed }) : [],
     flags: allFlags,
     summary: {
       brierScore: bs,

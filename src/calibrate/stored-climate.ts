@@ -69,7 +69,21 @@ export const isStoredClimates = jsonShape<unknown>({
           required: ['lead', 'basis', 'summary'],
         },
       },
-      tuned: { type: 'object', additionalProperties: num },
+      tuned: {
+        type: 'object',
+        additionalProperties: {
+          type: 'object',
+          properties: {
+            costLoss: num,
+            basis: { enum: ['observed', 'potential'] },
+            hindcastMembers: { type: 'integer', minimum: 1 },
+            hindcastCount: { type: 'integer', minimum: 1 },
+            forecastThreshold: num,
+            value: { type: 'object', properties: { value: num, inSampleValue: num, interval: { type: 'object' } } },
+          },
+          required: ['costLoss', 'basis', 'hindcastMembers', 'hindcastCount', 'forecastThreshold', 'value'],
+        },
+      },
       problems: {
         type: 'array',
         items: {

@@ -214,9 +214,13 @@ export interface ValuePoint {
  * warnings) is kept.
  */
 export function bestProbabilityThreshold(p: Vec, o: Vec, alpha: number): ValuePoint {
-  const s = baseRate(o);
+  return bestThresholdOnRoc(rocPoints(p, o), baseRate(o), alpha);
+}
+
+/** `bestProbabilityThreshold` from ROC points already computed (`rocPoints`) and the cases' base rate s. */
+export function bestThresholdOnRoc(points: readonly RocPoint[], s: number, alpha: number): ValuePoint {
   let best: ValuePoint = { alpha, value: Number.NaN, threshold: Number.NaN, hitRate: Number.NaN, falseAlarmRate: Number.NaN };
-  for (const pt of rocPoints(p, o)) {
+  for (const pt of points) {
     // p >= 0 is "always warn": a trigger that fires whatever the forecast says is no trigger (its value is 0
     // by construction, Richardson 2000), so only thresholds above 0 are candidates.
     if (!Number.isFinite(pt.threshold) || pt.threshold <= 0) continue;

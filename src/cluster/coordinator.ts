@@ -62,7 +62,10 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
   const timeout = options.jobTimeoutMs ?? 30 * 60_000;
 
   const extract = (async (path: string, request: ExtractRequest): Promise<ExtractResult> => {
-    const id = jobId(await checksums.sha256(path), request);
+    // Every member file of a split forecast is part of what the job reads, so each one's checksum keys it.
+    const sums = [];
+    for (const p of [path, ...(request.moreMembers ?? [])]) sums.push(await checksums.sha256(p));
+    const id = jobId(sums.join(','), request);
     const earlier = await queue.getJob(id);
     if (earlier && (await earlier.isFailed())) await earlier.remove(); // a failed read is tried again, not remembered
     const job = await queue.add(

@@ -40,7 +40,7 @@ interface RawTree {
     id: string;
     name: string;
     tier: Tier;
-    'forecast-files': string;
+    'forecast-files': string | string[];
     'hindcast-files'?: string;
     variables: Partial<Record<Quantity, string>>;
     priority: number;
@@ -219,7 +219,7 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
       id: s.id,
       name: s.name,
       tier: s.tier,
-      forecast: path(s['forecast-files']),
+      forecast: (Array.isArray(s['forecast-files']) ? s['forecast-files'] : [s['forecast-files']]).map(path),
       ...(s['hindcast-files'] !== undefined ? { hindcast: path(s['hindcast-files']) } : {}),
       variables: s.variables,
       priority: s.priority,

@@ -2,6 +2,7 @@
  * Loads, validates and resolves the operator configuration. Every problem (YAML syntax, schema, semantics,
  * included files) is collected and reported at once, each as a Diagnostic with file, line and column.
  */
+import { checkPatterns } from './check-patterns.ts';
 import { dirname, resolve } from 'node:path';
 import type { DiagnosticCode } from '../core/diagnostic-codes.ts';
 import { byPlace, diagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
@@ -52,6 +53,7 @@ const SEMANTIC_CHECKS: readonly (readonly [
   ['config-value', checkValues],
   ['config-indicator', checkIndicators],
   ['config-combine', checkCombine],
+  ['config-pattern', checkPatterns],
 ];
 
 const regionEntries = new WeakMap<Config, ReadonlyMap<string, number>>();

@@ -10,9 +10,13 @@ export interface SourceConfig {
   /** Human-readable name, used in bulletins ("Sub-seasonal ensemble"). */
   readonly name: string;
   readonly tier: Tier;
-  /** Path pattern of forecast files; `{date}` = YYYYMMDD of the forecast reference date. */
-  readonly forecast: string;
-  /** Path pattern of hindcast files; `{year}` = hindcast year, `{mmdd}` = start month-day. Optional. */
+  /**
+   * Path patterns of forecast files (YAML `forecast-files`, one or a list whose files together make one forecast):
+   * `{date}` = YYYYMMDD of the forecast reference date, `{var}` and `{member}` for files split by variable and by
+   * member (src/core/path-patterns.ts, src/pipeline/split-files.ts).
+   */
+  readonly forecast: readonly string[];
+  /** Path pattern of hindcast files; `{year}` = hindcast year, `{mmdd}` = start month-day; `{var}`, `{member}` as above. Optional. */
   readonly hindcast?: string;
   /** Canonical quantity → variable name in the file. */
   readonly variables: Readonly<Partial<Record<Quantity, string>>>;

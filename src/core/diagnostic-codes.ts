@@ -99,6 +99,20 @@ export const DIAGNOSTIC_CODES = {
     meaning: "a source's forecast file is missing or unreadable, so `forelight check` could not compare the regions with its grid",
     fix: 'run check again once the files are there',
   },
+  'config-pattern': {
+    stage: 'config',
+    severity: 'error',
+    meaning:
+      "a forecast-files or hindcast-files pattern has an unknown placeholder, or one of a source's patterns matches no file while the others do",
+    fix: 'fix the pattern at the line given (placeholders: {date}, {year}, {mmdd}, {var}, {member})',
+  },
+  'region-between-centres': {
+    stage: 'config',
+    severity: 'warning',
+    meaning:
+      'a box region lies on a source grid but contains no cell centre: with cell-rule centre it gets no cells; with overlap (default) its value is that of the cells around it',
+    fix: 'remove cell-rule: centre, enlarge the box, or use a finer grid',
+  },
   'config-population': {
     stage: 'config',
     severity: 'error',
@@ -547,6 +561,13 @@ export const DIAGNOSTIC_CODES = {
     severity: 'error',
     meaning: 'an archive entry is unreadable',
     fix: 'delete or restore the file named; the archive is rebuilt from the others',
+  },
+  'bulletin-contradiction': {
+    stage: 'render',
+    severity: 'error',
+    meaning:
+      'two statements of a rendered bulletin disagree (stage and the rows that drove it, probability word and number, skill wording and figures, threshold text and value, "no forecast available" and the rows); the bulletin went out as rendered',
+    fix: 'report it with run.json of the run: it is a bug in Forelight, and the message names region, hazard, range and what disagrees',
   },
   'write-failed': {
     stage: 'render',

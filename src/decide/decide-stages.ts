@@ -5,11 +5,12 @@
  * stage is held for `holdMissingRuns` runs in a row (counted in its track, whose persistence counters are kept),
  * then, or without an earlier stage, it is "no forecast available" (NO_FORECAST_ID), which is never a ladder stage.
  */
-import type { LeadProbability, StageDecision, Tier } from '../types.ts';
+import { TIERS, type LeadProbability, type StageDecision, type Tier } from '../types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
+import { leadUses } from './lead-use.ts';
 import { applyPersistence } from './persistence.ts';
 import { trackKey, type TrackKey, type TunedKey } from '../core/keys.ts';
-import { NO_FORECAST_ID, TIER_ORDER, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
+import { NO_FORECAST_ID, stageRank, type DecideConfig, type RegionStage, type StageHistory, type StageTrack } from './types.ts';
 
 export interface DecideInput {
   readonly config: DecideConfig;
@@ -47,7 +48,7 @@ export function decideStages(input: DecideInput): DecideResult {
   const tracks: Record<string, StageTrack> = { ...history.tracks };
   for (const region of config.regions) {
     for (const indicator of config.indicators) {
-      for (const tier of TIER_ORDER) {
+      for (const tier of TIERS) {
         if (!indicator.tiers.includes(tier)) continue;
         const key = trackKey(region.id, indicator.id, tier);
         const probs = byKey.get(key);
@@ -68,6 +69,15 @@ export function decideStages(input: DecideInput): DecideResult {
         });
         const kept = applyPersistence(config.stages, config.decision, history.tracks[key], raw.rawStageId);
         tracks[key] = kept.track;
+        const uses = leadUses(config.stages, {
+          probabilities: probs,
+          leadStages: raw.leadStages,
+          skilfulLeads: raw.skilfulLeads,
+          capId: raw.cap?.stageId ?? null,
+          decidingIndex: raw.lead?.lead.index ?? null,
+          issuedId: kept.stageId,
+          wait: kept.wait,
+        });
         decisions.push({
           region: region.id,
           indicator: indicator.id,
@@ -79,6 +89,9 @@ export function decideStages(input: DecideInput): DecideResult {
           withheldLeads: raw.withheldLeads,
           leadStages: raw.leadStages,
           reasons: [...raw.reasons, ...kept.reasons, `issued: ${kept.stageId}`],
+          ...(raw.cap ? { cap: raw.cap } : {}),
+          ...(kept.wait ? { wait: kept.wait } : {}),
+          leadUses: uses,
         });
       }
     }

@@ -5,7 +5,8 @@
 import type { Config } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
 import { tunedKey, type TunedKey } from '../core/keys.ts';
-import { leadName, stageRank } from './types.ts';
+import { leadName } from '../calibrate/lead-tiers.ts';
+import { stageRank } from './types.ts';
 
 /** Probabilities are counts/members; a tolerance keeps 0.6 from failing "≥ 0.6" through rounding. */
 const P_TOLERANCE = 1e-9;
@@ -17,6 +18,10 @@ export interface RawStage {
   readonly withheldLeads: readonly LeadWindow[];
   /** See StageDecision.leadStages. */
   readonly leadStages: readonly { readonly index: number; readonly stageId: string }[];
+  /** Leads the skill gate let through (all leads with a probability when the gate is ignored). */
+  readonly skilfulLeads: readonly number[];
+  /** Set when the tier cap lowered the rules' stage. */
+  readonly cap: { readonly stageId: string; readonly uncappedId: string } | null;
   readonly reasons: readonly string[];
 }
 
@@ -103,15 +108,16 @@ export function evaluateRules(config: RulesConfig, track: RuleTrack): RawStage {
 
   const lowest = config.stages[0].id;
   const leadStages = [...perLead].sort((a, b) => a[0] - b[0]).map(([index, r]) => ({ index, stageId: config.stages[r].id }));
+  const common = { withheldLeads: withheld, leadStages, skilfulLeads: usable.map((p) => p.lead.index) };
   if (!best) {
     reasons.push(`no rule fired → ${lowest}`);
-    return { rawStageId: lowest, ruleId: null, lead: null, withheldLeads: withheld, leadStages, reasons };
+    return { rawStageId: lowest, ruleId: null, lead: null, ...common, cap: null, reasons };
   }
-  let rawStageId = config.stages[best.rank].id;
+  const uncappedId = config.stages[best.rank].id;
   const cap = config.decision.tierCaps[tier];
   if (cap !== undefined && best.rank > rank(cap)) {
-    reasons.push(`capped at ${cap} for tier ${tier} (rule ${best.ruleId} gives ${rawStageId})`);
-    rawStageId = cap;
+    reasons.push(`capped at ${cap} for tier ${tier} (rule ${best.ruleId} gives ${uncappedId})`);
+    return { rawStageId: cap, ruleId: best.ruleId, lead: best.lead, ...common, cap: { stageId: cap, uncappedId }, reasons };
   }
-  return { rawStageId, ruleId: best.ruleId, lead: best.lead, withheldLeads: withheld, leadStages, reasons };
+  return { rawStageId: uncappedId, ruleId: best.ruleId, lead: best.lead, ...common, cap: null, reasons };
 }

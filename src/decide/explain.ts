@@ -3,7 +3,8 @@
  * persistence → stage, with the numbers. Reads only the decision, the probabilities and the ladder.
  */
 import type { LeadProbability, StageDecision } from '../types.ts';
-import { leadName, type DecideConfig, type StageTrack } from './types.ts';
+import { leadName } from '../calibrate/lead-tiers.ts';
+import { stageTitle, type DecideConfig, type StageTrack } from './types.ts';
 
 /** Summary of the ensemble values at one lead, as computed by the caller. */
 export interface EnsembleSummary {
@@ -36,8 +37,7 @@ function trackText(t: StageTrack | undefined): string {
 
 export function explainDecision(input: ExplainInput): string[] {
   const { config, decision: d } = input;
-  const stage = (id: string) => config.stages.find((s) => s.id === id);
-  const label = (id: string) => `${stage(id)?.glyph ?? ''} ${stage(id)?.label.en ?? id} (${id})`.trim();
+  const label = (id: string) => `${stageTitle(config.stages, id)} (${id})`;
   const region = config.regions.find((r) => r.id === d.region)?.name ?? d.region;
   const indicator = config.indicators.find((i) => i.id === d.indicator)?.name ?? d.indicator;
   const lines = [`${region} · ${indicator} · ${d.tier}`];

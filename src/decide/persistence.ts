@@ -6,12 +6,15 @@
  * `topStageImmediate`, a raw top stage is issued at once. No history = the lowest stage, counters at 0.
  */
 import type { DecisionConfig, StageConfig } from '../config/types.ts';
+import type { PersistenceWait } from '../types.ts';
 import { stageRank, type StageTrack } from './types.ts';
 
 export interface PersistenceResult {
   readonly stageId: string;
   readonly track: StageTrack;
   readonly reasons: readonly string[];
+  /** Set when the issued stage differs from `rawStageId`: which way it waits and how many runs are in. */
+  readonly wait?: PersistenceWait;
 }
 
 const settled = (stageId: string): StageTrack => ({ stageId, runsAbove: 0, lowestAboveId: null, runsBelow: 0, highestBelowId: null });
@@ -44,19 +47,35 @@ export function applyPersistence(
     }
     const runsAbove = prev.runsAbove + 1;
     const lowestAboveId = stages[Math.min(raw, prev.lowestAboveId === null ? raw : rank(prev.lowestAboveId))].id;
-    if (runsAbove >= decision.escalateAfterRuns) {
+    const needed = decision.escalateAfterRuns;
+    if (runsAbove >= needed) {
       reasons.push(`escalated to ${lowestAboveId} after ${runsAbove} run${runsAbove > 1 ? 's' : ''} at or above it`);
-      return { stageId: lowestAboveId, track: settled(lowestAboveId), reasons };
+      // Escalated to the lowest stage every run supported; the rest of the way starts counting again.
+      const wait = lowestAboveId === rawStageId ? undefined : ({ direction: 'raise', towardsId: rawStageId, runs: 0, needed } as const);
+      return { stageId: lowestAboveId, track: settled(lowestAboveId), reasons, wait };
     }
-    reasons.push(`held at ${prev.stageId}: ${runsAbove} of ${decision.escalateAfterRuns} runs needed to escalate`);
-    return { stageId: prev.stageId, track: { ...settled(prev.stageId), runsAbove, lowestAboveId }, reasons };
+    reasons.push(`held at ${prev.stageId}: ${runsAbove} of ${needed} runs needed to escalate`);
+    return {
+      stageId: prev.stageId,
+      track: { ...settled(prev.stageId), runsAbove, lowestAboveId },
+      reasons,
+      wait: { direction: 'raise', towardsId: rawStageId, runs: runsAbove, needed },
+    };
   }
   const runsBelow = prev.runsBelow + 1;
   const highestBelowId = stages[Math.max(raw, prev.highestBelowId === null ? raw : rank(prev.highestBelowId))].id;
-  if (runsBelow >= decision.relaxAfterRuns) {
+  const needed = decision.relaxAfterRuns;
+  if (runsBelow >= needed) {
     reasons.push(`relaxed to ${highestBelowId} after ${runsBelow} run${runsBelow > 1 ? 's' : ''} below ${prev.stageId}`);
-    return { stageId: highestBelowId, track: settled(highestBelowId), reasons };
+    // Relaxed to the highest stage of those runs; lower still waits for its own runs in a row.
+    const wait = highestBelowId === rawStageId ? undefined : ({ direction: 'lower', towardsId: rawStageId, runs: 0, needed } as const);
+    return { stageId: highestBelowId, track: settled(highestBelowId), reasons, wait };
   }
-  reasons.push(`held at ${prev.stageId}: ${runsBelow} of ${decision.relaxAfterRuns} runs below needed to relax`);
-  return { stageId: prev.stageId, track: { ...settled(prev.stageId), runsBelow, highestBelowId }, reasons };
+  reasons.push(`held at ${prev.stageId}: ${runsBelow} of ${needed} runs below needed to relax`);
+  return {
+    stageId: prev.stageId,
+    track: { ...settled(prev.stageId), runsBelow, highestBelowId },
+    reasons,
+    wait: { direction: 'lower', towardsId: rawStageId, runs: runsBelow, needed },
+  };
 }

@@ -2,7 +2,7 @@
  * Types of the decide stage that are not boundary types of src/types.ts: the persistence history (stored
  * by the ledger as JSON), the combined stage per region, and stage changes for dry-run output.
  */
-import type { Config } from '../config/types.ts';
+import type { Config, StageConfig } from '../config/types.ts';
 import type { Tier } from '../types.ts';
 
 /**
@@ -65,12 +65,16 @@ export interface StageChange {
   readonly why: string;
 }
 
-export const TIER_ORDER: readonly Tier[] = ['days', 'weeks', 'months'];
+/** The English label of stage `id` ("Warning"), or the id when the ladder has no such stage or label. */
+export const stageLabel = (stages: readonly Pick<StageConfig, 'id' | 'label'>[], id: string): string =>
+  stages.find((s) => s.id === id)?.label.en ?? id;
 
-/** "day 3", "week 2", "month 1". */
+/** Glyph and English label ("▲ Warning"); "no forecast available" for NO_FORECAST_ID; the id for a stage not on the ladder. */
+export function stageTitle(stages: readonly Pick<StageConfig, 'id' | 'label' | 'glyph'>[], id: string): string {
+  if (id === NO_FORECAST_ID) return 'no forecast available';
+  const s = stages.find((x) => x.id === id);
+  return s ? `${s.glyph} ${stageLabel(stages, id)}` : id;
+}
+
 /** Position of stage `id` on the ladder (0 = lowest), -1 when the ladder has no such stage. */
 export const stageRank = (stages: readonly { readonly id: string }[], id: string): number => stages.findIndex((s) => s.id === id);
-
-export function leadName(tier: Tier, index: number): string {
-  return `${tier.slice(0, -1)} ${index}`;
-}

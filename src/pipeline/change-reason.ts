@@ -4,7 +4,7 @@
  * higher or lower stage is being held back until it shows in consecutive bulletins.
  */
 import type { Config } from '../config/types.ts';
-import { stageRank } from '../decide/types.ts';
+import { stageLabel, stageRank } from '../decide/types.ts';
 import type { StageDecision, Tier } from '../types.ts';
 
 const RANGE: Readonly<Record<Tier, string>> = { days: 'the next days', weeks: 'the coming weeks', months: 'the coming months' };
@@ -24,7 +24,7 @@ export function changeReason(
   decisions: readonly StageDecision[],
 ): string {
   const rank = (id: string) => stageRank(config.stages, id);
-  const label = (id: string) => config.stages.find((s) => s.id === id)?.label.en ?? id;
+  const label = (id: string) => stageLabel(config.stages, id);
   const name = (id: string) => config.indicators.find((i) => i.id === id)?.name ?? id;
   const driver = [...decisions].sort((a, b) => rank(b.rawStageId) - rank(a.rawStageId) || rank(b.stageId) - rank(a.stageId))[0];
   const evidence = driver?.lead

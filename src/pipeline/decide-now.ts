@@ -24,15 +24,18 @@ export interface DecidedNow {
 }
 
 /**
- * Tuned cost/loss thresholds of every region × rule (`tunedKey`), from the analysis' climates. When two sources of
- * one tier both tune a rule for a region, the first source in the configuration's order gives it.
+ * Tuned cost/loss thresholds of every region × rule (`tunedKey`), from the analysis' climates: the member-count-free
+ * probability of each trigger (calibrate/trigger-tuning.ts), so a forecast with more members than the hindcasts is
+ * held to the same trigger. When two sources of one tier both tune a rule for a region, the first source in the
+ * configuration's order gives it.
  */
 export function tunedThresholds(analysis: Analysis): Map<TunedKey, number> {
   const out = new Map<TunedKey, number>();
   for (const s of analysis.sources) {
     for (const [key, c] of s.climates) {
       const { region } = pairOf(key);
-      for (const [rule, p] of Object.entries(c.tuned)) if (!out.has(tunedKey(region, rule))) out.set(tunedKey(region, rule), p);
+      for (const [rule, t] of Object.entries(c.tuned))
+        if (!out.has(tunedKey(region, rule))) out.set(tunedKey(region, rule), t.forecastThreshold);
     }
   }
   return out;

@@ -2,30 +2,27 @@
  * Grid extents of each source's newest forecast file, for the "region outside every source grid" check of
  * `forelight check` (src/config/check-grids.ts). Only headers and coordinate variables are read.
  */
-import { readdirSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
 import type { GridExtent } from '../config/check-grids.ts';
-import type { Config } from '../config/types.ts';
+import type { Config, SourceConfig } from '../config/types.ts';
+import { fillPattern, matchPattern, type PatternMatch } from '../core/path-patterns.ts';
+import { fileVariables } from './split-files.ts';
 import { diagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
 import { diagnosticOf } from '../core/errors.ts';
 import { findCoordinates } from '../read/coordinates.ts';
 import { withDataset } from '../read/open-dataset.ts';
 
-/** The newest file matching a `{date}` pattern (YYYYMMDD in the file name), or null when none exists. */
-export function newestForecastFile(pattern: string): string | null {
-  const name = basename(pattern);
-  const [before, after] = name.split('{date}');
-  if (after === undefined) return pattern;
-  let entries: string[];
-  try {
-    entries = readdirSync(dirname(pattern));
-  } catch {
-    return null;
-  }
-  const dated = entries.filter(
-    (e) => e.startsWith(before) && e.endsWith(after) && /^\d{8}$/.test(e.slice(before.length, e.length - after.length)),
+/**
+ * The first file of a source's newest forecast on disk (the greatest `{date}` any pattern matches, `{var}` the
+ * first variable, `{member}` the first member), or null when no file matches yet.
+ */
+export function newestForecastFile(source: SourceConfig): string | null {
+  const [variable] = fileVariables(source);
+  const found = source.forecast.flatMap((p) => matchPattern(fillPattern(p, { var: variable })));
+  const newest = found.reduce<PatternMatch | null>(
+    (best, m) => (best === null || (m.values.date ?? '') > (best.values.date ?? '') ? m : best),
+    null,
   );
-  return dated.length === 0 ? null : join(dirname(pattern), dated.sort().at(-1) as string);
+  return newest?.path ?? null;
 }
 
 /** Extents of the sources whose files can be found and read; the others are listed as notes. */
@@ -33,12 +30,12 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
   const grids: GridExtent[] = [];
   const notes: Diagnostic[] = [];
   for (const source of config.sources) {
-    const file = newestForecastFile(source.forecast);
+    const file = newestForecastFile(source);
     if (!file) {
       notes.push(
         diagnostic(
           'grid-not-checked',
-          `source '${source.id}': no forecast file yet matches ${source.forecast}; its grid was not checked`,
+          `source '${source.id}': no forecast file yet matches ${source.forecast.join(' + ')}; its grid was not checked`,
           '',
           { source: source.id },
         ),
@@ -56,6 +53,7 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
         lonMin: Math.min(...lons),
         lonMax: Math.max(...lons),
         lon360: Math.max(...lons) > 180,
+        centres: { lats, lons },
       });
     } catch (err) {
       notes.push({

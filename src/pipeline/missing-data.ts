@@ -36,7 +36,11 @@ export function unavailableReasons(config: MissingDataConfig, analysis: Analysis
   for (const input of analysis.inputs) {
     const read = analysis.read.sources.find((r) => r.source.id === input.source.id);
     if (!read) {
-      const own = problems.filter((d) => d.code !== 'forecast-missing' && input.candidates.some((c) => c.path === d.place.file));
+      const own = problems.filter(
+        (d) =>
+          d.code !== 'forecast-missing' &&
+          input.candidates.some((c) => [...c.files.existing, ...c.files.missing.map((m) => m.file)].includes(d.place.file ?? '')),
+      );
       const reason =
         own.length > 0
           ? own.map(problemClause).join('; ')
@@ -47,7 +51,7 @@ export function unavailableReasons(config: MissingDataConfig, analysis: Analysis
     for (const region of config.regions) {
       if (read.series.has(region.id)) continue;
       const own = problems.find(
-        (d) => d.place.file === read.path && (d.place.region === region.id || d.message.includes(`'${region.id}'`)),
+        (d) => read.files.includes(d.place.file ?? '') && (d.place.region === region.id || d.message.includes(`'${region.id}'`)),
       );
       put(input.source.tier, region.id, own ? problemClause(own) : `${basename(read.path)} has no grid cell or no value in this region`);
     }

@@ -6,11 +6,14 @@ import type { RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import type { Extractor } from '../read/extract.ts';
 import type { RegionQuantities, RegionSeries } from '../types.ts';
+import { groupInputFiles, type InputFiles } from './split-files.ts';
 
 export interface SourceRead {
   readonly source: SourceConfig;
   readonly date: string;
   readonly path: string;
+  /** Every file of the forecast used (one unless it is split by variable or member). */
+  readonly files: readonly string[];
   readonly stale: boolean;
   readonly referenceTime: string;
   readonly series: RegionQuantities;
@@ -36,6 +39,8 @@ export interface FileRequest {
   readonly notes?: string[];
   /** Folder of the region-weights cache (calibration.cache-dir), computed once per grid and region set. */
   readonly weightsCacheDir?: string;
+  /** Files holding the next members of the same forecast, in member order (split-files.ts). */
+  readonly moreMembers?: readonly string[];
 }
 
 export async function readFile(
@@ -53,6 +58,7 @@ export async function readFile(
       referenceTime: request.referenceTime,
       tier: request.tier,
       weightsCacheDir: request.weightsCacheDir,
+      ...(request.moreMembers && request.moreMembers.length > 0 ? { moreMembers: request.moreMembers } : {}),
     });
     problems.push(...r.problems);
     request.notes?.push(...r.notes);
@@ -72,6 +78,38 @@ export async function readFile(
     );
     return null;
   }
+}
+
+/**
+ * One forecast or hindcast start whose files may be split by variable or member (split-files.ts): each group of
+ * files read once, the series merged. A file the patterns ask for that is missing makes the whole forecast
+ * unreadable (null, each missing file a problem), as a damaged file does: never a forecast with fewer members.
+ */
+export async function readInputFiles(
+  extract: Extractor,
+  files: InputFiles,
+  quantities: SourceConfig['variables'],
+  regions: readonly RegionConfig[],
+  request: FileRequest,
+  problems: ForelightError[],
+): Promise<RegionQuantities | null> {
+  if (files.missing.length > 0) {
+    problems.push(...files.missing);
+    return null;
+  }
+  let merged: RegionQuantities | null = null;
+  for (const group of await groupInputFiles(files, quantities)) {
+    const [first, ...more] = group.files;
+    const read = await readFile(extract, first, group.quantities, regions, { ...request, moreMembers: more }, problems);
+    if (!read) continue;
+    merged ??= new Map();
+    for (const [region, byQ] of read) {
+      const into = merged.get(region) ?? new Map();
+      for (const [q, series] of byQ) into.set(q, series);
+      merged.set(region, into);
+    }
+  }
+  return merged;
 }
 
 /** Grid cells each region covers in a file (the same for every quantity of one file). */

@@ -6,7 +6,7 @@ import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import type { HindcastRead, RegionQuantities } from '../types.ts';
-import { readFile, regionCells, type SourceRead } from './read-file.ts';
+import { readFile, readInputFiles, regionCells, type SourceRead } from './read-file.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
@@ -51,9 +51,9 @@ export async function readHindcasts(
   const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
     const own: ForelightError[] = [];
     return {
-      series: await readFile(
+      series: await readInputFiles(
         extract,
-        h.path,
+        h.files,
         source.variables,
         regions,
         { referenceTime: h.start, tier: source.tier, weightsCacheDir },
@@ -88,10 +88,11 @@ export async function readHindcasts(
 function forecastMissing(input: SourceInputs): InputError {
   const { source, issueDate } = input;
   const oldest = addDays(issueDate, -source.lookbackDays);
+  const on = (date: string) => source.forecast.map((p) => forecastPath(p, date)).join(' + ');
   return new InputError(
     'forecast-missing',
-    source.forecast,
-    `no forecast of source '${source.id}': tried ${forecastPath(source.forecast, issueDate)} and every date back to ${forecastPath(source.forecast, oldest)} (${issueDate} to ${oldest}, look-back-days ${source.lookbackDays})`,
+    source.forecast[0],
+    `no forecast of source '${source.id}': tried ${on(issueDate)} and every date back to ${on(oldest)} (${issueDate} to ${oldest}, look-back-days ${source.lookbackDays})`,
     'check that the files arrived and the forecast-files pattern of this source; a source issued less often needs a larger look-back-days',
   );
 }

@@ -25,9 +25,9 @@ export async function regionReport(config: Config): Promise<{ sources: SourceReg
   const sources: SourceRegions[] = [];
   const notes: string[] = [];
   for (const source of config.sources) {
-    const file = newestForecastFile(source.forecast);
+    const file = newestForecastFile(source);
     if (!file) {
-      notes.push(`source '${source.id}': no forecast file yet matches ${source.forecast}`);
+      notes.push(`source '${source.id}': no forecast file yet matches ${source.forecast.join(' + ')}`);
       continue;
     }
     try {

@@ -74,9 +74,11 @@ async function recordInputFiles(
   log: Logger,
 ): Promise<void> {
   const wanted: [path: string, source: string, referenceTime: string][] = [
-    ...analysis.read.sources.map((s): [string, string, string] => [s.path, s.source.id, s.referenceTime]),
+    ...analysis.read.sources.flatMap((s) => s.files.map((f): [string, string, string] => [f, s.source.id, s.referenceTime])),
     ...analysis.inputs.flatMap((i) =>
-      i.hindcasts.map((h): [string, string, string] => [h.path, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`]),
+      i.hindcasts.flatMap((h) =>
+        h.files.existing.map((f): [string, string, string] => [f, `${i.source.id} hindcast`, `${h.start}T00:00:00Z`]),
+      ),
     ),
     ...(config.observations ? [[config.observations.path, 'observations', ''] as [string, string, string]] : []),
   ];
@@ -165,6 +167,9 @@ async function prepare(
       recordCapAlert(ledger, runId, a.region, a.indicator, { identifier: a.id, sender: a.sender, sent: a.sent, msgType: a.msgType });
     recordBulletins(ledger, runId, rendered.bulletins);
   })();
+  // A bulletin that contradicts itself is a bug: each finding is an error in the log, the ledger and run.json.
+  if (rendered.contradictions.length > 0) recordDiagnostics(ledger, runId, [...analysis.problems, ...rendered.contradictions]);
+  for (const d of rendered.contradictions) log.error(formatDiagnostic(d), { stage: 'render', code: d.code });
   for (const note of rendered.notes) log.warn(note, { stage: 'render' });
   log.info('bulletins rendered and stored', {
     stage: 'render',

@@ -46,7 +46,7 @@ const mapsAll = (wanted: ExtractRequest['quantities'], mapping: ExtractRequest['
 function readsFile(config: Config, path: string, wanted: ExtractRequest['quantities']): boolean {
   if (config.observations?.path === path && mapsAll(wanted, config.observations.variables)) return true;
   return config.sources.some(
-    (s) => mapsAll(wanted, s.variables) && [s.forecast, s.hindcast].some((p) => p !== undefined && patternRegex(p).test(path)),
+    (s) => mapsAll(wanted, s.variables) && [...s.forecast, s.hindcast].some((p) => p !== undefined && patternRegex(p).test(path)),
   );
 }
 

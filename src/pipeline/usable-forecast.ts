@@ -12,7 +12,7 @@ import { ForelightError, InputError } from '../core/errors.ts';
 import type { Quantity, RegionQuantities } from '../types.ts';
 import { hindcastsFor, type ForecastCandidate, type SourceInputs } from './inputs.ts';
 import type { Extractor } from '../read/extract.ts';
-import { readFile, regionCells, type SourceRead } from './read-file.ts';
+import { readInputFiles, regionCells, type SourceRead } from './read-file.ts';
 
 export interface UsableForecast {
   readonly read: SourceRead;
@@ -40,9 +40,9 @@ async function gridMismatch(
   const first = input.hindcasts[0];
   if (!first) return null;
   const [quantity, variable] = Object.entries(input.source.variables)[0] as [Quantity, string];
-  const hindcast = await readFile(
+  const hindcast = await readInputFiles(
     extract,
-    first.path,
+    first.files,
     { [quantity]: variable },
     config.regions,
     { referenceTime: first.start, tier: input.source.tier },
@@ -64,9 +64,9 @@ export async function readUsableForecast(
   const tried: string[] = [];
   for (const candidate of input.candidates) {
     const notes: string[] = [];
-    const series = await readFile(
+    const series = await readInputFiles(
       extract,
-      candidate.path,
+      candidate.files,
       input.source.variables,
       config.regions,
       { referenceTime: candidate.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir },
@@ -107,6 +107,7 @@ export async function readUsableForecast(
           source: input.source,
           date: candidate.date,
           path: candidate.path,
+          files: candidate.files.existing,
           stale: at.stale,
           referenceTime: `${candidate.date}T00:00:00Z`,
           series,

@@ -12,10 +12,9 @@ import type { Dataset, VariableInfo } from './dataset.ts';
 import { planTime } from './extract-plan.ts';
 import { reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
-import { regionSetCells } from './region-weights.ts';
 import { planBand } from './regions-band.ts';
 import { missingUnitsError, planUnits, type UnitPlan } from './units.ts';
-import { weightedSelection } from './weighted-selection.ts';
+import { regionSelection } from './weighted-selection.ts';
 
 export interface RawRegionMeans {
   readonly units: string;
@@ -37,10 +36,7 @@ export async function rawRegionMeans(
   population: PopulationConfig | null = null,
 ): Promise<RawRegionMeans> {
   const coords = await findCoordinates(ds);
-  const area = regionSetCells(coords.grid, regionList, ds.path, cacheDir);
-  const weighted = await weightedSelection(coords.grid, area.selected, { population, cacheDir, file: ds.path });
-  const selected = weighted.selected;
-  const problems = [...area.problems, ...weighted.problems];
+  const { selected, problems } = await regionSelection(coords.grid, regionList, { population, cacheDir, file: ds.path });
   const layout = layoutVariable(ds, coords, variable);
   const unitPlan = canonicalUnitPlan(layout.info, ds.path);
   const timePlan = planTime(coords, layout, unitPlan);

@@ -17,8 +17,7 @@ import { monthlyNote, requireMonthTier, spreadMeansToDays } from './monthly.ts';
 import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
 import { rawRegionMeans } from './extract-raw.ts';
-import { regionSetCells } from './region-weights.ts';
-import { cellSeriesOf, weightedSelection } from './weighted-selection.ts';
+import { cellSeriesOf, regionSelection } from './weighted-selection.ts';
 import { describeShape } from './regions.ts';
 import { planUnits } from './units.ts';
 
@@ -32,6 +31,8 @@ export interface ExtractRequest {
   readonly weightsCacheDir?: string;
   /** The source's tier: a file of monthly values feeds only `months`. */
   readonly tier?: Tier;
+  /** Files holding the next members of the same forecast, in member order (one file per member or member group). */
+  readonly moreMembers?: readonly string[];
   /** The population raster, for regions whose `weighting` is `population`. */
   readonly population?: PopulationConfig | null;
 }
@@ -82,13 +83,11 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const coords = await findCoordinates(ds);
   const wanted = requestedMs(ds.path, request.referenceTime);
   const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
-  const areaCells = regionSetCells(coords.grid, request.regions, coords.file, request.weightsCacheDir ?? null);
-  problems.push(...areaCells.problems);
   const {
     selected,
     cellRegions,
     problems: weightProblems,
-  } = await weightedSelection(coords.grid, areaCells.selected, {
+  } = await regionSelection(coords.grid, request.regions, {
     population: request.population ?? null,
     cacheDir: request.weightsCacheDir ?? null,
     file: ds.path,
@@ -167,11 +166,6 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
 }
 
 /**
- * Opens `path` and extracts per-region daily ensemble series for `request.quantities` (canonical units,
- * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
- * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
- */
-/**
  * Reads one file for a set of regions: `extractRegionSeries` in this process, or a cluster's workers
  * (src/cluster/). `parallel`: how many calls the read stage may keep in flight (1 when absent).
  */
@@ -180,8 +174,13 @@ export interface Extractor {
   readonly parallel?: number;
 }
 
+/**
+ * Opens `path` and extracts per-region daily ensemble series for `request.quantities` (canonical units,
+ * local days of each region). Bad regions/variables are returned in `problems`, the rest still computed.
+ * @throws InputError when the file cannot be read, has no grid, or its reference time differs from `referenceTime`.
+ */
 export function extractRegionSeries(path: string, request: ExtractRequest): Promise<ExtractResult> {
-  return withDataset(path, (ds) => extractFromDataset(ds, request));
+  return withDataset(path, (ds) => extractFromDataset(ds, request), request.moreMembers);
 }
 
 export interface BoxExtractOptions {

@@ -20,6 +20,8 @@ interface Part {
   readonly members: number;
   /** Index of the first member of this part in the stacked dataset. */
   readonly first: number;
+  /** False when this part has no ensemble dimension (one member): the member axis is left out of its reads. */
+  readonly ownAxis: boolean;
 }
 
 function sameValues(a: Float64Array, b: Float64Array): boolean {
@@ -36,9 +38,18 @@ async function readWholeRaw(ds: Dataset, info: VariableInfo): Promise<Float64Arr
   );
 }
 
-/** Throws when `part` differs from `first` in a non-stacked variable's values or a stacked variable's shape. */
-async function checkPart(first: Dataset, part: Dataset, stacked: ReadonlySet<string>, memberDim: string | null): Promise<void> {
+/** The member's own label (the ensemble coordinate, scalar or not), which differs from part to part by design. */
+function labelsMember(v: VariableInfo, memberDim: string): boolean {
+  return v.name === memberDim || v.attributes.standard_name === 'realization';
+}
+
+/**
+ * Throws when `part` differs from `first` in a non-stacked variable's values or a stacked variable's shape (the
+ * ensemble dimension left out: a part may hold one member without it).
+ */
+async function checkPart(first: Dataset, part: Dataset, stacked: ReadonlySet<string>, memberDim: string): Promise<void> {
   for (const v of first.variables) {
+    if (labelsMember(v, memberDim)) continue;
     const other = part.variable(v.name);
     const differs = (what: string) =>
       new InputError(
@@ -54,9 +65,13 @@ async function checkPart(first: Dataset, part: Dataset, stacked: ReadonlySet<str
         `has no variable '${v.name}', which ${first.path} has`,
         'give every member file the same variables',
       );
-    const dims = (x: VariableInfo) => x.dimensions.map((d, k) => (d === memberDim ? 'member' : `${d}=${x.shape[k]}`)).join(',');
+    const dims = (x: VariableInfo) =>
+      x.dimensions
+        .map((d, k) => `${d}=${x.shape[k]}`)
+        .filter((_, k) => x.dimensions[k] !== memberDim)
+        .join(',');
     if (dims(v) !== dims(other)) throw differs(`the shape (${other.dimensions.join(', ')})`);
-    if (stacked.has(v.name) || (memberDim !== null && v.dimensions.includes(memberDim))) continue;
+    if (stacked.has(v.name)) continue;
     if (!sameValues(await readWholeRaw(first, v), await readWholeRaw(part, other))) throw differs('the values');
   }
 }
@@ -94,28 +109,27 @@ async function readAcross(
 export async function stackMembers(path: string, parts: readonly Dataset[]): Promise<Dataset> {
   const first = parts[0];
   const coords = await findCoordinates(first);
-  const memberDim = coords.member?.dimension ?? null;
+  let memberDim = coords.member?.dimension ?? null;
+  for (const p of parts.slice(1)) memberDim ??= (await findCoordinates(p)).member?.dimension ?? null;
+  const dimName = memberDim ?? ADDED_MEMBER_DIMENSION;
+  const firstOwns = first.dimensions.some((d) => d.name === dimName);
   const gridded = (v: VariableInfo) => v.dimensions.includes(coords.grid.latName) && v.dimensions.includes(coords.grid.lonName);
-  const stacked = new Set(
-    first.variables.filter((v) => (memberDim !== null ? v.dimensions.includes(memberDim) : gridded(v))).map((v) => v.name),
-  );
-  for (const part of parts.slice(1)) await checkPart(first, part, stacked, memberDim);
+  const stacked = new Set(first.variables.filter((v) => (firstOwns ? v.dimensions.includes(dimName) : gridded(v))).map((v) => v.name));
+  for (const part of parts.slice(1)) await checkPart(first, part, stacked, dimName);
   let next = 0;
   const laid: Part[] = parts.map((ds) => {
-    const members = memberDim === null ? 1 : (ds.dimensions.find((d) => d.name === memberDim)?.size ?? 1);
-    const p = { ds, members, first: next };
-    next += members;
+    const own = ds.dimensions.find((d) => d.name === dimName);
+    const p = { ds, members: own?.size ?? 1, first: next, ownAxis: own !== undefined };
+    next += p.members;
     return p;
   });
   const total = next;
-  const dimName = memberDim ?? ADDED_MEMBER_DIMENSION;
-  const dimensions: DimensionInfo[] =
-    memberDim !== null
-      ? first.dimensions.map((d) => (d.name === memberDim ? { ...d, size: total } : d))
-      : [{ name: dimName, size: total, unlimited: false }, ...first.dimensions];
+  const dimensions: DimensionInfo[] = firstOwns
+    ? first.dimensions.map((d) => (d.name === dimName ? { ...d, size: total } : d))
+    : [{ name: dimName, size: total, unlimited: false }, ...first.dimensions];
   const variables: VariableInfo[] = first.variables.map((v) => {
     if (!stacked.has(v.name)) return v;
-    if (memberDim !== null) return { ...v, shape: v.shape.map((n, k) => (v.dimensions[k] === memberDim ? total : n)) };
+    if (v.dimensions.includes(dimName)) return { ...v, shape: v.shape.map((n, k) => (v.dimensions[k] === dimName ? total : n)) };
     return { ...v, dimensions: [dimName, ...v.dimensions], shape: [total, ...v.shape] };
   });
   const byName = new Map(variables.map((v) => [v.name, v]));
@@ -124,13 +138,25 @@ export async function stackMembers(path: string, parts: readonly Dataset[]): Pro
     if (!v) throw variableNotFound(path, name, variables);
     return v;
   };
-  /** Member axis of a stacked variable as the stacked dataset shows it; the part's own axis (or none) differs when added. */
+  /** Member axis of a stacked variable as the stacked dataset shows it. */
   const memberAxisOf = (v: VariableInfo) => v.dimensions.indexOf(dimName);
-  const strip = (a: readonly number[]) => (memberDim === null ? a.slice(1) : [...a]);
+  /** A part's own start/count: without the member axis when the part has none, else at the same place (refused otherwise). */
+  const own = (p: Part, name: string, a: readonly number[], axis: number): number[] => {
+    if (!p.ownAxis) return a.filter((_, k) => k !== axis);
+    if (p.ds.variable(name)?.dimensions[axis] !== dimName)
+      throw new InputError(
+        'members-differ',
+        p.ds.path,
+        `'${name}' has its ensemble dimension '${dimName}' elsewhere than in ${first.path}`,
+        'give every member file the same dimension order (ncpdq -a reorders)',
+      );
+    return [...a];
+  };
   const readRaw = async (name: string, start: readonly number[], count: readonly number[]): Promise<Float64Array> => {
     const v = infoOf(name);
     if (!stacked.has(name)) return first.readRaw(name, start, count);
-    return readAcross(laid, memberAxisOf(v), start, count, (p, s, c) => p.ds.readRaw(name, strip(s), strip(c)));
+    const axis = memberAxisOf(v);
+    return readAcross(laid, axis, start, count, (p, s, c) => p.ds.readRaw(name, own(p, name, s, axis), own(p, name, c, axis)));
   };
   return {
     path,
@@ -155,7 +181,7 @@ export async function stackMembers(path: string, parts: readonly Dataset[]): Pro
             const p = laid.find((q) => start[axis] >= q.first && start[axis] < q.first + q.members) as Part;
             const s = [...start];
             s[axis] -= p.first;
-            return p.ds.readRawAt!(name, strip(s), strip(count), positions);
+            return p.ds.readRawAt!(name, own(p, name, s, axis), own(p, name, count, axis), positions);
           },
         }
       : {}),

@@ -102,9 +102,25 @@ async function openNetcdf(path: string): Promise<Dataset> {
   }
 }
 
-/** Opens `path`, runs `use` on it and closes it again, also when `use` throws. */
-export async function withDataset<T>(path: string, use: (ds: Dataset) => Promise<T>): Promise<T> {
-  const ds = await openDataset(path);
+/**
+ * The member files of one forecast (one file per member or member group, `{member}` in `forecast-files`) as one
+ * dataset named after the first, members in the order given (member-stack.ts checks grids and times).
+ */
+export async function openMemberFiles(paths: readonly string[]): Promise<Dataset> {
+  if (paths.length === 1) return openDataset(paths[0]);
+  const parts: Dataset[] = [];
+  try {
+    for (const p of paths) parts.push(await openDataset(p));
+    return await stackMembers(paths[0], parts);
+  } catch (err) {
+    for (const p of parts) await p.close().catch(() => undefined);
+    throw err;
+  }
+}
+
+/** Opens `path` (with `moreMembers`: the member files after it), runs `use` on it and closes it again, also when `use` throws. */
+export async function withDataset<T>(path: string, use: (ds: Dataset) => Promise<T>, moreMembers: readonly string[] = []): Promise<T> {
+  const ds = await openMemberFiles([path, ...moreMembers]);
   try {
     return await use(ds);
   } finally {

@@ -1,5 +1,6 @@
 /**
- * From a region set's area cells to what the read stage reduces: population-weighted regions get their people
+ * From a region set to what the read stage reduces: each region's area cells (region-weights.ts, cached per grid
+ * and region set), then population-weighted regions get their people
  * weights (population-set.ts); regions that keep their cells get one single-cell band region per cell, read in the
  * same pass as the means, whose series become the region's `perCell` values.
  */
@@ -9,6 +10,7 @@ import type { CellSeries } from '../types.ts';
 import type { LatLonGrid } from './coordinates.ts';
 import type { RegionMeans } from './extract-reduce.ts';
 import { populationSetCells } from './population-set.ts';
+import { regionSetCells } from './region-weights.ts';
 import type { RegionCells } from './regions.ts';
 
 type Selected = { readonly region: RegionConfig; readonly cells: RegionCells };
@@ -20,12 +22,15 @@ export interface CellRegion {
   readonly cells: RegionCells;
 }
 
-export async function weightedSelection(
+/** The regions of `regions` with cells on `grid`, their weights and kept cells; regions left out are `problems`. */
+export async function regionSelection(
   grid: LatLonGrid,
-  areaSelected: readonly Selected[],
+  regions: readonly RegionConfig[],
   opts: { readonly population: PopulationConfig | null; readonly cacheDir: string | null; readonly file: string },
 ): Promise<{ selected: Selected[]; cellRegions: CellRegion[]; problems: ForelightError[] }> {
-  const problems: ForelightError[] = [];
+  const area = regionSetCells(grid, regions, opts.file, opts.cacheDir);
+  const areaSelected = area.selected;
+  const problems: ForelightError[] = [...area.problems];
   let people = new Map<string, RegionCells>();
   const needsPeople = areaSelected.some((s) => s.region.weighting === 'population');
   if (needsPeople && !opts.population) {

@@ -159,7 +159,7 @@ function infoXml(
         ? t('cap.description', {
             meaning: stageView.meaning,
             hazard,
-            threshold: tierView.threshold,
+            threshold: leadView.threshold,
             dates: leadView.dates,
             chance: leadView.chance,
             word: leadView.word,

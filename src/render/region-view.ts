@@ -4,12 +4,13 @@
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
 import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
-import type { Tier } from '../types.ts';
+import type { LeadProbability, Tier } from '../types.ts';
 import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
-import { formatDayRange, formatNumber } from './locale-format.ts';
-import { pastYearsShare, thresholdNumber, thresholdWords } from './threshold-words.ts';
+import { formatNumber } from './locale-format.ts';
+import { USABLE, headlineOf, type Headline } from './headline.ts';
+import { pastYearsShare, rangeWords, thresholdNumber, thresholdRangeWords, thresholdWords } from './threshold-words.ts';
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
   TIERS,
@@ -17,7 +18,7 @@ import {
   leadView,
   noForecastView,
   stageIndex,
-  sureSentence,
+  tierLeadUses,
   toStageView,
   type LeadGroup,
   type LeadView,
@@ -33,8 +34,12 @@ export interface TierView {
   readonly deciding: LeadView | null;
   readonly leads: readonly LeadView[];
   readonly groups: readonly LeadGroup[];
-  /** Threshold in plain words for the e-mail body ("34.2 °C", "any heatwave"). */
+  /** Threshold in plain words ("34.2 °C", "heatwave conditions"), as a range when the leads shown differ. */
   readonly threshold: string;
+  /** Lowest and highest threshold value over the leads (NaN without leads). */
+  readonly thresholdRange: { readonly low: number; readonly high: number };
+  /** Why the stage of this range is not the one its rows point to ('' when it is): kept higher, or data missing. */
+  readonly note: string;
   /** Technical note: how the threshold was set and the skill figures of this tier. */
   readonly method: readonly string[];
 }
@@ -52,24 +57,14 @@ export interface OutlookCell {
   readonly chance: string;
   readonly dates: string;
   readonly noSkill: boolean;
+  /** The lead whose chance the cell shows (null: none usable). */
+  readonly lead: LeadView | null;
+  /** Printed after the chance: "*" no proven skill, "+" it points above the cell's stage (waiting or capped), else "". */
+  readonly mark: string;
 }
 export interface OutlookRow {
   readonly hazard: string;
   readonly cells: readonly (OutlookCell | null)[];
-}
-
-export interface Headline {
-  readonly hazard: string;
-  readonly tierName: string;
-  readonly threshold: string;
-  readonly dates: string;
-  readonly peakDates: string;
-  readonly chance: string;
-  readonly normal: string;
-  readonly word: string;
-  readonly sure: string;
-  /** True when some hazard set the stage; false when nothing passed a trigger level (the headline is then the nearest). */
-  readonly triggered: boolean;
 }
 
 export interface RegionView {
@@ -97,6 +92,21 @@ function isBeyondTable(lead: LeadView): boolean {
   return lead.flags.some((f) => f.startsWith('beyond-table:'));
 }
 
+/** Lowest and highest threshold over a tier's leads. */
+function thresholdRangeOf(probabilities: readonly LeadProbability[]): { low: number; high: number } {
+  const values = probabilities.map((p) => p.threshold.value).filter(Number.isFinite);
+  return values.length === 0 ? { low: NaN, high: NaN } : { low: Math.min(...values), high: Math.max(...values) };
+}
+
+/** Why a range's stage is not what its rows point to: kept higher by persistence, or no usable data. */
+function tierNote(t: Translate, tier: TierOutcome, stage: StageView): string {
+  const { missing, wait } = tier.decision;
+  if (missing) return t('tier.missing', { reason: missing.reason, held: missing.held ? 'yes' : 'no' });
+  if (wait?.direction === 'lower')
+    return t('tier.heldHigher', { glyph: stage.glyph, label: stage.label, runs: wait.runs, needed: wait.needed });
+  return '';
+}
+
 function methodLines(
   t: Translate,
   locale: string,
@@ -105,13 +115,13 @@ function methodLines(
   outcome: TierOutcome,
   leads: readonly LeadView[],
 ): string[] {
-  const p = outcome.probabilities[0];
   const lines: string[] = [];
-  const value = p ? thresholdNumber(locale, p.threshold.value, p.threshold.units) : '–';
+  const range = thresholdRangeOf(outcome.probabilities);
+  const value = rangeWords(t, outcome.probabilities, (p) => thresholdNumber(locale, p.threshold.value, p.threshold.units)) || '–';
   if (spec?.kind === 'percentile')
     lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value, ...pastYearsShare(spec.percentile) }));
   else if (spec?.kind === 'absolute') {
-    const mapped = p !== undefined && Math.abs(p.threshold.value - spec.value) > 1e-9;
+    const mapped = Number.isFinite(range.low) && (Math.abs(range.low - spec.value) > 1e-9 || Math.abs(range.high - spec.value) > 1e-9);
     lines.push(
       t('method.thresholdAbsolute', { fixed: thresholdNumber(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }),
     );
@@ -212,12 +222,12 @@ function evidenceText(
   return `${evidence} ${held}`;
 }
 
-/** The lead an outlook cell shows: the deciding one, else the likeliest one not withheld. */
+/** The lead an outlook cell shows: the deciding one, else the likeliest one the rules use. */
 function cellLead(tv: TierView): LeadView | null {
   return (
     tv.deciding ??
     tv.leads
-      .filter((l) => !l.withheld && Number.isFinite(l.probability))
+      .filter((l) => USABLE.has(l.use) && Number.isFinite(l.probability))
       .reduce<LeadView | null>((a, l) => (a === null || l.probability > a.probability ? l : a), null)
   );
 }
@@ -234,18 +244,26 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
   const indicatorOf = (id: string) => config.indicators.find((i) => i.id === id);
   const tiers = outcome.perTier.map((tier): TierView => {
     const ind = indicatorOf(tier.indicator.id);
-    const leads = tier.probabilities.map((p) => leadView(config, p, tier, locale, (r) => byRank[r]));
     const spec = ind ? (ind.regionThresholds[outcome.region.id] ?? ind.threshold) : undefined;
+    const words = { t, threshold: (p: LeadProbability) => thresholdWords(t, locale, ind, spec, p) };
+    const uses = tierLeadUses(config, tier);
+    const lowest = config.stages[0].id;
+    const useOf = (index: number) =>
+      uses.find((u) => u.index === index) ?? { index, kind: 'no-value' as const, reachedId: lowest, supportsId: lowest };
+    const leads = tier.probabilities.map((p) => leadView(config, p, tier, locale, (r) => byRank[r], useOf(p.lead.index), words));
+    const stageView = view(tier.decision.stageId);
     return {
       tier: tier.tier,
       tierName: t(`tier.${tier.tier}`),
       indicatorId: tier.indicator.id,
       hazard: hazardName(t, ind, tier.indicator.name),
-      stage: view(tier.decision.stageId),
+      stage: stageView,
       deciding: leads.find((l) => l.deciding) ?? null,
       leads,
       groups: groupLeads(locale, leads, tier.probabilities),
-      threshold: thresholdWords(t, locale, ind, spec, tier.probabilities[0]),
+      threshold: thresholdRangeWords(t, locale, ind, spec, tier.probabilities),
+      thresholdRange: thresholdRangeOf(tier.probabilities),
+      note: tierNote(t, tier, stageView),
       method: methodLines(t, locale, config, spec, tier, leads),
     };
   });
@@ -267,11 +285,15 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
       const tv = ind.tiers.find((x) => x.tier === tierName);
       if (!tv) return null;
       const pick = cellLead(tv);
+      const noSkill = tv.leads.length > 0 && tv.leads.every((l) => l.withheld);
+      const above = pick !== null && pick.reached.rank > tv.stage.rank;
       return {
         stage: tv.stage,
         chance: pick?.chance ?? '–',
         dates: pick?.dates ?? '',
-        noSkill: tv.leads.length > 0 && tv.leads.every((l) => l.withheld),
+        noSkill,
+        lead: pick,
+        mark: above ? '+' : noSkill ? '*' : '',
       };
     }),
   }));
@@ -287,47 +309,9 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
     change,
     changeText,
     why: whyText(t, config, outcome, tiers, stage, byRank),
-    headline: headlineOf(t, locale, tiers),
+    headline: headlineOf(t, locale, tiers, stage),
     outlook,
     tiers,
     indicators,
-  };
-}
-
-/** The tier that sets the region's stage (highest issued, then highest raw, shortest range first); else the likeliest usable lead. */
-function headlineOf(t: Translate, locale: string, tiers: readonly TierView[]): Headline | null {
-  const driving = tiers
-    .filter((tv) => tv.deciding)
-    .sort((a, b) => b.stage.rank - a.stage.rank || TIERS.indexOf(a.tier) - TIERS.indexOf(b.tier))[0];
-  let tv: TierView | undefined = driving;
-  let lead: LeadView | null = driving?.deciding ?? null;
-  if (!tv) {
-    for (const x of tiers) {
-      const l = cellLead(x);
-      if (l && (lead === null || l.probability > lead.probability)) {
-        tv = x;
-        lead = l;
-      }
-    }
-  }
-  if (!tv || !lead) return null;
-  const chosen: LeadView = lead;
-  // The dates the stage concerns: the run of leads around the deciding one that reach the same stage.
-  const at = tv.leads.indexOf(chosen);
-  let first = at;
-  let last = at;
-  while (first > 0 && tv.leads[first - 1].reached.id === chosen.reached.id && !tv.leads[first - 1].withheld) first -= 1;
-  while (last < tv.leads.length - 1 && tv.leads[last + 1].reached.id === chosen.reached.id && !tv.leads[last + 1].withheld) last += 1;
-  return {
-    hazard: tv.hazard,
-    tierName: tv.tierName,
-    threshold: tv.threshold,
-    dates: formatDayRange(locale, tv.leads[first].start, tv.leads[last].end),
-    peakDates: chosen.dates,
-    chance: chosen.chance,
-    normal: chosen.normal,
-    word: chosen.word,
-    sure: sureSentence(t, chosen),
-    triggered: driving !== undefined,
   };
 }

@@ -11,6 +11,8 @@ import type { ArchiveEntry } from './archive.ts';
 import { bulletinContext, topStage, type ChartRef } from './bulletin-context.ts';
 import type { Translate } from './catalogue.ts';
 import { buildCapAlerts } from './cap.ts';
+import { checkRegionView, contradictionDiagnostics } from './consistency.ts';
+import type { Diagnostic } from '../core/diagnostics.ts';
 import { reliabilityCharts } from './reliability-chart.ts';
 import { buildChartSpecs, chartPngsWithin, chartWidth, renderChartSvg, type ChartSpec } from './charts.ts';
 import { chartWords } from './chart-words.ts';
@@ -30,6 +32,8 @@ export interface RenderedRun {
   readonly archive: ArchiveEntry;
   /** Run notes of the render stage (e.g. no PDF because Chromium is missing), also written to run.json. */
   readonly notes: readonly string[];
+  /** Statements of the rendered bulletins that disagree (render/consistency.ts), also in run.json's problems. */
+  readonly contradictions: readonly Diagnostic[];
 }
 
 /** Cautions of a locale (with its typography); throws when there are none, so no bulletin can go out without them. */
@@ -111,8 +115,15 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
       const spec = (chartsFor(locale).specs.get(r.id) ?? []).find((s) => s.indicator === indicator);
       return spec ? { src: src(spec.key), alt: spec.description, title: spec.title, width: chartWidth(spec) } : null;
     };
+  // Every view rendered is checked for statements that disagree (one finding per region, locale and text).
+  const contradictions = new Map<string, Diagnostic>();
   const views = (locale: string, audience: string, regions: BulletinRun['regions']): RegionView[] =>
-    regions.map((r) => buildRegionView(config, r, locale, audience, env.t(locale)));
+    regions.map((r) => {
+      const view = buildRegionView(config, r, locale, audience, env.t(locale));
+      const found = checkRegionView(config, r, view, locale, env.t(locale));
+      for (const d of contradictionDiagnostics(found, locale, audience)) contradictions.set(d.message, d);
+      return view;
+    });
 
   const capAlerts = buildCapAlerts(config, env, run, previous);
 
@@ -186,7 +197,12 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     cautions: cautionsFor(config, archiveLocale),
     charts: chartRef(archiveLocale, (key) => `charts/${key}.svg`),
   });
-  const json = renderRunJson(config, { ...run, notes: [...(run.notes ?? []), ...notes] }, capAlerts);
+  const found = [...contradictions.values()];
+  const json = renderRunJson(
+    config,
+    { ...run, notes: [...(run.notes ?? []), ...notes], problems: [...(run.problems ?? []), ...found] },
+    capAlerts,
+  );
   const archive: ArchiveEntry = {
     runId: run.runId,
     issuedAt: run.issuedAt,
@@ -230,7 +246,7 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
     ladder: config.stages.map((s) => ({ glyph: s.glyph, label: applyTypography(archiveLocale, s.label[archiveLocale] ?? s.id) })),
     json,
   };
-  return { bulletins, capAlerts, json, archive, notes };
+  return { bulletins, capAlerts, json, archive, notes, contradictions: found };
 }
 
 /** Subject: each region's stage for a team; for the national summary the top stage and every region at it. */

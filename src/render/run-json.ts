@@ -5,7 +5,7 @@
  *   schema: "forelight-run/2", runId, issuedAt, mode: "live"|"exercise", nextIssue: "YYYY-MM-DD",
  *   forecastDates: [{ source, name, referenceTime, basedOnOlder }],
  *   notes: [string]                                                    // source-combination rule and what it replaced
- *   problems: [Diagnostic]                                             // inputs left out: { code, severity, stage,
+ *   problems: [Diagnostic]                                             // inputs left out, bulletin contradictions: { code, severity, stage,
  *                                                                      //   place: { file, source, region, variable,
  *                                                                      //   indicator, ... }, message, hint }
  *   stages: [{ id, label: {locale: text}, glyph, colour }]            // the ladder, lowest first

@@ -59,3 +59,26 @@ export function thresholdWords(
   if (spec?.kind !== 'percentile') return value;
   return t('threshold.percentile', { value, ...pastYearsShare(spec.percentile) });
 }
+
+/** Several leads' thresholds in words: one value when they print alike, else "lowest to highest"; '' without any. */
+export function rangeWords(t: Translate, probabilities: readonly LeadProbability[], words: (p: LeadProbability) => string): string {
+  const finite = probabilities.filter((p) => Number.isFinite(p.threshold.value));
+  if (finite.length === 0) return '';
+  const low = finite.reduce((a, p) => (p.threshold.value < a.threshold.value ? p : a));
+  const high = finite.reduce((a, p) => (p.threshold.value > a.threshold.value ? p : a));
+  const [lo, hi] = [words(low), words(high)];
+  return lo === hi ? lo : t('threshold.range', { low: lo, high: hi });
+}
+
+/** The thresholds of a range's leads as printed beside it: {@link thresholdWords} over the range of their values. */
+export function thresholdRangeWords(
+  t: Translate,
+  locale: string,
+  ind: IndicatorConfig | undefined,
+  spec: ThresholdSpec | undefined,
+  probabilities: readonly LeadProbability[],
+): string {
+  const value = rangeWords(t, probabilities, (p) => valueWords(t, locale, ind, p));
+  if (value === '') return t('threshold.none');
+  return spec?.kind === 'percentile' ? t('threshold.percentile', { value, ...pastYearsShare(spec.percentile) }) : value;
+}

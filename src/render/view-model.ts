@@ -4,13 +4,14 @@
  * picks which message applies and supplies the numbers. Region assembly is in `region-view.ts`.
  */
 import { NO_FORECAST_ID } from '../decide/types.ts';
-import type { LeadProbability, SkillSummary, Tier } from '../types.ts';
+import type { LeadProbability, LeadUse, LeadUseKind, SkillSummary, Tier } from '../types.ts';
 import type { StageConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange, formatNumber, formatPercent } from './locale-format.ts';
 import type { RenderConfig, TierOutcome } from './model.ts';
 import { reachedRank } from './reached-stage.ts';
+import { leadUses } from '../decide/lead-use.ts';
 import { applyTypography } from './typography.ts';
 
 export const TIERS: readonly Tier[] = ['days', 'weeks', 'months'];
@@ -61,6 +62,12 @@ export interface LeadView {
   readonly events: number;
   readonly deciding: boolean;
   readonly withheld: boolean;
+  /** How the lead took part in its tier's stage (decide's LeadUse), and in words why when it did not set it ('' when it counts). */
+  readonly use: LeadUseKind;
+  readonly note: string;
+  /** The threshold of this lead in plain words, and its value in the indicator's units. */
+  readonly threshold: string;
+  readonly thresholdValue: number;
   readonly flags: readonly string[];
 }
 
@@ -72,6 +79,8 @@ export interface LeadGroup {
   readonly normal: string;
   readonly noSkill: boolean;
   readonly deciding: boolean;
+  /** Why these leads did not set the stage ('' when they count towards it). */
+  readonly note: string;
 }
 
 /** Text of a per-locale record (with the locale's typography), or a one-line render error naming what is missing. */
@@ -184,14 +193,64 @@ export function sureSentence(
   return lead.potential ? `${main} ${t('sure.potential', { score: lead.score, years: lead.years })}` : main;
 }
 
+/**
+ * How each lead of a tier took part in its stage: the decision's own leadUses, or — for a decision built without them
+ * (hand-made, or stored before they existed) — decide's rule applied to what the decision does carry.
+ */
+export function tierLeadUses(config: RenderConfig, outcome: TierOutcome): readonly LeadUse[] {
+  const d = outcome.decision;
+  if (d.leadUses) return d.leadUses;
+  const withheld = new Set(d.withheldLeads.filter((w) => w.tier === outcome.tier).map((w) => w.index));
+  const finite = outcome.probabilities.filter((p) => Number.isFinite(p.probability));
+  return leadUses(config.stages, {
+    probabilities: outcome.probabilities,
+    leadStages: d.leadStages ?? finite.map((p) => ({ index: p.lead.index, stageId: config.stages[reachedRank(config, outcome, p)].id })),
+    skilfulLeads: finite.filter((p) => !withheld.has(p.lead.index)).map((p) => p.lead.index),
+    capId: d.cap?.stageId ?? null,
+    decidingIndex: d.lead?.lead.index ?? null,
+    issuedId: d.stageId,
+    wait: d.wait,
+  });
+}
+
+/** Why a lead did not set its tier's stage, in words ('' when it counts towards the stage). */
+function useNote(t: Translate, use: LeadUse, outcome: TierOutcome, stageOf: (id: string) => StageView): string {
+  switch (use.kind) {
+    case 'no-skill':
+      return t('use.noSkill');
+    case 'no-rule':
+      return t('use.noRule');
+    case 'no-value':
+      return t('use.noValue');
+    case 'capped': {
+      const cap = stageOf(use.supportsId);
+      return t('use.capped', { glyph: cap.glyph, label: cap.label });
+    }
+    case 'awaiting': {
+      const [runs, needed] = [outcome.decision.wait?.runs ?? 0, outcome.decision.wait?.needed ?? 0];
+      const to = stageOf(use.supportsId);
+      return t('use.awaiting', { glyph: to.glyph, label: to.label, runs, needed, left: Math.max(1, needed - runs) });
+    }
+    default:
+      return '';
+  }
+}
+
 export function leadView(
   config: RenderConfig,
   p: LeadProbability,
   outcome: TierOutcome,
   locale: string,
   stageAt: (rank: number) => StageView,
+  use: LeadUse,
+  words: { readonly t: Translate; readonly threshold: (p: LeadProbability) => string },
 ): LeadView {
-  const withheld = outcome.decision.withheldLeads.some((w) => w.index === p.lead.index && w.tier === p.lead.tier);
+  const rankOf = (id: string) =>
+    Math.max(
+      0,
+      config.stages.findIndex((s) => s.id === id),
+    );
+  const stageOf = (id: string) => stageAt(rankOf(id));
   const deciding = outcome.decision.lead !== null && outcome.decision.lead.lead.index === p.lead.index;
   const skill = p.skill;
   const pooled = skill !== null && skill.basis === 'observed';
@@ -206,7 +265,7 @@ export function leadView(
     chance: formatPercent(locale, p.probability),
     normal: formatPercent(locale, p.baseRate),
     word: probabilityWord(config, p.probability, locale),
-    reached: stageAt(withheld ? 0 : reachedRank(config, outcome, p)),
+    reached: stageOf(use.reachedId),
     sure: sureLevel(skill),
     potential: skill?.basis === 'potential',
     score: num(pooled ? skill?.gate.fairBrierSkillScore : skill?.fairBrierSkillScore),
@@ -215,7 +274,11 @@ export function leadView(
     years: (pooled ? skill?.gate.years : skill?.years) ?? 0,
     events: (pooled ? skill?.gate.events : skill?.events) ?? 0,
     deciding,
-    withheld,
+    withheld: use.kind === 'no-skill',
+    use: use.kind,
+    note: useNote(words.t, use, outcome, stageOf),
+    threshold: words.threshold(p),
+    thresholdValue: p.threshold.value,
     flags: p.flags,
   };
 }
@@ -233,7 +296,7 @@ function percentRange(locale: string, values: readonly number[]): string {
 /** Leads merged where consecutive ones reach the same stage with the same skill verdict (the e-mail's short table). */
 export function groupLeads(locale: string, leads: readonly LeadView[], probabilities: readonly LeadProbability[]): LeadGroup[] {
   const groups: { first: number; last: number }[] = [];
-  const key = (l: LeadView): string => `${l.reached.id}|${l.sure === 'none'}`;
+  const key = (l: LeadView): string => `${l.reached.id}|${l.note}`;
   leads.forEach((l, i) => {
     const g = groups.at(-1);
     if (g && key(leads[g.last]) === key(l)) g.last = i;
@@ -253,8 +316,9 @@ export function groupLeads(locale: string, leads: readonly LeadView[], probabili
         locale,
         probs.map((p) => p.baseRate),
       ),
-      noSkill: leads[first].sure === 'none',
+      noSkill: leads[first].withheld,
       deciding: span.some((l) => l.deciding),
+      note: leads[first].note,
     };
   });
 }

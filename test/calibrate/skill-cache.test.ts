@@ -80,12 +80,23 @@ describe('cachedSkill', () => {
     expect(r.fromCache).toBe(false);
     expect(r.value).toBe(7);
     expect(r.note).toMatch(/skill-shape\.json unreadable \(\/0 must have required property 'observed'\); recomputed/);
-    const stored = [
-      { region: 'north', indicator: 'hi', hindcast: null, observed: null, skill: [], tuned: { r1: { $num: 'NaN' } }, problems: [] },
-    ];
+    // A tuned trigger of the format before out-of-sample tuning (a bare number) is refused.
+    const base = { region: 'north', indicator: 'hi', hindcast: null, observed: null, skill: [], problems: [] };
+    writeFileSync(join(cacheDir, `skill-${key}.json`), JSON.stringify([{ ...base, tuned: { r1: 0.3 } }]));
+    expect((await cachedSkill(cacheDir, key, () => 8, isStoredClimates)).note).toMatch(/\/0\/tuned\/r1 must be object/);
+    const trigger = {
+      costLoss: 0.2,
+      basis: 'observed',
+      hindcastMembers: 10,
+      hindcastCount: 1,
+      forecastThreshold: 0.067,
+      value: { value: { $num: 'NaN' }, inSampleValue: 0.3, interval: { low: { $num: 'NaN' }, high: { $num: 'NaN' } } },
+    };
+    const stored = [{ ...base, tuned: { r1: trigger } }];
     writeFileSync(join(cacheDir, `skill-${key}.json`), JSON.stringify(stored));
     const back = await cachedSkill(cacheDir, key, () => [], isStoredClimates);
-    expect(back).toEqual({ value: [{ ...stored[0], tuned: { r1: NaN } }], fromCache: true, note: '' });
+    const decoded = { ...trigger, value: { value: NaN, inSampleValue: 0.3, interval: { low: NaN, high: NaN } } };
+    expect(back).toEqual({ value: [{ ...stored[0], tuned: { r1: decoded } }], fromCache: true, note: '' });
   });
 });
 

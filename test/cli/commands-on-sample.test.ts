@@ -59,6 +59,25 @@ describe('inspection commands on the sample', () => {
     expect(bad.stderr).toContain("--region 'atlantis' is not a configured region; use one of: kessan-lowlands");
   });
 
+  it('skill --detail: value curve in sample and leave-one-year-out with its 90 % interval; the cost/loss trigger judged out of sample', () => {
+    const r = forelight('skill', '--detail', '--region', 'kessan-lowlands', '--indicator', 'heat-index', ...DATE);
+    expect(r.code).toBe(EXIT.ok);
+    expect(r.stdout).toContain(
+      'value-loyo (x = cost/loss ratio; a = value with each year judged by the threshold chosen on the other years',
+    );
+    const loyo = r.stdout.split('\n').filter((l) => /^short +kessan-lowlands +heat-index +day 1 +value-loyo /.test(l));
+    expect(loyo.length).toBe(19); // cost/loss 0.05 .. 0.95
+    for (const l of loyo) {
+      const [a, low, high] = l.trim().split(/ +/).slice(7, 10).map(Number);
+      if (Number.isFinite(a) && Number.isFinite(low)) expect(low <= a + 1e-9 && a <= high + 1e-9).toBe(true);
+    }
+    // The shipped cost/loss rule (0.2) on the days tier: k of 10 hindcast members, the forecast's fraction, the value
+    // judged year by year with its interval beside the optimistic in-sample one.
+    expect(r.stdout).toMatch(
+      /heat-index-days-mindful · short · kessan-lowlands · heat-index: warn when at least \d+ of \d+ hindcast members exceed \(a forecast: member fraction >= 0\.\d{3}\); value judged year by year on thresholds chosen on the other years -?\d\.\d\d \(90 % interval -?\d\.\d\d to -?\d\.\d\d\), in sample -?\d\.\d\d; observed, leads 1–7, 20 years, \d+ events/,
+    );
+  });
+
   it('diff: the region stages a run would issue, nothing stored (dry run)', () => {
     const r = forelight('diff', ...DATE);
     expect(r.code).toBe(EXIT.ok);

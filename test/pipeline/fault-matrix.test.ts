@@ -5,10 +5,14 @@
  * - the newest file of each tier damaged with real tools (NCO ncrename/ncatted/ncks, nccopy, netCDF4-python):
  *   truncated classic, truncated NetCDF-4, renamed variable, no units, all values missing, another grid;
  * - an empty file and a folder at the newest short-range path; a region without grid cells;
- * - a refused SMTP login (535) from a real smtp-server on 127.0.0.1 (disk faults of the outputs: test/core/write-atomic.test.ts).
+ * - a refused SMTP login (535) from a real smtp-server on 127.0.0.1;
+ * - the archive folder on a real tmpfs remounted read-only (EROFS), and on a real tmpfs filled up (ENOSPC): the
+ *   e-mails still go out, exit 4, the message and the operator notice name the folder and the fix, no temp file is
+ *   left (single writes: test/core/write-atomic.test.ts).
  * For each: the exit code; no region below its previous stage or below the clean run purely because data vanished;
  * the bulletin names the missing part (or the older forecast used); an operator notice; every team still gets its
- * bulletin, each Message-ID once.
+ * bulletin, each Message-ID once; no bulletin contradicts itself (render/consistency.ts in every render, and the rows
+ * of the text as sent).
  */
 import { execFileSync } from 'node:child_process';
 import {
@@ -26,7 +30,7 @@ import {
   writeFileSync,
 } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { basename, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { simpleParser } from 'mailparser';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
@@ -41,6 +45,9 @@ import { runOnce, type RunOutcome } from '../../src/pipeline/run-once.ts';
 import { issuedRegionStages } from '../../src/pipeline/bulletin-run.ts';
 import { generateSample } from '../../src/sample/generate.ts';
 import { startSmtp, type SmtpFixture } from '../deliver/fixtures.ts';
+import { fill, mountFaults, mountTmpfs, type Mounted } from '../support/small-disk.ts';
+import { runDiagnostics } from '../../src/ledger/diagnostics.ts';
+import { rowsAboveStageWithoutReason } from '../support/bulletin-rows.ts';
 
 const HISTORY = ['2026-11-23', '2026-11-26'];
 const ISSUE = '2026-11-30';
@@ -65,7 +72,7 @@ function configFor(dir: string, forecastDir: string, cacheDir: string): Config {
     ...base,
     sources: base.sources.map((s) => ({
       ...s,
-      forecast: s.forecast.replace(/.*sample-inputs\/data/, forecastDir),
+      forecast: s.forecast.map((p) => p.replace(/.*sample-inputs\/data/, forecastDir)),
       hindcast: s.hindcast && sample(s.hindcast),
     })),
     observations: base.observations && { ...base.observations, path: sample(base.observations.path) },
@@ -126,6 +133,8 @@ interface Scenario {
   readonly texts: string[];
   readonly notices: string[];
   readonly messageIds: string[];
+  /** Findings of the consistency checker that ran inside the render (ledger run_diagnostics). */
+  readonly contradictions: string[];
 }
 
 async function issue(
@@ -148,6 +157,7 @@ async function issue(
   });
   const ledger = openLedger(config.ledger);
   const stages = new Map(issuedRegionStages(config, lastIssuedStages(ledger)).map((r) => [r.region, r.stageId]));
+  const found = outcome.runId === null ? [] : runDiagnostics(ledger, outcome.runId).filter((d) => d.code === 'bulletin-contradiction');
   ledger.close();
   const outbox = config.delivery.outbox;
   const files = existsSync(outbox) ? readdirSync(outbox) : [];
@@ -164,6 +174,7 @@ async function issue(
     texts: all.map((m) => m.text ?? ''),
     notices: files.filter((f) => f.startsWith('notice_')).map((f) => readFileSync(join(outbox, f), 'utf8')),
     messageIds: all.map((m) => m.messageId ?? ''),
+    contradictions: found.map((d) => d.message),
   };
 }
 
@@ -199,6 +210,16 @@ function expectSafe(s: Scenario): void {
   }
   expect(s.messageIds).toHaveLength(recipients());
   expect(new Set(s.messageIds).size).toBe(recipients());
+  // No bulletin contradicts itself: the checker of every render found nothing, and no row of the text as sent
+  // points above its range's stage without saying why.
+  expect(s.contradictions).toEqual([]);
+  for (const text of s.texts)
+    expect(
+      rowsAboveStageWithoutReason(
+        text,
+        base.stages.map((st) => st.glyph),
+      ),
+    ).toEqual([]);
 }
 
 describe('clean run of 30 Nov (the reference)', () => {
@@ -313,4 +334,42 @@ describe('SMTP login refused (535) by a real server on 127.0.0.1', () => {
       await smtp.close();
     }
   }, 240_000);
+});
+
+/** Every temporary file (write-atomic's ".tmp-" mark) under the given folders. */
+function tempFiles(...dirs: string[]): string[] {
+  return dirs.flatMap((d) =>
+    existsSync(d)
+      ? (readdirSync(d, { recursive: true }) as string[]).filter((f) => basename(f).includes('.tmp-')).map((f) => join(d, f))
+      : [],
+  );
+}
+
+describe.skipIf(!mountFaults())('the archive folder on a faulty disk (real tmpfs, mount(8))', () => {
+  const cases: [string, (disk: Mounted) => void, RegExp][] = [
+    ['read-only (EROFS)', (disk) => disk.readOnly(), /EROFS.*read-only file system: remount it read-write/],
+    ['full (ENOSPC)', (disk) => fill(disk.dir), /ENOSPC.*is full: free space there/],
+  ];
+  it.each(cases)(
+    '%s: every e-mail still goes out, exit 4, path and fix named on the terminal and in the notice, no temp file left',
+    async (_name, fault, fix) => {
+      const disk = mountTmpfs(64 * 1024);
+      try {
+        cpSync(join(historyDir, 'archive'), disk.dir, { recursive: true });
+        fault(disk);
+        const s = await issue(`archive-${_name}`, { edit: (c) => ({ ...c, delivery: { ...c.delivery, archive: disk.dir } }) });
+        expect(s.outcome.exitCode, s.outcome.summary).toBe(EXIT.deliveryFailed);
+        expect(s.outcome.summary).toMatch(new RegExp(`output problem\\(s\\): archive: .*${disk.dir}`));
+        expect(s.outcome.summary).toMatch(fix);
+        expectSafe(s);
+        expect(s.notices.some((n) => n.includes('outputs not written') && n.includes(disk.dir))).toBe(true);
+        expect(tempFiles(disk.dir, s.config.delivery.outbox, dirname(s.config.ledger))).toEqual([]);
+        // The stages were issued and stored although the archive could not be written.
+        expect(s.stages).toEqual(clean.stages);
+      } finally {
+        disk.unmount();
+      }
+    },
+    240_000,
+  );
 });

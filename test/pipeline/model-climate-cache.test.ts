@@ -26,7 +26,7 @@ beforeAll(async () => {
   const move = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
   config = {
     ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: move(s.forecast), hindcast: s.hindcast && move(s.hindcast) })),
+    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
     observations: base.observations && { ...base.observations, path: move(base.observations.path) },
     calibration: { ...base.calibration, cacheDir: join(sampleDir, 'cache') },
   };

@@ -29,7 +29,7 @@ function isolatedConfig(base: Config, dir: string, sampleDir?: string): Config {
   const move = (p: string) => (sampleDir ? p.replace(/.*sample-inputs\/data/, sampleDir) : p);
   return {
     ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: move(s.forecast), hindcast: s.hindcast && move(s.hindcast) })),
+    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
     observations: base.observations && { ...base.observations, path: move(base.observations.path) },
     ledger: join(dir, 'ledger.sqlite'),
     delivery: { ...base.delivery, outbox: join(dir, 'outbox'), archive: join(dir, 'archive') },

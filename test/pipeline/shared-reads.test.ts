@@ -32,7 +32,7 @@ function configWith(regions: readonly RegionConfig[]): Config {
   const move = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
   return {
     ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: move(s.forecast), hindcast: s.hindcast && move(s.hindcast) })),
+    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
     observations: base.observations && { ...base.observations, path: move(base.observations.path) },
     regions,
     calibration: { ...base.calibration, cacheDir: mkdtempSync(join(tmpdir(), 'forelight-shared-cache-')) },

@@ -110,9 +110,13 @@ describe('renderBulletins on the sample run', () => {
 
   it('says plainly when a range has no demonstrated skill, and when skill is a model-only estimate', () => {
     const k = plain('kessan-health');
-    expect(k).toContain('15 – 28 Dec: ○ Quiet, 16–24% (normal year 10%), no proven skill at this range: treat as normal');
+    expect(k).toContain(
+      '15 – 28 Dec: ○ Quiet, 16–24% (normal year 10%), not used for the stage: no demonstrated skill at this range, treat as normal',
+    );
     expect(k).toContain('(potential skill: model against itself, no observations, never used to raise a stage)');
-    expect(plain('tulva-health')).toContain('fiabilité non démontrée à cette échéance : considérer comme normal');
+    expect(plain('tulva-health')).toContain(
+      'non retenu pour le niveau : fiabilité non démontrée à cette échéance, considérer comme normal',
+    );
   });
 
   it('uses the team-specific actions when configured, else the default', () => {

@@ -1,11 +1,13 @@
 /**
  * `forelight check`: validate a configuration and print every problem as file:line:column, exit 2 when any.
  * With a valid configuration, each source's newest forecast file is opened to check that every region lies on
- * its grid.
+ * its grid (an error otherwise) and whether a box region holds a cell centre of it (a warning otherwise); a pattern
+ * matching no file while the source's others do is reported at its line.
  */
-import { checkRegionsAgainstGrids } from '../../config/check-grids.ts';
+import { checkBoxesBetweenCentres, checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
 import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
+import { unmatchedPatterns } from '../../pipeline/pattern-check.ts';
 import { diagnostic, formatDiagnostic, type Diagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { pdfUnavailable } from '../../render/pdf.ts';
@@ -15,14 +17,18 @@ export async function checkCommand(args: ParsedArgs): Promise<number> {
   const { config, diagnostics, sourceMap } = await checkConfigFile(stringOption(args, 'config'));
   const all = [...diagnostics];
   const notes: Diagnostic[] = [];
+  const warnings: Diagnostic[] = [];
   if (config) {
     const extents = await sourceGridExtents(config);
     notes.push(...extents.notes);
     all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
+    all.push(...unmatchedPatterns(config, sourceMap));
+    warnings.push(...checkBoxesBetweenCentres(config, extents.grids, sourceMap));
     const pdf = pdfUnavailable(config.delivery.pdfChromium);
     if (pdf) notes.push(diagnostic('pdf-unavailable', pdf, '', { pointer: '/delivery/pdf-chromium' }));
   }
   for (const p of all) process.stderr.write(formatDiagnostic(p) + '\n');
+  for (const w of warnings) process.stderr.write(`warning: ${formatDiagnostic(w)}\n`);
   for (const n of notes) process.stderr.write(`note: ${formatDiagnostic(n)}\n`);
   if (!config || all.length > 0) {
     process.stderr.write(`forelight: ${all.length} problem(s) in the configuration\n`);

@@ -1,5 +1,6 @@
 /** `forelight diff` (also `run --dry-run`): which region stages would change against the last issued bulletin; nothing is written or sent. */
 import { diffStages } from '../../decide/diff.ts';
+import { stageTitle } from '../../decide/types.ts';
 import { decideNow } from '../../pipeline/decide-now.ts';
 import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
@@ -11,10 +12,7 @@ export async function diffCommand(args: ParsedArgs): Promise<number> {
   const { config, run } = await commandContext(args, 'diff');
   const { issueDate } = run;
   const { analysis, decided, previous } = await decideNow(config, run, { onProgress: progressBar('diff') });
-  const label = (id: string | null) => {
-    const s = config.stages.find((x) => x.id === id);
-    return s ? `${s.glyph} ${s.label.en ?? s.id}` : 'none';
-  };
+  const label = (id: string | null) => (id === null ? 'none' : stageTitle(config.stages, id));
   const changes = diffStages(previous, decided.regionStages, decided.decisions);
   const lines = [
     `dry run for ${issueDate} (nothing stored or sent); compared with the last issued bulletin${previous.length === 0 ? ' (none yet)' : ''}`,

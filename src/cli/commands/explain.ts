@@ -7,11 +7,9 @@ import type { LeadValues } from '../../calibrate/lead-tiers.ts';
 import type { EnsembleSummary } from '../../decide/explain.ts';
 import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
-import type { Tier } from '../../types.ts';
+import { TIERS } from '../../types.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
-
-const TIERS: readonly Tier[] = ['days', 'weeks', 'months'];
 
 /** Minimum, median and maximum over members per lead index. */
 function ensembleSummaries(leads: LeadValues, units: string): Map<number, EnsembleSummary> {
@@ -29,12 +27,13 @@ export async function explainCommand(args: ParsedArgs): Promise<number> {
   const { issueDate } = run;
   const region = stringOption(args, 'region');
   const indicator = stringOption(args, 'indicator');
-  const tier = stringOption(args, 'tier') as Tier | undefined;
+  const tierOption = stringOption(args, 'tier');
+  const tier = TIERS.find((t) => t === tierOption);
   if (!region || !config.regions.some((r) => r.id === region))
     throw usageError(`--region must be one of ${config.regions.map((r) => r.id).join(', ')}`);
   if (!indicator || !config.indicators.some((i) => i.id === indicator))
     throw usageError(`--indicator must be one of ${config.indicators.map((i) => i.id).join(', ')}`);
-  if (!tier || !TIERS.includes(tier)) throw usageError(`--tier must be one of ${TIERS.join(', ')}`);
+  if (!tier) throw usageError(`--tier must be one of ${TIERS.join(', ')}`);
   const { analysis, decided, history } = await decideNow(config, run);
   const decision = decided.decisions.find((d) => d.region === region && d.indicator === indicator && d.tier === tier);
   if (!decision) {

@@ -12,7 +12,8 @@ import { connectCluster } from '../../cluster/coordinator.ts';
 import { localDate } from '../../pipeline/bulletin-run.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../core/exit-codes.ts';
-import { forecastPath, waitForInputs } from '../../schedule/input-arrival.ts';
+import { waitForInputs } from '../../schedule/input-arrival.ts';
+import { namedForecastFiles } from '../../pipeline/split-files.ts';
 import { runService } from '../../schedule/run-service.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 
@@ -36,7 +37,7 @@ async function serve(config: Config, log: Logger, extract: Extractor | undefined
     runOnce: async ({ slot, signal, log: rlog }) => {
       const issueDate = localDate(slot, config.schedule.timezone);
       // Seasonal (months-tier) forecasts come once a month: the newest one is used, nobody waits for it.
-      const expected = config.sources.filter((s) => s.tier !== 'months').map((s) => forecastPath(s.forecast, issueDate));
+      const expected = config.sources.filter((s) => s.tier !== 'months').flatMap((s) => namedForecastFiles(s, issueDate));
       const deadline = new Date(slot.getTime() + config.schedule.waitForDataMinutes * 60_000);
       const arrival = await waitForInputs(expected, deadline, config.schedule.pollSeconds, { signal });
       if (arrival.missing.length > 0)

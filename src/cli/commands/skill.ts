@@ -2,9 +2,10 @@
  * `forelight skill`: the hindcast verification table (text or CSV) for the configuration, with progress, a
  * legend line explaining each column, and the probability threshold tuned for every cost/loss rule; `--source`,
  * `--region`, `--indicator` keep only the rows of that id; `--detail` adds hit and false-alarm rates per stage
- * threshold, reliability tables and relative economic value curves.
+ * threshold, reliability tables and relative economic value curves (in sample, and leave-one-year-out with 90 %
+ * intervals).
  */
-import { skillDetailRows, formatSkillDetail } from '../../calibrate/skill-detail.ts';
+import { skillDetailRows, formatSkillDetail, tunedTriggerLine } from '../../calibrate/skill-detail.ts';
 import { formatSkillTable, SKILL_LEGEND, skillRow } from '../../calibrate/skill-table.ts';
 import type { Config } from '../../config/types.ts';
 import { analyse } from '../../pipeline/analyse.ts';
@@ -50,6 +51,9 @@ export async function skillCommand(args: ParsedArgs): Promise<number> {
     )
     .filter((c) => wanted(c.ids));
   const entries = climates.flatMap((c) => c.climate.skill.map((report) => ({ ids: c.ids, report })));
+  const tuned = climates.flatMap((c) =>
+    Object.entries(c.climate.tuned).map(([rule, t]) => tunedTriggerLine(`${rule} · ${c.ids.source} · ${c.key.replace('|', ' · ')}`, t)),
+  );
   if (args.options.detail) {
     process.stdout.write(
       formatSkillDetail(
@@ -57,26 +61,17 @@ export async function skillCommand(args: ParsedArgs): Promise<number> {
         format,
       ),
     );
-    return EXIT.ok;
-  }
-  process.stdout.write(
-    formatSkillTable(
-      entries.map((e) => skillRow(e.ids, e.report)),
-      format,
-    ),
-  );
-  if (format === 'text') {
-    process.stdout.write(`\n${entries.length} rows. ${SKILL_LEGEND}\n`);
-    const tuned = climates.flatMap((c) =>
-      Object.entries(c.climate.tuned).map(
-        ([rule, p]) => `  ${rule} · ${c.ids.source} · ${c.key.replace('|', ' · ')}: warn when P >= ${p.toFixed(2)}`,
+  } else {
+    process.stdout.write(
+      formatSkillTable(
+        entries.map((e) => skillRow(e.ids, e.report)),
+        format,
       ),
     );
-    if (tuned.length > 0)
-      process.stdout.write(
-        `\nprobability thresholds tuned for cost/loss rules (maximum relative economic value on the hindcasts):\n${tuned.join('\n')}\n`,
-      );
+    if (format === 'text') process.stdout.write(`\n${entries.length} rows. ${SKILL_LEGEND}\n`);
   }
+  if (format === 'text' && tuned.length > 0)
+    process.stdout.write(`\ntriggers tuned for cost/loss rules (maximum relative economic value, Richardson 2000):\n${tuned.join('\n')}\n`);
   for (const p of analysis.problems) process.stderr.write(`skipped: ${formatDiagnostic(p)}\n`);
   return EXIT.ok;
 }
