@@ -8,7 +8,8 @@ import { formatDiagnostic, within, type Diagnostic } from '../core/diagnostics.t
 import { diagnosticOf } from '../core/errors.ts';
 import type { ChecksumMemo } from '../core/file-checksums.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
-import { computeIndicator, type IndicatorClimatology } from '../indicators/compute.ts';
+import type { IndicatorClimatology } from '../indicators/compute.ts';
+import { indicatorInputs, regionIndicator } from './region-indicator.ts';
 import type { HindcastRead, IndicatorSeries, RegionQuantities } from '../types.ts';
 import { stackYears, type LeadClimate } from './climate.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
@@ -18,7 +19,7 @@ import { resolveThresholdSpec } from './thresholds.ts';
 import { tuneTrigger, type TunedTrigger } from './trigger-tuning.ts';
 
 /** The part of the configuration the calibrate stage reads. */
-export type CalibrateConfig = Pick<Config, 'regions' | 'indicators' | 'rules' | 'decision' | 'calibration'>;
+export type CalibrateConfig = Pick<Config, 'regions' | 'indicators' | 'rules' | 'decision' | 'calibration' | 'population'>;
 
 export interface IndicatorClimate {
   readonly hindcast: LeadClimate | null;
@@ -60,13 +61,13 @@ export function observedIndicator(
   climatology: IndicatorClimatology,
   memo: ObservedIndicators,
 ): IndicatorSeries | Diagnostic | null {
-  const obs = observed?.get(region.id);
+  const obs = observed ? indicatorInputs(observed, region.id, ind) : undefined;
   if (!obs) return null;
   const key = pairKey(region.id, ind.id);
   let result = memo.get(key);
   if (result === undefined) {
     try {
-      result = computeIndicator(ind, obs, indicatorContext(climatology, undefined, undefined));
+      result = regionIndicator(ind, obs, region.id, indicatorContext(climatology, undefined, undefined));
     } catch (err) {
       result = within(diagnosticOf(err, 'observations-skipped'), `observations of ${region.id}`, { region: region.id, indicator: ind.id });
     }
@@ -134,11 +135,11 @@ export function buildIndicatorClimate(
   const obsYears: { year: number; leads: LeadValues }[] = [];
   let units = '';
   for (const h of hindcasts) {
-    const inputs = h.series.get(region.id);
+    const inputs = indicatorInputs(h.series, region.id, ind);
     if (!inputs) continue;
     try {
       const first = [...inputs.values()][0]?.days[0];
-      const result = computeIndicator(ind, inputs, indicatorContext(climatology, observed?.get(region.id), first));
+      const result = regionIndicator(ind, inputs, region.id, indicatorContext(climatology, observed?.get(region.id), first));
       units = result.units;
       hcYears.push({ year: h.year, leads: aggregateToLeads(result, tier, ind.aggregate) });
       if (isSeries(obsSeries)) obsYears.push({ year: h.year, leads: aggregateToLeads(onDays(obsSeries, result), tier, ind.aggregate) });

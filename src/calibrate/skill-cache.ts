@@ -96,6 +96,11 @@ export async function cachedSkill<T>(
   return { value, fromCache: false, note };
 }
 
+/** The population raster's sha256 (a changed raster changes population-weighted climates); 'unreadable' when it cannot be read. */
+function rasterChecksum(ctx: CalibrateContext, file: string): Promise<string> {
+  return ctx.checksums.sha256(file).catch(() => 'unreadable');
+}
+
 /**
  * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
  * observation files and the configuration are unchanged, else `readHindcasts()` and `buildIndicatorClimate`, stored.
@@ -118,6 +123,7 @@ export async function cachedClimates(
       rules: config.rules,
       gate: config.decision.skillGate,
       calibration: config.calibration,
+      population: config.population ? { ...config.population, sha256: await rasterChecksum(ctx, config.population.file) } : null,
     }),
     memo: ctx.checksums,
   });

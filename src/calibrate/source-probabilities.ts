@@ -6,7 +6,7 @@ import type { SourceConfig } from '../config/types.ts';
 import { within, type Diagnostic } from '../core/diagnostics.ts';
 import { diagnosticOf } from '../core/errors.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
-import { computeIndicator } from '../indicators/compute.ts';
+import { indicatorInputs, regionIndicator } from './region-indicator.ts';
 import type { LeadProbability, RegionQuantities } from '../types.ts';
 import { indicatorContext } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
@@ -48,15 +48,16 @@ export function sourceProbabilities(
   const forecastLeads = new Map<PairKey, LeadValues>();
   const problems: Diagnostic[] = [];
   for (const { region, ind } of tierPairs(config, read.source.tier)) {
-    const inputs = read.series.get(region.id);
+    const inputs = indicatorInputs(read.series, region.id, ind);
     if (!inputs) continue; // the read stage already reported why
     const climate = climates.get(pairKey(region.id, ind.id));
     if (climate) problems.push(...climate.problems);
     try {
       const first = [...inputs.values()][0]?.days[0];
-      const series = computeIndicator(
+      const series = regionIndicator(
         ind,
         inputs,
+        region.id,
         indicatorContext(ctx.climatology.get(region.id) ?? {}, ctx.observed?.get(region.id), first),
       );
       const forecast = aggregateToLeads(series, read.source.tier, ind.aggregate);

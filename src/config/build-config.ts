@@ -16,6 +16,7 @@ import {
   type IndicatorKind,
   type RegionConfig,
   type RegionShape,
+  type RegionValueConfig,
   type SmtpConfig,
   type StageConfig,
   type ThresholdSpec,
@@ -47,6 +48,7 @@ interface RawTree {
     'look-back-days'?: number;
   }[];
   observations?: { file: string; variables: Partial<Record<Quantity, string>> } | null;
+  population?: { file: string; variable?: string; values?: 'people-per-pixel' | 'people-per-km2' } | null;
   regions: ({
     id: string;
     name: string;
@@ -63,6 +65,7 @@ interface RawTree {
     threshold: RawThreshold;
     'region-thresholds'?: Record<string, RawThreshold>;
     aggregate: 'mean' | 'max' | 'sum';
+    'region-value'?: { weights?: 'area' | 'population'; 'share-above'?: number };
     tiers: Tier[];
     params?: Record<string, number | string | boolean>;
   }[];
@@ -133,9 +136,9 @@ export function paramsFromYaml(params: Readonly<Record<string, unknown>>): Recor
   return Object.fromEntries(Object.entries(params).map(([k, v]) => [camel(k), v]));
 }
 
-function toThreshold(t: RawThreshold, kind: IndicatorKind): ThresholdSpec {
+function toThreshold(t: RawThreshold, kind: IndicatorKind, share: boolean): ThresholdSpec {
   if (t.percentile !== undefined) return { kind: 'percentile', percentile: t.percentile };
-  const family = thresholdUnits(kind);
+  const family = thresholdUnits(kind, share);
   return { kind: 'absolute', value: family.accepted[t.units as string](t.value as number), units: family.canonical };
 }
 
@@ -151,17 +154,23 @@ function toRegions(raw: RawTree, sets: ReadonlyMap<number, readonly RegionConfig
   );
 }
 
+function toRegionValue(v: NonNullable<RawTree['indicators'][number]['region-value']>): RegionValueConfig {
+  return { weights: v.weights ?? 'area', ...(v['share-above'] !== undefined ? { shareAbove: v['share-above'] } : {}) };
+}
+
 /** The schema has checked `params` against the kind's params schema, so kind and params belong together. */
 function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
+  const share = i['region-value']?.['share-above'] !== undefined;
   return {
     id: i.id,
     name: i.name,
     kind: i.kind,
     windowDays: i['window-days'] ?? 1,
-    threshold: toThreshold(i.threshold, i.kind),
-    regionThresholds: Object.fromEntries(Object.entries(i['region-thresholds'] ?? {}).map(([r, t]) => [r, toThreshold(t, i.kind)])),
+    threshold: toThreshold(i.threshold, i.kind, share),
+    regionThresholds: Object.fromEntries(Object.entries(i['region-thresholds'] ?? {}).map(([r, t]) => [r, toThreshold(t, i.kind, share)])),
     aggregate: i.aggregate,
     tiers: i.tiers,
+    ...(i['region-value'] ? { regionValue: toRegionValue(i['region-value']) } : {}),
     params: paramsFromYaml(i.params ?? {}),
   } as IndicatorConfig;
 }
@@ -226,6 +235,13 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
       lookbackDays: s['look-back-days'] ?? DEFAULT_LOOKBACK_DAYS[s.tier],
     })),
     observations: raw.observations ? { path: path(raw.observations.file), variables: raw.observations.variables } : null,
+    population: raw.population
+      ? {
+          file: path(raw.population.file),
+          values: raw.population.values ?? 'people-per-pixel',
+          ...(raw.population.variable !== undefined ? { variable: raw.population.variable } : {}),
+        }
+      : null,
     regions: toRegions(raw, sets),
     teams: raw.teams.map((t) => ({ id: t.id, name: t.name, locale: t.locale, recipients: t.recipients, national: t.national ?? false })),
     indicators: raw.indicators.map(toIndicator),

@@ -18,10 +18,21 @@ export function checkIndicators(raw: RawObject, schemaProblems: readonly ConfigP
     const id = text(o.id) ?? `#${i + 1}`;
     const kind = o.kind;
     const thresholds: [string, unknown][] = [['', o.threshold], ...Object.entries(obj(o['region-thresholds']))];
+    const value = obj(o['region-value']);
+    const share = value['share-above'] !== undefined;
     for (const [region, th] of thresholds) {
       const at = region === '' ? pointerOf('indicators', i, 'threshold') : pointerOf('indicators', i, 'region-thresholds', region);
       if (th === undefined) continue;
-      out.push(...checkThreshold(obj(th), at, id, isIndicatorKind(kind) ? kind : undefined));
+      out.push(...checkThreshold(obj(th), at, id, isIndicatorKind(kind) ? kind : undefined, share));
+    }
+    if (value.weights === 'population' && (raw.population === undefined || raw.population === null)) {
+      out.push(
+        problem(
+          pointerOf('indicators', i, 'region-value', 'weights'),
+          `indicator ${id} weights its regions by population, but no population raster is configured`,
+          'add population: { file: people.tif } (NetCDF or GeoTIFF, WGS 84 longitude/latitude), or write weights: area',
+        ),
+      );
     }
     if (!isIndicatorKind(kind)) return;
     const paramsAt = pointerOf('indicators', i, 'params');
@@ -52,7 +63,7 @@ export function checkIndicators(raw: RawObject, schemaProblems: readonly ConfigP
   return out;
 }
 
-function checkThreshold(th: RawObject, at: string, id: string, kind: IndicatorKind | undefined): ConfigProblem[] {
+function checkThreshold(th: RawObject, at: string, id: string, kind: IndicatorKind | undefined, share: boolean): ConfigProblem[] {
   const hasP = th.percentile !== undefined;
   const hasV = th.value !== undefined;
   if (hasP && (hasV || th.units !== undefined))
@@ -65,11 +76,15 @@ function checkThreshold(th: RawObject, at: string, id: string, kind: IndicatorKi
     ];
   if (hasP || kind === undefined) return [];
   const units = text(th.units);
-  const family = thresholdUnits(kind);
+  const family = thresholdUnits(kind, share);
   if (units === undefined) return [problem(at, `threshold value of ${id} has no units`, `add units: ${family.canonical}`)];
   if (!Object.hasOwn(family.accepted, units)) {
     return [
-      problem(at + '/units', `units "${units}" do not fit indicator ${id} (${kind})`, `use ${Object.keys(family.accepted).join(', ')}`),
+      problem(
+        at + '/units',
+        `units "${units}" do not fit indicator ${id} (${kind}${share ? ', a share of the region above region-value.share-above' : ''})`,
+        `use ${Object.keys(family.accepted).join(', ')}`,
+      ),
     ];
   }
   return [];

@@ -21,9 +21,14 @@ export const UNIT_FAMILIES: Readonly<Record<string, UnitFamily>> = {
   days: { canonical: 'days', accepted: { days: same, d: same } },
   'degC day': { canonical: 'degC day', accepted: { 'degC day': same, 'K day': same } },
   '1': { canonical: '1', accepted: { '1': same } },
+  /** A share of the region's area or people (region-value: share-above). */
+  '%': { canonical: '%', accepted: { '%': same, percent: same } },
 };
 
-/** The threshold units of an indicator kind (the registry test checks every kind's units has a family). */
-export function thresholdUnits(kind: IndicatorKind): UnitFamily {
-  return UNIT_FAMILIES[indicatorDefinition(kind).units];
+/**
+ * The threshold units of an indicator kind (the registry test checks every kind's units has a family); `share`: the
+ * indicator's region value is a share above a level (region-value: share-above), in %.
+ */
+export function thresholdUnits(kind: IndicatorKind, share = false): UnitFamily {
+  return UNIT_FAMILIES[share ? '%' : indicatorDefinition(kind).units];
 }

@@ -3,6 +3,7 @@
  * source, merged within each tier by the source-combination rule). Shared by `run`, `diff`, `explain` and
  * `skill`, so what they show is exactly what a run would issue.
  */
+import { readRegions } from '../config/region-views.ts';
 import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineOutcomes } from '../calibrate/combine-outcomes.ts';
@@ -108,15 +109,10 @@ async function calibrateSource(
     input.source,
     input.hindcasts.map((h) => h.path),
     () =>
-      readHindcasts(
-        input.source,
-        input.hindcasts,
-        config.regions,
-        options.fileProblems,
-        regionCells(read.series),
-        options.extract,
-        config.calibration.cacheDir,
-      ),
+      readHindcasts(input.source, input.hindcasts, readRegions(config), options.fileProblems, regionCells(read.series), options.extract, {
+        weightsCacheDir: config.calibration.cacheDir,
+        population: config.population,
+      }),
   );
   return sourceProbabilities(ctx, read, model);
 }

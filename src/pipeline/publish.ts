@@ -9,7 +9,7 @@ import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import type { Config } from '../config/types.ts';
 import type { ArchiveEntry } from '../render/archive.ts';
-import { writeArchive } from '../render/archive.ts';
+import { MAPS_FOLDER, writeArchive } from '../render/archive.ts';
 import { toToken } from '../render/safe-text.ts';
 
 const ENTRY_FILE = 'entry.json';
@@ -82,11 +82,21 @@ export function readArchiveEntries(dir: string): ArchiveEntry[] {
   return entries.sort((a, b) => a.issuedAt.localeCompare(b.issuedAt));
 }
 
+/** The region maps in the archive's `maps/` folder (pipeline/region-maps.ts), by source. */
+function regionMapsIn(dir: string): { source: string; file: string }[] {
+  const maps = join(dir, MAPS_FOLDER);
+  if (!existsSync(maps)) return [];
+  return readdirSync(maps)
+    .filter((f) => f.endsWith('.svg'))
+    .sort()
+    .map((f) => ({ source: f.slice(0, -4), file: `${MAPS_FOLDER}/${f}` }));
+}
+
 /** Keeps this run's entry and rewrites the whole archive site; returns the index path. */
 export function publishArchive(config: Pick<Config, 'delivery' | 'templates'>, entry: ArchiveEntry): string {
   const dir = config.delivery.archive;
   const runDir = join(dir, toToken(entry.runId));
   writeFileAtomic(join(runDir, ENTRY_FILE), JSON.stringify(entry), 'render');
-  writeArchive(dir, readArchiveEntries(dir), { templates: config.templates });
+  writeArchive(dir, readArchiveEntries(dir), { templates: config.templates, maps: regionMapsIn(dir) });
   return join(dir, 'index.html');
 }

@@ -2,7 +2,7 @@
  * One file read of the read stage: a file and a set of regions through an `Extractor` (this process, or a cluster's
  * workers), its series grouped by region and quantity; a file that fails is one problem, never a stopped run.
  */
-import type { RegionConfig, SourceConfig } from '../config/types.ts';
+import type { PopulationConfig, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import type { Extractor } from '../read/extract.ts';
 import type { RegionQuantities, RegionSeries } from '../types.ts';
@@ -39,6 +39,8 @@ export interface FileRequest {
   readonly notes?: string[];
   /** Folder of the region-weights cache (calibration.cache-dir), computed once per grid and region set. */
   readonly weightsCacheDir?: string;
+  /** The population raster of population-weighted regions (config `population:`). */
+  readonly population?: PopulationConfig | null;
   /** Files holding the next members of the same forecast, in member order (split-files.ts). */
   readonly moreMembers?: readonly string[];
 }
@@ -58,6 +60,7 @@ export async function readFile(
       referenceTime: request.referenceTime,
       tier: request.tier,
       weightsCacheDir: request.weightsCacheDir,
+      population: request.population ?? null,
       ...(request.moreMembers && request.moreMembers.length > 0 ? { moreMembers: request.moreMembers } : {}),
     });
     problems.push(...r.problems);

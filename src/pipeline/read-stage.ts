@@ -6,7 +6,8 @@ import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import type { HindcastRead, RegionQuantities } from '../types.ts';
-import { readFile, readInputFiles, regionCells, type SourceRead } from './read-file.ts';
+import { readFile, readInputFiles, regionCells, type FileRequest, type SourceRead } from './read-file.ts';
+import { readRegions } from '../config/region-views.ts';
 import type { HindcastFile, SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
@@ -44,7 +45,7 @@ export async function readHindcasts(
   problems: ForelightError[],
   forecastCells?: ReadonlyMap<string, number>,
   extract: Extractor = extractRegionSeries,
-  weightsCacheDir?: string,
+  weights: Pick<FileRequest, 'weightsCacheDir' | 'population'> = {},
 ): Promise<HindcastRead[]> {
   const out: HindcastRead[] = [];
   // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
@@ -56,7 +57,7 @@ export async function readHindcasts(
         h.files,
         source.variables,
         regions,
-        { referenceTime: h.start, tier: source.tier, weightsCacheDir },
+        { referenceTime: h.start, tier: source.tier, ...weights },
         own,
       ),
       own,
@@ -130,8 +131,8 @@ export async function readAll(
         extract,
         config.observations.path,
         config.observations.variables,
-        config.regions,
-        { weightsCacheDir: config.calibration.cacheDir },
+        readRegions(config),
+        { weightsCacheDir: config.calibration.cacheDir, population: config.population },
         problems,
       )
     : null;

@@ -39,6 +39,7 @@ import { buildBulletinRun, highestStageId, issuedRegionStages } from './bulletin
 import { tunedThresholds } from './decide-now.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
 import { missingData } from './missing-data.ts';
+import { writeRegionMaps } from './region-maps.ts';
 import { publishArchive } from './publish.ts';
 
 export interface RunOptions {
@@ -180,9 +181,10 @@ async function prepare(
 }
 
 /** The archive site is one output among others: a folder that cannot be written is reported, never stops delivery. */
-function publishOrReport(config: Config, entry: ArchiveEntry | null, log: Logger): string | null {
+async function publishOrReport(config: Config, entry: ArchiveEntry | null, log: Logger): Promise<string | null> {
   if (!entry) return null;
   try {
+    await writeRegionMaps(config, log);
     const index = publishArchive(config, entry);
     log.info('archive written', { stage: 'render', archive: index });
     return null;
@@ -246,7 +248,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
       }
       throw fault;
     }
-    const outputProblems = [publishOrReport(config, archive, rlog)].filter((p): p is string => p !== null);
+    const outputProblems = [await publishOrReport(config, archive, rlog)].filter((p): p is string => p !== null);
     const sent = await deliverPending(ledger, config.delivery, rlog, { ...options.deliver, runId });
     if (outputProblems.length > 0) {
       await sendOperatorNotice(

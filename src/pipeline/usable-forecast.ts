@@ -7,6 +7,7 @@
  * the file and why. Regions without cells or without values in the file used are problems too; their tier is then
  * held by the decide stage.
  */
+import { readRegions } from '../config/region-views.ts';
 import type { Config } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import type { Quantity, RegionQuantities } from '../types.ts';
@@ -44,8 +45,8 @@ async function gridMismatch(
     extract,
     first.files,
     { [quantity]: variable },
-    config.regions,
-    { referenceTime: first.start, tier: input.source.tier },
+    readRegions(config),
+    { referenceTime: first.start, tier: input.source.tier, weightsCacheDir: config.calibration.cacheDir, population: config.population },
     problems,
   );
   if (!hindcast) return null;
@@ -68,8 +69,14 @@ export async function readUsableForecast(
       extract,
       candidate.files,
       input.source.variables,
-      config.regions,
-      { referenceTime: candidate.date, tier: input.source.tier, notes, weightsCacheDir: config.calibration.cacheDir },
+      readRegions(config),
+      {
+        referenceTime: candidate.date,
+        tier: input.source.tier,
+        notes,
+        weightsCacheDir: config.calibration.cacheDir,
+        population: config.population,
+      },
       problems,
     );
     const at = candidateInputs(config, input, candidate, issueDate);

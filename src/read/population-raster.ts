@@ -11,6 +11,7 @@ import { existsSync, mkdirSync, renameSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
+import type { RasterExtent } from '../config/check-population.ts';
 import type { PopulationConfig } from '../config/types.ts';
 import { InputError } from '../core/errors.ts';
 import { sha256File } from '../core/file-checksums.ts';
@@ -37,13 +38,7 @@ export interface PopulationGrid {
   readonly extent: RasterExtent;
 }
 
-/** The raster's extent as read from its header (for `forelight check` and the coverage check). */
-export interface RasterExtent {
-  readonly south: number;
-  readonly north: number;
-  readonly west: number;
-  readonly east: number;
-}
+export type { RasterExtent };
 
 const isGeoTiff = (path: string) => /\.tiff?$/i.test(path);
 

@@ -4,11 +4,11 @@
  * The pieces p ∩ cell are the rectangles between the union of the cell's and the raster's edges, and each piece's
  * intersection with the region is the exact spherical area of overlap-area.ts, so weights = area share × people.
  */
-import { shapeBounds } from '../config/region-shape.ts';
+import { rasterCovers } from '../config/check-population.ts';
 import type { RegionConfig, Ring } from '../config/types.ts';
 import { InputError } from '../core/errors.ts';
 import type { LatLonGrid } from './coordinates.ts';
-import type { PopulationGrid, RasterExtent } from './population-raster.ts';
+import type { PopulationGrid } from './population-raster.ts';
 import { overlapAreas, shapePolygons, type FramedPolygon } from './region-overlap.ts';
 import { cellBounds, describeShape, type RegionCells } from './regions.ts';
 
@@ -51,16 +51,6 @@ function cellPeople(polygons: readonly FramedPolygon[], pop: PopulationGrid, s: 
     if (y >= 0 && x >= 0) people += pop.density[y * nCols + x] * area;
   }
   return people;
-}
-
-/** True when the raster's extent holds the region's extent (longitudes modulo 360). */
-export function rasterCovers(extent: RasterExtent, region: RegionConfig): boolean {
-  const b = region.shape.kind === 'box' ? region.shape : shapeBounds(region.shape);
-  const east = b.east < b.west ? b.east + 360 : b.east;
-  const eps = 1e-9;
-  if (b.south < extent.south - eps || b.north > extent.north + eps) return false;
-  if (extent.east - extent.west >= 360 - eps) return true;
-  return [-720, -360, 0, 360, 720].some((s) => b.west + s >= extent.west - eps && east + s <= extent.east + eps);
 }
 
 /**

@@ -59,7 +59,12 @@ export interface ArchiveOptions {
   readonly templates?: string;
   /** Locale of the index page; defaults to the newest entry's locale, else "en". */
   readonly locale?: string;
+  /** Region maps per source (`maps/<source>.svg`, what each region averages), linked from the index and region pages. */
+  readonly maps?: readonly { readonly source: string; readonly file: string }[];
 }
+
+/** Folder of the region maps inside the archive. */
+export const MAPS_FOLDER = 'maps';
 
 /** Write the whole archive under `dir`; returns the paths written (relative to `dir`). */
 export function writeArchive(dir: string, entries: readonly ArchiveEntry[], options: ArchiveOptions = {}): string[] {
@@ -111,9 +116,17 @@ export function writeArchive(dir: string, entries: readonly ArchiveEntry[], opti
       points: oldestFirst.map((i) => `${i.date}: ${i.stage.glyph} ${i.stage.label}`).join(', '),
     });
     put(`regions/${g.file.replace(/\.html$/, '.svg')}`, renderTimelineSvg(points, ladder, alt));
-    put(`regions/${g.file}`, env.render('archive-region.html.njk', locale, { region: g, timelineAlt: alt, timelineWidth: TIMELINE_WIDTH }));
+    put(
+      `regions/${g.file}`,
+      env.render('archive-region.html.njk', locale, {
+        region: g,
+        timelineAlt: alt,
+        timelineWidth: TIMELINE_WIDTH,
+        maps: options.maps ?? [],
+      }),
+    );
   }
-  put('index.html', env.render('archive-index.html.njk', locale, { runs, byRegion }));
+  put('index.html', env.render('archive-index.html.njk', locale, { runs, byRegion, maps: options.maps ?? [] }));
   return written;
 }
 

@@ -30,7 +30,17 @@ import type { Config, IndicatorConfig, RegionConfig, StageConfig } from '../conf
  */
 export type RenderConfig = Pick<
   Config,
-  'country' | 'countryNames' | 'teams' | 'indicators' | 'stages' | 'rules' | 'decision' | 'cautions' | 'probabilityWords' | 'templates'
+  | 'country'
+  | 'countryNames'
+  | 'teams'
+  | 'indicators'
+  | 'stages'
+  | 'rules'
+  | 'decision'
+  | 'cautions'
+  | 'probabilityWords'
+  | 'templates'
+  | 'population'
 > & { readonly delivery: Pick<Config['delivery'], 'from' | 'pdfChromium'> };
 
 export interface ForecastDate {

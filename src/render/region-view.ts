@@ -3,7 +3,9 @@
  * dates, how likely, how sure, action, what changed), the outlook strip (hazard × days/weeks/months), short
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
-import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
+import type { IndicatorConfig, RegionConfig, ThresholdSpec } from '../config/types.ts';
+import { basename } from 'node:path';
+import { indicatorDefinition } from '../indicators/registry.ts';
 import type { LeadProbability, Tier } from '../types.ts';
 import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
@@ -14,6 +16,7 @@ import { pastYearsShare, rangeWords, thresholdNumber, thresholdRangeWords, thres
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
   TIERS,
+  formatThreshold,
   groupLeads,
   leadView,
   noForecastView,
@@ -232,6 +235,25 @@ function cellLead(tv: TierView): LeadView | null {
   );
 }
 
+/** How the region's value of an indicator was formed (config region-value), for the technical note. */
+function regionValueLine(
+  t: Translate,
+  locale: string,
+  region: RegionConfig,
+  ind: IndicatorConfig | undefined,
+  raster: string | undefined,
+): string {
+  const value = ind?.regionValue ?? { weights: 'area' as const };
+  const args = {
+    rule: region.cellRule ?? 'overlap',
+    clock: regionClock(region).key,
+    weights: value.weights,
+    raster: raster ? basename(raster) : '',
+  };
+  if (value.shareAbove === undefined || !ind) return t('method.region', args);
+  return t('method.share', { ...args, level: formatThreshold(locale, value.shareAbove, indicatorDefinition(ind.kind).units) });
+}
+
 /** Everything the templates need about one region, for one locale and audience. */
 export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, locale: string, audience: string, t: Translate): RegionView {
   const lookup = stageIndex(config);
@@ -271,7 +293,7 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
   const indicators = ids.map((id): IndicatorView => {
     const own = tiers.filter((tv) => tv.indicatorId === id);
     const ind = indicatorOf(id);
-    const averaged = t('method.region', { rule: outcome.region.cellRule ?? 'overlap', clock: regionClock(outcome.region).key });
+    const averaged = regionValueLine(t, locale, outcome.region, ind, config.population?.file);
     return {
       id,
       hazard: own[0].hazard,

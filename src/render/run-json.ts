@@ -9,6 +9,9 @@
  *                                                                      //   place: { file, source, region, variable,
  *                                                                      //   indicator, ... }, message, hint }
  *   stages: [{ id, label: {locale: text}, glyph, colour }]            // the ladder, lowest first
+ *   indicators: [{ id, name, kind,
+ *     regionValue: { weights: "area"|"population", shareAbove: number|null,   // share-above: values are % of the
+ *                    populationRaster: path|null } }]                         //   region's area or people above it
  *   regions: [{
  *     id, name, stageId, previousStageId, changeReason,
  *     tiers: [{
@@ -44,6 +47,19 @@ export function renderRunJson(config: RenderConfig, run: BulletinRun, capAlerts:
     notes: run.notes ?? [],
     problems: run.problems ?? [],
     stages: config.stages.map((s) => ({ id: s.id, label: s.label, glyph: s.glyph, colour: s.colour })),
+    indicators: config.indicators.map((i) => {
+      const weights = i.regionValue?.weights ?? 'area';
+      return {
+        id: i.id,
+        name: i.name,
+        kind: i.kind,
+        regionValue: {
+          weights,
+          shareAbove: i.regionValue?.shareAbove ?? null,
+          populationRaster: weights === 'population' ? (config.population?.file ?? null) : null,
+        },
+      };
+    }),
     regions: run.regions.map((r) => ({
       id: r.region.id,
       name: r.region.name,

@@ -7,6 +7,7 @@
 import { checkBoxesBetweenCentres, checkRegionsAgainstGrids } from '../../config/check-grids.ts';
 import { checkConfigFile } from '../../config/load-config.ts';
 import { sourceGridExtents } from '../../pipeline/grid-extents.ts';
+import { populationProblems } from '../../pipeline/population-check.ts';
 import { unmatchedPatterns } from '../../pipeline/pattern-check.ts';
 import { diagnostic, formatDiagnostic, type Diagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
@@ -22,6 +23,7 @@ export async function checkCommand(args: ParsedArgs): Promise<number> {
     const extents = await sourceGridExtents(config);
     notes.push(...extents.notes);
     all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
+    all.push(...(await populationProblems(config, sourceMap)));
     all.push(...unmatchedPatterns(config, sourceMap));
     warnings.push(...checkBoxesBetweenCentres(config, extents.grids, sourceMap));
     const pdf = pdfUnavailable(config.delivery.pdfChromium);
