@@ -164,9 +164,23 @@ async function decodeTimeVariable(
   return mapper.toMs(raw, attr(unitsFrom, 'units') ?? '', attr(unitsFrom, 'calendar'), ds.path, info.name);
 }
 
+/**
+ * A reference time given only as an ISO 8601 attribute (`forecast_reference_time` or `reference_time`) of the lead
+ * variable or of the file, as some portals write it beside a `lead_time` axis (common practice, no source).
+ */
+function referenceAttribute(ds: Dataset): number | null {
+  const lead = ds.variables.find(isLead);
+  for (const key of REFERENCE_NAMES) {
+    const value = (lead ? attr(lead, key) : undefined) ?? ds.attributes[key];
+    const ms = typeof value === 'string' ? Date.parse(/[zZ]|[+-]\d\d:?\d\d$/.test(value) ? value : `${value.replace(' ', 'T')}Z`) : NaN;
+    if (!Number.isNaN(ms)) return ms;
+  }
+  return null;
+}
+
 async function findReference(ds: Dataset, mapper: TimeMapper): Promise<number | null> {
   const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
-  if (!ref) return null;
+  if (!ref) return referenceAttribute(ds);
   if (ref.shape.reduce((a, b) => a * b, 1) !== 1) {
     throw new InputError(
       'reference-several',
