@@ -14,14 +14,15 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
 import { loadConfig } from '../src/config/load-config.ts';
-import type { Config, IndicatorConfig, RegionConfig } from '../src/config/types.ts';
+import type { RegionConfig } from '../src/config/types.ts';
+import { BENCH_ISSUE_DATE, benchConfig, INDICATORS, QUANTITIES } from './bench-config.ts';
 import { decideStages } from '../src/decide/decide-stages.ts';
 import { EMPTY_HISTORY } from '../src/decide/types.ts';
 import { silentLogger } from '../src/core/log.ts';
 import { analyse } from '../src/pipeline/analyse.ts';
 import { tunedThresholds } from '../src/pipeline/decide-now.ts';
 import { extractRegionSeries } from '../src/read/extract.ts';
-import type { Quantity, RegionSeries } from '../src/types.ts';
+import type { RegionSeries } from '../src/types.ts';
 
 export interface BenchRegion {
   readonly id: string;
@@ -30,8 +31,6 @@ export interface BenchRegion {
   readonly west: number;
   readonly east: number;
 }
-
-const QUANTITIES: Partial<Record<Quantity, string>> = { tmax: 'tasmax', tmin: 'tasmin', dewpoint: 'tdps' };
 
 export function readBenchRegions(path: string): BenchRegion[] {
   return (JSON.parse(readFileSync(path, 'utf8')) as { regions: BenchRegion[] }).regions;
@@ -58,66 +57,6 @@ export async function extractBenchSeries(files: readonly string[], regions: read
   return all;
 }
 
-/** The four bench indicators, each against the 90th percentile of the model climate at the same lead. */
-const INDICATORS: readonly IndicatorConfig[] = (
-  [
-    ['tmax-3day', 'tmax-mean', 'max'],
-    ['tmin-3day', 'tmin-mean', 'mean'],
-    ['heat-index', 'heat-index', 'max'],
-    ['humidex', 'humidex', 'max'],
-  ] as const
-).map(([id, kind, aggregate]) => ({
-  id,
-  name: id,
-  kind,
-  windowDays: kind.endsWith('-mean') ? 3 : 1,
-  threshold: { kind: 'percentile', percentile: 90 },
-  regionThresholds: {},
-  aggregate,
-  tiers: ['weeks'],
-  params: {},
-}));
-
-/**
- * The shipped configuration narrowed to the bench: one sub-seasonal source (the forecast file, hindcasts by
- * pattern), the 20 bench boxes, four indicators with a "mindful" and a "brace" rule each, no observations.
- */
-export function benchConfig(
-  base: Config,
-  forecast: string,
-  hindcastPattern: string,
-  regions: readonly BenchRegion[],
-  cacheDir: string,
-): Config {
-  return {
-    ...base,
-    sources: [
-      {
-        id: 'bench',
-        name: 'bench ensemble',
-        tier: 'weeks',
-        forecast: [forecast],
-        hindcast: hindcastPattern,
-        variables: QUANTITIES,
-        priority: 1,
-        lookbackDays: 10,
-      },
-    ],
-    observations: null,
-    regions: regions.map(toRegionConfig),
-    teams: [],
-    indicators: INDICATORS,
-    rules: INDICATORS.flatMap((ind) => [
-      { id: `${ind.id}-mindful`, indicator: ind.id, tier: 'weeks' as const, leads: [1, 2, 3, 4, 5, 6], stage: 'mindful', probability: 0.4 },
-      { id: `${ind.id}-brace`, indicator: ind.id, tier: 'weeks' as const, leads: [1, 2, 3, 4, 5, 6], stage: 'brace', probability: 0.6 },
-    ]),
-    calibration: { ...base.calibration, cacheDir },
-  };
-}
-
-/** Issue date of the bench forecasts (make-large-inputs.ts). */
-const BENCH_ISSUE_DATE = '2026-11-26';
-
 /**
  * The timed work: Forelight's full pipeline (read → indicators → probabilities → stages) over the 20 boxes and
  * 4 indicators, the model climate of the hindcasts coming from the cache as in operations (the first run fills
@@ -134,7 +73,7 @@ export async function runForelightBench(
   }
   const base = await loadConfig();
   for (const file of files) {
-    const config = benchConfig(base, file, hindcastPattern, regions, join(dirname(file), 'cache'));
+    const config = benchConfig(base, file, hindcastPattern, regions.map(toRegionConfig), join(dirname(file), 'cache'));
     const analysis = await analyse(config, runContext({ issueDate: BENCH_ISSUE_DATE, log: silentLogger }));
     if (analysis.problems.length > 0)
       throw new Error(`${file}: ${analysis.problems.length} problems, first: ${formatDiagnostic(analysis.problems[0])}`);

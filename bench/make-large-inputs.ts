@@ -67,8 +67,21 @@ const globalGrid = (step: number): GridSpec => ({
   lons: axis(0, step, Math.round(360 / step)),
 });
 
-/** Writes one synthetic ensemble file: climatology by latitude and longitude + member/day anomalies + cell noise. */
-async function writeSynthetic(path: string, format: NcFormat, grid: GridSpec, start: string, members: number): Promise<number> {
+/** Short packing of the synthetic temperatures (K): 0.01 K steps around 273.15 K (common practice, no source). */
+const KELVIN_SHORTS = { scaleFactor: 0.01, addOffset: 273.15 } as const;
+
+/**
+ * Writes one synthetic ensemble file: climatology by latitude and longitude + member/day anomalies + cell noise;
+ * float32, or with `packed` shorts with scale_factor/add_offset (CF 1.8 §8.1), as many hindcast archives deliver them.
+ */
+export async function writeSynthetic(
+  path: string,
+  format: NcFormat,
+  grid: GridSpec,
+  start: string,
+  members: number,
+  packed = false,
+): Promise<number> {
   const nLat = grid.lats.length;
   const nLon = grid.lons.length;
   const base = new Float32Array(nLat * nLon);
@@ -83,7 +96,7 @@ async function writeSynthetic(path: string, format: NcFormat, grid: GridSpec, st
     grid,
     start: new Date(`${start}T00:00:00Z`),
     days: DAYS,
-    variables: VARIABLES,
+    variables: packed ? VARIABLES.map((v) => ({ ...v, packing: KELVIN_SHORTS })) : VARIABLES,
     globalAttributes: {
       title: 'Forelight benchmark input (synthetic)',
       source: 'bench/make-large-inputs.ts',
@@ -140,7 +153,8 @@ export async function makeBenchInputs(mode: BenchMode, opts: { huge?: boolean; l
   return { ...inputs, huge };
 }
 
-if (process.argv[1] === fileURLToPath(import.meta.url)) {
+// Not when bundled into another entry (import.meta.url is then the bundle's).
+if (import.meta.url.endsWith('.ts') && process.argv[1] === fileURLToPath(import.meta.url)) {
   const mode: BenchMode = process.argv.includes('--small') ? 'small' : 'full';
   const inputs = await makeBenchInputs(mode, { huge: process.argv.includes('--huge'), log: (l) => process.stdout.write(`${l}\n`) });
   process.stdout.write(`${JSON.stringify(inputs, null, 2)}\n`);

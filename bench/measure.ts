@@ -1,6 +1,6 @@
 /**
  * Timing helpers of the benchmark: run a command as a child, measure its wall time and peak resident set
- * size (GNU time `%M`, i.e. getrusage ru_maxrss of the child and the descendants it waited for), and
+ * size and CPU time (GNU time `%M`, `%U`, `%S`, i.e. getrusage ru_maxrss of the child and the descendants it waited for), and
  * describe the machine.
  */
 import { execFileSync, spawn } from 'node:child_process';
@@ -12,6 +12,8 @@ export interface Measurement {
   readonly seconds: number;
   /** Peak RSS in KiB, or NaN when GNU time is not installed. */
   readonly maxRssKb: number;
+  /** User + system CPU seconds of the child and its waited-for descendants (GNU time `%U + %S`), or NaN. */
+  readonly cpuSeconds: number;
   readonly stdout: string;
 }
 
@@ -20,7 +22,7 @@ const GNU_TIME = '/usr/bin/time';
 /** Runs `argv` to completion; throws with its stderr tail when it fails. */
 export async function measure(argv: readonly string[], cwd: string): Promise<Measurement> {
   const rssFile = join(tmpdir(), `forelight-bench-rss-${process.pid}.txt`);
-  const withTime = existsSync(GNU_TIME) ? [GNU_TIME, '-f', '%M', '-o', rssFile, ...argv] : [...argv];
+  const withTime = existsSync(GNU_TIME) ? [GNU_TIME, '-f', '%M %U %S', '-o', rssFile, ...argv] : [...argv];
   const began = performance.now();
   const { code, stdout, stderr } = await new Promise<{ code: number | null; stdout: string; stderr: string }>((resolve, reject) => {
     const child = spawn(withTime[0], withTime.slice(1), { cwd, stdio: ['ignore', 'pipe', 'pipe'] });
@@ -37,12 +39,13 @@ export async function measure(argv: readonly string[], cwd: string): Promise<Mea
     const why = lines.find((l) => /^\w*Error\b|^Error:|^Warning|^cdo/.test(l.trim())) ?? lines.at(-1) ?? '';
     throw new Error(`${argv.slice(0, 3).join(' ')} … exited with ${code}: ${why.trim()}`);
   }
-  let maxRssKb = NaN;
+  let [maxRssKb, cpuSeconds] = [NaN, NaN];
   if (existsSync(rssFile)) {
-    maxRssKb = Number(readFileSync(rssFile, 'utf8').trim().split('\n').at(-1));
+    const [rss, user, sys] = (readFileSync(rssFile, 'utf8').trim().split('\n').at(-1) ?? '').split(' ').map(Number);
+    [maxRssKb, cpuSeconds] = [rss, user + sys];
     rmSync(rssFile);
   }
-  return { seconds, maxRssKb, stdout };
+  return { seconds, maxRssKb, cpuSeconds, stdout };
 }
 
 /** Median; NaN when empty or when any run failed (NaN). */

@@ -4,7 +4,7 @@ cos(latitude)-weighted box mean of every region for every variable, member and t
     /usr/bin/python3 bench/python-baseline.py REGIONS_JSON OUT_JSON FILE [FILE ...]
 
 Boxes are in degrees with longitudes -180..180; the file grid may use 0..360. A cell belongs to a box when
-its centre lies inside (edges inclusive). OUT_JSON gets {file: {region: {variable: [[member][time]]}}}.
+its centre lies inside (edges inclusive). OUT_JSON ("-": none) gets {file: {region: {variable: [[member][time]]}}}.
 """
 import json
 import sys
@@ -45,10 +45,11 @@ def main():
                     valid = ~np.isnan(sub)
                     means[rid][:, t] = np.where(valid, sub, 0.0).reshape(nm, -1) @ w.ravel() / (valid.reshape(nm, -1) @ w.ravel())
             for rid in means:
-                out[rid][name] = means[rid].tolist()
+                out[rid][name] = means[rid]
         ds.close()
         results[path] = out
-    json.dump(results, open(sys.argv[2], "w"))
+    if sys.argv[2] != "-":  # "-": the means stay in memory (timing only)
+        json.dump({p: {r: {v: a.tolist() for v, a in o.items()} for r, o in f.items()} for p, f in results.items()}, open(sys.argv[2], "w"))
 
 
 main()

@@ -30,11 +30,22 @@ function star(cx: number, cy: number, radius: number, rnd: () => number, n = 60)
   return ring;
 }
 
-export function inventedDistricts(count: number): RegionConfig[] {
+/** Where district centres fall (degrees); the default, the whole world between 60° S and 60° N, also puts every 50th on 180°. */
+export interface DistrictArea {
+  readonly south: number;
+  readonly north: number;
+  readonly west: number;
+  readonly east: number;
+}
+
+const WORLD: DistrictArea = { south: -60, north: 60, west: -180, east: 180 };
+
+export function inventedDistricts(count: number, area: DistrictArea = WORLD): RegionConfig[] {
   const rnd = lehmer(20261202);
+  const world = area === WORLD;
   return Array.from({ length: count }, (_, i) => {
-    const cx = i % 50 === 0 ? 179.5 : -180 + 360 * rnd();
-    const cy = -60 + 120 * rnd();
+    const cx = world && i % 50 === 0 ? 179.5 : area.west + (area.east - area.west) * rnd();
+    const cy = area.south + (area.north - area.south) * rnd();
     const radius = 0.3 + 0.9 * rnd();
     const rings = [star(cx, cy, radius, rnd)];
     if (i % 10 === 0) rings.push(star(cx, cy, radius * 0.3, rnd, 12).reverse());
@@ -83,4 +94,6 @@ export function regionWeightsBench(): string[] {
   ];
 }
 
-if (process.argv[1] === fileURLToPath(import.meta.url)) process.stdout.write(`${regionWeightsBench().join('\n')}\n`);
+// Not when bundled into another entry (import.meta.url is then the bundle's).
+if (import.meta.url.endsWith('.ts') && process.argv[1] === fileURLToPath(import.meta.url))
+  process.stdout.write(`${regionWeightsBench().join('\n')}\n`);

@@ -1,5 +1,6 @@
 /**
- * Side-by-side benchmark (`npm run bench -- [--small] [--runs N] [--huge]`): for each input set,
+ * Side-by-side benchmark (`npm run bench -- [--small] [--runs N] [--huge]`; the continental set with
+ * `npm run bench -- --set continental [--scale S] [--runs N] [--keep]`, see bench/continental/): for each input set,
  *   (a) Forelight (bench/forelight-entry.ts, bundled by bin/build.mjs as the `forelight` command is, in a child
  *       process, peak RSS measured),
  *   (b) the CDO script a user would write (bench/cdo-baseline.sh, one cdo call per box),
@@ -16,6 +17,7 @@ import { fileURLToPath } from 'node:url';
 import { makeBenchInputs, type BenchMode } from './make-large-inputs.ts';
 import { regionWeightsBench } from './region-weights-bench.ts';
 import { describeMachine, measure, median } from './measure.ts';
+import { runContinental } from './continental/run-continental.ts';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
 const REGIONS = join(ROOT, 'bench', 'regions.json');
@@ -160,7 +162,14 @@ function formatTable(results: readonly SetResult[], runs: number): string[] {
   return lines;
 }
 
-if (process.argv[1] === fileURLToPath(import.meta.url)) {
+if (process.argv[1] === fileURLToPath(import.meta.url) && argValue('--set') === 'continental') {
+  const scale = Number(argValue('--scale') ?? 1);
+  if (!(scale > 0 && scale <= 1)) throw new Error(`--scale must be a number in (0, 1], got ${argValue('--scale')}`);
+  const runs = Number(argValue('--runs') ?? 1);
+  if (!Number.isInteger(runs) || runs < 1) throw new Error(`--runs must be a positive integer, got ${argValue('--runs')}`);
+  process.stdout.write(`${(await runContinental(scale, runs, process.argv.includes('--keep'))).join('\n')}\n`);
+} else if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  if (argValue('--set') !== undefined) throw new Error(`--set: the only extra set is 'continental', got ${argValue('--set')}`);
   process.stdout.write(`${regionWeightsBench().join('\n')}\n\n`);
   if (process.argv.includes('--weights-only')) process.exit(0);
   const mode: BenchMode = process.argv.includes('--small') ? 'small' : 'full';

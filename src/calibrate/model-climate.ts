@@ -12,6 +12,7 @@ import type { IndicatorClimatology } from '../indicators/compute.ts';
 import { indicatorInputs, regionIndicator } from './region-indicator.ts';
 import type { HindcastRead, IndicatorSeries, RegionQuantities } from '../types.ts';
 import { stackYears, type LeadClimate } from './climate.ts';
+import { sameLeadMonths } from './month-true.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
 import { leadCases, skillReports, type SkillReport } from './skill.ts';
@@ -153,9 +154,14 @@ export function buildIndicatorClimate(
     problems.push(within(first, `${files} hindcast file(s) of ${source.id}, region ${region.id}`, place));
   if (hcYears.length === 0) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const what = `${source.id} hindcasts for ${region.id} (${ind.id})`;
-  const hc = stackYears(what, units, hcYears, place);
+  const pooled = tier === 'months' ? sameLeadMonths(what, hcYears, config.calibration.minHindcastYears, place) : null;
+  if (pooled) problems.push(...pooled.problems);
+  const keep = new Set(pooled?.kept ?? hcYears);
+  const hc = stackYears(what, units, pooled?.kept ?? hcYears, place);
+  // Observed entries were pushed beside the hindcast ones (same positions): keep the same starts.
+  const obsKept = obsYears.filter((_, i) => keep.has(hcYears[i]));
   const obs =
-    obsYears.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsYears, place) : { climate: null, problems: [] };
+    obsKept.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsKept, place) : { climate: null, problems: [] };
   problems.push(...hc.problems, ...obs.problems);
   if (!hc.climate) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const skill = skillReports({
@@ -165,6 +171,7 @@ export function buildIndicatorClimate(
     stageProbabilities: ruleProbabilities(config, ind, tier),
     gate: config.decision.skillGate,
     minHindcastYears: config.calibration.minHindcastYears,
+    outOfSampleValue: true,
   });
   const tuned = tuneCostLoss(config, ind, source, region, hc.climate, obs.climate);
   return { hindcast: hc.climate, observed: obs.climate, skill, tuned, problems };

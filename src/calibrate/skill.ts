@@ -81,7 +81,7 @@ export interface SkillReport {
   readonly stages: readonly StageScores[];
   /** Value envelope over cost/loss 0.05..0.95, thresholds chosen and judged on the same cases (in-sample). */
   readonly value: readonly ValuePoint[];
-  /** The same curve judged out of sample (leave-one-year-out thresholds), with 90 % bootstrap intervals. */
+  /** The same curve judged out of sample (leave-one-year-out thresholds), with 90 % bootstrap intervals; empty unless asked. */
   readonly outOfSampleValue: readonly OutOfSampleValue[];
   readonly flags: readonly string[];
   readonly summary: SkillSummary;
@@ -214,7 +214,7 @@ export function scoreCases(
     reliabilityTable: usable ? reliabilityTable(p, o) : [],
     stages,
     value: usable ? valueEnvelope(p, o) : [],
-    outOfSampleValue: usable ? outOfSampleValueCurve(cases, VALUE_ALPHAS, { resamples: gate.resamples, seed: gate.seed }) : [],
+    outOfSampleValue: [],
     flags: allFlags,
     summary: {
       brierScore: bs,
@@ -242,6 +242,8 @@ export interface SkillRequest {
   readonly stageProbabilities: readonly number[];
   readonly gate: SkillGate;
   readonly minHindcastYears: number;
+  /** Also judge the value curve leave-one-year-out per lead (trigger-tuning.ts; costly: 19 cost/loss ratios × years). */
+  readonly outOfSampleValue?: boolean;
 }
 
 /** Verification cases of every hindcast lead: against observations where they cover the lead, else perfect-model. */
@@ -267,10 +269,18 @@ export function skillReports(req: SkillRequest): SkillReport[] {
   const verdicts = gateByLead(leads, req.gate);
   return leads.map((lc) => {
     const extra = lc.basis === 'potential' ? [`potential skill only: ${lc.why}`] : [];
-    return scoreCases(lc.lead, lc.basis, lc.cases, req.stageProbabilities, req.gate, verdicts.get(lc.lead.index) as SkillGateResult, [
-      ...flags,
-      ...extra,
-    ]);
+    const report = scoreCases(
+      lc.lead,
+      lc.basis,
+      lc.cases,
+      req.stageProbabilities,
+      req.gate,
+      verdicts.get(lc.lead.index) as SkillGateResult,
+      [...flags, ...extra],
+    );
+    if (!req.outOfSampleValue || lc.cases.p.length === 0) return report;
+    const options = { resamples: req.gate.resamples, seed: req.gate.seed };
+    return { ...report, outOfSampleValue: outOfSampleValueCurve(lc.cases, VALUE_ALPHAS, options) };
   });
 }
 

@@ -462,6 +462,13 @@ export const DIAGNOSTIC_CODES = {
     fix: 'regenerate it with the same ensemble',
   },
   'hindcast-none': { stage: 'calibrate', severity: 'warning', meaning: 'no hindcast year was usable', fix: 'provide hindcast files' },
+  'climate-mixed-months': {
+    stage: 'calibrate',
+    severity: 'warning',
+    meaning:
+      'hindcast starts of the months tier begin their month leads in different calendar months and too few share one; every start is pooled, mixing months',
+    fix: 'provide hindcast starts on the same day of the month as the forecast, or narrow calibration.window-days',
+  },
   'lead-date': { stage: 'calibrate', severity: 'error', meaning: 'a local day is not YYYY-MM-DD (internal)', fix: 'report it' },
   'lead-days-gap': {
     stage: 'calibrate',

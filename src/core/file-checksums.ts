@@ -1,7 +1,8 @@
 /**
  * sha256 of input files, streamed (never a whole file in memory), remembered per (path, size, mtime) in
  * `<cacheDir>/file-sha256.json` so that the 20 hindcast files of a source are hashed once per version, not on
- * every run. A file whose size or modification time changed is hashed again.
+ * every run. A file whose size or modification time changed is hashed again. Within one process a file is hashed
+ * once however many memos ask (configurations issued together).
  */
 import { createHash } from 'node:crypto';
 import { createReadStream, statSync } from 'node:fs';
@@ -45,6 +46,12 @@ export interface ChecksumMemo {
 
 const isMemo = jsonShape<Record<string, string>>({ type: 'object', additionalProperties: { type: 'string', pattern: '^[0-9a-f]{64}$' } });
 
+/**
+ * Hashes done or under way in this process, by path, size and modification time: configurations run together (each
+ * with its own memo file) hash a shared file once.
+ */
+const inProcess = new Map<string, Promise<string>>();
+
 export async function openChecksumMemo(cacheDir: string | null): Promise<ChecksumMemo> {
   const file = cacheDir ? join(cacheDir, 'file-sha256.json') : null;
   let known: Record<string, string> = {};
@@ -68,7 +75,12 @@ export async function openChecksumMemo(cacheDir: string | null): Promise<Checksu
       }
       const hit = known[key];
       if (hit) return hit;
-      const sum = await sha256File(path);
+      let hashing = inProcess.get(key);
+      if (!hashing) {
+        inProcess.set(key, (hashing = sha256File(path)));
+        hashing.catch(() => inProcess.delete(key));
+      }
+      const sum = await hashing;
       known[key] = sum;
       dirty = true;
       return sum;
