@@ -49,6 +49,11 @@ export function countryName(config: RenderConfig, locale: string): string {
   return applyTypography(locale, config.countryNames[locale] ?? config.country);
 }
 
+/** "Hazard: how its region value was formed", once per distinct line over the regions (the PDF's short note). */
+function regionValueLines(regions: readonly RegionView[]): string[] {
+  return [...new Set(regions.flatMap((r) => r.indicators.map((ind) => `${ind.hazard}: ${ind.regionValue}`)))];
+}
+
 /** Template variables for one audience (`team` null for the archive) in one locale. */
 export function bulletinContext(
   config: RenderConfig,
@@ -78,5 +83,6 @@ export function bulletinContext(
     highest: top.stage,
     topRegions: top.names.join(t('list.separator')),
     nationalRows: nationalRows(regions),
+    regionValues: regionValueLines(regions),
   };
 }

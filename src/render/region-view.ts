@@ -53,6 +53,8 @@ export interface IndicatorView {
   readonly hazard: string;
   /** Technical name and method of the indicator (technical note only). */
   readonly method: string;
+  /** How the region's value was formed: area or population mean, or share above a level (ends `method`; PDF note). */
+  readonly regionValue: string;
   readonly tiers: readonly TierView[];
 }
 
@@ -300,6 +302,7 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
       id,
       hazard: own[0].hazard,
       method: `${ind ? t(`method.${ind.kind}`, { days: ind.windowDays }) : own[0].hazard} ${averaged}`,
+      regionValue: averaged,
       tiers: own,
     };
   });
