@@ -10,9 +10,9 @@ import type { ChecksumMemo } from '../core/file-checksums.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { IndicatorClimatology } from '../indicators/compute.ts';
 import { indicatorInputs, regionIndicator } from './region-indicator.ts';
-import type { HindcastRead, IndicatorSeries, RegionQuantities } from '../types.ts';
+import type { HindcastRead, IndicatorSeries, IsoDate, RegionQuantities } from '../types.ts';
 import { stackYears, type LeadClimate } from './climate.ts';
-import { sameLeadMonths } from './month-true.ts';
+import { monthOneOf, sameLeadMonths } from './month-true.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
 import { leadCases, skillReports, type SkillReport } from './skill.ts';
@@ -115,7 +115,10 @@ function tuneCostLoss(
   return tuned;
 }
 
-/** Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator. */
+/**
+ * Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator,
+ * for a forecast whose lead day 1 in this region is `forecastFirstDay` (it decides the months pooled).
+ */
 export function buildIndicatorClimate(
   config: CalibrateConfig,
   source: SourceConfig,
@@ -125,6 +128,7 @@ export function buildIndicatorClimate(
   observed: RegionQuantities | null,
   climatology: IndicatorClimatology,
   memo: ObservedIndicators,
+  forecastFirstDay: IsoDate,
 ): IndicatorClimate {
   const problems: Diagnostic[] = [];
   const tier = source.tier;
@@ -154,7 +158,8 @@ export function buildIndicatorClimate(
     problems.push(within(first, `${files} hindcast file(s) of ${source.id}, region ${region.id}`, place));
   if (hcYears.length === 0) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const what = `${source.id} hindcasts for ${region.id} (${ind.id})`;
-  const pooled = tier === 'months' ? sameLeadMonths(what, hcYears, config.calibration.minHindcastYears, place) : null;
+  const pooled =
+    tier === 'months' ? sameLeadMonths(what, hcYears, monthOneOf(forecastFirstDay), config.calibration.minHindcastYears, place) : null;
   if (pooled) problems.push(...pooled.problems);
   const keep = new Set(pooled?.kept ?? hcYears);
   const hc = stackYears(what, units, pooled?.kept ?? hcYears, place);

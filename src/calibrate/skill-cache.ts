@@ -15,7 +15,7 @@ import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
 import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { SourceConfig } from '../config/types.ts';
-import type { HindcastRead } from '../types.ts';
+import type { HindcastRead, IsoDate } from '../types.ts';
 import { buildIndicatorClimate, tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
 import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
@@ -103,13 +103,15 @@ function rasterChecksum(ctx: CalibrateContext, file: string): Promise<string> {
 
 /**
  * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
- * observation files and the configuration are unchanged, else `readHindcasts()` and `buildIndicatorClimate`, stored.
+ * observation files, the configuration and the forecast's lead day 1 are unchanged, else `readHindcasts()` and
+ * `buildIndicatorClimate`, stored. `forecastFirstDay(region)` is the forecast's lead day 1 in that region.
  */
 export async function cachedClimates(
   ctx: CalibrateContext,
   source: SourceConfig,
   hindcastFiles: readonly string[],
   readHindcasts: () => Promise<readonly HindcastRead[]>,
+  forecastFirstDay: (region: string) => IsoDate,
 ): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
   const { config } = ctx;
   if (hindcastFiles.length === 0) return { climates: new Map(), fromCache: false, cacheNote: '' };
@@ -123,6 +125,7 @@ export async function cachedClimates(
       rules: config.rules,
       gate: config.decision.skillGate,
       calibration: config.calibration,
+      forecastFirstDays: config.regions.map((r) => forecastFirstDay(r.id)),
       population: config.population ? { ...config.population, sha256: await rasterChecksum(ctx, config.population.file) } : null,
     }),
     memo: ctx.checksums,
@@ -131,7 +134,17 @@ export async function cachedClimates(
     const hindcasts = await readHindcasts();
     return tierPairs(config, source.tier).map(({ region, ind }): StoredClimate => {
       const climatology = ctx.climatology.get(region.id) ?? {};
-      const c = buildIndicatorClimate(config, source, region, ind, hindcasts, ctx.observed, climatology, ctx.observedMemo);
+      const c = buildIndicatorClimate(
+        config,
+        source,
+        region,
+        ind,
+        hindcasts,
+        ctx.observed,
+        climatology,
+        ctx.observedMemo,
+        forecastFirstDay(region.id),
+      );
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
     });
   };

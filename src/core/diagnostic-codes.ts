@@ -466,7 +466,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'calibrate',
     severity: 'warning',
     meaning:
-      'hindcast starts of the months tier begin their month leads in different calendar months and too few share one; every start is pooled, mixing months',
+      "hindcast starts of the months tier begin their month leads in other calendar months than the forecast and too few share the forecast's; every start is pooled, mixing months",
     fix: 'provide hindcast starts on the same day of the month as the forecast, or narrow calibration.window-days',
   },
   'lead-date': { stage: 'calibrate', severity: 'error', meaning: 'a local day is not YYYY-MM-DD (internal)', fix: 'report it' },

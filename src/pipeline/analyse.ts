@@ -6,6 +6,7 @@
 import { readRegions } from '../config/region-views.ts';
 import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
+import { addDays } from '../core/iso-dates.ts';
 import { combineOutcomes } from '../calibrate/combine-outcomes.ts';
 import { regionClimatology } from '../calibrate/indicator-context.ts';
 import type { CalibrateContext } from '../calibrate/model-climate.ts';
@@ -113,8 +114,15 @@ async function calibrateSource(
         weightsCacheDir: config.calibration.cacheDir,
         population: config.population,
       }),
+    (region) => forecastFirstDay(read, region),
   );
   return sourceProbabilities(ctx, read, model);
+}
+
+/** The forecast's lead day 1 in a region: its first local day, else (region not in the forecast) the day after its date. */
+function forecastFirstDay(read: SourceRead, region: string): IsoDate {
+  const first = read.series.get(region)?.values().next().value;
+  return first?.days[0] ?? addDays(read.date, 1);
 }
 
 /** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */
