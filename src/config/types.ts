@@ -73,7 +73,7 @@ export interface RegionConfig {
   /** Default `overlap`. */
   readonly cellRule?: CellRule;
   /**
-   * Set only on the read stage's derived regions (pipeline/region-values.ts): `population` weights each cell by
+   * Set only on the read stage's derived regions (config/region-views.ts): `population` weights each cell by
    * the people of the population raster living in cell ∩ region instead of its area; `keepCells` also returns
    * every cell's own series (for indicators whose region value is a share above a level).
    */

@@ -61,6 +61,25 @@ describe('ensemble dimension names (no standard_name: found by name)', () => {
   });
 });
 
+describe('member dimension named otherwise and moved (ncrename then ncpdq)', () => {
+  it.each([
+    ['realization', 'realization,time,lat,lon'],
+    ['member', 'lat,member,lon,time'],
+    ['ensemble', 'time,lon,lat,ensemble'],
+  ])('%s in order %s', async (name, order) => {
+    const file = variant(
+      'grid360.nc',
+      ['ncatted', '-O', '-a', 'standard_name,number,d,,'],
+      ['ncrename', '-O', '-d', `number,${name}`, '-v', `number,${name}`],
+      ['ncpdq', '-O', '-a', order, '{f}'],
+    );
+    const ds = await openDataset(file);
+    expect(ds.variable('t2m')?.dimensions).toEqual(order.split(','));
+    await ds.close();
+    await expectKessanAsCdo(file);
+  });
+});
+
 describe('dimension order, height coordinate, fill values', () => {
   it.each([
     ['lon,lat,time,number', 'classic'],
@@ -116,5 +135,62 @@ describe('dimension order, height coordinate, fill values', () => {
       box: { south: -9, north: -6.5, west: -1.5, east: 1.5 },
     });
     expect(marrow).toEqual(original);
+  });
+});
+
+/** cdo fldmean -sellonlatbox of a file made at test time, per member and step (cdo applies fill and packing itself). */
+function cdoBox(file: string, box: { south: number; north: number; west: number; east: number }): number[][] {
+  const lonlat = `-sellonlatbox,${box.west},${box.east},${box.south},${box.north}`;
+  const out = execFileSync('cdo', ['-s', '--precision', '12', 'outputtab,date,lev,value', '-fldmean', lonlat, file], { encoding: 'utf8' });
+  const members: number[][] = [];
+  for (const line of out.split('\n')) {
+    const f = line.trim().split(/\s+/);
+    if (!line.startsWith('#') && f.length === 3) (members[Number(f[1])] ??= []).push(Number(f[2]));
+  }
+  return members;
+}
+
+async function expectAsCdo(file: string, box: { south: number; north: number; west: number; east: number }): Promise<void> {
+  const got = await extractBoxJson(file, { variable: 't2m', box });
+  const cdo = cdoBox(file, box);
+  expect(got.members).toHaveLength(cdo.length);
+  got.members.forEach((row, m) => row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - cdo[m][t])).toBeLessThanOrEqual(1e-4)));
+}
+
+const MARROW = { south: -9, north: -6.5, west: -1.5, east: 1.5 };
+
+describe('fill values of another type and packed data, each against cdo on the same file', () => {
+  // CF 1.11 §2.5.1: _FillValue should have the variable's type; ncatted writes a double one on float data anyway,
+  // as converted files do. The fixture's one missing cell lies in marrow-highlands.
+  it('a double _FillValue on float data (ncatted -a _FillValue,t2m,o,d,-9999)', async () => {
+    const file = variant('grid360.nc', ['ncatted', '-O', '-a', '_FillValue,t2m,o,d,-9999']);
+    const ds = await openDataset(file);
+    expect(ds.variable('t2m')?.attributes._FillValue).toBe(-9999);
+    await ds.close();
+    await expectAsCdo(file, KESSAN);
+    await expectAsCdo(file, MARROW);
+  });
+
+  // CF 1.11 §8.1 packed data: unpacked = packed × scale_factor + add_offset; ncpdq -P all_new packs float to short.
+  it('short data with scale_factor/add_offset (ncpdq -P all_new), missing cell kept missing', async () => {
+    const file = variant('grid360.nc', ['ncpdq', '-O', '-P', 'all_new', '{f}']);
+    const ds = await openDataset(file);
+    const attrs = ds.variable('t2m')?.attributes;
+    expect(typeof attrs?.scale_factor).toBe('number');
+    expect(typeof attrs?.add_offset).toBe('number');
+    await ds.close();
+    expect(execFileSync('ncdump', ['-h', file], { encoding: 'utf8' })).toMatch(/short t2m\(/);
+    await expectAsCdo(file, KESSAN);
+    await expectAsCdo(file, MARROW);
+  });
+
+  it('short data packed with a double missing_value and no _FillValue', async () => {
+    const file = variant(
+      'grid360.nc',
+      ['ncpdq', '-O', '-P', 'all_new', '{f}'],
+      ['ncatted', '-O', '-a', 'missing_value,t2m,o,d,-9999', '-a', '_FillValue,t2m,d,,'],
+    );
+    await expectAsCdo(file, KESSAN);
+    await expectAsCdo(file, MARROW);
   });
 });

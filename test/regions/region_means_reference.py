@@ -1,7 +1,8 @@
 """Writes a CF NetCDF file with netCDF4-python (Unidata) and prints area-weighted region means computed from
 shapely cell weights (overlap_reference.py). argv: output .nc path; stdin: {"regions": [{"id", "geometry"}]}.
 Field: tas = 280 + 15 cos(lat) + 5 sin(2 lon) + day (K), 1° global grid with lat_bnds/lon_bnds, 3 daily steps.
-stdout: {id: [mean of day 0, 1, 2] in degC}.
+stdout: {id: [mean of day 0, 1, 2] in degC}; with "share_above_c": L in stdin instead {id: [% of the region's
+area whose cell value exceeds L °C (strictly), day 0, 1, 2]}.
 """
 import json
 import sys
@@ -34,9 +35,15 @@ with netCDF4.Dataset(path, "w", format="NETCDF3_CLASSIC") as nc:
     v = nc.createVariable("tas", "f4", ("time", "lat", "lon")); v.units = "K"; v.standard_name = "air_temperature"; v[:] = field
 
 stored = np.asarray(netCDF4.Dataset(path).variables["tas"][:], dtype=float)  # float32 as stored
+request = json.load(sys.stdin)
+level = request.get("share_above_c")
 out = {}
-for r in json.load(sys.stdin)["regions"]:
+for r in request["regions"]:
     w = cell_weights(framed_polygons(r["geometry"]), lat_b.tolist(), lon_b.tolist())
     ys = np.array([c[0] for c in w]); xs = np.array([c[1] for c in w]); ws = np.array([c[2] for c in w])
-    out[r["id"]] = [float((stored[t, ys, xs] * ws).sum() / ws.sum() - 273.15) for t in range(days)]
+    celsius = [stored[t, ys, xs] - 273.15 for t in range(days)]
+    if level is None:
+        out[r["id"]] = [float((celsius[t] * ws).sum() / ws.sum()) for t in range(days)]
+    else:
+        out[r["id"]] = [float(100 * ws[celsius[t] > level].sum() / ws.sum()) for t in range(days)]
 json.dump(out, sys.stdout)
