@@ -12,7 +12,7 @@ import type { IndicatorClimatology } from '../indicators/compute.ts';
 import { indicatorInputs, regionIndicator } from './region-indicator.ts';
 import type { HindcastRead, IndicatorSeries, IsoDate, RegionQuantities } from '../types.ts';
 import { stackYears, type LeadClimate } from './climate.ts';
-import { monthOneOf, sameLeadMonths } from './month-true.ts';
+import { sameLeadMonths } from './month-true.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
 import { leadCases, skillReports, type SkillReport } from './skill.ts';
@@ -117,7 +117,7 @@ function tuneCostLoss(
 
 /**
  * Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator,
- * for a forecast whose lead day 1 in this region is `forecastFirstDay` (it decides the months pooled).
+ * for a forecast whose lead 1 begins on `forecastLeadOne` (it decides the months pooled; null when the forecast has none).
  */
 export function buildIndicatorClimate(
   config: CalibrateConfig,
@@ -128,7 +128,7 @@ export function buildIndicatorClimate(
   observed: RegionQuantities | null,
   climatology: IndicatorClimatology,
   memo: ObservedIndicators,
-  forecastFirstDay: IsoDate,
+  forecastLeadOne: IsoDate | null,
 ): IndicatorClimate {
   const problems: Diagnostic[] = [];
   const tier = source.tier;
@@ -159,7 +159,9 @@ export function buildIndicatorClimate(
   if (hcYears.length === 0) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const what = `${source.id} hindcasts for ${region.id} (${ind.id})`;
   const pooled =
-    tier === 'months' ? sameLeadMonths(what, hcYears, monthOneOf(forecastFirstDay), config.calibration.minHindcastYears, place) : null;
+    tier === 'months'
+      ? sameLeadMonths(what, hcYears, forecastLeadOne?.slice(5, 7) ?? '', config.calibration.minHindcastYears, place)
+      : null;
   if (pooled) problems.push(...pooled.problems);
   const keep = new Set(pooled?.kept ?? hcYears);
   const hc = stackYears(what, units, pooled?.kept ?? hcYears, place);

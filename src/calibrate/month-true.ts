@@ -1,31 +1,24 @@
 /**
  * Month-true pooling for the months tier. Hindcast starts within ±window-days of the forecast's day of year can
  * begin their month leads in different calendar months (a start on 12 Nov has month 1 = December, one on 9 Dec has
- * month 1 = January); stacking them by lead position would pool December with January. The forecast's own start
- * decides: only the starts whose month 1 is the forecast's month 1 are kept, so every month lead pools the calendar
+ * month 1 = January); stacking them by lead position would pool December with January. The forecast's own month 1
+ * (of its indicator, after any lag) decides: only the starts whose month 1 is the same calendar month are kept, so every month lead pools the calendar
  * month the forecast speaks of. When the kept starts would number fewer distinct years than `minYears` (or none
  * share the forecast's month), the mixing cannot be avoided: every start is pooled and a `climate-mixed-months`
  * diagnostic says so. Common practice (no source): seasonal hindcasts are verified by target month.
  */
 import { diagnostic, type Diagnostic, type Place } from '../core/diagnostics.ts';
-import type { IsoDate } from '../types.ts';
 import type { LeadValues } from './lead-tiers.ts';
 
 /** Calendar month ("MM") of an entry's month 1, or '' when it has no month lead. */
 const firstMonth = (leads: LeadValues): string => leads.leads[0]?.start.slice(5, 7) ?? '';
 
-/**
- * Calendar month ("MM") of month 1 of a series whose lead day 1 is `firstDay`: the first calendar month whose 1st
- * day is a lead day (the rule of `buildLeadSpans`, lead-tiers.ts).
- */
-export function monthOneOf(firstDay: IsoDate): string {
-  const mm = Number(firstDay.slice(5, 7));
-  return String(firstDay.endsWith('-01') ? mm : (mm % 12) + 1).padStart(2, '0');
-}
-
 const yearsOf = (entries: readonly { year: number }[]): number => new Set(entries.map((e) => e.year)).size;
 
-/** Starts of the months tier whose month leads are the forecast's calendar months (see the module comment). */
+/**
+ * Starts of the months tier whose month leads are the forecast's calendar months (see the module comment);
+ * `forecastMonth` is the calendar month ("MM") of the forecast's month 1, '' when the forecast has no month lead.
+ */
 export function sameLeadMonths<T extends { readonly year: number; readonly leads: LeadValues }>(
   what: string,
   entries: readonly T[],
@@ -46,8 +39,8 @@ export function sameLeadMonths<T extends { readonly year: number; readonly leads
     problems: [
       diagnostic(
         'climate-mixed-months',
-        `${what}: the forecast's month 1 is ${monthName(forecastMonth)} but the hindcast starts begin their month leads in ` +
-          `other calendar months too (${counts}); the ${yearsOf(kept)} years whose month 1 is ${monthName(forecastMonth)} are ` +
+        `${what}: ${forecastMonth ? `the forecast's month 1 is ${monthName(forecastMonth)}` : 'the forecast has no month lead'} ` +
+          `but the hindcast starts begin their month leads in other calendar months too (${counts}); ${yearsOf(kept)} years share the forecast's month 1, ` +
           `fewer than min-hindcast-years ${minYears}, so every start is pooled and each month lead mixes calendar months`,
         'provide hindcast starts on the same day of the month as the forecast, or narrow calibration.window-days',
         place,

@@ -103,15 +103,16 @@ function rasterChecksum(ctx: CalibrateContext, file: string): Promise<string> {
 
 /**
  * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
- * observation files, the configuration and the forecast's lead day 1 are unchanged, else `readHindcasts()` and
- * `buildIndicatorClimate`, stored. `forecastFirstDay(region)` is the forecast's lead day 1 in that region.
+ * observation files, the configuration and the forecast's lead 1 are unchanged, else `readHindcasts()` and
+ * `buildIndicatorClimate`, stored. `forecastLeadOne(region, indicator)` is the first day of the forecast's lead 1
+ * of that pair (null without one).
  */
 export async function cachedClimates(
   ctx: CalibrateContext,
   source: SourceConfig,
   hindcastFiles: readonly string[],
   readHindcasts: () => Promise<readonly HindcastRead[]>,
-  forecastFirstDay: (region: string) => IsoDate,
+  forecastLeadOne: (region: string, indicator: string) => IsoDate | null,
 ): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
   const { config } = ctx;
   if (hindcastFiles.length === 0) return { climates: new Map(), fromCache: false, cacheNote: '' };
@@ -125,7 +126,7 @@ export async function cachedClimates(
       rules: config.rules,
       gate: config.decision.skillGate,
       calibration: config.calibration,
-      forecastFirstDays: config.regions.map((r) => forecastFirstDay(r.id)),
+      forecastLeadOne: tierPairs(config, source.tier).map(({ region, ind }) => forecastLeadOne(region.id, ind.id)),
       population: config.population ? { ...config.population, sha256: await rasterChecksum(ctx, config.population.file) } : null,
     }),
     memo: ctx.checksums,
@@ -143,7 +144,7 @@ export async function cachedClimates(
         ctx.observed,
         climatology,
         ctx.observedMemo,
-        forecastFirstDay(region.id),
+        forecastLeadOne(region.id, ind.id),
       );
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
     });

@@ -7,7 +7,7 @@ import { within, type Diagnostic } from '../core/diagnostics.ts';
 import { diagnosticOf } from '../core/errors.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import { indicatorInputs, regionIndicator } from './region-indicator.ts';
-import type { LeadProbability, RegionQuantities } from '../types.ts';
+import type { IndicatorSeries, IsoDate, LeadProbability, RegionQuantities } from '../types.ts';
 import { indicatorContext } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
 import { tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
@@ -37,22 +37,21 @@ export interface SourceForecast {
   readonly series: RegionQuantities;
 }
 
-/** Probabilities of every region × indicator of one source (the source's tier), with the climates behind them. */
-export function sourceProbabilities(
-  ctx: CalibrateContext,
-  read: SourceForecast,
-  model: { climates: ReadonlyMap<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string },
-): SourceOutcome {
-  const { config } = ctx;
-  const { climates, fromCache, cacheNote } = model;
-  const probabilities: LeadProbability[] = [];
-  const forecastLeads = new Map<PairKey, LeadValues>();
-  const problems: Diagnostic[] = [];
-  for (const { region, ind } of tierPairs(config, read.source.tier)) {
+/** Why a region × indicator of the forecast was skipped. */
+function skipped(read: SourceForecast, region: string, indicator: string, err: unknown): Diagnostic {
+  const place = { file: read.path, source: read.source.id, region, indicator };
+  return within(diagnosticOf(err, 'indicator-skipped'), `${read.source.id} forecast, region ${region}, indicator ${indicator}`, place);
+}
+
+/** The forecast's indicator per region × indicator of its tier, with its leads, or why it could not be computed. */
+export type ForecastIndicators = ReadonlyMap<PairKey, { series: IndicatorSeries; leads: LeadValues } | Diagnostic>;
+
+/** The indicator computed on the forecast and aggregated to the tier's leads, for every region × indicator it has inputs for. */
+export function forecastIndicators(ctx: CalibrateContext, read: SourceForecast): ForecastIndicators {
+  const out = new Map<PairKey, { series: IndicatorSeries; leads: LeadValues } | Diagnostic>();
+  for (const { region, ind } of tierPairs(ctx.config, read.source.tier)) {
     const inputs = indicatorInputs(read.series, region.id, ind);
     if (!inputs) continue; // the read stage already reported why
-    const climate = climates.get(pairKey(region.id, ind.id));
-    if (climate) problems.push(...climate.problems);
     try {
       const first = [...inputs.values()][0]?.days[0];
       const series = regionIndicator(
@@ -61,7 +60,43 @@ export function sourceProbabilities(
         region.id,
         indicatorContext(ctx.climatology.get(region.id) ?? {}, ctx.observed?.get(region.id), first),
       );
-      const forecast = aggregateToLeads(series, read.source.tier, ind.aggregate);
+      out.set(pairKey(region.id, ind.id), { series, leads: aggregateToLeads(series, read.source.tier, ind.aggregate) });
+    } catch (err) {
+      out.set(pairKey(region.id, ind.id), skipped(read, region.id, ind.id, err));
+    }
+  }
+  return out;
+}
+
+/** Start of the forecast's lead 1 for a region × indicator (it decides which hindcast months are pooled), or null. */
+export function forecastLeadOne(forecast: ForecastIndicators, region: string, indicator: string): IsoDate | null {
+  const f = forecast.get(pairKey(region, indicator));
+  return f && 'leads' in f ? (f.leads.leads[0]?.start ?? null) : null;
+}
+
+/** Probabilities of every region × indicator of one source (the source's tier), with the climates behind them. */
+export function sourceProbabilities(
+  ctx: CalibrateContext,
+  read: SourceForecast,
+  model: { climates: ReadonlyMap<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string },
+  computed: ForecastIndicators,
+): SourceOutcome {
+  const { config } = ctx;
+  const { climates, fromCache, cacheNote } = model;
+  const probabilities: LeadProbability[] = [];
+  const forecastLeads = new Map<PairKey, LeadValues>();
+  const problems: Diagnostic[] = [];
+  for (const { region, ind } of tierPairs(config, read.source.tier)) {
+    const computedPair = computed.get(pairKey(region.id, ind.id));
+    if (!computedPair) continue;
+    const climate = climates.get(pairKey(region.id, ind.id));
+    if (climate) problems.push(...climate.problems);
+    if (!('leads' in computedPair)) {
+      problems.push(computedPair);
+      continue;
+    }
+    const { series, leads: forecast } = computedPair;
+    try {
       forecastLeads.set(pairKey(region.id, ind.id), forecast);
       const leads = leadProbabilities({
         source: read.source.id,
@@ -86,10 +121,7 @@ export function sourceProbabilities(
         }),
       );
     } catch (err) {
-      const place = { file: read.path, source: read.source.id, region: region.id, indicator: ind.id };
-      problems.push(
-        within(diagnosticOf(err, 'indicator-skipped'), `${read.source.id} forecast, region ${region.id}, indicator ${ind.id}`, place),
-      );
+      problems.push(skipped(read, region.id, ind.id, err));
     }
   }
   return { source: read.source.id, probabilities, climates, forecastLeads, fromCache, cacheNote, problems };

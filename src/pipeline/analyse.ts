@@ -6,12 +6,11 @@
 import { readRegions } from '../config/region-views.ts';
 import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
-import { addDays } from '../core/iso-dates.ts';
 import { combineOutcomes } from '../calibrate/combine-outcomes.ts';
 import { regionClimatology } from '../calibrate/indicator-context.ts';
 import type { CalibrateContext } from '../calibrate/model-climate.ts';
 import { cachedClimates } from '../calibrate/skill-cache.ts';
-import { sourceProbabilities, type SourceOutcome } from '../calibrate/source-probabilities.ts';
+import { forecastIndicators, forecastLeadOne, sourceProbabilities, type SourceOutcome } from '../calibrate/source-probabilities.ts';
 import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError, type ForelightError } from '../core/errors.ts';
 import type { Logger } from '../core/log.ts';
@@ -105,6 +104,7 @@ async function calibrateSource(
   options: { fileProblems: ForelightError[]; extract: Extractor },
 ): Promise<SourceOutcome> {
   const { config } = ctx;
+  const forecast = forecastIndicators(ctx, read);
   const model = await cachedClimates(
     ctx,
     input.source,
@@ -114,15 +114,9 @@ async function calibrateSource(
         weightsCacheDir: config.calibration.cacheDir,
         population: config.population,
       }),
-    (region) => forecastFirstDay(read, region),
+    (region, indicator) => forecastLeadOne(forecast, region, indicator),
   );
-  return sourceProbabilities(ctx, read, model);
-}
-
-/** The forecast's lead day 1 in a region: its first local day, else (region not in the forecast) the day after its date. */
-function forecastFirstDay(read: SourceRead, region: string): IsoDate {
-  const first = read.series.get(region)?.values().next().value;
-  return first?.days[0] ?? addDays(read.date, 1);
+  return sourceProbabilities(ctx, read, model, forecast);
 }
 
 /** The checksum memo only saves work: a memo that cannot be written is logged, never stops the run. */

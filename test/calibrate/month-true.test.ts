@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { aggregateToLeads } from '../../src/calibrate/lead-tiers.ts';
-import { monthOneOf, sameLeadMonths } from '../../src/calibrate/month-true.ts';
+import { sameLeadMonths } from '../../src/calibrate/month-true.ts';
 import type { IndicatorSeries } from '../../src/types.ts';
 
 /** Month leads of a 120-day, 2-member series starting the day after `start` (YYYY-MM-DD) in `year`. */
@@ -28,27 +28,11 @@ function entry(year: number, start: string) {
 const years = Array.from({ length: 20 }, (_, i) => 2006 + i);
 
 describe('month-true pooling (months tier)', () => {
-  it("the forecast's month 1 follows the lead-tier rule: the first calendar month whose 1st day is a lead day", () => {
-    // Calendar facts: a first lead day of 1 Dec starts December; 2 Dec or 31 Dec waits for 1 January.
-    expect([monthOneOf('2026-12-01'), monthOneOf('2026-12-02'), monthOneOf('2026-12-31'), monthOneOf('2026-11-27')]).toEqual([
-      '12',
-      '01',
-      '01',
-      '12',
-    ]);
-    // Every first day of a leap year agrees with the month leads aggregateToLeads builds from such a series.
-    for (let d = 0; d < 366; d++) {
-      const start = new Date(Date.UTC(2027, 11, 31 + d)).toISOString().slice(0, 10);
-      const firstDay = new Date(Date.UTC(2027, 11, 32 + d)).toISOString().slice(0, 10);
-      const e = entry(Number(start.slice(0, 4)), start);
-      expect(monthOneOf(firstDay), start).toBe(e.leads.leads[0].start.slice(5, 7));
-    }
-  });
   it('a forecast issued 20 Nov (month 1 = December) pools the starts of 12 and 26 Nov, not the one of 9 Dec', () => {
     const entries = years.flatMap((y) => [entry(y, '2000-11-12'), entry(y, '2000-11-26'), entry(y, '2000-12-09')]);
     expect(entries[0].leads.leads[0].start.slice(5, 7)).toBe('12');
     expect(entries[2].leads.leads[0].start.slice(5, 7)).toBe('01');
-    const { kept, problems } = sameLeadMonths('seasonal hindcasts', entries, monthOneOf('2026-11-21'), 15);
+    const { kept, problems } = sameLeadMonths('seasonal hindcasts', entries, '12', 15);
     expect(kept).toHaveLength(40);
     expect(kept.every((e) => e.start !== '2000-12-09')).toBe(true);
     expect(problems).toEqual([]);
@@ -57,10 +41,10 @@ describe('month-true pooling (months tier)', () => {
     // 40 starts (2 Dec, 9 Dec) have month 1 = January, 20 (26 Nov) have December: a forecast issued 28 Nov speaks of
     // December, one issued 5 Dec of January.
     const entries = years.flatMap((y) => [entry(y, '2000-11-26'), entry(y, '2000-12-02'), entry(y, '2000-12-09')]);
-    const december = sameLeadMonths('seasonal hindcasts', entries, monthOneOf('2026-11-29'), 15);
+    const december = sameLeadMonths('seasonal hindcasts', entries, '12', 15);
     expect(december.kept.map((e) => e.start)).toEqual(years.map(() => '2000-11-26'));
     expect(december.problems).toEqual([]);
-    const january = sameLeadMonths('seasonal hindcasts', entries, monthOneOf('2026-12-06'), 15);
+    const january = sameLeadMonths('seasonal hindcasts', entries, '01', 15);
     expect(january.kept).toHaveLength(40);
     expect(january.kept.every((e) => e.start !== '2000-11-26')).toBe(true);
   });
@@ -74,8 +58,8 @@ describe('month-true pooling (months tier)', () => {
     expect(problems[0].code).toBe('climate-mixed-months');
     expect(problems[0].message).toBe(
       "seasonal hindcasts for kessan-lowlands (tmax-3day): the forecast's month 1 is December but the hindcast starts begin " +
-        'their month leads in other calendar months too (12 with month 1 = January, 8 with month 1 = December); the 8 years ' +
-        'whose month 1 is December are fewer than min-hindcast-years 15, so every start is pooled and each month lead mixes calendar months',
+        'their month leads in other calendar months too (12 with month 1 = January, 8 with month 1 = December); 8 years share ' +
+        "the forecast's month 1, fewer than min-hindcast-years 15, so every start is pooled and each month lead mixes calendar months",
     );
   });
   it("when no start shares the forecast's month, the pooling is named as mixed, not passed off as the forecast's month", () => {
@@ -84,6 +68,12 @@ describe('month-true pooling (months tier)', () => {
     expect(kept).toHaveLength(20);
     expect(problems.map((p) => p.code)).toEqual(['climate-mixed-months']);
     expect(problems[0].message).toContain('(20 with month 1 = January)');
+  });
+  it('a forecast without a month lead is said, not matched to any month', () => {
+    const entries = [...years.slice(0, 10).map((y) => entry(y, '2000-12-09')), ...years.slice(10).map((y) => entry(y, '2000-11-26'))];
+    const { kept, problems } = sameLeadMonths('seasonal hindcasts', entries, '', 15);
+    expect(kept).toHaveLength(20);
+    expect(problems[0].message).toContain('the forecast has no month lead but the hindcast starts');
   });
   it("starts that all share the forecast's month 1 are kept as they are", () => {
     const entries = years.map((y) => entry(y, '2000-11-26'));

@@ -4,10 +4,13 @@
  * national team in French so that every region is rendered in both languages. For every run: the consistency checker
  * that runs inside each render (render/consistency.ts) found nothing — neither in run.json nor in the ledger — and,
  * read independently from the plain text as sent, no row points above its range's stage without saying why.
+ * The same runs' HTML as a reader gets it (the outbox .html copies, the archive pages) opened in Debian's Chromium
+ * at a phone's 390 × 844: no horizontal scrolling (scrollWidth ≤ 390) and no broken image.
  */
 import { mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { simpleParser } from 'mailparser';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { SAMPLE_ISSUE_DATES } from '../../src/cli/commands/demo.ts';
@@ -20,6 +23,7 @@ import { runDiagnostics } from '../../src/ledger/diagnostics.ts';
 import { runOnce, type RunOutcome } from '../../src/pipeline/run-once.ts';
 import { generateSample } from '../../src/sample/generate.ts';
 import { countRows, rowsAboveStageWithoutReason } from '../support/bulletin-rows.ts';
+import { launchChromium } from '../support/headless-chromium.ts';
 
 let config: Config;
 const outcomes: RunOutcome[] = [];
@@ -104,4 +108,35 @@ describe('the demo bulletins (three dates, every team, en and fr)', () => {
     expect(fr.some((t) => t.includes('non retenu pour le niveau : fiabilité non démontrée à cette échéance'))).toBe(true);
     expect(fr.some((t) => t.includes('pas encore retenu pour le niveau : en attente de confirmation'))).toBe(true);
   });
+});
+
+describe('the demo HTML in Chromium at 390 × 844', () => {
+  it('no bulletin as written to the outbox and no archive page is wider than the screen; every image loads', async () => {
+    const outbox = config.delivery.outbox;
+    const archive = config.delivery.archive;
+    const files = [
+      ...readdirSync(outbox)
+        .filter((n) => n.endsWith('.html'))
+        .map((n) => join(outbox, n)),
+      ...readdirSync(archive, { recursive: true, encoding: 'utf8' })
+        .filter((n) => n.endsWith('.html'))
+        .map((n) => join(archive, n)),
+    ];
+    expect(files.filter((f) => f.startsWith(outbox))).toHaveLength(texts.length);
+    const browser = await launchChromium();
+    const problems: string[] = [];
+    try {
+      const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
+      for (const file of files) {
+        await page.goto(pathToFileURL(file).href, { waitUntil: 'load' });
+        const width = await page.evaluate(() => document.documentElement.scrollWidth);
+        if (width > 390) problems.push(`${file}: scrollWidth ${width} > 390`);
+        const broken = await page.$$eval('img', (imgs) => imgs.filter((i) => !(i.complete && i.naturalWidth > 0)).length);
+        if (broken > 0) problems.push(`${file}: ${broken} broken image(s)`);
+      }
+    } finally {
+      await browser.close();
+    }
+    expect(problems).toEqual([]);
+  }, 300_000);
 });

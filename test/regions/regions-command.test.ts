@@ -76,4 +76,24 @@ describe('forelight regions', () => {
     execFileSync('xmllint', ['--noout', join(out, 'seasonal.svg')]);
     expect(readFileSync(join(out, 'seasonal.svg'), 'utf8')).toContain('<title>Republic of Veloria');
   });
+
+  it('with no forecast file yet: a note per source, no empty preview claimed, exit 3 (input problem)', () => {
+    const empty = join(dir, 'empty.yaml');
+    writeFileSync(
+      empty,
+      readFileSync(join(dir, 'forelight.yaml'), 'utf8').replaceAll(join(ROOT, 'sample-inputs'), join(dir, 'nothing-here')),
+    );
+    const out = join(dir, 'out-empty');
+    const r = spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), 'regions', '--config', empty, '--out', out], {
+      cwd: ROOT,
+      encoding: 'utf8',
+      env: { ...process.env, FORELIGHT_LOG_LEVEL: 'error' },
+    });
+    expect(r.status).toBe(3);
+    for (const source of ['short', 'subseasonal', 'seasonal'])
+      expect(r.stderr).toMatch(new RegExp(`note: source '${source}': no forecast file yet`));
+    expect(r.stdout).toMatch(/no preview written: no source has a forecast file yet/);
+    expect(r.stdout).not.toMatch(/preview: /);
+    expect(existsSync(out)).toBe(false);
+  });
 });

@@ -1,10 +1,11 @@
 /**
  * Shapefiles: read by Forelight (npm `shapefile`) against GDAL 3.6 (Debian gdal-bin) on the same files —
  * `ogr2ogr` writes them from the sample district GeoJSON and converts them back, `ogrinfo` names their CRS.
- * A projected .prj is refused with the ogr2ogr command that fixes it; the test runs that command.
+ * A projected or missing .prj is refused with the ogr2ogr command that fixes it; the test pastes that command into
+ * sh from another directory, with a folder name that needs quoting, and reads the result.
  */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -54,21 +55,24 @@ describe('shapefile boundaries vs GDAL', () => {
     expect(run('ogrinfo', ['-so', '-al', 'districts.shp'])).toMatch(/Feature Count: 7/);
   });
 
-  it('a projected shapefile is refused naming the file, the CRS ogrinfo reports, and the ogr2ogr fix — which works', async () => {
-    run('ogr2ogr', ['-f', 'ESRI Shapefile', '-t_srs', 'EPSG:32631', 'utm.shp', DISTRICTS]);
-    const r = await readBoundaryFeatures(join(dir, 'utm.shp'));
+  it('a projected shapefile is refused naming the file, the CRS ogrinfo reports, and the ogr2ogr fix — which works from any directory', async () => {
+    // A ministry folder whose name needs quoting in a shell; the operator pastes the command elsewhere (sh -c, cwd /).
+    const folder = join(dir, "ministry's files");
+    mkdirSync(folder);
+    run('ogr2ogr', ['-f', 'ESRI Shapefile', '-t_srs', 'EPSG:32631', join(folder, 'utm.shp'), DISTRICTS]);
+    const shp = join(folder, 'utm.shp');
+    const r = await readBoundaryFeatures(shp);
     expect(r.ok).toBe(false);
     if (r.ok) return;
     // GDAL reads the .prj as the projected CRS EPSG:32631; the message quotes the name written in the .prj (ESRI form).
-    expect(/PROJCRS\["([^"]+)"/.exec(run('ogrinfo', ['-so', '-al', 'utm.shp']))?.[1]).toBe('WGS 84 / UTM zone 31N');
-    const crsName = /^PROJCS\["([^"]+)"/.exec(readFileSync(join(dir, 'utm.prj'), 'utf8'))?.[1];
+    expect(/PROJCRS\["([^"]+)"/.exec(execFileSync('ogrinfo', ['-so', '-al', shp]).toString())?.[1]).toBe('WGS 84 / UTM zone 31N');
+    const crsName = /^PROJCS\["([^"]+)"/.exec(readFileSync(join(folder, 'utm.prj'), 'utf8'))?.[1];
     expect(crsName).toBe('WGS_1984_UTM_Zone_31N');
-    expect(r.message).toBe(`shapefile ${join(dir, 'utm.shp')} is in '${crsName}' (from utm.prj), not WGS 84 longitude/latitude`);
-    const command = /reproject it: (ogr2ogr [^ ]+ [^ ]+ [^ ]+ [^ ]+)/.exec(r.fix)?.[1];
-    expect(command).toBe('ogr2ogr -t_srs EPSG:4326 utm-wgs84.shp utm.shp');
-    const [cmd, ...args] = command!.split(' ');
-    run(cmd, args);
-    const back = await features(join(dir, 'utm-wgs84.shp'));
+    expect(r.message).toBe(`shapefile ${shp} is in '${crsName}' (from utm.prj), not WGS 84 longitude/latitude`);
+    const command = /reproject it: (ogr2ogr .+) and point the region set at utm-wgs84\.shp \(written beside utm\.shp\)$/.exec(r.fix)?.[1];
+    expect(command).toMatch(/^ogr2ogr -t_srs EPSG:4326 /);
+    execFileSync('sh', ['-c', command!], { cwd: '/' });
+    const back = await features(join(folder, 'utm-wgs84.shp'));
     const original = (
       JSON.parse(execFileSync('ogr2ogr', ['-f', 'GeoJSON', '/vsistdout/', DISTRICTS]).toString()) as {
         features: { geometry: RawFeature['geometry'] }[];
@@ -90,12 +94,17 @@ describe('shapefile boundaries vs GDAL', () => {
     });
   });
 
-  it('no .prj: refused, with ogr2ogr -a_srs to declare WGS 84 when that is what the coordinates are', async () => {
+  it('no .prj: refused, with ogr2ogr -a_srs to declare WGS 84 when that is what the coordinates are — which works', async () => {
     run('ogr2ogr', ['-f', 'ESRI Shapefile', 'noprj.shp', DISTRICTS]);
     rmSync(join(dir, 'noprj.prj'));
     const r = await readBoundaryFeatures(join(dir, 'noprj.shp'));
-    expect(r.ok ? '' : `${r.message} — ${r.fix}`).toMatch(
-      /has no noprj\.prj, so its coordinate reference system is unknown — if it is longitude\/latitude on WGS 84, declare it: ogr2ogr -a_srs EPSG:4326 noprj-wgs84\.shp noprj\.shp/,
+    const text = r.ok ? '' : `${r.message} — ${r.fix}`;
+    expect(text).toMatch(
+      /has no noprj\.prj, so its coordinate reference system is unknown — if it is longitude\/latitude on WGS 84, declare it: /,
     );
+    const command = /declare it: (ogr2ogr -a_srs EPSG:4326 \S+ \S+);/.exec(text)?.[1];
+    expect(command).toBe(`ogr2ogr -a_srs EPSG:4326 ${join(dir, 'noprj-wgs84.shp')} ${join(dir, 'noprj.shp')}`);
+    execFileSync('sh', ['-c', command!], { cwd: '/' });
+    expect((await features(join(dir, 'noprj-wgs84.shp'))).length).toBe(7);
   });
 });

@@ -4,8 +4,9 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchChromium } from '../support/headless-chromium.ts';
 import { writeArchive, type ArchiveEntry } from '../../src/render/archive.ts';
 import { renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
@@ -95,19 +96,7 @@ describe('writeArchive', () => {
 describe('in headless Chromium', () => {
   let browser: Browser;
   beforeAll(async () => {
-    browser = await chromium.launch({
-      executablePath: '/usr/bin/chromium',
-      args: [
-        '--headless',
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-dev-shm-usage',
-        '--no-first-run',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--disable-sync',
-      ],
-    });
+    browser = await launchChromium();
   });
   afterAll(async () => {
     await browser?.close();

@@ -1,13 +1,15 @@
-// Every demo bulletin, the national summary and the archive pages in Debian's Chromium (playwright-core) at a
+// The sample-run bulletins (fixed fixture), the national summary and the archive pages in Debian's Chromium (playwright-core) at a
 // phone (390 × 844) and a desktop (1280 × 800) viewport: no horizontal scrolling (scrollWidth ≤ viewport), the
 // first screen (stage, dates, probability, how sure, action) above the fold, and in every chart no two text
 // boxes overlapping (bounding boxes of tick labels, stage-line labels and legend entries, compared pairwise).
-// Screenshots go to test-artifacts/phone/ (git-ignored) for review.
+// Screenshots go to test-artifacts/phone/ (git-ignored) for review. The HTML the demo itself writes (outbox .html
+// and archive of its three runs) is opened at 390 px in test/pipeline/demo-consistency.test.ts.
 import { mkdirSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { chromium, type Browser } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchChromium } from '../support/headless-chromium.ts';
 import { htmlWithInlineImages } from '../../src/deliver/outbox.ts';
 import { writeArchive } from '../../src/render/archive.ts';
 import { EMAIL_BUDGET_BYTES, renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
@@ -47,19 +49,7 @@ beforeAll(async () => {
   pages.push({ name: 'archive-run', file: join(ARCHIVE, '2026-11-30-a', 'index.html'), team: false });
   for (const f of readdirSync(join(ARCHIVE, 'regions')).filter((x) => x.endsWith('.html')))
     pages.push({ name: `archive-region-${f.replace('.html', '')}`, file: join(ARCHIVE, 'regions', f), team: false });
-  browser = await chromium.launch({
-    executablePath: '/usr/bin/chromium',
-    args: [
-      '--headless',
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-dev-shm-usage',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-    ],
-  });
+  browser = await launchChromium();
 }, 120_000);
 
 afterAll(async () => {

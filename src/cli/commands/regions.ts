@@ -18,6 +18,11 @@ export async function regionsCommand(args: ParsedArgs): Promise<number> {
   const config = await loadConfig(stringOption(args, 'config'));
   const out = resolve(stringOption(args, 'out') ?? join(config.delivery.archive, 'regions'));
   const { sources, notes } = await regionReport(config);
+  if (sources.length === 0) {
+    for (const n of notes) process.stderr.write(`note: ${n}\n`);
+    process.stdout.write('no preview written: no source has a forecast file yet to take its grid from (see the notes)\n');
+    return EXIT.inputProblem;
+  }
   mkdirSync(out, { recursive: true });
   let warnings = 0;
   for (const s of sources) {
@@ -43,5 +48,5 @@ export async function regionsCommand(args: ParsedArgs): Promise<number> {
   process.stdout.write(`preview: ${sources.map((s) => join(out, `${s.source}.geojson`)).join(', ')} (and .svg maps)\n`);
   // Warnings alone leave the exit code at 0: a small district is allowed, the operator is only told.
   process.stdout.write(`${warnings} warning(s)\n`);
-  return sources.some((s) => s.problems.length > 0) || sources.length === 0 ? EXIT.inputProblem : EXIT.ok;
+  return sources.some((s) => s.problems.length > 0) ? EXIT.inputProblem : EXIT.ok;
 }

@@ -3,7 +3,12 @@
  * ISO 19162:2019). Forelight reads longitude/latitude on WGS 84 only; anything else is refused with the
  * ogr2ogr command that reprojects it (GDAL's `-t_srs EPSG:4326`).
  */
-import { basename, extname } from 'node:path';
+import { basename, dirname, extname, join } from 'node:path';
+
+/** A path as one POSIX shell word: as is when plain, else in single quotes (so the printed command runs as pasted). */
+function shellWord(path: string): string {
+  return /^[\w./+:@%=-]+$/.test(path) ? path : `'${path.replaceAll("'", `'\\''`)}'`;
+}
 
 /** Name of the top-level CRS and its kind keyword (GEOGCS, PROJCS, GEOGCRS, PROJCRS, …). */
 function topCrs(wkt: string): { keyword: string; name: string } | null {
@@ -26,17 +31,19 @@ function isWgs84Geographic(wkt: string): boolean {
 /** Null when the .prj says WGS 84 longitude/latitude; otherwise what is wrong and the command that fixes it. */
 export function prjProblem(shp: string, prjText: string | null): { message: string; fix: string } | null {
   const stem = basename(shp, extname(shp));
+  // Full paths both ways: the command works from any directory and writes beside the original.
   const out = `${stem}-wgs84.shp`;
+  const [from, to] = [shellWord(shp), shellWord(join(dirname(shp), out))];
   if (prjText === null) {
     return {
       message: `shapefile ${shp} has no ${stem}.prj, so its coordinate reference system is unknown`,
-      fix: `if it is longitude/latitude on WGS 84, declare it: ogr2ogr -a_srs EPSG:4326 ${out} ${basename(shp)}; otherwise reproject: ogr2ogr -s_srs <its CRS> -t_srs EPSG:4326 ${out} ${basename(shp)}`,
+      fix: `if it is longitude/latitude on WGS 84, declare it: ogr2ogr -a_srs EPSG:4326 ${to} ${from}; otherwise reproject: ogr2ogr -s_srs <its CRS> -t_srs EPSG:4326 ${to} ${from}; then point the region set at ${out}`,
     };
   }
   if (isWgs84Geographic(prjText)) return null;
   const found = topCrs(prjText)?.name ?? prjText.trim().slice(0, 60);
   return {
     message: `shapefile ${shp} is in '${found}' (from ${stem}.prj), not WGS 84 longitude/latitude`,
-    fix: `reproject it: ogr2ogr -t_srs EPSG:4326 ${out} ${basename(shp)} and point the region set at ${out}`,
+    fix: `reproject it: ogr2ogr -t_srs EPSG:4326 ${to} ${from} and point the region set at ${out} (written beside ${basename(shp)})`,
   };
 }
