@@ -13,7 +13,17 @@ export const TIERS = ['days', 'weeks', 'months'] as const;
 export type Tier = (typeof TIERS)[number];
 
 /** Canonical physical quantities Forelight reads, with their canonical units. */
-export type Quantity = 'tmax' | 'tmin' | 'tmean' | 'dewpoint' | 'rh' | 'precip' | 'wind';
+export type Quantity =
+  | 'tmax'
+  | 'tmin'
+  | 'tmean'
+  | 'dewpoint'
+  | 'rh'
+  /** Near-surface specific humidity; with surface-pressure it gives the dewpoint (indicators/specific-humidity.ts). */
+  | 'specific-humidity'
+  | 'surface-pressure'
+  | 'precip'
+  | 'wind';
 
 export const CANONICAL_UNITS: Readonly<Record<Quantity, string>> = {
   tmax: 'degC',
@@ -21,6 +31,8 @@ export const CANONICAL_UNITS: Readonly<Record<Quantity, string>> = {
   tmean: 'degC',
   dewpoint: 'degC',
   rh: '%',
+  'specific-humidity': 'kg/kg',
+  'surface-pressure': 'hPa',
   precip: 'mm/day',
   wind: 'm/s',
 };

@@ -12,6 +12,7 @@ import { loadRegionSets, type RegionSets } from './boundaries/region-sets.ts';
 import { buildConfig } from './build-config.ts';
 import { checkCombine } from './check-combine.ts';
 import { checkIndicators } from './check-indicators.ts';
+import { checkVariables } from './check-variables.ts';
 import { checkDuplicateIds, checkReferences } from './check-references.ts';
 import { checkRules } from './check-rules.ts';
 import { checkTexts } from './check-texts.ts';
@@ -51,6 +52,7 @@ const SEMANTIC_CHECKS: readonly (readonly [
   ['config-rule', checkRules],
   ['config-text', checkTexts],
   ['config-value', checkValues],
+  ['config-value', checkVariables],
   ['config-indicator', checkIndicators],
   ['config-combine', checkCombine],
   ['config-pattern', checkPatterns],

@@ -3,6 +3,8 @@
  * Basis temperature: the day's maximum (`params.basis: 'tmax'`, default) or mean (`'tmean'`) temperature,
  * combined with the day's humidity carried as a dewpoint, which varies little over a day:
  *  - dewpoint series given → used as is;
+ *  - else specific humidity with surface pressure → Td of the day's mean vapour pressure e = qp/(ε + (1−ε)q)
+ *    (WMO-No. 8 Annex 4.B; inverse Magnus, Alduchov & Eskridge 1996; see specific-humidity.ts);
  *  - else RH with tmean → Td from (tmean, RH) by inverse Magnus (Alduchov & Eskridge 1996), i.e. RH is taken as
  *    the daily mean RH at the daily mean temperature;
  *  - else RH only → RH is assumed to hold at the basis temperature (overstates heat stress on Tmax when RH is a
@@ -25,6 +27,7 @@ import {
   type MagnusCoefficients,
 } from './magnus-humidity.ts';
 import { checkAligned, requireQuantity } from './series-checks.ts';
+import { dewpointFromSpecificHumidityC } from './specific-humidity.ts';
 import { wbgtSimplifiedBomC } from './wbgt-simplified-bom.ts';
 
 export type FeelsLikeKind = 'heat-index' | 'humidex' | 'apparent-temperature' | 'wbgt-simplified';
@@ -60,7 +63,7 @@ function dewpointSeries(
     checkAligned([basis, td]);
     return { tdC: td.data, raw: [td.data] };
   }
-  if (!inputs.has('rh')) requireQuantity(inputs, 'dewpoint', id, 'humidity: give dewpoint or rh');
+  if (inputs.has('specific-humidity') || !inputs.has('rh')) return dewpointOfSpecificHumidity(inputs, basis, id);
   const rh = requireQuantity(inputs, 'rh', id, 'humidity');
   const rhT = inputs.has('tmean') ? requireQuantity(inputs, 'tmean', id, 'temperature at which RH holds') : basis;
   checkAligned([basis, rh, rhT]);
@@ -72,6 +75,19 @@ function dewpointSeries(
   const tdC = new Float64Array(rh.data.length);
   mapElementwise2(rhT.data, rh.data, tdC, (t, r) => dewpointFromRhMagnusC(t, clampRh(r), MAGNUS_ALDUCHOV_ESKRIDGE_1996));
   return { tdC, raw: [rh.data, rhT.data] };
+}
+
+function dewpointOfSpecificHumidity(
+  inputs: ReadonlyMap<Quantity, RegionSeries>,
+  basis: RegionSeries,
+  id: string,
+): { readonly tdC: Float64Array; readonly raw: readonly Float64Array[] } {
+  const q = requireQuantity(inputs, 'specific-humidity', id, 'humidity: give dewpoint, rh, or specific-humidity with surface-pressure');
+  const p = requireQuantity(inputs, 'surface-pressure', id, 'pressure at which the specific humidity gives a dewpoint');
+  checkAligned([basis, q, p]);
+  const tdC = new Float64Array(q.data.length);
+  mapElementwise2(q.data, p.data, tdC, (qq, pp) => dewpointFromSpecificHumidityC(qq, pp, MAGNUS_ALDUCHOV_ESKRIDGE_1996));
+  return { tdC, raw: [q.data, p.data] };
 }
 
 /** Computes one feels-like kind for all members and days. `params.basis`: 'tmax' (default) or 'tmean'. */

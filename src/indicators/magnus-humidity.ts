@@ -93,6 +93,17 @@ export function dewpointFromRhMagnusC(tC: number, rhPct: number, k: MagnusCoeffi
 }
 
 /**
+ * Dewpoint [°C] of vapour pressure e [hPa], inverse Magnus form: γ = ln(e/c), Td = bγ/(a−γ).
+ * NaN for e ≤ 0 or a dewpoint outside the valid −40..50 °C.
+ */
+export function dewpointFromVapourPressureMagnusC(eHpa: number, k: MagnusCoefficients = MAGNUS_ALDUCHOV_ESKRIDGE_1996): number {
+  if (!(eHpa > 0)) return NaN;
+  const g = Math.log(eHpa / k.cHpa);
+  const td = (k.bC * g) / (k.a - g);
+  return inMagnusRange(td) ? td : NaN;
+}
+
+/**
  * Vapour pressure e [hPa] in the form printed with the BoM apparent-temperature and simplified-WBGT formulas
  * [bomThermalComfort]: e = (RH/100) · 6.105 · exp(17.27 T/(237.7 + T)). T °C (−40..50), RH % (0..100), else NaN.
  */

@@ -114,6 +114,12 @@ export const REFERENCES = {
     title: 'Optimal temperature for malaria transmission is dramatically lower than previously predicted',
     journal: 'Ecology Letters 16:22-30',
   },
+  wmoGuide8: {
+    author: 'World Meteorological Organization',
+    year: 2018,
+    title: 'Guide to Instruments and Methods of Observation, Volume I, Annex 4.B: formulae for the computation of measures of humidity',
+    journal: 'WMO-No. 8 (edition and annex number from memory)',
+  },
   briere1999: {
     author: 'Brière, J.-F.; Pracros, P.; Le Roux, A.-Y.; Pierre, J.-S.',
     year: 1999,

@@ -14,6 +14,10 @@ export const IMPOSSIBLE_BOUNDS: Readonly<Record<Quantity, readonly [number, numb
   dewpoint: [-90, 60],
   /** 0.5 % tolerance either side; values within it are clamped to 0..100 where used. */
   rh: [-0.5, 100.5],
+  /** 0.06 kg/kg lies above any surface value observed (about 0.035); common practice, no source. */
+  'specific-humidity': [0, 0.06],
+  /** Surface pressure from the highest inhabited places (about 500 hPa) to sea-level extremes; common practice, no source. */
+  'surface-pressure': [300, 1100],
   /** Packing noise down to −0.1 mm/day is treated as 0 where used (common practice, no source). */
   precip: [-0.1, 2000],
   wind: [0, 75],

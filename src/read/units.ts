@@ -70,6 +70,23 @@ const TEMPERATURE: Readonly<Record<string, UnitRule>> = {
   degreesfahrenheit: FAHRENHEIT,
 };
 
+/** Mass fraction of water vapour: kg kg-1 (CF canonical "1"), g kg-1. */
+const SPECIFIC_HUMIDITY: Readonly<Record<string, UnitRule>> = {
+  'kgkg-1': { scale: 1, offset: 0, kind: 'state' },
+  '1': { scale: 1, offset: 0, kind: 'state' },
+  'gkg-1': { scale: 1e-3, offset: 0, kind: 'state' },
+};
+
+/** Pressure to hPa (1 hPa = 100 Pa = 1 mbar, SI). */
+const PRESSURE: Readonly<Record<string, UnitRule>> = {
+  pa: { scale: 0.01, offset: 0, kind: 'state' },
+  hpa: { scale: 1, offset: 0, kind: 'state' },
+  mbar: { scale: 1, offset: 0, kind: 'state' },
+  mb: { scale: 1, offset: 0, kind: 'state' },
+  millibar: { scale: 1, offset: 0, kind: 'state' },
+  kpa: { scale: 10, offset: 0, kind: 'state' },
+};
+
 const HUMIDITY: Readonly<Record<string, UnitRule>> = {
   '%': { scale: 1, offset: 0, kind: 'state' },
   percent: { scale: 1, offset: 0, kind: 'state' },
@@ -104,6 +121,8 @@ const RULES: Readonly<Record<Quantity, Readonly<Record<string, UnitRule>>>> = {
   tmean: TEMPERATURE,
   dewpoint: TEMPERATURE,
   rh: HUMIDITY,
+  'specific-humidity': SPECIFIC_HUMIDITY,
+  'surface-pressure': PRESSURE,
   precip: PRECIPITATION,
   wind: WIND,
 };
@@ -114,6 +133,8 @@ const SUGGESTED: Readonly<Record<Quantity, string>> = {
   tmean: 'K, degC or degF',
   dewpoint: 'K, degC or degF',
   rh: '% or 1',
+  'specific-humidity': 'kg kg-1 or g kg-1',
+  'surface-pressure': 'Pa or hPa',
   precip: 'm, kg m-2, kg m-2 s-1 or m s-1',
   wind: 'm s-1 or km/h',
 };

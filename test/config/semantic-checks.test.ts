@@ -13,7 +13,7 @@ const F = 'test/config/fixtures/many-problems.yaml';
 const EXPECTED: readonly [check: string, line: string][] = [
   [
     'unknown variable: heat index without humidity',
-    `${F}:9:16: indicator hot (heat-index) needs dewpoint or rh, which source weekly does not map — add dewpoint: <variable name in the file> under variables`,
+    `${F}:9:16: indicator hot (heat-index) needs dewpoint or rh or specific-humidity, which source weekly does not map — add dewpoint: <variable name in the file> under variables`,
   ],
   ['box south above north', `${F}:13:29: north 1 is not north of south 2 — swap south and north`],
   ['unknown team reference', `${F}:15:25: unknown team "west-team" — use one of: north-team, south-team`],
@@ -159,5 +159,21 @@ describe('combination matrix (escalation.combine.matrix)', () => {
         ],
       },
     });
+  });
+});
+
+describe('humidity as specific humidity with surface pressure (variables:)', () => {
+  // Column 53 is the value q2m in `    variables: { tmax: tasmax, 'specific-humidity': q2m }`.
+  it('specific-humidity without surface-pressure is refused at its line:column; with both it loads', async () => {
+    const half = minimalVariant('dewpoint: tdps }', "'specific-humidity': q2m }");
+    const { diagnostics } = await checkConfigFile(half);
+    expect(diagnostics.map(formatDiagnostic)).toEqual([
+      `${half}:9:53: source weekly maps specific-humidity but not surface-pressure: the dewpoint is derived from the two together — add surface-pressure: <variable name in the file> under variables (e.g. sp for surface pressure, q2m for 2 m specific humidity), or map dewpoint or rh instead`,
+    ]);
+    // The suggested fix, applied to that file, loads.
+    const whole = minimalVariant('dewpoint: tdps }', "'specific-humidity': q2m, surface-pressure: sp }");
+    const fixed = await checkConfigFile(whole);
+    expect(fixed.diagnostics.map(formatDiagnostic)).toEqual([]);
+    expect(fixed.config?.sources[0].variables).toEqual({ tmax: 'tasmax', 'specific-humidity': 'q2m', 'surface-pressure': 'sp' });
   });
 });
