@@ -9,6 +9,9 @@
  *   "quantile-map-clipped: …"      the absolute threshold lies outside the observed climatology
  *   "beyond-table: k of N …"       members whose value at this lead lies beyond the formula's published table
  *                                  (heat index: capped at the table's top, not extrapolated)
+ *   "threshold-degenerate: …"      the climate's threshold cannot be exceeded, or every past value and member
+ *                                  exceed it (degenerate-threshold.ts): the probability is NaN (lead held) and
+ *                                  `onProblem` gets a threshold-degenerate diagnostic
  *   "hindcast-members: …"          hindcasts have another ensemble size than the forecast. Operational hindcasts
  *                                  usually do (e.g. 11 against 51): thresholds and base rates pool all years ×
  *                                  members, so they stay calibrated, but skill was measured with the hindcast size.
@@ -19,6 +22,8 @@ import { distinctYears, leadSample, type LeadClimate } from './climate.ts';
 import { leadLabel, type LeadValues } from './lead-tiers.ts';
 import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdObject } from './thresholds.ts';
 import { percentileLinear } from '../core/percentile.ts';
+import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
+import { degenerateThreshold } from './degenerate-threshold.ts';
 
 /** Fraction of valid members above (or, with '>=', at or above) the threshold; NaN without valid members. */
 export function exceedanceFraction(
@@ -106,6 +111,28 @@ function normalYearRate(req: ProbabilityRequest, l: number, climate: LeadClimate
   return climate ? fractionAbove(leadSample(climate, l), threshold) : Number.NaN;
 }
 
+/** degenerateThreshold for a threshold drawn from the climate at lead position l. */
+function heldThreshold(
+  req: ProbabilityRequest,
+  hindcast: LeadClimate,
+  l: number,
+  lead: LeadWindow,
+  threshold: Threshold,
+  baseRate: number,
+  probability: number,
+): string | null {
+  const spec = req.threshold;
+  return degenerateThreshold({
+    lead,
+    threshold: threshold.value,
+    units: threshold.units,
+    modelFrequency: fractionAbove(leadSample(hindcast, l), threshold.value),
+    normalYearRate: baseRate,
+    intendedFrequency: spec.kind === 'percentile' ? 1 - spec.percentile / 100 : baseRate,
+    probability,
+  });
+}
+
 function countBeyond(mask: Uint8Array, members: number, nLeads: number, l: number): number {
   let n = 0;
   for (let m = 0; m < members; m++) n += mask[m * nLeads + l];
@@ -113,7 +140,7 @@ function countBeyond(mask: Uint8Array, members: number, nLeads: number, l: numbe
 }
 
 /** Exceedance probabilities of one source × region × indicator × tier, one LeadProbability per forecast lead. */
-export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
+export function leadProbabilities(req: ProbabilityRequest, onProblem: (d: Diagnostic) => void = () => {}): LeadProbability[] {
   const { forecast, calibration, hindcast } = req;
   const nLeads = forecast.leads.length;
   const members = new Float64Array(forecast.members);
@@ -123,6 +150,7 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
     const problem = coverageProblem(req, l, lead);
     let threshold: Threshold;
     let climate: LeadClimate | null = null;
+    let fromClimate = false;
     if (problem !== null || hindcast === null) {
       flags.push(`uncalibrated: ${problem}`);
       threshold = fallbackThreshold(req, l, lead);
@@ -136,7 +164,9 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
       const spec = req.threshold;
       if (spec.kind === 'percentile') {
         threshold = climatePercentileThreshold(hindcast, l, spec.percentile, 'hindcasts', lead);
+        fromClimate = true;
       } else if (lead.tier !== 'days' && covers(req.observed, l)) {
+        fromClimate = true;
         const qm = quantileMappedThresholdObject(spec, req.observed, hindcast, l, lead);
         threshold = qm.threshold;
         if (qm.clipped)
@@ -168,13 +198,26 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
       const step = exc.valid > 0 ? ` in steps of 1/${exc.valid} (${Math.round(1000 / exc.valid) / 10} %)` : '';
       flags.push(`few-members: ${exc.valid} valid members < ${calibration.minMembers}; the probability moves${step}`);
     }
+    const baseRate = normalYearRate(req, l, climate, threshold.value);
+    const held = fromClimate && hindcast ? heldThreshold(req, hindcast, l, lead, threshold, baseRate, exc.probability) : null;
+    if (held) {
+      flags.push(`threshold-degenerate: ${held}`);
+      onProblem(
+        diagnostic(
+          'threshold-degenerate',
+          `${req.source} forecast for ${req.region} (${req.indicator}), ${held}`,
+          'choose a threshold inside the climate of this region and lead (region-thresholds), or leave the lead out of the rule',
+          { source: req.source, region: req.region, indicator: req.indicator },
+        ),
+      );
+    }
     return {
       source: req.source,
       region: req.region,
       indicator: req.indicator,
       lead,
-      probability: exc.probability,
-      baseRate: normalYearRate(req, l, climate, threshold.value),
+      probability: held ? Number.NaN : exc.probability,
+      baseRate,
       members: forecast.members,
       validMembers: exc.valid,
       threshold,

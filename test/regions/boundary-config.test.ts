@@ -100,7 +100,7 @@ describe('regions: boundaries: FILE', () => {
         [0, 1],
         [0, 0],
       ]),
-      /feature 1 \(id "bow"\) ring 0 \(outer\) intersects itself near/,
+      /feature 1 \(id "bow"\) ring 0 \(outer\) intersects itself at \[0\.5, 0\.5\]/,
     ],
     [
       'an unclosed ring',
@@ -145,7 +145,7 @@ describe('regions: boundaries: FILE', () => {
           ],
         ],
       },
-      /ring [01] \((outer|hole)\) crosses ring [01] \((outer|hole)\) near/,
+      /ring [01] \((outer|hole)\) crosses ring [01] \((outer|hole)\) at \[2, 1(\.25)?\]/,
     ],
   ])('%s: one line with the YAML position, file, feature index and id, and how to repair', async (_what, geometry, message) => {
     const { config, problems } = await withSet(

@@ -6,6 +6,9 @@ Reads JSON on stdin: {"grids": {name: {"latBounds": [[s, n], ...], "lonBounds": 
   equal_area[region]     = region area (sr) in the Lambert cylindrical equal-area projection (x = λ, y = sin φ)
                            after densifying every edge to 0.001° (a check on the exact formula, by another route)
   valid[region]          = shapely's is_valid after putting each ring in a continuous longitude frame.
+  edges_meet_at[region]  = for each [lon, lat] of request "points"[region]: whether two edges of the region that are
+                           not neighbours on one ring (or lie on two rings) both pass within 1e-6° of it (shapely
+                           distance), i.e. whether the boundary really crosses or touches itself there (at lon ± 360 too).
 
 Geometry model (RFC 7946 §3.1.1): edges are straight in longitude/latitude. The intersection is computed by
 GEOS in that plane; its area on the sphere is the exact line integral A = -∮ sin φ dλ along straight edges
@@ -17,6 +20,7 @@ import sys
 
 import numpy as np
 from shapely.geometry import Polygon, box
+from shapely.geometry import LineString, Point
 
 DEG = math.pi / 180
 
@@ -110,12 +114,30 @@ def cell_weights(polys, lat_bounds, lon_bounds):
     return [[y, x, a] for (y, x), a in sorted(areas.items())]
 
 
+def edges_meet(polys, point):
+    for shift in (-360, 0, 360):
+        p = Point(point[0] + shift, point[1])
+        for poly in polys:
+            near = []
+            for r, ring in enumerate([poly.exterior, *poly.interiors]):
+                c = list(ring.coords)
+                n = len(c) - 1
+                near += [(r, i, n) for i in range(n) if LineString([c[i], c[i + 1]]).distance(p) < 1e-6]
+            for a in near:
+                for b in near:
+                    if a < b and (a[0] != b[0] or (abs(a[1] - b[1]) > 1 and abs(a[1] - b[1]) != a[2] - 1)):
+                        return True
+    return False
+
+
 def main():
     req = json.load(sys.stdin)
-    out = {"weights": {}, "equal_area": {}, "valid": {}}
+    out = {"weights": {}, "equal_area": {}, "valid": {}, "edges_meet_at": {}}
     for r in req["regions"]:
         polys = framed_polygons(r["geometry"])
         out["valid"][r["id"]] = all(p.is_valid for p in polys)
+        if r["id"] in req.get("points", {}):
+            out["edges_meet_at"][r["id"]] = [edges_meet(polys, pt) for pt in req["points"][r["id"]]]
         if req.get("areas", True):
             out["equal_area"][r["id"]] = sum(equal_area(p) for p in polys)
     for name, g in req["grids"].items():

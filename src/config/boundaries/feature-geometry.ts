@@ -16,6 +16,12 @@ function polygonsOf(geometry: RawFeature['geometry']): unknown[] | string {
   return `has geometry type ${geometry.type}; regions need Polygon or MultiPolygon`;
 }
 
+/** A point of the continuous frame as the file would write it: longitude back in −180..180, 6 decimals (0.1 m). */
+function lonLatText([lon, lat]: readonly [number, number]): string {
+  const wrapped = lon > 180 || lon < -180 ? ((((lon + 180) % 360) + 360) % 360) - 180 : lon;
+  return `${Number(wrapped.toFixed(6))}, ${Number(lat.toFixed(6))}`;
+}
+
 export function featurePolygons(geometry: RawFeature['geometry']): GeometryCheck {
   const raw = polygonsOf(geometry);
   if (typeof raw === 'string') return { problem: raw };
@@ -35,7 +41,7 @@ export function featurePolygons(geometry: RawFeature['geometry']): GeometryCheck
       const name = (r: number) => `ring ${r} ${r === 0 ? '(outer)' : '(hole)'}`;
       const what =
         cross.ring === cross.other ? `${name(cross.ring)} intersects itself` : `${name(cross.ring)} crosses ${name(cross.other)}`;
-      return { problem: `${where}${what} near [${cross.near[0]}, ${cross.near[1]}]` };
+      return { problem: `${where}${what} at [${lonLatText(cross.at)}]` };
     }
     out.push(framed);
   }

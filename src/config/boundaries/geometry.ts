@@ -95,11 +95,20 @@ function adjacent(s: Segment, t: Segment, ringSizes: readonly number[]): boolean
   return d <= 1 || d === n - 1;
 }
 
+/** Where two intersecting edges meet: their crossing point (Cramer's rule), or for collinear edges an end point shared. */
+function meetingPoint(s: Segment, t: Segment): Point {
+  const [dx, dy, ex, ey] = [s.b[0] - s.a[0], s.b[1] - s.a[1], t.b[0] - t.a[0], t.b[1] - t.a[1]];
+  const det = dx * ey - dy * ex;
+  if (det === 0) return [t.a, t.b, s.b].find((p) => onSeg(s.a, p, s.b) || onSeg(t.a, p, t.b)) ?? s.a;
+  const u = ((t.a[0] - s.a[0]) * ey - (t.a[1] - s.a[1]) * ex) / det;
+  return [s.a[0] + u * dx, s.a[1] + u * dy];
+}
+
 /**
  * Where two edges of one polygon (its rings in a continuous frame) cross or touch, or null. Sorted by west end,
  * each edge is compared only with edges overlapping it in longitude (a sweep; near n log n for real boundaries).
  */
-export function selfIntersection(rings: readonly Ring[]): { ring: number; other: number; near: Point } | null {
+export function selfIntersection(rings: readonly Ring[]): { ring: number; other: number; at: Point } | null {
   const segs: Segment[] = [];
   const sizes: number[] = [];
   rings.forEach((ring, r) => {
@@ -117,7 +126,7 @@ export function selfIntersection(rings: readonly Ring[]): { ring: number; other:
       if (adjacent(s, t, sizes)) continue;
       if (Math.max(Math.min(s.a[1], s.b[1]), Math.min(t.a[1], t.b[1])) > Math.min(Math.max(s.a[1], s.b[1]), Math.max(t.a[1], t.b[1])))
         continue;
-      if (intersects(s, t)) return { ring: s.ring, other: t.ring, near: s.a };
+      if (intersects(s, t)) return { ring: s.ring, other: t.ring, at: meetingPoint(s, t) };
     }
   }
   return null;
