@@ -1,7 +1,8 @@
 /**
  * Population-weighted region means (`forelight extract FILE --var tas --regions B.geojson --population RASTER --json`)
  * against shapely/GEOS + numpy (population_reference.py: people per cell = Σ count × |pixel ∩ cell ∩ region| / |pixel|,
- * exact spherical areas): weights within 1e-6 relative, means within 1e-4 relative. Rasters: a GeoTIFF written by
+ * exact spherical areas): weights within 1e-6 relative, means within 1e-4 relative, and the share of a district's
+ * people whose cell is above a level (region-value share-above) within 1e-4 percentage points. Rasters: a GeoTIFF written by
  * GDAL (gdal_translate from an ESRI ASCII grid, EPSG:4326) holding counts, and a NetCDF written by ncgen holding the
  * same people as density per km² with latitude descending. Pixels (0.25°, edges offset by 0.1°) straddle the
  * 1° source cells. Bad rasters: a projected CRS (UTM, written by gdal_translate -a_srs) and a raster not covering a
@@ -13,7 +14,11 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { loadBoundarySet } from '../../src/config/boundaries/boundary-sets.ts';
-import type { PopulationConfig, RegionConfig } from '../../src/config/types.ts';
+import { regionIndicator } from '../../src/calibrate/region-indicator.ts';
+import { readRegions, regionViewId } from '../../src/config/region-views.ts';
+import type { IndicatorConfig, PopulationConfig, RegionConfig } from '../../src/config/types.ts';
+import { readFile } from '../../src/pipeline/read-file.ts';
+import { extractRegionSeries } from '../../src/read/extract.ts';
 import { findCoordinates } from '../../src/read/coordinates.ts';
 import { withDataset } from '../../src/read/open-dataset.ts';
 import { populationSetCells } from '../../src/read/population-set.ts';
@@ -80,6 +85,8 @@ data:
 }
 
 const nc = join(dir, 'tas.nc');
+/** Level of the share-above check: between the districts' coolest and warmest cells on days 0–2 (about 21–23 °C). */
+const SHARE_LEVEL = 22.3;
 const features = JSON.parse(execFileSync('cat', [DISTRICTS]).toString()).features as { properties: { code: string }; geometry: object }[];
 const regions = features.map((f) => ({ id: f.properties.code.toLowerCase(), geometry: f.geometry }));
 // region_means_reference.py writes tas.nc (1° global grid, netCDF4-python); its area means are not needed here.
@@ -89,11 +96,11 @@ execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'region_means_refere
 });
 const ref = JSON.parse(
   execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'population_reference.py')], {
-    input: JSON.stringify({ nc, regions, raster: { south: SOUTH, west: WEST, step: STEP, counts } }),
+    input: JSON.stringify({ nc, regions, raster: { south: SOUTH, west: WEST, step: STEP, counts }, share_above_c: SHARE_LEVEL }),
     cwd: import.meta.dirname,
     maxBuffer: 64 * 1024 * 1024,
   }).toString(),
-) as { weights: Record<string, [number, number, number][]>; means: Record<string, number[]> };
+) as { weights: Record<string, [number, number, number][]>; means: Record<string, number[]>; shares: Record<string, number[]> };
 
 const forelight = (...args: string[]) =>
   spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], { cwd: ROOT, encoding: 'utf8' });
@@ -138,6 +145,40 @@ describe('population weights vs shapely + numpy', () => {
     const area = JSON.parse(forelight('extract', nc, '--var', 'tas', '--regions', DISTRICTS, '--id-property', 'code', '--json').stdout);
     // The people sit unevenly, so the weighting shows in the value (not a copy of the area mean).
     expect(Math.abs(area.regions['mh-01'].members[0][0] - got.regions['mh-01'].members[0][0])).toBeGreaterThan(1e-3);
+  });
+
+  it('region-value { weights: population, share-above }: % of the people above the level within 1e-4 points of numpy', async () => {
+    const list = (await districts()).map(({ weighting: _, ...r }) => r);
+    const ind: IndicatorConfig = {
+      id: 'tmax-day',
+      name: 'daily maximum temperature',
+      kind: 'tmax-mean',
+      windowDays: 1, // each cell's own daily value
+      threshold: { kind: 'absolute', value: 50, units: '%' },
+      regionThresholds: {},
+      aggregate: 'mean',
+      tiers: ['days'],
+      params: {},
+      regionValue: { weights: 'population', shareAbove: SHARE_LEVEL },
+    };
+    const population: PopulationConfig = { file: tif, values: 'people-per-pixel' };
+    const series = (await readFile(
+      extractRegionSeries,
+      nc,
+      { tmax: 'tas' },
+      readRegions({ regions: list, indicators: [ind] }),
+      { population },
+      [],
+    ))!;
+    const partial: string[] = [];
+    for (const r of list) {
+      const got = regionIndicator(ind, series.get(regionViewId(r.id, ind))!, r.id, {}).data;
+      ref.shares[r.id].forEach((want, t) => {
+        expect(Math.abs(got[t] - want), `${r.id} day ${t}`).toBeLessThan(1e-4);
+        if (want > 0 && want < 100) partial.push(r.id);
+      });
+    }
+    expect(partial.length).toBeGreaterThanOrEqual(3);
   });
 
   it('a projected GeoTIFF is refused naming the file and its CRS, with the gdalwarp line', () => {
