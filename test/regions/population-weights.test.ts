@@ -1,19 +1,24 @@
 /**
  * Population-weighted region means (`forelight extract FILE --var tas --regions B.geojson --population RASTER --json`)
  * against shapely/GEOS + numpy (population_reference.py: people per cell = Σ count × |pixel ∩ cell ∩ region| / |pixel|,
- * exact spherical areas): weights within 1e-6 relative, means within 1e-4 relative. Rasters: a GeoTIFF written by
+ * exact spherical areas): weights within 1e-6 relative, means within 1e-4 relative, and the share of a district's
+ * people whose cell is above a level (region-value share-above) within 1e-4 percentage points. Rasters: a GeoTIFF written by
  * GDAL (gdal_translate from an ESRI ASCII grid, EPSG:4326) holding counts, and a NetCDF written by ncgen holding the
  * same people as density per km² with latitude descending. Pixels (0.25°, edges offset by 0.1°) straddle the
- * 1° source cells. Bad rasters: a projected CRS (UTM, written by gdal_translate -a_srs) and a raster not covering a
- * district give one line naming file, CRS or region.
+ * 1° source cells. Bad rasters: a projected CRS (UTM, warped by gdalwarp; the suggested gdalwarp line is run and
+ * its output accepted) and a raster not covering a district give one line naming file, CRS or region.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { loadBoundarySet } from '../../src/config/boundaries/boundary-sets.ts';
-import type { PopulationConfig, RegionConfig } from '../../src/config/types.ts';
+import { regionIndicator } from '../../src/calibrate/region-indicator.ts';
+import { readRegions, regionViewId } from '../../src/config/region-views.ts';
+import type { IndicatorConfig, PopulationConfig, RegionConfig } from '../../src/config/types.ts';
+import { readFile } from '../../src/pipeline/read-file.ts';
+import { extractRegionSeries } from '../../src/read/extract.ts';
 import { findCoordinates } from '../../src/read/coordinates.ts';
 import { withDataset } from '../../src/read/open-dataset.ts';
 import { populationSetCells } from '../../src/read/population-set.ts';
@@ -80,6 +85,8 @@ data:
 }
 
 const nc = join(dir, 'tas.nc');
+/** Level of the share-above check: between the districts' coolest and warmest cells on days 0–2 (about 21–23 °C). */
+const SHARE_LEVEL = 22.3;
 const features = JSON.parse(execFileSync('cat', [DISTRICTS]).toString()).features as { properties: { code: string }; geometry: object }[];
 const regions = features.map((f) => ({ id: f.properties.code.toLowerCase(), geometry: f.geometry }));
 // region_means_reference.py writes tas.nc (1° global grid, netCDF4-python); its area means are not needed here.
@@ -89,11 +96,11 @@ execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'region_means_refere
 });
 const ref = JSON.parse(
   execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'population_reference.py')], {
-    input: JSON.stringify({ nc, regions, raster: { south: SOUTH, west: WEST, step: STEP, counts } }),
+    input: JSON.stringify({ nc, regions, raster: { south: SOUTH, west: WEST, step: STEP, counts }, share_above_c: SHARE_LEVEL }),
     cwd: import.meta.dirname,
     maxBuffer: 64 * 1024 * 1024,
   }).toString(),
-) as { weights: Record<string, [number, number, number][]>; means: Record<string, number[]> };
+) as { weights: Record<string, [number, number, number][]>; means: Record<string, number[]>; shares: Record<string, number[]> };
 
 const forelight = (...args: string[]) =>
   spawnSync(process.execPath, [join(ROOT, 'bin/forelight.mjs'), ...args], { cwd: ROOT, encoding: 'utf8' });
@@ -140,12 +147,69 @@ describe('population weights vs shapely + numpy', () => {
     expect(Math.abs(area.regions['mh-01'].members[0][0] - got.regions['mh-01'].members[0][0])).toBeGreaterThan(1e-3);
   });
 
-  it('a projected GeoTIFF is refused naming the file and its CRS, with the gdalwarp line', () => {
-    const utm = geoTiff('people-utm', 'EPSG:32631');
+  it('region-value { weights: population, share-above }: % of the people above the level within 1e-4 points of numpy', async () => {
+    const list = (await districts()).map(({ weighting: _, ...r }) => r);
+    const ind: IndicatorConfig = {
+      id: 'tmax-day',
+      name: 'daily maximum temperature',
+      kind: 'tmax-mean',
+      windowDays: 1, // each cell's own daily value
+      threshold: { kind: 'absolute', value: 50, units: '%' },
+      regionThresholds: {},
+      aggregate: 'mean',
+      tiers: ['days'],
+      params: {},
+      regionValue: { weights: 'population', shareAbove: SHARE_LEVEL },
+    };
+    const population: PopulationConfig = { file: tif, values: 'people-per-pixel' };
+    const series = (await readFile(
+      extractRegionSeries,
+      nc,
+      { tmax: 'tas' },
+      readRegions({ regions: list, indicators: [ind] }),
+      { population },
+      [],
+    ))!;
+    const partial: string[] = [];
+    for (const r of list) {
+      const got = regionIndicator(ind, series.get(regionViewId(r.id, ind))!, r.id, {}).data;
+      ref.shares[r.id].forEach((want, t) => {
+        expect(Math.abs(got[t] - want), `${r.id} day ${t}`).toBeLessThan(1e-4);
+        if (want > 0 && want < 100) partial.push(r.id);
+      });
+    }
+    expect(partial.length).toBeGreaterThanOrEqual(3);
+  });
+
+  it('a projected GeoTIFF is refused naming the file and its CRS, with a gdalwarp line that works pasted from anywhere', () => {
+    // Really projected (warped to UTM 31S by GDAL), in a folder whose name needs quoting in a shell.
+    const folder = join(dir, "census office's rasters");
+    mkdirSync(folder);
+    const utm = join(folder, 'people-utm.tif');
+    execFileSync('gdalwarp', ['-q', '-t_srs', 'EPSG:32731', tif, utm]);
     const run = forelight('extract', nc, '--var', 'tas', '--regions', DISTRICTS, '--id-property', 'code', '--population', utm, '--json');
     const got = JSON.parse(run.stdout) as { regions: object; problems: string[] };
     expect(got.regions).toEqual({});
-    expect(got.problems).toEqual([expect.stringMatching(/CRS 'WGS 84 \/ UTM zone 31N', not WGS 84 longitude\/latitude/)]);
+    expect(got.problems).toEqual([expect.stringMatching(/CRS 'WGS 84 \/ UTM zone 31S', not WGS 84 longitude\/latitude/)]);
+    const command = /reproject it once: (gdalwarp .+), and name (.+) in population\.file/.exec(got.problems[0]);
+    expect(command?.[2]).toBe(join(folder, 'people-utm-wgs84.tif'));
+    execFileSync('sh', ['-c', command![1]], { cwd: '/' });
+    const again = forelight(
+      'extract',
+      nc,
+      '--var',
+      'tas',
+      '--regions',
+      DISTRICTS,
+      '--id-property',
+      'code',
+      '--population',
+      command![2],
+      '--json',
+    );
+    const fixed = JSON.parse(again.stdout) as { regions: Record<string, unknown>; problems: string[] };
+    expect(fixed.problems).toEqual([]);
+    expect(Object.keys(fixed.regions).sort()).toEqual(Object.keys(ref.means).sort());
   });
 
   it('a raster not covering a district names that district; the others are weighted', async () => {

@@ -4,7 +4,9 @@ Forelight's code. Each source cell of the region weighs Σ over raster pixels p 
 
 stdin: {"nc": path of a file written by region_means_reference.py, "regions": [{"id", "geometry"}],
         "raster": {"south", "west", "step", "counts": [[row 0 = southmost], ...]} (None = no data = nobody)}
-stdout: {"weights": {id: [[row, column, people], ...]}, "means": {id: [day 0, 1, 2 in degC]}}.
+        optional "share_above_c": L
+stdout: {"weights": {id: [[row, column, people], ...]}, "means": {id: [day 0, 1, 2 in degC]},
+         "shares": {id: [% of the region's people whose cell exceeds L °C (strictly), day 0, 1, 2]} (with L only)}.
 """
 import json
 import math
@@ -26,7 +28,8 @@ lat_b = np.asarray(nc.variables["lat_bnds"][:], dtype=float)
 lon_b = np.asarray(nc.variables["lon_bnds"][:], dtype=float)
 tas = np.asarray(nc.variables["tas"][:], dtype=float)
 
-out = {"weights": {}, "means": {}}
+level = req.get("share_above_c")
+out = {"weights": {}, "means": {}, "shares": {}}
 for r in req["regions"]:
     polys = framed_polygons(r["geometry"])
     cells = {}
@@ -58,4 +61,6 @@ for r in req["regions"]:
     ys = np.array([y for (y, _), _ in items])
     xs = np.array([x for (_, x), _ in items])
     out["means"][r["id"]] = [float((tas[t, ys, xs] * ws).sum() / ws.sum() - 273.15) for t in range(tas.shape[0])]
+    if level is not None:
+        out["shares"][r["id"]] = [float(100 * ws[tas[t, ys, xs] - 273.15 > level].sum() / ws.sum()) for t in range(tas.shape[0])]
 json.dump(out, sys.stdout)
