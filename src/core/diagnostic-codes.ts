@@ -103,7 +103,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'config',
     severity: 'error',
     meaning:
-      "a forecast-files or hindcast-files pattern has an unknown placeholder, or one of a source's patterns matches no file while the others do",
+      "a forecast-files or hindcast-files pattern has an unknown placeholder, one of a source's forecast-files patterns matches no file while the others do, or hindcast-files matches no file or has no {year} or {date}",
     fix: 'fix the pattern at the line given (placeholders: {date}, {year}, {mmdd}, {var}, {member})',
   },
   'region-between-centres': {

@@ -3,13 +3,19 @@
  * whose patterns (or one variable's `{var}` file) matches none, has a typo or a missing download; the problem is
  * placed at that pattern's YAML line. A source none of whose patterns match yet is only noted by the grid check
  * (src/pipeline/grid-extents.ts): its files may simply not have arrived.
+ *
+ * Hindcasts are an archive, not a daily arrival: once a source's forecasts are at hand, a `hindcast-files` pattern
+ * matching no file would leave every lead uncalibrated, and is an error at its line; so is one without `{year}` or
+ * `{date}` that matches files (no start can be told from their paths). Before any file of the source has arrived
+ * (a fresh installation) the grid check's note says so (src/pipeline/grid-extents.ts).
  */
 import { problem, pointerOf } from '../config/problem.ts';
 import type { ConfigSourceMap } from '../config/source-map.ts';
 import type { Config } from '../config/types.ts';
 import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
-import { fillPattern, hasPlaceholder, matchPattern } from '../core/path-patterns.ts';
+import { fillPattern, hasPlaceholder, matchPattern, PLACEHOLDERS } from '../core/path-patterns.ts';
 import { fileVariables } from './split-files.ts';
+import { newestForecastFile } from './grid-extents.ts';
 
 export function unmatchedPatterns(config: Config, sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
   const out: Diagnostic[] = [];
@@ -36,6 +42,39 @@ export function unmatchedPatterns(config: Config, sourceMap: ConfigSourceMap | u
         sourceMap ? sourceMap.place('config-pattern', p) : diagnostic('config-pattern', p.message, p.fix, { file: config.file, pointer }),
       );
     }
+  });
+  return out;
+}
+
+/** Problems of each source's `hindcast-files` with the files at hand: matching no file, or telling no start. */
+export function hindcastPatternProblems(config: Config, sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
+  const out: Diagnostic[] = [];
+  config.sources.forEach((source, i) => {
+    const pattern = source.hindcast;
+    if (pattern === undefined) return;
+    const pointer = pointerOf('sources', i, 'hindcast-files');
+    const found = matchPattern(pattern).length;
+    const forecastsHere = newestForecastFile(source) !== null;
+    const p =
+      found === 0 && !forecastsHere
+        ? undefined
+        : found === 0
+          ? problem(
+              pointer,
+              `source ${source.id}: hindcast-files ${pattern} matches no file, so no lead of this source can be calibrated`,
+              `check the spelling and folders of hindcast-files (placeholders ${PLACEHOLDERS.map((n) => `{${n}}`).join(', ')}) and that the hindcasts are downloaded`,
+            )
+          : !hasPlaceholder(pattern, 'year') && !hasPlaceholder(pattern, 'date')
+            ? problem(
+                pointer,
+                `source ${source.id}: hindcast-files ${pattern} has no {year} or {date}, so the start of its ${found} file(s) cannot be told`,
+                'put {year} (with {mmdd}) or {date} where the hindcast file names carry the start date, e.g. hc/{year}/t2m_{year}{mmdd}.nc',
+              )
+            : undefined;
+    if (p)
+      out.push(
+        sourceMap ? sourceMap.place('config-pattern', p) : diagnostic('config-pattern', p.message, p.fix, { file: config.file, pointer }),
+      );
   });
   return out;
 }
