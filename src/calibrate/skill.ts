@@ -98,12 +98,7 @@ function build(p: number[], m: number[], o: number[], y: number[]): Verification
 }
 
 /** Cases of lead position l against observations; entries missing on either side are skipped. */
-export function observedCases(
-  hc: LeadClimate,
-  obs: LeadClimate,
-  l: number,
-  spec: ThresholdSpec,
-): VerificationCases {
+export function observedCases(hc: LeadClimate, obs: LeadClimate, l: number, spec: ThresholdSpec): VerificationCases {
   const n = hc.years.length;
   const fcThr = new Float64Array(n);
   const obsThr = new Float64Array(n);
