@@ -48,6 +48,9 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
   try {
     db = postgres ? openPostgres(target, options.password) : openSqlite(target);
   } catch (err) {
+    // A full or read-only disk already refuses the WAL set-up: said as such, with the fix.
+    const fault = postgres ? err : ledgerWriteFault(target, err);
+    if (fault !== err) throw fault;
     throw new ForelightError(
       'ledger',
       'ledger-open',
@@ -58,7 +61,14 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
       { cause: err },
     );
   }
-  if (options.migrate !== false) applyMigrations(db, shown);
+  if (options.migrate !== false) {
+    try {
+      applyMigrations(db, shown);
+    } catch (err) {
+      db.close();
+      throw postgres ? err : ledgerWriteFault(target, err);
+    }
+  }
   return {
     path: shown,
     db,
@@ -71,6 +81,9 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
 /** SQLite result codes that mean the ledger's file system refuses the write (SQLite C API, "Result and Error Codes"). */
 const WRITE_FAULTS: Readonly<Record<string, string>> = {
   SQLITE_FULL: 'ENOSPC',
+  // "may indicate that the underlying filesystem volume is out of space" (same page, quoted from memory): WAL's shm file
+  // cannot grow on a full tmpfs. Listed before SQLITE_IOERR, which matches every extended I/O code.
+  SQLITE_IOERR_SHMSIZE: 'ENOSPC',
   SQLITE_READONLY: 'EROFS',
   SQLITE_CANTOPEN: 'EACCES',
   SQLITE_IOERR: 'EIO',

@@ -208,6 +208,15 @@ function sweepOutputs(config: Config, log: Logger): void {
   if (removed.length > 0) log.warn('removed temporary files left by an interrupted write', { files: removed });
 }
 
+/** `write()`, with a failure of the ledger's disk said as one line naming the ledger and the fix. */
+function withLedgerFault<T>(path: string, write: () => T): T {
+  try {
+    return write();
+  } catch (err) {
+    throw ledgerWriteFault(path, err);
+  }
+}
+
 export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   const { config } = options;
   const { issueDate, log } = options.run;
@@ -223,7 +232,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   const key = forecastKey(analysis.inputs);
   const ledger = openConfiguredLedger(config, { now: options.run.now });
   try {
-    const begun = beginRun(ledger, key, { force: options.force });
+    const begun = withLedgerFault(config.ledger, () => beginRun(ledger, key, { force: options.force }));
     if (begun.kind === 'already-issued') {
       const text = `The newest forecasts (${key}) were already issued in run ${begun.run.id}; nothing new was sent. Use --force to issue them again.`;
       await sendOperatorNotice(config.delivery, `nothing new for ${issueDate}`, text, { log, diagnostics: analysis.problems });

@@ -9,6 +9,8 @@
  * - the archive folder on a real tmpfs remounted read-only (EROFS), and on a real tmpfs filled up (ENOSPC): the
  *   e-mails still go out, exit 4, the message and the operator notice name the folder and the fix, no temp file is
  *   left (single writes: test/core/write-atomic.test.ts).
+ * - the SQLite ledger on a real tmpfs filled up: the run stops before sending with one line naming the ledger and the
+ *   fix, no temp file left; once space is freed the next run sends every bulletin exactly once.
  * For each: the exit code; no region below its previous stage or below the clean run purely because data vanished;
  * the bulletin names the missing part (or the older forecast used); an operator notice; every team still gets its
  * bulletin, each Message-ID once; no bulletin contradicts itself (render/consistency.ts in every render, and the rows
@@ -36,6 +38,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
+import { ForelightError, describeError } from '../../src/core/errors.ts';
 import { silentLogger } from '../../src/core/log.ts';
 import { runContext } from '../../src/core/run-context.ts';
 import { NO_FORECAST_ID, stageRank } from '../../src/decide/types.ts';
@@ -372,4 +375,58 @@ describe.skipIf(!mountFaults())('the archive folder on a faulty disk (real tmpfs
     },
     240_000,
   );
+});
+
+describe.skipIf(!mountFaults())('the ledger on a full disk (real tmpfs, mount(8), holding the SQLite file)', () => {
+  it('stops before sending with one line naming the ledger and the fix (exit 1), no temp file left; once space is freed the next run sends every bulletin exactly once', async () => {
+    const dir = tmp('ledger-full');
+    const size = statSync(join(historyDir, 'ledger.sqlite')).size;
+    const disk = mountTmpfs(Math.ceil(size / 1024) + 64 * 1024);
+    try {
+      const config = { ...configFor(dir, forecastCopy(), join(historyDir, 'cache')), ledger: join(disk.dir, 'ledger.sqlite') };
+      copyFileSync(join(historyDir, 'ledger.sqlite'), config.ledger);
+      cpSync(join(historyDir, 'archive'), config.delivery.archive, { recursive: true });
+      fill(disk.dir);
+      const go = () =>
+        runOnce({
+          config,
+          run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }),
+          mode: 'exercise',
+          deliver: { sleep: async () => {} },
+        });
+      const failed = await go().then(
+        () => null,
+        (err: unknown) => err,
+      );
+      expect(failed).toBeInstanceOf(ForelightError);
+      const line = describeError(failed);
+      expect(line).toContain(config.ledger);
+      expect(line).toMatch(new RegExp(`SQLITE_(FULL|IOERR_SHMSIZE).*the disk holding ${disk.dir} is full: free space there`));
+      // src/cli/main.ts: a ForelightError of the ledger stage exits 1 (README, exit codes).
+      expect([(failed as ForelightError).stage, (failed as ForelightError).code]).toEqual(['ledger', 'ledger-write']);
+      const sentBefore = existsSync(config.delivery.outbox)
+        ? readdirSync(config.delivery.outbox).filter((f) => f.endsWith('.eml') && !f.startsWith('notice_'))
+        : [];
+      expect(sentBefore).toEqual([]);
+      expect(tempFiles(disk.dir, config.delivery.outbox)).toEqual([]);
+      expect(readdirSync(disk.dir).filter((f) => f !== 'filler' && statSync(join(disk.dir, f)).size === 0 && !f.endsWith('-wal'))).toEqual(
+        [],
+      );
+
+      rmSync(join(disk.dir, 'filler'));
+      const again = await go();
+      expect(again.exitCode, again.summary).toBe(clean.outcome.exitCode);
+      const outbox = readdirSync(config.delivery.outbox).filter((f) => f.endsWith('.eml') && !f.startsWith('notice_'));
+      const ids = await Promise.all(outbox.map(async (f) => (await simpleParser(readFileSync(join(config.delivery.outbox, f)))).messageId));
+      expect(ids).toHaveLength(recipients());
+      expect(new Set(ids).size).toBe(recipients());
+      const ledger = openLedger(config.ledger);
+      const stages = new Map(issuedRegionStages(config, lastIssuedStages(ledger)).map((r) => [r.region, r.stageId]));
+      ledger.close();
+      expect(stages).toEqual(clean.stages);
+      expect(tempFiles(disk.dir, config.delivery.outbox)).toEqual([]);
+    } finally {
+      disk.unmount();
+    }
+  }, 480_000);
 });
