@@ -627,6 +627,12 @@ export const DIAGNOSTIC_CODES = {
     meaning: 'the ledger was written by a newer Forelight',
     fix: 'upgrade Forelight or point config "ledger" at another file',
   },
+  'ledger-dry-run': {
+    stage: 'ledger',
+    severity: 'error',
+    meaning: '`run --dry-run` rehearses on an in-memory copy of a SQLite ledger and cannot copy a PostgreSQL one',
+    fix: 'use `forelight diff` to see which stages would change without writing anything',
+  },
   'ledger-write': {
     stage: 'ledger',
     severity: 'error',
