@@ -5,7 +5,7 @@
  * forecast_period; §7.1 cell boundaries through the `bounds` attribute; §7.3 `cell_methods`).
  * Names (`lat`, `step`, `number`, …) are only a last resort.
  */
-import { InputError } from '../core/errors.ts';
+import { InputError, UnitError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { durationUnitMs, TimeMapper } from './coordinates-time.ts';
 import { decodeTimes } from './cf-time.ts';
@@ -234,18 +234,49 @@ async function monthsOf(
   return detectMonths(stamps, bounds, referenceMs, stampsMs);
 }
 
+/**
+ * Model months of a lead axis (forecast_period in hours or days, monthly bounds or mid-month steps): the leads
+ * counted from the reference time in the reference's own calendar (its `calendar`, else the Gregorian one for an
+ * ISO 8601 reference attribute), then judged as for an absolute axis (monthly.ts).
+ */
+async function leadMonthsOf(
+  ds: Dataset,
+  lead: VariableInfo,
+  leads: Float64Array,
+  bounds: Float64Array | null,
+  referenceMs: number,
+  stampsMs: Float64Array,
+): Promise<MonthSteps | null> {
+  const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+  const calendar = ref ? attr(ref, 'calendar') : undefined;
+  const origin = ref ? decodeTimes(await readWhole(ds, ref), attr(ref, 'units') ?? '', calendar)[0] : null;
+  const pad = (n: number) => String(n).padStart(2, '0');
+  const since = origin
+    ? `${origin.year}-${pad(origin.month)}-${pad(origin.day)} ${pad(origin.hour)}:${pad(origin.minute)}:${pad(Math.floor(origin.second))}`
+    : new Date(referenceMs).toISOString().slice(0, 19).replace('T', ' ');
+  const units = `${(attr(lead, 'units') ?? '').trim()} since ${since}`;
+  try {
+    return detectMonths(decodeTimes(leads, units, calendar), bounds && decodeTimes(bounds, units, calendar), referenceMs, stampsMs);
+  } catch (err) {
+    if (err instanceof UnitError) return null; // a lead unit CF time units do not spell (e.g. "h"): daily steps, as read before
+    throw err;
+  }
+}
+
 async function findTime(ds: Dataset, referenceMs: number | null, mapper: TimeMapper): Promise<TimeAxis | null> {
   const lead = ds.variables.find(isLead);
   if (lead && referenceMs !== null) {
     const unitMs = durationUnitMs(attr(lead, 'units') ?? '', ds.path, lead.name);
     const toMs = (values: Float64Array): Float64Array => values.map((x) => Math.round(referenceMs + x * unitMs));
     const bounds = await readBounds(ds, lead, lead.shape[0]);
+    const leads = await readWhole(ds, lead);
+    const stampsMs = toMs(leads);
     return {
       dimension: lead.dimensions[0],
       variable: lead.name,
-      stampsMs: toMs(await readWhole(ds, lead)),
+      stampsMs,
       boundsMs: bounds && toMs(bounds),
-      months: null,
+      months: await leadMonthsOf(ds, lead, leads, bounds, referenceMs, stampsMs),
     };
   }
   const candidates = ds.variables.filter((v) => v.dimensions.length === 1 && isTimeLike(v) && !isReference(v) && !isLead(v));

@@ -8,7 +8,8 @@
  *  2. `cell_methods` `time: sum` without bounds (CF §7.3): totals over the period before each stamp.
  *  3. units: metres (`lwe_thickness_of_precipitation_amount`, the GRIB total-precipitation encoding) =
  *     accumulation since the reference time (zero at the reference time when the file has no step 0);
- *     `mm`/`kg m-2` = totals.
+ *     `mm`/`kg m-2` = totals,
+ *  4. unless such an unlabelled amount never decreases from a zero start (accumulation-probe.ts): accumulation.
  */
 import { InputError } from '../core/errors.ts';
 import type { Quantity } from '../types.ts';
@@ -56,6 +57,7 @@ function isPeriodVariable(layout: VariableLayout, method: string | null, unitPla
 /**
  * Step intervals and accumulation of `layout`'s variable; `unitPlan` null = unknown quantity (CLI).
  * `referenceHintMs`: the forecast date the file was found under, used when the file states no forecast_reference_time.
+ * `valuesAccumulate`: the values of an unlabelled amount showed a running accumulation (accumulation-probe.ts).
  * @throws InputError when `cell_methods` gives periods longer than the time spacing (overlapping running periods).
  */
 export function planTime(
@@ -63,12 +65,13 @@ export function planTime(
   layout: VariableLayout,
   unitPlan: UnitPlan | null,
   referenceHintMs: number | null = null,
+  valuesAccumulate = false,
 ): TimePlan {
   const time = coords.time;
   if (!time || layout.timeAxis < 0) return { intervals: null, accumulated: false };
   const method = timeCellMethod(layout.info, time);
   const periodMs = timeCellIntervalMs(layout.info, time);
-  const accumulated = isAccumulation(unitPlan, time.boundsMs, method);
+  const accumulated = valuesAccumulate || isAccumulation(unitPlan, time.boundsMs, method);
   const period = isPeriodVariable(layout, method, unitPlan);
   if (period && !time.boundsMs && periodMs !== null && time.stampsMs.length > 1 && periodMs > axisSpacing(time.stampsMs) + SLACK_MS) {
     const every = Math.round(periodMs / axisSpacing(time.stampsMs));

@@ -9,6 +9,7 @@ import { regionClock } from '../core/local-clock.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { DailyMethod } from './daily.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
+import { valuesAccumulate } from './accumulation-probe.ts';
 import { planTime } from './extract-plan.ts';
 import { reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
@@ -39,7 +40,7 @@ export async function rawRegionMeans(
   const { selected, problems } = await regionSelection(coords.grid, regionList, { population, cacheDir, file: ds.path });
   const layout = layoutVariable(ds, coords, variable);
   const unitPlan = canonicalUnitPlan(layout.info, ds.path);
-  const timePlan = planTime(coords, layout, unitPlan);
+  const timePlan = planTime(coords, layout, unitPlan, null, await valuesAccumulate(ds, coords, layout, unitPlan, null));
   if (daily && !timePlan.intervals) {
     throw new InputError(
       'time-missing',

@@ -11,6 +11,7 @@ import type { Quantity, RegionSeries, Tier } from '../types.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { Dataset } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
+import { accumulationNote, valuesAccumulate } from './accumulation-probe.ts';
 import { dailyMethodFor, planTime, referenceWindowMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
 import { monthlyNote, requireMonthTier, spreadMeansToDays } from './monthly.ts';
@@ -104,7 +105,9 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
       const layout = layoutVariable(ds, coords, variable);
       const units = layout.info.attributes.units;
       const unitPlan = planUnits(quantity, typeof units === 'string' ? units : undefined, ds.path, variable);
-      const timePlan = planTime(coords, layout, unitPlan, wanted);
+      const byValues = await valuesAccumulate(ds, coords, layout, unitPlan, wanted);
+      if (byValues) notes.push(`${ds.path}: ${accumulationNote(variable)}`);
+      const timePlan = planTime(coords, layout, unitPlan, wanted, byValues);
       const window = referenceWindowMs(coords, timePlan);
       if (window === null) {
         throw new InputError(
