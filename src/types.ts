@@ -289,11 +289,12 @@ export interface PersistenceWait {
 /**
  * How one lead took part in its tier's stage: `sets-stage` = its probability set the issued stage; `counted` = used
  * by the rules, pointing to no stage above the issued one; `no-skill` = withheld by the skill gate (no demonstrated
- * skill); `no-rule` = no trigger rule of the tier looks at this lead; `no-value` = no probability; `capped` = the rules
+ * skill); `no-rule` = no trigger rule of the tier looks at this lead; `no-value` = no probability; `no-contrast` = held because its threshold cannot tell the forecast
+ * from a normal year (flag threshold-degenerate, src/calibrate/degenerate-threshold.ts); `capped` = the rules
  * give a stage above the tier cap; `awaiting` = it points above the issued stage, which waits for confirmation in the
  * next run(s) (persistence).
  */
-export type LeadUseKind = 'sets-stage' | 'counted' | 'no-skill' | 'no-rule' | 'no-value' | 'capped' | 'awaiting';
+export type LeadUseKind = 'sets-stage' | 'counted' | 'no-skill' | 'no-rule' | 'no-value' | 'no-contrast' | 'capped' | 'awaiting';
 
 export interface LeadUse {
   readonly index: number;

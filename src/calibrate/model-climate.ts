@@ -13,6 +13,7 @@ import { indicatorInputs, regionIndicator } from './region-indicator.ts';
 import type { HindcastRead, IndicatorSeries, IsoDate, RegionQuantities } from '../types.ts';
 import { stackYears, type LeadClimate } from './climate.ts';
 import { sameLeadMonths } from './month-true.ts';
+import { atForecastStart } from './start-anomalies.ts';
 import { indicatorContext, valuesOnDays } from './indicator-context.ts';
 import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
 import { leadCases, skillReports, type SkillReport } from './skill.ts';
@@ -117,7 +118,8 @@ function tuneCostLoss(
 
 /**
  * Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator,
- * for a forecast whose lead 1 begins on `forecastLeadOne` (it decides the months pooled; null when the forecast has none).
+ * for a forecast whose lead 1 begins on `forecastLeadOne` (it decides the months pooled, and the start day and week
+ * climates are moved to; null when the forecast has none).
  */
 export function buildIndicatorClimate(
   config: CalibrateConfig,
@@ -164,11 +166,15 @@ export function buildIndicatorClimate(
       : null;
   if (pooled) problems.push(...pooled.problems);
   const keep = new Set(pooled?.kept ?? hcYears);
-  const hc = stackYears(what, units, pooled?.kept ?? hcYears, place);
+  // Days and weeks: values moved from each start's own model climate to the forecast's start (start-anomalies.ts).
+  const atStart = <T extends { leads: LeadValues }>(e: T[]): T[] => (tier === 'months' ? e : atForecastStart(e, forecastLeadOne));
+  const hc = stackYears(what, units, atStart(pooled?.kept ?? hcYears), place);
   // Observed entries were pushed beside the hindcast ones (same positions): keep the same starts.
   const obsKept = obsYears.filter((_, i) => keep.has(hcYears[i]));
   const obs =
-    obsKept.length > 0 ? stackYears(`observations for ${region.id} (${ind.id})`, units, obsKept, place) : { climate: null, problems: [] };
+    obsKept.length > 0
+      ? stackYears(`observations for ${region.id} (${ind.id})`, units, atStart(obsKept), place)
+      : { climate: null, problems: [] };
   problems.push(...hc.problems, ...obs.problems);
   if (!hc.climate) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
   const skill = skillReports({

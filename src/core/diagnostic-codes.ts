@@ -103,7 +103,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'config',
     severity: 'error',
     meaning:
-      "a forecast-files or hindcast-files pattern has an unknown placeholder, or one of a source's patterns matches no file while the others do",
+      "a forecast-files or hindcast-files pattern has an unknown placeholder, one of a source's forecast-files patterns matches no file while the others do, or hindcast-files matches no file or has no {year} or {date}",
     fix: 'fix the pattern at the line given (placeholders: {date}, {year}, {mmdd}, {var}, {member})',
   },
   'region-between-centres': {
@@ -299,7 +299,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'error',
     meaning: 'the file holds several forecast reference times',
-    fix: 'split the file per forecast start',
+    fix: 'split the file per forecast start (ncks -d <dimension>,K,K per start K), and name the parts with {date}',
   },
   'reference-invalid': {
     stage: 'read',
@@ -379,7 +379,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'warning',
     meaning: 'no forecast of a source on or before the issue date',
-    fix: 'check that the files arrived and the path pattern in sources[].forecast',
+    fix: 'check that the files arrived and the path pattern in sources[].forecast-files',
   },
   'hindcast-grid': {
     stage: 'read',

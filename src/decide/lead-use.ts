@@ -36,6 +36,8 @@ export function leadUses(stages: readonly StageConfig[], input: LeadUseInput): L
     .map((p): LeadUse => {
       const index = p.lead.index;
       const unused = (kind: LeadUseKind): LeadUse => ({ index, kind, reachedId: lowest, supportsId: lowest });
+      // Flags start with their code word (src/calibrate/probability.ts).
+      if (p.flags.some((f) => f.startsWith('threshold-degenerate:'))) return unused('no-contrast');
       if (!Number.isFinite(p.probability)) return unused('no-value');
       if (!skilful.has(index)) return unused('no-skill');
       const reachedId = reachedBy.get(index);

@@ -35,7 +35,7 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
       notes.push(
         diagnostic(
           'grid-not-checked',
-          `source '${source.id}': no forecast file yet matches ${source.forecast.join(' + ')}; its grid was not checked`,
+          `source '${source.id}': no forecast file yet matches ${source.forecast.join(' + ')}${hindcastMissing(source)}; its grid was not checked`,
           '',
           { source: source.id },
         ),
@@ -63,4 +63,9 @@ export async function sourceGridExtents(config: Config): Promise<{ grids: GridEx
     }
   }
   return { grids, notes };
+}
+
+/** ", nor any hindcast file …" when the source's `hindcast-files` matches nothing either (checked once forecasts arrive). */
+function hindcastMissing(source: SourceConfig): string {
+  return source.hindcast !== undefined && matchPattern(source.hindcast).length === 0 ? `, nor any hindcast file ${source.hindcast}` : '';
 }

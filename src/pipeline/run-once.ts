@@ -11,7 +11,7 @@ import type { ArchiveEntry } from '../render/archive.ts';
 import type { Config } from '../config/types.ts';
 import { deliverPending, type DeliverOptions } from '../deliver/deliver-pending.ts';
 import { sendOperatorNotice } from '../deliver/operator-notice.ts';
-import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
+import { formatDiagnostic, isBulletinContradiction, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError } from '../core/errors.ts';
 import { runDiagnostics } from '../ledger/diagnostics.ts';
 import { hasBulletins } from '../ledger/bulletins.ts';
@@ -48,6 +48,13 @@ export interface RunOutcome {
   readonly runId: number | null;
   /** Every input problem of the run, one line each (file, variable, region, reason and fix), for the terminal. */
   readonly problems?: readonly string[];
+  /** Statements of the run's bulletins that disagree (a bug in Forelight, not an input problem), one line each. */
+  readonly contradictions?: readonly string[];
+}
+
+/** A run's diagnostics (also those of an interrupted start): input problems apart from bulletin contradictions. */
+function runFindings(found: readonly Diagnostic[]): { problems: Diagnostic[]; contradictions: Diagnostic[] } {
+  return { problems: found.filter((d) => !isBulletinContradiction(d)), contradictions: found.filter(isBulletinContradiction) };
 }
 
 /** The forecasts a run would issue, e.g. "short 2026-11-30, subseasonal 2026-11-30, seasonal 2026-11-26". */
@@ -134,14 +141,17 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
       throw fault;
     }
     if (dryRun) {
-      const problems = runDiagnostics(ledger, runId);
+      const { problems, contradictions } = runFindings(runDiagnostics(ledger, runId));
+      if (contradictions.length > 0) wouldNotify.push(`bulletin contradiction in the run of ${issueDate}`);
       if (problems.length > 0) wouldNotify.push(`input problems in the run of ${issueDate}`);
       const summary = dryRunReport({ config, issueDate, key, prepared, pending: pendingDeliveries(ledger, runId), wouldNotify });
+      const exitCode = contradictions.length > 0 ? EXIT.contradiction : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
       return {
-        exitCode: problems.length > 0 ? EXIT.inputProblem : EXIT.ok,
+        exitCode,
         summary,
         runId: null,
         problems: problems.map(formatDiagnostic),
+        contradictions: contradictions.map(formatDiagnostic),
       };
     }
     const outputProblems = [await publishOrReport(config, prepared?.archive ?? null, rlog)].filter((p): p is string => p !== null);
@@ -154,13 +164,25 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     }
     const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
     const outputCode = outputProblems.length > 0 ? EXIT.deliveryFailed : EXIT.ok;
-    const problems: readonly Diagnostic[] = runDiagnostics(ledger, runId); // also those of the interrupted start
-    const status = problems.length > 0 || deliveryCode !== EXIT.ok || outputCode !== EXIT.ok ? 'partial' : 'ok';
+    const found = runDiagnostics(ledger, runId); // also those of the interrupted start
+    const { problems, contradictions } = runFindings(found);
+    const status = found.length > 0 || deliveryCode !== EXIT.ok || outputCode !== EXIT.ok ? 'partial' : 'ok';
     finishRun(ledger, runId, status, outputProblems.length > 0 ? outputProblems.join(' | ') : undefined);
     const summary =
       `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)` +
+      (contradictions.length > 0
+        ? `; ${contradictions.length} bulletin contradiction(s), a bug in Forelight: report it with run.json`
+        : '') +
       (outputProblems.length > 0 ? `; ${outputProblems.length} output problem(s): ${outputProblems.join(' | ')}` : '');
-    rlog.info(summary, { stage: 'deliver' });
+    if (contradictions.length > 0) rlog.error(summary, { stage: 'deliver' });
+    else rlog.info(summary, { stage: 'deliver' });
+    if (contradictions.length > 0) {
+      await notify(
+        `bulletin contradiction in the run of ${issueDate}`,
+        `Run ${runId} (${key}) was delivered, but its bulletins contain statements that disagree. This is a bug in Forelight, not a problem of the input data: report it with run.json of the run. The bulletins went out as rendered.`,
+        contradictions,
+      );
+    }
     if (problems.length > 0) {
       await notify(
         `input problems in the run of ${issueDate}`,
@@ -168,9 +190,18 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
         problems,
       );
     }
+    // Recipients without their bulletin first, then a bug in what was sent, then missing inputs (README, exit codes).
     const exitCode =
-      deliveryCode !== EXIT.ok ? deliveryCode : outputCode !== EXIT.ok ? outputCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
-    return { exitCode, summary, runId, problems: problems.map(formatDiagnostic) };
+      deliveryCode !== EXIT.ok
+        ? deliveryCode
+        : outputCode !== EXIT.ok
+          ? outputCode
+          : contradictions.length > 0
+            ? EXIT.contradiction
+            : problems.length > 0
+              ? EXIT.inputProblem
+              : EXIT.ok;
+    return { exitCode, summary, runId, problems: problems.map(formatDiagnostic), contradictions: contradictions.map(formatDiagnostic) };
   } finally {
     ledger.close();
   }

@@ -8,13 +8,15 @@
  *  2. `cell_methods` `time: sum` without bounds (CF §7.3): totals over the period before each stamp.
  *  3. units: metres (`lwe_thickness_of_precipitation_amount`, the GRIB total-precipitation encoding) =
  *     accumulation since the reference time (zero at the reference time when the file has no step 0);
- *     `mm`/`kg m-2` = totals.
+ *     `mm`/`kg m-2` = totals,
+ *  4. unless such an unlabelled amount never decreases from a zero start (accumulation-probe.ts): accumulation.
  */
 import { InputError } from '../core/errors.ts';
 import type { Quantity } from '../types.ts';
 import { timeCellIntervalMs, timeCellMethod } from './cell-methods.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
 import { axisSpacing, stepIntervals, type DailyMethod, type StepIntervals } from './daily.ts';
+import { isoInstant } from './extract-reduce.ts';
 import type { UnitPlan } from './units.ts';
 
 const PERIOD_METHODS = ['maximum', 'minimum', 'mean', 'sum', 'median', 'mid_range', 'standard_deviation', 'variance'];
@@ -56,6 +58,7 @@ function isPeriodVariable(layout: VariableLayout, method: string | null, unitPla
 /**
  * Step intervals and accumulation of `layout`'s variable; `unitPlan` null = unknown quantity (CLI).
  * `referenceHintMs`: the forecast date the file was found under, used when the file states no forecast_reference_time.
+ * `valuesAccumulate`: the values of an unlabelled amount showed a running accumulation (accumulation-probe.ts).
  * @throws InputError when `cell_methods` gives periods longer than the time spacing (overlapping running periods).
  */
 export function planTime(
@@ -63,12 +66,13 @@ export function planTime(
   layout: VariableLayout,
   unitPlan: UnitPlan | null,
   referenceHintMs: number | null = null,
+  valuesAccumulate = false,
 ): TimePlan {
   const time = coords.time;
   if (!time || layout.timeAxis < 0) return { intervals: null, accumulated: false };
   const method = timeCellMethod(layout.info, time);
   const periodMs = timeCellIntervalMs(layout.info, time);
-  const accumulated = isAccumulation(unitPlan, time.boundsMs, method);
+  const accumulated = valuesAccumulate || isAccumulation(unitPlan, time.boundsMs, method);
   const period = isPeriodVariable(layout, method, unitPlan);
   if (period && !time.boundsMs && periodMs !== null && time.stampsMs.length > 1 && periodMs > axisSpacing(time.stampsMs) + SLACK_MS) {
     const every = Math.round(periodMs / axisSpacing(time.stampsMs));
@@ -108,4 +112,31 @@ export function referenceWindowMs(coords: FileCoordinates, plan: TimePlan): { ea
   if (!iv) return null;
   if (!iv.instantaneous) return { earliest: iv.startMs[0], latest: iv.startMs[0] };
   return { earliest: iv.startMs[0] - axisSpacing(iv.startMs), latest: iv.startMs[0] };
+}
+
+/** The requested reference time in ms (ISO date or instant), or null when none was requested. */
+export function requestedMs(file: string, requested: string | undefined): number | null {
+  if (requested === undefined) return null;
+  const wanted = Date.parse(/^\d{4}-\d{2}-\d{2}$/.test(requested) ? `${requested}T00:00:00Z` : requested);
+  if (Number.isNaN(wanted)) {
+    throw new InputError(
+      'reference-invalid',
+      file,
+      `requested reference time '${requested}' is not an ISO 8601 date`,
+      'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ',
+    );
+  }
+  return wanted;
+}
+
+/** The reference time of the series: the requested one when the file is consistent with it; throws otherwise. */
+export function checkReference(file: string, window: { earliest: number; latest: number }, wanted: number | null): number {
+  if (wanted === null) return window.latest;
+  if (wanted >= window.earliest && wanted <= window.latest) return wanted;
+  throw new InputError(
+    'reference-mismatch',
+    file,
+    `the file holds the forecast of ${isoInstant(window.latest)} but ${isoInstant(wanted)} was requested`,
+    'the file name and its contents disagree: check the source path pattern or replace the file',
+  );
 }

@@ -15,6 +15,7 @@ import type { RasterExtent } from '../config/check-population.ts';
 import type { PopulationConfig } from '../config/types.ts';
 import { InputError } from '../core/errors.ts';
 import { sha256File } from '../core/file-checksums.ts';
+import { shellWord, wgs84Copy } from '../core/shell-command.ts';
 import { decodeCf } from './cf-decode.ts';
 import { findCoordinates, type LatLonGrid } from './coordinates.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
@@ -58,6 +59,12 @@ async function gdal(tool: string, args: string[], file: string): Promise<string>
   }
 }
 
+/** The fix for a raster not on WGS 84 longitude/latitude: a gdalwarp line writing a GeoTIFF beside it (`source`: GDAL's name of the data). */
+function reprojectFix(file: string, source = file): string {
+  const out = wgs84Copy(file, '.tif');
+  return `reproject it once: gdalwarp -t_srs EPSG:4326 ${shellWord(source)} ${shellWord(out)}, and name ${out} in population.file`;
+}
+
 /** The CRS of a GeoTIFF from `gdalinfo -json`, refused unless geographic WGS 84. */
 async function checkGeoTiffCrs(file: string): Promise<void> {
   const info = JSON.parse(await gdal('gdalinfo', ['-json', file], file)) as { coordinateSystem?: { wkt?: string } };
@@ -66,12 +73,7 @@ async function checkGeoTiffCrs(file: string): Promise<void> {
   const geographic = /^GEOG(CRS|CS)\[/.test(wkt);
   const wgs84 = /ID\["EPSG",4326\]\s*\]$/.test(wkt) || /DATUM\["World Geodetic System 1984"/.test(wkt) || /DATUM\["WGS_1984"/.test(wkt);
   if (geographic && wgs84) return;
-  throw new InputError(
-    'population-crs',
-    file,
-    `population raster is in CRS '${name}', not WGS 84 longitude/latitude`,
-    `reproject it once: gdalwarp -t_srs EPSG:4326 ${file} population-wgs84.tif, and name that file in population.file`,
-  );
+  throw new InputError('population-crs', file, `population raster is in CRS '${name}', not WGS 84 longitude/latitude`, reprojectFix(file));
 }
 
 /** Where converted GeoTIFFs live: `<cacheDir>/population`, or the system temp folder without a cache dir. */
@@ -123,7 +125,7 @@ function peopleVariable(ds: Dataset, grid: LatLonGrid, file: string, name: strin
       'population-crs',
       file,
       `population variable '${info.name}' is on grid mapping '${String(mapped)}', not WGS 84 longitude/latitude`,
-      `reproject it once: gdalwarp -t_srs EPSG:4326 ${file} population-wgs84.nc`,
+      reprojectFix(file, `NETCDF:${file}:${info.name}`),
     );
   }
   return info;
@@ -145,7 +147,7 @@ async function openRaster<T>(
         'population-crs',
         pop.file,
         `population raster has no latitude/longitude coordinates (${err instanceof Error ? err.message : String(err)}), so it is not WGS 84 longitude/latitude`,
-        `reproject it once: gdalwarp -t_srs EPSG:4326 ${pop.file} population-wgs84.tif`,
+        reprojectFix(pop.file),
         { cause: err },
       );
     }

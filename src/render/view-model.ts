@@ -222,6 +222,8 @@ function useNote(t: Translate, use: LeadUse, outcome: TierOutcome, stageOf: (id:
       return t('use.noRule');
     case 'no-value':
       return t('use.noValue');
+    case 'no-contrast':
+      return t('use.noContrast');
     case 'capped': {
       const cap = stageOf(use.supportsId);
       return t('use.capped', { glyph: cap.glyph, label: cap.label });

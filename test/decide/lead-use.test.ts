@@ -39,6 +39,15 @@ describe('leadUses', () => {
     ]);
   });
 
+  it('a lead held for a degenerate threshold is named as such, not as a missing value', () => {
+    const held = { ...prob('r1', 'months', 1, Number.NaN), flags: ['threshold-degenerate: lead month 1: threshold 1 1 …'] };
+    const d = decide([held, prob('r1', 'months', 2, Number.NaN)]);
+    expect(kinds(d)).toEqual([
+      [1, 'no-contrast', 'quiet', 'quiet'],
+      [2, 'no-value', 'quiet', 'quiet'],
+    ]);
+  });
+
   it('the lead sets the stage once persistence confirmed it', () => {
     const first = decideStages({ config, probabilities: weeks, history: EMPTY_HISTORY });
     const d = decide(weeks, first.nextHistory);

@@ -107,7 +107,9 @@ describe('extractFromDataset', () => {
   });
 
   it('kg m-2 amounts: per step without bounds (summed), accumulated when time_bnds all start at the reference', async () => {
-    const file = (bounds: number[] | null) =>
+    // Per-step amounts that fall once (3 then 2): unlabelled amounts that never fall would read as a running
+    // accumulation (src/read/DECISIONS.md §2 rule 4).
+    const file = (bounds: number[] | null, data = [1, 2, 3, 4]) =>
       makeFakeDataset({
         dimensions: { time: 4, lat: 1, lon: 1, nv: 2 },
         variables: {
@@ -119,10 +121,13 @@ describe('extractFromDataset', () => {
           time_bnds: { dimensions: ['time', 'nv'], data: bounds ?? new Array(8).fill(0) },
           lat: { dimensions: ['lat'], attributes: { standard_name: 'latitude' }, data: [-8] },
           lon: { dimensions: ['lon'], attributes: { standard_name: 'longitude' }, data: [0] },
-          pr: { dimensions: ['time', 'lat', 'lon'], attributes: { units: 'kg m-2' }, data: [1, 2, 3, 4] },
+          pr: { dimensions: ['time', 'lat', 'lon'], attributes: { units: 'kg m-2' }, data },
         },
       });
-    const perStep = await extractFromDataset(file(null), { quantities: { precip: 'pr' }, regions: [{ ...MARROW, utcOffsetHours: 0 }] });
+    const perStep = await extractFromDataset(file(null, [1, 3, 2, 4]), {
+      quantities: { precip: 'pr' },
+      regions: [{ ...MARROW, utcOffsetHours: 0 }],
+    });
     expect(Array.from(perStep.series[0].data)).toEqual([10]);
     const accumulated = await extractFromDataset(file([0, 6, 0, 12, 0, 18, 0, 24]), {
       quantities: { precip: 'pr' },

@@ -208,6 +208,49 @@ describe('period totals vs running accumulations (CF 1.11 §7.1 bounds, §7.3 ti
     }
   });
 
+  // Rule 4 of src/read/DECISIONS.md §2 (common practice, no source): an unlabelled amount in mm that never
+  // decreases from a zero start over the whole grid and every member is a running accumulation.
+  it.each([
+    ['with a zero step-0 field', hours(0, 6, 13)],
+    ['without step 0 (implied zero at the reference)', hours(6, 6, 12)],
+  ])(
+    'an unlabelled running accumulation in mm, %s: differenced (= cdo deltat), never summed, and said in the notes',
+    async (_case, times) => {
+      const file = ncgenFixture(
+        `tp-acc-mm-${times[0]}`,
+        precip(times, (m, t, y, x) => 1000 * accumulatedM(m, t + (times[0] === 0 ? 0 : 1), y, x), { units: 'mm' }),
+      );
+      const r = await extractRegionSeries(file, { quantities: { precip: 'tp' }, regions: [region()], referenceTime: '2026-11-23' });
+      expect(r.problems).toEqual([]);
+      const got = r.series[0];
+      expect(got.days).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+      expect(r.notes.join('\n')).toMatch(/'tp' states no period .* read as accumulated since the start/);
+      // cdo deltat drops the first step: without a step 0 the first value is itself the first step's amount.
+      const deltas = times[0] === 0 ? ['-deltat'] : [];
+      if (times[0] === 0)
+        expectSameAsCdo(got, cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-daysum', '-shifttime,-1sec', ...deltas], file));
+      else {
+        // The day's total is the accumulation at 24 h, then its increase to 48 h and to 72 h (read from cdo).
+        const acc = cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-seltimestep,4,8,12'], file);
+        for (let m = 0; m < got.members; m++) {
+          const want = [acc.members[m][0], acc.members[m][1] - acc.members[m][0], acc.members[m][2] - acc.members[m][1]];
+          want.forEach((w, d) => expect(Math.abs(got.data[m * 3 + d] - w)).toBeLessThanOrEqual(TOL));
+        }
+      }
+      for (const v of got.data) expect(v).toBeGreaterThanOrEqual(0);
+    },
+  );
+
+  it('unlabelled totals in mm that fall somewhere on the grid stay totals (summed = cdo daysum)', async () => {
+    const file = ncgenFixture(
+      'tp-mm-totals',
+      precip(hours(6, 6, 12), (m, t, y, x) => rainMm(m, t + 1, y, x), { units: 'mm' }),
+    );
+    const r = await extractRegionSeries(file, { quantities: { precip: 'tp' }, regions: [region()], referenceTime: '2026-11-23' });
+    expect(r.notes.join('\n')).not.toMatch(/read as accumulated/);
+    expectSameAsCdo(r.series[0], cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-daysum', '-shifttime,-1sec'], file));
+  });
+
   it('a decreasing accumulation is an error naming file, variable, member and step; the suggested ncatted fix reads it as totals', async () => {
     const file = ncgenFixture(
       'tp-decrease',

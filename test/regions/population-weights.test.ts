@@ -5,11 +5,11 @@
  * people whose cell is above a level (region-value share-above) within 1e-4 percentage points. Rasters: a GeoTIFF written by
  * GDAL (gdal_translate from an ESRI ASCII grid, EPSG:4326) holding counts, and a NetCDF written by ncgen holding the
  * same people as density per km² with latitude descending. Pixels (0.25°, edges offset by 0.1°) straddle the
- * 1° source cells. Bad rasters: a projected CRS (UTM, written by gdal_translate -a_srs) and a raster not covering a
- * district give one line naming file, CRS or region.
+ * 1° source cells. Bad rasters: a projected CRS (UTM, warped by gdalwarp; the suggested gdalwarp line is run and
+ * its output accepted) and a raster not covering a district give one line naming file, CRS or region.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -181,12 +181,35 @@ describe('population weights vs shapely + numpy', () => {
     expect(partial.length).toBeGreaterThanOrEqual(3);
   });
 
-  it('a projected GeoTIFF is refused naming the file and its CRS, with the gdalwarp line', () => {
-    const utm = geoTiff('people-utm', 'EPSG:32631');
+  it('a projected GeoTIFF is refused naming the file and its CRS, with a gdalwarp line that works pasted from anywhere', () => {
+    // Really projected (warped to UTM 31S by GDAL), in a folder whose name needs quoting in a shell.
+    const folder = join(dir, "census office's rasters");
+    mkdirSync(folder);
+    const utm = join(folder, 'people-utm.tif');
+    execFileSync('gdalwarp', ['-q', '-t_srs', 'EPSG:32731', tif, utm]);
     const run = forelight('extract', nc, '--var', 'tas', '--regions', DISTRICTS, '--id-property', 'code', '--population', utm, '--json');
     const got = JSON.parse(run.stdout) as { regions: object; problems: string[] };
     expect(got.regions).toEqual({});
-    expect(got.problems).toEqual([expect.stringMatching(/CRS 'WGS 84 \/ UTM zone 31N', not WGS 84 longitude\/latitude/)]);
+    expect(got.problems).toEqual([expect.stringMatching(/CRS 'WGS 84 \/ UTM zone 31S', not WGS 84 longitude\/latitude/)]);
+    const command = /reproject it once: (gdalwarp .+), and name (.+) in population\.file/.exec(got.problems[0]);
+    expect(command?.[2]).toBe(join(folder, 'people-utm-wgs84.tif'));
+    execFileSync('sh', ['-c', command![1]], { cwd: '/' });
+    const again = forelight(
+      'extract',
+      nc,
+      '--var',
+      'tas',
+      '--regions',
+      DISTRICTS,
+      '--id-property',
+      'code',
+      '--population',
+      command![2],
+      '--json',
+    );
+    const fixed = JSON.parse(again.stdout) as { regions: Record<string, unknown>; problems: string[] };
+    expect(fixed.problems).toEqual([]);
+    expect(Object.keys(fixed.regions).sort()).toEqual(Object.keys(ref.means).sort());
   });
 
   it('a raster not covering a district names that district; the others are weighted', async () => {

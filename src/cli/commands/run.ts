@@ -2,7 +2,7 @@
  * `forelight run`: one pass now over the newest inputs. `--dry-run`: the same pass on a copy of the ledger, printing
  * what it would issue; it takes no lock and writes no status file (nothing is stored or sent).
  */
-import { runOnce } from '../../pipeline/run-once.ts';
+import { runOnce, type RunOutcome } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { acquireLock } from '../../schedule/lock-file.ts';
 import { servicePaths } from '../../schedule/run-service.ts';
@@ -37,10 +37,17 @@ function recordStatus(config: Config, report: RunReport): boolean {
   }
 }
 
-async function dryRun(args: ParsedArgs, config: Config, run: RunContext): Promise<number> {
-  const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true });
+function printOutcome(outcome: RunOutcome): void {
   process.stdout.write(outcome.summary + '\n');
   for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);
+  for (const c of outcome.contradictions ?? [])
+    process.stderr.write(`forelight: error: bulletin contradiction (a bug in Forelight, report it with run.json): ${c}\n`);
+}
+
+/** A rehearsal reads like a run but holds no lock and leaves the status file as it was. */
+async function dryRun(args: ParsedArgs, config: Config, run: RunContext): Promise<number> {
+  const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true });
+  printOutcome(outcome);
   return outcome.exitCode;
 }
 
@@ -63,8 +70,7 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   try {
     const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
-    process.stdout.write(outcome.summary + '\n');
-    for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);
+    printOutcome(outcome);
     return !recorded && outcome.exitCode === EXIT.ok ? EXIT.deliveryFailed : outcome.exitCode;
   } catch (err) {
     recordStatus(config, makeRunReport('manual', startedAt, new Date(), EXIT.unexpected, describeError(err)));

@@ -3,12 +3,8 @@
  * ISO 19162:2019). Forelight reads longitude/latitude on WGS 84 only; anything else is refused with the
  * ogr2ogr command that reprojects it (GDAL's `-t_srs EPSG:4326`).
  */
-import { basename, dirname, extname, join } from 'node:path';
-
-/** A path as one POSIX shell word: as is when plain, else in single quotes (so the printed command runs as pasted). */
-function shellWord(path: string): string {
-  return /^[\w./+:@%=-]+$/.test(path) ? path : `'${path.replaceAll("'", `'\\''`)}'`;
-}
+import { basename, extname } from 'node:path';
+import { shellWord, wgs84Copy } from '../../core/shell-command.ts';
 
 /** Name of the top-level CRS and its kind keyword (GEOGCS, PROJCS, GEOGCRS, PROJCRS, …). */
 function topCrs(wkt: string): { keyword: string; name: string } | null {
@@ -32,8 +28,8 @@ function isWgs84Geographic(wkt: string): boolean {
 export function prjProblem(shp: string, prjText: string | null): { message: string; fix: string } | null {
   const stem = basename(shp, extname(shp));
   // Full paths both ways: the command works from any directory and writes beside the original.
-  const out = `${stem}-wgs84.shp`;
-  const [from, to] = [shellWord(shp), shellWord(join(dirname(shp), out))];
+  const out = basename(wgs84Copy(shp));
+  const [from, to] = [shellWord(shp), shellWord(wgs84Copy(shp))];
   if (prjText === null) {
     return {
       message: `shapefile ${shp} has no ${stem}.prj, so its coordinate reference system is unknown`,
