@@ -24,6 +24,9 @@ import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdO
 import { percentileLinear } from '../core/percentile.ts';
 import { degenerateThreshold } from './degenerate-threshold.ts';
 
+/** Origin note of an absolute threshold applied to raw model values (no observations to map it through). */
+const RAW_MODEL_NOTE = 'not quantile-mapped: no observations, raw model values';
+
 /** Fraction of valid members above (or, with '>=', at or above) the threshold; NaN without valid members. */
 export function exceedanceFraction(
   members: ArrayLike<number>,
@@ -77,7 +80,7 @@ function covers(c: LeadClimate | null, l: number): c is LeadClimate {
 /** Threshold for an uncalibrated lead: observed climatology percentile, the absolute value, or none. */
 function fallbackThreshold(req: ProbabilityRequest, l: number, lead: LeadWindow): Threshold {
   const spec = req.threshold;
-  if (spec.kind === 'absolute') return absoluteThreshold(spec, req.units, lead, 'not quantile-mapped: lead uncalibrated');
+  if (spec.kind === 'absolute') return absoluteThreshold(spec, req.units, lead, 'not quantile-mapped: lead uncalibrated, raw model values');
   if (covers(req.observed, l)) {
     const t = climatePercentileThreshold(req.observed, l, spec.percentile, 'observations', lead);
     return { ...t, origin: `${t.origin} (not model climate)` };
@@ -164,7 +167,8 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
       if (spec.kind === 'percentile') {
         threshold = climatePercentileThreshold(hindcast, l, spec.percentile, 'hindcasts', lead);
         fromClimate = true;
-      } else if (lead.tier !== 'days' && covers(req.observed, l)) {
+      } else if (covers(req.observed, l)) {
+        // Every tier (days, weeks, months) where observations cover the lead: DECISIONS.md "Bias correction".
         fromClimate = true;
         const qm = quantileMappedThresholdObject(spec, req.observed, hindcast, l, lead);
         threshold = qm.threshold;
@@ -173,12 +177,7 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
             `quantile-map-clipped: ${spec.value} ${spec.units} lies outside the observed climatology at ${leadLabel(lead)}; mapped to the model climate's extreme`,
           );
       } else {
-        threshold = absoluteThreshold(
-          spec,
-          req.units,
-          lead,
-          lead.tier === 'days' ? 'short range: not quantile-mapped' : 'not quantile-mapped: no observations',
-        );
+        threshold = absoluteThreshold(spec, req.units, lead, RAW_MODEL_NOTE);
       }
     }
     if (hindcast && hindcast.members !== forecast.members) {

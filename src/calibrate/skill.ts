@@ -5,8 +5,8 @@
  *     year never sets its own). Event o = observed value above, for a percentile spec, the same percentile of
  *     the observed climatology without that year — both by the unbiased Weibull position, so the observed and
  *     forecast events have the same nominal frequency (thresholds.ts); for an absolute spec, the absolute value
- *     (the forecast side then uses the leave-one-year-out quantile-mapped threshold for weeks/months, as
- *     probability.ts does with all years).
+ *     (the forecast side then uses the leave-one-year-out quantile-mapped threshold at every tier, as
+ *     probability.ts does with all years: the mapping for year y is built without year y).
  * (b) basis "potential" (perfect model, when observations do not cover the lead): each member of year y in turn is
  *     the truth, the remaining members the forecast, with the leave-one-year-out model threshold for both. Its
  *     cases (years × members) are not independent: the number of years is. It measures predictability in the
@@ -98,13 +98,7 @@ function build(p: number[], m: number[], o: number[], y: number[]): Verification
 }
 
 /** Cases of lead position l against observations; entries missing on either side are skipped. */
-export function observedCases(
-  hc: LeadClimate,
-  obs: LeadClimate,
-  l: number,
-  spec: ThresholdSpec,
-  tierUsesMapping: boolean,
-): VerificationCases {
+export function observedCases(hc: LeadClimate, obs: LeadClimate, l: number, spec: ThresholdSpec): VerificationCases {
   const n = hc.years.length;
   const fcThr = new Float64Array(n);
   const obsThr = new Float64Array(n);
@@ -112,7 +106,7 @@ export function observedCases(
     fcThr.set(leaveOneYearOutThresholds(hc, l, spec.percentile));
     hc.years.forEach((year, y) => (obsThr[y] = percentileLinear(leadSample(obs, l, year), spec.percentile, 'weibull')));
   } else {
-    hc.years.forEach((year, y) => (fcThr[y] = tierUsesMapping ? quantileMappedThreshold(spec.value, obs, hc, l, year).value : spec.value));
+    hc.years.forEach((year, y) => (fcThr[y] = quantileMappedThreshold(spec.value, obs, hc, l, year).value));
     obsThr.fill(spec.value);
   }
   const p: number[] = [],
@@ -254,7 +248,7 @@ export function leadCases(
 ): { lead: LeadWindow; basis: 'observed' | 'potential'; cases: VerificationCases; why: string }[] {
   return hc.leads.map((lead, l) => {
     const obsCovers = observed !== null && l < observed.leads.length && leadSample(observed, l).length > 0;
-    if (obsCovers) return { lead, basis: 'observed' as const, cases: observedCases(hc, observed, l, spec, lead.tier !== 'days'), why: '' };
+    if (obsCovers) return { lead, basis: 'observed' as const, cases: observedCases(hc, observed, l, spec), why: '' };
     const why = observed === null ? 'no observations configured' : `observations do not cover ${leadLabel(lead)}`;
     return { lead, basis: 'potential' as const, cases: potentialCases(hc, l, spec), why };
   });

@@ -118,7 +118,7 @@ export interface TeamConfig {
 
 /** How an indicator's exceedance threshold is set. */
 export type ThresholdSpec =
-  /** Absolute value (quantile-mapped at long leads when observations are configured). */
+  /** Absolute value (quantile-mapped at every tier where observations cover the lead). */
   | { readonly kind: 'absolute'; readonly value: number; readonly units: string }
   /** Percentile of the model climate (hindcasts) at the same lead. */
   | { readonly kind: 'percentile'; readonly percentile: number };

@@ -299,7 +299,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'error',
     meaning: 'the file holds several forecast reference times',
-    fix: 'split the file per forecast start',
+    fix: 'split the file per forecast start (ncks -d <dimension>,K,K per start K), and name the parts with {date}',
   },
   'reference-invalid': {
     stage: 'read',

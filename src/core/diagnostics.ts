@@ -56,6 +56,11 @@ export function within(d: Diagnostic, what: string, place: Place, code: Diagnost
   return { ...d, code, place: { ...place, ...d.place }, message: `${what}: ${d.message}` };
 }
 
+/** A finding of the bulletin consistency check (render/consistency.ts): a bug in Forelight, never an input problem. */
+export function isBulletinContradiction(d: Diagnostic): boolean {
+  return d.code === 'bulletin-contradiction';
+}
+
 /** `file:line:column: message — hint` (the parts that are known), the one text form of a diagnostic. */
 export function formatDiagnostic(d: Diagnostic): string {
   const { file, line, column } = d.place;

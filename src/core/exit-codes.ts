@@ -20,6 +20,11 @@ export const EXIT = {
   nothingNew: 5,
   /** Another Forelight run holds the lock, or this forecast was already issued by a live process. */
   locked: 6,
+  /**
+   * Issued and delivered, but the consistency check found statements of a bulletin that disagree: a bug in
+   * Forelight, not an input problem (report it with run.json; the bulletins went out as rendered, operators told).
+   */
+  contradiction: 7,
   /** Stopped by SIGTERM/SIGINT before issuing: nothing issued, the next start runs the slot (128 + SIGTERM, shell convention). */
   stopped: 143,
   /** Command line not understood (EX_USAGE of BSD sysexits.h). */

@@ -23,7 +23,7 @@ export function backtestCases(config: Pick<Config, 'indicators'>, analysis: Anal
       const spec = resolveThresholdSpec(ind, region);
       hc.leads.forEach((lead, l) => {
         if (l >= obs.leads.length) return;
-        const cases = observedCases(hc, obs, l, spec, lead.tier !== 'days');
+        const cases = observedCases(hc, obs, l, spec);
         cases.caseYears.forEach((year, i) => {
           const entry = byYear.get(year) ?? {
             probabilities: [] as LeadProbability[],

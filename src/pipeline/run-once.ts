@@ -12,7 +12,7 @@ import { decideStages } from '../decide/decide-stages.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import { deliverPending, type DeliverOptions } from '../deliver/deliver-pending.ts';
 import { sendOperatorNotice } from '../deliver/operator-notice.ts';
-import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
+import { formatDiagnostic, isBulletinContradiction, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { recordDiagnostics, runDiagnostics } from '../ledger/diagnostics.ts';
 import { hasBulletins, recordBulletins } from '../ledger/bulletins.ts';
@@ -60,6 +60,8 @@ export interface RunOutcome {
   readonly runId: number | null;
   /** Every input problem of the run, one line each (file, variable, region, reason and fix), for the terminal. */
   readonly problems?: readonly string[];
+  /** Statements of the run's bulletins that disagree (a bug in Forelight, not an input problem), one line each. */
+  readonly contradictions?: readonly string[];
 }
 
 /** The forecasts a run would issue, e.g. "short 2026-11-30, subseasonal 2026-11-30, seasonal 2026-11-26". */
@@ -260,13 +262,27 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
     }
     const deliveryCode = exitCodeForDeliveries(sent, config.delivery.smtp !== null);
     const outputCode = outputProblems.length > 0 ? EXIT.deliveryFailed : EXIT.ok;
-    const problems: readonly Diagnostic[] = runDiagnostics(ledger, runId); // also those of the interrupted start
-    const status = problems.length > 0 || deliveryCode !== EXIT.ok || outputCode !== EXIT.ok ? 'partial' : 'ok';
+    const found: readonly Diagnostic[] = runDiagnostics(ledger, runId); // also those of the interrupted start
+    const problems = found.filter((d) => !isBulletinContradiction(d));
+    const contradictions = found.filter(isBulletinContradiction);
+    const status = found.length > 0 || deliveryCode !== EXIT.ok || outputCode !== EXIT.ok ? 'partial' : 'ok';
     finishRun(ledger, runId, status, outputProblems.length > 0 ? outputProblems.join(' | ') : undefined);
     const summary =
       `issued ${key}: ${sent.sent} sent, ${sent.outbox} to the outbox, ${sent.failed} failed, ${sent.pending} pending; ${problems.length} input problem(s)` +
+      (contradictions.length > 0
+        ? `; ${contradictions.length} bulletin contradiction(s), a bug in Forelight: report it with run.json`
+        : '') +
       (outputProblems.length > 0 ? `; ${outputProblems.length} output problem(s): ${outputProblems.join(' | ')}` : '');
-    rlog.info(summary, { stage: 'deliver' });
+    if (contradictions.length > 0) rlog.error(summary, { stage: 'deliver' });
+    else rlog.info(summary, { stage: 'deliver' });
+    if (contradictions.length > 0) {
+      await sendOperatorNotice(
+        config.delivery,
+        `bulletin contradiction in the run of ${issueDate}`,
+        `Run ${runId} (${key}) was delivered, but its bulletins contain statements that disagree. This is a bug in Forelight, not a problem of the input data: report it with run.json of the run. The bulletins went out as rendered.`,
+        { log: rlog, env: options.deliver?.env, diagnostics: contradictions },
+      );
+    }
     if (problems.length > 0) {
       await sendOperatorNotice(
         config.delivery,
@@ -275,9 +291,18 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
         { log: rlog, env: options.deliver?.env, diagnostics: problems },
       );
     }
+    // Recipients without their bulletin first, then a bug in what was sent, then missing inputs (README, exit codes).
     const exitCode =
-      deliveryCode !== EXIT.ok ? deliveryCode : outputCode !== EXIT.ok ? outputCode : problems.length > 0 ? EXIT.inputProblem : EXIT.ok;
-    return { exitCode, summary, runId, problems: problems.map(formatDiagnostic) };
+      deliveryCode !== EXIT.ok
+        ? deliveryCode
+        : outputCode !== EXIT.ok
+          ? outputCode
+          : contradictions.length > 0
+            ? EXIT.contradiction
+            : problems.length > 0
+              ? EXIT.inputProblem
+              : EXIT.ok;
+    return { exitCode, summary, runId, problems: problems.map(formatDiagnostic), contradictions: contradictions.map(formatDiagnostic) };
   } finally {
     ledger.close();
   }

@@ -5,7 +5,7 @@
  * forecast_period; §7.1 cell boundaries through the `bounds` attribute; §7.3 `cell_methods`).
  * Names (`lat`, `step`, `number`, …) are only a last resort.
  */
-import { InputError } from '../core/errors.ts';
+import { InputError, UnitError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { durationUnitMs, TimeMapper } from './coordinates-time.ts';
 import { decodeTimes } from './cf-time.ts';
@@ -178,18 +178,43 @@ function referenceAttribute(ds: Dataset): number | null {
   return null;
 }
 
-async function findReference(ds: Dataset, mapper: TimeMapper): Promise<number | null> {
+/** The forecast reference time variable of a file: its name, dimension (none when scalar) and its times (ms). */
+export interface ReferenceTimes {
+  readonly variable: string;
+  readonly dimension: string | null;
+  readonly timesMs: Float64Array;
+}
+
+/** The file's forecast reference time variable (CF 1.11 §4.4, standard_name forecast_reference_time), or null. */
+export async function referenceTimesOf(ds: Dataset, mapper = new TimeMapper()): Promise<ReferenceTimes | null> {
   const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+  if (!ref) return null;
+  return { variable: ref.name, dimension: ref.dimensions[0] ?? null, timesMs: await decodeTimeVariable(ds, mapper, ref) };
+}
+
+/** The one-line fix for a file holding several starts: one `ncks` hyperslab per start (tested on cfgrib's layout). */
+export function splitStartsFix(file: string, ref: ReferenceTimes): string {
+  const compact = (ms: number) => new Date(ms).toISOString().slice(0, 10).replaceAll('-', '');
+  const n = ref.timesMs.length;
+  const stem = file.replace(/\.[^./]*$/, '');
+  return (
+    `split it into one file per start, e.g. ncks -d ${ref.dimension},K,K ${file} ${stem}_YYYYMMDD.nc for each start K ` +
+    `(0 = ${compact(ref.timesMs[0])} … ${n - 1} = ${compact(ref.timesMs[n - 1])}), and point hindcast-files at ${stem}_{date}.nc`
+  );
+}
+
+async function findReference(ds: Dataset, mapper: TimeMapper): Promise<number | null> {
+  const ref = await referenceTimesOf(ds, mapper);
   if (!ref) return referenceAttribute(ds);
-  if (ref.shape.reduce((a, b) => a * b, 1) !== 1) {
+  if (ref.timesMs.length !== 1) {
     throw new InputError(
       'reference-several',
       ds.path,
-      `'${ref.name}' holds ${ref.shape.join('×')} forecast reference times`,
-      'split the file into one file per start date (e.g. cdo splitsel,1)',
+      `'${ref.variable}' holds ${ref.timesMs.length} forecast reference times (one file of several starts)`,
+      splitStartsFix(ds.path, ref),
     );
   }
-  return (await decodeTimeVariable(ds, mapper, ref))[0];
+  return ref.timesMs[0];
 }
 
 /** Model months of an absolute time axis (monthly.ts), from its values in the file's own calendar. */
@@ -209,18 +234,49 @@ async function monthsOf(
   return detectMonths(stamps, bounds, referenceMs, stampsMs);
 }
 
+/**
+ * Model months of a lead axis (forecast_period in hours or days, monthly bounds or mid-month steps): the leads
+ * counted from the reference time in the reference's own calendar (its `calendar`, else the Gregorian one for an
+ * ISO 8601 reference attribute), then judged as for an absolute axis (monthly.ts).
+ */
+async function leadMonthsOf(
+  ds: Dataset,
+  lead: VariableInfo,
+  leads: Float64Array,
+  bounds: Float64Array | null,
+  referenceMs: number,
+  stampsMs: Float64Array,
+): Promise<MonthSteps | null> {
+  const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+  const calendar = ref ? attr(ref, 'calendar') : undefined;
+  const origin = ref ? decodeTimes(await readWhole(ds, ref), attr(ref, 'units') ?? '', calendar)[0] : null;
+  const pad = (n: number) => String(n).padStart(2, '0');
+  const since = origin
+    ? `${origin.year}-${pad(origin.month)}-${pad(origin.day)} ${pad(origin.hour)}:${pad(origin.minute)}:${pad(Math.floor(origin.second))}`
+    : new Date(referenceMs).toISOString().slice(0, 19).replace('T', ' ');
+  const units = `${(attr(lead, 'units') ?? '').trim()} since ${since}`;
+  try {
+    return detectMonths(decodeTimes(leads, units, calendar), bounds && decodeTimes(bounds, units, calendar), referenceMs, stampsMs);
+  } catch (err) {
+    if (err instanceof UnitError) return null; // a lead unit CF time units do not spell (e.g. "h"): daily steps, as read before
+    throw err;
+  }
+}
+
 async function findTime(ds: Dataset, referenceMs: number | null, mapper: TimeMapper): Promise<TimeAxis | null> {
   const lead = ds.variables.find(isLead);
   if (lead && referenceMs !== null) {
     const unitMs = durationUnitMs(attr(lead, 'units') ?? '', ds.path, lead.name);
     const toMs = (values: Float64Array): Float64Array => values.map((x) => Math.round(referenceMs + x * unitMs));
     const bounds = await readBounds(ds, lead, lead.shape[0]);
+    const leads = await readWhole(ds, lead);
+    const stampsMs = toMs(leads);
     return {
       dimension: lead.dimensions[0],
       variable: lead.name,
-      stampsMs: toMs(await readWhole(ds, lead)),
+      stampsMs,
       boundsMs: bounds && toMs(bounds),
-      months: null,
+      months: await leadMonthsOf(ds, lead, leads, bounds, referenceMs, stampsMs),
     };
   }
   const candidates = ds.variables.filter((v) => v.dimensions.length === 1 && isTimeLike(v) && !isReference(v) && !isLead(v));

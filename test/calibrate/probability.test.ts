@@ -39,7 +39,7 @@ describe('leadProbabilities', () => {
     expect(p.flags).toEqual([]);
     // hindcast values 30.00..31.99: none above 32.
     expect(p.baseRate).toBe(0);
-    expect(p.threshold.origin).toBe('absolute 32 degC, lead week 1 (not quantile-mapped: no observations)');
+    expect(p.threshold.origin).toBe('absolute 32 degC, lead week 1 (not quantile-mapped: no observations, raw model values)');
   });
   it('percentile spec: model-climate threshold and base rate ≈ 1 - q/100', () => {
     const [p] = leadProbabilities(request({ threshold: { kind: 'percentile', percentile: 90 } }));
@@ -106,7 +106,7 @@ describe('leadProbabilities', () => {
       'few-members: 8 valid members < 10; the probability moves in steps of 1/8 (12.5 %)',
     ]);
   });
-  it('quantile mapping at week leads when observations are configured; not at day leads', () => {
+  it('quantile mapping at week and day leads when observations cover them (Déqué 2007 empirical mapping)', () => {
     const obs = climate(YEARS_2006_2025, 1, leadsOf('weeks', 3), (y) => 31 + y / 10);
     const hcWarm = climate(YEARS_2006_2025, 10, leadsOf('weeks', 3), (y) => 33 + y / 10);
     const [w] = leadProbabilities(request({ observed: obs, hindcast: hcWarm }));
@@ -118,7 +118,11 @@ describe('leadProbabilities', () => {
         hindcast: climate(YEARS_2006_2025, 10, leadsOf('days', 1), (y) => 33 + y / 10),
       }),
     );
-    expect(d[0].threshold.value).toBe(32);
-    expect(d[0].threshold.origin).toMatch(/short range: not quantile-mapped/);
+    expect(d[0].threshold.value).toBeCloseTo(34, 12);
+    expect(d[0].threshold.origin).toMatch(/^absolute 32 degC quantile-mapped to 34 degC .*lead day 1$/);
+    const raw = leadProbabilities(
+      request({ forecast: forecast(1, ENS, 'days'), hindcast: climate(YEARS_2006_2025, 10, leadsOf('days', 1), (y) => 33 + y / 10) }),
+    );
+    expect(raw[0].threshold.origin).toBe('absolute 32 degC, lead day 1 (not quantile-mapped: no observations, raw model values)');
   });
 });

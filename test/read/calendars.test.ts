@@ -154,6 +154,46 @@ describe('monthly-mean seasonal files feed month-tier indicators directly', () =
     });
   }
 
+  // CF 1.11 §4.4 forecast_period: the same months given as leads from forecast_reference_time (time renamed and
+  // made a duration by NCO), in days with month bounds (360_day) and in hours at mid-month (standard calendar).
+  for (const c of [
+    { calendar: '360_day', bounds: true, hours: false },
+    { calendar: 'standard', bounds: false, hours: true },
+  ]) {
+    it(`a forecast_period lead axis in ${c.hours ? 'hours' : 'days'} (${c.calendar}) is read as months too, = cdo on the absolute-time file`, async () => {
+      const file = ncgenFixture(`monthly-lead-${c.calendar}`, monthly(c.calendar, '2026-12-01', c.bounds));
+      const lead = file.replace('.nc', '-lead.nc');
+      const nco = (...args: string[]) => execFileSync(args[0], args.slice(1));
+      nco('ncrename', '-O', '-d', 'time,forecast_period', '-v', 'time,forecast_period', file, lead);
+      if (c.hours) nco('ncap2', '-O', '-s', 'forecast_period=forecast_period*24', lead, lead);
+      const units = c.hours ? 'hours' : 'days';
+      nco(
+        'ncatted',
+        '-O',
+        '-a',
+        `units,forecast_period,o,c,${units}`,
+        '-a',
+        'standard_name,forecast_period,o,c,forecast_period',
+        '-a',
+        'axis,forecast_period,d,,',
+        '-a',
+        'calendar,forecast_period,d,,',
+        lead,
+      );
+      if (c.bounds) nco('ncatted', '-O', '-a', `units,time_bnds,o,c,${units}`, lead);
+      expect(execFileSync('ncdump', ['-h', lead], { encoding: 'utf8' })).toMatch(new RegExp(`forecast_period:units = "${units}"`));
+      const { series, notes, problems } = await read(lead, { tmean: 't2m' }, '2026-12-01', 'months');
+      expect(problems).toEqual([]);
+      expect(notes.join(' ')).toMatch(/one value per month \(2026-12 to 2027-02\)/);
+      const t = series[0];
+      expect(t.days).toHaveLength(31 + 31 + 28);
+      const months = aggregateToLeads({ ...t, indicator: 't', outOfRange: 0, missing: 0 }, 'months', 'mean');
+      const cdoT = cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-selname,t2m'], file).members;
+      for (let m = 0; m < 2; m++)
+        for (let k = 0; k < 3; k++) expect(Math.abs(months.values[m * 3 + k] - (cdoT[m][k] - KELVIN))).toBeLessThanOrEqual(TOL);
+    });
+  }
+
   it('a monthly file that skips a month (January, then March) is refused for that variable, naming both months', async () => {
     const spec: CdlSpec = {
       timeUnits: 'days since 2027-01-01 00:00:00',

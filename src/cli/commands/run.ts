@@ -54,6 +54,8 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     process.stdout.write(outcome.summary + '\n');
     for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);
+    for (const c of outcome.contradictions ?? [])
+      process.stderr.write(`forelight: error: bulletin contradiction (a bug in Forelight, report it with run.json): ${c}\n`);
     return !recorded && outcome.exitCode === EXIT.ok ? EXIT.deliveryFailed : outcome.exitCode;
   } catch (err) {
     recordStatus(config, makeRunReport('manual', startedAt, new Date(), EXIT.unexpected, describeError(err)));

@@ -6,7 +6,7 @@ import { servicePaths } from '../../schedule/run-service.ts';
 import { clusterStatus, formatClusterStatus } from '../../cluster/cluster-status.ts';
 import { runDiagnostics } from '../../ledger/diagnostics.ts';
 import { lastCompletedRun } from '../../ledger/runs.ts';
-import { formatDiagnostic } from '../../core/diagnostics.ts';
+import { formatDiagnostic, isBulletinContradiction } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { computeNextRuns } from '../../core/next-runs.ts';
 import { describeService, readStatus } from '../../schedule/status-file.ts';
@@ -36,7 +36,12 @@ export async function statusCommand(args: ParsedArgs): Promise<number> {
           ? `last completed run: ${last.id} (${last.forecastKey}) ${last.status} at ${last.finishedAt}${last.error ? ` — ${last.error}` : ''}`
           : 'last completed run: none',
       );
-      const problems = last ? runDiagnostics(ledger, last.id) : [];
+      const found = last ? runDiagnostics(ledger, last.id) : [];
+      const contradictions = found.filter(isBulletinContradiction);
+      const problems = found.filter((d) => !isBulletinContradiction(d));
+      if (contradictions.length > 0)
+        lines.push(`bulletin contradictions of run ${last?.id} (a bug in Forelight, report it with run.json): ${contradictions.length}`);
+      for (const d of contradictions.slice(0, 20)) lines.push(`  ${formatDiagnostic(d)}`);
       if (problems.length > 0) lines.push(`input problems of run ${last?.id}: ${problems.length}`);
       for (const d of problems.slice(0, 20)) lines.push(`  ${formatDiagnostic(d)}`);
       const open = listDeliveries(ledger, { statuses: ['pending', 'sending', 'failed'] });
