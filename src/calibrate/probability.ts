@@ -65,7 +65,7 @@ export interface ProbabilityRequest {
 /** Why the hindcasts cannot calibrate lead position l, or null when they can. */
 function coverageProblem(req: ProbabilityRequest, l: number, lead: LeadWindow): string | null {
   const hc = req.hindcast;
-  if (!hc) return `no hindcasts for source ${req.source} — configure sources[].hindcast to calibrate`;
+  if (!hc) return `no hindcasts for source ${req.source} — configure sources[].hindcast-files to calibrate`;
   if (l >= hc.leads.length || leadSample(hc, l).length === 0) return `hindcasts of ${req.source} do not cover ${leadLabel(lead)}`;
   if (lead.tier === 'months' && hc.leads[l].start.slice(5, 7) !== lead.start.slice(5, 7)) {
     return `hindcast ${leadLabel(lead)} starts ${hc.leads[l].start}, the forecast's ${lead.start} (different calendar month) — use hindcast starts in the forecast's month`;

@@ -379,7 +379,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'warning',
     meaning: 'no forecast of a source on or before the issue date',
-    fix: 'check that the files arrived and the path pattern in sources[].forecast',
+    fix: 'check that the files arrived and the path pattern in sources[].forecast-files',
   },
   'hindcast-grid': {
     stage: 'read',

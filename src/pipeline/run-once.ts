@@ -132,7 +132,7 @@ async function prepare(
       'read',
       'no-forecast-read',
       `no forecast could be read: ${analysis.problems.map(formatDiagnostic).join(' | ')}`,
-      'fix the files named above (or sources[].forecast in the config) and run again; nothing was issued',
+      'fix the files named above (or sources[].forecast-files in the config) and run again; nothing was issued',
     );
   }
   await recordInputFiles(ledger, runId, analysis, config, log);
