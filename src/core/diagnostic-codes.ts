@@ -469,13 +469,6 @@ export const DIAGNOSTIC_CODES = {
       "hindcast starts of the months tier begin their month leads in other calendar months than the forecast and too few share the forecast's; every start is pooled, mixing months",
     fix: 'provide hindcast starts on the same day of the month as the forecast, or narrow calibration.window-days',
   },
-  'threshold-degenerate': {
-    stage: 'calibrate',
-    severity: 'warning',
-    meaning:
-      'a threshold drawn from the climate cannot be exceeded at a lead, or every past value and forecast member exceed it; the lead is held, not used for the stage',
-    fix: 'choose a threshold inside the climate of this region and lead (region-thresholds), or leave the lead out of the rule',
-  },
   'lead-date': { stage: 'calibrate', severity: 'error', meaning: 'a local day is not YYYY-MM-DD (internal)', fix: 'report it' },
   'lead-days-gap': {
     stage: 'calibrate',
