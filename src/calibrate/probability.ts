@@ -10,8 +10,8 @@
  *   "beyond-table: k of N …"       members whose value at this lead lies beyond the formula's published table
  *                                  (heat index: capped at the table's top, not extrapolated)
  *   "threshold-degenerate: …"      the climate's threshold cannot be exceeded, or every past value and member
- *                                  exceed it (degenerate-threshold.ts): the probability is NaN (lead held) and
- *                                  `onProblem` gets a threshold-degenerate diagnostic
+ *                                  exceed it (degenerate-threshold.ts): the probability is NaN (lead held; the
+ *                                  bulletin says why, lead use `no-contrast`)
  *   "hindcast-members: …"          hindcasts have another ensemble size than the forecast. Operational hindcasts
  *                                  usually do (e.g. 11 against 51): thresholds and base rates pool all years ×
  *                                  members, so they stay calibrated, but skill was measured with the hindcast size.
@@ -22,7 +22,6 @@ import { distinctYears, leadSample, type LeadClimate } from './climate.ts';
 import { leadLabel, type LeadValues } from './lead-tiers.ts';
 import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdObject } from './thresholds.ts';
 import { percentileLinear } from '../core/percentile.ts';
-import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { degenerateThreshold } from './degenerate-threshold.ts';
 
 /** Origin note of an absolute threshold applied to raw model values (no observations to map it through). */
@@ -66,7 +65,7 @@ export interface ProbabilityRequest {
 /** Why the hindcasts cannot calibrate lead position l, or null when they can. */
 function coverageProblem(req: ProbabilityRequest, l: number, lead: LeadWindow): string | null {
   const hc = req.hindcast;
-  if (!hc) return `no hindcasts for source ${req.source} — configure sources[].hindcast to calibrate`;
+  if (!hc) return `no hindcasts for source ${req.source} — configure sources[].hindcast-files to calibrate`;
   if (l >= hc.leads.length || leadSample(hc, l).length === 0) return `hindcasts of ${req.source} do not cover ${leadLabel(lead)}`;
   if (lead.tier === 'months' && hc.leads[l].start.slice(5, 7) !== lead.start.slice(5, 7)) {
     return `hindcast ${leadLabel(lead)} starts ${hc.leads[l].start}, the forecast's ${lead.start} (different calendar month) — use hindcast starts in the forecast's month`;
@@ -143,7 +142,7 @@ function countBeyond(mask: Uint8Array, members: number, nLeads: number, l: numbe
 }
 
 /** Exceedance probabilities of one source × region × indicator × tier, one LeadProbability per forecast lead. */
-export function leadProbabilities(req: ProbabilityRequest, onProblem: (d: Diagnostic) => void = () => {}): LeadProbability[] {
+export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
   const { forecast, calibration, hindcast } = req;
   const nLeads = forecast.leads.length;
   const members = new Float64Array(forecast.members);
@@ -199,17 +198,7 @@ export function leadProbabilities(req: ProbabilityRequest, onProblem: (d: Diagno
     }
     const baseRate = normalYearRate(req, l, climate, threshold.value);
     const held = fromClimate && hindcast ? heldThreshold(req, hindcast, l, lead, threshold, baseRate, exc.probability) : null;
-    if (held) {
-      flags.push(`threshold-degenerate: ${held}`);
-      onProblem(
-        diagnostic(
-          'threshold-degenerate',
-          `${req.source} forecast for ${req.region} (${req.indicator}), ${held}`,
-          'choose a threshold inside the climate of this region and lead (region-thresholds), or leave the lead out of the rule',
-          { source: req.source, region: req.region, indicator: req.indicator },
-        ),
-      );
-    }
+    if (held) flags.push(`threshold-degenerate: ${held}`);
     return {
       source: req.source,
       region: req.region,

@@ -98,21 +98,18 @@ export function sourceProbabilities(
     const { series, leads: forecast } = computedPair;
     try {
       forecastLeads.set(pairKey(region.id, ind.id), forecast);
-      const leads = leadProbabilities(
-        {
-          source: read.source.id,
-          region: region.id,
-          indicator: ind.id,
-          units: series.units,
-          forecast,
-          hindcast: climate?.hindcast ?? null,
-          observed: climate?.observed ?? null,
-          threshold: resolveThresholdSpec(ind, region.id),
-          calibration: config.calibration,
-          skill: climate ? skillByLead(climate.skill) : undefined,
-        },
-        (d) => problems.push(d),
-      );
+      const leads = leadProbabilities({
+        source: read.source.id,
+        region: region.id,
+        indicator: ind.id,
+        units: series.units,
+        forecast,
+        hindcast: climate?.hindcast ?? null,
+        observed: climate?.observed ?? null,
+        threshold: resolveThresholdSpec(ind, region.id),
+        calibration: config.calibration,
+        skill: climate ? skillByLead(climate.skill) : undefined,
+      });
       probabilities.push(
         ...withTerciles(leads, {
           forecast,

@@ -38,7 +38,7 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   extract: {
     summary: 'print the decoded, area-weighted region series of one file as JSON',
     usage:
-      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json',
+      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE] [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json',
     spec: {
       values: [
         'var',
@@ -50,6 +50,7 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
         'utc-offset',
         'time-zone',
         'cells',
+        'reference-time',
         'population',
         'population-variable',
         'population-values',

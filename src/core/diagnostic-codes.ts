@@ -299,7 +299,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'error',
     meaning: 'the file holds several forecast reference times',
-    fix: 'split the file per forecast start',
+    fix: 'split the file per forecast start (ncks -d <dimension>,K,K per start K), and name the parts with {date}',
   },
   'reference-invalid': {
     stage: 'read',
@@ -379,7 +379,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'warning',
     meaning: 'no forecast of a source on or before the issue date',
-    fix: 'check that the files arrived and the path pattern in sources[].forecast',
+    fix: 'check that the files arrived and the path pattern in sources[].forecast-files',
   },
   'hindcast-grid': {
     stage: 'read',
@@ -468,13 +468,6 @@ export const DIAGNOSTIC_CODES = {
     meaning:
       "hindcast starts of the months tier begin their month leads in other calendar months than the forecast and too few share the forecast's; every start is pooled, mixing months",
     fix: 'provide hindcast starts on the same day of the month as the forecast, or narrow calibration.window-days',
-  },
-  'threshold-degenerate': {
-    stage: 'calibrate',
-    severity: 'warning',
-    meaning:
-      'a threshold drawn from the climate cannot be exceeded at a lead, or every past value and forecast member exceed it; the lead is held, not used for the stage',
-    fix: 'choose a threshold inside the climate of this region and lead (region-thresholds), or leave the lead out of the rule',
   },
   'lead-date': { stage: 'calibrate', severity: 'error', meaning: 'a local day is not YYYY-MM-DD (internal)', fix: 'report it' },
   'lead-days-gap': {
@@ -626,6 +619,12 @@ export const DIAGNOSTIC_CODES = {
     severity: 'error',
     meaning: 'the ledger was written by a newer Forelight',
     fix: 'upgrade Forelight or point config "ledger" at another file',
+  },
+  'ledger-dry-run': {
+    stage: 'ledger',
+    severity: 'error',
+    meaning: '`run --dry-run` rehearses on an in-memory copy of a SQLite ledger and cannot copy a PostgreSQL one',
+    fix: 'use `forelight diff` to see which stages would change without writing anything',
   },
   'ledger-write': {
     stage: 'ledger',

@@ -1,6 +1,7 @@
 /**
  * What every stage of one pass over the inputs shares: which run (once the ledger has registered it), the
- * issue date, the clock, the logger and the stop signal. Passed as one object instead of positional options.
+ * issue date, the clock, the logger, whether it is a dry run and the stop signal. Passed as one object instead of
+ * positional options.
  */
 import type { IsoDate } from '../types.ts';
 import type { Logger } from './log.ts';
@@ -12,11 +13,16 @@ export interface RunContext {
   /** The clock (tests and replays fix it). */
   readonly now: () => Date;
   readonly log: Logger;
+  /**
+   * A rehearsal (`forelight run --dry-run`): the same read, decide, render and consistency check as a real run, on an
+   * in-memory copy of the ledger; nothing is stored, archived, put in the outbox, mailed or written to the status file.
+   */
+  readonly dryRun: boolean;
   /** Aborted when the service stops. */
   readonly signal: AbortSignal;
 }
 
-/** A context with the system clock, no run id and a signal that never aborts, unless given. */
+/** A context with the system clock, no run id, not a dry run and a signal that never aborts, unless given. */
 export function runContext(init: Pick<RunContext, 'issueDate' | 'log'> & Partial<RunContext>): RunContext {
-  return { runId: null, now: () => new Date(), signal: new AbortController().signal, ...init };
+  return { runId: null, now: () => new Date(), dryRun: false, signal: new AbortController().signal, ...init };
 }

@@ -1,6 +1,6 @@
 /** Stage changes between two runs' region stages, for dry-run output and the operator summary. */
 import type { StageDecision } from '../types.ts';
-import type { RegionStage, StageChange } from './types.ts';
+import { stageTitle, type DecideConfig, type RegionStage, type StageChange } from './types.ts';
 
 /** Anything with a region and a stage id (e.g. rows read back from the ledger). */
 export interface RegionStageLike {
@@ -36,4 +36,18 @@ export function diffStages(
     if (!now.has(p.region)) changes.push({ region: p.region, from: p.stageId, to: null, why: 'region not in this run' });
   }
   return changes;
+}
+
+/** One line per region of the run: its stage, or the change from the last issued stage and why. */
+export function stageChangeLines(
+  config: Pick<DecideConfig, 'regions' | 'stages'>,
+  current: readonly RegionStage[],
+  changes: readonly StageChange[],
+): string[] {
+  const label = (id: string | null) => (id === null ? 'none' : stageTitle(config.stages, id));
+  return current.map((r) => {
+    const c = changes.find((x) => x.region === r.region);
+    const name = config.regions.find((x) => x.id === r.region)?.name ?? r.region;
+    return c ? `  ${name}: ${label(c.from)} → ${label(c.to)}  (${c.why})` : `  ${name}: ${label(r.stageId)} (unchanged)`;
+  });
 }

@@ -4,6 +4,7 @@
  * delivery. Both hold the same schema (migrations.ts) and take the same statements (sql-db.ts).
  */
 import Database from 'better-sqlite3';
+import { existsSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { dirname } from 'node:path';
 import { ForelightError, describeError } from '../core/errors.ts';
@@ -71,6 +72,59 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
   }
   return {
     path: shown,
+    db,
+    now: options.now ?? (() => new Date()),
+    owner: { host: hostname(), pid: process.pid },
+    close: () => db.close(),
+  };
+}
+
+/**
+ * An in-memory copy of a SQLite ledger (an empty one when the file does not exist yet), brought up to the current
+ * schema: a dry run stores, reads back and combines exactly as a real run does, and the file itself is never
+ * written. A PostgreSQL ledger is refused (its rows are not copied), with the command that only looks.
+ */
+export function openLedgerCopy(target: string, options: Pick<OpenLedgerOptions, 'now'> = {}): Ledger {
+  if (isPostgresUrl(target)) {
+    throw new ForelightError(
+      'ledger',
+      'ledger-dry-run',
+      'a dry run rehearses on a copy of a SQLite ledger; this ledger is PostgreSQL',
+      'use `forelight diff` to see which stages would change without writing anything',
+    );
+  }
+  let db: SqlDb;
+  try {
+    let image: Buffer | undefined;
+    if (existsSync(target)) {
+      const file = new Database(target, { readonly: true, fileMustExist: true });
+      try {
+        image = file.serialize();
+        // An in-memory database cannot be in WAL mode: mark the copy's header as rollback-journal (file format write
+        // and read versions at offsets 18 and 19: 1 legacy, 2 WAL; SQLite "Database File Format" §1.3.3).
+        image[18] = 1;
+        image[19] = 1;
+      } finally {
+        file.close();
+      }
+    }
+    const copy = image ? new Database(image) : new Database(':memory:');
+    copy.pragma('foreign_keys = ON');
+    db = Object.assign(copy, { dialect: 'sqlite' as const });
+  } catch (err) {
+    throw new ForelightError(
+      'ledger',
+      'ledger-open',
+      `cannot read ledger ${target} for a dry run: ${describeError(err)}`,
+      'check that the file is readable, or change config "ledger"',
+      {
+        cause: err,
+      },
+    );
+  }
+  applyMigrations(db, `${target} (dry-run copy)`);
+  return {
+    path: `${target} (dry-run copy)`,
     db,
     now: options.now ?? (() => new Date()),
     owner: { host: hostname(), pid: process.pid },

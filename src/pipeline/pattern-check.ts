@@ -9,13 +9,15 @@
  * `{date}` that matches files (no start can be told from their paths). Before any file of the source has arrived
  * (a fresh installation) the grid check's note says so (src/pipeline/grid-extents.ts).
  */
-import { problem, pointerOf } from '../config/problem.ts';
+import { problem, pointerOf, type ConfigProblem } from '../config/problem.ts';
 import type { ConfigSourceMap } from '../config/source-map.ts';
 import type { Config } from '../config/types.ts';
 import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { fillPattern, hasPlaceholder, matchPattern, PLACEHOLDERS } from '../core/path-patterns.ts';
 import { fileVariables } from './split-files.ts';
 import { newestForecastFile } from './grid-extents.ts';
+import { referenceTimesOf, splitStartsFix } from '../read/coordinates.ts';
+import { withDataset } from '../read/open-dataset.ts';
 
 export function unmatchedPatterns(config: Config, sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
   const out: Diagnostic[] = [];
@@ -47,34 +49,46 @@ export function unmatchedPatterns(config: Config, sourceMap: ConfigSourceMap | u
 }
 
 /** Problems of each source's `hindcast-files` with the files at hand: matching no file, or telling no start. */
-export function hindcastPatternProblems(config: Config, sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
+export async function hindcastPatternProblems(config: Config, sourceMap: ConfigSourceMap | undefined): Promise<Diagnostic[]> {
   const out: Diagnostic[] = [];
-  config.sources.forEach((source, i) => {
+  for (const [i, source] of config.sources.entries()) {
     const pattern = source.hindcast;
-    if (pattern === undefined) return;
+    if (pattern === undefined) continue;
     const pointer = pointerOf('sources', i, 'hindcast-files');
-    const found = matchPattern(pattern).length;
-    const forecastsHere = newestForecastFile(source) !== null;
+    const files = matchPattern(pattern).map((m) => m.path);
+    const undated = !hasPlaceholder(pattern, 'year') && !hasPlaceholder(pattern, 'date');
     const p =
-      found === 0 && !forecastsHere
-        ? undefined
-        : found === 0
-          ? problem(
+      files.length === 0
+        ? newestForecastFile(source) === null
+          ? undefined
+          : problem(
               pointer,
               `source ${source.id}: hindcast-files ${pattern} matches no file, so no lead of this source can be calibrated`,
               `check the spelling and folders of hindcast-files (placeholders ${PLACEHOLDERS.map((n) => `{${n}}`).join(', ')}) and that the hindcasts are downloaded`,
             )
-          : !hasPlaceholder(pattern, 'year') && !hasPlaceholder(pattern, 'date')
-            ? problem(
-                pointer,
-                `source ${source.id}: hindcast-files ${pattern} has no {year} or {date}, so the start of its ${found} file(s) cannot be told`,
-                'put {year} (with {mmdd}) or {date} where the hindcast file names carry the start date, e.g. hc/{year}/t2m_{year}{mmdd}.nc',
-              )
-            : undefined;
+        : undated
+          ? await undatedProblem(source.id, pattern, files, pointer)
+          : undefined;
     if (p)
       out.push(
         sourceMap ? sourceMap.place('config-pattern', p) : diagnostic('config-pattern', p.message, p.fix, { file: config.file, pointer }),
       );
-  });
+  }
   return out;
+}
+
+/** A pattern without a date placeholder: names the starts when its first file holds several (with a fix that splits it). */
+async function undatedProblem(id: string, pattern: string, files: readonly string[], pointer: string): Promise<ConfigProblem> {
+  const ref = await withDataset(files[0], (ds) => referenceTimesOf(ds)).catch(() => null);
+  if (ref && ref.timesMs.length > 1)
+    return problem(
+      pointer,
+      `source ${id}: hindcast-files ${files[0]} holds ${ref.timesMs.length} hindcast starts along '${ref.dimension}' in one file; Forelight reads one file per start`,
+      splitStartsFix(files[0], ref),
+    );
+  return problem(
+    pointer,
+    `source ${id}: hindcast-files ${pattern} has no {year} or {date}, so the start of its ${files.length} file(s) cannot be told`,
+    'put {year} (with {mmdd}) or {date} where the hindcast file names carry the start date, e.g. hc/{year}/t2m_{year}{mmdd}.nc',
+  );
 }

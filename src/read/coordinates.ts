@@ -178,18 +178,43 @@ function referenceAttribute(ds: Dataset): number | null {
   return null;
 }
 
-async function findReference(ds: Dataset, mapper: TimeMapper): Promise<number | null> {
+/** The forecast reference time variable of a file: its name, dimension (none when scalar) and its times (ms). */
+export interface ReferenceTimes {
+  readonly variable: string;
+  readonly dimension: string | null;
+  readonly timesMs: Float64Array;
+}
+
+/** The file's forecast reference time variable (CF 1.11 §4.4, standard_name forecast_reference_time), or null. */
+export async function referenceTimesOf(ds: Dataset, mapper = new TimeMapper()): Promise<ReferenceTimes | null> {
   const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+  if (!ref) return null;
+  return { variable: ref.name, dimension: ref.dimensions[0] ?? null, timesMs: await decodeTimeVariable(ds, mapper, ref) };
+}
+
+/** The one-line fix for a file holding several starts: one `ncks` hyperslab per start (tested on cfgrib's layout). */
+export function splitStartsFix(file: string, ref: ReferenceTimes): string {
+  const compact = (ms: number) => new Date(ms).toISOString().slice(0, 10).replaceAll('-', '');
+  const n = ref.timesMs.length;
+  const stem = file.replace(/\.[^./]*$/, '');
+  return (
+    `split it into one file per start, e.g. ncks -d ${ref.dimension},K,K ${file} ${stem}_YYYYMMDD.nc for each start K ` +
+    `(0 = ${compact(ref.timesMs[0])} … ${n - 1} = ${compact(ref.timesMs[n - 1])}), and point hindcast-files at ${stem}_{date}.nc`
+  );
+}
+
+async function findReference(ds: Dataset, mapper: TimeMapper): Promise<number | null> {
+  const ref = await referenceTimesOf(ds, mapper);
   if (!ref) return referenceAttribute(ds);
-  if (ref.shape.reduce((a, b) => a * b, 1) !== 1) {
+  if (ref.timesMs.length !== 1) {
     throw new InputError(
       'reference-several',
       ds.path,
-      `'${ref.name}' holds ${ref.shape.join('×')} forecast reference times`,
-      'split the file into one file per start date (e.g. cdo splitsel,1)',
+      `'${ref.variable}' holds ${ref.timesMs.length} forecast reference times (one file of several starts)`,
+      splitStartsFix(ds.path, ref),
     );
   }
-  return (await decodeTimeVariable(ds, mapper, ref))[0];
+  return ref.timesMs[0];
 }
 
 /** Model months of an absolute time axis (monthly.ts), from its values in the file's own calendar. */

@@ -16,6 +16,7 @@ import type { Quantity } from '../types.ts';
 import { timeCellIntervalMs, timeCellMethod } from './cell-methods.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
 import { axisSpacing, stepIntervals, type DailyMethod, type StepIntervals } from './daily.ts';
+import { isoInstant } from './extract-reduce.ts';
 import type { UnitPlan } from './units.ts';
 
 const PERIOD_METHODS = ['maximum', 'minimum', 'mean', 'sum', 'median', 'mid_range', 'standard_deviation', 'variance'];
@@ -111,4 +112,31 @@ export function referenceWindowMs(coords: FileCoordinates, plan: TimePlan): { ea
   if (!iv) return null;
   if (!iv.instantaneous) return { earliest: iv.startMs[0], latest: iv.startMs[0] };
   return { earliest: iv.startMs[0] - axisSpacing(iv.startMs), latest: iv.startMs[0] };
+}
+
+/** The requested reference time in ms (ISO date or instant), or null when none was requested. */
+export function requestedMs(file: string, requested: string | undefined): number | null {
+  if (requested === undefined) return null;
+  const wanted = Date.parse(/^\d{4}-\d{2}-\d{2}$/.test(requested) ? `${requested}T00:00:00Z` : requested);
+  if (Number.isNaN(wanted)) {
+    throw new InputError(
+      'reference-invalid',
+      file,
+      `requested reference time '${requested}' is not an ISO 8601 date`,
+      'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ',
+    );
+  }
+  return wanted;
+}
+
+/** The reference time of the series: the requested one when the file is consistent with it; throws otherwise. */
+export function checkReference(file: string, window: { earliest: number; latest: number }, wanted: number | null): number {
+  if (wanted === null) return window.latest;
+  if (wanted >= window.earliest && wanted <= window.latest) return wanted;
+  throw new InputError(
+    'reference-mismatch',
+    file,
+    `the file holds the forecast of ${isoInstant(window.latest)} but ${isoInstant(wanted)} was requested`,
+    'the file name and its contents disagree: check the source path pattern or replace the file',
+  );
 }

@@ -10,7 +10,7 @@ import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { DailyMethod } from './daily.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { valuesAccumulate } from './accumulation-probe.ts';
-import { planTime } from './extract-plan.ts';
+import { checkReference, planTime, referenceWindowMs, requestedMs } from './extract-plan.ts';
 import { reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
 import { planBand } from './regions-band.ts';
@@ -35,12 +35,17 @@ export async function rawRegionMeans(
   daily: DailyMethod | null,
   cacheDir: string | null,
   population: PopulationConfig | null = null,
+  referenceTime?: string,
 ): Promise<RawRegionMeans> {
   const coords = await findCoordinates(ds);
   const { selected, problems } = await regionSelection(coords.grid, regionList, { population, cacheDir, file: ds.path });
   const layout = layoutVariable(ds, coords, variable);
   const unitPlan = canonicalUnitPlan(layout.info, ds.path);
-  const timePlan = planTime(coords, layout, unitPlan, null, await valuesAccumulate(ds, coords, layout, unitPlan, null));
+  const wanted = requestedMs(ds.path, referenceTime);
+  const timePlan = planTime(coords, layout, unitPlan, wanted, await valuesAccumulate(ds, coords, layout, unitPlan, wanted));
+  const window = wanted === null ? null : referenceWindowMs(coords, timePlan);
+  if (window) checkReference(ds.path, window, wanted);
+  const months = coords.time?.months ?? null;
   if (daily && !timePlan.intervals) {
     throw new InputError(
       'time-missing',
@@ -64,7 +69,7 @@ export async function rawRegionMeans(
     unitPlan,
     accumulated: timePlan.accumulated,
     clocks: selected.map((s) => regionClock(s.region)),
-    daily,
+    daily: months ? null : daily,
   });
   return {
     units: typeof units === 'string' ? units : '',
@@ -73,7 +78,8 @@ export async function rawRegionMeans(
       const members: (number | null)[][] = [];
       for (let m = 0; m < mean.data.length / steps; m++)
         members.push(Array.from(mean.data.subarray(m * steps, (m + 1) * steps), (v) => (v === v ? v : null)));
-      return { id: selected[k].region.id, times: [...mean.labels], members, cells: selected[k].cells.weights.length };
+      const times = months ? months.months : mean.labels;
+      return { id: selected[k].region.id, times: [...times], members, cells: selected[k].cells.weights.length };
     }),
     problems,
   };
@@ -94,9 +100,10 @@ export function extractRegionsJson(
   regions: readonly RegionConfig[],
   daily: DailyMethod | null,
   population: PopulationConfig | null = null,
+  referenceTime?: string,
 ): Promise<RegionsExtractJson> {
   return withDataset(path, async (ds) => {
-    const means = await rawRegionMeans(ds, variable, regions, daily, null, population);
+    const means = await rawRegionMeans(ds, variable, regions, daily, null, population, referenceTime);
     return {
       units: means.units,
       times: means.regions[0]?.times ?? [],

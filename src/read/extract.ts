@@ -12,7 +12,7 @@ import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { Dataset } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
 import { accumulationNote, valuesAccumulate } from './accumulation-probe.ts';
-import { dailyMethodFor, planTime, referenceWindowMs } from './extract-plan.ts';
+import { checkReference, dailyMethodFor, planTime, referenceWindowMs, requestedMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
 import { monthlyNote, requireMonthTier, spreadMeansToDays } from './monthly.ts';
 import { withDataset } from './open-dataset.ts';
@@ -48,33 +48,6 @@ export interface ExtractResult {
 function keepOrRethrow(err: unknown, problems: ForelightError[]): void {
   if (err instanceof ForelightError) problems.push(err);
   else throw err;
-}
-
-/** The requested reference time in ms (ISO date or instant), or null when none was requested. */
-function requestedMs(file: string, requested: string | undefined): number | null {
-  if (requested === undefined) return null;
-  const wanted = Date.parse(/^\d{4}-\d{2}-\d{2}$/.test(requested) ? `${requested}T00:00:00Z` : requested);
-  if (Number.isNaN(wanted)) {
-    throw new InputError(
-      'reference-invalid',
-      file,
-      `requested reference time '${requested}' is not an ISO 8601 date`,
-      'pass YYYY-MM-DD or YYYY-MM-DDThh:mmZ',
-    );
-  }
-  return wanted;
-}
-
-/** The reference time of the series: the requested one when the file is consistent with it; throws otherwise. */
-function checkReference(file: string, window: { earliest: number; latest: number }, wanted: number | null): number {
-  if (wanted === null) return window.latest;
-  if (wanted >= window.earliest && wanted <= window.latest) return wanted;
-  throw new InputError(
-    'reference-mismatch',
-    file,
-    `the file holds the forecast of ${isoInstant(window.latest)} but ${isoInstant(wanted)} was requested`,
-    'the file name and its contents disagree: check the source path pattern or replace the file',
-  );
 }
 
 /** Reads every requested quantity for every region from an opened dataset (see `extractRegionSeries`). */
@@ -195,12 +168,14 @@ export interface BoxExtractOptions {
   readonly timeZone?: string;
   /** Default `centre` (the cells `cdo sellonlatbox` takes). */
   readonly cellRule?: CellRule;
+  /** The forecast's reference time (ISO date or instant), as `run` takes it from the file name; checked against the file. */
+  readonly referenceTime?: string;
 }
 
 /** What `forelight extract … --json` prints: values in the file's own units, members in file order. */
 export interface BoxExtractJson {
   readonly units: string;
-  /** ISO instants of the steps, or local dates with `daily`. */
+  /** ISO instants of the steps, local dates with `daily`, or months `YYYY-MM` of a monthly-mean file. */
   readonly times: string[];
   /** [member][time], null where the member has no valid cell. */
   readonly members: (number | null)[][];
@@ -218,7 +193,7 @@ export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions
     teams: [],
     cellRule: opts.cellRule ?? 'centre',
   };
-  const means = await rawRegionMeans(ds, opts.variable, [region], opts.daily ?? null, null);
+  const means = await rawRegionMeans(ds, opts.variable, [region], opts.daily ?? null, null, null, opts.referenceTime);
   if (means.problems.length > 0) throw means.problems[0];
   const [r] = means.regions;
   return { units: means.units, times: r.times, members: r.members, cells: r.cells };

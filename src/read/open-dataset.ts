@@ -65,7 +65,7 @@ async function openNetcdf(path: string): Promise<Dataset> {
       'input-missing',
       path,
       `cannot open the file (${(err as NodeJS.ErrnoException).code ?? String(err)})`,
-      'check the path (sources[].forecast in the config, or the command line) and that the download finished',
+      'check the path (sources[].forecast-files in the config, or the command line) and that the download finished',
       { cause: err },
     );
   }
@@ -77,7 +77,7 @@ async function openNetcdf(path: string): Promise<Dataset> {
         'input-folder',
         path,
         'is a folder, not a NetCDF file',
-        'point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake',
+        'point sources[].forecast-files (or the command line) at a file; remove the folder if a download created it by mistake',
       );
     const { size } = stats;
     const magic = Buffer.alloc(64);

@@ -103,7 +103,7 @@ describe('forelight CLI', () => {
     const e = forelight('extract', dir, '--var', 't2m', '--box', MARROW, '--json');
     expect(e.code).toBe(EXIT.inputProblem);
     expect(e.stderr.trim().split('\n')).toEqual([
-      `forelight: ${dir}: is a folder, not a NetCDF file — point sources[].forecast (or the command line) at a file; remove the folder if a download created it by mistake`,
+      `forelight: ${dir}: is a folder, not a NetCDF file — point sources[].forecast-files (or the command line) at a file; remove the folder if a download created it by mistake`,
     ]);
     const c = forelight('check', '--config', dir);
     expect(c.code).toBe(EXIT.configInvalid);

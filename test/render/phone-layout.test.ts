@@ -9,7 +9,7 @@ import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium } from '../support/headless-chromium.ts';
+import { launchChromium, layoutProblems } from '../support/headless-chromium.ts';
 import { htmlWithInlineImages } from '../../src/deliver/outbox.ts';
 import { writeArchive } from '../../src/render/archive.ts';
 import { EMAIL_BUDGET_BYTES, renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
@@ -62,19 +62,7 @@ describe.each(VIEWPORTS)('at $width × $height', (viewport) => {
     const problems: string[] = [];
     for (const p of pages) {
       await page.goto(pathToFileURL(p.file).href, { waitUntil: 'load' });
-      const width = await page.evaluate(() => document.documentElement.scrollWidth);
-      if (width > viewport.width) problems.push(`${p.name}: scrollWidth ${width} > ${viewport.width}`);
-      const broken = await page.$$eval('img', (imgs) => imgs.filter((i) => !(i.complete && i.naturalWidth > 0)).length);
-      if (broken > 0) problems.push(`${p.name}: ${broken} broken image(s)`);
-      if (p.team) {
-        for (const role of ['stage', 'hazard', 'dates', 'probability', 'sure', 'action']) {
-          const el = await page.$(`[data-role~="${role}"]`);
-          const box = el ? await el.boundingBox() : null;
-          if (!box) problems.push(`${p.name}: no ${role}`);
-          else if (box.y + box.height > viewport.height)
-            problems.push(`${p.name}: ${role} ends at ${Math.round(box.y + box.height)} px, below ${viewport.height}`);
-        }
-      }
+      problems.push(...(await layoutProblems(page, p.name, p.team ? { mayLack: [] } : null)));
       await page.screenshot({ path: join(OUT, `${p.name}-${viewport.width}-first-screen.png`) });
       await page.screenshot({ path: join(OUT, `${p.name}-${viewport.width}.png`), fullPage: true });
     }

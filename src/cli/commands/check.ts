@@ -26,7 +26,7 @@ export async function checkCommand(args: ParsedArgs): Promise<number> {
     all.push(...checkRegionsAgainstGrids(config, extents.grids, sourceMap));
     all.push(...(await populationProblems(config, sourceMap)));
     all.push(...unmatchedPatterns(config, sourceMap));
-    all.push(...hindcastPatternProblems(config, sourceMap));
+    all.push(...(await hindcastPatternProblems(config, sourceMap)));
     warnings.push(...checkBoxesBetweenCentres(config, extents.grids, sourceMap));
     const pdf = pdfUnavailable(config.delivery.pdfChromium);
     if (pdf) notes.push(diagnostic('pdf-unavailable', pdf, '', { pointer: '/delivery/pdf-chromium' }));

@@ -1,6 +1,8 @@
-/** `forelight diff` (also `run --dry-run`): which region stages would change against the last issued bulletin; nothing is written or sent. */
-import { diffStages } from '../../decide/diff.ts';
-import { stageTitle } from '../../decide/types.ts';
+/**
+ * `forelight diff`: which region stages would change against the last issued bulletin, from the analysis and the
+ * decision only (no rendering; `run --dry-run` rehearses the whole run); nothing is written or sent.
+ */
+import { diffStages, stageChangeLines } from '../../decide/diff.ts';
 import { decideNow } from '../../pipeline/decide-now.ts';
 import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
@@ -12,16 +14,11 @@ export async function diffCommand(args: ParsedArgs): Promise<number> {
   const { config, run } = await commandContext(args, 'diff');
   const { issueDate } = run;
   const { analysis, decided, previous } = await decideNow(config, run, { onProgress: progressBar('diff') });
-  const label = (id: string | null) => (id === null ? 'none' : stageTitle(config.stages, id));
   const changes = diffStages(previous, decided.regionStages, decided.decisions);
   const lines = [
     `dry run for ${issueDate} (nothing stored or sent); compared with the last issued bulletin${previous.length === 0 ? ' (none yet)' : ''}`,
   ];
-  for (const r of decided.regionStages) {
-    const c = changes.find((x) => x.region === r.region);
-    const name = config.regions.find((x) => x.id === r.region)?.name ?? r.region;
-    lines.push(c ? `  ${name}: ${label(c.from)} → ${label(c.to)}  (${c.why})` : `  ${name}: ${label(r.stageId)} (unchanged)`);
-  }
+  lines.push(...stageChangeLines(config, decided.regionStages, changes));
   for (const p of analysis.problems) lines.push(`  skipped: ${formatDiagnostic(p)}`);
   process.stdout.write(lines.join('\n') + '\n');
   return EXIT.ok;

@@ -1,9 +1,11 @@
 /**
  * `forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P])
- * [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre]
+ * [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE]
  * [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json`:
  * prints exactly what Forelight sees in a file for one box or for every region of a boundary file, as JSON;
- * with --population the region means are weighted by the people of that raster (NetCDF or GeoTIFF).
+ * with --population the region means are weighted by the people of that raster (NetCDF or GeoTIFF). --reference-time
+ * is the forecast date `run` takes from the file name: periods are then read from it and the file is checked against
+ * it, as in a run. A monthly-mean file prints one value per month (times `YYYY-MM`), with or without --daily.
  */
 import { resolve } from 'node:path';
 import { loadBoundarySet } from '../../config/boundaries/boundary-sets.ts';
@@ -73,7 +75,7 @@ async function regionsJson(
   if (set.problems.length > 0) throw usageError(set.problems.map((p) => `${p.message} — ${p.fix}`).join('\n'));
   const population = populationOption(args);
   const regions = population ? set.regions.map((r) => ({ ...r, weighting: 'population' as const })) : set.regions;
-  return extractRegionsJson(file, variable, regions, daily ?? null, population);
+  return extractRegionsJson(file, variable, regions, daily ?? null, population, stringOption(args, 'reference-time'));
 }
 
 export async function extractCommand(args: ParsedArgs): Promise<number> {
@@ -95,7 +97,14 @@ export async function extractCommand(args: ParsedArgs): Promise<number> {
   const result =
     boundaries !== undefined
       ? await regionsJson(file, variable, boundaries, args, daily, cellRule)
-      : await extractBoxJson(file, { variable, box: parseBox(box), daily, ...clockOptions(args), ...(cellRule ? { cellRule } : {}) });
+      : await extractBoxJson(file, {
+          variable,
+          box: parseBox(box),
+          daily,
+          ...clockOptions(args),
+          ...(cellRule ? { cellRule } : {}),
+          referenceTime: stringOption(args, 'reference-time'),
+        });
   process.stdout.write(JSON.stringify(result) + '\n');
   return EXIT.ok;
 }

@@ -1,5 +1,8 @@
-/** `forelight run`: one pass now over the newest inputs (or `--dry-run`: what would change, nothing sent). */
-import { runOnce } from '../../pipeline/run-once.ts';
+/**
+ * `forelight run`: one pass now over the newest inputs. `--dry-run`: the same pass on a copy of the ledger, printing
+ * what it would issue; it takes no lock and writes no status file (nothing is stored or sent).
+ */
+import { runOnce, type RunOutcome } from '../../pipeline/run-once.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { acquireLock } from '../../schedule/lock-file.ts';
 import { servicePaths } from '../../schedule/run-service.ts';
@@ -10,7 +13,7 @@ import { describeError } from '../../core/errors.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 import { connectCluster } from '../../cluster/coordinator.ts';
 import { commandContext } from '../context.ts';
-import { diffCommand } from './diff.ts';
+import type { RunContext } from '../../core/run-context.ts';
 
 /** A lock older than this is stale even if its process still lives (same as the service's default). */
 const LOCK_MAX_AGE_SECONDS = 6 * 3600;
@@ -34,9 +37,24 @@ function recordStatus(config: Config, report: RunReport): boolean {
   }
 }
 
+function printOutcome(outcome: RunOutcome): void {
+  process.stdout.write(outcome.summary + '\n');
+  for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);
+  for (const c of outcome.contradictions ?? [])
+    process.stderr.write(`forelight: error: bulletin contradiction (a bug in Forelight, report it with run.json): ${c}\n`);
+}
+
+/** A rehearsal reads like a run but holds no lock and leaves the status file as it was. */
+async function dryRun(args: ParsedArgs, config: Config, run: RunContext): Promise<number> {
+  const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true });
+  printOutcome(outcome);
+  return outcome.exitCode;
+}
+
 export async function runCommand(args: ParsedArgs): Promise<number> {
-  if (args.options['dry-run']) return diffCommand(args);
-  const { config, run } = await commandContext(args, 'run');
+  const { config, run: context } = await commandContext(args, 'run');
+  const run = { ...context, dryRun: args.options['dry-run'] === true };
+  if (run.dryRun) return dryRun(args, config, run);
   const { lockPath } = servicePaths(config);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
@@ -52,10 +70,7 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   try {
     const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
-    process.stdout.write(outcome.summary + '\n');
-    for (const p of outcome.problems ?? []) process.stderr.write(`forelight: input problem: ${p}\n`);
-    for (const c of outcome.contradictions ?? [])
-      process.stderr.write(`forelight: error: bulletin contradiction (a bug in Forelight, report it with run.json): ${c}\n`);
+    printOutcome(outcome);
     return !recorded && outcome.exitCode === EXIT.ok ? EXIT.deliveryFailed : outcome.exitCode;
   } catch (err) {
     recordStatus(config, makeRunReport('manual', startedAt, new Date(), EXIT.unexpected, describeError(err)));
