@@ -50,7 +50,9 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
     db = postgres ? openPostgres(target, options.password) : openSqlite(target);
   } catch (err) {
     // A full or read-only disk already refuses the WAL set-up: said as such, with the fix.
-    const fault = postgres ? err : ledgerWriteFault(target, err);
+    // (SQLITE_CANTOPEN keeps the open message below: a missing or unwritable folder, not a failing write.)
+    const cantOpen = ((err as { code?: string }).code ?? '').startsWith('SQLITE_CANTOPEN');
+    const fault = postgres || cantOpen ? err : ledgerWriteFault(target, err);
     if (fault !== err) throw fault;
     throw new ForelightError(
       'ledger',
