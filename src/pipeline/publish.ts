@@ -95,7 +95,15 @@ function regionMapsIn(dir: string): { source: string; file: string }[] {
 /** Keeps this run's entry and rewrites the whole archive site; returns the index path. */
 export function publishArchive(config: Pick<Config, 'delivery' | 'templates'>, entry: ArchiveEntry): string {
   const dir = config.delivery.archive;
-  const runDir = join(dir, toToken(entry.runId));
+  const token = toToken(entry.runId);
+  if (token === '')
+    throw new ForelightError(
+      'render',
+      'archive-entry',
+      `run id '${entry.runId}' gives no archive folder name`,
+      'this is a bug in Forelight: run ids are <date>-<number>',
+    );
+  const runDir = join(dir, token);
   writeFileAtomic(join(runDir, ENTRY_FILE), JSON.stringify(entry), 'render');
   writeArchive(dir, readArchiveEntries(dir), { templates: config.templates, maps: regionMapsIn(dir) });
   return join(dir, 'index.html');

@@ -44,7 +44,10 @@ export function toXmlChars(value: string): string {
   );
 }
 
-/** A token made of `[A-Za-z0-9._-]` only (file names, CAP identifiers, content ids). */
+/**
+ * A token made of `[A-Za-z0-9._-]` only (file names, CAP identifiers, content ids), never starting with a dot, so that
+ * used as a path part it can be neither `.`, `..` nor a hidden file.
+ */
 export function toToken(value: string): string {
-  return value.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '');
+  return value.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^[-.]+|-+$/g, '');
 }
