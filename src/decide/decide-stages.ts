@@ -52,11 +52,24 @@ export function decideStages(input: DecideInput): DecideResult {
         if (!indicator.tiers.includes(tier)) continue;
         const key = trackKey(region.id, indicator.id, tier);
         const probs = byKey.get(key);
-        if (!probs) {
-          if (!expected.has(tier)) continue;
-          const held = holdMissing(config, history.tracks[key], input.unavailable?.get(key) ?? 'no usable forecast values this run');
+        const unusable = probs ? noUsableLead(probs) : null;
+        if (!probs || unusable) {
+          if (!probs && !expected.has(tier)) continue;
+          const reason = unusable ?? input.unavailable?.get(key) ?? 'no usable forecast values this run';
+          const held = holdMissing(config, history.tracks[key], reason);
           if (held.track) tracks[key] = held.track;
-          decisions.push({ region: region.id, indicator: indicator.id, tier, ...held.decision });
+          // Rows of a tier without usable leads still say, each, why it is not used (no contrast, no value).
+          const uses = probs
+            ? leadUses(config.stages, {
+                probabilities: probs,
+                leadStages: [],
+                skilfulLeads: [],
+                capId: null,
+                decidingIndex: null,
+                issuedId: held.decision.stageId,
+              })
+            : undefined;
+          decisions.push({ region: region.id, indicator: indicator.id, tier, ...held.decision, ...(uses ? { leadUses: uses } : {}) });
           continue;
         }
         const raw = evaluateRules(config, {
@@ -97,6 +110,19 @@ export function decideStages(input: DecideInput): DecideResult {
     }
   }
   return { decisions, regionStages: combineRegionStages(config, decisions), nextHistory: { version: 1, tracks } };
+}
+
+/**
+ * Why a tier whose every lead has no probability (NaN: e.g. a threshold that every past year exceeds or none
+ * can, flag threshold-degenerate) has no usable data, or null when some lead has one. Such a tier is treated as
+ * missing data, never as "no trigger level passed".
+ */
+function noUsableLead(probs: readonly LeadProbability[]): string | null {
+  if (probs.some((p) => Number.isFinite(p.probability))) return null;
+  const degenerate = probs.some((p) => p.flags.some((f) => f.startsWith('threshold-degenerate:')));
+  return degenerate
+    ? 'at every lead of this range every past year gives the same answer, so the forecast cannot be compared with a normal year'
+    : 'no lead of this range has a usable probability';
 }
 
 /** The decision of a region × indicator × tier without data: its last stage held, or "no forecast available". */

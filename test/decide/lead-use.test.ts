@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { decideStages } from '../../src/decide/decide-stages.ts';
 import { trackKey } from '../../src/core/keys.ts';
-import { EMPTY_HISTORY, type StageHistory } from '../../src/decide/types.ts';
+import { EMPTY_HISTORY, NO_FORECAST_ID, type StageHistory } from '../../src/decide/types.ts';
 import type { LeadProbability, Tier } from '../../src/types.ts';
 import { makeConfig, prob } from './helpers.ts';
 
@@ -42,10 +42,20 @@ describe('leadUses', () => {
   it('a lead held for a degenerate threshold is named as such, not as a missing value', () => {
     const held = { ...prob('r1', 'months', 1, Number.NaN), flags: ['threshold-degenerate: lead month 1: threshold 1 1 …'] };
     const d = decide([held, prob('r1', 'months', 2, Number.NaN)]);
+    // No lead of the range has a usable chance: missing data (held or "no forecast available"), never the lowest stage.
+    expect(d.stageId).toBe(NO_FORECAST_ID);
+    expect(d.missing?.reason).toMatch(/every past year gives the same answer/);
     expect(kinds(d)).toEqual([
       [1, 'no-contrast', 'quiet', 'quiet'],
       [2, 'no-value', 'quiet', 'quiet'],
     ]);
+  });
+
+  it('a range whose every lead is held keeps the last issued stage, as for missing data', () => {
+    const held = { ...prob('r1', 'months', 1, Number.NaN), flags: ['threshold-degenerate: lead month 1: threshold 1 1 …'] };
+    const d = decide([held], issued('months', 'mindful'));
+    expect(d.stageId).toBe('mindful');
+    expect(d.missing).toMatchObject({ runs: 1, held: true });
   });
 
   it('the lead sets the stage once persistence confirmed it', () => {
