@@ -15,7 +15,8 @@ export interface PdfResult {
   readonly note: string | null;
 }
 
-const ARGS = [
+/** Headless Chromium flags for a closed network: no background connections, no sandbox (runs as root in CI). */
+export const CHROMIUM_ARGS = [
   '--headless',
   '--no-sandbox',
   '--disable-gpu',
@@ -41,7 +42,7 @@ export async function renderPdfs(executable: string | null | undefined, jobs: re
   if (missing) return { pdfs: new Map(), note: missing };
   let browser;
   try {
-    browser = await chromium.launch({ executablePath: executable, args: ARGS });
+    browser = await chromium.launch({ executablePath: executable, args: CHROMIUM_ARGS });
   } catch (err) {
     return {
       pdfs: new Map(),

@@ -1,19 +1,11 @@
 /** Debian's Chromium (/usr/bin/chromium) headless through playwright-core, as the layout tests open pages with it. */
 import { chromium, type Browser, type Page } from 'playwright-core';
+import { CHROMIUM_ARGS } from '../../src/render/pdf.ts';
 
 export function launchChromium(): Promise<Browser> {
   return chromium.launch({
     executablePath: '/usr/bin/chromium',
-    args: [
-      '--headless',
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-dev-shm-usage',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-    ],
+    args: [...CHROMIUM_ARGS],
   });
 }
 
