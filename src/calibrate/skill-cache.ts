@@ -12,7 +12,7 @@ import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import { describeError } from '../core/errors.ts';
 import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
-import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
+import { isRecord, parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { SourceConfig } from '../config/types.ts';
 import type { HindcastRead, IsoDate } from '../types.ts';
@@ -33,11 +33,11 @@ export function fingerprint(value: unknown): string {
   const canon = (v: unknown): unknown =>
     Array.isArray(v)
       ? v.map(canon)
-      : v !== null && typeof v === 'object'
+      : isRecord(v)
         ? Object.fromEntries(
             Object.keys(v)
               .sort()
-              .map((k) => [k, canon((v as Record<string, unknown>)[k])]),
+              .map((k) => [k, canon(v[k])]),
           )
         : v;
   return createHash('sha256')
@@ -58,21 +58,27 @@ export async function skillCacheKey(input: {
 }
 
 const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
+const NON_FINITE: Readonly<Record<string, number>> = { NaN, Infinity, '-Infinity': -Infinity };
 const decode = (_k: string, v: unknown): unknown =>
-  v !== null && typeof v === 'object' && !Array.isArray(v) && Object.keys(v).length === 1 && '$num' in v
-    ? Number((v as { $num: string }).$num)
+  v !== null &&
+  typeof v === 'object' &&
+  Object.keys(v).length === 1 &&
+  '$num' in v &&
+  typeof v.$num === 'string' &&
+  Object.hasOwn(NON_FINITE, v.$num)
+    ? NON_FINITE[v.$num]
     : v;
 
 /**
- * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as stored (non-finite
- * numbers still in their {"$num": …} form); an unreadable, corrupt or misshapen entry is recomputed and
- * overwritten (`note` says so).
+ * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as read back (non-finite
+ * numbers decoded from their {"$num": …} form, so `shape` is made with `nonFinite`); an unreadable, corrupt or
+ * misshapen entry is recomputed and overwritten (`note` says so).
  */
 export async function cachedSkill<T>(
   cacheDir: string,
   key: string,
   compute: () => T | Promise<T>,
-  shape: ShapeCheck<unknown>,
+  shape: ShapeCheck<T>,
 ): Promise<{ value: T; fromCache: boolean; note: string }> {
   const file = join(cacheDir, `skill-${key}.json`);
   let note = '';
@@ -81,9 +87,8 @@ export async function cachedSkill<T>(
     return null;
   });
   if (text !== null) {
-    const checked = parseShaped(text, shape);
-    // The shape was checked on the stored form; decoding only turns {"$num": …} back into numbers.
-    if (checked.ok) return { value: JSON.parse(text, decode) as T, fromCache: true, note };
+    const checked = parseShaped(text, shape, decode);
+    if (checked.ok) return { value: checked.value, fromCache: true, note };
     note = `skill cache entry ${file} unreadable (${checked.why}); recomputed`;
   }
   const value = await compute();

@@ -9,12 +9,12 @@
  */
 import { createHash } from 'node:crypto';
 import { Queue, QueueEvents } from 'bullmq';
-import { ForelightError, InputError } from '../core/errors.ts';
+import { ForelightError, InputError, errorMessage } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
 import type { Logger } from '../core/log.ts';
 import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.ts';
 import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
-import { fromWire, type ExtractJob, type WireResult } from './wire.ts';
+import { checkWire, fromWire, type ExtractJob, type WireResult } from './wire.ts';
 
 export interface ClusterClient {
   readonly extract: Extractor;
@@ -53,7 +53,7 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     throw new ForelightError(
       'cli',
       'cluster-unreachable',
-      `cannot reach the cluster's Redis at ${shownUrl(url)}: ${(err as Error).message}`,
+      `cannot reach the cluster's Redis at ${shownUrl(url)}: ${errorMessage(err)}`,
       'start redis-server there, or check --cluster',
       { cause: err },
     );
@@ -80,17 +80,27 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
       },
     );
     options.log.debug('extraction queued', { stage: 'read', job: id, path });
-    let wire: WireResult;
+    let answer: unknown;
     try {
-      wire = (await job.waitUntilFinished(events, timeout)) as WireResult;
+      answer = await job.waitUntilFinished(events, timeout);
     } catch (err) {
       throw new InputError(
         'read-failed',
         path,
-        `the cluster's workers could not read it (${(err as Error).message})`,
+        `the cluster's workers could not read it (${errorMessage(err)})`,
         `check the file and "forelight status --cluster ${shownUrl(url)}"; the other sources went on`,
       );
     }
+    const checked = checkWire(answer);
+    if (!checked.ok) {
+      throw new InputError(
+        'read-failed',
+        path,
+        `a cluster worker answered with a result Forelight cannot use (${checked.why})`,
+        'run the same Forelight release on the coordinator and every worker, then run again',
+      );
+    }
+    const wire = checked.value;
     const result = fromWire(wire);
     if (wire.thrown) throw result.problems[result.problems.length - 1];
     return result;

@@ -68,7 +68,7 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   const sources: SourceOutcome[] = [];
   for (const s of read.sources) {
     const t0 = Date.now();
-    const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
+    const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs; // every read source comes from one of the inputs
     const outcome = await calibrateSource(ctx, s, input, { fileProblems, extract });
     log.info('calibrated source', {
       stage: 'calibrate',

@@ -21,6 +21,7 @@ import { rawRegionMeans } from './extract-raw.ts';
 import { cellSeriesOf, regionSelection } from './weighted-selection.ts';
 import { describeShape } from './regions.ts';
 import { planUnits } from './units.ts';
+import { entriesOf } from '../core/typed-entries.ts';
 
 export interface ExtractRequest {
   /** Canonical quantity → variable name in the file. */
@@ -73,7 +74,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
     coords.grid.lon.length,
   );
   if (regions.length === 0) return { series, problems, notes };
-  for (const [quantity, variable] of Object.entries(request.quantities) as [Quantity, string][]) {
+  for (const [quantity, variable] of entriesOf(request.quantities)) {
     try {
       const layout = layoutVariable(ds, coords, variable);
       const units = layout.info.attributes.units;
