@@ -137,8 +137,8 @@ function jdnToDate(jdn: number, gregorian: boolean): [number, number, number] {
   return [100 * b + d - 4800 + Math.floor(m / 10), m + 3 - 12 * Math.floor(m / 10), e - Math.floor((153 * m + 2) / 5) + 1];
 }
 
-/** Day number of a date in `calendar` (any fixed origin per calendar). */
-function toDayNumber(calendar: CfCalendar, y: number, m: number, d: number): number {
+/** Day number of a date in `calendar` (any fixed origin per calendar): differences are elapsed days. */
+export function toDayNumber(calendar: CfCalendar, y: number, m: number, d: number): number {
   switch (calendar) {
     case 'proleptic_gregorian':
       return gregorianToJdn(y, m, d);
