@@ -8,8 +8,9 @@
  * (Julian Day Number from/to Julian and Gregorian dates).
  */
 import { UnitError } from '../core/errors.ts';
+import type { ModelCalendarName } from '../types.ts';
 
-export type CfCalendar = 'standard' | 'proleptic_gregorian' | 'julian' | 'noleap' | 'all_leap' | '360_day';
+export type CfCalendar = 'standard' | 'proleptic_gregorian' | ModelCalendarName;
 
 const CALENDAR_ALIASES: Readonly<Record<string, CfCalendar>> = {
   standard: 'standard',
@@ -157,7 +158,8 @@ export function toDayNumber(calendar: CfCalendar, y: number, m: number, d: numbe
   }
 }
 
-function fromDayNumber(calendar: CfCalendar, n: number): [number, number, number] {
+/** The date (year, month, day) of a day number of `toDayNumber`. */
+export function fromDayNumber(calendar: CfCalendar, n: number): [number, number, number] {
   switch (calendar) {
     case 'proleptic_gregorian':
       return jdnToDate(n, true);

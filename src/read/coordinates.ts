@@ -7,7 +7,7 @@
  */
 import { InputError, UnitError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
-import { durationUnitMs, TimeMapper } from './coordinates-time.ts';
+import { durationUnitMs, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
 import { decodeTimes, type CfDateTime } from './cf-time.ts';
 import { countsMonths, isMonthIndex, monthLeadAxis } from './lead-months.ts';
 import { detectMonths, type MonthSteps } from './monthly.ts';
@@ -46,6 +46,8 @@ export interface FileCoordinates {
   readonly member: { readonly dimension: string; readonly size: number } | null;
   /** How model-calendar times were placed on real dates (coordinates-time.ts), or null for Gregorian files. */
   readonly calendarNote: string | null;
+  /** The model calendar and the model date of a real local day (coordinates-time.ts), or null for Gregorian files. */
+  readonly modelCalendar: FileModelCalendar | null;
 }
 
 /** Where each coordinate sits among a data variable's dimensions (-1 = absent). */
@@ -339,7 +341,15 @@ export async function findCoordinates(ds: Dataset): Promise<FileCoordinates> {
   const mapper = new TimeMapper();
   const referenceMs = await findReference(ds, mapper);
   const time = await findTime(ds, referenceMs, mapper);
-  return { file: ds.path, grid, time, referenceMs, member: findMember(ds), calendarNote: mapper.note() };
+  return {
+    file: ds.path,
+    grid,
+    time,
+    referenceMs,
+    member: findMember(ds),
+    calendarNote: mapper.note(),
+    modelCalendar: mapper.modelCalendar(),
+  };
 }
 
 /**
