@@ -17,6 +17,7 @@ import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
+import { specificHumidityNote } from '../indicators/specific-humidity.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
 import { regionCells, type SourceRead } from './read-file.ts';
 import { readAll, readHindcasts, type ReadResult } from './read-stage.ts';
@@ -48,7 +49,8 @@ export interface AnalyseOptions {
 /** Reads and computes everything for the run's issue date; never throws for a bad file, region or indicator. */
 export async function analyse(config: Config, run: RunContext, options: AnalyseOptions = {}): Promise<Analysis> {
   const { issueDate, log } = run;
-  const { onProgress, inputs = resolveInputs(config, issueDate), extract = extractRegionSeries } = options;
+  const { onProgress, extract = extractRegionSeries } = options;
+  const inputs = options.inputs ?? (await resolveInputs(config, issueDate));
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now(); // elapsed times for the log, not the run's clock
@@ -93,7 +95,20 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await saveChecksums(checksums, log);
   const timeNotes = read.sources.flatMap((s) => s.notes);
-  return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
+  const humidityNotes = [
+    ...read.sources.flatMap((s) => specificHumidityNote(`source ${s.source.id}`, s.source.variables)),
+    ...(config.observations ? specificHumidityNote('observations', config.observations.variables) : []),
+  ];
+  return {
+    issueDate,
+    inputs: read.inputs,
+    read,
+    sources,
+    probabilities: kept,
+    combination: [...notes, ...timeNotes, ...humidityNotes],
+    problems,
+    checksums,
+  };
 }
 
 /** One source's model climate (cached, or its hindcasts read and computed), then its forecast's probabilities. */

@@ -8,7 +8,8 @@ import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import type { HindcastRead, RegionQuantities } from '../types.ts';
 import { readFile, readInputFiles, regionCells, type FileRequest, type SourceRead } from './read-file.ts';
 import { readRegions } from '../config/region-views.ts';
-import type { HindcastFile, SourceInputs } from './inputs.ts';
+import type { SourceInputs } from './inputs.ts';
+import { hindcastRequest, type HindcastFile } from './hindcast-list.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
 import { readUsableForecast } from './usable-forecast.ts';
@@ -50,22 +51,17 @@ export async function readHindcasts(
   const out: HindcastRead[] = [];
   // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
   const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
-    const own: ForelightError[] = [];
+    const own: ForelightError[] = h.refused ? [h.refused] : [];
+    if (h.refused) return { series: null, own };
     return {
-      series: await readInputFiles(
-        extract,
-        h.files,
-        source.variables,
-        regions,
-        { referenceTime: h.start, tier: source.tier, ...weights },
-        own,
-      ),
+      series: await readInputFiles(extract, h.files, source.variables, regions, { ...hindcastRequest(h, source), ...weights }, own),
       own,
     };
   });
+  const said = new Set<string>(); // the starts of one file share its problems: each said once
   for (const [i, h] of files.entries()) {
     const { series, own } = read[i];
-    problems.push(...own);
+    for (const p of own) if (!said.has(p.message)) (problems.push(p), said.add(p.message));
     if (!series) continue;
     for (const [region, cells] of regionCells(series)) {
       const expected = forecastCells?.get(region);

@@ -22,6 +22,7 @@ import { cellSeriesOf, regionSelection } from './weighted-selection.ts';
 import { describeShape } from './regions.ts';
 import { planUnits } from './units.ts';
 import { entriesOf } from '../core/typed-entries.ts';
+import { oneStart, requireStartsDimension } from './start-slice.ts';
 
 export interface ExtractRequest {
   /** Canonical quantity → variable name in the file. */
@@ -37,6 +38,8 @@ export interface ExtractRequest {
   readonly moreMembers?: readonly string[];
   /** The population raster, for regions whose `weighting` is `population`. */
   readonly population?: PopulationConfig | null;
+  /** In a file holding several starts along a reference-time dimension: the index of the start to read (start-slice.ts). */
+  readonly startIndex?: number;
 }
 
 export interface ExtractResult {
@@ -52,12 +55,14 @@ function keepOrRethrow(err: unknown, problems: ForelightError[]): void {
 }
 
 /** Reads every requested quantity for every region from an opened dataset (see `extractRegionSeries`). */
-export async function extractFromDataset(ds: Dataset, request: ExtractRequest): Promise<ExtractResult> {
+export async function extractFromDataset(file: Dataset, request: ExtractRequest): Promise<ExtractResult> {
+  const ds = request.startIndex === undefined ? file : oneStart(file, request.startIndex);
   const problems: ForelightError[] = [];
   const series: RegionSeries[] = [];
   const coords = await findCoordinates(ds);
   const wanted = requestedMs(ds.path, request.referenceTime);
   const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
+  const model = coords.modelCalendar;
   const {
     selected,
     cellRegions,
@@ -77,6 +82,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   for (const [quantity, variable] of entriesOf(request.quantities)) {
     try {
       const layout = layoutVariable(ds, coords, variable);
+      if (request.startIndex !== undefined) requireStartsDimension(ds, layout.info);
       const units = layout.info.attributes.units;
       const unitPlan = planUnits(quantity, typeof units === 'string' ? units : undefined, ds.path, variable);
       const byValues = await valuesAccumulate(ds, coords, layout, unitPlan, wanted);
@@ -131,6 +137,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
           cells: cells.weights.length,
           provenance: { file: ds.path, variable, referenceTime: isoInstant(refMs) },
           ...(region.weighting === 'population' ? { weighting: 'population' as const } : {}),
+          ...(model && !months ? { modelCalendar: { calendar: model.calendar, days: mean.labels.map(model.dayOf) } } : {}),
           ...(region.keepCells ? { perCell: cellSeriesOf(cells.weights, all, selected.length, cellRegions, k) } : {}),
         });
       });
