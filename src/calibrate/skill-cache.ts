@@ -20,7 +20,8 @@ import { buildIndicatorClimate, observedContext, type CalibrateContext, type Ind
 import { tierPairs, type StartReduction } from './start-reduction.ts';
 import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
-export const SKILL_CACHE_VERSION = 9;
+/** 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). */
+export const SKILL_CACHE_VERSION = 10;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {

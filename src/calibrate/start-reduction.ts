@@ -37,9 +37,11 @@ export interface ObservedContext {
 
 export const isSeries = (v: IndicatorSeries | Diagnostic | null): v is IndicatorSeries => v !== null && 'data' in v;
 
+/** The observed series on the days of a hindcast's series (and its model calendar, so that month leads match). */
 function onDays(series: IndicatorSeries, like: IndicatorSeries): IndicatorSeries {
   const data = valuesOnDays(series, like.days);
-  return { ...series, days: like.days, members: 1, data, missing: data.filter(Number.isNaN).length };
+  const model = like.modelCalendar ? { modelCalendar: like.modelCalendar } : {};
+  return { ...series, days: like.days, members: 1, data, missing: data.filter(Number.isNaN).length, ...model };
 }
 
 /** The region × indicator pairs of a tier (every region, each indicator computed on that tier). */
