@@ -15,6 +15,7 @@ import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
+import { specificHumidityNote } from '../indicators/specific-humidity.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
 import type { SourceRead } from './read-file.ts';
 import { readAll, type ReadResult } from './read-stage.ts';
@@ -103,7 +104,20 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await saveChecksums(checksums, log);
   const timeNotes = read.sources.flatMap((s) => s.notes);
-  return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
+  const humidityNotes = [
+    ...read.sources.flatMap((s) => specificHumidityNote(`source ${s.source.id}`, s.source.variables)),
+    ...(config.observations ? specificHumidityNote('observations', config.observations.variables) : []),
+  ];
+  return {
+    issueDate,
+    inputs: read.inputs,
+    read,
+    sources,
+    probabilities: kept,
+    combination: [...notes, ...timeNotes, ...humidityNotes],
+    problems,
+    checksums,
+  };
 }
 
 /** One source's model climate (cached, or its hindcast starts read and reduced), then its forecast's probabilities. */
