@@ -55,7 +55,8 @@ export type Readers = Pick<AnalyseOptions, 'extract' | 'reduceStart'>;
 /** Reads and computes everything for the run's issue date; never throws for a bad file, region or indicator. */
 export async function analyse(config: Config, run: RunContext, options: AnalyseOptions = {}): Promise<Analysis> {
   const { issueDate, log } = run;
-  const { onProgress, inputs = resolveInputs(config, issueDate), extract = extractRegionSeries } = options;
+  const { onProgress, extract = extractRegionSeries } = options;
+  const inputs = options.inputs ?? (await resolveInputs(config, issueDate));
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now(); // elapsed times for the log, not the run's clock

@@ -12,7 +12,7 @@ import { reduceStart, type ObservedContext, type StartReduction } from '../calib
 import type { IndicatorClimatology } from '../indicators/compute.ts';
 import type { Extractor } from '../read/extract.ts';
 import type { HindcastRead, RegionQuantities } from '../types.ts';
-import type { HindcastFile } from './inputs.ts';
+import { hindcastRequest, type HindcastFile } from './hindcast-list.ts';
 import { readInputFiles, regionCells } from './read-file.ts';
 
 /** The part of the configuration a start's read and reduction use (all of it JSON). */
@@ -24,7 +24,16 @@ export type StartConfig = Pick<Config, 'regions' | 'indicators' | 'observations'
 export interface StartRequest {
   readonly config: StartConfig;
   readonly source: Pick<SourceConfig, 'id' | 'tier' | 'variables'>;
-  readonly start: { readonly year: number; readonly start: string; readonly path: string; readonly files: readonly string[] };
+  readonly start: {
+    readonly year: number;
+    readonly start: string;
+    readonly path: string;
+    readonly files: readonly string[];
+    /** The start's reference time (from its path, or from the file). */
+    readonly referenceTime: string;
+    /** In a file holding several starts: this start's index along the reference-time dimension. */
+    readonly startIndex?: number;
+  };
   /** Files per variable and pattern, in member order (split-files.ts `InputFiles.byVariable`). */
   readonly byVariable: readonly (readonly [string, readonly (readonly string[])[]])[];
   /** Grid cells of each region in the forecast: a region covering another number here is left out (another grid). */
@@ -49,11 +58,16 @@ export function startConfig(config: Config): StartConfig {
   return { regions, indicators, observations, population: population ?? null, weightsCacheDir: config.calibration.cacheDir };
 }
 
+function startOf(h: HindcastFile, source: SourceConfig): Pick<StartRequest['start'], 'referenceTime' | 'startIndex'> {
+  const { referenceTime, startIndex } = hindcastRequest(h, source);
+  return { referenceTime: referenceTime ?? h.start, ...(startIndex !== undefined ? { startIndex } : {}) };
+}
+
 export function startRequest(config: Config, source: SourceConfig, h: HindcastFile, forecast: RegionQuantities): StartRequest {
   return {
     config: startConfig(config),
     source: { id: source.id, tier: source.tier, variables: source.variables },
-    start: { year: h.year, start: h.start, path: h.path, files: h.files.existing },
+    start: { year: h.year, start: h.start, path: h.path, files: h.files.existing, ...startOf(h, source) },
     byVariable: [...h.files.byVariable],
     forecastCells: [...regionCells(forecast)],
   };
@@ -68,7 +82,13 @@ export async function readStart(extract: Extractor, request: StartRequest, probl
     files,
     source.variables,
     readRegions(config),
-    { referenceTime: start.start, tier: source.tier, weightsCacheDir: config.weightsCacheDir, population: config.population },
+    {
+      referenceTime: start.referenceTime,
+      tier: source.tier,
+      ...(start.startIndex !== undefined ? { startIndex: start.startIndex } : {}),
+      weightsCacheDir: config.weightsCacheDir,
+      population: config.population,
+    },
     problems,
   );
   if (!series) return null;
@@ -111,12 +131,33 @@ async function inOrder<T, R>(items: readonly T[], parallel: number, work: (item:
 }
 
 /**
- * Every start of `source` reduced (those that could be read, in start order) for the forecast read as `forecast`;
- * a start missing some of its files is not read (each missing file a problem, as for a forecast). Problems are
- * appended per start in start order, so a parallel or distributed build reports as a sequential one. `onStart` is
- * told after each start (progress).
+ * `work` on every start that can be read (in start order; at most `parallel` in flight), the others' reasons given:
+ * a start refused by the hindcast list (hindcast-list.ts) or missing some of its files (each missing file named, as
+ * for a forecast) is not read. Problems are appended per start in start order, so a parallel or distributed build
+ * reports as a sequential one, and each once: the starts of one file share its problems. `onStart` is told after
+ * each start (progress).
  */
-export async function reduceStarts(
+export async function eachStart<T>(
+  starts: readonly HindcastFile[],
+  parallel: number,
+  work: (h: HindcastFile) => Promise<{ readonly value: T | null; readonly problems: readonly ForelightError[] }>,
+  problems: ForelightError[],
+  onStart?: (done: number, total: number) => void,
+): Promise<T[]> {
+  let done = 0;
+  const outcomes = await inOrder(starts, parallel, async (h) => {
+    const reason = h.refused ? [h.refused] : h.files.missing;
+    const outcome = reason.length > 0 ? { value: null, problems: reason } : await work(h);
+    onStart?.(++done, starts.length);
+    return outcome;
+  });
+  const said = new Set<string>();
+  for (const p of outcomes.flatMap((o) => o.problems)) if (!said.has(p.message)) (said.add(p.message), problems.push(p));
+  return outcomes.flatMap((o) => (o.value === null ? [] : [o.value]));
+}
+
+/** Every start of `source` reduced by `reducer` for the forecast read as `forecast` (see `eachStart`). */
+export function reduceStarts(
   config: Config,
   source: SourceConfig,
   starts: readonly HindcastFile[],
@@ -125,17 +166,11 @@ export async function reduceStarts(
   problems: ForelightError[],
   onStart?: (done: number, total: number) => void,
 ): Promise<StartReduction[]> {
-  let done = 0;
-  const outcomes = await inOrder(starts, reducer.parallel ?? 1, async (h): Promise<StartOutcome> => {
-    const outcome =
-      h.files.missing.length > 0
-        ? { reduction: null, problems: h.files.missing }
-        : await reducer(startRequest(config, source, h, forecast));
-    onStart?.(++done, starts.length);
-    return outcome;
-  });
-  problems.push(...outcomes.flatMap((o) => o.problems));
-  return outcomes.flatMap((o) => (o.reduction ? [o.reduction] : []));
+  const work = async (h: HindcastFile) => {
+    const { reduction, problems: own } = await reducer(startRequest(config, source, h, forecast));
+    return { value: reduction, problems: own };
+  };
+  return eachStart(starts, reducer.parallel ?? 1, work, problems, onStart);
 }
 
 /** Climatology of every configured region from the observations; a region whose observations cannot give one gets none (`onProblem`). */

@@ -111,7 +111,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   const { issueDate, log, dryRun } = options.run;
   const wouldNotify: string[] = [];
   const notify = operatorNotifier(options, log, wouldNotify);
-  const resolved = resolveInputs(config, issueDate);
+  const resolved = await resolveInputs(config, issueDate);
   if (resolved.every((i) => i.candidates.length === 0)) {
     const text = `No forecast file of any source was found on or before ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
     await notify(`no forecast data for ${issueDate}`, text);

@@ -61,7 +61,7 @@ export class TimeMapper {
       line = calendarSeconds(values, units, calendar);
     } catch (err) {
       if (!(err instanceof UnitError)) throw err;
-      throw new InputError('time-units', file, `time variable '${variable}': ${err.message}`, err.hint, { cause: err });
+      throw new InputError('time-units', file, `time variable '${variable}': ${err.diagnostic.message}`, err.hint, { cause: err });
     }
     this.calendar ??= line.calendar;
     if (GREGORIAN.includes(line.calendar)) return Float64Array.from(dates, (d) => Math.round(d.gregorianMs() as number));

@@ -90,7 +90,7 @@ describe('first-time climate build with one job per hindcast start (2 workers, l
     const local = await analyse(single, runContext({ issueDate, log: silentLogger }));
 
     const distributed = withCache('cluster');
-    const starts = resolveInputs(distributed, issueDate).reduce((n, i) => n + i.hindcasts.length, 0);
+    const starts = (await resolveInputs(distributed, issueDate)).reduce((n, i) => n + i.hindcasts.length, 0);
     expect(starts).toBeGreaterThan(2);
     const cluster = await connectCluster(redis.url, { log: silentLogger, cacheDir: distributed.calibration.cacheDir });
     try {
@@ -114,7 +114,7 @@ describe('first-time climate build with one job per hindcast start (2 workers, l
       const extracted = workers.flatMap((w) =>
         w.log.split('\n').filter((l) => l.includes('"kind":"extract"') && l.includes('job started')),
       );
-      const firstStarts = resolveInputs(distributed, issueDate).flatMap((i) => i.hindcasts.slice(0, 1).map((h) => h.path));
+      const firstStarts = (await resolveInputs(distributed, issueDate)).flatMap((i) => i.hindcasts.slice(0, 1).map((h) => h.path));
       const hindcastsExtracted = extracted.flatMap((l) => /"path":"([^"]*\/hindcast\/[^"]*)"/.exec(l)?.[1] ?? []);
       expect([...new Set(hindcastsExtracted)].sort()).toEqual(firstStarts.sort());
 

@@ -16,7 +16,8 @@ import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { unmatchedPatterns } from '../../src/pipeline/pattern-check.ts';
 import { minimalVariant } from '../config/helpers.ts';
 import type { Config } from '../../src/config/types.ts';
-import { listHindcasts, resolveInputs } from '../../src/pipeline/inputs.ts';
+import { resolveInputs } from '../../src/pipeline/inputs.ts';
+import { listHindcasts } from '../../src/pipeline/hindcast-list.ts';
 import { readAll, type ReadResult } from '../../src/pipeline/read-stage.ts';
 import { readStart, startRequest } from '../../src/pipeline/hindcast-starts.ts';
 import { extractRegionSeries } from '../../src/read/extract.ts';
@@ -103,7 +104,7 @@ async function configWith(forecastFiles: string): Promise<Config> {
 const dataOf = (config: Config) => join(config.file, '..', 'data');
 
 async function readOn(config: Config, date = '2026-11-23'): Promise<ReadResult> {
-  return readAll(config, date, resolveInputs(config, date));
+  return readAll(config, date, await resolveInputs(config, date));
 }
 
 function expectAsCdo(read: ReadResult): void {
@@ -254,7 +255,7 @@ describe('hindcasts split by variable and member', () => {
           cut(file, v, m, m);
           run('ncatted', '-O', '-a', `units,time,o,c,hours since ${year}-11-23 00:00:00`, file);
         }
-    const starts = listHindcasts(source);
+    const starts = await listHindcasts(source);
     expect(starts.map((h) => [h.start, h.files.existing.length])).toEqual([
       ['2010-11-23', 2 * MEMBERS],
       ['2011-11-23', 2 * MEMBERS],
