@@ -10,7 +10,8 @@
  */
 import { InputError, UnitError } from '../core/errors.ts';
 import type { ModelCalendarName } from '../types.ts';
-import { calendarSeconds, decodeTimes, fromDayNumber, secondsPerUnit, toDayNumber, type CfCalendar, type CfDateTime } from './cf-time.ts';
+import { fromDayNumber, toDayNumber } from '../core/calendar-days.ts';
+import { calendarSeconds, decodeTimes, secondsPerUnit, type CfCalendar, type CfDateTime } from './cf-time.ts';
 
 /** Length in ms of a duration unit ("hours", "days", …) of a lead-time coordinate (the units of cf-time.ts). */
 export function durationUnitMs(units: string, file: string, variable: string): number {
