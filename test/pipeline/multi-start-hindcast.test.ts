@@ -21,7 +21,7 @@ import { fromWire, toWire, type ExtractJob } from '../../src/cluster/wire.ts';
 import { listHindcasts } from '../../src/pipeline/hindcast-list.ts';
 import { hindcastsFor } from '../../src/pipeline/inputs.ts';
 import { hindcastPatternProblems } from '../../src/pipeline/pattern-check.ts';
-import { readHindcasts } from '../../src/pipeline/read-stage.ts';
+import { eachStart, readStart, startRequest } from '../../src/pipeline/hindcast-starts.ts';
 import { extractRegionSeries } from '../../src/read/extract.ts';
 import type { HindcastRead } from '../../src/types.ts';
 
@@ -70,7 +70,16 @@ async function configWith(hindcast: string, variables = '{ tmean: t2m }'): Promi
 async function readAllStarts(source: SourceConfig, config: Config) {
   const starts = await listHindcasts(source);
   const problems: ForelightError[] = [];
-  const read = await readHindcasts(source, starts, config.regions.slice(0, 1), problems);
+  const one = { ...config, regions: config.regions.slice(0, 1) };
+  const read = await eachStart(
+    starts,
+    1,
+    async (h) => {
+      const own: ForelightError[] = [];
+      return { value: await readStart(extractRegionSeries, startRequest(one, source, h, new Map()), own), problems: own };
+    },
+    problems,
+  );
   return { starts, read, problems: problems.map((p) => p.message) };
 }
 
