@@ -12,10 +12,11 @@ import { CANONICAL_UNITS, type RegionSeries } from '../types.ts';
 
 export interface ExtractJob {
   readonly path: string;
+  /** Includes `startIndex` for one start of a file holding several, so the worker reads that slice (and the job key differs per start). */
   readonly request: ExtractRequest;
 }
 
-interface WireProblem {
+export interface WireProblem {
   /** An `InputError` (names its file) or another Forelight error. */
   readonly input: boolean;
   readonly diagnostic: Diagnostic;
@@ -26,9 +27,9 @@ interface WireSeries extends Omit<RegionSeries, 'data' | 'perCell'> {
   readonly perCell?: { readonly weights: string; readonly data: string };
 }
 
-const toBase64 = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');
+export const toBase64 = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');
 
-function fromBase64(text: string): Float64Array {
+export function fromBase64(text: string): Float64Array {
   const bytes = Buffer.from(text, 'base64');
   const data = new Float64Array(bytes.byteLength / 8);
   new Uint8Array(data.buffer).set(bytes);
@@ -45,6 +46,13 @@ export interface WireResult {
 
 const base64 = { type: 'string', pattern: '^[A-Za-z0-9+/]*={0,2}$' };
 const count = { type: 'integer', minimum: 0 };
+const problems = {
+  type: 'array',
+  items: { type: 'object', properties: { input: { type: 'boolean' }, diagnostic: { type: 'object' } }, required: ['input', 'diagnostic'] },
+};
+/** JSON Schema parts of every answer a worker sends (here and in start-jobs.ts). */
+export const WIRE_SCHEMA = { base64, count, problems } as const;
+
 const wireShape = jsonShape<WireResult>({
   type: 'object',
   properties: {
@@ -72,21 +80,20 @@ const wireShape = jsonShape<WireResult>({
         required: ['region', 'quantity', 'units', 'days', 'members', 'data', 'cells', 'provenance'],
       },
     },
-    problems: {
-      type: 'array',
-      items: {
-        type: 'object',
-        properties: { input: { type: 'boolean' }, diagnostic: { type: 'object' } },
-        required: ['input', 'diagnostic'],
-      },
-    },
+    problems,
     notes: { type: 'array', items: { type: 'string' } },
   },
   required: ['series', 'problems', 'notes'],
 });
 
 /** How many Float64 values a base64 text holds, or -1 when its bytes are not whole values. */
-const float64Count = (text: string) => (Buffer.byteLength(text, 'base64') % 8 === 0 ? Buffer.byteLength(text, 'base64') / 8 : -1);
+export const float64Count = (text: string) => (Buffer.byteLength(text, 'base64') % 8 === 0 ? Buffer.byteLength(text, 'base64') / 8 : -1);
+
+/** Why the problems of an answer cannot be used (one is not a `Diagnostic`), or null. */
+export function undiagnosed(problems: readonly WireProblem[]): string | null {
+  const bad = problems.findIndex((p) => !isDiagnostic(p.diagnostic));
+  return bad < 0 ? null : `/problems/${bad}/diagnostic is not a diagnostic`;
+}
 
 /**
  * A worker's answer as it came back from Redis, checked before it is used: the shape of `WireResult`, every problem
@@ -96,8 +103,8 @@ export const checkWire: ShapeCheck<WireResult> = (value) => {
   const shaped = wireShape(value);
   if (!shaped.ok) return shaped;
   const wire = shaped.value;
-  const bad = wire.problems.findIndex((p) => !isDiagnostic(p.diagnostic));
-  if (bad >= 0) return { ok: false, why: `/problems/${bad}/diagnostic is not a diagnostic` };
+  const why = undiagnosed(wire.problems);
+  if (why) return { ok: false, why };
   for (const [i, s] of wire.series.entries()) {
     const values = s.members * s.days.length;
     if (float64Count(s.data) !== values) return { ok: false, why: `/series/${i}/data does not hold ${values} values` };
@@ -117,12 +124,14 @@ export function toWire(result: ExtractResult, thrown = false): WireResult {
       data: toBase64(s.data),
       ...(perCell ? { perCell: { weights: toBase64(perCell.weights), data: toBase64(perCell.data) } } : {}),
     })),
-    problems: result.problems.map((p) => ({ input: p instanceof InputError, diagnostic: p.diagnostic })),
+    problems: result.problems.map(toWireProblem),
     notes: result.notes,
   };
 }
 
-function fromDiagnostic({ input, diagnostic: d }: WireProblem): ForelightError {
+export const toWireProblem = (p: ForelightError): WireProblem => ({ input: p instanceof InputError, diagnostic: p.diagnostic });
+
+export function fromDiagnostic({ input, diagnostic: d }: WireProblem): ForelightError {
   const { file, ...rest } = d.place;
   return input && file !== undefined
     ? new InputError(d.code, file, d.message, d.hint, { place: rest })

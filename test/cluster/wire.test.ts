@@ -4,8 +4,11 @@
  * per RFC 4648 §4).
  */
 import { describe, expect, it } from 'vitest';
+import { checkWireStart, fromWireStart, toWireStart } from '../../src/cluster/start-jobs.ts';
 import { checkWire, fromWire, toWire } from '../../src/cluster/wire.ts';
 import { InputError } from '../../src/core/errors.ts';
+import { pairKey } from '../../src/core/keys.ts';
+import type { StartOutcome } from '../../src/pipeline/hindcast-starts.ts';
 import type { RegionSeries } from '../../src/types.ts';
 
 const series: RegionSeries = {
@@ -44,6 +47,68 @@ describe('checkWire (a worker answer read back from Redis)', () => {
       const w = answer();
       damage(w);
       const checked = checkWire(what === 'not an object' ? 'done' : w);
+      expect(checked.ok).toBe(false);
+      if (!checked.ok) expect(checked.why).toMatch(why);
+    });
+  }
+});
+
+describe('checkWireStart (a hindcast-start answer read back from Redis)', () => {
+  const leads = [
+    { tier: 'days', index: 1, start: '2006-03-01', end: '2006-03-01' },
+    { tier: 'days', index: 2, start: '2006-03-02', end: '2006-03-02' },
+  ] as const;
+  const hindcast = { leads: [...leads], members: 2, values: Float64Array.of(1, NaN, 3, 4), beyondTable: Uint8Array.of(0, 1, 0, 0) };
+  const outcome: StartOutcome = {
+    reduction: {
+      year: 2006,
+      start: '2006-03-01',
+      path: 'hc_2006.nc',
+      pairs: new Map([
+        [pairKey('north', 'heat'), { units: 'degC', hindcast, observed: null }],
+        [pairKey('south', 'heat'), { failure: problem.diagnostic }],
+      ]),
+    },
+    problems: [problem],
+  };
+  const start = () => JSON.parse(JSON.stringify(toWireStart(outcome)));
+
+  it('accepts what toWireStart wrote, after JSON, and fromWireStart gives the same lead values back', () => {
+    const checked = checkWireStart(start());
+    expect(checked.ok).toBe(true);
+    if (!checked.ok) return;
+    expect(fromWireStart(checked.value)).toEqual(outcome);
+  });
+
+  const damaged: [string, (w: ReturnType<typeof start>) => void, RegExp][] = [
+    [
+      'lead values cut short',
+      (w) => (w.reduction.pairs[0][1].hindcast.values = w.reduction.pairs[0][1].hindcast.values.slice(0, 12)),
+      /\/reduction\/pairs\/0\/1\/hindcast\/values does not hold 4 values/,
+    ],
+    [
+      'beyond-table flags of another count',
+      (w) => (w.reduction.pairs[0][1].hindcast.beyondTable = 'AAE='),
+      /\/hindcast\/beyondTable does not hold 4 flags/,
+    ],
+    [
+      'a failure that is not a diagnostic',
+      (w) => (w.reduction.pairs[1][1].failure = { code: 'nonsense' }),
+      /\/reduction\/pairs\/1\/1\/failure is not a diagnostic/,
+    ],
+    ['a pair without its key', (w) => w.reduction.pairs[0].shift(), /\/reduction\/pairs\/0 must NOT have fewer than 2 items/],
+    ['a key that is no region|indicator pair', (w) => (w.reduction.pairs[0][0] = 'north'), /\/reduction\/pairs\/0\/0 must match pattern/],
+    [
+      'a lead of an unknown tier',
+      (w) => (w.reduction.pairs[0][1].hindcast.leads[0].tier = 'decades'),
+      /\/reduction\/pairs\/0\/1\/hindcast\/leads\/0\/tier must be equal to one of the allowed values/,
+    ],
+  ];
+  for (const [what, damage, why] of damaged) {
+    it(`refuses an answer with ${what}, saying where`, () => {
+      const w = start();
+      damage(w);
+      const checked = checkWireStart(w);
       expect(checked.ok).toBe(false);
       if (!checked.ok) expect(checked.why).toMatch(why);
     });

@@ -21,7 +21,7 @@ import { fromWire, toWire, type ExtractJob } from '../../src/cluster/wire.ts';
 import { listHindcasts } from '../../src/pipeline/hindcast-list.ts';
 import { hindcastsFor } from '../../src/pipeline/inputs.ts';
 import { hindcastPatternProblems } from '../../src/pipeline/pattern-check.ts';
-import { readHindcasts } from '../../src/pipeline/read-stage.ts';
+import { eachStart, readStart, startRequest } from '../../src/pipeline/hindcast-starts.ts';
 import { extractRegionSeries } from '../../src/read/extract.ts';
 import type { HindcastRead } from '../../src/types.ts';
 
@@ -70,7 +70,16 @@ async function configWith(hindcast: string, variables = '{ tmean: t2m }'): Promi
 async function readAllStarts(source: SourceConfig, config: Config) {
   const starts = await listHindcasts(source);
   const problems: ForelightError[] = [];
-  const read = await readHindcasts(source, starts, config.regions.slice(0, 1), problems);
+  const one = { ...config, regions: config.regions.slice(0, 1) };
+  const read = await eachStart(
+    starts,
+    1,
+    async (h) => {
+      const own: ForelightError[] = [];
+      return { value: await readStart(extractRegionSeries, startRequest(one, source, h, new Map()), own), problems: own };
+    },
+    problems,
+  );
   return { starts, read, problems: problems.map((p) => p.message) };
 }
 
@@ -199,6 +208,17 @@ describe('truncated or contradictory files of several starts: one line naming fi
     expect(await lines('hc/twice.nc')).toEqual([
       `${join(tmp, 'hc/twice.nc')}: its forecast reference times 1 and 2 fall on the same day 2011-11-23 — replace the file (a damaged or truncated download), or provide one file per start named with {date}`,
     ]);
+  });
+
+  it('a file that changed after it was listed: the start index is no longer there', async () => {
+    const request = (startIndex: number) => ({ quantities: { tmean: 't2m' }, regions: [], startIndex });
+    await expect(extractRegionSeries(join(tmp, 'hc/init.nc'), request(3))).rejects.toThrow(
+      `${join(tmp, 'hc/init.nc')}: start 3 was listed, but 'init' holds only 3 starts — the file changed after it was listed (a truncated or replaced download): run again once the download has finished`,
+    );
+    run('ncks', '-O', '-d', 'init,0,0', 'hc/init.nc', 'hc/one.nc');
+    await expect(extractRegionSeries(join(tmp, 'hc/one.nc'), request(1))).rejects.toThrow(
+      `${join(tmp, 'hc/one.nc')}: start 1 was listed in this file, but it no longer holds several forecast reference times`,
+    );
   });
 
   it('a truncated download', async () => {
