@@ -38,7 +38,7 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   extract: {
     summary: 'print the decoded, area-weighted region series of one file as JSON',
     usage:
-      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE] [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json',
+      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE] [--start K] [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json',
     spec: {
       values: [
         'var',
@@ -51,6 +51,7 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
         'time-zone',
         'cells',
         'reference-time',
+        'start',
         'population',
         'population-variable',
         'population-values',
