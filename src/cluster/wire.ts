@@ -11,6 +11,7 @@ import type { RegionSeries } from '../types.ts';
 
 export interface ExtractJob {
   readonly path: string;
+  /** Includes `startIndex` for one start of a file holding several, so the worker reads that slice (and the job key differs per start). */
   readonly request: ExtractRequest;
 }
 

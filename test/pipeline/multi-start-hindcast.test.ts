@@ -210,6 +210,17 @@ describe('truncated or contradictory files of several starts: one line naming fi
     ]);
   });
 
+  it('a file that changed after it was listed: the start index is no longer there', async () => {
+    const request = (startIndex: number) => ({ quantities: { tmean: 't2m' }, regions: [], startIndex });
+    await expect(extractRegionSeries(join(tmp, 'hc/init.nc'), request(3))).rejects.toThrow(
+      `${join(tmp, 'hc/init.nc')}: start 3 was listed, but 'init' holds only 3 starts — the file changed after it was listed (a truncated or replaced download): run again once the download has finished`,
+    );
+    run('ncks', '-O', '-d', 'init,0,0', 'hc/init.nc', 'hc/one.nc');
+    await expect(extractRegionSeries(join(tmp, 'hc/one.nc'), request(1))).rejects.toThrow(
+      `${join(tmp, 'hc/one.nc')}: start 1 was listed in this file, but it no longer holds several forecast reference times`,
+    );
+  });
+
   it('a truncated download', async () => {
     run('cp', 'hc/init.nc', 'hc/cut.nc');
     run('truncate', '-s', '20000', 'hc/cut.nc');

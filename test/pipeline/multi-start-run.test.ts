@@ -10,6 +10,7 @@ import { execFileSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
@@ -94,6 +95,7 @@ describe('forelight run with the short-range hindcasts in one file of all starts
   let perStart: RunJson;
   let oneFile: RunJson;
   let all: string;
+  let ledger: string;
 
   beforeAll(async () => {
     const sampleDir = join(tmp, 'data');
@@ -103,6 +105,7 @@ describe('forelight run with the short-range hindcasts in one file of all starts
     stackStarts(join(sampleDir, 'short', 'hindcast'), all);
     const base = await loadConfig();
     perStart = await runJsonOf(isolated(base, sampleDir, join(tmp, 'a')));
+    ledger = isolated(base, sampleDir, join(tmp, 'b'), all).ledger;
     oneFile = await runJsonOf(isolated(base, sampleDir, join(tmp, 'b'), all));
   }, 600_000);
 
@@ -119,6 +122,14 @@ describe('forelight run with the short-range hindcasts in one file of all starts
     expect(JSON.stringify(perStart.regions)).toContain('"probability"');
     expect(oneFile.regions).toEqual(perStart.regions);
     expect(oneFile.problems).toEqual(perStart.problems);
+    const db = new Database(ledger, { readonly: true });
+    try {
+      // One input, with its sha256 and first start (the audit trail names the file once, not once per start).
+      const rows = db.prepare('SELECT source, reference_time, length(sha256) AS n FROM input_files WHERE path = ?').all(all);
+      expect(rows).toEqual([{ source: 'short hindcast', reference_time: '2006-11-26T00:00:00Z', n: 64 }]);
+    } finally {
+      db.close();
+    }
     expect(oneFile.capAlerts.map(({ region, indicator, msgType, stageId }) => [region, indicator, msgType, stageId])).toEqual(
       perStart.capAlerts.map(({ region, indicator, msgType, stageId }) => [region, indicator, msgType, stageId]),
     );
