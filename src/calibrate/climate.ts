@@ -57,8 +57,23 @@ export function stackYears(
   return { climate: { years: used.map((y) => y.year), members, leads: longest.leads.leads, units, values }, problems };
 }
 
-/** Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. */
+const samples = new WeakMap<LeadClimate, Map<string, Float64Array>>();
+
+/**
+ * Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. Computed once
+ * per climate, lead and left-out year (a lead's probability, base rate, threshold checks and terciles each ask for
+ * the same sample); the array is shared, so callers only read it.
+ */
 export function leadSample(c: LeadClimate, l: number, excludeYear?: number): Float64Array {
+  let byLead = samples.get(c);
+  if (!byLead) samples.set(c, (byLead = new Map()));
+  const key = `${l} ${excludeYear ?? ''}`;
+  let sample = byLead.get(key);
+  if (!sample) byLead.set(key, (sample = sortedLeadSample(c, l, excludeYear)));
+  return sample;
+}
+
+function sortedLeadSample(c: LeadClimate, l: number, excludeYear: number | undefined): Float64Array {
   const nLeads = c.leads.length;
   const out = new Float64Array(c.years.length * c.members).fill(Number.NaN);
   for (let y = 0; y < c.years.length; y++) {

@@ -20,8 +20,8 @@ import { buildIndicatorClimate, observedContext, type CalibrateContext, type Ind
 import { tierPairs, type StartReduction } from './start-reduction.ts';
 import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
-/** 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). */
-export const SKILL_CACHE_VERSION = 10;
+/** 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). 11: lead values as base64 doubles. */
+export const SKILL_CACHE_VERSION = 11;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {
@@ -61,15 +61,22 @@ export async function skillCacheKey(input: {
 
 const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
 const NON_FINITE: Readonly<Record<string, number>> = { NaN, Infinity, '-Infinity': -Infinity };
-const decode = (_k: string, v: unknown): unknown =>
-  v !== null &&
-  typeof v === 'object' &&
-  Object.keys(v).length === 1 &&
-  '$num' in v &&
-  typeof v.$num === 'string' &&
-  Object.hasOwn(NON_FINITE, v.$num)
-    ? NON_FINITE[v.$num]
-    : v;
+/**
+ * `value` (parsed JSON) with every {"$num": "NaN" | "Infinity" | "-Infinity"} turned back into its number, bottom-up
+ * as a JSON.parse reviver would, but in place: a reviver called for each of the millions of values of an entry took
+ * longer than the parse. Any other {"$num": …} stays an object, so the shape check refuses it.
+ */
+function decode(value: unknown): unknown {
+  if (Array.isArray(value)) {
+    for (let i = 0; i < value.length; i++) if (value[i] !== null && typeof value[i] === 'object') value[i] = decode(value[i]);
+    return value;
+  }
+  if (!isRecord(value)) return value;
+  for (const k of Object.keys(value)) value[k] = decode(value[k]);
+  const keys = Object.keys(value);
+  const num = value.$num;
+  return keys.length === 1 && typeof num === 'string' && Object.hasOwn(NON_FINITE, num) ? NON_FINITE[num] : value;
+}
 
 /**
  * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as read back (non-finite
@@ -89,7 +96,7 @@ export async function cachedSkill<T>(
     return null;
   });
   if (text !== null) {
-    const checked = parseShaped(text, shape, decode);
+    const checked = parseShaped(text, (parsed) => shape(decode(parsed)));
     if (checked.ok) return { value: checked.value, fromCache: true, note };
     note = `skill cache entry ${file} unreadable (${checked.why}); recomputed`;
   }

@@ -25,8 +25,8 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   run: {
     summary: 'one pass now over the newest inputs: read, compute, decide, render, deliver',
-    usage: 'forelight run [--config FILE] [--date YYYY-MM-DD] [--force] [--dry-run] [--cluster redis://HOST:PORT]',
-    spec: { values: ['config', 'date', 'cluster'], flags: ['force', 'dry-run'] },
+    usage: 'forelight run [--config FILE]... [--date YYYY-MM-DD] [--force] [--dry-run] [--cluster redis://HOST:PORT]',
+    spec: { values: ['config', 'date', 'cluster'], flags: ['force', 'dry-run'], repeatable: ['config'] },
     run: async (a) => (await import('./commands/run.ts')).runCommand(a),
   },
   check: {
@@ -93,8 +93,8 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   serve: {
     summary: 'service mode: run on the configured schedule until stopped (SIGTERM)',
-    usage: 'forelight serve [--config FILE] [--cluster redis://HOST:PORT]',
-    spec: { values: ['config', 'cluster'], flags: [] },
+    usage: 'forelight serve [--config FILE]... [--cluster redis://HOST:PORT]',
+    spec: { values: ['config', 'cluster'], flags: [], repeatable: ['config'] },
     run: async (a) => (await import('./commands/serve.ts')).serveCommand(a),
   },
   ledger: {
