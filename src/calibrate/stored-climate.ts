@@ -46,6 +46,7 @@ const storedLeadClimate = {
         },
         units: { type: 'string' },
         values: { type: 'array', items: num },
+        recentreOn: { type: 'integer' },
       },
       required: ['years', 'members', 'leads', 'units', 'values'],
     },
