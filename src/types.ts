@@ -62,6 +62,20 @@ export interface RegionSeries {
   readonly weighting?: 'population';
   /** Every cell's own series, for indicators whose region value is a share above a level (absent otherwise). */
   readonly perCell?: CellSeries;
+  /** Daily data of a model-calendar file: its calendar and the model date of each day (absent for Gregorian files). */
+  readonly modelCalendar?: ModelDays;
+}
+
+/** CF 1.11 §4.4.1 calendars whose dates differ from the Gregorian ones (`noleap` also stands for `365_day`). */
+export type ModelCalendarName = 'julian' | 'noleap' | 'all_leap' | '360_day';
+
+/**
+ * Daily data in a model calendar (src/read/DECISIONS.md §3): `days[i]` is the model-calendar date (`YYYY-MM-DD`)
+ * of the series' i-th local day, so that month leads are the model's months.
+ */
+export interface ModelDays {
+  readonly calendar: ModelCalendarName;
+  readonly days: readonly string[];
 }
 
 /** The cells of a region one by one: weights (area or people, summing to 1) and [cell][member][day] values. */
@@ -97,6 +111,8 @@ export interface IndicatorSeries {
   readonly missing: number;
   /** 1 where a value lies beyond the formula's published table and was capped there (heat index), member-major. */
   readonly beyondTable?: Uint8Array;
+  /** The inputs' model calendar (RegionSeries.modelCalendar); absent for Gregorian data. */
+  readonly modelCalendar?: ModelDays;
 }
 
 /** One lead of a tier: the local days it speaks for. */
@@ -107,6 +123,8 @@ export interface LeadWindow {
   /** First and last local day covered (inclusive). */
   readonly start: IsoDate;
   readonly end: IsoDate;
+  /** A month lead of daily data in a model calendar: the model month (`YYYY-MM`) it is; absent otherwise. */
+  readonly modelMonth?: string;
 }
 
 /** A threshold with its units and where it came from. */

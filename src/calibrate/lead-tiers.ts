@@ -7,13 +7,16 @@
  * - `months`: calendar months, as seasonal bulletins speak of them ("December"). Month 1 is the first calendar
  *   month whose 1st day is a lead day (issued 2026-11-26 → month 1 = December 2026). The partial month holding
  *   the issue date is not a month lead (the day and week tiers speak for it); a month is a lead only when the
- *   series covers its last day.
+ *   series covers its last day. Daily data of a model calendar (`modelCalendar`, src/read/DECISIONS.md §3) takes
+ *   the model's months (a 360_day month is 30 model days), each lead shown by its real first and last days and
+ *   named by its model month (`LeadWindow.modelMonth`).
  * A member's value for a lead is NaN when fewer than MIN_VALID_FRACTION of the window's days are valid
  * (mean, max) — common practice, no source — and for `sum` (counts of days) when any day is missing, because a
  * count with a missing day understates.
  */
 import { ForelightError } from '../core/errors.ts';
-import type { IndicatorSeries, IsoDate, LeadWindow, Tier } from '../types.ts';
+import { daysInCalendarMonth } from '../read/cf-time.ts';
+import type { IndicatorSeries, IsoDate, LeadWindow, ModelDays, Tier } from '../types.ts';
 
 export const MIN_VALID_FRACTION = 0.75;
 export const DEFAULT_MAX_LEADS: Readonly<Record<Tier, number>> = { days: Infinity, weeks: 6, months: Infinity };
@@ -39,8 +42,30 @@ export interface LeadSpan {
   readonly to: number;
 }
 
-/** Lead windows of `tier` over consecutive local days (lead day 1 first); throws on a gap in the days. */
-export function buildLeadSpans(days: readonly IsoDate[], tier: Tier, maxLeads: number = DEFAULT_MAX_LEADS[tier]): LeadSpan[] {
+/** Month spans [from, to) over the model dates of consecutive days: whole model months only. */
+function modelMonthSpans(model: ModelDays): { from: number; to: number; month: string }[] {
+  const spans: { from: number; to: number; month: string }[] = [];
+  let from = model.days.findIndex((d) => d.endsWith('-01'));
+  while (from >= 0 && from < model.days.length) {
+    const [y, m] = model.days[from].split('-').map(Number);
+    const to = from + daysInCalendarMonth(model.calendar, y, m);
+    if (to > model.days.length) break;
+    spans.push({ from, to, month: model.days[from].slice(0, 7) });
+    from = to;
+  }
+  return spans;
+}
+
+/**
+ * Lead windows of `tier` over consecutive local days (lead day 1 first); `modelCalendar`: the model dates of
+ * those days, whose months are then the month leads. Throws on a gap in the days.
+ */
+export function buildLeadSpans(
+  days: readonly IsoDate[],
+  tier: Tier,
+  maxLeads: number = DEFAULT_MAX_LEADS[tier],
+  { modelCalendar }: { readonly modelCalendar?: ModelDays } = {},
+): LeadSpan[] {
   const nums = days.map(dayNumber);
   for (let i = 1; i < nums.length; i++) {
     if (nums[i] !== nums[i - 1] + 1) {
@@ -59,6 +84,9 @@ export function buildLeadSpans(days: readonly IsoDate[], tier: Tier, maxLeads: n
     for (let i = 0; i < days.length && spans.length < maxLeads; i++) push(i, i + 1);
   } else if (tier === 'weeks') {
     for (let from = 0; from + 7 <= days.length && spans.length < maxLeads; from += 7) push(from, from + 7);
+  } else if (modelCalendar) {
+    for (const { from, to, month } of modelMonthSpans(modelCalendar).slice(0, maxLeads))
+      spans.push({ lead: { tier, index: spans.length + 1, start: days[from], end: days[to - 1], modelMonth: month }, from, to });
   } else {
     let from = days.findIndex((d) => d.endsWith('-01'));
     while (from >= 0 && from < days.length && spans.length < maxLeads) {
@@ -84,7 +112,7 @@ export interface LeadValues {
 
 /** Aggregate daily values (member-major [member][day]) to the leads of `tier` by mean, max or sum. */
 export function aggregateToLeads(series: IndicatorSeries, tier: Tier, how: 'mean' | 'max' | 'sum', maxLeads?: number): LeadValues {
-  const spans = buildLeadSpans(series.days, tier, maxLeads);
+  const spans = buildLeadSpans(series.days, tier, maxLeads, { modelCalendar: series.modelCalendar });
   const nDays = series.days.length;
   const nLeads = spans.length;
   const values = new Float64Array(series.members * nLeads);
@@ -160,6 +188,11 @@ export function combineSources<T extends { readonly lead: LeadWindow }>(
     for (const key of claimedNow) claimed.set(key, src.source);
   }
   return { kept, dropped, rule: COMBINE_RULE };
+}
+
+/** The month (`MM`) a month lead speaks for: its model month in a model calendar, else that of its first day. */
+export function leadMonth(lead: LeadWindow): string {
+  return (lead.modelMonth ?? lead.start).slice(5, 7);
 }
 
 /** "day 3", "week 2", "month 1". */

@@ -78,9 +78,11 @@ export function observedIndicator(
   return result;
 }
 
+/** The observed series on the days of a hindcast's series (and its model calendar, so that month leads match). */
 function onDays(series: IndicatorSeries, like: IndicatorSeries): IndicatorSeries {
   const data = valuesOnDays(series, like.days);
-  return { ...series, days: like.days, members: 1, data, missing: data.filter(Number.isNaN).length };
+  const model = like.modelCalendar ? { modelCalendar: like.modelCalendar } : {};
+  return { ...series, days: like.days, members: 1, data, missing: data.filter(Number.isNaN).length, ...model };
 }
 
 /** Stage probabilities of the rules on this indicator × tier (for hit and false-alarm rates). */

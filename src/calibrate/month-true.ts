@@ -8,10 +8,10 @@
  * diagnostic says so. Common practice (no source): seasonal hindcasts are verified by target month.
  */
 import { diagnostic, type Diagnostic, type Place } from '../core/diagnostics.ts';
-import type { LeadValues } from './lead-tiers.ts';
+import { leadMonth, type LeadValues } from './lead-tiers.ts';
 
-/** Calendar month ("MM") of an entry's month 1, or '' when it has no month lead. */
-const firstMonth = (leads: LeadValues): string => leads.leads[0]?.start.slice(5, 7) ?? '';
+/** Calendar month ("MM") of an entry's month 1 (its model month in a model calendar), or '' when it has no month lead. */
+const firstMonth = (leads: LeadValues): string => (leads.leads[0] ? leadMonth(leads.leads[0]) : '');
 
 const yearsOf = (entries: readonly { year: number }[]): number => new Set(entries.map((e) => e.year)).size;
 

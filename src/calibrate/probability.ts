@@ -19,7 +19,7 @@
 import type { CalibrationConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadProbability, LeadWindow, SkillSummary, Threshold } from '../types.ts';
 import { distinctYears, leadSample, type LeadClimate } from './climate.ts';
-import { leadLabel, type LeadValues } from './lead-tiers.ts';
+import { leadLabel, leadMonth, type LeadValues } from './lead-tiers.ts';
 import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdObject } from './thresholds.ts';
 import { percentileLinear } from '../core/percentile.ts';
 import { degenerateThreshold } from './degenerate-threshold.ts';
@@ -68,7 +68,7 @@ function coverageProblem(req: ProbabilityRequest, l: number, lead: LeadWindow): 
   const hc = req.hindcast;
   if (!hc) return `no hindcasts for source ${req.source} — configure sources[].hindcast-files to calibrate`;
   if (l >= hc.leads.length || leadSample(hc, l).length === 0) return `hindcasts of ${req.source} do not cover ${leadLabel(lead)}`;
-  if (lead.tier === 'months' && hc.leads[l].start.slice(5, 7) !== lead.start.slice(5, 7)) {
+  if (lead.tier === 'months' && leadMonth(hc.leads[l]) !== leadMonth(lead)) {
     return `hindcast ${leadLabel(lead)} starts ${hc.leads[l].start}, the forecast's ${lead.start} (different calendar month) — use hindcast starts in the forecast's month`;
   }
   return null;

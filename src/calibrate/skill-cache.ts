@@ -19,7 +19,11 @@ import type { HindcastRead, IsoDate } from '../types.ts';
 import { buildIndicatorClimate, tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
 import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
-export const SKILL_CACHE_VERSION = 10;
+/**
+ * 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth).
+ * 11: trend-aware climates carry the year they are re-centred on (LeadClimate.recentreOn).
+ */
+export const SKILL_CACHE_VERSION = 11;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {

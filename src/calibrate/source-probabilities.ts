@@ -68,10 +68,14 @@ export function forecastIndicators(ctx: CalibrateContext, read: SourceForecast):
   return out;
 }
 
-/** Start of the forecast's lead 1 for a region × indicator (it decides which hindcast months are pooled), or null. */
+/**
+ * Start of the forecast's lead 1 for a region × indicator (it decides which hindcast months are pooled), or null;
+ * for a month lead of a model calendar, the model date of its first day (its model month is what is pooled).
+ */
 export function forecastLeadOne(forecast: ForecastIndicators, region: string, indicator: string): IsoDate | null {
   const f = forecast.get(pairKey(region, indicator));
-  return f && 'leads' in f ? (f.leads.leads[0]?.start ?? null) : null;
+  const lead = f && 'leads' in f ? f.leads.leads[0] : undefined;
+  return lead ? (lead.modelMonth !== undefined ? `${lead.modelMonth}-01` : lead.start) : null;
 }
 
 /** Probabilities of every region × indicator of one source (the source's tier), with the climates behind them. */

@@ -40,7 +40,13 @@ const storedLeadClimate = {
           type: 'array',
           items: {
             type: 'object',
-            properties: { tier: { enum: TIERS }, index: { type: 'integer' }, start: { type: 'string' }, end: { type: 'string' } },
+            properties: {
+              tier: { enum: TIERS },
+              index: { type: 'integer' },
+              start: { type: 'string' },
+              end: { type: 'string' },
+              modelMonth: { type: 'string' },
+            },
             required: ['tier', 'index', 'start', 'end'],
           },
         },

@@ -50,6 +50,7 @@ export function computeIndicator(
     data,
     outOfRange: out.outOfRange,
     ...(out.beyondTable ? { beyondTable: out.beyondTable } : {}),
+    ...(out.days === undefined && t.modelCalendar ? { modelCalendar: t.modelCalendar } : {}),
     missing: countNaN(data),
     notes: out.notes,
   };

@@ -8,8 +8,9 @@
  * (Julian Day Number from/to Julian and Gregorian dates).
  */
 import { UnitError } from '../core/errors.ts';
+import type { ModelCalendarName } from '../types.ts';
 
-export type CfCalendar = 'standard' | 'proleptic_gregorian' | 'julian' | 'noleap' | 'all_leap' | '360_day';
+export type CfCalendar = 'standard' | 'proleptic_gregorian' | ModelCalendarName;
 
 const CALENDAR_ALIASES: Readonly<Record<string, CfCalendar>> = {
   standard: 'standard',
@@ -137,8 +138,8 @@ function jdnToDate(jdn: number, gregorian: boolean): [number, number, number] {
   return [100 * b + d - 4800 + Math.floor(m / 10), m + 3 - 12 * Math.floor(m / 10), e - Math.floor((153 * m + 2) / 5) + 1];
 }
 
-/** Day number of a date in `calendar` (any fixed origin per calendar). */
-function toDayNumber(calendar: CfCalendar, y: number, m: number, d: number): number {
+/** Day number of a date in `calendar` (any fixed origin per calendar): differences are elapsed days. */
+export function toDayNumber(calendar: CfCalendar, y: number, m: number, d: number): number {
   switch (calendar) {
     case 'proleptic_gregorian':
       return gregorianToJdn(y, m, d);
@@ -157,7 +158,8 @@ function toDayNumber(calendar: CfCalendar, y: number, m: number, d: number): num
   }
 }
 
-function fromDayNumber(calendar: CfCalendar, n: number): [number, number, number] {
+/** The date (year, month, day) of a day number of `toDayNumber`. */
+export function fromDayNumber(calendar: CfCalendar, n: number): [number, number, number] {
   switch (calendar) {
     case 'proleptic_gregorian':
       return jdnToDate(n, true);

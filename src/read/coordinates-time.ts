@@ -9,7 +9,8 @@
  * Lead times (CF §4.4 forecast_period) are plain durations.
  */
 import { InputError, UnitError } from '../core/errors.ts';
-import { calendarSeconds, decodeTimes, secondsPerUnit, type CfCalendar, type CfDateTime } from './cf-time.ts';
+import type { ModelCalendarName } from '../types.ts';
+import { calendarSeconds, decodeTimes, fromDayNumber, secondsPerUnit, toDayNumber, type CfCalendar, type CfDateTime } from './cf-time.ts';
 
 /** Length in ms of a duration unit ("hours", "days", …) of a lead-time coordinate (the units of cf-time.ts). */
 export function durationUnitMs(units: string, file: string, variable: string): number {
@@ -23,6 +24,12 @@ export function durationUnitMs(units: string, file: string, variable: string): n
     );
   }
   return seconds * 1000;
+}
+
+/** A model calendar of a file and the model date of a real (local) day `YYYY-MM-DD`. */
+export interface FileModelCalendar {
+  readonly calendar: ModelCalendarName;
+  dayOf(realDay: string): string;
 }
 
 const GREGORIAN: readonly CfCalendar[] = ['standard', 'proleptic_gregorian'];
@@ -63,10 +70,32 @@ export class TimeMapper {
     return line.seconds.map((s) => Math.round(anchor!.ms + (s - anchor!.seconds) * 1000));
   }
 
+  /**
+   * The file's model calendar and the model date (`YYYY-MM-DD`) of a real (local) day, or null for Gregorian
+   * files. Every CF day has 86 400 s and the anchor keeps its time of day, so the model and real dates of one
+   * instant differ by a fixed number of days, in UTC and in any local clock alike.
+   */
+  modelCalendar(): FileModelCalendar | null {
+    const [anchor, calendar] = [this.anchor, this.calendar];
+    if (!anchor || calendar === null || calendar === 'standard' || calendar === 'proleptic_gregorian') return null;
+    const real = new Date(anchor.ms);
+    const gregorianDay = (y: number, m: number, d: number) => toDayNumber('proleptic_gregorian', y, m, d);
+    const shift =
+      toDayNumber(calendar, anchor.date.year, anchor.date.month, anchor.date.day) -
+      gregorianDay(real.getUTCFullYear(), real.getUTCMonth() + 1, real.getUTCDate());
+    const pad = (n: number, w = 2) => String(n).padStart(w, '0');
+    const dayOf = (realDay: string): string => {
+      const [y, m, d] = realDay.split('-').map(Number);
+      const [my, mm, md] = fromDayNumber(calendar, gregorianDay(y, m, d) + shift);
+      return `${pad(my, 4)}-${pad(mm)}-${pad(md)}`;
+    };
+    return { calendar, dayOf };
+  }
+
   /** How model-calendar times were placed (for run.json notes), or null for Gregorian files. */
   note(): string | null {
     if (!this.anchor || this.calendar === null || GREGORIAN.includes(this.calendar)) return null;
     const real = new Date(this.anchor.ms).toISOString().slice(0, 10);
-    return `times in the ${this.calendar} calendar are placed on real dates by elapsed time from ${this.anchor.date.toIsoDate()} (model) = ${real} (real), so lead days and weeks are the model's`;
+    return `times in the ${this.calendar} calendar are placed on real dates by elapsed time from ${this.anchor.date.toIsoDate()} (model) = ${real} (real), so lead days, weeks and months are the model's (a month lead is a month of the ${this.calendar} calendar, shown by its real dates)`;
   }
 }

@@ -7,8 +7,9 @@
  */
 import { InputError, UnitError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
-import { durationUnitMs, TimeMapper } from './coordinates-time.ts';
-import { decodeTimes } from './cf-time.ts';
+import { durationUnitMs, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
+import { decodeTimes, type CfDateTime } from './cf-time.ts';
+import { countsMonths, isMonthIndex, monthLeadAxis } from './lead-months.ts';
 import { detectMonths, type MonthSteps } from './monthly.ts';
 import { decodeCf } from './cf-decode.ts';
 
@@ -45,6 +46,8 @@ export interface FileCoordinates {
   readonly member: { readonly dimension: string; readonly size: number } | null;
   /** How model-calendar times were placed on real dates (coordinates-time.ts), or null for Gregorian files. */
   readonly calendarNote: string | null;
+  /** The model calendar and the model date of a real local day (coordinates-time.ts), or null for Gregorian files. */
+  readonly modelCalendar: FileModelCalendar | null;
 }
 
 /** Where each coordinate sits among a data variable's dimensions (-1 = absent). */
@@ -235,28 +238,31 @@ async function monthsOf(
 }
 
 /**
- * Model months of a lead axis (forecast_period in hours or days, monthly bounds or mid-month steps): the leads
- * counted from the reference time in the reference's own calendar (its `calendar`, else the Gregorian one for an
- * ISO 8601 reference attribute), then judged as for an absolute axis (monthly.ts).
+ * The reference time as a date of its own calendar (the `calendar` of `forecast_reference_time`; the Gregorian
+ * date of an ISO 8601 reference attribute), from which lead axes count model days and months.
  */
-async function leadMonthsOf(
-  ds: Dataset,
+async function referenceOrigin(ds: Dataset, referenceMs: number): Promise<CfDateTime> {
+  const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+  if (ref) return decodeTimes(await readWhole(ds, ref), attr(ref, 'units') ?? '', attr(ref, 'calendar'))[0];
+  return decodeTimes([referenceMs / 1000], 'seconds since 1970-01-01 00:00:00')[0];
+}
+
+/**
+ * Model months of a lead axis (forecast_period in hours or days, monthly bounds or mid-month steps): the leads
+ * counted from the reference time in the reference's own calendar, then judged as for an absolute axis (monthly.ts).
+ */
+function leadMonthsOf(
   lead: VariableInfo,
   leads: Float64Array,
   bounds: Float64Array | null,
+  origin: CfDateTime,
   referenceMs: number,
   stampsMs: Float64Array,
-): Promise<MonthSteps | null> {
-  const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
-  const calendar = ref ? attr(ref, 'calendar') : undefined;
-  const origin = ref ? decodeTimes(await readWhole(ds, ref), attr(ref, 'units') ?? '', calendar)[0] : null;
-  const pad = (n: number) => String(n).padStart(2, '0');
-  const since = origin
-    ? `${origin.year}-${pad(origin.month)}-${pad(origin.day)} ${pad(origin.hour)}:${pad(origin.minute)}:${pad(Math.floor(origin.second))}`
-    : new Date(referenceMs).toISOString().slice(0, 19).replace('T', ' ');
-  const units = `${(attr(lead, 'units') ?? '').trim()} since ${since}`;
+): MonthSteps | null {
+  const since = `${attr(lead, 'units') ?? ''} since ${origin.toIsoString().replace('T', ' ')}`;
   try {
-    return detectMonths(decodeTimes(leads, units, calendar), bounds && decodeTimes(bounds, units, calendar), referenceMs, stampsMs);
+    const decode = (values: Float64Array) => decodeTimes(values, since, origin.calendar);
+    return detectMonths(decode(leads), bounds && decode(bounds), referenceMs, stampsMs);
   } catch (err) {
     if (err instanceof UnitError) return null; // a lead unit CF time units do not spell (e.g. "h"): daily steps, as read before
     throw err;
@@ -264,19 +270,30 @@ async function leadMonthsOf(
 }
 
 async function findTime(ds: Dataset, referenceMs: number | null, mapper: TimeMapper): Promise<TimeAxis | null> {
-  const lead = ds.variables.find(isLead);
+  const lead = ds.variables.find((v) => isLead(v) || isMonthIndex(v));
+  const inMonths = lead !== undefined && (isMonthIndex(lead) || countsMonths(lead));
+  if (lead && inMonths && referenceMs === null) {
+    throw new InputError(
+      'time-missing',
+      ds.path,
+      `lead '${lead.name}' counts months but the file states no forecast reference time to count them from`,
+      'add a forecast_reference_time variable or a global forecast_reference_time attribute (ISO 8601)',
+    );
+  }
   if (lead && referenceMs !== null) {
-    const unitMs = durationUnitMs(attr(lead, 'units') ?? '', ds.path, lead.name);
-    const toMs = (values: Float64Array): Float64Array => values.map((x) => Math.round(referenceMs + x * unitMs));
+    const origin = await referenceOrigin(ds, referenceMs);
     const bounds = await readBounds(ds, lead, lead.shape[0]);
     const leads = await readWhole(ds, lead);
+    if (inMonths) return monthLeadAxis(ds.path, lead, leads, bounds, origin, referenceMs);
+    const unitMs = durationUnitMs(attr(lead, 'units') ?? '', ds.path, lead.name);
+    const toMs = (values: Float64Array): Float64Array => values.map((x) => Math.round(referenceMs + x * unitMs));
     const stampsMs = toMs(leads);
     return {
       dimension: lead.dimensions[0],
       variable: lead.name,
       stampsMs,
       boundsMs: bounds && toMs(bounds),
-      months: await leadMonthsOf(ds, lead, leads, bounds, referenceMs, stampsMs),
+      months: leadMonthsOf(lead, leads, bounds, origin, referenceMs, stampsMs),
     };
   }
   const candidates = ds.variables.filter((v) => v.dimensions.length === 1 && isTimeLike(v) && !isReference(v) && !isLead(v));
@@ -315,7 +332,15 @@ export async function findCoordinates(ds: Dataset): Promise<FileCoordinates> {
   const mapper = new TimeMapper();
   const referenceMs = await findReference(ds, mapper);
   const time = await findTime(ds, referenceMs, mapper);
-  return { file: ds.path, grid, time, referenceMs, member: findMember(ds), calendarNote: mapper.note() };
+  return {
+    file: ds.path,
+    grid,
+    time,
+    referenceMs,
+    member: findMember(ds),
+    calendarNote: mapper.note(),
+    modelCalendar: mapper.modelCalendar(),
+  };
 }
 
 /**

@@ -57,6 +57,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   const coords = await findCoordinates(ds);
   const wanted = requestedMs(ds.path, request.referenceTime);
   const notes = coords.calendarNote ? [`${ds.path}: ${coords.calendarNote}`] : [];
+  const model = coords.modelCalendar;
   const {
     selected,
     cellRegions,
@@ -130,6 +131,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
           cells: cells.weights.length,
           provenance: { file: ds.path, variable, referenceTime: isoInstant(refMs) },
           ...(region.weighting === 'population' ? { weighting: 'population' as const } : {}),
+          ...(model && !months ? { modelCalendar: { calendar: model.calendar, days: mean.labels.map(model.dayOf) } } : {}),
           ...(region.keepCells ? { perCell: cellSeriesOf(cells.weights, all, selected.length, cellRegions, k) } : {}),
         });
       });

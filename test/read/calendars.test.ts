@@ -88,10 +88,14 @@ describe('a 360-day seasonal forecast and its hindcast compare at the same lead'
     expect(hc.days[0]).toBe('1996-11-01');
     expect(fc.days).toHaveLength(75);
     for (const tier of ['days', 'weeks', 'months'] as const) {
-      const spans = (s: RegionSeries) => buildLeadSpans(s.days, tier).map((l) => [l.lead.index, l.from, l.to]);
+      const spans = (s: RegionSeries) =>
+        buildLeadSpans(s.days, tier, undefined, { modelCalendar: s.modelCalendar }).map((l) => [l.lead.index, l.from, l.to]);
       expect(spans(hc)).toEqual(spans(fc));
     }
-    expect(buildLeadSpans(fc.days, 'months').map((l) => l.lead.start)).toEqual(['2026-11-01', '2026-12-01']);
+    expect(buildLeadSpans(fc.days, 'months', undefined, { modelCalendar: fc.modelCalendar }).map((l) => l.lead.start)).toEqual([
+      '2026-11-01',
+      '2026-12-01',
+    ]);
   });
 });
 
