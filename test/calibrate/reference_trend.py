@@ -4,8 +4,8 @@
 Reads JSON from stdin: {"years": [...] (one per entry), "values": [[[...]]] (entry x member x lead, null =
 missing), "target": issue year, "q": percentile}. Per lead, numpy.polyfit(year, value, 1) over every valid
 (entry year, member value) pair gives the slope b; the values moved to the target year are x + b (target - year).
-Writes {"slope": [b per lead], "threshold": [numpy.percentile(method='linear') of the moved values per lead],
-"loyo": [[per held-out year: polyfit without that year, the other years moved to it,
+Writes {"slope": b, "threshold": [numpy.percentile(method='linear') of the moved values per lead],
+"loyo": [[per held-out year: lstsq without that year, the other years moved to it,
 numpy.percentile(method='weibull')] per lead]}.
 Run by test/calibrate/trend-climate.test.ts as: /usr/bin/python3 test/calibrate/reference_trend.py < input.json
 """
@@ -23,24 +23,35 @@ n_entries, n_members, n_leads = values.shape
 year_of = np.repeat(years, n_members).reshape(n_entries, n_members)
 
 
-def moved(lead, keep, to):
+def slope_of(keep):
+    rows, ys = [], []
+    for lead in range(n_leads):
+        x = year_of[keep].ravel()
+        y = values[keep, :, lead].ravel()
+        ok = ~np.isnan(y)
+        for year, v in zip(x[ok], y[ok]):
+            row = np.zeros(n_leads + 1)
+            row[lead] = 1.0
+            row[n_leads] = year
+            rows.append(row)
+            ys.append(v)
+    coef = np.linalg.lstsq(np.asarray(rows), np.asarray(ys), rcond=None)[0]
+    return coef[n_leads]
+
+
+def moved(lead, keep, to, slope):
     x = year_of[keep].ravel()
     y = values[keep, :, lead].ravel()
     ok = ~np.isnan(y)
-    slope = np.polyfit(x[ok], y[ok], 1)[0]
-    shifted = y[ok] + slope * (to - x[ok])
-    return slope, shifted
+    return y[ok] + slope * (to - x[ok])
 
 
-slopes, thresholds, loyo = [], [], []
-for lead in range(n_leads):
-    everything = np.ones(n_entries, dtype=bool)
-    slope, shifted = moved(lead, everything, target)
-    slopes.append(float(slope))
-    thresholds.append(float(np.percentile(shifted, q, method="linear")))
-    per_year = []
-    for year in years:
-        _, others = moved(lead, years != year, year)
-        per_year.append(float(np.percentile(others, q, method="weibull")))
-    loyo.append(per_year)
-json.dump({"slope": slopes, "threshold": thresholds, "loyo": loyo}, sys.stdout)
+everything = np.ones(n_entries, dtype=bool)
+slope = slope_of(everything)
+without = {year: slope_of(years != year) for year in years}
+thresholds = [float(np.percentile(moved(lead, everything, target, slope), q, method="linear")) for lead in range(n_leads)]
+loyo = [
+    [float(np.percentile(moved(lead, years != year, year, without[year]), q, method="weibull")) for year in years]
+    for lead in range(n_leads)
+]
+json.dump({"slope": float(slope), "threshold": thresholds, "loyo": loyo}, sys.stdout)
