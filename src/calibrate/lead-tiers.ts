@@ -15,7 +15,7 @@
  * count with a missing day understates.
  */
 import { ForelightError } from '../core/errors.ts';
-import { daysInCalendarMonth } from '../read/cf-time.ts';
+import { daysInCalendarMonth } from '../core/calendar-days.ts';
 import type { IndicatorSeries, IsoDate, LeadWindow, ModelDays, Tier } from '../types.ts';
 
 export const MIN_VALID_FRACTION = 0.75;

@@ -1,7 +1,8 @@
 /**
  * Model climate and skill of one source × region × indicator: the indicator computed on every hindcast start
- * and on the observations for the same days, aggregated to the source's tier, then verified (skill per lead)
- * and, for rules that give a cost/loss ratio, the trigger of maximum economic value judged out of sample.
+ * and on the observations for the same days, aggregated to the source's tier (one start at a time,
+ * start-reduction.ts), then stacked, verified (skill per lead) and, for rules that give a cost/loss ratio, the
+ * trigger of maximum economic value judged out of sample.
  */
 import type { Config, IndicatorConfig, RegionConfig, SourceConfig } from '../config/types.ts';
 import { formatDiagnostic, within, type Diagnostic } from '../core/diagnostics.ts';
@@ -10,13 +11,14 @@ import type { ChecksumMemo } from '../core/file-checksums.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { IndicatorClimatology } from '../indicators/compute.ts';
 import { indicatorInputs, regionIndicator } from './region-indicator.ts';
-import type { HindcastRead, IndicatorSeries, IsoDate, RegionQuantities } from '../types.ts';
+import type { IndicatorSeries, IsoDate, RegionQuantities } from '../types.ts';
 import { stackYears, type LeadClimate } from './climate.ts';
 import { sameLeadMonths } from './month-true.ts';
 import { atForecastStart } from './start-anomalies.ts';
-import { indicatorContext, valuesOnDays } from './indicator-context.ts';
-import { aggregateToLeads, type LeadValues } from './lead-tiers.ts';
+import { indicatorContext } from './indicator-context.ts';
+import type { LeadValues } from './lead-tiers.ts';
 import { leadCases, skillReports, type SkillReport } from './skill.ts';
+import { isSeries, type ObservedContext, type StartReduction } from './start-reduction.ts';
 import { resolveThresholdSpec } from './thresholds.ts';
 import { tuneTrigger, type TunedTrigger } from './trigger-tuning.ts';
 
@@ -47,15 +49,6 @@ export interface CalibrateContext {
   readonly checksums: ChecksumMemo;
 }
 
-/** The region × indicator pairs of a tier (every region, each indicator computed on that tier). */
-export function tierPairs(config: Pick<Config, 'regions' | 'indicators'>, tier: string): { region: RegionConfig; ind: IndicatorConfig }[] {
-  return config.regions.flatMap((region) =>
-    config.indicators.filter((ind) => ind.tiers.some((t) => t === tier)).map((ind) => ({ region, ind })),
-  );
-}
-
-const isSeries = (v: IndicatorSeries | Diagnostic | null): v is IndicatorSeries => v !== null && 'data' in v;
-
 export function observedIndicator(
   ind: IndicatorConfig,
   region: RegionConfig,
@@ -78,11 +71,14 @@ export function observedIndicator(
   return result;
 }
 
-/** The observed series on the days of a hindcast's series (and its model calendar, so that month leads match). */
-function onDays(series: IndicatorSeries, like: IndicatorSeries): IndicatorSeries {
-  const data = valuesOnDays(series, like.days);
-  const model = like.modelCalendar ? { modelCalendar: like.modelCalendar } : {};
-  return { ...series, days: like.days, members: 1, data, missing: data.filter(Number.isNaN).length, ...model };
+/** The observations of a run as the reduction of a hindcast start uses them (observed indicators computed once per pair). */
+export function observedContext(ctx: Pick<CalibrateContext, 'observed' | 'climatology' | 'observedMemo'>): ObservedContext {
+  return {
+    observed: ctx.observed,
+    climatology: ctx.climatology,
+    observedIndicator: (ind, region) =>
+      observedIndicator(ind, region, ctx.observed, ctx.climatology.get(region.id) ?? {}, ctx.observedMemo),
+  };
 }
 
 /** Stage probabilities of the rules on this indicator × tier (for hit and false-alarm rates). */
@@ -131,44 +127,40 @@ function issueYearOf(entries: readonly { year: number; leads: LeadValues }[], fo
 }
 
 /**
- * Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator,
- * for a forecast whose lead 1 begins on `forecastLeadOne` (it decides the months pooled, and the start day and week
- * climates are moved to; null when the forecast has none).
+ * Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator from
+ * its hindcast starts' reductions (start-reduction.ts, in start order), for a forecast whose lead 1 begins on
+ * `forecastLeadOne` (it decides the months pooled, and the start day and week climates are moved to; null when the
+ * forecast has none).
  */
 export function buildIndicatorClimate(
   config: CalibrateConfig,
   source: SourceConfig,
   region: RegionConfig,
   ind: IndicatorConfig,
-  hindcasts: readonly HindcastRead[],
-  observed: RegionQuantities | null,
-  climatology: IndicatorClimatology,
-  memo: ObservedIndicators,
+  starts: readonly StartReduction[],
+  context: ObservedContext,
   forecastLeadOne: IsoDate | null,
 ): IndicatorClimate {
   const problems: Diagnostic[] = [];
   const tier = source.tier;
   const place = { source: source.id, region: region.id, indicator: ind.id };
-  const obsSeries = observedIndicator(ind, region, observed, climatology, memo);
+  const obsSeries = context.observedIndicator(ind, region);
   if (obsSeries && !isSeries(obsSeries)) problems.push(obsSeries);
   const failures = new Map<string, { first: Diagnostic; files: number }>();
   const hcYears: { year: number; leads: LeadValues }[] = [];
   const obsYears: { year: number; leads: LeadValues }[] = [];
   let units = '';
-  for (const h of hindcasts) {
-    const inputs = indicatorInputs(h.series, region.id, ind);
-    if (!inputs) continue;
-    try {
-      const first = [...inputs.values()][0]?.days[0];
-      const result = regionIndicator(ind, inputs, region.id, indicatorContext(climatology, observed?.get(region.id), first));
-      units = result.units;
-      hcYears.push({ year: h.year, leads: aggregateToLeads(result, tier, ind.aggregate) });
-      if (isSeries(obsSeries)) obsYears.push({ year: h.year, leads: aggregateToLeads(onDays(obsSeries, result), tier, ind.aggregate) });
-    } catch (err) {
-      const first = diagnosticOf(err, 'hindcast-skipped');
-      const text = formatDiagnostic(first);
-      failures.set(text, { first: failures.get(text)?.first ?? first, files: (failures.get(text)?.files ?? 0) + 1 });
+  for (const start of starts) {
+    const pair = start.pairs.get(pairKey(region.id, ind.id));
+    if (!pair) continue;
+    if ('failure' in pair) {
+      const text = formatDiagnostic(pair.failure);
+      failures.set(text, { first: failures.get(text)?.first ?? pair.failure, files: (failures.get(text)?.files ?? 0) + 1 });
+      continue;
     }
+    units = pair.units;
+    hcYears.push({ year: start.year, leads: pair.hindcast });
+    if (pair.observed) obsYears.push({ year: start.year, leads: pair.observed });
   }
   for (const { first, files } of failures.values())
     problems.push(within(first, `${files} hindcast file(s) of ${source.id}, region ${region.id}`, place));

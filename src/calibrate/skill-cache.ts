@@ -15,8 +15,9 @@ import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
 import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { SourceConfig } from '../config/types.ts';
-import type { HindcastRead, IsoDate } from '../types.ts';
-import { buildIndicatorClimate, tierPairs, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
+import type { IsoDate } from '../types.ts';
+import { buildIndicatorClimate, observedContext, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
+import { tierPairs, type StartReduction } from './start-reduction.ts';
 import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
 /**
@@ -107,15 +108,15 @@ function rasterChecksum(ctx: CalibrateContext, file: string): Promise<string> {
 
 /**
  * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
- * observation files, the configuration and the forecast's lead 1 are unchanged, else `readHindcasts()` and
- * `buildIndicatorClimate`, stored. `forecastLeadOne(region, indicator)` is the first day of the forecast's lead 1
+ * observation files, the configuration and the forecast's lead 1 are unchanged, else `reduceStarts()` (every
+ * hindcast start read and reduced, in start order) and `buildIndicatorClimate`, stored. `forecastLeadOne(region, indicator)` is the first day of the forecast's lead 1
  * of that pair (null without one).
  */
 export async function cachedClimates(
   ctx: CalibrateContext,
   source: SourceConfig,
   hindcastFiles: readonly string[],
-  readHindcasts: () => Promise<readonly HindcastRead[]>,
+  reduceStarts: () => Promise<readonly StartReduction[]>,
   forecastLeadOne: (region: string, indicator: string) => IsoDate | null,
 ): Promise<{ climates: Map<PairKey, IndicatorClimate>; fromCache: boolean; cacheNote: string }> {
   const { config } = ctx;
@@ -136,20 +137,10 @@ export async function cachedClimates(
     memo: ctx.checksums,
   });
   const compute = async (): Promise<StoredClimate[]> => {
-    const hindcasts = await readHindcasts();
+    const starts = await reduceStarts();
+    const observed = observedContext(ctx);
     return tierPairs(config, source.tier).map(({ region, ind }): StoredClimate => {
-      const climatology = ctx.climatology.get(region.id) ?? {};
-      const c = buildIndicatorClimate(
-        config,
-        source,
-        region,
-        ind,
-        hindcasts,
-        ctx.observed,
-        climatology,
-        ctx.observedMemo,
-        forecastLeadOne(region.id, ind.id),
-      );
+      const c = buildIndicatorClimate(config, source, region, ind, starts, observed, forecastLeadOne(region.id, ind.id));
       return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
     });
   };

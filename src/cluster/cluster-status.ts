@@ -1,7 +1,7 @@
 /** What `forelight status --cluster URL` shows: the workers connected, the queue's job counts and the latest failures. */
 import { Queue } from 'bullmq';
 import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
-import type { ExtractJob, WireResult } from './wire.ts';
+import type { ClusterAnswer, ClusterJob } from './coordinator.ts';
 
 export interface ClusterStatus {
   readonly url: string;
@@ -12,7 +12,7 @@ export interface ClusterStatus {
 
 export async function clusterStatus(url: string): Promise<ClusterStatus> {
   const client = redisClient(url);
-  const queue = new Queue<ExtractJob, WireResult>(EXTRACT_QUEUE, { connection: client });
+  const queue = new Queue<ClusterJob, ClusterAnswer>(EXTRACT_QUEUE, { connection: client });
   try {
     const [workers, counts, failed] = await Promise.all([
       queue.getWorkers(),
@@ -25,7 +25,7 @@ export async function clusterStatus(url: string): Promise<ClusterStatus> {
       counts: counts as ClusterStatus['counts'],
       failed: failed.map((j) => ({
         id: j.id ?? '?',
-        path: j.data.path,
+        path: 'path' in j.data ? j.data.path : j.data.start.path,
         reason: j.failedReason,
         at: new Date(j.finishedOn ?? j.timestamp).toISOString(),
       })),

@@ -1,6 +1,7 @@
 /**
  * The coordinator's side of a cluster (`forelight run --cluster URL`, `forelight serve --cluster URL`): an `Extractor`
- * that hands each (file × region set) read to the workers as a BullMQ job on Redis and waits for its result.
+ * that hands each (file × region set) read to the workers as a BullMQ job on Redis and waits for its result, and a
+ * `StartReducer` that does the same for each hindcast start of a first-time climate build (start-jobs.ts).
  *
  * Jobs are idempotent and keyed by what they compute: the job id is the SHA-256 of the file's SHA-256 and the
  * request, so the same read asked twice (a resumed run, a second configuration on the same files) is one job, and a
@@ -12,14 +13,20 @@ import { Queue, QueueEvents } from 'bullmq';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
 import type { Logger } from '../core/log.ts';
+import type { StartOutcome, StartReducer, StartRequest } from '../pipeline/hindcast-starts.ts';
 import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.ts';
 import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
+import { fromWireStart, START_JOB, startInputs, startJobId, type WireStart } from './start-jobs.ts';
 import { fromWire, type ExtractJob, type WireResult } from './wire.ts';
 
 export interface ClusterClient {
   readonly extract: Extractor;
+  readonly reduceStart: StartReducer;
   close(): Promise<void>;
 }
+
+export type ClusterJob = ExtractJob | StartRequest;
+export type ClusterAnswer = WireResult | WireStart;
 
 export interface ClusterOptions {
   readonly log: Logger;
@@ -40,7 +47,7 @@ export function jobId(sha256: string, request: ExtractRequest): string {
 
 export async function connectCluster(url: string, options: ClusterOptions): Promise<ClusterClient> {
   const clients = [redisClient(url), redisClient(url)];
-  const queue = new Queue<ExtractJob, WireResult>(EXTRACT_QUEUE, { connection: clients[0] });
+  const queue = new Queue<ClusterJob, ClusterAnswer>(EXTRACT_QUEUE, { connection: clients[0] });
   const events = new QueueEvents(EXTRACT_QUEUE, { connection: clients[1] });
   const disconnect = (): void => {
     for (const c of clients) c.disconnect();
@@ -59,30 +66,24 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     );
   }
   const checksums = await openChecksumMemo(options.cacheDir);
+  // Every job waited for listens on the queue's closing: as many listeners as reads in flight.
+  queue.setMaxListeners((options.parallel ?? 64) * 2 + 10);
   const timeout = options.jobTimeoutMs ?? 30 * 60_000;
 
-  const extract = (async (path: string, request: ExtractRequest): Promise<ExtractResult> => {
-    // Every member file of a split forecast is part of what the job reads, so each one's checksum keys it.
-    const sums = [];
-    for (const p of [path, ...(request.moreMembers ?? [])]) sums.push(await checksums.sha256(p));
-    const id = jobId(sums.join(','), request);
+  /** The answer of job `id` (queued unless already there; a failed one is tried again, not remembered). */
+  const answer = async <A extends ClusterAnswer>(name: string, id: string, data: ClusterJob, path: string): Promise<A> => {
     const earlier = await queue.getJob(id);
-    if (earlier && (await earlier.isFailed())) await earlier.remove(); // a failed read is tried again, not remembered
-    const job = await queue.add(
-      'extract',
-      { path, request },
-      {
-        jobId: id,
-        attempts: 3,
-        backoff: { type: 'exponential', delay: 2000 },
-        removeOnComplete: { age: KEEP_DONE_S },
-        removeOnFail: { age: KEEP_DONE_S },
-      },
-    );
-    options.log.debug('extraction queued', { stage: 'read', job: id, path });
-    let wire: WireResult;
+    if (earlier && (await earlier.isFailed())) await earlier.remove();
+    const job = await queue.add(name, data, {
+      jobId: id,
+      attempts: 3,
+      backoff: { type: 'exponential', delay: 2000 },
+      removeOnComplete: { age: KEEP_DONE_S },
+      removeOnFail: { age: KEEP_DONE_S },
+    });
+    options.log.debug(`${name} queued`, { stage: 'read', job: id, path });
     try {
-      wire = (await job.waitUntilFinished(events, timeout)) as WireResult;
+      return (await job.waitUntilFinished(events, timeout)) as A;
     } catch (err) {
       throw new InputError(
         'read-failed',
@@ -91,14 +92,34 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
         `check the file and "forelight status --cluster ${shownUrl(url)}"; the other sources went on`,
       );
     }
+  };
+
+  const extract = (async (path: string, request: ExtractRequest): Promise<ExtractResult> => {
+    // Every member file of a split forecast is part of what the job reads, so each one's checksum keys it.
+    const sums = [];
+    for (const p of [path, ...(request.moreMembers ?? [])]) sums.push(await checksums.sha256(p));
+    const wire = await answer<WireResult>('extract', jobId(sums.join(','), request), { path, request }, path);
     const result = fromWire(wire);
     if (wire.thrown) throw result.problems[result.problems.length - 1];
     return result;
   }) as Extractor;
   Object.defineProperty(extract, 'parallel', { value: options.parallel ?? 64 });
 
+  const reduceStart = async (request: StartRequest): Promise<StartOutcome> => {
+    const path = request.start.path;
+    const sums = [];
+    for (const p of startInputs(request)) sums.push(await checksums.sha256(p).catch(() => 'unreadable'));
+    try {
+      return fromWireStart(await answer<WireStart>(START_JOB, startJobId(sums, request), request, path));
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      return { reduction: null, problems: [err] }; // as a start that cannot be read in this process
+    }
+  };
+
   return {
     extract,
+    reduceStart: Object.assign(reduceStart, { parallel: options.parallel ?? 64 }),
     close: async () => {
       await checksums.save();
       await Promise.allSettled([events.close(), queue.close()]);

@@ -11,10 +11,11 @@ import type { RegionSeries } from '../types.ts';
 
 export interface ExtractJob {
   readonly path: string;
+  /** Includes `startIndex` for one start of a file holding several, so the worker reads that slice (and the job key differs per start). */
   readonly request: ExtractRequest;
 }
 
-interface WireProblem {
+export interface WireProblem {
   /** An `InputError` (names its file) or another Forelight error. */
   readonly input: boolean;
   readonly diagnostic: Diagnostic;
@@ -25,9 +26,9 @@ interface WireSeries extends Omit<RegionSeries, 'data' | 'perCell'> {
   readonly perCell?: { readonly weights: string; readonly data: string };
 }
 
-const toBase64 = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');
+export const toBase64 = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');
 
-function fromBase64(text: string): Float64Array {
+export function fromBase64(text: string): Float64Array {
   const bytes = Buffer.from(text, 'base64');
   const data = new Float64Array(bytes.byteLength / 8);
   new Uint8Array(data.buffer).set(bytes);
@@ -50,12 +51,14 @@ export function toWire(result: ExtractResult, thrown = false): WireResult {
       data: toBase64(s.data),
       ...(perCell ? { perCell: { weights: toBase64(perCell.weights), data: toBase64(perCell.data) } } : {}),
     })),
-    problems: result.problems.map((p) => ({ input: p instanceof InputError, diagnostic: p.diagnostic })),
+    problems: result.problems.map(toWireProblem),
     notes: result.notes,
   };
 }
 
-function fromDiagnostic({ input, diagnostic: d }: WireProblem): ForelightError {
+export const toWireProblem = (p: ForelightError): WireProblem => ({ input: p instanceof InputError, diagnostic: p.diagnostic });
+
+export function fromDiagnostic({ input, diagnostic: d }: WireProblem): ForelightError {
   const { file, ...rest } = d.place;
   return input && file !== undefined
     ? new InputError(d.code, file, d.message, d.hint, { place: rest })

@@ -1,5 +1,6 @@
 /**
- * A cluster worker (`forelight worker --cluster URL`): takes extraction jobs from Redis and reads the files itself.
+ * A cluster worker (`forelight worker --cluster URL`): takes extraction jobs and hindcast-start jobs (start-jobs.ts)
+ * from Redis and reads the files itself.
  * Workers must see the same input paths as the coordinator (a shared filesystem: NFS, a cluster filesystem, the same
  * mounted bucket). SIGTERM lets the jobs in hand finish, then the worker leaves; a worker that is killed outright
  * loses its job lock, and the job goes to another worker after `lockSeconds`.
@@ -10,7 +11,10 @@ import { Worker, type Job } from 'bullmq';
 import { ForelightError } from '../core/errors.ts';
 import type { Logger } from '../core/log.ts';
 import { extractRegionSeries } from '../read/extract.ts';
+import type { StartRequest } from '../pipeline/hindcast-starts.ts';
 import { EXTRACT_QUEUE, redisClient } from './connection.ts';
+import type { ClusterAnswer, ClusterJob } from './coordinator.ts';
+import { START_JOB, workStartJob } from './start-jobs.ts';
 import { toWire, type ExtractJob, type WireResult } from './wire.ts';
 
 export interface WorkerOptions {
@@ -22,30 +26,34 @@ export interface WorkerOptions {
   readonly signal?: AbortSignal;
 }
 
-async function work(job: Job<ExtractJob, WireResult>, log: Logger): Promise<WireResult> {
-  const { path, request } = job.data;
-  log.info('job started', { stage: 'read', job: job.id, path, attempt: job.attemptsMade + 1 });
+async function extractJob({ path, request }: ExtractJob): Promise<WireResult> {
+  try {
+    return toWire(await extractRegionSeries(path, request));
+  } catch (err) {
+    if (!(err instanceof ForelightError)) throw err;
+    return toWire({ series: [], problems: [err], notes: [] }, true); // a bad file is an answer, not a reason to retry
+  }
+}
+
+async function work(job: Job<ClusterJob, ClusterAnswer>, log: Logger): Promise<ClusterAnswer> {
+  const start = job.name === START_JOB ? (job.data as StartRequest) : null;
+  const path = start ? start.start.path : (job.data as ExtractJob).path;
+  log.info('job started', { stage: 'read', job: job.id, kind: job.name, path, attempt: job.attemptsMade + 1 });
   const t0 = Date.now();
   if (!existsSync(path)) {
     // Another worker may see it (a mount missing here): a plain error, so BullMQ tries again elsewhere.
     throw new Error(`${path} is not visible on worker ${hostname()}: workers need the coordinator's input paths (shared filesystem)`);
   }
-  let wire: WireResult;
-  try {
-    wire = toWire(await extractRegionSeries(path, request));
-  } catch (err) {
-    if (!(err instanceof ForelightError)) throw err;
-    wire = toWire({ series: [], problems: [err], notes: [] }, true); // a bad file is an answer, not a reason to retry
-  }
-  log.info('job done', { stage: 'read', job: job.id, path, ms: Date.now() - t0, series: wire.series.length });
-  return wire;
+  const answer = start ? await workStartJob(start) : await extractJob(job.data as ExtractJob);
+  log.info('job done', { stage: 'read', job: job.id, kind: job.name, path, ms: Date.now() - t0 });
+  return answer;
 }
 
 /** Runs until `signal` aborts; resolves once the jobs in hand are finished and the worker has left the queue. */
 export async function runClusterWorker(url: string, options: WorkerOptions): Promise<void> {
   const lockMs = (options.lockSeconds ?? 30) * 1000;
   const client = redisClient(url);
-  const worker = new Worker<ExtractJob, WireResult>(EXTRACT_QUEUE, (job) => work(job, options.log), {
+  const worker = new Worker<ClusterJob, ClusterAnswer>(EXTRACT_QUEUE, (job) => work(job, options.log), {
     connection: client,
     concurrency: options.concurrency ?? 1,
     lockDuration: lockMs,

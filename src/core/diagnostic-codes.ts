@@ -298,14 +298,44 @@ export const DIAGNOSTIC_CODES = {
   'reference-several': {
     stage: 'read',
     severity: 'error',
-    meaning: 'the file holds several forecast reference times',
-    fix: 'split the file per forecast start (ncks -d <dimension>,K,K per start K), and name the parts with {date}',
+    meaning: 'a forecast file (or a file read without a start index) holds several forecast reference times',
+    fix: 'split the file per forecast start (ncks -d <dimension>,K,K per start K) and name the parts with {date}; hindcast-files reads such a file as it is',
   },
   'reference-invalid': {
     stage: 'read',
     severity: 'error',
     meaning: 'the requested reference time is not an ISO date',
     fix: 'pass YYYY-MM-DD or an ISO 8601 instant',
+  },
+  'hindcast-start-index': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'a file of several hindcast starts no longer holds the start listed for the run (it changed after it was listed)',
+    fix: 'run again once the download has finished; replace a truncated file',
+  },
+  'hindcast-starts-variable': {
+    stage: 'read',
+    severity: 'error',
+    meaning: "a variable of a file of several hindcast starts lacks the starts' reference-time dimension",
+    fix: 'give the variable one slice per start (ncecat -u <dimension> over the per-start files), or provide one file per start',
+  },
+  'hindcast-starts-invalid': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the forecast reference times of a file of several starts are not usable as starts (two on one day)',
+    fix: 'replace the file, or provide one file per start named with {date}',
+  },
+  'hindcast-start-unknown': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'hindcast-files gives {year} without {mmdd} and the file states no forecast reference time, so its start is unknown',
+    fix: 'put {mmdd} or {date} in hindcast-files, or add a forecast_reference_time variable to the file',
+  },
+  'hindcast-start-mismatch': {
+    stage: 'read',
+    severity: 'error',
+    meaning: "a hindcast file's own reference time contradicts its path's {year}, or lies outside the forecast's calibration window",
+    fix: "rename the file or correct hindcast-files; point it at hindcasts started near the forecast's day of year",
   },
   'reference-mismatch': {
     stage: 'read',

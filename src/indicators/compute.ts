@@ -50,7 +50,11 @@ export function computeIndicator(
     data,
     outOfRange: out.outOfRange,
     ...(out.beyondTable ? { beyondTable: out.beyondTable } : {}),
-    ...(out.days === undefined && t.modelCalendar ? { modelCalendar: t.modelCalendar } : {}),
+    ...(out.modelCalendar
+      ? { modelCalendar: out.modelCalendar }
+      : out.days === undefined && t.modelCalendar
+        ? { modelCalendar: t.modelCalendar }
+        : {}),
     missing: countNaN(data),
     notes: out.notes,
   };

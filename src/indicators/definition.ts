@@ -4,7 +4,7 @@
  * `src/indicators/kinds/`; the registry (`registry.ts`) lists them, and the compute dispatch, `forelight check`, the
  * configuration schema and the README table are derived from it.
  */
-import type { IsoDate, Quantity, RegionSeries } from '../types.ts';
+import type { IsoDate, ModelDays, Quantity, RegionSeries } from '../types.ts';
 import type { ReferenceKey } from './references.ts';
 
 export type AntecedentQuantity = 'tmax' | 'tmin' | 'tmean';
@@ -52,6 +52,8 @@ export interface KindOutput {
   readonly beyondTable?: Uint8Array;
   /** Days of the result when they differ from the template's (monthly indices). */
   readonly days?: readonly IsoDate[];
+  /** The model dates of `days` when they differ from the template's and the inputs are in a model calendar. */
+  readonly modelCalendar?: ModelDays;
 }
 
 /** A JSON Schema (draft 2020-12) object, as written into config/forelight.schema.json. */

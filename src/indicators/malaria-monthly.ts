@@ -15,7 +15,8 @@
  * (defaults are common practice, no source).
  */
 import { badParam } from './kind-inputs.ts';
-import type { IsoDate } from '../types.ts';
+import { daysInCalendarMonth } from '../core/calendar-days.ts';
+import type { IsoDate, ModelDays } from '../types.ts';
 import { daysInMonth, addMonths, monthOf } from '../core/iso-dates.ts';
 import { relativeR0Mordecai2013 } from './relative-r0-mordecai-2013.ts';
 import { DETINOVA_1962, type PlasmodiumSpecies } from './sporogony-detinova-1962.ts';
@@ -111,7 +112,9 @@ function temperatureModel(p: MalariaParams): (tC: number) => number {
 
 /**
  * Monthly index per member and calendar month. `tMeanC` (°C) and `precipMmPerDay` are member-major over `days`.
- * Negative rain down to the packing tolerance is counted as 0 (Math.max keeps NaN as NaN).
+ * With `modelCalendar` (daily data of a model calendar) the months are the model's, their lengths the model's
+ * (a 360_day month has 30 days; src/read/DECISIONS.md §3). Negative rain down to the packing tolerance is counted
+ * as 0 (Math.max keeps NaN as NaN).
  */
 export function monthlySuitability(
   days: readonly IsoDate[],
@@ -119,16 +122,22 @@ export function monthlySuitability(
   tMeanC: Float64Array,
   precipMmPerDay: Float64Array,
   p: MalariaParams,
+  { modelCalendar }: { readonly modelCalendar?: ModelDays } = {},
 ): MonthlySuitability[] {
+  const monthAt = (i: number) => monthOf(modelCalendar ? modelCalendar.days[i] : days[i]);
+  const lengthOf = (month: string) => {
+    const [y, m] = [Number(month.slice(0, 4)), Number(month.slice(5, 7))];
+    return modelCalendar ? daysInCalendarMonth(modelCalendar.calendar, y, m) : daysInMonth(y, m);
+  };
   const steps = days.length;
   const model = temperatureModel(p);
   const result: MonthlySuitability[] = [];
   let start = 0;
   while (start < steps) {
-    const month = monthOf(days[start]);
+    const month = monthAt(start);
     let end = start;
-    while (end < steps && monthOf(days[end]) === month) end++;
-    const nDays = daysInMonth(Number(month.slice(0, 4)), Number(month.slice(5, 7)));
+    while (end < steps && monthAt(end) === month) end++;
+    const nDays = lengthOf(month);
     const covered = (end - start) / nDays >= p.minMonthCoverage;
     const tempMeanC = new Float64Array(members);
     const rainTotalMm = new Float64Array(members);

@@ -3,12 +3,10 @@
  * source, merged within each tier by the source-combination rule). Shared by `run`, `diff`, `explain` and
  * `skill`, so what they show is exactly what a run would issue.
  */
-import { readRegions } from '../config/region-views.ts';
 import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineOutcomes } from '../calibrate/combine-outcomes.ts';
-import { regionClimatology } from '../calibrate/indicator-context.ts';
-import type { CalibrateContext } from '../calibrate/model-climate.ts';
+import { observedContext, type CalibrateContext } from '../calibrate/model-climate.ts';
 import { cachedClimates } from '../calibrate/skill-cache.ts';
 import { forecastIndicators, forecastLeadOne, sourceProbabilities, type SourceOutcome } from '../calibrate/source-probabilities.ts';
 import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
@@ -17,9 +15,11 @@ import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
 import type { IsoDate, LeadProbability } from '../types.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
+import { specificHumidityNote } from '../indicators/specific-humidity.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
-import { regionCells, type SourceRead } from './read-file.ts';
-import { readAll, readHindcasts, type ReadResult } from './read-stage.ts';
+import type { SourceRead } from './read-file.ts';
+import { readAll, type ReadResult } from './read-stage.ts';
+import { localStartReducer, reduceStarts, regionClimatologies, type StartReducer } from './hindcast-starts.ts';
 
 export interface Analysis {
   readonly issueDate: IsoDate;
@@ -43,18 +43,28 @@ export interface AnalyseOptions {
   readonly inputs?: readonly SourceInputs[];
   /** How files are read (default: in this process; a cluster's workers with `forelight run --cluster`). */
   readonly extract?: Extractor;
+  /** How each hindcast start of a first-time climate build is read and reduced (default: in this process, through `extract`). */
+  readonly reduceStart?: StartReducer;
+  /** Progress of a first-time climate build, per hindcast start of each source. */
+  readonly onStartReduced?: (source: string, done: number, total: number) => void;
 }
+
+/** How a run reads files and reduces hindcast starts (this process, or a cluster's workers). */
+export type Readers = Pick<AnalyseOptions, 'extract' | 'reduceStart'>;
 
 /** Reads and computes everything for the run's issue date; never throws for a bad file, region or indicator. */
 export async function analyse(config: Config, run: RunContext, options: AnalyseOptions = {}): Promise<Analysis> {
   const { issueDate, log } = run;
-  const { onProgress, inputs = resolveInputs(config, issueDate), extract = extractRegionSeries } = options;
+  const { onProgress, extract = extractRegionSeries } = options;
+  const inputs = options.inputs ?? (await resolveInputs(config, issueDate));
   const total = inputs.length + 1;
   onProgress?.(0, total, 'reading forecasts and observations');
   const started = Date.now(); // elapsed times for the log, not the run's clock
   const read = await readAll(config, issueDate, inputs, extract);
   log.info('read forecasts and observations', { stage: 'read', ms: Date.now() - started, sources: read.sources.length });
-  const climatology = new Map(config.regions.map((r) => [r.id, safeClimatology(read, r.id, log)]));
+  const climatology = regionClimatologies(config, read.observed, (region, err) =>
+    log.warn('no climatology from observations', { region, error: describeError(err) }),
+  );
   const checksums = await openChecksumMemo(config.calibration.cacheDir);
   const ctx: CalibrateContext = {
     config,
@@ -65,11 +75,13 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
     checksums,
   };
   const fileProblems: ForelightError[] = [...read.problems];
+  const reducer = options.reduceStart ?? localStartReducer(extract, observedContext(ctx));
   const sources: SourceOutcome[] = [];
   for (const s of read.sources) {
     const t0 = Date.now();
     const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
-    const outcome = await calibrateSource(ctx, s, input, { fileProblems, extract });
+    const onStart = options.onStartReduced && ((done: number, n: number) => options.onStartReduced?.(s.source.id, done, n));
+    const outcome = await calibrateSource(config, ctx, s, input, { fileProblems, reducer, onStart });
     log.info('calibrated source', {
       stage: 'calibrate',
       source: s.source.id,
@@ -93,27 +105,36 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   for (const p of problems) log.warn('skipped', { code: p.code, problem: formatDiagnostic(p) });
   await saveChecksums(checksums, log);
   const timeNotes = read.sources.flatMap((s) => s.notes);
-  return { issueDate, inputs: read.inputs, read, sources, probabilities: kept, combination: [...notes, ...timeNotes], problems, checksums };
+  const humidityNotes = [
+    ...read.sources.flatMap((s) => specificHumidityNote(`source ${s.source.id}`, s.source.variables)),
+    ...(config.observations ? specificHumidityNote('observations', config.observations.variables) : []),
+  ];
+  return {
+    issueDate,
+    inputs: read.inputs,
+    read,
+    sources,
+    probabilities: kept,
+    combination: [...notes, ...timeNotes, ...humidityNotes],
+    problems,
+    checksums,
+  };
 }
 
-/** One source's model climate (cached, or its hindcasts read and computed), then its forecast's probabilities. */
+/** One source's model climate (cached, or its hindcast starts read and reduced), then its forecast's probabilities. */
 async function calibrateSource(
+  config: Config,
   ctx: CalibrateContext,
   read: SourceRead,
   input: SourceInputs,
-  options: { fileProblems: ForelightError[]; extract: Extractor },
+  options: { fileProblems: ForelightError[]; reducer: StartReducer; onStart?: (done: number, total: number) => void },
 ): Promise<SourceOutcome> {
-  const { config } = ctx;
   const forecast = forecastIndicators(ctx, read);
   const model = await cachedClimates(
     ctx,
     input.source,
     input.hindcasts.map((h) => h.path),
-    () =>
-      readHindcasts(input.source, input.hindcasts, readRegions(config), options.fileProblems, regionCells(read.series), options.extract, {
-        weightsCacheDir: config.calibration.cacheDir,
-        population: config.population,
-      }),
+    () => reduceStarts(config, input.source, input.hindcasts, read.series, options.reducer, options.fileProblems, options.onStart),
     (region, indicator) => forecastLeadOne(forecast, region, indicator),
   );
   return sourceProbabilities(ctx, read, model, forecast);
@@ -125,14 +146,5 @@ export async function saveChecksums(checksums: ChecksumMemo, log: Logger): Promi
     await checksums.save();
   } catch (err) {
     log.warn('input checksums not remembered (they are computed again next run)', { error: describeError(err) });
-  }
-}
-
-function safeClimatology(read: ReadResult, region: string, log: Logger) {
-  try {
-    return regionClimatology(read.observed?.get(region));
-  } catch (err) {
-    log.warn('no climatology from observations', { region, error: describeError(err) });
-    return {};
   }
 }

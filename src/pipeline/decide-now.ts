@@ -41,7 +41,11 @@ export function tunedThresholds(analysis: Analysis): Map<TunedKey, number> {
   return out;
 }
 
-export async function decideNow(config: Config, run: RunContext, options: Pick<AnalyseOptions, 'onProgress'> = {}): Promise<DecidedNow> {
+export async function decideNow(
+  config: Config,
+  run: RunContext,
+  options: Pick<AnalyseOptions, 'onProgress' | 'onStartReduced'> = {},
+): Promise<DecidedNow> {
   let historyJson: string | null = null;
   let previous: RegionStageLike[] = [];
   if (ledgerMayHoldRuns(config)) {

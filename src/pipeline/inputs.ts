@@ -5,19 +5,11 @@
 import type { Config, SourceConfig } from '../config/types.ts';
 import { startsWithinWindow } from '../calibrate/climate.ts';
 import { addDays } from '../core/iso-dates.ts';
-import { compactDate, matchPattern } from '../core/path-patterns.ts';
+import { InputError } from '../core/errors.ts';
+import { compactDate, hasPlaceholder } from '../core/path-patterns.ts';
 import { fileVariables, findInputFiles, type InputFiles } from './split-files.ts';
+import { listHindcasts, startsFromPaths, type HindcastFile } from './hindcast-list.ts';
 import type { IsoDate } from '../types.ts';
-
-export interface HindcastFile {
-  readonly year: number;
-  /** Start date of this hindcast, YYYY-MM-DD. */
-  readonly start: IsoDate;
-  /** The (first) file of this start, for messages. */
-  readonly path: string;
-  /** Every file of this start (split by variable or member: src/pipeline/split-files.ts). */
-  readonly files: InputFiles;
-}
 
 export interface SourceInputs {
   readonly source: SourceConfig;
@@ -56,54 +48,61 @@ export function forecastCandidates(source: SourceConfig, issueDate: IsoDate): Fo
   return out;
 }
 
-/** The hindcast starts of a source that calibrate a forecast of `forecastDate` (within ±windowDays, before it). */
-export function hindcastsFor(config: Pick<Config, 'calibration'>, source: SourceConfig, forecastDate: IsoDate): HindcastFile[] {
-  const all = listHindcasts(source);
+/**
+ * The hindcast starts of a source that calibrate a forecast of `forecastDate` (within ±windowDays, before it), and
+ * every refused start (named by the read stage). When the starts come from the files' own reference times
+ * (`{year}` without `{mmdd}`), files none of whose starts is within the window are one refusal: they do not
+ * calibrate this forecast, which is said rather than leaving its leads silently uncalibrated.
+ */
+export async function hindcastsFor(
+  config: Pick<Config, 'calibration'>,
+  source: SourceConfig,
+  forecastDate: IsoDate,
+): Promise<HindcastFile[]> {
+  const all = await listHindcasts(source);
+  const windowDays = config.calibration.windowDays;
   const keep = new Set(
     startsWithinWindow(
       forecastDate,
       all.map((h) => h.start),
-      config.calibration.windowDays,
+      windowDays,
     ),
   );
   // A hindcast is a past start: one at or after the forecast date would be the forecast itself.
-  return all.filter((h) => keep.has(h.start) && h.start < forecastDate);
-}
-
-/**
- * Every hindcast start matching the source's pattern (`{year}`, `{mmdd}` or `{date}` anywhere in the path), with
- * its files (`{var}`, `{member}` expanded as for forecasts).
- */
-export function listHindcasts(source: SourceConfig): HindcastFile[] {
-  const pattern = source.hindcast;
-  if (pattern === undefined) return [];
-  const starts = new Map<string, HindcastFile>();
-  for (const { values } of matchPattern(pattern)) {
-    const year = values.year ?? values.date?.slice(0, 4);
-    if (year === undefined) continue;
-    const mmdd = values.mmdd ?? values.date?.slice(4) ?? '0101';
-    const start = `${year}-${mmdd.slice(0, 2)}-${mmdd.slice(2)}`;
-    if (starts.has(start)) continue;
-    const fixed = { year, ...(values.mmdd !== undefined ? { mmdd } : {}), ...(values.date !== undefined ? { date: values.date } : {}) };
-    const files = findInputFiles([pattern], fixed, fileVariables(source));
-    if (files.existing.length > 0) starts.set(start, { year: Number(year), start, path: files.existing[0], files });
-  }
-  return [...starts.values()].sort((a, b) => a.start.localeCompare(b.start));
+  const used = all.filter((h) => h.start < forecastDate && (keep.has(h.start) || h.refused !== undefined));
+  const yearOnly = source.hindcast !== undefined && hasPlaceholder(source.hindcast, 'year') && !startsFromPaths(source.hindcast);
+  if (!yearOnly) return used;
+  const inWindow = new Set(used.map((h) => h.path));
+  const outside = all.filter((h) => !h.refused && h.start < forecastDate && !inWindow.has(h.path));
+  const files = new Set(outside.map((h) => h.path));
+  if (outside.length === 0) return used;
+  const first = outside[0];
+  const refused = new InputError(
+    'hindcast-start-mismatch',
+    first.path,
+    `starts on ${first.start} (its forecast reference time), outside the calibration window of ±${windowDays} days around the forecast's ${forecastDate.slice(5)}` +
+      (files.size > 1 ? `, as do ${files.size - 1} other hindcast file(s) of source '${source.id}'` : '') +
+      ': they do not calibrate this forecast',
+    "point hindcast-files at the hindcasts started near the forecast's day of year (or widen calibration.window-days)",
+  );
+  return [...used, { ...first, refused }];
 }
 
 /** Forecast and hindcast files of every source for an issue date (the newest existing forecast; see `candidates`). */
-export function resolveInputs(config: Pick<Config, 'sources' | 'calibration'>, issueDate: IsoDate): SourceInputs[] {
-  return config.sources.map((source) => {
+export async function resolveInputs(config: Pick<Config, 'sources' | 'calibration'>, issueDate: IsoDate): Promise<SourceInputs[]> {
+  const out: SourceInputs[] = [];
+  for (const source of config.sources) {
     const candidates = forecastCandidates(source, issueDate);
     const newest = candidates[0] ?? null;
-    return {
+    out.push({
       source,
       issueDate,
       date: newest?.date ?? null,
       path: newest?.path ?? null,
       stale: newest === null || newest.date !== issueDate,
-      hindcasts: hindcastsFor(config, source, newest?.date ?? issueDate),
+      hindcasts: await hindcastsFor(config, source, newest?.date ?? issueDate),
       candidates,
-    };
-  });
+    });
+  }
+  return out;
 }

@@ -6,7 +6,8 @@
  *
  * Hindcasts are an archive, not a daily arrival: once a source's forecasts are at hand, a `hindcast-files` pattern
  * matching no file would leave every lead uncalibrated, and is an error at its line; so is one without `{year}` or
- * `{date}` that matches files (no start can be told from their paths). Before any file of the source has arrived
+ * `{date}` that matches files (no start can be told from their paths), unless its file holds every start along a
+ * reference-time dimension (read as one start per index: hindcast-list.ts). Before any file of the source has arrived
  * (a fresh installation) the grid check's note says so (src/pipeline/grid-extents.ts).
  */
 import { problem, pointerOf, type ConfigProblem } from '../config/problem.ts';
@@ -16,7 +17,7 @@ import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { fillPattern, hasPlaceholder, matchPattern, PLACEHOLDERS } from '../core/path-patterns.ts';
 import { fileVariables } from './split-files.ts';
 import { newestForecastFile } from './grid-extents.ts';
-import { referenceTimesOf, splitStartsFix } from '../read/coordinates.ts';
+import { referenceTimesOf } from '../read/coordinates.ts';
 import { withDataset } from '../read/open-dataset.ts';
 
 export function unmatchedPatterns(config: Config, sourceMap: ConfigSourceMap | undefined): Diagnostic[] {
@@ -77,18 +78,13 @@ export async function hindcastPatternProblems(config: Config, sourceMap: ConfigS
   return out;
 }
 
-/** A pattern without a date placeholder: names the starts when its first file holds several (with a fix that splits it). */
-async function undatedProblem(id: string, pattern: string, files: readonly string[], pointer: string): Promise<ConfigProblem> {
+/** A pattern without a date placeholder: fine when its first file holds several starts (read as one start each: hindcast-list.ts). */
+async function undatedProblem(id: string, pattern: string, files: readonly string[], pointer: string): Promise<ConfigProblem | undefined> {
   const ref = await withDataset(files[0], (ds) => referenceTimesOf(ds)).catch(() => null);
-  if (ref && ref.timesMs.length > 1)
-    return problem(
-      pointer,
-      `source ${id}: hindcast-files ${files[0]} holds ${ref.timesMs.length} hindcast starts along '${ref.dimension}' in one file; Forelight reads one file per start`,
-      splitStartsFix(files[0], ref),
-    );
+  if (ref && ref.timesMs.length > 1) return undefined;
   return problem(
     pointer,
-    `source ${id}: hindcast-files ${pattern} has no {year} or {date}, so the start of its ${files.length} file(s) cannot be told`,
+    `source ${id}: hindcast-files ${pattern} has no {year} or {date}, so the start of its ${files.length} file(s) cannot be told (nor does ${files[0]} hold several starts along a reference-time dimension)`,
     'put {year} (with {mmdd}) or {date} where the hindcast file names carry the start date, e.g. hc/{year}/t2m_{year}{mmdd}.nc',
   );
 }

@@ -76,7 +76,10 @@ async function recordInputFiles(
     ...(config.observations ? [[config.observations.path, 'observations', ''] as [string, string, string]] : []),
   ];
   const files = [];
+  const seen = new Set<string>(); // a hindcast file of several starts is one input, recorded with its first start
   for (const [path, source, referenceTime] of wanted) {
+    if (seen.has(path)) continue;
+    seen.add(path);
     // A file that cannot be read was already reported by the read stage; the ledger keeps what exists.
     if (existsSync(path)) files.push(await describeInputFile(path, source, referenceTime, (p) => analysis.checksums.sha256(p)));
   }

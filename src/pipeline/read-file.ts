@@ -43,6 +43,8 @@ export interface FileRequest {
   readonly population?: PopulationConfig | null;
   /** Files holding the next members of the same forecast, in member order (split-files.ts). */
   readonly moreMembers?: readonly string[];
+  /** A hindcast start inside a file of several starts: its index along the reference-time dimension (hindcast-list.ts). */
+  readonly startIndex?: number;
 }
 
 export async function readFile(
@@ -62,6 +64,7 @@ export async function readFile(
       weightsCacheDir: request.weightsCacheDir,
       population: request.population ?? null,
       ...(request.moreMembers && request.moreMembers.length > 0 ? { moreMembers: request.moreMembers } : {}),
+      ...(request.startIndex !== undefined ? { startIndex: request.startIndex } : {}),
     });
     problems.push(...r.problems);
     request.notes?.push(...r.notes);

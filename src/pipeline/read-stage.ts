@@ -1,14 +1,15 @@
 /**
- * Read stage of a run: forecasts, hindcasts and observations → region series, one pass per file. A file that
- * fails is reported (with its path) and the others go on; the run states what it skipped and why.
+ * Read stage of a run: forecasts and observations → region series, one pass per file (hindcasts are read start by
+ * start for the climate build, hindcast-starts.ts). A file that fails is reported (with its path) and the others go
+ * on; the run states what it skipped and why.
  */
-import type { Config, RegionConfig, SourceConfig } from '../config/types.ts';
+import type { Config } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
-import type { HindcastRead, RegionQuantities } from '../types.ts';
-import { readFile, readInputFiles, regionCells, type FileRequest, type SourceRead } from './read-file.ts';
+import type { RegionQuantities } from '../types.ts';
+import { readFile, type SourceRead } from './read-file.ts';
 import { readRegions } from '../config/region-views.ts';
-import type { HindcastFile, SourceInputs } from './inputs.ts';
+import type { SourceInputs } from './inputs.ts';
 import { addDays } from '../core/iso-dates.ts';
 import { forecastPath } from '../schedule/input-arrival.ts';
 import { readUsableForecast } from './usable-forecast.ts';
@@ -20,69 +21,6 @@ export interface ReadResult {
   readonly observed: RegionQuantities | null;
   /** Every file, variable or region that could not be read, as one-line messages. */
   readonly problems: readonly ForelightError[];
-}
-
-/** `work` over `items` with at most `parallel` in flight; results in input order. */
-async function inOrder<T, R>(items: readonly T[], parallel: number, work: (item: T) => Promise<R>): Promise<R[]> {
-  const out: R[] = new Array(items.length);
-  let next = 0;
-  const lane = async (): Promise<void> => {
-    for (let i = next++; i < items.length; i = next++) out[i] = await work(items[i]);
-  };
-  await Promise.all(Array.from({ length: Math.max(1, Math.min(parallel, items.length)) }, lane));
-  return out;
-}
-
-/**
- * Reads the hindcast files of one source (each file's problems collected, the others go on). With the forecast's
- * cells per region, a hindcast on another grid (a region covering another number of cells) is left out for that
- * region with a message, so its leads are not calibrated on a different grid.
- */
-export async function readHindcasts(
-  source: SourceConfig,
-  files: readonly HindcastFile[],
-  regions: readonly RegionConfig[],
-  problems: ForelightError[],
-  forecastCells?: ReadonlyMap<string, number>,
-  extract: Extractor = extractRegionSeries,
-  weights: Pick<FileRequest, 'weightsCacheDir' | 'population'> = {},
-): Promise<HindcastRead[]> {
-  const out: HindcastRead[] = [];
-  // Problems are kept per file and appended in file order, so a parallel read reports as a sequential one.
-  const read = await inOrder(files, extract.parallel ?? 1, async (h) => {
-    const own: ForelightError[] = [];
-    return {
-      series: await readInputFiles(
-        extract,
-        h.files,
-        source.variables,
-        regions,
-        { referenceTime: h.start, tier: source.tier, ...weights },
-        own,
-      ),
-      own,
-    };
-  });
-  for (const [i, h] of files.entries()) {
-    const { series, own } = read[i];
-    problems.push(...own);
-    if (!series) continue;
-    for (const [region, cells] of regionCells(series)) {
-      const expected = forecastCells?.get(region);
-      if (expected === undefined || expected === cells) continue;
-      series.delete(region);
-      problems.push(
-        new InputError(
-          'hindcast-grid',
-          h.path,
-          `region '${region}' covers ${cells} grid cells here but ${expected} in the forecast: the hindcast grid differs`,
-          `provide hindcasts of source '${source.id}' on the forecast's grid; this region's leads are not calibrated on them`,
-        ),
-      );
-    }
-    out.push({ year: h.year, start: h.start, path: h.path, series });
-  }
-  return out;
 }
 
 /** No forecast within the look-back: names the pattern and the dates tried (issue date back to look-back-days before). */
@@ -100,7 +38,7 @@ function forecastMissing(input: SourceInputs): InputError {
 
 /**
  * Reads every source's forecast and the observations, collecting problems instead of stopping. Hindcasts are read
- * later, per source, only when the model-climate cache misses (`readHindcasts`).
+ * later, per source, only when the model-climate cache misses (`reduceStarts`).
  */
 export async function readAll(
   config: Config,

@@ -18,12 +18,11 @@ import { hasBulletins } from '../ledger/bulletins.ts';
 import { pendingDeliveries } from '../ledger/deliveries.ts';
 import { openConfiguredLedger } from '../ledger/ledger-target.ts';
 import { ledgerWriteFault, openLedgerCopy } from '../ledger/open-ledger.ts';
-import type { Extractor } from '../read/extract.ts';
 import { beginRun, finishRun } from '../ledger/runs.ts';
 import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
 import { EXIT, exitCodeForDeliveries, type ExitCode } from '../core/exit-codes.ts';
-import { analyse } from './analyse.ts';
+import { analyse, type AnalyseOptions, type Readers } from './analyse.ts';
 import { dryRunReport } from './dry-run-report.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';
 import { prepareRun, type NotifyOperators, type Prepared } from './prepare-run.ts';
@@ -38,8 +37,10 @@ export interface RunOptions {
   readonly force?: boolean;
   /** Passed to delivery (fault injection in tests). */
   readonly deliver?: DeliverOptions;
-  /** How input files are read (default: in this process; `--cluster`: by the cluster's workers). */
-  readonly extract?: Extractor;
+  /** How input files are read and hindcast starts reduced (default: in this process; `--cluster`: by the cluster's workers). */
+  readonly readers?: Readers;
+  /** Progress of a first-time climate build (the command's progress bar or JSON lines). */
+  readonly onStartReduced?: AnalyseOptions['onStartReduced'];
 }
 
 export interface RunOutcome {
@@ -110,7 +111,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   const { issueDate, log, dryRun } = options.run;
   const wouldNotify: string[] = [];
   const notify = operatorNotifier(options, log, wouldNotify);
-  const resolved = resolveInputs(config, issueDate);
+  const resolved = await resolveInputs(config, issueDate);
   if (resolved.every((i) => i.candidates.length === 0)) {
     const text = `No forecast file of any source was found on or before ${issueDate}. No bulletin was issued; earlier advice was not re-sent.`;
     await notify(`no forecast data for ${issueDate}`, text);
@@ -118,7 +119,7 @@ export async function runOnce(options: RunOptions): Promise<RunOutcome> {
   }
   if (!dryRun) sweepOutputs(config, log);
   // Unusable is the same as late: the run's key names the forecasts actually used (older ones when newer were unusable).
-  const analysis = await analyse(config, options.run, { inputs: resolved, extract: options.extract });
+  const analysis = await analyse(config, options.run, { inputs: resolved, ...options.readers, onStartReduced: options.onStartReduced });
   const key = forecastKey(analysis.inputs);
   const ledger = dryRun ? openLedgerCopy(config.ledger, { now: options.run.now }) : openConfiguredLedger(config, { now: options.run.now });
   try {

@@ -12,6 +12,7 @@ import type { Config } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import type { Quantity, RegionQuantities } from '../types.ts';
 import { hindcastsFor, type ForecastCandidate, type SourceInputs } from './inputs.ts';
+import { hindcastRequest } from './hindcast-list.ts';
 import type { Extractor } from '../read/extract.ts';
 import { readInputFiles, regionCells, type SourceRead } from './read-file.ts';
 
@@ -38,7 +39,7 @@ async function gridMismatch(
   problems: ForelightError[],
   extract: Extractor,
 ): Promise<string[] | null> {
-  const first = input.hindcasts[0];
+  const first = input.hindcasts.find((h) => !h.refused);
   if (!first) return null;
   const [quantity, variable] = Object.entries(input.source.variables)[0] as [Quantity, string];
   const hindcast = await readInputFiles(
@@ -46,7 +47,7 @@ async function gridMismatch(
     first.files,
     { [quantity]: variable },
     readRegions(config),
-    { referenceTime: first.start, tier: input.source.tier, weightsCacheDir: config.calibration.cacheDir, population: config.population },
+    { ...hindcastRequest(first, input.source), weightsCacheDir: config.calibration.cacheDir, population: config.population },
     problems,
   );
   if (!hindcast) return null;
@@ -79,7 +80,7 @@ export async function readUsableForecast(
       },
       problems,
     );
-    const at = candidateInputs(config, input, candidate, issueDate);
+    const at = await candidateInputs(config, input, candidate, issueDate);
     let why = series === null ? 'it could not be read (see above)' : whyUnusable(input.source, series);
     if (series && why === null) {
       const differ = await gridMismatch(config, at, series, problems, extract);
@@ -137,12 +138,17 @@ export async function readUsableForecast(
   return null;
 }
 
-function candidateInputs(config: Config, input: SourceInputs, candidate: ForecastCandidate, issueDate: string): SourceInputs {
+async function candidateInputs(
+  config: Config,
+  input: SourceInputs,
+  candidate: ForecastCandidate,
+  issueDate: string,
+): Promise<SourceInputs> {
   return {
     ...input,
     date: candidate.date,
     path: candidate.path,
     stale: candidate.date !== issueDate,
-    hindcasts: hindcastsFor(config, input.source, candidate.date),
+    hindcasts: await hindcastsFor(config, input.source, candidate.date),
   };
 }

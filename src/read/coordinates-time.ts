@@ -10,7 +10,8 @@
  */
 import { InputError, UnitError } from '../core/errors.ts';
 import type { ModelCalendarName } from '../types.ts';
-import { calendarSeconds, decodeTimes, fromDayNumber, secondsPerUnit, toDayNumber, type CfCalendar, type CfDateTime } from './cf-time.ts';
+import { fromDayNumber, toDayNumber } from '../core/calendar-days.ts';
+import { calendarSeconds, decodeTimes, secondsPerUnit, type CfCalendar, type CfDateTime } from './cf-time.ts';
 
 /** Length in ms of a duration unit ("hours", "days", …) of a lead-time coordinate (the units of cf-time.ts). */
 export function durationUnitMs(units: string, file: string, variable: string): number {
@@ -61,7 +62,7 @@ export class TimeMapper {
       line = calendarSeconds(values, units, calendar);
     } catch (err) {
       if (!(err instanceof UnitError)) throw err;
-      throw new InputError('time-units', file, `time variable '${variable}': ${err.message}`, err.hint, { cause: err });
+      throw new InputError('time-units', file, `time variable '${variable}': ${err.diagnostic.message}`, err.hint, { cause: err });
     }
     this.calendar ??= line.calendar;
     if (GREGORIAN.includes(line.calendar)) return Float64Array.from(dates, (d) => Math.round(d.gregorianMs() as number));

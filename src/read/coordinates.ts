@@ -188,21 +188,30 @@ export interface ReferenceTimes {
   readonly timesMs: Float64Array;
 }
 
-/** The file's forecast reference time variable (CF 1.11 §4.4, standard_name forecast_reference_time), or null. */
+/** The file's forecast reference time variable (CF 1.11 §4.4: standard_name forecast_reference_time, with time units), if any. */
+export function referenceVariable(ds: Dataset): VariableInfo | undefined {
+  return ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+}
+
+/** The file's forecast reference times (CF 1.11 §4.4, standard_name forecast_reference_time), or null. */
 export async function referenceTimesOf(ds: Dataset, mapper = new TimeMapper()): Promise<ReferenceTimes | null> {
-  const ref = ds.variables.find((v) => isReference(v) && / since /i.test(attr(v, 'units') ?? ''));
+  const ref = referenceVariable(ds);
   if (!ref) return null;
   return { variable: ref.name, dimension: ref.dimensions[0] ?? null, timesMs: await decodeTimeVariable(ds, mapper, ref) };
 }
 
-/** The one-line fix for a file holding several starts: one `ncks` hyperslab per start (tested on cfgrib's layout). */
+/**
+ * The one-line fix for a forecast file holding several starts: one `ncks` hyperslab per start (tested on cfgrib's
+ * layout). `hindcast-files` reads such a file as it is (src/pipeline/hindcast-list.ts).
+ */
 export function splitStartsFix(file: string, ref: ReferenceTimes): string {
   const compact = (ms: number) => new Date(ms).toISOString().slice(0, 10).replaceAll('-', '');
   const n = ref.timesMs.length;
   const stem = file.replace(/\.[^./]*$/, '');
   return (
     `split it into one file per start, e.g. ncks -d ${ref.dimension},K,K ${file} ${stem}_YYYYMMDD.nc for each start K ` +
-    `(0 = ${compact(ref.timesMs[0])} … ${n - 1} = ${compact(ref.timesMs[n - 1])}), and point hindcast-files at ${stem}_{date}.nc`
+    `(0 = ${compact(ref.timesMs[0])} … ${n - 1} = ${compact(ref.timesMs[n - 1])}), and point forecast-files at ${stem}_{date}.nc ` +
+    '(hindcast-files reads such a file as it is)'
   );
 }
 

@@ -21,6 +21,7 @@ import { rawRegionMeans } from './extract-raw.ts';
 import { cellSeriesOf, regionSelection } from './weighted-selection.ts';
 import { describeShape } from './regions.ts';
 import { planUnits } from './units.ts';
+import { oneStart, requireStartsDimension } from './start-slice.ts';
 
 export interface ExtractRequest {
   /** Canonical quantity → variable name in the file. */
@@ -36,6 +37,8 @@ export interface ExtractRequest {
   readonly moreMembers?: readonly string[];
   /** The population raster, for regions whose `weighting` is `population`. */
   readonly population?: PopulationConfig | null;
+  /** In a file holding several starts along a reference-time dimension: the index of the start to read (start-slice.ts). */
+  readonly startIndex?: number;
 }
 
 export interface ExtractResult {
@@ -51,7 +54,8 @@ function keepOrRethrow(err: unknown, problems: ForelightError[]): void {
 }
 
 /** Reads every requested quantity for every region from an opened dataset (see `extractRegionSeries`). */
-export async function extractFromDataset(ds: Dataset, request: ExtractRequest): Promise<ExtractResult> {
+export async function extractFromDataset(file: Dataset, request: ExtractRequest): Promise<ExtractResult> {
+  const ds = request.startIndex === undefined ? file : oneStart(file, request.startIndex);
   const problems: ForelightError[] = [];
   const series: RegionSeries[] = [];
   const coords = await findCoordinates(ds);
@@ -77,6 +81,7 @@ export async function extractFromDataset(ds: Dataset, request: ExtractRequest): 
   for (const [quantity, variable] of Object.entries(request.quantities) as [Quantity, string][]) {
     try {
       const layout = layoutVariable(ds, coords, variable);
+      if (request.startIndex !== undefined) requireStartsDimension(ds, layout.info);
       const units = layout.info.attributes.units;
       const unitPlan = planUnits(quantity, typeof units === 'string' ? units : undefined, ds.path, variable);
       const byValues = await valuesAccumulate(ds, coords, layout, unitPlan, wanted);

@@ -11,7 +11,8 @@
  * seasonal archives, no source beyond CF's warning.
  */
 import { InputError } from '../core/errors.ts';
-import { CfDateTime, daysInCalendarMonth, toDayNumber } from './cf-time.ts';
+import { daysInCalendarMonth, toDayNumber } from '../core/calendar-days.ts';
+import { CfDateTime } from './cf-time.ts';
 import type { TimeAxis } from './coordinates.ts';
 import type { VariableInfo } from './dataset.ts';
 import { detectMonths } from './monthly.ts';

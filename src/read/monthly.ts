@@ -16,7 +16,7 @@
 import { InputError } from '../core/errors.ts';
 import { daysInMonth, datesOfMonth } from '../core/iso-dates.ts';
 import type { CfDateTime } from './cf-time.ts';
-import { daysInCalendarMonth } from './cf-time.ts';
+import { daysInCalendarMonth } from '../core/calendar-days.ts';
 import type { Tier } from '../types.ts';
 import type { TemporalKind } from './units.ts';
 

@@ -27,6 +27,34 @@ function entry(year: number, start: string) {
 
 const years = Array.from({ length: 20 }, (_, i) => 2006 + i);
 
+/**
+ * Month leads of a 120-day series in the 360_day calendar (CF 1.11 §4.4.1: twelve 30-day months) starting at model
+ * date `year-mm-dd`, placed on real dates by elapsed days from the same real date (src/read/DECISIONS.md §3).
+ */
+function entry360(year: number, mmdd: string) {
+  const [m0, d0] = mmdd.split('-').map(Number);
+  const base = (m0 - 1) * 30 + d0 - 1;
+  const pad = (n: number) => String(n).padStart(2, '0');
+  const model = Array.from({ length: 120 }, (_, k) => {
+    const n = base + k;
+    return `${year + Math.floor(n / 360)}-${pad(Math.floor((n % 360) / 30) + 1)}-${pad((n % 30) + 1)}`;
+  });
+  const first = Date.UTC(year, m0 - 1, d0);
+  const days = model.map((_, k) => new Date(first + k * 86_400_000).toISOString().slice(0, 10));
+  const series: IndicatorSeries = {
+    region: 'kessan-lowlands',
+    indicator: 'tmax-3day',
+    units: 'degC',
+    days,
+    members: 2,
+    data: new Float64Array(240).fill(30),
+    outOfRange: 0,
+    missing: 0,
+    modelCalendar: { calendar: '360_day', days: model },
+  };
+  return { year, start: mmdd, leads: aggregateToLeads(series, 'months', 'mean') };
+}
+
 describe('month-true pooling (months tier)', () => {
   it('a forecast issued 20 Nov (month 1 = December) pools the starts of 12 and 26 Nov, not the one of 9 Dec', () => {
     const entries = years.flatMap((y) => [entry(y, '2000-11-12'), entry(y, '2000-11-26'), entry(y, '2000-12-09')]);
@@ -78,5 +106,11 @@ describe('month-true pooling (months tier)', () => {
   it("starts that all share the forecast's month 1 are kept as they are", () => {
     const entries = years.map((y) => entry(y, '2000-11-26'));
     expect(sameLeadMonths('x', entries, '12', 15)).toEqual({ kept: entries, problems: [] });
+  });
+  it('360_day starts are pooled by their MODEL month 1 (model April begins on real 31 March after a 2 March start)', () => {
+    const entries = years.flatMap((y) => [entry360(y, '03-02'), entry360(y, '03-28')]);
+    expect(entries[0].leads.leads[0]).toMatchObject({ start: `${years[0]}-03-31`, modelMonth: `${years[0]}-04` });
+    const april = sameLeadMonths('seasonal hindcasts', entries, '04', 15);
+    expect(april).toEqual({ kept: entries, problems: [] });
   });
 });

@@ -44,7 +44,12 @@ describe('inspection commands on the sample', () => {
       const f = l.split(',');
       if (f[18] === 'yes') expect(f[4] === 'observed' && Number(f[16]) >= 5 && Number(f[17]) > 0).toBe(true);
     }
-    expect(r.stderr).toMatch(/skill \[#+\] 4\/4 done/); // progress bar
+    // Not a terminal: progress as one JSON object per line (src/cli/progress.ts); the last says all 4 steps are done.
+    const progress = r.stderr
+      .split('\n')
+      .filter((l) => l.includes('"stage":"skill"'))
+      .map((l) => JSON.parse(l) as Record<string, unknown>);
+    expect(progress.at(-1)).toMatchObject({ run: null, issueDate: DATE[1], stage: 'skill', done: 4, total: 4, label: 'done' });
   });
 
   it('skill --region/--indicator filters rows; an unknown id is refused naming the configured ones; text has the legend', () => {

@@ -4,7 +4,7 @@
  * month. Files written by netCDF-C's ncgen (test/read/cdl-fixture.ts), values against CDO on the same file within
  * 1e-4. Conventions: src/read/DECISIONS.md §1 (GRIB step semantics, CF 1.11 §7.3) and §4 (monthly values).
  */
-import { spawnSync } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
@@ -61,6 +61,32 @@ describe('forelight extract --reference-time and monthly files', () => {
     expect(wrong.code).toBe(EXIT.inputProblem);
     expect(wrong.stderr.trim().split('\n')).toHaveLength(1);
     expect(wrong.stderr).toMatch(/holds the forecast of 2026-11-23T00:00:00Z but 2026-11-25T00:00:00Z was requested/);
+  });
+
+  it('--reference-time on one file of a source split by member (NCO: ncks -d number,1,1 then ncwa -a number) = cdo on that member', () => {
+    const file = ncgenFixture('extract-ref-members', tmax24);
+    const member = file.replace('.nc', '_m01.nc');
+    execFileSync('ncks', ['-O', '-d', 'number,1,1', file, member]);
+    execFileSync('ncwa', ['-O', '-a', 'number', member, member]);
+    expect(execFileSync('ncdump', ['-h', member], { encoding: 'utf8' })).not.toMatch(/number = /);
+    const r = forelight(
+      'extract',
+      member,
+      '--var',
+      'mx2t24',
+      '--box',
+      BOX_ARG,
+      '--daily',
+      'max',
+      '--reference-time',
+      '2026-11-23',
+      '--json',
+    );
+    expect(r.stderr).toBe('');
+    const printed = JSON.parse(r.stdout);
+    expect(printed.times).toEqual(['2026-11-23', '2026-11-24', '2026-11-25']);
+    const cdo = cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-daymax', '-shifttime,-1sec'], file);
+    expectAsCdo(printed, { dates: cdo.dates, members: [cdo.members[1]] });
   });
 
   it('a monthly-mean file (360_day, month bounds) prints one value per month labelled YYYY-MM, = cdo fldmean, with or without --daily', () => {

@@ -4,9 +4,10 @@
  * YAML line; before any file of the source has arrived only the grid check's note names it. The files are copies of
  * the ncgen fixture sixhourly.nc (their content is not read here). Placeholder conventions: common practice of data
  * portals, no source. A file holding every start along a reference-time dimension (cfgrib's layout of C3S-style
- * hindcasts, written by python3-xarray: multi_start_reference.py; CF 1.11 §4.4 forecast_reference_time) is named
- * with its starts, and the NCO split the message suggests is run on it: each part then reads as one start, with
- * the box means xarray computes on the one file (within 1e-4 K).
+ * hindcasts, written by python3-xarray: multi_start_reference.py; CF 1.11 §4.4 forecast_reference_time) is no
+ * problem: it is listed as one start per index (multi-start-hindcast.test.ts reads them). Read directly (as a
+ * forecast) it is refused, and the NCO split the message suggests is run on it: each part then reads as one start,
+ * with the box means xarray computes on the one file (within 1e-4 K).
  */
 import { execFileSync } from 'node:child_process';
 import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -18,7 +19,7 @@ import type { Config } from '../../src/config/types.ts';
 import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { sourceGridExtents } from '../../src/pipeline/grid-extents.ts';
 import { hindcastPatternProblems } from '../../src/pipeline/pattern-check.ts';
-import { listHindcasts } from '../../src/pipeline/inputs.ts';
+import { listHindcasts } from '../../src/pipeline/hindcast-list.ts';
 import { extractBoxJson } from '../../src/read/extract.ts';
 import type { ForelightError } from '../../src/core/errors.ts';
 
@@ -86,21 +87,27 @@ describe('forelight check on hindcast-files', () => {
     ]);
   });
 
-  it('one file of several starts: the starts are named and the suggested ncks split reads as one start per file (vs xarray)', async () => {
+  it('one file of several starts is no problem (read as one start per index); the split a forecast file is told to make reads as one start per file (vs xarray)', async () => {
     const python = (...args: string[]) => execFileSync('/usr/bin/python3', [REFERENCE, ...args]).toString();
     const { config, lines } = await checked('hc/all.nc', ['data/w_20261123.nc'], (dir) => {
       mkdirSync(join(dir, 'hc'), { recursive: true });
       python('write', join(dir, 'hc/all.nc'));
     });
-    expect(lines, lines.join('\n')).toHaveLength(1);
+    expect(lines).toEqual([]);
     const all = join(dirname(config.file), 'hc/all.nc');
-    expect(lines[0]).toContain(`:8:`);
-    expect(lines[0]).toContain(`source weekly: hindcast-files ${all} holds 3 hindcast starts along 'time' in one file`);
+    expect((await listHindcasts(config.sources[0])).map((h) => [h.start, h.startIndex])).toEqual([
+      ['2010-11-23', 0],
+      ['2011-11-23', 1],
+      ['2012-11-23', 2],
+    ]);
+    const err = (await extractBoxJson(all, { variable: 't2m', box: { south: 0.5, north: 1.5, west: -1, east: 1 } }).catch(
+      (e: unknown) => e,
+    )) as ForelightError;
     const fix =
-      /e\.g\. (ncks -d time,K,K \S+ \S+_YYYYMMDD\.nc) for each start K \(0 = 20101123 … 2 = 20121123\), and point hindcast-files at (\S+_\{date\}\.nc)$/.exec(
-        lines[0],
+      /e\.g\. (ncks -d time,K,K \S+ \S+_YYYYMMDD\.nc) for each start K \(0 = 20101123 … 2 = 20121123\), and point forecast-files at (\S+_\{date\}\.nc) \(hindcast-files reads such a file as it is\)$/.exec(
+        err.diagnostic.hint,
       );
-    expect(fix, lines[0]).not.toBeNull();
+    expect(fix, err.diagnostic.hint).not.toBeNull();
     const starts = ['20101123', '20111123', '20121123'];
     starts.forEach((date, k) => {
       const [tool, ...args] = fix![1].replace('time,K,K', `time,${k},${k}`).replace('YYYYMMDD', date).split(' ');
@@ -108,7 +115,7 @@ describe('forelight check on hindcast-files', () => {
     });
     const split = { ...config.sources[0], hindcast: fix![2] };
     expect((await hindcastPatternProblems({ ...config, sources: [split] }, undefined)).map((d) => d.message)).toEqual([]);
-    const found = listHindcasts(split);
+    const found = await listHindcasts(split);
     expect(found.map((h) => h.start)).toEqual(['2010-11-23', '2011-11-23', '2012-11-23']);
     for (const [k, h] of found.entries()) {
       const expected = JSON.parse(python('boxmean', all, String(k), '1', '-1', '1')) as number[][];
@@ -131,7 +138,7 @@ describe('forelight check on hindcast-files', () => {
     expect(err.code).toBe('reference-several');
     expect(err.message).toMatch(/'time' holds 3 forecast reference times \(one file of several starts\)/);
     expect(err.diagnostic.hint).toBe(
-      `split it into one file per start, e.g. ncks -d time,K,K ${file} ${tmp}/direct_YYYYMMDD.nc for each start K (0 = 20101123 … 2 = 20121123), and point hindcast-files at ${tmp}/direct_{date}.nc`,
+      `split it into one file per start, e.g. ncks -d time,K,K ${file} ${tmp}/direct_YYYYMMDD.nc for each start K (0 = 20101123 … 2 = 20121123), and point forecast-files at ${tmp}/direct_{date}.nc (hindcast-files reads such a file as it is)`,
     );
   });
 });

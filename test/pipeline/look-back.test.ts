@@ -36,12 +36,12 @@ describe('look-back-days', () => {
   it("a months source finds last month's issue by default (35 days); a weeks source does not (10 days) and says what it tried", async () => {
     const seasonal = await setUp('months', '', '2026-10-25');
     expect(seasonal.sources[0].lookbackDays).toBe(35);
-    const [found] = resolveInputs(seasonal, '2026-11-26');
+    const [found] = await resolveInputs(seasonal, '2026-11-26');
     expect(found).toMatchObject({ date: '2026-10-25', stale: true });
 
     const weekly = await setUp('weeks', '', '2026-10-25');
     expect(weekly.sources[0].lookbackDays).toBe(10);
-    const inputs = resolveInputs(weekly, '2026-11-26');
+    const inputs = await resolveInputs(weekly, '2026-11-26');
     expect(inputs[0].path).toBeNull();
     const read = await readAll(weekly, '2026-11-26', inputs);
     expect(read.problems).toHaveLength(1);
@@ -55,7 +55,7 @@ describe('look-back-days', () => {
   it('look-back-days set in the YAML is used, and the file it then finds is the one the message would have named', async () => {
     const config = await setUp('weeks', '    look-back-days: 40\n', '2026-10-25');
     expect(config.sources[0].lookbackDays).toBe(40);
-    expect(resolveInputs(config, '2026-11-26')[0]).toMatchObject({ date: '2026-10-25', stale: true });
+    expect((await resolveInputs(config, '2026-11-26'))[0]).toMatchObject({ date: '2026-10-25', stale: true });
   });
 
   it('a negative look-back-days is a check error at its YAML line and column', async () => {

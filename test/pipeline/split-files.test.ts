@@ -16,8 +16,11 @@ import { formatDiagnostic } from '../../src/core/diagnostics.ts';
 import { unmatchedPatterns } from '../../src/pipeline/pattern-check.ts';
 import { minimalVariant } from '../config/helpers.ts';
 import type { Config } from '../../src/config/types.ts';
-import { listHindcasts, resolveInputs } from '../../src/pipeline/inputs.ts';
-import { readAll, readHindcasts, type ReadResult } from '../../src/pipeline/read-stage.ts';
+import { resolveInputs } from '../../src/pipeline/inputs.ts';
+import { listHindcasts } from '../../src/pipeline/hindcast-list.ts';
+import { readAll, type ReadResult } from '../../src/pipeline/read-stage.ts';
+import { readStart, startRequest } from '../../src/pipeline/hindcast-starts.ts';
+import { extractRegionSeries } from '../../src/read/extract.ts';
 import type { ForelightError } from '../../src/core/errors.ts';
 
 const SIXHOURLY = join(import.meta.dirname, '../fixtures/regions/sixhourly.nc');
@@ -101,7 +104,7 @@ async function configWith(forecastFiles: string): Promise<Config> {
 const dataOf = (config: Config) => join(config.file, '..', 'data');
 
 async function readOn(config: Config, date = '2026-11-23'): Promise<ReadResult> {
-  return readAll(config, date, resolveInputs(config, date));
+  return readAll(config, date, await resolveInputs(config, date));
 }
 
 function expectAsCdo(read: ReadResult): void {
@@ -252,17 +255,18 @@ describe('hindcasts split by variable and member', () => {
           cut(file, v, m, m);
           run('ncatted', '-O', '-a', `units,time,o,c,hours since ${year}-11-23 00:00:00`, file);
         }
-    const starts = listHindcasts(source);
+    const starts = await listHindcasts(source);
     expect(starts.map((h) => [h.start, h.files.existing.length])).toEqual([
       ['2010-11-23', 2 * MEMBERS],
       ['2011-11-23', 2 * MEMBERS],
     ]);
     const problems: ForelightError[] = [];
-    const read = await readHindcasts(source, starts, config.regions, problems);
+    const read = [];
+    for (const h of starts) read.push(await readStart(extractRegionSeries, startRequest(config, source, h, new Map()), problems));
     // Only region 'south' of minimal.yaml, which lies off this grid, is a problem (once per variable file).
     expect(problems.filter((p) => !p.message.includes("region 'south'")).map((p) => p.message)).toEqual([]);
     for (const h of read) {
-      const s = h.series.get('north')?.get('tmax');
+      const s = h?.series.get('north')?.get('tmax');
       expect(s?.members).toBe(MEMBERS);
       for (let m = 0; m < MEMBERS; m++) {
         const cdo = [...reference.tmax[m].values()].slice(1, 4); // 23..25 November (the day before is step 0's)

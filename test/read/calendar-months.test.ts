@@ -8,7 +8,9 @@
 import { execFileSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { aggregateToLeads, buildLeadSpans } from '../../src/calibrate/lead-tiers.ts';
-import type { RegionConfig } from '../../src/config/types.ts';
+import type { IndicatorConfig, RegionConfig } from '../../src/config/types.ts';
+import { computeIndicator } from '../../src/indicators/compute.ts';
+import { monthlySuitability, parseMalariaParams } from '../../src/indicators/malaria-monthly.ts';
 import { extractRegionSeries } from '../../src/read/extract.ts';
 import type { RegionSeries } from '../../src/types.ts';
 import { BOX, CDO_BOX, cdoTable, ncgenFixture, type CdlSpec } from './cdl-fixture.ts';
@@ -102,5 +104,52 @@ describe('month leads of daily model-calendar data are model months, = cdo monme
     expect(months(hcs[0])).toEqual(months(fc));
     // A start 11 days later begins its month leads one model month later, with the same 30-day length.
     expect(months(hcs[1])).toEqual(months(fc).slice(1, 4));
+  });
+
+  it('malaria suitability of a 360_day daily file: model-month means and rain totals = cdo monmean / monsum; its index lies on the lagged model month', async () => {
+    const spec = dailyMeans('360_day', '2026-11-01', 120);
+    const file = ncgenFixture('malaria360', {
+      ...spec,
+      variables: {
+        ...spec.variables,
+        pr: {
+          attributes: { units: 'kg m-2 s-1', cell_methods: 'time: mean' },
+          value: (m, t, y, x) => (1 + ((3 * t + y + 2 * x + m) % 9)) * 2e-5,
+        },
+      },
+    });
+    const r = await extractRegionSeries(file, {
+      quantities: { tmean: 'tas', precip: 'pr' },
+      regions: [region],
+      referenceTime: '2026-11-01',
+    });
+    const inputs = new Map(r.series.map((s) => [s.quantity, s]));
+    const [t, pr] = [inputs.get('tmean')!, inputs.get('precip')!];
+    const malaria = {
+      id: 'malaria',
+      name: 'malaria',
+      kind: 'malaria-suitability',
+      tiers: ['months'],
+      aggregate: 'mean',
+      params: { species: 'falciparum', lagMonths: 1 },
+    } as unknown as IndicatorConfig;
+    const suit = monthlySuitability(t.days, t.members, t.data, pr.data, parseMalariaParams(malaria), { modelCalendar: t.modelCalendar });
+    const cdoT = cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-monmean', '-shifttime,-1sec', '-selname,tas'], file);
+    const cdoR = cdoTable(['-fldmean', `-sellonlatbox,${CDO_BOX}`, '-monsum', '-mulc,86400', '-shifttime,-1sec', '-selname,pr'], file);
+    expect(suit.map((s) => s.dataMonth)).toEqual(cdoT.dates.map((d) => d.slice(0, 7)));
+    expect(suit.map((s) => s.daysInMonth)).toEqual([30, 30, 30, 30]);
+    for (let m = 0; m < 2; m++)
+      suit.forEach((s, k) => {
+        expect(Math.abs(s.tempMeanC[m] - (cdoT.members[m][k] - KELVIN))).toBeLessThanOrEqual(1e-4);
+        expect(Math.abs(s.rainTotalMm[m] - cdoR.members[m][k])).toBeLessThanOrEqual(1e-4 * cdoR.members[m][k]);
+      });
+    const index = computeIndicator(malaria, inputs);
+    const leads = aggregateToLeads(index, 'months', 'mean');
+    expect(leads.leads.map((l) => l.modelMonth)).toEqual(['2026-12', '2027-01', '2027-02', '2027-03']);
+    expect(index.days).toHaveLength(120);
+    leads.leads.forEach((l, k) => {
+      expect(l.start).toBe(index.days[30 * k]);
+      for (let m = 0; m < 2; m++) expect(leads.values[m * 4 + k]).toBeCloseTo(suit[k].index[m], 12);
+    });
   });
 });

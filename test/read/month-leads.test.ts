@@ -11,6 +11,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { aggregateToLeads } from '../../src/calibrate/lead-tiers.ts';
 import type { RegionConfig } from '../../src/config/types.ts';
 import { daysInMonth } from '../../src/core/iso-dates.ts';
 import { extractBoxJson, extractRegionSeries } from '../../src/read/extract.ts';
@@ -36,11 +37,17 @@ const modelDays = (file: string, month: string): number =>
   file === 'leadtime-360.nc' ? 30 : daysInMonth(Number(month.slice(0, 4)), Number(month.slice(5, 7)));
 
 describe('lead axes in months (xarray-written) vs numpy monthly box means', () => {
-  it.each(FILES)('%s: extract prints one value per month, = numpy', async (file) => {
+  it.each(FILES)('%s: extract prints one value per month, = numpy and = the month tier', async (file) => {
     const got = await extractBoxJson(join(tmp, file), { variable: 't2m', box: BOX });
     expect(got.times).toEqual(expected.months[file]);
     got.members.forEach((row, m) =>
       row.forEach((v, k) => expect(Math.abs((v as number) + 273.15 - expected.t2m[m][k])).toBeLessThanOrEqual(1e-4)),
+    );
+    const { series } = await extractRegionSeries(join(tmp, file), { quantities: { tmean: 't2m' }, regions: [REGION], tier: 'months' });
+    const tier = aggregateToLeads({ ...series[0], indicator: 't', outOfRange: 0, missing: 0 }, 'months', 'mean');
+    expect(tier.leads.map((l) => l.start.slice(0, 7))).toEqual(got.times);
+    got.members.forEach((row, m) =>
+      row.forEach((v, k) => expect(Math.abs((v as number) - tier.values[m * 6 + k])).toBeLessThanOrEqual(1e-9)),
     );
   });
 

@@ -6,11 +6,11 @@ import { tunedThresholds } from '../../pipeline/decide-now.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
-import { progressBar } from '../progress.ts';
+import { progressReporter, startProgress } from '../progress.ts';
 
 export async function backtestCommand(args: ParsedArgs): Promise<number> {
   const { config, run } = await commandContext(args, 'backtest');
-  const analysis = await analyse(config, run, { onProgress: progressBar('backtest') });
+  const analysis = await analyse(config, run, { onProgress: progressReporter('backtest', run), onStartReduced: startProgress(run) });
   const cases = backtestCases(config, analysis);
   const rows = backtestRules(config, cases, { thresholdsFromCostLoss: tunedThresholds(analysis) });
   process.stdout.write(formatBacktest(rows, args.options.csv ? 'csv' : 'text'));

@@ -8,12 +8,15 @@ import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import type { ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
-import { progressBar } from '../progress.ts';
+import { progressReporter, startProgress } from '../progress.ts';
 
 export async function diffCommand(args: ParsedArgs): Promise<number> {
   const { config, run } = await commandContext(args, 'diff');
   const { issueDate } = run;
-  const { analysis, decided, previous } = await decideNow(config, run, { onProgress: progressBar('diff') });
+  const { analysis, decided, previous } = await decideNow(config, run, {
+    onProgress: progressReporter('diff', run),
+    onStartReduced: startProgress(run),
+  });
   const changes = diffStages(previous, decided.regionStages, decided.decisions);
   const lines = [
     `dry run for ${issueDate} (nothing stored or sent); compared with the last issued bulletin${previous.length === 0 ? ' (none yet)' : ''}`,

@@ -13,6 +13,7 @@ import { describeError } from '../../core/errors.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
 import { connectCluster } from '../../cluster/coordinator.ts';
 import { commandContext } from '../context.ts';
+import { startProgress } from '../progress.ts';
 import type { RunContext } from '../../core/run-context.ts';
 
 /** A lock older than this is stale even if its process still lives (same as the service's default). */
@@ -68,7 +69,14 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   const url = stringOption(args, 'cluster');
   const cluster = url ? await connectCluster(url, { log: run.log, cacheDir: config.calibration.cacheDir }) : null;
   try {
-    const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true, extract: cluster?.extract });
+    const outcome = await runOnce({
+      config,
+      run,
+      mode: 'live',
+      force: args.options.force === true,
+      readers: cluster ?? undefined,
+      onStartReduced: startProgress(run),
+    });
     const recorded = recordStatus(config, makeRunReport('manual', startedAt, new Date(), outcome.exitCode, outcome.summary));
     printOutcome(outcome);
     return !recorded && outcome.exitCode === EXIT.ok ? EXIT.deliveryFailed : outcome.exitCode;

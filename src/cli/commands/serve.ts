@@ -7,7 +7,7 @@ import { loadConfig } from '../../config/load-config.ts';
 import { createLogger, type Logger } from '../../core/log.ts';
 import { runContext } from '../../core/run-context.ts';
 import type { Config } from '../../config/types.ts';
-import type { Extractor } from '../../read/extract.ts';
+import type { Readers } from '../../pipeline/analyse.ts';
 import { connectCluster } from '../../cluster/coordinator.ts';
 import { localDate } from '../../pipeline/bulletin-run.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
@@ -16,6 +16,7 @@ import { waitForInputs } from '../../schedule/input-arrival.ts';
 import { namedForecastFiles } from '../../pipeline/split-files.ts';
 import { runService } from '../../schedule/run-service.ts';
 import { stringOption, type ParsedArgs } from '../args.ts';
+import { startProgress } from '../progress.ts';
 
 export async function serveCommand(args: ParsedArgs): Promise<number> {
   const config = await loadConfig(stringOption(args, 'config'));
@@ -23,14 +24,14 @@ export async function serveCommand(args: ParsedArgs): Promise<number> {
   const url = stringOption(args, 'cluster');
   const cluster = url ? await connectCluster(url, { log, cacheDir: config.calibration.cacheDir }) : null;
   try {
-    await serve(config, log, cluster?.extract);
+    await serve(config, log, cluster ?? undefined);
   } finally {
     await cluster?.close();
   }
   return EXIT.ok;
 }
 
-async function serve(config: Config, log: Logger, extract: Extractor | undefined): Promise<void> {
+async function serve(config: Config, log: Logger, readers: Readers | undefined): Promise<void> {
   await runService({
     config,
     log,
@@ -47,7 +48,8 @@ async function serve(config: Config, log: Logger, extract: Extractor | undefined
           exitCode: EXIT.stopped,
           summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it`,
         };
-      return runOnce({ config, run: runContext({ log: rlog, issueDate, signal }), mode: 'live', extract });
+      const run = runContext({ log: rlog, issueDate, signal });
+      return runOnce({ config, run, mode: 'live', readers, onStartReduced: startProgress(run) });
     },
   });
 }

@@ -13,7 +13,7 @@ import { formatDiagnostic } from '../../core/diagnostics.ts';
 import { EXIT } from '../../core/exit-codes.ts';
 import { stringOption, usageError, type ParsedArgs } from '../args.ts';
 import { commandContext } from '../context.ts';
-import { progressBar } from '../progress.ts';
+import { progressReporter, startProgress } from '../progress.ts';
 
 type Filter = { source?: string; region?: string; indicator?: string };
 
@@ -38,7 +38,7 @@ export async function skillCommand(args: ParsedArgs): Promise<number> {
   const { config, run } = await commandContext(args, 'skill');
   const format = args.options.csv ? 'csv' : 'text';
   const keep = filters(args, config);
-  const analysis = await analyse(config, run, { onProgress: progressBar('skill') });
+  const analysis = await analyse(config, run, { onProgress: progressReporter('skill', run), onStartReduced: startProgress(run) });
   const wanted = (ids: Filter) =>
     (['source', 'region', 'indicator'] as const).every((k) => keep[k] === undefined || ids[k] === undefined || keep[k] === ids[k]);
   const climates = analysis.sources

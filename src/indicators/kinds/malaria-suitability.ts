@@ -1,8 +1,10 @@
 /**
  * Indicator kind malaria-suitability: monthly climate suitability for Plasmodium transmission (fuzzy AND of one
  * temperature term, by default Craig et al. 1999, and the Craig rainfall membership), put on every day of the month it speaks for
- * (data month + lag-months). Parameters and defaults: parseMalariaParams (malaria-monthly.ts).
+ * (data month + lag-months; in a model calendar the model month, src/read/DECISIONS.md §3). Parameters and defaults:
+ * parseMalariaParams (malaria-monthly.ts).
  */
+import { modelMonthDays } from '../../core/calendar-days.ts';
 import { datesOfMonth } from '../../core/iso-dates.ts';
 import { defineIndicator, paramsSchema } from '../definition.ts';
 import { meanTemperature } from '../kind-inputs.ts';
@@ -55,21 +57,27 @@ export const definition = defineIndicator<'malaria-suitability', MalariaSuitabil
     const t = meanTemperature(ind, inputs, notes);
     const pr = requireQuantity(inputs, 'precip', ind.id, 'monthly rainfall for the Craig membership');
     checkAligned([t, pr]);
-    const months = monthlySuitability(t.days, t.members, t.data, pr.data, p).filter((mo) => {
+    const model = t.modelCalendar;
+    const months = monthlySuitability(t.days, t.members, t.data, pr.data, p, { modelCalendar: model }).filter((mo) => {
       const ok = mo.forecastDays / mo.daysInMonth >= p.minMonthCoverage;
       if (!ok)
         notes.push(`month ${mo.dataMonth} has forecast for ${mo.forecastDays} of ${mo.daysInMonth} days: no index for ${mo.targetMonth}`);
       return ok;
     });
-    const days = months.flatMap((mo) => datesOfMonth(mo.targetMonth));
+    // The target month's days: real dates, and in a model calendar the real dates of that model month's days.
+    const targets = months.map((mo) =>
+      model ? modelMonthDays(model, t.days[0], mo.targetMonth) : { real: datesOfMonth(mo.targetMonth), model: [] },
+    );
+    const days = targets.flatMap((d) => d.real);
     const data = new Float64Array(t.members * days.length);
     let col = 0;
-    for (const mo of months) {
-      const n = datesOfMonth(mo.targetMonth).length;
+    months.forEach((mo, k) => {
+      const n = targets[k].real.length;
       for (let m = 0; m < t.members; m++) data.fill(mo.index[m], m * days.length + col, m * days.length + col + n);
       col += n;
-    }
+    });
     notes.push(`monthly index (month + ${p.lagMonths} lag) repeated on every day of the month it speaks for`);
-    return { template: t, data, outOfRange: 0, notes, days };
+    const modelCalendar = model ? { modelCalendar: { calendar: model.calendar, days: targets.flatMap((d) => d.model) } } : {};
+    return { template: t, data, outOfRange: 0, notes, days, ...modelCalendar };
   },
 });
