@@ -8,6 +8,8 @@ export interface ParsedArgs {
   readonly command: string | undefined;
   readonly positionals: readonly string[];
   readonly options: Readonly<Record<string, string | true>>;
+  /** Every value of each option that takes values, in command-line order. */
+  readonly values: Readonly<Record<string, readonly string[]>>;
 }
 
 export interface OptionSpec {
@@ -15,6 +17,8 @@ export interface OptionSpec {
   readonly values: readonly string[];
   /** Options that are plain switches. */
   readonly flags: readonly string[];
+  /** Options that may be given more than once (each value kept); any other given twice is an error. */
+  readonly repeatable?: readonly string[];
 }
 
 export function parseArgs(argv: readonly string[], specFor: (command: string | undefined) => OptionSpec): ParsedArgs {
@@ -23,6 +27,7 @@ export function parseArgs(argv: readonly string[], specFor: (command: string | u
   const spec = specFor(command);
   const positionals: string[] = [];
   const options: Record<string, string | true> = {};
+  const values: Record<string, string[]> = {};
   for (let i = 0; i < rest.length; i++) {
     const arg = rest[i];
     if (!arg.startsWith('--')) {
@@ -36,12 +41,14 @@ export function parseArgs(argv: readonly string[], specFor: (command: string | u
     } else if (spec.values.includes(name)) {
       const value = eq >= 0 ? arg.slice(eq + 1) : rest[++i];
       if (value === undefined) throw usageError(`option --${name} needs a value`);
+      if (values[name] && !spec.repeatable?.includes(name)) throw usageError(`option --${name} is given more than once`);
       options[name] = value;
+      (values[name] ??= []).push(value);
     } else {
       throw usageError(`unknown option --${name} for '${command ?? ''}'`);
     }
   }
-  return { command, positionals, options };
+  return { command, positionals, options, values };
 }
 
 export function usageError(message: string): ForelightError {
@@ -51,4 +58,9 @@ export function usageError(message: string): ForelightError {
 export function stringOption(args: ParsedArgs, name: string): string | undefined {
   const v = args.options[name];
   return typeof v === 'string' ? v : undefined;
+}
+
+/** Every value of a repeatable option, in order (none: empty). */
+export function stringOptions(args: ParsedArgs, name: string): readonly string[] {
+  return args.values[name] ?? [];
 }

@@ -25,8 +25,8 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   run: {
     summary: 'one pass now over the newest inputs: read, compute, decide, render, deliver',
-    usage: 'forelight run [--config FILE] [--date YYYY-MM-DD] [--force] [--dry-run] [--cluster redis://HOST:PORT]',
-    spec: { values: ['config', 'date', 'cluster'], flags: ['force', 'dry-run'] },
+    usage: 'forelight run [--config FILE]... [--date YYYY-MM-DD] [--force] [--dry-run] [--cluster redis://HOST:PORT]',
+    spec: { values: ['config', 'date', 'cluster'], flags: ['force', 'dry-run'], repeatable: ['config'] },
     run: async (a) => (await import('./commands/run.ts')).runCommand(a),
   },
   check: {
@@ -38,7 +38,7 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   extract: {
     summary: 'print the decoded, area-weighted region series of one file as JSON',
     usage:
-      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE] [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json',
+      'forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P]) [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE] [--start K] [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json',
     spec: {
       values: [
         'var',
@@ -51,6 +51,7 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
         'time-zone',
         'cells',
         'reference-time',
+        'start',
         'population',
         'population-variable',
         'population-values',
@@ -92,8 +93,8 @@ const COMMANDS: Readonly<Record<string, CommandDef>> = {
   },
   serve: {
     summary: 'service mode: run on the configured schedule until stopped (SIGTERM)',
-    usage: 'forelight serve [--config FILE] [--cluster redis://HOST:PORT]',
-    spec: { values: ['config', 'cluster'], flags: [] },
+    usage: 'forelight serve [--config FILE]... [--cluster redis://HOST:PORT]',
+    spec: { values: ['config', 'cluster'], flags: [], repeatable: ['config'] },
     run: async (a) => (await import('./commands/serve.ts')).serveCommand(a),
   },
   ledger: {

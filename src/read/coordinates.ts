@@ -211,7 +211,7 @@ export function splitStartsFix(file: string, ref: ReferenceTimes): string {
   return (
     `split it into one file per start, e.g. ncks -d ${ref.dimension},K,K ${file} ${stem}_YYYYMMDD.nc for each start K ` +
     `(0 = ${compact(ref.timesMs[0])} … ${n - 1} = ${compact(ref.timesMs[n - 1])}), and point forecast-files at ${stem}_{date}.nc ` +
-    '(hindcast-files reads such a file as it is)'
+    '(hindcast-files reads such a file as it is; forelight extract --start K reads start K)'
   );
 }
 

@@ -13,6 +13,7 @@ import { valuesAccumulate } from './accumulation-probe.ts';
 import { checkReference, planTime, referenceWindowMs, requestedMs } from './extract-plan.ts';
 import { reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
+import { oneStart } from './start-slice.ts';
 import { planBand } from './regions-band.ts';
 import { missingUnitsError, planUnits, type UnitPlan } from './units.ts';
 import { regionSelection } from './weighted-selection.ts';
@@ -99,10 +100,11 @@ export function extractRegionsJson(
   variable: string,
   regions: readonly RegionConfig[],
   daily: DailyMethod | null,
-  population: PopulationConfig | null = null,
-  referenceTime?: string,
+  options: { readonly population?: PopulationConfig | null; readonly referenceTime?: string; readonly startIndex?: number } = {},
 ): Promise<RegionsExtractJson> {
-  return withDataset(path, async (ds) => {
+  const { population = null, referenceTime, startIndex } = options;
+  return withDataset(path, async (file) => {
+    const ds = startIndex === undefined ? file : oneStart(file, startIndex, variable);
     const means = await rawRegionMeans(ds, variable, regions, daily, null, population, referenceTime);
     return {
       units: means.units,

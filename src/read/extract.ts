@@ -177,6 +177,8 @@ export interface BoxExtractOptions {
   readonly cellRule?: CellRule;
   /** The forecast's reference time (ISO date or instant), as `run` takes it from the file name; checked against the file. */
   readonly referenceTime?: string;
+  /** In a file holding several starts along a reference-time dimension: the index of the start to read (start-slice.ts). */
+  readonly startIndex?: number;
 }
 
 /** What `forelight extract … --json` prints: values in the file's own units, members in file order. */
@@ -208,5 +210,7 @@ export async function extractBoxFromDataset(ds: Dataset, opts: BoxExtractOptions
 
 /** `forelight extract <file> --var … --box S,N,W,E [--daily m] [--utc-offset h] --json`: opens, extracts, closes. */
 export function extractBoxJson(path: string, opts: BoxExtractOptions): Promise<BoxExtractJson> {
-  return withDataset(path, (ds) => extractBoxFromDataset(ds, opts));
+  return withDataset(path, (ds) =>
+    extractBoxFromDataset(opts.startIndex === undefined ? ds : oneStart(ds, opts.startIndex, opts.variable), opts),
+  );
 }

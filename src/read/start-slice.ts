@@ -17,8 +17,8 @@ export function startsDimension(ds: Dataset): DimensionInfo | null {
   return dim && dim.size > 1 ? dim : null;
 }
 
-/** `ds` seen as its start `index` alone (see the module comment). */
-export function oneStart(ds: Dataset, index: number): Dataset {
+/** `ds` seen as its start `index` alone (see the module comment); with `variable`, that variable must have the starts dimension. */
+export function oneStart(ds: Dataset, index: number, variable?: string): Dataset {
   const dim = startsDimension(ds);
   if (!dim)
     throw new InputError(
@@ -45,6 +45,8 @@ export function oneStart(ds: Dataset, index: number): Dataset {
     return start.map((s, k) => (k === axis ? s + index : s));
   };
   const readRawAt = ds.readRawAt?.bind(ds);
+  const info = variable === undefined ? undefined : ds.variable(variable);
+  if (info) requireStartsDimension(ds, info);
   return {
     path: ds.path,
     format: ds.format,

@@ -104,7 +104,7 @@ describe('forelight check on hindcast-files', () => {
       (e: unknown) => e,
     )) as ForelightError;
     const fix =
-      /e\.g\. (ncks -d time,K,K \S+ \S+_YYYYMMDD\.nc) for each start K \(0 = 20101123 … 2 = 20121123\), and point forecast-files at (\S+_\{date\}\.nc) \(hindcast-files reads such a file as it is\)$/.exec(
+      /e\.g\. (ncks -d time,K,K \S+ \S+_YYYYMMDD\.nc) for each start K \(0 = 20101123 … 2 = 20121123\), and point forecast-files at (\S+_\{date\}\.nc) \(hindcast-files reads such a file as it is; forelight extract --start K reads start K\)$/.exec(
         err.diagnostic.hint,
       );
     expect(fix, err.diagnostic.hint).not.toBeNull();
@@ -138,7 +138,7 @@ describe('forelight check on hindcast-files', () => {
     expect(err.code).toBe('reference-several');
     expect(err.message).toMatch(/'time' holds 3 forecast reference times \(one file of several starts\)/);
     expect(err.diagnostic.hint).toBe(
-      `split it into one file per start, e.g. ncks -d time,K,K ${file} ${tmp}/direct_YYYYMMDD.nc for each start K (0 = 20101123 … 2 = 20121123), and point forecast-files at ${tmp}/direct_{date}.nc (hindcast-files reads such a file as it is)`,
+      `split it into one file per start, e.g. ncks -d time,K,K ${file} ${tmp}/direct_YYYYMMDD.nc for each start K (0 = 20101123 … 2 = 20121123), and point forecast-files at ${tmp}/direct_{date}.nc (hindcast-files reads such a file as it is; forelight extract --start K reads start K)`,
     );
   });
 });

@@ -1,11 +1,12 @@
 /**
  * `forelight extract <file> --var NAME (--box S,N,W,E | --regions FILE [--id-property P] [--name-property P])
- * [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE]
+ * [--daily max|min|mean|sum] [--utc-offset H | --time-zone ZONE] [--cells overlap|centre] [--reference-time DATE] [--start K]
  * [--population RASTER [--population-variable V] [--population-values people-per-pixel|people-per-km2]] --json`:
  * prints exactly what Forelight sees in a file for one box or for every region of a boundary file, as JSON;
  * with --population the region means are weighted by the people of that raster (NetCDF or GeoTIFF). --reference-time
  * is the forecast date `run` takes from the file name: periods are then read from it and the file is checked against
- * it, as in a run. A monthly-mean file prints one value per month (times `YYYY-MM`), with or without --daily.
+ * it, as in a run. --start K reads start K of a file holding several starts along a reference-time dimension, as a
+ * run reads each hindcast start of such a file. A monthly-mean file prints one value per month (times `YYYY-MM`), with or without --daily.
  */
 import { resolve } from 'node:path';
 import { loadBoundarySet } from '../../config/boundaries/boundary-sets.ts';
@@ -62,6 +63,15 @@ function clockOptions(args: ParsedArgs): { utcOffsetHours: number; timeZone?: st
   return { utcOffsetHours };
 }
 
+/** `--start K`: one start of a file holding several along a reference-time dimension (0 = the first). */
+function startOption(args: ParsedArgs): { startIndex?: number } {
+  const text = stringOption(args, 'start');
+  if (text === undefined) return {};
+  if (!/^\d+$/.test(text))
+    throw usageError(`--start must be a start index 0, 1, … along the file's reference-time dimension, got '${text}'`);
+  return { startIndex: Number(text) };
+}
+
 async function regionsJson(
   file: string,
   variable: string,
@@ -75,7 +85,11 @@ async function regionsJson(
   if (set.problems.length > 0) throw usageError(set.problems.map((p) => `${p.message} — ${p.fix}`).join('\n'));
   const population = populationOption(args);
   const regions = population ? set.regions.map((r) => ({ ...r, weighting: 'population' as const })) : set.regions;
-  return extractRegionsJson(file, variable, regions, daily ?? null, population, stringOption(args, 'reference-time'));
+  return extractRegionsJson(file, variable, regions, daily ?? null, {
+    population,
+    referenceTime: stringOption(args, 'reference-time'),
+    ...startOption(args),
+  });
 }
 
 export async function extractCommand(args: ParsedArgs): Promise<number> {
@@ -104,6 +118,7 @@ export async function extractCommand(args: ParsedArgs): Promise<number> {
           ...clockOptions(args),
           ...(cellRule ? { cellRule } : {}),
           referenceTime: stringOption(args, 'reference-time'),
+          ...startOption(args),
         });
   process.stdout.write(JSON.stringify(result) + '\n');
   return EXIT.ok;

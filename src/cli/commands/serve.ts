@@ -2,12 +2,15 @@
  * `forelight serve`: service mode. At each slot of the configured schedule it waits (until the configured
  * deadline) for the forecast files of the day, then runs once; a late source falls back to its previous
  * forecast with "based on the forecast of <date>" wording, and nothing new means a notice to the operators.
+ * Several `--config`: one service per configuration (own lock, status file, ledger and outputs), reads shared at a slot.
  */
 import { loadConfig } from '../../config/load-config.ts';
 import { createLogger, type Logger } from '../../core/log.ts';
 import { runContext } from '../../core/run-context.ts';
 import type { Config } from '../../config/types.ts';
-import type { Readers } from '../../pipeline/analyse.ts';
+import type { StartReducer } from '../../pipeline/hindcast-starts.ts';
+import { checkSeparateOutputs, slotReads } from '../../pipeline/run-several.ts';
+import type { Extractor } from '../../read/extract.ts';
 import { connectCluster } from '../../cluster/coordinator.ts';
 import { localDate } from '../../pipeline/bulletin-run.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
@@ -15,23 +18,33 @@ import { EXIT } from '../../core/exit-codes.ts';
 import { waitForInputs } from '../../schedule/input-arrival.ts';
 import { namedForecastFiles } from '../../pipeline/split-files.ts';
 import { runService } from '../../schedule/run-service.ts';
-import { stringOption, type ParsedArgs } from '../args.ts';
+import { stringOption, stringOptions, type ParsedArgs } from '../args.ts';
 import { startProgress } from '../progress.ts';
 
+/** With `--config` repeated, one service per configuration in this process; those due at the same slot share reads. */
 export async function serveCommand(args: ParsedArgs): Promise<number> {
-  const config = await loadConfig(stringOption(args, 'config'));
-  const log = createLogger({ base: { command: 'serve' } });
+  const files = stringOptions(args, 'config');
+  const configs: Config[] = [];
+  for (const file of files.length > 0 ? files : [undefined]) configs.push(await loadConfig(file));
+  checkSeparateOutputs(configs);
+  const logFor = (config: Config) => createLogger({ base: { command: 'serve', ...(configs.length > 1 ? { config: config.file } : {}) } });
   const url = stringOption(args, 'cluster');
-  const cluster = url ? await connectCluster(url, { log, cacheDir: config.calibration.cacheDir }) : null;
+  const cluster = url ? await connectCluster(url, { log: logFor(configs[0]), cacheDir: configs[0].calibration.cacheDir }) : null;
+  const readsAt = slotReads(configs, cluster?.extract);
   try {
-    await serve(config, log, cluster ?? undefined);
+    await Promise.all(configs.map((config, i) => serve(config, logFor(config), (slot) => readsAt(i, slot), cluster?.reduceStart)));
   } finally {
     await cluster?.close();
   }
   return EXIT.ok;
 }
 
-async function serve(config: Config, log: Logger, readers: Readers | undefined): Promise<void> {
+async function serve(
+  config: Config,
+  log: Logger,
+  readsAt: (slot: Date) => { extract: Extractor; finished: () => void },
+  reduceStart: StartReducer | undefined,
+): Promise<void> {
   await runService({
     config,
     log,
@@ -49,7 +62,18 @@ async function serve(config: Config, log: Logger, readers: Readers | undefined):
           summary: `stopped by a signal before issuing ${issueDate}; nothing was issued, the next start runs it`,
         };
       const run = runContext({ log: rlog, issueDate, signal });
-      return runOnce({ config, run, mode: 'live', readers, onStartReduced: startProgress(run) });
+      const reads = readsAt(slot);
+      try {
+        return await runOnce({
+          config,
+          run,
+          mode: 'live',
+          readers: { extract: reads.extract, reduceStart },
+          onStartReduced: startProgress(run),
+        });
+      } finally {
+        reads.finished();
+      }
     },
   });
 }
