@@ -63,13 +63,22 @@ export function stackYears(
   return { climate: { years: used.map((y) => y.year), members, leads: longest.leads.leads, units, values }, problems };
 }
 
+const samples = new WeakMap<LeadClimate, Map<string, Float64Array>>();
+
 /**
  * Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. A
  * trend-aware climate's values are re-centred on its issue year, or, leaving one year out, on that year with the
- * trend fitted without it (trend-climate.ts).
+ * trend fitted without it (trend-climate.ts). Computed once per climate, lead and left-out year (a lead's
+ * probability, base rate, threshold checks and terciles each ask for the same sample); the array is shared, so
+ * callers only read it.
  */
 export function leadSample(c: LeadClimate, l: number, excludeYear?: number): Float64Array {
-  return sortValid(recentredValues(c, l, excludeYear));
+  let byLead = samples.get(c);
+  if (!byLead) samples.set(c, (byLead = new Map()));
+  const key = `${l} ${excludeYear ?? ''}`;
+  let sample = byLead.get(key);
+  if (!sample) byLead.set(key, (sample = sortValid(recentredValues(c, l, excludeYear))));
+  return sample;
 }
 
 /** Values of the members of one year (position y) at lead position l. */
