@@ -259,6 +259,12 @@ export const DIAGNOSTIC_CODES = {
     meaning: 'the variable has a dimension Forelight cannot reduce',
     fix: 'select one level first (e.g. `ncks -d level,0`)',
   },
+  'time-order': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the time or lead axis is not strictly increasing (CF 1.11 §5: coordinate values are strictly monotonic)',
+    fix: 'sort the steps (`cdo sorttimestamp in.nc out.nc` for an absolute time axis) or ask the provider for the file again',
+  },
   'time-overlap': {
     stage: 'read',
     severity: 'error',
