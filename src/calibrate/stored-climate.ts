@@ -43,6 +43,7 @@ const storedLeadClimate = {
         },
         units: { type: 'string' },
         values: { type: 'string' },
+        recentreOn: { type: 'integer' },
       },
       required: ['years', 'members', 'leads', 'units', 'values'],
     },
