@@ -136,8 +136,8 @@ export const DIAGNOSTIC_CODES = {
   'input-format': {
     stage: 'read',
     severity: 'error',
-    meaning: 'the file is not NetCDF (classic or NetCDF-4)',
-    fix: 'check the source path; convert the file to NetCDF',
+    meaning: 'the file is neither NetCDF (classic or NetCDF-4) nor GRIB',
+    fix: 'check the source path; unpack a gzip or zip download first (the message gives the command); download an empty or text file again',
   },
   'input-truncated': {
     stage: 'read',
