@@ -233,7 +233,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'error',
     meaning: 'the grid is curvilinear (2-D latitude/longitude)',
-    fix: 'regrid to a regular latitude-longitude grid (e.g. `cdo remapbil`)',
+    fix: 'regrid to a regular latitude-longitude grid (e.g. `cdo remapbil,r360x180 in.nc regular.nc` for 1°)',
   },
   'no-coordinate': {
     stage: 'read',
