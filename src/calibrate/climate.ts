@@ -6,6 +6,7 @@ import type { LeadWindow } from '../types.ts';
 import type { LeadValues } from './lead-tiers.ts';
 import { diagnostic, type Diagnostic, type Place } from '../core/diagnostics.ts';
 import { sortValid } from '../core/percentile.ts';
+import { recentredValues } from './trend-climate.ts';
 
 export interface LeadClimate {
   /**
@@ -17,8 +18,13 @@ export interface LeadClimate {
   /** Lead windows of the first year (labels); year y's windows are the same leads in year y. */
   readonly leads: readonly LeadWindow[];
   readonly units: string;
-  /** [year][member][lead]: values[(y * members + m) * leads.length + l], NaN where missing. */
+  /** [year][member][lead]: values[(y * members + m) * leads.length + l], NaN where missing; as read, never detrended. */
   readonly values: Float64Array;
+  /**
+   * Set when the climate is trend-aware (trend-climate.ts): the year its samples are re-centred on (the issue
+   * year). `leadSample` then detrends every lead and moves it to this year, or to the held-out year.
+   */
+  readonly recentreOn?: number;
 }
 
 /**
@@ -60,27 +66,19 @@ export function stackYears(
 const samples = new WeakMap<LeadClimate, Map<string, Float64Array>>();
 
 /**
- * Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. Computed once
- * per climate, lead and left-out year (a lead's probability, base rate, threshold checks and terciles each ask for
- * the same sample); the array is shared, so callers only read it.
+ * Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. A
+ * trend-aware climate's values are re-centred on its issue year, or, leaving one year out, on that year with the
+ * trend fitted without it (trend-climate.ts). Computed once per climate, lead and left-out year (a lead's
+ * probability, base rate, threshold checks and terciles each ask for the same sample); the array is shared, so
+ * callers only read it.
  */
 export function leadSample(c: LeadClimate, l: number, excludeYear?: number): Float64Array {
   let byLead = samples.get(c);
   if (!byLead) samples.set(c, (byLead = new Map()));
   const key = `${l} ${excludeYear ?? ''}`;
   let sample = byLead.get(key);
-  if (!sample) byLead.set(key, (sample = sortedLeadSample(c, l, excludeYear)));
+  if (!sample) byLead.set(key, (sample = sortValid(recentredValues(c, l, excludeYear))));
   return sample;
-}
-
-function sortedLeadSample(c: LeadClimate, l: number, excludeYear: number | undefined): Float64Array {
-  const nLeads = c.leads.length;
-  const out = new Float64Array(c.years.length * c.members).fill(Number.NaN);
-  for (let y = 0; y < c.years.length; y++) {
-    if (c.years[y] === excludeYear) continue;
-    for (let m = 0; m < c.members; m++) out[y * c.members + m] = c.values[(y * c.members + m) * nLeads + l];
-  }
-  return sortValid(out);
 }
 
 /** Values of the members of one year (position y) at lead position l. */

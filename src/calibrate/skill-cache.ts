@@ -20,8 +20,11 @@ import { buildIndicatorClimate, observedContext, type CalibrateContext, type Ind
 import { tierPairs, type StartReduction } from './start-reduction.ts';
 import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
 
-/** 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). 11: lead values as base64 doubles. */
-export const SKILL_CACHE_VERSION = 11;
+/**
+ * 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). 11: lead values as base64
+ * doubles. 12: trend-aware climates carry the year they are re-centred on (LeadClimate.recentreOn).
+ */
+export const SKILL_CACHE_VERSION = 12;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {

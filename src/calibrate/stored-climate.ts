@@ -53,6 +53,7 @@ const storedLeadClimate = {
         },
         units: { type: 'string' },
         values: { type: 'string' },
+        recentreOn: { type: 'integer' },
       },
       required: ['years', 'members', 'leads', 'units', 'values'],
     },
