@@ -10,23 +10,26 @@
  */
 import { createHash } from 'node:crypto';
 import { Queue, QueueEvents } from 'bullmq';
-import { ForelightError, InputError } from '../core/errors.ts';
+import { describeError, ForelightError, InputError } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
 import type { Logger } from '../core/log.ts';
 import type { StartOutcome, StartReducer, StartRequest } from '../pipeline/hindcast-starts.ts';
 import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.ts';
 import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
 import { fromWireStart, START_JOB, startInputs, startJobId, type WireStart } from './start-jobs.ts';
+import { fromRegionAnswer, REGION_JOB, regionJobId, toWireRegionJob, type WireRegionAnswer, type WireRegionJob } from './region-jobs.ts';
+import { calibrateRegion as calibrateLocally, type RegionCalibrator, type RegionJob } from '../calibrate/region-calibration.ts';
+import type { StoredClimate } from '../calibrate/stored-climate.ts';
 import { fromWire, type ExtractJob, type WireResult } from './wire.ts';
 
 export interface ClusterClient {
-  readonly extract: Extractor;
-  readonly reduceStart: StartReducer;
+  /** Reads, hindcast-start reductions and region calibrations, each by the workers (a run's `readers`). */
+  readonly readers: { readonly extract: Extractor; readonly reduceStart: StartReducer; readonly calibrateRegion: RegionCalibrator };
   close(): Promise<void>;
 }
 
-export type ClusterJob = ExtractJob | StartRequest;
-export type ClusterAnswer = WireResult | WireStart;
+export type ClusterJob = ExtractJob | StartRequest | WireRegionJob;
+export type ClusterAnswer = WireResult | WireStart | WireRegionAnswer;
 
 export interface ClusterOptions {
   readonly log: Logger;
@@ -117,9 +120,25 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     }
   };
 
+  // A region the workers cannot calibrate is calibrated here (the same pure computation): the run never lacks it.
+  const calibrateRegion = async (job: RegionJob): Promise<StoredClimate[]> => {
+    const wire = toWireRegionJob(job);
+    const what = `source ${job.source.id}, region ${job.config.regions[0]?.id}`;
+    try {
+      return fromRegionAnswer(await answer<WireRegionAnswer>(REGION_JOB, regionJobId(wire), wire, what));
+    } catch (err) {
+      options.log.warn('region calibrated by the coordinator: its cluster job failed', {
+        stage: 'calibrate',
+        region: what,
+        error: describeError(err),
+      });
+      return calibrateLocally(job);
+    }
+  };
+
+  const parallel = { parallel: options.parallel ?? 64 };
   return {
-    extract,
-    reduceStart: Object.assign(reduceStart, { parallel: options.parallel ?? 64 }),
+    readers: { extract, reduceStart: Object.assign(reduceStart, parallel), calibrateRegion: Object.assign(calibrateRegion, parallel) },
     close: async () => {
       await checksums.save();
       await Promise.allSettled([events.close(), queue.close()]);
