@@ -23,6 +23,7 @@ export const INDICATORS: readonly IndicatorConfig[] = (
   windowDays: kind.endsWith('-mean') ? 3 : 1,
   threshold: { kind: 'percentile', percentile: 90 },
   regionThresholds: {},
+  trendClimate: false,
   aggregate,
   tiers: ['weeks'],
   params: {},

@@ -230,6 +230,20 @@ export interface TercileOutlook {
   readonly skill: TercileSkill | null;
 }
 
+/**
+ * A trend-aware climate at one lead (calibrate/trend-climate.ts): the year thresholds and normal-year rates are
+ * re-centred on, and the least-squares trends removed, per decade in the indicator's units.
+ */
+export interface ClimateTrend {
+  readonly onYear: number;
+  readonly firstYear: number;
+  readonly lastYear: number;
+  readonly hindcastPerDecade: number | null;
+  /** Null where observations do not cover the lead. */
+  readonly observedPerDecade: number | null;
+  readonly units: string;
+}
+
 /** Output of the calibrate stage: exceedance probability at one lead. */
 export interface LeadProbability {
   readonly source: string;
@@ -254,6 +268,8 @@ export interface LeadProbability {
    * 3-month season starting with it (null past the last full season), with their RPSS.
    */
   readonly terciles?: { readonly month: TercileOutlook; readonly season: TercileOutlook | null };
+  /** Set when the lead's climate is trend-aware: "normal year" then means a normal year for `onYear`. */
+  readonly climateTrend?: ClimateTrend;
 }
 
 /** Output of the decide stage: the stage for one region × indicator × tier, with the reasons. */

@@ -8,10 +8,12 @@
  * issued together on FILE — read once for all (src/pipeline/shared-reads.ts) → 4 indicators → probabilities against
  * the hindcast climate (from each configuration's cache, or built from the 20 hindcast years when the cache is
  * empty) → stages. `read`: the same shared read of FILE only (the growth rows, whose grids have no hindcasts).
- * Prints one JSON line `{"seconds": …, "regions": …}`.
+ * Prints one JSON line `{"seconds": …, "regions": …}`. With FORELIGHT_BENCH_RESULTS=FILE (pipeline mode) it also writes
+ * each configuration's probabilities and stage decisions to FILE, one JSON line per configuration (non-finite
+ * numbers as strings), so that two versions of Forelight can be checked for identical results with `cmp`.
  */
 import { join } from 'node:path';
-import { readFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
 import { formatDiagnostic } from '../../src/core/diagnostics.ts';
@@ -26,7 +28,11 @@ import { extractRegionSeries } from '../../src/read/extract.ts';
 import { benchConfig, BENCH_ISSUE_DATE, INDICATORS, QUANTITIES } from '../bench-config.ts';
 import { continentalDistricts, ISSUE_DATE, type ContinentalInputs } from './inputs.ts';
 
-async function issueTogether(configs: readonly Config[], mode: 'pipeline' | 'read', file: string): Promise<void> {
+const exact = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v);
+
+/** Issues the configurations together; returns each one's results as one JSON line (pipeline mode). */
+async function issueTogether(configs: readonly Config[], mode: 'pipeline' | 'read', file: string): Promise<string[]> {
+  const results: string[] = [];
   const shared = shareReads(configs, extractRegionSeries);
   await Promise.all(
     configs.map(async (config, i) => {
@@ -45,17 +51,19 @@ async function issueTogether(configs: readonly Config[], mode: 'pipeline' | 'rea
         const expected = config.regions.length * INDICATORS.length * 6;
         if (analysis.probabilities.length !== expected)
           throw new Error(`configuration ${i + 1}: ${analysis.probabilities.length} probabilities, expected ${expected}`);
-        decideStages({
+        const decided = decideStages({
           config,
           probabilities: analysis.probabilities,
           history: EMPTY_HISTORY,
           thresholdsFromCostLoss: tunedThresholds(analysis),
         });
+        if (process.env.FORELIGHT_BENCH_RESULTS) results[i] = JSON.stringify({ probabilities: analysis.probabilities, decided }, exact);
       } finally {
         shared.finished(i);
       }
     }),
   );
+  return results;
 }
 
 const [inputsJson, file, cells, regions, mode] = process.argv.slice(2);
@@ -66,6 +74,7 @@ const base = await loadConfig();
 const districts = continentalDistricts(Number(cells), Number(regions));
 const configs = districts.map((r, c) => benchConfig(base, file, inputs.hindcastPattern, r, join(inputs.dir, `cache-${c + 1}`)));
 const began = performance.now();
-await issueTogether(configs, mode, file);
+const results = await issueTogether(configs, mode, file);
 const seconds = (performance.now() - began) / 1000;
+if (process.env.FORELIGHT_BENCH_RESULTS) writeFileSync(process.env.FORELIGHT_BENCH_RESULTS, `${results.join('\n')}\n`);
 process.stdout.write(`${JSON.stringify({ seconds, regions: districts.flat().length })}\n`);

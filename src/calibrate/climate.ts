@@ -6,6 +6,7 @@ import type { LeadWindow } from '../types.ts';
 import type { LeadValues } from './lead-tiers.ts';
 import { diagnostic, type Diagnostic, type Place } from '../core/diagnostics.ts';
 import { sortValid } from '../core/percentile.ts';
+import { recentredValues } from './trend-climate.ts';
 
 export interface LeadClimate {
   /**
@@ -17,8 +18,13 @@ export interface LeadClimate {
   /** Lead windows of the first year (labels); year y's windows are the same leads in year y. */
   readonly leads: readonly LeadWindow[];
   readonly units: string;
-  /** [year][member][lead]: values[(y * members + m) * leads.length + l], NaN where missing. */
+  /** [year][member][lead]: values[(y * members + m) * leads.length + l], NaN where missing; as read, never detrended. */
   readonly values: Float64Array;
+  /**
+   * Set when the climate is trend-aware (trend-climate.ts): the year its samples are re-centred on (the issue
+   * year). `leadSample` then detrends every lead and moves it to this year, or to the held-out year.
+   */
+  readonly recentreOn?: number;
 }
 
 /**
@@ -57,15 +63,23 @@ export function stackYears(
   return { climate: { years: used.map((y) => y.year), members, leads: longest.leads.leads, units, values }, problems };
 }
 
-/** Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. */
+const samples = new WeakMap<LeadClimate, Map<number, Float64Array>>();
+
+/**
+ * Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. A
+ * trend-aware climate's values are re-centred on its issue year, or, leaving one year out, on that year with the
+ * trend fitted without it (trend-climate.ts). The full sample is computed once per climate and lead (a lead's
+ * probability, base rate, threshold checks and terciles each ask for it) and shared, so callers only read it; a
+ * sample leaving out a year is asked for once and not kept (keeping one per year would hold the climate in memory as
+ * many times as it has years).
+ */
 export function leadSample(c: LeadClimate, l: number, excludeYear?: number): Float64Array {
-  const nLeads = c.leads.length;
-  const out = new Float64Array(c.years.length * c.members).fill(Number.NaN);
-  for (let y = 0; y < c.years.length; y++) {
-    if (c.years[y] === excludeYear) continue;
-    for (let m = 0; m < c.members; m++) out[y * c.members + m] = c.values[(y * c.members + m) * nLeads + l];
-  }
-  return sortValid(out);
+  if (excludeYear !== undefined) return sortValid(recentredValues(c, l, excludeYear));
+  let byLead = samples.get(c);
+  if (!byLead) samples.set(c, (byLead = new Map()));
+  let sample = byLead.get(l);
+  if (!sample) byLead.set(l, (sample = sortValid(recentredValues(c, l, undefined))));
+  return sample;
 }
 
 /** Values of the members of one year (position y) at lead position l. */

@@ -118,6 +118,18 @@ function tuneCostLoss(
 }
 
 /**
+ * The hindcast year that stands for the forecast (the year a trend-aware climate is re-centred on): the year of the
+ * forecast's lead day 1, less the gap a hindcast start shows between its year and its own lead day 1 (a start in
+ * late December whose lead 1 is in January). Without a forecast date, the last hindcast year.
+ */
+function issueYearOf(entries: readonly { year: number; leads: LeadValues }[], forecastLeadOne: IsoDate | null): number {
+  const last = Math.max(...entries.map((e) => e.year));
+  const first = entries[0].leads.leads[0]?.start;
+  if (forecastLeadOne === null || first === undefined) return last;
+  return Number(forecastLeadOne.slice(0, 4)) - (Number(first.slice(0, 4)) - entries[0].year);
+}
+
+/**
  * Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator from
  * its hindcast starts' reductions (start-reduction.ts, in start order) and why the observations gave no indicator
  * (null when they did or are not configured), for a forecast whose lead 1 begins on
@@ -173,15 +185,19 @@ export function buildIndicatorClimate(
       : { climate: null, problems: [] };
   problems.push(...hc.problems, ...obs.problems);
   if (!hc.climate) return { hindcast: null, observed: null, skill: [], tuned: {}, problems };
+  // One re-centred climate for thresholds, probabilities, quantile mapping, terciles and skill (trend-climate.ts).
+  const onYear = ind.trendClimate ? issueYearOf(hcYears, forecastLeadOne) : undefined;
+  const hindcast = onYear === undefined ? hc.climate : { ...hc.climate, recentreOn: onYear };
+  const observedClimate = onYear === undefined || !obs.climate ? obs.climate : { ...obs.climate, recentreOn: onYear };
   const skill = skillReports({
-    hindcast: hc.climate,
-    observed: obs.climate,
+    hindcast,
+    observed: observedClimate,
     threshold: resolveThresholdSpec(ind, region.id),
     stageProbabilities: ruleProbabilities(config, ind, tier),
     gate: config.decision.skillGate,
     minHindcastYears: config.calibration.minHindcastYears,
     outOfSampleValue: true,
   });
-  const tuned = tuneCostLoss(config, ind, source, region, hc.climate, obs.climate);
-  return { hindcast: hc.climate, observed: obs.climate, skill, tuned, problems };
+  const tuned = tuneCostLoss(config, ind, source, region, hindcast, observedClimate);
+  return { hindcast, observed: observedClimate, skill, tuned, problems };
 }

@@ -23,6 +23,7 @@ import { leadLabel, leadMonth, type LeadValues } from './lead-tiers.ts';
 import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdObject } from './thresholds.ts';
 import { percentileLinear } from '../core/percentile.ts';
 import { degenerateThreshold } from './degenerate-threshold.ts';
+import { climateTrendAt } from './trend-climate.ts';
 
 /** Origin note of an absolute threshold applied to raw model values (no observations to map it through). */
 const RAW_MODEL_NOTE = 'not quantile-mapped: no observations, raw model values';
@@ -199,6 +200,7 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
     const baseRate = normalYearRate(req, l, climate, threshold.value);
     const held = fromClimate && hindcast ? heldThreshold(req, hindcast, l, lead, threshold, baseRate, exc.probability) : null;
     if (held) flags.push(`threshold-degenerate: ${held}`);
+    const trend = problem === null ? climateTrendAt(hindcast, req.observed, l) : null;
     return {
       source: req.source,
       region: req.region,
@@ -213,6 +215,7 @@ export function leadProbabilities(req: ProbabilityRequest): LeadProbability[] {
       flags,
       skill: req.skill?.get(lead.index) ?? null,
       calibrated: problem === null,
+      ...(trend ? { climateTrend: trend } : {}),
     };
   });
 }

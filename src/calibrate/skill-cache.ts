@@ -21,8 +21,11 @@ import { localCalibrator, regionJobs } from './region-calibration.ts';
 import { tierPairs, type StartReduction } from './start-reduction.ts';
 import { fromStored, isStoredClimates, type StoredClimate } from './stored-climate.ts';
 
-/** 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). */
-export const SKILL_CACHE_VERSION = 10;
+/**
+ * 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). 11: lead values as base64
+ * doubles. 12: trend-aware climates carry the year they are re-centred on (LeadClimate.recentreOn).
+ */
+export const SKILL_CACHE_VERSION = 12;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {
@@ -61,10 +64,21 @@ export async function skillCacheKey(input: {
 }
 
 export const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
-export const decode = (_k: string, v: unknown): unknown =>
-  v !== null && typeof v === 'object' && !Array.isArray(v) && Object.keys(v).length === 1 && '$num' in v
-    ? Number((v as { $num: string }).$num)
-    : v;
+/**
+ * `value` (parsed JSON) with every {"$num": …} turned back into its number, bottom-up as a JSON.parse reviver would,
+ * but in place: a reviver called for each of the millions of values of an entry took longer than the parse.
+ */
+export function decode(value: unknown): unknown {
+  if (value === null || typeof value !== 'object') return value;
+  if (Array.isArray(value)) {
+    for (let i = 0; i < value.length; i++) if (value[i] !== null && typeof value[i] === 'object') value[i] = decode(value[i]);
+    return value;
+  }
+  const record = value as Record<string, unknown>;
+  for (const k of Object.keys(record)) record[k] = decode(record[k]);
+  const keys = Object.keys(record);
+  return keys.length === 1 && keys[0] === '$num' ? Number(record.$num) : record;
+}
 
 /**
  * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as stored (non-finite
@@ -86,7 +100,7 @@ export async function cachedSkill<T>(
   if (text !== null) {
     const checked = parseShaped(text, shape);
     // The shape was checked on the stored form; decoding only turns {"$num": …} back into numbers.
-    if (checked.ok) return { value: JSON.parse(text, decode) as T, fromCache: true, note };
+    if (checked.ok) return { value: decode(checked.value) as T, fromCache: true, note };
     note = `skill cache entry ${file} unreadable (${checked.why}); recomputed`;
   }
   const value = await compute();

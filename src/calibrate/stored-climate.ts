@@ -1,7 +1,8 @@
 /**
- * The model climates of one source as the skill cache stores them (JSON): lead values as plain arrays, and the
- * JSON Schema an entry read back must match before it is used (skill-cache.ts checks it on the stored form, where
- * non-finite numbers are still {"$num": …}).
+ * The model climates of one source as the skill cache stores them (JSON): lead values as the base64 of their
+ * little-endian IEEE 754 doubles (exact, NaN included; parsing hundreds of thousands of JSON numbers per entry cost
+ * more than the rest of a warm run's calibration), and the JSON Schema an entry read back must match before it is
+ * used (skill-cache.ts checks it on the stored form, where other non-finite numbers are still {"$num": …}).
  */
 import { jsonShape } from '../core/json-shape.ts';
 import { TIERS } from '../types.ts';
@@ -14,7 +15,7 @@ export type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & {
   hindcast: StoredLeadClimate | null;
   observed: StoredLeadClimate | null;
 };
-type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: number[] };
+type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: string };
 
 /** A number as stored: finite, or {"$num": "NaN" | "Infinity" | "-Infinity"}. */
 const num = {
@@ -51,14 +52,15 @@ const storedLeadClimate = {
           },
         },
         units: { type: 'string' },
-        values: { type: 'array', items: num },
+        values: { type: 'string' },
+        recentreOn: { type: 'integer' },
       },
       required: ['years', 'members', 'leads', 'units', 'values'],
     },
   ],
 };
 /** The stored model climates; a skill report and a diagnostic are checked for their identifying fields. */
-export const isStoredClimates = jsonShape<unknown>({
+const isStoredShape = jsonShape<unknown>({
   type: 'array',
   items: {
     type: 'object',
@@ -103,5 +105,58 @@ export const isStoredClimates = jsonShape<unknown>({
   },
 });
 
-export const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: Array.from(c.values) } : null);
-export const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: Float64Array.from(c.values) } : null);
+const BYTES = 8;
+
+/**
+ * Bytes that base64 text (RFC 4648 §4: A–Z a–z 0–9 + /, 4 characters per 3 bytes, at most two '=' at the end) holds,
+ * or NaN when it is not such text. A loop, not a regular expression: an entry holds megabytes of it.
+ */
+function base64Bytes(text: string): number {
+  const pad = text.endsWith('==') ? 2 : text.endsWith('=') ? 1 : 0;
+  if (text.length % 4 !== 0) return Number.NaN;
+  for (let i = 0; i < text.length - pad; i++) {
+    const c = text.charCodeAt(i);
+    const ok = (c >= 65 && c <= 90) || (c >= 97 && c <= 122) || (c >= 48 && c <= 57) || c === 43 || c === 47;
+    if (!ok) return Number.NaN;
+  }
+  return (text.length / 4) * 3 - pad;
+}
+
+/** Why a climate's values do not hold years × members × leads doubles, or null when they do. */
+function valuesProblem(c: unknown, at: string): string | null {
+  if (c === null) return null;
+  const { years, members, leads, values } = c as { years: unknown[]; members: number; leads: unknown[]; values: string };
+  const expected = years.length * members * leads.length * BYTES;
+  const bytes = base64Bytes(values);
+  if (bytes === expected) return null;
+  const held = Number.isNaN(bytes) ? 'is not base64' : `holds ${bytes} bytes`;
+  return `${at}/values ${held}, expected ${expected} bytes (${years.length} years × ${members} members × ${leads.length} leads × ${BYTES})`;
+}
+
+/** isStoredShape, and every climate's values of the size its years, members and leads give. */
+export function isStoredClimates(value: unknown): ReturnType<typeof isStoredShape> {
+  const shaped = isStoredShape(value);
+  if (!shaped.ok) return shaped;
+  const entries = value as { hindcast: unknown; observed: unknown }[];
+  for (let i = 0; i < entries.length; i++) {
+    const why = valuesProblem(entries[i].hindcast, `/${i}/hindcast`) ?? valuesProblem(entries[i].observed, `/${i}/observed`);
+    if (why) return { ok: false, why };
+  }
+  return shaped;
+}
+
+function encodeValues(values: Float64Array): string {
+  const bytes = Buffer.alloc(values.length * BYTES);
+  for (let i = 0; i < values.length; i++) bytes.writeDoubleLE(values[i], i * BYTES);
+  return bytes.toString('base64');
+}
+
+function decodeValues(text: string): Float64Array {
+  const bytes = Buffer.from(text, 'base64');
+  const out = new Float64Array(bytes.length / BYTES);
+  for (let i = 0; i < out.length; i++) out[i] = bytes.readDoubleLE(i * BYTES);
+  return out;
+}
+
+export const toStored = (c: LeadClimate | null): StoredLeadClimate | null => (c ? { ...c, values: encodeValues(c.values) } : null);
+export const fromStored = (c: StoredLeadClimate | null): LeadClimate | null => (c ? { ...c, values: decodeValues(c.values) } : null);

@@ -8,6 +8,7 @@ import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import type { LeadWindow, Threshold } from '../types.ts';
 import { leadSample, yearMembers, yearSpan, type LeadClimate } from './climate.ts';
 import { leadLabel } from './lead-tiers.ts';
+import { recentreNote } from './trend-climate.ts';
 import { percentileLinear, percentileOfSortedWithout, percentRankOfSorted, sortValid } from '../core/percentile.ts';
 
 /** The region's threshold spec: its override in `regionThresholds`, else the indicator's. */
@@ -39,7 +40,7 @@ export function climatePercentileThreshold(
   return {
     value: percentileLinear(sample, q),
     units: c.units,
-    origin: `${ordinal(q)} percentile of ${what} ${yearSpan(c.years)} (${sample.length} values), ${leadLabel(lead)}`,
+    origin: `${ordinal(q)} percentile of ${what} ${yearSpan(c.years)} (${sample.length} values${recentreNote(c)}), ${leadLabel(lead)}`,
   };
 }
 
@@ -49,8 +50,13 @@ export function climatePercentileThreshold(
  * values) and the forecast side (19 × members values) define events of the same frequency, 1 − q/100.
  */
 export function leaveOneYearOutThresholds(c: LeadClimate, l: number, q: number): Float64Array {
-  const all = leadSample(c, l);
   const out = new Float64Array(c.years.length);
+  if (c.recentreOn !== undefined) {
+    // Trend-aware: each held-out year has its own re-centred sample (trend fitted without it), trend-climate.ts.
+    c.years.forEach((year, y) => (out[y] = percentileLinear(leadSample(c, l, year), q, 'weibull')));
+    return out;
+  }
+  const all = leadSample(c, l);
   for (let y = 0; y < c.years.length; y++) {
     const removed: number[] = [];
     for (let k = 0; k < c.years.length; k++) if (c.years[k] === c.years[y]) removed.push(...yearMembers(c, k, l));
@@ -111,6 +117,6 @@ export function quantileMappedThresholdObject(
   const origin =
     `absolute ${fmt(spec.value)} ${model.units} quantile-mapped to ${fmt(m.value)} ${model.units} ` +
     `(percent rank ${fmt(m.percent)} in observations ${yearSpan(observed.years)}, ${m.observedValues} values → same percentile of ` +
-    `hindcasts ${yearSpan(model.years)}, ${m.modelValues} values), ${leadLabel(lead)}`;
+    `hindcasts ${yearSpan(model.years)}, ${m.modelValues} values${recentreNote(model)}), ${leadLabel(lead)}`;
   return { threshold: { value: m.value, units: model.units, origin }, clipped: m.clipped };
 }

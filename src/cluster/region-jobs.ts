@@ -50,5 +50,5 @@ export function workRegionJob(wire: WireRegionJob): WireRegionAnswer {
 export function fromRegionAnswer(answer: WireRegionAnswer): StoredClimate[] {
   const checked = parseShaped(answer.climates, isStoredClimates);
   if (!checked.ok) throw new Error(`a region job's answer is not a model climate (${checked.why})`);
-  return JSON.parse(answer.climates, decode) as StoredClimate[];
+  return decode(checked.value) as StoredClimate[]; // checked on the stored form, as a cache entry is
 }

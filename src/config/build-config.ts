@@ -8,6 +8,7 @@ import type { Quantity, Tier } from '../types.ts';
 import { thresholdUnits } from './threshold-units.ts';
 import { unwrapRing } from './boundaries/geometry.ts';
 import { entryDefaults } from './boundaries/region-sets.ts';
+import { defaultTrendClimate } from '../indicators/registry.ts';
 import {
   DEFAULT_LOOKBACK_DAYS,
   type Config,
@@ -67,6 +68,7 @@ interface RawTree {
     aggregate: 'mean' | 'max' | 'sum';
     'region-value'?: { weights?: 'area' | 'population'; 'share-above'?: number };
     tiers: Tier[];
+    'trend-climate'?: boolean;
     params?: Record<string, number | string | boolean>;
   }[];
   'stage-ladder': {
@@ -171,6 +173,7 @@ function toIndicator(i: RawTree['indicators'][number]): IndicatorConfig {
     aggregate: i.aggregate,
     tiers: i.tiers,
     ...(i['region-value'] ? { regionValue: toRegionValue(i['region-value']) } : {}),
+    trendClimate: i['trend-climate'] ?? defaultTrendClimate(i.kind),
     params: paramsFromYaml(i.params ?? {}),
   } as IndicatorConfig;
 }

@@ -139,6 +139,11 @@ interface IndicatorCommon {
   readonly tiers: readonly Tier[];
   /** How the region value is formed; absent = the area-weighted mean. */
   readonly regionValue?: RegionValueConfig;
+  /**
+   * YAML `trend-climate`: detrend the climate per lead and re-centre it on the issue year (calibrate/trend-climate.ts).
+   * Default `defaultTrendClimate(kind)`: on for kinds that need no rainfall, off for rain and malaria.
+   */
+  readonly trendClimate: boolean;
 }
 
 /**

@@ -136,8 +136,8 @@ export const DIAGNOSTIC_CODES = {
   'input-format': {
     stage: 'read',
     severity: 'error',
-    meaning: 'the file is not NetCDF (classic or NetCDF-4)',
-    fix: 'check the source path; convert the file to NetCDF',
+    meaning: 'the file is neither NetCDF (classic or NetCDF-4) nor GRIB',
+    fix: 'check the source path; unpack a gzip or zip download first (the message gives the command); download an empty or text file again',
   },
   'input-truncated': {
     stage: 'read',
@@ -233,7 +233,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'error',
     meaning: 'the grid is curvilinear (2-D latitude/longitude)',
-    fix: 'regrid to a regular latitude-longitude grid (e.g. `cdo remapbil`)',
+    fix: 'regrid to a regular latitude-longitude grid (e.g. `cdo remapbil,r360x180 in.nc regular.nc` for 1°)',
   },
   'no-coordinate': {
     stage: 'read',
@@ -258,6 +258,12 @@ export const DIAGNOSTIC_CODES = {
     severity: 'error',
     meaning: 'the variable has a dimension Forelight cannot reduce',
     fix: 'select one level first (e.g. `ncks -d level,0`)',
+  },
+  'time-order': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'the time or lead axis is not strictly increasing (CF 1.11 §5: coordinate values are strictly monotonic)',
+    fix: 'sort the steps (`cdo sorttimestamp in.nc out.nc` for an absolute time axis) or ask the provider for the file again',
   },
   'time-overlap': {
     stage: 'read',

@@ -32,3 +32,12 @@ export function indicatorDefinition<K extends IndicatorKind>(kind: K): Indicator
   // The map is filled from KIND_DEFINITIONS by kind, so the entry for K is the definition of K.
   return BY_KIND.get(kind) as unknown as IndicatorDefinition<K, IndicatorParams<K>>;
 }
+
+/**
+ * Default of an indicator's `trend-climate`: on for kinds that need no rainfall (temperatures and heat indices,
+ * whose hindcast years warm with the climate), off for rain-driven kinds (malaria suitability), whose trends are
+ * weak against their year-to-year noise and bounded by 0 (our choice, common practice, no source).
+ */
+export function defaultTrendClimate(kind: IndicatorKind): boolean {
+  return !indicatorDefinition(kind).needs.some((alternatives) => alternatives.includes('precip'));
+}

@@ -27,8 +27,21 @@ interface Entry {
   readonly waiting: Set<number>;
 }
 
-/** What of a region the read depends on (not its name or teams). */
-const readKey = (r: RegionConfig): string => JSON.stringify([r.id, r.shape, r.cellRule ?? 'overlap', r.timeZone ?? r.utcOffsetHours]);
+const readKeys = new WeakMap<RegionConfig, string>();
+
+/**
+ * What of a region the read depends on (not its name or teams); computed once per region object, since a polygon's
+ * JSON is long and every share looks each region up (serialising it per lookup took 0.4 of 3.4 CPU-s of the warm
+ * continental run at scale 0.1).
+ */
+function readKey(r: RegionConfig): string {
+  let key = readKeys.get(r);
+  if (key === undefined) {
+    key = JSON.stringify([r.id, r.shape, r.cellRule ?? 'overlap', r.timeZone ?? r.utcOffsetHours]);
+    readKeys.set(r, key);
+  }
+  return key;
+}
 
 const sortedJson = (q: ExtractRequest['quantities']): string => JSON.stringify(Object.entries(q).sort(([a], [b]) => a.localeCompare(b)));
 

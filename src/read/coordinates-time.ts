@@ -100,3 +100,24 @@ export class TimeMapper {
     return `times in the ${this.calendar} calendar are placed on real dates by elapsed time from ${this.anchor.date.toIsoDate()} (model) = ${real} (real), so lead days, weeks and months are the model's (a month lead is a month of the ${this.calendar} calendar, shown by its real dates)`;
   }
 }
+
+/**
+ * Steps must follow each other (CF 1.11 §5: a coordinate variable is strictly monotonic); a step that goes back or
+ * repeats would put values on the wrong days or difference an accumulation against a later one.
+ * @throws InputError `time-order` naming the file, the axis and the two steps.
+ */
+export function requireIncreasingSteps(file: string, axis: { variable: string; stampsMs: Float64Array }, absolute: boolean): void {
+  const s = axis.stampsMs;
+  const k = s.findIndex((t, i) => i > 0 && !(t > s[i - 1]));
+  if (k < 0) return;
+  const iso = (ms: number) => new Date(ms).toISOString().replace('.000Z', 'Z');
+  const what = s[k] === s[k - 1] ? 'repeats' : 'goes back to';
+  throw new InputError(
+    'time-order',
+    file,
+    `'${axis.variable}' is not increasing: step ${k} ${what} ${iso(s[k])} after step ${k - 1} at ${iso(s[k - 1])}`,
+    absolute && s[k] !== s[k - 1]
+      ? `sort the steps (cdo sorttimestamp ${file} sorted.nc) and point the source at the sorted file`
+      : 'ask the provider for the file again (each step must come once, in order)',
+  );
+}

@@ -7,7 +7,7 @@
  */
 import { InputError, UnitError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
-import { durationUnitMs, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
+import { durationUnitMs, requireIncreasingSteps, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
 import { decodeTimes, type CfDateTime } from './cf-time.ts';
 import { countsMonths, isMonthIndex, monthLeadAxis } from './lead-months.ts';
 import { detectMonths, type MonthSteps } from './monthly.ts';
@@ -110,7 +110,7 @@ function findAxisVariable(ds: Dataset, axis: 'X' | 'Y'): VariableInfo {
       'grid-unsupported',
       ds.path,
       `${standard} variable '${curvilinear.name}' has 2 dimensions (curvilinear grid)`,
-      'regrid to a regular latitude-longitude grid first (e.g. cdo remapbil)',
+      `regrid it to a regular latitude-longitude grid first (e.g. cdo remapbil,r360x180 ${ds.path} regular.nc for 1°; pick the resolution of the source)`,
     );
   }
   throw new InputError(
@@ -341,6 +341,7 @@ export async function findCoordinates(ds: Dataset): Promise<FileCoordinates> {
   const mapper = new TimeMapper();
   const referenceMs = await findReference(ds, mapper);
   const time = await findTime(ds, referenceMs, mapper);
+  if (time) requireIncreasingSteps(ds.path, time, / since /i.test(attr(ds.variable(time.variable)!, 'units') ?? ''));
   return {
     file: ds.path,
     grid,
@@ -388,7 +389,7 @@ export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: strin
         'variable-extra-dimension',
         ds.path,
         `variable '${name}' has extra dimension '${d}' of size ${info.shape[k]}`,
-        `select one ${d} first (e.g. cdo sellevidx,1 or ncks -d ${d},0)`,
+        `select one ${d} first (ncks -d ${d},0 ${ds.path} out.nc keeps the first; cdo cannot select it in an ensemble file)`,
       );
     }
   });

@@ -3,7 +3,10 @@
  * is converted ONCE into NetCDF in a cache keyed by its sha256, then read like any NetCDF file.
  *
  * 1. `grib_copy in 'dir/m[perturbationNumber].grib'` splits the messages per ensemble member (perturbationNumber,
- *    GRIB2 product definition template 4.1/4.11, WMO Manual on Codes, FM 92; a file without it gives one part).
+ *    GRIB2 product definition template 4.1/4.11, WMO Manual on Codes, FM 92; a file without it gives one part),
+ *    ordered by start and step (`-B`): grib_to_netcdf lays its step axis in the order the steps first appear, so a
+ *    file whose first parameter lacks step 0 (mx2t6 before tp, as ECMWF ensemble files hold them) would get
+ *    steps 6, 12, …, 0.
  * 2. `grib_to_netcdf -T -D NC_FLOAT` writes each part as NetCDF: `-T` keeps the forecast reference time out of the
  *    time axis (times are `<unit> since <reference>`), `NC_FLOAT` keeps the values unpacked (the default NC_SHORT
  *    packing would lose precision). Variable names are ecCodes' `cfVarName` (2t → t2m, tp, mx2t24 …).
@@ -84,7 +87,8 @@ export async function gribAsNetcdf(path: string): Promise<string[]> {
   rmSync(work, { recursive: true, force: true });
   mkdirSync(work);
   try {
-    await eccodes('grib_copy', [path, join(work, 'm[perturbationNumber].grib')], path);
+    const order = 'dataDate:i asc,dataTime:i asc,endStep:i asc';
+    await eccodes('grib_copy', ['-B', order, path, join(work, 'm[perturbationNumber].grib')], path);
     for (const part of readdirSync(work).filter((n) => n.endsWith('.grib'))) {
       const nc = join(work, basename(part, '.grib').replace('not_found', '0') + '.nc');
       await eccodes('grib_to_netcdf', ['-T', '-D', 'NC_FLOAT', '-o', nc, join(work, part)], path);

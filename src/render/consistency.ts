@@ -80,7 +80,8 @@ function checkTier(config: RenderConfig, locale: string, tv: TierView, tier: Tie
     if (g.reached.rank > tv.stage.rank && g.note === '')
       say('rows', `row ${g.dates} reaches ${g.reached.id} above the range's stage ${tv.stage.id} and says no reason`);
   }
-  const backed = tv.leads.some((l) => USABLE.has(l.use) && l.use !== 'awaiting' && l.reached.rank >= tv.stage.rank);
+  // A row awaiting confirmation of a higher stage also backs the one issued (persistence raised the stage one step).
+  const backed = tv.leads.some((l) => USABLE.has(l.use) && l.reached.rank >= tv.stage.rank);
   if (tv.stage.rank > 0 && !backed && tv.note === '') say('rows', `stage ${tv.stage.id} is backed by no row and says no reason`);
 }
 

@@ -13,6 +13,7 @@ import { NO_FORECAST_ID } from '../decide/types.ts';
 import { formatNumber } from './locale-format.ts';
 import { USABLE, headlineOf, type Headline } from './headline.ts';
 import { tercileLines } from './tercile-words.ts';
+import { trendLine } from './trend-words.ts';
 import { pastYearsShare, rangeWords, thresholdNumber, thresholdRangeWords, thresholdWords } from './threshold-words.ts';
 import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
 import {
@@ -152,6 +153,8 @@ function methodLines(
     );
   } else lines.push(t('method.noSkill'));
   lines.push(...tercileLines(t, locale, outcome.probabilities));
+  const trend = trendLine(t, locale, outcome.probabilities);
+  if (trend) lines.push(trend);
   const beyond = leads.filter(isBeyondTable).length;
   if (beyond > 0) lines.push(t('method.beyondTable', { leads: beyond }));
   return lines;

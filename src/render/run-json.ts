@@ -9,7 +9,7 @@
  *                                                                      //   place: { file, source, region, variable,
  *                                                                      //   indicator, ... }, message, hint }
  *   stages: [{ id, label: {locale: text}, glyph, colour }]            // the ladder, lowest first
- *   indicators: [{ id, name, kind,
+ *   indicators: [{ id, name, kind, trendClimate: boolean,                // climate detrended, re-centred on the issue year
  *     regionValue: { weights: "area"|"population", shareAbove: number|null,   // share-above: values are % of the
  *                    populationRaster: path|null } }]                         //   region's area or people above it
  *   regions: [{
@@ -17,7 +17,9 @@
  *     tiers: [{
  *       tier, indicator: { id, name, units },
  *       decision: StageDecision,                                       // as from decide, `lead` in full
- *       probabilities: LeadProbability[]                               // every field, incl. threshold and skill
+ *       probabilities: LeadProbability[]                               // every field, incl. threshold and skill;
+ *                                                                      //   climateTrend: { onYear, firstYear, lastYear,
+ *                                                                      //   hindcastPerDecade, observedPerDecade, units }
  *     }]
  *   }],
  *   capAlerts: [{ id, region, indicator, msgType, stageId }]
@@ -53,6 +55,7 @@ export function renderRunJson(config: RenderConfig, run: BulletinRun, capAlerts:
         id: i.id,
         name: i.name,
         kind: i.kind,
+        trendClimate: i.trendClimate,
         regionValue: {
           weights,
           shareAbove: i.regionValue?.shareAbove ?? null,

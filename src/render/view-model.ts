@@ -164,7 +164,14 @@ export function probabilityWord(config: RenderConfig, p: number, locale: string)
   return pickLocale(band.words, locale, `probability word band below ${band.below}`);
 }
 
-const UNIT_SYMBOLS: Readonly<Record<string, string>> = { degC: '°C', degC2: '°C²', 'degC^2': '°C²', 'mm/day': 'mm/day', '%': '%', '1': '' };
+export const UNIT_SYMBOLS: Readonly<Record<string, string>> = {
+  degC: '°C',
+  degC2: '°C²',
+  'degC^2': '°C²',
+  'mm/day': 'mm/day',
+  '%': '%',
+  '1': '',
+};
 
 /** Threshold as printed: "35 °C" from `{value: 35, units: 'degC'}`. */
 export function formatThreshold(locale: string, value: number, units: string): string {

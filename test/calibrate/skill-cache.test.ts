@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cachedSkill, fingerprint, hashFiles, skillCacheKey } from '../../src/calibrate/skill-cache.ts';
-import { isStoredClimates } from '../../src/calibrate/stored-climate.ts';
+import { fromStored, isStoredClimates, toStored } from '../../src/calibrate/stored-climate.ts';
 import { jsonShape } from '../../src/core/json-shape.ts';
 import { openChecksumMemo } from '../../src/core/file-checksums.ts';
 
@@ -97,6 +97,35 @@ describe('cachedSkill', () => {
     const back = await cachedSkill(cacheDir, key, () => [], isStoredClimates);
     const decoded = { ...trigger, value: { value: NaN, inSampleValue: 0.3, interval: { low: NaN, high: NaN } } };
     expect(back).toEqual({ value: [{ ...stored[0], tuned: { r1: decoded } }], fromCache: true, note: '' });
+  });
+});
+
+describe('stored lead values (base64 of little-endian doubles)', () => {
+  const climate = {
+    years: [2006, 2007],
+    members: 1,
+    leads: [{ tier: 'days' as const, index: 1, start: '2026-11-26', end: '2026-11-26' }],
+    units: 'degC',
+    values: new Float64Array([Number.NaN, 0.1 + 0.2]),
+  };
+  it("encodes as python3's base64.b64encode(struct.pack('<2d', nan, 0.1 + 0.2)) does, and decodes to the same doubles", () => {
+    const py = "import base64, struct; print(base64.b64encode(struct.pack('<2d', float('nan'), 0.1 + 0.2)).decode())";
+    const stored = toStored(climate);
+    expect(stored?.values).toBe(execFileSync('/usr/bin/python3', ['-c', py], { encoding: 'utf8' }).trim());
+    expect(Array.from(fromStored(stored)?.values ?? [])).toEqual([Number.NaN, 0.30000000000000004]);
+  });
+  it('an entry whose values do not hold years × members × leads doubles is refused, naming the climate', () => {
+    const entry = (values: string) => [
+      { region: 'north', indicator: 'hi', hindcast: { ...toStored(climate), values }, observed: null, skill: [], tuned: {}, problems: [] },
+    ];
+    expect(isStoredClimates(entry(toStored(climate)?.values ?? '')).ok).toBe(true);
+    expect(isStoredClimates(entry('AAAAAAAA+H8=')).ok).toBe(false);
+    expect(isStoredClimates(entry('AAAAAAAA+H8='))).toMatchObject({
+      why: '/0/hindcast/values holds 8 bytes, expected 16 bytes (2 years × 1 members × 1 leads × 8)',
+    });
+    expect(isStoredClimates(entry('AAAAAAAA+H8=AAAAAAAA+H8!'))).toMatchObject({
+      why: expect.stringMatching(/^\/0\/hindcast\/values is not base64/),
+    });
   });
 });
 

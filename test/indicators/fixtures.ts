@@ -44,6 +44,7 @@ export function indicator<K extends IndicatorKind>(
     windowDays,
     threshold: { kind: 'percentile', percentile: 90 },
     regionThresholds: {},
+    trendClimate: false,
     aggregate: 'mean',
     tiers: ['days'],
     params,

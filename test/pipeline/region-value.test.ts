@@ -55,6 +55,7 @@ function withRegionValues(base: Config, sampleDir: string): Config {
         regionValue: { weights: 'population', shareAbove: 39 },
         threshold: { kind: 'absolute', value: 25, units: '%' },
         regionThresholds: {},
+        trendClimate: false,
       };
     return i;
   });

@@ -1,6 +1,6 @@
 /**
- * GRIB2 sources through ecCodes (Debian libeccodes-tools 2.28): fixtures written by ecCodes' own grib_filter from
- * its sample regular_ll_sfc_grib2.tmpl (test/read/grib/make-grib.py), converted once by Forelight into the
+ * GRIB2 and GRIB1 sources through ecCodes (Debian libeccodes-tools 2.28): fixtures written by ecCodes' own
+ * grib_filter from its samples regular_ll_sfc_grib2.tmpl / regular_ll_sfc_grib1.tmpl (test/read/grib/make-grib.py), converted once by Forelight into the
  * sha256-keyed cache with grib_copy + grib_to_netcdf, and checked against an independent reading of the same GRIB
  * file by python3-cfgrib + xarray (test/read/grib/cfgrib-box.py), within 1e-4 K.
  * Conventions: ecCodes parameter database (paramId 167 = 2 m temperature, cfVarName t2m); GRIB2 product definition
@@ -28,15 +28,9 @@ afterAll(() => {
   rmSync(tmp, { recursive: true, force: true });
 });
 
-function makeGrib(name: string, members: number, steps: string, deterministic = false): string {
+function makeGrib(name: string, members: number, steps: string, ...flags: ('deterministic' | 'edition1' | 'mx2t6+tp')[]): string {
   const out = join(tmp, name);
-  execFileSync('/usr/bin/python3', [
-    join(HERE, 'grib/make-grib.py'),
-    out,
-    String(members),
-    steps,
-    ...(deterministic ? ['deterministic'] : []),
-  ]);
+  execFileSync('/usr/bin/python3', [join(HERE, 'grib/make-grib.py'), out, String(members), steps, ...flags]);
   return out;
 }
 
@@ -44,11 +38,12 @@ interface Reference {
   times: string[];
   members: number[][];
 }
-function cfgrib(file: string, box: { south: number; north: number; west: number; east: number }, daily?: string): Reference {
+type Box = { south: number; north: number; west: number; east: number };
+function cfgrib(file: string, box: Box, daily?: string, variable = 't2m'): Reference {
   const args = [
     join(HERE, 'grib/cfgrib-box.py'),
     file,
-    't2m',
+    variable,
     String(box.south),
     String(box.north),
     String(box.west),
@@ -110,9 +105,50 @@ describe('GRIB2 ensemble (template 4.1) against cfgrib/xarray', () => {
   });
 });
 
+describe('GRIB1 and GRIB2 period parameters against cfgrib/xarray', () => {
+  it.each(boxes)('a GRIB1 ensemble (ECMWF local definition 1, marsType pf, number) per member and step: $what', async ({ box }) => {
+    const grib1 = makeGrib('ens1.grib', 3, '0,6,12,18,24,30,36,42,48', 'edition1');
+    const got = await extractBoxJson(grib1, { variable: 't2m', box });
+    const ref = cfgrib(grib1, box);
+    expect(got.times.map((t) => t.slice(0, 19))).toEqual(ref.times);
+    expect(got.members).toHaveLength(3);
+    got.members.forEach((row, m) =>
+      row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)),
+    );
+  });
+
+  // ecCodes parameter database: mx2t6 (paramId 121) is the maximum over the 6 h before its step, tp (228) the
+  // accumulation in metres since the reference time (GRIB2 template 4.11, stepRange "0-6", "0-12", …); grib_to_netcdf
+  // keeps neither stepType, so they are read by the step semantics of src/read/DECISIONS.md §1.3 and §2.3.
+  it.each([
+    { what: 'steps 6 … 48 only', steps: '6,12,18,24,30,36,42,48' },
+    { what: 'with a step-0 field', steps: '0,6,12,18,24,30,36,42,48' },
+  ])('GRIB2 6-h maxima and accumulated total precipitation ($what): daily max and rain per member = cfgrib', async ({ steps }) => {
+    const file = makeGrib(`periods-${steps.length}.grib2`, 3, steps, 'mx2t6+tp');
+    // edges on cell edges (3° x 1.5° cells), so the region's overlap weights are the whole cells cfgrib-box.py takes
+    const box = { south: -12.75, north: -5.25, west: -10.5, east: 10.5 };
+    const regions = [{ id: 'r', name: 'r', shape: { kind: 'box' as const, ...box }, utcOffsetHours: 0, teams: [] }];
+    const r = await extractRegionSeries(file, { quantities: { tmax: 'mx2t6', precip: 'tp' }, regions, referenceTime: '2026-11-23' });
+    expect(r.problems).toEqual([]);
+    for (const [quantity, variable, daily, toCanonical] of [
+      ['tmax', 'mx2t6', 'period-max', (k: number) => k - 273.15],
+      ['precip', 'tp', 'accum-sum', (metres: number) => metres * 1000],
+    ] as const) {
+      const series = r.series.find((s) => s.quantity === quantity);
+      const ref = cfgrib(file, box, daily, variable);
+      expect(series?.days).toEqual(['2026-11-23', '2026-11-24']);
+      expect(ref.times).toEqual(['2026-11-23T00:00:00', '2026-11-24T00:00:00']);
+      expect(series?.members).toBe(3);
+      ref.members.forEach((row, m) =>
+        row.forEach((v, d) => expect(Math.abs((series?.data[m * 2 + d] ?? NaN) - toCanonical(v))).toBeLessThanOrEqual(1e-4)),
+      );
+    }
+  });
+});
+
 describe('other GRIB cases', () => {
   it('a deterministic GRIB2 file (template 4.0, no perturbationNumber) is one member, equal to cfgrib', async () => {
-    const single = makeGrib('det.grb2', 1, '0,12,24', true);
+    const single = makeGrib('det.grb2', 1, '0,12,24', 'deterministic');
     const got = await extractBoxJson(single, { variable: 't2m', box: boxes[0].box });
     const ref = cfgrib(single, boxes[0].box);
     expect(got.members).toHaveLength(1);

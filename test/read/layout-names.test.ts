@@ -116,6 +116,22 @@ describe('dimension order, height coordinate, fill values', () => {
     await expectKessanAsCdo(file);
   });
 
+  it('a level dimension of size 3 is refused in one line naming file, variable and dimension; the suggested ncks selection reads as the level', async () => {
+    const levels = ['0.0f', '1.0f', '2.0f'].map((add) => variant('grid360.nc', ['ncap2', '-O', '-s', `t2m=t2m+${add}`, '{f}']));
+    const file = join(tmp, 'levels.nc');
+    execFileSync('ncecat', ['-O', '-u', 'level', ...levels, file]);
+    const message = await extractBoxJson(file, { variable: 't2m', box: KESSAN }).then(
+      () => 'read',
+      (e: Error) => e.message,
+    );
+    expect(message.split('\n')).toHaveLength(1);
+    expect(message).toContain(`${file}: variable 't2m' has extra dimension 'level' of size 3`);
+    const fix = /ncks -d (level,0) (\S+) (\S+)/.exec(message);
+    expect(fix?.[2]).toBe(file);
+    execFileSync('ncks', ['-O', '-d', fix![1], fix![2], fix![3]], { cwd: tmp });
+    await expectKessanAsCdo(join(tmp, fix![3]));
+  });
+
   it.each([
     ['double', 'd'],
     ['short', 's'],

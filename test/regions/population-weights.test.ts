@@ -156,6 +156,7 @@ describe('population weights vs shapely + numpy', () => {
       windowDays: 1, // each cell's own daily value
       threshold: { kind: 'absolute', value: 50, units: '%' },
       regionThresholds: {},
+      trendClimate: false,
       aggregate: 'mean',
       tiers: ['days'],
       params: {},

@@ -36,6 +36,7 @@ const indicator: IndicatorConfig = {
   windowDays: 1,
   threshold: { kind: 'absolute', value: 50, units: '%' },
   regionThresholds: {},
+  trendClimate: false,
   aggregate: 'mean',
   tiers: ['days'],
   params: {},

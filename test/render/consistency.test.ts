@@ -56,6 +56,23 @@ describe('checkRegionView', () => {
     expect(kinds('kessan-lowlands', said)).toEqual([]);
   });
 
+  it('rows: a stage raised one step by persistence is backed by rows that point higher and wait for confirmation', () => {
+    const v = view('kessan-lowlands');
+    const tv = v.tiers.find((t) => t.stage.rank > 0 && t.stage.rank < config.stages.length - 1)!;
+    const above = toStageView(config.stages[tv.stage.rank + 1], tv.stage.rank + 1, 'en', 'default');
+    const rows = (use: LeadView['use']) => ({
+      ...v,
+      tiers: v.tiers.map((t) =>
+        t !== tv
+          ? t
+          : { ...t, leads: t.leads.map((l) => ({ ...l, use, reached: above, note: 'waiting for confirmation in the next bulletin' })) },
+      ),
+    });
+    expect(kinds('kessan-lowlands', rows('awaiting'))).not.toContain('rows');
+    // The same rows withheld by the skill gate back nothing.
+    expect(kinds('kessan-lowlands', rows('no-skill'))).toContain('rows');
+  });
+
   it('rows: an outlook cell whose chance points above its stage without the "+" mark', () => {
     const v = view('kessan-lowlands');
     const actNow = toStageView(config.stages[3], 3, 'en', 'default');

@@ -1,0 +1,110 @@
+/**
+ * Trend-aware climate: a hindcast (or observed) climate whose years span a warming world is detrended and
+ * re-centred on the year it speaks for. One least-squares line per tier's climate, x ≈ a_l + b·year, with its own
+ * level a_l per lead and one slope b for all leads, is fitted to every valid value (all years × members × leads;
+ * ordinary least squares, Wilks, "Statistical Methods in the Atmospheric Sciences", 3rd ed., section 7.2, from
+ * memory). One slope rather than one per lead: a lead's own 20-year slope is mostly weather noise (the sample's
+ * day leads, generated without any trend, gave −0.6 to −0.1 K per decade lead by lead in the hindcasts and −1.2 to
+ * −0.3 in the observations), while the warming is the same
+ * climate signal at neighbouring leads. Each value of year y is moved along the line to the target year T:
+ *
+ *   x' = x + b·(T − y).
+ *
+ * Which year is the target, and which years the line is fitted on, follow the question asked of the sample:
+ * - the climate of the forecast: T = the issue year (`LeadClimate.recentreOn`), the line fitted on every year;
+ * - leave-one-year-out (verification, skill, quantile mapping, terciles): T = the held-out year, the line fitted
+ *   on the other years only, so the year judged never sets its own trend (no leak).
+ * `leadSample` in climate.ts applies this whenever `recentreOn` is set, so thresholds, probabilities, quantile
+ * mapping, terciles and skill all see one and the same re-centred climate. With fewer than two distinct years
+ * the slope is 0 (nothing to fit). Common practice (e.g. removing a linear trend from hindcasts before
+ * computing anomalies in seasonal forecasting), no single source for the re-centring rule itself.
+ */
+import type { ClimateTrend } from '../types.ts';
+import type { LeadClimate } from './climate.ts';
+
+export interface ClimateSlope {
+  /** b: change per year, in the climate's units, common to every lead. */
+  readonly slope: number;
+  /** Distinct years the line was fitted on. */
+  readonly years: number;
+}
+
+const memo = new WeakMap<LeadClimate, Map<number | 'all', ClimateSlope>>();
+
+/**
+ * The least-squares slope of x ≈ a_l + b·year over the valid values of every lead (one intercept per lead, one
+ * slope), leaving out `excludeYear`: b = Σ_l Σ (year − ȳ_l)(x − x̄_l) / Σ_l Σ (year − ȳ_l)². Remembered per
+ * climate object (climates are read-only).
+ */
+export function climateSlope(c: LeadClimate, excludeYear?: number): ClimateSlope {
+  const key = excludeYear ?? 'all';
+  const known = memo.get(c)?.get(key);
+  if (known) return known;
+  const nLeads = c.leads.length;
+  const distinct = new Set<number>();
+  let num = 0;
+  let den = 0;
+  for (let l = 0; l < nLeads; l++) {
+    let n = 0;
+    let sx = 0;
+    let sy = 0;
+    const each = (f: (year: number, v: number) => void) => {
+      for (let y = 0; y < c.years.length; y++) {
+        if (c.years[y] === excludeYear) continue;
+        for (let m = 0; m < c.members; m++) {
+          const v = c.values[(y * c.members + m) * nLeads + l];
+          if (!Number.isNaN(v)) f(c.years[y], v);
+        }
+      }
+    };
+    each((year, v) => ((n += 1), (sx += year), (sy += v), distinct.add(year)));
+    if (n === 0) continue;
+    const [mx, my] = [sx / n, sy / n];
+    each((year, v) => ((num += (year - mx) * (v - my)), (den += (year - mx) ** 2)));
+  }
+  const result = { slope: distinct.size < 2 || den === 0 ? 0 : num / den, years: distinct.size };
+  memo.set(c, (memo.get(c) ?? new Map()).set(key, result));
+  return result;
+}
+
+/**
+ * Values at lead position l (all years × members, NaN kept, year-major), moved along the lead's trend to the
+ * target year: the held-out year when `excludeYear` is given (fitted and returned without it), else
+ * `c.recentreOn`. Unchanged copies when the climate is not trend-aware.
+ */
+export function recentredValues(c: LeadClimate, l: number, excludeYear?: number): Float64Array {
+  const nLeads = c.leads.length;
+  const out = new Float64Array(c.years.length * c.members).fill(Number.NaN);
+  const target = c.recentreOn === undefined ? undefined : (excludeYear ?? c.recentreOn);
+  const slope = target === undefined ? 0 : climateSlope(c, excludeYear).slope;
+  for (let y = 0; y < c.years.length; y++) {
+    if (c.years[y] === excludeYear) continue;
+    const shift = target === undefined ? 0 : slope * (target - c.years[y]);
+    for (let m = 0; m < c.members; m++) out[y * c.members + m] = c.values[(y * c.members + m) * nLeads + l] + shift;
+  }
+  return out;
+}
+
+function perDecade(c: LeadClimate | null, l: number): number | null {
+  if (!c || l >= c.leads.length) return null;
+  const t = climateSlope(c);
+  return t.years < 2 ? null : t.slope * 10;
+}
+
+/** The trends a trend-aware hindcast climate removes at lead position l, for run.json and the bulletin; null when it is not trend-aware. */
+export function climateTrendAt(hindcast: LeadClimate | null, observed: LeadClimate | null, l: number): ClimateTrend | null {
+  if (!hindcast || hindcast.recentreOn === undefined) return null;
+  return {
+    onYear: hindcast.recentreOn,
+    firstYear: Math.min(...hindcast.years),
+    lastYear: Math.max(...hindcast.years),
+    hindcastPerDecade: perDecade(hindcast, l),
+    observedPerDecade: observed?.recentreOn === undefined ? null : perDecade(observed, l),
+    units: hindcast.units,
+  };
+}
+
+/** ", detrended and re-centred on 2026" for a threshold's origin text; '' when the climate is not trend-aware. */
+export function recentreNote(c: LeadClimate): string {
+  return c.recentreOn === undefined ? '' : `, detrended and re-centred on ${c.recentreOn}`;
+}
