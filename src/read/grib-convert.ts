@@ -30,6 +30,18 @@ export function looksLikeGrib(path: string, head: Buffer): boolean {
   return GRIB_EXTENSIONS.some((e) => path.toLowerCase().endsWith(e)) || head.toString('latin1', 0, 4) === 'GRIB';
 }
 
+/** grib_to_netcdf's dimension names → the ecCodes keys that select their messages. */
+const SELECTION_KEYS: Readonly<Record<string, string>> = { date: 'dataDate', time: 'dataTime', level: 'level', step: 'step' };
+
+/**
+ * How to keep one value of an extra dimension of a converted GRIB file: NCO and CDO commands do not apply to the
+ * GRIB file the user holds, ecCodes' grib_copy does (`-w key=value` keeps the matching messages).
+ */
+export function gribSelectionHint(path: string, dimension: string): string {
+  const key = SELECTION_KEYS[dimension] ?? dimension;
+  return `keep one ${dimension} with ecCodes: grib_ls -p ${key} ${path} lists them, grib_copy -w ${key}=<one of them> ${path} out.grib2 keeps its messages`;
+}
+
 /** Where converted files live: `FORELIGHT_GRIB_CACHE`, else `<system temp>/forelight-grib-cache`. */
 export function gribCacheDir(): string {
   return process.env.FORELIGHT_GRIB_CACHE || join(tmpdir(), 'forelight-grib-cache');
