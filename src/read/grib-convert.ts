@@ -17,7 +17,7 @@ import { existsSync, mkdirSync, readdirSync, renameSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import { promisify } from 'node:util';
-import { InputError } from '../core/errors.ts';
+import { errnoCode, errorMessage, InputError, stderrOf } from '../core/errors.ts';
 import { sha256File } from '../core/file-checksums.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 
@@ -51,8 +51,7 @@ async function eccodes(tool: string, args: string[], file: string): Promise<void
   try {
     await run(tool, args, { maxBuffer: 16 * 1024 * 1024 });
   } catch (err) {
-    const e = err as NodeJS.ErrnoException & { stderr?: string };
-    if (e.code === 'ENOENT') {
+    if (errnoCode(err) === 'ENOENT') {
       throw new InputError(
         'eccodes-missing',
         file,
@@ -62,10 +61,10 @@ async function eccodes(tool: string, args: string[], file: string): Promise<void
       );
     }
     const said =
-      (e.stderr ?? '')
+      stderrOf(err)
         .split('\n')
         .map((l) => l.trim())
-        .find((l) => /error/i.test(l)) ?? e.message.split('\n')[0];
+        .find((l) => /error/i.test(l)) ?? errorMessage(err).split('\n')[0];
     throw new InputError(
       'grib-unreadable',
       file,
