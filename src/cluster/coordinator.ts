@@ -1,7 +1,8 @@
 /**
  * The coordinator's side of a cluster (`forelight run --cluster URL`, `forelight serve --cluster URL`): an `Extractor`
- * that hands each (file × region set) read to the workers as a BullMQ job on Redis and waits for its result, and a
- * `StartReducer` that does the same for each hindcast start of a first-time climate build (start-jobs.ts).
+ * that hands each (file × region set) read to the workers as a BullMQ job on Redis and waits for its result, a
+ * `StartReducer` that does the same for each hindcast start of a first-time climate build (start-jobs.ts) and a
+ * `RegionCalibrator` for each region's calibration after it (region-jobs.ts).
  *
  * Jobs are idempotent and keyed by what they compute: the job id is the SHA-256 of the file's SHA-256 and the
  * request, so the same read asked twice (a resumed run, a second configuration on the same files) is one job, and a
@@ -10,17 +11,26 @@
  */
 import { createHash } from 'node:crypto';
 import { Queue, QueueEvents } from 'bullmq';
-import { describeError, ForelightError, InputError } from '../core/errors.ts';
+import { describeError, ForelightError, InputError, errorMessage } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
+import type { ShapeCheck } from '../core/json-shape.ts';
 import type { Logger } from '../core/log.ts';
 import type { StartOutcome, StartReducer, StartRequest } from '../pipeline/hindcast-starts.ts';
 import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.ts';
 import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
-import { fromWireStart, START_JOB, startInputs, startJobId, type WireStart } from './start-jobs.ts';
-import { fromRegionAnswer, REGION_JOB, regionJobId, toWireRegionJob, type WireRegionAnswer, type WireRegionJob } from './region-jobs.ts';
+import { checkWireStart, fromWireStart, START_JOB, startInputs, startJobId, type WireStart } from './start-jobs.ts';
+import { checkWire, fromWire, type ExtractJob, type WireResult } from './wire.ts';
+import {
+  checkRegionAnswer,
+  fromRegionAnswer,
+  REGION_JOB,
+  regionJobId,
+  toWireRegionJob,
+  type WireRegionAnswer,
+  type WireRegionJob,
+} from './region-jobs.ts';
 import { calibrateRegion as calibrateLocally, type RegionCalibrator, type RegionJob } from '../calibrate/region-calibration.ts';
 import type { StoredClimate } from '../calibrate/stored-climate.ts';
-import { fromWire, type ExtractJob, type WireResult } from './wire.ts';
 
 export interface ClusterClient {
   /** Reads, hindcast-start reductions and region calibrations, each by the workers (a run's `readers`). */
@@ -63,7 +73,7 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     throw new ForelightError(
       'cli',
       'cluster-unreachable',
-      `cannot reach the cluster's Redis at ${shownUrl(url)}: ${(err as Error).message}`,
+      `cannot reach the cluster's Redis at ${shownUrl(url)}: ${errorMessage(err)}`,
       'start redis-server there, or check --cluster',
       { cause: err },
     );
@@ -74,7 +84,13 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
   const timeout = options.jobTimeoutMs ?? 30 * 60_000;
 
   /** The answer of job `id` (queued unless already there; a failed one is tried again, not remembered). */
-  const answer = async <A extends ClusterAnswer>(name: string, id: string, data: ClusterJob, path: string): Promise<A> => {
+  const answer = async <A extends ClusterAnswer>(
+    name: string,
+    id: string,
+    data: ClusterJob,
+    path: string,
+    check: ShapeCheck<A>,
+  ): Promise<A> => {
     const earlier = await queue.getJob(id);
     if (earlier && (await earlier.isFailed())) await earlier.remove();
     const job = await queue.add(name, data, {
@@ -85,23 +101,34 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
       removeOnFail: { age: KEEP_DONE_S },
     });
     options.log.debug(`${name} queued`, { stage: 'read', job: id, path });
+    let got: unknown;
     try {
-      return (await job.waitUntilFinished(events, timeout)) as A;
+      got = await job.waitUntilFinished(events, timeout);
     } catch (err) {
       throw new InputError(
         'read-failed',
         path,
-        `the cluster's workers could not read it (${(err as Error).message})`,
+        `the cluster's workers could not read it (${errorMessage(err)})`,
         `check the file and "forelight status --cluster ${shownUrl(url)}"; the other sources went on`,
       );
     }
+    const checked = check(got);
+    if (!checked.ok) {
+      throw new InputError(
+        'read-failed',
+        path,
+        `a cluster worker answered with a result Forelight cannot use (${checked.why})`,
+        'run the same Forelight release on the coordinator and every worker, then run again',
+      );
+    }
+    return checked.value;
   };
 
   const extract = (async (path: string, request: ExtractRequest): Promise<ExtractResult> => {
     // Every member file of a split forecast is part of what the job reads, so each one's checksum keys it.
     const sums = [];
     for (const p of [path, ...(request.moreMembers ?? [])]) sums.push(await checksums.sha256(p));
-    const wire = await answer<WireResult>('extract', jobId(sums.join(','), request), { path, request }, path);
+    const wire = await answer('extract', jobId(sums.join(','), request), { path, request }, path, checkWire);
     const result = fromWire(wire);
     if (wire.thrown) throw result.problems[result.problems.length - 1];
     return result;
@@ -113,7 +140,7 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     const sums = [];
     for (const p of startInputs(request)) sums.push(await checksums.sha256(p).catch(() => 'unreadable'));
     try {
-      return fromWireStart(await answer<WireStart>(START_JOB, startJobId(sums, request), request, path));
+      return fromWireStart(await answer(START_JOB, startJobId(sums, request), request, path, checkWireStart));
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       return { reduction: null, problems: [err] }; // as a start that cannot be read in this process
@@ -125,7 +152,7 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     const wire = toWireRegionJob(job);
     const what = `source ${job.source.id}, region ${job.config.regions[0]?.id}`;
     try {
-      return fromRegionAnswer(await answer<WireRegionAnswer>(REGION_JOB, regionJobId(wire), wire, what));
+      return fromRegionAnswer(await answer(REGION_JOB, regionJobId(wire), wire, what, checkRegionAnswer));
     } catch (err) {
       options.log.warn('region calibrated by the coordinator: its cluster job failed', {
         stage: 'calibrate',

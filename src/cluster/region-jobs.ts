@@ -11,7 +11,7 @@ import { calibrateRegion } from '../calibrate/region-calibration.ts';
 import { decode, encode } from '../calibrate/skill-cache.ts';
 import type { StartReduction } from '../calibrate/start-reduction.ts';
 import { isStoredClimates, type StoredClimate } from '../calibrate/stored-climate.ts';
-import { parseShaped } from '../core/json-shape.ts';
+import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { fromWireStart, toWireStart, type WireStart } from './start-jobs.ts';
 
 export const REGION_JOB = 'calibrate-region';
@@ -46,9 +46,15 @@ export function workRegionJob(wire: WireRegionJob): WireRegionAnswer {
   return { climates: JSON.stringify(calibrateRegion(fromWireRegionJob(wire)), encode) };
 }
 
+/** A region job's answer as it came from Redis: an object holding the climates' JSON text (checked further by `fromRegionAnswer`). */
+export const checkRegionAnswer: ShapeCheck<WireRegionAnswer> = (value) =>
+  typeof value === 'object' && value !== null && typeof (value as { climates?: unknown }).climates === 'string'
+    ? { ok: true, value: value as WireRegionAnswer }
+    : { ok: false, why: 'it holds no climates text' };
+
 /** The stored climates of an answer, checked as the skill cache checks its entries (stored-climate.ts). */
 export function fromRegionAnswer(answer: WireRegionAnswer): StoredClimate[] {
-  const checked = parseShaped(answer.climates, isStoredClimates);
+  const checked = parseShaped(answer.climates, (parsed) => isStoredClimates(decode(parsed)));
   if (!checked.ok) throw new Error(`a region job's answer is not a model climate (${checked.why})`);
-  return decode(checked.value) as StoredClimate[]; // checked on the stored form, as a cache entry is
+  return checked.value;
 }

@@ -7,6 +7,7 @@
  */
 import { InputError, UnitError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
+import { gribSelectionHint, looksLikeGrib } from './grib-convert.ts';
 import { durationUnitMs, requireIncreasingSteps, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
 import { decodeTimes, type CfDateTime } from './cf-time.ts';
 import { countsMonths, isMonthIndex, monthLeadAxis } from './lead-months.ts';
@@ -208,6 +209,11 @@ export function splitStartsFix(file: string, ref: ReferenceTimes): string {
   const compact = (ms: number) => new Date(ms).toISOString().slice(0, 10).replaceAll('-', '');
   const n = ref.timesMs.length;
   const stem = file.replace(/\.[^./]*$/, '');
+  if (looksLikeGrib(file, Buffer.alloc(0)))
+    return (
+      `split it into one file per start with ecCodes: grib_copy ${file} '${stem}_[dataDate].grib2', and point forecast-files at ` +
+      `${stem}_{date}.grib2 (hindcast-files reads such a file as it is; forelight extract --start K reads start K)`
+    );
   return (
     `split it into one file per start, e.g. ncks -d ${ref.dimension},K,K ${file} ${stem}_YYYYMMDD.nc for each start K ` +
     `(0 = ${compact(ref.timesMs[0])} … ${n - 1} = ${compact(ref.timesMs[n - 1])}), and point forecast-files at ${stem}_{date}.nc ` +
@@ -389,7 +395,9 @@ export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: strin
         'variable-extra-dimension',
         ds.path,
         `variable '${name}' has extra dimension '${d}' of size ${info.shape[k]}`,
-        `select one ${d} first (ncks -d ${d},0 ${ds.path} out.nc keeps the first; cdo cannot select it in an ensemble file)`,
+        looksLikeGrib(ds.path, Buffer.alloc(0))
+          ? gribSelectionHint(ds.path, d)
+          : `select one ${d} first (ncks -d ${d},0 ${ds.path} out.nc keeps the first; cdo cannot select it in an ensemble file)`,
       );
     }
   });
