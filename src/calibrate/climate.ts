@@ -63,21 +63,22 @@ export function stackYears(
   return { climate: { years: used.map((y) => y.year), members, leads: longest.leads.leads, units, values }, problems };
 }
 
-const samples = new WeakMap<LeadClimate, Map<string, Float64Array>>();
+const samples = new WeakMap<LeadClimate, Map<number, Float64Array>>();
 
 /**
  * Sorted valid values of all years × members at lead position `l`, optionally leaving out one year. A
  * trend-aware climate's values are re-centred on its issue year, or, leaving one year out, on that year with the
- * trend fitted without it (trend-climate.ts). Computed once per climate, lead and left-out year (a lead's
- * probability, base rate, threshold checks and terciles each ask for the same sample); the array is shared, so
- * callers only read it.
+ * trend fitted without it (trend-climate.ts). The full sample is computed once per climate and lead (a lead's
+ * probability, base rate, threshold checks and terciles each ask for it) and shared, so callers only read it; a
+ * sample leaving out a year is asked for once and not kept (keeping one per year would hold the climate in memory as
+ * many times as it has years).
  */
 export function leadSample(c: LeadClimate, l: number, excludeYear?: number): Float64Array {
+  if (excludeYear !== undefined) return sortValid(recentredValues(c, l, excludeYear));
   let byLead = samples.get(c);
   if (!byLead) samples.set(c, (byLead = new Map()));
-  const key = `${l} ${excludeYear ?? ''}`;
-  let sample = byLead.get(key);
-  if (!sample) byLead.set(key, (sample = sortValid(recentredValues(c, l, excludeYear))));
+  let sample = byLead.get(l);
+  if (!sample) byLead.set(l, (sample = sortValid(recentredValues(c, l, undefined))));
   return sample;
 }
 

@@ -136,8 +136,8 @@ export const DIAGNOSTIC_CODES = {
   'input-format': {
     stage: 'read',
     severity: 'error',
-    meaning: 'the file is not NetCDF (classic or NetCDF-4)',
-    fix: 'check the source path; convert the file to NetCDF',
+    meaning: 'the file is neither NetCDF (classic or NetCDF-4) nor GRIB',
+    fix: 'check the source path; unpack a gzip or zip download first (the message gives the command); download an empty or text file again',
   },
   'input-truncated': {
     stage: 'read',
@@ -233,7 +233,7 @@ export const DIAGNOSTIC_CODES = {
     stage: 'read',
     severity: 'error',
     meaning: 'the grid is curvilinear (2-D latitude/longitude)',
-    fix: 'regrid to a regular latitude-longitude grid (e.g. `cdo remapbil`)',
+    fix: 'regrid to a regular latitude-longitude grid (e.g. `cdo remapbil,r360x180 in.nc regular.nc` for 1°)',
   },
   'no-coordinate': {
     stage: 'read',

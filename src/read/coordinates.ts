@@ -110,7 +110,7 @@ function findAxisVariable(ds: Dataset, axis: 'X' | 'Y'): VariableInfo {
       'grid-unsupported',
       ds.path,
       `${standard} variable '${curvilinear.name}' has 2 dimensions (curvilinear grid)`,
-      'regrid to a regular latitude-longitude grid first (e.g. cdo remapbil)',
+      `regrid it to a regular latitude-longitude grid first (e.g. cdo remapbil,r360x180 ${ds.path} regular.nc for 1°; pick the resolution of the source)`,
     );
   }
   throw new InputError(

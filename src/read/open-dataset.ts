@@ -21,6 +21,18 @@ function describeMagic(bytes: Buffer): string {
   return `starts with "${text}"`;
 }
 
+/** What to do with a file that is neither NetCDF nor GRIB: what portals deliver instead (archives, error pages). */
+function notNetcdfHint(path: string, head: Buffer): string {
+  if (head.length === 0) return 'download it again (an interrupted download leaves an empty file)';
+  if (head[0] === 0x1f && head[1] === 0x8b)
+    return `it is gzip-compressed: decompress it first (gunzip -c ${path} > unpacked.nc) and point the source at that file`;
+  if (head.toString('latin1', 0, 4) === 'PK\x03\x04')
+    return `it is a zip archive (as data portals deliver several files): unpack it first (unzip ${path}) and point the source at the files inside`;
+  if ([...head].every((b) => b === 0x09 || b === 0x0a || b === 0x0d || (b >= 0x20 && b < 0x7f)))
+    return 'it is text (an error page or a listing?), not data: check the source path, or download the file again';
+  return 'check the source path: Forelight reads NetCDF (classic, 64-bit offset, CDF-5, NetCDF-4) and GRIB files';
+}
+
 /** Opens a NetCDF file of any supported flavour (classic, 64-bit offset, CDF-5, NetCDF-4/HDF5), or GRIB through ecCodes. */
 export async function openDataset(path: string): Promise<Dataset> {
   const head = await readHead(path);
@@ -92,7 +104,7 @@ async function openNetcdf(path: string): Promise<Dataset> {
       'input-format',
       path,
       `not a NetCDF file (${describeMagic(head)}; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature)`,
-      'check the source path, or convert the file with `cdo -f nc4 copy in out.nc`',
+      notNetcdfHint(path, head),
     );
   } catch (err) {
     if (owned) await handle.close().catch(() => undefined);

@@ -55,11 +55,40 @@ describe('openDataset on bad files', () => {
     const text = join(tmp, 'notes.txt');
     writeFileSync(text, 'station,temp\n1,20\n');
     expect((await openError(text)).message).toMatch(
-      /notes\.txt: not a NetCDF file \(starts with "stat"; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature\) — check the source path/,
+      /notes\.txt: not a NetCDF file \(starts with "stat"; expected CDF\\x01, CDF\\x02, CDF\\x05 or an HDF5 signature\) — it is text \(an error page or a listing\?\), not data: check the source path, or download the file again$/,
     );
     const empty = join(tmp, 'empty.nc');
     writeFileSync(empty, '');
-    expect((await openError(empty)).message).toContain('not a NetCDF file (the file is empty');
+    expect((await openError(empty)).message).toContain('not a NetCDF file (the file is empty; expected');
+    expect((await openError(empty)).message).toMatch(/— download it again/);
+  });
+
+  // What portals deliver instead of the file (common practice, no source): a gzip-compressed file under its .nc name,
+  // a zip archive of NetCDF files. The command the refusal prints is run as printed, and its output reads.
+  it.each([
+    {
+      what: 'a gzip-compressed file under a .nc name',
+      pack: (f: string) => execFileSync('sh', ['-c', `gzip -c ${dir}forecast-classic.nc > ${f}`]),
+    },
+    { what: 'a zip archive of the NetCDF file', pack: (f: string) => execFileSync('zip', ['-j', '-q', f, `${dir}forecast-classic.nc`]) },
+  ])('$what: the printed command unpacks it into a file that reads', async ({ pack }) => {
+    const work = mkdtempSync(join(tmp, 'packed-'));
+    const file = join(work, 'download.nc');
+    pack(file);
+    const message = (await openError(file)).message;
+    const command = /\((gunzip -c \S+ > \S+)\)|\((unzip \S+)\)/.exec(message);
+    expect(command).not.toBeNull();
+    execFileSync('sh', ['-c', command![1] ?? command![2]], { cwd: work });
+    const unpacked = join(work, command![1] ? 'unpacked.nc' : 'forecast-classic.nc');
+    const [ds, original] = [await openDataset(unpacked), await openDataset(dir + 'forecast-classic.nc')];
+    try {
+      expect(Array.from(await ds.readRaw('t2m', [0, 0, 0, 0], [3, 4, 5, 6]))).toEqual(
+        Array.from(await original.readRaw('t2m', [0, 0, 0, 0], [3, 4, 5, 6])),
+      );
+    } finally {
+      await ds.close();
+      await original.close();
+    }
   });
 
   it('names a missing file', async () => {
