@@ -84,8 +84,8 @@ export function observedContext(ctx: Pick<CalibrateContext, 'observed' | 'climat
 /** Stage probabilities of the rules on this indicator × tier (for hit and false-alarm rates). */
 function ruleProbabilities(config: CalibrateConfig, ind: IndicatorConfig, tier: SourceConfig['tier']): number[] {
   return config.rules
-    .filter((r) => r.indicator === ind.id && r.tier === tier && r.probability !== undefined)
-    .map((r) => r.probability as number);
+    .filter((r) => r.indicator === ind.id && r.tier === tier)
+    .flatMap((r) => (r.probability === undefined ? [] : [r.probability]));
 }
 
 /** Each cost/loss rule of this indicator × tier tuned on its leads' cases, judged leave-one-year-out (trigger-tuning.ts). */
@@ -98,7 +98,9 @@ function tuneCostLoss(
   obs: LeadClimate | null,
 ): Record<string, TunedTrigger> {
   const tuned: Record<string, TunedTrigger> = {};
-  const rules = config.rules.filter((r) => r.indicator === ind.id && r.tier === source.tier && r.costLoss !== undefined);
+  const rules = config.rules.filter(
+    (r): r is typeof r & { costLoss: number } => r.indicator === ind.id && r.tier === source.tier && r.costLoss !== undefined,
+  );
   if (rules.length === 0) return tuned;
   const leads = leadCases(hc, obs, resolveThresholdSpec(ind, region.id)).map((l) => ({
     index: l.lead.index,
@@ -108,7 +110,7 @@ function tuneCostLoss(
   const { resamples, seed } = config.decision.skillGate;
   for (const rule of rules) {
     const own = leads.filter((l) => rule.leads.length === 0 || rule.leads.includes(l.index));
-    const trigger = tuneTrigger(own, rule.costLoss as number, { resamples, seed });
+    const trigger = tuneTrigger(own, rule.costLoss, { resamples, seed });
     if (trigger) tuned[rule.id] = trigger;
   }
   return tuned;

@@ -12,7 +12,7 @@ import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
 import { describeError } from '../core/errors.ts';
 import { sha256File, type ChecksumMemo } from '../core/file-checksums.ts';
-import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
+import { isRecord, parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { SourceConfig } from '../config/types.ts';
 import type { IsoDate } from '../types.ts';
@@ -38,11 +38,11 @@ export function fingerprint(value: unknown): string {
   const canon = (v: unknown): unknown =>
     Array.isArray(v)
       ? v.map(canon)
-      : v !== null && typeof v === 'object'
+      : isRecord(v)
         ? Object.fromEntries(
             Object.keys(v)
               .sort()
-              .map((k) => [k, canon((v as Record<string, unknown>)[k])]),
+              .map((k) => [k, canon(v[k])]),
           )
         : v;
   return createHash('sha256')
@@ -63,32 +63,34 @@ export async function skillCacheKey(input: {
 }
 
 const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
+const NON_FINITE: Readonly<Record<string, number>> = { NaN, Infinity, '-Infinity': -Infinity };
 /**
- * `value` (parsed JSON) with every {"$num": …} turned back into its number, bottom-up as a JSON.parse reviver would,
- * but in place: a reviver called for each of the millions of values of an entry took longer than the parse.
+ * `value` (parsed JSON) with every {"$num": "NaN" | "Infinity" | "-Infinity"} turned back into its number, bottom-up
+ * as a JSON.parse reviver would, but in place: a reviver called for each of the millions of values of an entry took
+ * longer than the parse. Any other {"$num": …} stays an object, so the shape check refuses it.
  */
 function decode(value: unknown): unknown {
-  if (value === null || typeof value !== 'object') return value;
   if (Array.isArray(value)) {
     for (let i = 0; i < value.length; i++) if (value[i] !== null && typeof value[i] === 'object') value[i] = decode(value[i]);
     return value;
   }
-  const record = value as Record<string, unknown>;
-  for (const k of Object.keys(record)) record[k] = decode(record[k]);
-  const keys = Object.keys(record);
-  return keys.length === 1 && keys[0] === '$num' ? Number(record.$num) : record;
+  if (!isRecord(value)) return value;
+  for (const k of Object.keys(value)) value[k] = decode(value[k]);
+  const keys = Object.keys(value);
+  const num = value.$num;
+  return keys.length === 1 && typeof num === 'string' && Object.hasOwn(NON_FINITE, num) ? NON_FINITE[num] : value;
 }
 
 /**
- * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as stored (non-finite
- * numbers still in their {"$num": …} form); an unreadable, corrupt or misshapen entry is recomputed and
- * overwritten (`note` says so).
+ * The cached value for `key`, or else `compute()` stored under `key`. `shape` checks an entry as read back (non-finite
+ * numbers decoded from their {"$num": …} form, so `shape` is made with `nonFinite`); an unreadable, corrupt or
+ * misshapen entry is recomputed and overwritten (`note` says so).
  */
 export async function cachedSkill<T>(
   cacheDir: string,
   key: string,
   compute: () => T | Promise<T>,
-  shape: ShapeCheck<unknown>,
+  shape: ShapeCheck<T>,
 ): Promise<{ value: T; fromCache: boolean; note: string }> {
   const file = join(cacheDir, `skill-${key}.json`);
   let note = '';
@@ -97,9 +99,8 @@ export async function cachedSkill<T>(
     return null;
   });
   if (text !== null) {
-    const checked = parseShaped(text, shape);
-    // The shape was checked on the stored form; decoding only turns {"$num": …} back into numbers.
-    if (checked.ok) return { value: decode(checked.value) as T, fromCache: true, note };
+    const checked = parseShaped(text, (parsed) => shape(decode(parsed)));
+    if (checked.ok) return { value: checked.value, fromCache: true, note };
     note = `skill cache entry ${file} unreadable (${checked.why}); recomputed`;
   }
   const value = await compute();

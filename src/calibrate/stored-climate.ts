@@ -2,9 +2,9 @@
  * The model climates of one source as the skill cache stores them (JSON): lead values as the base64 of their
  * little-endian IEEE 754 doubles (exact, NaN included; parsing hundreds of thousands of JSON numbers per entry cost
  * more than the rest of a warm run's calibration), and the JSON Schema an entry read back must match before it is
- * used (skill-cache.ts checks it on the stored form, where other non-finite numbers are still {"$num": …}).
+ * used (skill-cache.ts checks it once the other non-finite numbers, stored as {"$num": …}, are numbers again).
  */
-import { jsonShape } from '../core/json-shape.ts';
+import { jsonShape, type ShapeCheck } from '../core/json-shape.ts';
 import { TIERS } from '../types.ts';
 import type { LeadClimate } from './climate.ts';
 import type { IndicatorClimate } from './model-climate.ts';
@@ -17,18 +17,8 @@ export type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & {
 };
 type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: string };
 
-/** A number as stored: finite, or {"$num": "NaN" | "Infinity" | "-Infinity"}. */
-const num = {
-  anyOf: [
-    { type: 'number' },
-    {
-      type: 'object',
-      properties: { $num: { enum: ['NaN', 'Infinity', '-Infinity'] } },
-      required: ['$num'],
-      additionalProperties: false,
-    },
-  ],
-};
+/** A number, NaN and ±Infinity included (decoded from {"$num": …}; any other {"$num": …} stays an object and fails). */
+const num = { type: 'number' };
 const storedLeadClimate = {
   anyOf: [
     { type: 'null' },
@@ -60,50 +50,53 @@ const storedLeadClimate = {
   ],
 };
 /** The stored model climates; a skill report and a diagnostic are checked for their identifying fields. */
-const isStoredShape = jsonShape<unknown>({
-  type: 'array',
-  items: {
-    type: 'object',
-    properties: {
-      region: { type: 'string' },
-      indicator: { type: 'string' },
-      hindcast: storedLeadClimate,
-      observed: storedLeadClimate,
-      skill: {
-        type: 'array',
-        items: {
-          type: 'object',
-          properties: { lead: { type: 'object' }, basis: { enum: ['observed', 'potential'] }, summary: { type: 'object' } },
-          required: ['lead', 'basis', 'summary'],
-        },
-      },
-      tuned: {
-        type: 'object',
-        additionalProperties: {
-          type: 'object',
-          properties: {
-            costLoss: num,
-            basis: { enum: ['observed', 'potential'] },
-            hindcastMembers: { type: 'integer', minimum: 1 },
-            hindcastCount: { type: 'integer', minimum: 1 },
-            forecastThreshold: num,
-            value: { type: 'object', properties: { value: num, inSampleValue: num, interval: { type: 'object' } } },
+const isStoredShape = jsonShape<StoredClimate[]>(
+  {
+    type: 'array',
+    items: {
+      type: 'object',
+      properties: {
+        region: { type: 'string' },
+        indicator: { type: 'string' },
+        hindcast: storedLeadClimate,
+        observed: storedLeadClimate,
+        skill: {
+          type: 'array',
+          items: {
+            type: 'object',
+            properties: { lead: { type: 'object' }, basis: { enum: ['observed', 'potential'] }, summary: { type: 'object' } },
+            required: ['lead', 'basis', 'summary'],
           },
-          required: ['costLoss', 'basis', 'hindcastMembers', 'hindcastCount', 'forecastThreshold', 'value'],
         },
-      },
-      problems: {
-        type: 'array',
-        items: {
+        tuned: {
           type: 'object',
-          properties: { code: { type: 'string' }, message: { type: 'string' }, hint: { type: 'string' } },
-          required: ['code', 'message', 'hint'],
+          additionalProperties: {
+            type: 'object',
+            properties: {
+              costLoss: num,
+              basis: { enum: ['observed', 'potential'] },
+              hindcastMembers: { type: 'integer', minimum: 1 },
+              hindcastCount: { type: 'integer', minimum: 1 },
+              forecastThreshold: num,
+              value: { type: 'object', properties: { value: num, inSampleValue: num, interval: { type: 'object' } } },
+            },
+            required: ['costLoss', 'basis', 'hindcastMembers', 'hindcastCount', 'forecastThreshold', 'value'],
+          },
+        },
+        problems: {
+          type: 'array',
+          items: {
+            type: 'object',
+            properties: { code: { type: 'string' }, message: { type: 'string' }, hint: { type: 'string' } },
+            required: ['code', 'message', 'hint'],
+          },
         },
       },
+      required: ['region', 'indicator', 'hindcast', 'observed', 'skill', 'tuned', 'problems'],
     },
-    required: ['region', 'indicator', 'hindcast', 'observed', 'skill', 'tuned', 'problems'],
   },
-});
+  { nonFinite: true },
+);
 
 const BYTES = 8;
 
@@ -123,9 +116,9 @@ function base64Bytes(text: string): number {
 }
 
 /** Why a climate's values do not hold years × members × leads doubles, or null when they do. */
-function valuesProblem(c: unknown, at: string): string | null {
+function valuesProblem(c: StoredLeadClimate | null, at: string): string | null {
   if (c === null) return null;
-  const { years, members, leads, values } = c as { years: unknown[]; members: number; leads: unknown[]; values: string };
+  const { years, members, leads, values } = c;
   const expected = years.length * members * leads.length * BYTES;
   const bytes = base64Bytes(values);
   if (bytes === expected) return null;
@@ -134,16 +127,16 @@ function valuesProblem(c: unknown, at: string): string | null {
 }
 
 /** isStoredShape, and every climate's values of the size its years, members and leads give. */
-export function isStoredClimates(value: unknown): ReturnType<typeof isStoredShape> {
+export const isStoredClimates: ShapeCheck<StoredClimate[]> = (value) => {
   const shaped = isStoredShape(value);
   if (!shaped.ok) return shaped;
-  const entries = value as { hindcast: unknown; observed: unknown }[];
+  const entries = shaped.value;
   for (let i = 0; i < entries.length; i++) {
     const why = valuesProblem(entries[i].hindcast, `/${i}/hindcast`) ?? valuesProblem(entries[i].observed, `/${i}/observed`);
     if (why) return { ok: false, why };
   }
   return shaped;
-}
+};
 
 function encodeValues(values: Float64Array): string {
   const bytes = Buffer.alloc(values.length * BYTES);

@@ -52,7 +52,7 @@ export function leaveOneYearOutWarnings(cases: VerificationCases, alphas: readon
   const n = cases.p.length;
   const warn = alphas.map(() => new Uint8Array(n));
   for (const year of cases.years) {
-    const train = { p: [] as number[], o: [] as number[] };
+    const train: { p: number[]; o: number[] } = { p: [], o: [] };
     for (let k = 0; k < n; k++) {
       if (cases.caseYears[k] === year) continue;
       train.p.push(cases.p[k]);

@@ -64,3 +64,11 @@ export function stringOption(args: ParsedArgs, name: string): string | undefined
 export function stringOptions(args: ParsedArgs, name: string): readonly string[] {
   return args.values[name] ?? [];
 }
+
+/** The value of `--name`, one of `allowed` (undefined when not given); any other value is a usage error listing them. */
+export function choiceOption<T extends string>(args: ParsedArgs, name: string, allowed: readonly T[]): T | undefined {
+  const given = stringOption(args, name);
+  const value = allowed.find((a) => a === given);
+  if (given !== undefined && value === undefined) throw usageError(`--${name} must be one of ${allowed.join(', ')}, got '${given}'`);
+  return value;
+}

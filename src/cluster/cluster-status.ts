@@ -22,7 +22,7 @@ export async function clusterStatus(url: string): Promise<ClusterStatus> {
     return {
       url: shownUrl(url),
       workers: workers.map((w) => `${w.name ?? 'worker'} (${w.addr ?? '?'}, connected ${w.age ?? '?'} s)`),
-      counts: counts as ClusterStatus['counts'],
+      counts: counts as ClusterStatus['counts'], // BullMQ counts exactly the job types asked for (typed as any string)
       failed: failed.map((j) => ({
         id: j.id ?? '?',
         path: 'path' in j.data ? j.data.path : j.data.start.path,

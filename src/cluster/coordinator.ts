@@ -10,14 +10,15 @@
  */
 import { createHash } from 'node:crypto';
 import { Queue, QueueEvents } from 'bullmq';
-import { ForelightError, InputError } from '../core/errors.ts';
+import { ForelightError, InputError, errorMessage } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
+import type { ShapeCheck } from '../core/json-shape.ts';
 import type { Logger } from '../core/log.ts';
 import type { StartOutcome, StartReducer, StartRequest } from '../pipeline/hindcast-starts.ts';
 import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.ts';
 import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
-import { fromWireStart, START_JOB, startInputs, startJobId, type WireStart } from './start-jobs.ts';
-import { fromWire, type ExtractJob, type WireResult } from './wire.ts';
+import { checkWireStart, fromWireStart, START_JOB, startInputs, startJobId, type WireStart } from './start-jobs.ts';
+import { checkWire, fromWire, type ExtractJob, type WireResult } from './wire.ts';
 
 export interface ClusterClient {
   readonly extract: Extractor;
@@ -60,7 +61,7 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     throw new ForelightError(
       'cli',
       'cluster-unreachable',
-      `cannot reach the cluster's Redis at ${shownUrl(url)}: ${(err as Error).message}`,
+      `cannot reach the cluster's Redis at ${shownUrl(url)}: ${errorMessage(err)}`,
       'start redis-server there, or check --cluster',
       { cause: err },
     );
@@ -71,7 +72,13 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
   const timeout = options.jobTimeoutMs ?? 30 * 60_000;
 
   /** The answer of job `id` (queued unless already there; a failed one is tried again, not remembered). */
-  const answer = async <A extends ClusterAnswer>(name: string, id: string, data: ClusterJob, path: string): Promise<A> => {
+  const answer = async <A extends ClusterAnswer>(
+    name: string,
+    id: string,
+    data: ClusterJob,
+    path: string,
+    check: ShapeCheck<A>,
+  ): Promise<A> => {
     const earlier = await queue.getJob(id);
     if (earlier && (await earlier.isFailed())) await earlier.remove();
     const job = await queue.add(name, data, {
@@ -82,23 +89,34 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
       removeOnFail: { age: KEEP_DONE_S },
     });
     options.log.debug(`${name} queued`, { stage: 'read', job: id, path });
+    let got: unknown;
     try {
-      return (await job.waitUntilFinished(events, timeout)) as A;
+      got = await job.waitUntilFinished(events, timeout);
     } catch (err) {
       throw new InputError(
         'read-failed',
         path,
-        `the cluster's workers could not read it (${(err as Error).message})`,
+        `the cluster's workers could not read it (${errorMessage(err)})`,
         `check the file and "forelight status --cluster ${shownUrl(url)}"; the other sources went on`,
       );
     }
+    const checked = check(got);
+    if (!checked.ok) {
+      throw new InputError(
+        'read-failed',
+        path,
+        `a cluster worker answered with a result Forelight cannot use (${checked.why})`,
+        'run the same Forelight release on the coordinator and every worker, then run again',
+      );
+    }
+    return checked.value;
   };
 
   const extract = (async (path: string, request: ExtractRequest): Promise<ExtractResult> => {
     // Every member file of a split forecast is part of what the job reads, so each one's checksum keys it.
     const sums = [];
     for (const p of [path, ...(request.moreMembers ?? [])]) sums.push(await checksums.sha256(p));
-    const wire = await answer<WireResult>('extract', jobId(sums.join(','), request), { path, request }, path);
+    const wire = await answer('extract', jobId(sums.join(','), request), { path, request }, path, checkWire);
     const result = fromWire(wire);
     if (wire.thrown) throw result.problems[result.problems.length - 1];
     return result;
@@ -110,7 +128,7 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     const sums = [];
     for (const p of startInputs(request)) sums.push(await checksums.sha256(p).catch(() => 'unreadable'));
     try {
-      return fromWireStart(await answer<WireStart>(START_JOB, startJobId(sums, request), request, path));
+      return fromWireStart(await answer(START_JOB, startJobId(sums, request), request, path, checkWireStart));
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       return { reduction: null, problems: [err] }; // as a start that cannot be read in this process

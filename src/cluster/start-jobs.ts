@@ -6,9 +6,10 @@
  * shared filesystem, once per worker and observations file), as they are part of every start's reduction.
  */
 import { createHash } from 'node:crypto';
-import type { Diagnostic } from '../core/diagnostics.ts';
+import { isDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import type { ForelightError } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
+import { jsonShape, type ShapeCheck } from '../core/json-shape.ts';
 import type { PairKey } from '../core/keys.ts';
 import { readRegions } from '../config/region-views.ts';
 import { observedContext } from '../calibrate/model-climate.ts';
@@ -17,8 +18,8 @@ import type { LeadValues } from '../calibrate/lead-tiers.ts';
 import { localStartReducer, regionClimatologies, type StartOutcome, type StartRequest } from '../pipeline/hindcast-starts.ts';
 import { readFile } from '../pipeline/read-file.ts';
 import { extractRegionSeries } from '../read/extract.ts';
-import type { LeadWindow } from '../types.ts';
-import { fromBase64, fromDiagnostic, toBase64, toWireProblem, type WireProblem } from './wire.ts';
+import { TIERS, type LeadWindow } from '../types.ts';
+import { float64Count, fromBase64, fromDiagnostic, toBase64, toWireProblem, undiagnosed, WIRE_SCHEMA, type WireProblem } from './wire.ts';
 
 export const START_JOB = 'reduce-start';
 
@@ -40,6 +41,79 @@ export interface WireStart {
   } | null;
   readonly problems: readonly WireProblem[];
 }
+
+const lead = {
+  type: 'object',
+  properties: {
+    tier: { enum: TIERS },
+    index: { type: 'integer' },
+    start: { type: 'string' },
+    end: { type: 'string' },
+    modelMonth: { type: 'string' },
+  },
+  required: ['tier', 'index', 'start', 'end'],
+};
+const { base64, count, problems } = WIRE_SCHEMA;
+const wireLeads = {
+  type: 'object',
+  properties: { leads: { type: 'array', items: lead }, members: count, values: base64, beyondTable: base64 },
+  required: ['leads', 'members', 'values'],
+};
+/** A failure, or the lead values (the ajv message then names the first field that differs, not just "anyOf"). */
+const wirePair = {
+  type: 'object',
+  if: { properties: { failure: {} }, required: ['failure'] },
+  then: { properties: { failure: { type: 'object' } } },
+  else: {
+    properties: { units: { type: 'string' }, hindcast: wireLeads, observed: { ...wireLeads, type: ['object', 'null'] } },
+    required: ['units', 'hindcast', 'observed'],
+  },
+};
+const startShape = jsonShape<WireStart>({
+  type: 'object',
+  properties: {
+    reduction: {
+      type: ['object', 'null'],
+      properties: {
+        year: { type: 'integer' },
+        start: { type: 'string' },
+        path: { type: 'string' },
+        pairs: {
+          type: 'array',
+          items: { type: 'array', prefixItems: [{ type: 'string', pattern: '\\|' }, wirePair], minItems: 2, items: false },
+        },
+      },
+      required: ['year', 'start', 'path', 'pairs'],
+    },
+    problems,
+  },
+  required: ['reduction', 'problems'],
+});
+
+/** Why lead values cannot be used: their bytes are not one value (and one beyond-table flag) per member × lead. */
+function leadsUnusable(l: WireLeads, at: string): string | null {
+  const n = l.members * l.leads.length;
+  if (float64Count(l.values) !== n) return `${at}/values does not hold ${n} values`;
+  if (l.beyondTable !== undefined && Buffer.byteLength(l.beyondTable, 'base64') !== n) return `${at}/beyondTable does not hold ${n} flags`;
+  return null;
+}
+
+/** A worker's answer to a start job, checked before use: its shape, every problem and failure a `Diagnostic`, the byte counts. */
+export const checkWireStart: ShapeCheck<WireStart> = (value) => {
+  const shaped = startShape(value);
+  if (!shaped.ok) return shaped;
+  const why =
+    undiagnosed(shaped.value.problems) ??
+    (shaped.value.reduction?.pairs ?? [])
+      .map(([, p], i) => {
+        const at = `/reduction/pairs/${i}/1`;
+        if ('failure' in p) return isDiagnostic(p.failure) ? null : `${at}/failure is not a diagnostic`;
+        return leadsUnusable(p.hindcast, `${at}/hindcast`) ?? (p.observed && leadsUnusable(p.observed, `${at}/observed`));
+      })
+      .find((w) => w !== null) ??
+    null;
+  return why ? { ok: false, why } : shaped;
+};
 
 const bytes = (b: Uint8Array): string => Buffer.from(b.buffer, b.byteOffset, b.byteLength).toString('base64');
 

@@ -4,10 +4,11 @@
  * values travel as the bytes of their Float64Array (base64), so NaN and every bit of every value arrive unchanged: a
  * cluster run computes exactly what a single process computes.
  */
-import type { Diagnostic } from '../core/diagnostics.ts';
+import { isDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
+import { jsonShape, type ShapeCheck } from '../core/json-shape.ts';
 import type { ExtractRequest, ExtractResult } from '../read/extract.ts';
-import type { RegionSeries } from '../types.ts';
+import { CANONICAL_UNITS, type RegionSeries } from '../types.ts';
 
 export interface ExtractJob {
   readonly path: string;
@@ -42,6 +43,78 @@ export interface WireResult {
   /** The read itself failed with a Forelight error (the last problem): the coordinator throws it, as a local read would. */
   readonly thrown?: boolean;
 }
+
+const base64 = { type: 'string', pattern: '^[A-Za-z0-9+/]*={0,2}$' };
+const count = { type: 'integer', minimum: 0 };
+const problems = {
+  type: 'array',
+  items: { type: 'object', properties: { input: { type: 'boolean' }, diagnostic: { type: 'object' } }, required: ['input', 'diagnostic'] },
+};
+/** JSON Schema parts of every answer a worker sends (here and in start-jobs.ts). */
+export const WIRE_SCHEMA = { base64, count, problems } as const;
+
+const wireShape = jsonShape<WireResult>({
+  type: 'object',
+  properties: {
+    thrown: { type: 'boolean' },
+    series: {
+      type: 'array',
+      items: {
+        type: 'object',
+        properties: {
+          region: { type: 'string' },
+          quantity: { enum: Object.keys(CANONICAL_UNITS) },
+          units: { type: 'string' },
+          days: { type: 'array', items: { type: 'string', pattern: '^\\d{4}-\\d{2}-\\d{2}$' } },
+          members: count,
+          data: base64,
+          cells: count,
+          provenance: {
+            type: 'object',
+            properties: { file: { type: 'string' }, variable: { type: 'string' }, referenceTime: { type: 'string' } },
+            required: ['file', 'variable', 'referenceTime'],
+          },
+          weighting: { const: 'population' },
+          perCell: { type: 'object', properties: { weights: base64, data: base64 }, required: ['weights', 'data'] },
+        },
+        required: ['region', 'quantity', 'units', 'days', 'members', 'data', 'cells', 'provenance'],
+      },
+    },
+    problems,
+    notes: { type: 'array', items: { type: 'string' } },
+  },
+  required: ['series', 'problems', 'notes'],
+});
+
+/** How many Float64 values a base64 text holds, or -1 when its bytes are not whole values. */
+export const float64Count = (text: string) => (Buffer.byteLength(text, 'base64') % 8 === 0 ? Buffer.byteLength(text, 'base64') / 8 : -1);
+
+/** Why the problems of an answer cannot be used (one is not a `Diagnostic`), or null. */
+export function undiagnosed(problems: readonly WireProblem[]): string | null {
+  const bad = problems.findIndex((p) => !isDiagnostic(p.diagnostic));
+  return bad < 0 ? null : `/problems/${bad}/diagnostic is not a diagnostic`;
+}
+
+/**
+ * A worker's answer as it came back from Redis, checked before it is used: the shape of `WireResult`, every problem
+ * a `Diagnostic`, and every series' bytes as many values as its members × days (× cells for `perCell`).
+ */
+export const checkWire: ShapeCheck<WireResult> = (value) => {
+  const shaped = wireShape(value);
+  if (!shaped.ok) return shaped;
+  const wire = shaped.value;
+  const why = undiagnosed(wire.problems);
+  if (why) return { ok: false, why };
+  for (const [i, s] of wire.series.entries()) {
+    const values = s.members * s.days.length;
+    if (float64Count(s.data) !== values) return { ok: false, why: `/series/${i}/data does not hold ${values} values` };
+    const cells = s.perCell ? float64Count(s.perCell.weights) : 0;
+    if (s.perCell && (cells < 0 || float64Count(s.perCell.data) !== cells * values)) {
+      return { ok: false, why: `/series/${i}/perCell does not hold ${cells} cells of ${values} values` };
+    }
+  }
+  return shaped;
+};
 
 export function toWire(result: ExtractResult, thrown = false): WireResult {
   return {

@@ -141,6 +141,7 @@ export function paramsFromYaml(params: Readonly<Record<string, unknown>>): Recor
 function toThreshold(t: RawThreshold, kind: IndicatorKind, share: boolean): ThresholdSpec {
   if (t.percentile !== undefined) return { kind: 'percentile', percentile: t.percentile };
   const family = thresholdUnits(kind, share);
+  // The schema requires value and units of an absolute threshold, and check-values.ts the units among the family's.
   return { kind: 'absolute', value: family.accepted[t.units as string](t.value as number), units: family.canonical };
 }
 
@@ -292,7 +293,7 @@ export function buildConfig(rawTree: unknown, file: string, sets: ReadonlyMap<nu
     cautions: raw.cautions,
     // The last band has no bound in YAML: it covers everything up to and including 1.
     probabilityWords: words.map((w, i) => ({
-      below: i === words.length - 1 ? Number.POSITIVE_INFINITY : (w.below as number),
+      below: i === words.length - 1 ? Number.POSITIVE_INFINITY : (w.below as number), // the schema requires it on every band but the last
       words: Object.fromEntries(Object.entries(w).filter(([k]) => k !== 'below')) as Record<string, string>,
     })),
     // A PostgreSQL URL is kept as written; a SQLite file is relative to this file.

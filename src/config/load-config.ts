@@ -18,7 +18,7 @@ import { checkRules } from './check-rules.ts';
 import { checkTexts } from './check-texts.ts';
 import { checkValues } from './check-values.ts';
 import { pointerOf, problem, type ConfigProblem } from './problem.ts';
-import { obj, text } from './raw-access.ts';
+import { list, obj, text } from './raw-access.ts';
 import { readYamlFile } from './read-yaml.ts';
 import { ConfigSourceMap, displayPath } from './source-map.ts';
 import type { Config } from './types.ts';
@@ -62,7 +62,7 @@ const regionEntries = new WeakMap<Config, ReadonlyMap<string, number>>();
 
 function entryOf(rawRegions: unknown, id: string, byEntry: RegionSets['byEntry']): number {
   for (const [i, regions] of byEntry) if (regions.some((r) => r.id === id)) return i;
-  return (rawRegions as { id?: string }[]).findIndex((r) => r.id === id);
+  return list(rawRegions).findIndex((r) => obj(r).id === id);
 }
 
 /** Index of the `regions:` entry (inline region or boundary file) a region comes from, for YAML positions. */

@@ -2,10 +2,12 @@
  * Defensive readers over the raw YAML tree: semantic checks run even when the schema found type errors,
  * so every reader returns an empty/undefined value for a wrong type instead of throwing.
  */
+import { isRecord } from '../core/json-shape.ts';
+
 export type RawObject = Readonly<Record<string, unknown>>;
 
 export function obj(v: unknown): RawObject {
-  return v !== null && typeof v === 'object' && !Array.isArray(v) ? (v as RawObject) : {};
+  return isRecord(v) ? v : {};
 }
 
 export function list(v: unknown): readonly unknown[] {

@@ -6,6 +6,7 @@ import { readFile, stat } from 'node:fs/promises';
 import { LineCounter, parseDocument, type Document } from 'yaml';
 import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { displayPath } from './source-map.ts';
+import { errnoCode, errorMessage } from '../core/errors.ts';
 
 export const MAX_CONFIG_BYTES = 1024 * 1024;
 export const MAX_ALIAS_COUNT = 100;
@@ -67,7 +68,7 @@ export async function readYamlFile(file: string): Promise<YamlRead> {
   } catch (err) {
     return {
       ok: false,
-      message: `cannot read ${displayPath(file)} (${(err as NodeJS.ErrnoException).code ?? String(err)})`,
+      message: `cannot read ${displayPath(file)} (${errnoCode(err) ?? String(err)})`,
       fix: 'check the path (relative to the including file)',
     };
   }
@@ -82,7 +83,7 @@ export async function readYamlFile(file: string): Promise<YamlRead> {
   try {
     bytes = await readFile(file);
   } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
+    const code = errnoCode(err);
     return {
       ok: false,
       message: `cannot read ${displayPath(file)} (${code === 'EISDIR' ? 'it is a folder' : (code ?? String(err))})`,
@@ -145,7 +146,7 @@ export async function readYamlFile(file: string): Promise<YamlRead> {
         yamlProblem(
           1,
           1,
-          `YAML aliases expand too much (${(err as Error).message}; limit ${MAX_ALIAS_COUNT})`,
+          `YAML aliases expand too much (${errorMessage(err)}; limit ${MAX_ALIAS_COUNT})`,
           'write the values out instead of nesting *aliases',
         ),
       ],

@@ -4,7 +4,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
-import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.js';
+import { Ajv2020, type DefinedError, type ValidateFunction } from 'ajv/dist/2020.js';
 import { packagePath } from '../core/package-root.ts';
 import { problem, pointerOf, type ConfigProblem } from './problem.ts';
 
@@ -15,7 +15,9 @@ let compiled: ValidateFunction | undefined;
 function validator(): ValidateFunction {
   if (!compiled) {
     const ajv = new Ajv2020({ allErrors: true, verbose: true, strict: true, allowUnionTypes: true });
-    compiled = ajv.compile(JSON.parse(readFileSync(SCHEMA_URL, 'utf8')) as object);
+    const schema: unknown = JSON.parse(readFileSync(SCHEMA_URL, 'utf8'));
+    if (schema === null || typeof schema !== 'object') throw new Error(`${SCHEMA_URL.pathname} is not a JSON Schema: reinstall Forelight`);
+    compiled = ajv.compile(schema);
   }
   return compiled;
 }
@@ -27,7 +29,8 @@ export function validateAgainstSchema(raw: unknown): ConfigProblem[] {
   if (validate(raw)) return [];
   const out: ConfigProblem[] = [];
   const seen = new Set<string>();
-  for (const e of validate.errors ?? []) {
+  // ajv's own keywords only (strict mode, no custom keywords): its errors are the `DefinedError` union, keyed by keyword.
+  for (const e of (validate.errors ?? []) as DefinedError[]) {
     // "must match then": the branch's own errors (e.g. an indicator kind's params) are reported instead.
     if (e.keyword === 'if') continue;
     const p = describeSchemaError(e);
@@ -60,13 +63,13 @@ function probabilityFix(v: number): string {
     : 'write a fraction between 0 and 1';
 }
 
-function describeSchemaError(e: ErrorObject): ConfigProblem {
-  const ps = (e.parentSchema ?? {}) as Record<string, unknown>;
+function describeSchemaError(e: DefinedError): ConfigProblem {
+  const ps: Record<string, unknown> = e.parentSchema ?? {};
   const help = typeof ps.description === 'string' ? ps.description : 'see the schema description';
   const at = e.instancePath;
   switch (e.keyword) {
     case 'additionalProperties': {
-      const key = (e.params as { additionalProperty: string }).additionalProperty;
+      const key = e.params.additionalProperty;
       const ptr = at + pointerOf(key);
       if (SECRET_KEY.test(key)) {
         return problem(
@@ -76,7 +79,7 @@ function describeSchemaError(e: ErrorObject): ConfigProblem {
           'key',
         );
       }
-      const allowed = Object.keys((ps.properties as object | undefined) ?? {});
+      const allowed = Object.keys(e.parentSchema?.properties ?? {});
       const fix =
         allowed.length > 0
           ? `remove it or fix the spelling; allowed here: ${allowed.join(', ')}`
@@ -84,32 +87,28 @@ function describeSchemaError(e: ErrorObject): ConfigProblem {
       return problem(ptr, `unknown key "${key}"`, fix, 'key');
     }
     case 'required': {
-      const key = (e.params as { missingProperty: string }).missingProperty;
-      const props = (ps.properties ?? {}) as Record<string, { description?: string }>;
-      return problem(at, `missing key "${key}"`, `add ${key}: ${props[key]?.description ?? ''}`.trim(), 'key');
+      const key = e.params.missingProperty;
+      const description: unknown = e.parentSchema?.properties?.[key]?.description;
+      return problem(at, `missing key "${key}"`, `add ${key}: ${typeof description === 'string' ? description : ''}`.trim(), 'key');
     }
     case 'type':
-      return problem(
-        at,
-        `expected ${String((e.params as { type: string | string[] }).type).replace(',', ' or ')}, got ${show(e.data)}`,
-        help,
-      );
+      return problem(at, `expected ${String(e.params.type).replace(',', ' or ')}, got ${show(e.data)}`, help);
     case 'enum': {
-      const allowed = (e.params as { allowedValues: unknown[] }).allowedValues.map(String).join(', ');
+      const allowed = e.params.allowedValues.map(String).join(', ');
       return problem(at, `${show(e.data)} is not one of: ${allowed}`, `use one of: ${allowed}`);
     }
     case 'minimum':
     case 'maximum':
     case 'exclusiveMinimum':
     case 'exclusiveMaximum':
-      return describeRangeError(at, ps, e.data as number, help);
+      return describeRangeError(at, ps, Number(e.data), help);
     case 'pattern':
       // Never echo what was written as password-env: it may be the password itself.
       if (at.endsWith('/password-env'))
         return problem(at, 'password-env must be the NAME of an environment variable, not the password', help);
       return problem(at, `${show(e.data)} is not in the expected form`, help);
     case 'minItems':
-      return problem(at, `needs at least ${(e.params as { limit: number }).limit} entries`, help);
+      return problem(at, `needs at least ${e.params.limit} entries`, help);
     case 'minLength':
       return problem(at, `must not be empty`, help);
     case 'uniqueItems':

@@ -4,6 +4,7 @@
  * are in `diagnostic-codes.ts`.
  */
 import { DIAGNOSTIC_CODES, STAGES, isDiagnosticCode, type DiagnosticCode, type Severity, type Stage } from './diagnostic-codes.ts';
+import { isRecord } from './json-shape.ts';
 
 export type { DiagnosticCode, Severity, Stage } from './diagnostic-codes.ts';
 
@@ -89,14 +90,11 @@ export function uniqueDiagnostics(list: readonly Diagnostic[]): Diagnostic[] {
 
 const PLACE_TEXT = ['file', 'pointer', 'source', 'region', 'variable', 'indicator'] as const;
 const PLACE_NUMBER = ['line', 'column'] as const;
-const isRecord = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
 
 function isPlace(v: unknown): v is Place {
   if (!isRecord(v)) return false;
   return Object.entries(v).every(
-    ([k, x]) =>
-      ((PLACE_TEXT as readonly string[]).includes(k) && typeof x === 'string') ||
-      ((PLACE_NUMBER as readonly string[]).includes(k) && Number.isInteger(x)),
+    ([k, x]) => (PLACE_TEXT.some((p) => p === k) && typeof x === 'string') || (PLACE_NUMBER.some((p) => p === k) && Number.isInteger(x)),
   );
 }
 
@@ -106,7 +104,7 @@ export function isDiagnostic(v: unknown): v is Diagnostic {
     isRecord(v) &&
     isDiagnosticCode(v.code) &&
     (v.severity === 'error' || v.severity === 'warning' || v.severity === 'note') &&
-    (STAGES as readonly unknown[]).includes(v.stage) &&
+    STAGES.some((s) => s === v.stage) &&
     isPlace(v.place) &&
     typeof v.message === 'string' &&
     typeof v.hint === 'string'

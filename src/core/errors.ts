@@ -78,6 +78,22 @@ export function diagnosticOf(err: unknown, code: DiagnosticCode, hint = ''): Dia
 
 /** One-line text for any thrown value, for stderr and logs. */
 export function describeError(err: unknown): string {
-  if (err instanceof Error) return err.message.split('\n').join(' | ');
-  return String(err);
+  return errorMessage(err).split('\n').join(' | ');
+}
+
+/** The message of a thrown value (an `Error`'s own, else its text), lines kept. */
+export function errorMessage(err: unknown): string {
+  return err instanceof Error ? err.message : String(err);
+}
+
+/** The errno name (`ENOENT`, `EACCES`, …) or library code (`SQLITE_CANTOPEN`) of a thrown value, if it has one. */
+export function errnoCode(err: unknown): string | undefined {
+  const code = err !== null && typeof err === 'object' && 'code' in err ? err.code : undefined;
+  return typeof code === 'string' ? code : undefined;
+}
+
+/** What a failed child process wrote to stderr (`execFile`'s error carries it), or '' without it. */
+export function stderrOf(err: unknown): string {
+  const stderr = err !== null && typeof err === 'object' && 'stderr' in err ? err.stderr : undefined;
+  return typeof stderr === 'string' ? stderr : '';
 }

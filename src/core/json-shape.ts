@@ -5,13 +5,19 @@
  */
 import { Ajv2020 } from 'ajv/dist/2020.js';
 
-const ajv = new Ajv2020({ allErrors: false, strict: true, allowUnionTypes: true });
+const options = { allErrors: false, strict: true, allowUnionTypes: true };
+const ajv = new Ajv2020(options);
+/** For values revived from a stored form that keeps NaN and ±Infinity (ajv's `strictNumbers` off: `number` accepts them). */
+const ajvNonFinite = new Ajv2020({ ...options, strictNumbers: false });
+
+/** Whether a JSON value is an object (not null, not an array): a type guard for hand-written checks. */
+export const isRecord = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
 
 export type ShapeCheck<T> = (value: unknown) => { readonly ok: true; readonly value: T } | { readonly ok: false; readonly why: string };
 
-/** A checker for `T` from its JSON Schema (compiled once). */
-export function jsonShape<T>(schema: Record<string, unknown>): ShapeCheck<T> {
-  const validate = ajv.compile<T>(schema);
+/** A checker for `T` from its JSON Schema (compiled once); `nonFinite`: a `number` may be NaN or ±Infinity. */
+export function jsonShape<T>(schema: Record<string, unknown>, opts: { readonly nonFinite?: boolean } = {}): ShapeCheck<T> {
+  const validate = (opts.nonFinite ? ajvNonFinite : ajv).compile<T>(schema);
   return (value) => {
     if (validate(value)) return { ok: true, value };
     const e = validate.errors?.[0];

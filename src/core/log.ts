@@ -3,7 +3,11 @@
  * `runId` and `stage`. Values under keys that look secret (password, pass, auth, token) are redacted.
  */
 
-export type Level = 'debug' | 'info' | 'warn' | 'error';
+const LEVELS = ['debug', 'info', 'warn', 'error'] as const;
+export type Level = (typeof LEVELS)[number];
+
+/** The level a name such as FORELIGHT_LOG_LEVEL's value names, or undefined for any other text. */
+export const levelNamed = (name: string | undefined): Level | undefined => LEVELS.find((l) => l === name);
 
 export interface Logger {
   debug(msg: string, fields?: Record<string, unknown>): void;
@@ -23,7 +27,7 @@ function redact(fields: Record<string, unknown>): Record<string, unknown> {
 }
 
 export function createLogger(options: { level?: Level; sink?: (line: string) => void; base?: Record<string, unknown> } = {}): Logger {
-  const min = ORDER[options.level ?? (process.env.FORELIGHT_LOG_LEVEL as Level | undefined) ?? 'info'] ?? ORDER.info;
+  const min = ORDER[options.level ?? levelNamed(process.env.FORELIGHT_LOG_LEVEL) ?? 'info'];
   const sink = options.sink ?? ((line: string) => process.stderr.write(line + '\n'));
   const base = options.base ?? {};
   const emit = (level: Level, msg: string, fields?: Record<string, unknown>) => {

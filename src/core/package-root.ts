@@ -7,10 +7,16 @@ import { existsSync, readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
+/** The `name` of a package.json (undefined when it has none). */
+function manifestName(path: string): unknown {
+  const manifest: unknown = JSON.parse(readFileSync(path, 'utf8'));
+  return manifest !== null && typeof manifest === 'object' && 'name' in manifest ? manifest.name : undefined;
+}
+
 function findPackageRoot(from: string): string {
   for (let dir = from; ; dir = dirname(dir)) {
     const manifest = join(dir, 'package.json');
-    if (existsSync(manifest) && (JSON.parse(readFileSync(manifest, 'utf8')) as { name?: string }).name === 'forelight') return dir;
+    if (existsSync(manifest) && manifestName(manifest) === 'forelight') return dir;
     if (dirname(dir) === dir) throw new Error(`no Forelight package.json above ${from}: reinstall Forelight (git clone, then npm ci)`);
   }
 }

@@ -36,7 +36,7 @@ export function placeholdersIn(pattern: string): string[] {
 
 /** The `{name}`s of the pattern that are not placeholders (a typo such as `{data}`), each once. */
 export function unknownPlaceholders(pattern: string): string[] {
-  return [...new Set(placeholdersIn(pattern).filter((p) => !(PLACEHOLDERS as readonly string[]).includes(p)))];
+  return [...new Set(placeholdersIn(pattern).filter((p) => !PLACEHOLDERS.some((known) => known === p)))];
 }
 
 export function hasPlaceholder(pattern: string, name: Placeholder): boolean {

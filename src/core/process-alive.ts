@@ -1,3 +1,5 @@
+import { errnoCode } from './errors.ts';
+
 /** Whether a process id is alive on this host (signal 0 probes without signalling). */
 export function isProcessAlive(pid: number): boolean {
   if (!Number.isInteger(pid) || pid <= 0) return false;
@@ -6,6 +8,6 @@ export function isProcessAlive(pid: number): boolean {
     return true;
   } catch (err) {
     // EPERM: the process exists but belongs to another user.
-    return (err as NodeJS.ErrnoException).code === 'EPERM';
+    return errnoCode(err) === 'EPERM';
   }
 }

@@ -6,7 +6,7 @@
  */
 import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
-import { ForelightError, type Stage } from './errors.ts';
+import { ForelightError, type Stage, errnoCode } from './errors.ts';
 import { isProcessAlive } from './process-alive.ts';
 
 const TEMP_MARK = '.tmp-';
@@ -33,7 +33,7 @@ export function fixFor(code: string | undefined, dir: string): string {
 
 /** One-line error for a failed write of `path` (the errno code is kept as the error's `code` suffix). */
 export function writeFault(stage: Stage, path: string, err: unknown, what = 'file'): ForelightError {
-  const code = (err as NodeJS.ErrnoException).code;
+  const code = errnoCode(err);
   const reason = code ?? (err instanceof Error ? err.message : String(err));
   return new ForelightError(stage, 'write-failed', `cannot write ${what} (${reason})`, fixFor(code, dirname(path)), {
     cause: err,
@@ -52,7 +52,7 @@ export function makeFolder(dir: string): void {
   try {
     mkdirSync(dir);
   } catch (err) {
-    if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
+    if (errnoCode(err) !== 'EEXIST') throw err;
   }
 }
 

@@ -3,12 +3,12 @@
  * with a shape check (a corrupt or foreign record must not silently reset or invent stages).
  */
 import { ForelightError } from '../core/errors.ts';
+import { isRecord } from '../core/json-shape.ts';
 import { EMPTY_HISTORY, type StageHistory, type StageTrack } from './types.ts';
 
-function isTrack(v: unknown): v is StageTrack {
-  if (v === null || typeof v !== 'object') return false;
-  const t = v as Record<string, unknown>;
-  const count = (x: unknown) => Number.isInteger(x) && (x as number) >= 0;
+function isTrack(t: unknown): t is StageTrack {
+  if (!isRecord(t)) return false;
+  const count = (x: unknown) => typeof x === 'number' && Number.isInteger(x) && x >= 0;
   const idOrNull = (x: unknown) => x === null || typeof x === 'string';
   return (
     typeof t.stageId === 'string' &&
@@ -36,11 +36,12 @@ export function parseStageHistory(json: string | null): StageHistory {
   } catch {
     throw fail('not JSON');
   }
-  const h = v as Partial<StageHistory> | null;
-  if (!h || h.version !== 1 || h.tracks === null || typeof h.tracks !== 'object') throw fail('expected { version: 1, tracks: {...} }');
-  for (const [key, track] of Object.entries(h.tracks)) {
+  if (!isRecord(v) || v.version !== 1 || !isRecord(v.tracks)) throw fail('expected { version: 1, tracks: {...} }');
+  const tracks: Record<string, StageTrack> = {};
+  for (const [key, track] of Object.entries(v.tracks)) {
     if (key.split('|').length !== 3) throw fail(`track key "${key}" is not region|indicator|tier`);
     if (!isTrack(track)) throw fail(`track "${key}" lacks stageId/runsAbove/lowestAboveId/runsBelow/highestBelowId`);
+    tracks[key] = track;
   }
-  return h as StageHistory;
+  return { version: 1, tracks };
 }

@@ -90,6 +90,13 @@ function reclaimDeadClaims(ledger: Ledger, staleClaimSeconds: number, log: Logge
   return reclaimed;
 }
 
+/** A send given up (a permanent failure, or the retries spent), with how SMTP failed. */
+class SmtpSendError extends Error {
+  constructor(readonly failure: SmtpFailure) {
+    super(failure.detail);
+  }
+}
+
 async function sendWithRetry(
   transport: SmtpTransporter,
   message: Mail.Options,
@@ -103,7 +110,7 @@ async function sendWithRetry(
       return;
     } catch (err) {
       const failure = classifySmtpError(err);
-      if (!failure.temporary || attempt >= delivery.retries) throw Object.assign(new Error(failure.detail), { failure });
+      if (!failure.temporary || attempt >= delivery.retries) throw new SmtpSendError(failure);
       const waitMs = delivery.retryBaseSeconds * 1000 * 2 ** attempt;
       log.warn('temporary SMTP failure, will retry', { to: message.to, attempt: attempt + 1, waitMs, error: failure.detail });
       await sleep(waitMs);
@@ -192,7 +199,7 @@ export async function deliverPending(
           await options.onStep?.('accepted', claimed);
           status = 'sent';
         } else {
-          const failure = (sendError as { failure?: SmtpFailure }).failure;
+          const failure = sendError instanceof SmtpSendError ? sendError.failure : undefined;
           if (failure?.auth) {
             // Wrong credentials fail every message alike: the rest go straight to the outbox, no more logins tried.
             loginRefused = `${loginRefusedText(delivery, failure.detail)} — ${loginFix(delivery)}`;

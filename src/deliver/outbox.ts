@@ -8,7 +8,7 @@ import { rmSync, writeFileSync } from 'node:fs';
 import { fixFor, makeFolder, writeFileAtomic } from '../core/write-atomic.ts';
 import { createHash } from 'node:crypto';
 import { join, resolve, sep } from 'node:path';
-import { DeliveryError } from '../core/errors.ts';
+import { DeliveryError, errnoCode } from '../core/errors.ts';
 
 /** File-name-safe part: ASCII letters, digits, `.`, `_`, `-` only; no leading dot; at most `max` characters. */
 export function safeNamePart(value: string, max = 80): string {
@@ -30,7 +30,7 @@ export function outboxBaseName(forecastKey: string, runId: number, team: string,
 }
 
 function outboxError(dir: string, err: unknown): DeliveryError {
-  const code = (err as NodeJS.ErrnoException).code ?? (err as { cause?: NodeJS.ErrnoException }).cause?.code ?? 'error';
+  const code = errnoCode(err) ?? errnoCode(err instanceof Error ? err.cause : undefined) ?? 'error';
   return new DeliveryError(
     `outbox folder ${dir} is not writable (${code})`,
     `${fixFor(code, dir)} (delivery.outbox); unsent bulletins stay pending in the ledger`,

@@ -7,7 +7,7 @@ import Database from 'better-sqlite3';
 import { existsSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { dirname } from 'node:path';
-import { ForelightError, describeError } from '../core/errors.ts';
+import { ForelightError, describeError, errnoCode } from '../core/errors.ts';
 import { fixFor } from '../core/write-atomic.ts';
 import { applyMigrations } from './migrations.ts';
 import { openPostgres } from './pg-sync.ts';
@@ -51,7 +51,7 @@ export function openLedger(target: string, options: OpenLedgerOptions = {}): Led
   } catch (err) {
     // A full or read-only disk already refuses the WAL set-up: said as such, with the fix.
     // (SQLITE_CANTOPEN keeps the open message below: a missing or unwritable folder, not a failing write.)
-    const cantOpen = ((err as { code?: string }).code ?? '').startsWith('SQLITE_CANTOPEN');
+    const cantOpen = (errnoCode(err) ?? '').startsWith('SQLITE_CANTOPEN');
     const fault = postgres || cantOpen ? err : ledgerWriteFault(target, err);
     if (fault !== err) throw fault;
     throw new ForelightError(
@@ -150,7 +150,7 @@ const WRITE_FAULTS: Readonly<Record<string, string>> = {
  * without the ledger: it records each bulletin before sending). Any other error is returned unchanged.
  */
 export function ledgerWriteFault(path: string, err: unknown): unknown {
-  const code = (err as { code?: string }).code ?? '';
+  const code = errnoCode(err) ?? '';
   const base = Object.keys(WRITE_FAULTS).find((k) => code === k || code.startsWith(`${k}_`));
   if (!base) return err;
   return new ForelightError(

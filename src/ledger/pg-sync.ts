@@ -7,6 +7,7 @@
 import { MessageChannel, receiveMessageOnPort, Worker } from 'node:worker_threads';
 import { pathToFileURL } from 'node:url';
 import { ForelightError } from '../core/errors.ts';
+import { isRecord } from '../core/json-shape.ts';
 import { packagePath } from '../core/package-root.ts';
 import type { RunResult, SqlDb, Statement, Transaction } from './sql-db.ts';
 
@@ -16,9 +17,20 @@ const STATEMENT_TIMEOUT_MS = 60_000;
 /** Transactions marked immediate take this advisory lock, so they run one at a time across all processes. */
 const WRITER_LOCK = 7_061_911;
 
-interface Reply {
-  readonly ok?: { rows: Record<string, unknown>[]; changes: number };
-  readonly error?: { message: string; code: string | null };
+type Reply =
+  { readonly ok: { rows: Record<string, unknown>[]; changes: number } } | { readonly error: { message: string; code: string | null } };
+
+/** The worker's answer (pg-sync-worker.mjs posts exactly one of `ok` or `error`), or undefined when it is neither. */
+function replyOf(message: unknown): Reply | undefined {
+  if (!isRecord(message)) return undefined;
+  const { ok, error } = message;
+  if (isRecord(ok) && Array.isArray(ok.rows) && ok.rows.every(isRecord) && typeof ok.changes === 'number') {
+    return { ok: { rows: ok.rows, changes: ok.changes } };
+  }
+  if (isRecord(error) && typeof error.message === 'string') {
+    return { error: { message: error.message, code: typeof error.code === 'string' ? error.code : null } };
+  }
+  return undefined;
 }
 
 /** `?` placeholders → `$1, $2, …` (the ledger's statements hold no `?` inside string literals). */
@@ -49,8 +61,8 @@ export function openPostgres(connectionString: string, password: string | undefi
     Atomics.store(signal, 0, 0);
     port1.postMessage(msg);
     const waited = Atomics.wait(signal, 0, 0, STATEMENT_TIMEOUT_MS);
-    const got = receiveMessageOnPort(port1)?.message as Reply | undefined;
-    if (waited === 'timed-out' || !got) {
+    const posted = receiveMessageOnPort(port1);
+    if (waited === 'timed-out' || !posted) {
       throw new ForelightError(
         'ledger',
         'ledger-postgres',
@@ -58,7 +70,16 @@ export function openPostgres(connectionString: string, password: string | undefi
         'check that the server is up and reachable, and that no other session holds a lock for long',
       );
     }
-    if (got.error) {
+    const got = replyOf(posted.message);
+    if (!got) {
+      throw new ForelightError(
+        'ledger',
+        'ledger-postgres',
+        `PostgreSQL ledger ${where}: the connection's worker thread posted something that is not an answer`,
+        'reinstall Forelight (src/ledger/pg-sync-worker.mjs belongs to this version); report it if it recurs',
+      );
+    }
+    if ('error' in got) {
       throw new ForelightError(
         'ledger',
         'ledger-postgres',
@@ -66,7 +87,7 @@ export function openPostgres(connectionString: string, password: string | undefi
         'check the ledger URL, the password variable named by ledger-password-env, and that the database exists',
       );
     }
-    return got.ok!;
+    return got.ok;
   };
   const query = (sql: string, params: unknown[] = []) => call({ op: 'query', sql, params });
 

@@ -79,7 +79,7 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
   const sources: SourceOutcome[] = [];
   for (const s of read.sources) {
     const t0 = Date.now();
-    const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs;
+    const input = read.inputs.find((i) => i.source.id === s.source.id) as SourceInputs; // every read source comes from one of the inputs
     const onStart = options.onStartReduced && ((done: number, n: number) => options.onStartReduced?.(s.source.id, done, n));
     const outcome = await calibrateSource(config, ctx, s, input, { fileProblems, reducer, onStart });
     log.info('calibrated source', {

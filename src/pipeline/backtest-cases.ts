@@ -11,8 +11,11 @@ import { eventKey, pairOf, type EventKey } from '../core/keys.ts';
 import type { LeadProbability } from '../types.ts';
 import type { Analysis } from './analyse.ts';
 
+/** One hindcast year's cases: its probabilities, what was observed, and its first lead's start. */
+type YearCases = { probabilities: LeadProbability[]; events: Map<EventKey, boolean>; start: string };
+
 export function backtestCases(config: Pick<Config, 'indicators'>, analysis: Analysis): BacktestCase[] {
-  const byYear = new Map<number, { probabilities: LeadProbability[]; events: Map<EventKey, boolean>; start: string }>();
+  const byYear = new Map<number, YearCases>();
   for (const source of analysis.sources) {
     for (const [key, climate] of source.climates) {
       const { hindcast: hc, observed: obs } = climate;
@@ -25,8 +28,8 @@ export function backtestCases(config: Pick<Config, 'indicators'>, analysis: Anal
         if (l >= obs.leads.length) return;
         const cases = observedCases(hc, obs, l, spec);
         cases.caseYears.forEach((year, i) => {
-          const entry = byYear.get(year) ?? {
-            probabilities: [] as LeadProbability[],
+          const entry: YearCases = byYear.get(year) ?? {
+            probabilities: [],
             events: new Map<EventKey, boolean>(),
             start: `${year}-${lead.start.slice(5)}`,
           };

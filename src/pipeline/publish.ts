@@ -3,7 +3,7 @@
  * every issued run's archive entry (each kept as `<archive>/<runId>/entry.json`).
  */
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
-import { ForelightError } from '../core/errors.ts';
+import { ForelightError, errorMessage } from '../core/errors.ts';
 import { jsonShape, parseShaped } from '../core/json-shape.ts';
 import { writeFileAtomic } from '../core/write-atomic.ts';
 import { join } from 'node:path';
@@ -68,7 +68,7 @@ export function readArchiveEntries(dir: string): ArchiveEntry[] {
     try {
       read = parseShaped(readFileSync(file, 'utf8'), isEntry);
     } catch (err) {
-      read = { ok: false, why: (err as Error).message };
+      read = { ok: false, why: errorMessage(err) };
     }
     if (!read.ok)
       throw new ForelightError(

@@ -12,6 +12,7 @@
 import type { Config, RegionConfig } from '../config/types.ts';
 import type { ForelightError } from '../core/errors.ts';
 import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.ts';
+import { entriesOf } from '../core/typed-entries.ts';
 
 export interface SharedReads {
   /** The extractor of configuration `index` (its position in the list given to `shareReads`). */
@@ -53,7 +54,7 @@ function patternRegex(pattern: string): RegExp {
 
 /** Every (quantity, variable) pair of `wanted` is one of `mapping`'s (a read of some of a source's variables). */
 const mapsAll = (wanted: ExtractRequest['quantities'], mapping: ExtractRequest['quantities']): boolean =>
-  Object.entries(wanted).every(([q, v]) => mapping[q as keyof typeof mapping] === v);
+  entriesOf(wanted).every(([q, v]) => mapping[q] === v);
 
 /** Whether `config` reads `path` with these variables (a forecast, hindcast or its observations, or part of one). */
 function readsFile(config: Config, path: string, wanted: ExtractRequest['quantities']): boolean {

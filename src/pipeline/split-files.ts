@@ -19,6 +19,7 @@ import { compactDate, fillPattern, hasPlaceholder, matchPattern, type Placeholde
 import type { Dataset } from '../read/dataset.ts';
 import { openDataset } from '../read/open-dataset.ts';
 import type { IsoDate, Quantity } from '../types.ts';
+import { entriesOf } from '../core/typed-entries.ts';
 
 /** The files of one forecast, as found on disk (no file opened yet). */
 export interface InputFiles {
@@ -54,20 +55,20 @@ function missingFile(path: string, why: string): InputError {
 /** The member files of one `{member}` pattern, in member order, and the files missing from a gap in the numbers. */
 function memberFiles(pattern: string): { files: string[]; values: string[]; missing: InputError[] } {
   const found = matchPattern(pattern)
-    .filter((m) => m.values.member !== undefined)
-    .sort((a, b) => memberRange(a.values.member as string)[0] - memberRange(b.values.member as string)[0]);
+    .flatMap((m) => (m.values.member === undefined ? [] : [{ path: m.path, member: m.values.member }]))
+    .sort((a, b) => memberRange(a.member)[0] - memberRange(b.member)[0]);
   const missing: InputError[] = [];
   if (found.length === 0) missing.push(missingFile(pattern, 'no member file matches this pattern'));
   for (let k = 1; k < found.length; k++) {
-    const before = memberRange(found[k - 1].values.member as string)[1];
-    const next = memberRange(found[k].values.member as string)[0];
-    const width = (found[k].values.member as string).split('-')[0].length;
+    const before = memberRange(found[k - 1].member)[1];
+    const next = memberRange(found[k].member)[0];
+    const width = found[k].member.split('-')[0].length;
     for (let m = before + 1; m < next; m++) {
       const path = fillPattern(pattern, { member: String(m).padStart(width, '0') });
       missing.push(missingFile(path, `member ${m} of the forecast lies between ${found[k - 1].path} and ${found[k].path}`));
     }
   }
-  return { files: found.map((m) => m.path), values: found.map((m) => m.values.member as string), missing };
+  return { files: found.map((m) => m.path), values: found.map((m) => m.member), missing };
 }
 
 /**
@@ -144,7 +145,7 @@ export async function groupInputFiles(files: InputFiles, quantities: Partial<Rec
   const opened = new Map<string, Dataset | null>();
   const groups = new Map<string, { files: readonly string[]; quantities: Partial<Record<Quantity, string>> }>();
   try {
-    for (const [quantity, variable] of Object.entries(quantities) as [Quantity, string][]) {
+    for (const [quantity, variable] of entriesOf(quantities)) {
       const lists = (files.byVariable.get(variable) ?? []).filter((l) => l.length > 0);
       let chosen = lists;
       if (lists.length > 1) {

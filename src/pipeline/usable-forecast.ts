@@ -10,11 +10,12 @@
 import { readRegions } from '../config/region-views.ts';
 import type { Config } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
-import type { Quantity, RegionQuantities } from '../types.ts';
+import type { RegionQuantities } from '../types.ts';
 import { hindcastsFor, type ForecastCandidate, type SourceInputs } from './inputs.ts';
 import { hindcastRequest } from './hindcast-list.ts';
 import type { Extractor } from '../read/extract.ts';
 import { readInputFiles, regionCells, type SourceRead } from './read-file.ts';
+import { entriesOf } from '../core/typed-entries.ts';
 
 export interface UsableForecast {
   readonly read: SourceRead;
@@ -25,7 +26,7 @@ export interface UsableForecast {
 /** Why a read file cannot stand for its source, or null when it can (regions it lacks are reported, not fatal). */
 function whyUnusable(source: SourceInputs['source'], series: RegionQuantities): string | null {
   if (series.size === 0) return 'no region has a usable value in it';
-  const wanted = Object.keys(source.variables) as Quantity[];
+  const wanted = entriesOf(source.variables).map(([q]) => q);
   const lacking = wanted.filter((q) => ![...series.values()].some((byQ) => byQ.has(q)));
   if (lacking.length > 0) return `${lacking.map((q) => `'${source.variables[q]}' (${q})`).join(', ')} could not be read for any region`;
   return null;
@@ -41,7 +42,7 @@ async function gridMismatch(
 ): Promise<string[] | null> {
   const first = input.hindcasts.find((h) => !h.refused);
   if (!first) return null;
-  const [quantity, variable] = Object.entries(input.source.variables)[0] as [Quantity, string];
+  const [quantity, variable] = entriesOf(input.source.variables)[0];
   const hindcast = await readInputFiles(
     extract,
     first.files,

@@ -5,7 +5,7 @@
  */
 import { readSync } from 'node:fs';
 import type { FileHandle } from 'node:fs/promises';
-import { InputError } from '../core/errors.ts';
+import { InputError, errorMessage } from '../core/errors.ts';
 import { variableNotFound, type Dataset, type DatasetFormat, type DimensionInfo, type VariableInfo } from './dataset.ts';
 import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, decodeBigEndian, parseClassicHeader } from './classic-header.ts';
 import { PositionPicker } from './classic-pick.ts';
@@ -39,7 +39,7 @@ async function readHeader(file: string, handle: FileHandle, fileBytes: number): 
         throw new InputError(
           'input-corrupt',
           file,
-          `NetCDF classic header is malformed (${(err as Error).message})`,
+          `NetCDF classic header is malformed (${errorMessage(err)})`,
           're-download the file or check it with `ncdump -h`',
           { cause: err },
         );

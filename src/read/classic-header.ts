@@ -129,7 +129,7 @@ function readAttributes(c: Cursor): Record<string, AttributeValue> {
 
 /** Parses a classic-family header from `bytes` (a prefix of the file starting at byte 0). */
 export function parseClassicHeader(bytes: Buffer): ClassicHeader {
-  const version = bytes[3] as ClassicVersion;
+  const version = bytes[3] as ClassicVersion; // 1, 2 or 5: open-dataset.ts sends only files with these magic bytes here
   const c = new Cursor(bytes, version);
   const numRecordsRaw = c.count();
   const numRecords = numRecordsRaw === STREAMING && version !== 5 ? -1 : numRecordsRaw;

@@ -7,6 +7,7 @@
  */
 import { InputError, UnitError } from '../core/errors.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
+import { gribSelectionHint, looksLikeGrib } from './grib-convert.ts';
 import { durationUnitMs, requireIncreasingSteps, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
 import { decodeTimes, type CfDateTime } from './cf-time.ts';
 import { countsMonths, isMonthIndex, monthLeadAxis } from './lead-months.ts';
@@ -389,7 +390,9 @@ export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: strin
         'variable-extra-dimension',
         ds.path,
         `variable '${name}' has extra dimension '${d}' of size ${info.shape[k]}`,
-        `select one ${d} first (ncks -d ${d},0 ${ds.path} out.nc keeps the first; cdo cannot select it in an ensemble file)`,
+        looksLikeGrib(ds.path, Buffer.alloc(0))
+          ? gribSelectionHint(ds.path, d)
+          : `select one ${d} first (ncks -d ${d},0 ${ds.path} out.nc keeps the first; cdo cannot select it in an ensemble file)`,
       );
     }
   });

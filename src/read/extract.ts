@@ -21,6 +21,7 @@ import { rawRegionMeans } from './extract-raw.ts';
 import { cellSeriesOf, regionSelection } from './weighted-selection.ts';
 import { describeShape } from './regions.ts';
 import { planUnits } from './units.ts';
+import { entriesOf } from '../core/typed-entries.ts';
 import { oneStart, requireStartsDimension } from './start-slice.ts';
 
 export interface ExtractRequest {
@@ -78,7 +79,7 @@ export async function extractFromDataset(file: Dataset, request: ExtractRequest)
     coords.grid.lon.length,
   );
   if (regions.length === 0) return { series, problems, notes };
-  for (const [quantity, variable] of Object.entries(request.quantities) as [Quantity, string][]) {
+  for (const [quantity, variable] of entriesOf(request.quantities)) {
     try {
       const layout = layoutVariable(ds, coords, variable);
       if (request.startIndex !== undefined) requireStartsDimension(ds, layout.info);

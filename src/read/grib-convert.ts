@@ -17,7 +17,7 @@ import { existsSync, mkdirSync, readdirSync, renameSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import { promisify } from 'node:util';
-import { InputError } from '../core/errors.ts';
+import { errnoCode, errorMessage, InputError, stderrOf } from '../core/errors.ts';
 import { sha256File } from '../core/file-checksums.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 
@@ -30,6 +30,18 @@ export function looksLikeGrib(path: string, head: Buffer): boolean {
   return GRIB_EXTENSIONS.some((e) => path.toLowerCase().endsWith(e)) || head.toString('latin1', 0, 4) === 'GRIB';
 }
 
+/** grib_to_netcdf's dimension names → the ecCodes keys that select their messages. */
+const SELECTION_KEYS: Readonly<Record<string, string>> = { date: 'dataDate', time: 'dataTime', level: 'level', step: 'step' };
+
+/**
+ * How to keep one value of an extra dimension of a converted GRIB file: NCO and CDO commands do not apply to the
+ * GRIB file the user holds, ecCodes' grib_copy does (`-w key=value` keeps the matching messages).
+ */
+export function gribSelectionHint(path: string, dimension: string): string {
+  const key = SELECTION_KEYS[dimension] ?? dimension;
+  return `keep one ${dimension} with ecCodes: grib_ls -p ${key} ${path} lists them, grib_copy -w ${key}=<one of them> ${path} out.grib2 keeps its messages`;
+}
+
 /** Where converted files live: `FORELIGHT_GRIB_CACHE`, else `<system temp>/forelight-grib-cache`. */
 export function gribCacheDir(): string {
   return process.env.FORELIGHT_GRIB_CACHE || join(tmpdir(), 'forelight-grib-cache');
@@ -39,8 +51,7 @@ async function eccodes(tool: string, args: string[], file: string): Promise<void
   try {
     await run(tool, args, { maxBuffer: 16 * 1024 * 1024 });
   } catch (err) {
-    const e = err as NodeJS.ErrnoException & { stderr?: string };
-    if (e.code === 'ENOENT') {
+    if (errnoCode(err) === 'ENOENT') {
       throw new InputError(
         'eccodes-missing',
         file,
@@ -50,10 +61,10 @@ async function eccodes(tool: string, args: string[], file: string): Promise<void
       );
     }
     const said =
-      (e.stderr ?? '')
+      stderrOf(err)
         .split('\n')
         .map((l) => l.trim())
-        .find((l) => /error/i.test(l)) ?? e.message.split('\n')[0];
+        .find((l) => /error/i.test(l)) ?? errorMessage(err).split('\n')[0];
     throw new InputError(
       'grib-unreadable',
       file,

@@ -155,6 +155,7 @@ class Hdf5Dataset implements Dataset {
 
   /** The InputError for a failed read: what went wrong, in this file and variable, and what to do. */
   private readError(name: string, err: unknown): InputError {
+    // hdf5-slab.mjs (plain JavaScript, shared with the read workers) throws Errors with a `kind` field.
     const kind = err instanceof SliceError ? err.kind : (err as { kind?: string } | null)?.kind;
     const text = oneLine(err);
     switch (kind) {

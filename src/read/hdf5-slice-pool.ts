@@ -9,7 +9,7 @@
 import { availableParallelism } from 'node:os';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import { ForelightError } from '../core/errors.ts';
+import { ForelightError, errorMessage } from '../core/errors.ts';
 import { packagePath } from '../core/package-root.ts';
 import { packageExportPath } from './hdf5-package.ts';
 import type { SlabErrorKind } from './hdf5-slab.mjs';
@@ -75,7 +75,7 @@ export class Hdf5SlicePool {
         target.worker.postMessage({ kind: 'read', id, ...request });
       } catch (err) {
         this.settled(target, id);
-        reject(new SliceError('worker', `the read could not be sent to its worker (${(err as Error).message})`));
+        reject(new SliceError('worker', `the read could not be sent to its worker (${errorMessage(err)})`));
       }
     });
   }

@@ -8,7 +8,7 @@
  */
 import { InputError } from '../core/errors.ts';
 import { findCoordinates } from './coordinates.ts';
-import type { AttributeValue, Dataset, DimensionInfo, VariableInfo } from './dataset.ts';
+import type { Dataset, DimensionInfo, VariableInfo } from './dataset.ts';
 import { variableNotFound } from './dataset.ts';
 
 /** Name of the ensemble dimension added when the parts have none. */
@@ -162,7 +162,7 @@ export async function stackMembers(path: string, parts: readonly Dataset[]): Pro
     path,
     format: first.format,
     dimensions,
-    attributes: first.attributes as Readonly<Record<string, AttributeValue>>,
+    attributes: first.attributes,
     variables,
     variable: (name) => byName.get(name),
     readAhead: first.readAhead,

@@ -4,7 +4,7 @@
  * Group, "HDF5 File Format Specification" (superblock signature \x89HDF\r\n\x1a\n at offset 0).
  */
 import { open } from 'node:fs/promises';
-import { InputError } from '../core/errors.ts';
+import { InputError, errnoCode } from '../core/errors.ts';
 import type { Dataset } from './dataset.ts';
 import { openClassicDataset } from './classic-dataset.ts';
 import { openHdf5Dataset } from './hdf5-dataset.ts';
@@ -76,7 +76,7 @@ async function openNetcdf(path: string): Promise<Dataset> {
     throw new InputError(
       'input-missing',
       path,
-      `cannot open the file (${(err as NodeJS.ErrnoException).code ?? String(err)})`,
+      `cannot open the file (${errnoCode(err) ?? String(err)})`,
       'check the path (sources[].forecast-files in the config, or the command line) and that the download finished',
       { cause: err },
     );

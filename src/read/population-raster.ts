@@ -6,23 +6,17 @@
  * count as nobody (population rasters mark water and uninhabited land as no-data). Only the rows and columns
  * around the regions asked for are read.
  */
-import { execFile } from 'node:child_process';
-import { existsSync, mkdirSync, renameSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { promisify } from 'node:util';
+import { existsSync } from 'node:fs';
 import type { RasterExtent } from '../config/check-population.ts';
 import type { PopulationConfig } from '../config/types.ts';
 import { InputError } from '../core/errors.ts';
-import { sha256File } from '../core/file-checksums.ts';
-import { shellWord, wgs84Copy } from '../core/shell-command.ts';
 import { decodeCf } from './cf-decode.ts';
 import { findCoordinates, type LatLonGrid } from './coordinates.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
+import { geoTiffAsNetcdf, isGeoTiff, missingRaster, reprojectFix } from './geotiff-netcdf.ts';
 import { withDataset } from './open-dataset.ts';
 import { cellBounds } from './regions.ts';
 
-const run = promisify(execFile);
 const DEG = Math.PI / 180;
 /** Mean Earth radius R1 = 6371.0088 km (Moritz 2000, Geodetic Reference System 1980): km² per steradian = R1². */
 const KM2_PER_SR = 6371.0088 ** 2;
@@ -40,65 +34,6 @@ export interface PopulationGrid {
 }
 
 export type { RasterExtent };
-
-const isGeoTiff = (path: string) => /\.tiff?$/i.test(path);
-
-async function gdal(tool: string, args: string[], file: string): Promise<string> {
-  try {
-    return (await run(tool, args, { maxBuffer: 64 * 1024 * 1024 })).stdout;
-  } catch (err) {
-    const e = err as NodeJS.ErrnoException & { stderr?: string };
-    const why = e.code === 'ENOENT' ? `GDAL's ${tool} is not installed` : (e.stderr ?? e.message).trim().split('\n')[0];
-    throw new InputError(
-      'population-raster',
-      file,
-      `population raster cannot be read as GeoTIFF (${why})`,
-      'install the Debian package gdal-bin, or convert the raster to NetCDF (gdal_translate -of netCDF)',
-      { cause: err },
-    );
-  }
-}
-
-/** The fix for a raster not on WGS 84 longitude/latitude: a gdalwarp line writing a GeoTIFF beside it (`source`: GDAL's name of the data). */
-function reprojectFix(file: string, source = file): string {
-  const out = wgs84Copy(file, '.tif');
-  return `reproject it once: gdalwarp -t_srs EPSG:4326 ${shellWord(source)} ${shellWord(out)}, and name ${out} in population.file`;
-}
-
-/** The CRS of a GeoTIFF from `gdalinfo -json`, refused unless geographic WGS 84. */
-async function checkGeoTiffCrs(file: string): Promise<void> {
-  const info = JSON.parse(await gdal('gdalinfo', ['-json', file], file)) as { coordinateSystem?: { wkt?: string } };
-  const wkt = info.coordinateSystem?.wkt ?? '';
-  const name = /^\w+\["([^"]*)"/.exec(wkt)?.[1] ?? 'none';
-  const geographic = /^GEOG(CRS|CS)\[/.test(wkt);
-  const wgs84 = /ID\["EPSG",4326\]\s*\]$/.test(wkt) || /DATUM\["World Geodetic System 1984"/.test(wkt) || /DATUM\["WGS_1984"/.test(wkt);
-  if (geographic && wgs84) return;
-  throw new InputError('population-crs', file, `population raster is in CRS '${name}', not WGS 84 longitude/latitude`, reprojectFix(file));
-}
-
-/** Where converted GeoTIFFs live: `<cacheDir>/population`, or the system temp folder without a cache dir. */
-async function geoTiffAsNetcdf(file: string, cacheDir: string | null): Promise<string> {
-  if (!existsSync(file)) throw missingRaster(file);
-  await checkGeoTiffCrs(file);
-  const dir = join(cacheDir ?? join(tmpdir(), 'forelight-cache'), 'population');
-  const target = join(dir, `${await sha256File(file)}.nc`);
-  if (existsSync(target)) return target;
-  mkdirSync(dir, { recursive: true });
-  const work = `${target}.tmp-${process.pid}`;
-  rmSync(work, { force: true });
-  await gdal('gdal_translate', ['-q', '-of', 'netCDF', file, work], file);
-  renameSync(work, target);
-  return target;
-}
-
-function missingRaster(file: string): InputError {
-  return new InputError(
-    'population-raster',
-    file,
-    'population raster not found',
-    'check population.file in the YAML (relative to the YAML file)',
-  );
-}
 
 /** The people variable: the one named, or the only variable on the latitude × longitude grid. */
 function peopleVariable(ds: Dataset, grid: LatLonGrid, file: string, name: string | undefined): VariableInfo {

@@ -67,7 +67,7 @@ export async function populationSetCells(
     .digest('hex');
   const dir = cacheDir === null ? null : join(cacheDir, 'weights');
   const path = dir === null ? null : join(dir, `population-${key}.json`);
-  const known = memo.get(key) ?? (path ? readStored(path) : null) ?? new Map<string, RegionCells>();
+  const known = memo.get(key) ?? (path ? readStored(path, grid) : null) ?? new Map<string, RegionCells>();
   const missing = wanted.filter((s) => !known.has(s.region.id));
   if (missing.length > 0) {
     let raster;

@@ -9,6 +9,7 @@ import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { RegionConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
+import { jsonShape, parseShaped } from '../core/json-shape.ts';
 import { writeFileAtomic } from '../core/write-atomic.ts';
 import type { LatLonGrid } from './coordinates.ts';
 import { cellBounds, selectRegionCells, type RegionCells } from './regions.ts';
@@ -46,20 +47,45 @@ export function gridHash(grid: LatLonGrid): string {
 
 type Stored = Record<string, { lat: number[]; lon: number[]; w: number[] }>;
 
-/** A stored cell set (`writeStored`), or null when absent, damaged or of an older format. */
-export function readStored(path: string): Map<string, RegionCells> | null {
+const index = { type: 'array', items: { type: 'integer', minimum: 0 } };
+/** A cache file as `writeStored` writes it, of this format: grid indices and finite weights ≥ 0 per region. */
+const isStoredFile = jsonShape<{ format: typeof FORMAT; regions: Stored }>({
+  type: 'object',
+  properties: {
+    format: { const: FORMAT },
+    regions: {
+      type: 'object',
+      additionalProperties: {
+        type: 'object',
+        properties: { lat: index, lon: index, w: { type: 'array', items: { type: 'number', minimum: 0 } } },
+        required: ['lat', 'lon', 'w'],
+        additionalProperties: false,
+      },
+    },
+  },
+  required: ['format', 'regions'],
+});
+
+/**
+ * A stored cell set (`writeStored`) on `grid`, or null when absent, unreadable, of an older format, of another shape
+ * or pointing outside the grid (then it is computed again and rewritten: a damaged cache is never used).
+ */
+export function readStored(path: string, grid: LatLonGrid): Map<string, RegionCells> | null {
+  let text: string;
   try {
-    const doc = JSON.parse(readFileSync(path, 'utf8')) as { format: number; regions: Stored };
-    if (doc.format !== FORMAT) return null;
-    return new Map(
-      Object.entries(doc.regions).map(([region, c]) => [
-        region,
-        { region, latIndex: Int32Array.from(c.lat), lonIndex: Int32Array.from(c.lon), weights: Float64Array.from(c.w) },
-      ]),
-    );
+    text = readFileSync(path, 'utf8');
   } catch {
-    return null; // absent or damaged: computed again and rewritten
+    return null;
   }
+  const doc = parseShaped(text, isStoredFile);
+  if (!doc.ok) return null;
+  const cells = new Map<string, RegionCells>();
+  for (const [region, c] of Object.entries(doc.value.regions)) {
+    if (c.lat.length !== c.w.length || c.lon.length !== c.w.length) return null;
+    if (c.lat.some((y) => y >= grid.lat.length) || c.lon.some((x) => x >= grid.lon.length)) return null;
+    cells.set(region, { region, latIndex: Int32Array.from(c.lat), lonIndex: Int32Array.from(c.lon), weights: Float64Array.from(c.w) });
+  }
+  return cells;
 }
 
 /** Stores a cell set atomically; a failure only costs the computation next time. */
@@ -82,7 +108,7 @@ export function regionSetCells(grid: LatLonGrid, regions: readonly RegionConfig[
   const key = `${gridHash(grid)}-${regionSetHash(regions)}`;
   const dir = cacheDir === null ? null : join(cacheDir, 'weights');
   const path = dir === null ? null : join(dir, `${createHash('sha256').update(key).digest('hex')}.json`);
-  let known = memo.get(key) ?? (path ? readStored(path) : null);
+  let known = memo.get(key) ?? (path ? readStored(path, grid) : null);
   const fresh = !known;
   known ??= new Map();
   const selected: RegionSetCells['selected'] = [];

@@ -139,7 +139,7 @@ function shapeTest(shape: RegionShape): (lat: number, lon: number) => boolean {
 function centreCells(grid: LatLonGrid, shape: RegionShape): { latIdx: number[]; lonIdx: number[]; weights: number[] } {
   const inside = shapeTest(shape);
   const { latFactor, lonWidth } = cellAreaFactors(grid);
-  const out = { latIdx: [] as number[], lonIdx: [] as number[], weights: [] as number[] };
+  const out: ReturnType<typeof centreCells> = { latIdx: [], lonIdx: [], weights: [] };
   for (let y = 0; y < grid.lat.length; y++) {
     for (let x = 0; x < grid.lon.length; x++) {
       if (!inside(grid.lat[y], grid.lon[x])) continue;

@@ -11,9 +11,10 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import MessageFormatModule from '@messageformat/core';
 import { parseDocument } from 'yaml';
-import { ForelightError } from '../core/errors.ts';
+import { ForelightError, errorMessage } from '../core/errors.ts';
 import { packagePath } from '../core/package-root.ts';
 import { applyTypography } from './typography.ts';
+import { isRecord } from '../core/json-shape.ts';
 
 // The package is CommonJS (`module.exports = MessageFormat`) while its typings declare an ES default export.
 const MessageFormat = MessageFormatModule as unknown as typeof MessageFormatModule.default;
@@ -44,12 +45,12 @@ export function readMessages(file: string): Map<string, string> {
       'fix the YAML of the message catalogue',
     );
   }
-  const raw = doc.toJS() as unknown;
-  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) {
+  const raw: unknown = doc.toJS();
+  if (!isRecord(raw)) {
     throw new ForelightError('render', 'catalogue', `${file} is not a mapping of message keys to texts`, 'write one "key: text" per line');
   }
   const out = new Map<string, string>();
-  for (const [k, v] of Object.entries(raw as Record<string, unknown>)) {
+  for (const [k, v] of Object.entries(raw)) {
     if (typeof v !== 'string') throw new ForelightError('render', 'catalogue', `${file}: message ${k} is not a text`, 'quote the message');
     out.set(k, v);
   }
@@ -96,7 +97,7 @@ export function loadCatalogue(overrideDir = ''): Catalogue {
           throw new ForelightError(
             'render',
             'bad-message',
-            `message "${key}" of the ${locale} catalogue does not parse: ${(err as Error).message.split('\n')[0]}`,
+            `message "${key}" of the ${locale} catalogue does not parse: ${errorMessage(err).split('\n')[0]}`,
             'fix its ICU MessageFormat syntax (braces, plural and select cases)',
             { cause: err },
           );

@@ -5,6 +5,7 @@
  */
 import { existsSync } from 'node:fs';
 import { chromium } from 'playwright-core';
+import { errorMessage } from '../core/errors.ts';
 
 export interface PdfJob {
   readonly key: string;
@@ -46,7 +47,7 @@ export async function renderPdfs(executable: string | null | undefined, jobs: re
   } catch (err) {
     return {
       pdfs: new Map(),
-      note: `no PDF bulletins: Chromium at ${executable} did not start (${(err as Error).message.split('\n')[0]})`,
+      note: `no PDF bulletins: Chromium at ${executable} did not start (${errorMessage(err).split('\n')[0]})`,
     };
   }
   try {

@@ -41,6 +41,10 @@ export function probabilityLines(
   tierName: TierOutcome['tier'],
 ): { probability: number; rank: number; leads: readonly number[] }[] {
   return config.rules
-    .filter((r) => r.indicator === indicator && r.tier === tierName && r.probability !== undefined)
-    .map((r) => ({ probability: r.probability as number, rank: config.stages.findIndex((s) => s.id === r.stage), leads: r.leads }));
+    .filter((r) => r.indicator === indicator && r.tier === tierName)
+    .flatMap((r) =>
+      r.probability === undefined
+        ? []
+        : [{ probability: r.probability, rank: config.stages.findIndex((s) => s.id === r.stage), leads: r.leads }],
+    );
 }

@@ -46,7 +46,7 @@ export function createTemplateEnv(overrideDir: string): TemplateEnv {
       return isHtml ? applyTypographyHtml(locale, out) : applyTypography(locale, out);
     } catch (err) {
       if (err instanceof ForelightError) throw err;
-      const inner = (err as { cause?: unknown }).cause;
+      const inner = err instanceof Error ? err.cause : undefined;
       if (inner instanceof ForelightError) throw inner;
       throw new ForelightError(
         'render',

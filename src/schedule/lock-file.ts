@@ -7,7 +7,7 @@
 import { jsonShape, parseShaped } from '../core/json-shape.ts';
 import { openSync, readFileSync, renameSync, rmSync, writeSync, closeSync } from 'node:fs';
 import { hostname } from 'node:os';
-import { ForelightError } from '../core/errors.ts';
+import { ForelightError, errnoCode, errorMessage } from '../core/errors.ts';
 import { isProcessAlive } from '../core/process-alive.ts';
 
 export interface LockInfo {
@@ -37,7 +37,7 @@ function readLock(path: string): { text: string; info: LockInfo | null } | null 
   try {
     text = readFileSync(path, 'utf8');
   } catch (err) {
-    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
+    if (errnoCode(err) === 'ENOENT') return null;
     throw err;
   }
   const info = parseShaped(text, isLockInfo);
@@ -74,11 +74,11 @@ export function acquireLock(path: string, options: { maxAgeSeconds: number; now?
         },
       };
     } catch (err) {
-      if ((err as NodeJS.ErrnoException).code !== 'EEXIST') {
+      if (errnoCode(err) !== 'EEXIST') {
         throw new ForelightError(
           'schedule',
           'lock-create',
-          `cannot create lock file ${path}: ${(err as Error).message}`,
+          `cannot create lock file ${path}: ${errorMessage(err)}`,
           'check that its folder exists and is writable',
           { cause: err },
         );

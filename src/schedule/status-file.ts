@@ -2,7 +2,7 @@
 import { jsonShape, parseShaped } from '../core/json-shape.ts';
 import { readFileSync } from 'node:fs';
 import { writeFileAtomic } from '../core/write-atomic.ts';
-import { ForelightError, describeError } from '../core/errors.ts';
+import { ForelightError, describeError, errnoCode } from '../core/errors.ts';
 import { exitCodeName } from '../core/exit-codes.ts';
 
 export interface RunReport {
@@ -86,7 +86,7 @@ export function readStatus(path: string): ServiceStatus | null {
   try {
     text = readFileSync(path, 'utf8');
   } catch (err) {
-    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
+    if (errnoCode(err) === 'ENOENT') return null;
     throw new ForelightError('schedule', 'status-read', `cannot read status file ${path}: ${describeError(err)}`, 'check its permissions');
   }
   const status = parseShaped(text, isStatus);

@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { cachedSkill, fingerprint, hashFiles, skillCacheKey } from '../../src/calibrate/skill-cache.ts';
-import { fromStored, isStoredClimates, toStored } from '../../src/calibrate/stored-climate.ts';
+import { fromStored, isStoredClimates, toStored, type StoredClimate } from '../../src/calibrate/stored-climate.ts';
 import { jsonShape } from '../../src/core/json-shape.ts';
 import { openChecksumMemo } from '../../src/core/file-checksums.ts';
 
@@ -76,14 +76,15 @@ describe('cachedSkill', () => {
     const key = 'shape';
     await cachedSkill(cacheDir, key, () => [{ region: 'north' }], anyObject);
     writeFileSync(join(cacheDir, `skill-${key}.json`), JSON.stringify([{ region: 'north', indicator: 'hi', hindcast: 1 }]));
-    const r = await cachedSkill(cacheDir, key, () => 7, isStoredClimates);
+    const recomputed: StoredClimate[] = [];
+    const r = await cachedSkill(cacheDir, key, () => recomputed, isStoredClimates);
     expect(r.fromCache).toBe(false);
-    expect(r.value).toBe(7);
+    expect(r.value).toBe(recomputed);
     expect(r.note).toMatch(/skill-shape\.json unreadable \(\/0 must have required property 'observed'\); recomputed/);
     // A tuned trigger of the format before out-of-sample tuning (a bare number) is refused.
     const base = { region: 'north', indicator: 'hi', hindcast: null, observed: null, skill: [], problems: [] };
     writeFileSync(join(cacheDir, `skill-${key}.json`), JSON.stringify([{ ...base, tuned: { r1: 0.3 } }]));
-    expect((await cachedSkill(cacheDir, key, () => 8, isStoredClimates)).note).toMatch(/\/0\/tuned\/r1 must be object/);
+    expect((await cachedSkill(cacheDir, key, () => [], isStoredClimates)).note).toMatch(/\/0\/tuned\/r1 must be object/);
     const trigger = {
       costLoss: 0.2,
       basis: 'observed',
@@ -97,6 +98,12 @@ describe('cachedSkill', () => {
     const back = await cachedSkill(cacheDir, key, () => [], isStoredClimates);
     const decoded = { ...trigger, value: { value: NaN, inSampleValue: 0.3, interval: { low: NaN, high: NaN } } };
     expect(back).toEqual({ value: [{ ...stored[0], tuned: { r1: decoded } }], fromCache: true, note: '' });
+    // A stored non-finite number other than the three JSON cannot hold (here "NaNx") is a damaged entry, never read as NaN.
+    const forged = { ...trigger, value: { ...trigger.value, value: { $num: 'NaNx' } } };
+    writeFileSync(join(cacheDir, `skill-${key}.json`), JSON.stringify([{ ...base, tuned: { r1: forged } }]));
+    const refused = await cachedSkill(cacheDir, key, () => [], isStoredClimates);
+    expect(refused.fromCache).toBe(false);
+    expect(refused.note).toMatch(/\/0\/tuned\/r1\/value\/value must be number\); recomputed/);
   });
 });
 

@@ -221,6 +221,14 @@ describe('parseStageHistory', () => {
     expect(parseStageHistory(JSON.stringify(h))).toEqual(h);
     expect(parseStageHistory(null)).toEqual(EMPTY_HISTORY);
     expect(() => parseStageHistory('{"v":"a"}')).toThrow('stored stage history is unusable: expected { version: 1, tracks: {...} }');
+    expect(() => parseStageHistory('{"version":1,"tracks":[]}')).toThrow(
+      'stored stage history is unusable: expected { version: 1, tracks: {...} }',
+    );
+    expect(() =>
+      parseStageHistory(
+        '{"version":1,"tracks":{"r1|heat|weeks":{"stageId":"quiet","runsAbove":1.5,"runsBelow":0,"lowestAboveId":null,"highestBelowId":null}}}',
+      ),
+    ).toThrow(/track "r1\|heat\|weeks" lacks/);
     expect(() => parseStageHistory('{"version":1,"tracks":{"r1|heat|weeks":{"stageId":"quiet"}}}')).toThrow(
       /track "r1\|heat\|weeks" lacks/,
     );

@@ -155,6 +155,32 @@ describe('other GRIB cases', () => {
     got.members[0].forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[0][t])).toBeLessThanOrEqual(1e-4));
   });
 
+  it('a GRIB file of two start dates is refused naming its date dimension; the printed grib_ls/grib_copy selection reads = cfgrib', async () => {
+    const other = join(tmp, 'other-year.grib2');
+    execFileSync('/usr/bin/grib_set', ['-s', 'dataDate=20251123', ensemble, other]);
+    const both = join(tmp, 'two-dates.grib2');
+    execFileSync('sh', ['-c', `cat ${ensemble} ${other} > ${both}`]);
+    const message = await extractBoxJson(both, { variable: 't2m', box: boxes[0].box }).then(
+      () => 'read',
+      (e: Error) => e.message,
+    );
+    expect(message.split('\n')).toHaveLength(1);
+    expect(message).toContain(`${both}: variable 't2m' has extra dimension 'date' of size 2`);
+    const list = /(grib_ls -p dataDate \S+) lists them, (grib_copy -w dataDate=)<one of them> (\S+ \S+) keeps/.exec(message);
+    expect(list).not.toBeNull();
+    const dates = execFileSync('sh', ['-c', `${list![1]} -j`], { encoding: 'utf8', cwd: tmp });
+    const listed = [...new Set([...dates.matchAll(/"dataDate": (\d+)/g)].map((m) => m[1]))];
+    expect(listed.sort()).toEqual(['20251123', '20261123']);
+    execFileSync('sh', ['-c', `${list![2]}20251123 ${list![3]}`], { cwd: tmp });
+    const one = join(tmp, 'out.grib2');
+    const got = await extractBoxJson(one, { variable: 't2m', box: boxes[0].box });
+    const ref = cfgrib(one, boxes[0].box);
+    expect(got.times[0]).toMatch(/^2025-11-23T00:00:00/);
+    got.members.forEach((row, m) =>
+      row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)),
+    );
+  });
+
   it('a truncated GRIB file is refused in one line naming the file and what to do', async () => {
     const cut = join(tmp, 'cut.grib2');
     copyFileSync(ensemble, cut);

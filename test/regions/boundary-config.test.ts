@@ -231,6 +231,23 @@ describe('regions: boundaries: FILE', () => {
     expect(clash.problems.join('\n')).toMatch(/region id 'north' from districts\.geojson is also used by entry 1 of regions/);
   });
 
+  it('a damaged GeoJSON file (a list, a feature whose properties or geometry are not objects) is refused naming the file and feature (RFC 7946 §3.2, §3.3)', async () => {
+    const list = await withSet('  - boundaries: districts.geojson\n', [feature({ code: 'OC-01' }, null)]);
+    expect(list.problems.join('\n')).toMatch(/boundary file .*districts\.geojson is not a GeoJSON FeatureCollection \(type undefined\)/);
+    const damaged = { ...feature({}, null), properties: 'OC-01', geometry: 'Polygon' };
+    const bad = await withSet('  - boundaries: districts.geojson\n    id-property: code\n', fc(damaged));
+    expect(bad.problems.join('\n')).toMatch(
+      /districts\.geojson: feature 0 has no usable value of property 'code' .*\(properties of this feature: none\)/,
+    );
+    const noShape = await withSet(
+      '  - boundaries: districts.geojson\n    id-property: code\n',
+      fc({ ...damaged, properties: { code: 'OC-01' } }),
+    );
+    expect(noShape.problems.join('\n')).toMatch(
+      /districts\.geojson: feature 0 \(id "OC-01"\) has no geometry \(empty\) — repair it in the GIS/,
+    );
+  });
+
   it('region ids from property values: lower case, accents dropped, hyphens (common practice, no source)', () => {
     expect(regionIdOf('Kessan Nord')).toBe('kessan-nord');
     expect(regionIdOf('Équateur — Sud')).toBe('equateur-sud');

@@ -182,6 +182,38 @@ describe('population weights vs shapely + numpy', () => {
     expect(partial.length).toBeGreaterThanOrEqual(3);
   });
 
+  it('a gdalinfo whose -json answer has another shape than GDAL documents is refused naming the raster, never read as "no CRS"', () => {
+    // A stand-in gdalinfo ahead of Debian's on PATH, answering valid JSON of the wrong shape (the WKT as a number).
+    const bin = join(dir, 'odd-gdal');
+    mkdirSync(bin);
+    writeFileSync(join(bin, 'gdalinfo'), '#!/bin/sh\necho \'{"coordinateSystem": {"wkt": 4326}}\'\n', { mode: 0o755 });
+    const run = spawnSync(
+      process.execPath,
+      [
+        join(ROOT, 'bin/forelight.mjs'),
+        'extract',
+        nc,
+        '--var',
+        'tas',
+        '--regions',
+        DISTRICTS,
+        '--id-property',
+        'code',
+        '--population',
+        tif,
+        '--json',
+      ],
+      { cwd: ROOT, encoding: 'utf8', env: { ...process.env, PATH: `${bin}:${process.env.PATH}` } },
+    );
+    const got = JSON.parse(run.stdout) as { regions: object; problems: string[] };
+    expect(got.regions).toEqual({});
+    expect(got.problems).toEqual([
+      expect.stringMatching(
+        /gdalinfo -json gave no usable description of the population raster \(\/coordinateSystem\/wkt must be string\)/,
+      ),
+    ]);
+  });
+
   it('a projected GeoTIFF is refused naming the file and its CRS, with a gdalwarp line that works pasted from anywhere', () => {
     // Really projected (warped to UTM 31S by GDAL), in a folder whose name needs quoting in a shell.
     const folder = join(dir, "census office's rasters");

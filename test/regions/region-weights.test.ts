@@ -44,4 +44,23 @@ describe('region weights cache (calibration.cache-dir/weights, keyed by sha256 o
     expect(run(dir, 1)).toEqual(first);
     expect(() => JSON.parse(readFileSync(join(dir, 'weights', file), 'utf8'))).not.toThrow();
   });
+  it('a cache file of another shape (valid JSON: a weight as text, an index outside the grid, lengths that differ) is never used: computed again and rewritten', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'forelight-weights-'));
+    const first = run(dir, 1);
+    const [file] = readdirSync(join(dir, 'weights'));
+    const path = join(dir, 'weights', file);
+    const good = readFileSync(path, 'utf8');
+    const damages: ((c: { lat: unknown[]; lon: unknown[]; w: unknown[] }) => void)[] = [
+      (c) => (c.w[0] = String(c.w[0])),
+      (c) => (c.lat[0] = 100_000),
+      (c) => c.lon.pop(),
+    ];
+    for (const damage of damages) {
+      const doc = JSON.parse(good) as { regions: Record<string, { lat: unknown[]; lon: unknown[]; w: unknown[] }> };
+      damage(doc.regions['OC-02']);
+      writeFileSync(path, JSON.stringify(doc));
+      expect(run(dir, 1)).toEqual(first);
+      expect(JSON.parse(readFileSync(path, 'utf8'))).toEqual(JSON.parse(good));
+    }
+  });
 });

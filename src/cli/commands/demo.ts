@@ -6,7 +6,7 @@
 import { existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { loadConfig } from '../../config/load-config.ts';
-import { createLogger } from '../../core/log.ts';
+import { createLogger, levelNamed } from '../../core/log.ts';
 import { runContext } from '../../core/run-context.ts';
 import { packagePath } from '../../core/package-root.ts';
 import { runOnce } from '../../pipeline/run-once.ts';
@@ -31,7 +31,7 @@ export async function demoCommand(args: ParsedArgs): Promise<number> {
   for (const path of [config.delivery.outbox, config.delivery.archive, config.ledger, `${config.ledger}-wal`, `${config.ledger}-shm`]) {
     rmSync(path, { recursive: true, force: true });
   }
-  const log = createLogger({ level: (process.env.FORELIGHT_LOG_LEVEL as 'info' | undefined) ?? 'warn', base: { command: 'demo' } });
+  const log = createLogger({ level: levelNamed(process.env.FORELIGHT_LOG_LEVEL) ?? 'warn', base: { command: 'demo' } });
   let worst: number = EXIT.ok;
   for (const issueDate of SAMPLE_ISSUE_DATES) {
     say(`issue of ${issueDate} ...`);

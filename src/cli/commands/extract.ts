@@ -16,7 +16,7 @@ import { extractBoxJson } from '../../read/extract.ts';
 import { extractRegionsJson } from '../../read/extract-raw.ts';
 import type { DailyMethod } from '../../read/daily.ts';
 import { EXIT } from '../../core/exit-codes.ts';
-import { stringOption, usageError, type ParsedArgs } from '../args.ts';
+import { choiceOption, stringOption, usageError, type ParsedArgs } from '../args.ts';
 
 const DAILY: readonly DailyMethod[] = ['max', 'min', 'mean', 'sum'];
 const RULES: readonly CellRule[] = ['overlap', 'centre'];
@@ -25,14 +25,13 @@ const PEOPLE_VALUES: readonly PopulationConfig['values'][] = ['people-per-pixel'
 function populationOption(args: ParsedArgs): PopulationConfig | null {
   const file = stringOption(args, 'population');
   const variable = stringOption(args, 'population-variable');
-  const values = (stringOption(args, 'population-values') ?? 'people-per-pixel') as PopulationConfig['values'];
+  const values = choiceOption(args, 'population-values', PEOPLE_VALUES);
   if (file === undefined) {
-    if (variable !== undefined || stringOption(args, 'population-values') !== undefined)
+    if (variable !== undefined || values !== undefined)
       throw usageError('--population-variable and --population-values need --population RASTER');
     return null;
   }
-  if (!PEOPLE_VALUES.includes(values)) throw usageError(`--population-values must be one of ${PEOPLE_VALUES.join(', ')}, got '${values}'`);
-  return { file: resolve(file), values, ...(variable !== undefined ? { variable } : {}) };
+  return { file: resolve(file), values: values ?? 'people-per-pixel', ...(variable !== undefined ? { variable } : {}) };
 }
 
 function parseBox(text: string | undefined): { south: number; north: number; west: number; east: number } {
@@ -98,11 +97,8 @@ export async function extractCommand(args: ParsedArgs): Promise<number> {
   const variable = stringOption(args, 'var');
   if (!variable) throw usageError('extract needs --var NAME (the variable name in the file)');
   if (!args.options.json) throw usageError('extract prints JSON only: add --json');
-  const daily = stringOption(args, 'daily') as DailyMethod | undefined;
-  if (daily !== undefined && !DAILY.includes(daily)) throw usageError(`--daily must be one of ${DAILY.join(', ')}, got '${daily}'`);
-  const cellRule = stringOption(args, 'cells') as CellRule | undefined;
-  if (cellRule !== undefined && !RULES.includes(cellRule))
-    throw usageError(`--cells must be one of ${RULES.join(', ')}, got '${cellRule}'`);
+  const daily = choiceOption(args, 'daily', DAILY);
+  const cellRule = choiceOption(args, 'cells', RULES);
   const boundaries = stringOption(args, 'regions');
   const box = stringOption(args, 'box');
   if ((boundaries === undefined) === (box === undefined)) throw usageError('extract needs exactly one of --box S,N,W,E and --regions FILE');

@@ -32,7 +32,9 @@ export function featurePolygons(geometry: RawFeature['geometry']): GeometryCheck
     const where = raw.length > 1 ? `polygon ${p}, ` : '';
     if (!Array.isArray(rings) || rings.length === 0) return { problem: `${where}has no ring (empty)` };
     for (let r = 0; r < rings.length; r++) {
-      const issue = Array.isArray(rings[r]) ? ringProblem(rings[r] as number[][]) : 'is not a list of positions';
+      const issue = Array.isArray(rings[r])
+        ? ringProblem(rings[r] as number[][]) /* ringProblem checks every position */
+        : 'is not a list of positions';
       if (issue) return { problem: `${where}ring ${r} ${r === 0 ? '(outer)' : '(hole)'} ${issue}` };
     }
     const framed = framePolygon((rings as number[][][]).map((ring) => ring.map(([lon, lat]) => [lon, lat] as const)));

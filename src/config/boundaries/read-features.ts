@@ -6,7 +6,9 @@
 import { readFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
 import { open } from 'shapefile';
+import { isRecord } from '../../core/json-shape.ts';
 import { prjProblem } from './prj.ts';
+import { errorMessage } from '../../core/errors.ts';
 
 export interface RawFeature {
   /** 0-based position in the file. */
@@ -22,30 +24,32 @@ export type FeatureRead =
 
 const fail = (message: string, fix: string): FeatureRead => ({ ok: false, message, fix });
 
+/** A GeoJSON Feature (RFC 7946 §3.2) as read: a member of another type than the RFC's counts as absent. */
+function rawFeature(f: unknown, index: number): RawFeature {
+  const { id, properties, geometry } = isRecord(f) ? f : {};
+  return {
+    index,
+    ...(typeof id === 'string' || typeof id === 'number' ? { featureId: id } : {}),
+    properties: isRecord(properties) ? properties : {},
+    geometry: isRecord(geometry) && typeof geometry.type === 'string' ? { type: geometry.type, coordinates: geometry.coordinates } : null,
+  };
+}
+
 async function readGeoJson(file: string): Promise<FeatureRead> {
   let doc: unknown;
   try {
     doc = JSON.parse(await readFile(file, 'utf8'));
   } catch (err) {
-    const why = err instanceof SyntaxError ? `is not valid JSON (${err.message})` : `cannot be read (${(err as Error).message})`;
+    const why = err instanceof SyntaxError ? `is not valid JSON (${err.message})` : `cannot be read (${errorMessage(err)})`;
     return fail(`boundary file ${file} ${why}`, 'export the boundaries again as GeoJSON (e.g. ogr2ogr -f GeoJSON out.geojson in.shp)');
   }
-  const fc = doc as { type?: unknown; features?: unknown };
-  if (fc?.type !== 'FeatureCollection' || !Array.isArray(fc.features)) {
+  if (!isRecord(doc) || doc.type !== 'FeatureCollection' || !Array.isArray(doc.features)) {
     return fail(
-      `boundary file ${file} is not a GeoJSON FeatureCollection (type ${JSON.stringify(fc?.type)})`,
+      `boundary file ${file} is not a GeoJSON FeatureCollection (type ${JSON.stringify(isRecord(doc) ? doc.type : undefined)})`,
       'give a FeatureCollection with one Feature per region',
     );
   }
-  const features = (
-    fc.features as { id?: string | number; properties?: Record<string, unknown> | null; geometry?: RawFeature['geometry'] }[]
-  ).map((f, index) => ({
-    index,
-    ...(f?.id !== undefined ? { featureId: f.id } : {}),
-    properties: f?.properties ?? {},
-    geometry: f?.geometry ?? null,
-  }));
-  return { ok: true, features };
+  return { ok: true, features: doc.features.map(rawFeature) };
 }
 
 async function readShapefile(file: string): Promise<FeatureRead> {
@@ -57,12 +61,12 @@ async function readShapefile(file: string): Promise<FeatureRead> {
     const source = await open(file, `${stem}.dbf`, { encoding: 'utf-8' });
     const features: RawFeature[] = [];
     for (let r = await source.read(); !r.done; r = await source.read()) {
-      features.push({ index: features.length, properties: r.value.properties ?? {}, geometry: r.value.geometry as RawFeature['geometry'] });
+      features.push({ index: features.length, properties: r.value.properties ?? {}, geometry: r.value.geometry });
     }
     return { ok: true, features };
   } catch (err) {
     return fail(
-      `shapefile ${file} (with ${basename(stem)}.dbf) cannot be read (${(err as Error).message})`,
+      `shapefile ${file} (with ${basename(stem)}.dbf) cannot be read (${errorMessage(err)})`,
       'keep the .shp, .shx, .dbf and .prj files together, or export GeoJSON instead',
     );
   }

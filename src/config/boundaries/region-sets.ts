@@ -15,7 +15,7 @@ export interface RegionSets {
 
 /** Clock and cell rule of an entry: its time-zone or utc-offset-hours, else `defaultZone` (schedule.timezone). */
 export function entryDefaults(entry: RawObject, defaultZone: string | undefined): SetDefaults {
-  const rule = text(entry['cell-rule']) as CellRule | undefined;
+  const rule = text(entry['cell-rule']) as CellRule | undefined; // the schema's enum lists the cell rules
   const offset = num(entry['utc-offset-hours']);
   const zone = text(entry['time-zone']) ?? (offset === undefined ? defaultZone : undefined);
   return {

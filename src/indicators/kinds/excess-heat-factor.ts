@@ -49,7 +49,7 @@ export const definition = defineIndicator<'excess-heat-factor', ExcessHeatFactor
       );
     }
     notes.push("EHF is NaN on the last 3 days (needs the next morning's Tmin and a 3-day forward window)");
-    if (output === 'severity-ratio') for (let i = 0; i < data.length; i++) data[i] = ehfSeverityRatio(data[i], ehf85 as number);
+    if (output === 'severity-ratio') for (let i = 0; i < data.length; i++) data[i] = ehfSeverityRatio(data[i], ehf85 as number); // checked > 0 above
     return { template: tmax, data, outOfRange: 0, notes };
   },
 });
