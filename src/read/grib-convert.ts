@@ -42,6 +42,12 @@ export function gribSelectionHint(path: string, dimension: string): string {
   return `keep one ${dimension} with ecCodes: grib_ls -p ${key} ${path} lists them, grib_copy -w ${key}=<one of them> ${path} out.grib2 keeps its messages`;
 }
 
+/**
+ * Bumped whenever the conversion itself changes (e.g. message ordering), so a conversion made by an older
+ * Forelight is never reused: the cache folder name is `<CONVERSION_VERSION>-<sha256 of the GRIB file>`.
+ */
+const CONVERSION_VERSION = 'v2';
+
 /** Where converted files live: `FORELIGHT_GRIB_CACHE`, else `<system temp>/forelight-grib-cache`. */
 export function gribCacheDir(): string {
   return process.env.FORELIGHT_GRIB_CACHE || join(tmpdir(), 'forelight-grib-cache');
@@ -86,7 +92,7 @@ const memberOrder = (name: string): number => {
  */
 export async function gribAsNetcdf(path: string): Promise<string[]> {
   const root = gribCacheDir();
-  const dir = join(root, await sha256File(path));
+  const dir = join(root, `${CONVERSION_VERSION}-${await sha256File(path)}`);
   const list = () =>
     readdirSync(dir)
       .filter((n) => n.endsWith('.nc'))

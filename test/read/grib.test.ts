@@ -81,11 +81,11 @@ describe('GRIB2 ensemble (template 4.1) against cfgrib/xarray', () => {
     );
   });
 
-  it('is converted once, into a folder named by the sha256 of the GRIB file', async () => {
+  it('is converted once, into a folder named by the conversion version and the sha256 of the GRIB file', async () => {
     const sha = createHash('sha256').update(readFileSync(ensemble)).digest('hex');
     await extractBoxJson(ensemble, { variable: 't2m', box: boxes[0].box });
-    const folder = join(cache, sha);
-    expect(readdirSync(cache)).toContain(sha);
+    const folder = join(cache, `v2-${sha}`);
+    expect(readdirSync(cache)).toContain(`v2-${sha}`);
     const before = readdirSync(folder).map((f) => statSync(join(folder, f)).mtimeMs);
     await extractBoxJson(ensemble, { variable: 't2m', box: boxes[0].box });
     expect(readdirSync(folder).map((f) => statSync(join(folder, f)).mtimeMs)).toEqual(before);
