@@ -103,9 +103,11 @@ function forecastSeason(f: TercileRequest['forecast'], how: 'mean' | 'sum'): Lea
   return seasonalClimate({ years: [0], members: f.members, leads: [...f.leads], units: '', values: f.values }, how);
 }
 
+/** The outlook of month or season l; `window` is the forecast's own (the hindcast climate's dates are its first year's). */
 function outlookAt(
   period: 'month' | 'season',
   l: number,
+  window: LeadWindow,
   members: Float64Array,
   hc: LeadClimate,
   obs: LeadClimate | null,
@@ -124,8 +126,8 @@ function outlookAt(
   return {
     period,
     months: [l + 1, l + 1 + span],
-    start: hc.leads[l].start,
-    end: hc.leads[l].end,
+    start: window.start,
+    end: window.end,
     below: f.p[0],
     near: f.p[1],
     above: f.p[2],
@@ -142,13 +144,13 @@ export function tercileOutlooks(req: TercileRequest): TercileOutlook[] {
   const memberValues = (values: Float64Array, nLeads: number, l: number) =>
     Float64Array.from({ length: f.members }, (_, m) => values[m * nLeads + l]);
   const months = Array.from({ length: n }, (_, l) =>
-    outlookAt('month', l, memberValues(f.values, f.leads.length, l), hc, obs, req.bootstrap),
+    outlookAt('month', l, f.leads[l], memberValues(f.values, f.leads.length, l), hc, obs, req.bootstrap),
   );
   const fs = forecastSeason(f, req.how);
   const hs = seasonalClimate(hc, req.how);
   const os = obs ? seasonalClimate(obs, req.how) : null;
   const seasons = Array.from({ length: Math.min(fs.leads.length, hs.leads.length) }, (_, s) =>
-    outlookAt('season', s, memberValues(fs.values, fs.leads.length, s), hs, os, req.bootstrap),
+    outlookAt('season', s, fs.leads[s], memberValues(fs.values, fs.leads.length, s), hs, os, req.bootstrap),
   );
   return [...months, ...seasons];
 }

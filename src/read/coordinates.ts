@@ -8,6 +8,7 @@
 import { InputError } from '../core/errors.ts';
 import { attr, readBounds, readWhole } from './cf-variable.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
+import { gribSelectionHint, looksLikeGrib } from './grib-convert.ts';
 import { requireIncreasingSteps, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
 import { findReference, findTime, type TimeAxis } from './time-axis.ts';
 
@@ -170,7 +171,9 @@ export function layoutVariable(ds: Dataset, coords: FileCoordinates, name: strin
         'variable-extra-dimension',
         ds.path,
         `variable '${name}' has extra dimension '${d}' of size ${info.shape[k]}`,
-        `select one ${d} first (ncks -d ${d},0 ${ds.path} out.nc keeps the first; cdo cannot select it in an ensemble file)`,
+        looksLikeGrib(ds.path, Buffer.alloc(0))
+          ? gribSelectionHint(ds.path, d)
+          : `select one ${d} first (ncks -d ${d},0 ${ds.path} out.nc keeps the first; cdo cannot select it in an ensemble file)`,
       );
     }
   });

@@ -30,6 +30,24 @@ export function looksLikeGrib(path: string, head: Buffer): boolean {
   return GRIB_EXTENSIONS.some((e) => path.toLowerCase().endsWith(e)) || head.toString('latin1', 0, 4) === 'GRIB';
 }
 
+/** grib_to_netcdf's dimension names → the ecCodes keys that select their messages. */
+const SELECTION_KEYS: Readonly<Record<string, string>> = { date: 'dataDate', time: 'dataTime', level: 'level', step: 'step' };
+
+/**
+ * How to keep one value of an extra dimension of a converted GRIB file: NCO and CDO commands do not apply to the
+ * GRIB file the user holds, ecCodes' grib_copy does (`-w key=value` keeps the matching messages).
+ */
+export function gribSelectionHint(path: string, dimension: string): string {
+  const key = SELECTION_KEYS[dimension] ?? dimension;
+  return `keep one ${dimension} with ecCodes: grib_ls -p ${key} ${path} lists them, grib_copy -w ${key}=<one of them> ${path} out.grib2 keeps its messages`;
+}
+
+/**
+ * Bumped whenever the conversion itself changes (e.g. message ordering), so a conversion made by an older
+ * Forelight is never reused: the cache folder name is `<CONVERSION_VERSION>-<sha256 of the GRIB file>`.
+ */
+const CONVERSION_VERSION = 'v2';
+
 /** Where converted files live: `FORELIGHT_GRIB_CACHE`, else `<system temp>/forelight-grib-cache`. */
 export function gribCacheDir(): string {
   return process.env.FORELIGHT_GRIB_CACHE || join(tmpdir(), 'forelight-grib-cache');
@@ -74,7 +92,7 @@ const memberOrder = (name: string): number => {
  */
 export async function gribAsNetcdf(path: string): Promise<string[]> {
   const root = gribCacheDir();
-  const dir = join(root, await sha256File(path));
+  const dir = join(root, `${CONVERSION_VERSION}-${await sha256File(path)}`);
   const list = () =>
     readdirSync(dir)
       .filter((n) => n.endsWith('.nc'))
@@ -108,6 +126,8 @@ export async function gribAsNetcdf(path: string): Promise<string[]> {
  * whose first step is not 0 (e.g. 24-h maxima from step 24) still states its start.
  */
 export function withGribReference(ds: Dataset): Dataset {
+  const starts = ds.variable('date');
+  if (starts && starts.dimensions[0] === 'date' && starts.attributes.long_name === 'Base_date') return withStartsDimension(ds, starts);
   const time = ds.variables.find((v) => v.dimensions.length === 1 && / since /i.test(String(v.attributes.units ?? '')));
   if (!time || ds.variable('forecast_reference_time') || ds.variables.some((v) => v.name === 'time' && v !== time)) return ds;
   const reference: VariableInfo = {
@@ -122,6 +142,22 @@ export function withGribReference(ds: Dataset): Dataset {
     variables: [...ds.variables, reference],
     variable: (name) => (name === reference.name ? reference : ds.variable(name)),
     readRaw: (name, start, count) => (name === reference.name ? Promise.resolve(new Float64Array(1)) : ds.readRaw(name, start, count)),
+    close: () => ds.close(),
+  };
+}
+
+/**
+ * A GRIB file of several start dates (a hindcast of all years, as seasonal archives deliver it): grib_to_netcdf -T
+ * writes the starts as `date(date)` ("Base_date") beside a `step` lead in hours. Shown with standard_name
+ * forecast_reference_time (CF 1.11 §4.4), so it is read as a file of several starts (src/read/DECISIONS.md §4b).
+ */
+function withStartsDimension(ds: Dataset, starts: VariableInfo): Dataset {
+  const reference: VariableInfo = { ...starts, attributes: { ...starts.attributes, standard_name: 'forecast_reference_time' } };
+  return {
+    ...ds,
+    variables: ds.variables.map((v) => (v === starts ? reference : v)),
+    variable: (name) => (name === starts.name ? reference : ds.variable(name)),
+    readRaw: (name, start, count) => ds.readRaw(name, start, count),
     close: () => ds.close(),
   };
 }

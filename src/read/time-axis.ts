@@ -6,6 +6,7 @@
 import { InputError, UnitError } from '../core/errors.ts';
 import { attr, readBounds, readWhole } from './cf-variable.ts';
 import { decodeTimes, type CfDateTime } from './cf-time.ts';
+import { looksLikeGrib } from './grib-convert.ts';
 import { durationUnitMs, TimeMapper } from './coordinates-time.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { countsMonths, isMonthIndex, monthLeadAxis } from './lead-months.ts';
@@ -95,6 +96,11 @@ export function splitStartsFix(file: string, ref: ReferenceTimes): string {
   const compact = (ms: number) => new Date(ms).toISOString().slice(0, 10).replaceAll('-', '');
   const n = ref.timesMs.length;
   const stem = file.replace(/\.[^./]*$/, '');
+  if (looksLikeGrib(file, Buffer.alloc(0)))
+    return (
+      `split it into one file per start with ecCodes: grib_copy ${file} '${stem}_[dataDate].grib2', and point forecast-files at ` +
+      `${stem}_{date}.grib2 (hindcast-files reads such a file as it is; forelight extract --start K reads start K)`
+    );
   return (
     `split it into one file per start, e.g. ncks -d ${ref.dimension},K,K ${file} ${stem}_YYYYMMDD.nc for each start K ` +
     `(0 = ${compact(ref.timesMs[0])} … ${n - 1} = ${compact(ref.timesMs[n - 1])}), and point forecast-files at ${stem}_{date}.nc ` +

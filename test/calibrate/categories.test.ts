@@ -218,6 +218,17 @@ describe('tercile outlooks of a forecast (months and 3-month seasons)', () => {
     expect(unchecked.every((o) => o.skill === null)).toBe(true);
   });
 
+  it("dated by the forecast's own months, not the hindcast climate's first year", () => {
+    const in2026 = leadsOf('months', 4).map((l) => ({ ...l, start: l.start.replace('2006', '2026'), end: l.end.replace('2006', '2026') }));
+    const out = tercileOutlooks({ forecast: { ...forecast, leads: in2026 }, hindcast: hc, observed: obs, how: 'mean', bootstrap: boot });
+    const seasons = out.filter((o) => o.period === 'season');
+    expect(out.filter((o) => o.period === 'month').map((o) => o.start)).toEqual(in2026.map((l) => l.start));
+    expect(seasons.map((o) => [o.start, o.end])).toEqual([
+      [in2026[0].start, in2026[2].end],
+      [in2026[1].start, in2026[3].end],
+    ]);
+  });
+
   it('attached to the months tier of temperature and rain only', () => {
     const probs = leadsOf('months', 4).map((lead) => ({ lead }) as unknown as LeadProbability);
     const base = { forecast, hindcast: hc, observed: obs, aggregate: 'mean' as const, bootstrap: boot };

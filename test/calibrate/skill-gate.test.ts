@@ -29,6 +29,7 @@ function passRate(
   seed: number,
   noise: number | null,
   g = gate,
+  warming: { perYear: number; recentreOn?: number } = { perYear: 0 },
 ): { rate: number; windows: number } {
   const gauss = normal(mulberry32(seed));
   let passed = 0;
@@ -37,11 +38,13 @@ function passRate(
     const ls = leadsOf(tier, leads);
     const signal = YEARS.map(() => ls.map(() => gauss()));
     // noise null: no skill (observations independent of the members); else shared signal plus noise.
-    const hc = climate(YEARS, 11, ls, (y, _m, l) => (noise === null ? gauss() : signal[y][l] + noise * gauss()));
-    const obs = climate(YEARS, 1, ls, (y, _m, l) => (noise === null ? gauss() : signal[y][l] + noise * gauss()));
+    const trend = (y: number) => warming.perYear * (y - 9.5);
+    const hc = climate(YEARS, 11, ls, (y, _m, l) => trend(y) + (noise === null ? gauss() : signal[y][l] + noise * gauss()));
+    const obs = climate(YEARS, 1, ls, (y, _m, l) => trend(y) + (noise === null ? gauss() : signal[y][l] + noise * gauss()));
+    const on = warming.recentreOn;
     const reports = skillReports({
-      hindcast: hc,
-      observed: obs,
+      hindcast: on === undefined ? hc : { ...hc, recentreOn: on },
+      observed: on === undefined ? obs : { ...obs, recentreOn: on },
       threshold: { kind: 'percentile', percentile: 90 },
       stageProbabilities: [],
       gate: g,
@@ -73,6 +76,14 @@ describe('skill gate on simulated hindcasts', () => {
   it('real skill (members and observation share a signal of s.d. 1, each with noise s.d. 0.3): passes in nearly every window', () => {
     // measured: 39 of 40 windows; with noise 0.5 (weaker skill) 80 %, 0.7 55 % — 14 events per window limit what can be shown.
     expect(passRate('days', 14, 20, 73, 0.3).rate).toBeGreaterThanOrEqual(0.9);
+  });
+  it('no skill beyond a warming shared by model and observations (0.15 s.d. a year): a raw climate credits the trend as skill, a trend-aware one does not', () => {
+    const raw = passRate('days', 14, 40, 75, null, gate, { perYear: 0.15 });
+    const aware = passRate('days', 14, 40, 75, null, gate, { perYear: 0.15, recentreOn: 2026 });
+    // measured: raw 22 of 80 windows (27.5 %); trend-aware 1 of 80 (1.25 %) (trend-climate.ts: each held-out year
+    // re-centred on itself, its trend fitted without it)
+    expect(raw.rate).toBeGreaterThan(0.15);
+    expect(aware.rate).toBeLessThanOrEqual(0.08);
   });
   it('weeks one by one with 20 years: about 2 events per lead is too few to judge (default min-events 5)', () => {
     const { rate } = passRate('weeks', 4, 10, 74, 0.3);

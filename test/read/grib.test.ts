@@ -81,11 +81,11 @@ describe('GRIB2 ensemble (template 4.1) against cfgrib/xarray', () => {
     );
   });
 
-  it('is converted once, into a folder named by the sha256 of the GRIB file', async () => {
+  it('is converted once, into a folder named by the conversion version and the sha256 of the GRIB file', async () => {
     const sha = createHash('sha256').update(readFileSync(ensemble)).digest('hex');
     await extractBoxJson(ensemble, { variable: 't2m', box: boxes[0].box });
-    const folder = join(cache, sha);
-    expect(readdirSync(cache)).toContain(sha);
+    const folder = join(cache, `v2-${sha}`);
+    expect(readdirSync(cache)).toContain(`v2-${sha}`);
     const before = readdirSync(folder).map((f) => statSync(join(folder, f)).mtimeMs);
     await extractBoxJson(ensemble, { variable: 't2m', box: boxes[0].box });
     expect(readdirSync(folder).map((f) => statSync(join(folder, f)).mtimeMs)).toEqual(before);
@@ -153,6 +153,63 @@ describe('other GRIB cases', () => {
     const ref = cfgrib(single, boxes[0].box);
     expect(got.members).toHaveLength(1);
     got.members[0].forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[0][t])).toBeLessThanOrEqual(1e-4));
+  });
+
+  // grib_to_netcdf -T writes the starts of a file of several dates as date(date) "Base_date"; Forelight reads it as a
+  // file of several forecast reference times (CF 1.11 §4.4; src/read/DECISIONS.md §4b), like cfgrib's `time` axis.
+  it('a GRIB file of two start dates: each start (--start K) = cfgrib of that date; as a forecast it is refused with a grib_copy split that reads', async () => {
+    const other = join(tmp, 'other-year.grib2');
+    execFileSync('/usr/bin/grib_set', ['-s', 'dataDate=20251123', ensemble, other]);
+    const both = join(tmp, 'two-dates.grib2');
+    execFileSync('sh', ['-c', `cat ${ensemble} ${other} > ${both}`]);
+    const box = boxes[0].box;
+    const expectAsCfgrib = (got: { times: string[]; members: (number | null)[][] }, ref: Reference) => {
+      expect(got.times.map((t) => t.slice(0, 19))).toEqual(ref.times);
+      got.members.forEach((row, m) =>
+        row.forEach((v, t) => expect(Math.abs((v as number) + 273.15 - ref.members[m][t])).toBeLessThanOrEqual(1e-4)),
+      );
+    };
+    const message = await extractBoxJson(both, { variable: 't2m', box }).then(
+      () => 'read',
+      (e: Error) => e.message,
+    );
+    expect(message.split('\n')).toHaveLength(1);
+    expect(message).toContain(`${both}: 'date' holds 2 forecast reference times (one file of several starts)`);
+    const split = /(grib_copy \S+ '\S+'), and point forecast-files at (\S+)/.exec(message);
+    expect(split?.[2]).toBe(join(tmp, 'two-dates_{date}.grib2'));
+    execFileSync('sh', ['-c', split![1]]);
+    for (const [k, date, single] of [
+      [0, '20251123', other],
+      [1, '20261123', ensemble],
+    ] as const) {
+      const part = split![2].replace('{date}', date);
+      expectAsCfgrib(await extractBoxJson(part, { variable: 't2m', box }), cfgrib(single, box));
+      expectAsCfgrib(await extractBoxJson(both, { variable: 't2m', box, startIndex: k }), cfgrib(single, box));
+    }
+  });
+
+  it('pressure levels (ecCodes sample regular_ll_pl_grib2.tmpl, 850 and 500 hPa) are refused with a grib_copy selection that, run as printed, reads = cfgrib', async () => {
+    const sample = '/usr/share/eccodes/samples/regular_ll_pl_grib2.tmpl';
+    const levels = [850, 500].map((level) => {
+      const out = join(tmp, `t${level}.grib2`);
+      execFileSync('/usr/bin/grib_set', ['-s', `level=${level},dataDate=20261123`, '-d', String(level / 3.4), sample, out]);
+      return out;
+    });
+    const file = join(tmp, 'levels.grib2');
+    execFileSync('sh', ['-c', `cat ${levels.join(' ')} > ${file}`]);
+    const box = { south: 20, north: 40, west: 4, east: 20 };
+    const message = await extractBoxJson(file, { variable: 't', box }).then(
+      () => 'read',
+      (e: Error) => e.message,
+    );
+    expect(message).toContain(`${file}: variable 't' has extra dimension 'level' of size 2`);
+    const fix = /(grib_ls -p level \S+) lists them, (grib_copy -w level=)<one of them> (\S+ \S+) keeps/.exec(message);
+    expect(execFileSync('sh', ['-c', fix![1]], { encoding: 'utf8' })).toMatch(/850[\s\S]*500/);
+    execFileSync('sh', ['-c', `${fix![2]}850 ${fix![3]}`], { cwd: tmp });
+    const got = await extractBoxJson(join(tmp, 'out.grib2'), { variable: 't', box });
+    const ref = cfgrib(join(tmp, 'out.grib2'), box, undefined, 't');
+    expect(Math.abs((got.members[0][0] as number) + 273.15 - 850 / 3.4)).toBeLessThanOrEqual(1e-3);
+    expect(Math.abs((got.members[0][0] as number) + 273.15 - ref.members[0][0])).toBeLessThanOrEqual(1e-4);
   });
 
   it('a truncated GRIB file is refused in one line naming the file and what to do', async () => {

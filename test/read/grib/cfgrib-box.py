@@ -33,6 +33,8 @@ if daily in ('period-max', 'accum-sum'):
     daily = 'max' if daily == 'period-max' else 'sum'
 elif 'step' in da.dims:
     da = da.assign_coords(step=ds['valid_time'].values).rename(step='vt')
+else:  # a single step: cfgrib gives it as a scalar
+    da = da.drop_vars(['step', 'time', 'valid_time'], errors='ignore').expand_dims(vt=[ds['valid_time'].values])
 lon = da['longitude'].values % 360
 span = (e - w) % 360
 inlon = ((lon - w) % 360) <= span + 1e-6
