@@ -18,7 +18,8 @@ import { atForecastStart } from './start-anomalies.ts';
 import { indicatorContext } from './indicator-context.ts';
 import type { LeadValues } from './lead-tiers.ts';
 import { leadCases, skillReports, type SkillReport } from './skill.ts';
-import { isSeries, type ObservedContext, type StartReduction } from './start-reduction.ts';
+import type { RegionCalibrator } from './region-calibration.ts';
+import type { ObservedContext, StartReduction } from './start-reduction.ts';
 import { resolveThresholdSpec } from './thresholds.ts';
 import { tuneTrigger, type TunedTrigger } from './trigger-tuning.ts';
 
@@ -47,6 +48,8 @@ export interface CalibrateContext {
   readonly observedMemo: ObservedIndicators;
   /** Checksums of input files remembered across runs (cache keys). */
   readonly checksums: ChecksumMemo;
+  /** How each region of a first-time build is calibrated (default: in this process; a cluster's workers). */
+  readonly calibrateRegion?: RegionCalibrator;
 }
 
 export function observedIndicator(
@@ -130,7 +133,8 @@ function issueYearOf(entries: readonly { year: number; leads: LeadValues }[], fo
 
 /**
  * Hindcast and observed lead climates, skill per lead and tuned thresholds of one source × region × indicator from
- * its hindcast starts' reductions (start-reduction.ts, in start order), for a forecast whose lead 1 begins on
+ * its hindcast starts' reductions (start-reduction.ts, in start order) and why the observations gave no indicator
+ * (null when they did or are not configured), for a forecast whose lead 1 begins on
  * `forecastLeadOne` (it decides the months pooled, and the start day and week climates are moved to; null when the
  * forecast has none).
  */
@@ -140,14 +144,12 @@ export function buildIndicatorClimate(
   region: RegionConfig,
   ind: IndicatorConfig,
   starts: readonly StartReduction[],
-  context: ObservedContext,
+  observedProblem: Diagnostic | null,
   forecastLeadOne: IsoDate | null,
 ): IndicatorClimate {
-  const problems: Diagnostic[] = [];
+  const problems: Diagnostic[] = observedProblem ? [observedProblem] : [];
   const tier = source.tier;
   const place = { source: source.id, region: region.id, indicator: ind.id };
-  const obsSeries = context.observedIndicator(ind, region);
-  if (obsSeries && !isSeries(obsSeries)) problems.push(obsSeries);
   const failures = new Map<string, { first: Diagnostic; files: number }>();
   const hcYears: { year: number; leads: LeadValues }[] = [];
   const obsYears: { year: number; leads: LeadValues }[] = [];

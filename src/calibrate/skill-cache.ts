@@ -16,9 +16,10 @@ import { isRecord, parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { SourceConfig } from '../config/types.ts';
 import type { IsoDate } from '../types.ts';
-import { buildIndicatorClimate, observedContext, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
+import { observedContext, type CalibrateContext, type IndicatorClimate } from './model-climate.ts';
+import { localCalibrator, regionJobs } from './region-calibration.ts';
 import { tierPairs, type StartReduction } from './start-reduction.ts';
-import { fromStored, isStoredClimates, toStored, type StoredClimate } from './stored-climate.ts';
+import { fromStored, isStoredClimates, type StoredClimate } from './stored-climate.ts';
 
 /**
  * 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). 11: lead values as base64
@@ -62,14 +63,14 @@ export async function skillCacheKey(input: {
   return createHash('sha256').update(`v${SKILL_CACHE_VERSION}\n${files}\n${obs}\n${input.configFingerprint}`).digest('hex');
 }
 
-const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
+export const encode = (_k: string, v: unknown): unknown => (typeof v === 'number' && !Number.isFinite(v) ? { $num: String(v) } : v);
 const NON_FINITE: Readonly<Record<string, number>> = { NaN, Infinity, '-Infinity': -Infinity };
 /**
  * `value` (parsed JSON) with every {"$num": "NaN" | "Infinity" | "-Infinity"} turned back into its number, bottom-up
  * as a JSON.parse reviver would, but in place: a reviver called for each of the millions of values of an entry took
  * longer than the parse. Any other {"$num": …} stays an object, so the shape check refuses it.
  */
-function decode(value: unknown): unknown {
+export function decode(value: unknown): unknown {
   if (Array.isArray(value)) {
     for (let i = 0; i < value.length; i++) if (value[i] !== null && typeof value[i] === 'object') value[i] = decode(value[i]);
     return value;
@@ -121,7 +122,8 @@ function rasterChecksum(ctx: CalibrateContext, file: string): Promise<string> {
 /**
  * The model climate of every region × indicator of one source's tier: from the cache when the hindcast and
  * observation files, the configuration and the forecast's lead 1 are unchanged, else `reduceStarts()` (every
- * hindcast start read and reduced, in start order) and `buildIndicatorClimate`, stored. `forecastLeadOne(region, indicator)` is the first day of the forecast's lead 1
+ * hindcast start read and reduced, in start order) and each region calibrated (`ctx.calibrateRegion`, default in
+ * this process; region-calibration.ts), stored. `forecastLeadOne(region, indicator)` is the first day of the forecast's lead 1
  * of that pair (null without one).
  */
 export async function cachedClimates(
@@ -149,12 +151,15 @@ export async function cachedClimates(
     memo: ctx.checksums,
   });
   const compute = async (): Promise<StoredClimate[]> => {
-    const starts = await reduceStarts();
-    const observed = observedContext(ctx);
-    return tierPairs(config, source.tier).map(({ region, ind }): StoredClimate => {
-      const c = buildIndicatorClimate(config, source, region, ind, starts, observed, forecastLeadOne(region.id, ind.id));
-      return { ...c, region: region.id, indicator: ind.id, hindcast: toStored(c.hindcast), observed: toStored(c.observed) };
-    });
+    const jobs = regionJobs(config, source, await reduceStarts(), observedContext(ctx), forecastLeadOne);
+    const calibrate = ctx.calibrateRegion ?? localCalibrator;
+    const out: StoredClimate[][] = new Array(jobs.length);
+    let next = 0;
+    const lane = async (): Promise<void> => {
+      for (let i = next++; i < jobs.length; i = next++) out[i] = await calibrate(jobs[i]);
+    };
+    await Promise.all(Array.from({ length: Math.max(1, Math.min(calibrate.parallel ?? 1, jobs.length)) }, lane));
+    return out.flat(); // region order, as one pass over the pairs gives them
   };
   const cached = await cachedSkill<StoredClimate[]>(config.calibration.cacheDir, key, compute, isStoredClimates);
   const climates = new Map(

@@ -25,7 +25,8 @@ export async function clusterStatus(url: string): Promise<ClusterStatus> {
       counts: counts as ClusterStatus['counts'], // BullMQ counts exactly the job types asked for (typed as any string)
       failed: failed.map((j) => ({
         id: j.id ?? '?',
-        path: 'path' in j.data ? j.data.path : j.data.start.path,
+        path:
+          'path' in j.data ? j.data.path : 'start' in j.data ? j.data.start.path : `${j.data.source.id} ${j.data.config.regions[0]?.id}`,
         reason: j.failedReason,
         at: new Date(j.finishedOn ?? j.timestamp).toISOString(),
       })),

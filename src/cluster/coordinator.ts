@@ -1,7 +1,8 @@
 /**
  * The coordinator's side of a cluster (`forelight run --cluster URL`, `forelight serve --cluster URL`): an `Extractor`
- * that hands each (file × region set) read to the workers as a BullMQ job on Redis and waits for its result, and a
- * `StartReducer` that does the same for each hindcast start of a first-time climate build (start-jobs.ts).
+ * that hands each (file × region set) read to the workers as a BullMQ job on Redis and waits for its result, a
+ * `StartReducer` that does the same for each hindcast start of a first-time climate build (start-jobs.ts) and a
+ * `RegionCalibrator` for each region's calibration after it (region-jobs.ts).
  *
  * Jobs are idempotent and keyed by what they compute: the job id is the SHA-256 of the file's SHA-256 and the
  * request, so the same read asked twice (a resumed run, a second configuration on the same files) is one job, and a
@@ -10,7 +11,7 @@
  */
 import { createHash } from 'node:crypto';
 import { Queue, QueueEvents } from 'bullmq';
-import { ForelightError, InputError, errorMessage } from '../core/errors.ts';
+import { describeError, ForelightError, InputError, errorMessage } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
 import type { ShapeCheck } from '../core/json-shape.ts';
 import type { Logger } from '../core/log.ts';
@@ -19,15 +20,26 @@ import type { ExtractRequest, ExtractResult, Extractor } from '../read/extract.t
 import { EXTRACT_QUEUE, redisClient, shownUrl } from './connection.ts';
 import { checkWireStart, fromWireStart, START_JOB, startInputs, startJobId, type WireStart } from './start-jobs.ts';
 import { checkWire, fromWire, type ExtractJob, type WireResult } from './wire.ts';
+import {
+  checkRegionAnswer,
+  fromRegionAnswer,
+  REGION_JOB,
+  regionJobId,
+  toWireRegionJob,
+  type WireRegionAnswer,
+  type WireRegionJob,
+} from './region-jobs.ts';
+import { calibrateRegion as calibrateLocally, type RegionCalibrator, type RegionJob } from '../calibrate/region-calibration.ts';
+import type { StoredClimate } from '../calibrate/stored-climate.ts';
 
 export interface ClusterClient {
-  readonly extract: Extractor;
-  readonly reduceStart: StartReducer;
+  /** Reads, hindcast-start reductions and region calibrations, each by the workers (a run's `readers`). */
+  readonly readers: { readonly extract: Extractor; readonly reduceStart: StartReducer; readonly calibrateRegion: RegionCalibrator };
   close(): Promise<void>;
 }
 
-export type ClusterJob = ExtractJob | StartRequest;
-export type ClusterAnswer = WireResult | WireStart;
+export type ClusterJob = ExtractJob | StartRequest | WireRegionJob;
+export type ClusterAnswer = WireResult | WireStart | WireRegionAnswer;
 
 export interface ClusterOptions {
   readonly log: Logger;
@@ -135,9 +147,25 @@ export async function connectCluster(url: string, options: ClusterOptions): Prom
     }
   };
 
+  // A region the workers cannot calibrate is calibrated here (the same pure computation): the run never lacks it.
+  const calibrateRegion = async (job: RegionJob): Promise<StoredClimate[]> => {
+    const wire = toWireRegionJob(job);
+    const what = `source ${job.source.id}, region ${job.config.regions[0]?.id}`;
+    try {
+      return fromRegionAnswer(await answer(REGION_JOB, regionJobId(wire), wire, what, checkRegionAnswer));
+    } catch (err) {
+      options.log.warn('region calibrated by the coordinator: its cluster job failed', {
+        stage: 'calibrate',
+        region: what,
+        error: describeError(err),
+      });
+      return calibrateLocally(job);
+    }
+  };
+
+  const parallel = { parallel: options.parallel ?? 64 };
   return {
-    extract,
-    reduceStart: Object.assign(reduceStart, { parallel: options.parallel ?? 64 }),
+    readers: { extract, reduceStart: Object.assign(reduceStart, parallel), calibrateRegion: Object.assign(calibrateRegion, parallel) },
     close: async () => {
       await checksums.save();
       await Promise.allSettled([events.close(), queue.close()]);

@@ -1,6 +1,6 @@
 /**
- * A cluster worker (`forelight worker --cluster URL`): takes extraction jobs and hindcast-start jobs (start-jobs.ts)
- * from Redis and reads the files itself.
+ * A cluster worker (`forelight worker --cluster URL`): takes extraction jobs, hindcast-start jobs (start-jobs.ts) and
+ * region-calibration jobs (region-jobs.ts) from Redis, and reads the files itself.
  * Workers must see the same input paths as the coordinator (a shared filesystem: NFS, a cluster filesystem, the same
  * mounted bucket). SIGTERM lets the jobs in hand finish, then the worker leaves; a worker that is killed outright
  * loses its job lock, and the job goes to another worker after `lockSeconds`.
@@ -14,6 +14,7 @@ import { extractRegionSeries } from '../read/extract.ts';
 import type { StartRequest } from '../pipeline/hindcast-starts.ts';
 import { EXTRACT_QUEUE, redisClient } from './connection.ts';
 import type { ClusterAnswer, ClusterJob } from './coordinator.ts';
+import { REGION_JOB, workRegionJob, type WireRegionJob } from './region-jobs.ts';
 import { START_JOB, workStartJob } from './start-jobs.ts';
 import { toWire, type ExtractJob, type WireResult } from './wire.ts';
 
@@ -36,6 +37,15 @@ async function extractJob({ path, request }: ExtractJob): Promise<WireResult> {
 }
 
 async function work(job: Job<ClusterJob, ClusterAnswer>, log: Logger): Promise<ClusterAnswer> {
+  if (job.name === REGION_JOB) {
+    const region = job.data as WireRegionJob;
+    const what = `source ${region.source.id}, region ${region.config.regions[0]?.id}`;
+    log.info('job started', { stage: 'calibrate', job: job.id, kind: job.name, region: what, attempt: job.attemptsMade + 1 });
+    const t0 = Date.now();
+    const answer = workRegionJob(region);
+    log.info('job done', { stage: 'calibrate', job: job.id, kind: job.name, region: what, ms: Date.now() - t0 });
+    return answer;
+  }
   const start = job.name === START_JOB ? (job.data as StartRequest) : null;
   const path = start ? start.start.path : (job.data as ExtractJob).path;
   log.info('job started', { stage: 'read', job: job.id, kind: job.name, path, attempt: job.attemptsMade + 1 });

@@ -7,6 +7,7 @@ import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineOutcomes } from '../calibrate/combine-outcomes.ts';
 import { observedContext, type CalibrateContext } from '../calibrate/model-climate.ts';
+import type { RegionCalibrator } from '../calibrate/region-calibration.ts';
 import { cachedClimates } from '../calibrate/skill-cache.ts';
 import { forecastIndicators, forecastLeadOne, sourceProbabilities, type SourceOutcome } from '../calibrate/source-probabilities.ts';
 import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';
@@ -45,12 +46,14 @@ export interface AnalyseOptions {
   readonly extract?: Extractor;
   /** How each hindcast start of a first-time climate build is read and reduced (default: in this process, through `extract`). */
   readonly reduceStart?: StartReducer;
+  /** How each region of a first-time climate build is calibrated (default: in this process). */
+  readonly calibrateRegion?: RegionCalibrator;
   /** Progress of a first-time climate build, per hindcast start of each source. */
   readonly onStartReduced?: (source: string, done: number, total: number) => void;
 }
 
-/** How a run reads files and reduces hindcast starts (this process, or a cluster's workers). */
-export type Readers = Pick<AnalyseOptions, 'extract' | 'reduceStart'>;
+/** How a run reads files, reduces hindcast starts and calibrates regions (this process, or a cluster's workers). */
+export type Readers = Pick<AnalyseOptions, 'extract' | 'reduceStart' | 'calibrateRegion'>;
 
 /** Reads and computes everything for the run's issue date; never throws for a bad file, region or indicator. */
 export async function analyse(config: Config, run: RunContext, options: AnalyseOptions = {}): Promise<Analysis> {
@@ -73,6 +76,7 @@ export async function analyse(config: Config, run: RunContext, options: AnalyseO
     climatology,
     observedMemo: new Map(),
     checksums,
+    calibrateRegion: options.calibrateRegion,
   };
   const fileProblems: ForelightError[] = [...read.problems];
   const reducer = options.reduceStart ?? localStartReducer(extract, observedContext(ctx));

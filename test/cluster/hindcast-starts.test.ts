@@ -1,7 +1,8 @@
 /**
- * First-time climate build distributed per hindcast start, on real parts (Debian's redis-server on loopback, two
- * `forelight worker` processes, the Veloria sample's NetCDF files). Each start of each source is one job whose answer
- * is its lead values; the model climates the coordinator builds from them must be byte for byte the skill-cache
+ * First-time climate build distributed per hindcast start and per region, on real parts (Debian's redis-server on
+ * loopback, two `forelight worker` processes, the Veloria sample's NetCDF files). Each start of each source is one
+ * job whose answer is its lead values, then each region of each source one job that stacks, verifies and tunes
+ * them; the model climates the coordinator stores from them must be byte for byte the skill-cache
  * entries a single process writes (the reference is that single-process build; no outside source: the claim is
  * identity). Asking again with an empty cache is answered from Redis without any worker reading a file.
  */
@@ -39,9 +40,13 @@ const entries = (config: Config): string[] =>
     .map((f) => readFileSync(join(config.calibration.cacheDir, f), 'utf8'))
     .sort();
 
-/** Worker log lines of start jobs with message `msg`. */
-const startJobs = (log: string, msg: string): string[] =>
-  log.split('\n').filter((l) => l.includes(`"msg":"${msg}"`) && l.includes('"kind":"reduce-start"'));
+/** Worker log lines of jobs of `kind` with message `msg`. */
+const jobsOf =
+  (kind: string) =>
+  (log: string, msg: string): string[] =>
+    log.split('\n').filter((l) => l.includes(`"msg":"${msg}"`) && l.includes(`"kind":"${kind}"`));
+const startJobs = jobsOf('reduce-start');
+const regionJobs = jobsOf('calibrate-region');
 
 /** A start job the worker started and has not reported done. */
 function unfinished(log: string): string | undefined {
@@ -84,8 +89,8 @@ afterAll(async () => {
   await redis?.stop();
 });
 
-describe('first-time climate build with one job per hindcast start (2 workers, loopback Redis)', () => {
-  it('builds byte-identical model climates to a single process, one job per start, answered again from Redis', async () => {
+describe('first-time climate build with one job per hindcast start and per region (2 workers, loopback Redis)', () => {
+  it('builds byte-identical model climates to a single process, one job per start and per region, answered again from Redis', async () => {
     const single = withCache('single');
     const local = await analyse(single, runContext({ issueDate, log: silentLogger }));
 
@@ -94,7 +99,7 @@ describe('first-time climate build with one job per hindcast start (2 workers, l
     expect(starts).toBeGreaterThan(2);
     const cluster = await connectCluster(redis.url, { log: silentLogger, cacheDir: distributed.calibration.cacheDir });
     try {
-      const remote = await analyse(distributed, runContext({ issueDate, log: silentLogger }), cluster);
+      const remote = await analyse(distributed, runContext({ issueDate, log: silentLogger }), cluster.readers);
       expect(entries(distributed)).toEqual(entries(single));
       expect(entries(single).length).toBe(local.sources.filter((s) => s.climates.size > 0).length);
       expect(remote.probabilities).toEqual(local.probabilities);
@@ -109,6 +114,12 @@ describe('first-time climate build with one job per hindcast start (2 workers, l
         done.every((n) => n > 0),
         `both workers reduced starts (${done.join(' + ')})`,
       ).toBe(true);
+      // Then one job per region of each source with hindcasts: stacked, verified and tuned by a worker.
+      // (the workers' log lines arrive through pipes: wait for the last ones)
+      const calibrated = () => workers.reduce((n, w) => n + regionJobs(w.log, 'job done').length, 0);
+      const expected = base.regions.length * entries(single).length;
+      for (const end = Date.now() + 10_000; calibrated() < expected && Date.now() < end;) await new Promise((r) => setTimeout(r, 50));
+      expect(calibrated(), 'one job per region and source').toBe(expected);
       // Hindcasts are reduced inside start jobs; the only extraction of one is each source's first start, which the
       // read stage compares with the forecast's grid (pipeline/usable-forecast.ts).
       const extracted = workers.flatMap((w) =>
@@ -120,10 +131,11 @@ describe('first-time climate build with one job per hindcast start (2 workers, l
 
       // Same request, empty cache: every start is answered from Redis, no worker starts a start job.
       const again = withCache('again');
-      const before = workers.map((w) => startJobs(w.log, 'job started').length);
-      await analyse(again, runContext({ issueDate, log: silentLogger }), cluster);
+      const started = () => workers.map((w) => startJobs(w.log, 'job started').length + regionJobs(w.log, 'job started').length);
+      const before = started();
+      await analyse(again, runContext({ issueDate, log: silentLogger }), cluster.readers);
       expect(entries(again)).toEqual(entries(single));
-      expect(workers.map((w) => startJobs(w.log, 'job started').length)).toEqual(before);
+      expect(started()).toEqual(before);
     } finally {
       await cluster.close();
     }
@@ -137,7 +149,7 @@ describe('first-time climate build with one job per hindcast start (2 workers, l
     const distributed = { ...withCache('term-cluster'), regions };
     const cluster = await connectCluster(redis.url, { log: silentLogger, cacheDir: distributed.calibration.cacheDir });
     try {
-      const build = analyse(distributed, runContext({ issueDate, log: silentLogger }), cluster);
+      const build = analyse(distributed, runContext({ issueDate, log: silentLogger }), cluster.readers);
       let stopped: { w: (typeof workers)[number]; job: string } | undefined;
       let finished = false;
       void build.finally(() => (finished = true));

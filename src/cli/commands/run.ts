@@ -118,7 +118,7 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
   const logFor = (config: Config) => createLogger({ base: { command: 'run', ...(configs.length > 1 ? { config: config.file } : {}) } });
   const cluster = url && !dry ? await connectCluster(url, { log: logFor(configs[0]), cacheDir: configs[0].calibration.cacheDir }) : null;
   try {
-    const settled = await runSeveral(configs, cluster ?? {}, (config, readers) => {
+    const settled = await runSeveral(configs, cluster?.readers ?? {}, (config, readers) => {
       const run = runContext({ log: logFor(config), issueDate: issueDateOf(args, config), dryRun: dry });
       const pass = { args, config, run, readers, label: configs.length > 1 ? `${config.file}: ` : '' };
       return dry ? dryRun(pass) : issue(pass);

@@ -8,7 +8,7 @@ import { loadConfig } from '../../config/load-config.ts';
 import { createLogger, type Logger } from '../../core/log.ts';
 import { runContext } from '../../core/run-context.ts';
 import type { Config } from '../../config/types.ts';
-import type { StartReducer } from '../../pipeline/hindcast-starts.ts';
+import type { Readers } from '../../pipeline/analyse.ts';
 import { checkSeparateOutputs, slotReads } from '../../pipeline/run-several.ts';
 import type { Extractor } from '../../read/extract.ts';
 import { connectCluster } from '../../cluster/coordinator.ts';
@@ -30,9 +30,9 @@ export async function serveCommand(args: ParsedArgs): Promise<number> {
   const logFor = (config: Config) => createLogger({ base: { command: 'serve', ...(configs.length > 1 ? { config: config.file } : {}) } });
   const url = stringOption(args, 'cluster');
   const cluster = url ? await connectCluster(url, { log: logFor(configs[0]), cacheDir: configs[0].calibration.cacheDir }) : null;
-  const readsAt = slotReads(configs, cluster?.extract);
+  const readsAt = slotReads(configs, cluster?.readers.extract);
   try {
-    await Promise.all(configs.map((config, i) => serve(config, logFor(config), (slot) => readsAt(i, slot), cluster?.reduceStart)));
+    await Promise.all(configs.map((config, i) => serve(config, logFor(config), (slot) => readsAt(i, slot), cluster?.readers ?? {})));
   } finally {
     await cluster?.close();
   }
@@ -43,7 +43,7 @@ async function serve(
   config: Config,
   log: Logger,
   readsAt: (slot: Date) => { extract: Extractor; finished: () => void },
-  reduceStart: StartReducer | undefined,
+  workers: Omit<Readers, 'extract'>,
 ): Promise<void> {
   await runService({
     config,
@@ -68,7 +68,7 @@ async function serve(
           config,
           run,
           mode: 'live',
-          readers: { extract: reads.extract, reduceStart },
+          readers: { reduceStart: workers.reduceStart, calibrateRegion: workers.calibrateRegion, extract: reads.extract },
           onStartReduced: startProgress(run),
         });
       } finally {
