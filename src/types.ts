@@ -318,6 +318,8 @@ export interface PersistenceWait {
   /** Consecutive runs so far (this one included) and runs needed before the stage moves. */
   readonly runs: number;
   readonly needed: number;
+  /** Set when persistence raised the issued stage in this run, from this stage; the rest of the way still waits. */
+  readonly raisedFromId?: string;
 }
 
 /**

@@ -51,7 +51,10 @@ export function applyPersistence(
     if (runsAbove >= needed) {
       reasons.push(`escalated to ${lowestAboveId} after ${runsAbove} run${runsAbove > 1 ? 's' : ''} at or above it`);
       // Escalated to the lowest stage every run supported; the rest of the way starts counting again.
-      const wait = lowestAboveId === rawStageId ? undefined : ({ direction: 'raise', towardsId: rawStageId, runs: 0, needed } as const);
+      const wait =
+        lowestAboveId === rawStageId
+          ? undefined
+          : ({ direction: 'raise', towardsId: rawStageId, runs: 0, needed, raisedFromId: prev.stageId } as const);
       return { stageId: lowestAboveId, track: settled(lowestAboveId), reasons, wait };
     }
     reasons.push(`held at ${prev.stageId}: ${runsAbove} of ${needed} runs needed to escalate`);

@@ -6,6 +6,7 @@
  * - stage: the region's, a range's or the headline's stage differs from the decision, or the combined stage is not
  *   the highest range stage (escalation.combine: highest);
  * - rows: a row points above its range's stage without saying why (skill gate, no rule, tier cap, persistence), a
+ *   row on which persistence raised the stage in this run says it was not used for the stage yet, a
  *   stage above the lowest is backed by no row and no note, an outlook cell's chance points above its stage unmarked,
  *   or "nothing reaches above" while a row does;
  * - words: a probability word is not the configured band of its number (probability-words), or the headline's
@@ -46,8 +47,21 @@ function bandWord(config: RenderConfig, p: number, locale: string): string {
   return pickLocale(band.words, locale, `probability word band below ${band.below}`);
 }
 
-function checkTier(config: RenderConfig, locale: string, tv: TierView, tier: TierOutcome, say: (k: ContradictionKind, m: string) => void) {
+/** The catalogue's "not used for the stage yet" clause (use.awaiting up to its colon) in the bulletin's locale. */
+function notUsedYet(t: Translate): string {
+  return t('use.awaiting', { glyph: '', label: '', runs: 0, needed: 1, left: 1 }).split(':')[0].trim();
+}
+
+function checkTier(
+  config: RenderConfig,
+  locale: string,
+  t: Translate,
+  tv: TierView,
+  tier: TierOutcome,
+  say: (k: ContradictionKind, m: string) => void,
+) {
   const d = tier.decision;
+  const raisedNow = d.wait?.raisedFromId !== undefined;
   if (tv.stage.id !== d.stageId) say('stage', `shows ${tv.stage.id} but the decision is ${d.stageId}`);
   if (d.stageId === NO_FORECAST_ID && !d.missing) say('no-forecast', 'shows "no forecast available" without missing data');
   if (d.missing && tv.note === '') say('no-forecast', 'has no usable data but does not say so');
@@ -63,6 +77,8 @@ function checkTier(config: RenderConfig, locale: string, tv: TierView, tier: Tie
     }
     if (l.reached.rank > tv.stage.rank && l.note === '')
       say('rows', `${row} reaches ${l.reached.id} above the range's stage ${tv.stage.id} and says no reason`);
+    if (raisedNow && l.use === 'awaiting' && l.note.startsWith(notUsedYet(t)))
+      say('rows', `${row} says it was not used for the stage, but persistence raised the stage on it in this run`);
     if (Number.isFinite(p.probability)) {
       const word = bandWord(config, p.probability, locale);
       if (l.word !== word) say('words', `${row} says "${l.word}" for ${p.probability}, the configured word is "${word}"`);
@@ -141,7 +157,7 @@ export function checkRegionView(
     const tier = outcome.perTier[i];
     if (!tier || tier.indicator.id !== tv.indicatorId || tier.tier !== tv.tier)
       return say('stage', `range ${i} does not match its decision`);
-    checkTier(config, locale, tv, tier, sayFor(tv.indicatorId, `${tv.indicatorId} ${tv.tier}: `));
+    checkTier(config, locale, t, tv, tier, sayFor(tv.indicatorId, `${tv.indicatorId} ${tv.tier}: `));
   });
   if (config.decision.combine === 'highest') {
     const ranks = view.tiers.filter((tv) => tv.stage.id !== NO_FORECAST_ID).map((tv) => tv.stage.rank);

@@ -143,7 +143,12 @@ function useNote(t: Translate, use: LeadUse, outcome: TierOutcome, stageOf: (id:
     case 'awaiting': {
       const [runs, needed] = [outcome.decision.wait?.runs ?? 0, outcome.decision.wait?.needed ?? 0];
       const to = stageOf(use.supportsId);
-      return t('use.awaiting', { glyph: to.glyph, label: to.label, runs, needed, left: Math.max(1, needed - runs) });
+      const left = Math.max(1, needed - runs);
+      // Persistence raised the stage on these rows this run: they were used, only the higher stage waits.
+      if (outcome.decision.wait?.raisedFromId === undefined)
+        return t('use.awaiting', { glyph: to.glyph, label: to.label, runs, needed, left });
+      const issued = stageOf(outcome.decision.stageId);
+      return t('use.raisedAwaiting', { glyph: issued.glyph, label: issued.label, toGlyph: to.glyph, toLabel: to.label, left });
     }
     default:
       return '';

@@ -39,6 +39,21 @@ describe('leadUses', () => {
     ]);
   });
 
+  it('persistence raising the stage one step names the stage it came from, the higher stage still waiting', () => {
+    // Last run already pointed to mindful (1 of 2 runs); this run's week 2 points to brace: escalated to mindful,
+    // the lowest stage both runs supported, brace counting again from 0 (decide/persistence.ts).
+    const history: StageHistory = {
+      version: 1,
+      tracks: {
+        [trackKey('r1', 'heat', 'weeks')]: { stageId: 'quiet', runsAbove: 1, lowestAboveId: 'mindful', runsBelow: 0, highestBelowId: null },
+      },
+    };
+    const d = decide(weeks, history);
+    expect(d.stageId).toBe('mindful');
+    expect(d.wait).toEqual({ direction: 'raise', towardsId: 'brace', runs: 0, needed: 2, raisedFromId: 'quiet' });
+    expect(kinds(d)?.[1]).toEqual([2, 'awaiting', 'brace', 'brace']);
+  });
+
   it('a lead held for a degenerate threshold is named as such, not as a missing value', () => {
     const held = { ...prob('r1', 'months', 1, Number.NaN), flags: ['threshold-degenerate: lead month 1: threshold 1 1 …'] };
     const d = decide([held, prob('r1', 'months', 2, Number.NaN)]);

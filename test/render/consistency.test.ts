@@ -74,6 +74,37 @@ describe('checkRegionView', () => {
     expect(kinds('kessan-lowlands', rows('no-skill'))).toContain('rows');
   });
 
+  it('rows: rows on which persistence raised the stage in this run say so, and the "not used yet" wording is a contradiction', () => {
+    // kessan-lowlands weeks is mindful by week 2; here persistence raised it from quiet while week 2 points to brace.
+    const base = outcome('kessan-lowlands');
+    const i = base.perTier.findIndex((x) => x.tier === 'weeks' && x.indicator.id === 'tmax-3day');
+    const tier = base.perTier[i];
+    const uses = tier.probabilities.map((p) =>
+      p.lead.index === 2
+        ? { index: 2, kind: 'awaiting' as const, reachedId: 'brace', supportsId: 'brace' }
+        : { index: p.lead.index, kind: 'counted' as const, reachedId: 'quiet', supportsId: 'quiet' },
+    );
+    const wait = { direction: 'raise' as const, towardsId: 'brace', runs: 0, needed: 2, raisedFromId: 'quiet' };
+    const raised = { ...tier, decision: { ...tier.decision, rawStageId: 'brace', wait, leadUses: uses } };
+    const o: RegionOutcome = { ...base, perTier: base.perTier.map((x, j) => (j === i ? raised : x)) };
+    for (const locale of ['en', 'fr']) {
+      const t = env.t(locale);
+      const v = buildRegionView(config, o, locale, 'default', t);
+      const row = v.tiers.find((x) => x.tier === 'weeks' && x.indicatorId === 'tmax-3day')!.leads.find((l) => l.index === 2)!;
+      expect(row.note).toMatch(locale === 'en' ? /^raised the stage to .* Mindful.*waits for confirmation/ : /^a relevé le niveau/);
+      expect(checkRegionView(config, o, v, locale, t).filter((c) => c.kind === 'rows')).toEqual([]);
+      const old = t('use.awaiting', { glyph: '◑', label: 'Brace', runs: 0, needed: 2, left: 2 });
+      const contradicting = withLead(v, 'weeks', 2, (l) => ({ ...l, note: old }));
+      expect(checkRegionView(config, o, contradicting, locale, t).map((c) => c.kind)).toContain('rows');
+    }
+    // Held, not raised (persistence kept the last stage): the same old wording is right and not flagged.
+    const held = { ...raised, decision: { ...raised.decision, wait: { ...wait, runs: 1, raisedFromId: undefined } } };
+    const h: RegionOutcome = { ...base, perTier: base.perTier.map((x, j) => (j === i ? held : x)) };
+    const hv = buildRegionView(config, h, 'en', 'default', env.t('en'));
+    expect(hv.tiers.find((x) => x.tier === 'weeks' && x.indicatorId === 'tmax-3day')!.leads[1].note).toMatch(/^not used for the stage yet/);
+    expect(checkRegionView(config, h, hv, 'en', env.t('en')).filter((c) => c.kind === 'rows')).toEqual([]);
+  });
+
   it('rows: an outlook cell whose chance points above its stage without the "+" mark', () => {
     const v = view('kessan-lowlands');
     const actNow = toStageView(config.stages[3], 3, 'en', 'default');
