@@ -17,6 +17,19 @@ export type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & {
 };
 type StoredLeadClimate = Omit<LeadClimate, 'values'> & { values: string };
 
+/** JSON Schema of a `LeadWindow` (types.ts), as stored here and sent by cluster workers. */
+export const LEAD_WINDOW_SCHEMA = {
+  type: 'object',
+  properties: {
+    tier: { enum: TIERS },
+    index: { type: 'integer' },
+    start: { type: 'string' },
+    end: { type: 'string' },
+    modelMonth: { type: 'string' },
+  },
+  required: ['tier', 'index', 'start', 'end'],
+};
+
 /** A number, NaN and ±Infinity included (decoded from {"$num": …}; any other {"$num": …} stays an object and fails). */
 const num = { type: 'number' };
 const storedLeadClimate = {
@@ -27,20 +40,7 @@ const storedLeadClimate = {
       properties: {
         years: { type: 'array', items: { type: 'integer' } },
         members: { type: 'integer', minimum: 1 },
-        leads: {
-          type: 'array',
-          items: {
-            type: 'object',
-            properties: {
-              tier: { enum: TIERS },
-              index: { type: 'integer' },
-              start: { type: 'string' },
-              end: { type: 'string' },
-              modelMonth: { type: 'string' },
-            },
-            required: ['tier', 'index', 'start', 'end'],
-          },
-        },
+        leads: { type: 'array', items: LEAD_WINDOW_SCHEMA },
         units: { type: 'string' },
         values: { type: 'string' },
         recentreOn: { type: 'integer' },

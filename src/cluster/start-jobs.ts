@@ -15,10 +15,11 @@ import { readRegions } from '../config/region-views.ts';
 import { observedContext } from '../calibrate/model-climate.ts';
 import type { ObservedContext, PairReduction } from '../calibrate/start-reduction.ts';
 import type { LeadValues } from '../calibrate/lead-tiers.ts';
+import { LEAD_WINDOW_SCHEMA } from '../calibrate/stored-climate.ts';
 import { localStartReducer, regionClimatologies, type StartOutcome, type StartRequest } from '../pipeline/hindcast-starts.ts';
 import { readFile } from '../pipeline/read-file.ts';
 import { extractRegionSeries } from '../read/extract.ts';
-import { TIERS, type LeadWindow } from '../types.ts';
+import type { LeadWindow } from '../types.ts';
 import { float64Count, fromBase64, fromDiagnostic, toBase64, toWireProblem, undiagnosed, WIRE_SCHEMA, type WireProblem } from './wire.ts';
 
 export const START_JOB = 'reduce-start';
@@ -42,21 +43,10 @@ export interface WireStart {
   readonly problems: readonly WireProblem[];
 }
 
-const lead = {
-  type: 'object',
-  properties: {
-    tier: { enum: TIERS },
-    index: { type: 'integer' },
-    start: { type: 'string' },
-    end: { type: 'string' },
-    modelMonth: { type: 'string' },
-  },
-  required: ['tier', 'index', 'start', 'end'],
-};
 const { base64, count, problems } = WIRE_SCHEMA;
 const wireLeads = {
   type: 'object',
-  properties: { leads: { type: 'array', items: lead }, members: count, values: base64, beyondTable: base64 },
+  properties: { leads: { type: 'array', items: LEAD_WINDOW_SCHEMA }, members: count, values: base64, beyondTable: base64 },
   required: ['leads', 'members', 'values'],
 };
 /** A failure, or the lead values (the ajv message then names the first field that differs, not just "anyOf"). */

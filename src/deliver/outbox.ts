@@ -9,14 +9,11 @@ import { fixFor, makeFolder, writeFileAtomic } from '../core/write-atomic.ts';
 import { createHash } from 'node:crypto';
 import { join, resolve, sep } from 'node:path';
 import { DeliveryError, errnoCode } from '../core/errors.ts';
+import { toToken } from '../render/safe-text.ts';
 
-/** File-name-safe part: ASCII letters, digits, `.`, `_`, `-` only; no leading dot; at most `max` characters. */
+/** File-name-safe part (a `toToken`: ASCII letters, digits, `.`, `_`, `-`, no leading dot) of at most `max` characters, never empty. */
 export function safeNamePart(value: string, max = 80): string {
-  const cleaned = value
-    .replace(/[^A-Za-z0-9._-]+/g, '_')
-    .replace(/^[._]+/, '')
-    .slice(0, max);
-  return cleaned === '' ? 'x' : cleaned;
+  return toToken(value).slice(0, max) || 'x';
 }
 
 /**

@@ -41,6 +41,17 @@ export function tunedThresholds(analysis: Analysis): Map<TunedKey, number> {
   return out;
 }
 
+/** The stages of an analysis given the stage history: its probabilities, tuned triggers and missing parts decided. */
+export function decideAnalysis(config: Config, analysis: Analysis, history: StageHistory): DecideResult {
+  return decideStages({
+    config,
+    probabilities: analysis.probabilities,
+    history,
+    thresholdsFromCostLoss: tunedThresholds(analysis),
+    ...missingData(config, analysis),
+  });
+}
+
 export async function decideNow(
   config: Config,
   run: RunContext,
@@ -59,12 +70,5 @@ export async function decideNow(
   }
   const history = parseStageHistory(historyJson);
   const analysis = await analyse(config, run, options);
-  const decided = decideStages({
-    config,
-    probabilities: analysis.probabilities,
-    history,
-    thresholdsFromCostLoss: tunedThresholds(analysis),
-    ...missingData(config, analysis),
-  });
-  return { analysis, decided, history, previous };
+  return { analysis, decided: decideAnalysis(config, analysis, history), history, previous };
 }

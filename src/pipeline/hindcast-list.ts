@@ -9,7 +9,8 @@
 import type { SourceConfig } from '../config/types.ts';
 import { ForelightError, InputError } from '../core/errors.ts';
 import { hasPlaceholder, matchPattern, type PlaceholderValues } from '../core/path-patterns.ts';
-import { findCoordinates, referenceTimesOf } from '../read/coordinates.ts';
+import { findCoordinates } from '../read/coordinates.ts';
+import { referenceTimesOf } from '../read/time-axis.ts';
 import { withDataset } from '../read/open-dataset.ts';
 import type { FileRequest } from './read-file.ts';
 import { fileVariables, findInputFiles, type InputFiles } from './split-files.ts';

@@ -17,7 +17,7 @@ import { diagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { fillPattern, hasPlaceholder, matchPattern, PLACEHOLDERS } from '../core/path-patterns.ts';
 import { fileVariables } from './split-files.ts';
 import { newestForecastFile } from './grid-extents.ts';
-import { referenceTimesOf } from '../read/coordinates.ts';
+import { referenceTimesOf } from '../read/time-axis.ts';
 import { withDataset } from '../read/open-dataset.ts';
 
 export function unmatchedPatterns(config: Config, sourceMap: ConfigSourceMap | undefined): Diagnostic[] {

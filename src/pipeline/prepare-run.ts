@@ -9,7 +9,6 @@ import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
-import { decideStages } from '../decide/decide-stages.ts';
 import { diffStages, type RegionStageLike } from '../decide/diff.ts';
 import { parseStageHistory } from '../decide/history.ts';
 import type { RegionStage, StageChange } from '../decide/types.ts';
@@ -32,8 +31,7 @@ import { renderBulletins } from '../render/render-bulletins.ts';
 import type { StageDecision } from '../types.ts';
 import { saveChecksums, type Analysis } from './analyse.ts';
 import { buildBulletinRun, highestStageId, issuedRegionStages } from './bulletin-run.ts';
-import { tunedThresholds } from './decide-now.ts';
-import { missingData } from './missing-data.ts';
+import { decideAnalysis } from './decide-now.ts';
 
 /** Tells the operators (a real run mails them; a dry run only lists what it would have said). */
 export type NotifyOperators = (subject: string, text: string, diagnostics?: readonly Diagnostic[]) => Promise<void>;
@@ -125,13 +123,7 @@ export async function prepareRun(input: PrepareInput): Promise<Prepared> {
   }
   await recordInputFiles(ledger, runId, analysis, config, log);
   const history = parseStageHistory(latestStageHistory(ledger, runId));
-  const decided = decideStages({
-    config,
-    probabilities: analysis.probabilities,
-    history,
-    thresholdsFromCostLoss: tunedThresholds(analysis),
-    ...missingData(config, analysis),
-  });
+  const decided = decideAnalysis(config, analysis, history);
   recordProbabilities(ledger, runId, analysis.probabilities);
   recordDecisions(ledger, runId, decided.decisions);
   saveStageHistory(ledger, runId, JSON.stringify(decided.nextHistory));

@@ -7,7 +7,7 @@
  */
 import { InputError } from '../core/errors.ts';
 import type { Dataset, DimensionInfo, VariableInfo } from './dataset.ts';
-import { referenceVariable } from './coordinates.ts';
+import { referenceVariable } from './time-axis.ts';
 
 /** The reference-time dimension of a file of several starts, and how many starts it holds; null for one start. */
 export function startsDimension(ds: Dataset): DimensionInfo | null {

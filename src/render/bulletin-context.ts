@@ -6,7 +6,8 @@ import type { TeamConfig } from '../config/types.ts';
 import { formatDay } from './locale-format.ts';
 import type { BulletinRun, RenderConfig } from './model.ts';
 import type { OutlookCell, RegionView } from './region-view.ts';
-import { TIERS, type StageView } from './view-model.ts';
+import { TIERS } from './view-model.ts';
+import { type StageView } from './stage-view.ts';
 import type { Translate } from './catalogue.ts';
 import { applyTypography } from './typography.ts';
 

@@ -23,7 +23,8 @@ import type { BulletinRun, CapAlert, PreviousIssue, RegionOutcome, TierOutcome, 
 import type { TemplateEnv } from './template-env.ts';
 import { countryName } from './bulletin-context.ts';
 import { buildRegionView, type RegionView } from './region-view.ts';
-import { stageIndex, sureSentence } from './view-model.ts';
+import { sureSentence } from './view-model.ts';
+import { stageIndex } from './stage-view.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 
 export const CAP_NAMESPACE = 'urn:oasis:names:tc:emergency:cap:1.2';

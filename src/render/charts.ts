@@ -11,7 +11,8 @@ import { dateTicks, probabilityTicks, textWidth } from './chart-axis.ts';
 import type { RegionOutcome, RenderConfig } from './model.ts';
 import { probabilityLines, reachedRank } from './reached-stage.ts';
 import { escapeXml, toToken } from './safe-text.ts';
-import { inkFor, TIERS } from './view-model.ts';
+import { TIERS } from './view-model.ts';
+import { inkFor } from './stage-view.ts';
 
 export interface ChartStage {
   readonly glyph: string;

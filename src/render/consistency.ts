@@ -24,7 +24,8 @@ import { USABLE } from './headline.ts';
 import { formatPercent } from './locale-format.ts';
 import type { RegionOutcome, RenderConfig, TierOutcome } from './model.ts';
 import type { RegionView, TierView } from './region-view.ts';
-import { pickLocale, sureSentence, type LeadView } from './view-model.ts';
+import { sureSentence, type LeadView } from './view-model.ts';
+import { pickLocale } from './stage-view.ts';
 
 export type ContradictionKind = 'stage' | 'rows' | 'words' | 'skill' | 'threshold' | 'no-forecast';
 

@@ -6,7 +6,8 @@ import type { Tier } from '../types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange } from './locale-format.ts';
 import type { TierView } from './region-view.ts';
-import { TIERS, sureSentence, type LeadView, type StageView } from './view-model.ts';
+import { TIERS, sureSentence, type LeadView } from './view-model.ts';
+import { type StageView } from './stage-view.ts';
 
 /**
  * What the first screen says about the region: `triggered` = a hazard set the region's stage; `pending` = a lead

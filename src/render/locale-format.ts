@@ -42,3 +42,18 @@ export function formatNumber(locale: string, value: number, digits: number, minD
   if (!Number.isFinite(value)) return '–';
   return new Intl.NumberFormat(toIntlLocale(locale), { minimumFractionDigits: minDigits, maximumFractionDigits: digits }).format(value);
 }
+
+export const UNIT_SYMBOLS: Readonly<Record<string, string>> = {
+  degC: '°C',
+  degC2: '°C²',
+  'degC^2': '°C²',
+  'mm/day': 'mm/day',
+  '%': '%',
+  '1': '',
+};
+
+/** Threshold as printed: "35 °C" from `{value: 35, units: 'degC'}`. */
+export function formatThreshold(locale: string, value: number, units: string): string {
+  const symbol = UNIT_SYMBOLS[units] ?? units;
+  return `${formatNumber(locale, value, 1)}${symbol ? `\u00a0${symbol}` : ''}`;
+}

@@ -3,32 +3,17 @@
  * dates, how likely, how sure, action, what changed), the outlook strip (hazard × days/weeks/months), short
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
-import type { IndicatorConfig, RegionConfig, ThresholdSpec } from '../config/types.ts';
-import { basename } from 'node:path';
-import { indicatorDefinition } from '../indicators/registry.ts';
+import type { IndicatorConfig } from '../config/types.ts';
 import type { LeadProbability, Tier } from '../types.ts';
-import { regionClock } from '../core/local-clock.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
-import { formatNumber } from './locale-format.ts';
 import { USABLE, headlineOf, type Headline } from './headline.ts';
-import { tercileLines } from './tercile-words.ts';
-import { trendLine } from './trend-words.ts';
-import { pastYearsShare, rangeWords, thresholdNumber, thresholdRangeWords, thresholdWords } from './threshold-words.ts';
-import type { RegionOutcome, TierOutcome, RenderConfig } from './model.ts';
-import {
-  TIERS,
-  formatThreshold,
-  groupLeads,
-  leadView,
-  noForecastView,
-  stageIndex,
-  tierLeadUses,
-  toStageView,
-  type LeadGroup,
-  type LeadView,
-  type StageView,
-} from './view-model.ts';
+import { thresholdRangeWords, thresholdWords } from './threshold-words.ts';
+import type { RegionOutcome, RenderConfig } from './model.ts';
+import { tierNote, whyText } from './region-why.ts';
+import { methodLines, regionValueLine, thresholdRangeOf } from './tier-method.ts';
+import { TIERS, groupLeads, leadView, tierLeadUses, type LeadGroup, type LeadView } from './view-model.ts';
+import { noForecastView, stageIndex, toStageView, type StageView } from './stage-view.ts';
 
 export interface TierView {
   readonly tier: Tier;
@@ -94,144 +79,6 @@ export function hazardName(t: Translate, ind: IndicatorConfig | undefined, fallb
   return ind ? t(`hazard.${ind.kind}`, { days: ind.windowDays }) : fallback;
 }
 
-/** A lead with members beyond the formula's published table (flag of calibrate/probability.ts). */
-function isBeyondTable(lead: LeadView): boolean {
-  return lead.flags.some((f) => f.startsWith('beyond-table:'));
-}
-
-/** Lowest and highest threshold over a tier's leads. */
-function thresholdRangeOf(probabilities: readonly LeadProbability[]): { low: number; high: number } {
-  const values = probabilities.map((p) => p.threshold.value).filter(Number.isFinite);
-  return values.length === 0 ? { low: NaN, high: NaN } : { low: Math.min(...values), high: Math.max(...values) };
-}
-
-/** Why a range's stage is not what its rows point to: kept higher by persistence, or no usable data. */
-function tierNote(t: Translate, tier: TierOutcome, stage: StageView): string {
-  const { missing, wait } = tier.decision;
-  if (missing) return t('tier.missing', { reason: missing.reason, held: missing.held ? 'yes' : 'no' });
-  if (wait?.direction === 'lower')
-    return t('tier.heldHigher', { glyph: stage.glyph, label: stage.label, runs: wait.runs, needed: wait.needed });
-  return '';
-}
-
-function methodLines(
-  t: Translate,
-  locale: string,
-  config: RenderConfig,
-  spec: ThresholdSpec | undefined,
-  outcome: TierOutcome,
-  leads: readonly LeadView[],
-): string[] {
-  const lines: string[] = [];
-  const range = thresholdRangeOf(outcome.probabilities);
-  const value = rangeWords(t, outcome.probabilities, (p) => thresholdNumber(locale, p.threshold.value, p.threshold.units)) || '–';
-  if (spec?.kind === 'percentile')
-    lines.push(t('method.thresholdPercentile', { percentile: spec.percentile, value, ...pastYearsShare(spec.percentile) }));
-  else if (spec?.kind === 'absolute') {
-    const mapped = Number.isFinite(range.low) && (Math.abs(range.low - spec.value) > 1e-9 || Math.abs(range.high - spec.value) > 1e-9);
-    lines.push(
-      t('method.thresholdAbsolute', { fixed: thresholdNumber(locale, spec.value, spec.units), value, mapped: mapped ? 'yes' : 'no' }),
-    );
-  }
-  const scored = outcome.probabilities.filter((q) => q.skill);
-  if (scored.length > 0) {
-    const gate = config.decision.skillGate;
-    const values = scored
-      .map((q) => (q.skill!.basis === 'observed' ? q.skill!.gate.fairBrierSkillScore : q.skill!.fairBrierSkillScore))
-      .filter(Number.isFinite);
-    const fmt = (v: number) => (Number.isFinite(v) ? formatNumber(locale, v, 2, 2) : '–');
-    lines.push(
-      t('method.skill', {
-        min: fmt(Math.min(...values)),
-        max: fmt(Math.max(...values)),
-        years: Math.max(...scored.map((q) => q.skill!.years)),
-        potential: scored.some((q) => q.skill!.basis === 'potential') ? 'yes' : 'no',
-        floor: formatNumber(locale, gate.floor, 2, 2),
-        minEvents: gate.minEvents,
-        withheld: leads.filter((l) => l.withheld).length,
-      }),
-    );
-  } else lines.push(t('method.noSkill'));
-  lines.push(...tercileLines(t, locale, outcome.probabilities));
-  const trend = trendLine(t, locale, outcome.probabilities);
-  if (trend) lines.push(trend);
-  const beyond = leads.filter(isBeyondTable).length;
-  if (beyond > 0) lines.push(t('method.beyondTable', { leads: beyond }));
-  return lines;
-}
-
-/**
- * The parts without usable data, each in plain words with the reason and whether the last stage is kept (issue:
- * a missing tier is said, never silently left out); one sentence per tier range, indicators of one range merged.
- */
-function missingText(t: Translate, region: RegionOutcome, tiers: readonly TierView[]): string {
-  const said = new Map<string, string>();
-  region.perTier.forEach((tier, i) => {
-    const m = tier.decision.missing;
-    if (!m || said.has(tier.tier)) return;
-    said.set(
-      tier.tier,
-      t('why.missing', {
-        range: tier.tier,
-        reason: m.reason,
-        held: m.held ? 'yes' : 'no',
-        glyph: tiers[i].stage.glyph,
-        label: tiers[i].stage.label,
-      }),
-    );
-  });
-  return [...said.values()].join(' ');
-}
-
-/** Why the region has its stage: the evidence that drives it, a stage held back by persistence, and any part without data. */
-function whyText(
-  t: Translate,
-  config: RenderConfig,
-  region: RegionOutcome,
-  tiers: readonly TierView[],
-  stage: StageView,
-  byRank: readonly StageView[],
-): string {
-  const beyond = tiers.filter((tv) => tv.leads.some(isBeyondTable)).map((tv) => tv.hazard);
-  const beyondText = beyond.length > 0 ? t('why.beyondTable', { hazards: [...new Set(beyond)].join(', ') }) : '';
-  return [evidenceText(t, config, region, tiers, stage, byRank), beyondText, missingText(t, region, tiers)].filter(Boolean).join(' ');
-}
-
-function evidenceText(
-  t: Translate,
-  config: RenderConfig,
-  region: RegionOutcome,
-  tiers: readonly TierView[],
-  stage: StageView,
-  byRank: readonly StageView[],
-): string {
-  if (stage.id === NO_FORECAST_ID) return '';
-  const rank = (id: string): number => config.stages.findIndex((s) => s.id === id);
-  const [driver] = tiers
-    .map((tv, i) => ({ tv, d: region.perTier[i].decision }))
-    .filter((x) => !x.d.missing)
-    .sort((a, b) => rank(b.d.rawStageId) - rank(a.d.rawStageId) || rank(b.d.stageId) - rank(a.d.stageId));
-  if (!driver && region.perTier.some((x) => x.decision.missing)) return '';
-  if (!driver || !driver.tv.deciding) return t('why.none');
-  const lead = driver.tv.deciding;
-  const evidence = t('why.evidence', {
-    hazard: driver.tv.hazard,
-    range: driver.tv.tier,
-    chance: lead.chance,
-    dates: lead.dates,
-    normal: lead.normal,
-  });
-  const raw = rank(driver.d.rawStageId);
-  if (raw === stage.rank) return evidence;
-  const up = raw > stage.rank;
-  const held = t(up ? 'why.heldUp' : 'why.heldDown', {
-    glyph: byRank[raw].glyph,
-    label: byRank[raw].label,
-    runs: up ? config.decision.escalateAfterRuns : config.decision.relaxAfterRuns,
-  });
-  return `${evidence} ${held}`;
-}
-
 /** The lead an outlook cell shows: the deciding one, else the likeliest one the rules use. */
 function cellLead(tv: TierView): LeadView | null {
   return (
@@ -240,25 +87,6 @@ function cellLead(tv: TierView): LeadView | null {
       .filter((l) => USABLE.has(l.use) && Number.isFinite(l.probability))
       .reduce<LeadView | null>((a, l) => (a === null || l.probability > a.probability ? l : a), null)
   );
-}
-
-/** How the region's value of an indicator was formed (config region-value), for the technical note. */
-function regionValueLine(
-  t: Translate,
-  locale: string,
-  region: RegionConfig,
-  ind: IndicatorConfig | undefined,
-  raster: string | undefined,
-): string {
-  const value = ind?.regionValue ?? { weights: 'area' as const };
-  const args = {
-    rule: region.cellRule ?? 'overlap',
-    clock: regionClock(region).key,
-    weights: value.weights,
-    raster: raster ? basename(raster) : '',
-  };
-  if (value.shareAbove === undefined || !ind) return t('method.region', args);
-  return t('method.share', { ...args, level: formatThreshold(locale, value.shareAbove, indicatorDefinition(ind.kind).units) });
 }
 
 /** Everything the templates need about one region, for one locale and audience. */
@@ -338,7 +166,7 @@ export function buildRegionView(config: RenderConfig, outcome: RegionOutcome, lo
     previous,
     change,
     changeText,
-    why: whyText(t, config, outcome, tiers, stage, byRank),
+    why: whyText({ t, config, region: outcome, tiers, stage, byRank }),
     headline: headlineOf(t, locale, tiers, stage),
     outlook,
     tiers,

@@ -7,8 +7,7 @@ import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import { parseMalariaParams, suitabilityCategory } from '../indicators/malaria-monthly.ts';
 import type { LeadProbability } from '../types.ts';
 import type { Translate } from './catalogue.ts';
-import { formatNumber } from './locale-format.ts';
-import { formatThreshold } from './view-model.ts';
+import { formatNumber, formatThreshold } from './locale-format.ts';
 
 /** Denominators tried, smallest first, for "n of N past years" (a percentile with more digits falls back to 1000). */
 const DENOMINATORS = [10, 20, 100, 200, 1000] as const;

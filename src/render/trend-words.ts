@@ -6,8 +6,7 @@
  */
 import type { LeadProbability, TrendFit } from '../types.ts';
 import type { Translate } from './catalogue.ts';
-import { formatNumber } from './locale-format.ts';
-import { UNIT_SYMBOLS } from './view-model.ts';
+import { formatNumber, UNIT_SYMBOLS } from './locale-format.ts';
 
 function span(locale: string, values: readonly number[], units: string): string {
   const lo = Math.min(...values);

@@ -1,32 +1,18 @@
 /**
- * Building blocks of what templates print for one locale and audience: stages, leads and their short groups,
+ * Building blocks of what templates print for one locale and audience: leads and their short groups,
  * labels, dates and percentages already formatted. Sentences come from the message catalogue (`t`); this module
- * picks which message applies and supplies the numbers. Region assembly is in `region-view.ts`.
+ * picks which message applies and supplies the numbers. Stages are in `stage-view.ts`, region assembly in `region-view.ts`.
  */
-import { NO_FORECAST_ID } from '../decide/types.ts';
 import type { LeadProbability, LeadUse, LeadUseKind, SkillSummary, Tier } from '../types.ts';
-import type { StageConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange, formatNumber, formatPercent } from './locale-format.ts';
 import type { RenderConfig, TierOutcome } from './model.ts';
 import { reachedRank } from './reached-stage.ts';
+import { pickLocale, type StageView } from './stage-view.ts';
 import { leadUses } from '../decide/lead-use.ts';
-import { applyTypography } from './typography.ts';
 
 export const TIERS: readonly Tier[] = ['days', 'weeks', 'months'];
-
-export interface StageView {
-  readonly id: string;
-  readonly rank: number;
-  readonly label: string;
-  readonly glyph: string;
-  readonly colour: string;
-  /** Text colour readable on `colour` (black or white, by WCAG relative luminance). */
-  readonly ink: string;
-  readonly meaning: string;
-  readonly actions: string;
-}
 
 /**
  * How sure a lead is, from its skill figures (message `sure.<level>`): 'few' = too few observed events to judge;
@@ -83,72 +69,6 @@ export interface LeadGroup {
   readonly note: string;
 }
 
-/** Text of a per-locale record (with the locale's typography), or a one-line render error naming what is missing. */
-export function pickLocale(record: Readonly<Record<string, string>> | undefined, locale: string, what: string): string {
-  const text = record?.[locale];
-  if (text === undefined || text.trim() === '') {
-    throw new ForelightError(
-      'render',
-      'missing-translation',
-      `${what} has no text for locale "${locale}"`,
-      `add a "${locale}" entry for it in the config YAML`,
-    );
-  }
-  return applyTypography(locale, text);
-}
-
-/** Stage ladder lookups for one config. */
-export function stageIndex(config: RenderConfig): (id: string) => { stage: StageConfig; rank: number } {
-  const byId = new Map(config.stages.map((stage, rank) => [stage.id, { stage, rank }]));
-  return (id) => {
-    const hit = byId.get(id);
-    if (!hit)
-      throw new ForelightError(
-        'render',
-        'unknown-stage',
-        `stage "${id}" is not in the configured ladder (${[...byId.keys()].join(', ')})`,
-        'check the decide stage output against config stages',
-      );
-    return hit;
-  };
-}
-
-/**
- * The "no forecast available" state (decide's NO_FORECAST_ID): its own glyph (U+2298 CIRCLED DIVISION SLASH) and a
- * neutral grey that is no stage colour (`forelight check` refuses a ladder colour equal to it); rank -1, below
- * every stage, so it never reads as the lowest stage. Its words are the catalogue's noForecast.* messages.
- */
-export const NO_FORECAST_GLYPH = '⊘';
-export const NO_FORECAST_COLOUR = '#d0d0d0';
-
-export function noForecastView(t: (key: string) => string): StageView {
-  return {
-    id: NO_FORECAST_ID,
-    rank: -1,
-    label: t('noForecast.label'),
-    glyph: NO_FORECAST_GLYPH,
-    colour: NO_FORECAST_COLOUR,
-    ink: inkFor(NO_FORECAST_COLOUR),
-    meaning: t('noForecast.meaning'),
-    actions: t('noForecast.actions'),
-  };
-}
-
-/** Label, glyph, meaning and the pre-agreed actions of `audience` (team id, else "default"). */
-export function toStageView(stage: StageConfig, rank: number, locale: string, audience: string): StageView {
-  const actions = stage.actions[audience]?.[locale] !== undefined ? stage.actions[audience] : stage.actions.default;
-  return {
-    id: stage.id,
-    rank,
-    label: pickLocale(stage.label, locale, `stage "${stage.id}" label`),
-    glyph: stage.glyph,
-    colour: stage.colour,
-    ink: inkFor(stage.colour),
-    meaning: pickLocale(stage.meaning, locale, `stage "${stage.id}" meaning`),
-    actions: pickLocale(actions, locale, `stage "${stage.id}" actions for "${audience}" (or default)`),
-  };
-}
-
 /** Word for a probability from `config.probabilityWords` (first band whose `below` exceeds p; else the last); '–' for NaN. */
 export function probabilityWord(config: RenderConfig, p: number, locale: string): string {
   if (!Number.isFinite(p)) return '–';
@@ -162,21 +82,6 @@ export function probabilityWord(config: RenderConfig, p: number, locale: string)
     );
   const band = bands.find((b) => p < b.below) ?? bands[bands.length - 1];
   return pickLocale(band.words, locale, `probability word band below ${band.below}`);
-}
-
-export const UNIT_SYMBOLS: Readonly<Record<string, string>> = {
-  degC: '°C',
-  degC2: '°C²',
-  'degC^2': '°C²',
-  'mm/day': 'mm/day',
-  '%': '%',
-  '1': '',
-};
-
-/** Threshold as printed: "35 °C" from `{value: 35, units: 'degC'}`. */
-export function formatThreshold(locale: string, value: number, units: string): string {
-  const symbol = UNIT_SYMBOLS[units] ?? units;
-  return `${formatNumber(locale, value, 1)}${symbol ? `\u00a0${symbol}` : ''}`;
 }
 
 /**
@@ -335,16 +240,4 @@ export function groupLeads(locale: string, leads: readonly LeadView[], probabili
       note: leads[first].note,
     };
   });
-}
-
-/** Black or white, whichever contrasts more with a `#rrggbb` background (WCAG 2.1 relative luminance). */
-export function inkFor(colour: string): string {
-  const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(colour);
-  if (!m) return '#000000';
-  const lin = (h: string): number => {
-    const c = parseInt(h, 16) / 255;
-    return c <= 0.03928 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
-  };
-  const l = 0.2126 * lin(m[1]) + 0.7152 * lin(m[2]) + 0.0722 * lin(m[3]);
-  return 1.05 / (l + 0.05) >= (l + 0.05) / 0.05 ? '#ffffff' : '#000000';
 }

@@ -10,7 +10,8 @@ import type { RegionOutcome } from '../../src/render/model.ts';
 import { buildRegionView, type RegionView } from '../../src/render/region-view.ts';
 import { renderBulletins } from '../../src/render/render-bulletins.ts';
 import { createTemplateEnv } from '../../src/render/template-env.ts';
-import { noForecastView, toStageView, type LeadView } from '../../src/render/view-model.ts';
+import { type LeadView } from '../../src/render/view-model.ts';
+import { noForecastView, toStageView } from '../../src/render/stage-view.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 

@@ -2,7 +2,9 @@
 import { describe, expect, it } from 'vitest';
 import { ForelightError } from '../../src/core/errors.ts';
 import { MAX_SUBJECT_CHARS, capHeaderText, escapeXml, toHeaderText, toXmlChars } from '../../src/render/safe-text.ts';
-import { formatThreshold, inkFor, probabilityWord, sureLevel, sureSentence, toStageView } from '../../src/render/view-model.ts';
+import { probabilityWord, sureLevel, sureSentence } from '../../src/render/view-model.ts';
+import { formatThreshold } from '../../src/render/locale-format.ts';
+import { inkFor, toStageView } from '../../src/render/stage-view.ts';
 import { loadCatalogue } from '../../src/render/catalogue.ts';
 import { skillSummary } from '../support/skill-summary.ts';
 import { sampleConfig, sampleStages } from './fixtures/sample-config.ts';
