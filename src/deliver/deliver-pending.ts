@@ -36,7 +36,7 @@ import type { DeliveryReceipt } from '../types.ts';
 import { composeMessage, messageIdFor, renderEml } from './compose-message.ts';
 import { notifyOperators } from './operator-notice.ts';
 import { ensureOutboxWritable, htmlWithInlineImages, outboxBaseName, writeOutboxFiles } from './outbox.ts';
-import { classifySmtpError, createSmtpTransport, type SmtpFailure, type SmtpTransporter } from './smtp-transport.ts';
+import { classifySmtpError, createSmtpTransport, SmtpSendError, type SmtpTransporter } from './smtp-transport.ts';
 
 /** Points where `onStep` is awaited (fault injection in tests: pause, crash). */
 export type DeliveryStep = 'claimed' | 'accepted' | 'recorded';
@@ -88,13 +88,6 @@ function reclaimDeadClaims(ledger: Ledger, staleClaimSeconds: number, log: Logge
     }
   }
   return reclaimed;
-}
-
-/** A send given up (a permanent failure, or the retries spent), with how SMTP failed. */
-class SmtpSendError extends Error {
-  constructor(readonly failure: SmtpFailure) {
-    super(failure.detail);
-  }
 }
 
 async function sendWithRetry(

@@ -58,6 +58,13 @@ export interface SmtpFailure {
   readonly detail: string;
 }
 
+/** A send given up (a permanent failure, or the retries spent), with how SMTP failed. */
+export class SmtpSendError extends Error {
+  constructor(readonly failure: SmtpFailure) {
+    super(failure.detail);
+  }
+}
+
 export function classifySmtpError(err: unknown): SmtpFailure {
   const e = err as { code?: string; responseCode?: number; response?: string; message?: string };
   const text = (e.response ?? e.message ?? String(err)).replace(/\s+/g, ' ').trim();

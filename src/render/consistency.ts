@@ -23,7 +23,8 @@ import type { Translate } from './catalogue.ts';
 import { USABLE } from './headline.ts';
 import { formatPercent } from './locale-format.ts';
 import type { RegionOutcome, RenderConfig, TierOutcome } from './model.ts';
-import type { RegionView, TierView } from './region-view.ts';
+import type { RegionView } from './region-view.ts';
+import type { TierView } from './tier-view.ts';
 import { sureSentence, type LeadView } from './view-model.ts';
 import { pickLocale } from './stage-view.ts';
 

@@ -5,7 +5,7 @@
 import type { Tier } from '../types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange } from './locale-format.ts';
-import type { TierView } from './region-view.ts';
+import type { TierView } from './tier-view.ts';
 import { TIERS, sureSentence, type LeadView } from './view-model.ts';
 import { type StageView } from './stage-view.ts';
 

@@ -4,35 +4,17 @@
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
 import type { IndicatorConfig } from '../config/types.ts';
-import type { LeadProbability, Tier } from '../types.ts';
+import type { LeadProbability } from '../types.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import { USABLE, headlineOf, type Headline } from './headline.ts';
 import { thresholdRangeWords, thresholdWords } from './threshold-words.ts';
 import type { RegionOutcome, RenderConfig } from './model.ts';
 import { tierNote, whyText } from './region-why.ts';
+import type { TierView } from './tier-view.ts';
 import { methodLines, regionValueLine, thresholdRangeOf } from './tier-method.ts';
-import { TIERS, groupLeads, leadView, tierLeadUses, type LeadGroup, type LeadView } from './view-model.ts';
+import { TIERS, groupLeads, leadView, tierLeadUses, type LeadView } from './view-model.ts';
 import { noForecastView, stageIndex, toStageView, type StageView } from './stage-view.ts';
-
-export interface TierView {
-  readonly tier: Tier;
-  readonly tierName: string;
-  readonly indicatorId: string;
-  readonly hazard: string;
-  readonly stage: StageView;
-  readonly deciding: LeadView | null;
-  readonly leads: readonly LeadView[];
-  readonly groups: readonly LeadGroup[];
-  /** Threshold in plain words ("34.2 °C", "heatwave conditions"), as a range when the leads shown differ. */
-  readonly threshold: string;
-  /** Lowest and highest threshold value over the leads (NaN without leads). */
-  readonly thresholdRange: { readonly low: number; readonly high: number };
-  /** Why the stage of this range is not the one its rows point to ('' when it is): kept higher, or data missing. */
-  readonly note: string;
-  /** Technical note: how the threshold was set and the skill figures of this tier. */
-  readonly method: readonly string[];
-}
 
 export interface IndicatorView {
   readonly id: string;

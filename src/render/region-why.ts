@@ -5,7 +5,7 @@
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import type { Translate } from './catalogue.ts';
 import type { RegionOutcome, RenderConfig, TierOutcome } from './model.ts';
-import type { TierView } from './region-view.ts';
+import type { TierView } from './tier-view.ts';
 import { isBeyondTable } from './tier-method.ts';
 import type { StageView } from './stage-view.ts';
 
