@@ -7,7 +7,6 @@
  */
 import { createHash } from 'node:crypto';
 import { isDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
-import type { ForelightError } from '../core/errors.ts';
 import { openChecksumMemo } from '../core/file-checksums.ts';
 import { jsonShape, type ShapeCheck } from '../core/json-shape.ts';
 import type { PairKey } from '../core/keys.ts';
@@ -136,7 +135,7 @@ export function fromWireStart(wire: WireStart): StartOutcome {
     'failure' in p ? p : { units: p.units, hindcast: fromWireLeads(p.hindcast), observed: p.observed && fromWireLeads(p.observed) };
   return {
     reduction: r && { year: r.year, start: r.start, path: r.path, pairs: new Map(r.pairs.map(([k, p]) => [k, pair(p)])) },
-    problems: wire.problems.map(fromDiagnostic) as ForelightError[],
+    problems: wire.problems.map(fromDiagnostic),
   };
 }
 
