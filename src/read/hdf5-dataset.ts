@@ -2,35 +2,19 @@
  * Dataset over a NetCDF-4 (HDF5) file through h5wasm. h5wasm's Node build uses Emscripten NODERAWFS,
  * so HDF5 reads the host file directly by offset (no copy of the file into memory); each readRaw
  * decompresses only the chunks that intersect the requested hyperslab. NetCDF-4 dimensions are the
- * HDF5 dimension scales attached to each variable (netCDF-C's mapping); variables in sub-groups are not listed.
+ * HDF5 dimension scales attached to each variable (`hdf5-metadata.ts`, netCDF-C's mapping).
  */
 import { createRequire } from 'node:module';
 import { resolve } from 'node:path';
 import type { Dataset as H5Dataset, File as H5File } from 'h5wasm/node';
 import { InputError } from '../core/errors.ts';
-import { variableNotFound, type AttributeValue, type Dataset, type DimensionInfo, type StorageType, type VariableInfo } from './dataset.ts';
+import { variableNotFound, type AttributeValue, type Dataset, type DimensionInfo, type VariableInfo } from './dataset.ts';
 import { validateSelection } from './classic-hyperslab.ts';
 import { checkHdf5Filters } from './hdf5-filters.ts';
+import { netcdfMetadata, type Hdf5Variable } from './hdf5-metadata.ts';
 import { checkIdentity, fileIdentity, readSlab } from './hdf5-slab.mjs';
 import { packageExportPath } from './hdf5-package.ts';
 import { type Hdf5SlicePool, SliceError, sharedSlicePool } from './hdf5-slice-pool.ts';
-
-/** Attributes netCDF-C uses for its own bookkeeping; ncdump does not show them. */
-const HIDDEN_ATTRIBUTES = new Set([
-  '_Netcdf4Coordinates',
-  '_Netcdf4Dimid',
-  'CLASS',
-  'NAME',
-  'REFERENCE_LIST',
-  'DIMENSION_LIST',
-  '_NCProperties',
-  '_nc3_strict',
-  '_IsNetcdf4',
-  '_SuperblockVersion',
-]);
-const DIMENSION_ONLY = 'This is a netCDF dimension but not a netCDF variable';
-/** HDF5 reports H5S_UNLIMITED (2^64-1) as a maxshape entry. */
-const UNLIMITED_AT_LEAST = 2 ** 53;
 
 type H5wasm = (typeof import('h5wasm/node'))['default'];
 let ready: Promise<H5wasm> | undefined;
@@ -60,38 +44,6 @@ function oneLine(err: unknown): string {
     .slice(0, 4)
     .join(' | ')
     .slice(0, 400);
-}
-
-function toAttributeValue(value: unknown): AttributeValue {
-  if (typeof value === 'string') return value;
-  if (typeof value === 'number' || typeof value === 'bigint' || typeof value === 'boolean') return Number(value);
-  if (ArrayBuffer.isView(value)) {
-    const numbers = Array.from(value as unknown as ArrayLike<number | bigint>, Number);
-    return numbers.length === 1 ? numbers[0] : numbers;
-  }
-  if (Array.isArray(value)) return value.map(String).join('\n');
-  return String(value);
-}
-
-function storageType(ds: H5Dataset): StorageType | undefined {
-  const m = ds.metadata;
-  if (m.type === 1) return m.size === 4 ? 'float' : m.size === 8 ? 'double' : undefined;
-  if (m.type === 0) {
-    const ints: Record<number, [StorageType, StorageType]> = {
-      1: ['byte', 'ubyte'],
-      2: ['short', 'ushort'],
-      4: ['int', 'uint'],
-      8: ['int64', 'uint64'],
-    };
-    const pair = ints[m.size];
-    return pair ? pair[m.signed ? 0 : 1] : undefined;
-  }
-  if (m.type === 3 && !m.vlen && m.size === 1) return 'char';
-  return undefined;
-}
-
-interface Hdf5Variable extends VariableInfo {
-  readonly numeric: boolean;
 }
 
 class Hdf5Dataset implements Dataset {
@@ -194,14 +146,6 @@ class Hdf5Dataset implements Dataset {
   }
 }
 
-function readAttributes(entity: H5Dataset | H5File): Record<string, AttributeValue> {
-  const out: Record<string, AttributeValue> = {};
-  for (const [key, attr] of Object.entries(entity.attrs)) {
-    if (!HIDDEN_ATTRIBUTES.has(key)) out[key] = toAttributeValue(attr.value);
-  }
-  return out;
-}
-
 /**
  * End-of-file address from the superblock (HDF Group, "HDF5 File Format Specification" v3, §II.A:
  * versions 0/1 hold it after base and free-space addresses, versions 2/3 after base and extension
@@ -240,57 +184,8 @@ export async function openHdf5Dataset(file: string, prefix: Buffer, fileBytes: n
     );
   }
   try {
-    const datasets: [string, H5Dataset][] = [];
-    for (const key of h5.keys()) {
-      const e = h5.get(key);
-      if (e instanceof h5wasm.Dataset) datasets.push([key, e]);
-    }
-    const dims: (DimensionInfo & { order: number })[] = [];
-    const dimensionOnly = new Set<string>();
-    for (const [key, ds] of datasets) {
-      const attrs = ds.attrs;
-      if (!attrs.CLASS || attrs.CLASS.value !== 'DIMENSION_SCALE') continue;
-      const shape = ds.metadata.shape ?? [0];
-      const maxshape = ds.metadata.maxshape ?? shape;
-      const order = attrs._Netcdf4Dimid ? Number(attrs._Netcdf4Dimid.value) : dims.length;
-      dims.push({ name: key, size: shape[0] ?? 0, unlimited: (maxshape[0] ?? 0) >= UNLIMITED_AT_LEAST, order });
-      if (String(attrs.NAME?.value ?? '').startsWith(DIMENSION_ONLY)) dimensionOnly.add(key);
-    }
-    dims.sort((a, b) => a.order - b.order);
-    const phony = new Map<number, string>();
-    const variables: Hdf5Variable[] = [];
-    for (const [key, ds] of datasets) {
-      if (dimensionOnly.has(key)) continue;
-      const shape = ds.shape ?? [];
-      const isScale = dims.some((d) => d.name === key);
-      const coordIds = ds.attrs._Netcdf4Coordinates ? toAttributeValue(ds.attrs._Netcdf4Coordinates.value) : undefined;
-      const dimensions = shape.map((size, axis) => {
-        const scale = isScale ? undefined : ds.get_attached_scales(axis)[0];
-        if (scale) return scale.slice(scale.lastIndexOf('/') + 1);
-        const id = Array.isArray(coordIds) ? coordIds[axis] : coordIds;
-        const byId = dims.find((d) => d.order === id);
-        if (byId && byId.size === size) return byId.name;
-        if (isScale && axis === 0) return key;
-        let name = phony.get(size);
-        if (!name) {
-          name = `phony_dim_${phony.size}`;
-          phony.set(size, name);
-          dims.push({ name, size, unlimited: false, order: -1 });
-        }
-        return name;
-      });
-      const type = storageType(ds);
-      variables.push({
-        name: key,
-        dimensions,
-        shape,
-        type: type ?? 'char',
-        attributes: readAttributes(ds),
-        numeric: type !== undefined && type !== 'char',
-      });
-    }
-    const dimensions = dims.map(({ name, size, unlimited }) => ({ name, size, unlimited }));
-    return new Hdf5Dataset(file, h5, dimensions, readAttributes(h5), variables, pool, identity);
+    const { dimensions, attributes, variables } = netcdfMetadata(h5, (e): e is H5Dataset => e instanceof h5wasm.Dataset);
+    return new Hdf5Dataset(file, h5, dimensions, attributes, variables, pool, identity);
   } catch (err) {
     h5.close();
     if (err instanceof InputError) throw err;

@@ -1,7 +1,7 @@
 /** Localised words a chart needs, from the message catalogue. */
 import type { Tier } from '../types.ts';
 import type { Translate } from './catalogue.ts';
-import type { ChartWords } from './charts.ts';
+import type { ChartWords } from './chart-spec.ts';
 import { formatDayRange, formatPercent } from './locale-format.ts';
 
 export function chartWords(t: Translate, locale: string, hazard: (indicator: string) => string): ChartWords {

@@ -2,7 +2,9 @@
 import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { dateTicks, probabilityTicks } from '../../src/render/chart-axis.ts';
-import { buildChartSpecs, chartPngsWithin, chartWidth, renderChartPng, renderChartSvg, type ChartWords } from '../../src/render/charts.ts';
+import { chartPngsWithin, renderChartPng } from '../../src/render/chart-png.ts';
+import { buildChartSpecs, type ChartWords } from '../../src/render/chart-spec.ts';
+import { chartWidth, renderChartSvg } from '../../src/render/chart-svg.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 
