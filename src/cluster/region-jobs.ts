@@ -11,7 +11,7 @@ import { calibrateRegion } from '../calibrate/region-calibration.ts';
 import { decode, encode } from '../calibrate/skill-cache.ts';
 import type { StartReduction } from '../calibrate/start-reduction.ts';
 import { isStoredClimates, type StoredClimate } from '../calibrate/stored-climate.ts';
-import { parseShaped, type ShapeCheck } from '../core/json-shape.ts';
+import { jsonShape, parseShaped, type ShapeCheck } from '../core/json-shape.ts';
 import { fromWireStart, toWireStart, type WireStart } from './start-jobs.ts';
 
 export const REGION_JOB = 'calibrate-region';
@@ -47,10 +47,11 @@ export function workRegionJob(wire: WireRegionJob): WireRegionAnswer {
 }
 
 /** A region job's answer as it came from Redis: an object holding the climates' JSON text (checked further by `fromRegionAnswer`). */
-export const checkRegionAnswer: ShapeCheck<WireRegionAnswer> = (value) =>
-  typeof value === 'object' && value !== null && typeof (value as { climates?: unknown }).climates === 'string'
-    ? { ok: true, value: value as WireRegionAnswer }
-    : { ok: false, why: 'it holds no climates text' };
+export const checkRegionAnswer: ShapeCheck<WireRegionAnswer> = jsonShape<WireRegionAnswer>({
+  type: 'object',
+  properties: { climates: { type: 'string' } },
+  required: ['climates'],
+});
 
 /** The stored climates of an answer, checked as the skill cache checks its entries (stored-climate.ts). */
 export function fromRegionAnswer(answer: WireRegionAnswer): StoredClimate[] {

@@ -7,14 +7,14 @@
  */
 import { existsSync } from 'node:fs';
 import { hostname } from 'node:os';
-import { Worker, type Job } from 'bullmq';
+import { UnrecoverableError, Worker, type Job } from 'bullmq';
 import { ForelightError } from '../core/errors.ts';
 import type { Logger } from '../core/log.ts';
 import { extractRegionSeries } from '../read/extract.ts';
-import type { StartRequest } from '../pipeline/hindcast-starts.ts';
 import { EXTRACT_QUEUE, redisClient } from './connection.ts';
 import type { ClusterAnswer, ClusterJob } from './coordinator.ts';
-import { REGION_JOB, workRegionJob, type WireRegionJob } from './region-jobs.ts';
+import { checkJob, type CheckedJob } from './job-checks.ts';
+import { REGION_JOB, workRegionJob } from './region-jobs.ts';
 import { START_JOB, workStartJob } from './start-jobs.ts';
 import { toWire, type ExtractJob, type WireResult } from './wire.ts';
 
@@ -37,8 +37,15 @@ async function extractJob({ path, request }: ExtractJob): Promise<WireResult> {
 }
 
 async function work(job: Job<ClusterJob, ClusterAnswer>, log: Logger): Promise<ClusterAnswer> {
-  if (job.name === REGION_JOB) {
-    const region = job.data as WireRegionJob;
+  let checked: CheckedJob;
+  try {
+    checked = checkJob(job);
+  } catch (err) {
+    // The same job fails the same way on every worker: failed at once, not tried again.
+    throw err instanceof ForelightError ? new UnrecoverableError(err.message) : err;
+  }
+  if (checked.kind === REGION_JOB) {
+    const region = checked.data;
     const what = `source ${region.source.id}, region ${region.config.regions[0]?.id}`;
     log.info('job started', { stage: 'calibrate', job: job.id, kind: job.name, region: what, attempt: job.attemptsMade + 1 });
     const t0 = Date.now();
@@ -46,15 +53,14 @@ async function work(job: Job<ClusterJob, ClusterAnswer>, log: Logger): Promise<C
     log.info('job done', { stage: 'calibrate', job: job.id, kind: job.name, region: what, ms: Date.now() - t0 });
     return answer;
   }
-  const start = job.name === START_JOB ? (job.data as StartRequest) : null;
-  const path = start ? start.start.path : (job.data as ExtractJob).path;
+  const path = checked.kind === START_JOB ? checked.data.start.path : checked.data.path;
   log.info('job started', { stage: 'read', job: job.id, kind: job.name, path, attempt: job.attemptsMade + 1 });
   const t0 = Date.now();
   if (!existsSync(path)) {
     // Another worker may see it (a mount missing here): a plain error, so BullMQ tries again elsewhere.
     throw new Error(`${path} is not visible on worker ${hostname()}: workers need the coordinator's input paths (shared filesystem)`);
   }
-  const answer = start ? await workStartJob(start) : await extractJob(job.data as ExtractJob);
+  const answer = checked.kind === START_JOB ? await workStartJob(checked.data) : await extractJob(checked.data);
   log.info('job done', { stage: 'read', job: job.id, kind: job.name, path, ms: Date.now() - t0 });
   return answer;
 }

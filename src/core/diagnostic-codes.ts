@@ -709,6 +709,12 @@ export const DIAGNOSTIC_CODES = {
   },
   // cli
   // cluster
+  'cluster-job-invalid': {
+    stage: 'read',
+    severity: 'error',
+    meaning: 'a cluster worker was sent a job it cannot use (another kind, or damaged data)',
+    fix: 'run the same Forelight release on the coordinator and every worker',
+  },
   'cluster-url': { stage: 'cli', severity: 'error', meaning: '--cluster is not a redis:// URL', fix: 'write it as redis://HOST:PORT' },
   'cluster-unreachable': {
     stage: 'cli',

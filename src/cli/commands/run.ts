@@ -61,14 +61,14 @@ interface Pass {
 }
 
 /** A rehearsal reads like a run but holds no lock and leaves the status file as it was. */
-async function dryRun({ args, config, run, readers, label }: Pass): Promise<number> {
+async function dryRun({ args, config, run, readers, label }: Pass): Promise<ExitCode> {
   const outcome = await runOnce({ config, run, mode: 'live', force: args.options.force === true, readers: { extract: readers.extract } });
   printOutcome(outcome, label);
   return outcome.exitCode;
 }
 
 /** One configuration's pass under its lock, its status file updated after it. */
-async function issue({ args, config, run, readers, label }: Pass): Promise<number> {
+async function issue({ args, config, run, readers, label }: Pass): Promise<ExitCode> {
   const { lockPath } = servicePaths(config);
   const got = acquireLock(lockPath, { maxAgeSeconds: LOCK_MAX_AGE_SECONDS });
   if (!got.acquired) {
@@ -124,7 +124,7 @@ export async function runCommand(args: ParsedArgs): Promise<number> {
       return dry ? dryRun(pass) : issue(pass);
     });
     if (configs.length === 1 && settled[0].status === 'rejected') throw settled[0].reason;
-    return combinedExitCode(settled.map((r, i) => (r.status === 'fulfilled' ? (r.value as ExitCode) : failed(configs[i], r.reason))));
+    return combinedExitCode(settled.map((r, i) => (r.status === 'fulfilled' ? r.value : failed(configs[i], r.reason))));
   } finally {
     await cluster?.close();
   }
