@@ -234,13 +234,23 @@ export interface TercileOutlook {
  * A trend-aware climate at one lead (calibrate/trend-climate.ts): the year thresholds and normal-year rates are
  * re-centred on, and the least-squares trends removed, per decade in the indicator's units.
  */
+/** One climate's fitted trend (calibrate/trend-climate.ts), per decade in the climate's units. */
+export interface TrendFit {
+  readonly perDecade: number;
+  readonly standardErrorPerDecade: number;
+  /** t(0.95, years − 2): the trend is applied when |perDecade| > criticalT × standardErrorPerDecade. */
+  readonly criticalT: number;
+  /** False: not told from zero, the climate used as it is (slope 0). */
+  readonly applied: boolean;
+}
+
 export interface ClimateTrend {
   readonly onYear: number;
   readonly firstYear: number;
   readonly lastYear: number;
-  readonly hindcastPerDecade: number | null;
+  readonly hindcast: TrendFit | null;
   /** Null where observations do not cover the lead. */
-  readonly observedPerDecade: number | null;
+  readonly observed: TrendFit | null;
   readonly units: string;
 }
 

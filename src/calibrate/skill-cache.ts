@@ -23,9 +23,10 @@ import { fromStored, isStoredClimates, type StoredClimate } from './stored-clima
 
 /**
  * 10: month leads of model-calendar daily data are model months (LeadWindow.modelMonth). 11: lead values as base64
- * doubles. 12: trend-aware climates carry the year they are re-centred on (LeadClimate.recentreOn).
+ * doubles. 12: trend-aware climates carry the year they are re-centred on (LeadClimate.recentreOn). 13: a trend
+ * is applied only when told from zero (trend-climate.ts), so skill measured on a re-centred climate changes.
  */
-export const SKILL_CACHE_VERSION = 12;
+export const SKILL_CACHE_VERSION = 13;
 
 /** sha256 over the files' contents in the given order (streamed, never a whole file in memory); paths do not count. */
 export async function hashFiles(paths: readonly string[], memo?: ChecksumMemo): Promise<string> {

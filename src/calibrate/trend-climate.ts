@@ -15,16 +15,26 @@
  * - leave-one-year-out (verification, skill, quantile mapping, terciles): T = the held-out year, the line fitted
  *   on the other years only, so the year judged never sets its own trend (no leak).
  * `leadSample` in climate.ts applies this whenever `recentreOn` is set, so thresholds, probabilities, quantile
- * mapping, terciles and skill all see one and the same re-centred climate. With fewer than two distinct years
- * the slope is 0 (nothing to fit). Common practice (e.g. removing a linear trend from hindcasts before
+ * mapping, terciles and skill all see one and the same re-centred climate. The slope is applied only when the
+ * data tell it from zero (`climateSlope`: two-sided 90 % t test on the year means), else it is 0 and the climate is
+ * used as it is; so with fewer than three distinct years. Common practice (e.g. removing a linear trend from hindcasts before
  * computing anomalies in seasonal forecasting), no single source for the re-centring rule itself.
  */
-import type { ClimateTrend } from '../types.ts';
+import type { ClimateTrend, TrendFit } from '../types.ts';
+import { studentTQuantile } from './student-t.ts';
 import type { LeadClimate } from './climate.ts';
 
 export interface ClimateSlope {
-  /** b: change per year, in the climate's units, common to every lead. */
+  /** b applied: change per year, in the climate's units, common to every lead; 0 when `applied` is false. */
   readonly slope: number;
+  /** The least-squares slope as fitted, applied or not. */
+  readonly fitted: number;
+  /** Standard error of the slope from the year means (see `climateSlope`); NaN with fewer than three years. */
+  readonly standardError: number;
+  /** t(0.95, n − 2) for the n years fitted; NaN with fewer than three years. */
+  readonly criticalT: number;
+  /** |fitted| > criticalT × standardError: the trend is told from zero (two-sided 90 %). */
+  readonly applied: boolean;
   /** Distinct years the line was fitted on. */
   readonly years: number;
 }
@@ -33,38 +43,62 @@ const memo = new WeakMap<LeadClimate, Map<number | 'all', ClimateSlope>>();
 
 /**
  * The least-squares slope of x ≈ a_l + b·year over the valid values of every lead (one intercept per lead, one
- * slope), leaving out `excludeYear`: b = Σ_l Σ (year − ȳ_l)(x − x̄_l) / Σ_l Σ (year − ȳ_l)². Remembered per
- * climate object (climates are read-only).
+ * slope), leaving out `excludeYear`: b = Σ_l Σ (year − ȳ_l)(x − x̄_l) / Σ_l Σ (year − ȳ_l)², applied only when
+ * told from zero. The test takes one value per year, as the line's level per lead does: the year's mean of
+ * x − x̄_l over its members and leads, regressed on the year (ordinary least squares, residual variance on n − 2
+ * degrees of freedom, n = years); |b| > t(0.95, n − 2) × that slope's standard error. Members and leads of one year
+ * share its weather, so counting each value as independent would shrink the error by about √(values per year) and
+ * pass noise as a trend. Remembered per climate object (climates are read-only).
  */
 export function climateSlope(c: LeadClimate, excludeYear?: number): ClimateSlope {
   const key = excludeYear ?? 'all';
   const known = memo.get(c)?.get(key);
   if (known) return known;
   const nLeads = c.leads.length;
-  const distinct = new Set<number>();
+  const perYear = c.years.map(() => ({ sum: 0, n: 0 }));
   let num = 0;
   let den = 0;
   for (let l = 0; l < nLeads; l++) {
     let n = 0;
     let sx = 0;
     let sy = 0;
-    const each = (f: (year: number, v: number) => void) => {
+    const each = (f: (y: number, v: number) => void) => {
       for (let y = 0; y < c.years.length; y++) {
         if (c.years[y] === excludeYear) continue;
         for (let m = 0; m < c.members; m++) {
           const v = c.values[(y * c.members + m) * nLeads + l];
-          if (!Number.isNaN(v)) f(c.years[y], v);
+          if (!Number.isNaN(v)) f(y, v);
         }
       }
     };
-    each((year, v) => ((n += 1), (sx += year), (sy += v), distinct.add(year)));
+    each((y, v) => ((n += 1), (sx += c.years[y]), (sy += v)));
     if (n === 0) continue;
     const [mx, my] = [sx / n, sy / n];
-    each((year, v) => ((num += (year - mx) * (v - my)), (den += (year - mx) ** 2)));
+    each((y, v) => {
+      num += (c.years[y] - mx) * (v - my);
+      den += (c.years[y] - mx) ** 2;
+      perYear[y].sum += v - my;
+      perYear[y].n += 1;
+    });
   }
-  const result = { slope: distinct.size < 2 || den === 0 ? 0 : num / den, years: distinct.size };
+  const fitted = den === 0 ? 0 : num / den;
+  const { standardError, years } = yearMeanError(perYear.flatMap((p, y) => (p.n > 0 ? [[c.years[y], p.sum / p.n]] : [])));
+  const criticalT = years >= 3 ? studentTQuantile(0.95, years - 2) : Number.NaN;
+  const applied = years >= 3 && Math.abs(fitted) > criticalT * standardError;
+  const result = { slope: applied ? fitted : 0, fitted, standardError, criticalT, applied, years };
   memo.set(c, (memo.get(c) ?? new Map()).set(key, result));
   return result;
+}
+
+/** The standard error of the least-squares slope of (year, mean) pairs: √(Σ residual² / (n − 2) / Σ (year − ȳ)²). */
+function yearMeanError(points: readonly number[][]): { standardError: number; years: number } {
+  const n = points.length;
+  if (n < 3) return { standardError: Number.NaN, years: n };
+  const [my, mz] = [points.reduce((a, p) => a + p[0], 0) / n, points.reduce((a, p) => a + p[1], 0) / n];
+  const sxx = points.reduce((a, p) => a + (p[0] - my) ** 2, 0);
+  const b = points.reduce((a, p) => a + (p[0] - my) * (p[1] - mz), 0) / sxx;
+  const rss = points.reduce((a, p) => a + (p[1] - mz - b * (p[0] - my)) ** 2, 0);
+  return { standardError: Math.sqrt(rss / (n - 2) / sxx), years: n };
 }
 
 /**
@@ -85,10 +119,11 @@ export function recentredValues(c: LeadClimate, l: number, excludeYear?: number)
   return out;
 }
 
-function perDecade(c: LeadClimate | null, l: number): number | null {
+function fitAt(c: LeadClimate | null, l: number): TrendFit | null {
   if (!c || l >= c.leads.length) return null;
   const t = climateSlope(c);
-  return t.years < 2 ? null : t.slope * 10;
+  if (t.years < 2) return null;
+  return { perDecade: t.fitted * 10, standardErrorPerDecade: t.standardError * 10, criticalT: t.criticalT, applied: t.applied };
 }
 
 /** The trends a trend-aware hindcast climate removes at lead position l, for run.json and the bulletin; null when it is not trend-aware. */
@@ -98,8 +133,8 @@ export function climateTrendAt(hindcast: LeadClimate | null, observed: LeadClima
     onYear: hindcast.recentreOn,
     firstYear: Math.min(...hindcast.years),
     lastYear: Math.max(...hindcast.years),
-    hindcastPerDecade: perDecade(hindcast, l),
-    observedPerDecade: observed?.recentreOn === undefined ? null : perDecade(observed, l),
+    hindcast: fitAt(hindcast, l),
+    observed: observed?.recentreOn === undefined ? null : fitAt(observed, l),
     units: hindcast.units,
   };
 }

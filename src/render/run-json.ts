@@ -19,7 +19,9 @@
  *       decision: StageDecision,                                       // as from decide, `lead` in full
  *       probabilities: LeadProbability[]                               // every field, incl. threshold and skill;
  *                                                                      //   climateTrend: { onYear, firstYear, lastYear,
- *                                                                      //   hindcastPerDecade, observedPerDecade, units }
+ *                                                                      //   hindcast, observed: { perDecade,
+ *                                                                      //   standardErrorPerDecade, criticalT, applied }
+ *                                                                      //   or null, units }
  *     }]
  *   }],
  *   capAlerts: [{ id, region, indicator, msgType, stageId }]

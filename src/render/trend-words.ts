@@ -1,9 +1,10 @@
 /**
  * The technical note's sentence on a trend-aware climate (calibrate/trend-climate.ts): "normal year" then means a
  * normal year for the issue year, allowing for the trend of the hindcast years, and the note gives that trend per
- * decade (the range over the tier's leads; observed beside the model's where observations cover the leads).
+ * decade (the range over the tier's leads; observed beside the model's where observations cover the leads). A trend
+ * the data do not tell from zero is not applied, and the note says "no clear trend" with the fitted rates.
  */
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability, TrendFit } from '../types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatNumber, UNIT_SYMBOLS } from './locale-format.ts';
 
@@ -20,18 +21,31 @@ export function trendLine(t: Translate, locale: string, probabilities: readonly 
   const trends = probabilities.flatMap((p) => (p.climateTrend ? [p.climateTrend] : []));
   if (trends.length === 0) return null;
   const first = trends[0];
-  const model = trends.flatMap((c) => (c.hindcastPerDecade === null ? [] : [c.hindcastPerDecade]));
-  const observed = trends.flatMap((c) => (c.observedPerDecade === null ? [] : [c.observedPerDecade]));
+  const model = trends.flatMap((c) => (c.hindcast ? [c.hindcast] : []));
+  const observed = trends.flatMap((c) => (c.observed ? [c.observed] : []));
+  const rates = (fits: readonly TrendFit[]) =>
+    fits.length > 0
+      ? span(
+          locale,
+          fits.map((f) => f.perDecade),
+          first.units,
+        )
+      : 'none';
+  const years = { years: first.lastYear - first.firstYear + 1, first: first.firstYear, last: first.lastYear };
+  const [modelUsed, observedUsed] = [model.filter((f) => f.applied), observed.filter((f) => f.applied)];
+  // No trend told from zero (calibrate/trend-climate.ts): the climate is used as it is, and the note says so.
+  if (modelUsed.length === 0 && observedUsed.length === 0)
+    return t('method.noTrend', { ...years, model: rates(model), observed: rates(observed) });
   // The normal-year rate is the observed frequency where observations exist, so their trend names the direction.
-  const lead = observed.length > 0 ? observed : model;
-  const mean = lead.reduce((a, b) => a + b, 0) / Math.max(lead.length, 1);
+  const lead = observedUsed.length > 0 ? observedUsed : modelUsed;
+  const mean = lead.reduce((a, b) => a + b.perDecade, 0) / lead.length;
+  const unclear = (all: readonly TrendFit[], used: readonly TrendFit[]) => all.length > 0 && used.length === 0;
   return t('method.trend', {
+    ...years,
     year: first.onYear,
-    years: first.lastYear - first.firstYear + 1,
-    first: first.firstYear,
-    last: first.lastYear,
     direction: mean > 0 ? 'warming' : mean < 0 ? 'cooling' : 'flat',
-    model: model.length > 0 ? span(locale, model, first.units) : '–',
-    observed: observed.length > 0 ? span(locale, observed, first.units) : 'none',
+    model: rates(modelUsed),
+    observed: rates(observedUsed),
+    unclear: unclear(model, modelUsed) ? 'model' : unclear(observed, observedUsed) ? 'observed' : 'none',
   });
 }

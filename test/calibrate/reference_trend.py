@@ -1,18 +1,21 @@
 #!/usr/bin/python3
-"""Independent reference for the trend-aware climate (src/calibrate/trend-climate.ts), numpy only (Debian).
+"""Independent reference for the trend-aware climate (src/calibrate/trend-climate.ts), numpy and scipy (Debian).
 
 Reads JSON from stdin: {"years": [...] (one per entry), "values": [[[...]]] (entry x member x lead, null =
 missing), "target": issue year, "q": percentile}. Per lead, numpy.polyfit(year, value, 1) over every valid
 (entry year, member value) pair gives the slope b; the values moved to the target year are x + b (target - year).
 Writes {"slope": b, "threshold": [numpy.percentile(method='linear') of the moved values per lead],
 "loyo": [[per held-out year: lstsq without that year, the other years moved to it,
-numpy.percentile(method='weibull')] per lead]}.
+numpy.percentile(method='weibull')] per lead],
+"stderr": scipy.stats.linregress(year, year mean of value - its lead's mean).stderr, "t90": scipy.stats.t.ppf(0.95,
+n_years - 2), "loyoStderr" and "loyoSlope": the same per held-out year}.
 Run by test/calibrate/trend-climate.test.ts as: /usr/bin/python3 test/calibrate/reference_trend.py < input.json
 """
 import json
 import sys
 
 import numpy as np
+from scipy import stats
 
 d = json.load(sys.stdin)
 years = np.asarray(d["years"], dtype=float)
@@ -54,4 +57,24 @@ loyo = [
     [float(np.percentile(moved(lead, years != year, year, without[year]), q, method="weibull")) for year in years]
     for lead in range(n_leads)
 ]
-json.dump({"slope": float(slope), "threshold": thresholds, "loyo": loyo}, sys.stdout)
+
+
+def stderr_of(keep):
+    kept = values[keep]
+    anomalies = kept - np.nanmean(kept, axis=(0, 1))[None, None, :]
+    return float(stats.linregress(years[keep], np.nanmean(anomalies, axis=(1, 2))).stderr)
+
+
+json.dump(
+    {
+        "slope": float(slope),
+        "threshold": thresholds,
+        "loyo": loyo,
+        "stderr": stderr_of(everything),
+        "t90": float(stats.t.ppf(0.95, n_entries - 2)),
+        "t90loyo": float(stats.t.ppf(0.95, n_entries - 3)),
+        "loyoStderr": [stderr_of(years != year) for year in years],
+        "loyoSlope": [float(without[year]) for year in years],
+    },
+    sys.stdout,
+)

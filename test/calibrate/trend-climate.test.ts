@@ -30,7 +30,18 @@ function warming(seed: number): LeadClimate {
   return { ...c, values, recentreOn: ISSUE_YEAR };
 }
 
-function numpyReference(c: LeadClimate, q: number): { slope: number; threshold: number[]; loyo: number[][] } {
+interface Reference {
+  slope: number;
+  threshold: number[];
+  loyo: number[][];
+  stderr: number;
+  t90: number;
+  t90loyo: number;
+  loyoStderr: number[];
+  loyoSlope: number[];
+}
+
+function numpyReference(c: LeadClimate, q: number): Reference {
   const values = c.years.map((_, y) =>
     Array.from({ length: c.members }, (_, m) =>
       Array.from(c.values.subarray((y * c.members + m) * LEADS, (y * c.members + m + 1) * LEADS), (v) => (Number.isNaN(v) ? null : v)),
@@ -44,7 +55,7 @@ function numpyReference(c: LeadClimate, q: number): { slope: number; threshold: 
   );
 }
 
-describe('trend-aware climate vs numpy reference_trend.py (lstsq, percentile)', () => {
+describe('trend-aware climate vs numpy/scipy reference_trend.py (lstsq, percentile, linregress, t.ppf)', () => {
   const c = warming(20261203);
   const ref = numpyReference(c, 90);
   it('the common least-squares slope (one level per lead) equals numpy.linalg.lstsq within 1e-9', () => {
@@ -52,6 +63,22 @@ describe('trend-aware climate vs numpy reference_trend.py (lstsq, percentile)', 
     // The invented trend is 0.04 °C a year; its standard error with N(0, 1) noise over 20 years × 10 members × 3
     // leads is 1/√(30 · 665) = 0.0071 (least-squares slope variance σ²/Σ(x − x̄)²), so ±0.025 is 3.5 standard errors.
     expect(Math.abs(climateSlope(c).slope - 0.04)).toBeLessThan(0.025);
+  });
+  it("the slope's standard error (year means, n − 2) equals scipy.stats.linregress and t(0.95, 18) scipy.stats.t.ppf, 1e-9", () => {
+    const fit = climateSlope(c);
+    expect(fit.standardError).toBeCloseTo(ref.stderr, 9);
+    expect(fit.criticalT).toBeCloseTo(ref.t90, 9);
+    expect(fit.applied).toBe(true); // 0.4 °C per decade against N(0, 1) noise: about 20 standard errors
+    expect(fit.slope).toBe(fit.fitted);
+  });
+  it('leave-one-year-out runs the same test on each 19-year fit: slope, standard error, t(0.95, 17) as numpy/scipy', () => {
+    c.years.forEach((year, y) => {
+      const fit = climateSlope(c, year);
+      expect(fit.fitted).toBeCloseTo(ref.loyoSlope[y], 9);
+      expect(fit.standardError).toBeCloseTo(ref.loyoStderr[y], 9);
+      expect(fit.criticalT).toBeCloseTo(ref.t90loyo, 9);
+      expect(fit.years).toBe(19);
+    });
   });
   it('the 90th percentile of the climate re-centred on the issue year equals numpy (type 7) within 1e-9', () => {
     c.leads.forEach((lead, l) => {
@@ -105,8 +132,14 @@ describe('trend-aware climate in use', () => {
       onYear: 2026,
       firstYear: 2006,
       lastYear: 2025,
-      hindcastPerDecade: expect.closeTo(0.5, 9),
-      observedPerDecade: null,
+      // No noise: the year means lie on the line, standard error 0; t(0.95, 18) = 1.7341 (t tables, e.g. scipy).
+      hindcast: {
+        perDecade: expect.closeTo(0.5, 9),
+        standardErrorPerDecade: expect.closeTo(0, 9),
+        criticalT: expect.closeTo(1.7341, 4),
+        applied: true,
+      },
+      observed: null,
       units: 'degC',
     });
     const [raw] = leadProbabilities(request(exact));
@@ -119,5 +152,52 @@ describe('trend-aware climate in use', () => {
     expect(defaultTrendClimate('heat-index')).toBe(true);
     expect(defaultTrendClimate('excess-heat-factor')).toBe(true);
     expect(defaultTrendClimate('malaria-suitability')).toBe(false);
+  });
+});
+
+describe('a trend is applied only when the data tell it from zero (two-sided 90 %, common practice, no source)', () => {
+  /** 20 years × 10 members × 3 leads: `perDecade` trend, a weather shared by the year's members and leads (sd
+   * `yearSd`) and the member's own noise (sd `valueSd`). */
+  function invented(seed: number, perDecade: number, yearSd: number, valueSd: number): LeadClimate {
+    const gauss = normal(mulberry32(seed));
+    const weather = YEARS_2006_2025.map(() => yearSd * gauss());
+    const c = climate(
+      YEARS_2006_2025,
+      MEMBERS,
+      leadsOf('weeks', LEADS),
+      (y, _m, l) => 30 + (perDecade / 10) * y + weather[y] + 0.2 * l + valueSd * gauss(),
+    );
+    return { ...c, recentreOn: ISSUE_YEAR };
+  }
+  const raw = (c: LeadClimate): LeadClimate => ({ ...c, recentreOn: undefined });
+
+  it('+0.3 K per decade with small noise: applied, the threshold re-centred on 2026 (fit checked against scipy)', () => {
+    const c = invented(7, 0.3, 0.2, 0.3);
+    const fit = climateSlope(c);
+    const ref = numpyReference(c, 90);
+    expect(fit.standardError).toBeCloseTo(ref.stderr, 9);
+    expect(fit.applied).toBe(true);
+    expect(Math.abs(fit.fitted) / fit.standardError).toBeGreaterThan(ref.t90);
+    expect(climatePercentileThreshold(c, 0, 90, 'hindcasts', c.leads[0]).value).toBeCloseTo(ref.threshold[0], 9);
+  });
+
+  it('pure noise: not applied, slope 0, the threshold that of the climate as it is; the note data say so', () => {
+    // This seed fits −0.14 K per decade, 1.06 standard errors (t(0.95, 18) = 1.73): like the sample's noise slopes.
+    const c = invented(13, 0, 0.5, 1);
+    const fit = climateSlope(c);
+    expect(fit.standardError).toBeCloseTo(numpyReference(c, 90).stderr, 9);
+    expect(fit.applied).toBe(false);
+    expect(fit.slope).toBe(0);
+    expect(fit.fitted).not.toBe(0); // the noise does fit a slope; it is not used
+    expect(climatePercentileThreshold(c, 0, 90, 'hindcasts', c.leads[0]).value).toBe(
+      climatePercentileThreshold(raw(c), 0, 90, 'hindcasts', c.leads[0]).value,
+    );
+    expect(leaveOneYearOutThresholds(c, 1, 90)).toEqual(leaveOneYearOutThresholds(raw(c), 1, 90));
+  });
+
+  it('over 400 pure-noise climates the trend is applied in about 10 % (binomial 400 × 0.1: 40 ± 6, 3 sd)', () => {
+    const applied = Array.from({ length: 400 }, (_, i) => climateSlope(invented(1000 + i, 0, 0.5, 1)).applied).filter(Boolean).length;
+    expect(applied).toBeGreaterThanOrEqual(22);
+    expect(applied).toBeLessThanOrEqual(58);
   });
 });

@@ -1,0 +1,34 @@
+/**
+ * The technical note's trend sentence (render/trend-words.ts), en and fr: a trend told from zero is named with its
+ * direction and rate; one that is not says "no clear trend in the past N years" with the fitted rates, never
+ * "allowing for the cooling trend". Wording is this project's own, no source.
+ */
+import { describe, expect, it } from 'vitest';
+import { createTemplateEnv } from '../../src/render/template-env.ts';
+import { trendLine } from '../../src/render/trend-words.ts';
+import type { LeadProbability, TrendFit } from '../../src/types.ts';
+import { sampleConfig } from './fixtures/sample-config.ts';
+
+const env = createTemplateEnv(sampleConfig().templates);
+const fit = (perDecade: number, applied: boolean): TrendFit => ({ perDecade, standardErrorPerDecade: 0.2, criticalT: 1.734, applied });
+const lead = (hindcast: TrendFit, observed: TrendFit | null) =>
+  ({ climateTrend: { onYear: 2026, firstYear: 2006, lastYear: 2025, hindcast, observed, units: 'degC' } }) as unknown as LeadProbability;
+
+describe('trendLine', () => {
+  it('noise slopes not told from zero: "no clear trend" with the fitted rates, no direction (en, fr)', () => {
+    const rows = [lead(fit(-0.31, false), fit(-1.2, false))];
+    const en = trendLine(env.t('en'), 'en', rows)!;
+    expect(en).toMatch(/^No clear trend in the past 20 years \(2006–2025\): .*as they are/);
+    expect(en).toMatch(/[−-]0\.31\u00a0°C per decade in past forecasts, [−-]1\.20\u00a0°C observed/);
+    expect(en).not.toMatch(/cooling|warming|allowing/);
+    expect(trendLine(env.t('fr'), 'fr', rows)).toMatch(/^Pas de tendance nette sur les 20 dernières années/);
+  });
+
+  it('a trend told from zero names its direction and rate; an unclear observed trend is said to be used as it is', () => {
+    const en = trendLine(env.t('en'), 'en', [lead(fit(0.3, true), fit(0.1, false))])!;
+    expect(en).toMatch(/allowing for the warming trend of the past 20 years/);
+    expect(en).toMatch(/\+0\.30.* per decade in past forecasts\); observations show no clear trend and are used as they are\.$/);
+    const fr = trendLine(env.t('fr'), 'fr', [lead(fit(0.3, true), fit(0.1, false))])!;
+    expect(fr).toMatch(/tendance au réchauffement.*les observations ne montrent pas de tendance nette/);
+  });
+});
