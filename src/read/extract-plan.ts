@@ -14,7 +14,9 @@
 import { InputError } from '../core/errors.ts';
 import type { Quantity } from '../types.ts';
 import { timeCellIntervalMs, timeCellMethod } from './cell-methods.ts';
+import { valuesAccumulate } from './accumulation-probe.ts';
 import type { FileCoordinates, VariableLayout } from './coordinates.ts';
+import type { Dataset } from './dataset.ts';
 import { axisSpacing, stepIntervals, type DailyMethod, type StepIntervals } from './daily.ts';
 import { isoInstant } from './extract-reduce.ts';
 import type { UnitPlan } from './units.ts';
@@ -139,4 +141,21 @@ export function checkReference(file: string, window: { earliest: number; latest:
     `the file holds the forecast of ${isoInstant(window.latest)} but ${isoInstant(wanted)} was requested`,
     'the file name and its contents disagree: check the source path pattern or replace the file',
   );
+}
+
+/**
+ * The time plan of `layout`'s variable (accumulation judged from its attributes, else from its values) and the
+ * reference instant the file holds, checked against `wanted`; `referenceMs` is null when the file has none.
+ */
+export async function planVariableTime(
+  ds: Dataset,
+  coords: FileCoordinates,
+  layout: VariableLayout,
+  unitPlan: UnitPlan | null,
+  wanted: number | null,
+): Promise<{ readonly time: TimePlan; readonly byValues: boolean; readonly referenceMs: number | null }> {
+  const byValues = await valuesAccumulate(ds, coords, layout, unitPlan, wanted);
+  const time = planTime(coords, layout, unitPlan, wanted, byValues);
+  const window = referenceWindowMs(coords, time);
+  return { time, byValues, referenceMs: window && checkReference(ds.path, window, wanted) };
 }

@@ -9,8 +9,7 @@ import { regionClock } from '../core/local-clock.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { DailyMethod } from './daily.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
-import { valuesAccumulate } from './accumulation-probe.ts';
-import { checkReference, planTime, referenceWindowMs, requestedMs } from './extract-plan.ts';
+import { planVariableTime, requestedMs } from './extract-plan.ts';
 import { reduceVariable } from './extract-reduce.ts';
 import { withDataset } from './open-dataset.ts';
 import { oneStart } from './start-slice.ts';
@@ -42,12 +41,9 @@ export async function rawRegionMeans(
   const { selected, problems } = await regionSelection(coords.grid, regionList, { population, cacheDir, file: ds.path });
   const layout = layoutVariable(ds, coords, variable);
   const unitPlan = canonicalUnitPlan(layout.info, ds.path);
-  const wanted = requestedMs(ds.path, referenceTime);
-  const timePlan = planTime(coords, layout, unitPlan, wanted, await valuesAccumulate(ds, coords, layout, unitPlan, wanted));
-  const window = wanted === null ? null : referenceWindowMs(coords, timePlan);
-  if (window) checkReference(ds.path, window, wanted);
+  const { time } = await planVariableTime(ds, coords, layout, unitPlan, requestedMs(ds.path, referenceTime));
   const months = coords.time?.months ?? null;
-  if (daily && !timePlan.intervals) {
+  if (daily && !time.intervals) {
     throw new InputError(
       'time-missing',
       ds.path,
@@ -66,9 +62,8 @@ export async function rawRegionMeans(
     layout,
     band,
     regions,
-    intervals: timePlan.intervals,
+    time,
     unitPlan,
-    accumulated: timePlan.accumulated,
     clocks: selected.map((s) => regionClock(s.region)),
     daily: months ? null : daily,
   });

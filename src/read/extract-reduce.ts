@@ -31,11 +31,10 @@ export interface ReduceRequest {
   readonly regions: readonly BandRegion[];
   /** Local clock of each region, same order. */
   readonly clocks: readonly LocalClock[];
-  /** Step intervals (daily.ts `stepIntervals`), or null when the variable has no time axis. */
-  readonly intervals: StepIntervals | null;
+  /** Step intervals (daily.ts `stepIntervals`, null without a time axis) and whether values accumulate: extract-plan.ts `TimePlan`. */
+  readonly time: { readonly intervals: StepIntervals | null; readonly accumulated: boolean };
   /** Conversion to canonical units, or null to keep the file's units. */
   readonly unitPlan: UnitPlan | null;
-  readonly accumulated: boolean;
   /** Daily reduction, or null to keep the file's time steps. */
   readonly daily: DailyMethod | null;
   /** Band values per time chunk (default MAX_CHUNK_VALUES). */
@@ -150,7 +149,8 @@ function accumulationDecrease(file: string, variable: string, member: number, st
 
 /** Area means of every region of `req`, all members, in the order of `req.regions`. */
 export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: ReduceRequest): Promise<RegionMeans[]> {
-  const { layout, band, regions, intervals } = req;
+  const { layout, band, regions } = req;
+  const { intervals, accumulated } = req.time;
   const steps = layout.timeAxis >= 0 ? layout.info.shape[layout.timeAxis] : 1;
   const members = layout.memberAxis >= 0 ? layout.info.shape[layout.memberAxis] : 1;
   const bandCells = band.used.length;
@@ -164,7 +164,7 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
     return { labels, data: new Float64Array(members * labels.length) };
   });
   const starts = chunkStarts(steps, band.nLat * band.gridLon, [...plans.values()], req.maxChunkValues);
-  const carry = new Float64Array(req.accumulated ? bandCells : 0);
+  const carry = new Float64Array(accumulated ? bandCells : 0);
   let dayBuffer = new Float64Array(0);
   const reads = readsAhead(bandCellReader(ds, layout, band), members, starts, ds.readAhead ?? 1);
   for (let m = 0; m < members; m++) {
@@ -173,7 +173,7 @@ export async function reduceVariable(ds: Dataset, coords: FileCoordinates, req: 
       const t0 = starts[c];
       const values = await reads.next(m, c);
       if (req.unitPlan) convertInPlace(values, req.unitPlan);
-      if (req.accumulated) {
+      if (accumulated) {
         deaccumulateInPlace(values, bandCells, carry);
         const drop = clampAccumulationNoise(values, bandCells);
         if (drop) throw accumulationDecrease(ds.path, layout.info.name, m, t0 + drop.row, stamps[t0 + drop.row], drop.by);

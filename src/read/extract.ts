@@ -11,8 +11,8 @@ import type { Quantity, RegionSeries, Tier } from '../types.ts';
 import { findCoordinates, layoutVariable } from './coordinates.ts';
 import type { Dataset } from './dataset.ts';
 import type { DailyMethod } from './daily.ts';
-import { accumulationNote, valuesAccumulate } from './accumulation-probe.ts';
-import { checkReference, dailyMethodFor, planTime, referenceWindowMs, requestedMs } from './extract-plan.ts';
+import { accumulationNote } from './accumulation-probe.ts';
+import { dailyMethodFor, planVariableTime, requestedMs } from './extract-plan.ts';
 import { isoInstant, reduceVariable } from './extract-reduce.ts';
 import { monthlyNote, requireMonthTier, spreadMeansToDays } from './monthly.ts';
 import { withDataset } from './open-dataset.ts';
@@ -85,11 +85,9 @@ export async function extractFromDataset(file: Dataset, request: ExtractRequest)
       if (request.startIndex !== undefined) requireStartsDimension(ds, layout.info);
       const units = layout.info.attributes.units;
       const unitPlan = planUnits(quantity, typeof units === 'string' ? units : undefined, ds.path, variable);
-      const byValues = await valuesAccumulate(ds, coords, layout, unitPlan, wanted);
+      const { time, byValues, referenceMs: refMs } = await planVariableTime(ds, coords, layout, unitPlan, wanted);
       if (byValues) notes.push(`${ds.path}: ${accumulationNote(variable)}`);
-      const timePlan = planTime(coords, layout, unitPlan, wanted, byValues);
-      const window = referenceWindowMs(coords, timePlan);
-      if (window === null) {
+      if (refMs === null) {
         throw new InputError(
           'time-missing',
           ds.path,
@@ -97,16 +95,14 @@ export async function extractFromDataset(file: Dataset, request: ExtractRequest)
           'map the quantity to a variable with a CF time coordinate',
         );
       }
-      const refMs = checkReference(ds.path, window, wanted);
       const months = coords.time?.months ?? null;
       if (months) requireMonthTier(ds.path, variable, request.tier);
       const reduced = await reduceVariable(ds, coords, {
         layout,
         band,
         regions,
-        intervals: timePlan.intervals,
+        time,
         unitPlan,
-        accumulated: timePlan.accumulated,
         clocks: [...selected, ...cellRegions].map((s) => regionClock(s.region)),
         daily: months ? null : dailyMethodFor(quantity, unitPlan),
       });

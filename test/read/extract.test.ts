@@ -189,13 +189,13 @@ async function accumulatedRequest(members: number, stepOuter = false) {
   const coords = await findCoordinates(ds);
   const layout = layoutVariable(ds, coords, 'tp');
   const unitPlan = planUnits('precip', 'm', ds.path, 'tp');
-  const { intervals, accumulated } = planTime(coords, layout, unitPlan);
+  const time = planTime(coords, layout, unitPlan);
   const { band, regions } = planBand([selectRegionCells(coords.grid, MARROW, ds.path)], 11, 360);
   return {
     ds,
     coords,
     band,
-    req: { layout, band, regions, intervals, unitPlan, accumulated, clocks: [regionClock({ utcOffsetHours: 1 })], daily: 'sum' as const },
+    req: { layout, band, regions, time, unitPlan, clocks: [regionClock({ utcOffsetHours: 1 })], daily: 'sum' as const },
   };
 }
 
