@@ -15,7 +15,8 @@
  * score (Ferro 2014) removes the ensemble-size penalty so hindcast and forecast ensembles compare.
  */
 import type { ThresholdSpec } from '../config/types.ts';
-import type { LeadWindow, SkillGateResult, SkillSummary } from '../types.ts';
+import type { LeadWindow } from '../types.ts';
+import type { SkillGateResult, SkillSummary } from '../probability-types.ts';
 import { distinctYears, leadSample, yearMembers, type LeadClimate } from './climate.ts';
 import { leadLabel } from './lead-tiers.ts';
 import { leaveOneYearOutThresholds, quantileMappedThreshold } from './thresholds.ts';

@@ -8,7 +8,7 @@ import { observedCases } from '../calibrate/skill.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
 import type { BacktestCase } from '../decide/backtest.ts';
 import { eventKey, pairOf, type EventKey } from '../core/keys.ts';
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import type { Analysis } from './analyse.ts';
 
 /** One hindcast year's cases: its probabilities, what was observed, and its first lead's start. */
