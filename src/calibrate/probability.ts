@@ -16,7 +16,8 @@
  *                                  usually do (e.g. 11 against 51): thresholds and base rates pool all years ×
  *                                  members, so they stay calibrated, but skill was measured with the hindcast size.
  */
-import type { CalibrationConfig, ThresholdSpec } from '../config/types.ts';
+import type { ThresholdSpec } from '../config/types.ts';
+import type { CalibrationConfig } from '../config/service-config.ts';
 import type { LeadProbability, LeadWindow, SkillSummary, Threshold } from '../types.ts';
 import { distinctYears, leadSample, type LeadClimate } from './climate.ts';
 import { leadLabel, leadMonth, type LeadValues } from './lead-tiers.ts';

@@ -9,7 +9,7 @@
  * With no skill the lower bound exceeds 0 in about 5 % of windows (the one-sided level of a 90 % interval);
  * test/calibrate/skill-gate.test.ts simulates this.
  */
-import type { DecisionConfig } from '../config/types.ts';
+import type { DecisionConfig } from '../config/decision-config.ts';
 import type { LeadWindow, SkillGateResult, Tier } from '../types.ts';
 import { concatCases, yearBlockBootstrap, type VerificationCases } from './bootstrap.ts';
 import { fairBrierSkillScore } from './fair-brier.ts';

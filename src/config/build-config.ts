@@ -12,16 +12,15 @@ import { defaultTrendClimate } from '../indicators/registry.ts';
 import {
   DEFAULT_LOOKBACK_DAYS,
   type Config,
-  type DecisionConfig,
   type IndicatorConfig,
   type IndicatorKind,
   type RegionConfig,
   type RegionShape,
   type RegionValueConfig,
-  type SmtpConfig,
   type ThresholdSpec,
-  type TriggerRule,
 } from './types.ts';
+import type { DecisionConfig, TriggerRule } from './decision-config.ts';
+import type { SmtpConfig } from './service-config.ts';
 
 /** Runs a missing tier's last stage is held by default (escalation.hold-missing-runs). */
 export const DEFAULT_HOLD_MISSING_RUNS = 2;

@@ -3,7 +3,9 @@
  * kebab-case keys, relative paths, texts per locale. `build-config.ts` turns it into `Config`.
  */
 import type { Quantity, Tier } from '../types.ts';
-import type { IndicatorKind, SmtpConfig, StageConfig } from './types.ts';
+import type { IndicatorKind } from './types.ts';
+import type { StageConfig } from './decision-config.ts';
+import type { SmtpConfig } from './service-config.ts';
 
 type Texts = Record<string, string>;
 export interface RawThreshold {

@@ -1,9 +1,12 @@
 /**
  * The operator-owned configuration, as loaded and validated from YAML (see config/forelight.yaml).
- * Paths are resolved against the directory of the main YAML file by the loader.
+ * Paths are resolved against the directory of the main YAML file by the loader. How stages are set is in
+ * decision-config.ts, calibration, schedule and delivery in service-config.ts.
  */
 import type { IndicatorKind, IndicatorParams } from '../indicators/registry.ts';
 import type { Quantity, Tier } from '../types.ts';
+import type { DecisionConfig, StageConfig, TriggerRule } from './decision-config.ts';
+import type { CalibrationConfig, DeliveryConfig, ScheduleConfig } from './service-config.ts';
 
 export interface SourceConfig {
   readonly id: string;
@@ -153,119 +156,6 @@ interface IndicatorCommon {
 export type IndicatorConfig = {
   [K in IndicatorKind]: IndicatorCommon & { readonly kind: K; readonly params: IndicatorParams<K> };
 }[IndicatorKind];
-
-export interface StageConfig {
-  readonly id: string;
-  readonly label: Readonly<Record<string, string>>;
-  readonly colour: string;
-  readonly glyph: string;
-  /** What the stage means, per locale. */
-  readonly meaning: Readonly<Record<string, string>>;
-  /** Pre-agreed actions: audience (team id or "default") → locale → text. */
-  readonly actions: Readonly<Record<string, Readonly<Record<string, string>>>>;
-  /** CAP 1.2 severity and urgency for this stage. */
-  readonly cap: {
-    readonly severity: 'Extreme' | 'Severe' | 'Moderate' | 'Minor' | 'Unknown';
-    readonly urgency: 'Immediate' | 'Expected' | 'Future' | 'Unknown';
-  };
-}
-
-export interface TriggerRule {
-  readonly id: string;
-  readonly indicator: string;
-  readonly tier: Tier;
-  /** Lead indices the rule looks at (e.g. weeks [2, 3]); empty = all. */
-  readonly leads: readonly number[];
-  /** Stage reached when the rule fires. */
-  readonly stage: string;
-  /** Fire when P(exceed) >= this; or derive it from costLoss on the hindcasts. */
-  readonly probability?: number;
-  readonly costLoss?: number;
-}
-
-/**
- * A combination matrix: the region's stage is `table[row][column]`, where row is the rank of the highest stage
- * among the `rows` indicators and column the rank of the highest among the `columns` indicators (ranks in the
- * ladder, lowest = 0). Indicators on neither axis still count: the region gets at least their highest stage.
- */
-export interface CombineMatrix {
-  readonly rows: readonly string[];
-  readonly columns: readonly string[];
-  readonly table: readonly (readonly string[])[];
-}
-
-export interface DecisionConfig {
-  /** Highest stage each tier may raise (e.g. months may only reach the second stage). */
-  readonly tierCaps: Readonly<Partial<Record<Tier, string>>>;
-  /** Runs in a row a higher stage must be seen before escalating. */
-  readonly escalateAfterRuns: number;
-  /** Runs in a row below before de-escalating. */
-  readonly relaxAfterRuns: number;
-  /**
-   * Runs in a row a region × indicator × tier without usable data keeps its last issued stage (its contribution is
-   * held, never relaxed, while data is missing); after that it shows "no forecast available".
-   */
-  readonly holdMissingRuns: number;
-  /** Top stage escalates at once, skipping persistence. */
-  readonly topStageImmediate: boolean;
-  /** How indicators and tiers combine for a region: the highest stage wins, or a matrix (see CombineMatrix). */
-  readonly combine: 'highest' | { readonly matrix: CombineMatrix };
-  /** Skill gate (calibrate/skill-gate.ts): a lead may raise a stage only when its pooled window shows skill. */
-  readonly skillGate: {
-    /** The lower end of the 90 % interval of the fair Brier skill score must exceed this (default 0). */
-    readonly floor: number;
-    /** Fewest observed events in the pooling window for skill to be judged at all. */
-    readonly minEvents: number;
-    /** Leads pooled per window, per tier (consecutive blocks: 7 → days 1–7, 8–14, …). */
-    readonly poolLeads: Readonly<Record<Tier, number>>;
-    /** Year-block bootstrap resamples (at least 1000) and the seed that makes intervals reproducible. */
-    readonly resamples: number;
-    readonly seed: number;
-    readonly action: 'withhold' | 'say-no-skill';
-  };
-}
-
-export interface SmtpConfig {
-  readonly host: string;
-  readonly port: number;
-  /** "tls" = implicit TLS (465), "starttls" = upgrade, "none" = plain (loopback/testing). */
-  readonly security: 'tls' | 'starttls' | 'none';
-  readonly user?: string;
-  /** Name of the environment variable holding the password; never the password itself. */
-  readonly passwordEnv?: string;
-  readonly timeoutSeconds: number;
-}
-
-export interface DeliveryConfig {
-  readonly from: string;
-  readonly smtp: SmtpConfig | null;
-  readonly outbox: string;
-  readonly archive: string;
-  readonly operators: readonly string[];
-  readonly retries: number;
-  readonly retryBaseSeconds: number;
-  /** Chromium used to print each bulletin to PDF (`pdf-chromium`); null or absent: bulletins go without PDF. */
-  readonly pdfChromium?: string | null;
-}
-
-export interface ScheduleConfig {
-  /** Classic cron expression (5 or 6 fields; day of month OR day of week), read by croner (src/core/next-runs.ts). */
-  readonly cron: string;
-  /** IANA time zone. */
-  readonly timezone: string;
-  /** Minutes to wait for the new forecast files after the scheduled time. */
-  readonly waitForDataMinutes: number;
-  readonly pollSeconds: number;
-}
-
-export interface CalibrationConfig {
-  /** Days either side of the start day-of-year whose hindcast starts count (when several starts exist). */
-  readonly windowDays: number;
-  readonly minHindcastYears: number;
-  /** Minimum members for a probability to be stated to 10 %. */
-  readonly minMembers: number;
-  readonly cacheDir: string;
-}
 
 export interface Config {
   /** Absolute path of the main YAML file. */

@@ -4,7 +4,7 @@
  * looks at it, capped for this lead range (tier cap), or waiting for confirmation in the next run (persistence).
  * Built from the typed results of the rules and of persistence, never from their texts.
  */
-import type { StageConfig } from '../config/types.ts';
+import type { StageConfig } from '../config/decision-config.ts';
 import type { LeadProbability, LeadUse, LeadUseKind, PersistenceWait } from '../types.ts';
 import { stageRank } from './types.ts';
 

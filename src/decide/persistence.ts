@@ -5,7 +5,7 @@
  * consecutive runs below; it relaxes to the HIGHEST raw stage seen in those runs. With
  * `topStageImmediate`, a raw top stage is issued at once. No history = the lowest stage, counters at 0.
  */
-import type { DecisionConfig, StageConfig } from '../config/types.ts';
+import type { DecisionConfig, StageConfig } from '../config/decision-config.ts';
 import type { PersistenceWait } from '../types.ts';
 import { stageRank, type StageTrack } from './types.ts';
 

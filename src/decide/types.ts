@@ -2,7 +2,8 @@
  * Types of the decide stage that are not boundary types of src/types.ts: the persistence history (stored
  * by the ledger as JSON), the combined stage per region, and stage changes for dry-run output.
  */
-import type { Config, StageConfig } from '../config/types.ts';
+import type { Config } from '../config/types.ts';
+import type { StageConfig } from '../config/decision-config.ts';
 import type { Tier } from '../types.ts';
 
 /**

@@ -15,7 +15,7 @@
 import { hostname } from 'node:os';
 import { randomUUID } from 'node:crypto';
 import type Mail from 'nodemailer/lib/mailer/index.js';
-import type { DeliveryConfig } from '../config/types.ts';
+import type { DeliveryConfig } from '../config/service-config.ts';
 import { describeError } from '../core/errors.ts';
 import { readBulletin, type StoredBulletin } from '../ledger/bulletins.ts';
 import {

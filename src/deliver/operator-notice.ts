@@ -2,7 +2,7 @@
  * Short notices to the operators ("no new forecast data", "deliveries failed"). One message to all operators;
  * when SMTP is not configured or fails, the notice goes to the outbox folder and the log instead.
  */
-import type { DeliveryConfig } from '../config/types.ts';
+import type { DeliveryConfig } from '../config/service-config.ts';
 import { formatDiagnostic, type Diagnostic } from '../core/diagnostics.ts';
 import { describeError } from '../core/errors.ts';
 import { silentLogger, type Logger } from '../core/log.ts';

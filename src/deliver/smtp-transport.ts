@@ -4,7 +4,7 @@
  */
 import nodemailer, { type Transporter } from 'nodemailer';
 import type SMTPTransport from 'nodemailer/lib/smtp-transport/index.js';
-import type { SmtpConfig } from '../config/types.ts';
+import type { SmtpConfig } from '../config/service-config.ts';
 import { DeliveryError } from '../core/errors.ts';
 
 export type SmtpTransporter = Transporter<SMTPTransport.SentMessageInfo>;

@@ -3,7 +3,8 @@
  * previous issue — no number is recomputed here.
  */
 import type { Diagnostic } from '../core/diagnostics.ts';
-import type { Config, StageConfig } from '../config/types.ts';
+import type { Config } from '../config/types.ts';
+import type { StageConfig } from '../config/decision-config.ts';
 import type { RegionStageLike } from '../decide/diff.ts';
 import { combineRegionStages } from '../decide/decide-stages.ts';
 import { NO_FORECAST_ID, stageRank, type DecideConfig, type RegionStage } from '../decide/types.ts';

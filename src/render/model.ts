@@ -20,7 +20,8 @@
  */
 import type { Diagnostic } from '../core/diagnostics.ts';
 import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
-import type { Config, IndicatorConfig, RegionConfig, StageConfig } from '../config/types.ts';
+import type { Config, IndicatorConfig, RegionConfig } from '../config/types.ts';
+import type { StageConfig } from '../config/decision-config.ts';
 
 /**
  * The parts of the configuration the render stage reads: country names, teams, indicators (names and

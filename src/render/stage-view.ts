@@ -2,7 +2,7 @@
  * The stage ladder as templates print it for one locale and audience: label, glyph, colours (with readable ink),
  * meaning and pre-agreed actions, the "no forecast available" state, and lookups by stage id.
  */
-import type { StageConfig } from '../config/types.ts';
+import type { StageConfig } from '../config/decision-config.ts';
 import { ForelightError } from '../core/errors.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import type { RenderConfig } from './model.ts';

@@ -10,7 +10,7 @@ import { skillReports } from '../../src/calibrate/skill.ts';
 import { poolingWindow } from '../../src/calibrate/skill-gate.ts';
 import { SKILL_GATE_DEFAULTS } from '../../src/config/build-config.ts';
 import type { Tier } from '../../src/types.ts';
-import type { DecisionConfig } from '../../src/config/types.ts';
+import type { DecisionConfig } from '../../src/config/decision-config.ts';
 import { climate, leadsOf } from './climate-fixture.ts';
 import { mulberry32, normal } from '../support/rng.ts';
 

@@ -42,7 +42,7 @@ describe('shipped configuration (config/forelight.yaml)', () => {
     expect(config.ledger).toBe(join(config.file, '../../forelight-ledger.sqlite'));
     expect(config.sources[1].hindcast).toBe(join(config.file, '../../sample-inputs/data/subseasonal/hindcast/subs_{year}{mmdd}.nc'));
     expect(config.indicators[1].regionThresholds['marrow-highlands']).toEqual({ kind: 'absolute', value: 36, units: 'degC' });
-    expect(config.indicators[3].params).toEqual({ species: 'falciparum', lagMonths: 1 });
+    expect(config.indicators[3].params).toEqual({ species: 'falciparum', lagMonths: 1, temperatureModel: 'mordecai-2013' });
     expect(config.rules.find((r) => r.id === 'heat-index-days-mindful')).toMatchObject({ costLoss: 0.2 });
     expect(config.probabilityWords.at(-1)?.below).toBe(Number.POSITIVE_INFINITY);
   });

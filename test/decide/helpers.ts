@@ -1,5 +1,6 @@
 /** A small hand-made Config and LeadProbability factory for decide tests (no files involved). */
-import type { Config, DecisionConfig, TriggerRule } from '../../src/config/types.ts';
+import type { Config } from '../../src/config/types.ts';
+import type { DecisionConfig, TriggerRule } from '../../src/config/decision-config.ts';
 import type { LeadProbability, SkillSummary, Tier } from '../../src/types.ts';
 import { skillSummary } from '../support/skill-summary.ts';
 

@@ -7,7 +7,7 @@ import { createServer, type Server, type Socket } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { SMTPServer, type SMTPServerSession } from 'smtp-server';
-import type { DeliveryConfig } from '../../src/config/types.ts';
+import type { DeliveryConfig } from '../../src/config/service-config.ts';
 import { deliverPending, type DeliverOptions, type DeliverySummary } from '../../src/deliver/deliver-pending.ts';
 import { recordBulletins, hasBulletins } from '../../src/ledger/bulletins.ts';
 import { deliveryCounts } from '../../src/ledger/deliveries.ts';
