@@ -19,6 +19,7 @@ import { stageTitle } from '../../src/decide/types.ts';
 import { runOnce } from '../../src/pipeline/run-once.ts';
 import { generateSample } from '../../src/sample/generate.ts';
 import { startSmtp, type SmtpFixture } from '../deliver/fixtures.ts';
+import { onSample, outputsIn } from '../support/sample-run-config.ts';
 
 let sampleDir: string;
 let base: Config;
@@ -34,21 +35,8 @@ afterAll(() => smtp?.close());
 
 /** The shipped config on the generated sample, its outputs in a fresh folder, mail to the loopback server. */
 function isolated(): Config {
-  const dir = mkdtempSync(join(tmpdir(), 'forelight-dry-'));
-  const move = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
-  return {
-    ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
-    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
-    ledger: join(dir, 'ledger.sqlite'),
-    delivery: {
-      ...base.delivery,
-      smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 5 },
-      outbox: join(dir, 'outbox'),
-      archive: join(dir, 'archive'),
-    },
-    calibration: { ...base.calibration, cacheDir: join(dir, 'cache') },
-  };
+  const config = outputsIn(onSample(base, sampleDir), mkdtempSync(join(tmpdir(), 'forelight-dry-')));
+  return { ...config, delivery: { ...config.delivery, smtp: { host: '127.0.0.1', port: smtp.port, security: 'none', timeoutSeconds: 5 } } };
 }
 
 const run = (config: Config, issueDate: string, dryRun: boolean) =>

@@ -20,22 +20,10 @@ import { runContext } from '../../src/core/run-context.ts';
 import { runOnce } from '../../src/pipeline/run-once.ts';
 import { EXIT } from '../../src/core/exit-codes.ts';
 import { generateSample } from '../../src/sample/generate.ts';
+import { onSample, outputsIn } from '../support/sample-run-config.ts';
 
 const SCHEMA = fileURLToPath(new URL('../reference/CAP-v1.2.xsd', import.meta.url));
 const ISSUES = ['2026-11-23', '2026-11-26', '2026-11-30'];
-
-/** The shipped config with every output (and, optionally, the sample inputs) moved to a fresh folder. */
-function isolatedConfig(base: Config, dir: string, sampleDir?: string): Config {
-  const move = (p: string) => (sampleDir ? p.replace(/.*sample-inputs\/data/, sampleDir) : p);
-  return {
-    ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
-    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
-    ledger: join(dir, 'ledger.sqlite'),
-    delivery: { ...base.delivery, outbox: join(dir, 'outbox'), archive: join(dir, 'archive') },
-    calibration: { ...base.calibration, cacheDir: join(dir, 'cache') },
-  };
-}
 
 function filesUnder(dir: string, ext: string): string[] {
   if (!existsSync(dir)) return [];
@@ -58,7 +46,7 @@ describe('forelight run on the Veloria sample (three issues in order)', () => {
   const outcomes: Awaited<ReturnType<typeof runOnce>>[] = [];
 
   beforeAll(async () => {
-    config = isolatedConfig(base, mkdtempSync(join(tmpdir(), 'forelight-run-')), sampleDir);
+    config = outputsIn(onSample(base, sampleDir), mkdtempSync(join(tmpdir(), 'forelight-run-')));
     for (const issueDate of ISSUES) {
       outcomes.push(
         await runOnce({
@@ -148,7 +136,7 @@ describe('one bad source never stops the others', () => {
     cpSync(sampleDir, copy, { recursive: true });
     const bad = join(copy, 'short', 'short_20261126.nc');
     truncateSync(bad, 5000);
-    const config = isolatedConfig(base, dir, copy);
+    const config = outputsIn(onSample(base, copy), dir);
     const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' });
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     const db = new Database(config.ledger, { readonly: true });
@@ -188,7 +176,7 @@ describe('one bad source never stops the others', () => {
     const dir = mkdtempSync(join(tmpdir(), 'forelight-unreadable-'));
     const copy = join(dir, 'data');
     cpSync(sampleDir, copy, { recursive: true });
-    const config = isolatedConfig(base, dir, copy);
+    const config = outputsIn(onSample(base, copy), dir);
     // Unusable is the same as late: every forecast within the look-back must be damaged for nothing to be usable.
     const forecasts = [
       'short/short_20261123.nc',
@@ -230,7 +218,7 @@ describe('one bad source never stops the others', () => {
     const copy = join(dir, 'data');
     cpSync(sampleDir, copy, { recursive: true });
     copyFileSync(join(copy, 'manifest.json'), join(copy, 'observed', 'observed_daily.nc'));
-    const config = isolatedConfig(base, dir, copy);
+    const config = outputsIn(onSample(base, copy), dir);
     const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' });
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     expect(filesUnder(config.delivery.outbox, '.eml').length).toBeGreaterThan(0);
@@ -251,7 +239,7 @@ describe('one bad source never stops the others', () => {
     cpSync(sampleDir, copy, { recursive: true });
     // The 2010 sub-seasonal hindcast replaced by the short-range one of 2010 (0.5° instead of 1°).
     copyFileSync(join(copy, 'short', 'hindcast', 'short_20101126.nc'), join(copy, 'subseasonal', 'hindcast', 'subs_20101126.nc'));
-    const config = isolatedConfig(base, dir, copy);
+    const config = outputsIn(onSample(base, copy), dir);
     const outcome = await runOnce({ config, run: runContext({ log: silentLogger, issueDate: '2026-11-26' }), mode: 'exercise' });
     expect(outcome.exitCode).toBe(EXIT.inputProblem);
     const db = new Database(config.ledger, { readonly: true });

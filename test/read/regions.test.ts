@@ -5,6 +5,7 @@ import { InputError } from '../../src/core/errors.ts';
 import type { LatLonGrid } from '../../src/read/coordinates.ts';
 import { planBand } from '../../src/read/regions-band.ts';
 import { cellAreaFactors, pointInRing, selectRegionCells } from '../../src/read/regions.ts';
+import { sampleRegions } from '../render/fixtures/sample-config.ts';
 import { axis } from './fake-forecast.ts';
 
 const grid = (lat: number[], lon: number[], bounds?: { lat: number[]; lon: number[] }): LatLonGrid => ({
@@ -23,17 +24,8 @@ const region = (id: string, shape: RegionShape): RegionConfig => ({
   teams: [],
   cellRule: 'centre',
 });
-const TULVA: RegionShape = {
-  kind: 'polygon',
-  ring: [
-    [0.5, -13.5],
-    [3.5, -13.5],
-    [3.5, -11.5],
-    [2, -10.5],
-    [0.5, -11],
-    [0.5, -13.5],
-  ],
-};
+/** The Tulva Delta polygon of the sample world (the render fixtures' regions, so the two cannot drift apart). */
+const TULVA: RegionShape = sampleRegions.find((r) => r.id === 'tulva-delta')!.shape;
 
 function lonLats(g: LatLonGrid, r: RegionConfig): string[] {
   const c = selectRegionCells(g, r, 'f.nc');
