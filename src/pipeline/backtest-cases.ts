@@ -4,7 +4,7 @@
  * (the same cases the skill scores use, see calibrate/skill.ts observedCases).
  */
 import type { Config } from '../config/types.ts';
-import { observedCases } from '../calibrate/skill.ts';
+import { observedCases } from '../calibrate/verification-cases.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
 import type { BacktestCase } from '../decide/backtest.ts';
 import { eventKey, pairOf, type EventKey } from '../core/keys.ts';
