@@ -3,7 +3,7 @@
  * merged by the source-combination rule (`combineSources`, lead-tiers.ts); the notes say the rule and what it dropped.
  */
 import { trackKey, type TrackKey } from '../core/keys.ts';
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { combineSources } from './lead-tiers.ts';
 import type { SourceOutcome } from './source-probabilities.ts';
 

@@ -18,7 +18,8 @@
  */
 import type { ThresholdSpec } from '../config/types.ts';
 import type { CalibrationConfig } from '../config/service-config.ts';
-import type { LeadProbability, LeadWindow, SkillSummary, Threshold } from '../types.ts';
+import type { LeadWindow } from '../types.ts';
+import type { LeadProbability, SkillSummary, Threshold } from '../probability-types.ts';
 import { distinctYears, leadSample, type LeadClimate } from './climate.ts';
 import { leadLabel, leadMonth, type LeadValues } from './lead-tiers.ts';
 import { absoluteThreshold, climatePercentileThreshold, quantileMappedThresholdObject } from './thresholds.ts';

@@ -9,10 +9,10 @@
  * observed frequency outside its bar is evidence of unreliability at that probability. Seeded mulberry32.
  */
 import { percentileLinear } from '../core/percentile.ts';
-import type { ReliabilityBin, ReliabilityDiagram } from '../types.ts';
+import type { ReliabilityBin, ReliabilityDiagram } from '../probability-types.ts';
 import { mulberry32 } from './seeded-random.ts';
 
-export type { ReliabilityBin, ReliabilityDiagram } from '../types.ts';
+export type { ReliabilityBin, ReliabilityDiagram } from '../probability-types.ts';
 
 export const DEFAULT_RELIABILITY_EDGES: readonly number[] = Array.from({ length: 10 }, (_, i) => (2 * i + 1) / 20);
 

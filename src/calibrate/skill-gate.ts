@@ -10,7 +10,8 @@
  * test/calibrate/skill-gate.test.ts simulates this.
  */
 import type { DecisionConfig } from '../config/decision-config.ts';
-import type { LeadWindow, SkillGateResult, Tier } from '../types.ts';
+import type { LeadWindow, Tier } from '../types.ts';
+import type { SkillGateResult } from '../probability-types.ts';
 import { concatCases, yearBlockBootstrap, type VerificationCases } from './bootstrap.ts';
 import { fairBrierSkillScore } from './fair-brier.ts';
 

@@ -9,9 +9,10 @@
  * both sides, so neither side's category frequencies are biased against the other).
  */
 import { percentileLinear } from '../core/percentile.ts';
-import type { LeadProbability, LeadWindow, TercileEdges, TercileOutlook, TercileSkill } from '../types.ts';
+import type { LeadWindow } from '../types.ts';
+import type { LeadProbability, TercileEdges, TercileOutlook, TercileSkill } from '../probability-types.ts';
 
-export type { TercileEdges, TercileOutlook, TercileSkill } from '../types.ts';
+export type { TercileEdges, TercileOutlook, TercileSkill } from '../probability-types.ts';
 import { leadSample, yearMembers, type LeadClimate } from './climate.ts';
 import { rankedProbabilitySkill, rpssBootstrap, type CategoryCases } from './rpss.ts';
 

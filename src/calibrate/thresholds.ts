@@ -5,7 +5,8 @@
  */
 import { UnitError } from '../core/errors.ts';
 import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
-import type { LeadWindow, Threshold } from '../types.ts';
+import type { LeadWindow } from '../types.ts';
+import type { Threshold } from '../probability-types.ts';
 import { leadSample, yearMembers, yearSpan, type LeadClimate } from './climate.ts';
 import { leadLabel } from './lead-tiers.ts';
 import { recentreNote } from './trend-climate.ts';

@@ -20,7 +20,7 @@
  * used as it is; so with fewer than three distinct years. Common practice (e.g. removing a linear trend from hindcasts before
  * computing anomalies in seasonal forecasting), no single source for the re-centring rule itself.
  */
-import type { ClimateTrend, TrendFit } from '../types.ts';
+import type { ClimateTrend, TrendFit } from '../probability-types.ts';
 import { studentTQuantile } from './student-t.ts';
 import type { LeadClimate } from './climate.ts';
 

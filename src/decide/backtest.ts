@@ -10,7 +10,8 @@
  * Persistence runs from one start date to the next; with one start per year the counters span years,
  * which is what the operational rules would do only if runs were that far apart — read counts accordingly.
  */
-import type { IsoDate, LeadProbability, Tier } from '../types.ts';
+import type { IsoDate, Tier } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { decideStages } from './decide-stages.ts';
 import { eventKey, trackKey, type EventKey, type TunedKey } from '../core/keys.ts';
 import { EMPTY_HISTORY, type DecideConfig, type StageHistory } from './types.ts';

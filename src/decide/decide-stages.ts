@@ -5,7 +5,9 @@
  * stage is held for `holdMissingRuns` runs in a row (counted in its track, whose persistence counters are kept),
  * then, or without an earlier stage, it is "no forecast available" (NO_FORECAST_ID), which is never a ladder stage.
  */
-import { TIERS, type LeadProbability, type StageDecision, type Tier } from '../types.ts';
+import { TIERS, type Tier } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { evaluateRules } from './evaluate-rules.ts';
 import { leadUses } from './lead-use.ts';
 import { applyPersistence } from './persistence.ts';

@@ -1,5 +1,5 @@
 /** Stage changes between two runs' region stages, for dry-run output and the operator summary. */
-import type { StageDecision } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
 import { stageTitle, type DecideConfig, type RegionStage, type StageChange } from './types.ts';
 
 /** Anything with a region and a stage id (e.g. rows read back from the ledger). */

@@ -3,7 +3,8 @@
  * (P ≥ probability at a listed lead; cost/loss rules use the threshold tuned on the hindcasts), tier cap.
  */
 import type { Config } from '../config/types.ts';
-import type { LeadProbability, LeadWindow, Tier } from '../types.ts';
+import type { LeadWindow, Tier } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { tunedKey, type TunedKey } from '../core/keys.ts';
 import { leadName } from '../calibrate/lead-tiers.ts';
 import { stageRank } from './types.ts';

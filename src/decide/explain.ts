@@ -2,7 +2,8 @@
  * Plain-text explanation of one decision: inputs → threshold → probability and base rate → skill → rule →
  * persistence → stage, with the numbers. Reads only the decision, the probabilities and the ladder.
  */
-import type { LeadProbability, StageDecision } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { leadName } from '../calibrate/lead-tiers.ts';
 import { stageTitle, type DecideConfig, type StageTrack } from './types.ts';
 

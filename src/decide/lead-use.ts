@@ -5,7 +5,8 @@
  * Built from the typed results of the rules and of persistence, never from their texts.
  */
 import type { StageConfig } from '../config/decision-config.ts';
-import type { LeadProbability, LeadUse, LeadUseKind, PersistenceWait } from '../types.ts';
+import type { LeadUse, LeadUseKind, PersistenceWait } from '../decision-types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { stageRank } from './types.ts';
 
 export interface LeadUseInput {

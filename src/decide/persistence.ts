@@ -6,7 +6,7 @@
  * `topStageImmediate`, a raw top stage is issued at once. No history = the lowest stage, counters at 0.
  */
 import type { DecisionConfig, StageConfig } from '../config/decision-config.ts';
-import type { PersistenceWait } from '../types.ts';
+import type { PersistenceWait } from '../decision-types.ts';
 import { stageRank, type StageTrack } from './types.ts';
 
 export interface PersistenceResult {

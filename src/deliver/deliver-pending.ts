@@ -32,7 +32,7 @@ import {
 import type { Ledger } from '../ledger/open-ledger.ts';
 import type { Logger } from '../core/log.ts';
 import { isProcessAlive } from '../core/process-alive.ts';
-import type { DeliveryReceipt } from '../types.ts';
+import type { DeliveryReceipt } from '../bulletin-types.ts';
 import { composeMessage, messageIdFor, renderEml } from './compose-message.ts';
 import { notifyOperators } from './operator-notice.ts';
 import { ensureOutboxWritable, htmlWithInlineImages, outboxBaseName, writeOutboxFiles } from './outbox.ts';

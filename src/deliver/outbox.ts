@@ -3,7 +3,7 @@
  * here as `.eml` (RFC 5322, open with any mail client) plus `.html` for a browser. Files are written to a
  * temporary name and renamed, so a crash never leaves half a message; re-writing the same message replaces it.
  */
-import type { Bulletin } from '../types.ts';
+import type { Bulletin } from '../bulletin-types.ts';
 import { rmSync, writeFileSync } from 'node:fs';
 import { fixFor, makeFolder, writeFileAtomic } from '../core/write-atomic.ts';
 import { createHash } from 'node:crypto';

@@ -4,7 +4,7 @@
  */
 import { createHash } from 'node:crypto';
 import { ForelightError } from '../core/errors.ts';
-import type { Bulletin } from '../types.ts';
+import type { Bulletin } from '../bulletin-types.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
 import { idRows, returnedId, rowReader } from './rows.ts';
 

@@ -4,7 +4,7 @@
  * made it stale. Every transition is one UPDATE guarded by the expected current status (atomic claim).
  */
 import { ForelightError } from '../core/errors.ts';
-import type { DeliveryReceipt } from '../types.ts';
+import type { DeliveryReceipt } from '../bulletin-types.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
 import { rowReader, type RowType } from './rows.ts';
 

@@ -2,7 +2,9 @@
  * What a run computed and decided: exceedance probabilities, stage decisions, the persistence state the
  * decide stage carries from run to run, and the CAP alert identifiers issued (for CAP `references`).
  */
-import { TIERS, type LeadProbability, type StageDecision, type Tier } from '../types.ts';
+import { TIERS, type Tier } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { ForelightError, describeError } from '../core/errors.ts';
 import { stamp, type Ledger } from './open-ledger.ts';
 import { rowReader } from './rows.ts';

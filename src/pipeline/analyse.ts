@@ -14,7 +14,8 @@ import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/di
 import { describeError, type ForelightError } from '../core/errors.ts';
 import type { Logger } from '../core/log.ts';
 import type { RunContext } from '../core/run-context.ts';
-import type { IsoDate, LeadProbability } from '../types.ts';
+import type { IsoDate } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { extractRegionSeries, type Extractor } from '../read/extract.ts';
 import { specificHumidityNote } from '../indicators/specific-humidity.ts';
 import { resolveInputs, type SourceInputs } from './inputs.ts';

@@ -4,11 +4,11 @@
  * (the same cases the skill scores use, see calibrate/skill.ts observedCases).
  */
 import type { Config } from '../config/types.ts';
-import { observedCases } from '../calibrate/skill.ts';
+import { observedCases } from '../calibrate/verification-cases.ts';
 import { resolveThresholdSpec } from '../calibrate/thresholds.ts';
 import type { BacktestCase } from '../decide/backtest.ts';
 import { eventKey, pairOf, type EventKey } from '../core/keys.ts';
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import type { Analysis } from './analyse.ts';
 
 /** One hindcast year's cases: its probabilities, what was observed, and its first lead's start. */

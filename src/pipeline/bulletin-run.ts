@@ -10,7 +10,9 @@ import { combineRegionStages } from '../decide/decide-stages.ts';
 import { NO_FORECAST_ID, stageRank, type DecideConfig, type RegionStage } from '../decide/types.ts';
 import type { BulletinRun, RegionOutcome, TierOutcome } from '../render/model.ts';
 import { computeNextRuns } from '../core/next-runs.ts';
-import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
+import type { IsoDate, Tier } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { changeReason } from './change-reason.ts';
 import type { SourceRead } from './read-file.ts';
 

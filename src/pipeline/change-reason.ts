@@ -5,7 +5,8 @@
  */
 import type { Config } from '../config/types.ts';
 import { stageLabel, stageRank } from '../decide/types.ts';
-import type { StageDecision, Tier } from '../types.ts';
+import type { Tier } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
 
 const RANGE: Readonly<Record<Tier, string>> = { days: 'the next days', weeks: 'the coming weeks', months: 'the coming months' };
 

@@ -28,7 +28,7 @@ import { describeInputFile, recordInputs } from '../ledger/runs.ts';
 import type { ArchiveEntry } from '../render/archive.ts';
 import type { PreviousIssue } from '../render/model.ts';
 import { renderBulletins } from '../render/render-bulletins.ts';
-import type { StageDecision } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
 import { saveChecksums, type Analysis } from './analyse.ts';
 import { buildBulletinRun, highestStageId, issuedRegionStages } from './bulletin-run.ts';
 import { decideAnalysis } from './decide-now.ts';

@@ -15,7 +15,7 @@
  *   midnights of the lead window in the region's offset.
  * - identifier: `forelight.<runId>.<region>.<indicator>` — stable for a run, unique per region × indicator.
  */
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import { localDayStartIso, regionClock } from '../core/local-clock.ts';
 import { shapeRingSets } from '../config/region-shape.ts';
 import { escapeXml, toToken, toXmlChars } from './safe-text.ts';

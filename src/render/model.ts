@@ -19,7 +19,9 @@
  *   perTier          one entry per indicator × tier, each with its StageDecision and every LeadProbability
  */
 import type { Diagnostic } from '../core/diagnostics.ts';
-import type { IsoDate, LeadProbability, StageDecision, Tier } from '../types.ts';
+import type { IsoDate, Tier } from '../types.ts';
+import type { StageDecision } from '../decision-types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import type { Config, IndicatorConfig, RegionConfig } from '../config/types.ts';
 import type { StageConfig } from '../config/decision-config.ts';
 

@@ -4,7 +4,7 @@
  * the decide stage's, after skill gate, caps and persistence. A lead that decided its tier (also through a
  * cost/loss rule, whose probability is tuned at run time) reaches at least the tier's raw stage.
  */
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import type { TierOutcome, RenderConfig } from './model.ts';
 
 /** Ladder rank (0 = lowest) reached by `p` at its lead. NaN probabilities reach the lowest rank. */

@@ -4,7 +4,7 @@
  * per-tier tables, the full per-lead tables (archive) and the technical note ("How this was worked out").
  */
 import type { IndicatorConfig } from '../config/types.ts';
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import type { Translate } from './catalogue.ts';
 import { NO_FORECAST_ID } from '../decide/types.ts';
 import { USABLE, headlineOf, type Headline } from './headline.ts';

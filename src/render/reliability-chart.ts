@@ -5,7 +5,7 @@
  * grows with the bin's count. The lead drawn is the one that set the stage, else the first lead verified against
  * observations, else the first with cases (a perfect-model diagram is titled so). The numbers are in run.json.
  */
-import type { LeadProbability, ReliabilityDiagram } from '../types.ts';
+import type { LeadProbability, ReliabilityDiagram } from '../probability-types.ts';
 import type { Translate } from './catalogue.ts';
 import type { RegionOutcome } from './model.ts';
 import { escapeXml, toToken } from './safe-text.ts';

@@ -3,7 +3,7 @@
  * summary for `national: true` teams, CAP 1.2 alerts, `run.json`, and an archive entry for `writeArchive`.
  * Refuses to render (throws) when a locale in use has no cautions.
  */
-import type { Bulletin } from '../types.ts';
+import type { Bulletin } from '../bulletin-types.ts';
 import type { TeamConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import { localDayNumber, regionClock, type LocalClock } from '../core/local-clock.ts';

@@ -5,7 +5,7 @@
  * normal-year guess" only when the whole interval is above 0, "did worse" when it is below 0, otherwise "not
  * shown to do better". Without observations the outlook is said to be unchecked, never skilful.
  */
-import type { LeadProbability, TercileOutlook } from '../types.ts';
+import type { LeadProbability, TercileOutlook } from '../probability-types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange, formatNumber, formatPercent } from './locale-format.ts';
 

@@ -5,7 +5,7 @@
  */
 import type { IndicatorConfig, ThresholdSpec } from '../config/types.ts';
 import { parseMalariaParams, suitabilityCategory } from '../indicators/malaria-monthly.ts';
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatNumber, formatThreshold } from './locale-format.ts';
 

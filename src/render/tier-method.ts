@@ -6,7 +6,7 @@ import { basename } from 'node:path';
 import type { IndicatorConfig, RegionConfig, ThresholdSpec } from '../config/types.ts';
 import { regionClock } from '../core/local-clock.ts';
 import { indicatorDefinition } from '../indicators/registry.ts';
-import type { LeadProbability } from '../types.ts';
+import type { LeadProbability } from '../probability-types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatNumber, formatThreshold } from './locale-format.ts';
 import type { RenderConfig, TierOutcome } from './model.ts';

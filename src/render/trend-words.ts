@@ -4,7 +4,7 @@
  * decade (the range over the tier's leads; observed beside the model's where observations cover the leads). A trend
  * the data do not tell from zero is not applied, and the note says "no clear trend" with the fitted rates.
  */
-import type { LeadProbability, TrendFit } from '../types.ts';
+import type { LeadProbability, TrendFit } from '../probability-types.ts';
 import type { Translate } from './catalogue.ts';
 import { formatNumber, UNIT_SYMBOLS } from './locale-format.ts';
 

@@ -3,7 +3,9 @@
  * labels, dates and percentages already formatted. Sentences come from the message catalogue (`t`); this module
  * picks which message applies and supplies the numbers. Stages are in `stage-view.ts`, region assembly in `region-view.ts`.
  */
-import type { LeadProbability, LeadUse, LeadUseKind, SkillSummary, Tier } from '../types.ts';
+import type { Tier } from '../types.ts';
+import type { LeadUse, LeadUseKind } from '../decision-types.ts';
+import type { LeadProbability, SkillSummary } from '../probability-types.ts';
 import { ForelightError } from '../core/errors.ts';
 import type { Translate } from './catalogue.ts';
 import { formatDayRange, formatNumber, formatPercent } from './locale-format.ts';

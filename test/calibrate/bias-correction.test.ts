@@ -9,7 +9,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { quantileMappedThreshold } from '../../src/calibrate/thresholds.ts';
 import { leadProbabilities } from '../../src/calibrate/probability.ts';
-import { observedCases } from '../../src/calibrate/skill.ts';
+import { observedCases } from '../../src/calibrate/verification-cases.ts';
 import { heatIndexRothfusz1990C } from '../../src/indicators/heat-index-rothfusz-1990.ts';
 import { climate, leadsOf } from './climate-fixture.ts';
 import { mulberry32, normal } from '../support/rng.ts';

@@ -22,7 +22,7 @@ import {
   tercileProbabilities,
   withTerciles,
 } from '../../src/calibrate/terciles.ts';
-import type { LeadProbability } from '../../src/types.ts';
+import type { LeadProbability } from '../../src/probability-types.ts';
 import { contingencyTable, falseAlarmRate, falseAlarmRatio, hitRate, peirceSkillScore } from '../../src/calibrate/verify.ts';
 import { mulberry32, normal } from '../support/rng.ts';
 import { climate, leadsOf, YEARS_2006_2025 } from './climate-fixture.ts';

@@ -1,6 +1,6 @@
 /**
  * Every import points down (DEVELOPERS.md, "Rules of the house"): core ← indicators ← config ← read, ledger ←
- * calibrate ← decide ← render ← deliver ← schedule ← pipeline ← cluster ← cli. src/types.ts sits with core; the
+ * calibrate ← decide ← render ← deliver ← schedule ← pipeline ← cluster ← cli. src/types.ts and the other boundary-type files directly in src/ sit with core; the
  * sample generator (src/sample) uses only core and is used only by the CLI. Imports are listed by TypeScript's
  * own scanner (ts.preProcessFile: static imports, type-only imports, re-exports and dynamic import()); a module
  * importing from its own folder is always allowed. Common practice, no source.
@@ -30,8 +30,8 @@ const LEVEL: Readonly<Record<string, number>> = {
 };
 
 const sources = readdirSync(SRC, { recursive: true, encoding: 'utf8' }).filter((f) => /\.(ts|mts|mjs)$/.test(f) && !f.endsWith('.d.mts'));
-/** The layer folder of a path under src/ (src/types.ts belongs to the ground floor). */
-const folderOf = (file: string) => (file === 'types.ts' ? 'core' : file.split('/')[0]);
+/** The layer folder of a path under src/ (the boundary types directly in src/, such as types.ts, belong to the ground floor). */
+const folderOf = (file: string) => (file.includes('/') ? file.split('/')[0] : 'core');
 
 /** "from → to" for every relative import of `file` that does not point down or sideways within its folder. */
 function upwardImports(file: string, text = readFileSync(join(SRC, file), 'utf8')): string[] {

@@ -8,7 +8,7 @@ import { combineRegionStages, decideStages } from '../../src/decide/decide-stage
 import { parseStageHistory } from '../../src/decide/history.ts';
 import { trackKey, tunedKey, type TunedKey } from '../../src/core/keys.ts';
 import { EMPTY_HISTORY, NO_FORECAST_ID, type StageHistory } from '../../src/decide/types.ts';
-import type { LeadProbability } from '../../src/types.ts';
+import type { LeadProbability } from '../../src/probability-types.ts';
 import { makeConfig, prob } from './helpers.ts';
 import { skillSummary } from '../support/skill-summary.ts';
 

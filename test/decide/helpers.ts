@@ -1,7 +1,8 @@
 /** A small hand-made Config and LeadProbability factory for decide tests (no files involved). */
 import type { Config } from '../../src/config/types.ts';
 import type { DecisionConfig, TriggerRule } from '../../src/config/decision-config.ts';
-import type { LeadProbability, SkillSummary, Tier } from '../../src/types.ts';
+import type { Tier } from '../../src/types.ts';
+import type { LeadProbability, SkillSummary } from '../../src/probability-types.ts';
 import { skillSummary } from '../support/skill-summary.ts';
 
 const text = (en: string) => ({ en, fr: en });

@@ -9,7 +9,8 @@ import { describe, expect, it } from 'vitest';
 import { decideStages } from '../../src/decide/decide-stages.ts';
 import { trackKey } from '../../src/core/keys.ts';
 import { NO_FORECAST_ID, type StageHistory } from '../../src/decide/types.ts';
-import type { LeadProbability, Tier } from '../../src/types.ts';
+import type { Tier } from '../../src/types.ts';
+import type { LeadProbability } from '../../src/probability-types.ts';
 import { makeConfig, prob } from './helpers.ts';
 
 const tiers = new Set<Tier>(['weeks', 'months']);

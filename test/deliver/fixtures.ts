@@ -15,7 +15,7 @@ import type { Ledger } from '../../src/ledger/open-ledger.ts';
 import { beginRun, finishRun } from '../../src/ledger/runs.ts';
 import type { Logger } from '../../src/core/log.ts';
 import { EXIT, exitCodeForDeliveries } from '../../src/core/exit-codes.ts';
-import type { Bulletin } from '../../src/types.ts';
+import type { Bulletin } from '../../src/bulletin-types.ts';
 
 export const tempDir = (prefix: string) => mkdtempSync(join(tmpdir(), `forelight-${prefix}-`));
 

@@ -12,7 +12,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { listDeliveries } from '../../src/ledger/deliveries.ts';
 import { openLedger } from '../../src/ledger/open-ledger.ts';
 import { silentLogger } from '../../src/core/log.ts';
-import type { Bulletin } from '../../src/types.ts';
+import type { Bulletin } from '../../src/bulletin-types.ts';
 import { mulberry32 } from '../support/rng.ts';
 import { ADDR, deliveryConfig, issueForecast, sampleBulletin, smtpError, startSmtp, tempDir, type SmtpFixture } from './fixtures.ts';
 

@@ -22,7 +22,8 @@ import {
   saveStageHistory,
 } from '../../src/ledger/results.ts';
 import { beginRun, describeInputFile, finishRun, lastCompletedRun, recordInputs, runInputs } from '../../src/ledger/runs.ts';
-import type { LeadProbability, StageDecision } from '../../src/types.ts';
+import type { StageDecision } from '../../src/decision-types.ts';
+import type { LeadProbability } from '../../src/probability-types.ts';
 import { sampleBulletin, sampleBulletins, tempDir } from '../deliver/fixtures.ts';
 import { startPostgres, type TestPostgres } from '../support/servers.ts';
 

@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { Config, RegionValueConfig } from '../../src/config/types.ts';
 import { renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
-import type { Bulletin } from '../../src/types.ts';
+import type { Bulletin } from '../../src/bulletin-types.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 import { sampleRun } from './fixtures/sample-run.ts';
 

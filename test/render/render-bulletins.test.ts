@@ -3,7 +3,7 @@ import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { Bulletin } from '../../src/types.ts';
+import type { Bulletin } from '../../src/bulletin-types.ts';
 import { ForelightError } from '../../src/core/errors.ts';
 import { renderBulletins, type RenderedRun } from '../../src/render/render-bulletins.ts';
 import { applyTypography } from '../../src/render/typography.ts';

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { loadCatalogue } from '../../src/render/catalogue.ts';
 import { tercileLines, tercileVerdict } from '../../src/render/tercile-words.ts';
-import type { LeadProbability, TercileOutlook } from '../../src/types.ts';
+import type { LeadProbability, TercileOutlook } from '../../src/probability-types.ts';
 
 const outlook = (low: number, high: number, period: 'month' | 'season' = 'month'): TercileOutlook => ({
   period,

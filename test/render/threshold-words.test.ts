@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { loadCatalogue } from '../../src/render/catalogue.ts';
 import { formatIndex, pastYearsShare, thresholdWords } from '../../src/render/threshold-words.ts';
-import type { LeadProbability } from '../../src/types.ts';
+import type { LeadProbability } from '../../src/probability-types.ts';
 import { indicator } from '../indicators/fixtures.ts';
 
 const lead = (value: number, units: string) => ({ threshold: { value, units, origin: 'test' } }) as unknown as LeadProbability;

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { createTemplateEnv } from '../../src/render/template-env.ts';
 import { trendLine } from '../../src/render/trend-words.ts';
-import type { LeadProbability, TrendFit } from '../../src/types.ts';
+import type { LeadProbability, TrendFit } from '../../src/probability-types.ts';
 import { sampleConfig } from './fixtures/sample-config.ts';
 
 const env = createTemplateEnv(sampleConfig().templates);

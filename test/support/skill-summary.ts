@@ -3,7 +3,7 @@
  * skilful only when observed, with at least 5 events, and the lower end of the fair-BSS interval above 0.
  * Invented figures (no source): `low` is the interval's lower end, the score sits 0.15 above it.
  */
-import type { SkillSummary } from '../../src/types.ts';
+import type { SkillSummary } from '../../src/probability-types.ts';
 
 export function skillSummary(
   low: number,
