@@ -17,6 +17,7 @@ import { silentLogger } from '../../src/core/log.ts';
 import { runContext } from '../../src/core/run-context.ts';
 import { runOnce } from '../../src/pipeline/run-once.ts';
 import { generateSample } from '../../src/sample/generate.ts';
+import { onSample, outputsIn } from '../support/sample-run-config.ts';
 
 const ISSUE = '2026-11-26';
 const DAY_MS = 86_400_000;
@@ -60,15 +61,7 @@ beforeAll(async () => {
   for (const f of files)
     execFileSync('ncatted', ['-O', '-a', 'calendar,time,o,c,360_day', '-a', 'calendar,forecast_reference_time,o,c,360_day', f]);
   const base = await loadConfig();
-  const move = (p: string) => p.replace(/.*sample-inputs\/data/, data);
-  config = {
-    ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
-    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
-    ledger: join(dir, 'ledger.sqlite'),
-    delivery: { ...base.delivery, outbox: join(dir, 'outbox'), archive: join(dir, 'archive') },
-    calibration: { ...base.calibration, cacheDir: join(dir, 'cache') },
-  };
+  config = outputsIn(onSample(base, data), dir);
   outcome = await runOnce({
     config,
     run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }),

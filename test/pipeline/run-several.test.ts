@@ -20,6 +20,7 @@ import { runOnce } from '../../src/pipeline/run-once.ts';
 import { checkSeparateOutputs, combinedExitCode, runSeveral } from '../../src/pipeline/run-several.ts';
 import { extractRegionSeries, type Extractor } from '../../src/read/extract.ts';
 import { generateSample } from '../../src/sample/generate.ts';
+import { onSample, outputsIn } from '../support/sample-run-config.ts';
 
 const DATE = '2026-11-26';
 let sampleDir: string;
@@ -33,17 +34,8 @@ beforeAll(async () => {
 
 /** The shipped configuration on the sample, with `regions` and its own ledger, outbox, archive and (empty) cache. */
 function configFor(regions: Config['regions']): Config {
-  const own = mkdtempSync(join(tmpdir(), 'forelight-several-config-'));
-  const move = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
-  return {
-    ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
-    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
-    regions,
-    ledger: join(own, 'ledger.sqlite'),
-    delivery: { ...base.delivery, smtp: null, outbox: join(own, 'outbox'), archive: join(own, 'archive') },
-    calibration: { ...base.calibration, cacheDir: join(own, 'cache') },
-  };
+  const config = outputsIn(onSample(base, sampleDir), mkdtempSync(join(tmpdir(), 'forelight-several-config-')));
+  return { ...config, regions, delivery: { ...config.delivery, smtp: null } };
 }
 
 /** extractRegionSeries counting its calls per file and variable set. */

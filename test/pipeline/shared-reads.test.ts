@@ -16,6 +16,7 @@ import { analyse } from '../../src/pipeline/analyse.ts';
 import { shareReads } from '../../src/pipeline/shared-reads.ts';
 import { extractRegionSeries, type Extractor } from '../../src/read/extract.ts';
 import { generateSample } from '../../src/sample/generate.ts';
+import { onSample } from '../support/sample-run-config.ts';
 
 const DATE = '2026-11-26';
 let sampleDir: string;
@@ -29,14 +30,8 @@ beforeAll(async () => {
 
 /** The shipped configuration on the sample with these regions and its own (empty) cache. */
 function configWith(regions: readonly RegionConfig[]): Config {
-  const move = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
-  return {
-    ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
-    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
-    regions,
-    calibration: { ...base.calibration, cacheDir: mkdtempSync(join(tmpdir(), 'forelight-shared-cache-')) },
-  };
+  const config = onSample(base, sampleDir);
+  return { ...config, regions, calibration: { ...config.calibration, cacheDir: mkdtempSync(join(tmpdir(), 'forelight-shared-cache-')) } };
 }
 
 /** extractRegionSeries counting its calls per file and variable set (a run reads the first hindcast twice: all variables, and one for the grid check). */
