@@ -1,7 +1,8 @@
 /**
  * Writes CF-1.8 gridded daily files (CF Conventions 1.8, Eaton et al. 2020: coordinate variables §4,
  * time §4.4, cell boundaries §7.1, cell methods §7.3, packed data §8.1, ensemble `realization` axis §4.5 /
- * standard-name table) through the streaming classic writer. Two shapes:
+ * standard-name table; the variables' metadata and packing in cf-variables.ts) through the streaming classic
+ * writer. Two shapes:
  *  - ensemble forecast: (time, number, lat, lon) — time first, as CDO requires — fixed time axis, scalar
  *    `forecast_reference_time`;
  *  - observed: (time, lat, lon) with an unlimited time axis.
@@ -9,13 +10,8 @@
  * (`stamps: 'day-end'`, the usual forecast-centre encoding) at the end of each day (24, 48, …) without bounds.
  */
 import { rename, rm } from 'node:fs/promises';
-import {
-  createNetcdfClassic,
-  type NcAttribute,
-  type NcFormat,
-  type NcVariableSpec,
-  type NetcdfClassicWriter,
-} from './netcdf-classic-writer.ts';
+import { coordinateSpecs, toStored, variableSpec, type CfVariableDef } from './cf-variables.ts';
+import { createNetcdfClassic, type NcFormat, type NcVariableSpec, type NetcdfClassicWriter } from './netcdf-classic-writer.ts';
 
 export interface GridSpec {
   /** Cell-centre latitudes (degrees_north), in file order. */
@@ -27,25 +23,6 @@ export interface GridSpec {
 /** Degrees from `first` in `n` steps of `step` (negative step = descending). */
 export function axis(first: number, step: number, n: number): Float64Array {
   return Float64Array.from({ length: n }, (_, i) => Math.round((first + i * step) * 1e6) / 1e6);
-}
-
-/** Linear packing into shorts: stored = round((value - addOffset) / scaleFactor). */
-export interface ShortPacking {
-  readonly scaleFactor: number;
-  readonly addOffset: number;
-}
-
-export interface CfVariableDef {
-  readonly name: string;
-  readonly standardName: string;
-  readonly longName: string;
-  readonly units: string;
-  /** Omitted for an amount accumulated since the reference time (no per-step cell method applies). */
-  readonly cellMethods?: string;
-  /** Present: stored as short with scale_factor/add_offset; absent: float32. */
-  readonly packing?: ShortPacking;
-  /** Extra attributes (e.g. a comment on accumulation). */
-  readonly extra?: Readonly<Record<string, string>>;
 }
 
 export interface CfFileDef {
@@ -60,76 +37,7 @@ export interface CfFileDef {
   readonly globalAttributes: Readonly<Record<string, string>>;
 }
 
-const SHORT_FILL = -32767;
-const FLOAT_FILL = 1.0e20;
-
 const isoUtc = (d: Date): string => d.toISOString().replace('T', ' ').replace('.000Z', '');
-
-function variableSpec(def: CfVariableDef, dims: readonly string[]): NcVariableSpec {
-  const attributes: Record<string, NcAttribute> = {
-    standard_name: def.standardName,
-    long_name: def.longName,
-    units: def.units,
-    ...(def.cellMethods ? { cell_methods: def.cellMethods } : {}),
-    ...def.extra,
-  };
-  if (def.packing) {
-    attributes.scale_factor = { type: 'float', values: [def.packing.scaleFactor] };
-    attributes.add_offset = { type: 'float', values: [def.packing.addOffset] };
-    attributes._FillValue = { type: 'short', values: [SHORT_FILL] };
-  } else {
-    attributes._FillValue = { type: 'float', values: [FLOAT_FILL] };
-  }
-  return { name: def.name, type: def.packing ? 'short' : 'float', dimensions: dims, attributes };
-}
-
-/** Packs floats to stored values: NaN → _FillValue. */
-function toStored(def: CfVariableDef, values: Float32Array): Int16Array | Float32Array {
-  const p = def.packing;
-  if (!p) {
-    const out = new Float32Array(values.length);
-    for (let i = 0; i < values.length; i++) out[i] = Number.isNaN(values[i]) ? FLOAT_FILL : values[i];
-    return out;
-  }
-  const out = new Int16Array(values.length);
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    out[i] = Number.isNaN(v) ? SHORT_FILL : Math.max(-32766, Math.min(32767, Math.round((v - p.addOffset) / p.scaleFactor)));
-  }
-  return out;
-}
-
-function coordinateSpecs(timeUnits: string, withBounds: boolean): NcVariableSpec[] {
-  const time: NcVariableSpec = {
-    name: 'time',
-    type: 'double',
-    dimensions: ['time'],
-    attributes: {
-      standard_name: 'time',
-      long_name: 'time',
-      units: timeUnits,
-      calendar: 'standard',
-      axis: 'T',
-      ...(withBounds ? { bounds: 'time_bnds' } : {}),
-    },
-  };
-  return [
-    time,
-    ...(withBounds ? [{ name: 'time_bnds', type: 'double' as const, dimensions: ['time', 'bnds'], attributes: {} }] : []),
-    {
-      name: 'lat',
-      type: 'double',
-      dimensions: ['lat'],
-      attributes: { standard_name: 'latitude', long_name: 'latitude', units: 'degrees_north', axis: 'Y' },
-    },
-    {
-      name: 'lon',
-      type: 'double',
-      dimensions: ['lon'],
-      attributes: { standard_name: 'longitude', long_name: 'longitude', units: 'degrees_east', axis: 'X' },
-    },
-  ];
-}
 
 interface OpenCfFile {
   readonly writer: NetcdfClassicWriter;

@@ -7,7 +7,8 @@
  */
 import { mkdir, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { writeEnsembleFile, writeObservedFile, type CfFileDef, type CfVariableDef } from './cf-gridded-file.ts';
+import { writeEnsembleFile, writeObservedFile, type CfFileDef } from './cf-gridded-file.ts';
+import type { CfVariableDef } from './cf-variables.ts';
 import type { NcFormat } from './netcdf-classic-writer.ts';
 import { describeCells, veloriaGrid } from './veloria-climate.ts';
 import { createTruth, dayNumberOf, fillMember, observedFiller, type ModelTraits, type TruthHistory } from './veloria-weather.ts';
