@@ -7,7 +7,8 @@ import { readSync } from 'node:fs';
 import type { FileHandle } from 'node:fs/promises';
 import { InputError, errorMessage } from '../core/errors.ts';
 import { variableNotFound, type Dataset, type DatasetFormat, type DimensionInfo, type VariableInfo } from './dataset.ts';
-import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, decodeBigEndian, parseClassicHeader } from './classic-header.ts';
+import { type ClassicHeader, type ClassicVariable, HeaderNeedsMoreBytes, parseClassicHeader } from './classic-header.ts';
+import { decodeBigEndian } from './classic-values.ts';
 import { PositionPicker } from './classic-pick.ts';
 import { MAX_SPAN_BYTES, type ReadSpan, planReads, validateSelection } from './classic-hyperslab.ts';
 

@@ -5,6 +5,7 @@
  * for a longer prefix (HeaderNeedsMoreBytes) when the header runs past it.
  */
 import type { AttributeValue, DimensionInfo, StorageType } from './dataset.ts';
+import { decodeBigEndian, STORAGE_BYTES } from './classic-values.ts';
 
 export type ClassicVersion = 1 | 2 | 5;
 
@@ -42,24 +43,23 @@ const NC_VARIABLE = 0x0b;
 const NC_ATTRIBUTE = 0x0c;
 const STREAMING = 0xffffffff;
 
-const TYPES: Record<number, { type: StorageType; bytes: number }> = {
-  1: { type: 'byte', bytes: 1 },
-  2: { type: 'char', bytes: 1 },
-  3: { type: 'short', bytes: 2 },
-  4: { type: 'int', bytes: 4 },
-  5: { type: 'float', bytes: 4 },
-  6: { type: 'double', bytes: 8 },
-  7: { type: 'ubyte', bytes: 1 },
-  8: { type: 'ushort', bytes: 2 },
-  9: { type: 'uint', bytes: 4 },
-  10: { type: 'int64', bytes: 8 },
-  11: { type: 'uint64', bytes: 8 },
-};
-
-/** Bytes per stored value of each storage type. */
-export const STORAGE_BYTES: Readonly<Record<StorageType, number>> = Object.fromEntries(
-  Object.values(TYPES).map((t) => [t.type, t.bytes]),
-) as Record<StorageType, number>;
+/** Type codes of the format specification (NC_BYTE = 1 … NC_UINT64 = 11), in code order. */
+const TYPE_CODES: readonly StorageType[] = [
+  'byte',
+  'char',
+  'short',
+  'int',
+  'float',
+  'double',
+  'ubyte',
+  'ushort',
+  'uint',
+  'int64',
+  'uint64',
+];
+const TYPES: Record<number, { type: StorageType; bytes: number }> = Object.fromEntries(
+  TYPE_CODES.map((type, i) => [i + 1, { type, bytes: STORAGE_BYTES[type] }]),
+);
 
 class Cursor {
   pos = 4;
@@ -190,68 +190,4 @@ export function parseClassicHeader(bytes: Buffer): ClassicHeader {
   const recordBytes =
     recordVars.length === 1 ? recordVars[0].dataBytes : recordVars.reduce((sum, v) => sum + Math.ceil(v.dataBytes / 4) * 4, 0);
   return { version, numRecords, dimensions: dims, attributes, variables, recordBytes };
-}
-
-type SwapView = { swap: (b: Buffer) => Buffer; view: (ab: ArrayBufferLike, at: number, n: number) => ArrayLike<number> };
-const BYTES = (b: Buffer): Buffer => b;
-/** Types decoded by a native byte swap plus a typed-array view (fast path for aligned blocks). */
-const FAST: Partial<Record<StorageType, SwapView>> = {
-  byte: { swap: BYTES, view: (ab, at, n) => new Int8Array(ab, at, n) },
-  ubyte: { swap: BYTES, view: (ab, at, n) => new Uint8Array(ab, at, n) },
-  char: { swap: BYTES, view: (ab, at, n) => new Uint8Array(ab, at, n) },
-  short: { swap: (b) => b.swap16(), view: (ab, at, n) => new Int16Array(ab, at, n) },
-  ushort: { swap: (b) => b.swap16(), view: (ab, at, n) => new Uint16Array(ab, at, n) },
-  int: { swap: (b) => b.swap32(), view: (ab, at, n) => new Int32Array(ab, at, n) },
-  uint: { swap: (b) => b.swap32(), view: (ab, at, n) => new Uint32Array(ab, at, n) },
-  float: { swap: (b) => b.swap32(), view: (ab, at, n) => new Float32Array(ab, at, n) },
-  double: { swap: (b) => b.swap64(), view: (ab, at, n) => new Float64Array(ab, at, n) },
-};
-
-/**
- * Decodes `n` big-endian values of `type` from `buf` at `byteOffset` into `out` from `outOffset`.
- * Aligned blocks are byte-swapped IN PLACE in `buf` (a scratch buffer) and copied through a typed view.
- */
-export function decodeBigEndian(type: StorageType, buf: Buffer, byteOffset: number, n: number, out: Float64Array, outOffset: number): void {
-  const size = STORAGE_BYTES[type];
-  const at = buf.byteOffset + byteOffset;
-  const fast = FAST[type];
-  if (fast && at % size === 0) {
-    fast.swap(buf.subarray(byteOffset, byteOffset + n * size));
-    out.set(fast.view(buf.buffer, at, n), outOffset);
-    return;
-  }
-  const view = new DataView(buf.buffer, at, n * size);
-  switch (type) {
-    case 'byte':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt8(i);
-      break;
-    case 'char':
-    case 'ubyte':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint8(i);
-      break;
-    case 'short':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt16(i * 2);
-      break;
-    case 'ushort':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint16(i * 2);
-      break;
-    case 'int':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getInt32(i * 4);
-      break;
-    case 'uint':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getUint32(i * 4);
-      break;
-    case 'float':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getFloat32(i * 4);
-      break;
-    case 'double':
-      for (let i = 0; i < n; i++) out[outOffset + i] = view.getFloat64(i * 8);
-      break;
-    case 'int64':
-      for (let i = 0; i < n; i++) out[outOffset + i] = Number(view.getBigInt64(i * 8));
-      break;
-    case 'uint64':
-      for (let i = 0; i < n; i++) out[outOffset + i] = Number(view.getBigUint64(i * 8));
-      break;
-  }
 }
