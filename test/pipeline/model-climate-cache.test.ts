@@ -15,6 +15,7 @@ import { silentLogger } from '../../src/core/log.ts';
 import { runContext } from '../../src/core/run-context.ts';
 import { analyse } from '../../src/pipeline/analyse.ts';
 import { generateSample } from '../../src/sample/generate.ts';
+import { onSample } from '../support/sample-run-config.ts';
 
 let config: Config;
 const issueDate = '2026-11-26';
@@ -23,13 +24,8 @@ beforeAll(async () => {
   const sampleDir = mkdtempSync(join(tmpdir(), 'forelight-sample-'));
   await generateSample(sampleDir);
   const base = await loadConfig();
-  const move = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
-  config = {
-    ...base,
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
-    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
-    calibration: { ...base.calibration, cacheDir: join(sampleDir, 'cache') },
-  };
+  const onIt = onSample(base, sampleDir);
+  config = { ...onIt, calibration: { ...onIt.calibration, cacheDir: join(sampleDir, 'cache') } };
 }, 180_000);
 
 const withHindcasts = (a: Awaited<ReturnType<typeof analyse>>) => a.sources.filter((s) => s.climates.size > 0);

@@ -23,6 +23,7 @@ import { readFile } from '../../src/pipeline/read-file.ts';
 import { runOnce } from '../../src/pipeline/run-once.ts';
 import { extractRegionSeries } from '../../src/read/extract.ts';
 import { generateSample } from '../../src/sample/generate.ts';
+import { onSample, outputsIn } from '../support/sample-run-config.ts';
 import type { Quantity, RegionSeries } from '../../src/types.ts';
 
 const ISSUE = '2026-11-26';
@@ -46,7 +47,6 @@ function populationTiff(): string {
 }
 
 function withRegionValues(base: Config, sampleDir: string): Config {
-  const move = (p: string) => p.replace(/.*sample-inputs\/data/, sampleDir);
   const indicators = base.indicators.map((i): IndicatorConfig => {
     if (i.id === 'tmax-3day') return { ...i, regionValue: { weights: 'population' } };
     if (i.id === 'heat-index')
@@ -59,16 +59,7 @@ function withRegionValues(base: Config, sampleDir: string): Config {
       };
     return i;
   });
-  return {
-    ...base,
-    indicators,
-    population: { file: populationTiff(), values: 'people-per-pixel' },
-    sources: base.sources.map((s) => ({ ...s, forecast: s.forecast.map(move), hindcast: s.hindcast && move(s.hindcast) })),
-    observations: base.observations && { ...base.observations, path: move(base.observations.path) },
-    ledger: join(dir, 'ledger.sqlite'),
-    delivery: { ...base.delivery, outbox: join(dir, 'outbox'), archive: join(dir, 'archive') },
-    calibration: { ...base.calibration, cacheDir: join(dir, 'cache') },
-  };
+  return { ...outputsIn(onSample(base, sampleDir), dir), indicators, population: { file: populationTiff(), values: 'people-per-pixel' } };
 }
 
 let config: Config;
