@@ -8,18 +8,16 @@ import type { TeamConfig } from '../config/types.ts';
 import { ForelightError } from '../core/errors.ts';
 import { localDayNumber, regionClock, type LocalClock } from '../core/local-clock.ts';
 import type { ArchiveEntry } from './archive.ts';
-import { bulletinContext, topStage, type ChartRef } from './bulletin-context.ts';
+import { bulletinContext, topStage } from './bulletin-context.ts';
 import type { Translate } from './catalogue.ts';
 import { buildCapAlerts } from './cap.ts';
 import { checkRegionView, contradictionDiagnostics } from './consistency.ts';
 import type { Diagnostic } from '../core/diagnostics.ts';
 import { reliabilityCharts } from './reliability-chart.ts';
 import { chartPngsWithin } from './chart-png.ts';
-import { buildChartSpecs, type ChartSpec } from './chart-spec.ts';
-import { chartWidth, renderChartSvg } from './chart-svg.ts';
-import { chartWords } from './chart-words.ts';
+import { runCharts } from './run-charts.ts';
 import type { BulletinRun, CapAlert, PreviousIssue, RenderConfig } from './model.ts';
-import { buildRegionView, hazardName, type RegionView } from './region-view.ts';
+import { buildRegionView, type RegionView } from './region-view.ts';
 import { renderPdfs } from './pdf.ts';
 import { renderRunJson } from './run-json.ts';
 import { capHeaderText, toHeaderText, toToken } from './safe-text.ts';
@@ -71,11 +69,6 @@ function localDay(iso: string, clock: LocalClock): string {
   return new Date(localDayNumber(clock, Date.parse(iso)) * 86_400_000).toISOString().slice(0, 10);
 }
 
-interface LocaleCharts {
-  specs: Map<string, ChartSpec[]>;
-  svg: Map<string, string>;
-}
-
 /** Size budget of one e-mail: HTML, text, charts and PDF, before transfer encoding (README, "Outputs"). */
 export const EMAIL_BUDGET_BYTES = 300 * 1024;
 /** Room kept for the printable PDF (one A4 page is 30–70 kB). */
@@ -89,34 +82,7 @@ export async function renderBulletins(config: RenderConfig, run: BulletinRun, pr
   for (const locale of new Set([...config.teams.map((t) => t.locale), archiveLocale])) cautionsFor(config, locale);
   const issuedDay = localDay(run.issuedAt, regionClock(run.regions[0]?.region ?? { utcOffsetHours: 0 }));
 
-  const charts = new Map<string, LocaleCharts>();
-  const chartsFor = (locale: string): LocaleCharts => {
-    let c = charts.get(locale);
-    if (!c) {
-      const t = env.t(locale);
-      const words = chartWords(t, locale, (id) =>
-        hazardName(
-          t,
-          config.indicators.find((i) => i.id === id),
-          id,
-        ),
-      );
-      c = { specs: new Map(), svg: new Map() };
-      for (const r of run.regions) {
-        const specs = buildChartSpecs(config, r, locale, words);
-        c.specs.set(r.region.id, specs);
-        for (const s of specs) c.svg.set(s.key, renderChartSvg(s));
-      }
-      charts.set(locale, c);
-    }
-    return c;
-  };
-  const chartRef =
-    (locale: string, src: (key: string) => string) =>
-    (r: RegionView, indicator: string): ChartRef | null => {
-      const spec = (chartsFor(locale).specs.get(r.id) ?? []).find((s) => s.indicator === indicator);
-      return spec ? { src: src(spec.key), alt: spec.description, title: spec.title, width: chartWidth(spec) } : null;
-    };
+  const { chartsFor, chartRef } = runCharts(config, run, env);
   // Every view rendered is checked for statements that disagree (one finding per region, locale and text).
   const contradictions = new Map<string, Diagnostic>();
   const views = (locale: string, audience: string, regions: BulletinRun['regions']): RegionView[] =>
