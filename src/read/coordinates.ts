@@ -6,6 +6,7 @@
  * Names (`lat`, `step`, `number`, …) are only a last resort. The time axis and reference time: time-axis.ts.
  */
 import { InputError } from '../core/errors.ts';
+import { shellWord } from '../core/shell-command.ts';
 import { attr, readBounds, readWhole } from './cf-variable.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { gribSelectionHint, looksLikeGrib } from './grib-convert.ts';
@@ -95,7 +96,7 @@ function findAxisVariable(ds: Dataset, axis: 'X' | 'Y'): VariableInfo {
     'no-coordinate',
     ds.path,
     `no ${standard} coordinate (standard_name ${standard} or units ${units[0]})`,
-    `add CF attributes to the ${standard} variable (e.g. ncatted -a units,<var>,o,c,${units[0]})`,
+    `add CF attributes to the ${standard} variable, naming it for <var> (e.g. ncatted -a units,<var>,o,c,${units[0]} ${shellWord(ds.path)})`,
   );
 }
 

@@ -46,9 +46,9 @@ describe('indicator params checked at load (fixtures/bad-indicator-params.yaml)'
 });
 
 describe('valid params reach the indicators typed and camelCased', () => {
-  it('the shipped malaria indicator carries species and lagMonths', async () => {
+  it('the shipped malaria indicator carries species, lagMonths and the relative R0 temperature term (Mordecai et al. 2013)', async () => {
     const config = await loadConfig();
     const malaria = config.indicators.find((i) => i.kind === 'malaria-suitability');
-    expect(malaria?.params).toEqual({ species: 'falciparum', lagMonths: 1 });
+    expect(malaria?.params).toEqual({ species: 'falciparum', lagMonths: 1, temperatureModel: 'mordecai-2013' });
   });
 });
