@@ -2,30 +2,11 @@
  * Lead values of a climate sample over years: hindcasts (members > 1) or observations (members = 1), for one
  * source × region × indicator × tier. Leads are matched to a forecast's by tier and index.
  */
-import type { LeadWindow } from '../types.ts';
 import type { LeadValues } from './lead-tiers.ts';
 import { diagnostic, type Diagnostic, type Place } from '../core/diagnostics.ts';
 import { sortValid } from '../core/percentile.ts';
 import { recentredValues } from './trend-climate.ts';
-
-export interface LeadClimate {
-  /**
-   * Year of each entry. A year repeats when several starts of a year are pooled (starts within ±windowDays, see
-   * `startsWithinWindow`); leave-one-year-out then removes every start of that year.
-   */
-  readonly years: readonly number[];
-  readonly members: number;
-  /** Lead windows of the first year (labels); year y's windows are the same leads in year y. */
-  readonly leads: readonly LeadWindow[];
-  readonly units: string;
-  /** [year][member][lead]: values[(y * members + m) * leads.length + l], NaN where missing; as read, never detrended. */
-  readonly values: Float64Array;
-  /**
-   * Set when the climate is trend-aware (trend-climate.ts): the year its samples are re-centred on (the issue
-   * year). `leadSample` then detrends every lead and moves it to this year, or to the held-out year.
-   */
-  readonly recentreOn?: number;
-}
+import type { LeadClimate } from './lead-climate.ts';
 
 /**
  * Stack per-year lead values (from `aggregateToLeads` of each hindcast start or observed year) into a climate

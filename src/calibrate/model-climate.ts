@@ -12,14 +12,15 @@ import { pairKey, type PairKey } from '../core/keys.ts';
 import type { IndicatorClimatology } from '../indicators/compute.ts';
 import { indicatorInputs, regionIndicator } from './region-indicator.ts';
 import type { IndicatorSeries, IsoDate, RegionQuantities } from '../types.ts';
-import { stackYears, type LeadClimate } from './climate.ts';
+import { stackYears } from './climate.ts';
+import type { LeadClimate } from './lead-climate.ts';
 import { sameLeadMonths } from './month-true.ts';
 import { atForecastStart } from './start-anomalies.ts';
 import { indicatorContext } from './indicator-context.ts';
 import type { LeadValues } from './lead-tiers.ts';
-import { skillReports, type SkillReport } from './skill.ts';
+import { skillReports } from './skill.ts';
 import { leadCases } from './verification-cases.ts';
-import type { RegionCalibrator } from './region-calibration.ts';
+import type { StoredClimate, IndicatorClimate } from './stored-climate.ts';
 import type { ObservedContext, StartReduction } from './start-reduction.ts';
 import { resolveThresholdSpec } from './thresholds.ts';
 import { tuneTrigger, type TunedTrigger } from './trigger-tuning.ts';
@@ -27,13 +28,22 @@ import { tuneTrigger, type TunedTrigger } from './trigger-tuning.ts';
 /** The part of the configuration the calibrate stage reads. */
 export type CalibrateConfig = Pick<Config, 'regions' | 'indicators' | 'rules' | 'decision' | 'calibration' | 'population'>;
 
-export interface IndicatorClimate {
-  readonly hindcast: LeadClimate | null;
-  readonly observed: LeadClimate | null;
-  readonly skill: readonly SkillReport[];
-  /** Rule id → trigger tuned for its cost/loss ratio (maximum relative economic value, judged leave-one-year-out). */
-  readonly tuned: Readonly<Record<string, TunedTrigger>>;
-  readonly problems: readonly Diagnostic[];
+export interface RegionJob {
+  /** The calibration configuration with only this region in `regions`. */
+  readonly config: CalibrateConfig;
+  readonly source: SourceConfig;
+  /** Every start's reduction, with only this region's pairs. */
+  readonly starts: readonly StartReduction[];
+  /** Per pair of the region, why the observations gave no indicator (pairs whose observations are usable are absent). */
+  readonly observedProblems: readonly (readonly [PairKey, Diagnostic])[];
+  /** Per pair of the region, the first day of the forecast's lead 1 (null without one). */
+  readonly forecastLeadOne: readonly (readonly [PairKey, IsoDate | null])[];
+}
+
+/** Calibrates one region (in this process, or by a cluster's workers); `parallel`: regions in flight (1 when absent). */
+export interface RegionCalibrator {
+  (job: RegionJob): Promise<StoredClimate[]>;
+  readonly parallel?: number;
 }
 
 /** The observed indicator of a region over the whole observation record (one member), or why there is none. */

@@ -9,27 +9,9 @@ import type { SourceConfig } from '../config/types.ts';
 import type { Diagnostic } from '../core/diagnostics.ts';
 import { pairKey, type PairKey } from '../core/keys.ts';
 import type { IsoDate } from '../types.ts';
-import { buildIndicatorClimate, type CalibrateConfig } from './model-climate.ts';
+import { buildIndicatorClimate, type CalibrateConfig, type RegionCalibrator, type RegionJob } from './model-climate.ts';
 import { isSeries, tierPairs, type ObservedContext, type StartReduction } from './start-reduction.ts';
 import { toStored, type StoredClimate } from './stored-climate.ts';
-
-export interface RegionJob {
-  /** The calibration configuration with only this region in `regions`. */
-  readonly config: CalibrateConfig;
-  readonly source: SourceConfig;
-  /** Every start's reduction, with only this region's pairs. */
-  readonly starts: readonly StartReduction[];
-  /** Per pair of the region, why the observations gave no indicator (pairs whose observations are usable are absent). */
-  readonly observedProblems: readonly (readonly [PairKey, Diagnostic])[];
-  /** Per pair of the region, the first day of the forecast's lead 1 (null without one). */
-  readonly forecastLeadOne: readonly (readonly [PairKey, IsoDate | null])[];
-}
-
-/** Calibrates one region (in this process, or by a cluster's workers); `parallel`: regions in flight (1 when absent). */
-export interface RegionCalibrator {
-  (job: RegionJob): Promise<StoredClimate[]>;
-  readonly parallel?: number;
-}
 
 /** One job per region of the source's tier, in region order. */
 export function regionJobs(

@@ -7,7 +7,8 @@
 import type { ThresholdSpec } from '../config/types.ts';
 import type { LeadWindow } from '../types.ts';
 import type { SkillGateResult, SkillSummary } from '../probability-types.ts';
-import { distinctYears, type LeadClimate } from './climate.ts';
+import { distinctYears } from './climate.ts';
+import type { LeadClimate } from './lead-climate.ts';
 import { leadLabel } from './lead-tiers.ts';
 import { yearBlockBootstrap, type BootstrapIntervals, type VerificationCases } from './bootstrap.ts';
 import { fairBrierScoreFerro2014, fairBrierSkillScore } from './fair-brier.ts';

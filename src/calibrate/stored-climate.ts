@@ -6,8 +6,19 @@
  */
 import { jsonShape, type ShapeCheck } from '../core/json-shape.ts';
 import { TIERS } from '../types.ts';
-import type { LeadClimate } from './climate.ts';
-import type { IndicatorClimate } from './model-climate.ts';
+import type { LeadClimate } from './lead-climate.ts';
+import type { Diagnostic } from '../core/diagnostics.ts';
+import type { SkillReport } from './skill.ts';
+import type { TunedTrigger } from './trigger-tuning.ts';
+
+export interface IndicatorClimate {
+  readonly hindcast: LeadClimate | null;
+  readonly observed: LeadClimate | null;
+  readonly skill: readonly SkillReport[];
+  /** Rule id → trigger tuned for its cost/loss ratio (maximum relative economic value, judged leave-one-year-out). */
+  readonly tuned: Readonly<Record<string, TunedTrigger>>;
+  readonly problems: readonly Diagnostic[];
+}
 
 export type StoredClimate = Omit<IndicatorClimate, 'hindcast' | 'observed'> & {
   region: string;

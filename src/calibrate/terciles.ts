@@ -13,7 +13,8 @@ import type { LeadWindow } from '../types.ts';
 import type { LeadProbability, TercileEdges, TercileOutlook, TercileSkill } from '../probability-types.ts';
 
 export type { TercileEdges, TercileOutlook, TercileSkill } from '../probability-types.ts';
-import { leadSample, yearMembers, type LeadClimate } from './climate.ts';
+import { leadSample, yearMembers } from './climate.ts';
+import type { LeadClimate } from './lead-climate.ts';
 import { rankedProbabilitySkill, rpssBootstrap, type CategoryCases } from './rpss.ts';
 
 export type TercileCategory = 'below' | 'near' | 'above';

@@ -22,7 +22,7 @@
  */
 import type { ClimateTrend, TrendFit } from '../probability-types.ts';
 import { studentTQuantile } from './student-t.ts';
-import type { LeadClimate } from './climate.ts';
+import type { LeadClimate } from './lead-climate.ts';
 
 export interface ClimateSlope {
   /** b applied: change per year, in the climate's units, common to every lead; 0 when `applied` is false. */

@@ -29,7 +29,8 @@ import {
   type WireRegionAnswer,
   type WireRegionJob,
 } from './region-jobs.ts';
-import { calibrateRegion as calibrateLocally, type RegionCalibrator, type RegionJob } from '../calibrate/region-calibration.ts';
+import type { RegionCalibrator, RegionJob } from '../calibrate/model-climate.ts';
+import { calibrateRegion as calibrateLocally } from '../calibrate/region-calibration.ts';
 import type { StoredClimate } from '../calibrate/stored-climate.ts';
 
 export interface ClusterClient {

@@ -6,7 +6,7 @@
  * it, so its id is the SHA-256 of its content.
  */
 import { createHash } from 'node:crypto';
-import type { RegionJob } from '../calibrate/region-calibration.ts';
+import type { RegionJob } from '../calibrate/model-climate.ts';
 import { calibrateRegion } from '../calibrate/region-calibration.ts';
 import { decode, encode } from '../calibrate/skill-cache.ts';
 import type { StartReduction } from '../calibrate/start-reduction.ts';

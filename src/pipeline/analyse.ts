@@ -6,8 +6,7 @@
 import type { Config } from '../config/types.ts';
 import { openChecksumMemo, type ChecksumMemo } from '../core/file-checksums.ts';
 import { combineOutcomes } from '../calibrate/combine-outcomes.ts';
-import { observedContext, type CalibrateContext } from '../calibrate/model-climate.ts';
-import type { RegionCalibrator } from '../calibrate/region-calibration.ts';
+import { observedContext, type CalibrateContext, type RegionCalibrator } from '../calibrate/model-climate.ts';
 import { cachedClimates } from '../calibrate/skill-cache.ts';
 import { forecastIndicators, forecastLeadOne, sourceProbabilities, type SourceOutcome } from '../calibrate/source-probabilities.ts';
 import { formatDiagnostic, uniqueDiagnostics, type Diagnostic } from '../core/diagnostics.ts';

@@ -5,7 +5,7 @@
  * write e.g. "time: maximum (interval: 6 hours)"), see daily.ts.
  */
 import type { VariableInfo } from './dataset.ts';
-import type { TimeAxis } from './time-axis.ts';
+import type { TimeAxis } from './time-axis-shape.ts';
 
 export interface CellMethod {
   readonly names: readonly string[];

@@ -11,7 +11,8 @@ import { attr, readBounds, readWhole } from './cf-variable.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { gribSelectionHint, looksLikeGrib } from './grib-convert.ts';
 import { requireIncreasingSteps, TimeMapper, type FileModelCalendar } from './coordinates-time.ts';
-import { findReference, findTime, type TimeAxis } from './time-axis.ts';
+import { findReference, findTime } from './time-axis.ts';
+import type { TimeAxis } from './time-axis-shape.ts';
 
 export interface LatLonGrid {
   readonly latName: string;

@@ -13,7 +13,7 @@
 import { InputError } from '../core/errors.ts';
 import { daysInCalendarMonth, toDayNumber } from '../core/calendar-days.ts';
 import { CfDateTime } from './cf-time.ts';
-import type { TimeAxis } from './time-axis.ts';
+import type { TimeAxis } from './time-axis-shape.ts';
 import type { VariableInfo } from './dataset.ts';
 import { detectMonths } from './monthly.ts';
 

@@ -11,19 +11,7 @@ import { durationUnitMs, TimeMapper } from './coordinates-time.ts';
 import type { Dataset, VariableInfo } from './dataset.ts';
 import { countsMonths, isMonthIndex, monthLeadAxis } from './lead-months.ts';
 import { detectMonths, type MonthSteps } from './monthly.ts';
-
-export interface TimeAxis {
-  /** The dimension that data variables use for time (absolute time or forecast lead). */
-  readonly dimension: string;
-  /** The coordinate variable read (e.g. `time`, `step`). */
-  readonly variable: string;
-  /** Valid time of each step, ms since 1970-01-01T00:00Z. */
-  readonly stampsMs: Float64Array;
-  /** `[n][2]` valid-time bounds in ms, or null. */
-  readonly boundsMs: Float64Array | null;
-  /** The model month of each step when the file holds one value per month (monthly.ts), else null. */
-  readonly months: MonthSteps | null;
-}
+import type { TimeAxis } from './time-axis-shape.ts';
 
 const LEAD_NAMES = ['step', 'forecast_period', 'lead_time', 'leadtime', 'lead'];
 const REFERENCE_NAMES = ['forecast_reference_time', 'reftime', 'reference_time'];

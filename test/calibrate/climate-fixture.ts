@@ -1,5 +1,5 @@
 /** Builders for invented hindcast/observation climates (Veloria sample world; no real data). */
-import type { LeadClimate } from '../../src/calibrate/climate.ts';
+import type { LeadClimate } from '../../src/calibrate/lead-climate.ts';
 import type { LeadWindow, Tier } from '../../src/types.ts';
 
 export function leadsOf(tier: Tier, n: number): LeadWindow[] {

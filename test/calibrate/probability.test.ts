@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { leadProbabilities, type ProbabilityRequest } from '../../src/calibrate/probability.ts';
 import type { LeadValues } from '../../src/calibrate/lead-tiers.ts';
-import type { LeadClimate } from '../../src/calibrate/climate.ts';
+import type { LeadClimate } from '../../src/calibrate/lead-climate.ts';
 import { climate, leadsOf, YEARS_2006_2025 } from './climate-fixture.ts';
 import { skillSummary } from '../support/skill-summary.ts';
 

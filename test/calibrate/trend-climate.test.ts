@@ -9,7 +9,7 @@
 import { execFileSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import type { LeadClimate } from '../../src/calibrate/climate.ts';
+import type { LeadClimate } from '../../src/calibrate/lead-climate.ts';
 import { climateSlope } from '../../src/calibrate/trend-climate.ts';
 import { climatePercentileThreshold, leaveOneYearOutThresholds } from '../../src/calibrate/thresholds.ts';
 import { leadProbabilities } from '../../src/calibrate/probability.ts';
