@@ -55,7 +55,8 @@ export function climateSlope(c: LeadClimate, excludeYear?: number): ClimateSlope
   const known = memo.get(c)?.get(key);
   if (known) return known;
   const nLeads = c.leads.length;
-  const perYear = c.years.map(() => ({ sum: 0, n: 0 }));
+  // Keyed by the year itself: starts pooled within a window repeat a year (lead-climate.ts) and share its weather.
+  const perYear = new Map<number, { sum: number; n: number }>();
   let num = 0;
   let den = 0;
   for (let l = 0; l < nLeads; l++) {
@@ -77,12 +78,13 @@ export function climateSlope(c: LeadClimate, excludeYear?: number): ClimateSlope
     each((y, v) => {
       num += (c.years[y] - mx) * (v - my);
       den += (c.years[y] - mx) ** 2;
-      perYear[y].sum += v - my;
-      perYear[y].n += 1;
+      const year = perYear.get(c.years[y]) ?? perYear.set(c.years[y], { sum: 0, n: 0 }).get(c.years[y])!;
+      year.sum += v - my;
+      year.n += 1;
     });
   }
   const fitted = den === 0 ? 0 : num / den;
-  const { standardError, years } = yearMeanError(perYear.flatMap((p, y) => (p.n > 0 ? [[c.years[y], p.sum / p.n]] : [])));
+  const { standardError, years } = yearMeanError([...perYear].map(([year, p]) => [year, p.sum / p.n]));
   const criticalT = years >= 3 ? studentTQuantile(0.95, years - 2) : Number.NaN;
   const applied = years >= 3 && Math.abs(fitted) > criticalT * standardError;
   const result = { slope: applied ? fitted : 0, fitted, standardError, criticalT, applied, years };

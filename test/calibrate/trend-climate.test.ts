@@ -195,6 +195,24 @@ describe('a trend is applied only when the data tell it from zero (two-sided 90 
     expect(leaveOneYearOutThresholds(c, 1, 90)).toEqual(leaveOneYearOutThresholds(raw(c), 1, 90));
   });
 
+  it('two starts of each year pooled (a window of starts): the test still counts 20 years, not 40 entries', () => {
+    const one = invented(13, 0, 0.5, 1);
+    const perYear = one.members * LEADS;
+    const twice: LeadClimate = {
+      ...one,
+      years: one.years.flatMap((y) => [y, y]),
+      values: Float64Array.from(
+        one.years.flatMap((_, y) => [0, 1].flatMap(() => Array.from(one.values.subarray(y * perYear, (y + 1) * perYear)))),
+      ),
+    };
+    const [a, b] = [climateSlope(one), climateSlope(twice)];
+    expect(b.years).toBe(20);
+    expect(b.criticalT).toBe(a.criticalT);
+    expect(b.fitted).toBeCloseTo(a.fitted, 12);
+    expect(b.standardError).toBeCloseTo(a.standardError, 12);
+    expect(b.applied).toBe(false);
+  });
+
   it('over 400 pure-noise climates the trend is applied in about 10 % (binomial 400 × 0.1: 40 ± 6, 3 sd)', () => {
     const applied = Array.from({ length: 400 }, (_, i) => climateSlope(invented(1000 + i, 0, 0.5, 1)).applied).filter(Boolean).length;
     expect(applied).toBeGreaterThanOrEqual(22);
