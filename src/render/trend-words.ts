@@ -36,14 +36,17 @@ export function trendLine(t: Translate, locale: string, probabilities: readonly 
   // No trend told from zero (calibrate/trend-climate.ts): the climate is used as it is, and the note says so.
   if (modelUsed.length === 0 && observedUsed.length === 0)
     return t('method.noTrend', { ...years, model: rates(model), observed: rates(observed) });
-  // The normal-year rate is the observed frequency where observations exist, so their trend names the direction.
-  const lead = observedUsed.length > 0 ? observedUsed : modelUsed;
-  const mean = lead.reduce((a, b) => a + b.perDecade, 0) / lead.length;
+  // Named only when every applied fit, past forecasts and observations alike, points the same way: a "warming"
+  // beside a falling rate would contradict itself. "Warming/cooling" only for temperatures; other units rise or fall.
+  const used = [...modelUsed, ...observedUsed];
+  const sign = used.every((f) => f.perDecade > 0) ? 1 : used.every((f) => f.perDecade < 0) ? -1 : 0;
+  const temperature = /^(degC|K)(2|\^2)?$/.test(first.units);
+  const direction = sign === 0 ? 'mixed' : temperature ? (sign > 0 ? 'warming' : 'cooling') : sign > 0 ? 'rising' : 'falling';
   const unclear = (all: readonly TrendFit[], used: readonly TrendFit[]) => all.length > 0 && used.length === 0;
   return t('method.trend', {
     ...years,
     year: first.onYear,
-    direction: mean > 0 ? 'warming' : mean < 0 ? 'cooling' : 'flat',
+    direction,
     model: rates(modelUsed),
     observed: rates(observedUsed),
     unclear: unclear(model, modelUsed) ? 'model' : unclear(observed, observedUsed) ? 'observed' : 'none',

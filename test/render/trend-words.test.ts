@@ -32,3 +32,30 @@ describe('trendLine', () => {
     expect(fr).toMatch(/tendance au réchauffement.*les observations ne montrent pas de tendance nette/);
   });
 });
+
+describe('trendLine never names one direction beside rates of the other sign, and says "rising" for non-temperatures', () => {
+  it('past forecasts cooling, observations warming, both applied: no single direction word (en, fr)', () => {
+    const rows = [lead(fit(-0.3, true), fit(0.4, true))];
+    const en = trendLine(env.t('en'), 'en', rows)!;
+    expect(en).toMatch(/allowing for the trends \(past forecasts and observations differ in sign\) of the past 20 years/);
+    expect(en).not.toMatch(/warming|cooling/);
+    const fr = trendLine(env.t('fr'), 'fr', rows)!;
+    expect(fr).toMatch(/de signe différent entre prévisions rétrospectives et observations/);
+    expect(fr).not.toMatch(/réchauffement|refroidissement/);
+  });
+
+  it('an indicator in % with a trend told from zero rises, it does not warm', () => {
+    const pct = { climateTrend: { onYear: 2026, firstYear: 2006, lastYear: 2025, hindcast: fit(2, true), observed: null, units: '%' } };
+    const en = trendLine(env.t('en'), 'en', [pct as unknown as LeadProbability])!;
+    expect(en).toMatch(/allowing for the rising trend/);
+    expect(trendLine(env.t('fr'), 'fr', [pct as unknown as LeadProbability])).toMatch(/tendance à la hausse/);
+  });
+
+  it('no fit at all in past forecasts: the note says too few years, never "fitted none"', () => {
+    const none = { climateTrend: { onYear: 2026, firstYear: 2025, lastYear: 2025, hindcast: null, observed: null, units: 'degC' } };
+    const en = trendLine(env.t('en'), 'en', [none as unknown as LeadProbability])!;
+    expect(en).toMatch(/\(too few years to fit a trend to past forecasts, not told apart/);
+    expect(trendLine(env.t('fr'), 'fr', [none as unknown as LeadProbability])).toMatch(/trop peu d'années pour ajuster/);
+    expect(en).not.toMatch(/none/);
+  });
+});
