@@ -7,17 +7,15 @@
  * from 26 November), calibrated on hindcasts of the same model months; malaria suitability's month leads too.
  */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readdirSync, readFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
-import { silentLogger } from '../../src/core/log.ts';
-import { runContext } from '../../src/core/run-context.ts';
-import { runOnce } from '../../src/pipeline/run-once.ts';
+import type { RunOutcome } from '../../src/pipeline/run-once.ts';
 import { generateSample } from '../../src/sample/generate.ts';
-import { onSample, outputsIn } from '../support/sample-run-config.ts';
+import { exerciseRun, onSample, outputsIn } from '../support/sample-run-config.ts';
 
 const ISSUE = '2026-11-26';
 const DAY_MS = 86_400_000;
@@ -44,7 +42,7 @@ interface Probability {
   calibrated: boolean;
 }
 let config: Config;
-let outcome: Awaited<ReturnType<typeof runOnce>>;
+let outcome: RunOutcome;
 let runJson: { notes: string[]; regions: { id: string; tiers: { probabilities: Probability[] }[] }[] };
 
 beforeAll(async () => {
@@ -62,14 +60,7 @@ beforeAll(async () => {
     execFileSync('ncatted', ['-O', '-a', 'calendar,time,o,c,360_day', '-a', 'calendar,forecast_reference_time,o,c,360_day', f]);
   const base = await loadConfig();
   config = outputsIn(onSample(base, data), dir);
-  outcome = await runOnce({
-    config,
-    run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }),
-    mode: 'exercise',
-  });
-  const archive = config.delivery.archive;
-  const path = readdirSync(archive, { recursive: true, encoding: 'utf8' }).find((f) => f.endsWith('run.json'))!;
-  runJson = JSON.parse(readFileSync(join(archive, path), 'utf8'));
+  ({ outcome, runJson } = await exerciseRun<typeof runJson>(config, ISSUE));
 }, 600_000);
 
 describe('a run whose seasonal model runs in the 360_day calendar', () => {

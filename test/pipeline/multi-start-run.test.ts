@@ -7,18 +7,16 @@
  * forecast 50).
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../src/config/load-config.ts';
 import type { Config } from '../../src/config/types.ts';
-import { silentLogger } from '../../src/core/log.ts';
-import { runContext } from '../../src/core/run-context.ts';
-import { runOnce } from '../../src/pipeline/run-once.ts';
 import { listHindcasts } from '../../src/pipeline/hindcast-list.ts';
 import { generateSample } from '../../src/sample/generate.ts';
+import { exerciseRun } from '../support/sample-run-config.ts';
 
 const ISSUE = '2026-11-26';
 const tmp = mkdtempSync(join(tmpdir(), 'forelight-multistart-run-'));
@@ -80,15 +78,7 @@ interface RunJson {
 }
 
 async function runJsonOf(config: Config): Promise<RunJson> {
-  await runOnce({
-    config,
-    run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }),
-    mode: 'exercise',
-  });
-  const archive = config.delivery.archive;
-  const file = readdirSync(archive, { recursive: true, encoding: 'utf8' }).find((f) => f.endsWith('run.json'));
-  expect(file && existsSync(join(archive, file))).toBeTruthy();
-  return JSON.parse(readFileSync(join(archive, file!), 'utf8')) as RunJson;
+  return (await exerciseRun<RunJson>(config, ISSUE)).runJson;
 }
 
 describe('forelight run with the short-range hindcasts in one file of all starts', () => {

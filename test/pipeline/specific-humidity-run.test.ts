@@ -19,10 +19,9 @@ import { regionIndicator } from '../../src/calibrate/region-indicator.ts';
 import { loadConfig } from '../../src/config/load-config.ts';
 import { readRegions } from '../../src/config/region-views.ts';
 import type { Config } from '../../src/config/types.ts';
-import { silentLogger } from '../../src/core/log.ts';
-import { runContext } from '../../src/core/run-context.ts';
 import { readFile } from '../../src/pipeline/read-file.ts';
-import { runOnce } from '../../src/pipeline/run-once.ts';
+import type { RunOutcome } from '../../src/pipeline/run-once.ts';
+import { exerciseRun } from '../support/sample-run-config.ts';
 import { extractRegionSeries } from '../../src/read/extract.ts';
 import { generateSample } from '../../src/sample/generate.ts';
 
@@ -33,7 +32,7 @@ const dir = mkdtempSync(join(tmpdir(), 'forelight-q-run-'));
 const SHORT_VARIABLES = '{ tmax: tasmax, tmin: tasmin, dewpoint: tdps, precip: pr }';
 
 let config: Config;
-let outcome: Awaited<ReturnType<typeof runOnce>>;
+let outcome: RunOutcome;
 let runJson: {
   notes: string[];
   regions: { id: string; tiers: { indicator: { id: string }; probabilities: Probability[] }[] }[];
@@ -65,14 +64,7 @@ beforeAll(async () => {
     .replace('templates: ../templates', `templates: ${join(ROOT, 'templates')}`);
   writeFileSync(join(dir, 'config', 'forelight.yaml'), copy);
   config = await loadConfig(join(dir, 'config', 'forelight.yaml'));
-  outcome = await runOnce({
-    config,
-    run: runContext({ log: silentLogger, issueDate: ISSUE, now: () => new Date(`${ISSUE}T07:30:00Z`) }),
-    mode: 'exercise',
-  });
-  const archive = config.delivery.archive;
-  const path = readdirSync(archive, { recursive: true, encoding: 'utf8' }).find((f) => f.endsWith('run.json'))!;
-  runJson = JSON.parse(readFileSync(join(archive, path), 'utf8'));
+  ({ outcome, runJson } = await exerciseRun<typeof runJson>(config, ISSUE));
 }, 600_000);
 
 describe('a run whose humidity is specific humidity with surface pressure', () => {
